@@ -1,0 +1,20 @@
+import { defineConfig } from 'vite';
+
+// Dependencies are pre-bundled up front. If Vite discovered one of these only
+// when a browser test imported it, it would re-optimize and reload the page in
+// the middle of the test run. Add every package the app or tests import here.
+const prebundled = ['mathjs', 'lit', 'idb-keyval', 'fast-check', 'chai'];
+
+export default defineConfig({
+  root: '.',
+  optimizeDeps: {
+    include: prebundled,
+    // Let the dependency scanner also crawl the browser tests, so a package
+    // missing from the list above is still found before the first request.
+    entries: ['index.html', 'test/browser/**/*.test.ts'],
+  },
+  build: {
+    outDir: 'dist',
+    emptyOutDir: true,
+  },
+});
