@@ -1,0 +1,119 @@
+/**
+ * Expression fields of a cell: parsing (cached by text, so an unchanged field costs a map
+ * look-up on every edit), the names a field reads, and evaluation against the graph.
+ */
+import { parseExpression, type ParseResult } from '../expression/parse.ts';
+import { symbolsOf, type Expr } from '../expression/ast.ts';
+import { evaluateExpression, type Lookup } from '../expression/evaluate.ts';
+import { literalOf, type Literal } from '../expression/literal.ts';
+import type { CellError, RunContext, Use } from '../node.ts';
+import type { Quantity } from '../quantity.ts';
+import { describe, plain } from '../quantity.ts';
+import { TIME } from '../dimension.ts';
+import type { DisplayUnit } from '../units.ts';
+
+export interface Field {
+  readonly path: string;
+  readonly text: string;
+  readonly expr: Expr;
+}
+
+const CACHE_LIMIT = 5000;
+const cache = new Map<string, ParseResult>();
+
+/** parseExpression with a bounded cache keyed by the text. */
+export function parseCached(text: string): ParseResult {
+  let r = cache.get(text);
+  if (!r) {
+    r = parseExpression(text);
+    if (cache.size >= CACHE_LIMIT) cache.delete(cache.keys().next().value!);
+    cache.set(text, r);
+  }
+  return r;
+}
+
+/** Parses the expression at `path`; on failure records a problem and returns undefined. */
+export function field(value: unknown, path: string, problems: CellError[]): Field | undefined {
+  if (typeof value !== 'string') {
+    problems.push({ path, message: value === undefined ? 'is missing' : 'must be an expression written as text' });
+    return undefined;
+  }
+  const r = parseCached(value);
+  if (!r.ok) {
+    problems.push({ path, message: `${label(path)} ${r.error.message}`, ...(r.error.span ? { span: r.error.span } : {}) });
+    return undefined;
+  }
+  return { path, text: value, expr: r.expr };
+}
+
+/** The names the fields read (units and constants too: the graph sorts them out). */
+export function usesOf(fields: ReadonlyArray<Field | undefined>): Use[] {
+  const uses: Use[] = [];
+  for (const f of fields) {
+    if (!f) continue;
+    for (const name of symbolsOf(f.expr)) uses.push({ name, path: f.path, text: f.text });
+  }
+  return uses;
+}
+
+/** A short label for a field path in messages: `cells[0].items[1].value` -> `value`. */
+export function label(path: string): string {
+  const m = /\.([A-Za-z]+)(\[\d+\])?$/.exec(path);
+  return m ? m[1] : 'the expression';
+}
+
+/** The graph's values as an expression lookup; states read as their initial values. */
+export function lookupFrom(ctx: RunContext, extra?: ReadonlyMap<string, Quantity>): Lookup {
+  return (name) => {
+    const x = extra?.get(name);
+    if (x) return x;
+    const b = ctx.binding(name);
+    if (b?.kind === 'value' || b?.kind === 'state') return b.q;
+    return undefined;
+  };
+}
+
+/** The time `t` while a law is checked: the start of a run. */
+export const TIME_ZERO: Quantity = { ...plain(0), dim: TIME, unit: [['s', 1]] };
+
+export class FieldError extends Error {
+  constructor(readonly error: CellError) {
+    super(error.message);
+  }
+}
+
+/** Evaluates a field to a quantity, or throws FieldError with a message on the field. */
+export function quantityOf(f: Field, lookup: Lookup): Quantity {
+  const r = evaluateExpression(f.expr, lookup);
+  if (!r.ok) {
+    const span = r.error.token ? findToken(f.text, r.error.token) : undefined;
+    throw new FieldError({ path: f.path, message: `${label(f.path)}: ${r.error.message}`, ...(span ? { span } : {}) });
+  }
+  if (typeof r.value === 'boolean') {
+    throw new FieldError({ path: f.path, message: `${label(f.path)} gives true/false; it must give a quantity` });
+  }
+  return r.value;
+}
+
+/** Like quantityOf, and the value must be a finite number. */
+export function finiteQuantityOf(f: Field, lookup: Lookup): Quantity {
+  const q = quantityOf(f, lookup);
+  if (!Number.isFinite(q.si)) {
+    const why = Number.isNaN(q.si) ? 'is not a number (a logarithm or square root of a negative value?)' : 'is infinite (a division by zero?)';
+    throw new FieldError({ path: f.path, message: `${label(f.path)} ${why}: ${describe(q)}` });
+  }
+  return q;
+}
+
+/** A unit field ("mg / L"): numbers and units only, no study names. */
+export function unitOf(f: Field): DisplayUnit {
+  const lit: Literal | null = literalOf(f.expr, () => false, new WeakMap());
+  if (!lit || lit.unit.length === 0) throw new FieldError({ path: f.path, message: `unit "${f.text}" is not a unit: write one such as degC, mg / L or 1 / h` });
+  if (lit.coef !== 1) throw new FieldError({ path: f.path, message: `unit "${f.text}" must be a unit without a number, such as mg / L` });
+  return lit.unit;
+}
+
+function findToken(text: string, token: string): readonly [number, number] | undefined {
+  const m = new RegExp(`(?<![A-Za-z0-9_])${token.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}(?![A-Za-z0-9_])`).exec(text);
+  return m ? [m.index, m.index + token.length] : undefined;
+}

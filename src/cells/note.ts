@@ -1,0 +1,18 @@
+/** A note cell: text only. It defines and reads nothing; its text is never run or rendered as HTML. */
+import type { NoteCell } from '../study/types.ts';
+import type { GraphNode } from '../node.ts';
+
+export function noteNodes(cell: NoteCell, at: string): GraphNode[] {
+  const problems = typeof cell.text === 'string' ? [] : [{ path: `${at}.text`, message: 'text must be text' }];
+  return [{
+    key: `${cell.id}/note`,
+    cell: cell.id,
+    defines: [],
+    uses: [],
+    allowsTime: false,
+    allowsStates: false,
+    signature: JSON.stringify(cell.text ?? null),
+    problems,
+    run: () => ({ ok: true, bindings: new Map(), output: {} }),
+  }];
+}

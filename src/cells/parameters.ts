@@ -1,0 +1,54 @@
+/** A parameters cell: one graph node per parameter, so that editing one re-runs only its users. */
+import type { ParametersCell } from '../study/types.ts';
+import type { Binding, CellError, GraphNode, Outcome } from '../node.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
+import { report, describe, valueIn, shownUnit } from '../quantity.ts';
+import { formatUnit } from '../units.ts';
+import { sameDim, describeDim } from '../dimension.ts';
+import { quantitySig } from './signatures.ts';
+
+export function parameterNodes(cell: ParametersCell, at: string): GraphNode[] {
+  const items = Array.isArray(cell.items) ? cell.items : [];
+  return items.map((item, j) => {
+    const path = `${at}.items[${j}]`;
+    const problems: CellError[] = [];
+    const name = typeof item?.name === 'string' ? item.name : '';
+    const value = field(item?.value, `${path}.value`, problems);
+    const range = Array.isArray(item?.range) ? item.range.map((r, i) => field(r, `${path}.range[${i}]`, problems)) : [];
+    return {
+      key: `${cell.id}/${j}`,
+      cell: cell.id,
+      defines: name ? [{ name, path: `${path}.name` }] : [],
+      uses: usesOf([value, ...range]),
+      allowsTime: false,
+      allowsStates: false,
+      signature: JSON.stringify(item ?? null),
+      problems,
+      run: (ctx) => runParameter(name, value!, range, ctx),
+    } satisfies GraphNode;
+  });
+}
+
+function runParameter(name: string, value: Field, range: ReadonlyArray<Field | undefined>, ctx: Parameters<GraphNode['run']>[0]): Outcome {
+  try {
+    const lookup = lookupFrom(ctx);
+    const q = finiteQuantityOf(value, lookup);
+    const entry: Record<string, unknown> = { ...report(q) };
+    if (range.length === 2) {
+      const [lo, hi] = range.map((f) => finiteQuantityOf(f!, lookup));
+      for (const [bound, f] of [[lo, range[0]!], [hi, range[1]!]] as const) {
+        if (!sameDim(bound.dim, q.dim)) {
+          throw new FieldError({ path: f.path, message: `range of ${name} must be ${describeDim(q.dim)} like its value; it is ${describeDim(bound.dim)} (${describe(bound)})` });
+        }
+      }
+      if (!(lo.si < hi.si)) throw new FieldError({ path: range[0]!.path, message: `range of ${name}: the low end (${describe(lo)}) must be below the high end (${describe(hi)})` });
+      const unit = shownUnit(q);
+      entry.range = [lo, hi].map((b) => ({ value: valueIn(b, unit), unit: formatUnit(unit), si: b.si }));
+    }
+    const binding: Binding = { kind: 'value', q, sig: quantitySig(q) };
+    return { ok: true, bindings: new Map([[name, binding]]), output: { values: { [name]: entry } } };
+  } catch (err) {
+    if (err instanceof FieldError) return { ok: false, error: err.error };
+    throw err;
+  }
+}

@@ -1,0 +1,102 @@
+/**
+ * Cells whose computation is not in this version yet (phase, simulate, data, fit, nca).
+ * Their fields are read and checked (shape, expression syntax, names, references to other
+ * cells), their names are declared so that the graph is complete, and their report says
+ * plainly that nothing was computed. Downstream readers of their names wait on them.
+ */
+import type { Cell, CellKind } from '../study/types.ts';
+import type { CellError, Definition, GraphNode, Use } from '../node.ts';
+import { cellRef } from '../node.ts';
+import { type Field, field, usesOf } from './fields.ts';
+
+const WHAT: Partial<Record<CellKind, string>> = {
+  phase: 'the equilibria and the phase line',
+  simulate: 'the simulation',
+  data: 'the measurements table',
+  fit: 'the fit',
+  nca: 'the non-compartmental analysis',
+};
+
+export function pendingNodes(cell: Cell, at: string): GraphNode[] {
+  const problems: CellError[] = [];
+  const c = cell as unknown as Record<string, any>;
+  const fields: Array<Field | undefined> = [];
+  const refs: Use[] = [];
+  const defines: Definition[] = [];
+  const expr = (v: unknown, path: string) => { if (v !== undefined) fields.push(field(v, path, problems)); };
+  const ref = (id: unknown, path: string) => { if (typeof id === 'string') refs.push({ name: cellRef(id), path }); };
+  const list = (v: unknown): any[] => (Array.isArray(v) ? v : []);
+  const obj = (v: unknown): Record<string, unknown> => (v && typeof v === 'object' && !Array.isArray(v) ? (v as Record<string, unknown>) : {});
+
+  switch (cell.kind) {
+    case 'phase':
+      ref(c.rate, `${at}.rate`);
+      expr(c.from, `${at}.from`);
+      expr(c.to, `${at}.to`);
+      if (c.sweep) {
+        expr(c.sweep.from, `${at}.sweep.from`);
+        expr(c.sweep.to, `${at}.sweep.to`);
+        if (typeof c.sweep.name === 'string') refs.push({ name: c.sweep.name, path: `${at}.sweep.name` });
+      }
+      break;
+    case 'simulate':
+      list(c.rates).forEach((r, i) => ref(r, `${at}.rates[${i}]`));
+      expr(c.from, `${at}.from`);
+      expr(c.to, `${at}.to`);
+      expr(c.step, `${at}.step`);
+      expr(obj(c.tolerance).absolute, `${at}.tolerance.absolute`);
+      list(c.events).forEach((e, i) => {
+        const p = `${at}.events[${i}]`;
+        for (const k of ['at', 'every', 'for']) expr(obj(e)[k], `${p}.${k}`);
+        for (const action of ['add', 'set', 'infuse']) {
+          for (const [name, v] of Object.entries(obj(obj(e)[action]))) {
+            refs.push({ name, path: `${p}.${action}` });
+            expr(v, `${p}.${action}.${name}`);
+          }
+        }
+      });
+      list(c.find).forEach((f, i) => {
+        const p = `${at}.find[${i}]`;
+        for (const k of ['level', 'at', 'from', 'to']) expr(obj(f)[k], `${p}.${k}`);
+        if (typeof obj(f).name === 'string') defines.push({ name: f.name, path: `${p}.name` });
+      });
+      break;
+    case 'data':
+      defines.push({ name: cellRef(cell.id), path: `${at}.id` });
+      list(c.columns).forEach((col, i) => expr(obj(col).unit, `${at}.columns[${i}].unit`));
+      break;
+    case 'fit':
+      list(c.rates).forEach((r, i) => ref(r, `${at}.rates[${i}]`));
+      ref(c.data, `${at}.data`);
+      list(c.estimate).forEach((e, i) => {
+        const p = `${at}.estimate[${i}]`;
+        for (const k of ['guess', 'min', 'max']) expr(obj(e)[k], `${p}.${k}`);
+        if (typeof obj(e).as === 'string') defines.push({ name: e.as, path: `${p}.as` });
+      });
+      break;
+    case 'nca': {
+      ref(c.data, `${at}.data`);
+      expr(c.dose, `${at}.dose`);
+      expr(c.duration, `${at}.duration`);
+      const prefix = typeof c.prefix === 'string' ? c.prefix : '';
+      for (const n of NCA_NAMES) defines.push({ name: `${prefix}${n}`, path: `${at}.prefix` });
+      break;
+    }
+  }
+  const message = `${WHAT[cell.kind] ?? 'this cell'} is not computed in this version of Ratebook yet`;
+  return [{
+    key: `${cell.id}/${cell.kind}`,
+    cell: cell.id,
+    defines,
+    uses: [...usesOf(fields), ...refs],
+    allowsTime: cell.kind === 'simulate',
+    allowsStates: true,
+    pullsCoupledLaws: cell.kind === 'simulate' || cell.kind === 'fit',
+    signature: JSON.stringify(cell),
+    problems,
+    run: () => ({ ok: true, bindings: new Map(), output: { computed: false, message } }),
+  }];
+}
+
+/** The names an nca cell defines, before its prefix (the study-format contract). */
+export const NCA_NAMES = ['Cmax', 'tmax', 'Clast', 'tlast', 'AUClast', 'AUCinf', 'AUCextrap', 'lambda_z', 't_half', 'CL', 'Vz', 'AUMClast', 'MRT', 'r2adj'];

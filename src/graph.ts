@@ -1,0 +1,207 @@
+/**
+ * The dependency graph of a study: who defines each name, what each node reads, the order
+ * to run nodes in, and the problems that are known before anything runs (unknown names,
+ * duplicate names, cycles, a state or `t` used where it has no meaning).
+ *
+ * Built afresh from the node list on every edit: linear in nodes plus uses, a few
+ * microseconds for a 50-cell study. What is expensive (parsing, running) is cached elsewhere.
+ */
+import type { CellError, GraphNode } from './node.ts';
+import { lookupUnit } from './units.ts';
+import { isConstantName } from './expression/constants.ts';
+import { nearest } from './suggest.ts';
+
+/** Where a used name comes from. */
+export type Source = { readonly node: string } | { readonly builtin: 'time' | 'constant' | 'unit' };
+
+export interface Graph {
+  readonly nodes: ReadonlyMap<string, GraphNode>;
+  /** Node keys in a valid run order (nodes in a cycle are at the end). */
+  readonly order: readonly string[];
+  readonly definers: ReadonlyMap<string, string>;
+  /** For each node, each name it reads and where that comes from (unresolved names are absent). */
+  readonly sources: ReadonlyMap<string, ReadonlyMap<string, Source>>;
+  /** Problems known before running, per node key. */
+  readonly problems: ReadonlyMap<string, CellError>;
+  readonly warnings: readonly string[];
+}
+
+export function buildGraph(list: readonly GraphNode[], cellPaths: ReadonlyMap<string, string>): Graph {
+  const nodes = new Map(list.map((n) => [n.key, n]));
+  const definers = new Map<string, string>();
+  const definedAt = new Map<string, string>();
+  const problems = new Map<string, CellError>();
+  const warnings: string[] = [];
+  const flag = (key: string, e: CellError) => { if (!problems.has(key)) problems.set(key, e); };
+
+  for (const n of list) {
+    if (n.problems.length) flag(n.key, n.problems[0]);
+    for (const d of n.defines) {
+      const first = definers.get(d.name);
+      if (first !== undefined) {
+        const what = d.name.startsWith('#') ? `the cell id "${d.name.slice(1)}"` : `"${d.name}"`;
+        flag(n.key, { message: `${what} is already defined in cell "${nodes.get(first)!.cell}" (${definedAt.get(d.name)})`, path: d.path });
+        continue;
+      }
+      if (d.name === 't') {
+        flag(n.key, { message: '"t" is time and cannot be defined: choose another name', path: d.path });
+        continue;
+      }
+      definers.set(d.name, n.key);
+      definedAt.set(d.name, d.path);
+      if (!d.name.startsWith('#')) {
+        const unit = lookupUnit(d.name);
+        if (unit) warnings.push(`the name "${d.name}" (${d.path}) hides the unit ${d.name}; in this study ${d.name} means the value defined there`);
+        else if (isConstantName(d.name)) warnings.push(`the name "${d.name}" (${d.path}) hides the constant ${d.name}`);
+      }
+    }
+  }
+
+  const lawOf = (state: string): string | undefined => {
+    const key = definers.get(state);
+    const n = key ? nodes.get(key) : undefined;
+    return n?.role === 'state' ? `#${n.cell}` : undefined;
+  };
+
+  const sources = new Map<string, Map<string, Source>>();
+  for (const n of list) {
+    const src = new Map<string, Source>();
+    sources.set(n.key, src);
+    const uses = [...n.uses];
+    if (n.pullsCoupledLaws) uses.push(...coupledLaws(n, nodes, definers, lawOf));
+    for (const u of uses) {
+      if (src.has(u.name)) continue;
+      const def = definers.get(u.name);
+      if (def !== undefined) {
+        const target = nodes.get(def)!;
+        if (target.role === 'state' && !n.allowsStates) {
+          flag(n.key, { message: `"${u.name}" is the state of rate cell "${target.cell}": it changes with time, so it can be used only in rate laws and schedules`, path: u.path, ...span(u) });
+        }
+        src.set(u.name, { node: def });
+      } else if (u.name === 't' && n.allowsTime) {
+        src.set(u.name, { builtin: 'time' });
+      } else if (u.name === 't') {
+        flag(n.key, { message: '"t" is time and can be used only in rate laws and schedules (for metric tons write "tonne")', path: u.path, ...span(u) });
+      } else if (u.name.startsWith('#')) {
+        const ids = [...definers.keys()].filter((k) => k.startsWith('#')).map((k) => k.slice(1));
+        const hint = nearest(u.name.slice(1), ids);
+        flag(n.key, { message: `there is no cell "${u.name.slice(1)}"${hint ? ` (did you mean "${hint}"?)` : ''}`, path: u.path });
+      } else if (isConstantName(u.name)) {
+        src.set(u.name, { builtin: 'constant' });
+      } else if (lookupUnit(u.name)) {
+        src.set(u.name, { builtin: 'unit' });
+      } else {
+        const names = [...definers.keys()].filter((k) => !k.startsWith('#'));
+        const hint = nearest(u.name, n.allowsTime ? [...names, 't'] : names);
+        flag(n.key, { message: `unknown name "${u.name}"${hint ? ` (did you mean "${hint}"?)` : ''}`, path: u.path, ...span(u) });
+      }
+    }
+  }
+
+  const { order, cycles } = orderNodes(list, sources);
+  for (const [key, path] of cycles) {
+    const n = nodes.get(key)!;
+    flag(key, { message: `circular definition: ${path}`, path: n.defines[0]?.path ?? cellPaths.get(n.cell) ?? '' });
+  }
+  return { nodes, order, definers, sources, problems, warnings };
+}
+
+function span(u: { name: string; text?: string }): { span?: readonly [number, number] } {
+  if (!u.text) return {};
+  const m = new RegExp(`(?<![A-Za-z0-9_])${u.name}(?![A-Za-z0-9_])`).exec(u.text);
+  return m ? { span: [m.index, m.index + u.name.length] } : {};
+}
+
+/** The laws reachable from the laws n names, through the states those laws read. */
+function coupledLaws(n: GraphNode, nodes: Map<string, GraphNode>, definers: Map<string, string>, lawOf: (s: string) => string | undefined) {
+  const seen = new Set(n.uses.filter((u) => u.name.startsWith('#')).map((u) => u.name));
+  const queue = [...seen];
+  const extra: Array<{ name: string; path: string }> = [];
+  while (queue.length) {
+    const law = nodes.get(definers.get(queue.pop()!) ?? '');
+    if (law?.role !== 'law') continue;
+    for (const s of law.couples ?? []) {
+      const ref = lawOf(s);
+      if (ref && !seen.has(ref)) {
+        seen.add(ref);
+        queue.push(ref);
+        extra.push({ name: ref, path: law.uses.find((u) => u.name === s)?.path ?? '' });
+      }
+    }
+  }
+  return extra;
+}
+
+/**
+ * Kahn's algorithm, taking ready nodes in document order; what is left over lies on or
+ * behind a cycle. Each node on a cycle gets the cycle written out as names: `k -> V -> k`.
+ */
+function orderNodes(list: readonly GraphNode[], sources: Map<string, Map<string, Source>>) {
+  const index = new Map(list.map((n, i) => [n.key, i]));
+  const deps = new Map<string, string[]>();
+  const users = new Map<string, string[]>();
+  for (const n of list) {
+    const ds = [...new Set([...sources.get(n.key)!.values()].flatMap((s) => ('node' in s ? [s.node] : [])))];
+    deps.set(n.key, ds);
+    for (const d of ds) users.set(d, [...(users.get(d) ?? []), n.key]);
+  }
+  const pending = new Map(list.map((n) => [n.key, deps.get(n.key)!.length]));
+  const ready = list.filter((n) => pending.get(n.key) === 0).map((n) => n.key);
+  const order: string[] = [];
+  while (ready.length) {
+    ready.sort((a, b) => index.get(a)! - index.get(b)!);
+    const k = ready.shift()!;
+    order.push(k);
+    for (const u of users.get(k) ?? []) {
+      const left = pending.get(u)! - 1;
+      pending.set(u, left);
+      if (left === 0) ready.push(u);
+    }
+  }
+  const cycles = new Map<string, string>();
+  if (order.length < list.length) {
+    const done = new Set(order);
+    const left = list.filter((n) => !done.has(n.key));
+    for (const n of left) {
+      const path = cyclePath(n.key, deps, sources, new Set(left.map((x) => x.key)));
+      if (path) cycles.set(n.key, path);
+    }
+    order.push(...left.map((n) => n.key));
+  }
+  return { order, cycles };
+}
+
+/** The shortest cycle through `start`, written as the names read along it; undefined if none. */
+function cyclePath(start: string, deps: Map<string, string[]>, sources: Map<string, Map<string, Source>>, within: Set<string>): string | undefined {
+  const back = new Map<string, string>();
+  const queue = [start];
+  const seen = new Set([start]);
+  while (queue.length) {
+    const k = queue.shift()!;
+    for (const d of deps.get(k) ?? []) {
+      if (!within.has(d)) continue;
+      if (d === start) {
+        const keys = [start];
+        for (let x = k; x !== start; x = back.get(x)!) keys.splice(1, 0, x);
+        keys.push(start);
+        const names = keys.map((key, i) => readName(i === 0 ? keys[keys.length - 2] : keys[i - 1], key, sources));
+        return names.join(' -> ');
+      }
+      if (!seen.has(d)) {
+        seen.add(d);
+        back.set(d, k);
+        queue.push(d);
+      }
+    }
+  }
+  return undefined;
+}
+
+function readName(reader: string, definer: string, sources: Map<string, Map<string, Source>>): string {
+  for (const [name, s] of sources.get(reader)!) if ('node' in s && s.node === definer) return show(name);
+  return definer;
+}
+
+function show(name: string): string {
+  return name.startsWith('#') ? `cell "${name.slice(1)}"` : name;
+}

@@ -1,0 +1,13 @@
+/** Ratebook's engine: the public surface. Pure TypeScript; runs in the browser and in Node. */
+export { openStudy, StudySession, type Edit, type EditResult, type OpenResult, type SessionOptions } from './session.ts';
+export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
+export type { Study, Cell, CellKind } from './study/types.ts';
+export { CELL_KINDS, CURRENT_VERSION, FORMAT } from './study/types.ts';
+export type { Report, CellReport } from './report.ts';
+export type { CellError } from './node.ts';
+export { parseExpression, type ParseResult, type ExprProblem } from './expression/parse.ts';
+export { evaluateExpression, type Lookup, type Value } from './expression/evaluate.ts';
+export { compileExpression, type Compiled } from './expression/compile.ts';
+export { type Quantity, report as reportQuantity, describe as describeQuantity, formatNumber } from './quantity.ts';
+export { FUNCTION_NAMES } from './expression/functions.ts';
+export { runStudy, exitCodeOf } from './run.ts';

@@ -1,0 +1,66 @@
+/** The report as a readable table for a terminal: one block per cell, quantities aligned. */
+import type { CellReport, Report } from './report.ts';
+import { formatNumber } from './quantity.ts';
+
+interface Q { value: number; unit: string; si: number }
+
+const HIDDEN = new Set(['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn', 'series']);
+
+export function formatReport(report: Report): string {
+  const lines: string[] = [report.title, '='.repeat(Math.min(72, Math.max(8, report.title.length))), ''];
+  for (const cell of report.cells) lines.push(...formatCell(cell), '');
+  const failed = report.cells.filter((c) => !c.ok).length;
+  if (report.warnings.length) {
+    lines.push('Warnings:');
+    for (const w of report.warnings) lines.push(`  - ${w}`);
+    lines.push('');
+  }
+  lines.push(failed === 0 ? `All ${report.cells.length} cells are ok.` : `${failed} of ${report.cells.length} cells have errors.`);
+  return `${lines.join('\n')}\n`;
+}
+
+function formatCell(cell: CellReport): string[] {
+  const status = cell.ok ? (cell.computed === false ? 'not computed' : 'ok') : 'ERROR';
+  const head = `[${status}] ${cell.id} (${cell.kind})${cell.title ? ` - ${cell.title}` : ''}`;
+  const out = [head];
+  if (!cell.ok && cell.error) {
+    out.push(`    ${cell.error.path}: ${cell.error.message}`);
+    for (const e of (cell.errors ?? []).slice(1)) out.push(`    ${e.path}: ${e.message}`);
+  }
+  const rows: Array<[string, string]> = [];
+  for (const [key, value] of Object.entries(cell)) {
+    if (HIDDEN.has(key) || key === 'computed') continue;
+    collect(key, value, rows);
+  }
+  const width = Math.min(24, Math.max(0, ...rows.map(([k]) => k.length)));
+  for (const [k, v] of rows) out.push(`    ${k.padEnd(width)}  ${v}`);
+  return out;
+}
+
+function collect(key: string, value: unknown, rows: Array<[string, string]>): void {
+  if (isQuantity(value)) {
+    rows.push([key, showQuantity(value)]);
+  } else if (Array.isArray(value)) {
+    if (value.every(isQuantity)) rows.push([key, value.map(showQuantity).join(' to ')]);
+    else value.forEach((v, i) => collect(`${key}[${i}]`, v, rows));
+  } else if (value && typeof value === 'object') {
+    const entries = Object.entries(value);
+    const flat = key === 'values' || key === 'results' || key === 'estimates';
+    if (flat && entries.every(([, v]) => isQuantity(v) || (v && typeof v === 'object' && isQuantity((v as Record<string, unknown>).value)))) {
+      for (const [k, v] of entries) collect(k, isQuantity(v) ? v : v, rows);
+    } else {
+      for (const [k, v] of entries) collect(flat ? k : `${key}.${k}`, v, rows);
+    }
+  } else if (value !== undefined) {
+    rows.push([key, String(value)]);
+  }
+}
+
+function isQuantity(v: unknown): v is Q {
+  return !!v && typeof v === 'object' && typeof (v as Q).value === 'number' && typeof (v as Q).unit === 'string' && typeof (v as Q).si === 'number';
+}
+
+function showQuantity(q: Q): string {
+  const v = formatNumber(q.value, 6);
+  return q.unit ? `${v} ${q.unit}` : v;
+}

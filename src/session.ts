@@ -1,0 +1,308 @@
+/**
+ * A study session: the one way to evaluate and change a study. Load a document, apply edits
+ * to it, read the report. Each edit re-runs only the nodes whose own text changed or whose
+ * inputs changed value, and says which cells re-ran and which cells' results changed.
+ *
+ * Nothing here throws for bad input: a bad document is refused with a message, a bad cell
+ * carries its error, and an unexpected failure inside a cell is reported on that cell.
+ */
+import type { Cell, Study } from './study/types.ts';
+import { CELL_KINDS, ID_PATTERN } from './study/types.ts';
+import { readStudy, checkCell, isObject, type Problem } from './study/validate.ts';
+import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.ts';
+import { buildCellNodes } from './cells/index.ts';
+import { buildGraph, type Graph } from './graph.ts';
+import { type CellReport, type Report, mergeOutput } from './report.ts';
+
+/** A name that cannot be read: its definer failed or computed nothing. */
+interface Unavailable {
+  readonly kind: 'unavailable';
+  readonly cell: string;
+  readonly reason: string;
+  readonly sig: string;
+}
+type Slot = Binding | Unavailable;
+
+export type Edit =
+  | { readonly type: 'replace'; readonly cell: unknown }
+  | { readonly type: 'insert'; readonly index: number; readonly cell: unknown }
+  | { readonly type: 'remove'; readonly id: string }
+  | { readonly type: 'move'; readonly id: string; readonly to: number }
+  | { readonly type: 'retitle'; readonly title: string };
+
+export type EditResult =
+  | { readonly ok: true; readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report }
+  | { readonly ok: false; readonly error: Problem };
+
+export type OpenResult = { readonly ok: true; readonly session: StudySession } | { readonly ok: false; readonly error: Problem };
+
+export interface SessionOptions {
+  /** 'check' validates without the heavy numerics. */
+  readonly mode?: 'run' | 'check';
+}
+
+/** Opens a study from JSON text or a parsed document. Never throws. */
+export function openStudy(input: unknown, options: SessionOptions = {}): OpenResult {
+  const read = readStudy(input);
+  if (!read.ok) return read;
+  return { ok: true, session: new StudySession(read.study, read.cellProblems, read.notes, options.mode ?? 'run') };
+}
+
+export class StudySession {
+  private cells: Cell[];
+  private title: string;
+  private readonly description?: string;
+  private readonly cellProblems = new Map<string, readonly Problem[]>();
+  private readonly notes: readonly string[];
+  private readonly built = new Map<string, { sig: string; index: number; nodes: GraphNode[] }>();
+  private graph!: Graph;
+  private readonly outcomes = new Map<string, Outcome>();
+  private readonly staticSigs = new Map<string, string>();
+  private readonly slots = new Map<string, Slot>();
+  private readonly reports = new Map<string, CellReport>();
+  private lastReport!: Report;
+
+  constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check') {
+    this.cells = [...study.cells];
+    this.title = study.title;
+    this.description = study.description;
+    for (const [id, p] of problems) this.cellProblems.set(id, p);
+    this.notes = notes;
+    this.evaluate();
+  }
+
+  /** The current report. Cost: none; it is kept up to date by each edit. */
+  report(): Report {
+    return this.lastReport;
+  }
+
+  /** The study as it now stands, in the contract's format. */
+  document(): Study {
+    return {
+      format: 'ratebook-study',
+      version: 1,
+      title: this.title,
+      ...(this.description !== undefined ? { description: this.description } : {}),
+      cells: this.cells.map((c) => structuredClone(c)),
+    };
+  }
+
+  /** Applies one edit. A refused edit changes nothing. Cost: the re-run cells plus O(nodes). */
+  apply(edit: Edit): EditResult {
+    const problem = this.applyToCells(edit);
+    if (problem) return { ok: false, error: problem };
+    const { rerun, changed } = this.evaluate();
+    return { ok: true, rerun, changed, report: this.lastReport };
+  }
+
+  private applyToCells(edit: Edit): Problem | undefined {
+    switch (edit.type) {
+      case 'retitle':
+        if (typeof edit.title !== 'string') return { message: 'a title must be text', path: 'title' };
+        this.title = edit.title;
+        return undefined;
+      case 'remove': {
+        const i = this.indexOf(edit.id);
+        if (i < 0) return { message: `there is no cell "${edit.id}"`, path: 'cells' };
+        this.cells.splice(i, 1);
+        this.cellProblems.delete(edit.id);
+        return undefined;
+      }
+      case 'move': {
+        const i = this.indexOf(edit.id);
+        if (i < 0) return { message: `there is no cell "${edit.id}"`, path: 'cells' };
+        const to = Math.max(0, Math.min(this.cells.length - 1, Math.trunc(edit.to)));
+        const [c] = this.cells.splice(i, 1);
+        this.cells.splice(to, 0, c);
+        return undefined;
+      }
+      case 'replace':
+      case 'insert': {
+        const c = edit.cell;
+        if (!isObject(c)) return { message: 'a cell must be an object', path: 'cells' };
+        if (typeof c.id !== 'string' || !ID_PATTERN.test(c.id)) return { message: 'a cell id must be lower-case letters, digits, "-" or "_", starting with a letter', path: 'id' };
+        if (typeof c.kind !== 'string' || !(CELL_KINDS as readonly string[]).includes(c.kind)) {
+          return { message: `unknown cell kind ${JSON.stringify(c.kind)}; the kinds are ${CELL_KINDS.join(', ')}`, path: 'kind' };
+        }
+        const existing = this.indexOf(c.id);
+        let index: number;
+        if (edit.type === 'replace') {
+          if (existing < 0) return { message: `there is no cell "${c.id}" to replace`, path: 'id' };
+          index = existing;
+          this.cells[index] = structuredClone(c) as unknown as Cell;
+        } else {
+          if (existing >= 0) return { message: `the cell id "${c.id}" is already used`, path: 'id' };
+          index = Math.max(0, Math.min(this.cells.length, Math.trunc(edit.index)));
+          this.cells.splice(index, 0, structuredClone(c) as unknown as Cell);
+        }
+        const problems = checkCell(c, `cells[${index}]`);
+        if (problems.length) this.cellProblems.set(c.id, problems);
+        else this.cellProblems.delete(c.id);
+        return undefined;
+      }
+      default:
+        return { message: 'unknown edit', path: '' };
+    }
+  }
+
+  private indexOf(id: string): number {
+    return this.cells.findIndex((c) => c.id === id);
+  }
+
+  /** Nodes of every cell, rebuilt only for cells whose text or position changed. */
+  private nodes(): GraphNode[] {
+    const all: GraphNode[] = [];
+    const live = new Set<string>();
+    this.cells.forEach((cell, index) => {
+      live.add(cell.id);
+      const sig = JSON.stringify(cell);
+      let entry = this.built.get(cell.id);
+      if (!entry || entry.sig !== sig || entry.index !== index) {
+        entry = { sig, index, nodes: this.withShapeProblems(cell, buildCellNodes(cell, index), index) };
+        this.built.set(cell.id, entry);
+      }
+      all.push(...entry.nodes);
+    });
+    for (const id of [...this.built.keys()]) if (!live.has(id)) this.built.delete(id);
+    return all;
+  }
+
+  /** Field problems found by the document check fail the cell's first node, on their path. */
+  private withShapeProblems(cell: Cell, nodes: GraphNode[], index: number): GraphNode[] {
+    const problems = this.cellProblems.get(cell.id);
+    if (!problems?.length) return nodes;
+    const at = `cells[${index}]`;
+    const errors: CellError[] = problems.map((p) => ({ message: p.message, path: p.path.replace(/^cells\[\d+\]/, at) }));
+    if (nodes.length === 0) {
+      return [{ key: `${cell.id}/shape`, cell: cell.id, defines: [], uses: [], allowsTime: false, allowsStates: false, signature: JSON.stringify(errors), problems: errors, run: () => ({ ok: true, bindings: new Map(), output: {} }) }];
+    }
+    return nodes.map((n, i) => (i === 0 ? { ...n, problems: [...errors, ...n.problems], signature: `${n.signature}|${JSON.stringify(errors)}` } : n));
+  }
+
+  private evaluate(): { rerun: string[]; changed: string[] } {
+    const list = this.nodes();
+    const cellPaths = new Map(this.cells.map((c, i) => [c.id, `cells[${i}]`]));
+    this.graph = buildGraph(list, cellPaths);
+    const changedNames = new Set<string>();
+    const rerunCells = new Set<string>();
+    const liveKeys = new Set(list.map((n) => n.key));
+
+    for (const key of [...this.outcomes.keys()]) {
+      if (liveKeys.has(key)) continue;
+      this.outcomes.delete(key);
+      this.staticSigs.delete(key);
+    }
+    for (const name of [...this.slots.keys()]) {
+      if (!this.graph.definers.has(name)) {
+        this.slots.delete(name);
+        changedNames.add(name);
+      }
+    }
+
+    for (const key of this.graph.order) {
+      const node = this.graph.nodes.get(key)!;
+      const sources = this.graph.sources.get(key)!;
+      const problem = this.graph.problems.get(key);
+      const staticSig = `${node.signature}|${JSON.stringify([...sources])}|${problem ? JSON.stringify(problem) : ''}|${node.defines.map((d) => `${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`).join(',')}`;
+      const inputsChanged = [...sources].some(([name, s]) => 'node' in s && changedNames.has(name));
+      if (this.outcomes.has(key) && this.staticSigs.get(key) === staticSig && !inputsChanged) continue;
+      const outcome = this.runNode(node, problem);
+      this.outcomes.set(key, outcome);
+      this.staticSigs.set(key, staticSig);
+      rerunCells.add(node.cell);
+      for (const d of node.defines) {
+        if (this.graph.definers.get(d.name) !== key) continue;
+        const slot: Slot = outcome.bindings?.get(d.name) ?? unavailable(node, d.name, outcome);
+        const old = this.slots.get(d.name);
+        if (!old || old.kind !== slot.kind || old.sig !== slot.sig) changedNames.add(d.name);
+        this.slots.set(d.name, slot);
+      }
+    }
+
+    const changed: string[] = [];
+    const cellReports: CellReport[] = [];
+    for (const cell of this.cells) {
+      let r = this.reports.get(cell.id);
+      if (!r || rerunCells.has(cell.id) || r.index !== this.indexOf(cell.id)) {
+        const fresh = this.cellReport(cell);
+        if (!r || JSON.stringify(r) !== JSON.stringify(fresh)) changed.push(cell.id);
+        r = fresh;
+        this.reports.set(cell.id, r);
+      }
+      cellReports.push(r);
+    }
+    for (const id of [...this.reports.keys()]) if (this.indexOf(id) < 0) this.reports.delete(id);
+    const reports = cellReports.map(({ index: _index, ...rest }) => rest as CellReport);
+    this.lastReport = {
+      title: this.title,
+      ok: reports.every((c) => c.ok),
+      warnings: [...this.notes, ...this.graph.warnings],
+      cells: reports,
+    };
+    return { rerun: this.cells.filter((c) => rerunCells.has(c.id)).map((c) => c.id), changed };
+  }
+
+  private runNode(node: GraphNode, problem: CellError | undefined): Outcome {
+    if (problem) return { ok: false, error: problem };
+    const sources = this.graph.sources.get(node.key)!;
+    for (const use of node.uses) {
+      const src = sources.get(use.name);
+      if (!src || !('node' in src)) continue;
+      const slot = this.slots.get(use.name);
+      if (!slot || slot.kind === 'unavailable') {
+        const reason = slot?.reason ?? 'it has not been computed';
+        return { ok: false, error: { message: `waits on cell "${slot?.cell ?? this.graph.nodes.get(src.node)?.cell}": ${reason}`, path: use.path } };
+      }
+    }
+    const ctx: RunContext = {
+      mode: this.mode,
+      binding: (name) => {
+        if (!sources.has(name)) return undefined;
+        const slot = this.slots.get(name);
+        return slot && slot.kind !== 'unavailable' ? slot : undefined;
+      },
+    };
+    try {
+      return node.run(ctx);
+    } catch (err) {
+      return { ok: false, error: { message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? `cells[${this.indexOf(node.cell)}]` } };
+    }
+  }
+
+  private cellReport(cell: Cell): CellReport & { index: number } {
+    const index = this.indexOf(cell.id);
+    const r: CellReport & { index: number } = { index, id: cell.id, kind: cell.kind, ...(typeof cell.title === 'string' ? { title: cell.title } : {}), ok: true };
+    const errors: CellError[] = [];
+    const waits = new Set<string>();
+    const output: Record<string, unknown> = {};
+    for (const node of this.built.get(cell.id)?.nodes ?? []) {
+      const o = this.outcomes.get(node.key);
+      if (!o) continue;
+      if (o.output) mergeOutput(output, o.output);
+      if (!o.ok) {
+        errors.push(o.error);
+        const m = /^waits on cell "([^"]+)"/.exec(o.error.message);
+        if (m) waits.add(m[1]);
+      }
+    }
+    Object.assign(r, output);
+    if (errors.length) {
+      r.ok = false;
+      r.error = errors[0];
+      if (errors.length > 1) r.errors = errors;
+      if (waits.size) r.waitsOn = [...waits];
+    }
+    return r;
+  }
+}
+
+function unavailable(node: GraphNode, name: string, outcome: Outcome): Unavailable {
+  const reason = !outcome.ok
+    ? (outcome.error.message.startsWith('waits on') ? outcome.error.message : `${show(name)} has an error (${outcome.error.path}: ${outcome.error.message})`)
+    : typeof outcome.output.message === 'string' ? outcome.output.message : `${show(name)} was not computed`;
+  return { kind: 'unavailable', cell: node.cell, reason, sig: `unavailable|${reason}` };
+}
+
+function show(name: string): string {
+  return name.startsWith('#') ? `cell "${name.slice(1)}"` : `"${name}"`;
+}

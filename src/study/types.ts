@@ -1,0 +1,117 @@
+/**
+ * The study document, version 1, as fixed by the study-format contract. Fields hold the
+ * user's text (expressions are strings); nothing here is evaluated.
+ */
+export const FORMAT = 'ratebook-study';
+export const CURRENT_VERSION = 1;
+
+export const CELL_KINDS = ['parameters', 'rate', 'phase', 'simulate', 'data', 'fit', 'nca', 'note'] as const;
+export type CellKind = (typeof CELL_KINDS)[number];
+
+export interface CellBase {
+  id: string;
+  kind: CellKind;
+  title?: string;
+}
+
+export interface ParameterItem {
+  name: string;
+  value: string;
+  range?: [string, string];
+  note?: string;
+}
+
+export interface ParametersCell extends CellBase { kind: 'parameters'; items: ParameterItem[] }
+export interface RateCell extends CellBase { kind: 'rate'; state: string; unit: string; rate: string; initial: string }
+export interface PhaseCell extends CellBase {
+  kind: 'phase';
+  rate: string;
+  from: string;
+  to: string;
+  sweep?: { name: string; from: string; to: string; steps: number };
+}
+
+export const METHODS = ['auto', 'dopri5', 'stiff', 'rk4', 'heun', 'euler'] as const;
+export type Method = (typeof METHODS)[number];
+
+export interface ScheduleEvent {
+  at: string;
+  every?: string;
+  count?: number;
+  for?: string;
+  add?: Record<string, string>;
+  set?: Record<string, string>;
+  infuse?: Record<string, string>;
+}
+
+export const FIND_KINDS = ['crossing', 'maximum', 'minimum', 'timeOfMaximum', 'timeOfMinimum', 'valueOf', 'integralOf', 'timeAbove', 'timeBelow'] as const;
+export type FindKind = (typeof FIND_KINDS)[number];
+
+export interface FindQuery {
+  name: string;
+  crossing?: string; maximum?: string; minimum?: string; timeOfMaximum?: string; timeOfMinimum?: string;
+  valueOf?: string; integralOf?: string; timeAbove?: string; timeBelow?: string;
+  level?: string;
+  direction?: 'up' | 'down' | 'either';
+  occurrence?: number;
+  at?: string;
+  from?: string;
+  to?: string;
+}
+
+export interface SimulateCell extends CellBase {
+  kind: 'simulate';
+  rates: string[];
+  from: string;
+  to: string;
+  method?: Method;
+  step?: string;
+  tolerance?: { relative?: number; absolute?: string };
+  events?: ScheduleEvent[];
+  find?: FindQuery[];
+}
+
+export interface DataColumn { name: string; unit: string }
+export interface DataCell extends CellBase { kind: 'data'; columns: DataColumn[]; rows?: Array<Array<number | null>>; csv?: string }
+
+export const WEIGHTINGS = ['none', 'relative', 'proportional'] as const;
+export interface FitEstimate { parameter: string; as: string; guess: string; min?: string; max?: string }
+export interface FitCell extends CellBase {
+  kind: 'fit';
+  rates: string[];
+  data: string;
+  time: string;
+  observe: Record<string, string>;
+  estimate: FitEstimate[];
+  weighting?: (typeof WEIGHTINGS)[number];
+}
+
+export const ROUTES = ['iv-bolus', 'infusion', 'extravascular'] as const;
+export const AUC_RULES = ['linear', 'linear-up-log-down'] as const;
+export interface NcaCell extends CellBase {
+  kind: 'nca';
+  data: string;
+  time: string;
+  concentration: string;
+  dose: string;
+  route: (typeof ROUTES)[number];
+  duration?: string;
+  auc?: (typeof AUC_RULES)[number];
+  terminal?: 'auto' | number;
+  prefix?: string;
+}
+
+export interface NoteCell extends CellBase { kind: 'note'; text: string }
+
+export type Cell = ParametersCell | RateCell | PhaseCell | SimulateCell | DataCell | FitCell | NcaCell | NoteCell;
+
+export interface Study {
+  format: typeof FORMAT;
+  version: number;
+  title: string;
+  description?: string;
+  cells: Cell[];
+}
+
+export const NAME_PATTERN = /^[A-Za-z_][A-Za-z0-9_]*$/;
+export const ID_PATTERN = /^[a-z][a-z0-9_-]*$/;
