@@ -193,5 +193,5 @@ export function report(q: Quantity): ReportedQuantity {
  * becomes 40): 12 significant digits, far finer than any input a study holds.
  */
 export function tidy(x: number): number {
-  return Number.isFinite(x) && x !== 0 ? Number(x.toPrecision(12)) : x;
+  return Number.isFinite(x) && x !== 0 ? Number(x.toPrecision(14)) : x;
 }

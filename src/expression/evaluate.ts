@@ -12,7 +12,7 @@ import {
   type Quantity, QuantityError, add, sub, mul, div, pow, neg, compare, fromUnit, plain, describe,
 } from '../quantity.ts';
 import { isDimensionless, describeDim } from '../dimension.ts';
-import { lookupUnit, isOffsetTemperature, NO_UNIT } from '../units.ts';
+import { lookupUnit, isOffsetTemperature, NO_UNIT, mulUnits } from '../units.ts';
 
 /** The study's names as seen by one expression: undefined means "not a study name". */
 export type Lookup = (name: string) => Quantity | undefined;
@@ -44,7 +44,8 @@ export function evaluateExpression(e: Expr, lookup: Lookup): EvalResult {
 
 /** A folded literal as a quantity: a lone temperature unit makes a point on its scale. */
 export function literalQuantity(lit: Literal): Quantity {
-  return fromUnit(lit.coef, lit.unit);
+  const q = fromUnit(lit.coef, lit.unit);
+  return q.unit.length > 1 ? { ...q, unit: mulUnits(NO_UNIT, q.unit) } : q;
 }
 
 /** `x degC` where x is not a literal: the point x on that scale, if the pattern applies. */

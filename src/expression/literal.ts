@@ -5,7 +5,7 @@
  * `74 degC` stays a point on the Celsius scale.
  */
 import type { Expr } from './ast.ts';
-import { lookupUnit } from '../units.ts';
+import { lookupUnit, isOffsetTemperature } from '../units.ts';
 import { isConstantName } from './constants.ts';
 
 export interface Literal {
@@ -46,6 +46,9 @@ function compute(e: Expr, isName: IsName, memo: WeakMap<Expr, Literal | null>): 
         const a = literalOf(e.a, isName, memo);
         const p = exponentOf(e.b);
         if (!a || p === null) return null;
+        // a power of a temperature reading is a power of its absolute value: left to the
+        // quantity arithmetic, which uses kelvin ((26.85 degC)^4 is (300 K)^4)
+        if (p !== 1 && a.unit.length === 1 && a.unit[0][1] === 1 && isOffsetTemperature(lookupUnit(a.unit[0][0])!) && e.a.k !== 'sym') return null;
         return { coef: Math.pow(a.coef, p), unit: a.unit.map(([n, q]) => [n, q * p] as const) };
       }
       if (e.op !== '*' && e.op !== '/') return null;
