@@ -26,7 +26,11 @@ export interface Graph {
   readonly warnings: readonly string[];
 }
 
-export function buildGraph(list: readonly GraphNode[], cellPaths: ReadonlyMap<string, string>): Graph {
+/**
+ * Builds the graph. `resolve(cell, path)` writes a node's cell-relative path out in full,
+ * for messages that point at another cell.
+ */
+export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, path: string) => string): Graph {
   const nodes = new Map(list.map((n) => [n.key, n]));
   const definers = new Map<string, string>();
   const definedAt = new Map<string, string>();
@@ -40,7 +44,8 @@ export function buildGraph(list: readonly GraphNode[], cellPaths: ReadonlyMap<st
       const first = definers.get(d.name);
       if (first !== undefined) {
         const what = d.name.startsWith('#') ? `the cell id "${d.name.slice(1)}"` : `"${d.name}"`;
-        flag(n.key, { message: `${what} is already defined in cell "${nodes.get(first)!.cell}" (${definedAt.get(d.name)})`, path: d.path });
+        const firstCell = nodes.get(first)!.cell;
+        flag(n.key, { message: `${what} is already defined in cell "${firstCell}" (${resolve(firstCell, definedAt.get(d.name)!)})`, path: d.path });
         continue;
       }
       if (d.name === 't') {
@@ -51,8 +56,9 @@ export function buildGraph(list: readonly GraphNode[], cellPaths: ReadonlyMap<st
       definedAt.set(d.name, d.path);
       if (!d.name.startsWith('#')) {
         const unit = lookupUnit(d.name);
-        if (unit) warnings.push(`the name "${d.name}" (${d.path}) hides the unit ${d.name}; in this study ${d.name} means the value defined there`);
-        else if (isConstantName(d.name)) warnings.push(`the name "${d.name}" (${d.path}) hides the constant ${d.name}`);
+        const where = resolve(n.cell, d.path);
+        if (unit) warnings.push(`the name "${d.name}" (${where}) hides the unit ${d.name}; in this study ${d.name} means the value defined there`);
+        else if (isConstantName(d.name)) warnings.push(`the name "${d.name}" (${where}) hides the constant ${d.name}`);
       }
     }
   }
@@ -101,7 +107,7 @@ export function buildGraph(list: readonly GraphNode[], cellPaths: ReadonlyMap<st
   const { order, cycles } = orderNodes(list, sources);
   for (const [key, path] of cycles) {
     const n = nodes.get(key)!;
-    flag(key, { message: `circular definition: ${path}`, path: n.defines[0]?.path ?? cellPaths.get(n.cell) ?? '' });
+    flag(key, { message: `circular definition: ${path}`, path: n.defines[0]?.path ?? '@' });
   }
   return { nodes, order, definers, sources, problems, warnings };
 }

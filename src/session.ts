@@ -10,7 +10,7 @@ import type { Cell, Study } from './study/types.ts';
 import { CELL_KINDS, ID_PATTERN } from './study/types.ts';
 import { readStudy, checkCell, isObject, type Problem } from './study/validate.ts';
 import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.ts';
-import { buildCellNodes } from './cells/index.ts';
+import { buildCellNodes, resolvePath, CELL_PATH } from './cells/index.ts';
 import { buildGraph, type Graph } from './graph.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 
@@ -54,7 +54,7 @@ export class StudySession {
   private readonly description?: string;
   private readonly cellProblems = new Map<string, readonly Problem[]>();
   private readonly notes: readonly string[];
-  private readonly built = new Map<string, { sig: string; index: number; nodes: GraphNode[] }>();
+  private readonly built = new Map<string, { sig: string; nodes: GraphNode[] }>();
   private graph!: Graph;
   private readonly outcomes = new Map<string, Outcome>();
   private readonly staticSigs = new Map<string, string>();
@@ -96,6 +96,7 @@ export class StudySession {
   }
 
   private applyToCells(edit: Edit): Problem | undefined {
+    this.positions = undefined;
     switch (edit.type) {
       case 'retitle':
         if (typeof edit.title !== 'string') return { message: 'a title must be text', path: 'title' };
@@ -105,6 +106,7 @@ export class StudySession {
         const i = this.indexOf(edit.id);
         if (i < 0) return { message: `there is no cell "${edit.id}"`, path: 'cells' };
         this.cells.splice(i, 1);
+        this.positions = undefined;
         this.cellProblems.delete(edit.id);
         return undefined;
       }
@@ -114,6 +116,7 @@ export class StudySession {
         const to = Math.max(0, Math.min(this.cells.length - 1, Math.trunc(edit.to)));
         const [c] = this.cells.splice(i, 1);
         this.cells.splice(to, 0, c);
+        this.positions = undefined;
         return undefined;
       }
       case 'replace':
@@ -134,6 +137,7 @@ export class StudySession {
           if (existing >= 0) return { message: `the cell id "${c.id}" is already used`, path: 'id' };
           index = Math.max(0, Math.min(this.cells.length, Math.trunc(edit.index)));
           this.cells.splice(index, 0, structuredClone(c) as unknown as Cell);
+          this.positions = undefined;
         }
         const problems = checkCell(c, `cells[${index}]`);
         if (problems.length) this.cellProblems.set(c.id, problems);
@@ -145,20 +149,24 @@ export class StudySession {
     }
   }
 
+  private positions?: Map<string, number>;
+
+  /** A cell's position; -1 when absent. Cost: O(1) after the first call since the last edit. */
   private indexOf(id: string): number {
-    return this.cells.findIndex((c) => c.id === id);
+    this.positions ??= new Map(this.cells.map((c, i) => [c.id, i]));
+    return this.positions.get(id) ?? -1;
   }
 
-  /** Nodes of every cell, rebuilt only for cells whose text or position changed. */
+  /** Nodes of every cell, rebuilt only for cells whose text changed. */
   private nodes(): GraphNode[] {
     const all: GraphNode[] = [];
     const live = new Set<string>();
-    this.cells.forEach((cell, index) => {
+    this.cells.forEach((cell) => {
       live.add(cell.id);
       const sig = JSON.stringify(cell);
       let entry = this.built.get(cell.id);
-      if (!entry || entry.sig !== sig || entry.index !== index) {
-        entry = { sig, index, nodes: this.withShapeProblems(cell, buildCellNodes(cell, index), index) };
+      if (!entry || entry.sig !== sig) {
+        entry = { sig, nodes: this.withShapeProblems(cell, buildCellNodes(cell)) };
         this.built.set(cell.id, entry);
       }
       all.push(...entry.nodes);
@@ -168,11 +176,10 @@ export class StudySession {
   }
 
   /** Field problems found by the document check fail the cell's first node, on their path. */
-  private withShapeProblems(cell: Cell, nodes: GraphNode[], index: number): GraphNode[] {
+  private withShapeProblems(cell: Cell, nodes: GraphNode[]): GraphNode[] {
     const problems = this.cellProblems.get(cell.id);
     if (!problems?.length) return nodes;
-    const at = `cells[${index}]`;
-    const errors: CellError[] = problems.map((p) => ({ message: p.message, path: p.path.replace(/^cells\[\d+\]/, at) }));
+    const errors: CellError[] = problems.map((p) => ({ message: p.message, path: p.path.replace(/^cells\[\d+\]/, CELL_PATH) }));
     if (nodes.length === 0) {
       return [{ key: `${cell.id}/shape`, cell: cell.id, defines: [], uses: [], allowsTime: false, allowsStates: false, signature: JSON.stringify(errors), problems: errors, run: () => ({ ok: true, bindings: new Map(), output: {} }) }];
     }
@@ -181,8 +188,7 @@ export class StudySession {
 
   private evaluate(): { rerun: string[]; changed: string[] } {
     const list = this.nodes();
-    const cellPaths = new Map(this.cells.map((c, i) => [c.id, `cells[${i}]`]));
-    this.graph = buildGraph(list, cellPaths);
+    this.graph = buildGraph(list, (cell, path) => resolvePath(path, this.indexOf(cell)));
     const changedNames = new Set<string>();
     const rerunCells = new Set<string>();
     const liveKeys = new Set(list.map((n) => n.key));
@@ -212,7 +218,7 @@ export class StudySession {
       rerunCells.add(node.cell);
       for (const d of node.defines) {
         if (this.graph.definers.get(d.name) !== key) continue;
-        const slot: Slot = outcome.bindings?.get(d.name) ?? unavailable(node, d.name, outcome);
+        const slot: Slot = outcome.bindings?.get(d.name) ?? unavailable(node, d.name, outcome, this.indexOf(node.cell));
         const old = this.slots.get(d.name);
         if (!old || old.kind !== slot.kind || old.sig !== slot.sig) changedNames.add(d.name);
         this.slots.set(d.name, slot);
@@ -265,7 +271,7 @@ export class StudySession {
     try {
       return node.run(ctx);
     } catch (err) {
-      return { ok: false, error: { message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? `cells[${this.indexOf(node.cell)}]` } };
+      return { ok: false, error: { message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? CELL_PATH } };
     }
   }
 
@@ -280,7 +286,7 @@ export class StudySession {
       if (!o) continue;
       if (o.output) mergeOutput(output, o.output);
       if (!o.ok) {
-        errors.push(o.error);
+        errors.push({ ...o.error, path: resolvePath(o.error.path, index) });
         const m = /^waits on cell "([^"]+)"/.exec(o.error.message);
         if (m) waits.add(m[1]);
       }
@@ -296,9 +302,9 @@ export class StudySession {
   }
 }
 
-function unavailable(node: GraphNode, name: string, outcome: Outcome): Unavailable {
+function unavailable(node: GraphNode, name: string, outcome: Outcome, index: number): Unavailable {
   const reason = !outcome.ok
-    ? (outcome.error.message.startsWith('waits on') ? outcome.error.message : `${show(name)} has an error (${outcome.error.path}: ${outcome.error.message})`)
+    ? (outcome.error.message.startsWith('waits on') ? outcome.error.message : `${show(name)} has an error (${resolvePath(outcome.error.path, index)}: ${outcome.error.message})`)
     : typeof outcome.output.message === 'string' ? outcome.output.message : `${show(name)} was not computed`;
   return { kind: 'unavailable', cell: node.cell, reason, sig: `unavailable|${reason}` };
 }

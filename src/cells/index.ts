@@ -22,7 +22,19 @@ const BUILDERS: Record<Cell['kind'], Builder> = {
   nca: pendingNodes,
 };
 
-/** The nodes of one cell at position `index`. Never throws on malformed fields. */
-export function buildCellNodes(cell: Cell, index: number): GraphNode[] {
-  return BUILDERS[cell.kind](cell, `cells[${index}]`);
+/**
+ * The nodes of one cell. Paths inside are relative to the cell (`@.items[0].value`), so a
+ * cell that moves keeps its nodes and results; the session writes `@` as `cells[i]` when it
+ * reports. Never throws on malformed fields.
+ */
+export function buildCellNodes(cell: Cell): GraphNode[] {
+  return BUILDERS[cell.kind](cell, CELL_PATH);
+}
+
+/** The placeholder for "this cell's path" in node paths. */
+export const CELL_PATH = '@';
+
+/** A node path written out for the cell at `index`. */
+export function resolvePath(path: string, index: number): string {
+  return path.startsWith(CELL_PATH) ? `cells[${index}]${path.slice(CELL_PATH.length)}` : path;
 }
