@@ -1,0 +1,108 @@
+import { describe, it } from 'node:test';
+import assert from 'node:assert/strict';
+import { spawnSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import { main, type Io } from '../../src/cli.ts';
+
+const root = fileURLToPath(new URL('../../', import.meta.url));
+
+function run(argv: string[], files: Record<string, string> = {}) {
+  let out = '';
+  let err = '';
+  const io: Io = {
+    out: (t) => { out += t; },
+    err: (t) => { err += t; },
+    read: (p) => {
+      if (p in files) return files[p];
+      const e = new Error('ENOENT') as NodeJS.ErrnoException;
+      e.code = 'ENOENT';
+      throw e;
+    },
+  };
+  const code = main(argv, io);
+  return { code, out, err };
+}
+
+const good = JSON.stringify({
+  format: 'ratebook-study', version: 1, title: 'Two inputs',
+  cells: [{ id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.35 / h' }, { name: 'V', value: '42 L' }] }],
+});
+const bad = JSON.stringify({
+  format: 'ratebook-study', version: 1, title: 'One bad cell',
+  cells: [
+    { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.35 / h' }] },
+    { id: 'q', kind: 'parameters', items: [{ name: 'x', value: 'k + 1 m' }] },
+  ],
+});
+
+describe('ratebook run', () => {
+  it('prints the JSON report of the contract and exits 0 when every cell is ok', () => {
+    const r = run(['run', 'good.json', '--json'], { 'good.json': good });
+    assert.equal(r.code, 0);
+    const report = JSON.parse(r.out);
+    assert.equal(report.ok, true);
+    // contract example: k = 0.35 / h is { value: 0.35, unit: "1 / h", si: 9.7222e-5 }
+    assert.deepEqual(report.cells[0].values.k, { value: 0.35, unit: '1 / h', si: 0.35 / 3600 });
+    assert.deepEqual(report.cells[0].values.V, { value: 42, unit: 'L', si: 0.042 });
+  });
+
+  it('prints a readable table without --json', () => {
+    const r = run(['run', 'good.json'], { 'good.json': good });
+    assert.equal(r.code, 0);
+    assert.match(r.out, /^Two inputs\n/);
+    assert.match(r.out, /\[ok\] p \(parameters\)/);
+    assert.match(r.out, /k {2,}0\.35 1 \/ h/);
+    assert.match(r.out, /All 1 cells are ok\./);
+  });
+
+  it('exits 1 and names the cell and path when a cell has an error', () => {
+    const r = run(['run', 'bad.json', '--json'], { 'bad.json': bad });
+    assert.equal(r.code, 1);
+    const report = JSON.parse(r.out);
+    assert.equal(report.cells[0].ok, true);
+    assert.equal(report.cells[1].error.path, 'cells[1].items[0].value');
+    assert.match(report.cells[1].error.message, /cannot add rate \(per time\)/);
+    const table = run(['run', 'bad.json'], { 'bad.json': bad });
+    assert.match(table.out, /\[ERROR\] q \(parameters\)\n {4}cells\[1\]\.items\[0\]\.value: /);
+  });
+
+  it('exits 2 with one line when the file is missing or not a study', () => {
+    const missing = run(['run', 'nope.json']);
+    assert.equal(missing.code, 2);
+    assert.equal(missing.err, 'ratebook: cannot read nope.json: no such file\n');
+    const notStudy = run(['run', 'x.json'], { 'x.json': '{"format":"spreadsheet"}' });
+    assert.equal(notStudy.code, 2);
+    assert.match(notStudy.err, /not a readable study \(at format\)/);
+    const garbage = run(['check', 'g.json'], { 'g.json': '\u0000\u0001 not json' });
+    assert.equal(garbage.code, 2);
+    assert.match(garbage.err, /not valid JSON/);
+  });
+
+  it('refuses unknown commands and options with the usage', () => {
+    assert.equal(run(['simulate', 'a.json']).code, 2);
+    assert.equal(run(['run', 'a.json', '--fast']).code, 2);
+    assert.equal(run(['check', 'a.json', '--series']).code, 2);
+    assert.equal(run([]).code, 2);
+    const help = run(['--help']);
+    assert.equal(help.code, 0);
+    assert.match(help.out, /usage: ratebook run/);
+  });
+});
+
+describe('ratebook check', () => {
+  it('validates without running and uses the same exit status', () => {
+    assert.equal(run(['check', 'good.json'], { 'good.json': good }).code, 0);
+    assert.equal(run(['check', 'bad.json'], { 'bad.json': bad }).code, 1);
+  });
+});
+
+describe('the installed command', () => {
+  it('runs from npx straight after install, with no build step', () => {
+    const r = spawnSync('npx', ['--no-install', 'ratebook', 'run', 'examples/mixed-units-prep.ratebook.json', '--json'], { cwd: root, encoding: 'utf8', timeout: 60_000 });
+    assert.equal(r.status, 0, r.stderr);
+    const report = JSON.parse(r.stdout);
+    assert.equal(report.title, 'Brine batch and chiller loop: inputs in mixed units');
+    // hand-worked: 2.35 L / (250 mL/min) = 9.4 min
+    assert.equal(report.cells.find((c: { id: string }) => c.id === 'loop').values.tau.si, 564);
+  });
+});
