@@ -211,11 +211,15 @@ export class StudySession {
       const problem = this.graph.problems.get(key);
       const staticSig = `${node.signature}|${JSON.stringify([...sources])}|${problem ? JSON.stringify(problem) : ''}|${node.defines.map((d) => `${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`).join(',')}`;
       const inputsChanged = [...sources].some(([name, s]) => 'node' in s && changedNames.has(name));
-      if (this.outcomes.has(key) && this.staticSigs.get(key) === staticSig && !inputsChanged) continue;
-      const outcome = this.runNode(node, problem);
-      this.outcomes.set(key, outcome);
-      this.staticSigs.set(key, staticSig);
-      rerunCells.add(node.cell);
+      const keep = this.outcomes.has(key) && this.staticSigs.get(key) === staticSig && !inputsChanged;
+      const outcome = keep ? this.outcomes.get(key)! : this.runNode(node, problem);
+      if (!keep) {
+        this.outcomes.set(key, outcome);
+        this.staticSigs.set(key, staticSig);
+        rerunCells.add(node.cell);
+      }
+      // a kept outcome is bound again too: the reason a name is unavailable gives the path
+      // of its definer's error, which changes when that cell moves
       for (const d of node.defines) {
         if (this.graph.definers.get(d.name) !== key) continue;
         const slot: Slot = outcome.bindings?.get(d.name) ?? unavailable(node, d.name, outcome, this.indexOf(node.cell));
