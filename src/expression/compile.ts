@@ -12,7 +12,8 @@ import type { Expr } from './ast.ts';
 import { FUNCTIONS } from './functions.ts';
 import { CONSTANTS, isConstantName } from './constants.ts';
 import { type Literal, literalOf } from './literal.ts';
-import { literalQuantity, offsetTemperatureUnit, type Lookup } from './evaluate.ts';
+import { evaluateExpression, literalQuantity, offsetTemperatureUnit, type Lookup } from './evaluate.ts';
+import { isDimensionless } from '../dimension.ts';
 
 /** A compiled expression: reads its inputs (SI) and returns its value (SI). Booleans become 1/0. */
 export type Compiled = (x: ArrayLike<number>) => number;
@@ -76,7 +77,7 @@ function toCode(e: Expr, lookup: Lookup, isName: (n: string) => boolean, inputs:
     case 'neg': return `(-${c(e.a)})`;
     case 'bin': {
       if (e.op === '^') return `Math.pow(${c(e.a)}, ${c(e.b)})`;
-      const def = e.op === '*' ? offsetTemperatureUnit(e.b, isName) : undefined;
+      const def = e.op === '*' ? readingOn(e, lookup, isName) : undefined;
       if (def) return `(${c(e.a)} * ${num(def.factor)} + ${num(def.zero)})`;
       return `(${c(e.a)} ${e.op} ${c(e.b)})`;
     }
@@ -92,6 +93,17 @@ function toCode(e: Expr, lookup: Lookup, isName: (n: string) => boolean, inputs:
   }
 }
 
+/**
+ * `a degC`: the scale when the checker reads it as the reading a on that scale, which it
+ * does only when a is a plain number (`k degC` with k per hour is a product, not a reading).
+ */
+function readingOn(e: Extract<Expr, { k: 'bin' }>, lookup: Lookup, isName: (n: string) => boolean) {
+  const def = offsetTemperatureUnit(e.b, isName);
+  if (!def) return undefined;
+  const a = evaluateExpression(e.a, lookup);
+  return a.ok && typeof a.value !== 'boolean' && isDimensionless(a.value.dim) ? def : undefined;
+}
+
 type Closure = (x: ArrayLike<number>) => number | boolean;
 
 function toClosure(e: Expr, lookup: Lookup, isName: (n: string) => boolean, inputs: readonly string[], memo: WeakMap<Expr, Literal | null>): Closure {
@@ -105,7 +117,7 @@ function toClosure(e: Expr, lookup: Lookup, isName: (n: string) => boolean, inpu
     case 'bin': {
       const a = c(e.a);
       if (e.op === '^') { const b = c(e.b); return (x) => Math.pow(+a(x), +b(x)); }
-      const def = e.op === '*' ? offsetTemperatureUnit(e.b, isName) : undefined;
+      const def = e.op === '*' ? readingOn(e, lookup, isName) : undefined;
       if (def) return (x) => +a(x) * def.factor + def.zero;
       const b = c(e.b);
       switch (e.op) {
