@@ -37,6 +37,8 @@ export function parseExpression(text: unknown): ParseResult {
   if (text.length > MAX_LENGTH) return fail(`is too long (${text.length} characters; at most ${MAX_LENGTH})`);
   const bad = /[;\n\r]/.exec(text);
   if (bad) return fail('must be a single expression (no ";" or line breaks)', [bad.index, bad.index + 1]);
+  const hash = text.indexOf('#');
+  if (hash >= 0) return fail('may not contain "#": the parser would read the rest of the text as a comment and ignore it', [hash, hash + 1]);
   let node: any;
   try {
     node = math.parse(text);
