@@ -89,6 +89,7 @@ export class StudySession {
 
   /** Applies one edit. A refused edit changes nothing. Cost: the re-run cells plus O(nodes). */
   apply(edit: Edit): EditResult {
+    if (!isObject(edit)) return { ok: false, error: { message: 'an edit must be an object with a "type"', path: '' } };
     const problem = this.applyToCells(edit);
     if (problem) return { ok: false, error: problem };
     const { rerun, changed } = this.evaluate();
