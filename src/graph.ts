@@ -16,7 +16,7 @@ export type Source = { readonly node: string } | { readonly builtin: 'time' | 'c
 
 export interface Graph {
   readonly nodes: ReadonlyMap<string, GraphNode>;
-  /** Node keys in a valid run order (nodes in a cycle are at the end). */
+  /** Node keys in a valid run order (nodes on a cycle, then those behind them, at the end). */
   readonly order: readonly string[];
   readonly definers: ReadonlyMap<string, string>;
   /** For each node, each name it reads and where that comes from (unresolved names are absent). */
@@ -154,25 +154,36 @@ function orderNodes(list: readonly GraphNode[], sources: Map<string, Map<string,
   const pending = new Map(list.map((n) => [n.key, deps.get(n.key)!.length]));
   const ready = list.filter((n) => pending.get(n.key) === 0).map((n) => n.key);
   const order: string[] = [];
-  while (ready.length) {
-    ready.sort((a, b) => index.get(a)! - index.get(b)!);
-    const k = ready.shift()!;
+  const done = new Set<string>();
+  const take = (k: string) => {
     order.push(k);
+    done.add(k);
     for (const u of users.get(k) ?? []) {
       const left = pending.get(u)! - 1;
       pending.set(u, left);
-      if (left === 0) ready.push(u);
+      if (left === 0 && !done.has(u)) ready.push(u);
     }
-  }
+  };
+  const drain = () => {
+    while (ready.length) {
+      ready.sort((a, b) => index.get(a)! - index.get(b)!);
+      const k = ready.shift()!;
+      if (!done.has(k)) take(k);
+    }
+  };
+  drain();
   const cycles = new Map<string, string>();
   if (order.length < list.length) {
-    const done = new Set(order);
     const left = list.filter((n) => !done.has(n.key));
     for (const n of left) {
       const path = cyclePath(n.key, deps, sources, new Set(left.map((x) => x.key)));
       if (path) cycles.set(n.key, path);
     }
-    order.push(...left.map((n) => n.key));
+    // nodes on a cycle fail without reading anything: they go first, and the nodes behind
+    // them follow in dependency order, so that each reads why its input failed
+    for (const k of cycles.keys()) take(k);
+    drain();
+    order.push(...list.filter((n) => !done.has(n.key)).map((n) => n.key));
   }
   return { order, cycles };
 }
