@@ -1,0 +1,137 @@
+/**
+ * Shared types of the ODE solver layer: the right-hand side, the options every solver reads,
+ * the status of a run with its message table, the counters, and dense output.
+ *
+ * Everything here is plain numbers: SI magnitudes of the states and of time, no units. A
+ * numerical failure is a result (a status, a message, where it happened); an invalid option
+ * is a `RangeError` whose message names the option.
+ */
+
+/**
+ * The right-hand side of y' = f(t, y) for n states: writes f(t, y) into `dy` (length n).
+ * It must not keep `y` or `dy` (the solver reuses them) and should not throw; a rate that
+ * cannot be computed is reported by writing NaN.
+ */
+export type Rhs = (t: number, y: Float64Array, dy: Float64Array) => void;
+
+/**
+ * An analytic Jacobian ∂f/∂y at (t, y), written row-major into `jac` (n×n: jac[i*n + j] =
+ * ∂f_i/∂y_j). Optional: the stiff method differences f when it is absent.
+ */
+export type Jacobian = (t: number, y: Float64Array, jac: Float64Array) => void;
+
+/** Options read by every solver. Defaults are in `ode-control.ts` (`DEFAULTS`). */
+export interface SolverOptions {
+  /** Relative tolerance, a positive number (default 1e-6). */
+  readonly rtol?: number;
+  /** Absolute tolerance, one positive number or one per state (default 1e-9). */
+  readonly atol?: number | ArrayLike<number>;
+  /** Size of the first trial step (for example `nextStep` of a previous run); chosen by the solver when absent. */
+  readonly firstStep?: number;
+  /** Largest step allowed (default: the whole span). */
+  readonly maxStep?: number;
+  /** Most step attempts, accepted or rejected, before the run stops with `budget` (default 100 000). */
+  readonly maxSteps?: number;
+  /** Most evaluations of f before the run stops with `budget`; checked between steps (default 10 000 000). */
+  readonly maxEvaluations?: number;
+  /** Analytic Jacobian for the stiff method. */
+  readonly jacobian?: Jacobian;
+  /**
+   * Set when f does not depend on t: the stiff method then skips estimating ∂f/∂t, which
+   * costs one evaluation per step. Default false.
+   */
+  readonly autonomous?: boolean;
+}
+
+/** How a run ended. */
+export const Status = {
+  /** Reached the end time. */
+  Success: 'success',
+  /** The solution grew without bound (a finite-time singularity). */
+  Blowup: 'blowup',
+  /** f gave NaN or an infinity at a state the solver could not avoid. */
+  UndefinedRate: 'undefined-rate',
+  /** The step size fell to the resolution of t while the solution stayed bounded. */
+  StepCollapse: 'step-collapse',
+  /** The step or evaluation budget ran out. */
+  Budget: 'budget',
+} as const;
+export type Status = (typeof Status)[keyof typeof Status];
+
+/** Work done by a run. Evaluations count every call of f, Jacobian differencing included. */
+export interface Counters {
+  /** Accepted steps. */
+  steps: number;
+  /** Rejected step attempts (error too large, or f not finite at a trial stage). */
+  rejected: number;
+  evaluations: number;
+  /** Jacobians formed (analytic or by differences). */
+  jacobians: number;
+  /** LU factorizations. */
+  factorizations: number;
+  /** Time at which `auto` switched from dopri5 to the stiff method, or null. */
+  switchedToStiff: number | null;
+}
+
+export function newCounters(): Counters {
+  return { steps: 0, rejected: 0, evaluations: 0, jacobians: 0, factorizations: 0, switchedToStiff: null };
+}
+
+/**
+ * The continuous solution over one accepted step [t0, t1]. `eval` writes y(t) into `out`
+ * (length n); t outside [t0, t1] is clamped to the nearer end, and the ends reproduce the
+ * step's end states bit for bit.
+ */
+export interface DenseSegment {
+  readonly t0: number;
+  readonly t1: number;
+  eval(t: number, out: Float64Array): void;
+}
+
+/** Where a run stopped: the time and the state there (a copy). */
+export interface Where {
+  readonly t: number;
+  readonly y: Float64Array;
+}
+
+/** Extra facts a message may use. */
+export interface MessageDetail {
+  /** The budget that ran out. */
+  readonly budget?: 'steps' | 'evaluations';
+  readonly limit?: number;
+}
+
+/**
+ * A short number for messages: six significant digits without trailing zeros
+ * (0.99999999999996 → "1"), in exponent form below 1e-4 and from 1e6 up (3.9721e+13).
+ */
+export function formatForMessage(x: number): string {
+  if (!Number.isFinite(x)) return String(x);
+  if (x === 0) return '0';
+  const short = Number(x.toPrecision(6));
+  const size = Math.abs(short);
+  return size >= 1e6 || size < 1e-4 ? short.toExponential() : String(short);
+}
+
+function formatState(y: ArrayLike<number>): string {
+  const parts: string[] = [];
+  for (let i = 0; i < y.length; i++) parts.push(formatForMessage(y[i]));
+  return `[${parts.join(', ')}]`;
+}
+
+/** The message for each status; each failure says where (time and state). */
+export const MESSAGES: { readonly [S in Status]: (at: Where, detail?: MessageDetail) => string } = {
+  [Status.Success]: (at) => `reached t = ${formatForMessage(at.t)}`,
+  [Status.Blowup]: (at) =>
+    `the solution grows without bound near t = ${formatForMessage(at.t)} (state ${formatState(at.y)})`,
+  [Status.UndefinedRate]: (at) =>
+    `the rate is not a finite number at t = ${formatForMessage(at.t)}, state ${formatState(at.y)}`,
+  [Status.StepCollapse]: (at) =>
+    `the step size fell to the resolution of t near t = ${formatForMessage(at.t)} (state ${formatState(at.y)}); ` +
+    'the rate may jump there, or the problem needs the stiff method',
+  [Status.Budget]: (at, detail) =>
+    `stopped at t = ${formatForMessage(at.t)} (state ${formatState(at.y)}) after ` +
+    (detail?.budget === 'evaluations'
+      ? `${detail.limit ?? ''} evaluations of the rate (the evaluation budget)`
+      : `${detail?.limit ?? ''} step attempts (the step budget)`),
+};
