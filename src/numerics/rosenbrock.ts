@@ -1,0 +1,302 @@
+/**
+ * The stiff method: RODAS, a Rosenbrock (linearly implicit Runge–Kutta) method of order 4
+ * with an embedded order-3 solution, six stages, L-stable and stiffly accurate (Hairer &
+ * Wanner, Solving ODEs II, sec. IV.7, "RODAS"). Each step solves six linear systems with
+ * one LU factorization of (1/(hγ))·I - J; no Newton iteration, so a step never fails to
+ * converge.
+ *
+ * Formulation (Hairer & Wanner II, eq. 7.4' with u_i = Σ_{j≤i} γ_ij k_j):
+ *   ((1/(hγ))·I - J) u_i = f(t + c_i h, y + Σ_{j<i} a_ij u_j) + Σ_{j<i} (c_ij / h) u_j + h γ_i ∂f/∂t,
+ *   y1 = y + Σ m_i u_i,  error estimate y1 - ŷ1 = u_6.
+ * J = ∂f/∂y at the step's start, analytic when given, else forward differences (n
+ * evaluations); ∂f/∂t by one forward difference unless the problem is declared autonomous.
+ *
+ * Dense output: a third-order continuous extension derived for this implementation (the
+ * weights `RODAS_DENSE`, see there), one `RosenbrockSegment` per step.
+ */
+import {
+  type OdeContext, type StepOutcome, type Stepper,
+  NonFiniteMark, collapseFailure, errorNorm, failure, initialStep, minStep, nonFiniteStatus, spendAttempt, trialStep,
+} from './ode-control.ts';
+import { luFactor, luSolve } from './lu.ts';
+import { type DenseSegment, Status } from './ode-types.ts';
+
+/**
+ * RODAS coefficients in the u-formulation above (Hairer & Wanner II, sec. IV.7). The tests
+ * convert them back to the (α_ij, γ_ij, b_i) form and check every order condition up to
+ * order 4 (order 3 for the embedded solution), the c_i and γ_i sums and L-stability.
+ */
+export const RODAS = {
+  gamma: 0.25,
+  /** Stage times c_i = Σ_j α_ij. */
+  c: [0, 0.386, 0.21, 0.63, 1, 1],
+  /** γ_i = Σ_{j≤i} γ_ij, the weights of ∂f/∂t. */
+  gammaSum: [0.25, -0.1043, 0.1035, -0.0362, 0, 0],
+  a: [
+    [],
+    [1.544],
+    [0.9466785280815826, 0.2557011698983284],
+    [3.314825187068521, 2.896124015972201, 0.9986419139977817],
+    [1.221224509226641, 6.019134481288629, 12.53708332932087, -0.687886036105895],
+    [1.221224509226641, 6.019134481288629, 12.53708332932087, -0.687886036105895, 1],
+  ],
+  cc: [
+    [],
+    [-5.6688],
+    [-2.430093356833875, -0.2063599157091915],
+    [-0.1073529058151375, -9.594562251023355, -20.47028614809616],
+    [7.496443313967647, -10.24680431464352, -33.99990352819905, 11.7089089320616],
+    [8.083246795921522, -7.981132988064893, -31.52159432874371, 16.31930543123136, -6.058818238834054],
+  ],
+  /** Weights of the order-4 solution: stiffly accurate, y1 = (argument of stage 6) + u_6. */
+  m: [1.221224509226641, 6.019134481288629, 12.53708332932087, -0.687886036105895, 1, 1],
+  /** Weights of the embedded order-3 solution: the argument of stage 6. */
+  mHat: [1.221224509226641, 6.019134481288629, 12.53708332932087, -0.687886036105895, 1, 0],
+} as const;
+
+/**
+ * Continuous extension y(θ) = (1-θ)·y0 + θ·y1 + θ(1-θ)·(P + θ·Q) with P = Σ e_i u_i and
+ * Q = Σ g_i u_i. Derived for this implementation: e and g are the minimum-norm solutions of
+ * the order conditions for trees up to order 3 at every θ (so the interpolant has order 3),
+ * plus, for y' = λy as hλ → -∞, the value (1-θ)³·y0, which decays without overshoot inside
+ * the step. The tests check all of these conditions.
+ */
+export const RODAS_DENSE = {
+  e: [11.828566977519802, -0.91522547092957396, -27.611280306728805, 5.3821063329135113, -4.9475465907074145, 0],
+  g: [-3.6865340199636809, -5.5349932220756131, 3.7173205067558106, 1.116269627646159, 3.9671793923714631, 0],
+} as const;
+
+/** Step-size constants (common practice for Rosenbrock codes; Hairer & Wanner II, sec. IV.7). */
+export const RODAS_CONTROL = {
+  safety: 0.9,
+  minFactor: 0.2,
+  maxFactor: 6,
+  /** The embedded solution has order 3, so the error scales as h^4. */
+  exponent: 1 / 4,
+  /** Factor for a step whose stages met a non-finite rate or a singular matrix. */
+  nonFiniteShrink: 0.25,
+} as const;
+
+const SQRT_EPS = Math.sqrt(Number.EPSILON);
+const STAGES = 6;
+
+/** The continuous solution of one RODAS step (see `RODAS_DENSE`). */
+export class RosenbrockSegment implements DenseSegment {
+  /** [y0 | y1 | P | Q], each n long. */
+  constructor(readonly t0: number, readonly t1: number, private readonly n: number, private readonly data: Float64Array) {}
+
+  eval(t: number, out: Float64Array): void {
+    const { data, n } = this;
+    if (t <= this.t0) {
+      out.set(data.subarray(0, n));
+      return;
+    }
+    if (t >= this.t1) {
+      out.set(data.subarray(n, 2 * n));
+      return;
+    }
+    const th = (t - this.t0) / (this.t1 - this.t0);
+    const th1 = 1 - th;
+    for (let i = 0; i < n; i++) {
+      out[i] = th1 * data[i] + th * data[n + i] + th * th1 * (data[2 * n + i] + th * data[3 * n + i]);
+    }
+  }
+}
+
+/** Adaptive RODAS stepper. */
+export class RosenbrockStepper implements Stepper {
+  t: number;
+  readonly y: Float64Array;
+  h = NaN;
+
+  private readonly f0: Float64Array;
+  private readonly ft: Float64Array;
+  private readonly jac: Float64Array;
+  private readonly matrix: Float64Array;
+  private readonly pivot: Int32Array;
+  private readonly u: Float64Array[];
+  private readonly arg: Float64Array;
+  private readonly fi: Float64Array;
+  private readonly yNew: Float64Array;
+  private readonly mark: NonFiniteMark;
+  private started = false;
+  /** f0 holds f(t, y) for the current accepted state. */
+  private haveF0 = false;
+
+  constructor(private readonly ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number,
+    private readonly jacobian?: (t: number, y: Float64Array, jac: Float64Array) => void,
+    private readonly autonomous = false) {
+    const n = ctx.n;
+    this.t = t0;
+    this.y = Float64Array.from(y0);
+    this.f0 = new Float64Array(n);
+    this.ft = new Float64Array(n);
+    this.jac = new Float64Array(n * n);
+    this.matrix = new Float64Array(n * n);
+    this.pivot = new Int32Array(n);
+    this.u = Array.from({ length: STAGES }, () => new Float64Array(n));
+    this.arg = new Float64Array(n);
+    this.fi = new Float64Array(n);
+    this.yNew = new Float64Array(n);
+    this.mark = new NonFiniteMark(n);
+    if (firstStep !== undefined) this.h = firstStep;
+  }
+
+  step(tEnd: number): StepOutcome {
+    const { ctx, y, f0 } = this;
+    if (!this.haveF0) {
+      if (!ctx.rhs.call(this.t, y, f0)) return failure(nonFiniteStatus(ctx, y, y, f0), this.t, y);
+      this.haveF0 = true;
+    }
+    if (!this.started) {
+      if (Number.isNaN(this.h)) this.h = initialStep(ctx, this.t, y, f0, tEnd, 3);
+      this.started = true;
+    }
+    const derivatives = this.formDerivatives(tEnd);
+    if (derivatives) return derivatives;
+    this.mark.clear();
+    return this.attempt(tEnd);
+  }
+
+  /** Forms J = ∂f/∂y and ∂f/∂t at the accepted (t, y); a failure when f is not finite there. */
+  private formDerivatives(tEnd: number): StepOutcome | null {
+    const { ctx, y, f0, jac, fi, ft } = this;
+    const n = ctx.n;
+    const t = this.t;
+    ctx.counters.jacobians++;
+    if (this.jacobian) {
+      this.jacobian(t, y, jac);
+      for (let i = 0; i < n * n; i++) if (!Number.isFinite(jac[i])) return failure(Status.UndefinedRate, t, y);
+    } else {
+      const probe = this.arg;
+      probe.set(y);
+      for (let j = 0; j < n; j++) {
+        const yj = y[j];
+        // The increment scales with |y_j|, and below it with atol_j/rtol: the size under which
+        // the tolerances stop asking for relative accuracy in that state.
+        let delta = SQRT_EPS * Math.max(Math.abs(yj), ctx.options.atol[j] / ctx.options.rtol);
+        probe[j] = yj + delta;
+        delta = probe[j] - yj;
+        if (!ctx.rhs.call(t, probe, fi)) {
+          probe[j] = yj - delta;
+          delta = probe[j] - yj;
+          if (!ctx.rhs.call(t, probe, fi)) return failure(nonFiniteStatus(ctx, y, probe, fi), t, probe);
+        }
+        for (let i = 0; i < n; i++) jac[i * n + j] = (fi[i] - f0[i]) / delta;
+        probe[j] = yj;
+      }
+    }
+    if (this.autonomous) {
+      ft.fill(0);
+      return null;
+    }
+    // Forward difference, or backward where a forward one would evaluate f past tEnd.
+    let dt = SQRT_EPS * Math.max(Math.abs(t), Math.abs(this.h));
+    const tp = t + dt <= tEnd ? t + dt : t - dt;
+    dt = tp - t;
+    if (!ctx.rhs.call(tp, y, fi)) return failure(nonFiniteStatus(ctx, y, y, fi), tp, y);
+    for (let i = 0; i < n; i++) ft[i] = (fi[i] - f0[i]) / dt;
+    return null;
+  }
+
+  private attempt(tEnd: number): StepOutcome {
+    const { ctx, y, f0, ft, jac, matrix, pivot, u, arg, fi, yNew } = this;
+    const n = ctx.n;
+    const C = RODAS_CONTROL;
+    const { a, cc, c, gammaSum, m, gamma } = RODAS;
+    let rejected = false;
+    for (;;) {
+      const budget = spendAttempt(ctx, this.t, y);
+      if (budget) return budget;
+      const t = this.t;
+      const trial = trialStep(t, this.h, tEnd, ctx.options.maxStep);
+      const tNew = trial.last ? tEnd : t + trial.h;
+      const h = tNew - t;
+      const diag = 1 / (h * gamma);
+      for (let i = 0; i < n * n; i++) matrix[i] = -jac[i];
+      for (let i = 0; i < n; i++) matrix[i * n + i] += diag;
+      ctx.counters.factorizations++;
+      let ok = luFactor(matrix, n, pivot);
+      if (ok) {
+        for (let s = 0; s < STAGES && ok; s++) {
+          const ui = u[s];
+          if (s === 0) {
+            ui.set(f0);
+          } else {
+            const as = a[s];
+            for (let i = 0; i < n; i++) {
+              let acc = y[i];
+              for (let j = 0; j < s; j++) acc += as[j] * u[j][i];
+              arg[i] = acc;
+            }
+            if (!ctx.rhs.call(t + c[s] * h, arg, fi)) {
+              this.mark.set(ctx, t + c[s] * h, y, arg, fi);
+              ok = false;
+              break;
+            }
+            const cs = cc[s];
+            for (let i = 0; i < n; i++) {
+              let acc = fi[i];
+              for (let j = 0; j < s; j++) acc += (cs[j] / h) * u[j][i];
+              ui[i] = acc;
+            }
+          }
+          if (gammaSum[s] !== 0) for (let i = 0; i < n; i++) ui[i] += h * gammaSum[s] * ft[i];
+          luSolve(matrix, n, pivot, ui);
+          for (let i = 0; i < n; i++) if (!Number.isFinite(ui[i])) ok = false;
+        }
+      }
+      if (!ok) {
+        ctx.counters.rejected++;
+        rejected = true;
+        this.h = h * C.nonFiniteShrink;
+        if (this.h < minStep(t)) return collapseFailure(ctx, t, y, f0, this.mark);
+        continue;
+      }
+      for (let i = 0; i < n; i++) {
+        let acc = y[i];
+        for (let j = 0; j < STAGES; j++) acc += m[j] * u[j][i];
+        yNew[i] = acc;
+      }
+      const norm = errorNorm(u[STAGES - 1], y, yNew, ctx.options);
+      if (norm <= 1) {
+        const segment = this.segment(t, tNew, yNew);
+        let factor = norm === 0 ? C.maxFactor : C.safety * Math.pow(norm, -C.exponent);
+        factor = Math.min(rejected ? 1 : C.maxFactor, Math.max(C.minFactor, factor));
+        const planned = Math.min(this.h, ctx.options.maxStep);
+        this.h = trial.last ? Math.max(h * factor, planned) : h * factor;
+        this.t = tNew;
+        y.set(yNew);
+        this.haveF0 = false;
+        ctx.counters.steps++;
+        return { ok: true, segment };
+      }
+      ctx.counters.rejected++;
+      rejected = true;
+      this.mark.clear();
+      const factor = Number.isFinite(norm) ? Math.max(C.minFactor, C.safety * Math.pow(norm, -C.exponent)) : C.minFactor;
+      this.h = h * factor;
+      if (this.h < minStep(t)) return collapseFailure(ctx, t, y, f0, this.mark);
+    }
+  }
+
+  private segment(t0: number, t1: number, y1: Float64Array): RosenbrockSegment {
+    const n = this.ctx.n;
+    const { e, g } = RODAS_DENSE;
+    const data = new Float64Array(4 * n);
+    const u = this.u;
+    for (let i = 0; i < n; i++) {
+      let p = 0;
+      let q = 0;
+      for (let j = 0; j < STAGES; j++) {
+        p += e[j] * u[j][i];
+        q += g[j] * u[j][i];
+      }
+      data[i] = this.y[i];
+      data[n + i] = y1[i];
+      data[2 * n + i] = p;
+      data[3 * n + i] = q;
+    }
+    return new RosenbrockSegment(t0, t1, n, data);
+  }
+}
