@@ -1,0 +1,165 @@
+/**
+ * The one entry point of the ODE layer: `integrate` runs y' = f(t, y) from t0 to t1 with a
+ * chosen method and returns the end state, the dense output over the covered span, the work
+ * done and, on failure, where and why it stopped. `denseAt` evaluates that dense output at
+ * any covered time.
+ *
+ * Events and schedules are the caller's: it calls `integrate` piecewise between event
+ * times, passing `nextStep` of one piece as `firstStep` of the next.
+ */
+import {
+  type OdeContext, type Stepper, beyondBound, newContext, resolveOptions,
+} from './ode-control.ts';
+import { Dopri5Stepper } from './dopri5.ts';
+import { RosenbrockStepper } from './rosenbrock.ts';
+import { FixedStepper } from './fixed-step.ts';
+import { EULER, HEUN, RK4 } from './explicit-rk.ts';
+import {
+  type Counters, type DenseSegment, type MessageDetail, type Rhs, type SolverOptions, type Where,
+  MESSAGES, Status, newCounters,
+} from './ode-types.ts';
+
+/**
+ * `auto` starts with dopri5 and switches to `stiff` (RODAS) when dopri5 reports stiffness;
+ * `rk4`, `heun` and `euler` are fixed-step and need `step`.
+ */
+export const METHODS = ['auto', 'dopri5', 'stiff', 'rk4', 'heun', 'euler'] as const;
+export type Method = (typeof METHODS)[number];
+export type MethodUsed = Exclude<Method, 'auto'>;
+
+export interface IntegrateOptions extends SolverOptions {
+  /** Default 'auto'. */
+  readonly method?: Method;
+  /** The step of the fixed-step methods (same unit as t). */
+  readonly step?: number;
+}
+
+export interface IntegrateResult {
+  readonly status: Status;
+  /** From `MESSAGES`: says where the run stopped. */
+  readonly message: string;
+  /** Time reached: t1 on success, else the last accepted time. */
+  readonly t: number;
+  /** State at `t` (a copy). */
+  readonly y: Float64Array;
+  /** One per accepted step, in order, covering [t0, t] without gaps. */
+  readonly segments: readonly DenseSegment[];
+  readonly counters: Counters;
+  /** The method that made the last step ('dopri5' or 'stiff' for auto). */
+  readonly method: MethodUsed;
+  /** Time at which auto switched to the stiff method, or null. */
+  readonly switchedToStiff: number | null;
+  /** Time at which dopri5 first found the problem stiff (auto then switches), or null. */
+  readonly stiffnessDetected: number | null;
+  /** Step size to start a continuation with (pass as `firstStep`). */
+  readonly nextStep: number;
+  /** On failure, the time and state the message speaks of (may be a trial state past `t`). */
+  readonly failure: Where | null;
+  readonly detail?: MessageDetail;
+}
+
+function checkInputs(t0: number, y0: ArrayLike<number>, t1: number, method: Method, step: number | undefined): void {
+  if (!Number.isFinite(t0)) throw new RangeError(`t0 must be a finite number; it is ${t0}`);
+  if (!Number.isFinite(t1)) throw new RangeError(`t1 must be a finite number; it is ${t1}`);
+  if (t1 < t0) throw new RangeError(`t1 must not be before t0 (t0 = ${t0}, t1 = ${t1})`);
+  if (y0.length < 1) throw new RangeError('y0 must hold at least one state');
+  for (let i = 0; i < y0.length; i++) {
+    if (!Number.isFinite(y0[i])) throw new RangeError(`y0[${i}] must be a finite number; it is ${y0[i]}`);
+  }
+  if (!(METHODS as readonly string[]).includes(method)) {
+    throw new RangeError(`method must be one of ${METHODS.join(', ')}; it is ${String(method)}`);
+  }
+  const fixed = method === 'rk4' || method === 'heun' || method === 'euler';
+  if (fixed && step === undefined) throw new RangeError(`step is required for method ${method}`);
+  if (step !== undefined && !(Number.isFinite(step) && step > 0)) {
+    throw new RangeError(`step must be a positive finite number; it is ${String(step)}`);
+  }
+}
+
+function makeStepper(ctx: OdeContext, method: MethodUsed, t0: number, y0: ArrayLike<number>, options: IntegrateOptions): Stepper {
+  const first = ctx.options.firstStep;
+  switch (method) {
+    case 'dopri5': return new Dopri5Stepper(ctx, t0, y0, first);
+    case 'stiff': return new RosenbrockStepper(ctx, t0, y0, first, options.jacobian, options.autonomous ?? false);
+    case 'rk4': return new FixedStepper(ctx, RK4, t0, y0, options.step!);
+    case 'heun': return new FixedStepper(ctx, HEUN, t0, y0, options.step!);
+    case 'euler': return new FixedStepper(ctx, EULER, t0, y0, options.step!);
+  }
+}
+
+/**
+ * Integrates y' = f(t, y), y(t0) = y0 from t0 to t1 (t1 ≥ t0), never evaluating f past t1.
+ * Numerical failure is a result (`status` other than success, with `message` and
+ * `failure`); invalid input throws a RangeError naming the input. Every loop is bounded by
+ * `maxSteps` step attempts. Cost: about 6 evaluations per step for dopri5, n + 7 per step
+ * for the stiff method (n + 6 when `autonomous`), s per step for a fixed-step method of s
+ * stages, plus one or two to start.
+ */
+export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number, options: IntegrateOptions = {}): IntegrateResult {
+  const method = options.method ?? 'auto';
+  checkInputs(t0, y0, t1, method, options.step);
+  const start = Float64Array.from(y0);
+  const resolved = resolveOptions(options, start.length, t1 - t0);
+  const counters = newCounters();
+  const ctx = newContext(f, start, resolved, counters, t1 - t0);
+  let used: MethodUsed = method === 'auto' ? 'dopri5' : method;
+  let stepper = makeStepper(ctx, used, t0, start, options);
+  const segments: DenseSegment[] = [];
+  let stiffnessDetected: number | null = null;
+
+  const finish = (status: Status, at: Where, detail?: MessageDetail): IntegrateResult => ({
+    status,
+    message: MESSAGES[status](at, detail),
+    t: stepper.t,
+    y: Float64Array.from(stepper.y),
+    segments,
+    counters,
+    method: used,
+    switchedToStiff: counters.switchedToStiff,
+    stiffnessDetected,
+    nextStep: Number.isFinite(stepper.h) ? stepper.h : resolved.firstStep ?? t1 - t0,
+    failure: status === Status.Success ? null : at,
+    detail,
+  });
+
+  while (stepper.t < t1) {
+    const outcome = stepper.step(t1);
+    if (!outcome.ok) return finish(outcome.status, outcome.at, outcome.detail);
+    segments.push(outcome.segment);
+    if (beyondBound(ctx, stepper.y)) return finish(Status.Blowup, { t: stepper.t, y: Float64Array.from(stepper.y) });
+    if (stepper instanceof Dopri5Stepper && stepper.stiffAt !== null) {
+      if (stiffnessDetected === null) stiffnessDetected = stepper.stiffAt;
+      if (method === 'auto' && stepper.t < t1) {
+        counters.switchedToStiff = stepper.t;
+        used = 'stiff';
+        stepper = new RosenbrockStepper(ctx, stepper.t, stepper.y, stepper.h, options.jacobian, options.autonomous ?? false);
+      }
+    }
+  }
+  return finish(Status.Success, { t: stepper.t, y: Float64Array.from(stepper.y) });
+}
+
+/**
+ * Index of the segment whose [t0, t1] holds t (binary search; at a shared end the later
+ * segment), or -1 when t is outside the covered span. O(log segments).
+ */
+export function findSegment(segments: readonly DenseSegment[], t: number): number {
+  const count = segments.length;
+  if (count === 0 || !(t >= segments[0].t0) || !(t <= segments[count - 1].t1)) return -1;
+  let lo = 0;
+  let hi = count - 1;
+  while (lo < hi) {
+    const mid = (lo + hi + 1) >> 1;
+    if (segments[mid].t0 <= t) lo = mid;
+    else hi = mid - 1;
+  }
+  return lo;
+}
+
+/** Writes the dense solution at t into out; false (out untouched) when t is outside the covered span. */
+export function denseAt(segments: readonly DenseSegment[], t: number, out: Float64Array): boolean {
+  const i = findSegment(segments, t);
+  if (i < 0) return false;
+  segments[i].eval(t, out);
+  return true;
+}
