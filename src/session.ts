@@ -159,7 +159,7 @@ export class StudySession {
   }
 
   /** Nodes of every cell, rebuilt only for cells whose text changed. */
-  private nodes(): GraphNode[] {
+  private nodes(rebuilt: Set<string>): GraphNode[] {
     const all: GraphNode[] = [];
     const live = new Set<string>();
     this.cells.forEach((cell) => {
@@ -169,6 +169,7 @@ export class StudySession {
       if (!entry || entry.sig !== sig) {
         entry = { sig, nodes: this.withShapeProblems(cell, buildCellNodes(cell)) };
         this.built.set(cell.id, entry);
+        rebuilt.add(cell.id);
       }
       all.push(...entry.nodes);
     });
@@ -188,7 +189,10 @@ export class StudySession {
   }
 
   private evaluate(): { rerun: string[]; changed: string[] } {
-    const list = this.nodes();
+    // a rebuilt cell is reported again even when no node re-runs: its title, or a node it
+    // no longer has, changes its report
+    const rebuilt = new Set<string>();
+    const list = this.nodes(rebuilt);
     this.graph = buildGraph(list, (cell, path) => resolvePath(path, this.indexOf(cell)));
     const changedNames = new Set<string>();
     const rerunCells = new Set<string>();
@@ -234,7 +238,7 @@ export class StudySession {
     const cellReports: CellReport[] = [];
     for (const cell of this.cells) {
       let r = this.reports.get(cell.id);
-      if (!r || rerunCells.has(cell.id) || r.index !== this.indexOf(cell.id)) {
+      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== this.indexOf(cell.id)) {
         const fresh = this.cellReport(cell);
         if (!r || JSON.stringify(r) !== JSON.stringify(fresh)) changed.push(cell.id);
         r = fresh;
