@@ -19,6 +19,13 @@ export type ParseResult = { ok: true; expr: Expr } | { ok: false; error: ExprPro
 export const MAX_LENGTH = 4000;
 const MAX_DEPTH = 200;
 
+/**
+ * "%" followed by something that can start a value. mathjs then tries to read that value to
+ * tell a remainder from a percentage, and when the try fails it keeps the percentage and
+ * drops the rest of the text unread ("5 % (2" would be 0.05).
+ */
+const PERCENT_BEFORE_TERM = /%\s*(?!(?:and|or)(?![A-Za-z0-9_$]))[A-Za-z0-9_$.(\[{"'+\-\u0080-\uffff]/;
+
 const BINARY: Record<string, BinaryOp> = { add: '+', subtract: '-', multiply: '*', divide: '/', pow: '^' };
 const COMPARE: Record<string, CompareOp> = {
   smaller: '<', larger: '>', smallerEq: '<=', largerEq: '>=', equal: '==', unequal: '!=',
@@ -37,6 +44,8 @@ export function parseExpression(text: unknown): ParseResult {
   if (text.length > MAX_LENGTH) return fail(`is too long (${text.length} characters; at most ${MAX_LENGTH})`);
   const bad = /[;\n\r]/.exec(text);
   if (bad) return fail('must be a single expression (no ";" or line breaks)', [bad.index, bad.index + 1]);
+  const percent = PERCENT_BEFORE_TERM.exec(text);
+  if (percent) return fail('may not use "%" before a value: "%" is percent only after a number ("5%"), and there is no remainder operator', [percent.index, percent.index + 1]);
   const hash = text.indexOf('#');
   if (hash >= 0) return fail('may not contain "#": the parser would read the rest of the text as a comment and ignore it', [hash, hash + 1]);
   let node: any;
