@@ -80,7 +80,7 @@ function makeStepper(ctx: OdeContext, method: MethodUsed, t0: number, y0: ArrayL
   const first = ctx.options.firstStep;
   switch (method) {
     case 'dopri5': return new Dopri5Stepper(ctx, t0, y0, first);
-    case 'stiff': return new RosenbrockStepper(ctx, t0, y0, first, options.jacobian, options.autonomous ?? false);
+    case 'stiff': return new RosenbrockStepper(ctx, t0, y0, first, options.jacobian, options.autonomous ?? false, options.denseErrorControl ?? true);
     case 'rk4': return new FixedStepper(ctx, RK4, t0, y0, options.step!);
     case 'heun': return new FixedStepper(ctx, HEUN, t0, y0, options.step!);
     case 'euler': return new FixedStepper(ctx, EULER, t0, y0, options.step!);
@@ -91,9 +91,10 @@ function makeStepper(ctx: OdeContext, method: MethodUsed, t0: number, y0: ArrayL
  * Integrates y' = f(t, y), y(t0) = y0 from t0 to t1 (t1 ≥ t0), never evaluating f past t1.
  * Numerical failure is a result (`status` other than success, with `message` and
  * `failure`); invalid input throws a RangeError naming the input. Every loop is bounded by
- * `maxSteps` step attempts. Cost: about 6 evaluations per step for dopri5, n + 7 per step
- * for the stiff method (n + 6 when `autonomous`), s per step for a fixed-step method of s
- * stages, plus one or two to start.
+ * `maxSteps` step attempts. Cost: about 6 evaluations per step for dopri5; n + 8 per step
+ * for the stiff method (one less when `autonomous`, another less without
+ * `denseErrorControl`, n less with an analytic `jacobian`); s per step for a fixed-step
+ * method of s stages; plus one or two to start.
  */
 export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number, options: IntegrateOptions = {}): IntegrateResult {
   const method = options.method ?? 'auto';
@@ -132,7 +133,8 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
       if (method === 'auto' && stepper.t < t1) {
         counters.switchedToStiff = stepper.t;
         used = 'stiff';
-        stepper = new RosenbrockStepper(ctx, stepper.t, stepper.y, stepper.h, options.jacobian, options.autonomous ?? false);
+        stepper = new RosenbrockStepper(ctx, stepper.t, stepper.y, stepper.h, options.jacobian, options.autonomous ?? false,
+          options.denseErrorControl ?? true);
       }
     }
   }

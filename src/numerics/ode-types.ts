@@ -41,6 +41,13 @@ export interface SolverOptions {
    * costs one evaluation per step. Default false.
    */
   readonly autonomous?: boolean;
+  /**
+   * The stiff method also bounds the estimated error of its dense output at mid-step, so
+   * that values between steps (crossings, maxima) meet the tolerance too. On stiff problems
+   * with smooth forcing this costs extra steps; set false when only step ends matter.
+   * Default true.
+   */
+  readonly denseErrorControl?: boolean;
 }
 
 /** How a run ended. */
