@@ -12,7 +12,7 @@ import {
   type OdeContext, type StepOutcome, type Stepper, failure, nonFiniteStatus, spendAttempt,
 } from './ode-control.ts';
 import { type ButcherTableau, RkWork, rkStep } from './explicit-rk.ts';
-import type { DenseSegment } from './ode-types.ts';
+import { type DenseSegment, Status } from './ode-types.ts';
 
 /** Cubic Hermite interpolant on [t0, t1] through (y0, f0) and (y1, f1). */
 export class HermiteSegment implements DenseSegment {
@@ -101,7 +101,11 @@ export class FixedStepper implements Stepper {
     const h = tNew - t;
     const f0 = Float64Array.from(k[0]);
     const bad = rkStep(this.tab, ctx.rhs, t, y, h, work, yNew);
-    if (bad >= 0) return failure(nonFiniteStatus(ctx, y, work.arg, k[bad]), t + this.tab.c[bad] * h, work.arg);
+    if (bad >= 0) {
+      // A blow-up is reported at the last accepted state; an undefined rate where f failed.
+      const status = nonFiniteStatus(ctx, y, work.arg, k[bad]);
+      return status === Status.Blowup ? failure(status, t, y) : failure(status, t + this.tab.c[bad] * h, work.arg);
+    }
     // The rate at the new point: the Hermite slope here and the next step's first stage.
     const f1 = work.arg;
     if (!ctx.rhs.call(tNew, yNew, f1)) return failure(nonFiniteStatus(ctx, y, yNew, f1), tNew, yNew);

@@ -125,7 +125,10 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
 
   while (stepper.t < t1) {
     const outcome = stepper.step(t1);
-    if (!outcome.ok) return finish(outcome.status, outcome.at, outcome.detail);
+    if (!outcome.ok) {
+      const hint = outcome.status === Status.StepCollapse && used !== 'stiff';
+      return finish(outcome.status, outcome.at, hint ? { ...outcome.detail, suggestStiff: true } : outcome.detail);
+    }
     segments.push(outcome.segment);
     if (beyondBound(ctx, stepper.y)) return finish(Status.Blowup, { t: stepper.t, y: Float64Array.from(stepper.y) });
     if (stepper instanceof Dopri5Stepper && stepper.stiffAt !== null) {

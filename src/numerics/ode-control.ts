@@ -275,11 +275,12 @@ export class NonFiniteMark {
 
 /**
  * The failure for a step that fell below `minStep` at the accepted (t, y) with f0 = f(t, y):
- * an undefined rate (or blow-up) when non-finite rates forced the last rejections, a blow-up
- * near a singularity, else a collapsed step.
+ * an undefined rate at the trial state where f failed, when that forced the last
+ * rejections; a blow-up (at the accepted state, the last one before the singularity) when
+ * that failure looked like one or the state is near a singularity; else a collapsed step.
  */
 export function collapseFailure(ctx: OdeContext, t: number, y: Float64Array, f0: Float64Array, mark: NonFiniteMark): StepOutcome {
-  if (mark.active) return failure(mark.status, mark.t, mark.y);
+  if (mark.active) return mark.status === Status.Blowup ? failure(Status.Blowup, t, y) : failure(mark.status, mark.t, mark.y);
   if (nearSingularity(ctx, y, f0)) return failure(Status.Blowup, t, y);
   return failure(Status.StepCollapse, t, y);
 }

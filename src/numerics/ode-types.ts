@@ -106,6 +106,8 @@ export interface MessageDetail {
   /** The budget that ran out. */
   readonly budget?: 'steps' | 'evaluations';
   readonly limit?: number;
+  /** The run used an explicit method: a collapsed step suggests the stiff method. */
+  readonly suggestStiff?: boolean;
 }
 
 /**
@@ -133,9 +135,9 @@ export const MESSAGES: { readonly [S in Status]: (at: Where, detail?: MessageDet
     `the solution grows without bound near t = ${formatForMessage(at.t)} (state ${formatState(at.y)})`,
   [Status.UndefinedRate]: (at) =>
     `the rate is not a finite number at t = ${formatForMessage(at.t)}, state ${formatState(at.y)}`,
-  [Status.StepCollapse]: (at) =>
+  [Status.StepCollapse]: (at, detail) =>
     `the step size fell to the resolution of t near t = ${formatForMessage(at.t)} (state ${formatState(at.y)}); ` +
-    'the rate may jump there, or the problem needs the stiff method',
+    'the rate may jump there or change faster than t can resolve' + (detail?.suggestStiff ? ' (try the stiff method)' : ''),
   [Status.Budget]: (at, detail) =>
     `stopped at t = ${formatForMessage(at.t)} (state ${formatState(at.y)}) after ` +
     (detail?.budget === 'evaluations'

@@ -91,6 +91,12 @@ export const RODAS_CONTROL = {
 } as const;
 
 const SQRT_EPS = Math.sqrt(Number.EPSILON);
+
+/** The factor a rejected step shrinks by for an error norm above 1 (NaN: the smallest). */
+function shrinkFactor(norm: number): number {
+  const C = RODAS_CONTROL;
+  return Number.isFinite(norm) ? Math.max(C.minFactor, C.safety * Math.pow(norm, -C.exponent)) : C.minFactor;
+}
 const STAGES = 6;
 
 /** The continuous solution of one RODAS step (see `RODAS_DENSE`). */
@@ -273,15 +279,20 @@ export class RosenbrockStepper implements Stepper {
         for (let j = 0; j < STAGES; j++) acc += m[j] * u[j][i];
         yNew[i] = acc;
       }
-      let norm = errorNorm(u[STAGES - 1], y, yNew, ctx.options);
-      if (norm <= 1 && this.denseControl) {
+      const stepNorm = errorNorm(u[STAGES - 1], y, yNew, ctx.options);
+      let norm = stepNorm;
+      let nonFinite = false;
+      if (stepNorm <= 1 && this.denseControl) {
         const dense = this.denseError(t, h, yNew);
         if (dense === null) {
           this.mark.set(ctx, t + DENSE_CHECK_THETA * h, y, this.midError, fi);
+          nonFinite = true;
           norm = NaN;
-        } else {
-          norm = Math.max(norm, dense);
+        } else if (!(dense > 1 && h * shrinkFactor(dense) < minStep(t))) {
+          norm = Math.max(stepNorm, dense);
         }
+        // Otherwise a transient faster than t can resolve: the step stands on its own error
+        // estimate, since no representable step could make its interpolant accurate.
       }
       if (norm <= 1) {
         const segment = this.segment(t, tNew, yNew);
@@ -297,9 +308,8 @@ export class RosenbrockStepper implements Stepper {
       }
       ctx.counters.rejected++;
       rejected = true;
-      this.mark.clear();
-      const factor = Number.isFinite(norm) ? Math.max(C.minFactor, C.safety * Math.pow(norm, -C.exponent)) : C.minFactor;
-      this.h = h * factor;
+      if (!nonFinite) this.mark.clear();
+      this.h = h * shrinkFactor(norm);
       if (this.h < minStep(t)) return collapseFailure(ctx, t, y, f0, this.mark);
     }
   }
