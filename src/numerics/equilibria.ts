@@ -293,7 +293,7 @@ export function findEquilibria(
 function sortedSamples(ys: readonly number[], fs: readonly number[]): [number[], number[]] {
   let inOrder = true;
   for (let i = 1; i < ys.length && inOrder; i++) inOrder = ys[i - 1] < ys[i];
-  if (inOrder) return [ys.slice(), fs.slice()];
+  if (inOrder) return [ys as number[], fs as number[]];
   const order = new Uint32Array(ys.length);
   for (let i = 0; i < order.length; i++) order[i] = i;
   order.sort((a, b) => ys[a] - ys[b]);
@@ -304,22 +304,41 @@ function sortedSamples(ys: readonly number[], fs: readonly number[]): [number[],
 
 /** The median of |f| over the finite nonzero samples: the typical size of f, robust to poles. */
 function typicalSize(fs: readonly number[]): number {
-  const a = new Float64Array(fs.length);
-  let n = 0;
-  for (const v of fs) if (Number.isFinite(v) && v !== 0) a[n++] = Math.abs(v);
+  const a: number[] = [];
+  for (const v of fs) if (Number.isFinite(v) && v !== 0) a.push(Math.abs(v));
+  const n = a.length;
   if (n === 0) return 0;
-  const sorted = a.subarray(0, n).sort();
-  const m = n >> 1;
-  return n % 2 ? sorted[m] : 0.5 * (sorted[m - 1] + sorted[m]);
+  const hi = select(a, n >> 1);
+  return n % 2 ? hi : 0.5 * (select(a, (n >> 1) - 1) + hi);
+}
+
+/** The k-th smallest element (0-based), by Hoare's quickselect (CACM 1961, Algorithm 65); reorders a. */
+function select(a: number[], k: number): number {
+  let lo = 0, hi = a.length - 1;
+  while (lo < hi) {
+    const pivot = a[(lo + hi) >> 1];
+    let i = lo, j = hi;
+    while (i <= j) {
+      while (a[i] < pivot) i++;
+      while (a[j] > pivot) j--;
+      if (i <= j) { const t = a[i]; a[i] = a[j]; a[j] = t; i++; j--; }
+    }
+    if (k <= j) hi = j; else if (k >= i) lo = i; else return a[k];
+  }
+  return a[k];
 }
 
 /** Local size of f: the largest finite |f| among the initial grid samples within two cells of y. */
 function nearbySize(grid: readonly number[], from: number, h: number): (y: number) => number {
   const n = grid.length;
-  const window = new Float64Array(n);
+  const abs = new Float64Array(n), window = new Float64Array(n);
+  for (let i = 0; i < n; i++) abs[i] = Number.isFinite(grid[i]) ? Math.abs(grid[i]) : 0;
   for (let i = 0; i < n; i++) {
-    let m = 0;
-    for (let k = Math.max(0, i - 2); k <= Math.min(n - 1, i + 2); k++) if (Number.isFinite(grid[k])) m = Math.max(m, Math.abs(grid[k]));
+    let m = abs[i];
+    if (i > 0 && abs[i - 1] > m) m = abs[i - 1];
+    if (i > 1 && abs[i - 2] > m) m = abs[i - 2];
+    if (i + 1 < n && abs[i + 1] > m) m = abs[i + 1];
+    if (i + 2 < n && abs[i + 2] > m) m = abs[i + 2];
     window[i] = m;
   }
   return (y) => window[Math.min(n - 1, Math.max(0, Math.round((y - from) / h)))];
