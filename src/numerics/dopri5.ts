@@ -176,7 +176,7 @@ export class Dopri5Stepper implements Stepper {
       const trial = trialStep(t, this.h, tEnd, ctx.options.maxStep);
       const tNew = trial.last ? tEnd : t + trial.h;
       const h = tNew - t;
-      const bad = rkStep(DOPRI5, ctx.rhs, t, y, h, work, yNew);
+      const bad = rkStep(DOPRI5, ctx.rhs, t, y, h, work, yNew, tNew);
       if (bad >= 0) {
         this.mark.set(ctx, t + DOPRI5.c[bad] * h, y, work.arg, k[bad]);
         ctx.counters.rejected++;

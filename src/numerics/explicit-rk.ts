@@ -51,10 +51,13 @@ export class RkWork {
  * One step of size h from (t, y). `work.k[0]` must already hold f(t, y). Writes the new
  * solution into `yNew`; for an FSAL tableau the last stage (f at t + h, yNew) is evaluated
  * too. Returns -1 on success, else the index of the first stage whose f was not finite
- * (its state is then in `work.arg`, its rate in `work.k[index]`). Costs s - 1 evaluations.
+ * (its state is then in `work.arg`, its rate in `work.k[index]`). Stages with c_i = 1 are
+ * evaluated at `tNew` (default t + h), so that a step cut to land on an end time never
+ * evaluates f past it through rounding. Costs s - 1 evaluations.
  */
 export function rkStep(
   tab: ButcherTableau, rhs: Evaluator, t: number, y: Float64Array, h: number, work: RkWork, yNew: Float64Array,
+  tNew = t + h,
 ): number {
   const { c, a } = tab;
   const s = c.length;
@@ -67,7 +70,7 @@ export function rkStep(
       for (let j = 0; j < i; j++) acc += row[j] * k[j][m];
       arg[m] = y[m] + h * acc;
     }
-    if (!rhs.call(t + c[i] * h, arg, k[i])) return i;
+    if (!rhs.call(c[i] === 1 ? tNew : t + c[i] * h, arg, k[i])) return i;
   }
   if (tab.fsal) {
     yNew.set(arg);

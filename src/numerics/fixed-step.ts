@@ -100,7 +100,7 @@ export class FixedStepper implements Stepper {
     const tNew = this.index + 1 >= total ? tEnd : this.origin + (this.index + 1) * this.h;
     const h = tNew - t;
     const f0 = Float64Array.from(k[0]);
-    const bad = rkStep(this.tab, ctx.rhs, t, y, h, work, yNew);
+    const bad = rkStep(this.tab, ctx.rhs, t, y, h, work, yNew, tNew);
     if (bad >= 0) {
       // A blow-up is reported at the last accepted state; an undefined rate where f failed.
       const status = nonFiniteStatus(ctx, y, work.arg, k[bad]);

@@ -138,6 +138,7 @@ export class RosenbrockStepper implements Stepper {
   private readonly fi: Float64Array;
   private readonly yNew: Float64Array;
   private readonly midError: Float64Array;
+  private readonly slope: Float64Array;
   private readonly mark: NonFiniteMark;
   private started = false;
   /** f0 holds f(t, y) for the current accepted state. */
@@ -159,6 +160,7 @@ export class RosenbrockStepper implements Stepper {
     this.fi = new Float64Array(n);
     this.yNew = new Float64Array(n);
     this.midError = new Float64Array(n);
+    this.slope = new Float64Array(n);
     this.mark = new NonFiniteMark(n);
     if (firstStep !== undefined) this.h = firstStep;
   }
@@ -250,8 +252,9 @@ export class RosenbrockStepper implements Stepper {
               for (let j = 0; j < s; j++) acc += as[j] * u[j][i];
               arg[i] = acc;
             }
-            if (!ctx.rhs.call(t + c[s] * h, arg, fi)) {
-              this.mark.set(ctx, t + c[s] * h, y, arg, fi);
+            const ts = c[s] === 1 ? tNew : t + c[s] * h;
+            if (!ctx.rhs.call(ts, arg, fi)) {
+              this.mark.set(ctx, ts, y, arg, fi);
               ok = false;
               break;
             }
@@ -328,7 +331,7 @@ export class RosenbrockStepper implements Stepper {
     const { e, g } = RODAS_DENSE;
     const th = DENSE_CHECK_THETA;
     const th1 = 1 - th;
-    const slope = new Float64Array(n);
+    const slope = this.slope;
     for (let i = 0; i < n; i++) {
       let p = 0;
       let q = 0;

@@ -352,19 +352,22 @@ describe('runs that restart and runs of zero length', () => {
     assert.deepEqual([...res.y], [2]);
   });
 
-  it('no method evaluates f past t1 (nor before t0)', () => {
+  it('no method evaluates f past t1 (nor before t0), also for ends that are not round numbers', () => {
     const p = PROBLEMS[4];
-    for (const method of ['dopri5', 'stiff', 'auto', 'rk4', 'heun', 'euler'] as const) {
-      let lo = Infinity;
-      let hi = -Infinity;
-      const f: Rhs = (t, y, dy) => {
-        lo = Math.min(lo, t);
-        hi = Math.max(hi, t);
-        p.f(t, y, dy);
-      };
-      const res = integrate(f, 100, p.y0, 100 + 5000, { method, step: 333 });
-      assert.equal(res.status, 'success');
-      assert.ok(lo >= 100 && hi <= 5100, `${method}: f called on [${lo}, ${hi}]`);
+    for (const [t0, t1] of [[100, 5100], [1 / 3, 1 / 3 + 0.7 * HOUR], [0.1, 0.3]]) {
+      for (const method of ['dopri5', 'stiff', 'auto', 'rk4', 'heun', 'euler'] as const) {
+        let lo = Infinity;
+        let hi = -Infinity;
+        const f: Rhs = (t, y, dy) => {
+          lo = Math.min(lo, t);
+          hi = Math.max(hi, t);
+          p.f(t, y, dy);
+        };
+        const res = integrate(f, t0, p.y0, t1, { method, step: (t1 - t0) / 7.3 });
+        assert.equal(res.status, 'success');
+        assert.equal(res.t, t1);
+        assert.ok(lo >= t0 && hi <= t1, `${method} on [${t0}, ${t1}]: f called on [${lo}, ${hi}]`);
+      }
     }
   });
 });
