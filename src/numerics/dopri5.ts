@@ -66,6 +66,8 @@ export const DOPRI5_CONTROL = {
   /** PI controller: h_new = h · safety · err^(-alpha) · errOld^beta, alpha = 1/5 - 0.75·beta. */
   beta: 0.04,
   alpha: 0.2 - 0.75 * 0.04,
+  /** After a rejection, plain error-per-step control: h_new = h · safety · err^(-1/5). */
+  rejectExponent: 0.2,
   /** Floor on the previous error in the PI term, so that one tiny error does not force huge steps. */
   errFloor: 1e-4,
   /** Factor applied to a step whose stages met a non-finite rate. */
@@ -211,7 +213,7 @@ export class Dopri5Stepper implements Stepper {
       ctx.counters.rejected++;
       rejected = true;
       this.mark.clear();
-      const factor = Number.isFinite(norm) ? Math.max(C.minFactor, C.safety * Math.pow(norm, -0.2)) : C.minFactor;
+      const factor = Number.isFinite(norm) ? Math.max(C.minFactor, C.safety * Math.pow(norm, -C.rejectExponent)) : C.minFactor;
       this.h = h * factor;
       if (this.h < minStep(t)) return collapseFailure(ctx, t, y, k[0], this.mark);
     }
