@@ -63,10 +63,18 @@ export interface RunContext {
   binding(name: string): Binding | undefined;
   /** 'check' validates only; heavy cells skip their numerics. */
   readonly mode: 'run' | 'check';
+  /** The study names a declared name is computed from, directly or through others. */
+  upstream(name: string): ReadonlySet<string>;
 }
 
 export type Outcome =
-  | { readonly ok: true; readonly bindings: ReadonlyMap<string, Binding>; readonly output: Readonly<Record<string, unknown>> }
+  | {
+    readonly ok: true;
+    readonly bindings: ReadonlyMap<string, Binding>;
+    readonly output: Readonly<Record<string, unknown>>;
+    /** Why a defined name has no binding (a crossing that was not reached). */
+    readonly reasons?: ReadonlyMap<string, string>;
+  }
   | { readonly ok: false; readonly error: CellError; readonly bindings?: ReadonlyMap<string, Binding>; readonly output?: Readonly<Record<string, unknown>> };
 
 export interface GraphNode {

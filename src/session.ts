@@ -276,12 +276,30 @@ export class StudySession {
         const slot = this.slots.get(name);
         return slot && slot.kind !== 'unavailable' ? slot : undefined;
       },
+      upstream: (name) => this.upstream(name),
     };
     try {
       return node.run(ctx);
     } catch (err) {
       return { ok: false, error: { message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? CELL_PATH } };
     }
+  }
+
+  /** Names `name` is computed from, following the graph's resolved sources. */
+  private upstream(name: string): ReadonlySet<string> {
+    const out = new Set<string>();
+    const queue = [name];
+    while (queue.length) {
+      const key = this.graph.definers.get(queue.pop()!);
+      const sources = key ? this.graph.sources.get(key) : undefined;
+      for (const [n, s] of sources ?? []) {
+        if ('node' in s && !out.has(n)) {
+          out.add(n);
+          queue.push(n);
+        }
+      }
+    }
+    return out;
   }
 
   private cellReport(cell: Cell): CellReport & { index: number } {
@@ -312,7 +330,7 @@ export class StudySession {
 }
 
 function unavailable(node: GraphNode, name: string, outcome: Outcome, index: number): Unavailable {
-  const reason = !outcome.ok
+  const reason = outcome.ok && outcome.reasons?.has(name) ? outcome.reasons.get(name)! : !outcome.ok
     ? (outcome.error.message.startsWith('waits on') ? outcome.error.message : `${show(name)} has an error (${resolvePath(outcome.error.path, index)}: ${outcome.error.message})`)
     : typeof outcome.output.message === 'string' ? outcome.output.message : `${show(name)} was not computed`;
   return { kind: 'unavailable', cell: node.cell, reason, sig: `unavailable|${reason}` };

@@ -8,6 +8,7 @@ import { parameterNodes } from './parameters.ts';
 import { rateNodes } from './rate.ts';
 import { noteNodes } from './note.ts';
 import { pendingNodes } from './pending.ts';
+import { simulateNodes } from './simulate.ts';
 
 type Builder = (cell: any, at: string) => GraphNode[];
 
@@ -16,7 +17,7 @@ const BUILDERS: Record<Cell['kind'], Builder> = {
   rate: rateNodes,
   note: noteNodes,
   phase: pendingNodes,
-  simulate: pendingNodes,
+  simulate: simulateNodes,
   data: pendingNodes,
   fit: pendingNodes,
   nca: pendingNodes,

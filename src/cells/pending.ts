@@ -1,5 +1,5 @@
 /**
- * Cells whose computation is not in this version yet (phase, simulate, data, fit, nca).
+ * Cells whose computation is not in this version yet (phase, data, fit, nca).
  * Their fields are read and checked (shape, expression syntax, names, references to other
  * cells), their names are declared so that the graph is complete, and their report says
  * plainly that nothing was computed. Downstream readers of their names wait on them.
@@ -11,7 +11,6 @@ import { type Field, field, usesOf } from './fields.ts';
 
 const WHAT: Partial<Record<CellKind, string>> = {
   phase: 'the equilibria and the phase line',
-  simulate: 'the simulation',
   data: 'the measurements table',
   fit: 'the fit',
   nca: 'the non-compartmental analysis',
@@ -38,28 +37,6 @@ export function pendingNodes(cell: Cell, at: string): GraphNode[] {
         expr(c.sweep.to, `${at}.sweep.to`);
         if (typeof c.sweep.name === 'string') refs.push({ name: c.sweep.name, path: `${at}.sweep.name` });
       }
-      break;
-    case 'simulate':
-      list(c.rates).forEach((r, i) => ref(r, `${at}.rates[${i}]`));
-      expr(c.from, `${at}.from`);
-      expr(c.to, `${at}.to`);
-      expr(c.step, `${at}.step`);
-      expr(obj(c.tolerance).absolute, `${at}.tolerance.absolute`);
-      list(c.events).forEach((e, i) => {
-        const p = `${at}.events[${i}]`;
-        for (const k of ['at', 'every', 'for']) expr(obj(e)[k], `${p}.${k}`);
-        for (const action of ['add', 'set', 'infuse']) {
-          for (const [name, v] of Object.entries(obj(obj(e)[action]))) {
-            refs.push({ name, path: `${p}.${action}` });
-            expr(v, `${p}.${action}.${name}`);
-          }
-        }
-      });
-      list(c.find).forEach((f, i) => {
-        const p = `${at}.find[${i}]`;
-        for (const k of ['level', 'at', 'from', 'to']) expr(obj(f)[k], `${p}.${k}`);
-        if (typeof obj(f).name === 'string') defines.push({ name: f.name, path: `${p}.name` });
-      });
       break;
     case 'data':
       defines.push({ name: cellRef(cell.id), path: `${at}.id` });
@@ -89,9 +66,9 @@ export function pendingNodes(cell: Cell, at: string): GraphNode[] {
     cell: cell.id,
     defines,
     uses: [...usesOf(fields), ...refs],
-    allowsTime: cell.kind === 'simulate',
+    allowsTime: false,
     allowsStates: true,
-    pullsCoupledLaws: cell.kind === 'simulate' || cell.kind === 'fit',
+    pullsCoupledLaws: cell.kind === 'fit',
     signature: JSON.stringify(cell),
     problems,
     run: () => ({ ok: true, bindings: new Map(), output: { computed: false, message } }),

@@ -173,16 +173,17 @@ describe('errors land on the right cell with their path', () => {
 
   it('cells of later kinds are read and checked and say they are not computed', () => {
     const r = reportOf(study([
-      { id: 'law', kind: 'rate', state: 'T', unit: 'degC', rate: '-(T - 4 degC) / (3 h)', initial: '70 degC' },
-      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '8 h', find: [{ name: 't21', crossing: 'T', level: '21 degC' }] },
-      { id: 'p', kind: 'parameters', items: [{ name: 'x', value: 't21 * 2' }] },
-      { id: 'typo', kind: 'simulate', rates: ['lwa'], from: '0 h', to: '8 h' },
+      { id: 'samples', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, 10], [2, 6]] },
+      { id: 'pk', kind: 'nca', data: 'samples', time: 't', concentration: 'C', dose: '100 mg', route: 'iv-bolus' },
+      { id: 'p', kind: 'parameters', items: [{ name: 'x', value: 't_half * 2' }] },
+      { id: 'typo', kind: 'nca', data: 'sample', time: 't', concentration: 'C', dose: '100 mg', route: 'iv-bolus', prefix: 'b_' },
     ]));
-    assert.equal(cell(r, 'run').computed, false);
-    assert.match(String(cell(r, 'run').message), /not computed/);
-    assert.match(cell(r, 'p').error!.message, /^waits on cell "run"/);
-    assert.equal(cell(r, 'typo').error?.message, 'there is no cell "lwa" (did you mean "law"?)');
-    assert.equal(cell(r, 'typo').error?.path, 'cells[3].rates[0]');
+    assert.equal(cell(r, 'samples').computed, false);
+    assert.match(String(cell(r, 'samples').message), /not computed/);
+    assert.match(cell(r, 'pk').error!.message, /^waits on cell "samples"/);
+    assert.match(cell(r, 'p').error!.message, /^waits on cell "pk"/);
+    assert.equal(cell(r, 'typo').error?.message, 'there is no cell "sample" (did you mean "samples"?)');
+    assert.equal(cell(r, 'typo').error?.path, 'cells[3].data');
   });
 });
 
