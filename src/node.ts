@@ -47,6 +47,8 @@ export interface Law {
   readonly text: string;
   /** Study names the law reads (parameters, states, and `t`). */
   readonly reads: readonly string[];
+  /** The states it reads (its own included), each with the rate cell that defines it. */
+  readonly states: ReadonlyMap<string, string>;
   /** The quantities of the names it reads, as the law was checked. */
   readonly scope: ReadonlyMap<string, Quantity>;
 }

@@ -99,7 +99,12 @@ function runLaw(cellId: string, state: string, rate: Field, ctx: RunContext): Ou
       message: `rate of ${state} must be ${describeDim(want)} (such as ${formatUnit(rateUnit(own.unit, r))}); it is ${formatUnit(shownUnit(r)) || describeDim(r.dim)}`,
     });
   }
-  const law: Law = { cell: cellId, state, stateUnit: own.unit, initial: own.q, expr: rate.expr, text: rate.text, reads, scope };
+  const states = new Map<string, string>();
+  for (const n of reads) {
+    const b = ctx.binding(n);
+    if (b?.kind === 'state') states.set(n, b.cell);
+  }
+  const law: Law = { cell: cellId, state, stateUnit: own.unit, initial: own.q, expr: rate.expr, text: rate.text, reads, states, scope };
   const sig = `${rate.text}|${own.sig}|${reads.map((n) => `${n}=${quantitySig(scope.get(n)!)}`).join(';')}`;
   const shown: Quantity = { si: r.si, dim: r.dim, unit: rateUnit(own.unit, r) };
   const output: Record<string, unknown> = { rateAtStart: report(shown) };

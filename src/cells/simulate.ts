@@ -96,10 +96,7 @@ function collectLaws(cell: SimulateCell, at: string, ctx: RunContext): Law[] {
   };
   cell.rates.forEach((r, i) => add(r, `${at}.rates[${i}]`));
   for (let i = 0; i < laws.length; i++) {
-    for (const name of laws[i].reads) {
-      const s = ctx.binding(name);
-      if (s?.kind === 'state') add(s.cell, `${at}.rates`);
-    }
+    for (const [, owner] of laws[i].states) add(owner, `${at}.rates`);
   }
   return laws;
 }

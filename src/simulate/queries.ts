@@ -7,8 +7,21 @@
 import { brentRoot, brentMinimize } from '../numerics/brent.ts';
 import { type Trajectory, type Piece, evalPiece, pieceAt, valueAt } from './trajectory.ts';
 
+
 /** Samples per dense segment when looking for sign changes and extremes. */
 const SAMPLES = 6;
+
+/**
+ * Whether piece k takes part in the window [from, to]. A window holds the values after the
+ * actions at `from` and before the actions at `to`: the minimum over a dosing interval is
+ * the trough just before the next dose, the maximum the peak just after its own.
+ */
+function inWindow(tr: Trajectory, k: number, from: number, to: number): boolean {
+  const p = tr.pieces[k];
+  if (from === to) return pieceAt(tr, from) === k;
+  return p.t1 > from && p.t0 < to;
+}
+
 
 export interface Crossing {
   readonly t: number;
@@ -39,13 +52,15 @@ export function crossings(tr: Trajectory, i: number, level: number, from = tr.t0
     }
     if (s !== 0) { lastSign = s; lastT = t; }
   };
+  // an action at the run's start (a first dose at t0) is a jump from the state before it
+  if (from <= tr.t0) lastSign = Math.sign(tr.start[i] - level);
   for (let k = 0; k < tr.pieces.length; k++) {
     const p = tr.pieces[k];
-    if (p.t1 < from || p.t0 > to) continue;
+    if (!inWindow(tr, k, from, to)) continue;
     const g = component(p, i, tr.width);
     const a = Math.max(p.t0, from), b = Math.min(p.t1, to);
     // the value at the piece start: after a jump, if the piece starts inside the window
-    note(a, g(a), g, lastT, k > 0 && p.t0 >= from && p.t0 === a && lastSign !== 0);
+    note(a, g(a), g, lastT, p.t0 >= from && p.t0 === a && lastSign !== 0);
     const ts: number[] = [];
     for (const s of p.segments) {
       if (s.t1 <= a || s.t0 >= b) continue;
@@ -68,8 +83,9 @@ export function extreme(tr: Trajectory, i: number, sign: 1 | -1, from = tr.t0, t
   const consider = (t: number, v: number) => {
     if (Number.isFinite(v) && (!best || sign * v > sign * best.value)) best = { t, value: v };
   };
-  for (const p of tr.pieces) {
-    if (p.t1 < from || p.t0 > to) continue;
+  for (let k = 0; k < tr.pieces.length; k++) {
+    const p = tr.pieces[k];
+    if (!inWindow(tr, k, from, to)) continue;
     const g = component(p, i, tr.width);
     const a = Math.max(p.t0, from), b = Math.min(p.t1, to);
     consider(a, g(a));
@@ -124,4 +140,3 @@ export function timeBeyond(tr: Trajectory, i: number, level: number, sign: 1 | -
   return total;
 }
 
-export { pieceAt };

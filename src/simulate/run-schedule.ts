@@ -90,6 +90,7 @@ export function runSchedule(sys: SystemSpec, actions: readonly Action[], t0: num
     }
   };
 
+  const start = Float64Array.from(y);
   apply(t0);
   while (true) {
     const next = a < actions.length && actions[a].time < t1 ? actions[a].time : t1;
@@ -105,7 +106,7 @@ export function runSchedule(sys: SystemSpec, actions: readonly Action[], t0: num
     if (r.switchedToStiff !== null && switched === null) switched = r.switchedToStiff;
     pieces.push({ t0: t, t1: r.t, y0, y1: Float64Array.from(r.y), segments: r.segments, params: Float64Array.from(p), infusion: Float64Array.from(infusion) });
     const outcome = (status: Status) => ({
-      trajectory: { t0, t1: r.t, width, pieces }, status, steps, evaluations, rejected, methodsUsed: methods, switchedToStiff: switched,
+      trajectory: { t0, t1: r.t, width, start, pieces }, status, steps, evaluations, rejected, methodsUsed: methods, switchedToStiff: switched,
       ...(status === Status.Success ? {} : { failure: { t: r.failure?.t ?? r.t, y: Float64Array.from(r.failure?.y ?? r.y), status } }),
     });
     if (r.status !== Status.Success) return outcome(r.status);

@@ -24,6 +24,8 @@ export interface Trajectory {
   readonly t1: number;
   /** Number of values per point: states then quadrature states. */
   readonly width: number;
+  /** The states before the actions at t0 (a dose at t0 is a jump from these). */
+  readonly start: Float64Array;
   readonly pieces: readonly Piece[];
 }
 
