@@ -262,20 +262,22 @@ function throughPipeline(text: string, t: Tally): void {
 }
 
 describe('expressions: anything in, a value or a message out', () => {
-  it('takes expressions from the grammar through parse, check and compile', () => {
+  it('takes expressions from the grammar through parse, check and compile', (ctx) => {
     const t = tally();
     fc.assert(fc.property(fc.oneof(grammarText, lawText), (text) => throughPipeline(text, t)), runs(0, 3000));
     // the run must reach the checker and the compiler often, or it proves little
     assert.ok(t.parsed > t.total * 0.5, `only ${t.parsed} of ${t.total} parsed`);
     assert.ok(t.compiled > t.total * 0.1, `only ${t.compiled} of ${t.total} got through the checker`);
+    ctx.diagnostic(JSON.stringify(t));
   });
 
-  it('takes mutated expressions (characters deleted, inserted, swapped, repeated)', () => {
+  it('takes mutated expressions (characters deleted, inserted, swapped, repeated)', (ctx) => {
     const t = tally();
     fc.assert(fc.property(fc.oneof(grammarText, lawText), fc.array(mutation, { minLength: 1, maxLength: 4 }), (text, ms) => {
       throughPipeline(ms.reduce(mutate, text), t);
     }), runs(1, 3000));
     assert.ok(t.refused > t.total * 0.1 && t.parsed > t.total * 0.1, JSON.stringify(t));
+    ctx.diagnostic(JSON.stringify(t));
   });
 
   it('refuses every forbidden construct, wherever it is put', () => {
@@ -661,13 +663,14 @@ function checkSession(doc: unknown, specs: EditSpec[]): void {
 }
 
 describe('documents: anything in, a report or a refusal out', () => {
-  it('runs generated studies and sequences of edits, agreeing with fresh runs', () => {
+  it('runs generated studies and sequences of edits, agreeing with fresh runs', (ctx) => {
     fc.assert(fc.property(fc.oneof(soundDocArb, docArb), fc.array(editSpec, { maxLength: 6 }), (doc, specs) => {
       checkSession(doc, specs);
     }), runs(10, 1500));
     // most edits must be accepted and many cells must compute, or the agreement proves little
     assert.ok(sessions.accepted > sessions.edits * 0.5, JSON.stringify(sessions));
     assert.ok(sessions.cellsOk > sessions.cells * 0.2, JSON.stringify(sessions));
+    ctx.diagnostic(JSON.stringify(sessions));
   });
 
   it('runs studies with circular definitions and edits that make and break the circle', () => {
