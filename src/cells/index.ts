@@ -9,6 +9,7 @@ import { rateNodes } from './rate.ts';
 import { noteNodes } from './note.ts';
 import { pendingNodes } from './pending.ts';
 import { simulateNodes } from './simulate.ts';
+import { phaseNodes } from './phase.ts';
 
 type Builder = (cell: any, at: string) => GraphNode[];
 
@@ -16,7 +17,7 @@ const BUILDERS: Record<Cell['kind'], Builder> = {
   parameters: parameterNodes,
   rate: rateNodes,
   note: noteNodes,
-  phase: pendingNodes,
+  phase: phaseNodes,
   simulate: simulateNodes,
   data: pendingNodes,
   fit: pendingNodes,

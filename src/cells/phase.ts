@@ -1,0 +1,147 @@
+/**
+ * A phase cell: where an autonomous one-state law y' = f(y) settles. Every equilibrium in
+ * [from, to] with its stability, the sign of f between them, poles and gaps; with `sweep`,
+ * the equilibrium branches as a parameter runs over a range, and the folds where two meet
+ * and vanish. The numerics are in numerics/equilibria.ts and numerics/sweep.ts.
+ */
+import type { PhaseCell } from '../study/types.ts';
+import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
+import { cellRef } from '../node.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
+import { type Quantity, report, describe } from '../quantity.ts';
+import { sameDim, describeDim, TIME, DIMENSIONLESS, divDim } from '../dimension.ts';
+import { lookupUnit } from '../units.ts';
+import { compileExpression } from '../expression/compile.ts';
+import { derivative } from '../expression/derivative.ts';
+import { findEquilibria, type PhaseAnalysis } from '../numerics/equilibria.ts';
+import { sweepEquilibria } from '../numerics/sweep.ts';
+
+export function phaseNodes(cell: PhaseCell, at: string): GraphNode[] {
+  const problems: CellError[] = [];
+  const from = field(cell.from, `${at}.from`, problems);
+  const to = field(cell.to, `${at}.to`, problems);
+  const sweep = cell.sweep && typeof cell.sweep === 'object' ? cell.sweep : undefined;
+  const sFrom = sweep ? field(sweep.from, `${at}.sweep.from`, problems) : undefined;
+  const sTo = sweep ? field(sweep.to, `${at}.sweep.to`, problems) : undefined;
+  const refs: Use[] = [];
+  if (typeof cell.rate === 'string') refs.push({ name: cellRef(cell.rate), path: `${at}.rate` });
+  if (sweep && typeof sweep.name === 'string') refs.push({ name: sweep.name, path: `${at}.sweep.name` });
+  return [{
+    key: `${cell.id}/phase`,
+    cell: cell.id,
+    defines: [],
+    uses: [...usesOf([from, to, sFrom, sTo]), ...refs],
+    allowsTime: false,
+    allowsStates: true,
+    signature: JSON.stringify(cell),
+    problems,
+    run: (ctx) => {
+      try {
+        return runPhase(cell, at, { from: from!, to: to!, sFrom, sTo }, ctx);
+      } catch (err) {
+        if (err instanceof FieldError) return { ok: false, error: err.error };
+        throw err;
+      }
+    },
+  }];
+}
+
+const fail = (path: string, message: string): never => { throw new FieldError({ path, message }); };
+
+function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFrom?: Field; sTo?: Field }, ctx: RunContext): Outcome {
+  const b = ctx.binding(cellRef(cell.rate));
+  if (b?.kind !== 'law') fail(`${at}.rate`, `cell "${cell.rate}" is not a rate cell`);
+  const law = (b as Extract<Binding, { kind: 'law' }>).law;
+  if (law.reads.includes('t')) fail(`${at}.rate`, `the phase line needs a law that does not change with time; the law of ${law.state} reads t`);
+  const other = [...law.states.keys()].find((s) => s !== law.state);
+  if (other) fail(`${at}.rate`, `the phase line needs a law of one state; the law of ${law.state} also reads the state ${other} (cell "${law.states.get(other)}")`);
+
+  const lookup = lookupFrom(ctx);
+  const stateQ = (si: number): Quantity => ({ ...law.initial, si });
+  const bound = (fd: Field, what: string) => {
+    const q = finiteQuantityOf(fd, lookup);
+    if (!sameDim(q.dim, law.initial.dim)) fail(fd.path, `${what} must be ${describeDim(law.initial.dim)} like ${law.state}; it is ${describe(q)}`);
+    return q;
+  };
+  const from = bound(f.from, 'the lower end');
+  const to = bound(f.to, 'the upper end');
+  if (!(to.si > from.si)) fail(f.to.path, `the upper end (${describe(to)}) must be above the lower end (${describe(from)})`);
+  const timeUnit = timeUnitOf(law);
+  const slopeQ = (si: number): Quantity => ({ si, dim: divDim(DIMENSIONLESS, TIME), unit: [[timeUnit, -1]] });
+
+  if (ctx.mode === 'check') return { ok: true, bindings: new Map(), output: { computed: false, message: 'checked; run the study to find the equilibria' } };
+
+  const scope = (n: string) => law.scope.get(n);
+  const fy = compileExpression(law.expr, scope, [law.state]);
+  const d = derivative(law.expr, law.state);
+  const dfy = d ? compileExpression(d, scope, [law.state]) : undefined;
+  const y = new Float64Array(1);
+  const analysis = findEquilibria((v) => { y[0] = v; return fy(y); }, from.si, to.si,
+    dfy ? { derivative: (v) => { y[0] = v; return dfy(y); } } : {});
+  const output: Record<string, unknown> = { ...describeAnalysis(analysis, stateQ, slopeQ, law) };
+
+  if (cell.sweep) {
+    const name = cell.sweep.name;
+    const pb = ctx.binding(name);
+    if (pb?.kind !== 'value') fail(`${at}.sweep.name`, `"${name}" is not a parameter`);
+    const p0 = (pb as Extract<Binding, { kind: 'value' }>).q;
+    if (!law.reads.includes(name)) {
+      const via = law.reads.find((r) => ctx.upstream(r).has(name));
+      fail(`${at}.sweep.name`, via
+        ? `the law of ${law.state} reads "${via}", which is computed from "${name}": sweep a name the law reads directly`
+        : `the law of ${law.state} does not read "${name}"`);
+    }
+    const pq = (fd: Field | undefined, what: string) => {
+      const q = finiteQuantityOf(fd!, lookup);
+      if (!sameDim(q.dim, p0.dim)) fail(fd!.path, `${what} must be ${describeDim(p0.dim)} like ${name}; it is ${describe(q)}`);
+      return q;
+    };
+    const pFrom = pq(f.sFrom, 'the sweep start');
+    const pTo = pq(f.sTo, 'the sweep end');
+    if (pFrom.si === pTo.si) fail(f.sTo!.path, 'the sweep must run over a range: its start and end are equal');
+    const fyp = compileExpression(law.expr, scope, [law.state, name]);
+    const dfyp = d ? compileExpression(d, scope, [law.state, name]) : undefined;
+    const x = new Float64Array(2);
+    const result = sweepEquilibria((v, p) => { x[0] = v; x[1] = p; return fyp(x); }, from.si, to.si, pFrom.si, pTo.si, cell.sweep.steps,
+      dfyp ? { derivative: (v, p) => { x[0] = v; x[1] = p; return dfyp(x); } } : {});
+    const paramQ = (si: number): Quantity => ({ ...p0, si });
+    output.sweep = {
+      parameter: name,
+      branches: result.branches.map((br) => br.points.map((pt) => ({ parameter: report(paramQ(pt.parameter)), value: report(stateQ(pt.value)), stability: pt.stability }))),
+      folds: result.folds.map((fo) => ({ parameter: report(paramQ(fo.parameter)), value: report(stateQ(fo.value)), pair: fo.pair, located: fo.method, converged: fo.converged })),
+      evaluations: result.evaluations,
+      ...(result.warnings.length ? { warnings: [...result.warnings] } : {}),
+      ...(result.budgetExhausted ? { incomplete: 'the evaluation budget ran out; the sweep may be incomplete' } : {}),
+    };
+  }
+  return { ok: true, bindings: new Map(), output };
+}
+
+function describeAnalysis(a: PhaseAnalysis, stateQ: (si: number) => Quantity, slopeQ: (si: number) => Quantity, law: Law) {
+  const end = (v: number | null) => (v === null ? null : report(stateQ(v)));
+  const notes = [...a.warnings];
+  for (const p of a.poles) notes.push(`the rate has a pole at ${law.state} = ${describe(stateQ(p.at))}: it changes sign there without passing through zero, so that point is not an equilibrium`);
+  for (const g of a.gaps) notes.push(`the rate is not defined for ${law.state} from ${describe(stateQ(g.from))} to ${describe(stateQ(g.to))}`);
+  for (const z of a.zeroIntervals) notes.push(`the rate is zero for every ${law.state} from ${describe(stateQ(z.from))} to ${describe(stateQ(z.to))}: each of those values is an equilibrium`);
+  if (a.budgetExhausted) notes.push('the evaluation budget ran out; the analysis may be incomplete');
+  return {
+    equilibria: a.equilibria.map((e) => ({ ...report(stateQ(e.value)), stability: e.stability, slope: report(slopeQ(e.slope)) })),
+    intervals: a.intervals.map((iv) => ({ from: end(iv.from), to: end(iv.to), sign: iv.sign })),
+    ...(a.poles.length ? { poles: a.poles.map((p) => report(stateQ(p.at))) } : {}),
+    ...(a.jumps.length ? { jumps: a.jumps.map((p) => report(stateQ(p.at))) } : {}),
+    ...(a.gaps.length ? { gaps: a.gaps.map((g) => ({ from: report(stateQ(g.from)), to: report(stateQ(g.to)) })) } : {}),
+    ...(a.zeroIntervals.length ? { zeroIntervals: a.zeroIntervals.map((g) => ({ from: report(stateQ(g.from)), to: report(stateQ(g.to)) })) } : {}),
+    evaluations: a.evaluations,
+    ...(notes.length ? { notes } : {}),
+  };
+}
+
+/** The time unit a law is written in: the first time unit among the values it reads; hours otherwise. */
+function timeUnitOf(law: Law): string {
+  for (const q of law.scope.values()) {
+    const hit = q.unit.find(([n, p]) => p < 0 && sameDim(lookupUnit(n)!.dim, TIME));
+    if (hit) return hit[0];
+  }
+  return 'h';
+}
+
