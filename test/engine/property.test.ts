@@ -27,10 +27,11 @@ const SEED = Number(process.env.RATEBOOK_PROPERTY_SEED ?? 20261202);
 const runs = (offset: number, numRuns: number) => ({ seed: SEED + offset, numRuns, includeErrorInReport: true });
 
 /**
- * Longest one call may take before it counts as hanging. Generous: the slowest honest call
- * seen is a few milliseconds, and CI machines are shared.
+ * Longest one call may take before it counts as hanging. A hang detector, not a speed goal
+ * (those live in `npm run bench`): the slowest honest call seen is a few milliseconds, so
+ * this bound is a thousand times that, for shared and loaded CI machines.
  */
-const HANG_MS = 1000;
+const HANG_MS = 5000;
 
 function timed<T>(what: string, f: () => T): T {
   const t0 = performance.now();
