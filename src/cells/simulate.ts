@@ -195,15 +195,15 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
   const rtol = cell.tolerance?.relative ?? DEFAULT_RTOL;
   const atolQ = f.atol ? finiteQuantityOf(f.atol, lookup) : undefined;
   // default absolute tolerance: a thousandth of the relative one, on the state's own scale
-  // (its start, its jumps, the levels asked about, and how far its rate at the start would
-  // carry it over the run); a unit-sized floor when all of those are zero
+  // (its start, its jumps and infusions, the levels asked about, and the values of its kind
+  // that its law reads); when all of those are zero, a billionth of the state's unit
   const atol = Float64Array.from(laws, (l, i) => {
     if (atolQ && sameDim(atolQ.dim, l.initial.dim)) return Math.abs(differenceSize(atolQ));
     const jumps = timeline.filter((a) => a.kind !== 'set').flatMap((a) => a.targets.filter((t) => t.name === l.state)
       .map((t) => Math.abs(t.value) * (a.kind === 'add' ? 1 : to.si - from.si)));
     const levels = finds.filter((q) => q.si === i && q.level).map((q) => Math.abs(q.level!.si));
-    const rate0 = Math.abs(startRate(l)) * (to.si - from.si);
-    const scale = Math.max(Math.abs(l.initial.si), ...jumps, ...levels, rate0);
+    const alike = [...l.scope.values()].filter((q) => sameDim(q.dim, l.initial.dim)).map((q) => Math.abs(q.si));
+    const scale = Math.max(Math.abs(l.initial.si), ...jumps, ...levels, ...alike);
     return scale > 0 && Number.isFinite(scale) ? scale * rtol * 1e-3 : 1e-9 * unitFactor(l.stateUnit);
   });
   if (atolQ && !laws.some((l) => sameDim(atolQ.dim, l.initial.dim))) fail(f.atol!.path, `the absolute tolerance must have the unit of a state (${laws.map((l) => formatUnit(l.stateUnit)).join(', ')}); it is ${describe(atolQ)}`);
@@ -310,12 +310,6 @@ const FAILURE: Record<string, string> = {
   [Status.StepCollapse]: 'the step size collapsed (the rate may jump there; try the stiff method)',
   [Status.Budget]: `the run used its budget of ${MAX_STEPS} steps (shorten the run, loosen the tolerance, or try the stiff method)`,
 };
-
-/** The law's rate at its initial state and the start of the run, SI (NaN-safe: 0 when undefined). */
-function startRate(l: Law): number {
-  const v = compileExpression(l.expr, (n) => l.scope.get(n), [])([]);
-  return Number.isFinite(v) ? v : 0;
-}
 
 /** A temperature reading used as a tolerance means a difference of that many degrees. */
 function differenceSize(q: Quantity): number {

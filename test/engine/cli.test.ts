@@ -106,3 +106,21 @@ describe('the installed command', () => {
     assert.equal(report.cells.find((c: { id: string }) => c.id === 'loop').values.tau.si, 564);
   });
 });
+
+describe('ratebook run --series', () => {
+  it('adds each simulation\'s time series in SI, and leaves it out otherwise', () => {
+    const study = JSON.stringify({ format: 'ratebook-study', version: 1, title: 's', cells: [
+      { id: 'law', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-C / (2 h)', initial: '8 mg / L' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '4 h' },
+    ] });
+    const withSeries = JSON.parse(run(['run', 's.json', '--json', '--series'], { 's.json': study }).out);
+    const series = withSeries.cells[1].series;
+    assert.equal(series.t[0], 0);
+    assert.equal(series.t[series.t.length - 1], 4 * 3600);
+    assert.equal(series.C.length, series.t.length);
+    // C(4 h) = 8 mg/L e^{-2} = 8e-3 kg/m^3 * 0.135335 (exponential decay, common practice)
+    assert.ok(Math.abs(series.C[series.C.length - 1] - 8e-3 * Math.exp(-2)) < 1e-9);
+    const without = JSON.parse(run(['run', 's.json', '--json'], { 's.json': study }).out);
+    assert.equal(without.cells[1].series, undefined);
+  });
+});

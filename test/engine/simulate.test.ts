@@ -279,3 +279,21 @@ describe('models that misbehave say so', () => {
     assert.match(c.error!.message, /too small for the run/);
   });
 });
+
+describe('stiff laws', () => {
+  it('auto switches to the stiff method, says so, and stays accurate', () => {
+    // y' = -λ (y - cos t): after the transient y = (λ² cos t + λ sin t) / (λ² + 1) (linear ODE, common practice)
+    const run = simulate([
+      { id: 'law', kind: 'rate', state: 'y', unit: 'm', rate: '-10000 / s * (y - 1 m * cos(t / (1 s)))', initial: '0 m' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 s', to: '10 s', find: [{ name: 'y5', valueOf: 'y', at: '5 s' }] },
+    ]);
+    assert.equal(run.method, 'stiff');
+    assert.ok((run.switchedToStiff as Q).si < 0.1);
+    assert.match(String(run.note), /switched from Dormand–Prince to the stiff method/);
+    const l = 1e4;
+    const exact = (l * l * Math.cos(5) + l * Math.sin(5)) / (l * l + 1);
+    withinTolerance(results(run).y5.si, exact, 1e-6, 1e-9, 10, 'y(5 s)');
+    // budget (stated): the explicit method alone needs about 180 000 evaluations here
+    assert.ok((run.evaluations as number) < 10_000, `${run.evaluations} evaluations`);
+  });
+});
