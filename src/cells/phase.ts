@@ -11,7 +11,7 @@ import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } f
 import { type Quantity, report, describe } from '../quantity.ts';
 import { sameDim, describeDim, TIME, DIMENSIONLESS, divDim } from '../dimension.ts';
 import { lookupUnit } from '../units.ts';
-import { compileExpression } from '../expression/compile.ts';
+import { compileLaw } from '../simulate/compile-law.ts';
 import { derivative } from '../expression/derivative.ts';
 import { findEquilibria, type PhaseAnalysis } from '../numerics/equilibria.ts';
 import { sweepEquilibria } from '../numerics/sweep.ts';
@@ -71,10 +71,9 @@ function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFro
 
   if (ctx.mode === 'check') return { ok: true, bindings: new Map(), output: { computed: false, message: 'checked; run the study to find the equilibria' } };
 
-  const scope = (n: string) => law.scope.get(n);
-  const fy = compileExpression(law.expr, scope, [law.state]);
+  const fy = compileLaw(law, [law.state]);
   const d = derivative(law.expr, law.state);
-  const dfy = d ? compileExpression(d, scope, [law.state]) : undefined;
+  const dfy = d ? compileLaw(law, [law.state], d) : undefined;
   const y = new Float64Array(1);
   const analysis = findEquilibria((v) => { y[0] = v; return fy(y); }, from.si, to.si,
     dfy ? { derivative: (v) => { y[0] = v; return dfy(y); } } : {});
@@ -99,8 +98,8 @@ function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFro
     const pFrom = pq(f.sFrom, 'the sweep start');
     const pTo = pq(f.sTo, 'the sweep end');
     if (pFrom.si === pTo.si) fail(f.sTo!.path, 'the sweep must run over a range: its start and end are equal');
-    const fyp = compileExpression(law.expr, scope, [law.state, name]);
-    const dfyp = d ? compileExpression(d, scope, [law.state, name]) : undefined;
+    const fyp = compileLaw(law, [law.state, name]);
+    const dfyp = d ? compileLaw(law, [law.state, name], d) : undefined;
     const x = new Float64Array(2);
     const result = sweepEquilibria((v, p) => { x[0] = v; x[1] = p; return fyp(x); }, from.si, to.si, pFrom.si, pTo.si, cell.sweep.steps,
       dfyp ? { derivative: (v, p) => { x[0] = v; x[1] = p; return dfyp(x); } } : {});

@@ -11,7 +11,7 @@ import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } f
 import { type Quantity, report, describe, valueIn, tidy } from '../quantity.ts';
 import { sameDim, describeDim, divDim, mulDim, TIME } from '../dimension.ts';
 import { type DisplayUnit, formatUnit, mulUnits, lookupUnit, isOffsetTemperature, unitFactor } from '../units.ts';
-import { compileExpression } from '../expression/compile.ts';
+import { compileLaw } from '../simulate/compile-law.ts';
 import { symbolsOf } from '../expression/ast.ts';
 import { expandSchedule, type ScheduledEvent } from '../simulate/schedule.ts';
 import { runSchedule, type SystemSpec } from '../simulate/run-schedule.ts';
@@ -218,7 +218,7 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
 
   // compile the system
   const inputs = ['t', ...states, ...params];
-  const compiled = laws.map((l) => compileExpression(l.expr, (n) => l.scope.get(n), inputs));
+  const compiled = laws.map((l) => compileLaw(l, inputs));
   const x = new Float64Array(inputs.length);
   const n = states.length;
   const sys: SystemSpec = {
