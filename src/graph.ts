@@ -147,12 +147,18 @@ function orderNodes(list: readonly GraphNode[], sources: Map<string, Map<string,
   const deps = new Map<string, string[]>();
   const users = new Map<string, string[]>();
   for (const n of list) {
-    const ds = [...new Set([...sources.get(n.key)!.values()].flatMap((s) => ('node' in s ? [s.node] : [])))];
+    const ds: string[] = [];
+    for (const s of sources.get(n.key)!.values()) if ('node' in s && !ds.includes(s.node)) ds.push(s.node);
     deps.set(n.key, ds);
-    for (const d of ds) users.set(d, [...(users.get(d) ?? []), n.key]);
+    for (const d of ds) {
+      const us = users.get(d);
+      if (us) us.push(n.key);
+      else users.set(d, [n.key]);
+    }
   }
   const pending = new Map(list.map((n) => [n.key, deps.get(n.key)!.length]));
-  const ready = list.filter((n) => pending.get(n.key) === 0).map((n) => n.key);
+  const ready = new MinHeap((k: string) => index.get(k)!);
+  for (const n of list) if (pending.get(n.key) === 0) ready.push(n.key);
   const order: string[] = [];
   const done = new Set<string>();
   const take = (k: string) => {
@@ -165,9 +171,8 @@ function orderNodes(list: readonly GraphNode[], sources: Map<string, Map<string,
     }
   };
   const drain = () => {
-    while (ready.length) {
-      ready.sort((a, b) => index.get(a)! - index.get(b)!);
-      const k = ready.shift()!;
+    while (ready.size) {
+      const k = ready.pop()!;
       if (!done.has(k)) take(k);
     }
   };
@@ -221,4 +226,47 @@ function readName(reader: string, definer: string, sources: Map<string, Map<stri
 
 function show(name: string): string {
   return name.startsWith('#') ? `cell "${name.slice(1)}"` : name;
+}
+
+/** A binary heap of keys ordered by a numeric rank (document position): O(log n) push and pop. */
+class MinHeap {
+  private readonly items: string[] = [];
+  constructor(private readonly rank: (k: string) => number) {}
+
+  get size(): number {
+    return this.items.length;
+  }
+
+  push(k: string): void {
+    const a = this.items;
+    a.push(k);
+    let i = a.length - 1;
+    while (i > 0) {
+      const parent = (i - 1) >> 1;
+      if (this.rank(a[parent]) <= this.rank(a[i])) break;
+      [a[parent], a[i]] = [a[i], a[parent]];
+      i = parent;
+    }
+  }
+
+  pop(): string | undefined {
+    const a = this.items;
+    if (a.length === 0) return undefined;
+    const top = a[0];
+    const last = a.pop()!;
+    if (a.length) {
+      a[0] = last;
+      let i = 0;
+      for (;;) {
+        const l = 2 * i + 1, r = l + 1;
+        let m = i;
+        if (l < a.length && this.rank(a[l]) < this.rank(a[m])) m = l;
+        if (r < a.length && this.rank(a[r]) < this.rank(a[m])) m = r;
+        if (m === i) break;
+        [a[m], a[i]] = [a[i], a[m]];
+        i = m;
+      }
+    }
+    return top;
+  }
 }

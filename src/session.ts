@@ -214,8 +214,14 @@ export class StudySession {
       const node = this.graph.nodes.get(key)!;
       const sources = this.graph.sources.get(key)!;
       const problem = this.graph.problems.get(key);
-      const staticSig = `${node.signature}|${JSON.stringify([...sources])}|${problem ? JSON.stringify(problem) : ''}|${node.defines.map((d) => `${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`).join(',')}`;
-      const inputsChanged = [...sources].some(([name, s]) => 'node' in s && changedNames.has(name));
+      let staticSig = node.signature;
+      let inputsChanged = false;
+      for (const [name, s] of sources) {
+        staticSig += `|${name}=${'node' in s ? s.node : s.builtin}`;
+        if ('node' in s && changedNames.has(name)) inputsChanged = true;
+      }
+      if (problem) staticSig += `|!${problem.path}:${problem.message}`;
+      for (const d of node.defines) staticSig += `|${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`;
       const keep = this.outcomes.has(key) && this.staticSigs.get(key) === staticSig && !inputsChanged;
       const outcome = keep ? this.outcomes.get(key)! : this.runNode(node, problem);
       if (!keep) {
@@ -240,7 +246,7 @@ export class StudySession {
       let r = this.reports.get(cell.id);
       if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== this.indexOf(cell.id)) {
         const fresh = this.cellReport(cell);
-        if (!r || JSON.stringify(r) !== JSON.stringify(fresh)) changed.push(cell.id);
+        if (!r || !deepEqual(r, fresh)) changed.push(cell.id);
         r = fresh;
         this.reports.set(cell.id, r);
       }
@@ -334,6 +340,26 @@ function unavailable(node: GraphNode, name: string, outcome: Outcome, index: num
     ? (outcome.error.message.startsWith('waits on') ? outcome.error.message : `${show(name)} has an error (${resolvePath(outcome.error.path, index)}: ${outcome.error.message})`)
     : typeof outcome.output.message === 'string' ? outcome.output.message : `${show(name)} was not computed`;
   return { kind: 'unavailable', cell: node.cell, reason, sig: `unavailable|${reason}` };
+}
+
+/** Structural equality of plain JSON-like values (reports): cheaper than comparing their JSON. */
+function deepEqual(a: unknown, b: unknown): boolean {
+  if (Object.is(a, b)) return true;
+  if (typeof a !== 'object' || typeof b !== 'object' || a === null || b === null) return false;
+  if (Array.isArray(a) !== Array.isArray(b)) return false;
+  if (Array.isArray(a)) {
+    const bb = b as unknown[];
+    if (a.length !== bb.length) return false;
+    for (let i = 0; i < a.length; i++) if (!deepEqual(a[i], bb[i])) return false;
+    return true;
+  }
+  const ka = Object.keys(a as object);
+  if (ka.length !== Object.keys(b as object).length) return false;
+  for (const k of ka) {
+    if (!Object.prototype.hasOwnProperty.call(b, k)) return false;
+    if (!deepEqual((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k])) return false;
+  }
+  return true;
 }
 
 function show(name: string): string {

@@ -137,6 +137,18 @@ export function siUnitFor(d: Dim): DisplayUnit {
 
 /** Text of a display unit, re-readable as an expression: "mg / L", "1 / h", "L / (h * kg)". */
 export function formatUnit(u: DisplayUnit): string {
+  let text = formatted.get(u);
+  if (text === undefined) {
+    text = format(u);
+    formatted.set(u, text);
+  }
+  return text;
+}
+
+/** Display units are immutable, so their text is cached by identity. */
+const formatted = new WeakMap<DisplayUnit, string>();
+
+function format(u: DisplayUnit): string {
   const term = (n: string, p: number) => (p === 1 ? n : `${n}^${p}`);
   const num = u.filter(([, p]) => p > 0).map(([n, p]) => term(n, p));
   const den = u.filter(([, p]) => p < 0).map(([n, p]) => term(n, -p));

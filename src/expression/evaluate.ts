@@ -30,10 +30,9 @@ class ExprError extends Error {
 
 /** Evaluates e. Never throws: every failure comes back as a message. */
 export function evaluateExpression(e: Expr, lookup: Lookup): EvalResult {
-  const memo = new WeakMap<Expr, Literal | null>();
-  const isName = (n: string) => lookup(n) !== undefined;
+  const ctx: Ctx = { lookup, isName: (n: string) => lookup(n) !== undefined, memo: new WeakMap() };
   try {
-    return { ok: true, value: evaluate(e, lookup, isName, memo) };
+    return { ok: true, value: evaluate(e, ctx) };
   } catch (err) {
     if (err instanceof ExprError) return { ok: false, error: { message: err.message, token: err.token } };
     if (err instanceof QuantityError) return { ok: false, error: { message: err.message } };
@@ -55,59 +54,71 @@ export function offsetTemperatureUnit(e: Expr, isName: (n: string) => boolean) {
   return isOffsetTemperature(def) ? def : undefined;
 }
 
-function evaluate(e: Expr, lookup: Lookup, isName: (n: string) => boolean, memo: WeakMap<Expr, Literal | null>): Value {
-  const lit = literalOf(e, isName, memo);
+interface Ctx {
+  readonly lookup: Lookup;
+  readonly isName: (n: string) => boolean;
+  readonly memo: WeakMap<Expr, Literal | null>;
+}
+
+function quantityAt(x: Expr, c: Ctx): Quantity {
+  return asQuantity(evaluate(x, c), x);
+}
+
+function booleanAt(x: Expr, c: Ctx): boolean {
+  return asBoolean(evaluate(x, c));
+}
+
+function evaluate(e: Expr, c: Ctx): Value {
+  const lit = literalOf(e, c.isName, c.memo);
   if (lit) return literalQuantity(lit);
-  const q = (x: Expr): Quantity => asQuantity(evaluate(x, lookup, isName, memo), x);
-  const b = (x: Expr): boolean => asBoolean(evaluate(x, lookup, isName, memo));
   switch (e.k) {
     case 'bool':
       return e.v;
     case 'sym': {
-      const v = lookup(e.name);
+      const v = c.lookup(e.name);
       if (v) return v;
       if (isConstantName(e.name)) return constantQuantity(e.name);
       throw new ExprError(`unknown name "${e.name}"`, e.name);
     }
     case 'neg':
-      return neg(q(e.a));
+      return neg(quantityAt(e.a, c));
     case 'bin': {
       if (e.op === '^') {
-        const base = q(e.a);
-        const p = q(e.b);
+        const base = quantityAt(e.a, c);
+        const p = quantityAt(e.b, c);
         if (!isDimensionless(p.dim)) throw new ExprError(`an exponent must be a plain number; it is ${describeDim(p.dim)}`);
-        if (!isDimensionless(base.dim) && symbolsOf(e.b).some(isName)) {
+        if (!isDimensionless(base.dim) && symbolsOf(e.b).some(c.isName)) {
           throw new ExprError(`a power of ${describeDim(base.dim)} needs a fixed exponent, not one that uses names`);
         }
         return pow(base, p.si);
       }
       if (e.op === '*') {
-        const def = offsetTemperatureUnit(e.b, isName);
-        const a = q(e.a);
+        const def = offsetTemperatureUnit(e.b, c.isName);
+        const a = quantityAt(e.a, c);
         if (def && isDimensionless(a.dim)) return fromUnit(a.si, [[def.name, 1]]);
-        return mul(a, q(e.b));
+        return mul(a, quantityAt(e.b, c));
       }
-      const a = q(e.a);
-      const c = q(e.b);
-      return e.op === '+' ? add(a, c) : e.op === '-' ? sub(a, c) : div(a, c);
+      const a = quantityAt(e.a, c);
+      const b = quantityAt(e.b, c);
+      return e.op === '+' ? add(a, b) : e.op === '-' ? sub(a, b) : div(a, b);
     }
     case 'cmp': {
-      const vals = e.args.map(q);
+      const vals = e.args.map((x) => quantityAt(x, c));
       let result = true;
-      e.ops.forEach((op, i) => { result = compare(vals[i], vals[i + 1], op) && result; });
+      for (let i = 0; i < e.ops.length; i++) result = compare(vals[i], vals[i + 1], e.ops[i]) && result;
       return result;
     }
     case 'logic': {
-      const a = b(e.a);
-      const c = b(e.b);
-      return e.op === 'and' ? a && c : a || c;
+      const a = booleanAt(e.a, c);
+      const b = booleanAt(e.b, c);
+      return e.op === 'and' ? a && b : a || b;
     }
     case 'not':
-      return !b(e.a);
+      return !booleanAt(e.a, c);
     case 'if': {
-      const c = b(e.c);
-      const a = evaluate(e.a, lookup, isName, memo);
-      const d = evaluate(e.b, lookup, isName, memo);
+      const cond = booleanAt(e.c, c);
+      const a = evaluate(e.a, c);
+      const d = evaluate(e.b, c);
       if (typeof a !== typeof d) throw new ExprError('both branches of "? :" must give a quantity, or both true/false');
       if (typeof a !== 'boolean') {
         const qa = a as Quantity, qd = d as Quantity;
@@ -115,11 +126,11 @@ function evaluate(e: Expr, lookup: Lookup, isName: (n: string) => boolean, memo:
           throw new ExprError(`the branches of "? :" give different kinds of value: ${describeDim(qa.dim)} (${describe(qa)}) and ${describeDim(qd.dim)} (${describe(qd)})`);
         }
       }
-      return c ? a : d;
+      return cond ? a : d;
     }
     case 'call': {
       const def = FUNCTIONS[e.fn];
-      const args = e.args.map(q);
+      const args = e.args.map((x) => quantityAt(x, c));
       const dim = def.dim(args.map((x) => x.dim));
       if (typeof dim === 'string') throw new ExprError(dim, e.fn);
       const si = def.fn(...args.map((x) => x.si));
