@@ -15,6 +15,7 @@ import {
 import { setGeneratedCode } from '../src/expression/compile.ts';
 import { phaseBenchmarks } from './phase.ts';
 import { odeBench } from './ode.ts';
+import { simulateBenchmarks } from './simulate.ts';
 
 /** One line of a section's table. `met` is undefined for a figure with no goal. */
 interface Row {
@@ -290,11 +291,18 @@ function odeRows(): Row[] {
   }));
 }
 
+function simulateRows(): Row[] {
+  return simulateBenchmarks().map((r) => ({
+    measure: `${r.name} (${r.steps} steps)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
+  }));
+}
+
 const SECTIONS: readonly Section[] = [
   { title: 'Compiled rate laws: evaluations per second', run: rateLawRows },
   { title: 'Incremental editing of a study', run: editRows },
   { title: 'Equilibria and parameter sweeps', run: phaseRows },
   { title: 'ODE integration against odex at equal accuracy', run: odeRows },
+  { title: 'Simulating a dosing schedule', run: simulateRows },
 ];
 
 // ---------------------------------------------------------------------------------------

@@ -297,3 +297,25 @@ describe('stiff laws', () => {
     assert.ok((run.evaluations as number) < 10_000, `${run.evaluations} evaluations`);
   });
 });
+
+describe('a constant-volume mixing tank', () => {
+  it('approaches the inflow concentration with time constant V/Q, then flushes', () => {
+    // C' = Q/V (Cin - C): C = Cin (1 - e^{-t Q/V}) while fed, then C(t1) e^{-(t - t1) Q/V}
+    // (well-mixed tank mass balance; common practice)
+    const run = simulate([
+      { id: 'p', kind: 'parameters', items: [{ name: 'V', value: '2 m^3' }, { name: 'Q', value: '100 L / min' }, { name: 'Cin', value: '50 mg / L' }] },
+      { id: 'tank', kind: 'rate', state: 'C', unit: 'mg / L', rate: 'Q / V * (Cin - C)', initial: '0 mg / L' },
+      { id: 'run', kind: 'simulate', rates: ['tank'], from: '0 min', to: '180 min', events: [{ at: '60 min', set: { Cin: '0 mg / L' } }],
+        find: [{ name: 'C60', valueOf: 'C', at: '60 min' }, { name: 'clean', crossing: 'C', level: '1 mg / L', direction: 'down' }] },
+    ]);
+    const r = results(run);
+    const rate = 0.1 / 2; // per minute
+    const c60 = 50 * (1 - Math.exp(-rate * 60));
+    withinTolerance(r.C60.si, c60 * 1e-3, 1e-6, 1e-12, 10, 'C(60 min)');
+    const clean = 60 + Math.log(c60 / 1) / rate;
+    assert.ok(Math.abs(r.clean.si / 60 - clean) < 1e-4, `${r.clean.value} vs ${clean}`);
+    assert.equal(r.clean.unit, 'min');
+    const cf = (run.closedForm as Record<string, any>).C;
+    assert.ok(Math.abs(cf.timeConstant.value - 20) < 1e-9); // V/Q = 2000 L / (100 L/min) = 20 min
+  });
+});
