@@ -11,7 +11,7 @@ export const USAGE = `usage: ratebook run STUDY.json [--json] [--series]
        ratebook check STUDY.json
 
   run     evaluate every cell and print the report (a table; --json for the JSON report,
-          --series to add each simulation's time series to it)
+          --series to add each simulation's time series and the plot samples to it)
   check   read and check the study without running simulations or fits
 
 exit status: 0 every cell is ok, 1 some cell has an error, 2 the file cannot be read or is
@@ -70,7 +70,8 @@ export function main(argv: readonly string[], io: Io = nodeIo): number {
   return exitCodeOf(result);
 }
 
+/** The report without time series and plot samples, which only `--series` asks for. */
 function withoutSeries<T extends { cells: Array<Record<string, unknown>> }>(report: T): T {
-  if (!report.cells.some((c) => 'series' in c)) return report;
-  return { ...report, cells: report.cells.map(({ series: _series, ...rest }) => rest) };
+  if (!report.cells.some((c) => 'series' in c || 'plot' in c)) return report;
+  return { ...report, cells: report.cells.map(({ series: _series, plot: _plot, ...rest }) => rest) };
 }

@@ -4,7 +4,7 @@ import { formatNumber } from './quantity.ts';
 
 interface Q { value: number; unit: string; si: number }
 
-const HIDDEN = new Set(['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn', 'series']);
+const HIDDEN = new Set(['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn', 'series', 'plot', 'intervals', 'summary']);
 
 export function formatReport(report: Report): string {
   const lines: string[] = [report.title, '='.repeat(Math.min(72, Math.max(8, report.title.length))), ''];
@@ -30,10 +30,22 @@ function formatCell(cell: CellReport): string[] {
   const rows: Array<[string, string]> = [];
   for (const [key, value] of Object.entries(cell)) {
     if (HIDDEN.has(key) || key === 'computed') continue;
-    collect(key, value, rows);
+    if (key === 'equilibria' && Array.isArray(value)) {
+      for (const e of value as Array<Q & { stability: string; slope: Q }>) rows.push(['equilibrium', `${showQuantity(e)}  ${e.stability} (slope ${showQuantity(e.slope)})`]);
+      if (value.length === 0) rows.push(['equilibria', 'none in the range']);
+    } else if (key === 'sweep' && value && typeof value === 'object') {
+      const sw = value as { parameter: string; summary?: string; folds: Array<{ parameter: Q; value: Q }> };
+      for (const f of sw.folds) rows.push(['fold', `${sw.parameter} = ${showQuantity(f.parameter)} at ${showQuantity(f.value)}`]);
+      if (sw.summary) rows.push(['sweep', sw.summary]);
+    } else if (key === 'notes' && Array.isArray(value)) {
+      for (const n of value) rows.push(['note', String(n)]);
+    } else {
+      collect(key, value, rows);
+    }
   }
   const width = Math.min(24, Math.max(0, ...rows.map(([k]) => k.length)));
   for (const [k, v] of rows) out.push(`    ${k.padEnd(width)}  ${v}`);
+  if (typeof cell.summary === 'string') out.push(`    ${cell.summary}`);
   return out;
 }
 

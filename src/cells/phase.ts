@@ -8,9 +8,11 @@ import type { PhaseCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
 import { cellRef } from '../node.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
-import { type Quantity, report, describe } from '../quantity.ts';
+import { type Quantity, report, describe, valueIn } from '../quantity.ts';
+import { phasePortrait } from '../phase-portrait.ts';
+import { phaseSummary, sweepSummary } from '../summaries.ts';
 import { sameDim, describeDim, TIME, DIMENSIONLESS, divDim } from '../dimension.ts';
-import { lookupUnit } from '../units.ts';
+import { type DisplayUnit, lookupUnit, formatUnit, mulUnits, isOffsetTemperature } from '../units.ts';
 import { compileLaw } from '../simulate/compile-law.ts';
 import { derivative } from '../expression/derivative.ts';
 import { findEquilibria, type PhaseAnalysis } from '../numerics/equilibria.ts';
@@ -78,6 +80,22 @@ function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFro
   const analysis = findEquilibria((v) => { y[0] = v; return fy(y); }, from.si, to.si,
     dfy ? { derivative: (v) => { y[0] = v; return dfy(y); } } : {});
   const output: Record<string, unknown> = { ...describeAnalysis(analysis, stateQ, slopeQ, law) };
+  const portrait = phasePortrait((v) => { y[0] = v; return fy(y); }, from.si, to.si, analysis.equilibria.map((e) => e.slope));
+  const rateQ = (si: number): Quantity => ({ si, dim: divDim(law.initial.dim, TIME), unit: mulUnits(deltaUnitOf(law.stateUnit), [[timeUnit, 1]], -1) });
+  const timeQ = (si: number): Quantity => ({ si, dim: TIME, unit: [[timeUnit, 1]] });
+  const inState = (v: number | null) => (v === null ? null : valueIn(stateQ(v), law.initial.unit));
+  output.plot = {
+    stateUnit: formatUnit(law.initial.unit),
+    rateUnit: formatUnit(rateQ(0).unit),
+    timeUnit,
+    y: portrait.y.map(inState),
+    f: portrait.f.map((v) => (v === null ? null : valueIn(rateQ(v), rateQ(0).unit))),
+    solutions: portrait.solutions.map((sol) => ({ start: inState(sol.start), t: sol.t.map((t) => valueIn(timeQ(t), timeQ(0).unit)), y: sol.y.map(inState) })),
+  };
+  output.summary = phaseSummary(law.state,
+    analysis.equilibria.map((e) => ({ value: stateQ(e.value), stability: e.stability })),
+    analysis.intervals.map((iv) => ({ ...(iv.from !== null ? { from: stateQ(iv.from) } : {}), ...(iv.to !== null ? { to: stateQ(iv.to) } : {}), sign: iv.sign })),
+    analysis.poles.map((p) => stateQ(p.at)));
 
   if (cell.sweep) {
     const name = cell.sweep.name;
@@ -104,11 +122,14 @@ function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFro
     const result = sweepEquilibria((v, p) => { x[0] = v; x[1] = p; return fyp(x); }, from.si, to.si, pFrom.si, pTo.si, cell.sweep.steps,
       dfyp ? { derivative: (v, p) => { x[0] = v; x[1] = p; return dfyp(x); } } : {});
     const paramQ = (si: number): Quantity => ({ ...p0, si });
+    const sweepText = sweepSummary(name, law.state, result.branches.length,
+      result.folds.map((fo) => ({ parameter: paramQ(fo.parameter), value: stateQ(fo.value), pair: fo.pair })));
     output.sweep = {
       parameter: name,
       branches: result.branches.map((br) => br.points.map((pt) => ({ parameter: report(paramQ(pt.parameter)), value: report(stateQ(pt.value)), stability: pt.stability }))),
       folds: result.folds.map((fo) => ({ parameter: report(paramQ(fo.parameter)), value: report(stateQ(fo.value)), pair: fo.pair, located: fo.method, converged: fo.converged })),
       evaluations: result.evaluations,
+      summary: sweepText,
       ...(result.warnings.length ? { warnings: [...result.warnings] } : {}),
       ...(result.budgetExhausted ? { incomplete: 'the evaluation budget ran out; the sweep may be incomplete' } : {}),
     };
@@ -144,3 +165,11 @@ function timeUnitOf(law: Law): string {
   return 'h';
 }
 
+
+/** A state unit as a size of step: a Celsius or Fahrenheit reading's rate is per kelvin or per degR. */
+function deltaUnitOf(u: DisplayUnit): DisplayUnit {
+  return u.map(([n, p]) => {
+    const d = lookupUnit(n)!;
+    return isOffsetTemperature(d) ? [d.factor === 1 ? 'K' : 'degR', p] as const : [n, p] as const;
+  });
+}

@@ -20,6 +20,8 @@ import { crossings, extreme, valueOfAt, integralOver, timeBeyond } from '../simu
 import { linearCoefficients, compareWithExact } from '../simulate/closed-form.ts';
 import { quantitySig } from './signatures.ts';
 import { Status } from '../numerics/ode-types.ts';
+import { simulationPlot } from '../simulate/plot-data.ts';
+import { simulationSummary, type FoundText, type StatePath } from '../summaries.ts';
 
 /** Step attempts allowed in one run, all pieces together. */
 const MAX_STEPS = 200_000;
@@ -248,46 +250,71 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
   const results: Record<string, unknown> = {};
   const bindings = new Map<string, Binding>();
   const reasons = new Map<string, string>();
-  const give = (name: string, q: Quantity) => {
+  const found: FoundText[] = [];
+  const marks: Array<{ name: string; state: string; t: number; value: Quantity }> = [];
+  const give = (name: string, q: Quantity, what: string) => {
     results[name] = report(q);
     bindings.set(name, { kind: 'value', q, sig: quantitySig(q) });
+    found.push({ name, what, answer: describe(q) });
   };
+  const mark = (fq: (typeof finds)[number], t: number) => marks.push({ name: fq.name, state: fq.state, t, value: stateQ(fq.si, valueOfAt(tr, fq.si, t)!) });
   for (const fq of finds) {
     const [a, b] = fq.span;
     const law = laws[fq.si];
+    const inWindow = fq.q.from !== undefined || fq.q.to !== undefined ? ` from ${describe(asTime(a))} to ${describe(asTime(b))}` : '';
     switch (fq.kind) {
       case 'crossing': {
         const dir = fq.q.direction ?? 'either';
         const all = crossings(tr, fq.si, fq.level!.si, a, b).filter((c) => dir === 'either' || c.direction === dir);
         const c = all[(fq.q.occurrence ?? 1) - 1];
-        if (c) give(fq.name, asTime(c.t));
-        else {
-          const what = `${fq.state} ${dir === 'up' ? 'rising through' : dir === 'down' ? 'falling through' : 'crossing'} ${describe(fq.level!)}${(fq.q.occurrence ?? 1) > 1 ? ` (occurrence ${fq.q.occurrence})` : ''}`;
-          const message = `not reached: no ${what} by the end of the run (${describe(asTime(b))})`;
+        const what = `${fq.state} ${dir === 'up' ? 'rises through' : dir === 'down' ? 'falls through' : 'crosses'} ${describe(fq.level!)}${(fq.q.occurrence ?? 1) > 1 ? `, occurrence ${fq.q.occurrence}` : ''}`;
+        if (c) {
+          give(fq.name, asTime(c.t), what);
+          mark(fq, c.t);
+        } else {
+          const message = `not reached: no ${what.replace(/^(\S+) (rises|falls|crosses)/, (_, s, v) => `${s} ${v === 'rises' ? 'rising through' : v === 'falls' ? 'falling through' : 'crossing'}`)} by the end of the run (${describe(asTime(b))})`;
           results[fq.name] = { notReached: true, message, end: report(asTime(b)) };
           reasons.set(fq.name, `"${fq.name}" is not defined: ${message}`);
+          found.push({ name: fq.name, what, answer: `not reached by ${describe(asTime(b))}` });
         }
         break;
       }
       case 'maximum': case 'minimum': case 'timeOfMaximum': case 'timeOfMinimum': {
         const sign = fq.kind === 'maximum' || fq.kind === 'timeOfMaximum' ? 1 : -1;
         const e = extreme(tr, fq.si, sign, a, b)!;
-        give(fq.name, fq.kind.startsWith('time') ? asTime(e.t) : stateQ(fq.si, e.value));
+        const what = `${fq.kind.startsWith('time') ? 'time of the ' : ''}${sign > 0 ? 'largest' : 'smallest'} ${fq.state}${inWindow}`;
+        give(fq.name, fq.kind.startsWith('time') ? asTime(e.t) : stateQ(fq.si, e.value), what);
+        mark(fq, e.t);
         break;
       }
       case 'valueOf':
-        give(fq.name, stateQ(fq.si, valueOfAt(tr, fq.si, fq.atT!)!));
+        give(fq.name, stateQ(fq.si, valueOfAt(tr, fq.si, fq.atT!)!), `${fq.state} at ${describe(asTime(fq.atT!))}`);
+        mark(fq, fq.atT!);
         break;
       case 'integralOf': {
         const area = integralOver(tr, fq.quadrature, a, b)!;
-        give(fq.name, { si: area, dim: mulDim(law.initial.dim, TIME), unit: mulUnits(deltaOf(law.stateUnit), timeUnit) });
+        give(fq.name, { si: area, dim: mulDim(law.initial.dim, TIME), unit: mulUnits(deltaOf(law.stateUnit), timeUnit) }, `area under ${fq.state}${inWindow}`);
         break;
       }
       case 'timeAbove': case 'timeBelow':
-        give(fq.name, asTime(timeBeyond(tr, fq.si, fq.level!.si, fq.kind === 'timeAbove' ? 1 : -1, a, b)));
+        give(fq.name, asTime(timeBeyond(tr, fq.si, fq.level!.si, fq.kind === 'timeAbove' ? 1 : -1, a, b)),
+          `time with ${fq.state} ${fq.kind === 'timeAbove' ? 'above' : 'below'} ${describe(fq.level!)}${inWindow}`);
         break;
     }
   }
+  const last = tr.pieces[tr.pieces.length - 1];
+  const paths: StatePath[] = laws.map((l, i) => ({
+    name: l.state,
+    start: stateQ(i, tr.pieces[0].y0[i]),
+    end: stateQ(i, last.y1[i]),
+    min: stateQ(i, extreme(tr, i, -1)!.value),
+    max: stateQ(i, extreme(tr, i, 1)!.value),
+  }));
+  const plot = simulationPlot({
+    tr, timeUnit, timeOf: asTime, actions: timeline, marks,
+    states: laws.map((l) => ({ name: l.state, template: l.initial })),
+    levels: finds.filter((fq) => fq.level).map((fq) => ({ state: fq.state, level: fq.level! })),
+  });
 
   const output: Record<string, unknown> = {
     method: run.switchedToStiff !== null ? 'stiff' : [...run.methodsUsed].join(', '),
@@ -296,6 +323,8 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
     results,
     closedForm: closedForms(laws, sys, tr, compiled, inputs.length, rtol, atol, timeUnit),
     series: seriesOf(tr, states),
+    summary: simulationSummary(paths, found),
+    plot,
   };
   if (run.switchedToStiff !== null) {
     output.switchedToStiff = report(asTime(run.switchedToStiff));

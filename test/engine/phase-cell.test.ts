@@ -106,3 +106,20 @@ describe('sweeps', () => {
     if (r.ok) assert.match(r.report.cells[2].error!.message, /reads "k", which is computed from "a"/);
   });
 });
+
+describe('what a phase plot and a reader get', () => {
+  it('samples the rate and follows solutions toward the attractor', () => {
+    const c = phase('-(y - 3 u) / tu', '0 mg / L', '6 mg / L');
+    const plot = c.plot as { stateUnit: string; rateUnit: string; y: number[]; f: number[]; solutions: Array<{ start: number; y: Array<number | null> }> };
+    assert.equal(plot.stateUnit, 'mg / L');
+    assert.equal(plot.rateUnit, 'mg / (L * h)');
+    // f(0) = 3 mg/(L h), f(6) = -3 (the law itself)
+    assert.ok(Math.abs(plot.f[0] - 3) < 1e-12 && Math.abs(plot.f[plot.f.length - 1] + 3) < 1e-12);
+    // after 4 time constants every start is within e^-4 of the attractor (closed form, common practice)
+    for (const s of plot.solutions) {
+      const end = s.y[s.y.length - 1]!;
+      assert.ok(Math.abs(end - 3 - (s.start - 3) * Math.exp(-4)) < 1e-4, `${s.start} -> ${end}`);
+    }
+    assert.equal(c.summary, 'y has one equilibrium: 3 mg / L (attractor); below 3 mg / L it rises, above 3 mg / L it falls.');
+  });
+});

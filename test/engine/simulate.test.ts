@@ -319,3 +319,30 @@ describe('a constant-volume mixing tank', () => {
     assert.ok(Math.abs(cf.timeConstant.value - 20) < 1e-9); // V/Q = 2000 L / (100 L/min) = 20 min
   });
 });
+
+describe('what a plot and a reader get', () => {
+  const run = simulate([
+    { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.8 / h' }, { name: 'Ta', value: '4 degC' }] },
+    { id: 'law', kind: 'rate', state: 'T', unit: 'degC', rate: '-k * (T - Ta)', initial: '74 degC' },
+    { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '6 h', events: [{ at: '3 h', set: { Ta: '0 degC' } }],
+      find: [{ name: 't21', crossing: 'T', level: '21 degC', direction: 'down' }] },
+  ]);
+
+  it('samples the run in the study\'s units, with events, levels and found points', () => {
+    const plot = run.plot as { timeUnit: string; t: number[]; states: Array<{ name: string; unit: string; values: number[] }>; events: Array<{ time: number }>; levels: Array<{ value: number }>; marks: Array<{ time: number; value: number }> };
+    assert.equal(plot.timeUnit, 'h');
+    assert.equal(plot.t[0], 0);
+    assert.equal(plot.t[plot.t.length - 1], 6);
+    assert.equal(plot.states[0].unit, 'degC');
+    assert.ok(Math.abs(plot.states[0].values[0] - 74) < 1e-9);
+    assert.deepEqual(plot.events.map((e) => e.time), [3]);
+    assert.deepEqual(plot.levels.map((l) => l.value), [21]);
+    // crossing time ln(70/17)/0.8 h (Newton cooling closed form, common practice) and its level
+    assert.ok(Math.abs(plot.marks[0].time - Math.log(70 / 17) / 0.8) < 1e-5);
+    assert.ok(Math.abs(plot.marks[0].value - 21) < 1e-6);
+  });
+
+  it('says in words what happened', () => {
+    assert.match(String(run.summary), /^T falls from 74 degC to [\d.]+ degC; t21 \(T falls through 21 degC\): 1\.769 h\.$/);
+  });
+});

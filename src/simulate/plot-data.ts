@@ -1,0 +1,72 @@
+/**
+ * What a plot of a simulation needs, in the units the study shows: times in the run's time
+ * unit and each state in its own unit, sampled evenly over every piece of the run (both sides
+ * of every jump kept), the action times, the levels asked about and the points found.
+ * The chart only draws these numbers; it converts nothing.
+ */
+import type { Quantity } from '../quantity.ts';
+import { valueIn, describe } from '../quantity.ts';
+import type { DisplayUnit } from '../units.ts';
+import { formatUnit } from '../units.ts';
+import { type Trajectory, evalPiece } from './trajectory.ts';
+import type { Action } from './schedule.ts';
+
+/** Points across the whole run (more land on longer pieces; at least two per piece). */
+export const PLOT_POINTS = 400;
+
+export interface SimulationPlot {
+  readonly timeUnit: string;
+  readonly t: number[];
+  readonly states: Array<{ readonly name: string; readonly unit: string; readonly values: number[] }>;
+  readonly events: Array<{ readonly time: number; readonly kind: string; readonly label: string }>;
+  readonly levels: Array<{ readonly state: string; readonly value: number; readonly label: string }>;
+  readonly marks: Array<{ readonly name: string; readonly state: string; readonly time: number; readonly value: number; readonly label: string }>;
+}
+
+export interface PlotInput {
+  readonly tr: Trajectory;
+  readonly states: ReadonlyArray<{ readonly name: string; readonly template: Quantity }>;
+  readonly timeUnit: DisplayUnit;
+  readonly timeOf: (si: number) => Quantity;
+  readonly actions: readonly Action[];
+  readonly levels: ReadonlyArray<{ readonly state: string; readonly level: Quantity }>;
+  readonly marks: ReadonlyArray<{ readonly name: string; readonly state: string; readonly t: number; readonly value: Quantity }>;
+}
+
+export function simulationPlot(p: PlotInput): SimulationPlot {
+  const { tr } = p;
+  const span = tr.t1 - tr.t0;
+  const t: number[] = [];
+  const cols: number[][] = p.states.map(() => []);
+  const out = new Float64Array(tr.width);
+  const timeIn = (si: number) => valueIn(p.timeOf(si), p.timeUnit);
+  for (const piece of tr.pieces) {
+    const n = Math.max(2, Math.round((PLOT_POINTS * (piece.t1 - piece.t0)) / (span || 1)));
+    for (let j = 0; j < n; j++) {
+      const at = j === n - 1 ? piece.t1 : piece.t0 + ((piece.t1 - piece.t0) * j) / (n - 1);
+      evalPiece(piece, at, out);
+      t.push(timeIn(at));
+      p.states.forEach((s, i) => cols[i].push(valueIn({ ...s.template, si: out[i] }, s.template.unit)));
+    }
+  }
+  const seen = new Set<string>();
+  const events = p.actions.flatMap((a) => {
+    const key = `${a.time}|${a.kind}|${a.event}`;
+    if (seen.has(key)) return [];
+    seen.add(key);
+    const what = a.kind === 'add' ? 'dose' : a.kind === 'set' ? 'change' : a.kind === 'infuse-start' ? 'infusion starts' : 'infusion ends';
+    return [{ time: timeIn(a.time), kind: a.kind, label: `${what}: ${a.targets.map((x) => x.name).join(', ')}` }];
+  });
+  return {
+    timeUnit: formatUnit(p.timeUnit),
+    t,
+    states: p.states.map((s, i) => ({ name: s.name, unit: formatUnit(s.template.unit), values: cols[i] })),
+    events,
+    levels: p.levels.map((l) => ({ state: l.state, value: valueIn(l.level, stateUnitOf(p, l.state)), label: `${l.state} = ${describe(l.level)}` })),
+    marks: p.marks.map((m) => ({ name: m.name, state: m.state, time: timeIn(m.t), value: valueIn(m.value, stateUnitOf(p, m.state)), label: `${m.name}: ${describe(p.timeOf(m.t))}` })),
+  };
+}
+
+function stateUnitOf(p: PlotInput, state: string): DisplayUnit {
+  return p.states.find((s) => s.name === state)!.template.unit;
+}
