@@ -8,6 +8,7 @@ const HIDDEN = new Set(['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn
 
 export function formatReport(report: Report): string {
   const lines: string[] = [report.title, '='.repeat(Math.min(72, Math.max(8, report.title.length))), ''];
+  for (const c of report.cautions ?? []) lines.push(`CAUTION: ${c.text}`, '');
   for (const cell of report.cells) lines.push(...formatCell(cell), '');
   const failed = report.cells.filter((c) => !c.ok).length;
   if (report.warnings.length) {

@@ -18,6 +18,8 @@ export interface Report {
   title: string;
   ok: boolean;
   warnings: string[];
+  /** Cautions the study must show (doses, temperature limits), in the order to show them. */
+  cautions: Array<{ kind: string; text: string }>;
   cells: CellReport[];
 }
 

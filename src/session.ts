@@ -13,6 +13,7 @@ import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.
 import { buildCellNodes, resolvePath, CELL_PATH } from './cells/index.ts';
 import { buildGraph, type Graph } from './graph.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
+import { cautionsFor } from './cautions.ts';
 
 /** A name that cannot be read: its definer failed or computed nothing. */
 interface Unavailable {
@@ -258,6 +259,7 @@ export class StudySession {
       title: this.title,
       ok: reports.every((c) => c.ok),
       warnings: [...this.notes, ...this.graph.warnings],
+      cautions: cautionsFor(this.cells),
       cells: reports,
     };
     return { rerun: this.cells.filter((c) => rerunCells.has(c.id)).map((c) => c.id), changed };

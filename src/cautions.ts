@@ -1,0 +1,32 @@
+/**
+ * Cautions a study must carry, decided from what it models: doses (a schedule that adds to or
+ * infuses into a state, a non-compartmental analysis, or a name about dosing), and
+ * temperature limits for food (a temperature state checked against a level). The wording
+ * defers to licensed practice and local codes; it never gives advice of its own.
+ */
+import type { Cell } from './study/types.ts';
+
+export interface Caution {
+  readonly kind: 'dosing' | 'temperature-limits';
+  readonly text: string;
+}
+
+export const DOSING_CAUTION = 'This study models doses. It is an analysis aid, not a dosing instruction: every dose must be chosen and checked by a licensed professional against local protocols and the product information.';
+export const TEMPERATURE_CAUTION = 'Limits for cooling and holding food differ between codes and places: check each limit against the food code that applies where you work.';
+
+const DOSING_WORDS = /dose|dosing|bolus|infus|regimen|mg\s*\/\s*kg/i;
+const TEMPERATURE_UNITS = /\b(degC|degF|K|degR)\b/;
+
+export function cautionsFor(cells: readonly Cell[]): Caution[] {
+  const out: Caution[] = [];
+  const text = JSON.stringify(cells);
+  const dosing = cells.some((c) => c.kind === 'nca'
+    || (c.kind === 'simulate' && Array.isArray(c.events) && c.events.some((e) => e && (e.add !== undefined || e.infuse !== undefined))))
+    || DOSING_WORDS.test(text);
+  if (dosing) out.push({ kind: 'dosing', text: DOSING_CAUTION });
+  const temperatureStates = new Set(cells.filter((c) => c.kind === 'rate' && typeof c.unit === 'string' && TEMPERATURE_UNITS.test(c.unit)).map((c) => (c as { state: string }).state));
+  const checked = cells.some((c) => c.kind === 'simulate' && Array.isArray(c.find)
+    && c.find.some((f) => f && typeof f.level === 'string' && [f.crossing, f.timeAbove, f.timeBelow].some((s) => typeof s === 'string' && temperatureStates.has(s))));
+  if (checked) out.push({ kind: 'temperature-limits', text: TEMPERATURE_CAUTION });
+  return out;
+}
