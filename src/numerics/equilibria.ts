@@ -147,11 +147,15 @@ const POLE_CANDIDATE = 10;
 const SIDE_FRACTION = 0.25;
 const SIDE_GROWTH = 4;
 const SIDE_TRIES = 4;
+/** Beside a zero, an odd part of f below this fraction of the even part means a touching zero. */
+const EVEN_DOMINATES = 0.1;
 /** Steps for differences: cube root of epsilon for first derivatives (common practice). */
 const DIFF_STEP = Math.cbrt(EPS);
 
 /** Iteration cap for one Brent zero: a triple root converges only linearly and may need ~100. */
 const BRENT_MAX_ITERATIONS = 200;
+/** Iteration cap for one Brent minimisation (a local minimum or maximum of f). */
+const MINIMIZE_MAX_ITERATIONS = 200;
 
 class BudgetError extends Error {}
 
@@ -426,15 +430,16 @@ function locateGaps(c: Ctx, Y: number[], F: number[], gaps: Span[], found: Found
   }
 }
 
-/** Brent on a sign-change bracket, then zero, pole or jump from how |f| behaved. */
+/**
+ * Brent on a sign-change bracket, then zero, pole or jump from how |f| behaved. Where Brent
+ * meets a point at which f is not finite, the gap around it is located and each finite side
+ * is searched in turn (bounded by the budget).
+ */
 function resolveSignChange(c: Ctx, a: number, fa: number, b: number, fb: number, found: Found[]): void {
   const cap = Math.min(BRENT_MAX_ITERATIONS, c.ev.left);
   const r = brentRoot((y) => c.ev.at(y), a, b, { xtol: c.xtol, rtol: c.rtol, maxIterations: Math.max(0, cap - 1) }, fa, fb);
-  if (r.status === 'non-finite') {
-    c.warnings.push(`f is not finite at ${r.root} between ${a} and ${b}, where it changes sign`);
-    c.gaps.push({ from: r.root, to: r.root });
-    return;
-  }
+  if (r.status === 'iteration-limit' && cap < BRENT_MAX_ITERATIONS) c.exhausted = true;
+  if (r.status === 'non-finite') { hiddenGap(c, a, fa, b, fb, r.root, found); return; }
   if (r.status === 'exact-zero') { found.push({ kind: 'root', y: r.root, converged: true }); return; }
   const end = Math.min(Math.abs(r.fBracket[0]), Math.abs(r.fBracket[1]));
   if (end <= c.zeroAt(r.root) || end <= ROOT_DROP * Math.min(Math.abs(fa), Math.abs(fb))) {
@@ -445,7 +450,20 @@ function resolveSignChange(c: Ctx, a: number, fa: number, b: number, fb: number,
     found.push({ kind: 'jump', y: 0.5 * (r.bracket[0] + r.bracket[1]) });
   } else {
     found.push({ kind: 'root', y: r.root, converged: false });
-    c.warnings.push(`the sign change between ${a} and ${b} was not resolved within the budget`);
+    c.warnings.push(`the sign change between ${a} and ${b} was not resolved to tolerance`);
+  }
+}
+
+/** A gap found inside a cell at x: its ends by bisection, then the finite sides searched. */
+function hiddenGap(c: Ctx, a: number, fa: number, b: number, fb: number, x: number, found: Found[]): void {
+  const left = finiteEdge(c, a, fa, x), right = finiteEdge(c, b, fb, x);
+  c.gaps.push({ from: left.y, to: right.y });
+  for (const [y0, f0, e] of [[a, fa, left], [b, fb, right]] as const) {
+    if (Math.abs(e.f) <= c.zeroAt(e.y)) found.push({ kind: 'root', y: e.y, converged: true });
+    else if (e.y !== y0 && Math.sign(e.f) !== Math.sign(f0)) {
+      if (y0 < e.y) resolveSignChange(c, y0, f0, e.y, e.f, found);
+      else resolveSignChange(c, e.y, e.f, y0, f0, found);
+    }
   }
 }
 
@@ -473,10 +491,11 @@ function slopeFn(c: Ctx, y0: number): (y: number) => number {
  * zero, polished as a zero of f'.
  */
 function examineMinimum(c: Ctx, L: number, fL: number, R: number, fR: number, s: number, found: Found[]): void {
-  const cap = Math.min(200, c.ev.left);
+  const cap = Math.min(MINIMIZE_MAX_ITERATIONS, c.ev.left);
   const m = brentMinimize((y) => s * c.ev.at(y), L, R, {
     xtol: c.xtol, maxIterations: Math.max(0, cap - 2), stop: (x, v) => v < -c.zeroAt(x),
   });
+  if (m.status === 'iteration-limit' && cap < MINIMIZE_MAX_ITERATIONS) c.exhausted = true;
   if (m.status === 'stopped') {
     const fc = s * m.fx;
     resolveSignChange(c, L, fL, m.x, fc, found);
@@ -505,7 +524,7 @@ function examineMinimum(c: Ctx, L: number, fL: number, R: number, fR: number, s:
 
 /** A large local maximum of |f|: a pole when |f| grows without bound toward a point. */
 function examineMaximum(c: Ctx, L: number, R: number, s: number, peak: number, found: Found[]): void {
-  const cap = Math.min(200, c.ev.left);
+  const cap = Math.min(MINIMIZE_MAX_ITERATIONS, c.ev.left);
   const m = brentMinimize((y) => -s * c.ev.at(y), L, R, {
     xtol: c.xtol, maxIterations: Math.max(0, cap - 2), stop: (_, v) => !Number.isFinite(v),
   });
@@ -596,11 +615,20 @@ function scanRun(
   }
 }
 
+/** Strictly opposite signs (a product would underflow for tiny values). */
+const opposite = (a: number, b: number): boolean => (a > 0 && b < 0) || (a < 0 && b > 0);
+
 /** A single sample where |f| is within the zero tolerance: exact, polished by Brent, or touching. */
 function zeroPoint(c: Ctx, Y: number[], F: number[], k: number, s: number, e: number, found: Found[]): void {
-  if (F[k] === 0) { found.push({ kind: 'root', y: Y[k], converged: true }); return; }
-  if (k > s && F[k - 1] * F[k] < 0) { resolveSignChange(c, Y[k - 1], F[k - 1], Y[k], F[k], found); return; }
-  if (k < e && F[k + 1] * F[k] < 0) { resolveSignChange(c, Y[k], F[k], Y[k + 1], F[k + 1], found); return; }
+  if (F[k] === 0) {
+    found.push({ kind: 'root', y: Y[k], converged: true });
+    // the same sign on both sides: a double zero, or a simple one with a second zero in a
+    // neighbouring cell, which the dip between them reveals
+    if (k > s && k < e && opposite(F[k - 1], -F[k + 1])) examineMinimum(c, Y[k - 1], F[k - 1], Y[k + 1], F[k + 1], Math.sign(F[k + 1]), found);
+    return;
+  }
+  if (k > s && opposite(F[k - 1], F[k])) { resolveSignChange(c, Y[k - 1], F[k - 1], Y[k], F[k], found); return; }
+  if (k < e && opposite(F[k + 1], F[k])) { resolveSignChange(c, Y[k], F[k], Y[k + 1], F[k + 1], found); return; }
   const sgn = Math.sign(F[k]);
   const L = k > s ? k - 1 : k, R = k < e ? k + 1 : k;
   const before = found.length;
@@ -725,8 +753,12 @@ function classify(c: Ctx, y: number, converged: boolean, grid: Grid, points: rea
   }
   const stability = stabilityFrom(left, right, slope);
   // a slope counts as zero below a millionth of the typical |f| per width of the range
+  // the slope counts as zero when tiny against the size of f per width of the range, or when
+  // the odd part of f about y (what a slope makes) is small beside the even part (a touching
+  // zero, where the difference quotient is all truncation error)
   const flat = 1e-6 * c.localScale(y) / c.width;
-  const slopeSign = !Number.isFinite(slope) || Math.abs(slope) <= flat ? 0 : Math.sign(slope);
+  const odd = Math.abs(fp - fm), even = Math.abs(fp + fm - 2 * residual);
+  const slopeSign = !Number.isFinite(slope) || Math.abs(slope) <= flat || odd <= EVEN_DOMINATES * even ? 0 : Math.sign(slope);
   const consistent = slopeSign === 0 || (slopeSign < 0 ? stability === 'attractor' : stability === 'repeller');
   if (!consistent) {
     c.warnings.push(`at ${y} the slope ${slope} disagrees with the sign of f on each side (${left ?? 'undefined'} / ${right ?? 'undefined'}); stability is taken from the signs`);

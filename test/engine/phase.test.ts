@@ -265,6 +265,33 @@ describe('findEquilibria: edges, close pairs, jumps and gaps', () => {
     assert.equal(signs(r), '- none - +');
   });
 
+  it('a gap narrower than a grid cell, met by Brent inside a sign change, is located and is no equilibrium', () => {
+    // f = y - 1.015 except on (1.01, 1.02), where it is undefined: f changes sign across the
+    // gap without a zero; no grid sample (cells of 3/64) falls inside it
+    const r = findEquilibria((y) => (y > 1.01 && y < 1.02 ? NaN : y - 1.015), 0, 3);
+    assert.deepEqual(r.equilibria, []);
+    assert.equal(r.gaps.length, 1);
+    near(r.gaps[0].from, 1.01, 1e-10);
+    near(r.gaps[0].to, 1.02, 1e-10);
+    assert.equal(signs(r), '- none +');
+  });
+
+  it('a grid point exactly on a zero, with a second zero in the next cell: y(y - 0.02) on [-5, 5]', () => {
+    // closed form: f' = 2y - 0.02, so 0 attracts (f' = -0.02) and 0.02 repels (f' = 0.02)
+    const r = findEquilibria((y) => y * (y - 0.02), -5, 5);
+    assert.deepEqual(summary(r), ['attractor', 'repeller']);
+    assert.equal(r.equilibria[0].value, 0);
+    near(r.equilibria[1].value, 0.02, locTol(10, 0.02));
+  });
+
+  it('works at magnitudes where products of values underflow: f = 1e-222·y - 1e-306', () => {
+    // closed form: zero at 1e-84 (0 to the location tolerance), a repeller
+    const r = findEquilibria((y) => 1e-222 * y - 1e-306, -5, 5);
+    assert.deepEqual(summary(r), ['repeller']);
+    near(r.equilibria[0].value, 1e-84, locTol(10, 0));
+    assert.equal(signs(r), '- +');
+  });
+
   it('uses the caller\'s derivative for the slope and keeps the difference as a cross-check', () => {
     // closed form: f = y(3 - 4y), f' = 3 - 8y
     const r = findEquilibria((y) => y * (3 - 4 * y), -1, 2, { derivative: (y) => 3 - 8 * y });
