@@ -7,8 +7,8 @@
  * carries its error, and an unexpected failure inside a cell is reported on that cell.
  */
 import type { Cell, Study } from './study/types.ts';
-import { CELL_KINDS, ID_PATTERN } from './study/types.ts';
-import { readStudy, checkCell, isObject, type Problem } from './study/validate.ts';
+import { readStudy, checkCell, type Problem } from './study/validate.ts';
+import { applyEdit, type Edit } from './study/edit.ts';
 import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.ts';
 import { buildCellNodes, resolvePath, CELL_PATH } from './cells/index.ts';
 import { buildGraph, type Graph } from './graph.ts';
@@ -24,12 +24,7 @@ interface Unavailable {
 }
 type Slot = Binding | Unavailable;
 
-export type Edit =
-  | { readonly type: 'replace'; readonly cell: unknown }
-  | { readonly type: 'insert'; readonly index: number; readonly cell: unknown }
-  | { readonly type: 'remove'; readonly id: string }
-  | { readonly type: 'move'; readonly id: string; readonly to: number }
-  | { readonly type: 'retitle'; readonly title: string };
+export type { Edit } from './study/edit.ts';
 
 export type EditResult =
   | { readonly ok: true; readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report }
@@ -90,7 +85,6 @@ export class StudySession {
 
   /** Applies one edit. A refused edit changes nothing. Cost: the re-run cells plus O(nodes). */
   apply(edit: Edit): EditResult {
-    if (!isObject(edit)) return { ok: false, error: { message: 'an edit must be an object with a "type"', path: '' } };
     const problem = this.applyToCells(edit);
     if (problem) return { ok: false, error: problem };
     const { rerun, changed } = this.evaluate();
@@ -98,57 +92,19 @@ export class StudySession {
   }
 
   private applyToCells(edit: Edit): Problem | undefined {
+    const out = applyEdit({ format: 'ratebook-study', version: 1, title: this.title, cells: this.cells }, edit);
+    if (!out.ok) return out.error;
     this.positions = undefined;
-    switch (edit.type) {
-      case 'retitle':
-        if (typeof edit.title !== 'string') return { message: 'a title must be text', path: 'title' };
-        this.title = edit.title;
-        return undefined;
-      case 'remove': {
-        const i = this.indexOf(edit.id);
-        if (i < 0) return { message: `there is no cell "${edit.id}"`, path: 'cells' };
-        this.cells.splice(i, 1);
-        this.positions = undefined;
-        this.cellProblems.delete(edit.id);
-        return undefined;
-      }
-      case 'move': {
-        const i = this.indexOf(edit.id);
-        if (i < 0) return { message: `there is no cell "${edit.id}"`, path: 'cells' };
-        const to = Math.max(0, Math.min(this.cells.length - 1, Math.trunc(edit.to)));
-        const [c] = this.cells.splice(i, 1);
-        this.cells.splice(to, 0, c);
-        this.positions = undefined;
-        return undefined;
-      }
-      case 'replace':
-      case 'insert': {
-        const c = edit.cell;
-        if (!isObject(c)) return { message: 'a cell must be an object', path: 'cells' };
-        if (typeof c.id !== 'string' || !ID_PATTERN.test(c.id)) return { message: 'a cell id must be lower-case letters, digits, "-" or "_", starting with a letter', path: 'id' };
-        if (typeof c.kind !== 'string' || !(CELL_KINDS as readonly string[]).includes(c.kind)) {
-          return { message: `unknown cell kind ${JSON.stringify(c.kind)}; the kinds are ${CELL_KINDS.join(', ')}`, path: 'kind' };
-        }
-        const existing = this.indexOf(c.id);
-        let index: number;
-        if (edit.type === 'replace') {
-          if (existing < 0) return { message: `there is no cell "${c.id}" to replace`, path: 'id' };
-          index = existing;
-          this.cells[index] = structuredClone(c) as unknown as Cell;
-        } else {
-          if (existing >= 0) return { message: `the cell id "${c.id}" is already used`, path: 'id' };
-          index = Math.max(0, Math.min(this.cells.length, Math.trunc(edit.index)));
-          this.cells.splice(index, 0, structuredClone(c) as unknown as Cell);
-          this.positions = undefined;
-        }
-        const problems = checkCell(c, `cells[${index}]`);
-        if (problems.length) this.cellProblems.set(c.id, problems);
-        else this.cellProblems.delete(c.id);
-        return undefined;
-      }
-      default:
-        return { message: 'unknown edit', path: '' };
+    this.cells = out.study.cells;
+    this.title = out.study.title;
+    const live = new Set(this.cells.map((c) => c.id));
+    for (const id of [...this.cellProblems.keys()]) if (!live.has(id)) this.cellProblems.delete(id);
+    if (out.written) {
+      const problems = checkCell(out.written as unknown as Record<string, unknown>, `cells[${this.indexOf(out.written.id)}]`);
+      if (problems.length) this.cellProblems.set(out.written.id, problems);
+      else this.cellProblems.delete(out.written.id);
     }
+    return undefined;
   }
 
   private positions?: Map<string, number>;

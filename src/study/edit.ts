@@ -1,0 +1,76 @@
+/**
+ * Edits of a study: the one definition of what each edit does to the document, used by the
+ * engine's session and by the app (which keeps its own copy for undo and saving). Pure: the
+ * input is never changed; a refused edit returns a problem and no document.
+ */
+import type { Cell, Study } from './types.ts';
+import { CELL_KINDS, ID_PATTERN } from './types.ts';
+import { isObject, type Problem } from './validate.ts';
+
+export type Edit =
+  | { readonly type: 'replace'; readonly cell: unknown }
+  | { readonly type: 'insert'; readonly index: number; readonly cell: unknown }
+  | { readonly type: 'remove'; readonly id: string }
+  | { readonly type: 'move'; readonly id: string; readonly to: number }
+  | { readonly type: 'retitle'; readonly title: string };
+
+export type EditOutcome =
+  | { readonly ok: true; readonly study: Study; /** The cell written by a replace or insert. */ readonly written?: Cell }
+  | { readonly ok: false; readonly error: Problem };
+
+/** Applies one edit to a study. Cost: O(cells) plus a copy of the written cell. */
+export function applyEdit(study: Study, edit: Edit): EditOutcome {
+  const refuse = (message: string, path: string): EditOutcome => ({ ok: false, error: { message, path } });
+  if (!isObject(edit)) return refuse('an edit must be an object with a "type"', '');
+  const cells = study.cells;
+  const at = (id: string) => cells.findIndex((c) => c.id === id);
+  switch (edit.type) {
+    case 'retitle':
+      if (typeof edit.title !== 'string') return refuse('a title must be text', 'title');
+      return { ok: true, study: { ...study, title: edit.title } };
+    case 'remove': {
+      const i = at(edit.id);
+      if (i < 0) return refuse(`there is no cell "${edit.id}"`, 'cells');
+      return { ok: true, study: { ...study, cells: cells.filter((_, j) => j !== i) } };
+    }
+    case 'move': {
+      const i = at(edit.id);
+      if (i < 0) return refuse(`there is no cell "${edit.id}"`, 'cells');
+      const to = Math.max(0, Math.min(cells.length - 1, Math.trunc(Number.isFinite(edit.to) ? edit.to : i)));
+      const next = cells.filter((_, j) => j !== i);
+      next.splice(to, 0, cells[i]);
+      return { ok: true, study: { ...study, cells: next } };
+    }
+    case 'replace':
+    case 'insert': {
+      const c = edit.cell;
+      if (!isObject(c)) return refuse('a cell must be an object', 'cells');
+      if (typeof c.id !== 'string' || !ID_PATTERN.test(c.id)) return refuse('a cell id must be lower-case letters, digits, "-" or "_", starting with a letter', 'id');
+      if (typeof c.kind !== 'string' || !(CELL_KINDS as readonly string[]).includes(c.kind)) {
+        return refuse(`unknown cell kind ${JSON.stringify(c.kind)}; the kinds are ${CELL_KINDS.join(', ')}`, 'kind');
+      }
+      const written = structuredClone(c) as unknown as Cell;
+      const existing = at(c.id);
+      if (edit.type === 'replace') {
+        if (existing < 0) return refuse(`there is no cell "${c.id}" to replace`, 'id');
+        return { ok: true, study: { ...study, cells: cells.map((x, j) => (j === existing ? written : x)) }, written };
+      }
+      if (existing >= 0) return refuse(`the cell id "${c.id}" is already used`, 'id');
+      const index = Math.max(0, Math.min(cells.length, Math.trunc(Number.isFinite(edit.index) ? edit.index : cells.length)));
+      const next = [...cells];
+      next.splice(index, 0, written);
+      return { ok: true, study: { ...study, cells: next }, written };
+    }
+    default:
+      return refuse('unknown edit', '');
+  }
+}
+
+/** A cell id not yet used in the study: `prefix`, `prefix-2`, `prefix-3`... */
+export function freshId(study: Study, prefix: string): string {
+  const base = prefix.toLowerCase().replace(/[^a-z0-9_-]/g, '') || 'cell';
+  const start = /^[a-z]/.test(base) ? base : `c${base}`;
+  const used = new Set(study.cells.map((c) => c.id));
+  if (!used.has(start)) return start;
+  for (let i = 2; ; i++) if (!used.has(`${start}-${i}`)) return `${start}-${i}`;
+}
