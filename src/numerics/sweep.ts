@@ -192,19 +192,20 @@ function link(prev: readonly Equilibrium[], cur: readonly Equilibrium[], maxJump
 }
 
 /**
- * Unmatched equilibria that can be the two sides of a fold: neighbours (in value order) that
- * are an attractor and a repeller, both unmatched, or a lone unmatched semi-stable point.
+ * Unmatched equilibria that can be the two sides of a fold: every two neighbours (in value
+ * order) that are an attractor and a repeller, both unmatched, and every lone unmatched
+ * semi-stable point. Where three unmatched neighbours alternate (a fold pair beside an
+ * equilibrium entering the range), both pairs are candidates; the fold search rejects the
+ * pair that has no fold between it.
  */
 function pairsWithout(list: readonly Equilibrium[], match: readonly number[]): Equilibrium[][] {
   const out: Equilibrium[][] = [];
+  const hard = (e: Equilibrium) => e.stability !== 'semi-stable';
   for (let i = 0; i < list.length; i++) {
     if (match[i] >= 0) continue;
     const a = list[i], b = list[i + 1];
-    if (b && match[i + 1] < 0 && a.stability !== 'semi-stable' && b.stability !== 'semi-stable' && a.stability !== b.stability) {
-      out.push([a, b]); i++;
-    } else if (a.stability === 'semi-stable') {
-      out.push([a]);
-    }
+    if (b && match[i + 1] < 0 && hard(a) && hard(b) && a.stability !== b.stability) out.push([a, b]);
+    if (!hard(a)) out.push([a]);
   }
   return out;
 }

@@ -127,6 +127,22 @@ describe('sweepEquilibria: other bifurcations and the fallbacks', () => {
     near(b.parameter, pf, 1e-10); near(b.value, -yf, 1e-8); assert.equal(b.pair, 'vanishes');
   });
 
+  it('a fold pair born in the same step as an equilibrium entering the range is still told apart', () => {
+    // f = p + a y + b y² + d y³ on y in [-4, 4]: between p = -1.821 and -1.714 the pair near
+    // y = 1.56 appears while a third equilibrium enters at y = -3.99. Closed form: the folds are
+    // at the zeros y* of f_y = a + 2b y + 3d y², with p* = -(a y* + b y*² + d y*³)
+    const a = 1.8508353988173654, b = -0.16121766418920638, d = -0.18381503061684298;
+    const s = sweepEquilibria((y, p) => p + a * y + b * y * y + d * y ** 3, -4, 4, -3, 3, 57);
+    const yStar = [-1, 1].map((sg) => (-2 * b + sg * Math.sqrt(4 * b * b - 12 * a * d)) / (6 * d)).sort((u, v) => v - u);
+    const pStar = yStar.map((y) => -(a * y + b * y * y + d * y ** 3));
+    assert.equal(s.folds.length, 2);
+    s.folds.forEach((fold, i) => {
+      near(fold.parameter, pStar[i], 1e-10, `p at fold ${i}`);
+      near(fold.value, yStar[i], 1e-8, `y at fold ${i}`);
+    });
+    assert.deepEqual(s.folds.map((x) => x.pair), ['appears', 'vanishes']);
+  });
+
   it('transcritical y\' = p·y - y²: no fold; the attractor moves from 0 to y = p', () => {
     // closed form: equilibria 0 and p; for p < 0, 0 attracts; for p > 0, p attracts
     const s = sweepEquilibria((y, p) => p * y - y * y, -2, 2, -1, 1, 21);
