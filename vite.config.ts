@@ -3,7 +3,7 @@ import { defineConfig } from 'vite';
 // Dependencies are pre-bundled up front. If Vite discovered one of these only
 // when a browser test imported it, it would re-optimize and reload the page in
 // the middle of the test run. Add every package the app or tests import here.
-const prebundled = ['mathjs', 'lit', 'idb-keyval', 'fast-check', 'chai'];
+const prebundled = ['mathjs', 'lit', 'idb-keyval', 'fast-check', 'chai', 'uplot'];
 
 export default defineConfig({
   root: '.',
