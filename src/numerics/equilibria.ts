@@ -23,9 +23,16 @@
  *    difference (or the caller's derivative) as a cross-check.
  *
  * Tolerances scale with the problem: locations with the width of [from, to] (and |y|), values
- * of f with its typical size (the median of |f| on the grid), so kelvin near 300 and
- * concentrations near 1e-6 behave alike. Work is bounded by `maxEvaluations` (default 3000);
- * hitting it is reported, never an exception.
+ * of f with its size nearby (the largest |f| on the initial grid within two cells), so kelvin
+ * near 300, concentrations near 1e-6 and exp(y) over fifty units all behave alike. Work is
+ * bounded by `maxEvaluations` (default 3000); hitting it is reported, never an exception.
+ *
+ * Limits (what sampling cannot see): two zeros so close that f between them stays within the
+ * zero tolerance are one semi-stable point (with the defaults, zeros closer than about 1e-6 of
+ * the range's width may merge); three or more zeros inside one grid cell across which f changes sign show
+ * as one; a gap or a spike narrower than a cell is found only when a sample, Brent or the
+ * minimiser lands in it; a zero at a corner of f (a kink) is classified by the signs, with a
+ * warning that the difference slope disagrees.
  */
 import { brentMinimize, brentRoot } from './brent.ts';
 
@@ -752,7 +759,6 @@ function classify(c: Ctx, y: number, converged: boolean, grid: Grid, points: rea
     if (Number.isFinite(d)) { slope = d; slopeSource = 'derivative'; }
   }
   const stability = stabilityFrom(left, right, slope);
-  // a slope counts as zero below a millionth of the typical |f| per width of the range
   // the slope counts as zero when tiny against the size of f per width of the range, or when
   // the odd part of f about y (what a slope makes) is small beside the even part (a touching
   // zero, where the difference quotient is all truncation error)
