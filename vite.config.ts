@@ -3,7 +3,12 @@ import { defineConfig } from 'vite';
 // Dependencies are pre-bundled up front. If Vite discovered one of these only
 // when a browser test imported it, it would re-optimize and reload the page in
 // the middle of the test run. Add every package the app or tests import here.
-const prebundled = ['mathjs', 'lit', 'idb-keyval', 'fast-check', 'chai', 'uplot'];
+const prebundled = [
+  'mathjs', 'lit', 'idb-keyval', 'fast-check', 'chai',
+  'uplot',
+  'lit/directives/ref.js',
+  '@codemirror/state', '@codemirror/view', '@codemirror/commands', '@codemirror/autocomplete',
+];
 
 export default defineConfig({
   root: '.',
