@@ -89,6 +89,21 @@ function isPlural(name: string, table: Record<string, MathjsUnit>): boolean {
   });
 }
 
+/**
+ * The units dosing, cold-chain, heating and plant work write most (common practice): an
+ * editor offers these first among units that match equally well. All are in `unitNames()`.
+ */
+const COMMON_UNITS: readonly string[] = Object.freeze([
+  'mg', 'ug', 'g', 'kg', 'mL', 'uL', 'dL', 'L', 's', 'min', 'h', 'd', 'degC', 'degF', 'K', 'degR',
+  'W', 'kW', 'J', 'kJ', 'kWh', 'BTU', 'cal', 'kcal', 'm', 'cm', 'mm', 'ft', 'inch', 'gal', 'mol', 'mmol',
+  'umol', 'Pa', 'kPa', 'bar', 'atm', 'psi', 'lb', 'oz',
+]);
+
+/** The most used units, a subset of `unitNames()`. */
+export function commonUnitNames(): readonly string[] {
+  return COMMON_UNITS;
+}
+
 let functions: readonly string[] | undefined;
 
 /** The functions an expression may call: the function table's names and `pow`. */

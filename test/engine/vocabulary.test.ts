@@ -2,7 +2,7 @@
 // reads, and the units trade work writes every day must be among them.
 import { it } from 'node:test';
 import assert from 'node:assert/strict';
-import { unitNames, functionNames, constantNames } from '../../src/expression/vocabulary.ts';
+import { unitNames, commonUnitNames, functionNames, constantNames } from '../../src/expression/vocabulary.ts';
 import { lookupUnit } from '../../src/units.ts';
 import { parseExpression, FUNCTION_NAMES } from '../../src/index.ts';
 
@@ -21,6 +21,11 @@ it('every listed unit resolves through lookupUnit', () => {
 it('the units trade work uses are listed', () => {
   const listed = new Set(unitNames());
   assert.deepEqual(TRADE_UNITS.filter((n) => !listed.has(n)), []);
+});
+
+it('the most used units are all in the list', () => {
+  const listed = new Set(unitNames());
+  assert.deepEqual(commonUnitNames().filter((n) => !listed.has(n)), []);
 });
 
 it('the unit list has no duplicates, no plurals with a singular beside them, no time "t", no information units', () => {
