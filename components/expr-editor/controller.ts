@@ -1,0 +1,157 @@
+/**
+ * Owns the CodeMirror view of an `<expr-field>`: creates it on the element the host renders
+ * for it, keeps it in step with the host's properties, and turns the user's edits into the
+ * host's events. The host only renders; this is its behaviour.
+ */
+import { Annotation, EditorState, Transaction, type Extension } from '@codemirror/state';
+import { EditorView, drawSelection, keymap, type ViewUpdate } from '@codemirror/view';
+import { history, historyKeymap, standardKeymap } from '@codemirror/commands';
+import type { ReactiveController, ReactiveControllerHost } from 'lit';
+import { fieldProps, namesMap, setProps, type FieldError, type FieldProps, type StudyName } from './props.ts';
+import { errorMark } from './error-mark.ts';
+import { exprHighlight, highlightTheme } from './highlight.ts';
+import { exprCompletion } from './complete.ts';
+import { nameInfo } from './name-info.ts';
+import { joinLines, singleLine } from './single-line.ts';
+import { fieldTheme } from './theme.ts';
+
+/** What the controller reads from its host. */
+export interface ExprFieldHost extends ReactiveControllerHost, EventTarget {
+  value: string;
+  names: ReadonlyArray<StudyName>;
+  error?: FieldError;
+  label: string;
+  readonly: boolean;
+}
+
+export interface ExprInputDetail {
+  readonly value: string;
+}
+
+/** Marks a transaction that brings in the host's value, so it fires no input event. */
+const fromHost = Annotation.define<boolean>();
+
+export class ExprEditorController implements ReactiveController {
+  private view?: EditorView;
+  private parent?: Element;
+  /** The text as last committed or set by the host: a blur commits only when it differs. */
+  private committed = '';
+  private props?: FieldProps;
+  private namesFrom?: ReadonlyArray<StudyName>;
+
+  /**
+   * @param host the element
+   * @param errorId id of the element that shows the error message, for aria-describedby
+   */
+  constructor(private readonly host: ExprFieldHost, private readonly errorId: string) {
+    host.addController(this);
+  }
+
+  /**
+   * Ref callback for the element the editor lives in; undefined when it leaves the document.
+   * The view is made once that element is in the document (on first render Lit calls this
+   * while the element is still in a detached fragment).
+   */
+  readonly mount = (parent?: Element): void => {
+    if (parent !== this.parent) this.destroy();
+    this.parent = parent;
+    this.create();
+  };
+
+  hostUpdated(): void {
+    this.create();
+    if (!this.view) return;
+    this.syncProps();
+    this.syncValue();
+  }
+
+  hostDisconnected(): void {
+    this.destroy();
+  }
+
+  private create(): void {
+    const parent = this.parent;
+    if (this.view || !parent?.isConnected) return;
+    this.committed = joinLines(this.host.value ?? '');
+    this.view = new EditorView({
+      parent,
+      root: parent.getRootNode() as Document | ShadowRoot,
+      state: EditorState.create({ doc: this.committed, extensions: this.extensions() }),
+    });
+    this.props = undefined;
+    this.syncProps();
+  }
+
+  private destroy(): void {
+    this.view?.destroy();
+    this.view = undefined;
+  }
+
+  private extensions(): Extension {
+    return [
+      fieldProps,
+      errorMark,
+      history(),
+      drawSelection(),
+      EditorView.lineWrapping,
+      singleLine((view) => this.commit(view)),
+      keymap.of([...standardKeymap, ...historyKeymap]),
+      exprHighlight,
+      highlightTheme,
+      exprCompletion,
+      nameInfo,
+      fieldTheme,
+      EditorView.updateListener.of((u) => this.onUpdate(u)),
+    ];
+  }
+
+  private onUpdate(u: ViewUpdate): void {
+    if (u.docChanged && !u.transactions.some((tr) => tr.annotation(fromHost))) {
+      this.emit('expr-input', u.state.doc.toString());
+    }
+    if (u.focusChanged && !u.view.hasFocus && u.state.doc.toString() !== this.committed) this.commit(u.view);
+  }
+
+  private commit(view: EditorView): void {
+    this.committed = view.state.doc.toString();
+    this.emit('expr-commit', this.committed);
+  }
+
+  private emit(type: 'expr-input' | 'expr-commit', value: string): void {
+    this.host.dispatchEvent(new CustomEvent<ExprInputDetail>(type, { detail: { value }, bubbles: true, composed: true }));
+  }
+
+  private syncProps(): void {
+    const h = this.host;
+    const old = this.props;
+    const names = old && this.namesFrom === h.names ? old.names : namesMap(h.names ?? []);
+    this.namesFrom = h.names;
+    const next: FieldProps = { names, error: h.error, label: h.label ?? '', readonly: !!h.readonly, errorId: this.errorId };
+    if (old && old.names === next.names && old.error === next.error && old.label === next.label && old.readonly === next.readonly) return;
+    this.props = next;
+    this.view!.dispatch({ effects: setProps.of(next) });
+  }
+
+  /**
+   * Brings in the host's value unless the user is typing (focused with uncommitted edits).
+   * Equal text changes nothing, so the cursor stays; other text replaces only the part that
+   * differs, so a cursor outside that part stays where it was.
+   */
+  private syncValue(): void {
+    const view = this.view!;
+    const value = joinLines(this.host.value ?? '');
+    const doc = view.state.doc.toString();
+    if (value === doc) return;
+    if (view.hasFocus && doc !== this.committed) return;
+    let start = 0;
+    while (start < value.length && start < doc.length && value[start] === doc[start]) start++;
+    let endV = value.length;
+    let endD = doc.length;
+    while (endV > start && endD > start && value[endV - 1] === doc[endD - 1]) { endV--; endD--; }
+    this.committed = value;
+    view.dispatch({
+      changes: { from: start, to: endD, insert: value.slice(start, endV) },
+      annotations: [fromHost.of(true), Transaction.addToHistory.of(false)],
+    });
+  }
+}
