@@ -1,4 +1,5 @@
 import { defineConfig } from 'vite';
+import { offlineServiceWorker } from './offline/vite-plugin.ts';
 
 // Dependencies are pre-bundled up front. If Vite discovered one of these only
 // when a browser test imported it, it would re-optimize and reload the page in
@@ -22,4 +23,6 @@ export default defineConfig({
     outDir: 'dist',
     emptyOutDir: true,
   },
+  // Production builds only: writes dist/sw.js, which caches every built file for offline use.
+  plugins: [offlineServiceWorker()],
 });
