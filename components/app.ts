@@ -1,74 +1,103 @@
 import { LitElement, css, html, nothing } from 'lit';
-import { runStudy, type Report } from '../src/index.ts';
-import './report-view.ts';
-
-const examples = import.meta.glob('../examples/*.ratebook.json', { eager: true, import: 'default' }) as Record<string, unknown>;
+import * as store from './store.ts';
+import { StudyView } from './study-view.ts';
+import './study-library.ts';
 
 /**
- * The app shell of this version: open a study file or an example and read its evaluated
- * report. The editable study view replaces the body in the next version.
+ * The app shell: the library of studies (#/) and one open study (#/study/<id>), with export
+ * and print. Routing by the address's hash, so a reload comes back to the same place.
  */
 export class RatebookApp extends LitElement {
-  static override properties = { report: { state: true }, problem: { state: true } };
-  report?: Report;
+  static override properties = { route: { state: true }, problem: { state: true } };
+  route: { page: 'library' } | { page: 'study'; id: string } = { page: 'library' };
   problem?: string;
+  private view?: StudyView;
 
   static override styles = css`
-    :host { display: block; font-family: system-ui, sans-serif; color: #1c2329; background: #f4f6f8; min-height: 100vh; }
-    header { padding: 1rem 1.5rem; background: #21415c; color: #fff; }
-    header h1 { margin: 0; font-size: 1.4rem; }
-    header p { margin: 0.2rem 0 0; font-size: 0.9rem; opacity: 0.9; }
-    main { max-width: 60rem; margin: 0 auto; padding: 1rem 1.5rem; }
-    .open { display: flex; flex-wrap: wrap; gap: 1rem; align-items: center; margin-bottom: 1rem; }
-    .caution { border-left: 4px solid #b36b00; background: #fff4e0; padding: 0.5rem 0.9rem; margin-bottom: 1rem; }
-    .problem { color: #b3261e; }
-    label { font-weight: 600; }
-    select, input { font: inherit; }
+    :host { display: block; font-family: system-ui, -apple-system, 'Segoe UI', sans-serif; color: #1c2329; background: #f2f4f6; min-height: 100vh; }
+    header.top { display: flex; flex-wrap: wrap; align-items: baseline; gap: 0.3rem 1rem; padding: 0.7rem 1.2rem; background: #1f3b53; color: #fff; }
+    header.top h1 { margin: 0; font-size: 1.25rem; }
+    header.top a { color: #fff; text-decoration: none; font-weight: 700; }
+    header.top .tag { opacity: 0.85; font-size: 0.9rem; flex: 1 1 auto; }
+    header.top button { font: inherit; font-size: 0.85rem; padding: 0.2rem 0.7rem; border: 1px solid #9cb3c7; border-radius: 4px; background: #2b4d6a; color: #fff; cursor: pointer; }
+    header.top button:hover { background: #386187; }
+    header.top button:focus-visible, header.top a:focus-visible { outline: 2px solid #ffd27a; outline-offset: 2px; }
+    main { max-width: 64rem; margin: 0 auto; padding: 0.8rem 1.2rem 2rem; }
+    .problem { color: #a3211a; }
+    @media print {
+      :host { background: #fff; }
+      header.top { display: none; }
+      main { max-width: none; padding: 0; }
+    }
   `;
+
+  override connectedCallback(): void {
+    super.connectedCallback();
+    window.addEventListener('hashchange', this.navigate);
+    window.addEventListener('pagehide', this.flush);
+    document.addEventListener('visibilitychange', this.flush);
+    void this.navigate();
+  }
+
+  /** Saves the open study now: the page may be closing or going to the background. */
+  private flush = () => {
+    void this.view?.controller.flush();
+  };
+
+  override disconnectedCallback(): void {
+    window.removeEventListener('hashchange', this.navigate);
+    window.removeEventListener('pagehide', this.flush);
+    document.removeEventListener('visibilitychange', this.flush);
+    super.disconnectedCallback();
+  }
+
+  private navigate = async () => {
+    const m = /^#\/study\/([^/]+)$/.exec(location.hash);
+    if (this.view) await this.view.controller.flush();
+    if (!m) {
+      this.view = undefined;
+      this.route = { page: 'library' };
+      return;
+    }
+    const id = decodeURIComponent(m[1]);
+    const stored = await store.loadStudy(id);
+    if (!stored || stored.deleted !== undefined) {
+      this.problem = 'That study is not on this device (it may have been deleted).';
+      location.hash = '#/';
+      return;
+    }
+    this.problem = undefined;
+    const view = StudyView.create({ save: async (sid, doc) => { await store.saveStudy(sid, doc); } });
+    view.controller.open(id, stored.doc);
+    this.view = view;
+    this.route = { page: 'study', id };
+  };
 
   override render() {
     return html`
-      <header><h1>Ratebook</h1><p>First-order rate laws with real units</p></header>
+      <header class="top">
+        <h1><a href="#/">Ratebook</a></h1>
+        <span class="tag">first-order rate laws with real units</span>
+        ${this.route.page === 'study' ? html`
+          <button @click=${this.exportStudy}>Export study</button>
+          <button @click=${() => window.print()}>Print</button>` : nothing}
+      </header>
       <main>
-        <p class="caution" role="note">An analysis aid: results that concern doses are not a dosing instruction and must be checked by a licensed professional against local protocols.</p>
-        <div class="open">
-          <label for="example">Example</label>
-          <select id="example" @change=${this.pickExample}>
-            <option value="">choose…</option>
-            ${Object.keys(examples).map((k) => html`<option value=${k}>${title(examples[k], k)}</option>`)}
-          </select>
-          <label for="file">Study file</label>
-          <input id="file" type="file" accept=".json,application/json" @change=${this.openFile} />
-        </div>
         ${this.problem ? html`<p class="problem" role="alert">${this.problem}</p>` : nothing}
-        ${this.report ? html`<h2>${this.report.title}</h2><report-view .report=${this.report}></report-view>` : nothing}
+        ${this.route.page === 'study' ? this.view : html`<study-library></study-library>`}
       </main>`;
   }
 
-  private show(input: unknown, from: string) {
-    const r = runStudy(input);
-    if (r.ok) {
-      this.report = r.report;
-      this.problem = undefined;
-    } else {
-      this.problem = `${from} is not a readable study${r.error.path ? ` (at ${r.error.path})` : ''}: ${r.error.message}`;
-    }
-  }
-
-  private pickExample(e: Event) {
-    const key = (e.target as HTMLSelectElement).value;
-    if (key) this.show(examples[key], key.split('/').pop()!);
-  }
-
-  private async openFile(e: Event) {
-    const file = (e.target as HTMLInputElement).files?.[0];
-    if (file) this.show(await file.text(), file.name);
-  }
-}
-
-function title(doc: unknown, key: string): string {
-  const t = (doc as { title?: unknown })?.title;
-  return typeof t === 'string' ? t : key.split('/').pop()!;
+  private exportStudy = () => {
+    const study = this.view?.controller.study;
+    if (!study) return;
+    const file = store.exportStudy(study);
+    const a = document.createElement('a');
+    a.href = URL.createObjectURL(file.blob);
+    a.download = file.fileName;
+    a.click();
+    setTimeout(() => URL.revokeObjectURL(a.href), 1000);
+  };
 }
 
 customElements.define('ratebook-app', RatebookApp);

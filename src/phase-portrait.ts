@@ -32,7 +32,10 @@ export function phasePortrait(f: (y: number) => number, from: number, to: number
     fy.push(Number.isFinite(r) ? r : null);
   }
   const horizon = horizonOf(fy, from, to, slopes);
-  const rhs = (_t: number, s: Float64Array, d: Float64Array) => { d[0] = f(s[0]); };
+  // a solution that leaves the shown range (by a tenth of it) is not drawn further, so it is
+  // held there instead of being followed toward a blow-up the plot would never show
+  const lo = from - 0.1 * (to - from), hi = to + 0.1 * (to - from);
+  const rhs = (_t: number, s: Float64Array, d: Float64Array) => { d[0] = s[0] < lo || s[0] > hi ? 0 : f(s[0]); };
   const solutions: Portrait['solutions'] = [];
   for (let k = 0; k < SOLUTIONS; k++) {
     const start = from + ((to - from) * (k + 0.5)) / SOLUTIONS;
@@ -48,7 +51,7 @@ export function phasePortrait(f: (y: number) => number, from: number, to: number
       if (at > reached) { ys.push(null); continue; }
       if (at > 0 && !denseAt(run.segments, Math.min(at, reached), out)) { ys.push(null); continue; }
       const v = at === 0 ? start : out[0];
-      const outside = v < from - 0.1 * (to - from) || v > to + 0.1 * (to - from);
+      const outside = v < lo || v > hi;
       ys.push(outside || !Number.isFinite(v) ? null : v);
     }
     solutions.push({ start, t, y: ys });

@@ -251,13 +251,13 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
   const bindings = new Map<string, Binding>();
   const reasons = new Map<string, string>();
   const found: FoundText[] = [];
-  const marks: Array<{ name: string; state: string; t: number; value: Quantity }> = [];
+  const marks: Array<{ name: string; state: string; t: number; value: Quantity; answer: string }> = [];
   const give = (name: string, q: Quantity, what: string) => {
     results[name] = report(q);
     bindings.set(name, { kind: 'value', q, sig: quantitySig(q) });
     found.push({ name, what, answer: describe(q) });
   };
-  const mark = (fq: (typeof finds)[number], t: number) => marks.push({ name: fq.name, state: fq.state, t, value: stateQ(fq.si, valueOfAt(tr, fq.si, t)!) });
+  const mark = (fq: (typeof finds)[number], t: number) => marks.push({ name: fq.name, state: fq.state, t, value: stateQ(fq.si, valueOfAt(tr, fq.si, t)!), answer: found[found.length - 1].answer });
   for (const fq of finds) {
     const [a, b] = fq.span;
     const law = laws[fq.si];

@@ -30,7 +30,7 @@ export interface PlotInput {
   readonly timeOf: (si: number) => Quantity;
   readonly actions: readonly Action[];
   readonly levels: ReadonlyArray<{ readonly state: string; readonly level: Quantity }>;
-  readonly marks: ReadonlyArray<{ readonly name: string; readonly state: string; readonly t: number; readonly value: Quantity }>;
+  readonly marks: ReadonlyArray<{ readonly name: string; readonly state: string; readonly t: number; readonly value: Quantity; readonly answer: string }>;
 }
 
 export function simulationPlot(p: PlotInput): SimulationPlot {
@@ -63,7 +63,7 @@ export function simulationPlot(p: PlotInput): SimulationPlot {
     states: p.states.map((s, i) => ({ name: s.name, unit: formatUnit(s.template.unit), values: cols[i] })),
     events,
     levels: p.levels.map((l) => ({ state: l.state, value: valueIn(l.level, stateUnitOf(p, l.state)), label: `${l.state} = ${describe(l.level)}` })),
-    marks: p.marks.map((m) => ({ name: m.name, state: m.state, time: timeIn(m.t), value: valueIn(m.value, stateUnitOf(p, m.state)), label: `${m.name}: ${describe(p.timeOf(m.t))}` })),
+    marks: p.marks.map((m) => ({ name: m.name, state: m.state, time: timeIn(m.t), value: valueIn(m.value, stateUnitOf(p, m.state)), label: `${m.name}: ${m.answer}` })),
   };
 }
 

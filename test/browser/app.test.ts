@@ -1,54 +1,34 @@
-// The app shell renders an engine report: each cell with its values and its problems.
+// The app shell: the library lists the templates, a template becomes a stored study, and the
+// address routes to it.
 import { expect } from 'chai';
 import '../../components/app.ts';
-import type { ReportView } from '../../components/report-view.ts';
-import { runStudy } from '../../src/index.ts';
+import * as store from '../../components/store.ts';
 
-describe('report-view', () => {
-  it('shows each cell with its values in the units of the study', async () => {
-    const r = runStudy({ format: 'ratebook-study', version: 1, title: 'x', cells: [
-      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.35 / h' }] },
-    ] });
-    const el = document.createElement('report-view') as ReportView;
-    el.report = r.ok ? r.report : undefined;
-    document.body.append(el);
-    await el.updateComplete;
-    const cells = [...el.shadowRoot!.querySelectorAll('td')].map((td) => td.textContent!.trim());
-    expect(cells).to.deep.equal(['k', '0.35', '1 / h']);
-    el.remove();
-  });
-
-  it('shows an engine error on its cell with the path', async () => {
-    const r = runStudy({ format: 'ratebook-study', version: 1, title: 'x', cells: [
-      { id: 'ok', kind: 'parameters', items: [{ name: 'k', value: '1 / h' }] },
-      { id: 'bad', kind: 'parameters', items: [{ name: 'x', value: 'kk * 2' }] },
-    ] });
-    const el = document.createElement('report-view') as ReportView;
-    el.report = r.ok ? r.report : undefined;
-    document.body.append(el);
-    await el.updateComplete;
-    const sections = el.shadowRoot!.querySelectorAll('section');
-    expect(sections.length).to.equal(2);
-    expect(sections[0].classList.contains('failed')).to.equal(false);
-    expect(sections[1].classList.contains('failed')).to.equal(true);
-    expect(sections[1].querySelector('.error')!.textContent).to.contain('cells[1].items[0].value: unknown name "kk" (did you mean "k"?)');
-    el.remove();
-  });
-});
+async function until(check: () => boolean, what: string, ms = 8000) {
+  const end = performance.now() + ms;
+  while (!check()) {
+    if (performance.now() > end) throw new Error(`timed out waiting for ${what}`);
+    await new Promise((r) => setTimeout(r, 50));
+  }
+}
 
 describe('ratebook-app', () => {
-  it('opens an example and shows its report', async () => {
+  afterEach(() => { document.querySelectorAll('ratebook-app').forEach((a) => a.remove()); location.hash = ''; });
+
+  it('offers every template and opens a new study made from one', async () => {
+    location.hash = '#/';
     const app = document.createElement('ratebook-app');
     document.body.append(app);
     await app.updateComplete;
-    const select = app.shadowRoot!.querySelector('select')!;
-    expect(select.options.length).to.be.greaterThan(1);
-    select.selectedIndex = 1;
-    select.dispatchEvent(new Event('change'));
-    await app.updateComplete;
-    const view = app.shadowRoot!.querySelector('report-view')!;
-    await view.updateComplete;
-    expect(view.shadowRoot!.querySelectorAll('section').length).to.be.greaterThan(0);
-    app.remove();
+    const library = app.shadowRoot!.querySelector('study-library')!;
+    await until(() => !!library.shadowRoot?.querySelector('button.template[data-template="cooling-stock-pot"]'), 'the templates');
+    const before = (await store.listStudies()).length;
+    (library.shadowRoot!.querySelector('button.template[data-template="cooling-stock-pot"]') as HTMLButtonElement).click();
+    await until(() => location.hash.startsWith('#/study/'), 'the study route');
+    const id = decodeURIComponent(location.hash.slice('#/study/'.length));
+    const stored = await store.loadStudy(id);
+    expect(stored?.doc.title).to.equal('Cooling a stock pot: bench, then walk-in');
+    expect((await store.listStudies()).length).to.equal(before + 1);
+    await until(() => !!app.shadowRoot!.querySelector('study-view'), 'the study view');
   });
 });

@@ -1,0 +1,95 @@
+/**
+ * What every cell element shares: errors looked up by field path, the study's names for the
+ * expression fields, the edit event, and the shared styles. Look-ups only; no computation.
+ */
+import { css } from 'lit';
+import type { CellError, CellReport, Report } from '../../src/index.ts';
+import { formatNumber } from '../../src/index.ts';
+import type { StudyName } from '../expr-field.ts';
+
+/** A cell element's request to change its cell. */
+export interface CellEditDetail {
+  readonly cell: unknown;
+  /** Edits with the same key in a row are one undo step (typing in one field). */
+  readonly mergeKey?: string;
+}
+
+export function editEvent(cell: unknown, mergeKey?: string): CustomEvent<CellEditDetail> {
+  return new CustomEvent('cell-edit', { detail: { cell, mergeKey }, bubbles: true, composed: true });
+}
+
+/** Hands out the cell's errors by field path (relative, like `.items[0].value`); what is left is shown at the cell's foot. */
+export class ErrorClaims {
+  private readonly byPath = new Map<string, CellError>();
+  private readonly claimed = new Set<string>();
+
+  constructor(report: CellReport | undefined) {
+    const all = report?.errors ?? (report?.error ? [report.error] : []);
+    for (const e of all) {
+      const rel = e.path.replace(/^cells\[\d+\]/, '');
+      if (!this.byPath.has(rel)) this.byPath.set(rel, e);
+    }
+  }
+
+  /** The error on that field, if any; the field shows it, so the foot does not. */
+  take(rel: string): { message: string; span?: [number, number] } | undefined {
+    const e = this.byPath.get(rel);
+    if (!e) return undefined;
+    this.claimed.add(rel);
+    return { message: e.message, ...(e.span ? { span: [e.span[0], e.span[1]] as [number, number] } : {}) };
+  }
+
+  /** Errors no field took, in order. */
+  rest(): CellError[] {
+    return [...this.byPath].filter(([rel]) => !this.claimed.has(rel)).map(([, e]) => e);
+  }
+}
+
+interface Q { value: number; unit: string; si: number }
+const isQ = (v: unknown): v is Q => !!v && typeof v === 'object' && typeof (v as Q).value === 'number' && typeof (v as Q).unit === 'string';
+
+/** A quantity as text: 4 significant figures and its unit. */
+export function showQ(q: { value: number; unit: string } | undefined, digits = 4): string {
+  if (!q) return '';
+  const v = formatNumber(q.value, digits);
+  return q.unit ? `${v} ${q.unit}` : v;
+}
+
+/** The study's names with their current values, for completion and the name tooltip. */
+export function namesOf(report: Report | undefined): StudyName[] {
+  const out: StudyName[] = [];
+  for (const c of report?.cells ?? []) {
+    for (const group of [c.values, c.results]) {
+      if (group && typeof group === 'object') {
+        for (const [name, q] of Object.entries(group as Record<string, unknown>)) if (isQ(q)) out.push({ name, detail: showQ(q) });
+      }
+    }
+    if (typeof c.state === 'string' && isQ(c.initial)) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}` });
+  }
+  return out;
+}
+
+export const cellStyles = css`
+  :host { display: block; }
+  .row { display: flex; flex-wrap: wrap; gap: 0.5rem 0.9rem; align-items: center; margin: 0.35rem 0; }
+  label { font-size: 0.85rem; color: #3b4650; }
+  .lbl { font-size: 0.85rem; color: #3b4650; min-width: 4.5rem; }
+  expr-field { flex: 1 1 12rem; min-width: 10rem; }
+  input[type='text'], input[type='number'], select, textarea { font: inherit; padding: 0.25rem 0.4rem; border: 1px solid #9aa6b1; border-radius: 4px; background: #fff; color: #1c2329; }
+  input:focus-visible, select:focus-visible, textarea:focus-visible, button:focus-visible { outline: 2px solid #1d5fa8; outline-offset: 1px; }
+  input.name { width: 7rem; font-family: ui-monospace, monospace; }
+  button { font: inherit; font-size: 0.85rem; padding: 0.2rem 0.6rem; border: 1px solid #8795a1; border-radius: 4px; background: #f3f5f7; color: #1c2329; cursor: pointer; }
+  button:hover { background: #e4e9ee; }
+  button.quiet { border-color: transparent; background: transparent; }
+  .result { font-variant-numeric: tabular-nums; color: #0f3d6b; white-space: nowrap; }
+  .foot-error { color: #a3211a; margin: 0.3rem 0 0; font-size: 0.9rem; }
+  .path { font-family: ui-monospace, monospace; font-size: 0.8rem; }
+  table { border-collapse: collapse; width: 100%; }
+  th { text-align: left; font-size: 0.8rem; font-weight: 600; color: #3b4650; padding: 0.2rem 0.4rem; border-bottom: 1px solid #d5dbe0; }
+  td { padding: 0.2rem 0.4rem; vertical-align: top; }
+  td.num { text-align: right; font-variant-numeric: tabular-nums; }
+  .summary { color: #2b3640; font-size: 0.92rem; margin: 0.4rem 0; }
+  .muted { color: #5b6670; font-size: 0.85rem; }
+  .sr { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); white-space: nowrap; }
+  @media print { button, select, input[type='range'] { display: none !important; } }
+`;

@@ -1,0 +1,79 @@
+import { LitElement, html, nothing } from 'lit';
+import type { CellReport, ParametersCellDoc, Report } from './types.ts';
+import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
+import '../expr-field.ts';
+
+interface Entry { value: number; unit: string; si: number; range?: Array<{ value: number; unit: string }> }
+
+/** A parameters cell: one row per name, with its value field, its current value and, given a range, a slider. */
+export class ParametersCellElement extends LitElement {
+  static override properties = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false } };
+  cell!: ParametersCellDoc;
+  report?: CellReport;
+  study?: Report;
+  static override styles = [cellStyles];
+
+  override render() {
+    const claims = new ErrorClaims(this.report);
+    const values = (this.report?.values ?? {}) as Record<string, Entry>;
+    const names = namesOf(this.study);
+    const items = Array.isArray(this.cell.items) ? this.cell.items : [];
+    return html`
+      <table>
+        <thead><tr><th>Name</th><th>Value</th><th>Now</th><th class="hide-narrow">Note</th><th><span class="sr">Remove</span></th></tr></thead>
+        <tbody>
+          ${items.map((item, j) => {
+            const entry = values[item.name];
+            const nameError = claims.take(`.items[${j}].name`);
+            return html`<tr>
+              <td><input class="name" type="text" aria-label="Name of parameter ${j + 1}" .value=${item.name ?? ''}
+                @input=${(e: Event) => this.change(j, { name: (e.target as HTMLInputElement).value }, `name${j}`)} />
+                ${nameError ? html`<div class="foot-error" role="alert">${nameError.message}</div>` : nothing}</td>
+              <td><expr-field label="Value of ${item.name || `parameter ${j + 1}`}" .value=${item.value ?? ''} .names=${names}
+                .error=${claims.take(`.items[${j}].value`) ?? claims.take(`.items[${j}].range[0]`) ?? claims.take(`.items[${j}].range[1]`)}
+                @expr-input=${(e: CustomEvent<{ value: string }>) => this.change(j, { value: e.detail.value }, `value${j}`)}></expr-field>
+                ${entry?.range ? this.slider(j, entry) : nothing}</td>
+              <td class="result">${entry ? showQ(entry) : ''}</td>
+              <td class="hide-narrow"><input type="text" aria-label="Note on ${item.name}" .value=${item.note ?? ''}
+                @input=${(e: Event) => this.change(j, { note: (e.target as HTMLInputElement).value || undefined }, `note${j}`)} /></td>
+              <td><button class="quiet" aria-label="Remove ${item.name || `parameter ${j + 1}`}" @click=${() => this.removeItem(j)}>✕</button></td>
+            </tr>`;
+          })}
+        </tbody>
+      </table>
+      <div class="row"><button @click=${this.add}>Add a parameter</button></div>
+      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+  }
+
+  /** A slider over the range; its position is written back as the value in the value's own unit. */
+  private slider(j: number, entry: Entry) {
+    const [lo, hi] = entry.range!;
+    const step = (hi.value - lo.value) / 200;
+    return html`<input type="range" class="slider" aria-label="Drag ${this.cell.items[j].name} from ${showQ(lo)} to ${showQ(hi)}"
+      min=${lo.value} max=${hi.value} step=${step} .value=${String(entry.value)}
+      @input=${(e: Event) => {
+        const v = Number((e.target as HTMLInputElement).value);
+        const text = `${Number(v.toPrecision(4))}${entry.unit ? ` ${entry.unit}` : ''}`;
+        this.change(j, { value: text }, `slide${j}`);
+      }} />`;
+  }
+
+  private change(j: number, patch: Record<string, unknown>, key: string) {
+    const items = this.cell.items.map((it, i) => (i === j ? { ...it, ...patch } : it));
+    for (const it of items) if (it.note === undefined) delete it.note;
+    this.dispatchEvent(editEvent({ ...this.cell, items }, `${this.cell.id}:${key}`));
+  }
+
+  private add = () => {
+    const used = new Set(this.cell.items.map((i) => i.name));
+    let n = this.cell.items.length + 1;
+    while (used.has(`p${n}`)) n++;
+    this.dispatchEvent(editEvent({ ...this.cell, items: [...this.cell.items, { name: `p${n}`, value: '1' }] }));
+  };
+
+  private removeItem(j: number) {
+    this.dispatchEvent(editEvent({ ...this.cell, items: this.cell.items.filter((_, i) => i !== j) }));
+  }
+}
+
+customElements.define('parameters-cell', ParametersCellElement);

@@ -1,0 +1,68 @@
+/**
+ * Cell kinds in the app: how each is shown and what a new one starts as. Adding a kind is one
+ * element and one entry here.
+ */
+import { html, type TemplateResult } from 'lit';
+import type { Cell, CellReport, Report } from '../../src/index.ts';
+import './parameters-cell.ts';
+import './rate-cell.ts';
+import './simulate-cell.ts';
+import './phase-cell.ts';
+import './note-cell.ts';
+import './other-cell.ts';
+
+export interface KindInfo {
+  /** Shown on the "add" buttons and the cell's tag. */
+  readonly label: string;
+  /** Fields of a new cell of this kind (the id is added by the caller). */
+  readonly blank: (study: { cells: readonly Cell[] }) => Record<string, unknown>;
+  readonly render: (cell: Cell, report: CellReport | undefined, study: Report | undefined) => TemplateResult;
+}
+
+const firstRate = (study: { cells: readonly Cell[] }) => study.cells.find((c) => c.kind === 'rate');
+
+export const KINDS: Record<Cell['kind'], KindInfo> = {
+  parameters: {
+    label: 'Parameters',
+    blank: () => ({ items: [{ name: 'k', value: '0.5 / h' }] }),
+    render: (c, r, s) => html`<parameters-cell .cell=${c} .report=${r} .study=${s}></parameters-cell>`,
+  },
+  rate: {
+    label: 'Rate law',
+    blank: () => ({ state: 'y', unit: 'mg / L', rate: '-y / (2 h)', initial: '10 mg / L' }),
+    render: (c, r, s) => html`<rate-cell .cell=${c} .report=${r} .study=${s}></rate-cell>`,
+  },
+  phase: {
+    label: 'Where it settles',
+    blank: (study) => ({ rate: firstRate(study)?.id ?? '', from: '0 mg / L', to: '20 mg / L' }),
+    render: (c, r, s) => html`<phase-cell .cell=${c} .report=${r} .study=${s}></phase-cell>`,
+  },
+  simulate: {
+    label: 'Run',
+    blank: (study) => ({ rates: firstRate(study) ? [firstRate(study)!.id] : [], from: '0 h', to: '12 h', find: [] }),
+    render: (c, r, s) => html`<simulate-cell .cell=${c} .report=${r} .study=${s}></simulate-cell>`,
+  },
+  note: {
+    label: 'Note',
+    blank: () => ({ text: '' }),
+    render: (c) => html`<note-cell .cell=${c}></note-cell>`,
+  },
+  data: {
+    label: 'Measurements',
+    blank: () => ({ columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, 10], [1, 8]] }),
+    render: (c, r) => html`<other-cell .cell=${c} .report=${r}></other-cell>`,
+  },
+  fit: {
+    label: 'Fit',
+    blank: () => ({ rates: [], data: '', time: 't', observe: {}, estimate: [] }),
+    render: (c, r) => html`<other-cell .cell=${c} .report=${r}></other-cell>`,
+  },
+  nca: {
+    label: 'Profile summary',
+    blank: () => ({ data: '', time: 't', concentration: 'C', dose: '100 mg', route: 'iv-bolus' }),
+    render: (c, r) => html`<other-cell .cell=${c} .report=${r}></other-cell>`,
+  },
+};
+
+/** The kinds offered on the "add a cell" bar, in order. */
+export const ADDABLE: ReadonlyArray<Cell['kind']> = ['parameters', 'rate', 'simulate', 'phase', 'note'];

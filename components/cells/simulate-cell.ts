@@ -1,0 +1,212 @@
+import { LitElement, html, nothing, css } from 'lit';
+import type { CellReport, Report, SimulateCellDoc } from './types.ts';
+import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
+import { exportSeriesCsv } from '../series-csv.ts';
+import '../expr-field.ts';
+import '../plots/time-plot.ts';
+
+type EventDoc = NonNullable<SimulateCellDoc['events']>[number];
+type FindDoc = NonNullable<SimulateCellDoc['find']>[number];
+const FIND_KINDS = ['crossing', 'maximum', 'minimum', 'timeOfMaximum', 'timeOfMinimum', 'valueOf', 'integralOf', 'timeAbove', 'timeBelow'] as const;
+const FIND_LABELS: Record<string, string> = {
+  crossing: 'time it crosses', maximum: 'largest value', minimum: 'smallest value', timeOfMaximum: 'time of largest',
+  timeOfMinimum: 'time of smallest', valueOf: 'value at', integralOf: 'area under', timeAbove: 'time above', timeBelow: 'time below',
+};
+const METHOD_LABELS: Record<string, string> = {
+  auto: 'automatic (switches to stiff when needed)', dopri5: 'Dormand–Prince 5(4), adaptive', stiff: 'stiff (implicit, adaptive)',
+  rk4: 'Runge–Kutta 4, fixed step', heun: 'Heun, fixed step', euler: 'Euler, fixed step',
+};
+
+interface Plot { timeUnit: string; t: number[]; states: Array<{ name: string; unit: string; values: number[] }> }
+
+/** A simulate cell: the run's span and method, its schedule, its questions, and the results with their plot. */
+export class SimulateCellElement extends LitElement {
+  static override properties = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false } };
+  cell!: SimulateCellDoc;
+  report?: CellReport;
+  study?: Report;
+  static override styles = [cellStyles, css`
+    .events td, .finds td { padding: 0.15rem 0.25rem; }
+    .events expr-field, .finds expr-field { min-width: 4.5rem; }
+    .scroll { overflow-x: auto; }
+    input.count { width: 4rem; }
+    details { margin: 0.4rem 0; }
+    summary { cursor: pointer; font-weight: 600; font-size: 0.9rem; color: #2b3640; }
+  `];
+
+  override render() {
+    const c = this.cell;
+    const claims = new ErrorClaims(this.report);
+    const names = namesOf(this.study);
+    const rateCells = (this.study?.cells ?? []).filter((x) => x.kind === 'rate').map((x) => x.id);
+    const fixed = c.method === 'rk4' || c.method === 'heun' || c.method === 'euler';
+    const results = (this.report?.results ?? {}) as Record<string, { value?: number; unit?: string; si?: number; notReached?: boolean; message?: string }>;
+    const plot = this.report?.plot as Plot | undefined;
+    return html`
+      <div class="row">
+        <span class="lbl">Laws</span>
+        ${rateCells.map((id) => html`<label><input type="checkbox" .checked=${(c.rates ?? []).includes(id)}
+          @change=${(e: Event) => this.setRates(id, (e.target as HTMLInputElement).checked)} /> ${id}</label>`)}
+        ${rateCells.length === 0 ? html`<span class="muted">Add a rate cell first.</span>` : nothing}
+      </div>
+      <div class="row">
+        <span class="lbl">From</span>
+        <expr-field style="flex: 0 1 8rem" label="Start of the run" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ from: e.detail.value }, 'from')}></expr-field>
+        <span class="lbl">to</span>
+        <expr-field style="flex: 0 1 8rem" label="End of the run" .value=${c.to ?? ''} .names=${names} .error=${claims.take('.to')}
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ to: e.detail.value }, 'to')}></expr-field>
+        <label>Method <select .value=${c.method ?? 'auto'} @change=${(e: Event) => this.change({ method: (e.target as HTMLSelectElement).value as SimulateCellDoc['method'] }, 'method')}>
+          ${Object.entries(METHOD_LABELS).map(([m, l]) => html`<option value=${m} ?selected=${(c.method ?? 'auto') === m}>${l}</option>`)}
+        </select></label>
+        ${fixed || c.step !== undefined ? html`<span class="lbl">Step</span><expr-field style="flex: 0 1 7rem" label="Fixed step" .value=${c.step ?? ''} .error=${claims.take('.step')}
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ step: e.detail.value }, 'step')}></expr-field>` : nothing}
+      </div>
+      <details ?open=${(c.events ?? []).length > 0}>
+        <summary>Schedule (${(c.events ?? []).length} event${(c.events ?? []).length === 1 ? '' : 's'})</summary>
+        ${this.eventsTable(claims, names)}
+      </details>
+      <details open>
+        <summary>Questions (${(c.find ?? []).length})</summary>
+        ${this.findTable(claims, names, results)}
+      </details>
+      ${this.report?.ok && plot ? html`
+        <time-plot .plot=${plot} .summary=${String(this.report.summary ?? '')}></time-plot>
+        <div class="row">${this.report.note ? html`<span class="muted">${String(this.report.note)}</span>` : nothing}
+          <span class="muted">${String(this.report.method)}: ${this.report.steps} steps, ${this.report.evaluations} evaluations of the rates</span>
+          <button @click=${() => this.downloadCsv(plot)}>Export the series as CSV</button></div>
+        ${this.closedForm()}` : nothing}
+      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+  }
+
+  private eventsTable(claims: ErrorClaims, names: ReturnType<typeof namesOf>) {
+    const events = this.cell.events ?? [];
+    return html`<div class="scroll"><table class="events">
+      ${events.length ? html`<thead><tr><th>At</th><th>Every</th><th>Times</th><th>Action</th><th>On</th><th>Amount</th><th>For</th><th></th></tr></thead>` : nothing}
+      <tbody>${events.map((ev, i) => {
+        const kind = ev.add ? 'add' : ev.set ? 'set' : 'infuse';
+        const targets = Object.entries(ev[kind] ?? {});
+        const [target, amount] = targets[0] ?? ['', ''];
+        const p = `.events[${i}]`;
+        return html`<tr>
+          <td><expr-field label="Event ${i + 1} time" .value=${ev.at ?? ''} .names=${names} .error=${claims.take(`${p}.at`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, at: e.detail.value }, `at${i}`)}></expr-field></td>
+          <td><expr-field label="Event ${i + 1} repeats every" .value=${ev.every ?? ''} .names=${names} .error=${claims.take(`${p}.every`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withOptional(ev, 'every', e.detail.value), `every${i}`)}></expr-field></td>
+          <td><input class="count" type="number" min="1" aria-label="Event ${i + 1} count" .value=${ev.count === undefined ? '' : String(ev.count)} @input=${(e: Event) => { const v = (e.target as HTMLInputElement).value; this.setEvent(i, withOptional(ev, 'count', v === '' ? '' : Math.max(1, Math.trunc(Number(v)))), `count${i}`); }} /></td>
+          <td><select aria-label="Event ${i + 1} action" @change=${(e: Event) => this.setEvent(i, switchAction(ev, (e.target as HTMLSelectElement).value as 'add' | 'set' | 'infuse'))}>
+            ${(['add', 'set', 'infuse'] as const).map((k) => html`<option value=${k} ?selected=${k === kind}>${k === 'add' ? 'add (dose)' : k === 'set' ? 'set a parameter' : 'infuse (rate)'}</option>`)}</select></td>
+          <td><input class="name" type="text" aria-label="Event ${i + 1} target name" .value=${target} @input=${(e: Event) => this.setEvent(i, withTarget(ev, kind, (e.target as HTMLInputElement).value, amount), `target${i}`)} /></td>
+          <td><expr-field label="Event ${i + 1} amount" .value=${amount} .names=${names} .error=${claims.take(`${p}.${kind}.${target}`) ?? claims.take(`${p}.${kind}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withTarget(ev, kind, target, e.detail.value), `amount${i}`)}></expr-field></td>
+          <td>${kind === 'infuse' ? html`<expr-field label="Event ${i + 1} infusion duration" .value=${ev.for ?? ''} .names=${names} .error=${claims.take(`${p}.for`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, for: e.detail.value }, `for${i}`)}></expr-field>` : nothing}</td>
+          <td><button class="quiet" aria-label="Remove event ${i + 1}" @click=${() => this.change({ events: events.filter((_, j) => j !== i) })}>✕</button></td>
+        </tr>`;
+      })}</tbody></table></div>
+      <div class="row"><button @click=${() => this.change({ events: [...events, { at: '0 h', add: { [this.firstState()]: '1' } }] })}>Add an event</button></div>`;
+  }
+
+  private findTable(claims: ErrorClaims, names: ReturnType<typeof namesOf>, results: Record<string, { value?: number; unit?: string; si?: number; notReached?: boolean; message?: string }>) {
+    const finds = this.cell.find ?? [];
+    return html`<div class="scroll"><table class="finds">
+      ${finds.length ? html`<thead><tr><th>Name</th><th>Question</th><th>Of</th><th>Level or time</th><th>Answer</th><th></th></tr></thead>` : nothing}
+      <tbody>${finds.map((f, i) => {
+        const kind = FIND_KINDS.find((k) => Object.prototype.hasOwnProperty.call(f, k)) ?? 'crossing';
+        const needsLevel = kind === 'crossing' || kind === 'timeAbove' || kind === 'timeBelow';
+        const r = results[f.name];
+        const p = `.find[${i}]`;
+        return html`<tr>
+          <td><input class="name" type="text" aria-label="Question ${i + 1} name" .value=${f.name ?? ''} @input=${(e: Event) => this.setFind(i, { ...f, name: (e.target as HTMLInputElement).value }, `fname${i}`)} /></td>
+          <td><select aria-label="Question ${i + 1} kind" @change=${(e: Event) => this.setFind(i, switchFind(f, kind, (e.target as HTMLSelectElement).value as (typeof FIND_KINDS)[number]))}>
+            ${FIND_KINDS.map((k) => html`<option value=${k} ?selected=${k === kind}>${FIND_LABELS[k]}</option>`)}</select>
+            ${kind === 'crossing' ? html`<select aria-label="Question ${i + 1} direction" @change=${(e: Event) => this.setFind(i, { ...f, direction: (e.target as HTMLSelectElement).value as 'up' | 'down' | 'either' })}>
+              ${(['either', 'down', 'up'] as const).map((d) => html`<option value=${d} ?selected=${(f.direction ?? 'either') === d}>${d === 'either' ? 'either way' : d === 'down' ? 'falling' : 'rising'}</option>`)}</select>` : nothing}</td>
+          <td><input class="name" type="text" aria-label="Question ${i + 1} state" .value=${String(f[kind] ?? '')} @input=${(e: Event) => this.setFind(i, { ...f, [kind]: (e.target as HTMLInputElement).value }, `fstate${i}`)} /></td>
+          <td>${needsLevel || kind === 'valueOf' ? html`<expr-field label="Question ${i + 1} ${needsLevel ? 'level' : 'time'}" .value=${(needsLevel ? f.level : f.at) ?? ''} .names=${names}
+            .error=${claims.take(`${p}.${needsLevel ? 'level' : 'at'}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setFind(i, { ...f, [needsLevel ? 'level' : 'at']: e.detail.value }, `flevel${i}`)}></expr-field>` : nothing}</td>
+          <td class="result">${r ? (r.notReached ? html`<span class="muted">${r.message}</span>` : showQ(r as { value: number; unit: string; si: number })) : ''}
+            ${claims.take(p) ? html`<div class="foot-error">${claims.take(p)!.message}</div>` : nothing}</td>
+          <td><button class="quiet" aria-label="Remove question ${i + 1}" @click=${() => this.change({ find: finds.filter((_, j) => j !== i) })}>✕</button></td>
+        </tr>`;
+      })}</tbody></table></div>
+      <div class="row"><button @click=${() => this.change({ find: [...finds, { name: freshFindName(finds), maximum: this.firstState() } as FindDoc] })}>Ask a question</button></div>`;
+  }
+
+  private closedForm() {
+    const cf = this.report?.closedForm as Record<string, Record<string, unknown>> | undefined;
+    if (!cf) return nothing;
+    return html`${Object.entries(cf).map(([state, e]) => html`<p class="muted">Exact solution (${state} linear in itself):
+      time constant ${showQ(e.timeConstant as never)}, ${e.halfLife ? html`half-life ${showQ(e.halfLife as never)}` : html`doubling time ${showQ(e.doublingTime as never)}`},
+      settles toward ${showQ(e.equilibrium as never)} with the starting values; this run differs from it by at most ${showQ(e.maxError as never, 2)}.</p>`)}`;
+  }
+
+  private firstState(): string {
+    const id = this.cell.rates?.[0];
+    const rc = this.study?.cells.find((x) => x.id === id);
+    return typeof rc?.state === 'string' ? rc.state : 'y';
+  }
+
+  private downloadCsv(plot: Plot) {
+    const data = { t: plot.t, ...Object.fromEntries(plot.states.map((s) => [s.name, s.values])) };
+    const text = exportSeriesCsv(data, [{ key: 't', label: `t (${plot.timeUnit})` }, ...plot.states.map((s) => ({ key: s.name, label: `${s.name} (${s.unit})` }))]);
+    const a = document.createElement('a');
+    a.href = URL.createObjectURL(new Blob([text], { type: 'text/csv' }));
+    a.download = `${this.cell.id}.csv`;
+    a.click();
+    setTimeout(() => URL.revokeObjectURL(a.href), 1000);
+  }
+
+  private setRates(id: string, on: boolean) {
+    const rates = (this.cell.rates ?? []).filter((r) => r !== id);
+    this.change({ rates: on ? [...rates, id] : rates });
+  }
+
+  private setEvent(i: number, ev: EventDoc, key?: string) {
+    this.change({ events: (this.cell.events ?? []).map((x, j) => (j === i ? ev : x)) }, key);
+  }
+
+  private setFind(i: number, f: FindDoc, key?: string) {
+    this.change({ find: (this.cell.find ?? []).map((x, j) => (j === i ? f : x)) }, key);
+  }
+
+  private change(patch: Partial<SimulateCellDoc>, key?: string) {
+    this.dispatchEvent(editEvent({ ...this.cell, ...patch }, key ? `${this.cell.id}:${key}` : undefined));
+  }
+}
+
+function withOptional<T extends object>(o: T, key: string, v: unknown): T {
+  const copy = { ...o } as Record<string, unknown>;
+  if (v === '' || v === undefined) delete copy[key];
+  else copy[key] = v;
+  return copy as T;
+}
+
+function withTarget(ev: EventDoc, kind: 'add' | 'set' | 'infuse', name: string, amount: string): EventDoc {
+  const rest = Object.entries(ev[kind] ?? {}).slice(1);
+  return { ...ev, [kind]: Object.fromEntries([[name, amount], ...rest]) };
+}
+
+function switchAction(ev: EventDoc, to: 'add' | 'set' | 'infuse'): EventDoc {
+  const from = ev.add ? 'add' : ev.set ? 'set' : 'infuse';
+  const { add: _a, set: _s, infuse: _i, for: duration, ...rest } = ev;
+  return { ...rest, [to]: ev[from] ?? {}, ...(to === 'infuse' ? { for: duration ?? '1 h' } : {}) } as EventDoc;
+}
+
+function switchFind(f: FindDoc, from: (typeof FIND_KINDS)[number], to: (typeof FIND_KINDS)[number]): FindDoc {
+  const state = f[from];
+  const copy = { ...f } as Record<string, unknown>;
+  delete copy[from];
+  copy[to] = state;
+  if (to === 'crossing' || to === 'timeAbove' || to === 'timeBelow') copy.level ??= '0';
+  else delete copy.level;
+  if (to === 'valueOf') copy.at ??= '0 h';
+  else delete copy.at;
+  if (to !== 'crossing') { delete copy.direction; delete copy.occurrence; }
+  return copy as unknown as FindDoc;
+}
+
+function freshFindName(finds: readonly FindDoc[]): string {
+  const used = new Set(finds.map((f) => f.name));
+  let n = finds.length + 1;
+  while (used.has(`q${n}`)) n++;
+  return `q${n}`;
+}
+
+customElements.define('simulate-cell', SimulateCellElement);

@@ -1,0 +1,46 @@
+/// <reference lib="webworker" />
+/**
+ * The engine's worker: one study session off the main thread, so that long runs and sweeps
+ * never freeze the page. It only relays: every computation is the engine's.
+ */
+import { openStudy, type StudySession } from '../src/index.ts';
+import type { FromWorker, ToWorker } from '../src/worker-protocol.ts';
+
+let session: StudySession | undefined;
+
+function post(message: FromWorker): void {
+  (self as unknown as Worker).postMessage(message);
+}
+
+self.onmessage = (event: MessageEvent<ToWorker>) => {
+  const msg = event.data;
+  const started = performance.now();
+  if (msg.type === 'open') {
+    const opened = openStudy(msg.doc);
+    if (!opened.ok) {
+      session = undefined;
+      post({ type: 'refused', seq: msg.seq, error: opened.error });
+      return;
+    }
+    session = opened.session;
+    const report = session.report();
+    post({ type: 'report', seq: msg.seq, report, rerun: report.cells.map((c) => c.id), changed: report.cells.map((c) => c.id), ms: performance.now() - started });
+    return;
+  }
+  if (!session) {
+    post({ type: 'refused', seq: msg.seq, error: { message: 'no study is open', path: '' } });
+    return;
+  }
+  const rerun = new Set<string>();
+  const changed = new Set<string>();
+  for (const edit of msg.edits) {
+    const r = session.apply(edit);
+    if (!r.ok) {
+      post({ type: 'refused', seq: msg.seq, error: r.error });
+      return;
+    }
+    r.rerun.forEach((id) => rerun.add(id));
+    r.changed.forEach((id) => changed.add(id));
+  }
+  post({ type: 'report', seq: msg.seq, report: session.report(), rerun: [...rerun], changed: [...changed], ms: performance.now() - started });
+};

@@ -1,0 +1,129 @@
+import { LitElement, html, css, nothing } from 'lit';
+import * as store from './store.ts';
+import type { StudySummary, TrashedStudy } from './store.ts';
+import { TEMPLATES } from './templates.ts';
+import type { Study } from '../src/index.ts';
+
+/** The home page: the studies kept on this device, new ones (blank or from a template), import, and the trash. */
+export class StudyLibrary extends LitElement {
+  static override properties = { studies: { state: true }, trash: { state: true }, problem: { state: true }, filter: { state: true }, notice: { state: true } };
+  studies: StudySummary[] = [];
+  trash: TrashedStudy[] = [];
+  problem?: string;
+  notice?: { text: string; undo?: () => void };
+  filter = '';
+
+  static override styles = css`
+    :host { display: block; }
+    h2 { font-size: 1.1rem; margin: 1.2rem 0 0.5rem; }
+    ul { list-style: none; padding: 0; margin: 0; }
+    li { display: flex; flex-wrap: wrap; align-items: center; gap: 0.5rem; padding: 0.45rem 0.6rem; border: 1px solid #d0d7de; border-radius: 5px; background: #fff; margin-bottom: 0.4rem; }
+    li .t { flex: 1 1 14rem; min-width: 0; }
+    li .t a { color: #12406e; font-weight: 600; text-decoration: none; }
+    li .t a:hover { text-decoration: underline; }
+    .when { color: #56616b; font-size: 0.85rem; }
+    button { font: inherit; font-size: 0.85rem; padding: 0.2rem 0.6rem; border: 1px solid #8795a1; border-radius: 4px; background: #f3f5f7; cursor: pointer; color: #1c2329; }
+    button:hover { background: #e4e9ee; }
+    button:focus-visible, a:focus-visible, input:focus-visible { outline: 2px solid #1d5fa8; outline-offset: 1px; }
+    .templates { display: grid; grid-template-columns: repeat(auto-fill, minmax(15rem, 1fr)); gap: 0.6rem; }
+    .template { text-align: left; border: 1px solid #b9c3cc; border-radius: 6px; background: #fff; padding: 0.6rem 0.8rem; cursor: pointer; font: inherit; color: inherit; }
+    .template:hover { border-color: #1d5fa8; }
+    .template strong { display: block; margin-bottom: 0.2rem; color: #12406e; }
+    .template span { font-size: 0.85rem; color: #47525c; }
+    .search { font: inherit; padding: 0.3rem 0.5rem; border: 1px solid #9aa6b1; border-radius: 4px; width: min(24rem, 100%); margin-bottom: 0.6rem; }
+    .problem { color: #a3211a; }
+    .notice { background: #eef4fb; border: 1px solid #b8cde6; border-radius: 5px; padding: 0.4rem 0.7rem; display: flex; gap: 0.6rem; align-items: center; }
+    .empty { color: #56616b; }
+  `;
+
+  override connectedCallback(): void {
+    super.connectedCallback();
+    void this.refresh();
+  }
+
+  async refresh(): Promise<void> {
+    this.studies = await store.listStudies();
+    this.trash = await store.listTrash();
+  }
+
+  override render() {
+    const q = this.filter.trim().toLowerCase();
+    const templates = TEMPLATES.filter((t) => !q || `${t.title} ${t.description}`.toLowerCase().includes(q));
+    return html`
+      ${this.notice ? html`<p class="notice" role="status">${this.notice.text} ${this.notice.undo ? html`<button @click=${this.notice.undo}>Undo</button>` : nothing}</p>` : nothing}
+      ${this.problem ? html`<p class="problem" role="alert">${this.problem}</p>` : nothing}
+      <h2>Your studies</h2>
+      ${this.studies.length === 0 ? html`<p class="empty">No studies yet: start one below.</p>` : nothing}
+      <ul>${this.studies.map((s) => html`<li>
+        <span class="t"><a href="#/study/${s.id}">${s.title}</a> <span class="when">${s.cells} cells · changed ${when(s.updated)}</span></span>
+        <button @click=${() => this.rename(s)}>Rename</button>
+        <button @click=${() => this.duplicate(s)}>Duplicate</button>
+        <button @click=${() => this.trashStudy(s)}>Delete</button>
+      </li>`)}</ul>
+      <h2>Start a new study</h2>
+      <input class="search" type="search" placeholder="Search the templates" aria-label="Search the templates" .value=${this.filter} @input=${(e: Event) => { this.filter = (e.target as HTMLInputElement).value; }} />
+      <div class="templates">
+        <button class="template" @click=${() => this.create()}><strong>Blank study</strong><span>Start from nothing.</span></button>
+        ${templates.map((t) => html`<button class="template" data-template=${t.key} @click=${() => this.create(t.doc)}><strong>${t.title}</strong><span>${t.description}</span></button>`)}
+      </div>
+      <h2>Import</h2>
+      <label>Open a study file (.ratebook.json): <input type="file" accept=".json,application/json" @change=${this.importFile} /></label>
+      ${this.trash.length ? html`<h2>Trash</h2><ul>${this.trash.map((s) => html`<li>
+        <span class="t">${s.title} <span class="when">deleted ${when(s.deleted)}</span></span>
+        <button @click=${() => this.restore(s.id)}>Restore</button></li>`)}</ul>` : nothing}`;
+  }
+
+  private open(id: string) {
+    location.hash = `#/study/${id}`;
+  }
+
+  private async create(doc?: Study) {
+    const info = await store.createStudy(doc ? structuredClone(doc) : undefined);
+    this.open(info.id);
+  }
+
+  private async rename(s: StudySummary) {
+    const title = prompt('New title', s.title);
+    if (title === null) return;
+    await store.renameStudy(s.id, title);
+    await this.refresh();
+  }
+
+  private async duplicate(s: StudySummary) {
+    await store.duplicateStudy(s.id);
+    await this.refresh();
+  }
+
+  private async trashStudy(s: StudySummary) {
+    await store.deleteStudy(s.id);
+    this.notice = { text: `"${s.title}" moved to the trash.`, undo: () => void this.restore(s.id) };
+    await this.refresh();
+  }
+
+  private async restore(id: string) {
+    await store.restoreStudy(id);
+    this.notice = { text: 'Study restored.' };
+    await this.refresh();
+  }
+
+  private importFile = async (e: Event) => {
+    const input = e.target as HTMLInputElement;
+    const file = input.files?.[0];
+    if (!file) return;
+    const r = await store.importStudy(await file.text());
+    input.value = '';
+    if (!r.ok) {
+      this.problem = `${file.name} was not imported${r.path ? ` (at ${r.path})` : ''}: ${r.message}. Your studies are unchanged.`;
+      return;
+    }
+    this.problem = undefined;
+    this.notice = { text: `Imported "${r.summary.title}" as a new study.` };
+    await this.refresh();
+  };
+}
+
+function when(ms: number): string {
+  return new Date(ms).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+}
+
+customElements.define('study-library', StudyLibrary);

@@ -1,0 +1,142 @@
+import { LitElement, html, css, nothing } from 'lit';
+import { freshId, type Cell, type CellReport } from '../src/index.ts';
+import { StudyController, type StudyControllerOptions } from './study-controller.ts';
+import { KINDS, ADDABLE } from './cells/registry.ts';
+import type { CellEditDetail } from './cells/common.ts';
+
+/**
+ * The open study: its title, cautions, every cell in order with its result, and the tools to
+ * add, move, retitle and delete cells, undo and redo. Each change goes through the
+ * controller as an engine edit; this element only renders.
+ */
+export class StudyView extends LitElement {
+  static override properties = { studyId: { attribute: 'study-id' } };
+  studyId?: string;
+  controller!: StudyController;
+
+  /** A study view with its controller (saving as `options` say). */
+  static create(options: StudyControllerOptions = {}): StudyView {
+    const view = new StudyView();
+    view.controller = new StudyController(view, options);
+    return view;
+  }
+
+  static override styles = css`
+    :host { display: block; }
+    .bar { display: flex; flex-wrap: wrap; gap: 0.5rem; align-items: center; margin: 0.4rem 0 1rem; }
+    .title { font-size: 1.4rem; font-weight: 650; border: 1px solid transparent; border-radius: 4px; padding: 0.15rem 0.35rem; flex: 1 1 18rem; min-width: 0; font-family: inherit; color: #13202b; background: transparent; }
+    .title:hover, .title:focus { border-color: #9aa6b1; background: #fff; }
+    .status { font-size: 0.85rem; color: #4a5560; min-width: 7rem; }
+    .status.busy::before { content: '● '; color: #b07800; }
+    button { font: inherit; font-size: 0.9rem; padding: 0.25rem 0.7rem; border: 1px solid #8795a1; border-radius: 4px; background: #f3f5f7; color: #1c2329; cursor: pointer; }
+    button:hover:not(:disabled) { background: #e4e9ee; }
+    button:disabled { opacity: 0.45; cursor: default; }
+    button:focus-visible, .title:focus-visible { outline: 2px solid #1d5fa8; outline-offset: 1px; }
+    .caution { border-left: 4px solid #a85d00; background: #fff3df; padding: 0.55rem 0.9rem; margin: 0 0 0.8rem; color: #3d2a00; }
+    article { border: 1px solid #c9d1d8; border-radius: 6px; background: #fff; margin: 0 0 0.9rem; padding: 0.6rem 0.9rem 0.7rem; break-inside: avoid; }
+    article.failed { border-color: #b3261e; box-shadow: inset 3px 0 0 #b3261e; }
+    article.fresh { animation: flash 0.6s ease-out; }
+    @keyframes flash { from { box-shadow: 0 0 0 3px rgba(29, 95, 168, 0.35); } to { box-shadow: 0 0 0 0 rgba(29, 95, 168, 0); } }
+    header.cell { display: flex; flex-wrap: wrap; align-items: center; gap: 0.4rem; margin-bottom: 0.3rem; }
+    header.cell input { font: inherit; font-weight: 600; border: 1px solid transparent; border-radius: 4px; padding: 0.1rem 0.3rem; flex: 1 1 10rem; min-width: 0; background: transparent; color: #13202b; }
+    header.cell input:hover, header.cell input:focus { border-color: #9aa6b1; background: #fff; }
+    .kind { font-size: 0.75rem; text-transform: uppercase; letter-spacing: 0.04em; color: #44525e; background: #e8edf1; border-radius: 3px; padding: 0.05rem 0.4rem; }
+    .state { font-size: 0.8rem; }
+    .state.bad { color: #a3211a; font-weight: 600; }
+    .state.idle { color: #6b5200; }
+    .tools button { border-color: transparent; background: transparent; padding: 0.1rem 0.45rem; }
+    .tools button:hover { background: #e8edf1; }
+    .waits { color: #6b5200; font-size: 0.85rem; }
+    .add { display: flex; flex-wrap: wrap; gap: 0.4rem; align-items: center; border: 1px dashed #aab5bf; border-radius: 6px; padding: 0.5rem 0.8rem; }
+    .problem { color: #a3211a; }
+    .empty { color: #4a5560; }
+    @media print {
+      .bar button, .tools, .add, .status { display: none !important; }
+      article { border-color: #999; }
+    }
+  `;
+
+  override connectedCallback(): void {
+    super.connectedCallback();
+    window.addEventListener('keydown', this.keys);
+  }
+
+  override disconnectedCallback(): void {
+    window.removeEventListener('keydown', this.keys);
+    super.disconnectedCallback();
+  }
+
+  /** Ctrl+Z / Cmd+Z undo; Ctrl+Shift+Z, Cmd+Shift+Z and Ctrl+Y redo; not while typing in a plain input that handles its own undo. */
+  private keys = (e: KeyboardEvent) => {
+    const mod = e.ctrlKey || e.metaKey;
+    if (!mod) return;
+    const key = e.key.toLowerCase();
+    const target = e.composedPath()[0] as HTMLElement | undefined;
+    if (target && (target.tagName === 'INPUT' || target.tagName === 'TEXTAREA') && (target as HTMLInputElement).type !== 'range' && (target as HTMLInputElement).type !== 'checkbox') return;
+    if (key === 'z' && !e.shiftKey) { e.preventDefault(); this.controller.undo(); }
+    else if ((key === 'z' && e.shiftKey) || key === 'y') { e.preventDefault(); this.controller.redo(); }
+  };
+
+  override render() {
+    const c = this.controller;
+    const study = c?.study;
+    if (!study) return html`<p class="empty">No study is open.</p>`;
+    const report = c.report;
+    const byId = new Map((report?.cells ?? []).map((r) => [r.id, r] as const));
+    return html`
+      <div class="bar">
+        <input class="title" aria-label="Study title" .value=${study.title}
+          @input=${(e: Event) => c.edit({ type: 'retitle', title: (e.target as HTMLInputElement).value }, 'title')} />
+        <button ?disabled=${!c.canUndo} @click=${() => c.undo()} title="Undo (Ctrl+Z)">Undo</button>
+        <button ?disabled=${!c.canRedo} @click=${() => c.redo()} title="Redo (Ctrl+Shift+Z)">Redo</button>
+        <span class="status ${c.busy ? 'busy' : ''}" role="status" aria-live="polite">${c.busy ? 'computing…' : saveText(c.saveState)}</span>
+      </div>
+      ${(report?.cautions ?? []).map((x) => html`<p class="caution" role="note"><strong>Caution.</strong> ${x.text}</p>`)}
+      ${c.problem ? html`<p class="problem" role="alert">${c.problem}</p>` : nothing}
+      ${study.cells.length === 0 ? html`<p class="empty">This study has no cells yet. Start with parameters or a rate law below.</p>` : nothing}
+      ${study.cells.map((cell, i) => this.cell(cell, i, byId.get(cell.id)))}
+      <div class="add" role="group" aria-label="Add a cell">
+        <span>Add</span>
+        ${ADDABLE.map((kind) => html`<button @click=${() => this.add(kind)}>${KINDS[kind].label}</button>`)}
+      </div>`;
+  }
+
+  private cell(cell: Cell, i: number, r: CellReport | undefined) {
+    const c = this.controller;
+    const info = KINDS[cell.kind];
+    const failed = r && !r.ok;
+    const idle = r?.ok && r.computed === false;
+    const fresh = c.changed.includes(cell.id);
+    return html`<article class="${failed ? 'failed' : ''} ${fresh ? 'fresh' : ''}" aria-label="${cell.title || cell.id} (${info.label})"
+        @cell-edit=${(e: CustomEvent<CellEditDetail>) => { e.stopPropagation(); c.edit({ type: 'replace', cell: e.detail.cell }, e.detail.mergeKey); }}>
+      <header class="cell">
+        <span class="kind">${info.label}</span>
+        <input aria-label="Title of cell ${cell.id}" placeholder=${cell.id} .value=${cell.title ?? ''}
+          @input=${(e: Event) => { const t = (e.target as HTMLInputElement).value; const { title: _t, ...rest } = cell; c.edit({ type: 'replace', cell: t ? { ...rest, title: t } : rest }, `${cell.id}:title`); }} />
+        <span class="state ${failed ? 'bad' : idle ? 'idle' : ''}">${!r ? '' : failed ? (r.waitsOn ? `waits on ${r.waitsOn.join(', ')}` : 'error') : idle ? 'not computed yet' : c.busy && c.rerun.includes(cell.id) ? 'recomputing…' : ''}</span>
+        <span class="tools">
+          <button aria-label="Move ${cell.id} up" ?disabled=${i === 0} @click=${() => c.edit({ type: 'move', id: cell.id, to: i - 1 })}>↑</button>
+          <button aria-label="Move ${cell.id} down" ?disabled=${i === (c.study?.cells.length ?? 0) - 1} @click=${() => c.edit({ type: 'move', id: cell.id, to: i + 1 })}>↓</button>
+          <button aria-label="Delete ${cell.id}" @click=${() => c.edit({ type: 'remove', id: cell.id })}>✕</button>
+        </span>
+      </header>
+      ${info.render(cell, r, c.report)}
+    </article>`;
+  }
+
+  private add(kind: Cell['kind']) {
+    const study = this.controller.study!;
+    const id = freshId(study, kind === 'parameters' ? 'inputs' : kind === 'simulate' ? 'run' : kind);
+    this.controller.edit({ type: 'insert', index: study.cells.length, cell: { id, kind, ...KINDS[kind].blank(study) } });
+  }
+}
+
+function saveText(state: string): string {
+  return state === 'saved' ? 'saved' : state === 'saving' ? 'saving…' : state === 'pending' ? 'unsaved changes' : 'could not save';
+}
+
+customElements.define('study-view', StudyView);
+
+declare global {
+  interface HTMLElementTagNameMap { 'study-view': StudyView }
+}

@@ -1,0 +1,16 @@
+/**
+ * Messages between the app and the engine's worker. The worker holds one study session;
+ * the app sends the study once, then batches of edits, each with a sequence number; every
+ * answer carries the number of the last message it reflects, so a stale answer is known.
+ */
+import type { Edit } from './study/edit.ts';
+import type { Report } from './report.ts';
+import type { Problem } from './study/validate.ts';
+
+export type ToWorker =
+  | { readonly type: 'open'; readonly seq: number; readonly doc: unknown }
+  | { readonly type: 'edits'; readonly seq: number; readonly edits: readonly Edit[] };
+
+export type FromWorker =
+  | { readonly type: 'report'; readonly seq: number; readonly report: Report; readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly ms: number }
+  | { readonly type: 'refused'; readonly seq: number; readonly error: Problem };

@@ -1,0 +1,101 @@
+// The study view with the real engine worker: renders a template, reflects engine errors on
+// the right field, dispatches edits, and undoes them.
+import { expect } from 'chai';
+import { StudyView } from '../../components/study-view.ts';
+import type { ExprField } from '../../components/expr-field.ts';
+import { runStudy, type Study } from '../../src/index.ts';
+import cooling from '../../examples/cooling-stock-pot.ratebook.json';
+import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
+
+async function mount(doc: unknown): Promise<StudyView> {
+  const view = StudyView.create();
+  document.body.append(view);
+  const answered = new Promise<void>((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
+  view.controller.open('test', structuredClone(doc) as Study);
+  await answered;
+  await view.updateComplete;
+  return view;
+}
+
+function nextAnswer(view: StudyView): Promise<void> {
+  return new Promise((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
+}
+
+function deep(root: ParentNode, selector: string): Element[] {
+  const out: Element[] = [];
+  const walk = (n: ParentNode) => {
+    out.push(...n.querySelectorAll(selector));
+    for (const el of n.querySelectorAll('*')) if (el.shadowRoot) walk(el.shadowRoot);
+  };
+  walk(root);
+  return out;
+}
+
+describe('study-view', () => {
+  afterEach(() => document.querySelectorAll('study-view').forEach((v) => v.remove()));
+
+  it('renders every cell of a template with its kind and results', async () => {
+    const view = await mount(cooling);
+    const articles = view.shadowRoot!.querySelectorAll('article');
+    expect(articles.length).to.equal(cooling.cells.length);
+    expect(deep(view.shadowRoot!, 'parameters-cell').length).to.equal(1);
+    expect(deep(view.shadowRoot!, 'simulate-cell').length).to.equal(1);
+    const text = view.shadowRoot!.textContent!;
+    expect(text).to.contain('Caution.');
+  });
+
+  it('an edit of a field re-runs the study and shows the engine\'s new answer', async () => {
+    const view = await mount(cooling);
+    const field = deep(view.shadowRoot!, 'expr-field').find((f) => (f as ExprField).label === 'Value of T_walkin') as ExprField;
+    expect(field, 'the walk-in temperature field').to.exist;
+    const answered = nextAnswer(view);
+    field.dispatchEvent(new CustomEvent('expr-input', { detail: { value: '1 degC' }, bubbles: true, composed: true }));
+    await answered;
+    await view.updateComplete;
+    const expected = runStudy(view.controller.study);
+    expect(expected.ok).to.equal(true);
+    const t21 = (expected.ok ? expected.report.cells.find((c) => c.id === 'run')!.results : {}) as Record<string, { value: number }>;
+    const shown = (view.controller.report!.cells.find((c) => c.id === 'run')!.results as Record<string, { value: number }>).t_21.value;
+    expect(shown).to.equal(t21.t_21.value);
+  });
+
+  it('shows an engine error on the field it belongs to', async () => {
+    const view = await mount(cooling);
+    const field = deep(view.shadowRoot!, 'expr-field').find((f) => (f as ExprField).label === 'Value of k') as ExprField;
+    const answered = nextAnswer(view);
+    field.dispatchEvent(new CustomEvent('expr-input', { detail: { value: '0.55 / h + kk' }, bubbles: true, composed: true }));
+    await answered;
+    await view.updateComplete;
+    const cell = deep(view.shadowRoot!, 'parameters-cell')[0] as HTMLElement & { updateComplete: Promise<unknown> };
+    await cell.updateComplete;
+    const again = deep(view.shadowRoot!, 'expr-field').find((f) => (f as ExprField).label === 'Value of k') as ExprField;
+    expect(again.error?.message).to.match(/unknown name "kk"/);
+    expect(again.error?.span).to.deep.equal([11, 13]);
+  });
+
+  it('undoes and redoes an edit', async () => {
+    const view = await mount(cooling);
+    const before = JSON.stringify(view.controller.study);
+    view.controller.edit({ type: 'remove', id: 'about' });
+    expect(view.controller.study!.cells.length).to.equal(cooling.cells.length - 1);
+    view.controller.undo();
+    expect(JSON.stringify(view.controller.study)).to.equal(before);
+    view.controller.redo();
+    expect(view.controller.study!.cells.length).to.equal(cooling.cells.length - 1);
+  });
+
+  it('adds a cell from the add bar', async () => {
+    const view = await mount(cooling);
+    const button = [...view.shadowRoot!.querySelectorAll('.add button')].find((b) => b.textContent === 'Note') as HTMLButtonElement;
+    button.click();
+    await view.updateComplete;
+    const last = view.controller.study!.cells.at(-1)!;
+    expect(last.kind).to.equal('note');
+    expect(view.shadowRoot!.querySelectorAll('article').length).to.equal(cooling.cells.length + 1);
+  });
+
+  it('shows the dosing caution on a dosing study', async () => {
+    const view = await mount(bolus);
+    expect(view.shadowRoot!.querySelector('.caution')!.textContent).to.match(/licensed professional/);
+  });
+});
