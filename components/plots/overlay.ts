@@ -1,0 +1,107 @@
+/**
+ * Text laid over a uPlot chart's plotting area as HTML: labels beside points (placed so that
+ * they do not overlap) and focusable event markers whose label shows on hover or focus. HTML
+ * rather than canvas text so that the labels can be read, selected, found by tests, and
+ * printed sharp. Rebuilt on every draw of the chart (data, size), never on cursor moves.
+ */
+import type uPlot from 'uplot';
+import { type Box, placeLabel } from './label-placement.ts';
+import { ratioOf } from './axes.ts';
+
+/** A label tied to a point, in CSS pixels relative to the plotting area. */
+export interface PointLabel {
+  readonly x: number;
+  readonly y: number;
+  readonly text: string;
+  /** Class added to the label (`mark`, `level`, `equilibrium`, `fold`...). */
+  readonly kind: string;
+}
+
+/** An event marker: a vertical line's position and what happened there. */
+export interface EventMarker {
+  readonly x: number;
+  readonly text: string;
+}
+
+const LAYER = 'plot-labels';
+
+/** The chart's label layer, made on first use (inside `u.over`). */
+export function labelLayer(u: uPlot): HTMLElement {
+  let layer = u.over.querySelector<HTMLElement>(`:scope > .${LAYER}`);
+  if (!layer) {
+    layer = document.createElement('div');
+    layer.className = LAYER;
+    u.over.append(layer);
+  }
+  return layer;
+}
+
+/**
+ * Replaces the layer's content: event markers first, then the labels, each placed clear of
+ * those before it and of `keepClear` (e.g. the points themselves).
+ */
+export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: readonly EventMarker[] = [], keepClear: Box[] = []): void {
+  const layer = labelLayer(u);
+  layer.replaceChildren();
+  const w = u.bbox.width / ratioOf(u);
+  const h = u.bbox.height / ratioOf(u);
+  for (const ev of events) {
+    const b = document.createElement('button');
+    b.type = 'button';
+    b.className = 'event' + (ev.x > w / 2 ? ' flip' : '');
+    b.style.left = `${ev.x}px`;
+    b.setAttribute('aria-label', ev.text);
+    const tip = document.createElement('span');
+    tip.className = 'tip';
+    tip.setAttribute('role', 'tooltip');
+    tip.textContent = ev.text;
+    b.append(tip);
+    layer.append(b);
+  }
+  const bounds: Box = { x: 0, y: 0, w, h };
+  const taken: Box[] = [...keepClear];
+  for (const l of labels) {
+    const el = document.createElement('span');
+    el.className = `lbl ${l.kind}`;
+    el.textContent = l.text;
+    layer.append(el);
+    const box = placeLabel(l.x, l.y, el.offsetWidth, el.offsetHeight, taken, bounds);
+    el.style.left = `${box.x}px`;
+    el.style.top = `${box.y}px`;
+  }
+}
+
+/** A small square around a point, to keep labels off the point itself. */
+export const around = (x: number, y: number, r = 5): Box => ({ x: x - r, y: y - r, w: 2 * r, h: 2 * r });
+
+/**
+ * Small boxes along the drawn curves of `series` (every `step` CSS pixels), so that labels
+ * keep off the lines as well as off each other.
+ */
+export function curveBoxes(u: uPlot, series: readonly number[], step = 4): Box[] {
+  const boxes: Box[] = [];
+  const xs = u.data[0];
+  const w = u.bbox.width / ratioOf(u);
+  const h = u.bbox.height / ratioOf(u);
+  const add = (x: number, y: number) => { if (x >= 0 && x <= w && y >= 0 && y <= h) boxes.push({ x: x - 1.5, y: y - 1.5, w: 3, h: 3 }); };
+  for (const s of series) {
+    const ys = u.data[s];
+    const scale = u.series[s].scale ?? 'y';
+    let px: number | undefined;
+    let py: number | undefined;
+    for (let i = 0; i < xs.length; i++) {
+      const v = ys[i];
+      if (v == null) { if (v === null) px = py = undefined; continue; }
+      const x = u.valToPos(xs[i], 'x');
+      const y = u.valToPos(v, scale);
+      if (px !== undefined && py !== undefined) {
+        const n = Math.min(200, Math.floor(Math.hypot(x - px, y - py) / step));
+        for (let k = 1; k < n; k++) add(px + ((x - px) * k) / n, py + ((y - py) * k) / n);
+      }
+      add(x, y);
+      px = x;
+      py = y;
+    }
+  }
+  return boxes;
+}

@@ -1,0 +1,234 @@
+// The chart elements draw what the engine reports: each is given a real cell report, and the
+// checks look at the chart's series and data, the labels laid over it, and its canvases.
+import { expect } from 'chai';
+import { runStudy } from '../../src/index.ts';
+import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
+import '../../components/plots/time-plot.ts';
+import { PRINT_WIDTH } from '../../components/plots/chart-controller.ts';
+import { placeLabel, type Box } from '../../components/plots/label-placement.ts';
+import { tickLabels } from '../../components/plots/axes.ts';
+import cooling from '../../examples/cooling-stock-pot.ratebook.json';
+import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
+
+function cellOf(study: unknown, id: string): any {
+  const r = runStudy(study);
+  if (!r.ok) throw new Error(r.error.message);
+  const cell = r.report.cells.find((c) => c.id === id);
+  if (!cell?.ok) throw new Error(`cell ${id} failed`);
+  return cell;
+}
+
+const simulation = (study: unknown) => cellOf(study, 'run') as { plot: SimulationPlot; summary: string };
+const frame = () => new Promise((r) => requestAnimationFrame(() => setTimeout(r, 0)));
+
+/** Puts `el` in a box `width` pixels wide and waits until it has drawn. */
+async function mount<T extends HTMLElement & { updateComplete: Promise<boolean> }>(el: T, width = 700): Promise<T> {
+  const box = document.createElement('div');
+  box.className = 'plot-box';
+  box.style.width = `${width}px`;
+  box.append(el);
+  document.body.append(box);
+  await el.updateComplete;
+  await frame();
+  return el;
+}
+
+const shadow = (el: HTMLElement) => el.shadowRoot!;
+const texts = (el: HTMLElement, sel: string) => [...shadow(el).querySelectorAll(sel)].map((n) => (n.textContent ?? '').trim());
+
+function expectVisibleCanvas(c: HTMLCanvasElement | null) {
+  expect(c, 'a canvas').to.exist;
+  expect(c!.width).to.be.greaterThan(0);
+  expect(c!.height).to.be.greaterThan(0);
+  const box = c!.getBoundingClientRect();
+  expect(box.width).to.be.greaterThan(0);
+  expect(box.height).to.be.greaterThan(0);
+}
+
+/** RGBA of one CSS pixel of a canvas (canvas coordinates scaled by its pixel ratio). */
+function pixel(c: HTMLCanvasElement, cssX: number, cssY: number): number[] {
+  const r = c.width / c.getBoundingClientRect().width;
+  return [...c.getContext('2d')!.getImageData(Math.round(cssX * r), Math.round(cssY * r), 1, 1).data];
+}
+
+afterEach(() => document.querySelectorAll('.plot-box').forEach((b) => b.remove()));
+
+describe('<time-plot>', () => {
+  it('draws each state against time and shows the summary as text and as the canvas name', async () => {
+    const cell = simulation(cooling);
+    const el = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary }));
+    const u = el.charts[0];
+    const canvas = shadow(el).querySelector('canvas');
+    expectVisibleCanvas(canvas);
+    expect(canvas!.getAttribute('role')).to.equal('img');
+    expect(canvas!.getAttribute('aria-label')).to.equal(cell.summary);
+    expect(shadow(el).querySelector('.summary')!.textContent).to.equal(cell.summary);
+    expect(u.series.slice(1).map((s) => s.label)).to.deep.equal(cell.plot.states.map((s) => s.name));
+    expect(u.data[0]).to.equal(cell.plot.t);
+    expect(u.data[1]).to.equal(cell.plot.states[0].values);
+    expect((u.axes[1].label as string)).to.equal('T (degC)');
+  });
+
+  it('marks every event time, every level and every found point with its label', async () => {
+    const cell = simulation(bolus);
+    const el = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary }));
+    const times = new Set(cell.plot.events.map((e) => e.time));
+    expect(times.size).to.equal(6); // the study gives six doses, 8 h apart
+    const markers = [...shadow(el).querySelectorAll<HTMLButtonElement>('button.event')];
+    expect(markers).to.have.length(times.size);
+    expect(markers[1].getAttribute('aria-label')).to.equal(`${cell.plot.events[1].label} at 8 h`);
+    expect(texts(el, '.lbl.mark')).to.deep.equal(cell.plot.marks.map((m) => m.label));
+    expect(texts(el, '.lbl.level')).to.deep.equal(cell.plot.levels.map((l) => l.label));
+    // an event's label shows when its marker has focus
+    const tip = markers[2].querySelector<HTMLElement>('.tip')!;
+    expect(getComputedStyle(tip).display).to.equal('none');
+    markers[2].focus();
+    expect(getComputedStyle(tip).display).to.equal('block');
+  });
+
+  it('keeps the labels of found points and levels apart', async () => {
+    const cell = simulation(cooling);
+    const el = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary }), 500);
+    const boxes = [...shadow(el).querySelectorAll<HTMLElement>('.lbl')].map((l) => l.getBoundingClientRect());
+    expect(boxes).to.have.length(cell.plot.marks.length + cell.plot.levels.length);
+    for (let i = 0; i < boxes.length; i++) {
+      for (let j = i + 1; j < boxes.length; j++) {
+        const [a, b] = [boxes[i], boxes[j]];
+        const overlap = a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
+        expect(overlap, `labels ${i} and ${j} overlap`).to.equal(false);
+      }
+    }
+  });
+
+  it('relabels the time axis in the unit picked, without touching the data', async () => {
+    const cell = simulation(cooling);
+    const el = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary }));
+    const u = el.charts[0];
+    const axis = u.axes[0] as any;
+    const label = () => (typeof axis.label === 'function' ? axis.label(u, 0, 0, 0) : axis.label);
+    expect(label()).to.equal('time (h)');
+    const select = shadow(el).querySelector('select')!;
+    // a 10 h run: offered in min and h (36 000 s is too many, 0.42 d too few)
+    expect([...select.options].map((o) => o.value)).to.deep.equal(['min', 'h']);
+    select.value = 'min';
+    select.dispatchEvent(new Event('change'));
+    await el.updateComplete;
+    await frame();
+    expect(el.charts[0]).to.equal(u);
+    expect(label()).to.equal('time (min)');
+    const splits: number[] = axis._splits;
+    const values: string[] = axis._values;
+    expect(splits.length).to.be.greaterThan(2);
+    // 1 h = 60 min (definition): each tick at x hours reads 60·x
+    splits.forEach((h, i) => expect(Number(values[i])).to.be.closeTo(h * 60, 1e-9 * Math.max(1, h * 60)));
+    expect(u.data[0]).to.equal(cell.plot.t);
+    // the change of air at 30 min (the study's moved_at)
+    expect(shadow(el).querySelector('button.event')!.getAttribute('aria-label')).to.equal('change: Ta at 30 min');
+  });
+
+  it('sets new data on the same chart, and makes it again only for other series', async () => {
+    const cell = simulation(cooling);
+    const el = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary }));
+    const u = el.charts[0];
+    const faster = structuredClone(cooling) as any;
+    faster.cells.find((c: any) => c.id === 'inputs').items[0].value = '0.9 / h';
+    const next = simulation(faster);
+    el.plot = next.plot;
+    el.summary = next.summary;
+    await el.updateComplete;
+    expect(el.charts[0]).to.equal(u);
+    expect(u.data[1]).to.equal(next.plot.states[0].values);
+    expect(shadow(el).querySelector('canvas')!.getAttribute('aria-label')).to.equal(next.summary);
+    const bolusCell = simulation(bolus);
+    el.plot = bolusCell.plot;
+    await el.updateComplete;
+    expect(el.charts[0]).to.not.equal(u);
+    expect(u.root.isConnected).to.equal(false);
+  });
+
+  it('draws measured points as dots over the curve', async () => {
+    const cell = simulation(cooling);
+    const measured = [{ state: 'T', t: [4.5], values: [55] }]; // off the curve, which is near 9 degC at 4.5 h
+    const plain = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary }));
+    const dotted = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary, points: measured }));
+    const at = (el: typeof plain) => {
+      const u = el.charts[0];
+      const left = u.bbox.left / (u.ctx.canvas.width / u.width);
+      const top = u.bbox.top / (u.ctx.canvas.width / u.width);
+      // on the dot's ring, 3.5 px right of its centre
+      return pixel(u.ctx.canvas, left + u.valToPos(4.5, 'x') + 3.5, top + u.valToPos(55, 'y0'));
+    };
+    expect(at(plain)[3]).to.equal(0);
+    expect(at(dotted)[3]).to.be.greaterThan(100);
+    expect(texts(dotted, '.key li').join()).to.contain('measured');
+    expect(shadow(plain).querySelector('.key')).to.equal(null);
+  });
+
+  it('follows its box\'s width, widens to the printed width for printing, and comes back', async () => {
+    const cell = simulation(cooling);
+    const el = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary }), 500);
+    const u = el.charts[0];
+    expect(u.width).to.equal(500);
+    (el.parentElement as HTMLElement).style.width = '420px';
+    await frame();
+    await frame();
+    expect(u.width).to.equal(420);
+    dispatchEvent(new Event('beforeprint'));
+    expect(u.width).to.equal(PRINT_WIDTH);
+    expect(u.ctx.canvas.width).to.equal(Math.round(PRINT_WIDTH * devicePixelRatio));
+    dispatchEvent(new Event('afterprint'));
+    await frame();
+    expect(u.width).to.equal(420);
+  });
+
+  it('destroys its chart when taken out of the document, and draws again when put back', async () => {
+    const cell = simulation(cooling);
+    const el = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary }));
+    const u = el.charts[0];
+    const errors: unknown[] = [];
+    const onError = (e: ErrorEvent) => errors.push(e.error);
+    addEventListener('error', onError);
+    const box = el.parentElement!;
+    el.remove();
+    await frame();
+    expect(el.charts).to.have.length(0);
+    expect(u.root.isConnected).to.equal(false);
+    expect(shadow(el).querySelector('.uplot')).to.equal(null);
+    dispatchEvent(new Event('beforeprint')); // a destroyed chart no longer listens
+    dispatchEvent(new Event('afterprint'));
+    box.append(el);
+    await el.updateComplete;
+    await frame();
+    removeEventListener('error', onError);
+    expect(errors).to.deep.equal([]);
+    expect(el.charts).to.have.length(1);
+    expect(el.charts[0]).to.not.equal(u);
+    expectVisibleCanvas(shadow(el).querySelector('canvas'));
+  });
+});
+
+describe('label placement and tick labels', () => {
+  const bounds: Box = { x: 0, y: 0, w: 400, h: 200 };
+
+  it('puts a label above right of its point, and the next one elsewhere when that is taken', () => {
+    const taken: Box[] = [];
+    const a = placeLabel(100, 100, 60, 16, taken, bounds);
+    expect(a).to.deep.equal({ x: 106, y: 78, w: 60, h: 16 });
+    const b = placeLabel(104, 100, 60, 16, taken, bounds);
+    expect(b).to.deep.equal({ x: 110, y: 106, w: 60, h: 16 });
+    expect(taken).to.have.length(2);
+  });
+
+  it('keeps a label inside the plot near an edge', () => {
+    const box = placeLabel(398, 4, 60, 16, [], bounds);
+    expect(box.x + box.w).to.be.at.most(400);
+    expect(box.y).to.be.at.least(0);
+  });
+
+  it('gives ticks as many decimals as their step needs', () => {
+    expect(tickLabels([0, 0.25, 0.5, 0.75], 0.25)).to.deep.equal(['0', '0.25', '0.5', '0.75']);
+    expect(tickLabels([0, 20, 40], 20)).to.deep.equal(['0', '20', '40']);
+    expect(tickLabels([0.1 + 0.2, 0.4], 0.1)).to.deep.equal(['0.3', '0.4']);
+    expect(tickLabels([0, 5e-5, 1e-4], 5e-5)).to.deep.equal(['0', '5e-5', '1e-4']);
+  });
+});
