@@ -4,11 +4,31 @@ import { expect } from 'chai';
 import { runStudy } from '../../src/index.ts';
 import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
 import '../../components/plots/time-plot.ts';
+import '../../components/plots/phase-plot.ts';
 import { PRINT_WIDTH } from '../../components/plots/chart-controller.ts';
 import { placeLabel, type Box } from '../../components/plots/label-placement.ts';
 import { tickLabels } from '../../components/plots/axes.ts';
 import cooling from '../../examples/cooling-stock-pot.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
+
+/** Invented numbers: a harvested logistic stock, a pole, a transcritical exchange, a semi-stable point. */
+const phaseStudy = {
+  format: 'ratebook-study', version: 1, title: 'phase plots',
+  cells: [
+    { id: 'p', kind: 'parameters', items: [
+      { name: 'r', value: '0.5 / d' }, { name: 'K', value: '1000 kg' }, { name: 'H', value: '50 kg / d' },
+      { name: 'mu', value: '0.5 kg' }, { name: 'c', value: '1 / (kg * d)' },
+    ] },
+    { id: 'fish', kind: 'rate', state: 'N', unit: 'kg', rate: 'r * N * (1 - N / K) - H', initial: '800 kg' },
+    { id: 'harvest', kind: 'phase', rate: 'fish', from: '0 kg', to: '1200 kg', sweep: { name: 'H', from: '0 kg / d', to: '200 kg / d', steps: 81 } },
+    { id: 'wall', kind: 'rate', state: 'y', unit: 'm', rate: '1 m^2 / s / (y - 1 m)', initial: '3 m' },
+    { id: 'pole', kind: 'phase', rate: 'wall', from: '0 m', to: '3 m' },
+    { id: 'swap', kind: 'rate', state: 'M', unit: 'kg', rate: 'c * M * (mu - M)', initial: '1 kg' },
+    { id: 'exchange', kind: 'phase', rate: 'swap', from: '-2 kg', to: '2 kg', sweep: { name: 'mu', from: '-1 kg', to: '1 kg', steps: 41 } },
+    { id: 'touch', kind: 'rate', state: 'S', unit: 'kg', rate: 'r * (S - K / 2)^2 / K', initial: '1 kg' },
+    { id: 'semi', kind: 'phase', rate: 'touch', from: '0 kg', to: '1000 kg' },
+  ],
+};
 
 function cellOf(study: unknown, id: string): any {
   const r = runStudy(study);
@@ -49,6 +69,14 @@ function expectVisibleCanvas(c: HTMLCanvasElement | null) {
 function pixel(c: HTMLCanvasElement, cssX: number, cssY: number): number[] {
   const r = c.width / c.getBoundingClientRect().width;
   return [...c.getContext('2d')!.getImageData(Math.round(cssX * r), Math.round(cssY * r), 1, 1).data];
+}
+
+/** Sum of alpha over a rectangle of a canvas, in canvas pixels. */
+function ink(c: HTMLCanvasElement, x0: number, x1: number, y0: number, y1: number): number {
+  const d = c.getContext('2d')!.getImageData(Math.round(x0), Math.round(y0), Math.round(x1 - x0), Math.round(y1 - y0)).data;
+  let sum = 0;
+  for (let i = 3; i < d.length; i += 4) sum += d[i];
+  return sum;
 }
 
 afterEach(() => document.querySelectorAll('.plot-box').forEach((b) => b.remove()));
@@ -204,6 +232,103 @@ describe('<time-plot>', () => {
     expect(el.charts).to.have.length(1);
     expect(el.charts[0]).to.not.equal(u);
     expectVisibleCanvas(shadow(el).querySelector('canvas'));
+  });
+});
+
+describe('<phase-plot>', () => {
+  const phaseEl = (id: string, state: string) => {
+    const c = cellOf(phaseStudy, id);
+    return { cell: c, el: Object.assign(document.createElement('phase-plot'), {
+      plot: c.plot, equilibria: c.equilibria, intervals: c.intervals, poles: c.poles ?? [], summary: c.summary, state,
+    }) };
+  };
+
+  it('draws the rate, the phase line and the direction field, with the summary', async () => {
+    const { cell, el } = phaseEl('harvest', 'N');
+    await mount(el);
+    const [rate, field] = el.charts;
+    expectVisibleCanvas(rate.ctx.canvas);
+    expectVisibleCanvas(shadow(el).querySelector<HTMLCanvasElement>('canvas.strip'));
+    expectVisibleCanvas(field.ctx.canvas);
+    expect(rate.ctx.canvas.getAttribute('aria-label')).to.equal(cell.summary);
+    expect(shadow(el).querySelector('.summary')!.textContent).to.equal(cell.summary);
+    expect(rate.data[0]).to.deep.equal(cell.plot.y);
+    expect(rate.data[1]).to.deep.equal(cell.plot.f);
+    expect(rate.axes[0].label).to.equal('N (kg)');
+    expect(rate.axes[1].label).to.equal('dN/dt (kg / d)');
+    expect(field.series).to.have.length(cell.plot.solutions.length + 1);
+    expect(field.data[0]).to.equal(cell.plot.solutions[0].t);
+    cell.plot.solutions.forEach((s: { y: unknown[] }, i: number) => expect(field.data[i + 1]).to.equal(s.y));
+  });
+
+  it('labels each equilibrium with its stability', async () => {
+    const { cell, el } = phaseEl('harvest', 'N');
+    await mount(el);
+    expect(cell.equilibria).to.have.length(2);
+    expect(texts(el, '.lbl.equilibrium')).to.deep.equal(['repeller: 112.7 kg', 'attractor: 887.3 kg']);
+    expect(texts(el, '.key li')).to.include.members(['attractor', 'repeller']);
+  });
+
+  it('points the phase line\'s arrows the way the state moves', async () => {
+    const { cell, el } = phaseEl('harvest', 'N');
+    await mount(el, 500);
+    const u = el.charts[0];
+    const strip = shadow(el).querySelector<HTMLCanvasElement>('canvas.strip')!;
+    const r = strip.width / strip.getBoundingClientRect().width;
+    const mid = Math.round(44 * r * 0.45);
+    expect(cell.intervals.map((iv: any) => iv.sign)).to.deep.equal(['-', '+', '-']);
+    for (const iv of cell.intervals) {
+      // one arrow per interval at this width, at its middle (canvas pixels)
+      const [a, b] = [iv.from?.value ?? 0, iv.to?.value ?? 1200].map((v: number) => u.valToPos(v, 'x', true));
+      const x = Math.round((a + b) / 2);
+      // The arrow's tail is wide and its tip narrow: in the two rows 4 to 5 px above the line
+      // only the tail's barbs have ink. So the ink there lies behind the arrow's centre.
+      const left = ink(strip, x - 6 * r, x, mid - 5 * r, mid - 3 * r);
+      const right = ink(strip, x, x + 6 * r, mid - 5 * r, mid - 3 * r);
+      const [behind, ahead] = iv.sign === '+' ? [left, right] : [right, left];
+      expect(behind, `ink behind the ${iv.sign} arrow`).to.be.greaterThan(200);
+      expect(ahead, `ink ahead of the ${iv.sign} arrow`).to.be.lessThan(behind / 4);
+    }
+  });
+
+  it('marks a pole with a dashed line and its label, and does not join the curve across it', async () => {
+    const { cell, el } = phaseEl('pole', 'y');
+    await mount(el);
+    expect(cell.poles).to.have.length(1);
+    expect(cell.equilibria).to.have.length(0);
+    expect(texts(el, '.lbl.pole')).to.deep.equal(['pole: 1 m']);
+    expect(texts(el, '.lbl.equilibrium')).to.deep.equal([]);
+    const [xs, fs] = el.charts[0].data as [number[], Array<number | null>];
+    const at = xs.indexOf(cell.poles[0].value);
+    expect(at).to.be.greaterThan(0);
+    expect(fs[at]).to.equal(null);
+    expect(xs).to.have.length(cell.plot.y.length + 1);
+  });
+
+  it('shows a semi-stable point half filled on the side the state comes from', async () => {
+    const { cell, el } = phaseEl('semi', 'S');
+    await mount(el, 500);
+    expect(cell.equilibria.map((e: any) => e.stability)).to.deep.equal(['semi-stable']);
+    expect(texts(el, '.lbl.equilibrium')).to.deep.equal(['semi-stable: 500 kg']);
+    // rising on both sides: the state comes in from below, so the left half is filled
+    const u = el.charts[0];
+    const r = u.ctx.canvas.width / u.width;
+    const x = u.bbox.left / r + u.valToPos(500, 'x');
+    const y = u.bbox.top / r + u.valToPos(0, 'y');
+    const left = pixel(u.ctx.canvas, x - 2.5, y - 1.5);
+    const right = pixel(u.ctx.canvas, x + 2.5, y - 1.5);
+    expect(left.slice(0, 3), 'left half filled').to.not.deep.equal([255, 255, 255]);
+    expect(right.slice(0, 3), 'right half white').to.deep.equal([255, 255, 255]);
+  });
+
+  it('destroys both charts when taken out of the document', async () => {
+    const { el } = phaseEl('harvest', 'N');
+    await mount(el);
+    const charts = [...el.charts];
+    el.remove();
+    expect(el.charts).to.have.length(0);
+    charts.forEach((u) => expect(u.root.isConnected).to.equal(false));
+    expect(shadow(el).querySelector('canvas')).to.equal(null);
   });
 });
 

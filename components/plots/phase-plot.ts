@@ -1,0 +1,413 @@
+/**
+ * `<phase-plot>`: where a one-state law y' = f(y) settles, from a phase cell's report. Three
+ * parts: the rate f against the state with its zero line, the equilibria (marked by stability)
+ * and any poles; under it, the phase line: the state's range with arrows showing which way the
+ * state moves on each interval; and a direction field over time and state, with slope marks
+ * taken from the sampled rate and the engine's solutions drawn over it.
+ */
+import { LitElement, html, nothing, type PropertyValues } from 'lit';
+import uPlot from 'uplot';
+import { formatNumber } from '../../src/index.ts';
+import { ChartController, type ChartSpec } from './chart-controller.ts';
+import { chartStyles } from './chart-styles.ts';
+import { xAxis, yAxis, ratioOf } from './axes.ts';
+import { drawOverlay, around, curveBoxes, type PointLabel } from './overlay.ts';
+import { FIELD_MARK, INK, MUTED, STABLE, UNSTABLE, ZERO_LINE } from './palette.ts';
+import { drawEquilibriumDot, equilibriumKey, type Stability } from './equilibrium-dot.ts';
+
+/** A quantity as the report gives it, in display units. */
+export interface ShownQuantity { readonly value: number; readonly unit: string; readonly si?: number }
+
+/** The phase cell's `plot`. */
+export interface PhasePlotData {
+  readonly stateUnit: string;
+  readonly rateUnit: string;
+  readonly timeUnit: string;
+  readonly y: ReadonlyArray<number | null>;
+  readonly f: ReadonlyArray<number | null>;
+  readonly solutions: ReadonlyArray<{ readonly start: number | null; readonly t: readonly number[]; readonly y: ReadonlyArray<number | null> }>;
+}
+
+export interface PhaseEquilibrium extends ShownQuantity { readonly stability: Stability; readonly slope?: ShownQuantity }
+export interface PhaseInterval { readonly from: ShownQuantity | null; readonly to: ShownQuantity | null; readonly sign: string }
+
+const RATE_HEIGHT = 240;
+const STRIP_HEIGHT = 44;
+const FIELD_HEIGHT = 260;
+/** Spacing of the direction field's slope marks, CSS pixels. */
+const FIELD_STEP_X = 34;
+const FIELD_STEP_Y = 24;
+/** Half the length of a slope mark, CSS pixels. */
+const FIELD_HALF = 7;
+/** Space between arrows on a long interval of the phase line, CSS pixels. */
+const ARROW_EVERY = 160;
+const fmt = (v: number) => formatNumber(v, 4);
+
+export class PhasePlot extends LitElement {
+  static override properties = {
+    plot: { attribute: false },
+    equilibria: { attribute: false },
+    intervals: { attribute: false },
+    poles: { attribute: false },
+    summary: {},
+    state: {},
+  };
+
+  static override styles = chartStyles;
+
+  /** The phase cell's `plot`. */
+  plot?: PhasePlotData;
+  /** The cell's `equilibria`. */
+  equilibria: readonly PhaseEquilibrium[] = [];
+  /** The cell's `intervals` (null ends are the ends of the range). */
+  intervals: readonly PhaseInterval[] = [];
+  /** The cell's `poles`, if any. */
+  poles: readonly ShownQuantity[] = [];
+  /** The cell's `summary`. */
+  summary = '';
+  /** The state's name, for the axis labels (the plot data do not carry it). */
+  state = 'y';
+
+  private rateData: uPlot.AlignedData = [[]];
+  private fieldData: uPlot.AlignedData = [[]];
+  private readonly chart = new ChartController(this, () => this.specs());
+
+  /** The uPlot charts: the rate against the state, then the direction field. */
+  get charts(): readonly uPlot[] {
+    return this.chart.charts;
+  }
+
+  override willUpdate(changed: PropertyValues<this>): void {
+    if (changed.has('plot') || changed.has('poles')) this.rateData = this.plot ? rateTable(this.plot, this.poles) : [[]];
+    if (changed.has('plot')) this.fieldData = this.plot ? solutionTable(this.plot) : [[]];
+  }
+
+  override render() {
+    if (!this.plot) return nothing;
+    const kinds = new Set(this.equilibria.map((e) => e.stability));
+    return html`
+      <figure>
+        <div class="chart rate"></div>
+        <ul class="key" aria-hidden="true">
+          ${(['attractor', 'repeller', 'semi-stable'] as const).filter((k) => kinds.has(k)).map((k) => html`<li>${equilibriumKey(k)}${k}</li>`)}
+          ${this.poles.length ? html`<li><svg width="12" height="14"><line x1="6" y1="0" x2="6" y2="14" stroke=${MUTED} stroke-width="1.5" stroke-dasharray="3 2"/></svg>pole</li>` : nothing}
+          <li><svg width="16" height="10"><path d="M1 5h12M9 1l5 4-5 4" fill="none" stroke=${INK} stroke-width="1.5"/></svg>the way ${this.state} moves</li>
+        </ul>
+        <div class="chart field"></div>
+        <p class="summary">${this.summary}</p>
+      </figure>`;
+  }
+
+  private specs(): ChartSpec[] {
+    const p = this.plot;
+    if (!p) return [];
+    const rate = this.renderRoot.querySelector<HTMLElement>('.chart.rate')!;
+    const field = this.renderRoot.querySelector<HTMLElement>('.chart.field')!;
+    const units = [p.stateUnit, p.rateUnit, p.timeUnit, this.state];
+    return [
+      { target: rate, key: JSON.stringify(units), height: RATE_HEIGHT, options: () => this.rateOptions(), data: this.rateData, label: this.summary || `rate of ${this.state} against ${this.state}` },
+      {
+        target: field, key: JSON.stringify([...units, p.solutions.length]), height: FIELD_HEIGHT, options: () => this.fieldOptions(), data: this.fieldData,
+        label: `${this.state} against time from ${p.solutions.length} starting values, over the direction field`,
+      },
+    ];
+  }
+
+  private rateOptions(): Omit<uPlot.Options, 'width' | 'height'> {
+    const p = this.plot!;
+    return {
+      scales: {
+        x: { time: false, range: (_u, min, max) => [min, max] },
+        y: { range: (u, min, max) => this.rateRange(u, min, max) },
+      },
+      series: [
+        { label: this.state, value: (_u, v) => (v == null ? '–' : `${fmt(v)} ${p.stateUnit}`) },
+        { label: `d${this.state}/dt`, stroke: INK, width: 2, points: { show: false }, value: (_u, v) => (v == null ? '–' : `${fmt(v)} ${p.rateUnit}`) },
+      ],
+      axes: [xAxis(`${this.state} (${p.stateUnit})`), yAxis('y', `d${this.state}/dt (${p.rateUnit})`)],
+      legend: { show: true, live: true },
+      cursor: { points: { size: 7 }, drag: { x: false, y: false } },
+      hooks: {
+        drawAxes: [(u) => this.drawZeroAndPoles(u)],
+        draw: [(u) => { this.drawEquilibria(u); this.drawStrip(u); }],
+      },
+    };
+  }
+
+  /**
+   * The rate axis always shows zero. Next to a pole the rate is unbounded, so there the axis
+   * shows the bulk of the curve (up to twice the 90th percentile of |f|) and lets the spikes
+   * leave the plot.
+   */
+  private rateRange(_u: uPlot, min: number | null, max: number | null): uPlot.Range.MinMax {
+    let lo = Math.min(min ?? 0, 0);
+    let hi = Math.max(max ?? 0, 0);
+    if (this.poles.length) {
+      const sizes = this.plot!.f.filter((v): v is number => v !== null).map(Math.abs).sort((a, b) => a - b);
+      const cap = 2 * (sizes[Math.floor(0.9 * (sizes.length - 1))] ?? 0);
+      if (cap > 0) { lo = Math.max(lo, -cap); hi = Math.min(hi, cap); }
+    }
+    if (lo === hi) { lo -= 1; hi += 1; }
+    const pad = 0.08 * (hi - lo);
+    return [lo < 0 ? lo - pad : lo, hi > 0 ? hi + pad : hi];
+  }
+
+  private drawZeroAndPoles(u: uPlot): void {
+    const r = ratioOf(u);
+    const { left, top, width, height } = u.bbox;
+    const ctx = u.ctx;
+    ctx.save();
+    ctx.lineWidth = 1.25 * r;
+    ctx.strokeStyle = ZERO_LINE;
+    const y0 = u.valToPos(0, 'y', true);
+    ctx.beginPath();
+    ctx.moveTo(left, y0);
+    ctx.lineTo(left + width, y0);
+    ctx.stroke();
+    ctx.strokeStyle = MUTED;
+    ctx.setLineDash([5 * r, 4 * r]);
+    for (const pole of this.poles) {
+      const x = u.valToPos(pole.value, 'x', true);
+      ctx.beginPath();
+      ctx.moveTo(x, top);
+      ctx.lineTo(x, top + height);
+      ctx.stroke();
+    }
+    ctx.restore();
+  }
+
+  private drawEquilibria(u: uPlot): void {
+    const r = ratioOf(u);
+    const labels: PointLabel[] = [];
+    const clear = [];
+    for (const e of this.equilibria) {
+      drawEquilibriumDot(u.ctx, u.valToPos(e.value, 'x', true), u.valToPos(0, 'y', true), 5.5 * r, r, e.stability, this.attractingSide(e));
+      const x = u.valToPos(e.value, 'x');
+      const y = u.valToPos(0, 'y');
+      labels.push({ x, y, text: `${e.stability}: ${fmt(e.value)} ${e.unit}`, kind: 'equilibrium' });
+      clear.push(around(x, y, 7));
+    }
+    for (const pole of this.poles) {
+      labels.push({ x: u.valToPos(pole.value, 'x'), y: 10, text: `pole: ${fmt(pole.value)} ${pole.unit}`, kind: 'pole' });
+    }
+    drawOverlay(u, labels, [], [...clear, ...curveBoxes(u, [1])]);
+  }
+
+  /** For a semi-stable point, the side the flow comes in from (read from the intervals' signs). */
+  private attractingSide(e: PhaseEquilibrium): 'left' | 'right' | undefined {
+    if (e.stability !== 'semi-stable') return undefined;
+    const near = (q: ShownQuantity | null) => (q ? Math.abs(q.value - e.value) : Infinity);
+    const below = [...this.intervals].sort((a, b) => near(a.to) - near(b.to))[0];
+    const above = [...this.intervals].sort((a, b) => near(a.from) - near(b.from))[0];
+    if (below?.sign === '+') return 'left';
+    if (above?.sign === '-') return 'right';
+    return undefined;
+  }
+
+  /** The phase line, drawn under the rate chart with the same horizontal scale. */
+  private drawStrip(u: uPlot): void {
+    const p = this.plot;
+    if (!p) return;
+    // Inside the chart's own root, right under the plot and above the legend; goes with the chart.
+    let canvas = u.root.querySelector<HTMLCanvasElement>('canvas.strip');
+    if (!canvas) {
+      canvas = document.createElement('canvas');
+      canvas.className = 'strip';
+      canvas.setAttribute('aria-hidden', 'true');
+      u.root.querySelector('.u-wrap')!.after(canvas);
+    }
+    const r = ratioOf(u);
+    canvas.style.width = `${u.width}px`;
+    canvas.style.height = `${STRIP_HEIGHT}px`;
+    canvas.width = Math.round(u.width * r);
+    canvas.height = Math.round(STRIP_HEIGHT * r);
+    const ctx = canvas.getContext('2d')!;
+    ctx.clearRect(0, 0, canvas.width, canvas.height);
+    const left = u.bbox.left;
+    const right = u.bbox.left + u.bbox.width;
+    const x = (v: number) => left + u.valToPos(v, 'x', true) - u.bbox.left;
+    const mid = Math.round(STRIP_HEIGHT * r * 0.45);
+    const xs = u.scales.x;
+    const lo = xs.min ?? 0;
+    const hi = xs.max ?? 1;
+
+    ctx.strokeStyle = INK;
+    ctx.fillStyle = INK;
+    ctx.lineWidth = 1.5 * r;
+    ctx.beginPath();
+    ctx.moveTo(left, mid);
+    ctx.lineTo(right, mid);
+    ctx.stroke();
+    for (const iv of this.intervals) {
+      const a = Math.max(x(iv.from?.value ?? lo), left);
+      const b = Math.min(x(iv.to?.value ?? hi), right);
+      if (iv.sign === 'none') {
+        ctx.save();
+        ctx.strokeStyle = '#fff';
+        ctx.lineWidth = 4 * r;
+        ctx.beginPath(); ctx.moveTo(a, mid); ctx.lineTo(b, mid); ctx.stroke();
+        ctx.strokeStyle = MUTED;
+        ctx.lineWidth = 1.5 * r;
+        ctx.setLineDash([2 * r, 3 * r]);
+        ctx.beginPath(); ctx.moveTo(a, mid); ctx.lineTo(b, mid); ctx.stroke();
+        ctx.restore();
+        continue;
+      }
+      if (iv.sign === '0') {
+        ctx.save();
+        ctx.lineWidth = 5 * r;
+        ctx.strokeStyle = STABLE;
+        ctx.beginPath(); ctx.moveTo(a, mid); ctx.lineTo(b, mid); ctx.stroke();
+        ctx.restore();
+        continue;
+      }
+      const dir = iv.sign === '+' ? 1 : iv.sign === '-' ? -1 : 0;
+      const span = b - a;
+      if (!dir || span < 16 * r) continue;
+      const n = Math.max(1, Math.floor(span / (ARROW_EVERY * r)));
+      for (let k = 0; k < n; k++) arrowHead(ctx, Math.round(a + (span * (k + 0.5)) / n), mid, dir, r);
+    }
+    ctx.strokeStyle = MUTED;
+    ctx.lineWidth = 1.25 * r;
+    ctx.setLineDash([3 * r, 2 * r]);
+    for (const pole of this.poles) {
+      const px = x(pole.value);
+      ctx.beginPath(); ctx.moveTo(px, mid - 10 * r); ctx.lineTo(px, mid + 10 * r); ctx.stroke();
+    }
+    ctx.setLineDash([]);
+    for (const e of this.equilibria) drawEquilibriumDot(ctx, x(e.value), mid, 5.5 * r, r, e.stability, this.attractingSide(e));
+    ctx.fillStyle = MUTED;
+    ctx.font = `${11 * r}px system-ui, sans-serif`;
+    ctx.textBaseline = 'top';
+    ctx.textAlign = 'left';
+    ctx.fillText(`phase line of ${this.state}`, left, mid + 9 * r);
+  }
+
+  private fieldOptions(): Omit<uPlot.Options, 'width' | 'height'> {
+    const p = this.plot!;
+    const ys = p.y.filter((v): v is number => v !== null);
+    const yLo = ys[0];
+    const yHi = ys[ys.length - 1];
+    return {
+      scales: {
+        x: { time: false, range: (_u, min, max) => [min, max] },
+        y: { range: () => [yLo, yHi] },
+      },
+      series: [
+        { label: 'time' },
+        ...p.solutions.map((s): uPlot.Series => ({
+          label: s.start === null ? 'solution' : `from ${fmt(s.start)} ${p.stateUnit}`,
+          stroke: STABLE, width: 1.75, points: { show: false }, spanGaps: false,
+        })),
+      ],
+      axes: [xAxis(`time (${p.timeUnit})`), yAxis('y', `${this.state} (${p.stateUnit})`)],
+      legend: { show: false },
+      cursor: { show: false, drag: { x: false, y: false } },
+      hooks: { drawAxes: [(u) => this.drawField(u)] },
+    };
+  }
+
+  /**
+   * Slope marks on a grid: at each row the rate is the sampled f nearest that state value (the
+   * same along the row, since the law does not change with time); the mark points along
+   * (1, f) in data units, scaled to pixels. Equilibria are drawn as the constant solutions.
+   */
+  private drawField(u: uPlot): void {
+    const p = this.plot;
+    if (!p) return;
+    const r = ratioOf(u);
+    const { left, top, width, height } = u.bbox;
+    const ctx = u.ctx;
+    const pxPerT = u.valToPos(1, 'x', true) - u.valToPos(0, 'x', true);
+    const pxPerY = u.valToPos(0, 'y', true) - u.valToPos(1, 'y', true);
+    ctx.save();
+    ctx.beginPath();
+    ctx.rect(left, top, width, height);
+    ctx.clip();
+    ctx.lineWidth = 1.25 * r;
+    for (const e of this.equilibria) {
+      const y = u.valToPos(e.value, 'y', true);
+      ctx.strokeStyle = e.stability === 'attractor' ? STABLE : UNSTABLE;
+      ctx.setLineDash(e.stability === 'attractor' ? [] : [6 * r, 4 * r]);
+      ctx.globalAlpha = 0.6;
+      ctx.beginPath(); ctx.moveTo(left, y); ctx.lineTo(left + width, y); ctx.stroke();
+    }
+    ctx.globalAlpha = 1;
+    ctx.setLineDash([]);
+    ctx.strokeStyle = FIELD_MARK;
+    ctx.lineWidth = 1.2 * r;
+    ctx.lineCap = 'round';
+    const half = FIELD_HALF * r;
+    const cols = Math.max(1, Math.floor(width / (FIELD_STEP_X * r)));
+    const rows = Math.max(1, Math.floor(height / (FIELD_STEP_Y * r)));
+    ctx.beginPath();
+    for (let j = 0; j < rows; j++) {
+      const cy = top + (height * (j + 0.5)) / rows;
+      const f = nearestRate(p, u.posToVal(cy, 'y', true));
+      if (f === null) continue;
+      const vx = pxPerT;
+      const vy = -f * pxPerY;
+      const len = Math.hypot(vx, vy);
+      if (!(len > 0) || !Number.isFinite(len)) continue;
+      const dx = (vx / len) * half;
+      const dy = (vy / len) * half;
+      for (let i = 0; i < cols; i++) {
+        const cx = left + (width * (i + 0.5)) / cols;
+        ctx.moveTo(cx - dx, cy - dy);
+        ctx.lineTo(cx + dx, cy + dy);
+      }
+    }
+    ctx.stroke();
+    ctx.restore();
+  }
+}
+
+/** The sampled rate at the sample nearest `y` (null where the rate is undefined). */
+function nearestRate(p: PhasePlotData, y: number): number | null {
+  let best = -1;
+  let gap = Infinity;
+  p.y.forEach((v, i) => {
+    if (v !== null && Math.abs(v - y) < gap) { gap = Math.abs(v - y); best = i; }
+  });
+  return best < 0 ? null : p.f[best];
+}
+
+/** The rate curve as a table, with a gap at each pole so that no line joins its two sides. */
+function rateTable(p: PhasePlotData, poles: readonly ShownQuantity[]): uPlot.AlignedData {
+  const xs: number[] = [];
+  const fs: Array<number | null> = [];
+  p.y.forEach((y, i) => {
+    if (y === null) return;
+    const prev = xs[xs.length - 1];
+    for (const pole of poles) if (prev !== undefined && prev < pole.value && pole.value < y) { xs.push(pole.value); fs.push(null); }
+    xs.push(y);
+    fs.push(p.f[i]);
+  });
+  return [xs, fs];
+}
+
+/** The solutions as one table over time (joined on their times when they differ). */
+function solutionTable(p: PhasePlotData): uPlot.AlignedData {
+  const sols = p.solutions;
+  if (!sols.length) return [[]];
+  const t0 = sols[0].t;
+  const shared = sols.every((s) => s.t.length === t0.length && s.t.every((t, i) => t === t0[i]));
+  if (shared) return [t0 as number[], ...sols.map((s) => s.y as Array<number | null>)];
+  return uPlot.join(sols.map((s) => [s.t as number[], s.y as Array<number | null>]), sols.map(() => [0, 1]));
+}
+
+function arrowHead(ctx: CanvasRenderingContext2D, x: number, y: number, dir: number, r: number): void {
+  ctx.beginPath();
+  ctx.moveTo(x + dir * 6 * r, y);
+  ctx.lineTo(x - dir * 5 * r, y - 5.5 * r);
+  ctx.lineTo(x - dir * 2 * r, y);
+  ctx.lineTo(x - dir * 5 * r, y + 5.5 * r);
+  ctx.closePath();
+  ctx.fill();
+}
+
+customElements.define('phase-plot', PhasePlot);
+
+declare global {
+  interface HTMLElementTagNameMap { 'phase-plot': PhasePlot }
+}
