@@ -5,7 +5,9 @@ import { runStudy } from '../../src/index.ts';
 import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
 import '../../components/plots/time-plot.ts';
 import '../../components/plots/phase-plot.ts';
+import '../../components/plots/sweep-plot.ts';
 import { PRINT_WIDTH } from '../../components/plots/chart-controller.ts';
+import { runsOf } from '../../components/plots/sweep-plot.ts';
 import { placeLabel, type Box } from '../../components/plots/label-placement.ts';
 import { tickLabels } from '../../components/plots/axes.ts';
 import cooling from '../../examples/cooling-stock-pot.ratebook.json';
@@ -329,6 +331,61 @@ describe('<phase-plot>', () => {
     expect(el.charts).to.have.length(0);
     charts.forEach((u) => expect(u.root.isConnected).to.equal(false));
     expect(shadow(el).querySelector('canvas')).to.equal(null);
+  });
+});
+
+describe('<sweep-plot>', () => {
+  it('draws the branches, marks each fold with its label, and shows the summary', async () => {
+    const { sweep } = cellOf(phaseStudy, 'harvest');
+    const el = await mount(Object.assign(document.createElement('sweep-plot'), { sweep, state: 'N' }));
+    const u = el.charts[0];
+    expectVisibleCanvas(u.ctx.canvas);
+    expect(u.ctx.canvas.getAttribute('aria-label')).to.equal(sweep.summary);
+    expect(shadow(el).querySelector('.summary')!.textContent).to.equal(sweep.summary);
+    expect(sweep.folds).to.have.length(1);
+    expect(texts(el, '.lbl.fold')).to.deep.equal(['fold: H = 125 kg / d']);
+    expect(u.axes[0].label).to.equal('H (kg / d)');
+    expect(u.axes[1].label).to.equal('N (kg)');
+  });
+
+  it('draws stable stretches solid and the others dashed, split where a branch changes', async () => {
+    const { sweep } = cellOf(phaseStudy, 'exchange');
+    const el = await mount(Object.assign(document.createElement('sweep-plot'), { sweep, state: 'M' }));
+    const u = el.charts[0];
+    expect(sweep.folds).to.have.length(0);
+    expect(texts(el, '.lbl.fold')).to.deep.equal([]);
+    // one branch goes from attractor to repeller through mu = 0: two runs; the others one each
+    const changing = sweep.branches.filter((b: any[]) => new Set(b.map((p) => p.stability)).size > 1);
+    expect(changing).to.have.length(1);
+    expect(u.series).to.have.length(1 + sweep.branches.length + 1);
+    const runs = u.series.slice(1);
+    expect(runs.filter((s) => !s.dash).length).to.equal(2);
+    expect(runs.filter((s) => s.dash).length).to.equal(2);
+    expect(runs.every((s) => (s.dash ? s.label!.toString().endsWith('unstable') : s.label!.toString().endsWith('stable')))).to.equal(true);
+  });
+
+  it('destroys its chart when taken out of the document', async () => {
+    const { sweep } = cellOf(phaseStudy, 'harvest');
+    const el = await mount(Object.assign(document.createElement('sweep-plot'), { sweep, state: 'N' }));
+    const u = el.charts[0];
+    el.remove();
+    expect(el.charts).to.have.length(0);
+    expect(u.root.isConnected).to.equal(false);
+  });
+});
+
+describe('splitting a branch by stability', () => {
+  const q = (value: number) => ({ value, unit: 'kg' });
+  const pt = (p: number, v: number, stability: 'attractor' | 'repeller' | 'semi-stable') => ({ parameter: q(p), value: q(v), stability });
+
+  it('starts each run at the last point of the one before, so the curve stays joined', () => {
+    const runs = runsOf({ parameter: 'a', folds: [], branches: [[pt(0, 1, 'attractor'), pt(1, 2, 'attractor'), pt(2, 3, 'repeller'), pt(3, 4, 'repeller')]] });
+    expect(runs.map((r) => [r.stable, r.x, r.y])).to.deep.equal([[true, [0, 1], [1, 2]], [false, [1, 2, 3], [2, 3, 4]]]);
+  });
+
+  it('keeps a semi-stable point with the stretch it ends, and orders runs by the parameter', () => {
+    const runs = runsOf({ parameter: 'a', folds: [], branches: [[pt(3, 1, 'repeller'), pt(2, 2, 'repeller'), pt(1, 3, 'semi-stable')]] });
+    expect(runs.map((r) => [r.stable, r.x, r.y])).to.deep.equal([[false, [1, 2, 3], [3, 2, 1]]]);
   });
 });
 
