@@ -44,7 +44,7 @@ export class TimePlot extends LitElement {
     plot: { attribute: false },
     summary: {},
     points: { attribute: false },
-    unit: { state: true },
+    unit: {},
   };
 
   static override styles = chartStyles;
@@ -55,7 +55,10 @@ export class TimePlot extends LitElement {
   summary = '';
   /** Measured points to draw over the curves. */
   points: readonly MeasuredPoints[] = [];
-  /** The unit the time axis is labelled in (the plot's own until the reader picks another). */
+  /**
+   * The unit the time axis is labelled in: s, min, h or d (the reader's pick from the switch,
+   * or set by the host); the plot's own unit when empty or when it cannot be converted to.
+   */
   unit = '';
 
   private panels: Panel[] = [];
@@ -67,10 +70,8 @@ export class TimePlot extends LitElement {
   }
 
   override willUpdate(changed: PropertyValues<this>): void {
-    if (changed.has('plot')) {
-      const before = changed.get('plot') as SimulationPlot | undefined;
-      if (!this.plot || before?.timeUnit !== this.plot.timeUnit || !this.unit) this.unit = this.plot?.timeUnit ?? '';
-    }
+    // Keep the reader's (or host's) unit across new data while it can be converted to.
+    if (changed.has('plot') && this.plot && timeFactor(this.plot.timeUnit, this.unit) === undefined) this.unit = this.plot.timeUnit;
     // New arrays for new points too, so that the chart re-ranges its scales to show them.
     if (changed.has('plot') || changed.has('points')) this.panels = this.plot ? panelsOf(this.plot) : [];
   }
@@ -79,14 +80,15 @@ export class TimePlot extends LitElement {
     const p = this.plot;
     if (!p) return nothing;
     const span = p.t.length ? p.t[p.t.length - 1] - p.t[0] : 0;
-    const choices = timeUnitChoices(p.timeUnit, span);
+    const offered = timeUnitChoices(p.timeUnit, span);
+    const choices = offered.includes(this.shownUnit) ? offered : [...offered, this.shownUnit];
     return html`
       <figure>
         ${choices.length > 1 ? html`
           <div class="controls">
             <label>time in
               <select aria-label="time unit" @change=${(e: Event) => { this.unit = (e.target as HTMLSelectElement).value; }}>
-                ${choices.map((u) => html`<option value=${u} ?selected=${u === this.unit}>${u}</option>`)}
+                ${choices.map((u) => html`<option value=${u} ?selected=${u === this.shownUnit}>${u}</option>`)}
               </select>
             </label>
           </div>` : nothing}

@@ -154,6 +154,27 @@ describe('<time-plot>', () => {
     expect(u.data[0]).to.equal(cell.plot.t);
     // the change of air at 30 min (the study's moved_at)
     expect(shadow(el).querySelector('button.event')!.getAttribute('aria-label')).to.equal('change: Ta at 30 min');
+    // new data keep the reader's unit
+    const faster = structuredClone(cooling) as any;
+    faster.cells.find((c: any) => c.id === 'inputs').items[0].value = '0.9 / h';
+    el.plot = simulation(faster).plot;
+    await el.updateComplete;
+    await frame();
+    expect(label()).to.equal('time (min)');
+    expect(select.value).to.equal('min');
+  });
+
+  it('starts in the unit the host sets, and in the plot\'s own when that unit is unknown', async () => {
+    const cell = simulation(bolus);
+    const el = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary, unit: 'd' }));
+    const axis = el.charts[0].axes[0] as any;
+    expect(axis.label(el.charts[0], 0, 0, 0)).to.equal('time (d)');
+    // 48 h = 2 d (definition of the day): the last tick reads 2
+    expect(axis._values[axis._values.length - 1]).to.equal('2');
+    el.unit = 'fortnight';
+    await el.updateComplete;
+    await frame();
+    expect(axis.label(el.charts[0], 0, 0, 0)).to.equal('time (h)');
   });
 
   it('sets new data on the same chart, and makes it again only for other series', async () => {
