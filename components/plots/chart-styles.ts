@@ -39,6 +39,7 @@ export const chartStyles = [
       figure { break-inside: avoid; }
       .event .tip { display: none !important; }
       .lbl { background: #fff; }
+      .u-legend .u-value { display: none; }
     }
   `,
 ];

@@ -149,7 +149,7 @@ export class PhasePlot extends LitElement {
     }
     if (lo === hi) { lo -= 1; hi += 1; }
     const pad = 0.08 * (hi - lo);
-    return [lo < 0 ? lo - pad : lo, hi > 0 ? hi + pad : hi];
+    return [lo - pad, hi + pad];
   }
 
   private drawZeroAndPoles(u: uPlot): void {
