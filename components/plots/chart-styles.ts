@@ -21,6 +21,8 @@ export const chartStyles = [
     canvas.strip { display: block; }
     .u-legend { font-size: 12px; }
     .plot-labels { position: absolute; inset: 0; pointer-events: none; }
+    .leaders { position: absolute; inset: 0; width: 100%; height: 100%; overflow: visible; }
+    .leaders line { stroke: #5c6773; stroke-width: 1; }
     .lbl { position: absolute; white-space: nowrap; font-size: 12px; line-height: 16px; padding: 0 3px;
       background: rgba(255, 255, 255, 0.88); border-radius: 3px; color: #1d2630; }
     .lbl.level { color: #3b4652; font-style: italic; }

@@ -16,19 +16,22 @@ const inside = (a: Box, bounds: Box) => a.x >= bounds.x && a.y >= bounds.y && a.
 
 /**
  * The top-left corner for a `w`×`h` label that belongs to the point (`px`, `py`): right above it,
- * else right below, left above, left below; else pushed down (then up) its column until it is
- * free. `taken` are boxes already used (labels, and any region to keep clear); the chosen box is
- * appended to it. When nothing is free, the first choice clamped into `bounds`.
+ * else right below, left above, left below, centred above or below; then the same beside each
+ * of `along` (other x positions on the point's horizontal line: a level can be labelled
+ * anywhere along it); else pushed down, then up, its column until it is free. `taken` are boxes
+ * already used (labels, and any region to keep clear); the chosen box is appended to it. When
+ * nothing is free, the first choice clamped into `bounds`.
  */
-export function placeLabel(px: number, py: number, w: number, h: number, taken: Box[], bounds: Box): Box {
-  const candidates: Box[] = [
-    { x: px + GAP, y: py - GAP - h, w, h },
-    { x: px + GAP, y: py + GAP, w, h },
-    { x: px - GAP - w, y: py - GAP - h, w, h },
-    { x: px - GAP - w, y: py + GAP, w, h },
-    { x: px - w / 2, y: py - GAP - h, w, h },
-    { x: px - w / 2, y: py + GAP, w, h },
+export function placeLabel(px: number, py: number, w: number, h: number, taken: Box[], bounds: Box, along: readonly number[] = []): Box {
+  const close = (x: number): Box[] => [
+    { x: x + GAP, y: py - GAP - h, w, h },
+    { x: x + GAP, y: py + GAP, w, h },
+    { x: x - GAP - w, y: py - GAP - h, w, h },
+    { x: x - GAP - w, y: py + GAP, w, h },
+    { x: x - w / 2, y: py - GAP - h, w, h },
+    { x: x - w / 2, y: py + GAP, w, h },
   ];
+  const candidates: Box[] = [px, ...along].flatMap(close);
   for (let step = 1; step <= MAX_STEPS; step++) {
     for (const dir of [1, -1]) {
       candidates.push({ x: px + GAP, y: py - GAP - h + dir * step * (h + 2), w, h });

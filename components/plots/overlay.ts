@@ -15,6 +15,8 @@ export interface PointLabel {
   readonly text: string;
   /** Class added to the label (`mark`, `level`, `equilibrium`, `fold`...). */
   readonly kind: string;
+  /** Other x positions on the same horizontal line where the label may go (for a level). */
+  readonly along?: readonly number[];
 }
 
 /** An event marker: a vertical line's position and what happened there. */
@@ -60,16 +62,37 @@ export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: rea
   }
   const bounds: Box = { x: 0, y: 0, w, h };
   const taken: Box[] = [...keepClear];
+  const leaders = document.createElementNS(SVG, 'svg');
+  leaders.setAttribute('class', 'leaders');
+  leaders.setAttribute('aria-hidden', 'true');
+  layer.append(leaders);
   for (const l of labels) {
     const el = document.createElement('span');
     el.className = `lbl ${l.kind}`;
     el.textContent = l.text;
     layer.append(el);
-    const box = placeLabel(l.x, l.y, el.offsetWidth, el.offsetHeight, taken, bounds);
+    const box = placeLabel(l.x, l.y, el.offsetWidth, el.offsetHeight, taken, bounds, l.along);
     el.style.left = `${box.x}px`;
     el.style.top = `${box.y}px`;
+    // A label pushed away from its point gets a thin line back to it (a level's label, only
+    // when pushed off its line).
+    const ax = l.along ? Math.min(Math.max(l.x, box.x), box.x + box.w) : l.x;
+    const nx = Math.min(Math.max(ax, box.x), box.x + box.w);
+    const ny = Math.min(Math.max(l.y, box.y), box.y + box.h);
+    if (Math.hypot(nx - ax, ny - l.y) > LEADER_FROM) {
+      const line = document.createElementNS(SVG, 'line');
+      line.setAttribute('x1', String(ax));
+      line.setAttribute('y1', String(l.y));
+      line.setAttribute('x2', String(nx));
+      line.setAttribute('y2', String(ny));
+      leaders.append(line);
+    }
   }
 }
+
+const SVG = 'http://www.w3.org/2000/svg';
+/** Distance from a point to its label, CSS pixels, beyond which a leader line is drawn. */
+const LEADER_FROM = 14;
 
 /** A small square around a point, to keep labels off the point itself. */
 export const around = (x: number, y: number, r = 5): Box => ({ x: x - r, y: y - r, w: 2 * r, h: 2 * r });

@@ -247,9 +247,12 @@ export class TimePlot extends LitElement {
       labels.push({ x, y, text: m.label, kind: 'mark' });
       clear.push(around(x, y));
     }
+    for (const m of this.points.filter((m) => inPanel(m.state))) {
+      m.t.forEach((t, i) => clear.push(around(u.valToPos(t, 'x'), u.valToPos(m.values[i], scaleOf(m.state)), 4)));
+    }
     for (const l of p.levels.filter((l) => inPanel(l.state))) {
       const y = u.valToPos(l.value, scaleOf(l.state));
-      if (inside(cssW, y)) labels.push({ x: cssW - 2, y, text: l.label, kind: 'level' });
+      if (inside(cssW, y)) labels.push({ x: cssW - 2, y, text: l.label, kind: 'level', along: [0.75, 0.5, 0.25].map((f) => f * cssW) });
     }
     const events: EventMarker[] = times
       .map((ev) => ({ x: u.valToPos(ev.time, 'x'), text: `${ev.labels.join('; ')} at ${fmt(ev.time * this.factor)} ${this.shownUnit}` }))

@@ -422,6 +422,13 @@ describe('label placement and tick labels', () => {
     expect(taken).to.have.length(2);
   });
 
+  it('moves a level\'s label along its line before pushing it off the line', () => {
+    const taken: Box[] = [{ x: 300, y: 0, w: 100, h: 200 }]; // the right end is busy
+    const box = placeLabel(398, 100, 60, 16, taken, bounds, [200, 100]);
+    // first free spot: right above the line at x = 200
+    expect(box).to.deep.equal({ x: 206, y: 78, w: 60, h: 16 });
+  });
+
   it('keeps a label inside the plot near an edge', () => {
     const box = placeLabel(398, 4, 60, 16, [], bounds);
     expect(box.x + box.w).to.be.at.most(400);
