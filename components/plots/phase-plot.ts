@@ -78,7 +78,10 @@ export class PhasePlot extends LitElement {
   }
 
   override willUpdate(changed: PropertyValues<this>): void {
-    if (changed.has('plot') || changed.has('poles')) this.rateData = this.plot ? rateTable(this.plot, this.poles) : [[]];
+    // A host may pass a fresh (equal) list of poles on every render: rebuild only on a real change.
+    const before = changed.get('poles') as readonly ShownQuantity[] | undefined;
+    const polesMoved = changed.has('poles') && (before?.length !== this.poles.length || this.poles.some((q, i) => q.value !== before[i].value));
+    if (changed.has('plot') || polesMoved) this.rateData = this.plot ? rateTable(this.plot, this.poles) : [[]];
     if (changed.has('plot')) this.fieldData = this.plot ? solutionTable(this.plot) : [[]];
   }
 

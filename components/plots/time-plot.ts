@@ -73,7 +73,9 @@ export class TimePlot extends LitElement {
     // Keep the reader's (or host's) unit across new data while it can be converted to.
     if (changed.has('plot') && this.plot && timeFactor(this.plot.timeUnit, this.unit) === undefined) this.unit = this.plot.timeUnit;
     // New arrays for new points too, so that the chart re-ranges its scales to show them.
-    if (changed.has('plot') || changed.has('points')) this.panels = this.plot ? panelsOf(this.plot) : [];
+    const before = changed.get('points') as readonly MeasuredPoints[] | undefined;
+    const pointsMoved = changed.has('points') && (before?.length !== this.points.length || this.points.some((m, i) => m !== before[i]));
+    if (changed.has('plot') || pointsMoved) this.panels = this.plot ? panelsOf(this.plot) : [];
   }
 
   override render() {

@@ -328,6 +328,19 @@ describe('<phase-plot>', () => {
     expect(xs).to.have.length(cell.plot.y.length + 1);
   });
 
+  it('keeps its data when a host passes an equal list of poles again', async () => {
+    const { cell, el } = phaseEl('pole', 'y');
+    await mount(el);
+    const data = el.charts[0].data;
+    el.poles = structuredClone(cell.poles);
+    await el.updateComplete;
+    expect(el.charts[0].data).to.equal(data);
+    el.poles = [];
+    await el.updateComplete;
+    expect(el.charts[0].data).to.not.equal(data);
+    expect(el.charts[0].data[0]).to.have.length(cell.plot.y.length);
+  });
+
   it('shows a semi-stable point half filled on the side the state comes from', async () => {
     const { cell, el } = phaseEl('semi', 'S');
     await mount(el, 500);
