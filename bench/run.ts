@@ -16,6 +16,7 @@ import { setGeneratedCode } from '../src/expression/compile.ts';
 import { phaseBenchmarks } from './phase.ts';
 import { odeBench } from './ode.ts';
 import { simulateBenchmarks } from './simulate.ts';
+import { browserBenchmarks } from './browser.ts';
 
 /** One line of a section's table. `met` is undefined for a figure with no goal. */
 interface Row {
@@ -27,7 +28,7 @@ interface Row {
 
 interface Section {
   readonly title: string;
-  readonly run: () => Row[];
+  readonly run: () => Row[] | Promise<Row[]>;
 }
 
 // ---------------------------------------------------------------------------------------
@@ -297,12 +298,17 @@ function simulateRows(): Row[] {
   }));
 }
 
+async function browserRows(): Promise<Row[]> {
+  return (await browserBenchmarks()).map((r) => ({ measure: r.name, result: r.value, goal: r.goal, met: r.met }));
+}
+
 const SECTIONS: readonly Section[] = [
   { title: 'Compiled rate laws: evaluations per second', run: rateLawRows },
   { title: 'Incremental editing of a study', run: editRows },
   { title: 'Equilibria and parameter sweeps', run: phaseRows },
   { title: 'ODE integration against odex at equal accuracy', run: odeRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
+  { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },
 ];
 
 // ---------------------------------------------------------------------------------------
@@ -319,7 +325,7 @@ function printSection(title: string, rows: readonly Row[], seconds: number): voi
   for (const r of rows) console.log(line([r.measure, r.result, r.goal ?? '', status(r)]));
 }
 
-function main(): void {
+async function main(): Promise<void> {
   const filter = process.argv.slice(2).join(' ').toLowerCase();
   const chosen = SECTIONS.filter((s) => s.title.toLowerCase().includes(filter));
   console.log(`Ratebook benchmark, Node ${process.version}, ${new Date().toISOString()}`);
@@ -327,7 +333,7 @@ function main(): void {
   for (const s of chosen) {
     const t0 = performance.now();
     try {
-      const rows = s.run();
+      const rows = await s.run();
       printSection(s.title, rows, (performance.now() - t0) / 1000);
       met += rows.filter((r) => r.met === true).length;
       notMet += rows.filter((r) => r.met === false).length;
@@ -339,4 +345,4 @@ function main(): void {
   console.log(`\nGoals met: ${met} of ${met + notMet}.`);
 }
 
-main();
+await main();

@@ -21,6 +21,8 @@ export class PhaseCellElement extends LitElement {
     const names = namesOf(this.study);
     const rateCells = (this.study?.cells ?? []).filter((x) => x.kind === 'rate').map((x) => x.id);
     const eqs = (this.report?.equilibria ?? []) as Eq[];
+    const law = this.study?.cells.find((x) => x.id === c.rate);
+    const state = typeof law?.state === 'string' ? law.state : 'y';
     const sw = c.sweep;
     return html`
       <div class="row">
@@ -52,8 +54,8 @@ export class PhaseCellElement extends LitElement {
           ${eqs.length === 0 ? html`<tr><td colspan="3" class="muted">No equilibrium in the range.</td></tr>` : nothing}
         </tbody></table>
         ${((this.report.notes ?? []) as string[]).map((n) => html`<p class="muted">${n}</p>`)}
-        <phase-plot .plot=${this.report.plot} .equilibria=${eqs} .intervals=${this.report.intervals ?? []} .poles=${this.report.poles ?? []} .summary=${String(this.report.summary ?? '')}></phase-plot>
-        ${this.report.sweep ? html`<sweep-plot .sweep=${this.report.sweep}></sweep-plot>` : nothing}` : nothing}
+        <phase-plot .state=${state} .plot=${this.report.plot} .equilibria=${eqs} .intervals=${this.report.intervals ?? []} .poles=${this.report.poles ?? []} .summary=${String(this.report.summary ?? '')}></phase-plot>
+        ${this.report.sweep ? html`<sweep-plot .state=${state} .sweep=${this.report.sweep}></sweep-plot>` : nothing}` : nothing}
       ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
   }
 

@@ -126,6 +126,7 @@ function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFro
       result.folds.map((fo) => ({ parameter: paramQ(fo.parameter), value: stateQ(fo.value), pair: fo.pair })));
     output.sweep = {
       parameter: name,
+      range: [report(pFrom), report(pTo)],
       branches: result.branches.map((br) => br.points.map((pt) => ({ parameter: report(paramQ(pt.parameter)), value: report(stateQ(pt.value)), stability: pt.stability }))),
       folds: result.folds.map((fo) => ({ parameter: report(paramQ(fo.parameter)), value: report(stateQ(fo.value)), pair: fo.pair, located: fo.method, converged: fo.converged })),
       evaluations: result.evaluations,

@@ -1,0 +1,120 @@
+/**
+ * Browser figures (run by bench/run.ts): from a slider's input event to the last downstream
+ * plot repainted, over a long drag of the cooling template's k, median and 95th percentile;
+ * the longest main-thread task during the drag; and the production bundle's size, gzipped.
+ * Builds the app, serves it with `vite preview` and drives the Debian Chromium.
+ */
+import { spawn, spawnSync } from 'node:child_process';
+import { readdirSync, readFileSync, mkdtempSync, rmSync } from 'node:fs';
+import { gzipSync } from 'node:zlib';
+import { createServer } from 'node:net';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { chromium } from 'playwright-core';
+
+const root = fileURLToPath(new URL('..', import.meta.url));
+
+export interface BrowserRow { readonly name: string; readonly value: string; readonly goal?: string; readonly met?: boolean }
+
+function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const s = createServer();
+    s.unref();
+    s.on('error', reject);
+    s.listen(0, '127.0.0.1', () => { const a = s.address(); s.close(() => resolve(typeof a === 'object' && a ? a.port : 0)); });
+  });
+}
+
+/** The gzipped size of what the first page loads (the page and its entry script) and of the engine's worker. */
+function bundleSizes(): { first: number; worker: number } {
+  const assets = join(root, 'dist', 'assets');
+  const html = readFileSync(join(root, 'dist', 'index.html'), 'utf8');
+  let first = gzipSync(html).length;
+  let worker = 0;
+  for (const f of readdirSync(assets)) {
+    const size = gzipSync(readFileSync(join(assets, f))).length;
+    if (html.includes(f)) first += size;
+    else if (f.startsWith('engine.worker')) worker += size;
+  }
+  return { first, worker };
+}
+
+/** What runs in the page: drags the first slider step by step, timing each input to the repaint after the engine's answer. */
+const IN_PAGE = `async (n) => {
+  const find = (r, sel) => {
+    const hit = r.querySelector(sel);
+    if (hit) return hit;
+    for (const el of r.querySelectorAll('*')) if (el.shadowRoot) { const x = find(el.shadowRoot, sel); if (x) return x; }
+    return null;
+  };
+  const view = find(document, 'study-view');
+  const slider = find(document, 'input.slider');
+  const long = [];
+  new PerformanceObserver((list) => { for (const e of list.getEntries()) long.push(e.duration); }).observe({ type: 'longtask' });
+  const lo = Number(slider.min), hi = Number(slider.max);
+  const latencies = [];
+  const work = [];
+  const settled = async (el) => { await el.updateComplete; for (const c of el.shadowRoot?.querySelectorAll('*') ?? []) if (c.updateComplete) await settled(c); };
+  for (let i = 0; i < n; i++) {
+    let rendered = 0;
+    const painted = new Promise((resolve) => {
+      const off = view.controller.onAnswer(() => {
+        off();
+        settled(view).then(() => { rendered = performance.now(); requestAnimationFrame(() => resolve(performance.now())); });
+      });
+    });
+    const v = lo + ((hi - lo) * ((i * 37) % n)) / n;
+    await new Promise((r) => requestAnimationFrame(r));
+    const t0 = performance.now();
+    slider.value = String(v);
+    slider.dispatchEvent(new Event('input', { bubbles: true, composed: true }));
+    latencies.push((await painted) - t0);
+    work.push(rendered - t0);
+  }
+  await new Promise((r) => setTimeout(r, 100));
+  return { latencies, work, longest: long.length ? Math.max(...long) : 0 };
+}`;
+
+export async function browserBenchmarks(steps = 120): Promise<BrowserRow[]> {
+  const build = spawnSync(process.execPath, [join(root, 'node_modules', 'vite', 'bin', 'vite.js'), 'build'], { cwd: root, encoding: 'utf8' });
+  if (build.status !== 0) throw new Error(`vite build failed: ${build.stderr}`);
+  const sizes = bundleSizes();
+  const port = await freePort();
+  const preview = spawn(process.execPath, [join(root, 'node_modules', 'vite', 'bin', 'vite.js'), 'preview', '--host', '127.0.0.1', '--port', String(port), '--strictPort'], { cwd: root, stdio: 'ignore' });
+  const url = `http://127.0.0.1:${port}/`;
+  const profile = mkdtempSync(join(tmpdir(), 'ratebook-bench-'));
+  try {
+    for (let i = 0; i < 100; i++) {
+      try { if ((await fetch(url)).ok) break; } catch { /* not yet */ }
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    const context = await chromium.launchPersistentContext(profile, {
+      executablePath: process.env.CHROME_PATH ?? '/usr/bin/chromium', headless: true, viewport: { width: 1280, height: 900 },
+      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    });
+    const page = context.pages()[0] ?? (await context.newPage());
+    await page.goto(url);
+    await page.locator('button.template[data-template="cooling-stock-pot"]').click();
+    await page.locator('time-plot').first().waitFor();
+    // plain JavaScript text: the page must not see the TypeScript loader's helpers
+    const result = (await page.evaluate(`(${IN_PAGE})(${steps})`)) as { latencies: number[]; work: number[]; longest: number };
+    await context.close();
+    const quantile = (xs: number[]) => { const s = [...xs].sort((a, b) => a - b); return (p: number) => s[Math.min(s.length - 1, Math.floor(p * s.length))]; };
+    const q = quantile(result.latencies);
+    const w = quantile(result.work);
+    const ms = (x: number) => `${x.toFixed(1)} ms`;
+    return [
+      { name: `slider input to the frame that paints the last plot (cooling template, ${steps} positions); median`, value: ms(q(0.5)), goal: '< 16 ms at p95', met: q(0.5) < 16 },
+      { name: '  95th percentile', value: ms(q(0.95)), goal: '< 16 ms', met: q(0.95) < 16 },
+      { name: '  of which the work (engine round trip and every element rendered), median', value: ms(w(0.5)) },
+      { name: '  the same, 95th percentile', value: ms(w(0.95)) },
+      { name: 'longest main-thread task during the drag (long tasks are those over 50 ms)', value: result.longest ? ms(result.longest) : 'none over 50 ms', goal: '< 50 ms', met: result.longest < 50 },
+      { name: 'production bundle the first page loads, gzipped', value: `${(sizes.first / 1024).toFixed(0)} KB`, goal: '< 400 KB', met: sizes.first < 400 * 1024 },
+      { name: 'engine worker, loaded when a study opens, gzipped', value: `${(sizes.worker / 1024).toFixed(0)} KB` },
+    ];
+  } finally {
+    preview.kill();
+    try { rmSync(profile, { recursive: true, force: true, maxRetries: 5 }); } catch { /* the browser may still hold a file; the folder is in tmp */ }
+  }
+}
