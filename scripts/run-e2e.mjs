@@ -2,6 +2,7 @@
 // process, one after another, and ends with one line "N passed, N failed". Each script
 // passes by exiting 0. Exits non-zero if any failed, or if there are none to run.
 import { spawnSync } from 'node:child_process';
+import { writeFileSync } from 'node:fs';
 import { listTests } from './list-tests.mjs';
 
 const files = listTests('test/e2e', '.e2e.mjs');
@@ -23,4 +24,5 @@ for (const file of files) {
   }
 }
 console.log(`\n${passed} passed, ${failed} failed`);
+if (process.env.RATEBOOK_E2E_RESULTS) writeFileSync(process.env.RATEBOOK_E2E_RESULTS, JSON.stringify({ passed, failed }));
 process.exit(failed ? 1 : 0);

@@ -1,5 +1,5 @@
-// `npm test`: runs the engine tests (node) and then the browser tests
-// (Chromium), and finishes with one plain line "N passed, N failed".
+// `npm test`: runs the engine tests (node), the browser tests (Chromium) and
+// the end-to-end tests of the built app, and finishes with one plain line "N passed, N failed".
 // Exits non-zero if any test failed or a suite crashed. If the results cannot
 // be counted, the exit status still follows the suites' own exit codes.
 import { spawnSync } from 'node:child_process';
@@ -75,6 +75,20 @@ const suites = [];
   const suite = { name: 'Browser tests (Chromium)', status: 0, counts: null, note: '' };
   suite.status = npmRun('test:browser', [], { RATEBOOK_WTR_RESULTS: browserFile });
   const json = readText(browserFile);
+  try {
+    suite.counts = json === null ? null : JSON.parse(json);
+  } catch {
+    suite.counts = null;
+  }
+  suites.push(suite);
+}
+
+// 3. End-to-end tests: the production build driven in Chromium as a user would.
+{
+  const suite = { name: 'End-to-end tests (built app)', status: 0, counts: null, note: '' };
+  const e2eFile = join(workDir, 'e2e.json');
+  suite.status = npmRun('test:e2e', [], { RATEBOOK_E2E_RESULTS: e2eFile });
+  const json = readText(e2eFile);
   try {
     suite.counts = json === null ? null : JSON.parse(json);
   } catch {
