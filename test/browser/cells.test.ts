@@ -1,0 +1,107 @@
+// Each cell element on its own: renders its cell from a document and the engine's report,
+// shows an engine error on the right field, and dispatches edits as new cells.
+import { expect } from 'chai';
+import '../../components/cells/registry.ts';
+import { runStudy, type Cell, type Report } from '../../src/index.ts';
+import type { ExprField } from '../../components/expr-field.ts';
+
+type CellEl = HTMLElement & { cell: Cell; report?: unknown; study?: Report; updateComplete: Promise<unknown> };
+
+const study = (cells: unknown[]) => ({ format: 'ratebook-study', version: 1, title: 't', cells });
+
+async function mount(tag: string, cells: unknown[], id: string): Promise<{ el: CellEl; report: Report }> {
+  const r = runStudy(study(cells));
+  if (!r.ok) throw new Error(r.error.message);
+  const el = document.createElement(tag) as CellEl;
+  el.cell = (cells as Cell[]).find((c) => c.id === id)!;
+  el.report = r.report.cells.find((c) => c.id === id);
+  el.study = r.report;
+  document.body.append(el);
+  await el.updateComplete;
+  return { el, report: r.report };
+}
+
+const fields = (el: HTMLElement) => [...el.shadowRoot!.querySelectorAll('expr-field')] as ExprField[];
+const field = (el: HTMLElement, label: string) => fields(el).find((f) => f.label === label)!;
+
+function nextEdit(el: HTMLElement): Promise<{ cell: Record<string, unknown>; mergeKey?: string }> {
+  return new Promise((resolve) => el.addEventListener('cell-edit', (e) => resolve((e as CustomEvent).detail), { once: true }));
+}
+
+function type(f: ExprField, value: string) {
+  f.dispatchEvent(new CustomEvent('expr-input', { detail: { value }, bubbles: true, composed: true }));
+}
+
+const law = { id: 'law', kind: 'rate', state: 'T', unit: 'degC', rate: '-k * (T - Ta)', initial: '70 degC' };
+const inputs = { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h', range: ['0.1 / h', '1 / h'] }, { name: 'Ta', value: '4 degC' }] };
+
+describe('cell elements', () => {
+  afterEach(() => document.querySelectorAll('parameters-cell, rate-cell, simulate-cell, phase-cell, note-cell, other-cell').forEach((e) => e.remove()));
+
+  it('parameters-cell: values, a slider for a range, an error on its field, edits', async () => {
+    const { el } = await mount('parameters-cell', [{ ...inputs, items: [...inputs.items, { name: 'bad', value: 'k * 1 m + 1' }] }], 'p');
+    const cells = [...el.shadowRoot!.querySelectorAll('td.result')].map((td) => td.textContent!.trim());
+    expect(cells.slice(0, 2)).to.deep.equal(['0.5 1 / h', '4 degC']);
+    expect(el.shadowRoot!.querySelectorAll('input.slider').length).to.equal(1);
+    expect(field(el, 'Value of bad').error?.message).to.match(/cannot add/);
+    const edit = nextEdit(el);
+    type(field(el, 'Value of Ta'), '6 degC');
+    const d = await edit;
+    expect((d.cell.items as Array<{ value: string }>)[1].value).to.equal('6 degC');
+    expect(d.mergeKey).to.equal('p:value1');
+  });
+
+  it('rate-cell: the law, its unit and start, the rate at the start, a dimension error on the rate', async () => {
+    const { el } = await mount('rate-cell', [inputs, { ...law, rate: '-k' }], 'law');
+    expect(field(el, 'Rate law: the rate of change of T').error?.message).to.match(/rate of T must be temperature per time/);
+    const edit = nextEdit(el);
+    type(field(el, 'Rate law: the rate of change of T'), '-k * (T - Ta)');
+    expect((await edit).cell.rate).to.equal('-k * (T - Ta)');
+  });
+
+  it('simulate-cell: answers, a plot with its summary, and edits of the span', async () => {
+    const run = { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '8 h', find: [{ name: 't21', crossing: 'T', level: '21 degC' }] };
+    const { el, report } = await mount('simulate-cell', [inputs, law, run], 'run');
+    const expected = (report.cells[2].results as Record<string, { value: number }>).t21.value;
+    const answer = el.shadowRoot!.querySelector('table.finds td.result')!.textContent!.trim();
+    expect(answer).to.equal(`${Number(expected.toPrecision(4))} h`);
+    expect(el.shadowRoot!.querySelector('time-plot')).to.exist;
+    const edit = nextEdit(el);
+    type(field(el, 'End of the run'), '12 h');
+    expect((await edit).cell.to).to.equal('12 h');
+  });
+
+  it('simulate-cell: an error on an event amount lands on that field', async () => {
+    const run = { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '8 h', events: [{ at: '1 h', set: { Ta: '5 h' } }] };
+    const { el } = await mount('simulate-cell', [inputs, law, run], 'run');
+    expect(field(el, 'Event 1 amount').error?.message).to.match(/must be temperature/);
+  });
+
+  it('phase-cell: the equilibria table and plot', async () => {
+    const ph = { id: 'ph', kind: 'phase', rate: 'law', from: '-10 degC', to: '80 degC' };
+    const { el } = await mount('phase-cell', [inputs, law, ph], 'ph');
+    const row = el.shadowRoot!.querySelector('tbody tr')!.textContent!;
+    expect(row).to.contain('4 degC').and.to.contain('attractor');
+    expect(el.shadowRoot!.querySelector('phase-plot')).to.exist;
+  });
+
+  it('note-cell: shows text as text, never as HTML', async () => {
+    const { el } = await mount('note-cell', [{ id: 'n', kind: 'note', text: '<img src=x onerror=alert(1)> plain' }], 'n');
+    expect(el.shadowRoot!.querySelector('img')).to.equal(null);
+    expect(el.shadowRoot!.textContent).to.contain('<img src=x onerror=alert(1)> plain');
+  });
+
+  it('other-cell: a data cell as JSON, edited only when the text is valid', async () => {
+    const data = { id: 'd', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, 1]] };
+    const { el } = await mount('other-cell', [data], 'd');
+    const area = el.shadowRoot!.querySelector('textarea')!;
+    area.value = '{ "columns": [';
+    area.dispatchEvent(new Event('input'));
+    await el.updateComplete;
+    expect(el.shadowRoot!.textContent).to.contain('not valid JSON yet');
+    const edit = nextEdit(el);
+    area.value = JSON.stringify({ columns: data.columns, rows: [[0, 1], [1, 0.5]] });
+    area.dispatchEvent(new Event('input'));
+    expect(((await edit).cell.rows as unknown[]).length).to.equal(2);
+  });
+});
