@@ -8,7 +8,12 @@ import type { FromWorker, ToWorker } from '../src/worker-protocol.ts';
 
 let session: StudySession | undefined;
 
+/** The page plots the `plot` samples; the raw `series` (for the command line) would only cost copying. */
 function post(message: FromWorker): void {
+  if (message.type === 'report') {
+    const cells = message.report.cells.map((c) => ('series' in c ? (({ series: _s, ...rest }) => rest)(c) : c));
+    message = { ...message, report: { ...message.report, cells } };
+  }
   (self as unknown as Worker).postMessage(message);
 }
 

@@ -55,8 +55,20 @@ export function showQ(q: { value: number; unit: string } | undefined, digits = 4
   return q.unit ? `${v} ${q.unit}` : v;
 }
 
-/** The study's names with their current values, for completion and the name tooltip. */
+const namesCache = new WeakMap<Report, StudyName[]>();
+
+/** The study's names with their current values, for completion and the name tooltip (one list per report). */
 export function namesOf(report: Report | undefined): StudyName[] {
+  if (!report) return [];
+  let names = namesCache.get(report);
+  if (!names) {
+    names = collectNames(report);
+    namesCache.set(report, names);
+  }
+  return names;
+}
+
+function collectNames(report: Report): StudyName[] {
   const out: StudyName[] = [];
   for (const c of report?.cells ?? []) {
     for (const group of [c.values, c.results]) {

@@ -124,9 +124,10 @@ export class ExprEditorController implements ReactiveController {
   private syncProps(): void {
     const h = this.host;
     const old = this.props;
-    const names = old && this.namesFrom === h.names ? old.names : namesMap(h.names ?? []);
+    const names = old && (this.namesFrom === h.names || sameNamesUpdated(old.names, h.names ?? [])) ? old.names : namesMap(h.names ?? []);
     this.namesFrom = h.names;
-    const next: FieldProps = { names, error: h.error, label: h.label ?? '', readonly: !!h.readonly, errorId: this.errorId };
+    const error = old && sameError(old.error, h.error) ? old.error : h.error;
+    const next: FieldProps = { names, error, label: h.label ?? '', readonly: !!h.readonly, errorId: this.errorId };
     if (old && old.names === next.names && old.error === next.error && old.label === next.label && old.readonly === next.readonly) return;
     this.props = next;
     this.view!.dispatch({ effects: setProps.of(next) });
@@ -154,4 +155,23 @@ export class ExprEditorController implements ReactiveController {
       annotations: [fromHost.of(true), Transaction.addToHistory.of(false)],
     });
   }
+}
+
+/**
+ * When the study defines the same names as before (a slider moved: only values changed), the
+ * shown values are updated in place and the editor is left alone: colours depend on the
+ * names, not their values, and the tooltip and completion read the values when they open.
+ */
+function sameNamesUpdated(map: ReadonlyMap<string, string | undefined>, names: ReadonlyArray<StudyName>): boolean {
+  const fresh = namesMap(names);
+  if (fresh.size !== map.size) return false;
+  for (const key of fresh.keys()) if (!map.has(key)) return false;
+  for (const [key, detail] of fresh) (map as Map<string, string | undefined>).set(key, detail);
+  return true;
+}
+
+function sameError(a: FieldError | undefined, b: FieldError | undefined): boolean {
+  if (a === b) return true;
+  if (!a || !b) return false;
+  return a.message === b.message && a.span?.[0] === b.span?.[0] && a.span?.[1] === b.span?.[1];
 }
