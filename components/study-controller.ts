@@ -40,7 +40,7 @@ export class StudyController implements ReactiveController {
   private saver?: Autosaver<{ id: string; study: Study }>;
   private readonly listeners = new Set<(a: EngineAnswer) => void>();
 
-  constructor(private readonly host: ReactiveControllerHost, private readonly options: StudyControllerOptions = {}) {
+  constructor(private readonly host: ReactiveControllerHost, options: StudyControllerOptions = {}) {
     host.addController(this);
     const events = {
       answer: (a: EngineAnswer) => {

@@ -76,8 +76,8 @@ export function formatNumber(x: number, digits = 4): string {
   return x.toExponential(digits - 1).replace(/\.?0+e/, 'e');
 }
 
-/** A temperature scale's difference unit: degC differences are shown in K, degF in degR. */
-function deltaUnit(u: DisplayUnit): DisplayUnit {
+/** A unit with each temperature scale replaced by its size of degree: degC differences are shown in K, degF in degR. */
+export function deltaUnit(u: DisplayUnit): DisplayUnit {
   return u.map(([n, p]) => {
     const def = lookupUnit(n)!;
     if (!isOffsetTemperature(def)) return [n, p] as const;

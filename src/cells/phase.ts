@@ -8,11 +8,11 @@ import type { PhaseCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
 import { cellRef } from '../node.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
-import { type Quantity, report, describe, valueIn } from '../quantity.ts';
+import { type Quantity, report, describe, valueIn, deltaUnit } from '../quantity.ts';
 import { phasePortrait } from '../phase-portrait.ts';
 import { phaseSummary, sweepSummary } from '../summaries.ts';
 import { sameDim, describeDim, TIME, DIMENSIONLESS, divDim } from '../dimension.ts';
-import { type DisplayUnit, lookupUnit, formatUnit, mulUnits, isOffsetTemperature } from '../units.ts';
+import { lookupUnit, formatUnit, mulUnits } from '../units.ts';
 import { compileLaw } from '../simulate/compile-law.ts';
 import { derivative } from '../expression/derivative.ts';
 import { findEquilibria, type PhaseAnalysis } from '../numerics/equilibria.ts';
@@ -81,7 +81,7 @@ function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFro
     dfy ? { derivative: (v) => { y[0] = v; return dfy(y); } } : {});
   const output: Record<string, unknown> = { ...describeAnalysis(analysis, stateQ, slopeQ, law) };
   const portrait = phasePortrait((v) => { y[0] = v; return fy(y); }, from.si, to.si, analysis.equilibria.map((e) => e.slope));
-  const rateQ = (si: number): Quantity => ({ si, dim: divDim(law.initial.dim, TIME), unit: mulUnits(deltaUnitOf(law.stateUnit), [[timeUnit, 1]], -1) });
+  const rateQ = (si: number): Quantity => ({ si, dim: divDim(law.initial.dim, TIME), unit: mulUnits(deltaUnit(law.stateUnit), [[timeUnit, 1]], -1) });
   const timeQ = (si: number): Quantity => ({ si, dim: TIME, unit: [[timeUnit, 1]] });
   const inState = (v: number | null) => (v === null ? null : valueIn(stateQ(v), law.initial.unit));
   output.plot = {
@@ -167,10 +167,3 @@ function timeUnitOf(law: Law): string {
 }
 
 
-/** A state unit as a size of step: a Celsius or Fahrenheit reading's rate is per kelvin or per degR. */
-function deltaUnitOf(u: DisplayUnit): DisplayUnit {
-  return u.map(([n, p]) => {
-    const d = lookupUnit(n)!;
-    return isOffsetTemperature(d) ? [d.factor === 1 ? 'K' : 'degR', p] as const : [n, p] as const;
-  });
-}

@@ -8,9 +8,9 @@ import { FIND_KINDS } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
 import { cellRef } from '../node.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
-import { type Quantity, report, describe, valueIn, tidy } from '../quantity.ts';
+import { type Quantity, report, describe, valueIn, tidy, deltaUnit } from '../quantity.ts';
 import { sameDim, describeDim, divDim, mulDim, TIME } from '../dimension.ts';
-import { type DisplayUnit, formatUnit, mulUnits, lookupUnit, isOffsetTemperature, unitFactor } from '../units.ts';
+import { type DisplayUnit, formatUnit, mulUnits, unitFactor } from '../units.ts';
 import { compileLaw } from '../simulate/compile-law.ts';
 import { symbolsOf } from '../expression/ast.ts';
 import { expandSchedule, type ScheduledEvent } from '../simulate/schedule.ts';
@@ -153,7 +153,6 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
 
   // the events, evaluated once at the start
   const scheduled: ScheduledEvent[] = f.events.map((e, i) => {
-    const path = `${at}.events[${i}]`;
     const targets = e.targets.map((t) => {
       const fd = t.value!;
       const bad = symbolsOf(fd.expr).find((s) => s === 't' || stateIndex.has(s));
@@ -293,7 +292,7 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
         break;
       case 'integralOf': {
         const area = integralOver(tr, fq.quadrature, a, b)!;
-        give(fq.name, { si: area, dim: mulDim(law.initial.dim, TIME), unit: mulUnits(deltaOf(law.stateUnit), timeUnit) }, `area under ${fq.state}${inWindow}`);
+        give(fq.name, { si: area, dim: mulDim(law.initial.dim, TIME), unit: mulUnits(deltaUnit(law.stateUnit), timeUnit) }, `area under ${fq.state}${inWindow}`);
         break;
       }
       case 'timeAbove': case 'timeBelow':
@@ -346,12 +345,6 @@ function differenceSize(q: Quantity): number {
   return valueIn(q, q.unit) * unitFactor(q.unit);
 }
 
-function deltaOf(u: DisplayUnit): DisplayUnit {
-  return u.map(([n, p]) => {
-    const d = lookupUnit(n)!;
-    return isOffsetTemperature(d) ? [d.factor === 1 ? 'K' : 'degR', p] as const : [n, p] as const;
-  });
-}
 
 function seriesOf(tr: Trajectory, states: readonly string[]): Record<string, number[]> {
   const pts = stepPoints(tr);
@@ -381,7 +374,7 @@ function closedForms(laws: readonly Law[], sys: SystemSpec, tr: Trajectory, comp
     const entry: Record<string, unknown> = {
       form: `${l.state}' = a + b ${l.state}`,
       rateConstant: report({ si: first.b, dim: divDim(TIME.map(() => 0), TIME), unit: perTime }),
-      maxError: report({ si: check.maxError, dim: l.initial.dim, unit: deltaOf(l.stateUnit), ...(l.initial.temp ? { temp: 'delta' as const } : {}) }),
+      maxError: report({ si: check.maxError, dim: l.initial.dim, unit: deltaUnit(l.stateUnit), ...(l.initial.temp ? { temp: 'delta' as const } : {}) }),
       maxErrorInTolerances: tidy(check.maxErrorInTolerances),
     };
     if (first.b !== 0) {

@@ -18,6 +18,7 @@ import {
 } from './ode-control.ts';
 import { type ButcherTableau, RkWork, rkStep } from './explicit-rk.ts';
 import type { DenseSegment } from './ode-types.ts';
+import { writeStepEnd } from './ode-types.ts';
 
 /** The Dormand–Prince 5(4) tableau (FSAL: the last row of a is b). */
 export const DOPRI5: ButcherTableau = {
@@ -97,14 +98,7 @@ export class Dopri5Segment implements DenseSegment {
 
   eval(t: number, out: Float64Array): void {
     const { data, n } = this;
-    if (t <= this.t0) {
-      out.set(data.subarray(0, n));
-      return;
-    }
-    if (t >= this.t1) {
-      out.set(data.subarray(n, 2 * n));
-      return;
-    }
+    if (writeStepEnd(t, this.t0, this.t1, data, n, out)) return;
     const th = (t - this.t0) / this.h;
     const th1 = 1 - th;
     for (let i = 0; i < n; i++) {

@@ -12,7 +12,7 @@ import {
   type OdeContext, type StepOutcome, type Stepper, failure, nonFiniteStatus, spendAttempt,
 } from './ode-control.ts';
 import { type ButcherTableau, RkWork, rkStep } from './explicit-rk.ts';
-import { type DenseSegment, Status } from './ode-types.ts';
+import { type DenseSegment, Status, writeStepEnd } from './ode-types.ts';
 
 /** Cubic Hermite interpolant on [t0, t1] through (y0, f0) and (y1, f1). */
 export class HermiteSegment implements DenseSegment {
@@ -38,14 +38,7 @@ export class HermiteSegment implements DenseSegment {
    */
   eval(t: number, out: Float64Array): void {
     const { data, n } = this;
-    if (t <= this.t0) {
-      out.set(data.subarray(0, n));
-      return;
-    }
-    if (t >= this.t1) {
-      out.set(data.subarray(n, 2 * n));
-      return;
-    }
+    if (writeStepEnd(t, this.t0, this.t1, data, n, out)) return;
     const th = (t - this.t0) / (this.t1 - this.t0);
     const th1 = 1 - th;
     for (let i = 0; i < n; i++) {

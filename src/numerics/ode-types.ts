@@ -144,3 +144,20 @@ export const MESSAGES: { readonly [S in Status]: (at: Where, detail?: MessageDet
       ? `${detail.limit ?? ''} evaluations of the rate (the evaluation budget)`
       : `${detail?.limit ?? ''} step attempts (the step budget)`),
 };
+
+/**
+ * The shared start of every dense segment's `eval`: at or before t0 the step's first state,
+ * at or after t1 its last, bit for bit (both stored in `data`, first then last). Returns true
+ * when it wrote one of them, false when t is inside and the caller interpolates.
+ */
+export function writeStepEnd(t: number, t0: number, t1: number, data: Float64Array, n: number, out: Float64Array): boolean {
+  if (t <= t0) {
+    out.set(data.subarray(0, n));
+    return true;
+  }
+  if (t >= t1) {
+    out.set(data.subarray(n, 2 * n));
+    return true;
+  }
+  return false;
+}

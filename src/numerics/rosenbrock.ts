@@ -22,7 +22,7 @@ import {
   NonFiniteMark, collapseFailure, errorNorm, failure, initialStep, minStep, nonFiniteStatus, spendAttempt, trialStep,
 } from './ode-control.ts';
 import { luFactor, luSolve } from './lu.ts';
-import { type DenseSegment, Status } from './ode-types.ts';
+import { type DenseSegment, Status, writeStepEnd } from './ode-types.ts';
 
 /**
  * RODAS coefficients in the u-formulation above (Hairer & Wanner II, sec. IV.7). The tests
@@ -106,14 +106,7 @@ export class RosenbrockSegment implements DenseSegment {
 
   eval(t: number, out: Float64Array): void {
     const { data, n } = this;
-    if (t <= this.t0) {
-      out.set(data.subarray(0, n));
-      return;
-    }
-    if (t >= this.t1) {
-      out.set(data.subarray(n, 2 * n));
-      return;
-    }
+    if (writeStepEnd(t, this.t0, this.t1, data, n, out)) return;
     const th = (t - this.t0) / (this.t1 - this.t0);
     const th1 = 1 - th;
     for (let i = 0; i < n; i++) {

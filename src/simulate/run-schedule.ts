@@ -4,7 +4,7 @@
  * off), so no step ever crosses a discontinuity. Pure numbers (SI).
  */
 import { integrate, type Method } from '../numerics/integrate.ts';
-import { Status, type Counters } from '../numerics/ode-types.ts';
+import { Status } from '../numerics/ode-types.ts';
 import type { Action } from './schedule.ts';
 import type { Piece, Trajectory } from './trajectory.ts';
 

@@ -5,13 +5,13 @@
 //
 // Expects a build in dist/ (`npm run test:e2e` builds first). Serves it with `vite preview`
 // on a free localhost port and drives the Debian Chromium with playwright-core.
-import { spawn, spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { createServer } from 'node:net';
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium } from 'playwright-core';
+import { freePort, startPreview, CHROMIUM_ARGS } from './serve.mjs';
 import { DEFAULT_CHROMIUM, NOT_FOUND_MESSAGE, findChromium } from '../../scripts/find-chromium.mjs';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
@@ -20,27 +20,7 @@ const STEP = 30_000;
 class Failure extends Error {}
 const fail = (m) => { throw new Failure(m); };
 
-function freePort() {
-  return new Promise((resolve, reject) => {
-    const s = createServer();
-    s.unref();
-    s.on('error', reject);
-    s.listen(0, '127.0.0.1', () => { const { port } = s.address(); s.close(() => resolve(port)); });
-  });
-}
 
-async function startPreview(port) {
-  const vite = join(root, 'node_modules', 'vite', 'bin', 'vite.js');
-  const child = spawn(process.execPath, [vite, 'preview', '--host', '127.0.0.1', '--port', String(port), '--strictPort'], { cwd: root, stdio: 'ignore' });
-  const url = `http://127.0.0.1:${port}/`;
-  const deadline = Date.now() + STEP;
-  while (Date.now() < deadline) {
-    try { if ((await fetch(url)).ok) return { child, url }; } catch { /* not yet */ }
-    await new Promise((r) => setTimeout(r, 200));
-  }
-  child.kill();
-  fail('vite preview did not start');
-}
 
 /** The answer shown for a named question of the simulate cell (text of its result cell). */
 function shownAnswer(page, name) {
@@ -80,7 +60,7 @@ async function main() {
   try {
     context = await chromium.launchPersistentContext(profile, {
       executablePath, headless: true, acceptDownloads: true, serviceWorkers: 'allow', viewport: { width: 1280, height: 900 },
-      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+      args: CHROMIUM_ARGS,
     });
     const page = context.pages()[0] ?? (await context.newPage());
     const errors = [];

@@ -5,13 +5,12 @@
 // profile, waits for the service worker to control the page, checks that every built file
 // is in its cache, goes offline, reloads, and checks that the app renders with no failed
 // request. Exits 0 when all of that holds; otherwise prints what failed and exits 1.
-import { spawn } from 'node:child_process';
 import { existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join, relative, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium } from 'playwright-core';
+import { freePort, startPreview, CHROMIUM_ARGS } from './serve.mjs';
 import { DEFAULT_CHROMIUM, NOT_FOUND_MESSAGE, findChromium } from '../../scripts/find-chromium.mjs';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
@@ -22,17 +21,6 @@ const STEP_TIMEOUT_MS = 30_000;
 class Failure extends Error {}
 const fail = (message) => { throw new Failure(message); };
 
-function freePort() {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.unref();
-    server.on('error', reject);
-    server.listen(0, '127.0.0.1', () => {
-      const { port } = server.address();
-      server.close(() => resolve(port));
-    });
-  });
-}
 
 /** Every built file, as the worker should cache it (no sw.js, no source maps). */
 function distFiles() {
@@ -43,27 +31,6 @@ function distFiles() {
     .sort();
 }
 
-/** Starts `vite preview` on dist/ and resolves with its URL once it answers. */
-async function startPreview(port) {
-  const vite = join(root, 'node_modules', 'vite', 'bin', 'vite.js');
-  const child = spawn(process.execPath, [vite, 'preview', '--host', '127.0.0.1', '--port', String(port), '--strictPort'], {
-    cwd: root, stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  let output = '';
-  child.stdout.on('data', (d) => { output += d; });
-  child.stderr.on('data', (d) => { output += d; });
-  const url = `http://127.0.0.1:${port}/`;
-  const deadline = Date.now() + STEP_TIMEOUT_MS;
-  while (Date.now() < deadline) {
-    if (child.exitCode !== null) fail(`vite preview exited with code ${child.exitCode}:\n${output}`);
-    try {
-      if ((await fetch(url)).ok) return { child, url };
-    } catch { /* not listening yet */ }
-    await new Promise((r) => setTimeout(r, 200));
-  }
-  child.kill();
-  fail(`vite preview did not answer at ${url} within ${STEP_TIMEOUT_MS / 1000} s:\n${output}`);
-}
 
 /** Resolves when the app's shell has rendered its heading. */
 async function appRendered(page, when) {
@@ -90,7 +57,7 @@ async function main() {
       executablePath,
       headless: true,
       serviceWorkers: 'allow',
-      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+      args: CHROMIUM_ARGS,
     });
     const page = context.pages()[0] ?? (await context.newPage());
     const pageErrors = [];

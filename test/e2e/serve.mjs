@@ -1,0 +1,47 @@
+// Shared by the end-to-end scripts: a free localhost port, and `vite preview` of dist/ on it.
+import { spawn } from 'node:child_process';
+import { createServer } from 'node:net';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+export const root = fileURLToPath(new URL('../..', import.meta.url));
+
+/** Chromium's flags for this machine: no sandbox as root, no GPU, no background traffic. */
+export const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+
+export function freePort() {
+  return new Promise((resolve, reject) => {
+    const server = createServer();
+    server.unref();
+    server.on('error', reject);
+    server.listen(0, '127.0.0.1', () => {
+      const { port } = server.address();
+      server.close(() => resolve(port));
+    });
+  });
+}
+
+/**
+ * Starts `vite preview` on dist/ and resolves with `{ child, url }` once it answers; rejects
+ * with vite's output when it exits or does not answer within `timeoutMs`.
+ */
+export async function startPreview(port, timeoutMs = 30_000) {
+  const vite = join(root, 'node_modules', 'vite', 'bin', 'vite.js');
+  const child = spawn(process.execPath, [vite, 'preview', '--host', '127.0.0.1', '--port', String(port), '--strictPort'], {
+    cwd: root, stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let output = '';
+  child.stdout.on('data', (d) => { output += d; });
+  child.stderr.on('data', (d) => { output += d; });
+  const url = `http://127.0.0.1:${port}/`;
+  const deadline = Date.now() + timeoutMs;
+  while (Date.now() < deadline) {
+    if (child.exitCode !== null) throw new Error(`vite preview exited with code ${child.exitCode}:\n${output}`);
+    try {
+      if ((await fetch(url)).ok) return { child, url };
+    } catch { /* not listening yet */ }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  child.kill();
+  throw new Error(`vite preview did not answer at ${url} within ${timeoutMs / 1000} s:\n${output}`);
+}
