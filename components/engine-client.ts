@@ -11,6 +11,8 @@ import type { FromWorker, ToWorker } from '../src/worker-protocol.ts';
 export const CANCEL_AFTER_MS = 250;
 
 export interface EngineAnswer {
+  readonly received?: number;
+  readonly sent?: number;
   readonly report: Report;
   readonly rerun: readonly string[];
   readonly changed: readonly string[];

@@ -12,12 +12,15 @@ let session: StudySession | undefined;
 function post(message: FromWorker): void {
   if (message.type === 'report') {
     const cells = message.report.cells.map((c) => ('series' in c ? (({ series: _s, ...rest }) => rest)(c) : c));
-    message = { ...message, report: { ...message.report, cells } };
+    message = { ...message, report: { ...message.report, cells }, received, sent: performance.timeOrigin + performance.now() };
   }
   (self as unknown as Worker).postMessage(message);
 }
 
+let received = 0;
+
 self.onmessage = (event: MessageEvent<ToWorker>) => {
+  received = performance.timeOrigin + performance.now();
   const msg = event.data;
   const started = performance.now();
   if (msg.type === 'open') {

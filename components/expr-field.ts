@@ -38,7 +38,7 @@ export class ExprField extends LitElement {
   private readonly editor = new ExprEditorController(this, ERROR_ID);
 
   static override styles = css`
-    :host { display: block; min-width: 0; }
+    :host { display: block; min-width: 0; contain: layout style; }
     .box {
       border: 1px solid #6b7682;
       border-radius: 4px;

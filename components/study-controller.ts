@@ -32,6 +32,8 @@ export class StudyController implements ReactiveController {
   problem?: string;
   saveState: AutosaveState = 'saved';
   lastRunMs = 0;
+  /** When the worker got the last edit, sent its answer, and the answer arrived here (ms since the epoch): for the benchmark. */
+  lastTiming = { received: 0, sent: 0, arrived: 0 };
 
   private undoStack: Study[] = [];
   private redoStack: Study[] = [];
@@ -48,6 +50,7 @@ export class StudyController implements ReactiveController {
         this.rerun = a.rerun;
         this.changed = a.changed;
         this.lastRunMs = a.ms;
+        this.lastTiming = { received: a.received ?? 0, sent: a.sent ?? 0, arrived: performance.timeOrigin + performance.now() };
         this.problem = undefined;
         this.listeners.forEach((l) => l(a));
         this.host.requestUpdate();

@@ -12,5 +12,9 @@ export type ToWorker =
   | { readonly type: 'edits'; readonly seq: number; readonly edits: readonly Edit[] };
 
 export type FromWorker =
-  | { readonly type: 'report'; readonly seq: number; readonly report: Report; readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly ms: number }
+  | {
+    readonly type: 'report'; readonly seq: number; readonly report: Report; readonly rerun: readonly string[]; readonly changed: readonly string[];
+    /** Time the engine spent, and when (ms since the epoch) the worker got the message and sent its answer. */
+    readonly ms: number; readonly received?: number; readonly sent?: number;
+  }
   | { readonly type: 'refused'; readonly seq: number; readonly error: Problem };
