@@ -6,7 +6,7 @@ import { offlineServiceWorker } from './offline/vite-plugin.ts';
 // the middle of the test run. Add every package the app or tests import here.
 const prebundled = [
   'mathjs', 'lit', 'idb-keyval', 'fast-check', 'chai',
-  'uplot',
+  'uplot', 'papaparse',
   'lit/directives/ref.js',
   '@codemirror/state', '@codemirror/view', '@codemirror/commands', '@codemirror/autocomplete',
 ];

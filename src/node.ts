@@ -53,7 +53,7 @@ export interface Law {
   readonly scope: ReadonlyMap<string, Quantity>;
 }
 
-/** A table of measurements, SI magnitudes per column. */
+/** A table of measurements: SI magnitudes per column (null where a value is missing); the first column is time. */
 export interface DataTable {
   readonly columns: ReadonlyArray<{ readonly name: string; readonly unit: DisplayUnit }>;
   readonly rows: ReadonlyArray<ReadonlyArray<number | null>>;

@@ -10,6 +10,7 @@ import { noteNodes } from './note.ts';
 import { pendingNodes } from './pending.ts';
 import { simulateNodes } from './simulate.ts';
 import { phaseNodes } from './phase.ts';
+import { dataNodes } from './data.ts';
 
 type Builder = (cell: any, at: string) => GraphNode[];
 
@@ -19,7 +20,7 @@ const BUILDERS: Record<Cell['kind'], Builder> = {
   note: noteNodes,
   phase: phaseNodes,
   simulate: simulateNodes,
-  data: pendingNodes,
+  data: dataNodes,
   fit: pendingNodes,
   nca: pendingNodes,
 };

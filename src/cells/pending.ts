@@ -1,5 +1,5 @@
 /**
- * Cells whose computation is not in this version yet (data, fit, nca).
+ * Cells whose computation is not in this version yet (fit, nca).
  * Their fields are read and checked (shape, expression syntax, names, references to other
  * cells), their names are declared so that the graph is complete, and their report says
  * plainly that nothing was computed. Downstream readers of their names wait on them.
@@ -10,7 +10,6 @@ import { cellRef } from '../node.ts';
 import { type Field, field, usesOf } from './fields.ts';
 
 const WHAT: Partial<Record<CellKind, string>> = {
-  data: 'the measurements table',
   fit: 'the fit',
   nca: 'the non-compartmental analysis',
 };
@@ -27,10 +26,6 @@ export function pendingNodes(cell: Cell, at: string): GraphNode[] {
   const obj = (v: unknown): Record<string, unknown> => (v && typeof v === 'object' && !Array.isArray(v) ? (v as Record<string, unknown>) : {});
 
   switch (cell.kind) {
-    case 'data':
-      defines.push({ name: cellRef(cell.id), path: `${at}.id` });
-      list(c.columns).forEach((col, i) => expr(obj(col).unit, `${at}.columns[${i}].unit`));
-      break;
     case 'fit':
       list(c.rates).forEach((r, i) => ref(r, `${at}.rates[${i}]`));
       ref(c.data, `${at}.data`);
