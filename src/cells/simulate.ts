@@ -19,6 +19,7 @@ import { stepPoints, type Trajectory } from '../simulate/trajectory.ts';
 import { crossings, extreme, valueOfAt, integralOver, timeBeyond } from '../simulate/queries.ts';
 import { linearCoefficients, compareWithExact } from '../simulate/closed-form.ts';
 import { quantitySig } from './signatures.ts';
+import { collectLaws } from './laws.ts';
 import { Status } from '../numerics/ode-types.ts';
 import { simulationPlot } from '../simulate/plot-data.ts';
 import { simulationSummary, type FoundText, type StatePath } from '../summaries.ts';
@@ -85,26 +86,8 @@ export function simulateNodes(cell: SimulateCell, at: string): GraphNode[] {
 
 const fail = (path: string, message: string): never => { throw new FieldError({ path, message }); };
 
-/** The laws to integrate: the named ones, then those whose states they read, transitively. */
-function collectLaws(cell: SimulateCell, at: string, ctx: RunContext): Law[] {
-  const laws: Law[] = [];
-  const seen = new Set<string>();
-  const add = (id: string, path: string) => {
-    if (seen.has(id)) return;
-    const b = ctx.binding(cellRef(id));
-    if (b?.kind !== 'law') fail(path, `cell "${id}" is not a rate cell`);
-    seen.add(id);
-    laws.push((b as Extract<Binding, { kind: 'law' }>).law);
-  };
-  cell.rates.forEach((r, i) => add(r, `${at}.rates[${i}]`));
-  for (let i = 0; i < laws.length; i++) {
-    for (const [, owner] of laws[i].states) add(owner, `${at}.rates`);
-  }
-  return laws;
-}
-
 function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContext): Outcome {
-  const laws = collectLaws(cell, at, ctx);
+  const laws = collectLaws(cell.rates, `${at}.rates`, ctx);
   const states = laws.map((l) => l.state);
   const stateIndex = new Map(states.map((s, i) => [s, i]));
   const lookup = lookupFrom(ctx);
