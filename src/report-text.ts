@@ -54,7 +54,7 @@ function collect(key: string, value: unknown, rows: Array<[string, string]>): vo
   if (isQuantity(value)) {
     rows.push([key, showQuantity(value)]);
   } else if (Array.isArray(value)) {
-    if (value.every(isQuantity)) rows.push([key, value.map(showQuantity).join(' to ')]);
+    if (value.every(isQuantity)) rows.push([key, value.map(showQuantity).join(/range$/.test(key) ? ' to ' : ', ')]);
     else value.forEach((v, i) => collect(`${key}[${i}]`, v, rows));
   } else if (value && typeof value === 'object') {
     const entries = Object.entries(value);

@@ -11,6 +11,7 @@ import { pendingNodes } from './pending.ts';
 import { simulateNodes } from './simulate.ts';
 import { phaseNodes } from './phase.ts';
 import { dataNodes } from './data.ts';
+import { ncaNodes } from './nca.ts';
 
 type Builder = (cell: any, at: string) => GraphNode[];
 
@@ -22,7 +23,7 @@ const BUILDERS: Record<Cell['kind'], Builder> = {
   simulate: simulateNodes,
   data: dataNodes,
   fit: pendingNodes,
-  nca: pendingNodes,
+  nca: ncaNodes,
 };
 
 /**

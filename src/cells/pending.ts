@@ -1,5 +1,5 @@
 /**
- * Cells whose computation is not in this version yet (fit, nca).
+ * Cells whose computation is not in this version yet (fit).
  * Their fields are read and checked (shape, expression syntax, names, references to other
  * cells), their names are declared so that the graph is complete, and their report says
  * plainly that nothing was computed. Downstream readers of their names wait on them.
@@ -11,7 +11,6 @@ import { type Field, field, usesOf } from './fields.ts';
 
 const WHAT: Partial<Record<CellKind, string>> = {
   fit: 'the fit',
-  nca: 'the non-compartmental analysis',
 };
 
 export function pendingNodes(cell: Cell, at: string): GraphNode[] {
@@ -35,14 +34,6 @@ export function pendingNodes(cell: Cell, at: string): GraphNode[] {
         if (typeof obj(e).as === 'string') defines.push({ name: e.as, path: `${p}.as` });
       });
       break;
-    case 'nca': {
-      ref(c.data, `${at}.data`);
-      expr(c.dose, `${at}.dose`);
-      expr(c.duration, `${at}.duration`);
-      const prefix = typeof c.prefix === 'string' ? c.prefix : '';
-      for (const n of NCA_NAMES) defines.push({ name: `${prefix}${n}`, path: `${at}.prefix` });
-      break;
-    }
   }
   const message = `${WHAT[cell.kind] ?? 'this cell'} is not computed in this version of Ratebook yet`;
   return [{

@@ -174,16 +174,17 @@ describe('errors land on the right cell with their path', () => {
   it('cells of later kinds are read and checked and say they are not computed', () => {
     const r = reportOf(study([
       { id: 'samples', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, 10], [2, 6]] },
-      { id: 'pk', kind: 'nca', data: 'samples', time: 't', concentration: 'C', dose: '100 mg', route: 'iv-bolus' },
-      { id: 'p', kind: 'parameters', items: [{ name: 'x', value: 't_half * 2' }] },
-      { id: 'typo', kind: 'nca', data: 'sample', time: 't', concentration: 'C', dose: '100 mg', route: 'iv-bolus', prefix: 'b_' },
+      { id: 'law', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-k * C', initial: '10 mg / L' },
+      { id: 'p0', kind: 'parameters', items: [{ name: 'k', value: '0.2 / h' }] },
+      { id: 'fitk', kind: 'fit', rates: ['law'], data: 'samples', time: 't', observe: { C: 'C' }, estimate: [{ parameter: 'k', as: 'k_hat', guess: '0.1 / h' }] },
+      { id: 'p', kind: 'parameters', items: [{ name: 'x', value: 'k_hat * 2' }] },
+      { id: 'typo', kind: 'fit', rates: ['law'], data: 'sample', time: 't', observe: { C: 'C' }, estimate: [{ parameter: 'k', as: 'k2', guess: '0.1 / h' }] },
     ]));
-    assert.equal(cell(r, 'samples').ok, true);
-    assert.equal(cell(r, 'pk').computed, false);
-    assert.match(String(cell(r, 'pk').message), /not computed/);
-    assert.match(cell(r, 'p').error!.message, /^waits on cell "pk"/);
+    assert.equal(cell(r, 'fitk').computed, false);
+    assert.match(String(cell(r, 'fitk').message), /not computed/);
+    assert.match(cell(r, 'p').error!.message, /^waits on cell "fitk"/);
     assert.equal(cell(r, 'typo').error?.message, 'there is no cell "sample" (did you mean "samples"?)');
-    assert.equal(cell(r, 'typo').error?.path, 'cells[3].data');
+    assert.equal(cell(r, 'typo').error?.path, 'cells[5].data');
   });
 });
 

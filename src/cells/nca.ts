@@ -1,0 +1,112 @@
+/**
+ * An nca cell: non-compartmental analysis of one concentration-time profile from a data cell
+ * (numerics in numerics/nca.ts). Defines Cmax, tmax, Clast, tlast, AUClast, AUCinf, AUCextrap
+ * (percent), lambda_z, t_half, CL (CL/F after an extravascular dose), Vz, AUMClast, MRT and
+ * r2adj, each with the cell's prefix, in the units of the data and the dose.
+ */
+import type { NcaCell } from '../study/types.ts';
+import type { Binding, CellError, GraphNode, Outcome, RunContext } from '../node.ts';
+import { cellRef } from '../node.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
+import { type Quantity, report, describe } from '../quantity.ts';
+import { sameDim, describeDim, TIME } from '../dimension.ts';
+import { type DisplayUnit, mulUnits, unitDim, NO_UNIT } from '../units.ts';
+import { ncaProfile } from '../numerics/nca.ts';
+import { quantitySig } from './signatures.ts';
+import { NCA_NAMES } from './pending.ts';
+
+export function ncaNodes(cell: NcaCell, at: string): GraphNode[] {
+  const problems: CellError[] = [];
+  const dose = field(cell.dose, `${at}.dose`, problems);
+  const duration = cell.duration !== undefined ? field(cell.duration, `${at}.duration`, problems) : undefined;
+  const prefix = typeof cell.prefix === 'string' ? cell.prefix : '';
+  return [{
+    key: `${cell.id}/nca`,
+    cell: cell.id,
+    defines: NCA_NAMES.map((n) => ({ name: `${prefix}${n}`, path: `${at}.prefix` })),
+    uses: [...usesOf([dose, duration]), ...(typeof cell.data === 'string' ? [{ name: cellRef(cell.data), path: `${at}.data` }] : [])],
+    allowsTime: false,
+    allowsStates: false,
+    signature: JSON.stringify(cell),
+    problems,
+    run: (ctx) => {
+      try {
+        return runNca(cell, at, prefix, dose!, duration, ctx);
+      } catch (err) {
+        if (err instanceof FieldError) return { ok: false, error: err.error };
+        throw err;
+      }
+    },
+  }];
+}
+
+const fail = (path: string, message: string): never => { throw new FieldError({ path, message }); };
+
+function runNca(cell: NcaCell, at: string, prefix: string, doseField: Field, durationField: Field | undefined, ctx: RunContext): Outcome {
+  const b = ctx.binding(cellRef(cell.data));
+  if (b?.kind !== 'data') fail(`${at}.data`, `cell "${cell.data}" is not a data cell`);
+  const table = (b as Extract<Binding, { kind: 'data' }>).table;
+  const col = (name: string, what: string, path: string) => {
+    const i = table.columns.findIndex((c) => c.name === name);
+    if (i < 0) fail(path, `the data cell "${cell.data}" has no column "${name}" for ${what} (its columns: ${table.columns.map((c) => c.name).join(', ')})`);
+    return i;
+  };
+  const ti = col(cell.time, 'the time', `${at}.time`);
+  const ci = col(cell.concentration, 'the concentration', `${at}.concentration`);
+  const tUnit = table.columns[ti].unit;
+  const cUnit = table.columns[ci].unit;
+  if (!sameDim(unitDim(tUnit), TIME)) fail(`${at}.time`, `the column "${cell.time}" must hold times; its unit is of ${describeDim(unitDim(tUnit))}`);
+  const lookup = lookupFrom(ctx);
+  const dose = finiteQuantityOf(doseField, lookup);
+  const duration = durationField ? finiteQuantityOf(durationField, lookup) : undefined;
+  if (duration && !sameDim(duration.dim, TIME)) fail(durationField!.path, `the infusion duration must be a time; it is ${describe(duration)}`);
+
+  const t = table.rows.map((r) => r[ti] as number);
+  const c = table.rows.map((r) => r[ci]);
+  const result = ncaProfile({
+    t, c, dose: dose.si, route: cell.route, duration: duration?.si, auc: cell.auc ?? 'linear-up-log-down', terminal: cell.terminal ?? 'auto',
+  });
+  if (!result.ok) {
+    const p = result.problems[0];
+    const path = p?.field === 'dose' ? doseField.path : p?.field === 'duration' && durationField ? durationField.path
+      : p?.field === 't' || p?.field === 'c' ? `${at}.data` : at;
+    fail(path, result.message);
+  }
+  const r = result as Extract<typeof result, { ok: true }>;
+
+  const q = (si: number, unit: DisplayUnit): Quantity => ({ si, dim: unitDim(unit), unit });
+  const auc = mulUnits(cUnit, tUnit);
+  const perTime = mulUnits(NO_UNIT, tUnit, -1);
+  const clUnit = mulUnits(dose.unit, auc, -1);
+  const vUnit = mulUnits(clUnit, perTime, -1);
+  const values: Array<[string, number | null, DisplayUnit]> = [
+    ['Cmax', r.Cmax, cUnit], ['tmax', r.tmax, tUnit], ['Clast', r.Clast, cUnit], ['tlast', r.tlast, tUnit],
+    ['AUClast', r.AUClast, auc], ['AUCinf', r.AUCinf, auc], ['AUCextrap', r.AUCextrapPercent, NO_UNIT],
+    ['lambda_z', r.lambdaZ, perTime], ['t_half', r.tHalf, tUnit], ['CL', r.CL, clUnit], ['Vz', r.Vz, vUnit],
+    ['AUMClast', r.AUMClast, mulUnits(auc, tUnit)], ['MRT', r.MRT, tUnit], ['r2adj', r.r2adj, NO_UNIT],
+  ];
+  const out: Record<string, unknown> = {};
+  const bindings = new Map<string, Binding>();
+  const reasons = new Map<string, string>();
+  for (const [name, si, unit] of values) {
+    const full = `${prefix}${name}`;
+    if (si === null || !Number.isFinite(si)) {
+      reasons.set(full, `"${full}" is not defined for this profile${r.warnings.length ? `: ${r.warnings[0]}` : ''}`);
+      continue;
+    }
+    const quantity = q(si, unit);
+    out[full] = report(quantity);
+    bindings.set(full, { kind: 'value', q: quantity, sig: quantitySig(quantity) });
+  }
+  return {
+    ok: true,
+    bindings,
+    reasons,
+    output: {
+      values: out,
+      pointsUsed: { count: r.pointsUsed.count, times: r.pointsUsed.times.map((x) => report(q(x, tUnit))) },
+      ...(r.apparent ? { note: 'after an extravascular dose, CL and Vz are apparent values, divided by the unknown bioavailability F (CL/F, Vz/F)' } : {}),
+      ...(r.warnings.length ? { warnings: [...r.warnings] } : {}),
+    },
+  };
+}
