@@ -284,10 +284,12 @@ export function ncaProfile(input: NcaInput): NcaResult {
       if (b !== undefined && a.c > 0 && b.c > 0 && b.c < a.c) {
         // the line through (t1, ln C1) and (t2, ln C2), at t = 0
         C0 = a.c * Math.exp(Math.log(a.c / b.c) * a.t / (b.t - a.t));
-      } else {
+      }
+      if (C0 === null || !Number.isFinite(C0)) {
         const firstPositive = profile.find((s) => s.c > 0) as Sample;
+        const why = C0 === null ? 'the first two concentrations do not both fall and stay above zero' : 'the line through the first two concentrations overflows at t = 0';
         C0 = firstPositive.c;
-        warnings.push(`C0 could not be back-extrapolated (the first two concentrations do not both fall and stay above zero); C0 is taken as the first positive concentration, ${fmt(C0)} at t = ${fmt(firstPositive.t)}`);
+        warnings.push(`C0 could not be back-extrapolated (${why}); C0 is taken as the first positive concentration, ${fmt(C0)} at t = ${fmt(firstPositive.t)}`);
       }
       profile.unshift({ row: -1, t: 0, c: C0 });
     }
@@ -357,7 +359,7 @@ export function ncaProfile(input: NcaInput): NcaResult {
     }
   }
   const CL = AUCinf !== null ? dose / AUCinf : null;
-  return {
+  const result: NcaSuccess = {
     ok: true,
     Cmax: peak.c, tmax: peak.t, Clast: last.c, tlast: last.t, C0,
     AUClast, AUMClast, AUCinf, AUCextrapPercent, AUMCinf,
@@ -369,4 +371,9 @@ export function ncaProfile(input: NcaInput): NcaResult {
     pointsUsed: { count: times.length, times },
     warnings,
   };
+  const overflow = Object.entries(result).find(([, v]) => typeof v === 'number' && !Number.isFinite(v));
+  if (overflow) {
+    return failure([{ field: 'c', message: `${overflow[0]} overflows the range of double-precision numbers: the concentrations or times are too large to integrate` }]);
+  }
+  return result;
 }
