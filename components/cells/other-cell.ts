@@ -1,11 +1,14 @@
 import { LitElement, html, css } from 'lit';
 import type { CellReport } from './types.ts';
 import type { Cell } from '../../src/index.ts';
-import { cellStyles, editEvent, ErrorClaims } from './common.ts';
+import { cellStyles, editEvent, ErrorClaims, showQ } from './common.ts';
+
+type Q = { value: number; unit: string; si: number };
 
 /**
  * A cell whose own editor is not in this version (data, fit, nca): its fields as JSON, kept
- * and checked by the engine, editable as text; what the engine says about it is shown.
+ * and checked by the engine, editable as text, with what the engine computed (the table's
+ * size, the estimates with their uncertainty, the profile's values) and its warnings.
  */
 export class OtherCellElement extends LitElement {
   static override properties = { cell: { attribute: false }, report: { attribute: false }, problem: { state: true } };
@@ -17,8 +20,19 @@ export class OtherCellElement extends LitElement {
   override render() {
     const claims = new ErrorClaims(this.report);
     const { id: _id, kind: _kind, title: _title, ...fields } = this.cell as unknown as Record<string, unknown>;
+    const r = this.report;
+    const values = (r?.values ?? {}) as Record<string, Q>;
+    const estimates = (r?.estimates ?? {}) as Record<string, { value: Q; standardError?: Q; ci95?: Q[]; atBound?: boolean }>;
     return html`
-      ${this.report?.computed === false ? html`<p class="muted">${String(this.report.message ?? '')}</p>` : ''}
+      ${r?.computed === false ? html`<p class="muted">${String(r.message ?? '')}</p>` : ''}
+      ${r?.ok && this.cell.kind === 'data' ? html`<p class="muted">${r.rowCount} rows${r.note ? `; ${r.note}` : ''}.</p>` : ''}
+      ${Object.keys(estimates).length ? html`<table><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead><tbody>
+        ${Object.entries(estimates).map(([name, e]) => html`<tr><td>${name}</td><td class="result">${showQ(e.value)}${e.atBound ? ' (at a bound)' : ''}</td>
+          <td class="result">${e.standardError ? showQ(e.standardError) : ''}</td><td class="result">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
+        <p class="muted">${r?.converged ? 'Converged' : 'Not converged'} after ${r?.iterations} iterations (${r?.message}); ${r?.n} points, ${r?.dof} degrees of freedom${r?.residualSD ? `, residual SD ${showQ(r.residualSD as Q)}` : ''}.</p>` : ''}
+      ${Object.keys(values).length ? html`<table><tbody>${Object.entries(values).map(([name, q]) => html`<tr><td>${name}</td><td class="result">${showQ(q)}</td></tr>`)}</tbody></table>` : ''}
+      ${r?.note && this.cell.kind !== 'data' ? html`<p class="muted">${String(r.note)}</p>` : ''}
+      ${((r?.warnings ?? []) as string[]).map((w) => html`<p class="foot-error">${w}</p>`)}
       <textarea aria-label="Fields of cell ${this.cell.id}, as JSON" .value=${JSON.stringify(fields, null, 2)} @input=${this.edit}></textarea>
       ${this.problem ? html`<p class="foot-error" role="alert">${this.problem}</p>` : ''}
       ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
