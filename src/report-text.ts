@@ -4,7 +4,7 @@ import { formatNumber } from './quantity.ts';
 
 interface Q { value: number; unit: string; si: number }
 
-const HIDDEN = new Set(['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn', 'series', 'plot', 'intervals', 'summary']);
+const HIDDEN = new Set(['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn', 'series', 'plot', 'intervals', 'summary', 'residuals']);
 
 export function formatReport(report: Report): string {
   const lines: string[] = [report.title, '='.repeat(Math.min(72, Math.max(8, report.title.length))), ''];
@@ -38,6 +38,9 @@ function formatCell(cell: CellReport): string[] {
       const sw = value as { parameter: string; summary?: string; folds: Array<{ parameter: Q; value: Q }> };
       for (const f of sw.folds) rows.push(['fold', `${sw.parameter} = ${showQuantity(f.parameter)} at ${showQuantity(f.value)}`]);
       if (sw.summary) rows.push(['sweep', sw.summary]);
+    } else if (key === 'correlation' && value && typeof value === 'object') {
+      const cor = value as { names: string[]; matrix: number[][] };
+      cor.names.forEach((a, i) => cor.names.forEach((b, j) => { if (j > i) rows.push([`corr(${a}, ${b})`, formatNumber(cor.matrix[i][j], 3)]); }));
     } else if (key === 'notes' && Array.isArray(value)) {
       for (const n of value) rows.push(['note', String(n)]);
     } else {

@@ -7,11 +7,11 @@ import type { GraphNode } from '../node.ts';
 import { parameterNodes } from './parameters.ts';
 import { rateNodes } from './rate.ts';
 import { noteNodes } from './note.ts';
-import { pendingNodes } from './pending.ts';
 import { simulateNodes } from './simulate.ts';
 import { phaseNodes } from './phase.ts';
 import { dataNodes } from './data.ts';
 import { ncaNodes } from './nca.ts';
+import { fitNodes } from './fit.ts';
 
 type Builder = (cell: any, at: string) => GraphNode[];
 
@@ -22,7 +22,7 @@ const BUILDERS: Record<Cell['kind'], Builder> = {
   phase: phaseNodes,
   simulate: simulateNodes,
   data: dataNodes,
-  fit: pendingNodes,
+  fit: fitNodes,
   nca: ncaNodes,
 };
 

@@ -13,7 +13,6 @@ import { sameDim, describeDim, TIME } from '../dimension.ts';
 import { type DisplayUnit, mulUnits, unitDim, NO_UNIT } from '../units.ts';
 import { ncaProfile } from '../numerics/nca.ts';
 import { quantitySig } from './signatures.ts';
-import { NCA_NAMES } from './pending.ts';
 
 export function ncaNodes(cell: NcaCell, at: string): GraphNode[] {
   const problems: CellError[] = [];
@@ -110,3 +109,6 @@ function runNca(cell: NcaCell, at: string, prefix: string, doseField: Field, dur
     },
   };
 }
+
+/** The names an nca cell defines, before its prefix (the study-format contract). */
+export const NCA_NAMES = ['Cmax', 'tmax', 'Clast', 'tlast', 'AUClast', 'AUCinf', 'AUCextrap', 'lambda_z', 't_half', 'CL', 'Vz', 'AUMClast', 'MRT', 'r2adj'];

@@ -1,0 +1,207 @@
+/**
+ * A fit cell: estimates parameters and starting values of rate laws from measurements, by
+ * nonlinear least squares (numerics/least-squares.ts) on the simulated states at the data's
+ * times (simulate/model-run.ts). Defines each estimate under its `as` name, so cells below a
+ * fit follow the data.
+ */
+import type { FitCell } from '../study/types.ts';
+import type { Binding, CellError, GraphNode, Outcome, RunContext, Use } from '../node.ts';
+import { cellRef } from '../node.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
+import { type Quantity, report, describe, deltaUnit } from '../quantity.ts';
+import { sameDim, describeDim, TIME } from '../dimension.ts';
+import { formatUnit, unitDim } from '../units.ts';
+import { fitLeastSquares } from '../numerics/least-squares.ts';
+import { runModelAt, type ModelSpec } from '../simulate/model-run.ts';
+import { collectLaws } from './laws.ts';
+import { quantitySig } from './signatures.ts';
+
+export function fitNodes(cell: FitCell, at: string): GraphNode[] {
+  const problems: CellError[] = [];
+  const estimates = Array.isArray(cell.estimate) ? cell.estimate : [];
+  const fields = estimates.map((e, i) => ({
+    guess: field(e?.guess, `${at}.estimate[${i}].guess`, problems),
+    min: e?.min !== undefined ? field(e.min, `${at}.estimate[${i}].min`, problems) : undefined,
+    max: e?.max !== undefined ? field(e.max, `${at}.estimate[${i}].max`, problems) : undefined,
+  }));
+  const refs: Use[] = [];
+  (Array.isArray(cell.rates) ? cell.rates : []).forEach((r, i) => { if (typeof r === 'string') refs.push({ name: cellRef(r), path: `${at}.rates[${i}]` }); });
+  if (typeof cell.data === 'string') refs.push({ name: cellRef(cell.data), path: `${at}.data` });
+  estimates.forEach((e, i) => { if (typeof e?.parameter === 'string') refs.push({ name: e.parameter, path: `${at}.estimate[${i}].parameter` }); });
+  return [{
+    key: `${cell.id}/fit`,
+    cell: cell.id,
+    defines: estimates.flatMap((e, i) => (typeof e?.as === 'string' ? [{ name: e.as, path: `${at}.estimate[${i}].as` }] : [])),
+    uses: [...usesOf(fields.flatMap((f) => [f.guess, f.min, f.max])), ...refs],
+    allowsTime: false,
+    allowsStates: true,
+    pullsCoupledLaws: true,
+    signature: JSON.stringify(cell),
+    problems,
+    run: (ctx) => {
+      try {
+        return runFit(cell, at, fields as Array<{ guess: Field; min?: Field; max?: Field }>, ctx);
+      } catch (err) {
+        if (err instanceof FieldError) return { ok: false, error: err.error };
+        throw err;
+      }
+    },
+  }];
+}
+
+const fail = (path: string, message: string): never => { throw new FieldError({ path, message }); };
+
+interface Unknown {
+  readonly kind: 'parameter' | 'initial';
+  readonly name: string;
+  readonly as: string;
+  /** Index into the parameter vector, or into the states. */
+  readonly index: number;
+  readonly template: Quantity;
+  readonly guess: number;
+  readonly lower: number;
+  readonly upper: number;
+}
+
+function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: Field; max?: Field }>, ctx: RunContext): Outcome {
+  const laws = collectLaws(cell.rates, `${at}.rates`, ctx);
+  const states = laws.map((l) => l.state);
+  const params: string[] = [];
+  for (const l of laws) for (const n of l.reads) if (n !== 't' && !states.includes(n) && !params.includes(n)) params.push(n);
+  const paramQ = params.map((n) => laws.find((l) => l.scope.has(n))!.scope.get(n)!);
+  const lookup = lookupFrom(ctx);
+
+  // the data
+  const b = ctx.binding(cellRef(cell.data));
+  if (b?.kind !== 'data') fail(`${at}.data`, `cell "${cell.data}" is not a data cell`);
+  const table = (b as Extract<Binding, { kind: 'data' }>).table;
+  const colOf = (name: string, path: string) => {
+    const i = table.columns.findIndex((c) => c.name === name);
+    if (i < 0) fail(path, `the data cell "${cell.data}" has no column "${name}" (its columns: ${table.columns.map((c) => c.name).join(', ')})`);
+    return i;
+  };
+  const ti = colOf(cell.time, `${at}.time`);
+  if (!sameDim(unitDim(table.columns[ti].unit), TIME)) fail(`${at}.time`, `the column "${cell.time}" must hold times`);
+  const observed = Object.entries(cell.observe).map(([state, column]) => {
+    const si = states.indexOf(state);
+    if (si < 0) fail(`${at}.observe`, `"${state}" is not a state of the laws fitted (their states: ${states.join(', ')})`);
+    const ci = colOf(column, `${at}.observe.${state}`);
+    if (!sameDim(unitDim(table.columns[ci].unit), laws[si].initial.dim)) {
+      fail(`${at}.observe.${state}`, `the column "${column}" must be ${describeDim(laws[si].initial.dim)} like ${state}; its unit is ${formatUnit(table.columns[ci].unit)}`);
+    }
+    return { state, si, ci, column };
+  });
+
+  // the unknowns
+  const unknowns: Unknown[] = cell.estimate.map((e, i) => {
+    const path = `${at}.estimate[${i}]`;
+    const si = states.indexOf(e.parameter);
+    let template: Quantity;
+    let kind: Unknown['kind'];
+    let index: number;
+    if (si >= 0) {
+      kind = 'initial'; index = si; template = laws[si].initial;
+    } else {
+      index = params.indexOf(e.parameter);
+      if (index < 0) {
+        const via = params.find((p) => ctx.upstream(p).has(e.parameter));
+        fail(`${path}.parameter`, via
+          ? `the laws read "${via}", which is computed from "${e.parameter}": estimate a name the laws read directly`
+          : `the laws fitted do not read "${e.parameter}"`);
+      }
+      kind = 'parameter'; template = paramQ[index];
+    }
+    const bound = (f: Field | undefined, what: string, dflt: number) => {
+      if (!f) return dflt;
+      const q = finiteQuantityOf(f, lookup);
+      if (!sameDim(q.dim, template.dim)) fail(f.path, `the ${what} must be ${describeDim(template.dim)} like ${e.parameter}; it is ${describe(q)}`);
+      return q.si;
+    };
+    const g = fields[i];
+    const guess = bound(g.guess, 'guess', NaN);
+    const lower = bound(g.min, 'lower bound', -Infinity);
+    const upper = bound(g.max, 'upper bound', Infinity);
+    if (!(lower < upper)) fail(`${path}.max`, 'the upper bound must be above the lower bound');
+    if (guess < lower || guess > upper) fail(g.guess.path, `the guess lies outside the bounds`);
+    return { kind, name: e.parameter, as: e.as, index, template: { ...template, unit: g.guess ? finiteQuantityOf(g.guess, lookup).unit : template.unit }, guess, lower, upper };
+  });
+
+  // the residuals: every observed value with a time
+  const points: Array<{ row: number; state: number; y: number; w: number }> = [];
+  const weighting = cell.weighting ?? 'none';
+  table.rows.forEach((row, r) => {
+    for (const o of observed) {
+      const y = row[o.ci];
+      if (y === null || row[ti] === null) continue;
+      if (weighting !== 'none' && y === 0) fail(`${at}.weighting`, `"${weighting}" weighting divides by the observed value, and row ${r + 1} of ${o.column} is zero`);
+      const w = weighting === 'relative' ? 1 / Math.abs(y) : weighting === 'proportional' ? 1 / Math.sqrt(Math.abs(y)) : 1;
+      points.push({ row: r, state: o.si, y, w });
+    }
+  });
+  if (points.length === 0) fail(`${at}.data`, 'no observed values to fit');
+  const times = [...new Set(table.rows.map((r) => r[ti] as number))].sort((a, c) => a - c);
+  const t0 = Math.min(0, times[0]);
+  const rowTime = table.rows.map((r) => times.indexOf(r[ti] as number));
+  if (ctx.mode === 'check') return { ok: true, bindings: new Map(), output: { computed: false, message: 'checked; run the study to fit' } };
+
+  const spec: ModelSpec = { laws, params };
+  const scale = Float64Array.from(laws, (l, i) => Math.max(Math.abs(l.initial.si), ...points.filter((p) => p.state === i).map((p) => Math.abs(p.y)), 1e-300));
+  const y0 = Float64Array.from(laws, (l) => l.initial.si);
+  const p = Float64Array.from(paramQ, (q) => q.si);
+  const apply = (v: ArrayLike<number>) => {
+    unknowns.forEach((u, k) => { if (u.kind === 'initial') y0[u.index] = v[k]; else p[u.index] = v[k]; });
+  };
+  let lastFailure: string | undefined;
+  const residuals = (v: Float64Array, out: Float64Array): boolean => {
+    apply(v);
+    const run = runModelAt(spec, t0, y0, p, times, scale);
+    if (!run.values) { lastFailure = run.message; return false; }
+    points.forEach((pt, k) => { out[k] = pt.w * (run.values![rowTime[pt.row]][pt.state] - pt.y); });
+    return true;
+  };
+  const fit = fitLeastSquares({
+    residuals, m: points.length, p0: unknowns.map((u) => u.guess),
+    lower: unknowns.map((u) => u.lower), upper: unknowns.map((u) => u.upper),
+    scale: unknowns.map((u) => Math.abs(u.guess) || 1),
+  });
+  if (!fit.residuals) fail(at, `the fit could not start: ${fit.message}${fit.detail ? ` (${fit.detail})` : ''}${lastFailure ? `; the model failed: ${lastFailure}` : ''}`);
+
+  // the answers
+  const estimates: Record<string, unknown> = {};
+  const bindings = new Map<string, Binding>();
+  unknowns.forEach((u, k) => {
+    const q: Quantity = { ...u.template, si: fit.p[k] };
+    const delta = (si: number): Quantity => ({ si, dim: q.dim, unit: deltaUnit(q.unit), ...(q.temp ? { temp: 'delta' as const } : {}) });
+    estimates[u.as] = {
+      value: report(q),
+      ...(fit.standardErrors ? { standardError: report(delta(fit.standardErrors[k])) } : {}),
+      ...(fit.ci95 ? { ci95: fit.ci95[k].map((x) => report({ ...q, si: x })) } : {}),
+      ...(fit.atBound[k] ? { atBound: true } : {}),
+    };
+    bindings.set(u.as, { kind: 'value', q, sig: quantitySig(q) });
+  });
+  const firstObserved = laws[observed[0].si];
+  const residualSD = fit.residualSD === null ? undefined
+    : weighting === 'none' ? report({ si: fit.residualSD, dim: firstObserved.initial.dim, unit: deltaUnit(firstObserved.stateUnit), ...(firstObserved.initial.temp ? { temp: 'delta' as const } : {}) })
+      : { value: fit.residualSD, unit: '', si: fit.residualSD };
+  const n = unknowns.length;
+  const output: Record<string, unknown> = {
+    estimates,
+    ...(residualSD ? { residualSD } : {}),
+    n: points.length,
+    dof: fit.dof,
+    iterations: fit.iterations,
+    evaluations: fit.evaluations,
+    converged: fit.converged,
+    message: fit.message,
+    ...(fit.correlation ? { correlation: { names: unknowns.map((u) => u.as), matrix: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => fit.correlation![i * n + j])) } } : {}),
+    ...(fit.warnings.length ? { warnings: fit.warnings.map((w) => w.message.replace(/parameter (\d+)/g, (_, i) => `"${unknowns[Number(i)]?.as ?? i}"`)) } : {}),
+    residuals: points.map((pt, k) => {
+      const law = laws[pt.state];
+      const r: Quantity = { si: fit.residuals![k] / pt.w, dim: law.initial.dim, unit: deltaUnit(law.stateUnit), ...(law.initial.temp ? { temp: 'delta' as const } : {}) };
+      return { row: pt.row + 1, state: states[pt.state], time: report({ si: table.rows[pt.row][ti] as number, dim: TIME, unit: table.columns[ti].unit }), residual: report(r) };
+    }),
+  };
+  return { ok: true, bindings, output };
+}
+
