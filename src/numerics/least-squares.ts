@@ -97,6 +97,7 @@ export const FitStatus = {
   Cancelled: 'cancelled',
   ModelFailedAtStart: 'model-failed-at-start',
   ModelFailedNearPoint: 'model-failed-jacobian',
+  ModelFailedSteps: 'model-failed-steps',
   TooFewPoints: 'too-few-points',
   InvalidInput: 'invalid-input',
 } as const;
@@ -114,6 +115,7 @@ export const FIT_MESSAGES: Readonly<Record<FitStatus, string>> = {
   'cancelled': 'stopped: the fit was cancelled',
   'model-failed-at-start': 'the model could not be evaluated at the starting values',
   'model-failed-jacobian': 'stopped: the model failed on both sides of the current parameters while its derivatives were estimated',
+  'model-failed-steps': 'stopped: the model fails at every trial point close to the best parameters found, which lie at the edge of the region where it can be computed',
   'too-few-points': 'there are fewer data points than parameters to estimate',
   'invalid-input': 'the problem or its options are invalid',
 };
@@ -593,12 +595,13 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
 
       const xNormNow = scaledNorm(d, p);
       if (ok && Math.abs(actualRel) <= ftol && predictedRel <= ftol && ratio <= 2) { status = 'converged-ftol'; break outer; }
-      if (delta <= xtol * xNormNow) { status = 'converged-xtol'; break outer; }
-      if (cost === 0) { status = 'exact-fit'; break outer; }
-      if ((ok && Math.abs(actualRel) <= EPS && predictedRel <= EPS && ratio <= 2) || !(delta > EPS * xNormNow)) {
-        status = 'precision-limit';
+      if (delta <= xtol * xNormNow || !(delta > EPS * xNormNow)) {
+        // the radius collapsed: convergence, unless it collapsed because the model kept failing
+        status = !ok ? 'model-failed-steps' : delta <= xtol * xNormNow ? 'converged-xtol' : 'precision-limit';
         break outer;
       }
+      if (cost === 0) { status = 'exact-fit'; break outer; }
+      if (ok && Math.abs(actualRel) <= EPS && predictedRel <= EPS && ratio <= 2) { status = 'precision-limit'; break outer; }
       if (accepted) continue outer;
     }
   }
@@ -693,6 +696,7 @@ function statistics(
       message: `${listNames(noEffect)} ${noEffect.length === 1 ? 'has' : 'have'} no effect on the residuals here, so the data say nothing about ${noEffect.length === 1 ? 'it' : 'them'}`,
     });
   }
+  const condText = Number.isFinite(conditionNumber) ? `cond(JᵀJ) ≈ ${conditionNumber.toPrecision(2)}` : 'JᵀJ is singular';
   const involved = (limit: number): number[] => {
     const set = new Set<number>();
     for (let k = 0; k < n; k++) {
@@ -706,14 +710,14 @@ function statistics(
   if (collinear.length > 0) {
     warnings.push({
       kind: 'not-identifiable', parameters: collinear,
-      message: `${listNames(collinear)} cannot be told apart by these data: some combination of them leaves the residuals unchanged (nearly collinear columns of the Jacobian; cond(JᵀJ) ≈ ${conditionNumber.toPrecision(2)}). Fix one of them or change the model's parameters`,
+      message: `${listNames(collinear)} cannot be told apart by these data: some combination of them leaves the residuals unchanged (nearly collinear columns of the Jacobian; ${condText}). Fix one of them or change the model's parameters`,
     });
   } else {
     const poor = involved(poorRatio);
     if (poor.length > 0) {
       warnings.push({
         kind: 'poorly-identified', parameters: poor,
-        message: `${listNames(poor)} are poorly determined together (cond(JᵀJ) ≈ ${conditionNumber.toPrecision(2)}): their estimates are strongly correlated and their intervals wide`,
+        message: `${listNames(poor)} are poorly determined together (${condText}): their estimates are strongly correlated and their intervals wide`,
       });
     }
   }
