@@ -6,6 +6,8 @@ import { createAutosaver, type Autosaver, type AutosaveState } from './autosaver
 /** Consecutive edits with the same merge key within this time are one undo step (a drag, typing in a field). */
 const MERGE_WINDOW_MS = 1200;
 const UNDO_LIMIT = 200;
+/** How long an edit waits for the engine's answer before it is rendered on its own. */
+const RENDER_WAIT_MS = 40;
 
 export interface StudyControllerOptions {
   /** Persists the study; called a moment after each change. */
@@ -53,6 +55,8 @@ export class StudyController implements ReactiveController {
         this.lastTiming = { received: a.received ?? 0, sent: a.sent ?? 0, arrived: performance.timeOrigin + performance.now() };
         this.problem = undefined;
         this.listeners.forEach((l) => l(a));
+        clearTimeout(this.renderTimer);
+        this.renderTimer = undefined;
         this.host.requestUpdate();
       },
       refused: (message: string, path: string) => {
@@ -119,7 +123,9 @@ export class StudyController implements ReactiveController {
     this.study = out.study;
     this.engine.edit(edit, out.study);
     this.saver?.schedule({ id: this.id, study: out.study });
-    this.host.requestUpdate();
+    // typing and dragging (merged edits) wait for the answer; a structural change shows at once
+    if (mergeKey !== undefined) this.renderSoon();
+    else this.host.requestUpdate();
     return undefined;
   }
 
@@ -148,6 +154,22 @@ export class StudyController implements ReactiveController {
   /** Saves now (before leaving the study). */
   async flush(): Promise<void> {
     await this.saver?.flush();
+  }
+
+  private renderTimer?: ReturnType<typeof setTimeout>;
+
+  /**
+   * Renders an edit together with the engine's answer to it, which usually follows within a
+   * few milliseconds: one render and one frame instead of two, which keeps a slider drag
+   * smooth. The field being edited already shows what was typed; if the answer is slow, the
+   * edit is rendered on its own after RENDER_WAIT_MS.
+   */
+  private renderSoon(): void {
+    if (this.renderTimer !== undefined) return;
+    this.renderTimer = setTimeout(() => {
+      this.renderTimer = undefined;
+      this.host.requestUpdate();
+    }, RENDER_WAIT_MS);
   }
 
   private restore(study: Study): void {
