@@ -4,20 +4,23 @@
  * optional bounds on each parameter, and report the statistics of the estimate.
  *
  * Method: Levenberg–Marquardt as a trust-region method (J. J. Moré, "The Levenberg–Marquardt
- * algorithm: implementation and theory", Numerical Analysis, Lecture Notes in Mathematics
- * 630, Springer 1977). Each iteration forms the Jacobian J and looks for the step s that
+ * algorithm: implementation and theory", in Numerical Analysis (G. A. Watson, ed.), Springer
+ * LNM 630, 1977). Each iteration forms the Jacobian J and looks for the step s that
  * minimises the linear model ½‖r + J·s‖² within ‖D·s‖ ≤ Δ:
- * s = −(JᵀJ + λ·DᵀD)⁻¹·Jᵀr, with λ ≥ 0 chosen so that ‖D·s‖ ≈ Δ (within 10%, Moré sec. 5)
- * unless the Gauss–Newton step (λ = 0) is already shorter. The step comes from the singular
- * value decomposition of J·D⁻¹, which makes ‖D·s(λ)‖ a closed form in λ; λ is found by the
- * safeguarded Newton iteration on 1/‖D·s(λ)‖ − 1/Δ (Hebden 1973, Moré sec. 5), and a
+ * s = −(JᵀJ + λ·DᵀD)⁻¹·Jᵀr, with λ ≥ 0 chosen so that ‖D·s‖ ≈ Δ (within 10%, as Moré
+ * allows) unless the Gauss–Newton step (λ = 0) is already shorter. The step comes from the
+ * singular value decomposition of J·D⁻¹, which makes ‖D·s(λ)‖ a closed form in λ; λ is found
+ * by the safeguarded Newton iteration on 1/‖D·s(λ)‖ − 1/Δ (Hebden 1973; Moré 1977), and a
  * rank-deficient J gives the minimum-norm step. The radius Δ follows the ratio ρ of the actual
- * to the predicted reduction of the sum of squares (Moré sec. 4): below 1/4 it shrinks by a
+ * to the predicted reduction of the sum of squares (Moré's rules): below 1/4 it shrinks by a
  * factor in [1/10, 1/2] from a quadratic interpolation along the step; above 3/4 (or on a
- * Gauss–Newton step) it becomes twice the step. A step is accepted when ρ ≥ 1e-4.
+ * Gauss–Newton step) it becomes twice the step. A step is accepted when ρ ≥ 1e-4. The first
+ * radius is ‖D·p0‖ (Moré suggests up to 100 times that; a first step no longer than the
+ * parameters themselves keeps a saturating model such as b1·(1 − e^(−b2·x)) from leaping to
+ * where it is flat, as from the first start of NIST's BoxBOD problem).
  *
- * Scaling D: without `scale`, Moré's (sec. 6) running maximum of the column norms of J, which
- * makes the iteration invariant to the parameters' units; with `scale`, D = 1/scale.
+ * Scaling D: without `scale`, Moré's running maximum of the column norms of J, which makes
+ * the iteration invariant to the parameters' units; with `scale`, D = 1/scale.
  *
  * Jacobian: forward differences, column j with step h_j = diffStep·max(|p_j|, typical_j)
  * (Dennis & Schnabel, Numerical Methods for Unconstrained Optimization and Nonlinear
@@ -40,7 +43,7 @@
  * test does not depend on the parameters' units; `conditionNumber` is that of the scaled JᵀJ.
  *
  * Failure is a result: every outcome has a status from `FitStatus` with a message from
- * `FIT_MESSAGES`; nothing throws (invalid input is the status `invalid-input`, whose message
+ * `FIT_MESSAGES`; nothing throws (invalid input is the status `invalid-input`, whose `detail`
  * names the field), and the iteration and evaluation budgets bound the work.
  */
 import { jacobiSvd } from './linear-algebra-small.ts';
@@ -49,21 +52,21 @@ import { studentTQuantile } from './student-t.ts';
 const EPS = Number.EPSILON;
 
 // Tuning constants (Moré 1977 and common practice).
-/** Initial radius as a multiple of ‖D·p0‖ (Moré sec. 7: "factor", 100). */
+/** Initial radius as a multiple of ‖D·p0‖ (Moré's "factor"; he suggests 100, we take 1: see above). */
 const INITIAL_RADIUS_FACTOR = 1;
-/** A trial step is accepted when actual/predicted reduction is at least this (Moré sec. 4). */
+/** A trial step is accepted when actual/predicted reduction is at least this (Moré 1977). */
 const ACCEPT_RATIO = 1e-4;
 /** Below this ratio the radius shrinks; at or above GOOD_RATIO it grows. */
 const POOR_RATIO = 0.25;
 const GOOD_RATIO = 0.75;
-/** Bounds of the shrink factor chosen by interpolation (Moré sec. 4). */
+/** Bounds of the shrink factor chosen by interpolation (Moré 1977). */
 const MIN_SHRINK = 0.1;
 const MAX_SHRINK = 0.5;
 /** Shrink factor after a trial where the model failed. */
 const FAILED_SHRINK = 0.25;
-/** ‖D·s‖ within this fraction of Δ is close enough to the radius (Moré sec. 5: σ = 0.1). */
+/** ‖D·s‖ within this fraction of Δ is close enough to the radius (Moré 1977: σ = 0.1). */
 const RADIUS_TOLERANCE = 0.1;
-/** Newton iterations for λ; about 2–3 are typical (Moré sec. 5). */
+/** Most Newton iterations for λ; two or three are typical. */
 const MAX_LAMBDA_ITERATIONS = 60;
 /** Components of a right singular vector at least this large name the parameters involved. */
 const INVOLVED_COMPONENT = 0.1;
@@ -499,7 +502,7 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
       const pinned = (p[j] <= lower[j] && g[j] > 0) || (p[j] >= upper[j] && g[j] < 0);
       if (!pinned) free.push(j);
     }
-    // Gradient test on the free parameters (Moré sec. 8: the cosine of r with each column).
+    // Gradient test on the free parameters: |cos| of the angle between r and each column, zero at a stationary point.
     const rNorm = Math.sqrt(2 * cost);
     let gMax = 0;
     for (const j of free) if (colNorm[j] > 0) gMax = Math.max(gMax, Math.abs(g[j]) / (colNorm[j] * rNorm));
@@ -567,7 +570,7 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
       const predictedRel = predicted / cost;
       const ratio = ok ? actualRel / predictedRel : -1;
 
-      // Radius update (Moré sec. 4).
+      // Radius update (Moré 1977).
       if (ratio < POOR_RATIO) {
         let shrink: number;
         if (!ok) shrink = FAILED_SHRINK;

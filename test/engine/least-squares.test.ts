@@ -12,9 +12,9 @@ const relErr = (x: number, exact: number) => Math.abs(x - exact) / Math.abs(exac
 type Model = (p: ArrayLike<number>, x: number) => number;
 
 /** Fits model(p, x) to (xs, ys) with unweighted residuals model − y. */
-function fitCurve(model: Model, xs: readonly number[], ys: readonly number[], p0: number[], options = {}): FitResult {
+function fitCurve(model: Model, xs: readonly number[], ys: readonly number[], p0: number[], options = {}, scale?: number[]): FitResult {
   return fitLeastSquares({
-    m: xs.length, p0,
+    m: xs.length, p0, scale,
     residuals: (p, out) => {
       for (let i = 0; i < xs.length; i++) out[i] = model(p, xs[i]) - ys[i];
       return true;
@@ -113,9 +113,10 @@ const BOXBOD = {
 
 describe('NIST StRD certified values', () => {
   for (const [name, d] of [['Misra1a', MISRA1A], ['BoxBOD', BOXBOD]] as const) {
-    for (const [s, p0] of d.starts.entries()) {
-      it(`${name} from start ${s + 1} (${p0.join(', ')}): parameters, standard errors and residual sum of squares to 6 digits`, () => {
-        const r = fitCurve(plateau, d.x, d.y, p0);
+    for (const [s, p0] of d.starts.entries()) for (const scaled of [false, true]) {
+      const how = scaled ? ', steps scaled by the start' : '';
+      it(`${name} from start ${s + 1} (${p0.join(', ')}${how}): parameters, standard errors and residual sum of squares to 6 digits`, () => {
+        const r = fitCurve(plateau, d.x, d.y, p0, {}, scaled ? p0.map(Math.abs) : undefined);
         assert.equal(r.converged, true, r.status);
         for (let j = 0; j < 2; j++) {
           assert.ok(relErr(r.p[j], d.certified[j]) <= 1e-6, `b${j + 1} = ${r.p[j]}, certified ${d.certified[j]}`);
