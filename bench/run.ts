@@ -17,6 +17,7 @@ import { phaseBenchmarks } from './phase.ts';
 import { odeBench } from './ode.ts';
 import { simulateBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
+import { fitBenchmarks } from './fit.ts';
 
 /** One line of a section's table. `met` is undefined for a figure with no goal. */
 interface Row {
@@ -298,6 +299,10 @@ function simulateRows(): Row[] {
   }));
 }
 
+function fitRows(): Row[] {
+  return fitBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok }));
+}
+
 async function browserRows(): Promise<Row[]> {
   return (await browserBenchmarks()).map((r) => ({ measure: r.name, result: r.value, goal: r.goal, met: r.met }));
 }
@@ -308,6 +313,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Equilibria and parameter sweeps', run: phaseRows },
   { title: 'ODE integration against odex at equal accuracy', run: odeRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
+  { title: 'Fitting', run: fitRows },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },
 ];
 

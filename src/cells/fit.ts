@@ -163,6 +163,9 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     residuals, m: points.length, p0: unknowns.map((u) => u.guess),
     lower: unknowns.map((u) => u.lower), upper: unknowns.map((u) => u.upper),
     scale: unknowns.map((u) => Math.abs(u.guess) || 1),
+  }, {
+    // differences of a solver run (relative tolerance 1e-10) need a step near √rtol, not √ε
+    diffStep: 1e-5,
   });
   if (!fit.residuals) fail(at, `the fit could not start: ${fit.message}${fit.detail ? ` (${fit.detail})` : ''}${lastFailure ? `; the model failed: ${lastFailure}` : ''}`);
 
