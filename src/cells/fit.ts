@@ -5,10 +5,10 @@
  * fit follow the data.
  */
 import type { FitCell } from '../study/types.ts';
-import type { Binding, CellError, GraphNode, Outcome, RunContext, Use } from '../node.ts';
+import type { Binding, CellError, DataTable, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
 import { cellRef } from '../node.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
-import { type Quantity, report, describe, deltaUnit } from '../quantity.ts';
+import { type Quantity, report, describe, deltaUnit, valueIn } from '../quantity.ts';
 import { sameDim, describeDim, TIME } from '../dimension.ts';
 import { formatUnit, unitDim } from '../units.ts';
 import { fitLeastSquares } from '../numerics/least-squares.ts';
@@ -201,10 +201,43 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     ...(fit.warnings.length ? { warnings: fit.warnings.map((w) => w.message.replace(/parameter (\d+)/g, (_, i) => `"${unknowns[Number(i)]?.as ?? i}"`)) } : {}),
     residuals: points.map((pt, k) => {
       const law = laws[pt.state];
-      const r: Quantity = { si: fit.residuals![k] / pt.w, dim: law.initial.dim, unit: deltaUnit(law.stateUnit), ...(law.initial.temp ? { temp: 'delta' as const } : {}) };
+      const r: Quantity = { si: -fit.residuals![k] / pt.w, dim: law.initial.dim, unit: deltaUnit(law.stateUnit), ...(law.initial.temp ? { temp: 'delta' as const } : {}) };
       return { row: pt.row + 1, state: states[pt.state], time: report({ si: table.rows[pt.row][ti] as number, dim: TIME, unit: table.columns[ti].unit }), residual: report(r) };
     }),
   };
+  output.summary = `${unknowns.map((u, k) => `${u.as} = ${describe({ ...u.template, si: fit.p[k] })}${fit.standardErrors ? ` (standard error ${describe({ si: fit.standardErrors[k], dim: u.template.dim, unit: deltaUnit(u.template.unit) })})` : ''}`).join('; ')}; ${points.length} points${residualSD && weighting === 'none' ? `, residual SD ${describe({ si: fit.residualSD!, dim: firstObserved.initial.dim, unit: deltaUnit(firstObserved.stateUnit) })}` : ''}; ${fit.converged ? 'converged' : `not converged (${fit.message})`}.`;
+  output.plot = fitPlot(spec, t0, y0, p, fit.p, apply, times, scale, laws, observed, table, ti);
   return { ok: true, bindings, output };
+}
+
+/** Points across the data's span for the fitted curve. */
+const CURVE_POINTS = 200;
+
+/**
+ * What the plots of a fit draw, in the units the study shows: the fitted states over the
+ * data's span, the measured points over them, and each residual at its time.
+ */
+function fitPlot(spec: ModelSpec, t0: number, y0: Float64Array, p: Float64Array, best: Float64Array, apply: (v: ArrayLike<number>) => void,
+  times: readonly number[], scale: Float64Array, laws: readonly Law[], observed: ReadonlyArray<{ state: string; si: number; ci: number }>,
+  table: DataTable, ti: number) {
+  apply(best);
+  const end = times[times.length - 1];
+  const grid = Array.from({ length: CURVE_POINTS }, (_, i) => t0 + ((end - t0) * i) / (CURVE_POINTS - 1));
+  const run = runModelAt(spec, t0, y0, p, grid, scale);
+  if (!run.values) return undefined;
+  const tUnit = table.columns[ti].unit;
+  const inTime = (si: number) => valueIn({ si, dim: TIME, unit: tUnit }, tUnit);
+  const inState = (i: number, si: number) => valueIn({ ...laws[i].initial, si }, laws[i].initial.unit);
+  const shown = observed.map((o) => o.si);
+  return {
+    timeUnit: formatUnit(tUnit),
+    t: grid.map(inTime),
+    states: shown.map((i) => ({ name: laws[i].state, unit: formatUnit(laws[i].initial.unit), values: run.values!.map((v) => inState(i, v[i])) })),
+    events: [], levels: [], marks: [],
+    points: observed.map((o) => {
+      const rows = table.rows.filter((r) => r[o.ci] !== null && r[ti] !== null);
+      return { state: o.state, t: rows.map((r) => inTime(r[ti] as number)), values: rows.map((r) => inState(o.si, r[o.ci] as number)) };
+    }),
+  };
 }
 
