@@ -12,3 +12,4 @@ export { compileExpression, type Compiled } from './expression/compile.ts';
 export { type Quantity, report as reportQuantity, describe as describeQuantity, formatNumber } from './quantity.ts';
 export { FUNCTION_NAMES } from './expression/functions.ts';
 export { runStudy, exitCodeOf } from './run.ts';
+export { tableFromCsv } from './cells/data.ts';

@@ -51,7 +51,7 @@ export class OtherCellElement extends LitElement {
     };
     const residualPoints = [{ state: 'residual', t: res.map((x) => x.time.value), values: res.map((x) => x.residual.value) }];
     return html`<time-plot .plot=${plot} .points=${plot.points} .summary=${String(r.summary ?? '')}></time-plot>
-      <time-plot .plot=${residualPlot} .points=${residualPoints} .summary=${`Residuals (data minus fit) against time, in ${unit}.`}></time-plot>`;
+      <time-plot .plot=${residualPlot} .points=${residualPoints} .summary=${`Residuals (measured minus fitted) against time, in ${unit}.`}></time-plot>`;
   }
 
   private edit = (e: Event) => {

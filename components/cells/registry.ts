@@ -10,6 +10,7 @@ import './simulate-cell.ts';
 import './phase-cell.ts';
 import './note-cell.ts';
 import './other-cell.ts';
+import './data-cell.ts';
 
 export interface KindInfo {
   /** Shown on the "add" buttons and the cell's tag. */
@@ -20,6 +21,7 @@ export interface KindInfo {
 }
 
 const firstRate = (study: { cells: readonly Cell[] }) => study.cells.find((c) => c.kind === 'rate');
+const firstData = (study: { cells: readonly Cell[] }) => study.cells.find((c) => c.kind === 'data') as Extract<Cell, { kind: 'data' }> | undefined;
 
 export const KINDS: Record<Cell['kind'], KindInfo> = {
   parameters: {
@@ -49,20 +51,31 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
   },
   data: {
     label: 'Measurements',
-    blank: () => ({ columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, 10], [1, 8]] }),
-    render: (c, r) => html`<other-cell .cell=${c} .report=${r}></other-cell>`,
+    blank: () => ({ columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, null], [1, null]] }),
+    render: (c, r) => html`<data-cell .cell=${c} .report=${r}></data-cell>`,
   },
   fit: {
     label: 'Fit',
-    blank: () => ({ rates: [], data: '', time: 't', observe: {}, estimate: [] }),
+    blank: (study) => {
+      const rate = firstRate(study) as Extract<Cell, { kind: 'rate' }> | undefined;
+      const data = firstData(study);
+      return {
+        rates: rate ? [rate.id] : [], data: data?.id ?? '', time: data?.columns[0]?.name ?? 't',
+        observe: rate && data?.columns[1] ? { [rate.state]: data.columns[1].name } : {},
+        estimate: rate ? [{ parameter: rate.state, as: `${rate.state}0_fit`, guess: rate.initial }] : [],
+      };
+    },
     render: (c, r) => html`<other-cell .cell=${c} .report=${r}></other-cell>`,
   },
   nca: {
     label: 'Profile summary',
-    blank: () => ({ data: '', time: 't', concentration: 'C', dose: '100 mg', route: 'iv-bolus' }),
+    blank: (study) => {
+      const data = firstData(study);
+      return { data: data?.id ?? '', time: data?.columns[0]?.name ?? 't', concentration: data?.columns[1]?.name ?? 'C', dose: '100 mg', route: 'iv-bolus' };
+    },
     render: (c, r) => html`<other-cell .cell=${c} .report=${r}></other-cell>`,
   },
 };
 
 /** The kinds offered on the "add a cell" bar, in order. */
-export const ADDABLE: ReadonlyArray<Cell['kind']> = ['parameters', 'rate', 'simulate', 'phase', 'note'];
+export const ADDABLE: ReadonlyArray<Cell['kind']> = ['parameters', 'rate', 'simulate', 'phase', 'data', 'fit', 'nca', 'note'];

@@ -102,3 +102,15 @@ export function readCsv(text: string, names: readonly string[], path: string): A
     return Number.isFinite(v) && /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(s) ? v : s;
   }));
 }
+
+/**
+ * CSV text as table rows for the app's "turn into a table": numbers, null for empty entries,
+ * text left as typed (the data cell then flags its row). Never throws.
+ */
+export function tableFromCsv(text: string, names: readonly string[]): { ok: true; rows: Array<Array<number | string | null>> } | { ok: false; message: string } {
+  try {
+    return { ok: true, rows: readCsv(text, names, '') };
+  } catch (err) {
+    return { ok: false, message: err instanceof FieldError ? err.error.message : String(err) };
+  }
+}

@@ -36,7 +36,7 @@ const law = { id: 'law', kind: 'rate', state: 'T', unit: 'degC', rate: '-k * (T 
 const inputs = { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h', range: ['0.1 / h', '1 / h'] }, { name: 'Ta', value: '4 degC' }] };
 
 describe('cell elements', () => {
-  afterEach(() => document.querySelectorAll('parameters-cell, rate-cell, simulate-cell, phase-cell, note-cell, other-cell').forEach((e) => e.remove()));
+  afterEach(() => document.querySelectorAll('parameters-cell, rate-cell, simulate-cell, phase-cell, note-cell, other-cell, data-cell').forEach((e) => e.remove()));
 
   it('parameters-cell: values, a slider for a range, an error on its field, edits', async () => {
     const { el } = await mount('parameters-cell', [{ ...inputs, items: [...inputs.items, { name: 'bad', value: 'k * 1 m + 1' }] }], 'p');
@@ -91,17 +91,37 @@ describe('cell elements', () => {
     expect(el.shadowRoot!.textContent).to.contain('<img src=x onerror=alert(1)> plain');
   });
 
-  it('other-cell: a data cell as JSON, edited only when the text is valid', async () => {
-    const data = { id: 'd', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, 1]] };
-    const { el } = await mount('other-cell', [data], 'd');
+  it('data-cell: entries edited in place, a bad entry flagged on its row, CSV turned into a table', async () => {
+    const data = { id: 'd', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, 1], [1, 'lots']] };
+    const { el } = await mount('data-cell', [data], 'd');
+    const rows = el.shadowRoot!.querySelectorAll('table.grid tbody tr');
+    expect(rows[1].classList.contains('flagged')).to.equal(true);
+    expect(rows[1].getAttribute('title')).to.match(/row 2 has "lots" where a number/);
+    const edit = nextEdit(el);
+    const input = el.shadowRoot!.querySelector('input[aria-label="Row 2, C"]') as HTMLInputElement;
+    input.value = '0.5';
+    input.dispatchEvent(new Event('change'));
+    expect((await edit).cell.rows).to.deep.equal([[0, 1], [1, 0.5]]);
+    el.cell = { ...data, rows: undefined, csv: 'C\tt\n2\t0\n1.5\t1\n' } as unknown as Cell;
+    await el.updateComplete;
+    const toTable = nextEdit(el);
+    ([...el.shadowRoot!.querySelectorAll('button')].find((b) => b.textContent === 'Turn into a table') as HTMLButtonElement).click();
+    const d = (await toTable).cell;
+    expect(d.rows).to.deep.equal([[0, 2], [1, 1.5]]);
+    expect(d.csv).to.equal(undefined);
+  });
+
+  it('other-cell: a fit as JSON with its estimates, edited only when the text is valid', async () => {
+    const cells = [inputs, law,
+      { id: 'd', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'T', unit: 'degC' }], rows: [[0, 70], [1, 43.7], [2, 27.7], [3, 18.1]] },
+      { id: 'f', kind: 'fit', rates: ['law'], data: 'd', time: 't', observe: { T: 'T' }, estimate: [{ parameter: 'k', as: 'k_hat', guess: '0.3 / h' }] }];
+    const { el } = await mount('other-cell', cells, 'f');
+    expect(el.shadowRoot!.textContent).to.contain('k_hat');
+    expect(el.shadowRoot!.querySelectorAll('time-plot').length).to.equal(2);
     const area = el.shadowRoot!.querySelector('textarea')!;
-    area.value = '{ "columns": [';
+    area.value = '{ "rates": [';
     area.dispatchEvent(new Event('input'));
     await el.updateComplete;
     expect(el.shadowRoot!.textContent).to.contain('not valid JSON yet');
-    const edit = nextEdit(el);
-    area.value = JSON.stringify({ columns: data.columns, rows: [[0, 1], [1, 0.5]] });
-    area.dispatchEvent(new Event('input'));
-    expect(((await edit).cell.rows as unknown[]).length).to.equal(2);
   });
 });

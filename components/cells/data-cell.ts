@@ -1,0 +1,132 @@
+import { LitElement, html, css, nothing } from 'lit';
+import type { Cell, CellReport } from '../../src/index.ts';
+import { tableFromCsv } from '../../src/index.ts';
+import { cellStyles, editEvent, ErrorClaims } from './common.ts';
+
+type DataCellDoc = Extract<Cell, { kind: 'data' }>;
+type Entry = number | string | null;
+
+/**
+ * A data cell: the measurements as a table to edit in place (a unit per column, rows added
+ * and deleted), or as CSV text pasted from a spreadsheet or read from a file. Bad entries are
+ * kept as typed and flagged on their row by the engine; nothing is dropped.
+ */
+export class DataCellElement extends LitElement {
+  static override properties = { cell: { attribute: false }, report: { attribute: false }, problem: { state: true } };
+  cell!: DataCellDoc;
+  report?: CellReport;
+  problem?: string;
+  static override styles = [cellStyles, css`
+    table.grid { width: auto; }
+    table.grid input { width: 6.5rem; font-variant-numeric: tabular-nums; text-align: right; }
+    table.grid th input { display: block; text-align: left; margin-bottom: 2px; }
+    table.grid th input:first-child { font-weight: 600; }
+    tr.flagged td { background: #fdeceb; }
+    textarea { width: 100%; min-height: 7rem; box-sizing: border-box; font-family: ui-monospace, monospace; font-size: 0.85rem; }
+    .scroll { overflow-x: auto; max-height: 26rem; overflow-y: auto; }
+  `];
+
+  override render() {
+    const c = this.cell;
+    const claims = new ErrorClaims(this.report);
+    const columns = Array.isArray(c.columns) ? c.columns : [];
+    const flagged = new Map<number, string>();
+    for (const e of this.report?.errors ?? (this.report?.error ? [this.report.error] : [])) {
+      const m = /\.rows\[(\d+)\]/.exec(e.path) ?? /^row (\d+)/.exec(e.message);
+      if (m) flagged.set(e.path.includes('.rows[') ? Number(m[1]) : Number(m[1]) - 1, e.message);
+    }
+    return html`
+      ${c.csv !== undefined ? this.csvView(claims) : html`
+        <div class="scroll"><table class="grid">
+          <thead><tr><th></th>${columns.map((col, j) => html`<th>
+            <input type="text" aria-label="Name of column ${j + 1}" .value=${col.name ?? ''} @change=${(e: Event) => this.setColumn(j, { name: (e.target as HTMLInputElement).value })} />
+            <input type="text" aria-label="Unit of column ${col.name}" .value=${col.unit ?? ''} @change=${(e: Event) => this.setColumn(j, { unit: (e.target as HTMLInputElement).value })} />
+            ${claims.take(`.columns[${j}].unit`) ? html`<div class="foot-error">${claims.take(`.columns[${j}].unit`)!.message}</div>` : nothing}</th>`)}<th></th></tr></thead>
+          <tbody>${(c.rows ?? []).map((row, r) => html`<tr class=${flagged.has(r) ? 'flagged' : ''} title=${flagged.get(r) ?? ''}>
+            <td class="muted">${r + 1}</td>
+            ${columns.map((col, j) => html`<td><input type="text" inputmode="decimal" aria-label="Row ${r + 1}, ${col.name}" .value=${show(row[j] as Entry)}
+              @change=${(e: Event) => this.setEntry(r, j, (e.target as HTMLInputElement).value)} /></td>`)}
+            <td><button class="quiet" aria-label="Delete row ${r + 1}" @click=${() => this.deleteRow(r)}>✕</button></td>
+          </tr>`)}</tbody>
+        </table></div>
+        <div class="row">
+          <button @click=${this.addRow}>Add a row</button>
+          <button @click=${this.addColumn}>Add a column</button>
+          <button @click=${() => this.dispatchEvent(editEvent({ ...withoutRows(c), csv: toCsv(c) }))}>Edit as CSV text</button>
+          <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label>
+        </div>`}
+      ${this.report?.ok ? html`<p class="muted">${this.report.rowCount} rows${this.report.note ? `; ${this.report.note}` : ''}.</p>` : nothing}
+      ${this.problem ? html`<p class="foot-error" role="alert">${this.problem}</p>` : nothing}
+      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+  }
+
+  private csvView(claims: ErrorClaims) {
+    const error = claims.take('.csv');
+    return html`<label class="muted" for="csv">CSV text: a header row of column names, then one row per time (comma, tab or semicolon separated; paste straight from a spreadsheet)</label>
+      <textarea id="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.dispatchEvent(editEvent({ ...this.cell, csv: (e.target as HTMLTextAreaElement).value }, `${this.cell.id}:csv`))}></textarea>
+      ${error ? html`<p class="foot-error" role="alert">${error.message}</p>` : nothing}
+      <div class="row"><button @click=${this.toTable}>Turn into a table</button>
+        <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label></div>`;
+  }
+
+  private setColumn(j: number, patch: Partial<DataCellDoc['columns'][number]>) {
+    this.dispatchEvent(editEvent({ ...this.cell, columns: this.cell.columns.map((c, i) => (i === j ? { ...c, ...patch } : c)) }));
+  }
+
+  private setEntry(r: number, j: number, text: string) {
+    const t = text.trim();
+    const v: Entry = t === '' ? null : Number.isFinite(Number(t)) ? Number(t) : t;
+    const rows = (this.cell.rows ?? []).map((row, i) => (i === r ? row.map((x, k) => (k === j ? v : x)) : row));
+    this.dispatchEvent(editEvent({ ...this.cell, rows }));
+  }
+
+  private addRow = () => {
+    this.dispatchEvent(editEvent({ ...this.cell, rows: [...(this.cell.rows ?? []), this.cell.columns.map(() => null)] }));
+  };
+
+  private deleteRow(r: number) {
+    this.dispatchEvent(editEvent({ ...this.cell, rows: (this.cell.rows ?? []).filter((_, i) => i !== r) }));
+  }
+
+  private addColumn = () => {
+    const n = this.cell.columns.length + 1;
+    this.dispatchEvent(editEvent({ ...this.cell, columns: [...this.cell.columns, { name: `c${n}`, unit: '1' }], rows: (this.cell.rows ?? []).map((row) => [...row, null]) }));
+  };
+
+  /** The CSV text as rows, read by the engine's CSV reader; a problem is shown and nothing changes. */
+  private toTable = () => {
+    const r = tableFromCsv(this.cell.csv ?? '', this.cell.columns.map((c) => c.name));
+    if (!r.ok) {
+      this.problem = r.message;
+      return;
+    }
+    this.problem = undefined;
+    const { csv: _csv, ...rest } = this.cell;
+    this.dispatchEvent(editEvent({ ...rest, rows: r.rows }));
+  };
+
+  private importFile = async (e: Event) => {
+    const input = e.target as HTMLInputElement;
+    const file = input.files?.[0];
+    if (!file) return;
+    const text = await file.text();
+    input.value = '';
+    this.dispatchEvent(editEvent({ ...withoutRows(this.cell), csv: text }));
+  };
+}
+
+function show(v: Entry): string {
+  return v === null || v === undefined ? '' : String(v);
+}
+
+function withoutRows(c: DataCellDoc): Omit<DataCellDoc, 'rows'> {
+  const { rows: _rows, ...rest } = c;
+  return rest;
+}
+
+function toCsv(c: DataCellDoc): string {
+  const head = c.columns.map((x) => x.name).join(',');
+  return [head, ...(c.rows ?? []).map((r) => r.map((v) => show(v as Entry)).join(','))].join('\n');
+}
+
+customElements.define('data-cell', DataCellElement);
