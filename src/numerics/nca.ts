@@ -76,7 +76,7 @@ export interface NcaFailure {
  */
 export interface NcaSuccess {
   readonly ok: true;
-  /** Highest observed concentration and the first time it is reached. */
+  /** Highest observed concentration and the first time it is reached ('auto' fits only points after its last occurrence). */
   readonly Cmax: number;
   readonly tmax: number;
   /** The last positive concentration and its time. */
@@ -320,13 +320,15 @@ export function ncaProfile(input: NcaInput): NcaResult {
   const tail = samples.slice(0, lastIndex + 1).filter((s) => s.c > 0);
   const tt = tail.map((s) => s.t);
   const tc = tail.map((s) => s.c);
-  const afterPeak = tail.findIndex((s) => s.t > peak.t);
+  // 'auto' starts after every sample at Cmax (a peak may be reached twice; tmax is the first)
+  const lastAtPeak = samples.reduce((tp, s) => (s.c === peak.c ? s.t : tp), peak.t);
+  const afterPeak = tail.findIndex((s) => s.t > lastAtPeak);
   const phase = selectTerminalPhase(tt, tc, afterPeak < 0 ? tail.length : afterPeak, terminal);
   for (const note of phase.notes) warnings.push(`lambda_z: ${note}`);
   const fit: LogLinearFit | null = phase.fit;
   const times = fit ? tt.slice(phase.from) : [];
   if (fit && terminal !== 'auto') {
-    if (times[0] <= peak.t) warnings.push(`the ${fit.n} terminal points include Cmax (t = ${fmt(peak.t)}); the terminal phase usually starts after the peak`);
+    if (times[0] <= lastAtPeak) warnings.push(`the ${fit.n} terminal points include Cmax (t = ${fmt(peak.t)}); the terminal phase usually starts after the peak`);
     if (fit.n < 3) warnings.push(`lambda_z rests on only ${fit.n} points (3 or more are usual) and its adjusted R² is not defined`);
   }
   if (fit && route === 'infusion' && times[0] < (input.duration as number)) {

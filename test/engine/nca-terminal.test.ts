@@ -88,6 +88,18 @@ describe('the tie rule (largest n within 1e-4 of the best adjusted R²)', () => 
   });
 });
 
+describe('a peak reached twice', () => {
+  it('reports the first time as tmax and leaves both peak samples out of the auto tail', () => {
+    // common practice: tmax is the first time Cmax is observed; the terminal phase follows the peak
+    // (the second peak sample, 4 at 2 h, lies on the tail's line, so only the rule keeps it out)
+    const r = analyse({ t: [0, 1, 2, 3, 4, 5], c: [0, 4, 4, 2, 1, 0.5], dose: 1, route: 'extravascular', auc: 'linear', terminal: 'auto' });
+    assert.equal(r.tmax, 1);
+    assert.deepEqual(r.pointsUsed.times, [3, 4, 5]);
+    // closed form: ln C at 3, 4, 5 h is ln2, 0, -ln2, a line of slope -ln2
+    near(r.lambdaZ as number, Math.LN2, 1e-14, 'lambda_z');
+  });
+});
+
 describe('a given count of terminal points', () => {
   const t = [0, 1, 2, 4, 6, 8];
   const c = [0, 4, 6, 4, 2, 1];
