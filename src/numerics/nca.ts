@@ -37,7 +37,9 @@
  */
 import { selectTerminalPhase, type LogLinearFit } from './lambda-z.ts';
 
+/** How the dose was given: all at once into the blood, at a constant rate for `duration`, or by any other way (absorbed). */
 export type NcaRoute = 'iv-bolus' | 'infusion' | 'extravascular';
+/** The trapezoid rule for AUC and AUMC: chords everywhere, or the log rule where the concentration falls. */
 export type NcaAucRule = 'linear' | 'linear-up-log-down';
 
 /** One profile. Rows are (t[i], c[i]); messages number them from 1. */
@@ -113,6 +115,7 @@ export interface NcaSuccess {
   readonly warnings: readonly string[];
 }
 
+/** `ok` tells which: the analysis, or why there is none. */
 export type NcaResult = NcaSuccess | NcaFailure;
 
 /** At most this many problems are listed; the message says how many more there were. */
