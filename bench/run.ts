@@ -18,6 +18,7 @@ import { odeBench } from './ode.ts';
 import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
 import { fitBenchmarks } from './fit.ts';
+import { ncaBenchmarks } from './nca.ts';
 
 /** One line of a section's table. `met` is undefined for a figure with no goal. */
 interface Row {
@@ -303,6 +304,7 @@ function fitRows(): Row[] {
   return [
     ...fitBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
     ...fitCellBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
+    ...ncaBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
   ];
 }
 
@@ -316,7 +318,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Equilibria and parameter sweeps', run: phaseRows },
   { title: 'ODE integration against odex at equal accuracy', run: odeRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
-  { title: 'Fitting', run: fitRows },
+  { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },
 ];
 

@@ -1,4 +1,4 @@
-import { LitElement, html, nothing } from 'lit';
+import { LitElement, html, nothing, css } from 'lit';
 import type { CellReport, ParametersCellDoc, Report } from './types.ts';
 import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
 import '../expr-field.ts';
@@ -11,7 +11,16 @@ export class ParametersCellElement extends LitElement {
   cell!: ParametersCellDoc;
   report?: CellReport;
   study?: Report;
-  static override styles = [cellStyles];
+  // fixed column widths: a value that changes length while a slider moves must not re-lay out
+  // the table (and every editor in it)
+  static override styles = [cellStyles, css`
+    table { table-layout: fixed; }
+    col.name { width: 8.5rem; } col.now { width: 9rem; } col.note { width: 11rem; } col.remove { width: 2.5rem; }
+    td.result { overflow: hidden; text-overflow: ellipsis; }
+    input.name { width: 100%; box-sizing: border-box; }
+    td input[type='text']:not(.name) { width: 100%; box-sizing: border-box; }
+    @media (max-width: 700px) { col.note { width: 0; } .hide-narrow { display: none; } }
+  `];
 
   override render() {
     const claims = new ErrorClaims(this.report);
@@ -20,6 +29,7 @@ export class ParametersCellElement extends LitElement {
     const items = Array.isArray(this.cell.items) ? this.cell.items : [];
     return html`
       <table>
+        <colgroup><col class="name" /><col class="value" /><col class="now" /><col class="note" /><col class="remove" /></colgroup>
         <thead><tr><th>Name</th><th>Value</th><th>Now</th><th class="hide-narrow">Note</th><th><span class="sr">Remove</span></th></tr></thead>
         <tbody>
           ${items.map((item, j) => {

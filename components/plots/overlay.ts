@@ -66,12 +66,18 @@ export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: rea
   leaders.setAttribute('class', 'leaders');
   leaders.setAttribute('aria-hidden', 'true');
   layer.append(leaders);
-  for (const l of labels) {
+  // add every label first, then read their sizes: one layout for all, not one per label
+  const els = labels.map((l) => {
     const el = document.createElement('span');
     el.className = `lbl ${l.kind}`;
     el.textContent = l.text;
     layer.append(el);
-    const box = placeLabel(l.x, l.y, el.offsetWidth, el.offsetHeight, taken, bounds, l.along);
+    return el;
+  });
+  const sizes = els.map((el) => [el.offsetWidth, el.offsetHeight] as const);
+  labels.forEach((l, i) => {
+    const el = els[i];
+    const box = placeLabel(l.x, l.y, sizes[i][0], sizes[i][1], taken, bounds, l.along);
     el.style.left = `${box.x}px`;
     el.style.top = `${box.y}px`;
     // A label pushed away from its point gets a thin line back to it (a level's label, only
@@ -87,7 +93,7 @@ export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: rea
       line.setAttribute('y2', String(ny));
       leaders.append(line);
     }
-  }
+  });
 }
 
 const SVG = 'http://www.w3.org/2000/svg';
