@@ -11,6 +11,7 @@ import './phase-cell.ts';
 import './note-cell.ts';
 import './other-cell.ts';
 import './data-cell.ts';
+import './nca-cell.ts';
 
 export interface KindInfo {
   /** Shown on the "add" buttons and the cell's tag. */
@@ -73,7 +74,7 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
       const data = firstData(study);
       return { data: data?.id ?? '', time: data?.columns[0]?.name ?? 't', concentration: data?.columns[1]?.name ?? 'C', dose: '100 mg', route: 'iv-bolus' };
     },
-    render: (c, r) => html`<other-cell .cell=${c} .report=${r}></other-cell>`,
+    render: (c, r, s) => html`<nca-cell .cell=${c} .report=${r} .study=${s}></nca-cell>`,
   },
 };
 

@@ -36,7 +36,7 @@ const law = { id: 'law', kind: 'rate', state: 'T', unit: 'degC', rate: '-k * (T 
 const inputs = { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h', range: ['0.1 / h', '1 / h'] }, { name: 'Ta', value: '4 degC' }] };
 
 describe('cell elements', () => {
-  afterEach(() => document.querySelectorAll('parameters-cell, rate-cell, simulate-cell, phase-cell, note-cell, other-cell, data-cell').forEach((e) => e.remove()));
+  afterEach(() => document.querySelectorAll('parameters-cell, rate-cell, simulate-cell, phase-cell, note-cell, other-cell, data-cell, nca-cell').forEach((e) => e.remove()));
 
   it('parameters-cell: values, a slider for a range, an error on its field, edits', async () => {
     const { el } = await mount('parameters-cell', [{ ...inputs, items: [...inputs.items, { name: 'bad', value: 'k * 1 m + 1' }] }], 'p');
@@ -109,6 +109,19 @@ describe('cell elements', () => {
     const d = (await toTable).cell;
     expect(d.rows).to.deep.equal([[0, 2], [1, 1.5]]);
     expect(d.csv).to.equal(undefined);
+  });
+
+  it('nca-cell: the profile values, an error on the dose field, edits of the route', async () => {
+    const data = { id: 'd', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[1, 8.2], [2, 6.7], [4, 4.5], [8, 2.0]] };
+    const { el } = await mount('nca-cell', [data, { id: 'n', kind: 'nca', data: 'd', time: 't', concentration: 'C', dose: '500 mg', route: 'iv-bolus' }], 'n');
+    expect(el.shadowRoot!.textContent).to.contain('AUCinf');
+    const { el: bad } = await mount('nca-cell', [data, { id: 'n', kind: 'nca', data: 'd', time: 't', concentration: 'C', dose: '500 mg + k', route: 'iv-bolus' }], 'n');
+    expect(field(bad, 'Dose').error?.message).to.match(/unknown name "k"/);
+    const edit = nextEdit(el);
+    const route = [...el.shadowRoot!.querySelectorAll('select')].find((x) => x.closest('label')?.textContent?.includes('Route'))!;
+    route.value = 'extravascular';
+    route.dispatchEvent(new Event('change'));
+    expect((await edit).cell.route).to.equal('extravascular');
   });
 
   it('other-cell: a fit as JSON with its estimates, edited only when the text is valid', async () => {

@@ -1,0 +1,62 @@
+import { LitElement, html, nothing } from 'lit';
+import type { Cell, CellReport, Report } from '../../src/index.ts';
+import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
+import '../expr-field.ts';
+
+type NcaDoc = Extract<Cell, { kind: 'nca' }>;
+type Q = { value: number; unit: string; si: number };
+const ROUTES = [['iv-bolus', 'IV bolus'], ['infusion', 'infusion'], ['extravascular', 'extravascular (oral, …)']] as const;
+
+/** A profile summary (non-compartmental analysis): which data, the dose and route, and the results. */
+export class NcaCellElement extends LitElement {
+  static override properties = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false } };
+  cell!: NcaDoc;
+  report?: CellReport;
+  study?: Report;
+  static override styles = [cellStyles];
+
+  override render() {
+    const c = this.cell;
+    const claims = new ErrorClaims(this.report);
+    const dataCells = (this.study?.cells ?? []).filter((x) => x.kind === 'data');
+    const columns = ((dataCells.find((d) => d.id === c.data)?.columns ?? []) as Array<{ name: string }>).map((x) => x.name);
+    const values = (this.report?.values ?? {}) as Record<string, Q>;
+    const select = (label: string, value: string, options: readonly string[], key: keyof NcaDoc) => html`<label>${label}
+      <select .value=${value} @change=${(e: Event) => this.change({ [key]: (e.target as HTMLSelectElement).value } as Partial<NcaDoc>)}>
+        ${options.includes(value) ? nothing : html`<option value=${value} selected>${value || '(choose)'}</option>`}
+        ${options.map((o) => html`<option value=${o} ?selected=${o === value}>${o}</option>`)}</select></label>`;
+    return html`
+      <div class="row">
+        ${select('Data', c.data, dataCells.map((d) => d.id), 'data')}
+        ${select('Time column', c.time, columns, 'time')}
+        ${select('Concentration column', c.concentration, columns, 'concentration')}
+      </div>
+      <div class="row">
+        <span class="lbl">Dose</span>
+        <expr-field style="flex: 0 1 9rem" label="Dose" .value=${c.dose ?? ''} .names=${namesOf(this.study)} .error=${claims.take('.dose')}
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ dose: e.detail.value }, 'dose')}></expr-field>
+        <label>Route <select @change=${(e: Event) => this.change({ route: (e.target as HTMLSelectElement).value as NcaDoc['route'] })}>
+          ${ROUTES.map(([v, l]) => html`<option value=${v} ?selected=${v === c.route}>${l}</option>`)}</select></label>
+        ${c.route === 'infusion' ? html`<span class="lbl">for</span><expr-field style="flex: 0 1 7rem" label="Infusion duration" .value=${c.duration ?? ''} .error=${claims.take('.duration')}
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ duration: e.detail.value }, 'duration')}></expr-field>` : nothing}
+        <label>Areas <select @change=${(e: Event) => this.change({ auc: (e.target as HTMLSelectElement).value as NcaDoc['auc'] })}>
+          <option value="linear-up-log-down" ?selected=${(c.auc ?? 'linear-up-log-down') === 'linear-up-log-down'}>linear up, log down</option>
+          <option value="linear" ?selected=${c.auc === 'linear'}>linear trapezoid</option></select></label>
+        <label>Terminal phase <select @change=${(e: Event) => { const v = (e.target as HTMLSelectElement).value; this.change({ terminal: v === 'auto' ? 'auto' : Number(v) }); }}>
+          <option value="auto" ?selected=${(c.terminal ?? 'auto') === 'auto'}>chosen by adjusted R²</option>
+          ${[3, 4, 5, 6].map((n) => html`<option value=${n} ?selected=${c.terminal === n}>last ${n} points</option>`)}</select></label>
+        <label>Prefix <input class="name" type="text" .value=${c.prefix ?? ''} @input=${(e: Event) => this.change({ prefix: (e.target as HTMLInputElement).value }, 'prefix')} /></label>
+      </div>
+      ${Object.keys(values).length ? html`<table><tbody>${Object.entries(values).map(([name, q]) => html`<tr><td>${name}</td><td class="result">${name.endsWith('AUCextrap') ? `${showQ(q)} %` : showQ(q)}</td></tr>`)}</tbody></table>` : nothing}
+      ${this.report?.pointsUsed ? html`<p class="muted">Terminal phase from ${(this.report.pointsUsed as { count: number }).count} points.</p>` : nothing}
+      ${this.report?.note ? html`<p class="muted">${String(this.report.note)}</p>` : nothing}
+      ${((this.report?.warnings ?? []) as string[]).map((w) => html`<p class="foot-error">${w}</p>`)}
+      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+  }
+
+  private change(patch: Partial<NcaDoc>, key?: string) {
+    this.dispatchEvent(editEvent({ ...this.cell, ...patch }, key ? `${this.cell.id}:${key}` : undefined));
+  }
+}
+
+customElements.define('nca-cell', NcaCellElement);
