@@ -9,9 +9,9 @@ import './rate-cell.ts';
 import './simulate-cell.ts';
 import './phase-cell.ts';
 import './note-cell.ts';
-import './other-cell.ts';
 import './data-cell.ts';
 import './nca-cell.ts';
+import './fit-cell.ts';
 
 export interface KindInfo {
   /** Shown on the "add" buttons and the cell's tag. */
@@ -66,7 +66,7 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
         estimate: rate ? [{ parameter: rate.state, as: `${rate.state}0_fit`, guess: rate.initial }] : [],
       };
     },
-    render: (c, r) => html`<other-cell .cell=${c} .report=${r}></other-cell>`,
+    render: (c, r, s) => html`<fit-cell .cell=${c} .report=${r} .study=${s}></fit-cell>`,
   },
   nca: {
     label: 'Profile summary',

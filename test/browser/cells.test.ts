@@ -36,7 +36,7 @@ const law = { id: 'law', kind: 'rate', state: 'T', unit: 'degC', rate: '-k * (T 
 const inputs = { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h', range: ['0.1 / h', '1 / h'] }, { name: 'Ta', value: '4 degC' }] };
 
 describe('cell elements', () => {
-  afterEach(() => document.querySelectorAll('parameters-cell, rate-cell, simulate-cell, phase-cell, note-cell, other-cell, data-cell, nca-cell').forEach((e) => e.remove()));
+  afterEach(() => document.querySelectorAll('parameters-cell, rate-cell, simulate-cell, phase-cell, note-cell, data-cell, nca-cell, fit-cell').forEach((e) => e.remove()));
 
   it('parameters-cell: values, a slider for a range, an error on its field, edits', async () => {
     const { el } = await mount('parameters-cell', [{ ...inputs, items: [...inputs.items, { name: 'bad', value: 'k * 1 m + 1' }] }], 'p');
@@ -124,17 +124,16 @@ describe('cell elements', () => {
     expect((await edit).cell.route).to.equal('extravascular');
   });
 
-  it('other-cell: a fit as JSON with its estimates, edited only when the text is valid', async () => {
-    const cells = [inputs, law,
-      { id: 'd', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'T', unit: 'degC' }], rows: [[0, 70], [1, 43.7], [2, 27.7], [3, 18.1]] },
-      { id: 'f', kind: 'fit', rates: ['law'], data: 'd', time: 't', observe: { T: 'T' }, estimate: [{ parameter: 'k', as: 'k_hat', guess: '0.3 / h' }] }];
-    const { el } = await mount('other-cell', cells, 'f');
-    expect(el.shadowRoot!.textContent).to.contain('k_hat');
+  it('fit-cell: estimates with their uncertainty, the fitted curve and residuals, an error on a guess, edits', async () => {
+    const data = { id: 'd', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'T', unit: 'degC' }], rows: [[0, 70], [1, 43.7], [2, 27.7], [3, 18.1]] };
+    const fit = { id: 'f', kind: 'fit', rates: ['law'], data: 'd', time: 't', observe: { T: 'T' }, estimate: [{ parameter: 'k', as: 'k_hat', guess: '0.3 / h' }] };
+    const { el } = await mount('fit-cell', [inputs, law, data, fit], 'f');
+    expect(el.shadowRoot!.querySelector('table.est tbody td.result')!.textContent).to.match(/1 \/ h/);
     expect(el.shadowRoot!.querySelectorAll('time-plot').length).to.equal(2);
-    const area = el.shadowRoot!.querySelector('textarea')!;
-    area.value = '{ "rates": [';
-    area.dispatchEvent(new Event('input'));
-    await el.updateComplete;
-    expect(el.shadowRoot!.textContent).to.contain('not valid JSON yet');
+    const { el: bad } = await mount('fit-cell', [inputs, law, data, { ...fit, estimate: [{ parameter: 'k', as: 'k_hat', guess: '0.3 m' }] }], 'f');
+    expect(field(bad, 'Estimate 1 guess').error?.message).to.match(/must be rate \(per time\)/);
+    const edit = nextEdit(el);
+    ([...el.shadowRoot!.querySelectorAll('button')].find((b) => b.textContent === 'Estimate another parameter') as HTMLButtonElement).click();
+    expect(((await edit).cell.estimate as unknown[]).length).to.equal(2);
   });
 });
