@@ -14,6 +14,8 @@ import { buildCellNodes, resolvePath, CELL_PATH } from './cells/index.ts';
 import { buildGraph, type Graph } from './graph.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from './cautions.ts';
+import type { SimulationPlot } from './simulate/plot-data.ts';
+import { unitFromText, shownIn } from './unit-text.ts';
 
 /** A name that cannot be read: its definer failed or computed nothing. */
 interface Unavailable {
@@ -108,6 +110,7 @@ export class StudySession {
   }
 
   private positions?: Map<string, number>;
+  private lastFitIds = '';
 
   /** A cell's position; -1 when absent. Cost: O(1) after the first call since the last edit. */
   private indexOf(id: string): number {
@@ -199,9 +202,13 @@ export class StudySession {
 
     const changed: string[] = [];
     const cellReports: CellReport[] = [];
+    // a simulation's plot shows the measurements fits made of its states
+    const fitIds = this.cells.filter((c) => c.kind === 'fit').map((c) => c.id).join(',');
+    const fitsReran = fitIds !== this.lastFitIds || this.cells.some((c) => c.kind === 'fit' && rerunCells.has(c.id));
+    this.lastFitIds = fitIds;
     for (const cell of this.cells) {
       let r = this.reports.get(cell.id);
-      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== this.indexOf(cell.id)) {
+      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== this.indexOf(cell.id) || (fitsReran && cell.kind === 'simulate')) {
         const fresh = this.cellReport(cell);
         if (!r || !deepEqual(r, fresh)) changed.push(cell.id);
         r = fresh;
@@ -266,6 +273,19 @@ export class StudySession {
     return out;
   }
 
+  /** Every measured series a fit cell observed, in SI, by state. */
+  private measurements(): Array<{ state: string; t: number[]; y: number[] }> {
+    const out: Array<{ state: string; t: number[]; y: number[] }> = [];
+    for (const c of this.cells) {
+      if (c.kind !== 'fit') continue;
+      for (const n of this.built.get(c.id)?.nodes ?? []) {
+        const o = this.outcomes.get(n.key);
+        if (o?.ok && Array.isArray(o.output.observed)) out.push(...(o.output.observed as typeof out));
+      }
+    }
+    return out;
+  }
+
   private cellReport(cell: Cell): CellReport & { index: number } {
     const index = this.indexOf(cell.id);
     const r: CellReport & { index: number } = { index, id: cell.id, kind: cell.kind, ...(typeof cell.title === 'string' ? { title: cell.title } : {}), ok: true };
@@ -283,6 +303,7 @@ export class StudySession {
       }
     }
     Object.assign(r, output);
+    if (cell.kind === 'simulate' && output.plot) r.plot = withMeasurements(output.plot as SimulationPlot, this.measurements());
     if (errors.length) {
       r.ok = false;
       r.error = errors[0];
@@ -291,6 +312,18 @@ export class StudySession {
     }
     return r;
   }
+}
+
+/** A simulation plot with the measurements of its states as points, in the plot's units. */
+function withMeasurements(plot: SimulationPlot, measured: ReadonlyArray<{ state: string; t: number[]; y: number[] }>): SimulationPlot {
+  const timeUnit = unitFromText(plot.timeUnit);
+  if (!timeUnit) return plot;
+  const points = plot.states.flatMap((s) => {
+    const unit = unitFromText(s.unit);
+    if (!unit) return [];
+    return measured.filter((m) => m.state === s.name).map((m) => ({ state: s.name, t: m.t.map((t) => shownIn(t, timeUnit)), values: m.y.map((y) => shownIn(y, unit)) }));
+  });
+  return points.length ? { ...plot, points } : plot;
 }
 
 function unavailable(node: GraphNode, name: string, outcome: Outcome, index: number): Unavailable {

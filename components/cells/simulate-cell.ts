@@ -71,7 +71,7 @@ export class SimulateCellElement extends LitElement {
         ${this.findTable(claims, names, results)}
       </details>
       ${this.report?.ok && plot ? html`
-        <time-plot .plot=${plot} .summary=${String(this.report.summary ?? '')}></time-plot>
+        <time-plot .plot=${plot} .points=${(plot as { points?: unknown[] }).points ?? []} .summary=${String(this.report.summary ?? '')}></time-plot>
         <div class="row">${this.report.note ? html`<span class="muted">${String(this.report.note)}</span>` : nothing}
           <span class="muted">${String(this.report.method)}: ${this.report.steps} steps, ${this.report.evaluations} evaluations of the rates</span>
           <button @click=${() => this.downloadCsv(plot)}>Export the series as CSV</button></div>

@@ -206,6 +206,11 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     }),
   };
   output.summary = `${unknowns.map((u, k) => `${u.as} = ${describe({ ...u.template, si: fit.p[k] })}${fit.standardErrors ? ` (standard error ${describe({ si: fit.standardErrors[k], dim: u.template.dim, unit: deltaUnit(u.template.unit) })})` : ''}`).join('; ')}; ${points.length} points${residualSD && weighting === 'none' ? `, residual SD ${describe({ si: fit.residualSD!, dim: firstObserved.initial.dim, unit: deltaUnit(firstObserved.stateUnit) })}` : ''}; ${fit.converged ? 'converged' : `not converged (${fit.message})`}.`;
+  // the measurements in SI, so that plots of the same states elsewhere can show them
+  output.observed = observed.map((o) => {
+    const rows = table.rows.filter((r) => r[o.ci] !== null && r[ti] !== null);
+    return { state: o.state, t: rows.map((r) => r[ti] as number), y: rows.map((r) => r[o.ci] as number) };
+  });
   output.plot = fitPlot(spec, t0, y0, p, fit.p, apply, times, scale, laws, observed, table, ti);
   return { ok: true, bindings, output };
 }

@@ -21,6 +21,8 @@ export interface SimulationPlot {
   readonly events: Array<{ readonly time: number; readonly kind: string; readonly label: string }>;
   readonly levels: Array<{ readonly state: string; readonly value: number; readonly label: string }>;
   readonly marks: Array<{ readonly name: string; readonly state: string; readonly time: number; readonly value: number; readonly label: string }>;
+  /** Measurements of the states (from fit cells that observe them), added by the session. */
+  readonly points?: Array<{ readonly state: string; readonly t: number[]; readonly values: number[] }>;
 }
 
 export interface PlotInput {

@@ -65,3 +65,43 @@ describe('fit cells', () => {
     if (r.ok) assert.match(r.report.cells[3].error!.message, /do not read "z"/);
   });
 });
+
+describe('measurements on simulation plots', () => {
+  it('a simulation of an observed state shows the fit\'s measurements as points, in its own units', () => {
+    const r = runStudy({ format: 'ratebook-study', version: 1, title: 't', cells: [
+      { id: 'logger', kind: 'data', columns: [{ name: 't', unit: 'min' }, { name: 'T', unit: 'degF' }], rows: [[0, 158], [60, 120], [120, 95]] },
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h' }, { name: 'Ta', value: '4 degC' }] },
+      { id: 'cooling', kind: 'rate', state: 'T', unit: 'degC', rate: '-k * (T - Ta)', initial: '70 degC' },
+      { id: 'fitk', kind: 'fit', rates: ['cooling'], data: 'logger', time: 't', observe: { T: 'T' }, estimate: [{ parameter: 'k', as: 'k_hat', guess: '0.5 / h' }] },
+      { id: 'run', kind: 'simulate', rates: ['cooling'], from: '0 h', to: '3 h' },
+    ] });
+    assert.ok(r.ok);
+    if (!r.ok) return;
+    const plot = r.report.cells[4].plot as { points: Array<{ state: string; t: number[]; values: number[] }> };
+    // 60 min = 1 h; 158 degF = 70 degC, 95 degF = 35 degC (NIST SP 811 conversion)
+    assert.deepEqual(plot.points[0].state, 'T');
+    assert.deepEqual(plot.points[0].t.map((x) => Math.round(x * 1e9) / 1e9), [0, 1, 2]);
+    assert.ok(Math.abs(plot.points[0].values[0] - 70) < 1e-9 && Math.abs(plot.points[0].values[2] - 35) < 1e-9);
+  });
+});
+
+describe('measurements on simulation plots, incrementally', () => {
+  it('appear when a fit is added and go when it is removed', async () => {
+    const { openStudy } = await import('../../src/index.ts');
+    const o = openStudy({ format: 'ratebook-study', version: 1, title: 't', cells: [
+      { id: 'logger', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'T', unit: 'degC' }], rows: [[0, 70], [1, 50], [2, 36]] },
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h' }] },
+      { id: 'cooling', kind: 'rate', state: 'T', unit: 'degC', rate: '-k * (T - 4 degC)', initial: '70 degC' },
+      { id: 'run', kind: 'simulate', rates: ['cooling'], from: '0 h', to: '3 h' },
+    ] });
+    assert.ok(o.ok);
+    if (!o.ok) return;
+    const s = o.session;
+    const points = () => (s.report().cells.find((c) => c.id === 'run')!.plot as { points?: unknown[] }).points;
+    assert.equal(points(), undefined);
+    s.apply({ type: 'insert', index: 4, cell: { id: 'f', kind: 'fit', rates: ['cooling'], data: 'logger', time: 't', observe: { T: 'T' }, estimate: [{ parameter: 'k', as: 'k_hat', guess: '0.5 / h' }] } });
+    assert.equal(points()?.length, 1);
+    s.apply({ type: 'remove', id: 'f' });
+    assert.equal(points(), undefined);
+  });
+});
