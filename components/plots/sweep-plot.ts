@@ -20,6 +20,8 @@ export interface SweepData {
   readonly parameter: string;
   readonly branches: ReadonlyArray<ReadonlyArray<{ readonly parameter: ShownQuantity; readonly value: ShownQuantity; readonly stability: Stability }>>;
   readonly folds: ReadonlyArray<{ readonly parameter: ShownQuantity; readonly value: ShownQuantity; readonly pair?: string }>;
+  /** The swept range (start, end), so the axis spans it even where no equilibrium exists. */
+  readonly range?: readonly [ShownQuantity, ShownQuantity];
   readonly summary?: string;
   readonly warnings?: readonly string[];
   readonly incomplete?: string;
@@ -94,7 +96,15 @@ export class SweepPlot extends LitElement {
     const s = this.sweep!;
     const [pUnit, yUnit] = this.units();
     return {
-      scales: { x: { time: false, range: (_u, min, max) => [min, max] }, y: {} },
+      scales: {
+        x: {
+          time: false,
+          range: (_u, min, max) => (s.range
+            ? [Math.min(s.range[0].value, s.range[1].value), Math.max(s.range[0].value, s.range[1].value)]
+            : [min, max]),
+        },
+        y: {},
+      },
       series: [
         { label: s.parameter, value: (_u, v) => (v == null ? '–' : `${fmt(v)} ${pUnit}`) },
         ...this.runs.map((r): uPlot.Series => ({
