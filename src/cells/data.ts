@@ -8,7 +8,7 @@ import Papa from 'papaparse';
 import type { DataCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Outcome } from '../node.ts';
 import { cellRef } from '../node.ts';
-import { type Field, field, unitOf, FieldError } from './fields.ts';
+import { type Field, field, unitOf, FieldError, guarded } from './fields.ts';
 import { fromUnit } from '../quantity.ts';
 import { type DisplayUnit, formatUnit } from '../units.ts';
 
@@ -25,14 +25,7 @@ export function dataNodes(cell: DataCell, at: string): GraphNode[] {
     allowsStates: false,
     signature: JSON.stringify(cell),
     problems,
-    run: () => {
-      try {
-        return runData(cell, at, units as Field[]);
-      } catch (err) {
-        if (err instanceof FieldError) return { ok: false, error: err.error };
-        throw err;
-      }
-    },
+    run: () => guarded(() => runData(cell, at, units as Field[])),
   }];
 }
 

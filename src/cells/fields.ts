@@ -6,7 +6,7 @@ import { parseExpression, type ParseResult } from '../expression/parse.ts';
 import { symbolsOf, type Expr } from '../expression/ast.ts';
 import { evaluateExpression, type Lookup } from '../expression/evaluate.ts';
 import { literalOf, type Literal } from '../expression/literal.ts';
-import type { CellError, RunContext, Use } from '../node.ts';
+import type { CellError, Outcome, RunContext, Use } from '../node.ts';
 import type { Quantity } from '../quantity.ts';
 import { describe, plain } from '../quantity.ts';
 import { TIME } from '../dimension.ts';
@@ -79,6 +79,16 @@ export const TIME_ZERO: Quantity = { ...plain(0), dim: TIME, unit: [['s', 1]] };
 export class FieldError extends Error {
   constructor(readonly error: CellError) {
     super(error.message);
+  }
+}
+
+/** Runs a node's work; a FieldError thrown inside becomes the node's error on its field. */
+export function guarded(run: () => Outcome): Outcome {
+  try {
+    return run();
+  } catch (err) {
+    if (err instanceof FieldError) return { ok: false, error: err.error };
+    throw err;
   }
 }
 

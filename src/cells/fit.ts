@@ -7,7 +7,7 @@
 import type { FitCell } from '../study/types.ts';
 import type { Binding, CellError, DataTable, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
 import { cellRef } from '../node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded } from './fields.ts';
 import { type Quantity, report, describe, deltaUnit, valueIn } from '../quantity.ts';
 import { sameDim, describeDim, TIME } from '../dimension.ts';
 import { formatUnit, unitDim } from '../units.ts';
@@ -38,14 +38,7 @@ export function fitNodes(cell: FitCell, at: string): GraphNode[] {
     pullsCoupledLaws: true,
     signature: JSON.stringify(cell),
     problems,
-    run: (ctx) => {
-      try {
-        return runFit(cell, at, fields as Array<{ guess: Field; min?: Field; max?: Field }>, ctx);
-      } catch (err) {
-        if (err instanceof FieldError) return { ok: false, error: err.error };
-        throw err;
-      }
-    },
+    run: (ctx) => guarded(() => runFit(cell, at, fields as Array<{ guess: Field; min?: Field; max?: Field }>, ctx)),
   }];
 }
 

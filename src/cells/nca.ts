@@ -7,7 +7,7 @@
 import type { NcaCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Outcome, RunContext } from '../node.ts';
 import { cellRef } from '../node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded } from './fields.ts';
 import { type Quantity, report, describe } from '../quantity.ts';
 import { sameDim, describeDim, TIME } from '../dimension.ts';
 import { type DisplayUnit, mulUnits, unitDim, NO_UNIT } from '../units.ts';
@@ -28,14 +28,7 @@ export function ncaNodes(cell: NcaCell, at: string): GraphNode[] {
     allowsStates: false,
     signature: JSON.stringify(cell),
     problems,
-    run: (ctx) => {
-      try {
-        return runNca(cell, at, prefix, dose!, duration, ctx);
-      } catch (err) {
-        if (err instanceof FieldError) return { ok: false, error: err.error };
-        throw err;
-      }
-    },
+    run: (ctx) => guarded(() => runNca(cell, at, prefix, dose!, duration, ctx)),
   }];
 }
 

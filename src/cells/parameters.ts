@@ -1,7 +1,7 @@
 /** A parameters cell: one graph node per parameter, so that editing one re-runs only its users. */
 import type { ParametersCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Outcome } from '../node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded } from './fields.ts';
 import { report, describe, valueIn, shownUnit } from '../quantity.ts';
 import { formatUnit } from '../units.ts';
 import { sameDim, describeDim } from '../dimension.ts';
@@ -30,7 +30,7 @@ export function parameterNodes(cell: ParametersCell, at: string): GraphNode[] {
 }
 
 function runParameter(name: string, value: Field, range: ReadonlyArray<Field | undefined>, ctx: Parameters<GraphNode['run']>[0]): Outcome {
-  try {
+  return guarded(() => {
     const lookup = lookupFrom(ctx);
     const q = finiteQuantityOf(value, lookup);
     const entry: Record<string, unknown> = { ...report(q) };
@@ -47,8 +47,5 @@ function runParameter(name: string, value: Field, range: ReadonlyArray<Field | u
     }
     const binding: Binding = { kind: 'value', q, sig: quantitySig(q) };
     return { ok: true, bindings: new Map([[name, binding]]), output: { values: { [name]: entry } } };
-  } catch (err) {
-    if (err instanceof FieldError) return { ok: false, error: err.error };
-    throw err;
-  }
+  });
 }

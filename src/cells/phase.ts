@@ -7,7 +7,7 @@
 import type { PhaseCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
 import { cellRef } from '../node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded } from './fields.ts';
 import { type Quantity, report, describe, valueIn, deltaUnit } from '../quantity.ts';
 import { phasePortrait } from '../phase-portrait.ts';
 import { phaseSummary, sweepSummary } from '../summaries.ts';
@@ -37,14 +37,7 @@ export function phaseNodes(cell: PhaseCell, at: string): GraphNode[] {
     allowsStates: true,
     signature: JSON.stringify(cell),
     problems,
-    run: (ctx) => {
-      try {
-        return runPhase(cell, at, { from: from!, to: to!, sFrom, sTo }, ctx);
-      } catch (err) {
-        if (err instanceof FieldError) return { ok: false, error: err.error };
-        throw err;
-      }
-    },
+    run: (ctx) => guarded(() => runPhase(cell, at, { from: from!, to: to!, sFrom, sTo }, ctx)),
   }];
 }
 

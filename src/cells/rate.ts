@@ -6,7 +6,7 @@
 import type { RateCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext } from '../node.ts';
 import { cellRef } from '../node.ts';
-import { type Field, field, usesOf, lookupFrom, quantityOf, finiteQuantityOf, unitOf, FieldError, TIME_ZERO, label } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, quantityOf, finiteQuantityOf, unitOf, FieldError, TIME_ZERO, label, guarded } from './fields.ts';
 import { type Quantity, report, describe, shownUnit } from '../quantity.ts';
 import { sameDim, describeDim, divDim, TIME, TEMPERATURE } from '../dimension.ts';
 import { type DisplayUnit, formatUnit, lookupUnit, isOffsetTemperature, unitDim, mulUnits } from '../units.ts';
@@ -29,7 +29,7 @@ export function rateNodes(cell: RateCell, at: string): GraphNode[] {
     allowsStates: false,
     signature: JSON.stringify([cell.state, cell.unit, cell.initial]),
     problems,
-    run: (ctx) => guard(() => runState(cell.id, state, unit!, initial!, ctx)),
+    run: (ctx) => guarded(() => runState(cell.id, state, unit!, initial!, ctx)),
   };
   const lawUses = usesOf([rate]);
   if (state && !lawUses.some((u) => u.name === state)) lawUses.push({ name: state, path: `${at}.state` });
@@ -44,19 +44,11 @@ export function rateNodes(cell: RateCell, at: string): GraphNode[] {
     allowsStates: true,
     signature: JSON.stringify([cell.state, cell.rate]),
     problems: lawProblems,
-    run: (ctx) => guard(() => runLaw(cell.id, state, rate!, ctx)),
+    run: (ctx) => guarded(() => runLaw(cell.id, state, rate!, ctx)),
   };
   return [stateNode, lawNode];
 }
 
-function guard(f: () => Outcome): Outcome {
-  try {
-    return f();
-  } catch (err) {
-    if (err instanceof FieldError) return { ok: false, error: err.error };
-    throw err;
-  }
-}
 
 function runState(cellId: string, state: string, unitField: Field, initialField: Field, ctx: RunContext): Outcome {
   const unit = unitOf(unitField);

@@ -7,7 +7,7 @@ import type { SimulateCell, FindQuery, ScheduleEvent } from '../study/types.ts';
 import { FIND_KINDS } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
 import { cellRef } from '../node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded } from './fields.ts';
 import { type Quantity, report, describe, valueIn, tidy, deltaUnit } from '../quantity.ts';
 import { sameDim, describeDim, divDim, mulDim, TIME } from '../dimension.ts';
 import { type DisplayUnit, formatUnit, mulUnits, unitFactor } from '../units.ts';
@@ -73,14 +73,7 @@ export function simulateNodes(cell: SimulateCell, at: string): GraphNode[] {
     pullsCoupledLaws: true,
     signature: JSON.stringify(cell),
     problems,
-    run: (ctx) => {
-      try {
-        return runSimulation(cell, at, f, ctx);
-      } catch (err) {
-        if (err instanceof FieldError) return { ok: false, error: err.error };
-        throw err;
-      }
-    },
+    run: (ctx) => guarded(() => runSimulation(cell, at, f, ctx)),
   }];
 }
 
