@@ -321,17 +321,11 @@ export class RosenbrockStepper implements Stepper {
   private denseError(t: number, h: number, yNew: Float64Array): number | null {
     const { ctx, y, u, midError, fi, matrix, pivot } = this;
     const n = ctx.n;
-    const { e, g } = RODAS_DENSE;
     const th = DENSE_CHECK_THETA;
     const th1 = 1 - th;
     const slope = this.slope;
     for (let i = 0; i < n; i++) {
-      let p = 0;
-      let q = 0;
-      for (let j = 0; j < STAGES; j++) {
-        p += e[j] * u[j][i];
-        q += g[j] * u[j][i];
-      }
+      const [p, q] = denseTerms(u, i);
       // y(θ) = (1-θ)y0 + θy1 + θ(1-θ)(P + θQ) and its derivative in t.
       midError[i] = th1 * y[i] + th * yNew[i] + th * th1 * (p + th * q);
       slope[i] = (yNew[i] - y[i] + (1 - 2 * th) * (p + th * q) + th * th1 * q) / h;
@@ -344,16 +338,10 @@ export class RosenbrockStepper implements Stepper {
 
   private segment(t0: number, t1: number, y1: Float64Array): RosenbrockSegment {
     const n = this.ctx.n;
-    const { e, g } = RODAS_DENSE;
     const data = new Float64Array(4 * n);
     const u = this.u;
     for (let i = 0; i < n; i++) {
-      let p = 0;
-      let q = 0;
-      for (let j = 0; j < STAGES; j++) {
-        p += e[j] * u[j][i];
-        q += g[j] * u[j][i];
-      }
+      const [p, q] = denseTerms(u, i);
       data[i] = this.y[i];
       data[n + i] = y1[i];
       data[2 * n + i] = p;
@@ -361,4 +349,19 @@ export class RosenbrockStepper implements Stepper {
     }
     return new RosenbrockSegment(t0, t1, n, data);
   }
+}
+
+/**
+ * The dense output's P and Q for state i (y(θ) = (1-θ)y0 + θy1 + θ(1-θ)(P + θQ)), from the
+ * stage increments u: shared by the segment and the mid-step error check.
+ */
+function denseTerms(u: readonly Float64Array[], i: number): [number, number] {
+  const { e, g } = RODAS_DENSE;
+  let p = 0;
+  let q = 0;
+  for (let j = 0; j < STAGES; j++) {
+    p += e[j] * u[j][i];
+    q += g[j] * u[j][i];
+  }
+  return [p, q];
 }

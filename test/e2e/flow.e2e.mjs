@@ -11,14 +11,12 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium } from 'playwright-core';
-import { freePort, startPreview, CHROMIUM_ARGS } from './serve.mjs';
+import { freePort, startPreview, CHROMIUM_ARGS, fail, runScript } from './serve.mjs';
 import { DEFAULT_CHROMIUM, NOT_FOUND_MESSAGE, findChromium } from '../../scripts/find-chromium.mjs';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const NAME = 'user flow';
 const STEP = 30_000;
-class Failure extends Error {}
-const fail = (m) => { throw new Failure(m); };
 
 
 
@@ -129,10 +127,4 @@ async function main() {
   }
 }
 
-try {
-  await main();
-  console.log(`e2e ${NAME}: passed`);
-} catch (err) {
-  console.error(`e2e ${NAME}: FAILED: ${err instanceof Failure ? err.message : err?.stack ?? err}`);
-  process.exitCode = 1;
-}
+await runScript(NAME, main);

@@ -10,7 +10,7 @@ import { tmpdir } from 'node:os';
 import { join, relative, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium } from 'playwright-core';
-import { freePort, startPreview, CHROMIUM_ARGS } from './serve.mjs';
+import { freePort, startPreview, CHROMIUM_ARGS, fail, runScript } from './serve.mjs';
 import { DEFAULT_CHROMIUM, NOT_FOUND_MESSAGE, findChromium } from '../../scripts/find-chromium.mjs';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
@@ -18,8 +18,6 @@ const dist = join(root, 'dist');
 const NAME = 'offline';
 const STEP_TIMEOUT_MS = 30_000;
 
-class Failure extends Error {}
-const fail = (message) => { throw new Failure(message); };
 
 
 /** Every built file, as the worker should cache it (no sw.js, no source maps). */
@@ -108,10 +106,4 @@ async function main() {
   }
 }
 
-try {
-  await main();
-  console.log(`e2e ${NAME}: passed`);
-} catch (err) {
-  console.error(`e2e ${NAME}: FAILED: ${err instanceof Failure ? err.message : err?.stack ?? err}`);
-  process.exitCode = 1;
-}
+await runScript(NAME, main);

@@ -45,3 +45,21 @@ export async function startPreview(port, timeoutMs = 30_000) {
   child.kill();
   throw new Error(`vite preview did not answer at ${url} within ${timeoutMs / 1000} s:\n${output}`);
 }
+
+/** A failure the script expects (a check that did not hold): reported by its message alone. */
+export class Failure extends Error {}
+
+export function fail(message) {
+  throw new Failure(message);
+}
+
+/** Runs an end-to-end script's `main`, prints passed or FAILED with the reason, and sets the exit code. */
+export async function runScript(name, main) {
+  try {
+    await main();
+    console.log(`e2e ${name}: passed`);
+  } catch (err) {
+    console.error(`e2e ${name}: FAILED: ${err instanceof Failure ? err.message : err?.stack ?? err}`);
+    process.exitCode = 1;
+  }
+}
