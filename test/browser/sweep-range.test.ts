@@ -13,7 +13,7 @@ describe('sweep-plot axis', () => {
     ] });
     expect(r.ok).to.equal(true);
     if (!r.ok) return;
-    const el = document.createElement('sweep-plot') as HTMLElement & { sweep: unknown; updateComplete: Promise<unknown>; charts: Array<{ scales: Record<string, { min?: number; max?: number }> }> };
+    const el = document.createElement('sweep-plot') as unknown as HTMLElement & { sweep: unknown; updateComplete: Promise<unknown>; charts: Array<{ scales: Record<string, { min?: number; max?: number }> }> };
     el.style.width = '600px';
     el.sweep = r.report.cells[2].sweep;
     document.body.append(el);
