@@ -11,7 +11,7 @@ if (files.length === 0) {
   process.exit(0);
 }
 
-const args = ['--import', 'tsx', '--test', ...process.argv.slice(2), ...files];
+const args = ['--import', 'tsx', '--import', './test/fast-check-seed.mjs', '--test', ...process.argv.slice(2), ...files];
 const result = spawnSync(process.execPath, args, { stdio: 'inherit' });
 if (result.error) {
   console.error(`Could not start node: ${result.error.message}`);

@@ -225,7 +225,8 @@ function panel(t1: number, c1: number, t2: number, c2: number, log: boolean): { 
   const u = Math.log1p(x);
   const auc = h * c2 * (x / u);
   // AUMC = t1·AUC + ∫0^h s·C1·e^{-ks} ds, and the integral is C2·h²·(e^u - 1 - u)/u² = C2·h²·(x - u)/u².
-  return { auc, aumc: t1 * auc + c2 * h * h * xMinusLog1p(x) / (u * u) };
+  // divide before multiplying: C2·h²·x alone can overflow when C1/C2 is near the double range
+  return { auc, aumc: t1 * auc + c2 * h * (h * (xMinusLog1p(x) / (u * u))) };
 }
 
 /** x - ln(1 + x) for x > 0, without the cancellation of the direct difference at small x (Taylor series below 0.01). */

@@ -65,6 +65,18 @@ describe('fatal problems are results that name the row or the field', () => {
     fails({ ...ok, t: [0, 1e300, 2e300, 3e300], c: [0, 1e300, 5e299, 2e299] }, 'AUClast overflows the range of double-precision numbers', 'c');
   });
 
+  it('a log panel whose ends differ by nearly the whole double range still has a finite AUMC', () => {
+    // closed form for a log panel (C1 > C2, k = ln(C1/C2)/h): AUMC = (t1·C1 - t2·C2)/k + (C1 - C2)/k².
+    // Regression: C2·h²·(C1/C2 - 1) alone overflows here; the panel must divide before it multiplies.
+    const C1 = 1.7e308;
+    const r = succeeds({ ...ok, t: [0, 1, 3, 4], c: [0, C1, 2, 1] });
+    const k = Math.log(C1 / 2) / 2;
+    const rising = (1 * C1) / 2; // linear panel 0-1: h·(t0·C0 + t1·C1)/2
+    const falling = (1 * C1 - 3 * 2) / k + (C1 - 2) / (k * k);
+    const tail = (3 * 2 - 4 * 1) / Math.LN2 + 1 / (Math.LN2 * Math.LN2);
+    near(r.AUMClast, rising + falling + tail, 1e-12, 'AUMClast');
+  });
+
   it('lists every problem, first one in the message', () => {
     const r = run({ ...ok, dose: 0, t: [0, 2, 1], c: [0, NaN, 3] });
     assert.equal(r.ok, false);
