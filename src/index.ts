@@ -13,3 +13,4 @@ export { type Quantity, report as reportQuantity, describe as describeQuantity, 
 export { FUNCTION_NAMES } from './expression/functions.ts';
 export { runStudy, exitCodeOf } from './run.ts';
 export { tableFromCsv } from './cells/data.ts';
+export { studyTex, type StudyTex } from './sheet-tex.ts';
