@@ -50,6 +50,7 @@ export class StudySession {
   private cells: Cell[];
   private title: string;
   private readonly description?: string;
+  private author?: string;
   private readonly cellProblems = new Map<string, readonly Problem[]>();
   private readonly notes: readonly string[];
   private readonly built = new Map<string, { sig: string; nodes: GraphNode[] }>();
@@ -64,6 +65,7 @@ export class StudySession {
     this.cells = [...study.cells];
     this.title = study.title;
     this.description = study.description;
+    this.author = study.author;
     for (const [id, p] of problems) this.cellProblems.set(id, p);
     this.notes = notes;
     this.evaluate();
@@ -81,6 +83,7 @@ export class StudySession {
       version: 1,
       title: this.title,
       ...(this.description !== undefined ? { description: this.description } : {}),
+      ...(this.author !== undefined ? { author: this.author } : {}),
       cells: this.cells.map((c) => structuredClone(c)),
     };
   }
@@ -94,11 +97,12 @@ export class StudySession {
   }
 
   private applyToCells(edit: Edit): Problem | undefined {
-    const out = applyEdit({ format: 'ratebook-study', version: 1, title: this.title, cells: this.cells }, edit);
+    const out = applyEdit({ format: 'ratebook-study', version: 1, title: this.title, ...(this.author !== undefined ? { author: this.author } : {}), cells: this.cells }, edit);
     if (!out.ok) return out.error;
     this.positions = undefined;
     this.cells = out.study.cells;
     this.title = out.study.title;
+    this.author = out.study.author;
     const live = new Set(this.cells.map((c) => c.id));
     for (const id of [...this.cellProblems.keys()]) if (!live.has(id)) this.cellProblems.delete(id);
     if (out.written) {

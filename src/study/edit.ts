@@ -12,7 +12,8 @@ export type Edit =
   | { readonly type: 'insert'; readonly index: number; readonly cell: unknown }
   | { readonly type: 'remove'; readonly id: string }
   | { readonly type: 'move'; readonly id: string; readonly to: number }
-  | { readonly type: 'retitle'; readonly title: string };
+  | { readonly type: 'retitle'; readonly title: string }
+  | { readonly type: 'author'; readonly author: string };
 
 export type EditOutcome =
   | { readonly ok: true; readonly study: Study; /** The cell written by a replace or insert. */ readonly written?: Cell }
@@ -28,6 +29,11 @@ export function applyEdit(study: Study, edit: Edit): EditOutcome {
     case 'retitle':
       if (typeof edit.title !== 'string') return refuse('a title must be text', 'title');
       return { ok: true, study: { ...study, title: edit.title } };
+    case 'author': {
+      if (typeof edit.author !== 'string') return refuse('an author must be text', 'author');
+      const { author: _old, ...rest } = study;
+      return { ok: true, study: edit.author.trim() ? { ...rest, author: edit.author } : rest };
+    }
     case 'remove': {
       const i = at(edit.id);
       if (i < 0) return refuse(`there is no cell "${edit.id}"`, 'cells');

@@ -110,6 +110,8 @@ export interface Study {
   version: number;
   title: string;
   description?: string;
+  /** Who prepared the study (optional; printed on the sheet). */
+  author?: string;
   cells: Cell[];
 }
 

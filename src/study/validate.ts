@@ -48,6 +48,7 @@ export function readStudy(input: unknown): ReadResult {
   const d = doc as Record<string, unknown>;
   if (d.title !== undefined && typeof d.title !== 'string') return refuse('"title" must be text', 'title');
   if (d.description !== undefined && typeof d.description !== 'string') return refuse('"description" must be text', 'description');
+  if (d.author !== undefined && typeof d.author !== 'string') return refuse('"author" must be text', 'author');
   if (!Array.isArray(d.cells)) return refuse('"cells" must be a list of cells', 'cells');
   const seen = new Map<string, number>();
   const cellProblems = new Map<string, Problem[]>();
@@ -71,6 +72,7 @@ export function readStudy(input: unknown): ReadResult {
     version: CURRENT_VERSION,
     title: typeof d.title === 'string' ? d.title : 'Untitled study',
     ...(typeof d.description === 'string' ? { description: d.description } : {}),
+    ...(typeof d.author === 'string' ? { author: d.author } : {}),
     cells: d.cells as Cell[],
   };
   return { ok: true, study, cellProblems, notes };

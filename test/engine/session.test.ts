@@ -194,6 +194,7 @@ describe('documents that are not studies are refused with a path', () => {
     ['a duplicate id', study([{ id: 'a', kind: 'note', text: '' }, { id: 'a', kind: 'note', text: '' }]), 'cells[1].id', /used twice/],
     ['an unknown kind', study([{ id: 'a', kind: 'note', text: '' }, { id: 'b', kind: 'chart' }]), 'cells[1].kind', /unknown cell kind "chart"/],
     ['broken JSON', '{"format": "ratebook-study",', '', /not valid JSON/],
+    ['an author that is not text', { format: 'ratebook-study', version: 1, author: 7, cells: [] }, 'author', /"author" must be text/],
   ];
   for (const [what, doc, path, message] of cases) {
     it(what, () => {
@@ -205,6 +206,18 @@ describe('documents that are not studies are refused with a path', () => {
       }
     });
   }
+
+  it('keeps the optional author through edits, sets it and clears it', () => {
+    const r = openStudy({ format: 'ratebook-study', version: 1, title: 'x', author: 'A. Reviewer', cells: [{ id: 'a', kind: 'note', text: '' }] });
+    assert.ok(r.ok);
+    if (!r.ok) return;
+    r.session.apply({ type: 'retitle', title: 'y' });
+    assert.equal(r.session.document().author, 'A. Reviewer');
+    r.session.apply({ type: 'author', author: 'B. Engineer' });
+    assert.equal(r.session.document().author, 'B. Engineer');
+    r.session.apply({ type: 'author', author: '  ' });
+    assert.equal('author' in r.session.document(), false, 'a blank author is removed');
+  });
 
   it('older versions go through the migration table step by step', () => {
     const table = {
