@@ -7,7 +7,7 @@ import { offlineServiceWorker } from './offline/vite-plugin.ts';
 const prebundled = [
   'mathjs', 'lit', 'idb-keyval', 'fast-check', 'chai',
   'uplot', 'papaparse',
-  'lit/directives/ref.js',
+  'lit/directives/ref.js', 'lit/directives/unsafe-html.js', 'katex',
   '@codemirror/state', '@codemirror/view', '@codemirror/commands', '@codemirror/autocomplete',
 ];
 

@@ -9,7 +9,7 @@ import './study-library.ts';
  */
 export class RatebookApp extends LitElement {
   static override properties = { route: { state: true }, problem: { state: true } };
-  route: { page: 'library' } | { page: 'study'; id: string } = { page: 'library' };
+  route: { page: 'library' } | { page: 'study'; id: string; sheet: boolean } = { page: 'library' };
   problem?: string;
   private view?: StudyView;
 
@@ -52,14 +52,21 @@ export class RatebookApp extends LitElement {
   }
 
   private navigate = async () => {
-    const m = /^#\/study\/([^/]+)$/.exec(location.hash);
+    const m = /^#\/study\/([^/]+)(\/sheet)?$/.exec(location.hash);
+    const sheet = m?.[2] !== undefined;
+    const id = m ? decodeURIComponent(m[1]) : undefined;
+    // Between the cells and the sheet of the open study: the same view, another mode.
+    if (this.view && this.route.page === 'study' && this.route.id === id) {
+      this.view.mode = sheet ? 'sheet' : 'edit';
+      this.route = { page: 'study', id, sheet };
+      return;
+    }
     if (this.view) await this.view.controller.flush();
-    if (!m) {
+    if (!m || id === undefined) {
       this.view = undefined;
       this.route = { page: 'library' };
       return;
     }
-    const id = decodeURIComponent(m[1]);
     const stored = await store.loadStudy(id);
     if (!stored || stored.deleted !== undefined) {
       this.problem = 'That study is not on this device (it may have been deleted).';
@@ -67,10 +74,20 @@ export class RatebookApp extends LitElement {
       return;
     }
     this.problem = undefined;
-    const view = StudyView.create({ save: async (sid, doc) => { await store.saveStudy(sid, doc); } });
+    const view = StudyView.create({
+      save: async (sid, doc) => {
+        const info = await store.saveStudy(sid, doc);
+        view.meta = { revision: info.revision, updated: info.updated };
+      },
+    });
+    view.meta = { revision: stored.revision, updated: stored.updated };
+    view.mode = sheet ? 'sheet' : 'edit';
+    view.addEventListener('sheet-mode', (e) => {
+      location.hash = `#/study/${encodeURIComponent(id)}${(e as CustomEvent<{ mode: string }>).detail.mode === 'sheet' ? '/sheet' : ''}`;
+    });
     view.controller.open(id, stored.doc);
     this.view = view;
-    this.route = { page: 'study', id };
+    this.route = { page: 'study', id, sheet };
   };
 
   override render() {

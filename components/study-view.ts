@@ -3,6 +3,8 @@ import { freshId, type Cell, type CellReport } from '../src/index.ts';
 import { StudyController, type StudyControllerOptions } from './study-controller.ts';
 import { KINDS, ADDABLE } from './cells/registry.ts';
 import type { CellEditDetail } from './cells/common.ts';
+import './sheet/study-sheet.ts';
+import type { SheetMeta } from './sheet/study-sheet.ts';
 
 /**
  * The open study: its title, cautions, every cell in order with its result, and the tools to
@@ -10,8 +12,14 @@ import type { CellEditDetail } from './cells/common.ts';
  * controller as an engine edit; this element only renders.
  */
 export class StudyView extends LitElement {
-  static override properties = { studyId: { attribute: 'study-id' } };
+  static override properties = { studyId: { attribute: 'study-id' }, mode: {}, meta: { attribute: false }, printing: { state: true } };
   studyId?: string;
+  /** Editing the cells, or reading the study as its printable sheet. */
+  mode: 'edit' | 'sheet' = 'edit';
+  /** Revision and save time for the sheet's header. */
+  meta: SheetMeta = {};
+  /** True while the browser prints: the sheet is rendered (hidden on screen) in edit mode too. */
+  printing = false;
   controller!: StudyController;
 
   /** A study view with its controller (saving as `options` say). */
@@ -50,21 +58,35 @@ export class StudyView extends LitElement {
     .add { display: flex; flex-wrap: wrap; gap: 0.4rem; align-items: center; border: 1px dashed #aab5bf; border-radius: 6px; padding: 0.5rem 0.8rem; }
     .problem { color: #a3211a; }
     .empty { color: #4a5560; }
+    .for-print { display: none; }
+    .sheet-bar { display: flex; flex-wrap: wrap; gap: 0.5rem; align-items: center; margin: 0.4rem 0 1rem; }
+    .sheet-bar .hint { font-size: 0.85rem; color: #4a5560; }
+    .paper { background: #fff; max-width: 180mm; margin: 0 auto; padding: 14mm 15mm; box-shadow: 0 1px 4px rgba(0, 0, 0, 0.25); }
+    .author { font: inherit; font-size: 0.9rem; border: 1px solid #c9d1d8; border-radius: 4px; padding: 0.2rem 0.4rem; width: 12rem; }
     @media print {
-      .bar button, .tools, .add, .status { display: none !important; }
-      article { border-color: #999; }
+      .editing, .sheet-bar { display: none !important; }
+      .for-print { display: block; }
+      .paper { box-shadow: none; padding: 0; max-width: none; }
     }
   `;
 
   override connectedCallback(): void {
     super.connectedCallback();
     window.addEventListener('keydown', this.keys);
+    window.addEventListener('beforeprint', this.beforePrint);
+    window.addEventListener('afterprint', this.afterPrint);
   }
 
   override disconnectedCallback(): void {
     window.removeEventListener('keydown', this.keys);
+    window.removeEventListener('beforeprint', this.beforePrint);
+    window.removeEventListener('afterprint', this.afterPrint);
     super.disconnectedCallback();
   }
+
+  // Lit renders in a microtask, which runs before the browser lays the page out for print.
+  private beforePrint = () => { this.printing = true; };
+  private afterPrint = () => { this.printing = false; };
 
   /** Ctrl+Z / Cmd+Z undo; Ctrl+Shift+Z, Cmd+Shift+Z and Ctrl+Y redo; not while typing in a plain input that handles its own undo. */
   private keys = (e: KeyboardEvent) => {
@@ -82,13 +104,29 @@ export class StudyView extends LitElement {
     const study = c?.study;
     if (!study) return html`<p class="empty">No study is open.</p>`;
     const report = c.report;
+    const sheet = html`<study-sheet .study=${study} .report=${report} .meta=${this.meta}></study-sheet>`;
+    if (this.mode === 'sheet') {
+      return html`
+        <div class="sheet-bar" role="toolbar" aria-label="Sheet">
+          <button @click=${() => this.dispatchEvent(new CustomEvent('sheet-mode', { detail: { mode: 'edit' }, bubbles: true, composed: true }))}>Back to editing</button>
+          <button @click=${() => window.print()}>Print…</button>
+          <button @click=${() => this.exportPdf(study.title)} title="Opens the print dialog: choose Save as PDF as the destination">Export PDF…</button>
+          <span class="hint">For a PDF, choose "Save as PDF" as the printer. A4 and US Letter both fit.</span>
+        </div>
+        <div class="paper">${sheet}</div>`;
+    }
     const byId = new Map((report?.cells ?? []).map((r) => [r.id, r] as const));
     return html`
+      ${this.printing ? html`<div class="for-print">${sheet}</div>` : nothing}
+      <div class="editing">
       <div class="bar">
         <input class="title" aria-label="Study title" .value=${study.title}
           @input=${(e: Event) => c.edit({ type: 'retitle', title: (e.target as HTMLInputElement).value }, 'title')} />
         <button ?disabled=${!c.canUndo} @click=${() => c.undo()} title="Undo (Ctrl+Z)">Undo</button>
         <button ?disabled=${!c.canRedo} @click=${() => c.redo()} title="Redo (Ctrl+Shift+Z)">Redo</button>
+        <input class="author" aria-label="Prepared by" placeholder="Prepared by (name)" .value=${study.author ?? ''}
+          @input=${(e: Event) => c.edit({ type: 'author', author: (e.target as HTMLInputElement).value }, 'author')} />
+        <button @click=${() => this.dispatchEvent(new CustomEvent('sheet-mode', { detail: { mode: 'sheet' }, bubbles: true, composed: true }))} title="The study as a document to print or save as PDF">Printable sheet</button>
         <span class="status ${c.busy ? 'busy' : ''}" role="status" aria-live="polite">${c.busy ? 'computing…' : saveText(c.saveState)}</span>
       </div>
       ${(report?.cautions ?? []).map((x) => html`<p class="caution" role="note"><strong>Caution.</strong> ${x.text}</p>`)}
@@ -98,6 +136,7 @@ export class StudyView extends LitElement {
       <div class="add" role="group" aria-label="Add a cell">
         <span>Add</span>
         ${ADDABLE.map((kind) => html`<button @click=${() => this.add(kind)}>${KINDS[kind].label}</button>`)}
+      </div>
       </div>`;
   }
 
@@ -122,6 +161,14 @@ export class StudyView extends LitElement {
       </header>
       ${info.render(cell, r, c.report)}
     </article>`;
+  }
+
+  /** Prints with the study's title as the document title, which browsers offer as the PDF's file name. */
+  private exportPdf(title: string) {
+    const before = document.title;
+    document.title = title.replace(/[\\/:*?"<>|]+/g, ' ').trim() || 'Ratebook study';
+    window.print();
+    document.title = before;
   }
 
   private add(kind: Cell['kind']) {

@@ -12,7 +12,7 @@ import { lookupUnit } from '../units.ts';
 export type SymbolKind = 'name' | 'constant' | 'unit';
 
 const GREEK = new Set(['alpha', 'beta', 'gamma', 'delta', 'epsilon', 'zeta', 'eta', 'theta', 'kappa', 'lambda', 'mu', 'nu', 'xi', 'pi', 'rho', 'sigma', 'tau', 'phi', 'chi', 'psi', 'omega', 'Gamma', 'Delta', 'Theta', 'Lambda', 'Xi', 'Pi', 'Sigma', 'Phi', 'Psi', 'Omega']);
-const UNIT_TEX: Record<string, string> = { degC: '{}^{\\circ}\\mathrm{C}', degF: '{}^{\\circ}\\mathrm{F}', degR: '{}^{\\circ}\\mathrm{R}', ug: '\\mu\\mathrm{g}', uL: '\\mu\\mathrm{L}', um: '\\mu\\mathrm{m}', ohm: '\\Omega' };
+const UNIT_TEX: Record<string, string> = { degC: '\\text{°C}', degF: '\\text{°F}', degR: '\\text{°R}', ug: '\\mu\\mathrm{g}', uL: '\\mu\\mathrm{L}', um: '\\mu\\mathrm{m}', ohm: '\\Omega' };
 const CONSTANT_TEX: Record<string, string> = { pi: '\\pi', e: '\\mathrm{e}', stefanBoltzmann: '\\sigma_{\\mathrm{SB}}', gravity: 'g_{\\mathrm{n}}', boltzmann: 'k_{\\mathrm{B}}', avogadro: 'N_{\\mathrm{A}}', gasConstant: 'R' };
 const FUNCTION_TEX: Record<string, string> = { exp: '\\exp', log: '\\ln', sin: '\\sin', cos: '\\cos', tan: '\\tan', min: '\\min', max: '\\max' };
 const COMPARE_TEX: Record<string, string> = { '<': '<', '>': '>', '<=': '\\le', '>=': '\\ge', '==': '=', '!=': '\\ne' };
@@ -30,7 +30,7 @@ export function nameTex(name: string): string {
   const cut = name.indexOf('_');
   const base = cut > 0 ? name.slice(0, cut) : name;
   const sub = cut > 0 ? name.slice(cut + 1) : '';
-  const b = GREEK.has(base) ? `\\${base}` : base.length === 1 ? base : `\\mathit{${escapeText(base)}}`;
+  const b = GREEK.has(base) ? `\\${base}` : base.length === 1 ? base : `\\textit{${escapeText(base)}}`;
   if (!sub) return b;
   const s = GREEK.has(sub) ? `\\${sub}` : /^[0-9]+$/.test(sub) || sub.length === 1 ? sub : `\\mathrm{${escapeText(sub)}}`;
   return `${b}_{${s}}`;

@@ -16,9 +16,9 @@ const tex = (text: string) => {
 
 describe('TeX of expressions', () => {
   it('sets study names in italic with subscripts, units upright, and division as a fraction', () => {
-    assert.equal(tex('-k * (T - Ta)'), '-k \\left(T - \\mathit{Ta}\\right)');
+    assert.equal(tex('-k * (T - Ta)'), '-k \\left(T - \\textit{Ta}\\right)');
     assert.equal(tex('0.35 / h'), '\\frac{0.35}{h}', 'h is a name of this study, not the hour');
-    assert.equal(tex('74 degC'), '74\\,{}^{\\circ}\\mathrm{C}');
+    assert.equal(tex('74 degC'), '74\\,\\text{°C}');
     assert.equal(tex('C_feed * V'), 'C_{\\mathrm{feed}} V');
     assert.equal(tex('log(2) / lambda'), '\\frac{\\ln\\left(2\\right)}{\\lambda}');
   });
@@ -39,7 +39,7 @@ describe('TeX of expressions', () => {
     assert.equal(nameTex('tau'), '\\tau');
     assert.equal(nameTex('t_half'), 't_{\\mathrm{half}}');
     assert.equal(nameTex('C_0'), 'C_{0}');
-    assert.equal(nameTex('dose_mg'), '\\mathit{dose}_{\\mathrm{mg}}');
+    assert.equal(nameTex('dose_mg'), '\\textit{dose}_{\\mathrm{mg}}');
   });
 });
 

@@ -1,0 +1,173 @@
+/**
+ * Each cell of a study as a static section of the printed sheet: tables, typeset laws, the
+ * phase line and charts, from the document and the engine's report. Nothing here computes a
+ * result; it lays out what the report holds.
+ */
+import { html, nothing, type TemplateResult } from 'lit';
+import type { Cell, CellReport, StudyTex } from '../../src/index.ts';
+import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
+import { showQ } from '../cells/common.ts';
+import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
+import { phaseLine } from './phase-line.ts';
+import { math } from './math.ts';
+
+type Q = { value: number; unit: string; si: number };
+type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
+type Find = NonNullable<Of<'simulate'>['find']>[number];
+
+const KIND_NAMES: Record<Cell['kind'], string> = {
+  parameters: 'Parameters', rate: 'Rate law', phase: 'Where it settles', simulate: 'Simulation',
+  data: 'Measurements', fit: 'Fit', nca: 'Profile summary (non-compartmental)', note: 'Note',
+};
+
+export function section(cell: Cell, r: CellReport | undefined, tex: StudyTex, cells: readonly Cell[]): TemplateResult {
+  const body = !r ? html`<p class="muted">Not computed.</p>`
+    : !r.ok ? html`<p class="error">${r.waitsOn ? `Not computed: waits on ${r.waitsOn.join(', ')}.` : `Error: ${r.error?.message ?? 'unknown'}`}</p>`
+    : bodyOf(cell, r, tex, cells);
+  return html`<section class="cell ${cell.kind}">
+    <h2>${cell.title || KIND_NAMES[cell.kind]} <span class="kind">${KIND_NAMES[cell.kind]} · ${cell.id}</span></h2>
+    ${body}
+  </section>`;
+}
+
+function bodyOf(cell: Cell, r: CellReport, tex: StudyTex, cells: readonly Cell[]): TemplateResult {
+  switch (cell.kind) {
+    case 'note': return html`<p class="note-text">${typeof cell.text === 'string' ? cell.text : ''}</p>`;
+    case 'parameters': return parameters(cell, r, tex);
+    case 'rate': return rate(cell, r, tex);
+    case 'phase': return phase(cell, r, (cells.find((c) => c.id === cell.rate) as Of<'rate'> | undefined)?.state ?? '');
+    case 'simulate': return simulate(cell, r);
+    case 'data': return data(cell, r);
+    case 'fit': return fit(cell, r);
+    case 'nca': return nca(cell, r);
+  }
+}
+
+function parameters(cell: Of<'parameters'>, r: CellReport, tex: StudyTex): TemplateResult {
+  const values = (r.values ?? {}) as Record<string, Q>;
+  const items = Array.isArray(cell.items) ? cell.items : [];
+  return html`<table>
+    <thead><tr><th>Name</th><th>Defined as</th><th>Value</th><th>Note</th></tr></thead>
+    <tbody>${items.map((it) => {
+      const t = tex.values.get(`${cell.id}/${it.name}`);
+      return html`<tr><td class="name">${it.name}</td><td>${t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`}</td>
+        <td class="num">${showQ(values[it.name])}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}</td></tr>`;
+    })}</tbody></table>`;
+}
+
+function rate(cell: Of<'rate'>, r: CellReport, tex: StudyTex): TemplateResult {
+  const t = tex.rates.get(cell.id);
+  return html`<div class="equation">${t ? math(t, true) : html`<code>d${cell.state}/dt = ${cell.rate}</code>`}</div>
+    <p>State <strong>${cell.state}</strong>, shown in ${cell.unit}; starts at <code>${cell.initial}</code> = ${showQ(r.initial as Q)};
+    at the start it changes by ${showQ(r.rateAtStart as Q)}.</p>`;
+}
+
+function phase(cell: Of<'phase'>, r: CellReport, state: string): TemplateResult {
+  const eqs = (r.equilibria ?? []) as Array<Q & { stability: string; slope: Q }>;
+  const plot = r.plot as { stateUnit: string; rateUnit: string; y: Array<number | null>; f: Array<number | null> } | undefined;
+  const ys = (plot?.y ?? []).filter((v): v is number => v !== null);
+  const sweep = r.sweep as { parameter: string; branches: Array<Array<{ parameter: Q; value: Q; stability: string }>>; folds: Array<{ parameter: Q; value: Q }> } | undefined;
+  return html`
+    ${ys.length > 1 ? html`<figure>${phaseLine({ state, from: ys[0], to: ys[ys.length - 1], unit: plot!.stateUnit, equilibria: eqs, intervals: (r.intervals ?? []) as never })}</figure>` : nothing}
+    ${eqs.length ? html`<table><thead><tr><th>Equilibrium</th><th>Stability</th><th>Slope of the rate there</th></tr></thead>
+      <tbody>${eqs.map((e) => html`<tr><td class="num">${showQ(e)}</td><td>${e.stability}</td><td class="num">${showQ(e.slope)}</td></tr>`)}</tbody></table>`
+      : html`<p>No equilibrium in the range ${cell.from} to ${cell.to}.</p>`}
+    ${plot && ys.length > 1 ? html`<figure>${lineChart({ xLabel: `state (${plot.stateUnit})`, yLabels: [`rate (${plot.rateUnit})`], zeroLine: true, height: 200,
+      lines: [{ label: 'rate', x: plot.y.map((v) => v ?? NaN), y: plot.f }] })}</figure>` : nothing}
+    ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}
+    ${sweep ? sweepPart(cell, sweep) : nothing}`;
+}
+
+function sweepPart(cell: Of<'phase'>, sweep: { branches: Array<Array<{ parameter: Q; value: Q; stability: string }>>; folds: Array<{ parameter: Q; value: Q }> }): TemplateResult {
+  const first = sweep.branches.find((b) => b.length)?.[0];
+  const lines: ChartLine[] = sweep.branches.map((b, i) => ({ label: `branch ${i + 1} (${b[0]?.stability ?? ''})`, x: b.map((p) => p.parameter.value), y: b.map((p) => p.value.value) }));
+  return html`<h3>As ${cell.sweep?.name} runs from ${cell.sweep?.from} to ${cell.sweep?.to}</h3>
+    ${first ? html`<figure>${lineChart({ xLabel: `${cell.sweep?.name} (${first.parameter.unit})`, yLabels: [`equilibrium (${first.value.unit})`], lines, height: 220 })}</figure>` : nothing}
+    ${sweep.folds.length ? html`<table><thead><tr><th>Fold at ${cell.sweep?.name}</th><th>Equilibrium there</th></tr></thead>
+      <tbody>${sweep.folds.map((f) => html`<tr><td class="num">${showQ(f.parameter)}</td><td class="num">${showQ(f.value)}</td></tr>`)}</tbody></table>`
+      : html`<p>No fold: no two equilibria meet in this range.</p>`}`;
+}
+
+/** The question a find entry asks, in words. */
+export function question(f: Find): string {
+  const g = f as unknown as Record<string, unknown>;
+  const span = g.from || g.to ? ` between ${g.from ?? 'the start'} and ${g.to ?? 'the end'}` : '';
+  if (g.crossing) return `when ${g.crossing} ${g.direction === 'up' ? 'rises through' : g.direction === 'down' ? 'falls through' : 'crosses'} ${g.level}${g.occurrence && g.occurrence !== 1 ? ` (time ${g.occurrence})` : ''}`;
+  if (g.maximum) return `highest ${g.maximum}${span}`;
+  if (g.minimum) return `lowest ${g.minimum}${span}`;
+  if (g.timeOfMaximum) return `when ${g.timeOfMaximum} is highest${span}`;
+  if (g.timeOfMinimum) return `when ${g.timeOfMinimum} is lowest${span}`;
+  if (g.valueOf) return `${g.valueOf} at ${g.at}`;
+  if (g.integralOf) return `area under ${g.integralOf}${span}`;
+  if (g.timeAbove) return `time ${g.timeAbove} spends above ${g.level}${span}`;
+  if (g.timeBelow) return `time ${g.timeBelow} spends below ${g.level}${span}`;
+  return '';
+}
+
+function simulate(cell: Of<'simulate'>, r: CellReport): TemplateResult {
+  const results = (r.results ?? {}) as Record<string, Q | { notReached: true; message: string }>;
+  const answer = (name: string) => {
+    const x = results[name];
+    return !x ? 'not found' : 'notReached' in x ? x.message : showQ(x);
+  };
+  const finds = Array.isArray(cell.find) ? cell.find : [];
+  const events = Array.isArray(cell.events) ? cell.events : [];
+  const plot = r.plot as SimulationPlot | undefined;
+  const closed = (r.closedForm ?? {}) as Record<string, { maxError: Q; timeConstant?: Q; halfLife?: Q; equilibrium?: Q }>;
+  return html`
+    <p>From ${cell.from} to ${cell.to}; laws ${(cell.rates ?? []).join(', ')}; method ${r.method as string} (${r.steps as number} steps, ${r.evaluations as number} evaluations of the rates).</p>
+    ${events.length ? html`<table><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e) => html`<tr>
+      <td>${e.at}</td><td>${e.every ? `every ${e.every}, ${e.count ?? 1} times` : 'once'}</td>
+      <td>${e.add ? `add ${Object.entries(e.add).map(([k, v]) => `${v} to ${k}`).join(', ')}` : e.set ? `set ${Object.entries(e.set).map(([k, v]) => `${k} = ${v}`).join(', ')}` : e.infuse ? `infuse ${Object.entries(e.infuse).map(([k, v]) => `${v} into ${k}`).join(', ')} for ${e.for}` : ''}</td></tr>`)}</tbody></table>` : nothing}
+    ${plot ? timeChart(plot) : nothing}
+    ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}
+    ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
+      <td class="name">${f.name}</td><td>${question(f)}</td><td class="num">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
+    ${Object.entries(closed).map(([state, c]) => html`<p class="check">Check: ${state} also follows an exact solution here${c.timeConstant ? ` (time constant ${showQ(c.timeConstant)}${c.halfLife ? `, half-life ${showQ(c.halfLife)}` : ''})` : ''}; the numeric run differs from it by at most ${showQ(c.maxError)}.</p>`)}`;
+}
+
+function timeChart(plot: SimulationPlot): TemplateResult {
+  const units = [...new Set(plot.states.map((s) => s.unit))].slice(0, 2);
+  const axisOf = (state: string) => (units.indexOf(plot.states.find((s) => s.name === state)?.unit ?? '') === 1 ? 1 : 0);
+  const shown = plot.states.filter((s) => units.includes(s.unit));
+  const points: ChartPoints[] = (plot.points ?? []).map((p) => ({ label: `${p.state} measured`, x: p.t, y: p.values, axis: axisOf(p.state), colourOf: shown.findIndex((s) => s.name === p.state) }));
+  return html`<figure>${lineChart({
+    xLabel: `time (${plot.timeUnit})`,
+    yLabels: units.map((u) => `${shown.filter((s) => s.unit === u).map((s) => s.name).join(', ')} (${u})`),
+    lines: shown.map((s) => ({ label: s.name, x: plot.t, y: s.values, axis: units.indexOf(s.unit) === 1 ? 1 : 0 })),
+    points,
+    levels: plot.levels.map((l) => ({ y: l.value, label: l.label, axis: axisOf(l.state) })),
+    events: plot.events.map((e) => ({ x: e.time, label: e.label })),
+    marks: plot.marks.map((m) => ({ x: m.time, y: m.value, label: m.name, axis: axisOf(m.state) })),
+  })}</figure>`;
+}
+
+function data(cell: Of<'data'>, r: CellReport): TemplateResult {
+  const columns = (Array.isArray(cell.columns) ? cell.columns : []) as Array<{ name: string; unit?: string }>;
+  const rows = Array.isArray(cell.rows) ? cell.rows : null;
+  return html`<p>${r.rowCount as number} rows${rows ? '' : ' (given as CSV)'}.</p>
+    ${rows ? html`<table class="data"><thead><tr>${columns.map((c) => html`<th>${c.name}${c.unit ? ` (${c.unit})` : ''}</th>`)}</tr></thead>
+      <tbody>${rows.map((row) => html`<tr>${(row as unknown[]).map((v) => html`<td class="num">${v === null ? '' : String(v)}</td>`)}</tr>`)}</tbody></table>`
+    : html`<pre>${typeof cell.csv === 'string' ? cell.csv : ''}</pre>`}`;
+}
+
+function fit(cell: Of<'fit'>, r: CellReport): TemplateResult {
+  const est = (r.estimates ?? {}) as Record<string, { value: Q; standardError: Q | null; ci95: [Q, Q] | null }>;
+  const plot = r.plot as SimulationPlot | undefined;
+  return html`<table class="results"><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead>
+    <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num">${showQ(e.value)}</td>
+      <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
+    <p class="check">Fit diagnostics: ${r.n as number} points, ${r.dof as number} degrees of freedom, residual SD ${showQ(r.residualSD as Q)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations as number} iterations (${r.message as string}).</p>
+    ${plot ? timeChart(plot) : nothing}
+    ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}`;
+}
+
+function nca(cell: Of<'nca'>, r: CellReport): TemplateResult {
+  const values = (r.values ?? {}) as Record<string, Q | null>;
+  const used = r.pointsUsed as { count: number; times: Q[] } | undefined;
+  return html`<p>Route ${cell.route}; areas by the ${cell.auc} rule; dose <code>${cell.dose}</code>.</p>
+    <table class="results"><thead><tr><th>Result</th><th>Value</th></tr></thead>
+    <tbody>${Object.entries(values).map(([name, q]) => html`<tr><td class="name">${name}</td><td class="num">${q ? showQ(q) : 'not available'}</td></tr>`)}</tbody></table>
+    ${used ? html`<p class="check">Terminal phase fitted on ${used.count} points, at ${used.times.map((t) => showQ(t)).join(', ')}.</p>` : nothing}
+    ${((r.warnings ?? []) as string[]).map((w) => html`<p class="check">Note: ${w}</p>`)}`;
+}

@@ -1,0 +1,89 @@
+import { LitElement, html, css, nothing } from 'lit';
+import { studyTex, type Report, type Study, type StudyTex } from '../../src/index.ts';
+import { section } from './sections.ts';
+
+/** What the sheet's header says about the stored study. */
+export interface SheetMeta {
+  /** 1 when created, one more on each saved change. */
+  readonly revision?: number;
+  /** When the study was last saved (ms since the epoch). */
+  readonly updated?: number;
+}
+
+/**
+ * `<study-sheet>`: the study as a document to hand over and print. A header with title,
+ * author, date and revision; the cautions; every cell as a static section (tables, typeset
+ * laws, phase lines, charts drawn as SVG, found results, the checks made); the engine's
+ * warnings at the end. No controls. Sections and figures are kept whole across page breaks.
+ */
+export class StudySheet extends LitElement {
+  static override properties = { study: { attribute: false }, report: { attribute: false }, meta: { attribute: false } };
+  study?: Study;
+  report?: Report;
+  meta: SheetMeta = {};
+  private texFor?: Study;
+  private tex?: StudyTex;
+
+  static override styles = css`
+    :host { display: block; color: #111; font: 10.5pt/1.4 Georgia, 'Times New Roman', serif; background: #fff; }
+    header.doc { border-bottom: 2px solid #222; padding-bottom: 0.4rem; margin-bottom: 0.8rem; }
+    h1 { font: 700 17pt/1.2 system-ui, sans-serif; margin: 0 0 0.3rem; }
+    .meta { display: flex; flex-wrap: wrap; gap: 0.2rem 1.6rem; font: 9pt system-ui, sans-serif; color: #333; }
+    .description { margin: 0.4rem 0 0; }
+    .caution { border: 1.5px solid #8a4b00; padding: 0.35rem 0.6rem; margin: 0.6rem 0; font-size: 9.5pt; }
+    section.cell { margin: 0 0 0.9rem; }
+    h2 { font: 650 12pt/1.3 system-ui, sans-serif; margin: 0.2rem 0 0.35rem; border-bottom: 0.5px solid #999; break-after: avoid; }
+    h2 .kind { font-weight: 400; font-size: 8.5pt; color: #555; margin-left: 0.5rem; }
+    h3 { font: 600 10.5pt system-ui, sans-serif; margin: 0.5rem 0 0.3rem; break-after: avoid; }
+    table { border-collapse: collapse; width: 100%; margin: 0.3rem 0 0.5rem; font-size: 9.5pt; break-inside: avoid; }
+    table.data { width: auto; }
+    th, td { border: 0.5px solid #999; padding: 0.15rem 0.4rem; text-align: left; vertical-align: top; }
+    th { background: #eee; font: 600 9pt system-ui, sans-serif; }
+    thead { display: table-header-group; }
+    tr { break-inside: avoid; }
+    td.num { text-align: right; white-space: nowrap; font-variant-numeric: tabular-nums; }
+    td.name { font-family: ui-monospace, monospace; font-size: 9pt; }
+    figure { margin: 0.3rem 0 0.5rem; break-inside: avoid; }
+    figure svg { max-width: 100%; height: auto; }
+    .equation { margin: 0.3rem 0; font-size: 12pt; break-inside: avoid; }
+    .summary { font-style: italic; margin: 0.2rem 0 0.4rem; }
+    .check { font-size: 9.5pt; margin: 0.2rem 0; }
+    .note-text { white-space: pre-wrap; margin: 0.2rem 0; }
+    .error { color: #8b0000; font-weight: 600; }
+    .muted { color: #555; }
+    code { font-size: 9pt; }
+    pre { font-size: 8.5pt; white-space: pre-wrap; }
+    footer { border-top: 0.5px solid #999; margin-top: 1rem; padding-top: 0.3rem; font: 8.5pt system-ui, sans-serif; color: #333; }
+    math { font-size: 1.05em; }
+  `;
+
+  override render() {
+    const study = this.study;
+    if (!study) return nothing;
+    if (this.texFor !== study) { this.tex = studyTex(study); this.texFor = study; }
+    const byId = new Map((this.report?.cells ?? []).map((c) => [c.id, c] as const));
+    const when = (ms: number) => new Date(ms).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+    const warnings = this.report?.warnings ?? [];
+    return html`
+      <header class="doc">
+        <h1>${study.title}</h1>
+        <div class="meta">
+          <span>Prepared by: ${study.author?.trim() || '________________'}</span>
+          ${this.meta.revision !== undefined ? html`<span>Revision ${this.meta.revision}</span>` : nothing}
+          ${this.meta.updated !== undefined ? html`<span>Saved ${when(this.meta.updated)}</span>` : nothing}
+          <span>Printed ${when(Date.now())}</span>
+        </div>
+        ${study.description ? html`<p class="description">${study.description}</p>` : nothing}
+      </header>
+      ${(this.report?.cautions ?? []).map((c) => html`<p class="caution"><strong>Caution.</strong> ${c.text}</p>`)}
+      ${this.report ? study.cells.map((c) => section(c, byId.get(c.id), this.tex!, study.cells)) : html`<p class="muted">Computing…</p>`}
+      ${warnings.length ? html`<section class="cell"><h2>Engine notes</h2>${warnings.map((w) => html`<p class="check">${w}</p>`)}</section>` : nothing}
+      <footer>Every value on this sheet was computed by Ratebook from the inputs shown, with the units shown. It is an aid to analysis and does not replace professional judgement, local codes or licensed practice.</footer>`;
+  }
+}
+
+customElements.define('study-sheet', StudySheet);
+
+declare global {
+  interface HTMLElementTagNameMap { 'study-sheet': StudySheet }
+}

@@ -1,0 +1,118 @@
+/**
+ * A static line chart drawn as SVG for the printed sheet: vector lines and text, so it is
+ * sharp at any print resolution, and no canvas or script is needed once drawn. Axes with
+ * round ticks, curves (gaps where a value is null), measured points, dashed levels, event
+ * times and labelled marks. Shows what it is given; it computes nothing but the layout.
+ */
+import { svg, type SVGTemplateResult } from 'lit';
+import { tickLabels } from '../plots/axes.ts';
+import { INK, seriesColour } from '../plots/palette.ts';
+
+export interface ChartLine { readonly label: string; readonly x: readonly number[]; readonly y: ReadonlyArray<number | null>; readonly axis?: 0 | 1 }
+export interface ChartPoints { readonly label: string; readonly x: readonly number[]; readonly y: readonly number[]; readonly axis?: 0 | 1; readonly colourOf?: number }
+export interface ChartSpec {
+  readonly xLabel: string;
+  /** One label per y axis: a second axis on the right when there are two. */
+  readonly yLabels: readonly string[];
+  readonly lines: readonly ChartLine[];
+  readonly points?: readonly ChartPoints[];
+  readonly levels?: ReadonlyArray<{ readonly y: number; readonly label: string; readonly axis?: 0 | 1 }>;
+  readonly events?: ReadonlyArray<{ readonly x: number; readonly label: string }>;
+  readonly marks?: ReadonlyArray<{ readonly x: number; readonly y: number; readonly label: string; readonly axis?: 0 | 1 }>;
+  /** A horizontal line at zero (the rate in a phase plot). */
+  readonly zeroLine?: boolean;
+  readonly width?: number;
+  readonly height?: number;
+}
+
+const FONT = 11;
+
+/** Round tick values covering [lo, hi]: steps of 1, 2, 2.5 or 5 times a power of ten. */
+export function niceTicks(lo: number, hi: number, most = 7): { ticks: number[]; step: number } {
+  if (!(hi > lo)) { const pad = Math.abs(lo) * 0.1 || 1; lo -= pad; hi += pad; }
+  const raw = (hi - lo) / most;
+  const mag = 10 ** Math.floor(Math.log10(raw));
+  const step = [1, 2, 2.5, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
+  const ticks: number[] = [];
+  for (let v = Math.ceil(lo / step - 1e-9) * step; v <= hi + step * 1e-9; v += step) ticks.push(Math.abs(v) < step * 1e-9 ? 0 : v);
+  return { ticks, step };
+}
+
+function extent(values: Iterable<number | null>): [number, number] {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const v of values) if (v !== null && Number.isFinite(v)) { if (v < lo) lo = v; if (v > hi) hi = v; }
+  return lo <= hi ? [lo, hi] : [0, 1];
+}
+
+/** Widens [lo, hi] to its outer ticks. */
+function axisRange(lo: number, hi: number): { lo: number; hi: number; ticks: number[]; step: number } {
+  const first = niceTicks(lo, hi);
+  const step = first.step;
+  const a = Math.floor(lo / step + 1e-9) * step;
+  const b = Math.ceil(hi / step - 1e-9) * step;
+  const { ticks } = niceTicks(a, b);
+  return b > a ? { lo: a, hi: b, ticks: ticks.filter((v) => v >= a - step * 1e-9 && v <= b + step * 1e-9), step } : { lo: a - step, hi: a + step, ticks: [a - step, a, a + step], step };
+}
+
+export function lineChart(spec: ChartSpec): SVGTemplateResult {
+  const width = spec.width ?? 640;
+  const height = spec.height ?? 250;
+  const twoAxes = spec.yLabels.length > 1;
+  const left = 62;
+  const right = twoAxes ? 62 : 16;
+  const top = 10;
+  const bottom = 42;
+  const pw = width - left - right;
+  const ph = height - top - bottom;
+  const xs = [...spec.lines.flatMap((l) => l.x), ...(spec.points ?? []).flatMap((p) => p.x)];
+  const xr = axisRange(...extent(xs));
+  const yr = [0, 1].map((axis) => {
+    const on = <T extends { axis?: 0 | 1 }>(list: readonly T[] | undefined) => (list ?? []).filter((l) => (l.axis ?? 0) === axis);
+    const ys = [...on(spec.lines).flatMap((l) => l.y), ...on(spec.points).flatMap((p) => p.y), ...on(spec.levels).map((l) => l.y), ...(spec.zeroLine && axis === 0 ? [0] : [])];
+    return axisRange(...extent(ys));
+  });
+  const X = (v: number) => left + ((v - xr.lo) / (xr.hi - xr.lo)) * pw;
+  const Y = (v: number, axis: 0 | 1 = 0) => top + ph - ((v - yr[axis].lo) / (yr[axis].hi - yr[axis].lo)) * ph;
+  const path = (l: ChartLine) => {
+    let d = '';
+    let pen = false;
+    for (let i = 0; i < l.x.length; i++) {
+      const y = l.y[i];
+      if (y === null || !Number.isFinite(y) || !Number.isFinite(l.x[i])) { pen = false; continue; }
+      d += `${pen ? 'L' : 'M'}${X(l.x[i]).toFixed(1)},${Y(y, l.axis ?? 0).toFixed(1)}`;
+      pen = true;
+    }
+    return d;
+  };
+  const xLabels = tickLabels(xr.ticks, xr.step);
+  const yLabels = yr.map((r) => tickLabels(r.ticks, r.step));
+  const legend = spec.lines.length > 1 || (spec.points ?? []).length > 0;
+  return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height + (legend ? 18 : 0)}" width="${width}" height="${height + (legend ? 18 : 0)}" font-family="sans-serif" font-size="${FONT}" role="img">
+    <g stroke="#d5dbe0" stroke-width="0.6">
+      ${xr.ticks.map((v) => svg`<line x1=${X(v)} x2=${X(v)} y1=${top} y2=${top + ph} />`)}
+      ${yr[0].ticks.map((v) => svg`<line x1=${left} x2=${left + pw} y1=${Y(v)} y2=${Y(v)} />`)}
+    </g>
+    <rect x=${left} y=${top} width=${pw} height=${ph} fill="none" stroke=${INK} stroke-width="0.8" />
+    ${spec.zeroLine && yr[0].lo < 0 && yr[0].hi > 0 ? svg`<line x1=${left} x2=${left + pw} y1=${Y(0)} y2=${Y(0)} stroke=${INK} stroke-width="0.8" />` : ''}
+    <g fill=${INK}>
+      ${xr.ticks.map((v, i) => svg`<text x=${X(v)} y=${top + ph + 14} text-anchor="middle">${xLabels[i]}</text>`)}
+      ${yr[0].ticks.map((v, i) => svg`<text x=${left - 5} y=${Y(v) + 4} text-anchor="end">${yLabels[0][i]}</text>`)}
+      ${twoAxes ? yr[1].ticks.map((v, i) => svg`<text x=${left + pw + 5} y=${Y(v, 1) + 4}>${yLabels[1][i]}</text>`) : ''}
+      <text x=${left + pw / 2} y=${top + ph + 32} text-anchor="middle">${spec.xLabel}</text>
+      <text transform="translate(13 ${top + ph / 2}) rotate(-90)" text-anchor="middle">${spec.yLabels[0]}</text>
+      ${twoAxes ? svg`<text transform="translate(${width - 8} ${top + ph / 2}) rotate(90)" text-anchor="middle">${spec.yLabels[1]}</text>` : ''}
+    </g>
+    ${(spec.events ?? []).map((e) => svg`<line x1=${X(e.x)} x2=${X(e.x)} y1=${top} y2=${top + ph} stroke="#7a5ba8" stroke-width="0.8" stroke-dasharray="2 3"><title>${e.label}</title></line>`)}
+    ${(spec.levels ?? []).map((l) => svg`<line x1=${left} x2=${left + pw} y1=${Y(l.y, l.axis ?? 0)} y2=${Y(l.y, l.axis ?? 0)} stroke="#555" stroke-width="0.8" stroke-dasharray="5 3" />
+      <text x=${left + pw - 4} y=${Y(l.y, l.axis ?? 0) - 3} text-anchor="end" fill="#333" font-size="10">${l.label}</text>`)}
+    ${spec.lines.map((l, i) => svg`<path d=${path(l)} fill="none" stroke=${seriesColour(i)} stroke-width="1.6" stroke-linejoin="round" />`)}
+    ${(spec.points ?? []).map((p, i) => p.x.map((x, j) => svg`<circle cx=${X(x)} cy=${Y(p.y[j], p.axis ?? 0)} r="2.8" fill="#fff" stroke=${seriesColour(p.colourOf ?? i)} stroke-width="1.2" />`))}
+    ${(spec.marks ?? []).map((m) => svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />
+      <text x=${X(m.x) + 5} y=${Y(m.y, m.axis ?? 0) - 5} font-size="10" fill=${INK}>${m.label}</text>`)}
+    ${legend ? svg`<g font-size="10" fill=${INK}>${[...spec.lines.map((l, i) => ({ label: l.label, i, dot: false })), ...(spec.points ?? []).map((p, i) => ({ label: p.label, i: p.colourOf ?? i, dot: true }))].map((item, k) => svg`
+      <g transform="translate(${left + k * 150} ${height + 8})">
+        ${item.dot ? svg`<circle cx="8" cy="0" r="2.8" fill="#fff" stroke=${seriesColour(item.i)} stroke-width="1.2" />` : svg`<line x1="0" x2="16" y1="0" y2="0" stroke=${seriesColour(item.i)} stroke-width="1.6" />`}
+        <text x="21" y="3.5">${item.label}</text></g>`)}</g>` : ''}
+  </svg>`;
+}

@@ -1,0 +1,86 @@
+// The printed sheet: a static document from the study and the engine's report (the real
+// engine, run in the page): header, typeset laws, tables, SVG charts and found results, with
+// no controls. And the study view's two ways to it: the sheet mode and the browser's print.
+import { expect } from 'chai';
+import { StudyView } from '../../components/study-view.ts';
+import '../../components/sheet/study-sheet.ts';
+import { openStudy, formatNumber, type Study, type Report } from '../../src/index.ts';
+import cooling from '../../examples/cooling-stock-pot.ratebook.json';
+import fold from '../../examples/harvested-stock-fold.ratebook.json';
+import plasma from '../../examples/plasma-levels.ratebook.json';
+
+function reportOf(doc: unknown): Report {
+  const r = openStudy(structuredClone(doc));
+  if (!r.ok) throw new Error(r.error.message);
+  return r.session.report();
+}
+
+async function sheetOf(doc: unknown, meta = {}) {
+  const el = document.createElement('study-sheet');
+  el.study = structuredClone(doc) as Study;
+  el.report = reportOf(doc);
+  el.meta = meta;
+  document.body.append(el);
+  await el.updateComplete;
+  return el.shadowRoot!;
+}
+
+describe('study-sheet', () => {
+  afterEach(() => document.querySelectorAll('study-sheet, study-view').forEach((v) => v.remove()));
+
+  it('has a header with title, author, revision and date, and the caution', async () => {
+    const root = await sheetOf({ ...cooling, author: 'R. Sample' }, { revision: 7, updated: Date.UTC(2026, 0, 5) });
+    const header = root.querySelector('header.doc')!.textContent!;
+    expect(header).to.contain(cooling.title);
+    expect(header).to.contain('Prepared by: R. Sample');
+    expect(header).to.contain('Revision 7');
+    expect(header).to.match(/Saved .*2026/);
+    expect(root.querySelector('.caution')!.textContent).to.contain('food code');
+  });
+
+  it('typesets the rate law as MathML and shows each found result as the engine computed it', async () => {
+    const root = await sheetOf(cooling);
+    expect(root.querySelector('.equation math'), 'a MathML equation').to.exist;
+    const run = reportOf(cooling).cells.find((c) => c.id === 'run')!;
+    const results = run.results as Record<string, { value: number; unit: string }>;
+    const rows = [...root.querySelectorAll('table.results tbody tr')].map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent!.trim()));
+    for (const [name, q] of Object.entries(results)) {
+      const row = rows.find((r) => r[0] === name);
+      expect(row, name).to.exist;
+      expect(row![2]).to.equal(`${formatNumber(q.value, 4)} ${q.unit}`);
+    }
+  });
+
+  it('has one section per cell, charts as SVG, and no controls', async () => {
+    const root = await sheetOf(plasma);
+    expect(root.querySelectorAll('section.cell').length).to.be.at.least(plasma.cells.length);
+    expect(root.querySelectorAll('figure svg').length).to.be.at.least(1);
+    expect(root.querySelectorAll('button, input, select, textarea').length).to.equal(0);
+  });
+
+  it('draws the phase line with one dot per equilibrium, and the sweep with its fold', async () => {
+    const root = await sheetOf(fold);
+    const line = root.querySelector('section.phase figure svg')!;
+    expect(line.querySelectorAll('circle').length).to.equal(2);
+    const foldRow = root.querySelector('section.phase table:last-of-type tbody tr')!.textContent!;
+    expect(foldRow).to.contain('125 tonne / year');
+  });
+
+  it('a study view shows the sheet in sheet mode, and renders it for print in edit mode', async () => {
+    const view = StudyView.create();
+    document.body.append(view);
+    const answered = new Promise<void>((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
+    view.controller.open('t', structuredClone(cooling) as Study);
+    await answered;
+    await view.updateComplete;
+    expect(view.shadowRoot!.querySelector('study-sheet'), 'no sheet while editing').to.equal(null);
+    window.dispatchEvent(new Event('beforeprint'));
+    await view.updateComplete;
+    expect(view.shadowRoot!.querySelector('.for-print study-sheet'), 'a sheet for print').to.exist;
+    window.dispatchEvent(new Event('afterprint'));
+    view.mode = 'sheet';
+    await view.updateComplete;
+    expect(view.shadowRoot!.querySelector('.paper study-sheet')).to.exist;
+    expect(view.shadowRoot!.querySelector('article'), 'no cell editors in sheet mode').to.equal(null);
+  });
+});
