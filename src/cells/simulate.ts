@@ -247,7 +247,7 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
           give(fq.name, asTime(c.t), what);
           mark(fq, c.t);
         } else {
-          const message = `not reached: no ${what.replace(/^(\S+) (rises|falls|crosses)/, (_, s, v) => `${s} ${v === 'rises' ? 'rising through' : v === 'falls' ? 'falling through' : 'crossing'}`)} by the end of the run (${describe(asTime(b))})`;
+          const message = `not reached: no ${what.replace(/^(\S+) (rises through|falls through|crosses)/, (_, s, v) => `${s} ${v === 'rises through' ? 'rising through' : v === 'falls through' ? 'falling through' : 'crossing'}`)} by the end of the run (${describe(asTime(b))})`;
           results[fq.name] = { notReached: true, message, end: report(asTime(b)) };
           reasons.set(fq.name, `"${fq.name}" is not defined: ${message}`);
           found.push({ name: fq.name, what, answer: `not reached by ${describe(asTime(b))}` });
@@ -333,14 +333,21 @@ function seriesOf(tr: Trajectory, states: readonly string[]): Record<string, num
 function closedForms(laws: readonly Law[], sys: SystemSpec, tr: Trajectory, compiled: Array<(x: ArrayLike<number>) => number>, width: number, rtol: number, atol: Float64Array, timeUnit: DisplayUnit) {
   const out: Record<string, unknown> = {};
   const n = laws.length;
+  const points = stepPoints(tr);
   laws.forEach((l, i) => {
     if (l.reads.some((r) => r === 't' || (r !== l.state && sys.stateIndex.has(r)))) return;
     const x = new Float64Array(width);
+    // Probe the law over the size the state actually reaches: a state that starts at zero
+    // (a tank filling, a body falling from rest) would otherwise be probed over nothing, and
+    // any law looks linear there.
+    let reach = Math.abs(l.initial.si);
+    for (const p of tr.pieces) reach = Math.max(reach, Math.abs(p.y0[i]));
+    for (const y of points.y) reach = Math.max(reach, Math.abs(y[i]));
     const lawAt = (k: number) => {
       const piece = tr.pieces[k];
       x.set(piece.params, 1 + n);
       const fy = (y: number) => { x[1 + i] = y; return compiled[i](x) + piece.infusion[i]; };
-      return linearCoefficients(fy, piece.y0[i], Math.max(...tr.pieces.map((p) => Math.abs(p.y0[i])), Math.abs(l.initial.si)));
+      return linearCoefficients(fy, piece.y0[i], reach);
     };
     const laws0 = tr.pieces.map((_, k) => lawAt(k));
     if (laws0.some((c) => !c)) return;

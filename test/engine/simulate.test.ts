@@ -58,6 +58,12 @@ describe('Newton cooling', () => {
     assert.equal(never.notReached, true);
     assert.match(never.message, /not reached: no T crossing 2 degC by the end of the run \(10 h\)/);
     assert.match(r.report.cells[3].error!.message, /waits on cell "run": "never" is not defined: not reached/);
+    const cs = cells();
+    (cs[2] as Record<string, unknown>).find = [{ name: 'low', crossing: 'T', level: '-40 degC', direction: 'down' }];
+    const down = runStudy({ format: 'ratebook-study', version: 1, title: 't', cells: cs });
+    assert.ok(down.ok);
+    if (!down.ok) return;
+    assert.match((down.report.cells[2].results as Record<string, any>).low.message, /not reached: no T falling through -40 degC by the end/);
   });
 
   it('reports the closed form beside the numeric run, with the numeric error', () => {
@@ -174,6 +180,24 @@ describe('other laws with closed forms', () => {
     const exact = Math.log(12 / 0.1 - 1) / 0.9;
     assert.ok(Math.abs(results(run).half.si / 86400 - exact) < 1e-5 * exact, `${results(run).half.value} vs ${exact}`);
     assert.equal(run.closedForm, undefined);
+  });
+
+  it('a state that starts at zero: a linear law gets its true rate constant, a nonlinear one no exact solution', () => {
+    // Regression: the linearity probe used the start value as its scale, so from zero every law looked
+    // linear with rate constant 0. Filling a mixed tank: C' = Q/V (Cin - C), rate constant -Q/V (closed form).
+    const filling = simulate([
+      { id: 'law', kind: 'rate', state: 'C', unit: 'mg / L', rate: '0.2 / h * (5 mg / L - C)', initial: '0 mg / L' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '10 h' },
+    ]);
+    const cf = (filling.closedForm as Record<string, Record<string, Q>>).C;
+    assert.ok(Math.abs(cf.rateConstant.value + 0.2) < 1e-12, `${cf.rateConstant.value}`);
+    assert.ok((filling.closedForm as Record<string, { maxErrorInTolerances: number }>).C.maxErrorInTolerances < 10);
+    // falling from rest with quadratic drag: v' = g - c v|v| is not linear in v (common practice)
+    const falling = simulate([
+      { id: 'law', kind: 'rate', state: 'v', unit: 'm / s', rate: 'gravity - 0.004 / m * v * abs(v)', initial: '0 m / s' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 s', to: '60 s' },
+    ]);
+    assert.equal(falling.closedForm, undefined);
   });
 
   it('a tank draining through an orifice empties in finite time (Torricelli)', () => {
