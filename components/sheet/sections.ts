@@ -122,7 +122,7 @@ function simulate(cell: Of<'simulate'>, r: CellReport): TemplateResult {
     ${plot ? timeChart(plot) : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}
     ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
-      <td class="name">${f.name}</td><td>${question(f)}</td><td class="num">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
+      <td class="name">${f.name}</td><td>${question(f)}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
     ${Object.entries(closed).map(([state, c]) => html`<p class="check">Check: ${state} also follows an exact solution here${c.timeConstant ? ` (time constant ${showQ(c.timeConstant)}${c.halfLife ? `, half-life ${showQ(c.halfLife)}` : ''})` : ''}; the numeric run differs from it by at most ${showQ(c.maxError)}.</p>`)}`;
 }
 
@@ -155,7 +155,7 @@ function fit(cell: Of<'fit'>, r: CellReport): TemplateResult {
   const est = (r.estimates ?? {}) as Record<string, { value: Q; standardError: Q | null; ci95: [Q, Q] | null }>;
   const plot = r.plot as SimulationPlot | undefined;
   return html`<table class="results"><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead>
-    <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num">${showQ(e.value)}</td>
+    <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
     <p class="check">Fit diagnostics: ${r.n as number} points, ${r.dof as number} degrees of freedom, residual SD ${showQ(r.residualSD as Q)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations as number} iterations (${r.message as string}).</p>
     ${plot ? timeChart(plot) : nothing}
@@ -167,7 +167,7 @@ function nca(cell: Of<'nca'>, r: CellReport): TemplateResult {
   const used = r.pointsUsed as { count: number; times: Q[] } | undefined;
   return html`<p>Route ${cell.route}; areas by the ${cell.auc} rule; dose <code>${cell.dose}</code>.</p>
     <table class="results"><thead><tr><th>Result</th><th>Value</th></tr></thead>
-    <tbody>${Object.entries(values).map(([name, q]) => html`<tr><td class="name">${name}</td><td class="num">${q ? showQ(q) : 'not available'}</td></tr>`)}</tbody></table>
+    <tbody>${Object.entries(values).map(([name, q]) => html`<tr><td class="name">${name}</td><td class="num answer">${q ? showQ(q) : 'not available'}</td></tr>`)}</tbody></table>
     ${used ? html`<p class="check">Terminal phase fitted on ${used.count} points, at ${used.times.map((t) => showQ(t)).join(', ')}.</p>` : nothing}
     ${((r.warnings ?? []) as string[]).map((w) => html`<p class="check">Note: ${w}</p>`)}`;
 }

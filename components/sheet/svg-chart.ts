@@ -29,12 +29,14 @@ const FONT = 11;
 
 /** Round tick values covering [lo, hi]: steps of 1, 2, 2.5 or 5 times a power of ten. */
 export function niceTicks(lo: number, hi: number, most = 7): { ticks: number[]; step: number } {
-  if (!(hi > lo)) { const pad = Math.abs(lo) * 0.1 || 1; lo -= pad; hi += pad; }
+  // A flat curve (a level held exactly, up to rounding) gets a band of ±10% around it.
+  if (!(hi - lo > 1e-9 * Math.max(Math.abs(lo), Math.abs(hi)))) { const pad = Math.abs(lo) * 0.1 || 1; lo -= pad; hi += pad; }
   const raw = (hi - lo) / most;
   const mag = 10 ** Math.floor(Math.log10(raw));
   const step = [1, 2, 2.5, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
   const ticks: number[] = [];
-  for (let v = Math.ceil(lo / step - 1e-9) * step; v <= hi + step * 1e-9; v += step) ticks.push(Math.abs(v) < step * 1e-9 ? 0 : v);
+  const first = Math.ceil(lo / step - 1e-9);
+  for (let i = first; i * step <= hi + step * 1e-9 && ticks.length <= 2 * most + 2; i++) ticks.push(Math.abs(i * step) < step * 1e-9 ? 0 : i * step);
   return { ticks, step };
 }
 
@@ -47,6 +49,7 @@ function extent(values: Iterable<number | null>): [number, number] {
 
 /** Widens [lo, hi] to its outer ticks. */
 function axisRange(lo: number, hi: number): { lo: number; hi: number; ticks: number[]; step: number } {
+  if (!(hi - lo > 1e-9 * Math.max(Math.abs(lo), Math.abs(hi)))) { const pad = Math.abs(lo) * 0.1 || 1; lo -= pad; hi += pad; }
   const first = niceTicks(lo, hi);
   const step = first.step;
   const a = Math.floor(lo / step + 1e-9) * step;
