@@ -10,10 +10,14 @@ import { showQ } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
 import { math } from './math.ts';
+import { nameTex } from '../../src/expression/tex.ts';
 
 type Q = { value: number; unit: string; si: number };
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
 type Find = NonNullable<Of<'simulate'>['find']>[number];
+
+/** Definitions longer than this (characters of source) are typeset on a row of their own. */
+const LONG_DEFINITION = 32;
 
 const KIND_NAMES: Record<Cell['kind'], string> = {
   parameters: 'Parameters', rate: 'Rate law', phase: 'Where it settles', simulate: 'Simulation',
@@ -46,12 +50,17 @@ function bodyOf(cell: Cell, r: CellReport, tex: StudyTex, cells: readonly Cell[]
 function parameters(cell: Of<'parameters'>, r: CellReport, tex: StudyTex): TemplateResult {
   const values = (r.values ?? {}) as Record<string, Q>;
   const items = Array.isArray(cell.items) ? cell.items : [];
-  return html`<table>
+  // A long definition gets a row of its own under its name, across the table.
+  return html`<table class="parameters">
+    <colgroup><col style="width: 17%" /><col style="width: 33%" /><col style="width: 17%" /><col style="width: 33%" /></colgroup>
     <thead><tr><th>Name</th><th>Defined as</th><th>Value</th><th>Note</th></tr></thead>
     <tbody>${items.map((it) => {
       const t = tex.values.get(`${cell.id}/${it.name}`);
-      return html`<tr><td class="name">${it.name}</td><td>${t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`}</td>
-        <td class="num">${showQ(values[it.name])}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}</td></tr>`;
+      const shown = t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`;
+      const long = typeof it.value === 'string' && it.value.length > LONG_DEFINITION;
+      return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${it.name}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
+        <td class="num">${showQ(values[it.name])}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}</td></tr>
+        ${long ? html`<tr class="formula"><td colspan="4">${math(`${nameTex(it.name)} = ${t ?? ''}`)}</td></tr>` : nothing}`;
     })}</tbody></table>`;
 }
 

@@ -37,6 +37,10 @@ export class StudySheet extends LitElement {
     h3 { font: 600 10.5pt system-ui, sans-serif; margin: 0.5rem 0 0.3rem; break-after: avoid; }
     table { border-collapse: collapse; width: 100%; margin: 0.3rem 0 0.5rem; font-size: 9.5pt; break-inside: avoid; }
     table.data { width: auto; }
+    table.parameters { table-layout: fixed; }
+    table.parameters td { overflow-wrap: anywhere; }
+    tr.has-formula td { border-bottom-style: dotted; }
+    tr.formula td { border-top: none; padding: 0.1rem 0.4rem 0.3rem 1.2rem; overflow-x: hidden; }
     th, td { border: 0.5px solid #999; padding: 0.15rem 0.4rem; text-align: left; vertical-align: top; }
     th { background: #eee; font: 600 9pt system-ui, sans-serif; }
     thead { display: table-header-group; }
