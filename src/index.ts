@@ -14,3 +14,4 @@ export { FUNCTION_NAMES } from './expression/functions.ts';
 export { runStudy, exitCodeOf } from './run.ts';
 export { tableFromCsv } from './cells/data.ts';
 export { studyTex, type StudyTex } from './sheet-tex.ts';
+export { unitChoicesFor, TRADE_UNITS } from './display-units.ts';

@@ -2,6 +2,8 @@ import { LitElement, html, nothing, css } from 'lit';
 import type { CellReport, ParametersCellDoc, Report } from './types.ts';
 import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
 import '../expr-field.ts';
+import '../unit-pick.ts';
+import type { UnitPickDetail } from '../unit-pick.ts';
 
 interface Entry { value: number; unit: string; si: number; range?: Array<{ value: number; unit: string }> }
 
@@ -16,7 +18,8 @@ export class ParametersCellElement extends LitElement {
   static override styles = [cellStyles, css`
     table { table-layout: fixed; }
     col.name { width: 8.5rem; } col.now { width: 9rem; } col.note { width: 11rem; } col.remove { width: 2.5rem; }
-    td.result { overflow: hidden; text-overflow: ellipsis; }
+    td.result { overflow: hidden; text-overflow: ellipsis; white-space: nowrap; }
+    td.result .foot-error { white-space: normal; }
     input.name { width: 100%; box-sizing: border-box; }
     td input[type='text']:not(.name) { width: 100%; box-sizing: border-box; }
     @media (max-width: 700px) { col.note { width: 0; } .hide-narrow { display: none; } }
@@ -43,7 +46,9 @@ export class ParametersCellElement extends LitElement {
                 .error=${claims.take(`.items[${j}].value`) ?? claims.take(`.items[${j}].range[0]`) ?? claims.take(`.items[${j}].range[1]`)}
                 @expr-input=${(e: CustomEvent<{ value: string }>) => this.change(j, { value: e.detail.value }, `value${j}`)}></expr-field>
                 ${entry?.range ? this.slider(j, entry) : nothing}</td>
-              <td class="result">${entry ? showQ(entry) : ''}</td>
+              <td class="result">${entry ? showQ(entry) : ''}${entry ? html`<unit-pick .unit=${entry.unit} .picked=${item.unit} label="Show ${item.name} in another unit"
+                @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.change(j, { unit: e.detail.unit }, `unit${j}`)}></unit-pick>` : nothing}
+                ${footError(claims.take(`.items[${j}].unit`))}</td>
               <td class="hide-narrow"><input type="text" aria-label="Note on ${item.name}" .value=${item.note ?? ''}
                 @input=${(e: Event) => this.change(j, { note: (e.target as HTMLInputElement).value || undefined }, `note${j}`)} /></td>
               <td><button class="quiet" aria-label="Remove ${item.name || `parameter ${j + 1}`}" @click=${() => this.removeItem(j)}>✕</button></td>
@@ -70,7 +75,7 @@ export class ParametersCellElement extends LitElement {
 
   private change(j: number, patch: Record<string, unknown>, key: string) {
     const items = this.cell.items.map((it, i) => (i === j ? { ...it, ...patch } : it));
-    for (const it of items) if (it.note === undefined) delete it.note;
+    for (const it of items) { if (it.note === undefined) delete it.note; if (it.unit === undefined) delete it.unit; }
     this.dispatchEvent(editEvent({ ...this.cell, items }, `${this.cell.id}:${key}`));
   }
 
@@ -84,6 +89,10 @@ export class ParametersCellElement extends LitElement {
   private removeItem(j: number) {
     this.dispatchEvent(editEvent({ ...this.cell, items: this.cell.items.filter((_, i) => i !== j) }));
   }
+}
+
+function footError(e: { message: string } | undefined) {
+  return e ? html`<div class="foot-error" role="alert">${e.message}</div>` : nothing;
 }
 
 customElements.define('parameters-cell', ParametersCellElement);

@@ -3,6 +3,8 @@ import type { CellReport, Report, SimulateCellDoc } from './types.ts';
 import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
 import { exportSeriesCsv } from '../series-csv.ts';
 import '../expr-field.ts';
+import '../unit-pick.ts';
+import type { UnitPickDetail } from '../unit-pick.ts';
 import '../plots/time-plot.ts';
 
 type EventDoc = NonNullable<SimulateCellDoc['events']>[number];
@@ -121,8 +123,9 @@ export class SimulateCellElement extends LitElement {
           <td><input class="name" type="text" aria-label="Question ${i + 1} state" .value=${String(f[kind] ?? '')} @input=${(e: Event) => this.setFind(i, { ...f, [kind]: (e.target as HTMLInputElement).value }, `fstate${i}`)} /></td>
           <td>${needsLevel || kind === 'valueOf' ? html`<expr-field label="Question ${i + 1} ${needsLevel ? 'level' : 'time'}" .value=${(needsLevel ? f.level : f.at) ?? ''} .names=${names}
             .error=${claims.take(`${p}.${needsLevel ? 'level' : 'at'}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setFind(i, { ...f, [needsLevel ? 'level' : 'at']: e.detail.value }, `flevel${i}`)}></expr-field>` : nothing}</td>
-          <td class="result">${r ? (r.notReached ? html`<span class="muted">${r.message}</span>` : showQ(r as { value: number; unit: string; si: number })) : ''}
-            ${claims.take(p) ? html`<div class="foot-error">${claims.take(p)!.message}</div>` : nothing}</td>
+          <td class="result">${r ? (r.notReached ? html`<span class="muted">${r.message}</span>` : showQ(r as { value: number; unit: string; si: number })) : ''}${r && !r.notReached ? html`<unit-pick .unit=${r.unit ?? ''} .picked=${f.unit} label="Show ${f.name} in another unit"
+              @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.setFind(i, withUnit(f, e.detail.unit))}></unit-pick>` : nothing}
+            ${this.footError(claims.take(p) ?? claims.take(`${p}.unit`))}</td>
           <td><button class="quiet" aria-label="Remove question ${i + 1}" @click=${() => this.change({ find: finds.filter((_, j) => j !== i) })}>✕</button></td>
         </tr>`;
       })}</tbody></table></div>
@@ -166,6 +169,10 @@ export class SimulateCellElement extends LitElement {
     this.change({ find: (this.cell.find ?? []).map((x, j) => (j === i ? f : x)) }, key);
   }
 
+  private footError(e: { message: string } | undefined) {
+    return e ? html`<div class="foot-error" role="alert">${e.message}</div>` : nothing;
+  }
+
   private change(patch: Partial<SimulateCellDoc>, key?: string) {
     this.dispatchEvent(editEvent({ ...this.cell, ...patch }, key ? `${this.cell.id}:${key}` : undefined));
   }
@@ -207,6 +214,12 @@ function freshFindName(finds: readonly FindDoc[]): string {
   let n = finds.length + 1;
   while (used.has(`q${n}`)) n++;
   return `q${n}`;
+}
+
+/** A question with the unit its answer is shown in set, or cleared when `unit` is undefined. */
+function withUnit(f: FindDoc, unit: string | undefined): FindDoc {
+  const { unit: _old, ...rest } = f;
+  return unit === undefined ? rest as FindDoc : { ...rest, unit } as FindDoc;
 }
 
 customElements.define('simulate-cell', SimulateCellElement);

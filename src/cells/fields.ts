@@ -9,8 +9,9 @@ import { literalOf, type Literal } from '../expression/literal.ts';
 import type { CellError, Outcome, RunContext, Use } from '../node.ts';
 import type { Quantity } from '../quantity.ts';
 import { describe, plain } from '../quantity.ts';
-import { TIME } from '../dimension.ts';
-import type { DisplayUnit } from '../units.ts';
+import { unitDim, type DisplayUnit } from '../units.ts';
+import { TIME, sameDim, describeDim } from '../dimension.ts';
+import { unitFromText } from '../unit-text.ts';
 
 export interface Field {
   readonly path: string;
@@ -80,6 +81,21 @@ export class FieldError extends Error {
   constructor(readonly error: CellError) {
     super(error.message);
   }
+}
+
+/**
+ * `q` to be shown in the unit the study picked for it (a parameter's or an answer's `unit`),
+ * or `q` as it is when none was picked. A text that is not a unit, or a unit of another
+ * dimension, is an error on that field.
+ */
+export function shownAs(q: Quantity, text: unknown, path: string): Quantity {
+  if (typeof text !== 'string' || text.trim() === '') return q;
+  const unit = unitFromText(text);
+  if (!unit) throw new FieldError({ path, message: `"${text}" is not a unit (write it as in a value, such as mg / L or degF)` });
+  if (!sameDim(unitDim(unit), q.dim)) {
+    throw new FieldError({ path, message: `${describe(q)} cannot be shown in ${text}: it is ${describeDim(q.dim)}, and ${text} is ${describeDim(unitDim(unit))}` });
+  }
+  return { ...q, unit };
 }
 
 /** Runs a node's work; a FieldError thrown inside becomes the node's error on its field. */

@@ -1,7 +1,7 @@
 /** A parameters cell: one graph node per parameter, so that editing one re-runs only its users. */
 import type { ParametersCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Outcome } from '../node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
 import { report, describe, valueIn, shownUnit } from '../quantity.ts';
 import { formatUnit } from '../units.ts';
 import { sameDim, describeDim } from '../dimension.ts';
@@ -24,15 +24,15 @@ export function parameterNodes(cell: ParametersCell, at: string): GraphNode[] {
       allowsStates: false,
       signature: JSON.stringify(item ?? null),
       problems,
-      run: (ctx) => runParameter(name, value!, range, ctx),
+      run: (ctx) => runParameter(name, value!, range, ctx, item?.unit, `${path}.unit`),
     } satisfies GraphNode;
   });
 }
 
-function runParameter(name: string, value: Field, range: ReadonlyArray<Field | undefined>, ctx: Parameters<GraphNode['run']>[0]): Outcome {
+function runParameter(name: string, value: Field, range: ReadonlyArray<Field | undefined>, ctx: Parameters<GraphNode['run']>[0], shownIn: unknown, unitPath: string): Outcome {
   return guarded(() => {
     const lookup = lookupFrom(ctx);
-    const q = finiteQuantityOf(value, lookup);
+    const q = shownAs(finiteQuantityOf(value, lookup), shownIn, unitPath);
     const entry: Record<string, unknown> = { ...report(q) };
     if (range.length === 2) {
       const [lo, hi] = range.map((f) => finiteQuantityOf(f!, lookup));

@@ -7,7 +7,7 @@ import type { SimulateCell, FindQuery, ScheduleEvent } from '../study/types.ts';
 import { FIND_KINDS } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
 import { cellRef } from '../node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
 import { type Quantity, report, describe, valueIn, tidy, deltaUnit } from '../quantity.ts';
 import { sameDim, describeDim, divDim, mulDim, TIME } from '../dimension.ts';
 import { type DisplayUnit, formatUnit, mulUnits, unitFactor } from '../units.ts';
@@ -165,7 +165,7 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
     if (atT !== undefined && (atT < from.si || atT > to.si)) fail(fq.at!.path, `the time ${describe(asTime(atT))} is outside the run`);
     let quadrature = -1;
     if (fq.kind === 'integralOf') { quadrature = states.length + integrals.length; integrals.push(si!); }
-    return { ...fq, name: fq.q.name, state, si: si!, level, span, atT, quadrature, path };
+    return { ...fq, name: fq.q.name, state, si: si!, level, span, atT, quadrature, path, unitPath: `${path}.unit` };
   });
 
   // tolerances
@@ -227,7 +227,9 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
   const reasons = new Map<string, string>();
   const found: FoundText[] = [];
   const marks: Array<{ name: string; state: string; t: number; value: Quantity; answer: string }> = [];
-  const give = (name: string, q: Quantity, what: string) => {
+  const give = (name: string, given: Quantity, what: string) => {
+    const fq = finds.find((f) => f.q.name === name);
+    const q = fq ? shownAs(given, fq.q.unit, fq.unitPath) : given;
     results[name] = report(q);
     bindings.set(name, { kind: 'value', q, sig: quantitySig(q) });
     found.push({ name, what, answer: describe(q) });

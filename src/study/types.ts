@@ -19,6 +19,8 @@ export interface ParameterItem {
   value: string;
   range?: [string, string];
   note?: string;
+  /** The unit to show the value in (optional; the unit written in `value` otherwise). */
+  unit?: string;
 }
 
 export interface ParametersCell extends CellBase { kind: 'parameters'; items: ParameterItem[] }
@@ -57,6 +59,8 @@ export interface FindQuery {
   at?: string;
   from?: string;
   to?: string;
+  /** The unit to show the answer in (optional). */
+  unit?: string;
 }
 
 export interface SimulateCell extends CellBase {

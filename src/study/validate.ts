@@ -109,6 +109,7 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
             }
           }
           p.optionalText(item, 'note', path);
+          p.optionalText(item, 'unit', path);
         });
       }
       break;
@@ -229,6 +230,7 @@ function checkSimulate(c: Record<string, unknown>, p: Checker): void {
       const path = `find[${j}]`;
       if (!p.object(f, path)) return;
       p.name(f, 'name', path);
+      p.optionalText(f, 'unit', path);
       const kinds = FIND_KINDS.filter((k) => own(f, k));
       if (kinds.length !== 1) {
         p.add(`${p.at}.${path}`, `must have exactly one of ${FIND_KINDS.join(', ')}`);

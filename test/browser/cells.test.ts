@@ -51,6 +51,27 @@ describe('cell elements', () => {
     expect(d.mergeKey).to.equal('p:value1');
   });
 
+  it('parameters-cell: a unit menu beside a result offers units of its dimension and writes the pick', async () => {
+    const { el } = await mount('parameters-cell', [{ id: 'p', kind: 'parameters', items: [{ name: 'Q', value: '2 L / min' }, { name: 'n', value: '3' }] }], 'p');
+    const picks = [...el.shadowRoot!.querySelectorAll('unit-pick')] as Array<HTMLElement & { updateComplete: Promise<unknown> }>;
+    expect(picks.length, 'a plain number gets no menu').to.equal(2);
+    await picks[0].updateComplete;
+    const select = picks[0].shadowRoot!.querySelector('select')!;
+    const offered = [...select.options].filter((o) => !o.hidden).map((o) => o.value);
+    expect(offered).to.include.members(['L / h', 'gal / min', 'm^3 / s']);
+    expect(picks[1].shadowRoot!.querySelector('select'), 'nothing to offer a plain number').to.equal(null);
+    const edit = nextEdit(el);
+    select.value = 'gal / min';
+    select.dispatchEvent(new Event('change'));
+    const d = await edit;
+    expect((d.cell.items as Array<{ unit?: string }>)[0].unit).to.equal('gal / min');
+  });
+
+  it('parameters-cell: a unit of the wrong dimension is shown under its result', async () => {
+    const { el } = await mount('parameters-cell', [{ id: 'p', kind: 'parameters', items: [{ name: 'P', value: '3 kW', unit: 'mg' }] }], 'p');
+    expect(el.shadowRoot!.querySelector('td.result .foot-error')!.textContent).to.match(/cannot be shown in mg/);
+  });
+
   it('rate-cell: the law, its unit and start, the rate at the start, a dimension error on the rate', async () => {
     const { el } = await mount('rate-cell', [inputs, { ...law, rate: '-k' }], 'law');
     expect(field(el, 'Rate law: the rate of change of T').error?.message).to.match(/rate of T must be temperature per time/);
