@@ -16,6 +16,7 @@ export class StudyLibrary extends LitElement {
   static override styles = css`
     :host { display: block; }
     h2 { font-size: 1.1rem; margin: 1.2rem 0 0.5rem; }
+    h3 { font-size: 0.95rem; margin: 1rem 0 0.4rem; color: #2c3e50; }
     ul { list-style: none; padding: 0; margin: 0; }
     li { display: flex; flex-wrap: wrap; align-items: center; gap: 0.5rem; padding: 0.45rem 0.6rem; border: 1px solid #d0d7de; border-radius: 5px; background: #fff; margin-bottom: 0.4rem; }
     li .t { flex: 1 1 14rem; min-width: 0; }
@@ -64,8 +65,10 @@ export class StudyLibrary extends LitElement {
       <input class="search" type="search" placeholder="Search the templates" aria-label="Search the templates" .value=${this.filter} @input=${(e: Event) => { this.filter = (e.target as HTMLInputElement).value; }} />
       <div class="templates">
         <button class="template" @click=${() => this.create()}><strong>Blank study</strong><span>Start from nothing.</span></button>
-        ${templates.map((t) => html`<button class="template" data-template=${t.key} @click=${() => this.create(t.doc)}><strong>${t.title}</strong><span>${t.description}</span></button>`)}
       </div>
+      ${[...new Set(templates.map((t) => t.group))].map((group) => html`<h3>${group}</h3>
+        <div class="templates">${templates.filter((t) => t.group === group).map((t) => html`<button class="template" data-template=${t.key} @click=${() => this.create(t.doc)}><strong>${t.title}</strong><span>${t.description}</span></button>`)}</div>`)}
+      ${q && templates.length === 0 ? html`<p class="empty">No template matches "${this.filter}".</p>` : nothing}
       <h2>Import</h2>
       <label>Open a study file (.ratebook.json): <input type="file" accept=".json,application/json" @change=${this.importFile} /></label>
       ${this.trash.length ? html`<h2>Trash</h2><ul>${this.trash.map((s) => html`<li>

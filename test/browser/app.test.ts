@@ -3,6 +3,7 @@
 import { expect } from 'chai';
 import '../../components/app.ts';
 import * as store from '../../components/store.ts';
+import { TEMPLATES, GROUPS } from '../../components/templates.ts';
 
 async function until(check: () => boolean, what: string, ms = 8000) {
   const end = performance.now() + ms;
@@ -30,5 +31,27 @@ describe('ratebook-app', () => {
     expect(stored?.doc.title).to.equal('Cooling a stock pot: bench, then walk-in');
     expect((await store.listStudies()).length).to.equal(before + 1);
     await until(() => !!app.shadowRoot!.querySelector('study-view'), 'the study view');
+  });
+
+  it('lists every template under the heading of its trade, and the search narrows the list', async () => {
+    expect(TEMPLATES.filter((t) => !Object.values(GROUPS).some((keys) => keys.includes(t.key))).map((t) => t.key), 'templates without a heading').to.deep.equal([]);
+    location.hash = '#/';
+    const app = document.createElement('ratebook-app');
+    document.body.append(app);
+    await app.updateComplete;
+    const library = app.shadowRoot!.querySelector('study-library')!;
+    await until(() => !!library.shadowRoot?.querySelector('button.template[data-template]'), 'the templates');
+    const root = library.shadowRoot!;
+    expect([...root.querySelectorAll('h3')].map((h) => h.textContent)).to.deep.equal(Object.keys(GROUPS));
+    expect(root.querySelectorAll('button.template[data-template]').length).to.equal(TEMPLATES.length);
+    const search = root.querySelector('input.search') as HTMLInputElement;
+    search.value = 'orifice';
+    search.dispatchEvent(new Event('input'));
+    await (library as unknown as { updateComplete: Promise<unknown> }).updateComplete;
+    expect([...root.querySelectorAll('button.template[data-template]')].map((b) => b.getAttribute('data-template'))).to.deep.equal(['tank-draining-orifice']);
+    search.value = 'nothing like this';
+    search.dispatchEvent(new Event('input'));
+    await (library as unknown as { updateComplete: Promise<unknown> }).updateComplete;
+    expect(root.textContent).to.contain('No template matches');
   });
 });
