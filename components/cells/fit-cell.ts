@@ -2,6 +2,8 @@ import { LitElement, html, nothing, css } from 'lit';
 import type { Cell, CellReport, Report } from '../../src/index.ts';
 import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
 import '../expr-field.ts';
+import '../unit-pick.ts';
+import type { UnitPickDetail } from '../unit-pick.ts';
 import '../plots/time-plot.ts';
 
 type FitDoc = Extract<Cell, { kind: 'fit' }>;
@@ -58,7 +60,9 @@ export class FitCellElement extends LitElement {
             <td><expr-field label="Estimate ${i + 1} guess" .value=${e.guess ?? ''} .names=${names} .error=${claims.take(`${p}.guess`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { guess: ev.detail.value }, `g${i}`)}></expr-field></td>
             <td><expr-field label="Estimate ${i + 1} lower bound" .value=${e.min ?? ''} .names=${names} .error=${claims.take(`${p}.min`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { min: ev.detail.value || undefined }, `min${i}`)}></expr-field></td>
             <td><expr-field label="Estimate ${i + 1} upper bound" .value=${e.max ?? ''} .names=${names} .error=${claims.take(`${p}.max`) ?? claims.take(`${p}`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { max: ev.detail.value || undefined }, `max${i}`)}></expr-field></td>
-            <td class="result">${res ? `${showQ(res.value)}${res.atBound ? ' (at a bound)' : ''}` : ''}</td>
+            <td class="result">${res ? `${showQ(res.value)}${res.atBound ? ' (at a bound)' : ''}` : ''}${res ? html`<unit-pick .unit=${res.value.unit} .picked=${e.unit} label="Show ${e.as} in another unit"
+              @unit-pick=${(ev: CustomEvent<UnitPickDetail>) => this.setEstimate(i, { unit: ev.detail.unit }, `unit${i}`)}></unit-pick>` : nothing}
+              ${claims.take(`${p}.unit`) ? html`<div class="foot-error">${claims.take(`${p}.unit`)!.message}</div>` : nothing}</td>
             <td class="result">${res?.standardError ? showQ(res.standardError) : ''}</td>
             <td class="result">${res?.ci95 ? `${showQ(res.ci95[0])} to ${showQ(res.ci95[1])}` : ''}</td>
             <td><button class="quiet" aria-label="Remove estimate ${i + 1}" @click=${() => this.change({ estimate: c.estimate.filter((_, j) => j !== i) })}>✕</button></td>
@@ -110,7 +114,7 @@ export class FitCellElement extends LitElement {
     const estimate = this.cell.estimate.map((e, j) => {
       if (j !== i) return e;
       const next = { ...e, ...patch } as Record<string, unknown>;
-      for (const k of ['min', 'max']) if (next[k] === undefined) delete next[k];
+      for (const k of ['min', 'max', 'unit']) if (next[k] === undefined) delete next[k];
       return next as unknown as Estimate;
     });
     this.change({ estimate }, key);

@@ -1,6 +1,8 @@
 import { LitElement, html, nothing } from 'lit';
 import type { Cell, CellReport, Report } from '../../src/index.ts';
 import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
+import '../unit-pick.ts';
+import type { UnitPickDetail } from '../unit-pick.ts';
 import '../expr-field.ts';
 
 type NcaDoc = Extract<Cell, { kind: 'nca' }>;
@@ -47,11 +49,25 @@ export class NcaCellElement extends LitElement {
           ${[3, 4, 5, 6].map((n) => html`<option value=${n} ?selected=${c.terminal === n}>last ${n} points</option>`)}</select></label>
         <label>Prefix <input class="name" type="text" .value=${c.prefix ?? ''} @input=${(e: Event) => this.change({ prefix: (e.target as HTMLInputElement).value }, 'prefix')} /></label>
       </div>
-      ${Object.keys(values).length ? html`<table><tbody>${Object.entries(values).map(([name, q]) => html`<tr><td>${name}</td><td class="result">${name.endsWith('AUCextrap') ? `${showQ(q)} %` : showQ(q)}</td></tr>`)}</tbody></table>` : nothing}
+      ${Object.keys(values).length ? html`<table><tbody>${Object.entries(values).map(([name, q]) => html`<tr><td>${name}</td><td class="result">${name.endsWith('AUCextrap') ? `${showQ(q)} %` : showQ(q)}<unit-pick .unit=${q.unit} .picked=${c.units?.[this.bare(name)]} label="Show ${name} in another unit"
+        @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.pickUnit(this.bare(name), e.detail.unit)}></unit-pick></td></tr>`)}</tbody></table>` : nothing}
       ${this.report?.pointsUsed ? html`<p class="muted">Terminal phase from ${(this.report.pointsUsed as { count: number }).count} points.</p>` : nothing}
       ${this.report?.note ? html`<p class="muted">${String(this.report.note)}</p>` : nothing}
       ${((this.report?.warnings ?? []) as string[]).map((w) => html`<p class="foot-error">${w}</p>`)}
       ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+  }
+
+  /** A result's name without the cell's prefix (the key of `units`). */
+  private bare(name: string): string {
+    const prefix = this.cell.prefix ?? '';
+    return prefix && name.startsWith(prefix) ? name.slice(prefix.length) : name;
+  }
+
+  private pickUnit(name: string, unit: string | undefined) {
+    const { [name]: _old, ...rest } = this.cell.units ?? {};
+    const units = unit === undefined ? rest : { ...rest, [name]: unit };
+    const { units: _u, ...cell } = this.cell;
+    this.dispatchEvent(editEvent(Object.keys(units).length ? { ...cell, units } : cell));
   }
 
   private change(patch: Partial<NcaDoc>, key?: string) {

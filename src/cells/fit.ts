@@ -7,7 +7,7 @@
 import type { FitCell } from '../study/types.ts';
 import type { Binding, CellError, DataTable, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
 import { cellRef } from '../node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
 import { type Quantity, report, describe, deltaUnit, valueIn } from '../quantity.ts';
 import { sameDim, describeDim, TIME } from '../dimension.ts';
 import { formatUnit, unitDim } from '../units.ts';
@@ -116,7 +116,8 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     const upper = bound(g.max, 'upper bound', Infinity);
     if (!(lower < upper)) fail(`${path}.max`, 'the upper bound must be above the lower bound');
     if (guess < lower || guess > upper) fail(g.guess.path, `the guess lies outside the bounds`);
-    return { kind, name: e.parameter, as: e.as, index, template: { ...template, unit: g.guess ? finiteQuantityOf(g.guess, lookup).unit : template.unit }, guess, lower, upper };
+    const written = { ...template, unit: g.guess ? finiteQuantityOf(g.guess, lookup).unit : template.unit };
+    return { kind, name: e.parameter, as: e.as, index, template: shownAs(written, e.unit, `${path}.unit`), guess, lower, upper };
   });
 
   // the residuals: every observed value with a time

@@ -4,10 +4,10 @@
  * (percent), lambda_z, t_half, CL (CL/F after an extravascular dose), Vz, AUMClast, MRT and
  * r2adj, each with the cell's prefix, in the units of the data and the dose.
  */
-import type { NcaCell } from '../study/types.ts';
+import { NCA_RESULTS, type NcaCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Outcome, RunContext } from '../node.ts';
 import { cellRef } from '../node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
 import { type Quantity, report, describe } from '../quantity.ts';
 import { sameDim, describeDim, TIME } from '../dimension.ts';
 import { type DisplayUnit, mulUnits, unitDim, NO_UNIT } from '../units.ts';
@@ -86,7 +86,7 @@ function runNca(cell: NcaCell, at: string, prefix: string, doseField: Field, dur
       reasons.set(full, `"${full}" is not defined for this profile${r.warnings.length ? `: ${r.warnings[0]}` : ''}`);
       continue;
     }
-    const quantity = q(si, unit);
+    const quantity = shownAs(q(si, unit), cell.units?.[name], `${at}.units.${name}`);
     out[full] = report(quantity);
     bindings.set(full, { kind: 'value', q: quantity, sig: quantitySig(quantity) });
   }
@@ -104,4 +104,4 @@ function runNca(cell: NcaCell, at: string, prefix: string, doseField: Field, dur
 }
 
 /** The names an nca cell defines, before its prefix (the study-format contract). */
-export const NCA_NAMES = ['Cmax', 'tmax', 'Clast', 'tlast', 'AUClast', 'AUCinf', 'AUCextrap', 'lambda_z', 't_half', 'CL', 'Vz', 'AUMClast', 'MRT', 'r2adj'];
+export const NCA_NAMES = NCA_RESULTS;

@@ -79,7 +79,7 @@ export interface DataColumn { name: string; unit: string }
 export interface DataCell extends CellBase { kind: 'data'; columns: DataColumn[]; rows?: Array<Array<number | null>>; csv?: string }
 
 export const WEIGHTINGS = ['none', 'relative', 'proportional'] as const;
-export interface FitEstimate { parameter: string; as: string; guess: string; min?: string; max?: string }
+export interface FitEstimate { parameter: string; as: string; guess: string; min?: string; max?: string; /** unit to show the estimate in (optional) */ unit?: string }
 export interface FitCell extends CellBase {
   kind: 'fit';
   rates: string[];
@@ -91,6 +91,8 @@ export interface FitCell extends CellBase {
 }
 
 export const ROUTES = ['iv-bolus', 'infusion', 'extravascular'] as const;
+/** What a profile summary defines (each with the cell's prefix). */
+export const NCA_RESULTS: readonly string[] = ['Cmax', 'tmax', 'Clast', 'tlast', 'AUClast', 'AUCinf', 'AUCextrap', 'lambda_z', 't_half', 'CL', 'Vz', 'AUMClast', 'MRT', 'r2adj'];
 export const AUC_RULES = ['linear', 'linear-up-log-down'] as const;
 export interface NcaCell extends CellBase {
   kind: 'nca';
@@ -103,6 +105,8 @@ export interface NcaCell extends CellBase {
   auc?: (typeof AUC_RULES)[number];
   terminal?: 'auto' | number;
   prefix?: string;
+  /** Units to show results in, by result name without the prefix (optional): { "CL": "L / h" }. */
+  units?: Record<string, string>;
 }
 
 export interface NoteCell extends CellBase { kind: 'note'; text: string }

@@ -7,7 +7,7 @@
  */
 import {
   type Cell, type Study, CELL_KINDS, CURRENT_VERSION, FORMAT, ID_PATTERN, NAME_PATTERN,
-  METHODS, FIND_KINDS, WEIGHTINGS, ROUTES, AUC_RULES,
+  METHODS, FIND_KINDS, WEIGHTINGS, ROUTES, AUC_RULES, NCA_RESULTS,
 } from './types.ts';
 import { migrate } from './migrate.ts';
 
@@ -158,6 +158,7 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
           p.expr(e, 'guess', path);
           if (e.min !== undefined) p.expr(e, 'min', path);
           if (e.max !== undefined) p.expr(e, 'max', path);
+          p.optionalText(e, 'unit', path);
         });
       }
       p.oneOf(c, 'weighting', WEIGHTINGS, true);
@@ -171,6 +172,12 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
       if (c.route === 'infusion') p.expr(c, 'duration');
       else if (c.duration !== undefined) p.expr(c, 'duration');
       p.oneOf(c, 'auc', AUC_RULES, true);
+      if (c.units !== undefined && p.object(c.units, 'units')) {
+        for (const [name, unit] of Object.entries(c.units)) {
+          if (!NCA_RESULTS.includes(name)) p.add(`${at}.units.${name}`, `"${name}" is not a result of the profile summary (they are ${NCA_RESULTS.join(', ')})`);
+          else if (typeof unit !== 'string') p.add(`${at}.units.${name}`, 'must be a unit, as text');
+        }
+      }
       if (c.terminal !== undefined && c.terminal !== 'auto' && !(Number.isInteger(c.terminal) && (c.terminal as number) >= 3)) {
         p.add(`${at}.terminal`, 'must be "auto" or a whole number of last points, 3 or more');
       }

@@ -145,6 +145,27 @@ describe('cell elements', () => {
     expect((await edit).cell.route).to.equal('extravascular');
   });
 
+  it('nca-cell: a result switched to another unit is written to units, and "as written" clears it', async () => {
+    const data = { id: 'd', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[1, 8.2], [2, 6.7], [4, 4.5], [8, 2.0]] };
+    const nca = { id: 'n', kind: 'nca', data: 'd', time: 't', concentration: 'C', dose: '500 mg', route: 'iv-bolus', prefix: 'p_', units: { tmax: 'min' } };
+    const { el } = await mount('nca-cell', [data, nca], 'n');
+    const pickFor = async (name: string) => {
+      const pick = [...el.shadowRoot!.querySelectorAll('unit-pick')].find((p) => p.getAttribute('label') === `Show ${name} in another unit`) as HTMLElement & { updateComplete: Promise<unknown> };
+      await pick.updateComplete;
+      return pick.shadowRoot!.querySelector('select')!;
+    };
+    let edit = nextEdit(el);
+    const cl = await pickFor('p_CL');
+    cl.value = 'mL / min';
+    cl.dispatchEvent(new Event('change'));
+    expect((await edit).cell.units).to.deep.equal({ tmax: 'min', CL: 'mL / min' });
+    edit = nextEdit(el);
+    const tmax = await pickFor('p_tmax');
+    tmax.value = '=';
+    tmax.dispatchEvent(new Event('change'));
+    expect((await edit).cell.units).to.equal(undefined);
+  });
+
   it('fit-cell: estimates with their uncertainty, the fitted curve and residuals, an error on a guess, edits', async () => {
     const data = { id: 'd', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'T', unit: 'degC' }], rows: [[0, 70], [1, 43.7], [2, 27.7], [3, 18.1]] };
     const fit = { id: 'f', kind: 'fit', rates: ['law'], data: 'd', time: 't', observe: { T: 'T' }, estimate: [{ parameter: 'k', as: 'k_hat', guess: '0.3 / h' }] };

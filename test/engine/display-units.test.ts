@@ -106,3 +106,51 @@ describe('units offered in the picker', () => {
     assert.deepEqual([...unitChoicesFor('')], []);
   });
 });
+
+describe('fit estimates and profile values in a picked unit', () => {
+  const samples = { id: 'samples', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0.5, 9.05], [1, 8.19], [2, 6.70], [4, 4.49], [8, 2.02], [12, 0.91]] };
+
+  it('a profile summary shows CL in mL/min when asked, the same clearance as in L/h', () => {
+    // 1 L/h = 1000 mL / 60 min (definition of the units)
+    const base = { id: 'nca', kind: 'nca', data: 'samples', time: 't', concentration: 'C', dose: '500 mg', route: 'iv-bolus' };
+    const run = (extra: Record<string, unknown>) => {
+      const r = runStudy({ format: 'ratebook-study', version: 1, title: 'n', cells: [samples, { ...base, ...extra }] });
+      assert.ok(r.ok);
+      return (r as { report: { cells: CellReport[] } }).report.cells[1];
+    };
+    const plain = (run({}).values as Record<string, Q>).CL;
+    const picked = run({ units: { CL: 'mL / min' } });
+    const cl = (picked.values as Record<string, Q>).CL;
+    assert.equal(cl.unit, 'mL / min');
+    close(cl.si, plain.si, 1e-12);
+    close(cl.value, plain.si * 1e6 * 60, 1e-9);
+    const wrong = run({ units: { CL: 'h' } });
+    assert.equal(wrong.error?.path, 'cells[1].units.CL');
+    const unknown = runStudy({ format: 'ratebook-study', version: 1, title: 'n', cells: [samples, { ...base, units: { Cmean: 'mg / L' } }] });
+    assert.ok(unknown.ok);
+    assert.match((unknown as { report: { cells: CellReport[] } }).report.cells[1].error!.message, /"Cmean" is not a result/);
+  });
+
+  it('a fit estimate shown in another unit keeps its value, standard error and interval consistent', () => {
+    const cellsOf = (unit?: string) => [
+      samples,
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.2 / h' }, { name: 'C0', value: '10 mg / L' }] },
+      { id: 'law', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-k * C', initial: 'C0' },
+      { id: 'fit', kind: 'fit', rates: ['law'], data: 'samples', time: 't', observe: { C: 'C' }, estimate: [{ parameter: 'k', as: 'k_fit', guess: '0.1 / h', ...(unit ? { unit } : {}) }, { parameter: 'C', as: 'C0_fit', guess: '8 mg / L' }] },
+    ];
+    const est = (unit?: string) => {
+      const r = runStudy({ format: 'ratebook-study', version: 1, title: 'f', cells: cellsOf(unit) });
+      assert.ok(r.ok);
+      const c = (r as { report: { cells: CellReport[] } }).report.cells[3];
+      assert.ok(c.ok, c.error?.message);
+      return (c.estimates as Record<string, { value: Q; standardError: Q; ci95: [Q, Q] }>).k_fit;
+    };
+    const h = est();
+    const d = est('1 / d');
+    assert.equal(d.value.unit, '1 / d');
+    close(d.value.si, h.value.si, 1e-9);
+    close(d.value.value, h.value.value * 24, 1e-9);
+    close(d.standardError.value, h.standardError.value * 24, 1e-9);
+    close(d.ci95[1].value, h.ci95[1].value * 24, 1e-9);
+  });
+});
