@@ -1,19 +1,24 @@
 /**
  * Cautions a study must carry, decided from what it models: doses (a schedule that adds to or
  * infuses into a state, a non-compartmental analysis, or a name about dosing), and
- * temperature limits for food (a temperature state checked against a level). The wording
+ * temperature limits (a temperature state checked against a level): the food code's when the
+ * study speaks of food, the applicable rules' otherwise. The wording
  * defers to licensed practice and local codes; it never gives advice of its own.
  */
 import type { Cell } from './study/types.ts';
 
 export interface Caution {
-  readonly kind: 'dosing' | 'temperature-limits';
+  readonly kind: 'dosing' | 'temperature-limits' | 'temperature-practice';
   readonly text: string;
 }
 
 export const DOSING_CAUTION = 'This study models doses. It is an analysis aid, not a dosing instruction: every dose must be chosen and checked by a licensed professional against local protocols and the product information.';
 export const TEMPERATURE_CAUTION = 'Limits for cooling and holding food differ between codes and places: check each limit against the food code that applies where you work.';
 
+export const PRACTICE_CAUTION = 'Temperature limits and handling rules come from codes, standards and the makers of the equipment, and differ between places: check each limit against the rules that apply to your work.';
+
+/** Words that say a temperature study is about food. */
+const FOOD_WORDS = /\b(food|cook|cooked|chill|chiller|walk-in|refrigerat|fridge|freezer|rice|stock pot|soup|stew|chili|sauce|meat|poultry|kitchen|hot[- ]holding|cold[- ]holding)/i;
 const DOSING_WORDS = /dose|dosing|bolus|infus|regimen|mg\s*\/\s*kg/i;
 const TEMPERATURE_UNITS = /\b(degC|degF|K|degR)\b/;
 
@@ -27,6 +32,9 @@ export function cautionsFor(cells: readonly Cell[]): Caution[] {
   const temperatureStates = new Set(cells.filter((c) => c.kind === 'rate' && typeof c.unit === 'string' && TEMPERATURE_UNITS.test(c.unit)).map((c) => (c as { state: string }).state));
   const checked = cells.some((c) => c.kind === 'simulate' && Array.isArray(c.find)
     && c.find.some((f) => f && typeof f.level === 'string' && [f.crossing, f.timeAbove, f.timeBelow].some((s) => typeof s === 'string' && temperatureStates.has(s))));
-  if (checked) out.push({ kind: 'temperature-limits', text: TEMPERATURE_CAUTION });
+  // food temperatures get the food-code caution whether or not a limit is checked (a fitted
+  // cooling curve predicts times to limits); other temperature checks (parts, tanks) a general one
+  if (temperatureStates.size > 0 && FOOD_WORDS.test(text)) out.push({ kind: 'temperature-limits', text: TEMPERATURE_CAUTION });
+  else if (checked) out.push({ kind: 'temperature-practice', text: PRACTICE_CAUTION });
   return out;
 }

@@ -19,6 +19,13 @@ it('a cooling check against a limit carries the food-code caution', () => {
   assert.deepEqual(kinds('cooling-stock-pot.ratebook.json'), ['temperature-limits']);
 });
 
+it('a temperature check that is not about food carries the general caution, not the food code', () => {
+  assert.deepEqual(kinds('convection-radiation-cooling.ratebook.json'), ['temperature-practice']);
+  assert.deepEqual(kinds('heating-constant-power.ratebook.json'), ['temperature-practice']);
+  assert.deepEqual(kinds('two-stage-cooling-check.ratebook.json'), ['temperature-limits']);
+  assert.deepEqual(kinds('cooling-data-fit.ratebook.json'), ['temperature-limits'], 'a fitted cooling curve of food, with no level checked');
+});
+
 it('a study with neither carries none', () => {
   assert.deepEqual(kinds('mixing-tank-flush.ratebook.json'), []);
 });
