@@ -32,7 +32,7 @@ export class StudyView extends LitElement {
   static override styles = css`
     :host { display: block; }
     .bar { display: flex; flex-wrap: wrap; gap: 0.5rem; align-items: center; margin: 0.4rem 0 1rem; }
-    .title { font-size: 1.4rem; font-weight: 650; border: 1px solid transparent; border-radius: 4px; padding: 0.15rem 0.35rem; flex: 1 1 18rem; min-width: 0; font-family: inherit; color: #13202b; background: transparent; }
+    .title { font-size: 1.4rem; font-weight: 650; border: 1px solid transparent; border-radius: 4px; padding: 0.15rem 0.35rem; flex: 1 1 100%; min-width: 0; font-family: inherit; color: #13202b; background: transparent; }
     .title:hover, .title:focus { border-color: #9aa6b1; background: #fff; }
     .status { font-size: 0.85rem; color: #4a5560; min-width: 7rem; }
     .status.busy::before { content: '● '; color: #b07800; }

@@ -24,6 +24,36 @@ const KIND_NAMES: Record<Cell['kind'], string> = {
   data: 'Measurements', fit: 'Fit', nca: 'Profile summary (non-compartmental)', note: 'Note',
 };
 
+/**
+ * Results at a glance, for the top of the sheet: every answer the runs found, every fitted
+ * estimate, and the main values of each profile summary, with the cell each comes from.
+ */
+export function glance(study: { cells: readonly Cell[] }, report: { cells: readonly CellReport[] }): TemplateResult | typeof nothing {
+  const rows: Array<{ name: string; shown: string; from: string }> = [];
+  for (const cell of study.cells) {
+    const r = report.cells.find((c) => c.id === cell.id);
+    if (!r?.ok) continue;
+    const from = cell.title || cell.id;
+    if (cell.kind === 'simulate') {
+      for (const [name, x] of Object.entries((r.results ?? {}) as Record<string, Q | { notReached: true; end: Q }>)) {
+        rows.push({ name, shown: 'notReached' in x ? `not reached by ${showQ(x.end)}` : showQ(x), from });
+      }
+    } else if (cell.kind === 'fit') {
+      for (const [name, e] of Object.entries((r.estimates ?? {}) as Record<string, { value: Q; standardError: Q | null }>)) {
+        rows.push({ name, shown: `${showQ(e.value)}${e.standardError ? ` ± ${showQ(e.standardError)} (SE)` : ''}`, from });
+      }
+    } else if (cell.kind === 'nca') {
+      for (const [name, q] of Object.entries((r.values ?? {}) as Record<string, Q>)) {
+        if (/(Cmax|tmax|AUCinf|t_half|CL|Vz)$/.test(name)) rows.push({ name, shown: showQ(q), from });
+      }
+    }
+  }
+  if (!rows.length) return nothing;
+  return html`<section class="cell glance"><h2>Results at a glance</h2>
+    <table><thead><tr><th>Result</th><th>Value</th><th>From</th></tr></thead>
+    <tbody>${rows.map((x) => html`<tr><td class="name">${x.name}</td><td class="num">${x.shown}</td><td class="from">${x.from}</td></tr>`)}</tbody></table></section>`;
+}
+
 export function section(cell: Cell, r: CellReport | undefined, tex: StudyTex, cells: readonly Cell[]): TemplateResult {
   const body = !r ? html`<p class="muted">Not computed.</p>`
     : !r.ok ? html`<p class="error">${r.waitsOn ? `Not computed: waits on ${r.waitsOn.join(', ')}.` : `Error: ${r.error?.message ?? 'unknown'}`}</p>`

@@ -1,6 +1,6 @@
 import { LitElement, html, css, nothing } from 'lit';
 import { studyTex, type Report, type Study, type StudyTex } from '../../src/index.ts';
-import { section } from './sections.ts';
+import { section, glance } from './sections.ts';
 
 /** What the sheet's header says about the stored study. */
 export interface SheetMeta {
@@ -51,6 +51,8 @@ export class StudySheet extends LitElement {
     figure svg { max-width: 100%; height: auto; }
     .equation { margin: 0.3rem 0; font-size: 12pt; break-inside: avoid; }
     .summary { font-style: italic; margin: 0.2rem 0 0.4rem; }
+    section.glance h2 { border-bottom-width: 1.5px; }
+    section.glance td.from { color: #444; font-size: 9pt; }
     .check { font-size: 9.5pt; margin: 0.2rem 0; }
     .note-text { white-space: pre-wrap; margin: 0.2rem 0; }
     .error { color: #8b0000; font-weight: 600; }
@@ -80,6 +82,7 @@ export class StudySheet extends LitElement {
         ${study.description ? html`<p class="description">${study.description}</p>` : nothing}
       </header>
       ${(this.report?.cautions ?? []).map((c) => html`<p class="caution"><strong>Caution.</strong> ${c.text}</p>`)}
+      ${this.report ? glance(study, this.report) : nothing}
       ${this.report ? study.cells.map((c) => section(c, byId.get(c.id), this.tex!, study.cells)) : html`<p class="muted">Computing…</p>`}
       ${warnings.length ? html`<section class="cell"><h2>Engine notes</h2>${warnings.map((w) => html`<p class="check">${w}</p>`)}</section>` : nothing}
       <footer>Every value on this sheet was computed by Ratebook from the inputs shown, with the units shown. It is an aid to analysis and does not replace professional judgement, local codes or licensed practice.</footer>`;

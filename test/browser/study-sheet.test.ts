@@ -51,6 +51,17 @@ describe('study-sheet', () => {
     }
   });
 
+  it('opens with the results at a glance: each answer, each estimate, with the cell it comes from', async () => {
+    const root = await sheetOf(plasma);
+    const glance = root.querySelector('section.glance')!;
+    const names = [...glance.querySelectorAll('td.name')].map((td) => td.textContent);
+    const report = reportOf(plasma);
+    const fit = report.cells.find((c) => c.kind === 'fit')!;
+    for (const name of Object.keys(fit.estimates as object)) expect(names).to.include(name);
+    expect(names).to.include.members(['CL', 't_half', 'AUCinf']);
+    expect(glance.textContent).to.contain('(SE)');
+  });
+
   it('has one section per cell, charts as SVG, and no controls', async () => {
     const root = await sheetOf(plasma);
     expect(root.querySelectorAll('section.cell').length).to.be.at.least(plasma.cells.length);
