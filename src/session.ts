@@ -241,7 +241,9 @@ export class StudySession {
       const slot = this.slots.get(use.name);
       if (!slot || slot.kind === 'unavailable') {
         const reason = slot?.reason ?? 'it has not been computed';
-        return { ok: false, error: { message: `waits on cell "${slot?.cell ?? this.graph.nodes.get(src.node)?.cell}": ${reason}`, path: use.path } };
+        // a reason that already names the same cell (a node waiting on a node of its own cell) is not named twice
+        const waits = `waits on cell "${slot?.cell ?? this.graph.nodes.get(src.node)?.cell}": `;
+        return { ok: false, error: { message: reason.startsWith(waits) ? reason : `${waits}${reason}`, path: use.path } };
       }
     }
     const ctx: RunContext = {

@@ -131,10 +131,11 @@ export function finiteQuantityOf(f: Field, lookup: Lookup): Quantity {
   return q;
 }
 
-/** A unit field ("mg / L"): numbers and units only, no study names. */
+/** A unit field ("mg / L"): numbers and units only, no study names; "1" for a plain number (a fraction, a ratio). */
 export function unitOf(f: Field): DisplayUnit {
   const lit: Literal | null = literalOf(f.expr, () => false, new WeakMap());
-  if (!lit || lit.unit.length === 0) throw new FieldError({ path: f.path, message: `unit "${f.text}" is not a unit: write one such as degC, mg / L or 1 / h` });
+  if (lit && lit.unit.length === 0 && lit.coef === 1 && f.text.trim() === '1') return lit.unit;
+  if (!lit || lit.unit.length === 0) throw new FieldError({ path: f.path, message: `unit "${f.text}" is not a unit: write one such as degC, mg / L or 1 / h (or 1 for a plain number)` });
   if (lit.coef !== 1) throw new FieldError({ path: f.path, message: `unit "${f.text}" must be a unit without a number, such as mg / L` });
   return lit.unit;
 }

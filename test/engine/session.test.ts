@@ -122,6 +122,18 @@ describe('errors land on the right cell with their path', () => {
     assert.deepEqual(cell(r, 'd').waitsOn, ['a']);
   });
 
+  it('a run waiting on a failed rate law names that cell once', () => {
+    const r = runStudy({ format: 'ratebook-study', version: 1, title: 'w', cells: [
+      { id: 'law', kind: 'rate', state: 'f', unit: 'percent', rate: '-f / (2 h)', initial: '1' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '2 h' },
+    ] });
+    assert.ok(r.ok);
+    if (!r.ok) return;
+    const message = r.report.cells[1].error!.message;
+    assert.match(message, /^waits on cell "law": "f" has an error/);
+    assert.equal(message.split('waits on cell').length, 2, message);
+  });
+
   it('a name defined twice is an error on the second definer only', () => {
     const r = reportOf(study([
       { id: 'first', kind: 'parameters', items: [{ name: 'k', value: '1 / h' }] },

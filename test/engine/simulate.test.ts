@@ -200,6 +200,17 @@ describe('other laws with closed forms', () => {
     assert.equal(falling.closedForm, undefined);
   });
 
+  it('a state without a unit (a fraction remaining, unit "1") decays and crosses its level', () => {
+    // first-order decay of a fraction: f = 2^(-t / t_half), so f = 0.3 at t_half log2(1/0.3) (closed form)
+    const run = simulate([
+      { id: 'law', kind: 'rate', state: 'f', unit: '1', rate: '-log(2) / (5700 year) * f', initial: '1' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 year', to: '20000 year', find: [{ name: 'age', crossing: 'f', level: '0.3' }] },
+    ]);
+    const age = results(run).age;
+    assert.equal(age.unit, 'year');
+    assert.ok(Math.abs(age.value - 5700 * Math.log2(1 / 0.3)) < 1e-6 * age.value, `${age.value}`);
+  });
+
   it('a tank draining through an orifice empties in finite time (Torricelli)', () => {
     // h' = -c sqrt(h): sqrt(h) = sqrt(h0) - c t / 2, empty at t = 2 sqrt(h0) / c (separation of variables)
     const run = simulate([
