@@ -93,7 +93,7 @@ it('draining tank: Torricelli times to half height and to 1 cm, and the empty ta
 it('radiocarbon age: t_half log2(1/f) with the NUBASE2020 half-life, and the conventional age', () => {
   // Carbon-14 half-life 5700 +/- 30 years: Kondev et al. 2021, NUBASE2020, Chinese Physics C 45,
   // 030001. (The Cambridge half-life, 5730 +/- 40 years, is Godwin 1962, Nature 195, 984.)
-  // First-order decay: A = A0 2^(-t / t_half), so the age is t_half log2(A0 / A).
+  // First-order decay of the remaining fraction: N = 2^(-t / t_half), so the age is t_half log2(1 / f).
   // Default solver tolerance relative 1e-6; checked to 1e-5.
   const cs = cells('radiometric-age.ratebook.json');
   const tHalf = 5700, tHalfCambridge = 5730, A0 = 13.56, A = 4.1; // years; decays per minute per gram (demo sample)
@@ -101,9 +101,9 @@ it('radiocarbon age: t_half log2(1/f) with the NUBASE2020 half-life, and the con
   const age = tHalf * Math.log2(1 / f);
   const run = results(cs, 'run');
   near(run.age, age, 1e-5, 'year'); // closed form of first-order decay
-  near(run.A_at_half_life, A0 / 2, 1e-5, '1 / (min * g)'); // half left after one half-life (definition)
-  near(run.A_at_10000, A0 * Math.pow(2, -10000 / tHalf), 1e-5, '1 / (min * g)'); // closed form
-  const cf = (byId(cs, 'run').closedForm as Record<string, Record<string, Q>>).A14;
+  near(run.N_at_half_life, 0.5, 1e-5, ''); // half left after one half-life (definition)
+  near(run.N_at_10000, Math.pow(2, -10000 / tHalf), 1e-5, ''); // closed form
+  const cf = (byId(cs, 'run').closedForm as Record<string, Record<string, Q>>).N14;
   near(cf.halfLife, tHalf, 1e-9, 'year'); // t_half = ln 2 / lambda, back to the NUBASE2020 value
   const p = values(cs, 'decay');
   near(p.age_cf, age, 1e-12, 'year');
