@@ -2,6 +2,7 @@ import { LitElement, css, html, nothing } from 'lit';
 import * as store from './store.ts';
 import { StudyView } from './study-view.ts';
 import './study-library.ts';
+import { loadSheet } from './sheet/load.ts';
 
 /**
  * The app shell: the library of studies (#/) and one open study (#/study/<id>), with export
@@ -97,7 +98,7 @@ export class RatebookApp extends LitElement {
         <span class="tag">first-order rate laws with real units</span>
         ${this.route.page === 'study' ? html`
           <button @click=${this.exportStudy}>Export study</button>
-          <button @click=${() => window.print()}>Print</button>` : nothing}
+          <button @click=${() => void loadSheet().then(() => window.print())}>Print</button>` : nothing}
       </header>
       <main>
         ${this.problem ? html`<p class="problem" role="alert">${this.problem}</p>` : nothing}

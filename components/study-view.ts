@@ -3,8 +3,8 @@ import { freshId, type Cell, type CellReport } from '../src/index.ts';
 import { StudyController, type StudyControllerOptions } from './study-controller.ts';
 import { KINDS, ADDABLE } from './cells/registry.ts';
 import type { CellEditDetail } from './cells/common.ts';
-import './sheet/study-sheet.ts';
 import type { SheetMeta } from './sheet/study-sheet.ts';
+import { loadSheet } from './sheet/load.ts';
 
 /**
  * The open study: its title, cautions, every cell in order with its result, and the tools to
@@ -75,6 +75,8 @@ export class StudyView extends LitElement {
     window.addEventListener('keydown', this.keys);
     window.addEventListener('beforeprint', this.beforePrint);
     window.addEventListener('afterprint', this.afterPrint);
+    // the sheet's code comes in its own chunk; fetch it now, before anyone prints
+    void loadSheet();
   }
 
   override disconnectedCallback(): void {
@@ -109,8 +111,8 @@ export class StudyView extends LitElement {
       return html`
         <div class="sheet-bar" role="toolbar" aria-label="Sheet">
           <button @click=${() => this.dispatchEvent(new CustomEvent('sheet-mode', { detail: { mode: 'edit' }, bubbles: true, composed: true }))}>Back to editing</button>
-          <button @click=${() => window.print()}>Print…</button>
-          <button @click=${() => this.exportPdf(study.title)} title="Opens the print dialog: choose Save as PDF as the destination">Export PDF…</button>
+          <button @click=${() => void loadSheet().then(() => window.print())}>Print…</button>
+          <button @click=${() => void this.exportPdf(study.title)} title="Opens the print dialog: choose Save as PDF as the destination">Export PDF…</button>
           <span class="hint">For a PDF, choose "Save as PDF" as the printer. A4 and US Letter both fit.</span>
         </div>
         <div class="paper">${sheet}</div>`;
@@ -164,7 +166,8 @@ export class StudyView extends LitElement {
   }
 
   /** Prints with the study's title as the document title, which browsers offer as the PDF's file name. */
-  private exportPdf(title: string) {
+  private async exportPdf(title: string) {
+    await loadSheet();
     const before = document.title;
     document.title = title.replace(/[\\/:*?"<>|]+/g, ' ').trim() || 'Ratebook study';
     window.print();

@@ -13,5 +13,5 @@ export { type Quantity, report as reportQuantity, describe as describeQuantity, 
 export { FUNCTION_NAMES } from './expression/functions.ts';
 export { runStudy, exitCodeOf } from './run.ts';
 export { tableFromCsv } from './cells/data.ts';
-export { studyTex, type StudyTex } from './sheet-tex.ts';
+export type { StudyTex } from './sheet-tex.ts';
 export { unitChoicesFor, TRADE_UNITS } from './display-units.ts';

@@ -5,7 +5,7 @@
  * parse gets no TeX (the sheet shows its text).
  */
 import type { Study } from './study/types.ts';
-import { buildCellNodes } from './cells/index.ts';
+import { NCA_RESULTS } from './study/types.ts';
 import { parseExpression } from './expression/parse.ts';
 import { rateLawTex, symbolKinds, toTex } from './expression/tex.ts';
 
@@ -17,11 +17,7 @@ export interface StudyTex {
 }
 
 export function studyTex(study: Study): StudyTex {
-  const defined = new Set<string>();
-  for (const cell of study.cells) {
-    for (const node of buildCellNodes(cell)) for (const d of node.defines) if (!d.name.startsWith('#')) defined.add(d.name);
-  }
-  defined.add('t');
+  const defined = definedNames(study);
   const kindOf = symbolKinds(defined);
   const rates = new Map<string, string>();
   const values = new Map<string, string>();
@@ -37,4 +33,22 @@ export function studyTex(study: Study): StudyTex {
     }
   }
   return { rates, values };
+}
+
+/**
+ * The names a study defines, read from the document alone (the sheet's code does not load the
+ * cell builders): parameters, states, answers, estimates, data columns, profile results, and t.
+ */
+function definedNames(study: Study): Set<string> {
+  const out = new Set<string>(['t']);
+  const add = (x: unknown) => { if (typeof x === 'string' && x) out.add(x); };
+  for (const c of study.cells) {
+    if (c.kind === 'parameters' && Array.isArray(c.items)) c.items.forEach((i) => add(i?.name));
+    else if (c.kind === 'rate') add(c.state);
+    else if (c.kind === 'simulate' && Array.isArray(c.find)) c.find.forEach((f) => add(f?.name));
+    else if (c.kind === 'fit' && Array.isArray(c.estimate)) c.estimate.forEach((e) => add(e?.as));
+    else if (c.kind === 'data' && Array.isArray(c.columns)) c.columns.forEach((col) => add(col?.name));
+    else if (c.kind === 'nca') NCA_RESULTS.forEach((n) => add(`${typeof c.prefix === 'string' ? c.prefix : ''}${n}`));
+  }
+  return out;
 }

@@ -1,5 +1,6 @@
 import { LitElement, html, css, nothing } from 'lit';
-import { studyTex, type Report, type Study, type StudyTex } from '../../src/index.ts';
+import type { Report, Study, StudyTex } from '../../src/index.ts';
+import { studyTex } from '../../src/sheet-tex.ts';
 import { section, glance } from './sections.ts';
 
 /** What the sheet's header says about the stored study. */

@@ -4,7 +4,8 @@ import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readdirSync, readFileSync } from 'node:fs';
 import katex from 'katex';
-import { parseExpression, studyTex } from '../../src/index.ts';
+import { parseExpression } from '../../src/index.ts';
+import { studyTex } from '../../src/sheet-tex.ts';
 import { symbolKinds, toTex, nameTex } from '../../src/expression/tex.ts';
 
 const kinds = symbolKinds(new Set(['t', 'k', 'T', 'Ta', 'V', 'h', 'C_feed', 'lambda']));
