@@ -111,9 +111,9 @@ function phase(cell: Of<'phase'>, r: CellReport, state: string): TemplateResult 
     ${eqs.length ? html`<table><thead><tr><th>Equilibrium</th><th>Stability</th><th>Slope of the rate there</th></tr></thead>
       <tbody>${eqs.map((e) => html`<tr><td class="num">${showQ(e)}</td><td>${e.stability}</td><td class="num">${showQ(e.slope)}</td></tr>`)}</tbody></table>`
       : html`<p>No equilibrium in the range ${cell.from} to ${cell.to}.</p>`}
-    ${plot && ys.length > 1 ? html`<figure>${lineChart({ xLabel: `state (${plot.stateUnit})`, yLabels: [`rate (${plot.rateUnit})`], zeroLine: true, height: 200,
+    <div class="keep">${plot && ys.length > 1 ? html`<figure>${lineChart({ xLabel: `state (${plot.stateUnit})`, yLabels: [`rate (${plot.rateUnit})`], zeroLine: true, height: 200,
       lines: [{ label: 'rate', x: plot.y.map((v) => v ?? NaN), y: plot.f }] })}</figure>` : nothing}
-    ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}
+    ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
     ${sweep ? sweepPart(cell, sweep) : nothing}`;
 }
 
@@ -158,8 +158,8 @@ function simulate(cell: Of<'simulate'>, r: CellReport): TemplateResult {
     ${events.length ? html`<table><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e) => html`<tr>
       <td>${e.at}</td><td>${e.every ? `every ${e.every}, ${e.count ?? 1} times` : 'once'}</td>
       <td>${e.add ? `add ${Object.entries(e.add).map(([k, v]) => `${v} to ${k}`).join(', ')}` : e.set ? `set ${Object.entries(e.set).map(([k, v]) => `${k} = ${v}`).join(', ')}` : e.infuse ? `infuse ${Object.entries(e.infuse).map(([k, v]) => `${v} into ${k}`).join(', ')} for ${e.for}` : ''}</td></tr>`)}</tbody></table>` : nothing}
-    ${plot ? timeChart(plot) : nothing}
-    ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}
+    <div class="keep">${plot ? timeChart(plot) : nothing}
+    ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
     ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
       <td class="name">${f.name}</td><td>${question(f)}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
     ${Object.entries(closed).map(([state, c]) => html`<p class="check">Check: ${state} also follows an exact solution here${c.timeConstant ? ` (time constant ${showQ(c.timeConstant)}${c.halfLife ? `, half-life ${showQ(c.halfLife)}` : ''})` : ''}; the numeric run differs from it by at most ${showQ(c.maxError)}.</p>`)}`;
@@ -197,8 +197,8 @@ function fit(cell: Of<'fit'>, r: CellReport): TemplateResult {
     <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
     <p class="check">Fit diagnostics: ${r.n as number} points, ${r.dof as number} degrees of freedom, residual SD ${showQ(r.residualSD as Q)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations as number} iterations (${r.message as string}).</p>
-    ${plot ? timeChart(plot) : nothing}
-    ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}`;
+    <div class="keep">${plot ? timeChart(plot) : nothing}
+    ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>`;
 }
 
 function nca(cell: Of<'nca'>, r: CellReport): TemplateResult {

@@ -49,6 +49,7 @@ export class StudySheet extends LitElement {
     td.num { text-align: right; white-space: nowrap; font-variant-numeric: tabular-nums; }
     td.name { font-family: ui-monospace, monospace; font-size: 9pt; }
     figure { margin: 0.3rem 0 0.5rem; break-inside: avoid; }
+    .keep { break-inside: avoid; }
     figure svg { max-width: 100%; height: auto; }
     .equation { margin: 0.3rem 0; font-size: 12pt; break-inside: avoid; }
     .summary { font-style: italic; margin: 0.2rem 0 0.4rem; }

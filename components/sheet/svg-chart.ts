@@ -111,8 +111,12 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
       <text x=${left + pw - 4} y=${Y(l.y, l.axis ?? 0) - 3} text-anchor="end" fill="#333" font-size="10">${l.label}</text>`)}
     ${spec.lines.map((l, i) => svg`<path d=${path(l)} fill="none" stroke=${seriesColour(i)} stroke-width="1.6" stroke-linejoin="round" />`)}
     ${(spec.points ?? []).map((p, i) => p.x.map((x, j) => svg`<circle cx=${X(x)} cy=${Y(p.y[j], p.axis ?? 0)} r="2.8" fill="#fff" stroke=${seriesColour(p.colourOf ?? i)} stroke-width="1.2" />`))}
-    ${(spec.marks ?? []).map((m) => svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />
-      <text x=${X(m.x) + 5} y=${Y(m.y, m.axis ?? 0) - 5} font-size="10" fill=${INK}>${m.label}</text>`)}
+    ${(spec.marks ?? []).map((m) => {
+      // a label near the right edge runs leftwards, so it stays inside the chart
+      const nearRight = X(m.x) > left + pw - 70;
+      return svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />
+      <text x=${X(m.x) + (nearRight ? -5 : 5)} y=${Y(m.y, m.axis ?? 0) - 5} text-anchor=${nearRight ? 'end' : 'start'} font-size="10" fill=${INK}>${m.label}</text>`;
+    })}
     ${legend ? svg`<g font-size="10" fill=${INK}>${[...spec.lines.map((l, i) => ({ label: l.label, i, dot: false })), ...(spec.points ?? []).map((p, i) => ({ label: p.label, i: p.colourOf ?? i, dot: true }))].map((item, k) => svg`
       <g transform="translate(${left + k * 150} ${height + 8})">
         ${item.dot ? svg`<circle cx="8" cy="0" r="2.8" fill="#fff" stroke=${seriesColour(item.i)} stroke-width="1.2" />` : svg`<line x1="0" x2="16" y1="0" y2="0" stroke=${seriesColour(item.i)} stroke-width="1.6" />`}
