@@ -1,6 +1,8 @@
 import { LitElement, html } from 'lit';
 import type { CellReport, RateCellDoc, Report } from './types.ts';
 import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
+import '../unit-pick.ts';
+import type { UnitPickDetail } from '../unit-pick.ts';
 import '../expr-field.ts';
 
 /** A rate cell: d(state)/dt = rate, with the state's unit and initial value. */
@@ -30,6 +32,8 @@ export class RateCellElement extends LitElement {
         <span class="lbl">Unit</span>
         <expr-field style="flex: 0 1 9rem" label="Unit of ${c.state}" .value=${c.unit ?? ''} .error=${claims.take('.unit')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ unit: e.detail.value }, 'unit')}></expr-field>
+        <unit-pick .unit=${c.unit ?? ''} label="Show ${c.state} in another unit"
+          @unit-pick=${(e: CustomEvent<UnitPickDetail>) => { if (e.detail.unit) this.change({ unit: e.detail.unit }, 'unit-pick'); }}></unit-pick>
         <span class="lbl">Starts at</span>
         <expr-field label="Initial value of ${c.state}" .value=${c.initial ?? ''} .names=${names} .error=${claims.take('.initial')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ initial: e.detail.value }, 'initial')}></expr-field>

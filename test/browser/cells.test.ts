@@ -73,6 +73,14 @@ describe('cell elements', () => {
   });
 
   it('rate-cell: the law, its unit and start, the rate at the start, a dimension error on the rate', async () => {
+    const { el: plain } = await mount('rate-cell', [inputs, law], 'law');
+    const pick = plain.shadowRoot!.querySelector('unit-pick') as HTMLElement & { updateComplete: Promise<unknown> };
+    await pick.updateComplete;
+    const menu = pick.shadowRoot!.querySelector('select')!;
+    const toF = nextEdit(plain);
+    menu.value = 'degF';
+    menu.dispatchEvent(new Event('change'));
+    expect((await toF).cell.unit, 'the state is shown in the unit picked').to.equal('degF');
     const { el } = await mount('rate-cell', [inputs, { ...law, rate: '-k' }], 'law');
     expect(field(el, 'Rate law: the rate of change of T').error?.message).to.match(/rate of T must be temperature per time/);
     const edit = nextEdit(el);
