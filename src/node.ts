@@ -32,7 +32,8 @@ export interface Use {
 
 /** What a name is bound to after its node ran. `sig` decides whether it changed. */
 export type Binding =
-  | { readonly kind: 'value'; readonly q: Quantity; readonly sig: string }
+  /** `truth` for a parameter that is a condition: q is then the plain number 1 or 0. */
+  | { readonly kind: 'value'; readonly q: Quantity; readonly sig: string; readonly truth?: boolean }
   | { readonly kind: 'state'; readonly q: Quantity; readonly unit: DisplayUnit; readonly cell: string; readonly sig: string }
   | { readonly kind: 'law'; readonly law: Law; readonly sig: string }
   | { readonly kind: 'data'; readonly cell: string; readonly sig: string; readonly table: DataTable };

@@ -77,6 +77,8 @@ function isQuantity(v: unknown): v is Q {
 }
 
 function showQuantity(q: Q): string {
+  // a parameter that is a condition (a verdict): yes or no
+  if (typeof (q as { truth?: unknown }).truth === 'boolean') return (q as { truth?: boolean }).truth ? 'yes' : 'no';
   const v = formatNumber(q.value, 6);
   return q.unit ? `${v} ${q.unit}` : v;
 }

@@ -48,6 +48,11 @@ export class ErrorClaims {
 interface Q { value: number; unit: string; si: number }
 const isQ = (v: unknown): v is Q => !!v && typeof v === 'object' && typeof (v as Q).value === 'number' && typeof (v as Q).unit === 'string';
 
+/** A reported value as text: yes or no for a condition (`truth`), else as showQ does. */
+export function showValue(q: { value: number; unit: string; truth?: boolean } | undefined, digits = 4): string {
+  return typeof q?.truth === 'boolean' ? (q.truth ? 'yes' : 'no') : showQ(q, digits);
+}
+
 /** A quantity as text: 4 significant figures and its unit. */
 export function showQ(q: { value: number; unit: string } | undefined, digits = 4): string {
   if (!q) return '';

@@ -6,7 +6,7 @@
 import { html, nothing, type TemplateResult } from 'lit';
 import type { Cell, CellReport, StudyTex } from '../../src/index.ts';
 import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
-import { showQ } from '../cells/common.ts';
+import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
 import { math } from './math.ts';
@@ -25,15 +25,23 @@ const KIND_NAMES: Record<Cell['kind'], string> = {
 };
 
 /**
- * Results at a glance, for the top of the sheet: every answer the runs found, every fitted
+ * Results at a glance, for the top of the sheet: every yes/no verdict, every answer the runs found, every fitted
  * estimate, and the main values of each profile summary, with the cell each comes from.
  */
 export function glance(study: { cells: readonly Cell[] }, report: { cells: readonly CellReport[] }): TemplateResult | typeof nothing {
   const rows: Array<{ name: string; shown: string; from: string }> = [];
+  const verdicts: typeof rows = [];
   for (const cell of study.cells) {
     const r = report.cells.find((c) => c.id === cell.id);
-    if (!r?.ok) continue;
+    if (!r) continue;
     const from = cell.title || cell.id;
+    // verdicts (parameters that are conditions) belong at the top
+    if (cell.kind === 'parameters') {
+      for (const [name, q] of Object.entries((r.values ?? {}) as Record<string, Q & { truth?: boolean }>)) {
+        if (typeof q.truth === 'boolean') verdicts.push({ name, shown: showValue(q), from });
+      }
+    }
+    if (!r.ok) continue;
     if (cell.kind === 'simulate') {
       for (const [name, x] of Object.entries((r.results ?? {}) as Record<string, Q | { notReached: true; end: Q }>)) {
         rows.push({ name, shown: 'notReached' in x ? `not reached by ${showQ(x.end)}` : showQ(x), from });
@@ -48,6 +56,7 @@ export function glance(study: { cells: readonly Cell[] }, report: { cells: reado
       }
     }
   }
+  rows.unshift(...verdicts);
   if (!rows.length) return nothing;
   return html`<section class="cell glance"><h2>Results at a glance</h2>
     <table><thead><tr><th>Result</th><th>Value</th><th>From</th></tr></thead>
@@ -89,7 +98,7 @@ function parameters(cell: Of<'parameters'>, r: CellReport, tex: StudyTex): Templ
       const shown = t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`;
       const long = typeof it.value === 'string' && it.value.length > LONG_DEFINITION;
       return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${it.name}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
-        <td class="num">${showQ(values[it.name])}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}</td></tr>
+        <td class="num">${showValue(values[it.name])}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}</td></tr>
         ${long ? html`<tr class="formula"><td colspan="4">${math(`${nameTex(it.name)} = ${t ?? ''}`)}</td></tr>` : nothing}`;
     })}</tbody></table>`;
 }

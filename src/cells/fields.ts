@@ -4,7 +4,7 @@
  */
 import { parseExpression, type ParseResult } from '../expression/parse.ts';
 import { symbolsOf, type Expr } from '../expression/ast.ts';
-import { evaluateExpression, type Lookup } from '../expression/evaluate.ts';
+import { evaluateExpression, type Lookup, type Value } from '../expression/evaluate.ts';
 import { literalOf, type Literal } from '../expression/literal.ts';
 import type { CellError, Outcome, RunContext, Use } from '../node.ts';
 import type { Quantity } from '../quantity.ts';
@@ -69,7 +69,8 @@ export function lookupFrom(ctx: RunContext, extra?: ReadonlyMap<string, Quantity
     const x = extra?.get(name);
     if (x) return x;
     const b = ctx.binding(name);
-    if (b?.kind === 'value' || b?.kind === 'state') return b.q;
+    if (b?.kind === 'value') return b.truth ?? b.q;
+    if (b?.kind === 'state') return b.q;
     return undefined;
   };
 }
@@ -108,13 +109,19 @@ export function guarded(run: () => Outcome): Outcome {
   }
 }
 
-/** Evaluates a field to a quantity, or throws FieldError with a message on the field. */
-export function quantityOf(f: Field, lookup: Lookup): Quantity {
+/** Evaluates a field to a quantity or true/false, or throws FieldError with a message on the field. */
+export function valueOf(f: Field, lookup: Lookup): Value {
   const r = evaluateExpression(f.expr, lookup);
   if (!r.ok) {
     const span = r.error.token ? findToken(f.text, r.error.token) : undefined;
     throw new FieldError({ path: f.path, message: `${label(f.path)}: ${r.error.message}`, ...(span ? { span } : {}) });
   }
+  return r.value;
+}
+
+/** Evaluates a field to a quantity, or throws FieldError with a message on the field. */
+export function quantityOf(f: Field, lookup: Lookup): Quantity {
+  const r = { value: valueOf(f, lookup) };
   if (typeof r.value === 'boolean') {
     throw new FieldError({ path: f.path, message: `${label(f.path)} gives true/false; it must give a quantity` });
   }
@@ -123,7 +130,11 @@ export function quantityOf(f: Field, lookup: Lookup): Quantity {
 
 /** Like quantityOf, and the value must be a finite number. */
 export function finiteQuantityOf(f: Field, lookup: Lookup): Quantity {
-  const q = quantityOf(f, lookup);
+  return finite(f, quantityOf(f, lookup));
+}
+
+/** `q` if it is finite; otherwise a FieldError on `f` that says why it is not. */
+export function finite(f: Field, q: Quantity): Quantity {
   if (!Number.isFinite(q.si)) {
     const why = Number.isNaN(q.si) ? 'is not a number (a logarithm or square root of a negative value?)' : 'is infinite (a division by zero?)';
     throw new FieldError({ path: f.path, message: `${label(f.path)} ${why}: ${describe(q)}` });

@@ -1,8 +1,8 @@
 /** A parameters cell: one graph node per parameter, so that editing one re-runs only its users. */
 import type { ParametersCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Outcome } from '../node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
-import { report, describe, valueIn, shownUnit } from '../quantity.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, finite, valueOf, FieldError, guarded, shownAs } from './fields.ts';
+import { report, describe, valueIn, shownUnit, plain } from '../quantity.ts';
 import { formatUnit } from '../units.ts';
 import { sameDim, describeDim } from '../dimension.ts';
 import { quantitySig } from './signatures.ts';
@@ -32,7 +32,9 @@ export function parameterNodes(cell: ParametersCell, at: string): GraphNode[] {
 function runParameter(name: string, value: Field, range: ReadonlyArray<Field | undefined>, ctx: Parameters<GraphNode['run']>[0], shownIn: unknown, unitPath: string): Outcome {
   return guarded(() => {
     const lookup = lookupFrom(ctx);
-    const q = shownAs(finiteQuantityOf(value, lookup), shownIn, unitPath);
+    const v = valueOf(value, lookup);
+    if (typeof v === 'boolean') return truthParameter(name, v, range, shownIn, unitPath);
+    const q = shownAs(finite(value, v), shownIn, unitPath);
     const entry: Record<string, unknown> = { ...report(q) };
     if (range.length === 2) {
       const [lo, hi] = range.map((f) => finiteQuantityOf(f!, lookup));
@@ -48,4 +50,16 @@ function runParameter(name: string, value: Field, range: ReadonlyArray<Field | u
     const binding: Binding = { kind: 'value', q, sig: quantitySig(q) };
     return { ok: true, bindings: new Map([[name, binding]]), output: { values: { [name]: entry } } };
   });
+}
+
+/**
+ * A parameter that is a condition (`T_2h <= 21 degC`, `stage1_ok and stage2_ok`): reported as
+ * 1 or 0 with `truth`, usable as true/false by other parameters (not by rate laws).
+ */
+function truthParameter(name: string, truth: boolean, range: ReadonlyArray<Field | undefined>, shownIn: unknown, unitPath: string): Outcome {
+  if (range.length) throw new FieldError({ path: range[0]!.path, message: `${name} is true/false; a range is for a quantity` });
+  if (typeof shownIn === 'string' && shownIn.trim()) throw new FieldError({ path: unitPath, message: `${name} is true/false; it has no unit to show it in` });
+  const one = Number(truth);
+  const binding: Binding = { kind: 'value', q: plain(one), sig: `truth:${truth}`, truth };
+  return { ok: true, bindings: new Map([[name, binding]]), output: { values: { [name]: { value: one, unit: '', si: one, truth } } } };
 }

@@ -77,6 +77,9 @@ function runLaw(cellId: string, state: string, rate: Field, ctx: RunContext): Ou
   const lookup = lookupFrom(ctx, new Map([['t', TIME_ZERO]]));
   const recording = (name: string) => {
     const q = lookup(name);
+    if (typeof q === 'boolean') {
+      throw new FieldError({ path: rate.path, message: `"${name}" is true/false; a rate law reads quantities only (choose a quantity with "? :" in a parameter)` });
+    }
     if (q && !scope.has(name)) {
       scope.set(name, q);
       reads.push(name);

@@ -60,7 +60,7 @@ function constantOf(e: Expr, lookup: Lookup, isName: (n: string) => boolean, inp
   if (e.k === 'num') return e.v;
   if (e.k === 'sym' && !inputs.includes(e.name)) {
     const v = lookup(e.name);
-    if (v) return v.si;
+    if (v !== undefined) return typeof v === 'boolean' ? Number(v) : v.si;
     if (isConstantName(e.name)) return CONSTANTS[e.name].si;
     throw new Error(`unknown name "${e.name}"`);
   }

@@ -15,7 +15,8 @@ import { isDimensionless, describeDim } from '../dimension.ts';
 import { lookupUnit, isOffsetTemperature, NO_UNIT, mulUnits } from '../units.ts';
 
 /** The study's names as seen by one expression: undefined means "not a study name". */
-export type Lookup = (name: string) => Quantity | undefined;
+/** The value of a name: a quantity, or true/false for a parameter that is a condition (a verdict). */
+export type Lookup = (name: string) => Value | undefined;
 
 /** A value of an expression: a quantity, or true/false from a comparison. */
 export type Value = Quantity | boolean;
@@ -76,7 +77,7 @@ function evaluate(e: Expr, c: Ctx): Value {
       return e.v;
     case 'sym': {
       const v = c.lookup(e.name);
-      if (v) return v;
+      if (v !== undefined) return v;
       if (isConstantName(e.name)) return constantQuantity(e.name);
       throw new ExprError(`unknown name "${e.name}"`, e.name);
     }

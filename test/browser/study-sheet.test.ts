@@ -8,6 +8,7 @@ import { openStudy, formatNumber, type Study, type Report } from '../../src/inde
 import cooling from '../../examples/cooling-stock-pot.ratebook.json';
 import fold from '../../examples/harvested-stock-fold.ratebook.json';
 import plasma from '../../examples/plasma-levels.ratebook.json';
+import twoStage from '../../examples/two-stage-cooling-check.ratebook.json';
 
 function reportOf(doc: unknown): Report {
   const r = openStudy(structuredClone(doc));
@@ -60,6 +61,13 @@ describe('study-sheet', () => {
     for (const name of Object.keys(fit.estimates as object)) expect(names).to.include(name);
     expect(names).to.include.members(['CL', 't_half', 'AUCinf']);
     expect(glance.textContent).to.contain('(SE)');
+  });
+
+  it('shows verdicts as yes or no, first among the results at a glance', async () => {
+    const root = await sheetOf(twoStage);
+    const rows = [...root.querySelectorAll('section.glance tbody tr')].map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent!.trim()));
+    expect(rows[0].slice(0, 2)).to.deep.equal(['stage1_ok', 'yes']);
+    expect(rows.find((r) => r[0] === 'passes')?.[1]).to.equal('yes');
   });
 
   it('has one section per cell, charts as SVG, and no controls', async () => {

@@ -69,6 +69,7 @@ it('two-stage cooling: piecewise Newton cooling gives the times to 21 and 5 degC
   assert.equal(v.stage2_ok.value, stage2 ? 1 : 0);
   assert.equal(v.passes.value, stage1 && stage2 ? 1 : 0);
   assert.equal(v.passes.value, 1, 'the demo pan passes');
+  assert.equal((v.passes as Q & { truth?: boolean }).truth, true, 'the verdict is a yes/no value');
   near(v.margin_stage1.si, 21 + C - cool.at(2 * H), TOL_T, 'margin at 2 h');
 });
 
