@@ -78,7 +78,7 @@ function collectNames(report: Report): StudyName[] {
   for (const c of report?.cells ?? []) {
     for (const group of [c.values, c.results]) {
       if (group && typeof group === 'object') {
-        for (const [name, q] of Object.entries(group as Record<string, unknown>)) if (isQ(q)) out.push({ name, detail: showQ(q) });
+        for (const [name, q] of Object.entries(group as Record<string, unknown>)) if (isQ(q)) out.push({ name, detail: showValue(q) });
       }
     }
     if (typeof c.state === 'string' && isQ(c.initial)) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}` });
