@@ -9,6 +9,7 @@ import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
+import { STABLE, UNSTABLE } from '../plots/palette.ts';
 import { math } from './math.ts';
 import { nameTex } from '../../src/expression/tex.ts';
 
@@ -128,7 +129,21 @@ function phase(cell: Of<'phase'>, r: CellReport, state: string): TemplateResult 
 
 function sweepPart(cell: Of<'phase'>, sweep: { branches: Array<Array<{ parameter: Q; value: Q; stability: string }>>; folds: Array<{ parameter: Q; value: Q }> }): TemplateResult {
   const first = sweep.branches.find((b) => b.length)?.[0];
-  const lines: ChartLine[] = sweep.branches.map((b, i) => ({ label: `branch ${i + 1} (${b[0]?.stability ?? ''})`, x: b.map((p) => p.parameter.value), y: b.map((p) => p.value.value) }));
+  // each branch in pieces of one stability: attractors solid, the rest dashed, one legend entry per kind
+  const lines: ChartLine[] = [];
+  const listed = new Set<string>();
+  for (const branch of sweep.branches) {
+    let start = 0;
+    for (let i = 1; i <= branch.length; i++) {
+      if (i < branch.length && branch[i].stability === branch[start].stability) continue;
+      const piece = branch.slice(start, Math.min(i + 1, branch.length));
+      const kind = branch[start].stability;
+      lines.push({ label: kind, x: piece.map((p) => p.parameter.value), y: piece.map((p) => p.value.value),
+        colour: kind === 'attractor' ? STABLE : UNSTABLE, dashed: kind !== 'attractor', unlisted: listed.has(kind) });
+      listed.add(kind);
+      start = i;
+    }
+  }
   return html`<h3>As ${cell.sweep?.name} runs from ${cell.sweep?.from} to ${cell.sweep?.to}</h3>
     ${first ? html`<figure>${lineChart({ xLabel: `${cell.sweep?.name} (${first.parameter.unit})`, yLabels: [`equilibrium (${first.value.unit})`], lines, height: 220 })}</figure>` : nothing}
     ${sweep.folds.length ? html`<table><thead><tr><th>Fold at ${cell.sweep?.name}</th><th>Equilibrium there</th></tr></thead>

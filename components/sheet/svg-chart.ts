@@ -8,7 +8,13 @@ import { svg, type SVGTemplateResult } from 'lit';
 import { tickLabels } from '../plots/axes.ts';
 import { INK, seriesColour } from '../plots/palette.ts';
 
-export interface ChartLine { readonly label: string; readonly x: readonly number[]; readonly y: ReadonlyArray<number | null>; readonly axis?: 0 | 1 }
+export interface ChartLine {
+  readonly label: string; readonly x: readonly number[]; readonly y: ReadonlyArray<number | null>; readonly axis?: 0 | 1;
+  /** A colour of its own (else the series colour of its place) and a dashed stroke. */
+  readonly colour?: string; readonly dashed?: boolean;
+  /** Left out of the legend (a further piece of a line already listed). */
+  readonly unlisted?: boolean;
+}
 export interface ChartPoints { readonly label: string; readonly x: readonly number[]; readonly y: readonly number[]; readonly axis?: 0 | 1; readonly colourOf?: number }
 export interface ChartSpec {
   readonly xLabel: string;
@@ -90,7 +96,8 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   };
   const xLabels = tickLabels(xr.ticks, xr.step);
   const yLabels = yr.map((r) => tickLabels(r.ticks, r.step));
-  const legend = spec.lines.length > 1 || (spec.points ?? []).length > 0;
+  const listed = spec.lines.map((l, i) => ({ l, i })).filter(({ l }) => !l.unlisted);
+  const legend = listed.length > 1 || (spec.points ?? []).length > 0;
   return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height + (legend ? 18 : 0)}" width="${width}" height="${height + (legend ? 18 : 0)}" font-family="sans-serif" font-size="${FONT}" role="img">
     <g stroke="#d5dbe0" stroke-width="0.6">
       ${xr.ticks.map((v) => svg`<line x1=${X(v)} x2=${X(v)} y1=${top} y2=${top + ph} />`)}
@@ -109,7 +116,7 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
     ${(spec.events ?? []).map((e) => svg`<line x1=${X(e.x)} x2=${X(e.x)} y1=${top} y2=${top + ph} stroke="#7a5ba8" stroke-width="0.8" stroke-dasharray="2 3"><title>${e.label}</title></line>`)}
     ${(spec.levels ?? []).map((l) => svg`<line x1=${left} x2=${left + pw} y1=${Y(l.y, l.axis ?? 0)} y2=${Y(l.y, l.axis ?? 0)} stroke="#555" stroke-width="0.8" stroke-dasharray="5 3" />
       <text x=${left + pw - 4} y=${Y(l.y, l.axis ?? 0) - 3} text-anchor="end" fill="#333" font-size="10">${l.label}</text>`)}
-    ${spec.lines.map((l, i) => svg`<path d=${path(l)} fill="none" stroke=${seriesColour(i)} stroke-width="1.6" stroke-linejoin="round" />`)}
+    ${spec.lines.map((l, i) => svg`<path d=${path(l)} fill="none" stroke=${l.colour ?? seriesColour(i)} stroke-width="1.6" stroke-linejoin="round" stroke-dasharray=${l.dashed ? '6 4' : 'none'} />`)}
     ${(spec.points ?? []).map((p, i) => p.x.map((x, j) => svg`<circle cx=${X(x)} cy=${Y(p.y[j], p.axis ?? 0)} r="2.8" fill="#fff" stroke=${seriesColour(p.colourOf ?? i)} stroke-width="1.2" />`))}
     ${(spec.marks ?? []).map((m) => {
       // a label near the right edge runs leftwards, so it stays inside the chart
@@ -117,9 +124,9 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
       return svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />
       <text x=${X(m.x) + (nearRight ? -5 : 5)} y=${Y(m.y, m.axis ?? 0) - 5} text-anchor=${nearRight ? 'end' : 'start'} font-size="10" fill=${INK}>${m.label}</text>`;
     })}
-    ${legend ? svg`<g font-size="10" fill=${INK}>${[...spec.lines.map((l, i) => ({ label: l.label, i, dot: false })), ...(spec.points ?? []).map((p, i) => ({ label: p.label, i: p.colourOf ?? i, dot: true }))].map((item, k) => svg`
+    ${legend ? svg`<g font-size="10" fill=${INK}>${[...listed.map(({ l, i }) => ({ label: l.label, colour: l.colour ?? seriesColour(i), dashed: !!l.dashed, dot: false })), ...(spec.points ?? []).map((p, i) => ({ label: p.label, colour: seriesColour(p.colourOf ?? i), dashed: false, dot: true }))].map((item, k) => svg`
       <g transform="translate(${left + k * 150} ${height + 8})">
-        ${item.dot ? svg`<circle cx="8" cy="0" r="2.8" fill="#fff" stroke=${seriesColour(item.i)} stroke-width="1.2" />` : svg`<line x1="0" x2="16" y1="0" y2="0" stroke=${seriesColour(item.i)} stroke-width="1.6" />`}
+        ${item.dot ? svg`<circle cx="8" cy="0" r="2.8" fill="#fff" stroke=${item.colour} stroke-width="1.2" />` : svg`<line x1="0" x2="16" y1="0" y2="0" stroke=${item.colour} stroke-width="1.6" stroke-dasharray=${item.dashed ? '6 4' : 'none'} />`}
         <text x="21" y="3.5">${item.label}</text></g>`)}</g>` : ''}
   </svg>`;
 }

@@ -83,6 +83,9 @@ describe('study-sheet', () => {
     expect(line.querySelectorAll('circle').length).to.equal(2);
     const foldRow = root.querySelector('section.phase table:last-of-type tbody tr')!.textContent!;
     expect(foldRow).to.contain('125 tonne / year');
+    const paths = [...root.querySelectorAll('section.phase figure:last-of-type svg path[d]')].filter((p) => p.getAttribute('d'));
+    expect(paths.some((p) => p.getAttribute('stroke-dasharray') === 'none'), 'attractors drawn solid').to.equal(true);
+    expect(paths.some((p) => p.getAttribute('stroke-dasharray') !== 'none'), 'repellers drawn dashed').to.equal(true);
   });
 
   it('a study view shows the sheet in sheet mode, and renders it for print in edit mode', async () => {
