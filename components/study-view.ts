@@ -64,7 +64,8 @@ export class StudyView extends LitElement {
     .paper { background: #fff; max-width: 180mm; margin: 0 auto; padding: 14mm 15mm; box-shadow: 0 1px 4px rgba(0, 0, 0, 0.25); }
     .author { font: inherit; font-size: 0.9rem; border: 1px solid #c9d1d8; border-radius: 4px; padding: 0.2rem 0.4rem; width: 12rem; }
     @media print {
-      .editing, .sheet-bar { display: none !important; }
+      .sheet-instead, .sheet-bar { display: none !important; }
+      .editing .tools, .editing .add, .editing .bar button { display: none; }
       .for-print { display: block; }
       .paper { box-shadow: none; padding: 0; max-width: none; }
     }
@@ -87,7 +88,8 @@ export class StudyView extends LitElement {
   }
 
   // Lit renders in a microtask, which runs before the browser lays the page out for print.
-  private beforePrint = () => { this.printing = true; };
+  // Until the sheet's chunk has arrived (the first moment after opening) the editing view prints.
+  private beforePrint = () => { this.printing = customElements.get('study-sheet') !== undefined; };
   private afterPrint = () => { this.printing = false; };
 
   /** Ctrl+Z / Cmd+Z undo; Ctrl+Shift+Z, Cmd+Shift+Z and Ctrl+Y redo; not while typing in a plain input that handles its own undo. */
@@ -120,7 +122,7 @@ export class StudyView extends LitElement {
     const byId = new Map((report?.cells ?? []).map((r) => [r.id, r] as const));
     return html`
       ${this.printing ? html`<div class="for-print">${sheet}</div>` : nothing}
-      <div class="editing">
+      <div class="editing ${this.printing ? 'sheet-instead' : ''}">
       <div class="bar">
         <input class="title" aria-label="Study title" .value=${study.title}
           @input=${(e: Event) => c.edit({ type: 'retitle', title: (e.target as HTMLInputElement).value }, 'title')} />
