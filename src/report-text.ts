@@ -4,7 +4,7 @@ import { formatNumber } from './quantity.ts';
 
 interface Q { value: number; unit: string; si: number }
 
-const HIDDEN = new Set(['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn', 'series', 'plot', 'intervals', 'summary', 'residuals']);
+const HIDDEN = new Set(['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn', 'series', 'plot', 'intervals', 'summary', 'residuals', 'questions']);
 
 export function formatReport(report: Report): string {
   const lines: string[] = [report.title, '='.repeat(Math.min(72, Math.max(8, report.title.length))), ''];

@@ -2,7 +2,7 @@
  * What every cell element shares: errors looked up by field path, the study's names for the
  * expression fields, the edit event, and the shared styles. Look-ups only; no computation.
  */
-import { css } from 'lit';
+import { css, html, nothing } from 'lit';
 import type { CellError, CellReport, Report } from '../../src/index.ts';
 import { formatNumber } from '../../src/index.ts';
 import type { StudyName } from '../expr-field.ts';
@@ -47,6 +47,11 @@ export class ErrorClaims {
 
 interface Q { value: number; unit: string; si: number }
 const isQ = (v: unknown): v is Q => !!v && typeof v === 'object' && typeof (v as Q).value === 'number' && typeof (v as Q).unit === 'string';
+
+/** An error shown under the field or result it belongs to, or nothing. */
+export function footError(e: { message: string } | undefined) {
+  return e ? html`<div class="foot-error" role="alert">${e.message}</div>` : nothing;
+}
 
 /** A reported value as text: yes or no for a condition (`truth`), else as showQ does. */
 export function showValue(q: { value: number; unit: string; truth?: boolean } | undefined, digits = 4): string {

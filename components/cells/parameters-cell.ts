@@ -1,6 +1,6 @@
 import { LitElement, html, nothing, css } from 'lit';
 import type { CellReport, ParametersCellDoc, Report } from './types.ts';
-import { cellStyles, editEvent, ErrorClaims, namesOf, showQ, showValue } from './common.ts';
+import { cellStyles, editEvent, ErrorClaims, footError, namesOf, showQ, showValue } from './common.ts';
 import '../expr-field.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
@@ -89,10 +89,6 @@ export class ParametersCellElement extends LitElement {
   private removeItem(j: number) {
     this.dispatchEvent(editEvent({ ...this.cell, items: this.cell.items.filter((_, i) => i !== j) }));
   }
-}
-
-function footError(e: { message: string } | undefined) {
-  return e ? html`<div class="foot-error" role="alert">${e.message}</div>` : nothing;
 }
 
 customElements.define('parameters-cell', ParametersCellElement);

@@ -1,6 +1,6 @@
 import { LitElement, html, nothing, css } from 'lit';
 import type { CellReport, Report, SimulateCellDoc } from './types.ts';
-import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
+import { cellStyles, editEvent, ErrorClaims, footError, namesOf, showQ } from './common.ts';
 import { exportSeriesCsv } from '../series-csv.ts';
 import '../expr-field.ts';
 import '../unit-pick.ts';
@@ -125,7 +125,7 @@ export class SimulateCellElement extends LitElement {
             .error=${claims.take(`${p}.${needsLevel ? 'level' : 'at'}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setFind(i, { ...f, [needsLevel ? 'level' : 'at']: e.detail.value }, `flevel${i}`)}></expr-field>` : nothing}</td>
           <td class="result">${r ? (r.notReached ? html`<span class="muted">${r.message}</span>` : showQ(r as { value: number; unit: string; si: number })) : ''}${r && !r.notReached ? html`<unit-pick .unit=${r.unit ?? ''} .picked=${f.unit} label="Show ${f.name} in another unit"
               @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.setFind(i, withUnit(f, e.detail.unit))}></unit-pick>` : nothing}
-            ${this.footError(claims.take(p) ?? claims.take(`${p}.unit`))}</td>
+            ${footError(claims.take(p) ?? claims.take(`${p}.unit`))}</td>
           <td><button class="quiet" aria-label="Remove question ${i + 1}" @click=${() => this.change({ find: finds.filter((_, j) => j !== i) })}>✕</button></td>
         </tr>`;
       })}</tbody></table></div>
@@ -167,10 +167,6 @@ export class SimulateCellElement extends LitElement {
 
   private setFind(i: number, f: FindDoc, key?: string) {
     this.change({ find: (this.cell.find ?? []).map((x, j) => (j === i ? f : x)) }, key);
-  }
-
-  private footError(e: { message: string } | undefined) {
-    return e ? html`<div class="foot-error" role="alert">${e.message}</div>` : nothing;
   }
 
   private change(patch: Partial<SimulateCellDoc>, key?: string) {

@@ -15,7 +15,6 @@ import { nameTex } from '../../src/expression/tex.ts';
 
 type Q = { value: number; unit: string; si: number };
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
-type Find = NonNullable<Of<'simulate'>['find']>[number];
 
 /** Definitions longer than this (characters of source) are typeset on a row of their own. */
 const LONG_DEFINITION = 32;
@@ -151,22 +150,6 @@ function sweepPart(cell: Of<'phase'>, sweep: { branches: Array<Array<{ parameter
       : html`<p>No fold: no two equilibria meet in this range.</p>`}`;
 }
 
-/** The question a find entry asks, in words. */
-export function question(f: Find): string {
-  const g = f as unknown as Record<string, unknown>;
-  const span = g.from || g.to ? ` between ${g.from ?? 'the start'} and ${g.to ?? 'the end'}` : '';
-  if (g.crossing) return `when ${g.crossing} ${g.direction === 'up' ? 'rises through' : g.direction === 'down' ? 'falls through' : 'crosses'} ${g.level}${g.occurrence && g.occurrence !== 1 ? ` (time ${g.occurrence})` : ''}`;
-  if (g.maximum) return `highest ${g.maximum}${span}`;
-  if (g.minimum) return `lowest ${g.minimum}${span}`;
-  if (g.timeOfMaximum) return `when ${g.timeOfMaximum} is highest${span}`;
-  if (g.timeOfMinimum) return `when ${g.timeOfMinimum} is lowest${span}`;
-  if (g.valueOf) return `${g.valueOf} at ${g.at}`;
-  if (g.integralOf) return `area under ${g.integralOf}${span}`;
-  if (g.timeAbove) return `time ${g.timeAbove} spends above ${g.level}${span}`;
-  if (g.timeBelow) return `time ${g.timeBelow} spends below ${g.level}${span}`;
-  return '';
-}
-
 function simulate(cell: Of<'simulate'>, r: CellReport): TemplateResult {
   const results = (r.results ?? {}) as Record<string, Q | { notReached: true; message: string }>;
   const answer = (name: string) => {
@@ -176,6 +159,7 @@ function simulate(cell: Of<'simulate'>, r: CellReport): TemplateResult {
   const finds = Array.isArray(cell.find) ? cell.find : [];
   const events = Array.isArray(cell.events) ? cell.events : [];
   const plot = r.plot as SimulationPlot | undefined;
+  const questions = (r.questions ?? {}) as Record<string, string>;
   const closed = (r.closedForm ?? {}) as Record<string, { maxError: Q; timeConstant?: Q; halfLife?: Q; equilibrium?: Q }>;
   return html`
     <p>From ${cell.from} to ${cell.to}; laws ${(cell.rates ?? []).join(', ')}; method ${r.method as string} (${r.steps as number} steps, ${r.evaluations as number} evaluations of the rates).</p>
@@ -185,7 +169,7 @@ function simulate(cell: Of<'simulate'>, r: CellReport): TemplateResult {
     <div class="keep">${plot ? timeChart(plot) : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
     ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
-      <td class="name">${f.name}</td><td>${question(f)}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
+      <td class="name">${f.name}</td><td>${questions[f.name] ?? ''}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
     ${Object.entries(closed).map(([state, c]) => html`<p class="check">Check: ${state} also follows an exact solution here${c.timeConstant ? ` (time constant ${showQ(c.timeConstant)}${c.halfLife ? `, half-life ${showQ(c.halfLife)}` : ''})` : ''}; the numeric run differs from it by at most ${showQ(c.maxError)}.</p>`)}`;
 }
 

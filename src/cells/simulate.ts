@@ -301,6 +301,8 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
     closedForm: closedForms(laws, sys, tr, compiled, inputs.length, rtol, atol, timeUnit),
     series: seriesOf(tr, states),
     summary: simulationSummary(paths, found),
+    // each question in words, as the summary puts it (for the printed sheet)
+    questions: Object.fromEntries(found.map((f) => [f.name, f.what])),
     plot,
   };
   if (run.switchedToStiff !== null) {

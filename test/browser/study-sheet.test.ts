@@ -49,6 +49,7 @@ describe('study-sheet', () => {
       const row = rows.find((r) => r[0] === name);
       expect(row, name).to.exist;
       expect(row![2]).to.equal(`${formatNumber(q.value, 4)} ${q.unit}`);
+      expect(row![1], `${name}: the question in the engine's words`).to.equal((run.questions as Record<string, string>)[name]);
     }
   });
 
