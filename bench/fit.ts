@@ -1,5 +1,5 @@
 /**
- * Speed of the least-squares fitter (src/numerics/least-squares.ts) on a closed-form model:
+ * Speed of the least-squares fitter (src/numerics/fit/least-squares.ts) on a closed-form model:
  * a decay to a baseline y = c + A·e^(−k·t), three parameters, 20 points with fixed pseudo-random
  * noise, from a start a factor of two or three off. The figure is the median time of one whole
  * fit (Jacobians, SVDs, statistics and intervals included) after untimed runs for the optimising
@@ -7,7 +7,7 @@
  *
  * Not wired into `bench/run.ts` here; `fitBenchmarks()` returns rows for whoever adds it.
  */
-import { fitLeastSquares } from '../src/numerics/least-squares.ts';
+import { fitLeastSquares } from '../src/numerics/fit/least-squares.ts';
 
 export interface FitBenchmark {
   readonly name: string;

@@ -7,7 +7,7 @@
  * Goal: under 0.1 ms per profile, so that a table of a few hundred profiles re-analyses within
  * a keystroke's budget. Not a test: a goal not met is reported, nothing fails.
  */
-import { ncaProfile, type NcaInput } from '../src/numerics/nca.ts';
+import { ncaProfile, type NcaInput } from '../src/numerics/nca/nca.ts';
 
 export interface NcaBenchRow {
   /** What was timed. */

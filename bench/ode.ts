@@ -13,8 +13,8 @@
  * odex's, `met` is value <= goal, `unit` is 'evaluations' or 'ms'.
  */
 import { createRequire } from 'node:module';
-import { integrate, denseAt } from '../src/numerics/integrate.ts';
-import type { Rhs } from '../src/numerics/ode-types.ts';
+import { integrate, denseAt } from '../src/numerics/ode/integrate.ts';
+import type { Rhs } from '../src/numerics/ode/types.ts';
 
 export interface OdeBenchRow {
   readonly name: string;

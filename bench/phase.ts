@@ -6,8 +6,8 @@
  * f per timed call (a machine-independent measure of the work). Plain numbers in SI, no units
  * layer: this measures the numerics alone.
  */
-import { findEquilibria } from '../src/numerics/equilibria.ts';
-import { sweepEquilibria } from '../src/numerics/sweep.ts';
+import { findEquilibria } from '../src/numerics/phase/equilibria.ts';
+import { sweepEquilibria } from '../src/numerics/phase/sweep.ts';
 
 export interface BenchRow {
   /** What was timed. */

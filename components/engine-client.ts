@@ -5,7 +5,7 @@
  * cancelled. An answer older than the newest one shown is dropped.
  */
 import type { Edit, Report, Study } from '../src/index.ts';
-import type { FromWorker, ToWorker } from '../src/worker-protocol.ts';
+import type { FromWorker, ToWorker } from '../src/engine/worker-protocol.ts';
 
 /** A run longer than this, with newer edits waiting, is cancelled. */
 export const CANCEL_AFTER_MS = 250;

@@ -4,7 +4,7 @@
  * never freeze the page. It only relays: every computation is the engine's.
  */
 import { openStudy, type StudySession } from '../src/index.ts';
-import type { FromWorker, ToWorker } from '../src/worker-protocol.ts';
+import type { FromWorker, ToWorker } from '../src/engine/worker-protocol.ts';
 
 let session: StudySession | undefined;
 

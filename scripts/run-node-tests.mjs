@@ -1,13 +1,14 @@
-// Runs the engine tests: node --import tsx --test <every test/engine/**/*.test.ts>.
+// Runs the Node tests: node --import tsx --test <every test/engine/**/*.test.ts and
+// test/app/**/*.test.ts> (the engine, and the app's code that runs without a browser).
 // Extra arguments (for example --test-reporter options) are passed to node.
 import { spawnSync } from 'node:child_process';
 import { listTests } from './list-tests.mjs';
 
-export const ENGINE_TEST_DIR = 'test/engine';
+export const NODE_TEST_DIRS = ['test/engine', 'test/app'];
 
-const files = listTests(ENGINE_TEST_DIR);
+const files = NODE_TEST_DIRS.flatMap((dir) => listTests(dir));
 if (files.length === 0) {
-  console.log(`No engine tests found (${ENGINE_TEST_DIR}/**/*.test.ts): 0 tests run.`);
+  console.log(`No Node tests found (${NODE_TEST_DIRS.join(', ')}): 0 tests run.`);
   process.exit(0);
 }
 

@@ -1,17 +1,17 @@
 /** Ratebook's engine: the public surface. Pure TypeScript; runs in the browser and in Node. */
-export { openStudy, StudySession, type EditResult, type OpenResult, type SessionOptions } from './session.ts';
+export { openStudy, StudySession, type EditResult, type OpenResult, type SessionOptions } from './engine/session.ts';
 export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind } from './study/types.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT } from './study/types.ts';
-export type { Report, CellReport } from './report.ts';
-export type { CellError } from './node.ts';
+export type { Report, CellReport } from './engine/report.ts';
+export type { CellError } from './engine/node.ts';
 export { parseExpression, type ParseResult, type ExprProblem } from './expression/parse.ts';
 export { evaluateExpression, type Lookup, type Value } from './expression/evaluate.ts';
 export { compileExpression, type Compiled } from './expression/compile.ts';
-export { type Quantity, report as reportQuantity, describe as describeQuantity, formatNumber } from './quantity.ts';
+export { type Quantity, report as reportQuantity, describe as describeQuantity, formatNumber } from './units/quantity.ts';
 export { FUNCTION_NAMES } from './expression/functions.ts';
-export { runStudy, exitCodeOf } from './run.ts';
+export { runStudy, exitCodeOf } from './engine/run.ts';
 export { tableFromCsv } from './cells/data.ts';
-export type { StudyTex } from './sheet-tex.ts';
-export { unitChoicesFor, TRADE_UNITS } from './display-units.ts';
+export type { StudyTex } from './output/sheet-tex.ts';
+export { unitChoicesFor, TRADE_UNITS } from './output/display-units.ts';

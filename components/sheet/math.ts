@@ -1,5 +1,5 @@
 /**
- * Typesets TeX (made by the engine from the expression tree, see src/sheet-tex.ts) with KaTeX
+ * Typesets TeX (made by the engine from the expression tree, see src/output/sheet-tex.ts) with KaTeX
  * as MathML, which Chromium and Firefox draw with their own math fonts: nothing to download,
  * so the sheet prints the same offline. Results are kept by their TeX.
  */

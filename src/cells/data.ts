@@ -6,11 +6,11 @@
  */
 import Papa from 'papaparse';
 import type { DataCell } from '../study/types.ts';
-import type { Binding, CellError, GraphNode, Outcome } from '../node.ts';
-import { cellRef } from '../node.ts';
+import type { Binding, CellError, GraphNode, Outcome } from '../engine/node.ts';
+import { cellRef } from '../engine/node.ts';
 import { type Field, field, unitOf, FieldError, guarded } from './fields.ts';
-import { fromUnit } from '../quantity.ts';
-import { type DisplayUnit, formatUnit } from '../units.ts';
+import { fromUnit } from '../units/quantity.ts';
+import { type DisplayUnit, formatUnit } from '../units/units.ts';
 
 export function dataNodes(cell: DataCell, at: string): GraphNode[] {
   const problems: CellError[] = [];

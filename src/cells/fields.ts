@@ -6,12 +6,12 @@ import { parseExpression, type ParseResult } from '../expression/parse.ts';
 import { symbolsOf, type Expr } from '../expression/ast.ts';
 import { evaluateExpression, type Lookup, type Value } from '../expression/evaluate.ts';
 import { literalOf, type Literal } from '../expression/literal.ts';
-import type { CellError, Outcome, RunContext, Use } from '../node.ts';
-import type { Quantity } from '../quantity.ts';
-import { describe, plain } from '../quantity.ts';
-import { unitDim, type DisplayUnit } from '../units.ts';
-import { TIME, sameDim, describeDim } from '../dimension.ts';
-import { unitFromText } from '../unit-text.ts';
+import type { CellError, Outcome, RunContext, Use } from '../engine/node.ts';
+import type { Quantity } from '../units/quantity.ts';
+import { describe, plain } from '../units/quantity.ts';
+import { unitDim, type DisplayUnit } from '../units/units.ts';
+import { TIME, sameDim, describeDim } from '../units/dimension.ts';
+import { unitFromText } from '../expression/unit-text.ts';
 
 export interface Field {
   readonly path: string;

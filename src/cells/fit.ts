@@ -1,17 +1,17 @@
 /**
  * A fit cell: estimates parameters and starting values of rate laws from measurements, by
- * nonlinear least squares (numerics/least-squares.ts) on the simulated states at the data's
+ * nonlinear least squares (numerics/fit/least-squares.ts) on the simulated states at the data's
  * times (simulate/model-run.ts). Defines each estimate under its `as` name, so cells below a
  * fit follow the data.
  */
 import type { FitCell } from '../study/types.ts';
-import type { Binding, CellError, DataTable, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
-import { cellRef } from '../node.ts';
+import type { Binding, CellError, DataTable, GraphNode, Law, Outcome, RunContext, Use } from '../engine/node.ts';
+import { cellRef } from '../engine/node.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
-import { type Quantity, report, describe, deltaUnit, valueIn } from '../quantity.ts';
-import { sameDim, describeDim, TIME } from '../dimension.ts';
-import { formatUnit, unitDim } from '../units.ts';
-import { fitLeastSquares } from '../numerics/least-squares.ts';
+import { type Quantity, report, describe, deltaUnit, valueIn } from '../units/quantity.ts';
+import { sameDim, describeDim, TIME } from '../units/dimension.ts';
+import { formatUnit, unitDim } from '../units/units.ts';
+import { fitLeastSquares } from '../numerics/fit/least-squares.ts';
 import { runModelAt, type ModelSpec } from '../simulate/model-run.ts';
 import { collectLaws } from './laws.ts';
 import { quantitySig } from './signatures.ts';

@@ -3,7 +3,7 @@
  * builder here plus its element in components/.
  */
 import type { Cell } from '../study/types.ts';
-import type { GraphNode } from '../node.ts';
+import type { GraphNode } from '../engine/node.ts';
 import { parameterNodes } from './parameters.ts';
 import { rateNodes } from './rate.ts';
 import { noteNodes } from './note.ts';

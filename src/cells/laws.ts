@@ -1,6 +1,6 @@
 /** The rate laws a simulate or fit cell integrates: the ones it names, then those whose states they read, transitively. */
-import type { Binding, Law, RunContext } from '../node.ts';
-import { cellRef } from '../node.ts';
+import type { Binding, Law, RunContext } from '../engine/node.ts';
+import { cellRef } from '../engine/node.ts';
 import { FieldError } from './fields.ts';
 
 /** The laws of the rate cells `ids` (at `path`) and of the cells whose states they read. */

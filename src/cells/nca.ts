@@ -1,17 +1,17 @@
 /**
  * An nca cell: non-compartmental analysis of one concentration-time profile from a data cell
- * (numerics in numerics/nca.ts). Defines Cmax, tmax, Clast, tlast, AUClast, AUCinf, AUCextrap
+ * (numerics in numerics/nca/nca.ts). Defines Cmax, tmax, Clast, tlast, AUClast, AUCinf, AUCextrap
  * (percent), lambda_z, t_half, CL (CL/F after an extravascular dose), Vz, AUMClast, MRT and
  * r2adj, each with the cell's prefix, in the units of the data and the dose.
  */
 import { NCA_RESULTS, type NcaCell } from '../study/types.ts';
-import type { Binding, CellError, GraphNode, Outcome, RunContext } from '../node.ts';
-import { cellRef } from '../node.ts';
+import type { Binding, CellError, GraphNode, Outcome, RunContext } from '../engine/node.ts';
+import { cellRef } from '../engine/node.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
-import { type Quantity, report, describe } from '../quantity.ts';
-import { sameDim, describeDim, TIME } from '../dimension.ts';
-import { type DisplayUnit, mulUnits, unitDim, NO_UNIT } from '../units.ts';
-import { ncaProfile } from '../numerics/nca.ts';
+import { type Quantity, report, describe } from '../units/quantity.ts';
+import { sameDim, describeDim, TIME } from '../units/dimension.ts';
+import { type DisplayUnit, mulUnits, unitDim, NO_UNIT } from '../units/units.ts';
+import { ncaProfile } from '../numerics/nca/nca.ts';
 import { quantitySig } from './signatures.ts';
 
 export function ncaNodes(cell: NcaCell, at: string): GraphNode[] {

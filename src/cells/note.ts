@@ -1,6 +1,6 @@
 /** A note cell: text only. It defines and reads nothing; its text is never run or rendered as HTML. */
 import type { NoteCell } from '../study/types.ts';
-import type { GraphNode } from '../node.ts';
+import type { GraphNode } from '../engine/node.ts';
 
 export function noteNodes(cell: NoteCell, at: string): GraphNode[] {
   const problems = typeof cell.text === 'string' ? [] : [{ path: `${at}.text`, message: 'text must be text' }];

@@ -1,10 +1,10 @@
 /** A parameters cell: one graph node per parameter, so that editing one re-runs only its users. */
 import type { ParametersCell } from '../study/types.ts';
-import type { Binding, CellError, GraphNode, Outcome } from '../node.ts';
+import type { Binding, CellError, GraphNode, Outcome } from '../engine/node.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, finite, valueOf, FieldError, guarded, shownAs } from './fields.ts';
-import { report, describe, valueIn, shownUnit, plain } from '../quantity.ts';
-import { formatUnit } from '../units.ts';
-import { sameDim, describeDim } from '../dimension.ts';
+import { report, describe, valueIn, shownUnit, plain } from '../units/quantity.ts';
+import { formatUnit } from '../units/units.ts';
+import { sameDim, describeDim } from '../units/dimension.ts';
 import { quantitySig } from './signatures.ts';
 
 export function parameterNodes(cell: ParametersCell, at: string): GraphNode[] {

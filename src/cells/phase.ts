@@ -2,21 +2,21 @@
  * A phase cell: where an autonomous one-state law y' = f(y) settles. Every equilibrium in
  * [from, to] with its stability, the sign of f between them, poles and gaps; with `sweep`,
  * the equilibrium branches as a parameter runs over a range, and the folds where two meet
- * and vanish. The numerics are in numerics/equilibria.ts and numerics/sweep.ts.
+ * and vanish. The numerics are in numerics/phase/equilibria.ts and numerics/phase/sweep.ts.
  */
 import type { PhaseCell } from '../study/types.ts';
-import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
-import { cellRef } from '../node.ts';
+import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../engine/node.ts';
+import { cellRef } from '../engine/node.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded } from './fields.ts';
-import { type Quantity, report, describe, valueIn, deltaUnit } from '../quantity.ts';
-import { phasePortrait } from '../phase-portrait.ts';
-import { phaseSummary, sweepSummary } from '../summaries.ts';
-import { sameDim, describeDim, TIME, DIMENSIONLESS, divDim } from '../dimension.ts';
-import { lookupUnit, formatUnit, mulUnits } from '../units.ts';
+import { type Quantity, report, describe, valueIn, deltaUnit } from '../units/quantity.ts';
+import { phasePortrait } from '../numerics/phase/portrait.ts';
+import { phaseSummary, sweepSummary } from '../output/summaries.ts';
+import { sameDim, describeDim, TIME, DIMENSIONLESS, divDim } from '../units/dimension.ts';
+import { lookupUnit, formatUnit, mulUnits } from '../units/units.ts';
 import { compileLaw } from '../simulate/compile-law.ts';
 import { derivative } from '../expression/derivative.ts';
-import { findEquilibria, type PhaseAnalysis } from '../numerics/equilibria.ts';
-import { sweepEquilibria } from '../numerics/sweep.ts';
+import { findEquilibria, type PhaseAnalysis } from '../numerics/phase/equilibria.ts';
+import { sweepEquilibria } from '../numerics/phase/sweep.ts';
 
 export function phaseNodes(cell: PhaseCell, at: string): GraphNode[] {
   const problems: CellError[] = [];

@@ -4,12 +4,12 @@
  * Splitting them lets two laws read each other's states without a circular definition.
  */
 import type { RateCell } from '../study/types.ts';
-import type { Binding, CellError, GraphNode, Law, Outcome, RunContext } from '../node.ts';
-import { cellRef } from '../node.ts';
+import type { Binding, CellError, GraphNode, Law, Outcome, RunContext } from '../engine/node.ts';
+import { cellRef } from '../engine/node.ts';
 import { type Field, field, usesOf, lookupFrom, quantityOf, finiteQuantityOf, unitOf, FieldError, TIME_ZERO, label, guarded } from './fields.ts';
-import { type Quantity, report, describe, shownUnit } from '../quantity.ts';
-import { sameDim, describeDim, divDim, TIME, TEMPERATURE } from '../dimension.ts';
-import { type DisplayUnit, formatUnit, lookupUnit, isOffsetTemperature, unitDim, mulUnits } from '../units.ts';
+import { type Quantity, report, describe, shownUnit } from '../units/quantity.ts';
+import { sameDim, describeDim, divDim, TIME, TEMPERATURE } from '../units/dimension.ts';
+import { type DisplayUnit, formatUnit, lookupUnit, isOffsetTemperature, unitDim, mulUnits } from '../units/units.ts';
 import { quantitySig } from './signatures.ts';
 
 export function rateNodes(cell: RateCell, at: string): GraphNode[] {

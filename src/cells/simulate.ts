@@ -5,12 +5,12 @@
  */
 import type { SimulateCell, FindQuery, ScheduleEvent } from '../study/types.ts';
 import { FIND_KINDS } from '../study/types.ts';
-import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../node.ts';
-import { cellRef } from '../node.ts';
+import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../engine/node.ts';
+import { cellRef } from '../engine/node.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
-import { type Quantity, report, describe, valueIn, tidy, deltaUnit } from '../quantity.ts';
-import { sameDim, describeDim, divDim, mulDim, TIME } from '../dimension.ts';
-import { type DisplayUnit, formatUnit, mulUnits, unitFactor } from '../units.ts';
+import { type Quantity, report, describe, valueIn, tidy, deltaUnit } from '../units/quantity.ts';
+import { sameDim, describeDim, divDim, mulDim, TIME } from '../units/dimension.ts';
+import { type DisplayUnit, formatUnit, mulUnits, unitFactor } from '../units/units.ts';
 import { compileLaw } from '../simulate/compile-law.ts';
 import { symbolsOf } from '../expression/ast.ts';
 import { expandSchedule, type ScheduledEvent } from '../simulate/schedule.ts';
@@ -20,9 +20,9 @@ import { crossings, extreme, valueOfAt, integralOver, timeBeyond } from '../simu
 import { linearCoefficients, compareWithExact } from '../simulate/closed-form.ts';
 import { quantitySig } from './signatures.ts';
 import { collectLaws } from './laws.ts';
-import { Status } from '../numerics/ode-types.ts';
+import { Status } from '../numerics/ode/types.ts';
 import { simulationPlot } from '../simulate/plot-data.ts';
-import { simulationSummary, type FoundText, type StatePath } from '../summaries.ts';
+import { simulationSummary, type FoundText, type StatePath } from '../output/summaries.ts';
 
 /** Step attempts allowed in one run, all pieces together. */
 const MAX_STEPS = 200_000;

@@ -13,7 +13,7 @@ import { FUNCTIONS } from './functions.ts';
 import { CONSTANTS, isConstantName } from './constants.ts';
 import { type Literal, literalOf } from './literal.ts';
 import { evaluateExpression, literalQuantity, offsetTemperatureUnit, type Lookup } from './evaluate.ts';
-import { isDimensionless } from '../dimension.ts';
+import { isDimensionless } from '../units/dimension.ts';
 
 /** A compiled expression: reads its inputs (SI) and returns its value (SI). Booleans become 1/0. */
 export type Compiled = (x: ArrayLike<number>) => number;

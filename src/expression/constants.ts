@@ -3,7 +3,7 @@
  * 9th edition, BIPM 2019) or derived from exact values; standard gravity is the CGPM 1901
  * conventional value.
  */
-import { type DisplayUnit } from '../units.ts';
+import { type DisplayUnit } from '../units/units.ts';
 
 export interface ConstantDef {
   readonly si: number;

@@ -10,9 +10,9 @@ import { type Literal, literalOf, unitSymbol } from './literal.ts';
 import type { ExprProblem } from './parse.ts';
 import {
   type Quantity, QuantityError, add, sub, mul, div, pow, neg, compare, fromUnit, plain, describe,
-} from '../quantity.ts';
-import { isDimensionless, describeDim } from '../dimension.ts';
-import { lookupUnit, isOffsetTemperature, NO_UNIT, mulUnits } from '../units.ts';
+} from '../units/quantity.ts';
+import { isDimensionless, describeDim } from '../units/dimension.ts';
+import { lookupUnit, isOffsetTemperature, NO_UNIT, mulUnits } from '../units/units.ts';
 
 /** The study's names as seen by one expression: undefined means "not a study name". */
 /** The value of a name: a quantity, or true/false for a parameter that is a condition (a verdict). */

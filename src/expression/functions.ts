@@ -3,7 +3,7 @@
  * rule and the one numeric implementation shared by the checker and the compiled code, so
  * that a checked value and a compiled value can never disagree.
  */
-import { type Dim, DIMENSIONLESS, isDimensionless, sameDim, powDim, describeDim } from '../dimension.ts';
+import { type Dim, DIMENSIONLESS, isDimensionless, sameDim, powDim, describeDim } from '../units/dimension.ts';
 
 export interface FunctionDef {
   readonly min: number;

@@ -5,7 +5,7 @@
  * `74 degC` stays a point on the Celsius scale.
  */
 import type { Expr } from './ast.ts';
-import { lookupUnit, isOffsetTemperature } from '../units.ts';
+import { lookupUnit, isOffsetTemperature } from '../units/units.ts';
 import { isConstantName } from './constants.ts';
 
 export interface Literal {

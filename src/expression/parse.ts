@@ -3,7 +3,7 @@
  * translated into Ratebook's own tree (ast.ts) or refused with a message. Nothing outside the
  * allow-list survives, whatever the text contains.
  */
-import { math } from './mathjs.ts';
+import { math } from '../units/mathjs.ts';
 import type { BinaryOp, CompareOp, Expr } from './ast.ts';
 import { FUNCTIONS, FUNCTION_NAMES, isFunctionName } from './functions.ts';
 

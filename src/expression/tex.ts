@@ -6,7 +6,7 @@
  */
 import type { Expr } from './ast.ts';
 import { isConstantName } from './constants.ts';
-import { lookupUnit } from '../units.ts';
+import { lookupUnit } from '../units/units.ts';
 
 /** What a symbol stands for: a name the study defines (or an unknown one), a built-in constant, or a unit. */
 export type SymbolKind = 'name' | 'constant' | 'unit';

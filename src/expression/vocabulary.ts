@@ -3,8 +3,8 @@
  * function names and constant names. The lists only name things; whether a name is a unit is
  * still decided by `lookupUnit`, and every listed unit resolves through it.
  */
-import { math } from './mathjs.ts';
-import { lookupUnit } from '../units.ts';
+import { math } from '../units/mathjs.ts';
+import { lookupUnit } from '../units/units.ts';
 import { FUNCTION_NAMES } from './functions.ts';
 import { CONSTANTS, isConstantName } from './constants.ts';
 

@@ -3,7 +3,7 @@
  * object) only when its text or a value it reads changes, so re-running a simulation after
  * a change elsewhere (a dose, an event time) reuses the compiled function.
  */
-import type { Law } from '../node.ts';
+import type { Law } from '../engine/node.ts';
 import type { Expr } from '../expression/ast.ts';
 import { compileExpression, type Compiled } from '../expression/compile.ts';
 

@@ -2,9 +2,9 @@
  * A model run for fitting: the coupled laws integrated from their start, with some parameters
  * and starting values replaced, sampled at given times. No schedule. Pure numbers (SI).
  */
-import type { Law } from '../node.ts';
-import { integrate, denseAt } from '../numerics/integrate.ts';
-import { Status } from '../numerics/ode-types.ts';
+import type { Law } from '../engine/node.ts';
+import { integrate, denseAt } from '../numerics/ode/integrate.ts';
+import { Status } from '../numerics/ode/types.ts';
 import { compileLaw } from './compile-law.ts';
 
 export interface ModelSpec {

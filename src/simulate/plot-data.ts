@@ -4,10 +4,10 @@
  * of every jump kept), the action times, the levels asked about and the points found.
  * The chart only draws these numbers; it converts nothing.
  */
-import type { Quantity } from '../quantity.ts';
-import { valueIn, describe } from '../quantity.ts';
-import type { DisplayUnit } from '../units.ts';
-import { formatUnit } from '../units.ts';
+import type { Quantity } from '../units/quantity.ts';
+import { valueIn, describe } from '../units/quantity.ts';
+import type { DisplayUnit } from '../units/units.ts';
+import { formatUnit } from '../units/units.ts';
 import { type Trajectory, evalPiece } from './trajectory.ts';
 import type { Action } from './schedule.ts';
 

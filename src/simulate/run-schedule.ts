@@ -3,8 +3,8 @@
  * and restarts after applying the actions (jumps, parameter changes, infusions switched on or
  * off), so no step ever crosses a discontinuity. Pure numbers (SI).
  */
-import { integrate, type Method } from '../numerics/integrate.ts';
-import { Status } from '../numerics/ode-types.ts';
+import { integrate, type Method } from '../numerics/ode/integrate.ts';
+import { Status } from '../numerics/ode/types.ts';
 import type { Action } from './schedule.ts';
 import type { Piece, Trajectory } from './trajectory.ts';
 

@@ -3,8 +3,8 @@
  * dense output. States may jump at a piece boundary (a bolus); the value at a boundary time
  * is the value after the actions there (right-continuous), except at the run's end.
  */
-import type { DenseSegment } from '../numerics/ode-types.ts';
-import { findSegment } from '../numerics/integrate.ts';
+import type { DenseSegment } from '../numerics/ode/types.ts';
+import { findSegment } from '../numerics/ode/integrate.ts';
 
 export interface Piece {
   readonly t0: number;

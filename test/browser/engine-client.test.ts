@@ -2,7 +2,7 @@
 // newer edits wait, and never letting a cancelled run's answer through.
 import { expect } from 'chai';
 import { EngineClient, CANCEL_AFTER_MS, type EngineAnswer } from '../../components/engine-client.ts';
-import type { ToWorker, FromWorker } from '../../src/worker-protocol.ts';
+import type { ToWorker, FromWorker } from '../../src/engine/worker-protocol.ts';
 import type { Report, Study } from '../../src/index.ts';
 
 class FakeWorker {

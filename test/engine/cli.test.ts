@@ -2,7 +2,7 @@ import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
-import { main, type Io } from '../../src/cli.ts';
+import { main, type Io } from '../../src/cli/cli.ts';
 
 const root = fileURLToPath(new URL('../../', import.meta.url));
 

@@ -4,7 +4,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { runStudy, unitChoicesFor, TRADE_UNITS, type CellReport } from '../../src/index.ts';
-import { unitFromText } from '../../src/unit-text.ts';
+import { unitFromText } from '../../src/expression/unit-text.ts';
 
 type Q = { value: number; unit: string; si: number };
 

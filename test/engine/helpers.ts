@@ -1,7 +1,7 @@
 /** Small helpers shared by the engine tests. */
 import assert from 'node:assert/strict';
 import { parseExpression, evaluateExpression, type Value } from '../../src/index.ts';
-import type { Quantity } from '../../src/quantity.ts';
+import type { Quantity } from '../../src/units/quantity.ts';
 
 /** Asserts |actual - expected| <= tol * max(1, |expected|). */
 export function near(actual: number, expected: number, tol = 1e-12, what = ''): void {

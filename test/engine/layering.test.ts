@@ -7,7 +7,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const src = fileURLToPath(new URL('../../src/', import.meta.url));
-const NODE_ONLY = new Set(['cli.ts']);
+const NODE_ONLY = new Set(['cli/cli.ts']);
 
 function files(dir: string): string[] {
   return readdirSync(dir).flatMap((f) => {

@@ -1,4 +1,4 @@
-// Coverage of the fitter's 95% intervals (src/numerics/least-squares.ts): on simulated data with
+// Coverage of the fitter's 95% intervals (src/numerics/fit/least-squares.ts): on simulated data with
 // known parameters, the intervals p ± t(0.975, m − n)·SE should contain the truth about 95% of the
 // time (the definition of a 95% confidence interval; for a nonlinear model with small noise the
 // linearised interval is close to exact — Bates & Watts, Nonlinear Regression Analysis and Its
@@ -6,7 +6,7 @@
 // binomial spread (sd ≈ 1.5 points) and the linearisation.
 import { it } from 'node:test';
 import assert from 'node:assert/strict';
-import { fitLeastSquares } from '../../src/numerics/least-squares.ts';
+import { fitLeastSquares } from '../../src/numerics/fit/least-squares.ts';
 
 /** Uniform [0, 1) from a fixed seed (mulberry32) and standard normal deviates (Box–Muller). */
 function generator(seed: number): { uniform: () => number; normal: () => number } {

@@ -1,11 +1,11 @@
-// The least-squares fitter (src/numerics/least-squares.ts) at its edges: bounds, too few points,
+// The least-squares fitter (src/numerics/fit/least-squares.ts) at its edges: bounds, too few points,
 // parameters the data cannot separate, a model that fails, budgets, cancellation and invalid
 // input. Nothing may throw, hang or hand back NaN.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
   FIT_MESSAGES, FitStatus, fitLeastSquares, type FitResult, type LeastSquaresProblem,
-} from '../../src/numerics/least-squares.ts';
+} from '../../src/numerics/fit/least-squares.ts';
 import { brentRoot } from '../../src/numerics/brent.ts';
 
 const relErr = (x: number, exact: number) => Math.abs(x - exact) / Math.abs(exact);

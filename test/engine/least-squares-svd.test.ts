@@ -1,8 +1,8 @@
-// The one-sided Jacobi SVD under the least-squares fitter (src/numerics/linear-algebra-small.ts):
+// The one-sided Jacobi SVD under the least-squares fitter (src/numerics/fit/linear-algebra-small.ts):
 // factors that reproduce the matrix, orthogonal vectors, and singular values known in closed form.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { jacobiSvd } from '../../src/numerics/linear-algebra-small.ts';
+import { jacobiSvd } from '../../src/numerics/fit/linear-algebra-small.ts';
 
 /** max |A − U·diag(s)·Vᵀ| relative to max |A|. */
 function reconstructionError(a: number[], m: number, n: number): number {

@@ -1,11 +1,11 @@
-// The least-squares fitter (src/numerics/least-squares.ts) on problems with known answers:
+// The least-squares fitter (src/numerics/fit/least-squares.ts) on problems with known answers:
 // noise-free data from known models, the NIST StRD nonlinear regression problems Misra1a and
 // BoxBOD (certified values), and agreement with a reference library (ml-levenberg-marquardt).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { levenbergMarquardt } from 'ml-levenberg-marquardt';
-import { fitLeastSquares, type FitResult } from '../../src/numerics/least-squares.ts';
-import { integrate, denseAt } from '../../src/numerics/integrate.ts';
+import { fitLeastSquares, type FitResult } from '../../src/numerics/fit/least-squares.ts';
+import { integrate, denseAt } from '../../src/numerics/ode/integrate.ts';
 
 const relErr = (x: number, exact: number) => Math.abs(x - exact) / Math.abs(exact);
 

@@ -1,11 +1,11 @@
-// Bad and awkward data given to ncaProfile (src/numerics/nca.ts): every fatal problem is a
+// Bad and awkward data given to ncaProfile (src/numerics/nca/nca.ts): every fatal problem is a
 // result with a message naming the row or field, never an exception; awkward but usable data
 // (zeros or negatives in a falling stretch, missing samples) give warnings. Random inputs
 // (fast-check) check that nothing throws and that the results keep their invariants.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
-import { ncaProfile, type NcaInput, type NcaResult, type NcaSuccess } from '../../src/numerics/nca.ts';
+import { ncaProfile, type NcaInput, type NcaResult, type NcaSuccess } from '../../src/numerics/nca/nca.ts';
 import { near } from './helpers.ts';
 
 const ok = { dose: 1, route: 'extravascular', auc: 'linear-up-log-down', terminal: 'auto' } as const;

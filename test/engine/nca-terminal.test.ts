@@ -1,10 +1,10 @@
-// The terminal phase of an NCA profile (src/numerics/lambda-z.ts through ncaProfile): which
+// The terminal phase of an NCA profile (src/numerics/nca/lambda-z.ts through ncaProfile): which
 // points the adjusted-R² rule picks, what a given count does, and the warnings about the tail.
 // Plain numbers (h, mg/L, mg); each expected value names its source.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { ncaProfile, type NcaInput, type NcaSuccess } from '../../src/numerics/nca.ts';
-import { ADJ_R2_TOLERANCE, fitLogLinear } from '../../src/numerics/lambda-z.ts';
+import { ncaProfile, type NcaInput, type NcaSuccess } from '../../src/numerics/nca/nca.ts';
+import { ADJ_R2_TOLERANCE, fitLogLinear } from '../../src/numerics/nca/lambda-z.ts';
 import { near } from './helpers.ts';
 
 function analyse(input: NcaInput): NcaSuccess {

@@ -1,10 +1,10 @@
-// Non-compartmental analysis (src/numerics/nca.ts) against closed forms: exact exponential
+// Non-compartmental analysis (src/numerics/nca/nca.ts) against closed forms: exact exponential
 // declines, the Bateman function, a constant-rate infusion, and a hand-worked profile. Data
 // are in SI magnitudes (s, kg/m³, kg), the way the engine passes them; every expected value
 // names its source beside it.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { ncaProfile, type NcaInput, type NcaSuccess } from '../../src/numerics/nca.ts';
+import { ncaProfile, type NcaInput, type NcaSuccess } from '../../src/numerics/nca/nca.ts';
 import { near } from './helpers.ts';
 
 const H = 3600; // one hour in seconds

@@ -8,9 +8,9 @@
 // order 4); a typo in any coefficient breaks one of these equations.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { DOPRI5, DOPRI5_B_HAT, DOPRI5_DENSE, DOPRI5_E } from '../../src/numerics/dopri5.ts';
-import { EULER, HEUN, RK4, type ButcherTableau } from '../../src/numerics/explicit-rk.ts';
-import { RODAS, RODAS_DENSE } from '../../src/numerics/rosenbrock.ts';
+import { DOPRI5, DOPRI5_B_HAT, DOPRI5_DENSE, DOPRI5_E } from '../../src/numerics/ode/dopri5.ts';
+import { EULER, HEUN, RK4, type ButcherTableau } from '../../src/numerics/ode/explicit-rk.ts';
+import { RODAS, RODAS_DENSE } from '../../src/numerics/ode/rosenbrock.ts';
 
 /** A rooted tree as the list of its root's subtrees. */
 type Tree = Tree[];

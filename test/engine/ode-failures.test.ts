@@ -3,8 +3,8 @@
 // and the state there; invalid input is a RangeError that names the input.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { denseAt, integrate, type Method } from '../../src/numerics/integrate.ts';
-import { MESSAGES, Status, formatForMessage, type Rhs } from '../../src/numerics/ode-types.ts';
+import { denseAt, integrate, type Method } from '../../src/numerics/ode/integrate.ts';
+import { MESSAGES, Status, formatForMessage, type Rhs } from '../../src/numerics/ode/types.ts';
 
 const ADAPTIVE: readonly Method[] = ['dopri5', 'stiff', 'auto'];
 

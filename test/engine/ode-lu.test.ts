@@ -3,7 +3,7 @@
 // refused, and the factors multiply back to P·A.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { luFactor, luSolve } from '../../src/numerics/lu.ts';
+import { luFactor, luSolve } from '../../src/numerics/ode/lu.ts';
 
 /** A small deterministic generator (a linear congruential one; Knuth, TAOCP vol. 2, sec. 3.2.1). */
 function numbers(seed: number): () => number {

@@ -2,8 +2,8 @@
 // within a stated evaluation budget (measured when this was written, plus about 20%).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { denseAt, integrate } from '../../src/numerics/integrate.ts';
-import { Status, type Rhs } from '../../src/numerics/ode-types.ts';
+import { denseAt, integrate } from '../../src/numerics/ode/integrate.ts';
+import { Status, type Rhs } from '../../src/numerics/ode/types.ts';
 
 /**
  * Robertson's chemical kinetics (Robertson 1966), the standard stiff test:

@@ -13,11 +13,11 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { createRequire } from 'node:module';
-import { integrate, denseAt, findSegment, type IntegrateResult, type Method } from '../../src/numerics/integrate.ts';
-import { DOPRI5 } from '../../src/numerics/dopri5.ts';
-import { RkWork, rkStep } from '../../src/numerics/explicit-rk.ts';
-import { Evaluator } from '../../src/numerics/ode-control.ts';
-import { newCounters, type Rhs } from '../../src/numerics/ode-types.ts';
+import { integrate, denseAt, findSegment, type IntegrateResult, type Method } from '../../src/numerics/ode/integrate.ts';
+import { DOPRI5 } from '../../src/numerics/ode/dopri5.ts';
+import { RkWork, rkStep } from '../../src/numerics/ode/explicit-rk.ts';
+import { Evaluator } from '../../src/numerics/ode/control.ts';
+import { newCounters, type Rhs } from '../../src/numerics/ode/types.ts';
 
 const HOUR = 3600;
 

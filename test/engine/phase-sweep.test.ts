@@ -1,9 +1,9 @@
-// Equilibrium branches and folds as a parameter runs (src/numerics/sweep.ts), against closed
+// Equilibrium branches and folds as a parameter runs (src/numerics/phase/sweep.ts), against closed
 // forms, in SI magnitudes. Evaluation counts are budgets, so an efficiency regression fails
 // like a wrong answer.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { sweepEquilibria, type SweepResult } from '../../src/numerics/sweep.ts';
+import { sweepEquilibria, type SweepResult } from '../../src/numerics/phase/sweep.ts';
 
 const DAY = 86400;
 const HOUR = 3600;

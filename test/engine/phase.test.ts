@@ -1,4 +1,4 @@
-// Where a one-state law y' = f(y) settles (src/numerics/equilibria.ts): equilibria, their
+// Where a one-state law y' = f(y) settles (src/numerics/phase/equilibria.ts): equilibria, their
 // stability and slope, poles, jumps, gaps, zero intervals and the sign intervals, against
 // closed forms. Stability follows the usual phase-line rule (common practice, e.g. Strogatz,
 // Nonlinear Dynamics and Chaos, §2.2): f > 0 on the left and f < 0 on the right of y* is an
@@ -7,7 +7,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
-import { findEquilibria, type PhaseAnalysis } from '../../src/numerics/equilibria.ts';
+import { findEquilibria, type PhaseAnalysis } from '../../src/numerics/phase/equilibria.ts';
 
 const EPS = Number.EPSILON;
 /** Default location tolerance of the finder: 1e-12 of the range's width plus 4 eps relative. */

@@ -1,11 +1,11 @@
-// Student's t quantile and the special functions under it (src/numerics/student-t.ts),
+// Student's t quantile and the special functions under it (src/numerics/fit/student-t.ts),
 // against printed tables, closed forms and identities named beside each check.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
   CORNISH_FISHER_DOF, cornishFisher, logGamma, normalQuantile, normalUpperTail, regularizedBeta,
   regularizedGammaQ, studentTCdf, studentTQuantile, studentTUpperTail,
-} from '../../src/numerics/student-t.ts';
+} from '../../src/numerics/fit/student-t.ts';
 
 const relErr = (x: number, exact: number) => Math.abs(x - exact) / Math.abs(exact);
 

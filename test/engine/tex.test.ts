@@ -1,11 +1,11 @@
-// TeX for rate laws and values (src/expression/tex.ts, src/sheet-tex.ts). KaTeX, a reference
+// TeX for rate laws and values (src/expression/tex.ts, src/output/sheet-tex.ts). KaTeX, a reference
 // TeX parser from the package registry, must accept the TeX of every template expression.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readdirSync, readFileSync } from 'node:fs';
 import katex from 'katex';
 import { parseExpression } from '../../src/index.ts';
-import { studyTex } from '../../src/sheet-tex.ts';
+import { studyTex } from '../../src/output/sheet-tex.ts';
 import { symbolKinds, toTex, nameTex } from '../../src/expression/tex.ts';
 
 const kinds = symbolKinds(new Set(['t', 'k', 'T', 'Ta', 'V', 'h', 'C_feed', 'lambda']));

@@ -4,7 +4,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { openStudy, runStudy, type CellReport } from '../../src/index.ts';
-import { formatReport } from '../../src/report-text.ts';
+import { formatReport } from '../../src/output/report-text.ts';
 
 type V = { value: number; unit: string; si: number; truth?: boolean };
 const study = (items: unknown[], extra: unknown[] = []) => ({ format: 'ratebook-study', version: 1, title: 'verdicts', cells: [{ id: 'p', kind: 'parameters', items }, ...extra] });

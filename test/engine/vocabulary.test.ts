@@ -3,7 +3,7 @@
 import { it } from 'node:test';
 import assert from 'node:assert/strict';
 import { unitNames, commonUnitNames, functionNames, constantNames } from '../../src/expression/vocabulary.ts';
-import { lookupUnit } from '../../src/units.ts';
+import { lookupUnit } from '../../src/units/units.ts';
 import { parseExpression, FUNCTION_NAMES } from '../../src/index.ts';
 
 // common practice: units of dosing, cold-chain, heating and plant work

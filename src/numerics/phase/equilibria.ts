@@ -34,7 +34,7 @@
  * minimiser lands in it; a zero at a corner of f (a kink) is classified by the signs, with a
  * warning that the difference slope disagrees.
  */
-import { brentMinimize, brentRoot } from './brent.ts';
+import { brentMinimize, brentRoot } from '../brent.ts';
 
 export type Stability = 'attractor' | 'repeller' | 'semi-stable';
 /** The sign of f somewhere: rising, falling, or zero to within the tolerance. */

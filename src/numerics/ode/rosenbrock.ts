@@ -20,9 +20,9 @@
 import {
   type OdeContext, type StepOutcome, type Stepper,
   NonFiniteMark, collapseFailure, errorNorm, failure, initialStep, minStep, nonFiniteStatus, spendAttempt, trialStep,
-} from './ode-control.ts';
+} from './control.ts';
 import { luFactor, luSolve } from './lu.ts';
-import { type DenseSegment, Status, writeStepEnd } from './ode-types.ts';
+import { type DenseSegment, Status, writeStepEnd } from './types.ts';
 
 /**
  * RODAS coefficients in the u-formulation above (Hairer & Wanner II, sec. IV.7). The tests

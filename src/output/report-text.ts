@@ -1,6 +1,6 @@
 /** The report as a readable table for a terminal: one block per cell, quantities aligned. */
-import type { CellReport, Report } from './report.ts';
-import { formatNumber } from './quantity.ts';
+import type { CellReport, Report } from '../engine/report.ts';
+import { formatNumber } from '../units/quantity.ts';
 
 interface Q { value: number; unit: string; si: number }
 

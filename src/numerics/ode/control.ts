@@ -10,7 +10,7 @@
 import {
   type Counters, type DenseSegment, type MessageDetail, type Rhs, type SolverOptions, type Where,
   Status,
-} from './ode-types.ts';
+} from './types.ts';
 
 /** Defaults of the options in `SolverOptions`. */
 export const DEFAULTS = {

@@ -4,8 +4,8 @@
  * study (the study-format contract). Uses Node's file system; the engine itself does not.
  */
 import { readFileSync } from 'node:fs';
-import { runStudy, exitCodeOf } from './run.ts';
-import { formatReport } from './report-text.ts';
+import { runStudy, exitCodeOf } from '../engine/run.ts';
+import { formatReport } from '../output/report-text.ts';
 
 export const USAGE = `usage: ratebook run STUDY.json [--json] [--series]
        ratebook check STUDY.json

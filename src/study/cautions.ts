@@ -5,7 +5,7 @@
  * study speaks of food, the applicable rules' otherwise. The wording
  * defers to licensed practice and local codes; it never gives advice of its own.
  */
-import type { Cell } from './study/types.ts';
+import type { Cell } from './types.ts';
 
 export interface Caution {
   readonly kind: 'dosing' | 'temperature-limits' | 'temperature-practice';

@@ -4,8 +4,8 @@
  * happens from any start. The direction field's slopes are f(y), the same at every t for an
  * autonomous law, so the curve serves it too.
  */
-import { integrate, denseAt } from './numerics/integrate.ts';
-import { Status } from './numerics/ode-types.ts';
+import { integrate, denseAt } from '../ode/integrate.ts';
+import { Status } from '../ode/types.ts';
 
 export interface Portrait {
   readonly y: number[];

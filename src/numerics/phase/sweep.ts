@@ -15,7 +15,7 @@
  * Newton fail or leave the step, by bisection on p of "the pair is still there" (the largest
  * value of σ·f between the pair, σ its sign there, found by Brent's localmin, is positive).
  */
-import { brentMinimize } from './brent.ts';
+import { brentMinimize } from '../brent.ts';
 import { findEquilibria, type EquilibriumOptions, type PhaseAnalysis, type Stability, type Equilibrium } from './equilibria.ts';
 
 export interface SweepOptions extends Omit<EquilibriumOptions, 'derivative'> {

@@ -3,7 +3,7 @@
  * sheet: "T falls from 74 degC to 4.31 degC; t_21 (T falls through 21 degC) at 2.643 h".
  * Built from quantities the engine computed; numbers are shown to 4 significant figures.
  */
-import { type Quantity, describe } from './quantity.ts';
+import { type Quantity, describe } from '../units/quantity.ts';
 
 export interface StatePath {
   readonly name: string;

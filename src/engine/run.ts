@@ -1,7 +1,7 @@
 /** Evaluating a whole study in one call: what the command line and the tests use. */
 import { openStudy } from './session.ts';
 import type { Report } from './report.ts';
-import type { Problem } from './study/validate.ts';
+import type { Problem } from '../study/validate.ts';
 
 export type RunResult = { readonly ok: true; readonly report: Report } | { readonly ok: false; readonly error: Problem };
 

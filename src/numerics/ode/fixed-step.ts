@@ -10,9 +10,9 @@
  */
 import {
   type OdeContext, type StepOutcome, type Stepper, failure, nonFiniteStatus, spendAttempt,
-} from './ode-control.ts';
+} from './control.ts';
 import { type ButcherTableau, RkWork, rkStep } from './explicit-rk.ts';
-import { type DenseSegment, Status, writeStepEnd } from './ode-types.ts';
+import { type DenseSegment, Status, writeStepEnd } from './types.ts';
 
 /** Cubic Hermite interpolant on [t0, t1] through (y0, f0) and (y1, f1). */
 export class HermiteSegment implements DenseSegment {

@@ -6,7 +6,7 @@
  * is a product of named units with powers ("mg / L", "1 / h"); it remembers what the user
  * wrote so that results are shown in the user's own units.
  */
-import { math } from './expression/mathjs.ts';
+import { math } from './mathjs.ts';
 import { type Dim, DIMENSIONLESS, BASE_SI_UNITS, mulDim, powDim, sameDim, isDimensionless } from './dimension.ts';
 
 export interface UnitDef {

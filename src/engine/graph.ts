@@ -7,9 +7,9 @@
  * microseconds for a 50-cell study. What is expensive (parsing, running) is cached elsewhere.
  */
 import type { CellError, GraphNode } from './node.ts';
-import { lookupUnit } from './units.ts';
-import { isConstantName } from './expression/constants.ts';
-import { nearest } from './suggest.ts';
+import { lookupUnit } from '../units/units.ts';
+import { isConstantName } from '../expression/constants.ts';
+import { nearest } from '../expression/suggest.ts';
 
 /** Where a used name comes from. */
 export type Source = { readonly node: string } | { readonly builtin: 'time' | 'constant' | 'unit' };

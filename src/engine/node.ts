@@ -4,9 +4,9 @@
  * declaring the names it defines and the names it reads. The graph orders and re-runs nodes;
  * a node never reads a name it did not declare.
  */
-import type { Quantity } from './quantity.ts';
-import type { DisplayUnit } from './units.ts';
-import type { Expr } from './expression/ast.ts';
+import type { Quantity } from '../units/quantity.ts';
+import type { DisplayUnit } from '../units/units.ts';
+import type { Expr } from '../expression/ast.ts';
 
 /** A message for the user, on the field it is about. */
 export interface CellError {

@@ -4,7 +4,7 @@
  * The classical tableaus (Euler, Heun, the "classical" fourth-order method) are common
  * practice; see Hairer, Nørsett & Wanner, Solving ODEs I, sec. II.1, Table 1.1–1.2.
  */
-import type { Evaluator } from './ode-control.ts';
+import type { Evaluator } from './control.ts';
 
 /**
  * y_{n+1} = y_n + h Σ b_i k_i with k_i = f(t + c_i h, y_n + h Σ_{j<i} a_ij k_j).

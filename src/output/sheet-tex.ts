@@ -4,10 +4,10 @@
  * (so a state `T` is not tesla), then constants, then units. An expression that does not
  * parse gets no TeX (the sheet shows its text).
  */
-import type { Study } from './study/types.ts';
-import { NCA_RESULTS } from './study/types.ts';
-import { parseExpression } from './expression/parse.ts';
-import { rateLawTex, symbolKinds, toTex } from './expression/tex.ts';
+import type { Study } from '../study/types.ts';
+import { NCA_RESULTS } from '../study/types.ts';
+import { parseExpression } from '../expression/parse.ts';
+import { rateLawTex, symbolKinds, toTex } from '../expression/tex.ts';
 
 export interface StudyTex {
   /** By rate cell id: the law as an equation. */

@@ -2,10 +2,10 @@
  * Unit text as the report writes it ("mg / L", "degC", "h") back into a display unit, and SI
  * values shown in it: for placing values from one cell on another cell's plot.
  */
-import { parseExpression } from './expression/parse.ts';
-import { literalOf } from './expression/literal.ts';
-import { type DisplayUnit, NO_UNIT, unitDim, lookupUnit, isOffsetTemperature } from './units.ts';
-import { valueIn } from './quantity.ts';
+import { parseExpression } from './parse.ts';
+import { literalOf } from './literal.ts';
+import { type DisplayUnit, NO_UNIT, unitDim, lookupUnit, isOffsetTemperature } from '../units/units.ts';
+import { valueIn } from '../units/quantity.ts';
 
 /** The display unit a report's unit text stands for; undefined when it is not a plain unit. */
 export function unitFromText(text: string): DisplayUnit | undefined {

@@ -22,7 +22,7 @@
  *
  * Invalid arguments (p outside (0, 1), ν not positive) are a RangeError naming them.
  */
-import { brentRoot } from './brent.ts';
+import { brentRoot } from '../brent.ts';
 
 const EPS = Number.EPSILON;
 /** Smallest magnitude the Lentz recurrences may reach before being nudged off zero. */

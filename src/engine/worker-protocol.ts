@@ -3,9 +3,9 @@
  * the app sends the study once, then batches of edits, each with a sequence number; every
  * answer carries the number of the last message it reflects, so a stale answer is known.
  */
-import type { Edit } from './study/edit.ts';
+import type { Edit } from '../study/edit.ts';
 import type { Report } from './report.ts';
-import type { Problem } from './study/validate.ts';
+import type { Problem } from '../study/validate.ts';
 
 export type ToWorker =
   | { readonly type: 'open'; readonly seq: number; readonly doc: unknown }

@@ -9,7 +9,7 @@
  */
 import {
   type OdeContext, type Stepper, beyondBound, newContext, resolveOptions,
-} from './ode-control.ts';
+} from './control.ts';
 import { Dopri5Stepper } from './dopri5.ts';
 import { RosenbrockStepper } from './rosenbrock.ts';
 import { FixedStepper } from './fixed-step.ts';
@@ -17,7 +17,7 @@ import { EULER, HEUN, RK4 } from './explicit-rk.ts';
 import {
   type Counters, type DenseSegment, type MessageDetail, type Rhs, type SolverOptions, type Where,
   MESSAGES, Status, newCounters,
-} from './ode-types.ts';
+} from './types.ts';
 
 /**
  * `auto` starts with dopri5 and switches to `stiff` (RODAS) when dopri5 reports stiffness;

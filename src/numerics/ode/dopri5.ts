@@ -15,10 +15,10 @@
 import {
   type OdeContext, type StepOutcome, type Stepper,
   NonFiniteMark, collapseFailure, errorNorm, failure, initialStep, minStep, nonFiniteStatus, spendAttempt, trialStep,
-} from './ode-control.ts';
+} from './control.ts';
 import { type ButcherTableau, RkWork, rkStep } from './explicit-rk.ts';
-import type { DenseSegment } from './ode-types.ts';
-import { writeStepEnd } from './ode-types.ts';
+import type { DenseSegment } from './types.ts';
+import { writeStepEnd } from './types.ts';
 
 /** The Dormand–Prince 5(4) tableau (FSAL: the last row of a is b). */
 export const DOPRI5: ButcherTableau = {

@@ -6,16 +6,16 @@
  * Nothing here throws for bad input: a bad document is refused with a message, a bad cell
  * carries its error, and an unexpected failure inside a cell is reported on that cell.
  */
-import type { Cell, Study } from './study/types.ts';
-import { readStudy, checkCell, type Problem } from './study/validate.ts';
-import { applyEdit, type Edit } from './study/edit.ts';
+import type { Cell, Study } from '../study/types.ts';
+import { readStudy, checkCell, type Problem } from '../study/validate.ts';
+import { applyEdit, type Edit } from '../study/edit.ts';
 import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.ts';
-import { buildCellNodes, resolvePath, CELL_PATH } from './cells/index.ts';
+import { buildCellNodes, resolvePath, CELL_PATH } from '../cells/index.ts';
 import { buildGraph, type Graph } from './graph.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
-import { cautionsFor } from './cautions.ts';
-import type { SimulationPlot } from './simulate/plot-data.ts';
-import { unitFromText, shownIn } from './unit-text.ts';
+import { cautionsFor } from '../study/cautions.ts';
+import type { SimulationPlot } from '../simulate/plot-data.ts';
+import { unitFromText, shownIn } from '../expression/unit-text.ts';
 
 /** A name that cannot be read: its definer failed or computed nothing. */
 interface Unavailable {
@@ -26,7 +26,7 @@ interface Unavailable {
 }
 type Slot = Binding | Unavailable;
 
-export type { Edit } from './study/edit.ts';
+export type { Edit } from '../study/edit.ts';
 
 export type EditResult =
   | { readonly ok: true; readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report }

@@ -3,9 +3,9 @@
  * is shown in: concentrations, flows, times, temperatures, powers and energies, lengths,
  * masses, volumes and rate constants. A value is offered those of its own dimension.
  */
-import { unitFromText } from './unit-text.ts';
-import { unitDim } from './units.ts';
-import { sameDim } from './dimension.ts';
+import { unitFromText } from '../expression/unit-text.ts';
+import { unitDim } from '../units/units.ts';
+import { sameDim } from '../units/dimension.ts';
 
 export const TRADE_UNITS: readonly string[] = Object.freeze([
   'mg / L', 'ug / mL', 'ug / L', 'g / L', 'mmol / L',
