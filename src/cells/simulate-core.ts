@@ -81,9 +81,14 @@ export interface SimulationCore {
   readonly reasons: ReadonlyMap<string, string>;
 }
 
-/** What a node keeps between runs: the last expanded schedule and the numbers it came from. */
+/**
+ * What a node keeps between runs: each field's value with the bindings it was computed from,
+ * and the last expanded schedule with the numbers it came from. A field is evaluated again
+ * only when a binding it reads is another object; a schedule only when its numbers change.
+ */
 export interface CoreMemo {
   schedule?: { readonly key: readonly number[]; readonly actions: ReturnType<typeof expandSchedule> };
+  fields?: WeakMap<Field, { readonly names: readonly string[]; deps: Array<Binding | undefined>; q?: Quantity }>;
 }
 
 /** A time in the run's time unit. */
@@ -107,8 +112,27 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
   const states = laws.map((l) => l.state);
   const stateIndex = new Map(states.map((s, i) => [s, i]));
   const lookup = lookupFrom(ctx);
+  const fields = (memo.fields ??= new WeakMap());
+  const entry = (fd: Field) => {
+    let m = fields.get(fd);
+    if (!m) {
+      m = { names: symbolsOf(fd.expr), deps: [] };
+      fields.set(fd, m);
+    }
+    return m;
+  };
+  // a field's value, evaluated again only when a binding it reads changed
+  const value = (fd: Field): Quantity => {
+    const m = entry(fd);
+    if (m.q && m.names.every((n, i) => ctx.binding(n) === m.deps[i])) return m.q;
+    m.q = undefined;
+    const q = finiteQuantityOf(fd, lookup);
+    m.deps = m.names.map((n) => ctx.binding(n));
+    m.q = q;
+    return q;
+  };
   const time = (fd: Field | undefined, what: string): Quantity => {
-    const q = finiteQuantityOf(fd!, lookup);
+    const q = value(fd!);
     if (!sameDim(q.dim, TIME)) fail(fd!.path, `${what} must be a time (such as 8 h); it is ${describeDim(q.dim)} (${describe(q)})`);
     return q;
   };
@@ -153,9 +177,9 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
   const scheduled: ScheduledEvent[] = f.events.map((e, i) => {
     const targets = e.targets.map((t) => {
       const fd = t.value!;
-      const bad = symbolsOf(fd.expr).find((s) => s === 't' || stateIndex.has(s));
+      const bad = entry(fd).names.find((s) => s === 't' || stateIndex.has(s));
       if (bad) fail(fd.path, `an event's amount is fixed when the run starts, so it cannot read "${bad}"`);
-      const q = finiteQuantityOf(fd, lookup);
+      const q = value(fd);
       let want = e.kind === 'set' ? paramQ[paramIndex.get(t.name)!].dim : laws[stateIndex.get(t.name)!].initial.dim;
       if (e.kind === 'infuse') want = divDim(want, TIME);
       if (!sameDim(q.dim, want)) fail(fd.path, `${e.kind === 'infuse' ? 'an infusion rate' : 'the amount'} for ${t.name} must be ${describeDim(want)}; it is ${describeDim(q.dim)} (${describe(q)})`);
@@ -179,7 +203,7 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
     const state = fq.kind ? (fq.q[fq.kind] as string) : '';
     const si = stateIndex.get(state);
     if (si === undefined) fail(`${path}.${fq.kind}`, `"${state}" is not a state of this run (its states: ${states.join(', ')})`);
-    const level = fq.level ? finiteQuantityOf(fq.level, lookup) : undefined;
+    const level = fq.level ? value(fq.level) : undefined;
     if (level && !sameDim(level.dim, laws[si!].initial.dim)) fail(fq.level!.path, `the level must be ${describeDim(laws[si!].initial.dim)} like ${state}; it is ${describe(level)}`);
     const span: [number, number] = [fq.from ? time(fq.from, 'the window start').si : from.si, fq.to ? time(fq.to, 'the window end').si : to.si];
     if (!(span[1] >= span[0])) fail(`${path}.to`, 'the window must end after it starts');
@@ -192,7 +216,7 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
 
   // tolerances
   const rtol = cell.tolerance?.relative ?? DEFAULT_RTOL;
-  const atolQ = f.atol ? finiteQuantityOf(f.atol, lookup) : undefined;
+  const atolQ = f.atol ? value(f.atol) : undefined;
   // default absolute tolerance: a thousandth of the relative one, on the state's own scale
   // (its start, its jumps and infusions, the levels asked about, and the values of its kind
   // that its law reads); when all of those are zero, a billionth of the state's unit
