@@ -69,7 +69,7 @@ export class DataCellElement extends LitElement {
   private csvView(claims: ErrorClaims) {
     const error = claims.take('.csv');
     const read = (this.read?.problems?.length ? this.read : undefined) ?? (this.report?.csv as CsvReport | undefined);
-    return html`<label class="muted" for="csv">CSV text: a header row of column names, then one row per time (comma, tab or semicolon separated; paste straight from a spreadsheet)</label>
+    return html`<label class="muted" for="csv">CSV text: a header row of column names (a unit may follow in parentheses, such as Temp (°C)), then one row per time, as a number or a clock time (comma, tab or semicolon separated; paste straight from a spreadsheet or a logger export)</label>
       <textarea id="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.editCsv(editEvent({ ...this.cell, csv: (e.target as HTMLTextAreaElement).value }, `${this.cell.id}:csv`))}></textarea>
       ${error && !read?.problems?.length ? html`<p class="foot-error" role="alert">${error.message}</p>` : nothing}
       ${read ? csvReport(read, 'Read from the header and rows') : nothing}
