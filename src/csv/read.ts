@@ -150,9 +150,10 @@ export function rowMessage(p: CsvRowProblem): string {
   return `row ${p.row} (line ${p.line}: "${p.text}"): ${p.message}`;
 }
 
-/** Whether a line's first field starts like a value (a number, a time, a date) rather than a name. */
+/** Whether a line's first filled field starts like a value (a number, a time, a date) rather than a name. */
 function looksLikeValue(line: string): boolean {
-  return /^\s*"?\s*[-+]?\.?\d/.test(line);
+  const first = line.split(/[,;\t]/).find((f) => f.trim() !== '') ?? '';
+  return /^\s*"?\s*[-+]?\.?\d/.test(first);
 }
 
 interface Parsed { readonly fields: string[]; readonly line: number }

@@ -9,6 +9,7 @@ import { readHeaderEntry, studyName } from '../../src/csv/header.ts';
 import { dataNodes } from '../../src/cells/data.ts';
 import type { DataCell } from '../../src/study/types.ts';
 import type { RunContext } from '../../src/engine/node.ts';
+import { formatReport } from '../../src/output/report-text.ts';
 import { near } from './helpers.ts';
 
 const T_MIN_DEGC = [{ name: 't', unit: 'min' }, { name: 'T', unit: 'degC' }];
@@ -31,7 +32,7 @@ function dataReport(csv: string, columns = T_MIN_DEGC): CellReport {
 }
 
 /** The SI rows the data cell hands to fits and analyses. */
-function siRows(csv: string, columns: Array<{ name: string; unit: string }>): Array<Array<number | null>> {
+function siRows(csv: string, columns: Array<{ name: string; unit: string }>): ReadonlyArray<ReadonlyArray<number | null>> {
   const cell: DataCell = { id: 'logger', kind: 'data', columns, csv };
   const out = dataNodes(cell, 'cells[0]')[0].run({} as RunContext);
   assert.ok(out.ok, out.ok ? '' : out.error.message);
@@ -130,6 +131,11 @@ describe('rows with a field too many or too few', () => {
     assert.equal(report.ok, false);
     assert.equal(report.error!.path, 'cells[0].csv');
     assert.equal((report.csv as { problems: unknown[] }).problems.length, 2);
+    const r2 = runStudy({ format: 'ratebook-study', version: 1, title: 't', cells: [{ id: 'logger', kind: 'data', columns: T_MIN_DEGC, csv }] });
+    assert.ok(r2.ok);
+    const text = formatReport(r2.report);
+    assert.match(text, /row 3 +line 4 "20": 1 field; the header has 2/);
+    assert.match(text, /csv +CSV column 2 'Temp \(°C\)' read as T, in degC \(from the header\)/);
   });
 
   it('counts lines as a person does, past a title line and blank lines', () => {
@@ -243,6 +249,12 @@ describe('what the reader keeps from before', () => {
   it('a header row is required, and an empty text is said to be empty', () => {
     assert.match(refused(readCsvTable('0,70\n10,61\n', T_MIN_DEGC)).message, /line 1 \("0,70"\) is a row of values: start with a header row/);
     assert.match(refused(readCsvTable('  \n', T_MIN_DEGC)).message, /the CSV text is empty/);
+  });
+
+  it('a first row without its time is a row, not a header', () => {
+    const r = ok(readCsvTable('t,T\n,70\n10,61\n', T_MIN_DEGC));
+    assert.deepEqual(r.rows, [[null, 70], [10, 61]]);
+    assert.match(dataReport('t,T\n,70\n10,61\n').error!.message, /row 1 has no time \(t\)/);
   });
 
   it('an unclosed quote names its line', () => {
