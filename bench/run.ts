@@ -14,7 +14,7 @@ import {
 } from '../src/index.ts';
 import { setGeneratedCode } from '../src/expression/compile.ts';
 import { phaseBenchmarks } from './phase.ts';
-import { odeBench } from './ode.ts';
+import { odeBench, stiffBench } from './ode.ts';
 import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
 import { whatIfBenchmarks } from './what-if.ts';
@@ -295,6 +295,17 @@ function odeRows(): Row[] {
   }));
 }
 
+function stiffRows(): Row[] {
+  return stiffBench().map((r) => {
+    const ratio = r.evaluations / r.lsoda;
+    return {
+      measure: `${r.method} (${r.formula}) rtol ${r.rtol.toExponential(0)}: ${r.evaluations} evaluations, ${r.jacobians} Jacobians, ` +
+        `${r.units.toFixed(2)} units at the steps`,
+      result: `${ratio.toFixed(2)}x LSODA`, goal: `<= 1.25x (LSODA ${r.lsoda})`, met: ratio <= 1.25,
+    };
+  });
+}
+
 function simulateRows(): Row[] {
   return simulateBenchmarks().map((r) => ({
     measure: `${r.name} (${r.steps} steps)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
@@ -326,6 +337,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Incremental editing of a study', run: editRows },
   { title: 'Equilibria and parameter sweeps', run: phaseRows },
   { title: 'ODE integration against odex at equal accuracy', run: odeRows },
+  { title: 'Stiff method on y\' = -1e4 (y - cos t) against LSODA', run: stiffRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
   { title: 'What-if runs of a dosing schedule', run: whatIfRows },
   { title: 'Fitting and profile summaries', run: fitRows },
