@@ -6,24 +6,10 @@ import assert from 'node:assert/strict';
 import { openStudy, reportQuantity, type StudySession, type WhatIf, type WhatIfAnswer } from '../../src/index.ts';
 import type { GraphNode } from '../../src/engine/node.ts';
 import { near } from './helpers.ts';
+// the benchmark's study: a dose every 8 h six times, with four questions
+import { SIX_DOSES } from '../../bench/simulate.ts';
 
 const HOUR = 3600;
-
-const SIX_DOSES = {
-  format: 'ratebook-study', version: 1, title: 'six doses',
-  cells: [
-    { id: 'p', kind: 'parameters', items: [{ name: 'dose', value: '500 mg' }, { name: 'V', value: '30 L' }, { name: 'k', value: '0.1 / h' }, { name: 'MIC', value: '4 mg / L' }] },
-    { id: 'law', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-k * C', initial: '0 mg / L' },
-    { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '48 h',
-      events: [{ at: '0 h', every: '8 h', count: 6, add: { C: 'dose / V' } }],
-      find: [
-        { name: 'Cmax', maximum: 'C' },
-        { name: 'trough', minimum: 'C', from: '40 h', to: '48 h' },
-        { name: 'auc', integralOf: 'C' },
-        { name: 'above', timeAbove: 'C', level: 'MIC' },
-      ] },
-  ],
-};
 
 const COOLING: object = {
   format: 'ratebook-study', version: 1, title: 'cooling',
