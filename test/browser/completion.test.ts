@@ -1,7 +1,7 @@
 // Completion in <expr-field>, driven by real key presses as a person types: the list helps
 // but never changes what was typed unless the user moves into it and picks an option.
 import { expect } from 'chai';
-import { sendKeys } from '@web/test-runner-commands';
+import { resetMouse, sendKeys, sendMouse } from '@web/test-runner-commands';
 import { completionStatus, currentCompletions, selectedCompletion } from '@codemirror/autocomplete';
 import type { EditorView } from '@codemirror/view';
 import type { ExprField } from '../../components/expr-field.ts';
@@ -25,7 +25,8 @@ async function typeWithList(text: string, props: Parameters<typeof field>[0] = {
 const listOf = (el: ExprField) => el.shadowRoot!.querySelector('.cm-tooltip-autocomplete');
 const first = (view: EditorView) => currentCompletions(view.state)[0];
 
-afterEach(() => {
+afterEach(async () => {
+  await resetMouse();
   for (const el of document.querySelectorAll('expr-field, button')) el.remove();
 });
 
@@ -70,6 +71,15 @@ describe('expr-field completion', () => {
     await until(() => !listOf(el), 'the list closed');
     await sendKeys({ press: 'Enter' });
     expect(commits).to.deep.equal([`1 ${picked.label}`]);
+  });
+
+  it('accepts an option the user clicks', async () => {
+    const { el, view, commits } = await typeWithList('2 m');
+    const option = await until(() => [...listOf(el)!.querySelectorAll('li')].find((li) => li.textContent === 'min'), 'the option min');
+    const at = option.getBoundingClientRect();
+    await sendMouse({ type: 'click', position: [Math.round(at.left + at.width / 2), Math.round(at.top + at.height / 2)] });
+    await until(() => view.state.doc.toString() === '2 min', 'the clicked option in the text');
+    expect(commits).to.deep.equal([]);
   });
 
   it('moves focus on with Tab, closing the list and leaving the text', async () => {
