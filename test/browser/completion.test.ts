@@ -31,31 +31,18 @@ afterEach(async () => {
 });
 
 describe('expr-field completion', () => {
-  it('keeps "1 g" on Enter and commits it, with the unit g first in the list', async () => {
-    const { el, view, commits } = await typeWithList('1 g');
-    expect(first(view)).to.include({ label: 'g', type: 'unit' });
-    expect(selectedCompletion(view.state)).to.equal(null);
-    await sendKeys({ press: 'Enter' });
-    expect(view.state.doc.toString()).to.equal('1 g');
-    expect(commits).to.deep.equal(['1 g']);
-    await until(() => !listOf(el), 'the list closed');
-  });
-
-  it('keeps "100 L / min" on Enter: the unit, not the function', async () => {
-    const { view, commits } = await typeWithList('100 L / min');
-    expect(first(view)).to.include({ label: 'min', type: 'unit' });
-    await sendKeys({ press: 'Enter' });
-    expect(view.state.doc.toString()).to.equal('100 L / min');
-    expect(commits).to.deep.equal(['100 L / min']);
-  });
-
-  it('keeps "2 h" on Enter', async () => {
-    const { view, commits } = await typeWithList('2 h');
-    expect(first(view)).to.include({ label: 'h', type: 'unit' });
-    await sendKeys({ press: 'Enter' });
-    expect(view.state.doc.toString()).to.equal('2 h');
-    expect(commits).to.deep.equal(['2 h']);
-  });
+  // the unit spelled as typed leads the list, unselected; Enter keeps the text and commits it
+  for (const [text, unit] of [['1 g', 'g'], ['100 L / min', 'min'], ['2 h', 'h']]) {
+    it(`keeps "${text}" on Enter and commits it, with the unit ${unit} first in the list`, async () => {
+      const { el, view, commits } = await typeWithList(text);
+      expect(first(view)).to.include({ label: unit, type: 'unit' });
+      expect(selectedCompletion(view.state)).to.equal(null);
+      await sendKeys({ press: 'Enter' });
+      expect(view.state.doc.toString()).to.equal(text);
+      expect(commits).to.deep.equal([text]);
+      await until(() => !listOf(el), 'the list closed');
+    });
+  }
 
   it('accepts the option the user moved to with ArrowDown, without committing', async () => {
     const { el, view, commits } = await typeWithList('1 g');
