@@ -20,7 +20,7 @@ import { crossings, extreme, valueOfAt, integralOver, timeBeyond } from '../simu
 import { linearCoefficients, compareWithExact } from '../simulate/closed-form.ts';
 import { quantitySig } from './signatures.ts';
 import { collectLaws } from './laws.ts';
-import { Status } from '../numerics/ode/types.ts';
+import { FAILURE_CAUSES, Status, type FailureStatus } from '../numerics/ode/types.ts';
 import { simulationPlot } from '../simulate/plot-data.ts';
 import { simulationSummary, type FoundText, type StatePath } from '../output/summaries.ts';
 
@@ -217,7 +217,7 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
   if (run.status !== Status.Success) {
     const fl = run.failure!;
     const where = states.map((s, i) => `${s} = ${describe(stateQ(i, fl.y[i]))}`).join(', ');
-    fail(at, `the run stopped at t = ${describe(asTime(fl.t))}: ${FAILURE[fl.status]} (${where})`);
+    fail(at, `the run stopped at t = ${describe(asTime(fl.t))}: ${FAILURE_CAUSES[fl.status as FailureStatus]({ limit: MAX_STEPS })} (${where})`);
   }
   const tr = run.trajectory;
 
@@ -311,13 +311,6 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
   }
   return { ok: true, bindings, output, reasons };
 }
-
-const FAILURE: Record<string, string> = {
-  [Status.Blowup]: 'the solution grows without bound (a finite-time blow-up)',
-  [Status.UndefinedRate]: 'the rate is not a number there (a logarithm or square root of a negative value, or a division by zero?)',
-  [Status.StepCollapse]: 'the step size collapsed (the rate may jump there; try the stiff method)',
-  [Status.Budget]: `the run used its budget of ${MAX_STEPS} steps (shorten the run, loosen the tolerance, or try the stiff method)`,
-};
 
 /** A temperature reading used as a tolerance means a difference of that many degrees. */
 function differenceSize(q: Quantity): number {
