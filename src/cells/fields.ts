@@ -24,7 +24,7 @@ const CACHE_LIMIT = 5000;
 const cache = new Map<string, ParseResult>();
 
 /** parseExpression with a bounded cache keyed by the text. */
-export function parseCached(text: string): ParseResult {
+function parseCached(text: string): ParseResult {
   let r = cache.get(text);
   if (!r) {
     r = parseExpression(text);

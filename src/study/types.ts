@@ -48,7 +48,6 @@ export interface ScheduleEvent {
 }
 
 export const FIND_KINDS = ['crossing', 'maximum', 'minimum', 'timeOfMaximum', 'timeOfMinimum', 'valueOf', 'integralOf', 'timeAbove', 'timeBelow'] as const;
-export type FindKind = (typeof FIND_KINDS)[number];
 
 export interface FindQuery {
   name: string;
