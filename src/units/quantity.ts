@@ -180,7 +180,7 @@ export function report(q: Quantity): ReportedQuantity {
 
 /**
  * Drops the last bits of floating-point noise from a converted value (39.99999999999996 degF
- * becomes 40): 12 significant digits, far finer than any input a study holds.
+ * becomes 40): 14 significant digits, far finer than any input a study holds.
  */
 export function tidy(x: number): number {
   return Number.isFinite(x) && x !== 0 ? Number(x.toPrecision(14)) : x;

@@ -80,7 +80,7 @@ export interface LeastSquaresOptions {
   readonly maxIterations?: number;
   /** Most calls of `residuals`, differences included; default 200·(n + 1). The Jacobian for the statistics at the end may add n more. */
   readonly maxEvaluations?: number;
-  /** Stop when actual and predicted relative reductions of the sum of squares are both at most ftol; default 1e-10. */
+  /** Stop when actual and predicted relative reductions of the sum of squares are both at most ftol; default 1e-12. */
   readonly ftol?: number;
   /** Stop when the trust radius is at most xtol·‖D·p‖ (relative change of the parameters); default 1e-10. */
   readonly xtol?: number;

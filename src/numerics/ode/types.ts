@@ -20,7 +20,7 @@ export type Rhs = (t: number, y: Float64Array, dy: Float64Array) => void;
  */
 export type Jacobian = (t: number, y: Float64Array, jac: Float64Array) => void;
 
-/** Options read by every solver. Defaults are in `ode-control.ts` (`DEFAULTS`). */
+/** Options read by every solver. Defaults are in `control.ts` (`DEFAULTS`). */
 export interface SolverOptions {
   /** Relative tolerance, a positive number (default 1e-6). */
   readonly rtol?: number;
