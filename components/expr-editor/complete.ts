@@ -4,7 +4,7 @@
  */
 import { autocompletion, type Completion, type CompletionContext, type CompletionResult, type CompletionSection } from '@codemirror/autocomplete';
 import type { Extension } from '@codemirror/state';
-import { commonUnitNames, constantNames, functionNames, unitNames } from '../../src/expression/vocabulary.ts';
+import { commonUnitNames, constantNames, functionNames, unitNames } from '../../src/index.ts';
 import { fieldProps } from './props.ts';
 
 const section = (name: string, rank: number): CompletionSection => ({ name, rank });
