@@ -11,7 +11,7 @@ import {
 } from '@codemirror/autocomplete';
 import type { Extension } from '@codemirror/state';
 import type { EditorView } from '@codemirror/view';
-import { commonUnitNames, constantNames, functionNames, unitNames } from '../../src/expression/vocabulary.ts';
+import { commonUnitNames, constantNames, functionNames, unitNames } from '../../src/index.ts';
 import { completionKeys } from './complete-keys.ts';
 import { NAME_PLACE_ORDER, UNIT_PLACE_ORDER, offerOrder, type OfferKind } from './completion-order.ts';
 import { fieldProps } from './props.ts';

@@ -4,14 +4,12 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import type { Cell, CellReport, StudyTex } from '../../src/index.ts';
-import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
+import { nameTex, type Cell, type CellReport, type SimulationPlot, type StudyTex } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
 import { STABLE, UNSTABLE } from '../plots/palette.ts';
 import { math } from './math.ts';
-import { nameTex } from '../../src/expression/tex.ts';
 
 type Q = { value: number; unit: string; si: number };
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;

@@ -20,7 +20,7 @@ import { runSchedule, type RunOutcome, type SystemSpec } from '../simulate/run-s
 import { crossings, extreme, valueOfAt, integralOver, timeBeyond } from '../simulate/queries.ts';
 import { quantitySig } from './signatures.ts';
 import { collectLaws } from './laws.ts';
-import { Status } from '../numerics/ode/types.ts';
+import { FAILURE_CAUSES, Status, type FailureStatus } from '../numerics/ode/types.ts';
 
 /** Step attempts allowed in one run, all pieces together. */
 export const MAX_STEPS = 200_000;
@@ -262,7 +262,7 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
   if (run.status !== Status.Success) {
     const fl = run.failure!;
     const where = states.map((s, i) => `${s} = ${describe(stateValue(core, i, fl.y[i]))}`).join(', ');
-    fail(at, `the run stopped at t = ${describe(asTime(fl.t))}: ${FAILURE[fl.status]} (${where})`);
+    fail(at, `the run stopped at t = ${describe(asTime(fl.t))}: ${FAILURE_CAUSES[fl.status as FailureStatus]({ limit: MAX_STEPS })} (${where})`);
   }
   const { answers, bindings, reasons } = answer(core);
   return { ...core, answers, bindings, reasons };
@@ -359,12 +359,6 @@ export function questionText(core: Pick<SimulationCore, 'timeUnit'>, fq: Find): 
   }
 }
 
-const FAILURE: Record<string, string> = {
-  [Status.Blowup]: 'the solution grows without bound (a finite-time blow-up)',
-  [Status.UndefinedRate]: 'the rate is not a number there (a logarithm or square root of a negative value, or a division by zero?)',
-  [Status.StepCollapse]: 'the step size collapsed (the rate may jump there; try the stiff method)',
-  [Status.Budget]: `the run used its budget of ${MAX_STEPS} steps (shorten the run, loosen the tolerance, or try the stiff method)`,
-};
 
 /** A temperature reading used as a tolerance means a difference of that many degrees. */
 function differenceSize(q: Quantity): number {

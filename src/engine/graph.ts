@@ -10,6 +10,7 @@ import type { CellError, GraphNode } from './node.ts';
 import { lookupUnit } from '../units/units.ts';
 import { isConstantName } from '../expression/constants.ts';
 import { nearest } from '../expression/suggest.ts';
+import { findWord } from '../expression/find-word.ts';
 
 /** Where a used name comes from. */
 export type Source = { readonly node: string } | { readonly builtin: 'time' | 'constant' | 'unit' };
@@ -114,8 +115,8 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
 
 function span(u: { name: string; text?: string }): { span?: readonly [number, number] } {
   if (!u.text) return {};
-  const m = new RegExp(`(?<![A-Za-z0-9_])${u.name}(?![A-Za-z0-9_])`).exec(u.text);
-  return m ? { span: [m.index, m.index + u.name.length] } : {};
+  const at = findWord(u.text, u.name);
+  return at ? { span: at } : {};
 }
 
 /** The laws reachable from the laws n names, through the states those laws read. */
