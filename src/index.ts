@@ -4,8 +4,12 @@ export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind } from './study/types.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT } from './study/types.ts';
-export type { Report, CellReport } from './engine/report.ts';
-export type { CellError } from './engine/node.ts';
+export type {
+  Report, CellReport, ReportOf, ReportBase, ReportQuantity, CellFields, ParameterValue, PhaseEquilibrium, PhaseInterval,
+  PhasePlotData, SweepReport, SimulationPlot, FindResult, NotReached, ClosedFormReport, EstimateReport, FitResidual,
+} from './engine/report.ts';
+export { isKind } from './engine/report.ts';
+export type { CellError, ProblemKind } from './engine/node.ts';
 export { parseExpression, type ParseResult, type ExprProblem } from './expression/parse.ts';
 export { evaluateExpression, type Lookup, type Value } from './expression/evaluate.ts';
 export { compileExpression, type Compiled } from './expression/compile.ts';

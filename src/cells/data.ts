@@ -8,11 +8,12 @@ import Papa from 'papaparse';
 import type { DataCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Outcome } from '../engine/node.ts';
 import { cellRef } from '../engine/node.ts';
+import type { NodeOutput } from '../engine/report.ts';
 import { type Field, field, unitOf, FieldError, guarded } from './fields.ts';
 import { fromUnit } from '../units/quantity.ts';
 import { type DisplayUnit, formatUnit } from '../units/units.ts';
 
-export function dataNodes(cell: DataCell, at: string): GraphNode[] {
+export function dataNodes(cell: DataCell, at: string): Array<GraphNode<NodeOutput<'data'>>> {
   const problems: CellError[] = [];
   const columns = Array.isArray(cell.columns) ? cell.columns : [];
   const units = columns.map((c, i) => field(c?.unit, `${at}.columns[${i}].unit`, problems));
@@ -35,7 +36,7 @@ function columnUnit(f: Field): DisplayUnit {
   return unitOf(f);
 }
 
-function runData(cell: DataCell, at: string, unitFields: Field[]): Outcome {
+function runData(cell: DataCell, at: string, unitFields: Field[]): Outcome<NodeOutput<'data'>> {
   const units = unitFields.map(columnUnit);
   const names = cell.columns.map((c) => c.name);
   const raw = cell.csv !== undefined ? readCsv(cell.csv, names, `${at}.csv`) : (cell.rows ?? []);
@@ -43,22 +44,22 @@ function runData(cell: DataCell, at: string, unitFields: Field[]): Outcome {
   let last = -Infinity;
   const rows = raw.map((row, r) => {
     const path = cell.csv !== undefined ? `${at}.csv` : `${at}.rows[${r}]`;
-    if (!Array.isArray(row) || row.length !== names.length) throw new FieldError({ path, message: `row ${r + 1} has ${Array.isArray(row) ? row.length : 0} values; the table has ${names.length} columns (${names.join(', ')})` });
+    if (!Array.isArray(row) || row.length !== names.length) throw new FieldError({ kind: 'invalid', path, message: `row ${r + 1} has ${Array.isArray(row) ? row.length : 0} values; the table has ${names.length} columns (${names.join(', ')})` });
     return row.map((v, c) => {
       if (v === null) {
-        if (c === 0) throw new FieldError({ path, message: `row ${r + 1} has no time (${names[0]})` });
+        if (c === 0) throw new FieldError({ kind: 'invalid', path, message: `row ${r + 1} has no time (${names[0]})` });
         missing.push(`row ${r + 1}, ${names[c]}`);
         return null;
       }
-      if (typeof v !== 'number' || !Number.isFinite(v)) throw new FieldError({ path, message: `row ${r + 1}, ${names[c]}: ${JSON.stringify(v)} is not a number` });
+      if (typeof v !== 'number' || !Number.isFinite(v)) throw new FieldError({ kind: 'invalid', path, message: `row ${r + 1}, ${names[c]}: ${JSON.stringify(v)} is not a number` });
       if (c === 0) {
-        if (v < last) throw new FieldError({ path, message: `row ${r + 1}: the time ${v} goes backwards (the row before has ${last})` });
+        if (v < last) throw new FieldError({ kind: 'invalid', path, message: `row ${r + 1}: the time ${v} goes backwards (the row before has ${last})` });
         last = v;
       }
       return fromUnit(v, units[c]).si;
     });
   });
-  if (rows.length === 0) throw new FieldError({ path: `${at}.rows`, message: 'the table has no rows' });
+  if (rows.length === 0) throw new FieldError({ kind: 'invalid', path: `${at}.rows`, message: 'the table has no rows' });
   const table = { columns: names.map((name, i) => ({ name, unit: units[i] })), rows };
   const binding: Binding = { kind: 'data', cell: cell.id, table, sig: JSON.stringify([names, units, rows]) };
   return {
@@ -81,13 +82,13 @@ export function readCsv(text: string, names: readonly string[], path: string): A
   const parsed = Papa.parse<string[]>(text.trim(), { delimitersToGuess: [',', '\t', ';'], skipEmptyLines: 'greedy' });
   if (parsed.errors.length) {
     const e = parsed.errors[0];
-    throw new FieldError({ path, message: `the CSV text cannot be read${e.row !== undefined ? ` (row ${e.row + 1})` : ''}: ${e.message}` });
+    throw new FieldError({ kind: 'invalid', path, message: `the CSV text cannot be read${e.row !== undefined ? ` (row ${e.row + 1})` : ''}: ${e.message}` });
   }
   const [header, ...body] = parsed.data;
-  if (!header) throw new FieldError({ path, message: 'the CSV text is empty: give a header row of column names, then the rows' });
+  if (!header) throw new FieldError({ kind: 'invalid', path, message: 'the CSV text is empty: give a header row of column names, then the rows' });
   const index = names.map((n) => header.findIndex((h) => h.trim() === n));
   const absent = names.filter((_, i) => index[i] < 0);
-  if (absent.length) throw new FieldError({ path, message: `the CSV header (${header.join(', ')}) has no column ${absent.map((a) => `"${a}"`).join(', ')}` });
+  if (absent.length) throw new FieldError({ kind: 'invalid', path, message: `the CSV header (${header.join(', ')}) has no column ${absent.map((a) => `"${a}"`).join(', ')}` });
   return body.map((cells) => index.map((i) => {
     const s = (cells[i] ?? '').trim();
     if (s === '') return null;

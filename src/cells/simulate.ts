@@ -7,7 +7,8 @@ import type { SimulateCell, FindQuery, ScheduleEvent } from '../study/types.ts';
 import { FIND_KINDS } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../engine/node.ts';
 import { cellRef } from '../engine/node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
+import type { ClosedFormReport, FindResult, NodeOutput, SimulateFields } from '../engine/report.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, fail, guarded, shownAs } from './fields.ts';
 import { type Quantity, report, describe, valueIn, tidy, deltaUnit } from '../units/quantity.ts';
 import { sameDim, describeDim, divDim, mulDim, TIME } from '../units/dimension.ts';
 import { type DisplayUnit, formatUnit, mulUnits, unitFactor } from '../units/units.ts';
@@ -34,7 +35,8 @@ interface Fields {
   finds: Array<{ q: FindQuery; kind: (typeof FIND_KINDS)[number] | undefined; level?: Field; at?: Field; from?: Field; to?: Field }>;
 }
 
-export function simulateNodes(cell: SimulateCell, at: string): GraphNode[] {
+/** One node; the graph adds the measurements of its states (`pullsMeasurements`), which its plot shows. */
+export function simulateNodes(cell: SimulateCell, at: string): Array<GraphNode<NodeOutput<'simulate'>>> {
   const problems: CellError[] = [];
   const f: Fields = { events: [], finds: [] };
   const opt = (v: unknown, path: string) => (v === undefined ? undefined : field(v, path, problems));
@@ -71,22 +73,21 @@ export function simulateNodes(cell: SimulateCell, at: string): GraphNode[] {
     allowsTime: true,
     allowsStates: true,
     pullsCoupledLaws: true,
+    pullsMeasurements: true,
     signature: JSON.stringify(cell),
     problems,
     run: (ctx) => guarded(() => runSimulation(cell, at, f, ctx)),
   }];
 }
 
-const fail = (path: string, message: string): never => { throw new FieldError({ path, message }); };
-
-function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContext): Outcome {
+function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContext): Outcome<NodeOutput<'simulate'>> {
   const laws = collectLaws(cell.rates, `${at}.rates`, ctx);
   const states = laws.map((l) => l.state);
   const stateIndex = new Map(states.map((s, i) => [s, i]));
   const lookup = lookupFrom(ctx);
   const time = (fd: Field | undefined, what: string): Quantity => {
     const q = finiteQuantityOf(fd!, lookup);
-    if (!sameDim(q.dim, TIME)) fail(fd!.path, `${what} must be a time (such as 8 h); it is ${describeDim(q.dim)} (${describe(q)})`);
+    if (!sameDim(q.dim, TIME)) fail(fd!.path, `${what} must be a time (such as 8 h); it is ${describeDim(q.dim)} (${describe(q)})`, 'unit');
     return q;
   };
   const from = time(f.from, 'the start');
@@ -136,8 +137,8 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
       const q = finiteQuantityOf(fd, lookup);
       let want = e.kind === 'set' ? paramQ[paramIndex.get(t.name)!].dim : laws[stateIndex.get(t.name)!].initial.dim;
       if (e.kind === 'infuse') want = divDim(want, TIME);
-      if (!sameDim(q.dim, want)) fail(fd.path, `${e.kind === 'infuse' ? 'an infusion rate' : 'the amount'} for ${t.name} must be ${describeDim(want)}; it is ${describeDim(q.dim)} (${describe(q)})`);
-      if (e.kind === 'add' && q.temp === 'point') fail(fd.path, `adding a temperature reading (${describe(q)}) is ambiguous: add a change of temperature in K or degR`);
+      if (!sameDim(q.dim, want)) fail(fd.path, `${e.kind === 'infuse' ? 'an infusion rate' : 'the amount'} for ${t.name} must be ${describeDim(want)}; it is ${describeDim(q.dim)} (${describe(q)})`, 'unit');
+      if (e.kind === 'add' && q.temp === 'point') fail(fd.path, `adding a temperature reading (${describe(q)}) is ambiguous: add a change of temperature in K or degR`, 'unit');
       return { name: t.name, value: q.si };
     });
     const every = e.every ? time(e.every, 'the repeat interval').si : undefined;
@@ -158,7 +159,7 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
     const si = stateIndex.get(state);
     if (si === undefined) fail(`${path}.${fq.kind}`, `"${state}" is not a state of this run (its states: ${states.join(', ')})`);
     const level = fq.level ? finiteQuantityOf(fq.level, lookup) : undefined;
-    if (level && !sameDim(level.dim, laws[si!].initial.dim)) fail(fq.level!.path, `the level must be ${describeDim(laws[si!].initial.dim)} like ${state}; it is ${describe(level)}`);
+    if (level && !sameDim(level.dim, laws[si!].initial.dim)) fail(fq.level!.path, `the level must be ${describeDim(laws[si!].initial.dim)} like ${state}; it is ${describe(level)}`, 'unit');
     const span = [fq.from ? time(fq.from, 'the window start').si : from.si, fq.to ? time(fq.to, 'the window end').si : to.si];
     if (!(span[1] >= span[0])) fail(`${path}.to`, 'the window must end after it starts');
     const atT = fq.at ? time(fq.at, 'the time').si : undefined;
@@ -183,7 +184,7 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
     const scale = Math.max(Math.abs(l.initial.si), ...jumps, ...levels, ...alike);
     return scale > 0 && Number.isFinite(scale) ? scale * rtol * 1e-3 : 1e-9 * unitFactor(l.stateUnit);
   });
-  if (atolQ && !laws.some((l) => sameDim(atolQ.dim, l.initial.dim))) fail(f.atol!.path, `the absolute tolerance must have the unit of a state (${laws.map((l) => formatUnit(l.stateUnit)).join(', ')}); it is ${describe(atolQ)}`);
+  if (atolQ && !laws.some((l) => sameDim(atolQ.dim, l.initial.dim))) fail(f.atol!.path, `the absolute tolerance must have the unit of a state (${laws.map((l) => formatUnit(l.stateUnit)).join(', ')}); it is ${describe(atolQ)}`, 'unit');
   const method = cell.method ?? 'auto';
   const step = f.step ? time(f.step, 'the step').si : undefined;
   if (step !== undefined && !(step > 0)) fail(f.step!.path, 'the step must be longer than zero');
@@ -217,12 +218,12 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
   if (run.status !== Status.Success) {
     const fl = run.failure!;
     const where = states.map((s, i) => `${s} = ${describe(stateQ(i, fl.y[i]))}`).join(', ');
-    fail(at, `the run stopped at t = ${describe(asTime(fl.t))}: ${FAILURE[fl.status]} (${where})`);
+    fail(at, `the run stopped at t = ${describe(asTime(fl.t))}: ${FAILURE[fl.status]} (${where})`, 'numeric');
   }
   const tr = run.trajectory;
 
   // the answers
-  const results: Record<string, unknown> = {};
+  const results: Record<string, FindResult> = {};
   const bindings = new Map<string, Binding>();
   const reasons = new Map<string, string>();
   const found: FoundText[] = [];
@@ -291,9 +292,10 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
     tr, timeUnit, timeOf: asTime, actions: timeline, marks,
     states: laws.map((l) => ({ name: l.state, template: l.initial })),
     levels: finds.filter((fq) => fq.level).map((fq) => ({ state: fq.state, level: fq.level! })),
+    measured: ctx.bindingsOf('measured').flatMap((b) => b.series),
   });
 
-  const output: Record<string, unknown> = {
+  const output: SimulateFields = {
     method: run.switchedToStiff !== null ? 'stiff' : [...run.methodsUsed].join(', '),
     steps: run.steps,
     evaluations: run.evaluations,
@@ -335,7 +337,7 @@ function seriesOf(tr: Trajectory, states: readonly string[]): Record<string, num
 
 /** For each law linear in its own state alone: rate constant, time constant, half-life, and the run's error. */
 function closedForms(laws: readonly Law[], sys: SystemSpec, tr: Trajectory, compiled: Array<(x: ArrayLike<number>) => number>, width: number, rtol: number, atol: Float64Array, timeUnit: DisplayUnit) {
-  const out: Record<string, unknown> = {};
+  const out: Record<string, ClosedFormReport> = {};
   const n = laws.length;
   const points = stepPoints(tr);
   laws.forEach((l, i) => {
@@ -358,7 +360,7 @@ function closedForms(laws: readonly Law[], sys: SystemSpec, tr: Trajectory, comp
     const first = laws0[0]!;
     const check = compareWithExact(tr, i, (k) => laws0[k]!, rtol, atol[i]);
     const perTime: DisplayUnit = mulUnits([], timeUnit, -1);
-    const entry: Record<string, unknown> = {
+    const entry: ClosedFormReport = {
       form: `${l.state}' = a + b ${l.state}`,
       rateConstant: report({ si: first.b, dim: divDim(TIME.map(() => 0), TIME), unit: perTime }),
       maxError: report({ si: check.maxError, dim: l.initial.dim, unit: deltaUnit(l.stateUnit), ...(l.initial.temp ? { temp: 'delta' as const } : {}) }),
