@@ -1,9 +1,9 @@
-import { LitElement, html, css, nothing } from 'lit';
-import type { Cell, CellReport } from '../../src/index.ts';
+import { html, css, nothing, type PropertyDeclarations } from 'lit';
 import { tableFromCsv } from '../../src/index.ts';
-import { cellStyles, editEvent, ErrorClaims } from './common.ts';
+import { cellStyles, type ErrorClaims } from './common.ts';
+import { CellElement, type CellDoc } from './cell-element.ts';
 
-type DataCellDoc = Extract<Cell, { kind: 'data' }>;
+type DataCellDoc = CellDoc<'data'>;
 type Entry = number | string | null;
 
 /**
@@ -11,10 +11,8 @@ type Entry = number | string | null;
  * and deleted), or as CSV text pasted from a spreadsheet or read from a file. Bad entries are
  * kept as typed and flagged on their row by the engine; nothing is dropped.
  */
-export class DataCellElement extends LitElement {
-  static override properties = { cell: { attribute: false }, report: { attribute: false }, problem: { state: true } };
-  cell!: DataCellDoc;
-  report?: CellReport;
+export class DataCellElement extends CellElement<'data'> {
+  static override properties: PropertyDeclarations = { problem: { state: true } };
   problem?: string;
   static override styles = [cellStyles, css`
     table.grid { width: auto; }
@@ -28,12 +26,13 @@ export class DataCellElement extends LitElement {
 
   override render() {
     const c = this.cell;
-    const claims = new ErrorClaims(this.report);
+    const claims = this.claims;
     const columns = Array.isArray(c.columns) ? c.columns : [];
+    // a bad row's error is on its path (the table's rows are flagged; CSV text has its own view)
     const flagged = new Map<number, string>();
     for (const e of this.report?.errors ?? (this.report?.error ? [this.report.error] : [])) {
-      const m = /\.rows\[(\d+)\]/.exec(e.path) ?? /^row (\d+)/.exec(e.message);
-      if (m) flagged.set(e.path.includes('.rows[') ? Number(m[1]) : Number(m[1]) - 1, e.message);
+      const m = /\.rows\[(\d+)\]/.exec(e.path);
+      if (m) flagged.set(Number(m[1]), e.message);
     }
     return html`
       ${c.csv !== undefined ? this.csvView(claims) : html`
@@ -52,45 +51,46 @@ export class DataCellElement extends LitElement {
         <div class="row">
           <button @click=${this.addRow}>Add a row</button>
           <button @click=${this.addColumn}>Add a column</button>
-          <button @click=${() => this.dispatchEvent(editEvent({ ...withoutRows(c), csv: toCsv(c) }))}>Edit as CSV text</button>
+          <button @click=${() => this.replace({ ...withoutRows(c), csv: toCsv(c) })}>Edit as CSV text</button>
           <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label>
         </div>`}
       ${this.report?.ok ? html`<p class="muted">${this.report.rowCount} rows${this.report.note ? `; ${this.report.note}` : ''}.</p>` : nothing}
       ${this.problem ? html`<p class="foot-error" role="alert">${this.problem}</p>` : nothing}
-      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+      ${this.footErrors()}`;
   }
 
   private csvView(claims: ErrorClaims) {
     const error = claims.take('.csv');
     return html`<label class="muted" for="csv">CSV text: a header row of column names, then one row per time (comma, tab or semicolon separated; paste straight from a spreadsheet)</label>
-      <textarea id="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.dispatchEvent(editEvent({ ...this.cell, csv: (e.target as HTMLTextAreaElement).value }, `${this.cell.id}:csv`))}></textarea>
+      <textarea id="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.edit({ csv: (e.target as HTMLTextAreaElement).value }, 'csv')}></textarea>
       ${error ? html`<p class="foot-error" role="alert">${error.message}</p>` : nothing}
       <div class="row"><button @click=${this.toTable}>Turn into a table</button>
         <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label></div>`;
   }
 
   private setColumn(j: number, patch: Partial<DataCellDoc['columns'][number]>) {
-    this.dispatchEvent(editEvent({ ...this.cell, columns: this.cell.columns.map((c, i) => (i === j ? { ...c, ...patch } : c)) }));
+    this.edit({ columns: this.cell.columns.map((c, i) => (i === j ? { ...c, ...patch } : c)) });
   }
 
   private setEntry(r: number, j: number, text: string) {
     const t = text.trim();
     const v: Entry = t === '' ? null : Number.isFinite(Number(t)) ? Number(t) : t;
     const rows = (this.cell.rows ?? []).map((row, i) => (i === r ? row.map((x, k) => (k === j ? v : x)) : row));
-    this.dispatchEvent(editEvent({ ...this.cell, rows }));
+    // text is kept as typed (the document's type says numbers): the engine flags its row
+    this.replace({ ...this.cell, rows } as DataCellDoc);
   }
 
   private addRow = () => {
-    this.dispatchEvent(editEvent({ ...this.cell, rows: [...(this.cell.rows ?? []), this.cell.columns.map(() => null)] }));
+    this.edit({ rows: [...(this.cell.rows ?? []), this.cell.columns.map(() => null)] });
   };
 
   private deleteRow(r: number) {
-    this.dispatchEvent(editEvent({ ...this.cell, rows: (this.cell.rows ?? []).filter((_, i) => i !== r) }));
+    this.edit({ rows: (this.cell.rows ?? []).filter((_, i) => i !== r) });
   }
 
   private addColumn = () => {
     const n = this.cell.columns.length + 1;
-    this.dispatchEvent(editEvent({ ...this.cell, columns: [...this.cell.columns, { name: `c${n}`, unit: '1' }], rows: (this.cell.rows ?? []).map((row) => [...row, null]) }));
+    this.edit({ columns: [...this.cell.columns, { name: `c${n}`, unit: '1' }], rows: (this.cell.rows ?? []).map((row) => [...row, null]) });
   };
 
   /** The CSV text as rows, read by the engine's CSV reader; a problem is shown and nothing changes. */
@@ -102,7 +102,7 @@ export class DataCellElement extends LitElement {
     }
     this.problem = undefined;
     const { csv: _csv, ...rest } = this.cell;
-    this.dispatchEvent(editEvent({ ...rest, rows: r.rows }));
+    this.replace({ ...rest, rows: r.rows } as DataCellDoc);
   };
 
   private importFile = async (e: Event) => {
@@ -111,7 +111,7 @@ export class DataCellElement extends LitElement {
     if (!file) return;
     const text = await file.text();
     input.value = '';
-    this.dispatchEvent(editEvent({ ...withoutRows(this.cell), csv: text }));
+    this.replace({ ...withoutRows(this.cell), csv: text });
   };
 }
 
