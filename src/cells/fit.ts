@@ -165,6 +165,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     residuals, m: points.length, p0: unknowns.map((u) => u.guess),
     lower: unknowns.map((u) => u.lower), upper: unknowns.map((u) => u.upper),
     scale: unknowns.map((u) => Math.abs(u.guess) || 1),
+    names: unknowns.map((u) => `"${u.as}"`),
   }, {
     // differences of a solver run (relative tolerance 1e-10) need a step near √rtol, not √ε
     diffStep: 1e-5,
@@ -200,7 +201,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     converged: fit.converged,
     message: fit.message,
     ...(fit.correlation ? { correlation: { names: unknowns.map((u) => u.as), matrix: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => fit.correlation![i * n + j])) } } : {}),
-    ...(fit.warnings.length ? { warnings: fit.warnings.map((w) => w.message.replace(/parameter (\d+)/g, (_, i) => `"${unknowns[Number(i)]?.as ?? i}"`)) } : {}),
+    ...(fit.warnings.length ? { warnings: fit.warnings.map((w) => w.message) } : {}),
     residuals: points.map((pt, k) => {
       const law = laws[pt.state];
       const r: Quantity = { si: -fit.residuals![k] / pt.w, dim: law.initial.dim, unit: deltaUnit(law.stateUnit), ...(law.initial.temp ? { temp: 'delta' as const } : {}) };

@@ -245,12 +245,13 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
         const dir = fq.q.direction ?? 'either';
         const all = crossings(tr, fq.si, fq.level!.si, a, b).filter((c) => dir === 'either' || c.direction === dir);
         const c = all[(fq.q.occurrence ?? 1) - 1];
-        const what = `${fq.state} ${dir === 'up' ? 'rises through' : dir === 'down' ? 'falls through' : 'crosses'} ${describe(fq.level!)}${(fq.q.occurrence ?? 1) > 1 ? `, occurrence ${fq.q.occurrence}` : ''}`;
+        const which = `${describe(fq.level!)}${(fq.q.occurrence ?? 1) > 1 ? `, occurrence ${fq.q.occurrence}` : ''}`;
+        const what = `${fq.state} ${CROSSING_VERB[dir]} ${which}`;
         if (c) {
           give(fq.name, asTime(c.t), what);
           mark(fq, c.t);
         } else {
-          const message = `not reached: no ${what.replace(/^(\S+) (rises through|falls through|crosses)/, (_, s, v) => `${s} ${v === 'rises through' ? 'rising through' : v === 'falls through' ? 'falling through' : 'crossing'}`)} by the end of the run (${describe(asTime(b))})`;
+          const message = `not reached: no ${fq.state} ${CROSSING_NOUN[dir]} ${which} by the end of the run (${describe(asTime(b))})`;
           results[fq.name] = { notReached: true, message, end: report(asTime(b)) };
           reasons.set(fq.name, `"${fq.name}" is not defined: ${message}`);
           found.push({ name: fq.name, what, answer: `not reached by ${describe(asTime(b))}` });
@@ -313,6 +314,10 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
   }
   return { ok: true, bindings, output, reasons };
 }
+
+/** A crossing in words, by direction: as a question ("T falls through 21 degC") and as a thing not found ("no T falling through"). */
+const CROSSING_VERB = { up: 'rises through', down: 'falls through', either: 'crosses' } as const;
+const CROSSING_NOUN = { up: 'rising through', down: 'falling through', either: 'crossing' } as const;
 
 const FAILURE: Record<string, string> = {
   [Status.Blowup]: 'the solution grows without bound (a finite-time blow-up)',
