@@ -6,7 +6,7 @@ export type { Study, Cell, CellKind } from './study/types.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT } from './study/types.ts';
 export type {
   Report, CellReport, ReportOf, ReportBase, ReportQuantity, CellFields, ParameterValue, PhaseEquilibrium, PhaseInterval,
-  PhasePlotData, SweepReport, SimulationPlot, FindResult, NotReached, ClosedFormReport, EstimateReport, FitResidual,
+  PhasePlotData, SweepReport, SimulationPlot, FindResult, NotReached, ClosedFormReport, EstimateReport, FitResidual, CsvReadReport,
 } from './engine/report.ts';
 export { isKind } from './engine/report.ts';
 export type { CellError, ProblemKind } from './engine/node.ts';
@@ -17,5 +17,6 @@ export { type Quantity, report as reportQuantity, describe as describeQuantity, 
 export { FUNCTION_NAMES } from './expression/functions.ts';
 export { runStudy, exitCodeOf } from './engine/run.ts';
 export { tableFromCsv } from './cells/data.ts';
+export type { CsvRead, CsvColumn, CsvRowProblem } from './csv/read.ts';
 export type { StudyTex } from './output/sheet-tex.ts';
 export { unitChoicesFor, TRADE_UNITS } from './output/display-units.ts';

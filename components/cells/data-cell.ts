@@ -1,4 +1,5 @@
 import { html, css, nothing, type PropertyDeclarations } from 'lit';
+import type { CsvReadReport } from '../../src/index.ts';
 import { tableFromCsv } from '../../src/index.ts';
 import { cellStyles, type ErrorClaims } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
@@ -12,8 +13,10 @@ type Entry = number | string | null;
  * kept as typed and flagged on their row by the engine; nothing is dropped.
  */
 export class DataCellElement extends CellElement<'data'> {
-  static override properties: PropertyDeclarations = { problem: { state: true } };
+  static override properties: PropertyDeclarations = { problem: { state: true }, read: { state: true } };
   problem?: string;
+  /** What the engine said when it last read CSV text into the table: its notes and refused rows. */
+  read?: CsvReadReport;
   static override styles = [cellStyles, css`
     table.grid { width: auto; }
     table.grid input { width: 6.5rem; font-variant-numeric: tabular-nums; text-align: right; }
@@ -22,6 +25,9 @@ export class DataCellElement extends CellElement<'data'> {
     tr.flagged td { background: #fdeceb; }
     textarea { width: 100%; min-height: 7rem; box-sizing: border-box; font-family: ui-monospace, monospace; font-size: 0.85rem; }
     .scroll { overflow-x: auto; max-height: 26rem; overflow-y: auto; }
+    ul.csv-notes, ol.csv-rows { margin: 0.3rem 0 0; padding-left: 1.2rem; }
+    ol.csv-rows { list-style: none; padding-left: 0; }
+    ol.csv-rows code { background: #fdeceb; padding: 0 0.2rem; }
   `];
 
   override render() {
@@ -54,6 +60,7 @@ export class DataCellElement extends CellElement<'data'> {
           <button @click=${() => this.replace({ ...withoutRows(c), csv: toCsv(c) })}>Edit as CSV text</button>
           <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label>
         </div>`}
+      ${c.csv === undefined && this.read ? csvReport(this.read, 'Read from the CSV text') : nothing}
       ${this.report?.ok ? html`<p class="muted">${this.report.rowCount} rows${this.report.note ? `; ${this.report.note}` : ''}.</p>` : nothing}
       ${this.problem ? html`<p class="foot-error" role="alert">${this.problem}</p>` : nothing}
       ${this.footErrors()}`;
@@ -61,11 +68,18 @@ export class DataCellElement extends CellElement<'data'> {
 
   private csvView(claims: ErrorClaims) {
     const error = claims.take('.csv');
-    return html`<label class="muted" for="csv">CSV text: a header row of column names, then one row per time (comma, tab or semicolon separated; paste straight from a spreadsheet)</label>
-      <textarea id="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.edit({ csv: (e.target as HTMLTextAreaElement).value }, 'csv')}></textarea>
-      ${error ? html`<p class="foot-error" role="alert">${error.message}</p>` : nothing}
+    const read = (this.read?.problems?.length ? this.read : undefined) ?? this.report?.csv;
+    return html`<label class="muted" for="csv">CSV text: a header row of column names (a unit may follow in parentheses, such as Temp (°C)), then one row per time, as a number or a clock time (comma, tab or semicolon separated; paste straight from a spreadsheet or a logger export)</label>
+      <textarea id="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.editCsv((e.target as HTMLTextAreaElement).value)}></textarea>
+      ${error && !read?.problems?.length ? html`<p class="foot-error" role="alert">${error.message}</p>` : nothing}
+      ${read ? csvReport(read, 'Read from the header and rows') : nothing}
       <div class="row"><button @click=${this.toTable}>Turn into a table</button>
         <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label></div>`;
+  }
+
+  private editCsv(csv: string) {
+    this.read = undefined;
+    this.edit({ csv }, 'csv');
   }
 
   private setColumn(j: number, patch: Partial<DataCellDoc['columns'][number]>) {
@@ -93,16 +107,20 @@ export class DataCellElement extends CellElement<'data'> {
     this.edit({ columns: [...this.cell.columns, { name: `c${n}`, unit: '1' }], rows: (this.cell.rows ?? []).map((row) => [...row, null]) });
   };
 
-  /** The CSV text as rows, read by the engine's CSV reader; a problem is shown and nothing changes. */
+  /**
+   * The CSV text as a table, read by the engine's CSV reader (its columns, with the header's
+   * units, and rows); the engine's notes stay shown. A problem is shown and nothing changes.
+   */
   private toTable = () => {
-    const r = tableFromCsv(this.cell.csv ?? '', this.cell.columns.map((c) => c.name));
+    const r = tableFromCsv(this.cell.csv ?? '', this.cell.columns);
+    this.read = { notes: r.notes, ...(r.ok ? {} : { problems: r.problems }) };
     if (!r.ok) {
-      this.problem = r.message;
+      this.problem = r.problems.length ? undefined : r.message;
       return;
     }
     this.problem = undefined;
     const { csv: _csv, ...rest } = this.cell;
-    this.replace({ ...rest, rows: r.rows } as DataCellDoc);
+    this.replace({ ...rest, columns: r.columns.map((col) => ({ name: col.name, unit: col.unit })), rows: r.rows } as DataCellDoc);
   };
 
   private importFile = async (e: Event) => {
@@ -111,8 +129,15 @@ export class DataCellElement extends CellElement<'data'> {
     if (!file) return;
     const text = await file.text();
     input.value = '';
+    this.read = undefined;
     this.replace({ ...withoutRows(this.cell), csv: text });
   };
+}
+
+/** The engine's report of reading CSV text, under a heading: notes, the start of clock times, refused rows. */
+function csvReport(read: CsvReadReport, heading: string) {
+  return html`${read.notes.length ? html`<p class="muted">${heading}:</p><ul class="csv-notes muted">${read.notes.map((n) => html`<li>${n}</li>`)}</ul>` : nothing}
+    ${read.problems?.length ? html`<ol class="csv-rows" role="alert">${read.problems.map((p) => html`<li class="foot-error">Row ${p.row} (line ${p.line}) <code>${p.text}</code>: ${p.message}</li>`)}</ol>` : nothing}`;
 }
 
 function show(v: Entry): string {

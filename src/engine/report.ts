@@ -9,6 +9,7 @@ import type { CellError } from './node.ts';
 import type { ReportQuantity } from '../units/quantity.ts';
 import type { SimulationPlot } from '../simulate/plot-data.ts';
 import type { Stability } from '../numerics/phase/equilibria.ts';
+import type { CsvRowProblem } from '../csv/read.ts';
 
 export type { ReportQuantity } from '../units/quantity.ts';
 export type { SimulationPlot } from '../simulate/plot-data.ts';
@@ -166,11 +167,19 @@ export interface SimulateFields {
 
 // data
 
+/** What reading a data cell's CSV text said: notes on what was interpreted, the start of clock times, refused rows. */
+export interface CsvReadReport {
+  notes: string[];
+  start?: string;
+  problems?: CsvRowProblem[];
+}
+
 export interface DataFields {
   columns: Array<{ name: string; unit: string }>;
   rowCount: number;
   missing?: string[];
   note?: string;
+  csv?: CsvReadReport;
 }
 
 // fit

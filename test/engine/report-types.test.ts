@@ -107,7 +107,7 @@ describe('the typed report', () => {
       rate: ['state', 'unit', 'initial', 'rateAtStart', 'warning'],
       phase: ['equilibria', 'intervals', 'poles', 'jumps', 'gaps', 'zeroIntervals', 'evaluations', 'notes', 'plot', 'summary', 'sweep'],
       simulate: ['method', 'steps', 'evaluations', 'results', 'closedForm', 'series', 'summary', 'questions', 'plot', 'switchedToStiff', 'note'],
-      data: ['columns', 'rowCount', 'missing', 'note'],
+      data: ['columns', 'rowCount', 'missing', 'note', 'csv'],
       fit: ['estimates', 'residualSD', 'n', 'dof', 'iterations', 'evaluations', 'converged', 'message', 'correlation', 'warnings', 'residuals', 'summary', 'plot'],
       nca: ['values', 'pointsUsed', 'note', 'warnings'],
       note: [],
