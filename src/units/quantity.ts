@@ -167,13 +167,13 @@ export function compare(a: Quantity, b: Quantity, op: string): boolean {
 }
 
 /** The contract's `{ value, unit, si }` form. */
-export interface ReportedQuantity {
+export interface ReportQuantity {
   value: number;
   unit: string;
   si: number;
 }
 
-export function report(q: Quantity): ReportedQuantity {
+export function report(q: Quantity): ReportQuantity {
   const unit = shownUnit(q);
   return { value: tidy(valueIn(q, unit)), unit: formatUnit(unit), si: q.si };
 }

@@ -31,9 +31,12 @@ export function emptyStatistics(m: number, n: number, cost: number | null): Stat
   };
 }
 
-/** "parameter 0", "parameter 0 and parameter 2": each index after the word, so a caller can substitute names. */
-const listNames = (js: readonly number[]): string => {
-  const each = js.map((j) => `parameter ${j}`);
+/** Parameter j in a message: its name when given, else "parameter j". */
+export const nameOf = (j: number, names?: readonly string[]): string => names?.[j] ?? `parameter ${j}`;
+
+/** "k and V", "parameter 0, parameter 1 and parameter 2". */
+const listNames = (js: readonly number[], names?: readonly string[]): string => {
+  const each = js.map((j) => nameOf(j, names));
   return each.length === 1 ? each[0] : `${each.slice(0, -1).join(', ')} and ${each[each.length - 1]}`;
 };
 
@@ -44,7 +47,7 @@ const listNames = (js: readonly number[]): string => {
  * more finely than its step.
  */
 export function statistics(
-  jac: Float64Array, m: number, n: number, cost: number, p: Float64Array, diffStep: number, warnings: FitWarning[],
+  jac: Float64Array, m: number, n: number, cost: number, p: Float64Array, diffStep: number, warnings: FitWarning[], names?: readonly string[],
 ): Statistics {
   const base = emptyStatistics(m, n, cost);
   const colNorm = new Float64Array(n);
@@ -70,7 +73,7 @@ export function statistics(
   if (noEffect.length > 0) {
     warnings.push({
       kind: 'no-effect', parameters: noEffect,
-      message: `${listNames(noEffect)} ${noEffect.length === 1 ? 'has' : 'have'} no effect on the residuals here, so the data say nothing about ${noEffect.length === 1 ? 'it' : 'them'}`,
+      message: `${listNames(noEffect, names)} ${noEffect.length === 1 ? 'has' : 'have'} no effect on the residuals here, so the data say nothing about ${noEffect.length === 1 ? 'it' : 'them'}`,
     });
   }
   const condText = Number.isFinite(conditionNumber) ? `cond(JᵀJ) ≈ ${conditionNumber.toPrecision(2)}` : 'JᵀJ is singular';
@@ -87,14 +90,14 @@ export function statistics(
   if (collinear.length > 0) {
     warnings.push({
       kind: 'not-identifiable', parameters: collinear,
-      message: `${listNames(collinear)} cannot be told apart by these data: some combination of them leaves the residuals unchanged (nearly collinear columns of the Jacobian; ${condText}). Fix one of them or change the model's parameters`,
+      message: `${listNames(collinear, names)} cannot be told apart by these data: some combination of them leaves the residuals unchanged (nearly collinear columns of the Jacobian; ${condText}). Fix one of them or change the model's parameters`,
     });
   } else {
     const poor = involved(poorRatio);
     if (poor.length > 0) {
       warnings.push({
         kind: 'poorly-identified', parameters: poor,
-        message: `${listNames(poor)} are poorly determined together (${condText}): their estimates are strongly correlated and their intervals wide`,
+        message: `${listNames(poor, names)} are poorly determined together (${condText}): their estimates are strongly correlated and their intervals wide`,
       });
     }
   }

@@ -73,6 +73,8 @@ export interface LeastSquaresProblem {
   readonly upper?: ArrayLike<number>;
   /** Typical size of each parameter (positive): sets the step metric D = 1/scale and the difference steps. */
   readonly scale?: ArrayLike<number>;
+  /** What warnings call each parameter (such as `"k_hat"`); `parameter j` by default. */
+  readonly names?: readonly string[];
 }
 
 export interface LeastSquaresOptions {

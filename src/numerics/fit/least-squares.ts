@@ -16,7 +16,7 @@
  */
 import { checkInput } from './fit-input.ts';
 import { CountedModel, forwardJacobian } from './fit-model.ts';
-import { emptyStatistics, statistics } from './fit-statistics.ts';
+import { emptyStatistics, nameOf, statistics } from './fit-statistics.ts';
 import {
   CONVERGED, FIT_MESSAGES, type FitResult, type FitStatus, type FitWarning, type LeastSquaresOptions, type LeastSquaresProblem,
 } from './fit-types.ts';
@@ -78,12 +78,12 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
       const which = p[j] <= lower[j] ? 'lower' : 'upper';
       warnings.push({
         kind: 'at-bound', parameters: [j],
-        message: `parameter ${j} ended on its ${which} bound; its interval treats the bound as absent`,
+        message: `${nameOf(j, problem.names)} ended on its ${which} bound; its interval treats the bound as absent`,
       });
     }
   }
   const stats = jacobian
-    ? statistics(jacobian, m, n, cost, p, diffStep, warnings)
+    ? statistics(jacobian, m, n, cost, p, diffStep, warnings, problem.names)
     : (warnings.push({
         kind: 'no-jacobian', parameters: [],
         message: 'no Jacobian at the final parameters, so no standard errors, intervals or identifiability check',
