@@ -15,5 +15,6 @@ export { type Quantity, report as reportQuantity, describe as describeQuantity, 
 export { FUNCTION_NAMES } from './expression/functions.ts';
 export { runStudy, exitCodeOf } from './engine/run.ts';
 export { tableFromCsv } from './cells/data.ts';
+export type { CsvRead, CsvColumn, CsvRowProblem } from './csv/read.ts';
 export type { StudyTex } from './output/sheet-tex.ts';
 export { unitChoicesFor, TRADE_UNITS } from './output/display-units.ts';
