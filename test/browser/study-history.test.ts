@@ -6,7 +6,6 @@ import { expect } from 'chai';
 import { sendKeys } from '@web/test-runner-commands';
 import { EditorView } from '@codemirror/view';
 import { StudyView } from '../../components/study-view.ts';
-import { EngineClient } from '../../components/engine-client.ts';
 import { createStudyStore } from '../../components/store.ts';
 import type { ExprField } from '../../components/expr-field.ts';
 import type { ToWorker } from '../../src/engine/worker-protocol.ts';
@@ -20,16 +19,20 @@ const STUDY: Study = {
   ],
 };
 
-/** The engine's real worker, counted, with the type of every message sent to it. */
-class CountedWorker {
+const RealWorker = window.Worker;
+
+/** The engine's real worker (as the app makes it), counted, with the type of every message sent to it. */
+class CountedWorker extends RealWorker {
   static made: CountedWorker[] = [];
   readonly sent: string[] = [];
-  private readonly inner = new Worker(new URL('../../components/engine.worker.ts', import.meta.url), { type: 'module' });
-  constructor() { CountedWorker.made.push(this); }
-  set onmessage(f: ((e: MessageEvent) => void) | null) { this.inner.onmessage = f; }
-  set onerror(f: ((e: ErrorEvent) => void) | null) { this.inner.onerror = f; }
-  postMessage(m: ToWorker) { this.sent.push(m.type); this.inner.postMessage(m); }
-  terminate() { this.inner.terminate(); }
+  constructor(url: string | URL, options?: WorkerOptions) {
+    super(url, options);
+    CountedWorker.made.push(this);
+  }
+  override postMessage(m: ToWorker): void {
+    this.sent.push(m.type);
+    super.postMessage(m);
+  }
 }
 
 async function until<T>(get: () => T | undefined | null | false, what: string, ms = 5000): Promise<T> {
@@ -61,10 +64,11 @@ function focused(): HTMLElement | null {
 
 async function mount(options: Parameters<typeof StudyView.create>[0] = {}, id = 'history'): Promise<StudyView> {
   CountedWorker.made = [];
-  const view = StudyView.create({ ...options, engine: (events) => new EngineClient(events, () => new CountedWorker() as unknown as Worker) });
+  window.Worker = CountedWorker;
+  const view = StudyView.create(options);
   document.body.append(view);
   view.controller.open(id, structuredClone(STUDY));
-  await until(() => view.controller.report, 'the first report');
+  await until(() => view.controller.report, 'the first report', 15000);
   await view.updateComplete;
   return view;
 }
@@ -95,7 +99,10 @@ async function settled(view: StudyView): Promise<void> {
 }
 
 describe('undo and redo by keyboard', () => {
-  afterEach(() => document.querySelectorAll('study-view').forEach((v) => v.remove()));
+  afterEach(() => {
+    document.querySelectorAll('study-view').forEach((v) => v.remove());
+    window.Worker = RealWorker;
+  });
 
   it('inside a field they undo its typing, outside they undo the study; field, study and report agree', async function () {
     this.timeout(40000);
