@@ -5,6 +5,7 @@ import { EditorView } from '@codemirror/view';
 import { currentCompletions, startCompletion, completionStatus } from '@codemirror/autocomplete';
 import '../../components/expr-field.ts';
 import type { ExprField, ExprInputDetail } from '../../components/expr-field.ts';
+import { until } from './helpers.ts';
 
 const NAMES = [
   { name: 'k', detail: '0.35 1 / h' },
@@ -33,16 +34,6 @@ function record(el: ExprField, type: 'expr-input' | 'expr-commit'): string[] {
     if (e.composedPath()[0] === el) seen.push((e as CustomEvent<ExprInputDetail>).detail.value);
   });
   return seen;
-}
-
-async function until<T>(get: () => T | undefined | null | false, what: string, ms = 3000): Promise<T> {
-  const end = performance.now() + ms;
-  for (;;) {
-    const v = get();
-    if (v) return v;
-    if (performance.now() > end) throw new Error(`gave up waiting: ${what}`);
-    await new Promise((r) => setTimeout(r, 20));
-  }
 }
 
 const frame = () => new Promise((r) => requestAnimationFrame(() => r(undefined)));

@@ -10,6 +10,7 @@ import { createStudyStore } from '../../components/store.ts';
 import type { ExprField } from '../../components/expr-field.ts';
 import type { ToWorker } from '../../src/engine/worker-protocol.ts';
 import type { Study } from '../../src/index.ts';
+import { deep, until } from './helpers.ts';
 
 const STUDY: Study = {
   format: 'ratebook-study', version: 1, title: 'Chiller check',
@@ -33,26 +34,6 @@ class CountedWorker extends RealWorker {
     this.sent.push(m.type);
     super.postMessage(m);
   }
-}
-
-async function until<T>(get: () => T | undefined | null | false, what: string, ms = 5000): Promise<T> {
-  const end = performance.now() + ms;
-  for (;;) {
-    const v = get();
-    if (v) return v;
-    if (performance.now() > end) throw new Error(`gave up waiting: ${what}`);
-    await new Promise((r) => setTimeout(r, 20));
-  }
-}
-
-function deep(root: ParentNode, selector: string): Element[] {
-  const out: Element[] = [];
-  const walk = (n: ParentNode) => {
-    out.push(...n.querySelectorAll(selector));
-    for (const el of n.querySelectorAll('*')) if (el.shadowRoot) walk(el.shadowRoot);
-  };
-  walk(root);
-  return out;
 }
 
 /** The element that has focus, looking inside shadow roots. */
@@ -92,7 +73,7 @@ function reportedHalfLife(view: StudyView): number | undefined {
 
 /** Waits until the engine has answered the study as it now stands, and it is rendered. */
 async function settled(view: StudyView): Promise<void> {
-  await until(() => !view.controller.busy, 'the engine to answer');
+  await until(() => !view.controller.busy, 'the engine to answer', 10000);
   await view.updateComplete;
   for (const el of deep(view.shadowRoot!, 'parameters-cell')) await (el as unknown as { updateComplete: Promise<unknown> }).updateComplete;
   await new Promise((r) => setTimeout(r, 30));
@@ -179,7 +160,8 @@ describe('undo and redo by keyboard', () => {
     expect(CountedWorker.made[0].sent.filter((t) => t === 'open').length, 'the study is sent whole once').to.equal(1);
   });
 
-  it('undo after a new title restores the name, in the report and in the list of studies', async () => {
+  it('undo after a new title restores the name, in the report and in the list of studies', async function () {
+    this.timeout(40000);
     const store = createStudyStore({ dbName: `ratebook-history-${Date.now()}-${Math.random().toString(36).slice(2)}` });
     const { id } = await store.createStudy(structuredClone(STUDY));
     const view = await mount({ save: async (sid, doc) => { await store.saveStudy(sid, doc); } }, id);
@@ -209,7 +191,8 @@ describe('undo and redo by keyboard', () => {
     expect(CountedWorker.made.length, 'one worker').to.equal(1);
   });
 
-  it('undo and redo send whole-document edits that re-run only the cells that differ', async () => {
+  it('undo and redo send whole-document edits that re-run only the cells that differ', async function () {
+    this.timeout(40000);
     const view = await mount();
     const c = view.controller;
     c.edit({ type: 'insert', index: 2, cell: { id: 'n', kind: 'note', text: 'noted' } });
