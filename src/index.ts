@@ -1,5 +1,6 @@
 /** Ratebook's engine: the public surface. Pure TypeScript; runs in the browser and in Node. */
 export { openStudy, StudySession, type EditResult, type OpenResult, type SessionOptions } from './engine/session.ts';
+export type { Replacement, WhatIf, WhatIfAnswer, WhatIfPrepared, WhatIfResult } from './engine/what-if.ts';
 export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind } from './study/types.ts';
@@ -20,3 +21,8 @@ export { tableFromCsv } from './cells/data.ts';
 export type { CsvRead, CsvColumn, CsvRowProblem } from './csv/read.ts';
 export type { StudyTex } from './output/sheet-tex.ts';
 export { unitChoicesFor, TRADE_UNITS } from './output/display-units.ts';
+export { studyTex } from './output/sheet-tex.ts';
+export { nameTex } from './expression/tex.ts';
+export type { FromWorker, ToWorker } from './engine/worker-protocol.ts';
+export { lookupUnit } from './units/units.ts';
+export { commonUnitNames, constantNames, functionNames, unitNames } from './expression/vocabulary.ts';

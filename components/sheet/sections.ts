@@ -4,14 +4,12 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import type { Cell, CellReport, ReportOf, SimulationPlot, SweepReport, StudyTex } from '../../src/index.ts';
-import { isKind } from '../../src/index.ts';
+import { isKind, nameTex, type Cell, type CellReport, type ReportOf, type SimulationPlot, type SweepReport, type StudyTex } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
 import { STABLE, UNSTABLE } from '../plots/palette.ts';
 import { math } from './math.ts';
-import { nameTex } from '../../src/expression/tex.ts';
 
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
 

@@ -12,6 +12,7 @@ import { describe, plain } from '../units/quantity.ts';
 import { unitDim, type DisplayUnit } from '../units/units.ts';
 import { TIME, sameDim, describeDim } from '../units/dimension.ts';
 import { unitFromText } from '../expression/unit-text.ts';
+import { findWord } from '../expression/find-word.ts';
 
 export interface Field {
   readonly path: string;
@@ -23,7 +24,7 @@ const CACHE_LIMIT = 5000;
 const cache = new Map<string, ParseResult>();
 
 /** parseExpression with a bounded cache keyed by the text. */
-export function parseCached(text: string): ParseResult {
+function parseCached(text: string): ParseResult {
   let r = cache.get(text);
   if (!r) {
     r = parseExpression(text);
@@ -119,7 +120,7 @@ export function guarded<O extends object>(run: () => Outcome<O>): Outcome<O> {
 export function valueOf(f: Field, lookup: Lookup): Value {
   const r = evaluateExpression(f.expr, lookup);
   if (!r.ok) {
-    const span = r.error.token ? findToken(f.text, r.error.token) : undefined;
+    const span = r.error.token ? findWord(f.text, r.error.token) : undefined;
     throw new FieldError({ kind: r.error.units ? 'unit' : 'invalid', path: f.path, message: `${label(f.path)}: ${r.error.message}`, ...(span ? { span } : {}) });
   }
   return r.value;
@@ -157,7 +158,3 @@ export function unitOf(f: Field): DisplayUnit {
   return lit.unit;
 }
 
-function findToken(text: string, token: string): readonly [number, number] | undefined {
-  const m = new RegExp(`(?<![A-Za-z0-9_])${token.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}(?![A-Za-z0-9_])`).exec(text);
-  return m ? [m.index, m.index + token.length] : undefined;
-}

@@ -23,7 +23,7 @@ export function ncaNodes(cell: NcaCell, at: string): Array<GraphNode<NodeOutput<
   return [{
     key: `${cell.id}/nca`,
     cell: cell.id,
-    defines: NCA_NAMES.map((n) => ({ name: `${prefix}${n}`, path: `${at}.prefix` })),
+    defines: NCA_RESULTS.map((n) => ({ name: `${prefix}${n}`, path: `${at}.prefix` })),
     uses: [...usesOf([dose, duration]), ...(typeof cell.data === 'string' ? [{ name: cellRef(cell.data), path: `${at}.data` }] : [])],
     allowsTime: false,
     allowsStates: false,
@@ -101,6 +101,3 @@ function runNca(cell: NcaCell, at: string, prefix: string, doseField: Field, dur
     },
   };
 }
-
-/** The names an nca cell defines, before its prefix (the study-format contract). */
-export const NCA_NAMES = NCA_RESULTS;

@@ -10,6 +10,7 @@ import type { CellError, GraphNode } from './node.ts';
 import { lookupUnit } from '../units/units.ts';
 import { isConstantName } from '../expression/constants.ts';
 import { nearest } from '../expression/suggest.ts';
+import { findWord } from '../expression/find-word.ts';
 
 /** Where a used name comes from; `optional` when the reader runs without it (it only shows it). */
 export type Source = { readonly node: string; readonly optional?: boolean } | { readonly builtin: 'time' | 'constant' | 'unit' };
@@ -116,8 +117,8 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
 
 function span(u: { name: string; text?: string }): { span?: readonly [number, number] } {
   if (!u.text) return {};
-  const m = new RegExp(`(?<![A-Za-z0-9_])${u.name}(?![A-Za-z0-9_])`).exec(u.text);
-  return m ? { span: [m.index, m.index + u.name.length] } : {};
+  const at = findWord(u.text, u.name);
+  return at ? { span: at } : {};
 }
 
 /**
@@ -304,4 +305,21 @@ class MinHeap {
     }
     return top;
   }
+}
+
+/** Names `name` is computed from, following the resolved sources. Cost: O(nodes upstream). */
+export function upstreamOf(graph: Graph, name: string): ReadonlySet<string> {
+  const out = new Set<string>();
+  const queue = [name];
+  while (queue.length) {
+    const key = graph.definers.get(queue.pop()!);
+    const sources = key ? graph.sources.get(key) : undefined;
+    for (const [n, s] of sources ?? []) {
+      if ('node' in s && !out.has(n)) {
+        out.add(n);
+        queue.push(n);
+      }
+    }
+  }
+  return out;
 }

@@ -11,19 +11,11 @@ import { readStudy, checkCell, type Problem } from '../study/validate.ts';
 import { applyEdit, type Edit } from '../study/edit.ts';
 import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.ts';
 import { buildCellNodes, resolvePath, CELL_PATH } from '../cells/index.ts';
-import { buildGraph, type Graph } from './graph.ts';
+import { buildGraph, upstreamOf, type Graph } from './graph.ts';
+import { prepareWhatIf, type Replacement, type Unavailable, type WhatIfPrepared } from './what-if.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
 
-/** A name that cannot be read: its definer failed or computed nothing. */
-interface Unavailable {
-  readonly kind: 'unavailable';
-  readonly cell: string;
-  readonly reason: string;
-  /** When the definer itself waits on a cell: that cell (its reason already names it). */
-  readonly waitsOn?: string;
-  readonly sig: string;
-}
 type Slot = Binding | Unavailable;
 
 /** The binding in a slot; undefined when its name is unavailable. */
@@ -32,6 +24,7 @@ function bound(slot: Slot | undefined): Binding | undefined {
 }
 
 export type { Edit } from '../study/edit.ts';
+export type { Replacement, WhatIfPrepared } from './what-if.ts';
 
 export type EditResult =
   | { readonly ok: true; readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report }
@@ -236,16 +229,8 @@ export class StudySession {
   private runNode(node: GraphNode, problem: CellError | undefined): Outcome {
     if (problem) return { ok: false, error: problem };
     const sources = this.graph.sources.get(node.key)!;
-    for (const use of node.uses) {
-      const src = sources.get(use.name);
-      if (!src || !('node' in src) || src.optional) continue;
-      const slot = this.slots.get(use.name);
-      if (!bound(slot)) {
-        const unavailable = slot as Unavailable | undefined;
-        const cell = unavailable?.cell ?? this.graph.nodes.get(src.node)!.cell;
-        return { ok: false, error: waitsOnCell(cell, unavailable, use.path) };
-      }
-    }
+    const waiting = waitingOn(this.graph, node, (name) => this.slots.get(name));
+    if (waiting) return { ok: false, error: waiting };
     const ctx: RunContext = {
       mode: this.mode,
       binding: (name) => (sources.has(name) ? bound(this.slots.get(name)) : undefined),
@@ -258,25 +243,34 @@ export class StudySession {
     try {
       return node.run(ctx);
     } catch (err) {
-      return { ok: false, error: { kind: 'internal', message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? CELL_PATH } };
+      return internalError(node, err);
     }
+  }
+
+  /**
+   * A what-if evaluator over the study as it stands now (`engine/what-if.ts`): the `wanted`
+   * names computed with the `replaced` parameters and states' initial values given new SI
+   * values, re-running only the nodes between them, never touching this session. Planned
+   * once here; each call of its `evaluate` only runs those nodes. It keeps answering for the
+   * study as it was when prepared: prepare again after an edit. Never throws.
+   */
+  whatIf(wanted: readonly string[], replaced: readonly Replacement[]): WhatIfPrepared {
+    const graph = this.graph;
+    const index = new Map(this.cells.map((c, i) => [c.id, i]));
+    const kinds = new Map(this.cells.map((c) => [c.id, c.kind]));
+    return prepareWhatIf({
+      graph,
+      slot: (name) => this.slots.get(name),
+      cellKind: (id) => kinds.get(id),
+      waitingOn: (node, slotOf) => waitingOn(graph, node, slotOf),
+      unavailable: (node, name, outcome) => unavailable(node, name, outcome, index.get(node.cell) ?? -1),
+      internalError,
+    }, wanted, replaced);
   }
 
   /** Names `name` is computed from, following the graph's resolved sources. */
   private upstream(name: string): ReadonlySet<string> {
-    const out = new Set<string>();
-    const queue = [name];
-    while (queue.length) {
-      const key = this.graph.definers.get(queue.pop()!);
-      const sources = key ? this.graph.sources.get(key) : undefined;
-      for (const [n, s] of sources ?? []) {
-        if ('node' in s && !out.has(n)) {
-          out.add(n);
-          queue.push(n);
-        }
-      }
-    }
-    return out;
+    return upstreamOf(this.graph, name);
   }
 
   private cellReport(cell: Cell, index: number): CellReport {
@@ -316,13 +310,28 @@ function unavailable(node: GraphNode, name: string, outcome: Outcome, index: num
 }
 
 /**
- * The error of a node that reads a name of `cell` that is unavailable. A reason that already
- * waits on that same cell (a node of it waiting on another of its nodes) is not prefixed twice.
+ * The error of a node that reads a name whose definer failed or computed nothing; undefined
+ * when all its inputs are bound (an optional input may be missing). A reason that already
+ * waits on the same cell (a node waiting on a node of its own cell) is not prefixed twice.
  */
-function waitsOnCell(cell: string, slot: Unavailable | undefined, path: string): CellError {
-  const reason = slot?.reason ?? 'it has not been computed';
-  const message = slot?.waitsOn === cell ? reason : `waits on cell "${cell}": ${reason}`;
-  return { kind: 'waits', waitsOn: cell, message, path };
+function waitingOn(graph: Graph, node: GraphNode, slotOf: (name: string) => Slot | undefined): CellError | undefined {
+  const sources = graph.sources.get(node.key)!;
+  for (const use of node.uses) {
+    const src = sources.get(use.name);
+    if (!src || !('node' in src) || src.optional) continue;
+    const slot = slotOf(use.name);
+    if (bound(slot)) continue;
+    const missing = slot as Unavailable | undefined;
+    const cell = missing?.cell ?? graph.nodes.get(src.node)!.cell;
+    const reason = missing?.reason ?? 'it has not been computed';
+    return { kind: 'waits', waitsOn: cell, message: missing?.waitsOn === cell ? reason : `waits on cell "${cell}": ${reason}`, path: use.path };
+  }
+  return undefined;
+}
+
+/** What a node that threw is reported as. */
+function internalError(node: GraphNode, err: unknown): Outcome {
+  return { ok: false, error: { kind: 'internal', message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? CELL_PATH } };
 }
 
 /** Structural equality of plain JSON-like values (reports): cheaper than comparing their JSON. */
