@@ -5,6 +5,7 @@ export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind } from './study/types.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT } from './study/types.ts';
 export type { Report, CellReport } from './engine/report.ts';
+export type { GlanceEntry, GlanceKind } from './output/glance.ts';
 export type { CellError } from './engine/node.ts';
 export { parseExpression, type ParseResult, type ExprProblem } from './expression/parse.ts';
 export { evaluateExpression, type Lookup, type Value } from './expression/evaluate.ts';

@@ -4,7 +4,7 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import type { Cell, CellReport, StudyTex } from '../../src/index.ts';
+import type { Cell, CellReport, GlanceEntry, Report, StudyTex } from '../../src/index.ts';
 import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
@@ -25,42 +25,20 @@ const KIND_NAMES: Record<Cell['kind'], string> = {
 };
 
 /**
- * Results at a glance, for the top of the sheet: every yes/no verdict, every answer the runs found, every fitted
- * estimate, and the main values of each profile summary, with the cell each comes from.
+ * Results at a glance, for the top of the sheet: the engine's `glance` list as it stands (it
+ * chooses and orders them), each with the cell it comes from.
  */
-export function glance(study: { cells: readonly Cell[] }, report: { cells: readonly CellReport[] }): TemplateResult | typeof nothing {
-  const rows: Array<{ name: string; shown: string; from: string }> = [];
-  const verdicts: typeof rows = [];
-  for (const cell of study.cells) {
-    const r = report.cells.find((c) => c.id === cell.id);
-    if (!r) continue;
-    const from = cell.title || cell.id;
-    // verdicts (parameters that are conditions) belong at the top
-    if (cell.kind === 'parameters') {
-      for (const [name, q] of Object.entries((r.values ?? {}) as Record<string, Q & { truth?: boolean }>)) {
-        if (typeof q.truth === 'boolean') verdicts.push({ name, shown: showValue(q), from });
-      }
-    }
-    if (!r.ok) continue;
-    if (cell.kind === 'simulate') {
-      for (const [name, x] of Object.entries((r.results ?? {}) as Record<string, Q | { notReached: true; end: Q }>)) {
-        rows.push({ name, shown: 'notReached' in x ? `not reached by ${showQ(x.end)}` : showQ(x), from });
-      }
-    } else if (cell.kind === 'fit') {
-      for (const [name, e] of Object.entries((r.estimates ?? {}) as Record<string, { value: Q; standardError: Q | null }>)) {
-        rows.push({ name, shown: `${showQ(e.value)}${e.standardError ? ` ± ${showQ(e.standardError)} (SE)` : ''}`, from });
-      }
-    } else if (cell.kind === 'nca') {
-      for (const [name, q] of Object.entries((r.values ?? {}) as Record<string, Q>)) {
-        if (/(Cmax|tmax|AUCinf|t_half|CL|Vz)$/.test(name)) rows.push({ name, shown: showQ(q), from });
-      }
-    }
-  }
-  rows.unshift(...verdicts);
-  if (!rows.length) return nothing;
+export function glance(report: Report): TemplateResult | typeof nothing {
+  const list = report.glance ?? [];
+  if (!list.length) return nothing;
+  const fromOf = (id: string) => { const c = report.cells.find((x) => x.id === id); return c?.title || id; };
+  const shown = (g: GlanceEntry) => g.unavailable !== undefined ? g.unavailable
+    : g.notReachedBy ? `not reached by ${showQ(g.notReachedBy)}`
+    : g.kind === 'verdict' ? showValue(g.value)
+    : `${g.value ? showQ(g.value) : ''}${g.standardError ? ` ± ${showQ(g.standardError)} (SE)` : ''}`;
   return html`<section class="cell glance"><h2>Results at a glance</h2>
     <table><thead><tr><th>Result</th><th>Value</th><th>From</th></tr></thead>
-    <tbody>${rows.map((x) => html`<tr><td class="name">${x.name}</td><td class="num">${x.shown}</td><td class="from">${x.from}</td></tr>`)}</tbody></table></section>`;
+    <tbody>${list.map((g) => html`<tr><td class="name">${g.name}</td><td class="num">${shown(g)}</td><td class="from">${fromOf(g.cell)}</td></tr>`)}</tbody></table></section>`;
 }
 
 export function section(cell: Cell, r: CellReport | undefined, tex: StudyTex, cells: readonly Cell[]): TemplateResult {

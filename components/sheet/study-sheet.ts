@@ -84,7 +84,7 @@ export class StudySheet extends LitElement {
         ${study.description ? html`<p class="description">${study.description}</p>` : nothing}
       </header>
       ${(this.report?.cautions ?? []).map((c) => html`<p class="caution"><strong>Caution.</strong> ${c.text}</p>`)}
-      ${this.report ? glance(study, this.report) : nothing}
+      ${this.report ? glance(this.report) : nothing}
       ${this.report ? study.cells.map((c) => section(c, byId.get(c.id), this.tex!, study.cells)) : html`<p class="muted">Computing…</p>`}
       ${warnings.length ? html`<section class="cell"><h2>Engine notes</h2>${warnings.map((w) => html`<p class="check">${w}</p>`)}</section>` : nothing}
       <footer>Every value on this sheet was computed by Ratebook from the inputs shown, with the units shown. It is an aid to analysis and does not replace professional judgement, local codes or licensed practice.</footer>`;

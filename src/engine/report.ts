@@ -1,5 +1,6 @@
 /** The report of the study-format contract: what `ratebook run --json` prints. */
 import type { CellError } from './node.ts';
+import type { GlanceEntry } from '../output/glance.ts';
 
 export interface CellReport {
   id: string;
@@ -20,6 +21,8 @@ export interface Report {
   warnings: string[];
   /** Cautions the study must show (doses, temperature limits), in the order to show them. */
   cautions: Array<{ kind: string; text: string }>;
+  /** The results at a glance, chosen by the engine (a Ratebook addition; see output/glance.ts). */
+  glance?: GlanceEntry[];
   cells: CellReport[];
 }
 

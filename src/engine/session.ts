@@ -14,6 +14,7 @@ import { buildCellNodes, resolvePath, CELL_PATH } from '../cells/index.ts';
 import { buildGraph, type Graph } from './graph.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
+import { glanceOf } from '../output/glance.ts';
 import type { SimulationPlot } from '../simulate/plot-data.ts';
 import { unitFromText, shownIn } from '../expression/unit-text.ts';
 
@@ -227,6 +228,7 @@ export class StudySession {
       ok: reports.every((c) => c.ok),
       warnings: [...this.notes, ...this.graph.warnings],
       cautions: cautionsFor(this.cells),
+      glance: glanceOf(this.cells, reports),
       cells: reports,
     };
     return { rerun: this.cells.filter((c) => rerunCells.has(c.id)).map((c) => c.id), changed };

@@ -84,6 +84,22 @@ describe('study-sheet', () => {
     expect(glance.textContent).to.contain('(SE)');
   });
 
+  it('lists at a glance exactly the glance list of the engine, in its order, also when the study chooses', async () => {
+    const chosen = structuredClone(cooling) as Study;
+    const run = chosen.cells.find((c) => c.kind === 'simulate') as Extract<Study['cells'][number], { kind: 'simulate' }>;
+    run.find![run.find!.length - 1].glance = true;
+    for (const doc of [plasma, twoStage, cooling, chosen]) {
+      const root = await sheetOf(doc);
+      const names = [...root.querySelectorAll('section.glance td.name')].map((td) => td.textContent);
+      const engine = reportOf(doc).glance!;
+      expect(engine.length, doc.title).to.be.greaterThan(0);
+      expect(names, doc.title).to.deep.equal(engine.map((g) => g.name));
+      root.host.remove();
+    }
+    const one = reportOf(chosen).glance!;
+    expect(one.map((g) => g.name), 'only the chosen answer').to.deep.equal([run.find![run.find!.length - 1].name]);
+  });
+
   it('shows verdicts as yes or no, first among the results at a glance', async () => {
     const root = await sheetOf(twoStage);
     const rows = [...root.querySelectorAll('section.glance tbody tr')].map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent!.trim()));
