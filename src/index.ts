@@ -15,4 +15,5 @@ export { FUNCTION_NAMES } from './expression/functions.ts';
 export { runStudy, exitCodeOf } from './engine/run.ts';
 export { tableFromCsv } from './cells/data.ts';
 export type { StudyTex } from './output/sheet-tex.ts';
-export { unitChoicesFor, TRADE_UNITS } from './output/display-units.ts';
+export { unitChoicesFor, timeAxisUnits, TRADE_UNITS, type AxisUnit } from './output/display-units.ts';
+export type { SimulationPlot } from './simulate/plot-data.ts';

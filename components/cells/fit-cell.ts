@@ -1,5 +1,5 @@
 import { LitElement, html, nothing, css } from 'lit';
-import type { Cell, CellReport, Report } from '../../src/index.ts';
+import type { Cell, CellReport, Report, SimulationPlot } from '../../src/index.ts';
 import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
 import '../expr-field.ts';
 import '../unit-pick.ts';
@@ -86,11 +86,11 @@ export class FitCellElement extends LitElement {
 
   /** The fitted curve over the data, and the residuals against time around a zero line. */
   private plots(r: CellReport) {
-    const plot = r.plot as { timeUnit: string; t: number[]; points: Array<{ state: string; t: number[]; values: number[] }> };
+    const plot = r.plot as SimulationPlot & { points: NonNullable<SimulationPlot['points']> };
     const res = (r.residuals ?? []) as Array<{ time: Q; residual: Q }>;
     const unit = res[0]?.residual.unit ?? '';
     const residualPlot = {
-      timeUnit: plot.timeUnit, t: [plot.t[0], plot.t[plot.t.length - 1]],
+      timeUnit: plot.timeUnit, timeUnits: plot.timeUnits, t: [plot.t[0], plot.t[plot.t.length - 1]],
       states: [{ name: 'residual', unit, values: [0, 0] }], events: [], levels: [], marks: [],
     };
     const residualPoints = [{ state: 'residual', t: res.map((x) => x.time.value), values: res.map((x) => x.residual.value) }];

@@ -4,8 +4,7 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import type { Cell, CellReport, GlanceEntry, Report, StudyTex } from '../../src/index.ts';
-import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
+import type { Cell, CellReport, GlanceEntry, Report, SimulationPlot, StudyTex } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';

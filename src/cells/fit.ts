@@ -15,6 +15,7 @@ import { fitLeastSquares } from '../numerics/fit/least-squares.ts';
 import { runModelAt, type ModelSpec } from '../simulate/model-run.ts';
 import { collectLaws } from './laws.ts';
 import { quantitySig } from './signatures.ts';
+import { timeAxisUnits } from '../output/display-units.ts';
 
 export function fitNodes(cell: FitCell, at: string): GraphNode[] {
   const problems: CellError[] = [];
@@ -230,6 +231,7 @@ function fitPlot(spec: ModelSpec, t0: number, y0: Float64Array, p: Float64Array,
   const shown = observed.map((o) => o.si);
   return {
     timeUnit: formatUnit(tUnit),
+    timeUnits: timeAxisUnits(formatUnit(tUnit), inTime(end) - inTime(t0)),
     t: grid.map(inTime),
     states: shown.map((i) => ({ name: laws[i].state, unit: formatUnit(laws[i].initial.unit), values: run.values!.map((v) => inState(i, v[i])) })),
     events: [], levels: [], marks: [],

@@ -1,8 +1,7 @@
 // The chart elements draw what the engine reports: each is given a real cell report, and the
 // checks look at the chart's series and data, the labels laid over it, and its canvases.
 import { expect } from 'chai';
-import { runStudy } from '../../src/index.ts';
-import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
+import { runStudy, type SimulationPlot } from '../../src/index.ts';
 import '../../components/plots/time-plot.ts';
 import '../../components/plots/phase-plot.ts';
 import '../../components/plots/sweep-plot.ts';
@@ -142,6 +141,7 @@ describe('<time-plot>', () => {
     const select = shadow(el).querySelector('select')!;
     // a 10 h run: offered in min and h (36 000 s is too many, 0.42 d too few)
     expect([...select.options].map((o) => o.value)).to.deep.equal(['min', 'h']);
+    expect([...select.options].map((o) => o.value), 'the units the engine offers').to.deep.equal(cell.plot.timeUnits.map((u) => u.unit));
     select.value = 'min';
     select.dispatchEvent(new Event('change'));
     await el.updateComplete;
