@@ -14,6 +14,6 @@ export { type Quantity, report as reportQuantity, describe as describeQuantity, 
 export { FUNCTION_NAMES } from './expression/functions.ts';
 export { runStudy, exitCodeOf } from './engine/run.ts';
 export { tableFromCsv } from './cells/data.ts';
-export type { StudyTex } from './output/sheet-tex.ts';
+export type { ItemTex } from './output/sheet-tex.ts';
 export { unitChoicesFor, timeAxisUnits, TRADE_UNITS, type AxisUnit } from './output/display-units.ts';
 export type { SimulationPlot } from './simulate/plot-data.ts';

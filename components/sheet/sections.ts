@@ -4,13 +4,12 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import type { Cell, CellReport, GlanceEntry, Report, SimulationPlot, StudyTex } from '../../src/index.ts';
+import type { Cell, CellReport, GlanceEntry, ItemTex, Report, SimulationPlot } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
 import { STABLE, UNSTABLE } from '../plots/palette.ts';
 import { math } from './math.ts';
-import { nameTex } from '../../src/expression/tex.ts';
 
 type Q = { value: number; unit: string; si: number };
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
@@ -40,21 +39,21 @@ export function glance(report: Report): TemplateResult | typeof nothing {
     <tbody>${list.map((g) => html`<tr><td class="name">${g.name}</td><td class="num">${shown(g)}</td><td class="from">${fromOf(g.cell)}</td></tr>`)}</tbody></table></section>`;
 }
 
-export function section(cell: Cell, r: CellReport | undefined, tex: StudyTex, cells: readonly Cell[]): TemplateResult {
+export function section(cell: Cell, r: CellReport | undefined, cells: readonly Cell[]): TemplateResult {
   const body = !r ? html`<p class="muted">Not computed.</p>`
     : !r.ok ? html`<p class="error">${r.waitsOn ? `Not computed: waits on ${r.waitsOn.join(', ')}.` : `Error: ${r.error?.message ?? 'unknown'}`}</p>`
-    : bodyOf(cell, r, tex, cells);
+    : bodyOf(cell, r, cells);
   return html`<section class="cell ${cell.kind}">
     <h2>${cell.title || KIND_NAMES[cell.kind]} <span class="kind">${KIND_NAMES[cell.kind]} · ${cell.id}</span></h2>
     ${body}
   </section>`;
 }
 
-function bodyOf(cell: Cell, r: CellReport, tex: StudyTex, cells: readonly Cell[]): TemplateResult {
+function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[]): TemplateResult {
   switch (cell.kind) {
     case 'note': return html`<p class="note-text">${typeof cell.text === 'string' ? cell.text : ''}</p>`;
-    case 'parameters': return parameters(cell, r, tex);
-    case 'rate': return rate(cell, r, tex);
+    case 'parameters': return parameters(cell, r);
+    case 'rate': return rate(cell, r);
     case 'phase': return phase(cell, r, (cells.find((c) => c.id === cell.rate) as Of<'rate'> | undefined)?.state ?? '');
     case 'simulate': return simulate(cell, r);
     case 'data': return data(cell, r);
@@ -63,25 +62,26 @@ function bodyOf(cell: Cell, r: CellReport, tex: StudyTex, cells: readonly Cell[]
   }
 }
 
-function parameters(cell: Of<'parameters'>, r: CellReport, tex: StudyTex): TemplateResult {
+function parameters(cell: Of<'parameters'>, r: CellReport): TemplateResult {
   const values = (r.values ?? {}) as Record<string, Q>;
+  const tex = (r.tex ?? {}) as Record<string, ItemTex>;
   const items = Array.isArray(cell.items) ? cell.items : [];
   // A long definition gets a row of its own under its name, across the table.
   return html`<table class="parameters">
     <colgroup><col style="width: 17%" /><col style="width: 33%" /><col style="width: 17%" /><col style="width: 33%" /></colgroup>
     <thead><tr><th>Name</th><th>Defined as</th><th>Value</th><th>Note</th></tr></thead>
     <tbody>${items.map((it) => {
-      const t = tex.values.get(`${cell.id}/${it.name}`);
+      const t = tex[it.name]?.value;
       const shown = t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`;
       const long = typeof it.value === 'string' && it.value.length > LONG_DEFINITION;
       return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${it.name}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
         <td class="num">${showValue(values[it.name])}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}</td></tr>
-        ${long ? html`<tr class="formula"><td colspan="4">${math(`${nameTex(it.name)} = ${t ?? ''}`)}</td></tr>` : nothing}`;
+        ${long ? html`<tr class="formula"><td colspan="4">${t ? math(`${tex[it.name].name} = ${t}`) : html`<code>${it.name} = ${it.value}</code>`}</td></tr>` : nothing}`;
     })}</tbody></table>`;
 }
 
-function rate(cell: Of<'rate'>, r: CellReport, tex: StudyTex): TemplateResult {
-  const t = tex.rates.get(cell.id);
+function rate(cell: Of<'rate'>, r: CellReport): TemplateResult {
+  const t = typeof r.tex === 'string' ? r.tex : undefined;
   return html`<div class="equation">${t ? math(t, true) : html`<code>d${cell.state}/dt = ${cell.rate}</code>`}</div>
     <p>State <strong>${cell.state}</strong>, shown in ${cell.unit}; starts at <code>${cell.initial}</code> = ${showQ(r.initial as Q)};
     at the start it changes by ${showQ(r.rateAtStart as Q)}.</p>`;

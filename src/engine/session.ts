@@ -15,6 +15,7 @@ import { buildGraph, type Graph } from './graph.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
 import { glanceOf } from '../output/glance.ts';
+import { cellTex, studySymbols, type KindOf } from '../output/sheet-tex.ts';
 import type { SimulationPlot } from '../simulate/plot-data.ts';
 import { unitFromText, shownIn } from '../expression/unit-text.ts';
 
@@ -153,7 +154,11 @@ export class StudySession {
     return nodes.map((n, i) => (i === 0 ? { ...n, problems: [...errors, ...n.problems], signature: `${n.signature}|${JSON.stringify(errors)}` } : n));
   }
 
+  /** How the study's symbols are set in TeX; made again on each evaluation that needs it. */
+  private symbols?: KindOf;
+
   private evaluate(): { rerun: string[]; changed: string[] } {
+    this.symbols = undefined;
     // a rebuilt cell is reported again even when no node re-runs: its title, or a node it
     // no longer has, changes its report
     const rebuilt = new Set<string>();
@@ -311,6 +316,9 @@ export class StudySession {
       }
     }
     Object.assign(r, output);
+    // the TeX the printed sheet typesets, made here (in the engine's worker, in the app)
+    const tex = cellTex(cell, this.symbols ??= studySymbols({ cells: this.cells }));
+    if (tex !== undefined) r.tex = tex;
     if (cell.kind === 'simulate' && output.plot) r.plot = withMeasurements(output.plot as SimulationPlot, this.measurements());
     if (errors.length) {
       r.ok = false;

@@ -73,6 +73,25 @@ describe('study-sheet', () => {
     }
   });
 
+  it('typesets the TeX the report carries, and makes none itself', async () => {
+    const report = reportOf(cooling);
+    const rate = report.cells.find((c) => c.kind === 'rate')!;
+    expect(rate.tex, 'the engine made the law\'s TeX').to.be.a('string');
+    rate.tex = 'q_{\\mathrm{from\\,report}} = 1';
+    const el = document.createElement('study-sheet');
+    el.study = structuredClone(cooling) as Study;
+    el.report = report;
+    document.body.append(el);
+    await el.updateComplete;
+    const eq = el.shadowRoot!.querySelector('.equation math')!;
+    expect(eq.textContent).to.contain('report');
+    delete rate.tex;
+    el.report = { ...report };
+    await el.updateComplete;
+    expect(el.shadowRoot!.querySelector('.equation math'), 'no TeX in the report: the law as text').to.equal(null);
+    expect(el.shadowRoot!.querySelector('.equation code')!.textContent).to.contain(`d${(cooling.cells.find((c) => c.kind === 'rate') as { state: string }).state}/dt`);
+  });
+
   it('opens with the results at a glance: each answer, each estimate, with the cell it comes from', async () => {
     const root = await sheetOf(plasma);
     const glance = root.querySelector('section.glance')!;
