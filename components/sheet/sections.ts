@@ -137,11 +137,12 @@ function simulate(cell: Of<'simulate'>, r: CellReport): TemplateResult {
   const events = Array.isArray(cell.events) ? cell.events : [];
   const plot = r.plot as SimulationPlot | undefined;
   const questions = (r.questions ?? {}) as Record<string, string>;
+  const schedule = (r.schedule ?? []) as Array<{ times: number; repeats: string }>;
   const closed = (r.closedForm ?? {}) as Record<string, { maxError: Q; timeConstant?: Q; halfLife?: Q; equilibrium?: Q }>;
   return html`
     <p>From ${cell.from} to ${cell.to}; laws ${(cell.rates ?? []).join(', ')}; method ${r.method as string} (${r.steps as number} steps, ${r.evaluations as number} evaluations of the rates).</p>
-    ${events.length ? html`<table><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e) => html`<tr>
-      <td>${e.at}</td><td>${e.every ? `every ${e.every}, ${e.count ?? 1} times` : 'once'}</td>
+    ${events.length ? html`<table><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e, i) => html`<tr>
+      <td>${e.at}</td><td>${schedule[i]?.repeats ?? ''}</td>
       <td>${e.add ? `add ${Object.entries(e.add).map(([k, v]) => `${v} to ${k}`).join(', ')}` : e.set ? `set ${Object.entries(e.set).map(([k, v]) => `${k} = ${v}`).join(', ')}` : e.infuse ? `infuse ${Object.entries(e.infuse).map(([k, v]) => `${v} into ${k}`).join(', ')} for ${e.for}` : ''}</td></tr>`)}</tbody></table>` : nothing}
     <div class="keep">${plot ? timeChart(plot) : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>

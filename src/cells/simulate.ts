@@ -13,7 +13,8 @@ import { sameDim, describeDim, divDim, mulDim, TIME } from '../units/dimension.t
 import { type DisplayUnit, formatUnit, mulUnits, unitFactor } from '../units/units.ts';
 import { compileLaw } from '../simulate/compile-law.ts';
 import { symbolsOf } from '../expression/ast.ts';
-import { expandSchedule, type ScheduledEvent } from '../simulate/schedule.ts';
+import { expandSchedule, timesInRun, type ScheduledEvent } from '../simulate/schedule.ts';
+import { repeatsText } from '../output/event-words.ts';
 import { runSchedule, type SystemSpec } from '../simulate/run-schedule.ts';
 import { stepPoints, type Trajectory } from '../simulate/trajectory.ts';
 import { crossings, extreme, valueOfAt, integralOver, timeBeyond } from '../simulate/queries.ts';
@@ -303,6 +304,10 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
     summary: simulationSummary(paths, found),
     // each question in words, as the summary puts it (for the printed sheet)
     questions: Object.fromEntries(found.map((f) => [f.name, f.what])),
+    // each event's repeats, counted in the run and in words (for the printed sheet)
+    schedule: timesInRun(timeline, scheduled.length).map((times, i) => ({
+      times, repeats: repeatsText(scheduled[i].every === undefined ? undefined : describe(asTime(scheduled[i].every!)), scheduled[i].count, times),
+    })),
     plot,
   };
   if (run.switchedToStiff !== null) {

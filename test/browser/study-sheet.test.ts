@@ -10,6 +10,7 @@ import cooling from '../../examples/cooling-stock-pot.ratebook.json';
 import fold from '../../examples/harvested-stock-fold.ratebook.json';
 import plasma from '../../examples/plasma-levels.ratebook.json';
 import twoStage from '../../examples/two-stage-cooling-check.ratebook.json';
+import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
 
 /**
  * Invented laws with closed-form phase lines: (S - 500 kg)^2 is semi-stable at 500 kg, drawing
@@ -201,6 +202,22 @@ describe('study-sheet', () => {
     expect(lines[0].querySelectorAll('line.still').length, 'the still stretch').to.equal(1);
     expect(arrows(lines[1])).to.deep.equal(['arrow falling']);
     expect(lines[1].querySelectorAll('line.undefined').length, 'the undefined stretch').to.equal(1);
+  });
+
+  it('prints each event\'s repeats as the engine words them: to the end of the run when there is no count', async () => {
+    const open = structuredClone(bolus) as Study;
+    const run = open.cells.find((c) => c.id === 'run') as Extract<Study['cells'][number], { kind: 'simulate' }>;
+    delete run.events![0].count;
+    const cell = reportOf(open).cells.find((c) => c.id === 'run')!;
+    // hand-worked: doses every 8 h at 0, 8, ..., 48 h in a 48 h run: 7
+    expect(cell.schedule).to.deep.equal([{ times: 7, repeats: 'every 8 h until the end of the run (7 times)' }]);
+    const root = await sheetOf(open);
+    const row = [...root.querySelectorAll('section.simulate tbody tr')].map((tr) => tr.textContent!).find((t) => t.includes('dose / V'))!;
+    expect(row).to.contain('every 8 h until the end of the run (7 times)');
+    expect(row).to.not.contain('1 times');
+    root.host.remove();
+    const counted = await sheetOf(bolus);
+    expect(counted.querySelector('section.simulate tbody tr')!.textContent).to.contain('every 8 h, 6 times');
   });
 
   it('a study view shows the sheet in sheet mode, and renders it for print in edit mode', async () => {
