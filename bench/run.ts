@@ -14,7 +14,7 @@ import {
 } from '../src/index.ts';
 import { setGeneratedCode } from '../src/expression/compile.ts';
 import { phaseBenchmarks } from './phase.ts';
-import { odeBench } from './ode.ts';
+import { odeBench, stiffBench } from './ode.ts';
 import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
 import { fitBenchmarks } from './fit.ts';
@@ -294,6 +294,17 @@ function odeRows(): Row[] {
   }));
 }
 
+function stiffRows(): Row[] {
+  return stiffBench().map((r) => {
+    const ratio = r.evaluations / r.lsoda;
+    return {
+      measure: `${r.method} (${r.formula}) rtol ${r.rtol.toExponential(0)}: ${r.evaluations} evaluations, ${r.jacobians} Jacobians, ` +
+        `${r.units.toFixed(2)} units at the steps`,
+      result: `${ratio.toFixed(2)}x LSODA`, goal: `<= 1.25x (LSODA ${r.lsoda})`, met: ratio <= 1.25,
+    };
+  });
+}
+
 function simulateRows(): Row[] {
   return simulateBenchmarks().map((r) => ({
     measure: `${r.name} (${r.steps} steps)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
@@ -317,6 +328,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Incremental editing of a study', run: editRows },
   { title: 'Equilibria and parameter sweeps', run: phaseRows },
   { title: 'ODE integration against odex at equal accuracy', run: odeRows },
+  { title: 'Stiff method on y\' = -1e4 (y - cos t) against LSODA', run: stiffRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },

@@ -17,3 +17,4 @@ export { tableFromCsv } from './cells/data.ts';
 export type { ItemTex } from './output/sheet-tex.ts';
 export { unitChoicesFor, timeAxisUnits, TRADE_UNITS, type AxisUnit } from './output/display-units.ts';
 export type { SimulationPlot } from './simulate/plot-data.ts';
+export type { CsvRead, CsvColumn, CsvRowProblem } from './csv/read.ts';

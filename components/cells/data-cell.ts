@@ -1,5 +1,5 @@
 import { LitElement, html, css, nothing } from 'lit';
-import type { Cell, CellReport } from '../../src/index.ts';
+import type { Cell, CellReport, CsvRowProblem } from '../../src/index.ts';
 import { tableFromCsv } from '../../src/index.ts';
 import { cellStyles, editEvent, ErrorClaims } from './common.ts';
 
@@ -12,10 +12,12 @@ type Entry = number | string | null;
  * kept as typed and flagged on their row by the engine; nothing is dropped.
  */
 export class DataCellElement extends LitElement {
-  static override properties = { cell: { attribute: false }, report: { attribute: false }, problem: { state: true } };
+  static override properties = { cell: { attribute: false }, report: { attribute: false }, problem: { state: true }, read: { state: true } };
   cell!: DataCellDoc;
   report?: CellReport;
   problem?: string;
+  /** What the engine said when it last read CSV text into the table: its notes and refused rows. */
+  read?: CsvReport;
   static override styles = [cellStyles, css`
     table.grid { width: auto; }
     table.grid input { width: 6.5rem; font-variant-numeric: tabular-nums; text-align: right; }
@@ -24,6 +26,9 @@ export class DataCellElement extends LitElement {
     tr.flagged td { background: #fdeceb; }
     textarea { width: 100%; min-height: 7rem; box-sizing: border-box; font-family: ui-monospace, monospace; font-size: 0.85rem; }
     .scroll { overflow-x: auto; max-height: 26rem; overflow-y: auto; }
+    ul.csv-notes, ol.csv-rows { margin: 0.3rem 0 0; padding-left: 1.2rem; }
+    ol.csv-rows { list-style: none; padding-left: 0; }
+    ol.csv-rows code { background: #fdeceb; padding: 0 0.2rem; }
   `];
 
   override render() {
@@ -55,6 +60,7 @@ export class DataCellElement extends LitElement {
           <button @click=${() => this.dispatchEvent(editEvent({ ...withoutRows(c), csv: toCsv(c) }))}>Edit as CSV text</button>
           <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label>
         </div>`}
+      ${c.csv === undefined && this.read ? csvReport(this.read, 'Read from the CSV text') : nothing}
       ${this.report?.ok ? html`<p class="muted">${this.report.rowCount} rows${this.report.note ? `; ${this.report.note}` : ''}.</p>` : nothing}
       ${this.problem ? html`<p class="foot-error" role="alert">${this.problem}</p>` : nothing}
       ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
@@ -62,11 +68,18 @@ export class DataCellElement extends LitElement {
 
   private csvView(claims: ErrorClaims) {
     const error = claims.take('.csv');
-    return html`<label class="muted" for="csv">CSV text: a header row of column names, then one row per time (comma, tab or semicolon separated; paste straight from a spreadsheet)</label>
-      <textarea id="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.dispatchEvent(editEvent({ ...this.cell, csv: (e.target as HTMLTextAreaElement).value }, `${this.cell.id}:csv`))}></textarea>
-      ${error ? html`<p class="foot-error" role="alert">${error.message}</p>` : nothing}
+    const read = (this.read?.problems?.length ? this.read : undefined) ?? (this.report?.csv as CsvReport | undefined);
+    return html`<label class="muted" for="csv">CSV text: a header row of column names (a unit may follow in parentheses, such as Temp (°C)), then one row per time, as a number or a clock time (comma, tab or semicolon separated; paste straight from a spreadsheet or a logger export)</label>
+      <textarea id="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.editCsv(editEvent({ ...this.cell, csv: (e.target as HTMLTextAreaElement).value }, `${this.cell.id}:csv`))}></textarea>
+      ${error && !read?.problems?.length ? html`<p class="foot-error" role="alert">${error.message}</p>` : nothing}
+      ${read ? csvReport(read, 'Read from the header and rows') : nothing}
       <div class="row"><button @click=${this.toTable}>Turn into a table</button>
         <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label></div>`;
+  }
+
+  private editCsv(edit: CustomEvent) {
+    this.read = undefined;
+    this.dispatchEvent(edit);
   }
 
   private setColumn(j: number, patch: Partial<DataCellDoc['columns'][number]>) {
@@ -93,16 +106,20 @@ export class DataCellElement extends LitElement {
     this.dispatchEvent(editEvent({ ...this.cell, columns: [...this.cell.columns, { name: `c${n}`, unit: '1' }], rows: (this.cell.rows ?? []).map((row) => [...row, null]) }));
   };
 
-  /** The CSV text as rows, read by the engine's CSV reader; a problem is shown and nothing changes. */
+  /**
+   * The CSV text as a table, read by the engine's CSV reader (its columns, with the header's
+   * units, and rows); the engine's notes stay shown. A problem is shown and nothing changes.
+   */
   private toTable = () => {
-    const r = tableFromCsv(this.cell.csv ?? '', this.cell.columns.map((c) => c.name));
+    const r = tableFromCsv(this.cell.csv ?? '', this.cell.columns);
+    this.read = { notes: r.notes, ...(r.ok ? {} : { problems: r.problems }) };
     if (!r.ok) {
-      this.problem = r.message;
+      this.problem = r.problems.length ? undefined : r.message;
       return;
     }
     this.problem = undefined;
     const { csv: _csv, ...rest } = this.cell;
-    this.dispatchEvent(editEvent({ ...rest, rows: r.rows }));
+    this.dispatchEvent(editEvent({ ...rest, columns: r.columns.map((col) => ({ name: col.name, unit: col.unit })), rows: r.rows as DataCellDoc['rows'] }));
   };
 
   private importFile = async (e: Event) => {
@@ -111,8 +128,17 @@ export class DataCellElement extends LitElement {
     if (!file) return;
     const text = await file.text();
     input.value = '';
+    this.read = undefined;
     this.dispatchEvent(editEvent({ ...withoutRows(this.cell), csv: text }));
   };
+}
+
+/** The engine's report of reading CSV text: notes, the start of clock times, refused rows. */
+interface CsvReport { notes: string[]; start?: string; problems?: CsvRowProblem[] }
+
+function csvReport(read: CsvReport, heading: string) {
+  return html`${read.notes.length ? html`<p class="muted">${heading}:</p><ul class="csv-notes muted">${read.notes.map((n) => html`<li>${n}</li>`)}</ul>` : nothing}
+    ${read.problems?.length ? html`<ol class="csv-rows" role="alert">${read.problems.map((p) => html`<li class="foot-error">Row ${p.row} (line ${p.line}) <code>${p.text}</code>: ${p.message}</li>`)}</ol>` : nothing}`;
 }
 
 function show(v: Entry): string {

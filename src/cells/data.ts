@@ -1,16 +1,17 @@
 /**
  * A data cell: a table of measurements with a unit per column, given as rows or as CSV text
- * (read with papaparse). Values become SI magnitudes for the cells that use the table (fit,
+ * (read by `csv/read.ts`: logger headers with units, decimal commas, clock times). Values become SI magnitudes for the cells that use the table (fit,
  * nca). A row that is not numbers, or a time that goes backwards, is an error naming the
  * row; a missing value (an empty entry, or null) is allowed and listed, never dropped silently.
  */
-import Papa from 'papaparse';
 import type { DataCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Outcome } from '../engine/node.ts';
 import { cellRef } from '../engine/node.ts';
 import { type Field, field, unitOf, FieldError, guarded } from './fields.ts';
 import { fromUnit } from '../units/quantity.ts';
 import { type DisplayUnit, formatUnit } from '../units/units.ts';
+import { unitFromText } from '../expression/unit-text.ts';
+import { type CsvRead, type DeclaredColumn, readCsvTable } from '../csv/read.ts';
 
 export function dataNodes(cell: DataCell, at: string): GraphNode[] {
   const problems: CellError[] = [];
@@ -38,11 +39,17 @@ function columnUnit(f: Field): DisplayUnit {
 function runData(cell: DataCell, at: string, unitFields: Field[]): Outcome {
   const units = unitFields.map(columnUnit);
   const names = cell.columns.map((c) => c.name);
-  const raw = cell.csv !== undefined ? readCsv(cell.csv, names, `${at}.csv`) : (cell.rows ?? []);
+  const read = cell.csv !== undefined ? readCsvTable(cell.csv, cell.columns) : undefined;
+  if (read && !read.ok) {
+    return { ok: false, error: { path: `${at}.csv`, message: read.message }, output: { csv: { notes: read.notes, ...(read.problems.length ? { problems: read.problems } : {}) } } };
+  }
+  // CSV numbers are in the header's unit where it gives one (converted to SI all the same)
+  const inUnits = read ? read.columns.map((c, i) => (c.unitFrom === 'cell' ? units[i] : unitFromText(c.unit) ?? units[i])) : units;
+  const raw = read ? read.rows : (cell.rows ?? []);
   const missing: string[] = [];
   let last = -Infinity;
   const rows = raw.map((row, r) => {
-    const path = cell.csv !== undefined ? `${at}.csv` : `${at}.rows[${r}]`;
+    const path = read ? `${at}.csv` : `${at}.rows[${r}]`;
     if (!Array.isArray(row) || row.length !== names.length) throw new FieldError({ path, message: `row ${r + 1} has ${Array.isArray(row) ? row.length : 0} values; the table has ${names.length} columns (${names.join(', ')})` });
     return row.map((v, c) => {
       if (v === null) {
@@ -55,7 +62,7 @@ function runData(cell: DataCell, at: string, unitFields: Field[]): Outcome {
         if (v < last) throw new FieldError({ path, message: `row ${r + 1}: the time ${v} goes backwards (the row before has ${last})` });
         last = v;
       }
-      return fromUnit(v, units[c]).si;
+      return fromUnit(v, inUnits[c]).si;
     });
   });
   if (rows.length === 0) throw new FieldError({ path: `${at}.rows`, message: 'the table has no rows' });
@@ -68,42 +75,18 @@ function runData(cell: DataCell, at: string, unitFields: Field[]): Outcome {
       columns: names.map((name, i) => ({ name, unit: formatUnit(units[i]) })),
       rowCount: rows.length,
       ...(missing.length ? { missing, note: `${missing.length} missing value${missing.length === 1 ? '' : 's'}: ${missing.slice(0, 5).join('; ')}${missing.length > 5 ? '; …' : ''}` } : {}),
+      ...(read && (read.notes.length || read.start !== undefined) ? { csv: { notes: read.notes, ...(read.start !== undefined ? { start: read.start } : {}) } } : {}),
     },
   };
 }
 
 /**
- * Reads CSV text with a header row of column names (comma, tab or semicolon separated, as a
- * spreadsheet pastes it) into rows in the order of `names`. Empty entries are missing values;
- * anything else that is not a number stays as text, for the caller to report with its row.
+ * CSV text as a table for the app's "turn into a table": the cell's columns where the header
+ * matches them (by name, else by position), otherwise the header's own names and units; the
+ * rows as numbers in each column's unit, null for empty entries, text left as typed (the data
+ * cell then flags its row); the notes of what was interpreted. Refused rows make it fail with
+ * each row's problem, so nothing is dropped. Never throws.
  */
-export function readCsv(text: string, names: readonly string[], path: string): Array<Array<number | string | null>> {
-  const parsed = Papa.parse<string[]>(text.trim(), { delimitersToGuess: [',', '\t', ';'], skipEmptyLines: 'greedy' });
-  if (parsed.errors.length) {
-    const e = parsed.errors[0];
-    throw new FieldError({ path, message: `the CSV text cannot be read${e.row !== undefined ? ` (row ${e.row + 1})` : ''}: ${e.message}` });
-  }
-  const [header, ...body] = parsed.data;
-  if (!header) throw new FieldError({ path, message: 'the CSV text is empty: give a header row of column names, then the rows' });
-  const index = names.map((n) => header.findIndex((h) => h.trim() === n));
-  const absent = names.filter((_, i) => index[i] < 0);
-  if (absent.length) throw new FieldError({ path, message: `the CSV header (${header.join(', ')}) has no column ${absent.map((a) => `"${a}"`).join(', ')}` });
-  return body.map((cells) => index.map((i) => {
-    const s = (cells[i] ?? '').trim();
-    if (s === '') return null;
-    const v = Number(s);
-    return Number.isFinite(v) && /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(s) ? v : s;
-  }));
-}
-
-/**
- * CSV text as table rows for the app's "turn into a table": numbers, null for empty entries,
- * text left as typed (the data cell then flags its row). Never throws.
- */
-export function tableFromCsv(text: string, names: readonly string[]): { ok: true; rows: Array<Array<number | string | null>> } | { ok: false; message: string } {
-  try {
-    return { ok: true, rows: readCsv(text, names, '') };
-  } catch (err) {
-    return { ok: false, message: err instanceof FieldError ? err.error.message : String(err) };
-  }
+export function tableFromCsv(text: string, columns: readonly DeclaredColumn[]): CsvRead {
+  return readCsvTable(text, columns, { adopt: true });
 }

@@ -41,6 +41,10 @@ function formatCell(cell: CellReport): string[] {
     } else if (key === 'correlation' && value && typeof value === 'object') {
       const cor = value as { names: string[]; matrix: number[][] };
       cor.names.forEach((a, i) => cor.names.forEach((b, j) => { if (j > i) rows.push([`corr(${a}, ${b})`, formatNumber(cor.matrix[i][j], 3)]); }));
+    } else if (key === 'csv' && value && typeof value === 'object') {
+      const csv = value as { notes?: string[]; problems?: Array<{ row: number; line: number; text: string; message: string }> };
+      for (const n of csv.notes ?? []) rows.push(['csv', n]);
+      for (const p of csv.problems ?? []) rows.push([`row ${p.row}`, `line ${p.line} "${p.text}": ${p.message}`]);
     } else if (key === 'notes' && Array.isArray(value)) {
       for (const n of value) rows.push(['note', String(n)]);
     } else {
