@@ -15,7 +15,7 @@ import { buildGraph, type Graph } from './graph.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
 import { glanceOf } from '../output/glance.ts';
-import { cellTex, studySymbols, type KindOf } from '../output/sheet-tex.ts';
+import { cellTex, studySymbols } from '../output/sheet-tex.ts';
 import type { SimulationPlot } from '../simulate/plot-data.ts';
 import { unitFromText, shownIn } from '../expression/unit-text.ts';
 
@@ -154,11 +154,7 @@ export class StudySession {
     return nodes.map((n, i) => (i === 0 ? { ...n, problems: [...errors, ...n.problems], signature: `${n.signature}|${JSON.stringify(errors)}` } : n));
   }
 
-  /** How the study's symbols are set in TeX; made again on each evaluation that needs it. */
-  private symbols?: KindOf;
-
   private evaluate(): { rerun: string[]; changed: string[] } {
-    this.symbols = undefined;
     // a rebuilt cell is reported again even when no node re-runs: its title, or a node it
     // no longer has, changes its report
     const rebuilt = new Set<string>();
@@ -216,12 +212,22 @@ export class StudySession {
     const fitIds = this.cells.filter((c) => c.kind === 'fit').map((c) => c.id).join(',');
     const fitsReran = fitIds !== this.lastFitIds || this.cells.some((c) => c.kind === 'fit' && rerunCells.has(c.id));
     this.lastFitIds = fitIds;
+    // the TeX the printed sheet typesets, made here (in the app: in the engine's worker); made
+    // for every cell on each evaluation, as the names of the whole study decide how a symbol is set
+    const symbols = studySymbols({ cells: this.cells });
     for (const cell of this.cells) {
-      let r = this.reports.get(cell.id);
+      const old = this.reports.get(cell.id);
+      let r = old;
       if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== this.indexOf(cell.id) || (fitsReran && cell.kind === 'simulate')) {
-        const fresh = this.cellReport(cell);
-        if (!r || !deepEqual(r, fresh)) changed.push(cell.id);
-        r = fresh;
+        r = this.cellReport(cell);
+      }
+      const tex = cellTex(cell, symbols);
+      if (!deepEqual(r.tex, tex)) {
+        const { tex: _old, ...rest } = r;
+        r = tex === undefined ? rest as typeof r : { ...rest, tex };
+      }
+      if (r !== old) {
+        if (!old || !deepEqual(old, r)) changed.push(cell.id);
         this.reports.set(cell.id, r);
       }
       cellReports.push(r);
@@ -316,9 +322,6 @@ export class StudySession {
       }
     }
     Object.assign(r, output);
-    // the TeX the printed sheet typesets, made here (in the engine's worker, in the app)
-    const tex = cellTex(cell, this.symbols ??= studySymbols({ cells: this.cells }));
-    if (tex !== undefined) r.tex = tex;
     if (cell.kind === 'simulate' && output.plot) r.plot = withMeasurements(output.plot as SimulationPlot, this.measurements());
     if (errors.length) {
       r.ok = false;

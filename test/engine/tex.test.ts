@@ -86,6 +86,22 @@ describe('TeX in the report', () => {
     assert.deepEqual(items.bad, { name: '\\textit{bad}' }, 'a value that does not parse has no TeX');
   });
 
+  it('follows a name that another cell stops defining, even where the reading cell does not re-run', () => {
+    // found by the session property test: a data column C, then the data cell broken, so that C is the coulomb again
+    const data = { id: 'd', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, 1], [1, 2]] };
+    const inputs = { id: 'p', kind: 'parameters', items: [{ name: 'k', value: 'k + 2 C' }] };
+    const opened = openStudy({ format: 'ratebook-study', version: 1, title: 't', cells: [data, inputs] });
+    assert.ok(opened.ok);
+    assert.equal((opened.session.report().cells[1].tex as Record<string, ItemTex>).k.value, 'k + 2 C');
+    const broken = opened.session.apply({ type: 'replace', cell: { ...data, columns: 'not a list' } });
+    assert.ok(broken.ok);
+    const fresh = runStudy({ format: 'ratebook-study', version: 1, title: 't', cells: [{ ...data, columns: 'not a list' }, inputs] });
+    assert.ok(fresh.ok);
+    // hand-worked: with no column C, C is the coulomb, set upright
+    assert.equal((broken.report.cells[1].tex as Record<string, ItemTex>).k.value, 'k + 2\\,\\mathrm{C}');
+    assert.deepEqual(broken.report.cells[1].tex, fresh.report.cells[1].tex);
+  });
+
   it('is made again when a name in another cell starts to hide a unit', () => {
     const opened = openStudy({ format: 'ratebook-study', version: 1, title: 't', cells: [
       { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.35 / h' }] },
