@@ -6,11 +6,12 @@
  * still (a thick line, no arrow); where the rate is not defined, a dotted gap.
  */
 import { svg, type SVGTemplateResult } from 'lit';
-import { formatNumber } from '../../src/index.ts';
+import { formatNumber, type ReportQuantity } from '../../src/index.ts';
 import { INK, MUTED, STABLE } from '../plots/palette.ts';
 import { equilibriumMark } from '../plots/equilibrium-dot.ts';
 
-type Q = { readonly value: number; readonly unit: string };
+/** A quantity as the report gives it; the line reads its value and unit. */
+type Q = Readonly<Pick<ReportQuantity, 'value' | 'unit'>>;
 export interface PhaseLineSpec {
   readonly state: string;
   readonly from: number;

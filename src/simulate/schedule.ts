@@ -63,13 +63,6 @@ export function expandSchedule(events: readonly ScheduledEvent[], from: number, 
   return actions;
 }
 
-/** The distinct action times strictly inside (from, to): where integration must stop. */
-export function breakpoints(actions: readonly Action[], from: number, to: number): number[] {
-  const out: number[] = [];
-  for (const a of actions) if (a.time > from && a.time < to && out[out.length - 1] !== a.time) out.push(a.time);
-  return out;
-}
-
 /**
  * How many times each event acts within the run, by event index (`events` entries): the
  * distinct repetitions that made an action (an infusion counts by its starts). An `add` before

@@ -56,7 +56,7 @@ describe('plots report their time axis units', () => {
   it('a fit cell\'s plot carries them too, for the data\'s span', () => {
     const r = runStudy(example('plasma-levels.ratebook.json'));
     assert.ok(r.ok);
-    const plot = r.report.cells.find((c) => c.kind === 'fit')!.plot as { timeUnit: string; t: number[]; timeUnits: Array<{ unit: string }> };
+    const plot = r.report.cells.find((c) => c.kind === 'fit')!.plot!;
     assert.deepEqual(plot.timeUnits, timeAxisUnits(plot.timeUnit, plot.t[plot.t.length - 1] - plot.t[0]));
     assert.ok(plot.timeUnits.some((u) => u.unit === plot.timeUnit));
   });
