@@ -12,6 +12,7 @@ export type {
   PhasePlotData, SweepReport, SimulationPlot, FindResult, NotReached, ClosedFormReport, EstimateReport, FitResidual, CsvReadReport,
 } from './engine/report.ts';
 export { isKind } from './engine/report.ts';
+export type { GlanceEntry, GlanceKind } from './output/glance.ts';
 export type { CellError, ProblemKind } from './engine/node.ts';
 export { parseExpression, type ParseResult, type ExprProblem } from './expression/parse.ts';
 export { evaluateExpression, type Lookup, type Value } from './expression/evaluate.ts';
@@ -21,9 +22,8 @@ export { FUNCTION_NAMES } from './expression/functions.ts';
 export { runStudy, exitCodeOf } from './engine/run.ts';
 export { tableFromCsv } from './cells/data.ts';
 export type { CsvRead, CsvColumn, CsvRowProblem } from './csv/read.ts';
-export type { StudyTex } from './output/sheet-tex.ts';
-export { unitChoicesFor, TRADE_UNITS } from './output/display-units.ts';
-export { studyTex } from './output/sheet-tex.ts';
+export type { ItemTex } from './output/sheet-tex.ts';
+export { unitChoicesFor, timeAxisUnits, TRADE_UNITS, type AxisUnit } from './output/display-units.ts';
 export { nameTex } from './expression/tex.ts';
 export type { FromWorker, ToWorker } from './engine/worker-protocol.ts';
 export { lookupUnit } from './units/units.ts';

@@ -17,6 +17,7 @@ import { runModelAt, type ModelSpec } from '../simulate/model-run.ts';
 import { collectLaws } from './laws.ts';
 import { measuredPoints, type SimulationPlot } from '../simulate/plot-data.ts';
 import { quantitySig } from './signatures.ts';
+import { timeAxisUnits } from '../output/display-units.ts';
 
 /**
  * One node: it defines each estimate under its `as` name, and the measurements it fits, by
@@ -239,6 +240,7 @@ function fitPlot(spec: ModelSpec, t0: number, y0: Float64Array, p: Float64Array,
   const shown = observed.map((o) => o.si);
   return {
     timeUnit: formatUnit(tUnit),
+    timeUnits: timeAxisUnits(formatUnit(tUnit), inTime(end) - inTime(t0)),
     t: grid.map(inTime),
     states: shown.map((i) => ({ name: laws[i].state, unit: formatUnit(laws[i].initial.unit), values: run.values!.map((v) => inState(i, v[i])) })),
     events: [], levels: [], marks: [],

@@ -69,6 +69,8 @@ export interface SimulationCore {
   readonly to: Quantity;
   readonly timeUnit: DisplayUnit;
   readonly timeline: readonly Action[];
+  /** The events as the schedule read them (SI times), in the cell's order. */
+  readonly scheduled: readonly ScheduledEvent[];
   readonly finds: readonly Find[];
   readonly sys: SystemSpec;
   readonly compiled: readonly Compiled[];
@@ -256,7 +258,7 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
     },
   };
   const run = runSchedule(sys, timeline, from.si, to.si, { method, step, rtol, atol, maxSteps: MAX_STEPS });
-  const core = { laws, states, from, to, timeUnit, timeline, finds, sys, compiled, inputs, rtol, atol, run };
+  const core = { laws, states, from, to, timeUnit, timeline, scheduled, finds, sys, compiled, inputs, rtol, atol, run };
   if (run.status !== Status.Success) {
     const fl = run.failure!;
     const where = states.map((s, i) => `${s} = ${describe(stateValue(core, i, fl.y[i]))}`).join(', ');

@@ -15,6 +15,8 @@ import { buildGraph, upstreamOf, type Graph } from './graph.ts';
 import { prepareWhatIf, type Replacement, type Unavailable, type WhatIfPrepared } from './what-if.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
+import { glanceOf } from '../output/glance.ts';
+import { cellTex, studySymbols } from '../output/sheet-tex.ts';
 
 type Slot = Binding | Unavailable;
 
@@ -216,13 +218,21 @@ export class StudySession {
 
     const changed: string[] = [];
     const reports: CellReport[] = [];
+    // the TeX the printed sheet typesets, made here (in the app: in the engine's worker); made
+    // for every cell on each evaluation, as the names of the whole study decide how a symbol is set
+    const symbols = studySymbols({ cells: this.cells });
     for (const cell of this.cells) {
-      let r = this.reports.get(cell.id);
+      const old = this.reports.get(cell.id);
+      let r = old;
       const index = this.indexOf(cell.id);
-      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index) {
-        const fresh = this.cellReport(cell, index);
-        if (!r || !deepEqual(r.report, fresh)) changed.push(cell.id);
-        r = { index, report: fresh };
+      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index) r = { index, report: this.cellReport(cell, index) };
+      const tex = cellTex(cell, symbols);
+      if (!deepEqual(r.report.tex, tex)) {
+        const { tex: _old, ...rest } = r.report;
+        r = { index, report: (tex === undefined ? rest : { ...rest, tex }) as CellReport };
+      }
+      if (r !== old) {
+        if (!old || !deepEqual(old.report, r.report)) changed.push(cell.id);
         this.reports.set(cell.id, r);
       }
       reports.push(r.report);
@@ -233,6 +243,7 @@ export class StudySession {
       ok: reports.every((c) => c.ok),
       warnings: [...this.notes, ...this.graph.warnings],
       cautions: cautionsFor(this.cells),
+      glance: glanceOf(this.cells, reports),
       cells: reports,
     };
     return { rerun: this.cells.filter((c) => rerunCells.has(c.id)).map((c) => c.id), changed };

@@ -22,6 +22,8 @@ export interface ParameterItem {
   note?: string;
   /** The unit to show the value in (optional; the unit written in `value` otherwise). */
   unit?: string;
+  /** Listed among the results at a glance (optional; see output/glance.ts). */
+  glance?: boolean;
 }
 
 export interface ParametersCell extends CellBase { kind: 'parameters'; items: ParameterItem[] }
@@ -63,6 +65,8 @@ export interface FindQuery {
   to?: string;
   /** The unit to show the answer in (optional). */
   unit?: string;
+  /** Listed among the results at a glance (optional; see output/glance.ts). */
+  glance?: boolean;
 }
 
 export interface SimulateCell extends CellBase {
