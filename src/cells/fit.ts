@@ -27,14 +27,13 @@ export function fitNodes(cell: FitCell, at: string): GraphNode[] {
   const refs: Use[] = [];
   (Array.isArray(cell.rates) ? cell.rates : []).forEach((r, i) => { if (typeof r === 'string') refs.push({ name: cellRef(r), path: `${at}.rates[${i}]` }); });
   if (typeof cell.data === 'string') refs.push({ name: cellRef(cell.data), path: `${at}.data` });
-  estimates.forEach((e, i) => { if (typeof e?.parameter === 'string') refs.push({ name: e.parameter, path: `${at}.estimate[${i}].parameter` }); });
+  estimates.forEach((e, i) => { if (typeof e?.parameter === 'string') refs.push({ name: e.parameter, path: `${at}.estimate[${i}].parameter`, readsStates: true }); });
   return [{
     key: `${cell.id}/fit`,
     cell: cell.id,
     defines: estimates.flatMap((e, i) => (typeof e?.as === 'string' ? [{ name: e.as, path: `${at}.estimate[${i}].as` }] : [])),
     uses: [...usesOf(fields.flatMap((f) => [f.guess, f.min, f.max])), ...refs],
     allowsTime: false,
-    allowsStates: true,
     pullsCoupledLaws: true,
     signature: JSON.stringify(cell),
     problems,

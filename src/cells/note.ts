@@ -10,7 +10,6 @@ export function noteNodes(cell: NoteCell, at: string): GraphNode[] {
     defines: [],
     uses: [],
     allowsTime: false,
-    allowsStates: false,
     signature: JSON.stringify(cell.text ?? null),
     problems,
     run: () => ({ ok: true, bindings: new Map(), output: {} }),

@@ -7,7 +7,7 @@ import type { SimulateCell, FindQuery, ScheduleEvent } from '../study/types.ts';
 import { FIND_KINDS } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../engine/node.ts';
 import { cellRef } from '../engine/node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, stateLookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
 import { type Quantity, report, describe, valueIn, tidy, deltaUnit } from '../units/quantity.ts';
 import { sameDim, describeDim, divDim, mulDim, TIME } from '../units/dimension.ts';
 import { type DisplayUnit, formatUnit, mulUnits, unitFactor } from '../units/units.ts';
@@ -49,7 +49,7 @@ export function simulateNodes(cell: SimulateCell, at: string): GraphNode[] {
     const p = `${at}.events[${i}]`;
     const kind = (['add', 'set', 'infuse'] as const).find((k) => e && Object.prototype.hasOwnProperty.call(e, k)) ?? 'add';
     const targets = Object.entries((e?.[kind] ?? {}) as Record<string, unknown>).map(([name, v]) => {
-      refs.push({ name, path: `${p}.${kind}` });
+      refs.push({ name, path: `${p}.${kind}`, readsStates: true });
       return { name, value: field(v, `${p}.${kind}.${name}`, problems) };
     });
     f.events.push({ at: opt(e?.at, `${p}.at`), every: opt(e?.every, `${p}.every`), for: opt(e?.for, `${p}.for`), targets, kind, raw: e });
@@ -57,19 +57,21 @@ export function simulateNodes(cell: SimulateCell, at: string): GraphNode[] {
   const defines = (Array.isArray(cell.find) ? cell.find : []).flatMap((q, i) => {
     const p = `${at}.find[${i}]`;
     const kind = FIND_KINDS.find((k) => q && Object.prototype.hasOwnProperty.call(q, k));
-    if (kind && typeof q[kind] === 'string') refs.push({ name: q[kind] as string, path: `${p}.${kind}` });
+    if (kind && typeof q[kind] === 'string') refs.push({ name: q[kind] as string, path: `${p}.${kind}`, readsStates: true });
     f.finds.push({ q, kind, level: opt(q?.level, `${p}.level`), at: opt(q?.at, `${p}.at`), from: opt(q?.from, `${p}.from`), to: opt(q?.to, `${p}.to`) });
     return typeof q?.name === 'string' ? [{ name: q.name, path: `${p}.name` }] : [];
   });
-  const all = [f.from, f.to, f.step, f.atol, ...f.events.flatMap((e) => [e.at, e.every, e.for, ...e.targets.map((t) => t.value)]),
+  // an event's amounts under add and infuse can read states (and are refused when they do);
+  // every other field is a time, a level or a tolerance, where a state's name is a unit's
+  const amounts = f.events.flatMap((e) => e.targets.map((t) => ({ value: t.value, states: e.kind !== 'set' })));
+  const all = [f.from, f.to, f.step, f.atol, ...f.events.flatMap((e) => [e.at, e.every, e.for]), ...amounts.filter((a) => !a.states).map((a) => a.value),
     ...f.finds.flatMap((q) => [q.level, q.at, q.from, q.to])];
   return [{
     key: `${cell.id}/simulate`,
     cell: cell.id,
     defines,
-    uses: [...usesOf(all), ...refs],
+    uses: [...usesOf(all), ...usesOf(amounts.filter((a) => a.states).map((a) => a.value), { states: true }), ...refs],
     allowsTime: true,
-    allowsStates: true,
     pullsCoupledLaws: true,
     signature: JSON.stringify(cell),
     problems,
@@ -84,6 +86,7 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
   const states = laws.map((l) => l.state);
   const stateIndex = new Map(states.map((s, i) => [s, i]));
   const lookup = lookupFrom(ctx);
+  const amountLookup = stateLookupFrom(ctx);
   const time = (fd: Field | undefined, what: string): Quantity => {
     const q = finiteQuantityOf(fd!, lookup);
     if (!sameDim(q.dim, TIME)) fail(fd!.path, `${what} must be a time (such as 8 h); it is ${describeDim(q.dim)} (${describe(q)})`);
@@ -131,9 +134,10 @@ function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContex
   const scheduled: ScheduledEvent[] = f.events.map((e, i) => {
     const targets = e.targets.map((t) => {
       const fd = t.value!;
-      const bad = symbolsOf(fd.expr).find((s) => s === 't' || stateIndex.has(s));
+      // under set, a state's name is a unit (the field cannot read states)
+      const bad = symbolsOf(fd.expr).find((s) => s === 't' || (e.kind !== 'set' && stateIndex.has(s)));
       if (bad) fail(fd.path, `an event's amount is fixed when the run starts, so it cannot read "${bad}"`);
-      const q = finiteQuantityOf(fd, lookup);
+      const q = finiteQuantityOf(fd, e.kind === 'set' ? lookup : amountLookup);
       let want = e.kind === 'set' ? paramQ[paramIndex.get(t.name)!].dim : laws[stateIndex.get(t.name)!].initial.dim;
       if (e.kind === 'infuse') want = divDim(want, TIME);
       if (!sameDim(q.dim, want)) fail(fd.path, `${e.kind === 'infuse' ? 'an infusion rate' : 'the amount'} for ${t.name} must be ${describeDim(want)}; it is ${describeDim(q.dim)} (${describe(q)})`);

@@ -78,8 +78,12 @@ describe('a study with inputs in mixed units', () => {
     assert.equal((c.rateAtStart as { unit: string }).unit, 'degC / h');
   });
 
-  it('lists names that hide units as warnings', () => {
-    assert.ok(report.warnings.some((w) => w.includes('"T"') && w.includes('hides the unit')));
+  it('lists names that hide the trades\' units as warnings, and not a state T (tesla)', () => {
+    assert.ok(!report.warnings.some((w) => w.includes('"T"')), JSON.stringify(report.warnings));
+    const doc = example('mixed-units-prep.ratebook.json');
+    doc.cells.push({ id: 'fall', kind: 'parameters', items: [{ name: 'g', value: '9.81 m / s^2' }] });
+    const r = reportOf(doc);
+    assert.ok(r.warnings.some((w) => w.includes('"g"') && w.includes('hides the unit g')), JSON.stringify(r.warnings));
   });
 });
 
@@ -158,11 +162,11 @@ describe('errors land on the right cell with their path', () => {
 
   it('a state or t used in a parameter is refused with the reason', () => {
     const r = reportOf(study([
-      { id: 'law', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-C / (2 h)', initial: '5 mg / L' },
-      { id: 'p', kind: 'parameters', items: [{ name: 'x', value: 'C * 2' }, { name: 'y', value: 't + 1 h' }] },
+      { id: 'law', kind: 'rate', state: 'conc', unit: 'mg / L', rate: '-conc / (2 h)', initial: '5 mg / L' },
+      { id: 'p', kind: 'parameters', items: [{ name: 'x', value: 'conc * 2' }, { name: 'y', value: 't + 1 h' }] },
     ]));
     const errors = cell(r, 'p').errors!;
-    assert.match(errors[0].message, /"C" is the state of rate cell "law"/);
+    assert.match(errors[0].message, /"conc" is the state of rate cell "law"/);
     assert.match(errors[1].message, /"t" is time/);
   });
 
