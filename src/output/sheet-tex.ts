@@ -1,8 +1,9 @@
 /**
  * TeX for what the printed sheet typesets: each rate law as dState/dt = rate, and each
  * parameter's value. Symbols are read as the engine reads them: the study's own names first
- * (so a state `T` is not tesla), then constants, then units. An expression that does not
- * parse gets no TeX (the sheet shows its text).
+ * (so a state `T` is not tesla), then constants, then units; in a parameter's value, where
+ * states cannot be read, a state's name spelled like a unit is the unit (a tank level `h`
+ * beside `0.9 / h`). An expression that does not parse gets no TeX (the sheet shows its text).
  */
 import type { Study } from '../study/types.ts';
 import { NCA_RESULTS } from '../study/types.ts';
@@ -19,6 +20,8 @@ export interface StudyTex {
 export function studyTex(study: Study): StudyTex {
   const defined = definedNames(study);
   const kindOf = symbolKinds(defined);
+  const states = new Set(study.cells.flatMap((c) => (c.kind === 'rate' && typeof c.state === 'string' ? [c.state] : [])));
+  const valueKindOf = symbolKinds(new Set([...defined].filter((n) => !states.has(n))));
   const rates = new Map<string, string>();
   const values = new Map<string, string>();
   for (const cell of study.cells) {
@@ -28,7 +31,7 @@ export function studyTex(study: Study): StudyTex {
     } else if (cell.kind === 'parameters' && Array.isArray(cell.items)) {
       for (const item of cell.items) {
         const p = parseExpression(item?.value);
-        if (p.ok && typeof item.name === 'string') values.set(`${cell.id}/${item.name}`, toTex(p.expr, kindOf));
+        if (p.ok && typeof item.name === 'string') values.set(`${cell.id}/${item.name}`, toTex(p.expr, valueKindOf));
       }
     }
   }

@@ -44,6 +44,17 @@ describe('TeX of expressions', () => {
   });
 });
 
+describe('TeX of a study', () => {
+  it('a state h is the state in its rate law and the hour in a parameter value', () => {
+    const t = studyTex({ format: 'ratebook-study', version: 1, title: 'tank', cells: [
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.9 / h' }] },
+      { id: 'tank', kind: 'rate', state: 'h', unit: 'm', rate: '-k * h', initial: '1 m' },
+    ] });
+    assert.equal(t.values.get('p/k'), '\\frac{0.9}{\\mathrm{h}}');
+    assert.equal(t.rates.get('tank'), '\\frac{\\mathrm{d}h}{\\mathrm{d}t} = -k h');
+  });
+});
+
 describe('TeX of every template', () => {
   const dir = new URL('../../examples/', import.meta.url);
   for (const f of readdirSync(dir).filter((x) => x.endsWith('.ratebook.json'))) {
