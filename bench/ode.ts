@@ -168,3 +168,50 @@ export function odeBench(runs = 15): OdeBenchRow[] {
   }
   return rows;
 }
+
+/**
+ * The forced stiff problem y' = -1e4 (y - cos t), y(0) = 0, t in [0, 10], atol = 1e-3·rtol,
+ * at rtol 1e-3 … 1e-10, for the stiff method and auto: evaluations (every call of f),
+ * Jacobians, the largest error at the steps in tolerance units, and the ratio to LSODA's
+ * evaluations on the same problem and tolerances (SciPy 1.17 `solve_ivp`, measured once and
+ * quoted here, `LSODA_FORCED`). Goal: a ratio of at most 1.25.
+ */
+export interface StiffBenchRow {
+  readonly method: 'stiff' | 'auto';
+  readonly rtol: number;
+  readonly formula: string;
+  readonly evaluations: number;
+  readonly jacobians: number;
+  /** Largest |y - exact| / (atol + rtol·|exact|) at the step ends. */
+  readonly units: number;
+  readonly lsoda: number;
+}
+
+/** LSODA's evaluations at rtol 1e-3 … 1e-10 on the forced stiff problem (SciPy 1.17). */
+export const LSODA_FORCED: readonly number[] = [204, 351, 429, 639, 642, 929, 1347, 1474];
+
+export function stiffBench(): StiffBenchRow[] {
+  const lambda = 1e4;
+  const f: Rhs = (t, y, dy) => { dy[0] = -lambda * (y[0] - Math.cos(t)); };
+  const slow = (t: number) => (1e8 * Math.cos(t) + 1e4 * Math.sin(t)) / (1e8 + 1);
+  const exact = (t: number) => slow(t) - slow(0) * Math.exp(-lambda * t);
+  const rows: StiffBenchRow[] = [];
+  for (const method of ['stiff', 'auto'] as const) {
+    LSODA_FORCED.forEach((lsoda, i) => {
+      const rtol = 10 ** -(i + 3);
+      const atol = 1e-3 * rtol;
+      const res = integrate(f, 0, [0], 10, { method, rtol, atol });
+      const out = new Float64Array(1);
+      let units = 0;
+      for (const s of res.segments) {
+        s.eval(s.t1, out);
+        units = Math.max(units, Math.abs(out[0] - exact(s.t1)) / (atol + rtol * Math.abs(exact(s.t1))));
+      }
+      rows.push({
+        method, rtol, formula: res.stiffFormula ?? res.method, evaluations: res.counters.evaluations,
+        jacobians: res.counters.jacobians, units, lsoda,
+      });
+    });
+  }
+  return rows;
+}

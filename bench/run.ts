@@ -14,9 +14,10 @@ import {
 } from '../src/index.ts';
 import { setGeneratedCode } from '../src/expression/compile.ts';
 import { phaseBenchmarks } from './phase.ts';
-import { odeBench } from './ode.ts';
+import { odeBench, stiffBench } from './ode.ts';
 import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
+import { whatIfBenchmarks } from './what-if.ts';
 import { fitBenchmarks } from './fit.ts';
 import { ncaBenchmarks } from './nca.ts';
 
@@ -294,9 +295,28 @@ function odeRows(): Row[] {
   }));
 }
 
+function stiffRows(): Row[] {
+  return stiffBench().map((r) => {
+    const ratio = r.evaluations / r.lsoda;
+    return {
+      measure: `${r.method} (${r.formula}) rtol ${r.rtol.toExponential(0)}: ${r.evaluations} evaluations, ${r.jacobians} Jacobians, ` +
+        `${r.units.toFixed(2)} units at the steps`,
+      result: `${ratio.toFixed(2)}x LSODA`, goal: `<= 1.25x (LSODA ${r.lsoda})`, met: ratio <= 1.25,
+    };
+  });
+}
+
 function simulateRows(): Row[] {
   return simulateBenchmarks().map((r) => ({
     measure: `${r.name} (${r.steps} steps)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
+  }));
+}
+
+function whatIfRows(): Row[] {
+  return whatIfBenchmarks().map((r) => ({
+    measure: r.name,
+    result: r.unit === 'ms' ? ms(r.value) : `${r.value.toFixed(2)}x`,
+    ...(Number.isNaN(r.goal) ? {} : { goal: r.unit === 'ms' ? `< ${ms(r.goal)}` : `<= ${r.goal}x`, met: r.value <= r.goal }),
   }));
 }
 
@@ -317,7 +337,9 @@ const SECTIONS: readonly Section[] = [
   { title: 'Incremental editing of a study', run: editRows },
   { title: 'Equilibria and parameter sweeps', run: phaseRows },
   { title: 'ODE integration against odex at equal accuracy', run: odeRows },
+  { title: 'Stiff method on y\' = -1e4 (y - cos t) against LSODA', run: stiffRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
+  { title: 'What-if runs of a dosing schedule', run: whatIfRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },
 ];

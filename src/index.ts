@@ -1,5 +1,6 @@
 /** Ratebook's engine: the public surface. Pure TypeScript; runs in the browser and in Node. */
 export { openStudy, StudySession, type EditResult, type OpenResult, type SessionOptions } from './engine/session.ts';
+export type { Replacement, WhatIf, WhatIfAnswer, WhatIfPrepared, WhatIfResult } from './engine/what-if.ts';
 export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind } from './study/types.ts';

@@ -2,7 +2,7 @@
 import type { ParametersCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Outcome } from '../engine/node.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, finite, valueOf, FieldError, guarded, shownAs } from './fields.ts';
-import { report, describe, valueIn, shownUnit, plain } from '../units/quantity.ts';
+import { type Quantity, report, describe, valueIn, shownUnit, plain } from '../units/quantity.ts';
 import { formatUnit } from '../units/units.ts';
 import { sameDim, describeDim } from '../units/dimension.ts';
 import { quantitySig } from './signatures.ts';
@@ -34,20 +34,25 @@ function runParameter(name: string, value: Field, range: ReadonlyArray<Field | u
     const v = valueOf(value, lookup);
     if (typeof v === 'boolean') return truthParameter(name, v, range, shownIn, unitPath);
     const q = shownAs(finite(value, v), shownIn, unitPath);
-    const entry: Record<string, unknown> = { ...report(q) };
+    let bounds: Quantity[] | undefined;
     if (range.length === 2) {
-      const [lo, hi] = range.map((f) => finiteQuantityOf(f!, lookup));
+      const [lo, hi] = bounds = range.map((f) => finiteQuantityOf(f!, lookup));
       for (const [bound, f] of [[lo, range[0]!], [hi, range[1]!]] as const) {
         if (!sameDim(bound.dim, q.dim)) {
           throw new FieldError({ path: f.path, message: `range of ${name} must be ${describeDim(q.dim)} like its value; it is ${describeDim(bound.dim)} (${describe(bound)})` });
         }
       }
       if (!(lo.si < hi.si)) throw new FieldError({ path: range[0]!.path, message: `range of ${name}: the low end (${describe(lo)}) must be below the high end (${describe(hi)})` });
-      const unit = shownUnit(q);
-      entry.range = [lo, hi].map((b) => ({ value: valueIn(b, unit), unit: formatUnit(unit), si: b.si }));
     }
-    const binding: Binding = { kind: 'value', q, sig: quantitySig(q) };
-    return { ok: true, bindings: new Map([[name, binding]]), output: { values: { [name]: entry } } };
+    const bindings = new Map<string, Binding>([[name, { kind: 'value', q, sig: quantitySig(q) }]]);
+    // a what-if run needs the value alone, not its display
+    if (ctx.mode === 'what-if') return { ok: true, bindings, output: {} };
+    const entry: Record<string, unknown> = { ...report(q) };
+    if (bounds) {
+      const unit = shownUnit(q);
+      entry.range = bounds.map((b) => ({ value: valueIn(b, unit), unit: formatUnit(unit), si: b.si }));
+    }
+    return { ok: true, bindings, output: { values: { [name]: entry } } };
   });
 }
 

@@ -62,6 +62,7 @@ function runState(cellId: string, state: string, unitField: Field, initialField:
   const temp = sameDim(dim, TEMPERATURE) ? (point ? 'point' : q0.temp === 'delta' ? 'delta' : 'absolute') : undefined;
   const q: Quantity = temp ? { si: q0.si, dim, unit, temp } : { si: q0.si, dim, unit };
   const binding: Binding = { kind: 'state', q, unit, cell: cellId, sig: `${quantitySig(q)}|${state}` };
+  if (ctx.mode === 'what-if') return { ok: true, bindings: new Map([[state, binding]]), output: {} };
   return { ok: true, bindings: new Map([[state, binding]]), output: { state, unit: formatUnit(unit), initial: report(q) } };
 }
 
@@ -99,10 +100,12 @@ function runLaw(cellId: string, state: string, rate: Field, ctx: RunContext): Ou
   }
   const law: Law = { cell: cellId, state, stateUnit: own.unit, initial: own.q, expr: rate.expr, text: rate.text, reads, states, scope };
   const sig = `${rate.text}|${own.sig}|${reads.map((n) => `${n}=${quantitySig(scope.get(n)!)}`).join(';')}`;
+  const bindings = new Map([[cellRef(cellId), { kind: 'law', law, sig } as const]]);
+  if (ctx.mode === 'what-if') return { ok: true, bindings, output: {} };
   const shown: Quantity = { si: r.si, dim: r.dim, unit: rateUnit(own.unit, r) };
   const output: Record<string, unknown> = { rateAtStart: report(shown) };
   if (!Number.isFinite(r.si)) output.warning = `${label(rate.path)} is not finite at the initial state (${describe(r)})`;
-  return { ok: true, bindings: new Map([[cellRef(cellId), { kind: 'law', law, sig }]]), output };
+  return { ok: true, bindings, output };
 }
 
 /** The unit a rate is shown in: the state's unit per the first time unit the law mentions. */

@@ -273,3 +273,20 @@ class MinHeap {
     return top;
   }
 }
+
+/** Names `name` is computed from, following the resolved sources. Cost: O(nodes upstream). */
+export function upstreamOf(graph: Graph, name: string): ReadonlySet<string> {
+  const out = new Set<string>();
+  const queue = [name];
+  while (queue.length) {
+    const key = graph.definers.get(queue.pop()!);
+    const sources = key ? graph.sources.get(key) : undefined;
+    for (const [n, s] of sources ?? []) {
+      if ('node' in s && !out.has(n)) {
+        out.add(n);
+        queue.push(n);
+      }
+    }
+  }
+  return out;
+}

@@ -70,8 +70,13 @@ export interface DataTable {
 export interface RunContext {
   /** The binding of a declared name; undefined for units, constants and `t`. */
   binding(name: string): Binding | undefined;
-  /** 'check' validates only; heavy cells skip their numerics. */
-  readonly mode: 'run' | 'check';
+  /**
+   * 'check' validates only; heavy cells skip their numerics. 'what-if' computes the bindings
+   * alone (`engine/what-if.ts`): a cell may leave its output empty, and must skip what only
+   * its report needs (plot data, texts, display formatting); its bindings and reasons must
+   * equal those of 'run'.
+   */
+  readonly mode: 'run' | 'check' | 'what-if';
   /** The study names a declared name is computed from, directly or through others. */
   upstream(name: string): ReadonlySet<string>;
 }

@@ -11,23 +11,18 @@ import { readStudy, checkCell, type Problem } from '../study/validate.ts';
 import { applyEdit, type Edit } from '../study/edit.ts';
 import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.ts';
 import { buildCellNodes, resolvePath, CELL_PATH } from '../cells/index.ts';
-import { buildGraph, type Graph } from './graph.ts';
+import { buildGraph, upstreamOf, type Graph } from './graph.ts';
+import { prepareWhatIf, type Replacement, type Unavailable, type WhatIfPrepared } from './what-if.ts';
 import { unitHints, withUnitHint } from './hidden-units.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
 import type { SimulationPlot } from '../simulate/plot-data.ts';
 import { unitFromText, shownIn } from '../expression/unit-text.ts';
 
-/** A name that cannot be read: its definer failed or computed nothing. */
-interface Unavailable {
-  readonly kind: 'unavailable';
-  readonly cell: string;
-  readonly reason: string;
-  readonly sig: string;
-}
 type Slot = Binding | Unavailable;
 
 export type { Edit } from '../study/edit.ts';
+export type { Replacement, WhatIfPrepared } from './what-if.ts';
 
 /** What a name defined by a cell of each kind is called in messages. */
 const KIND_WORDS: Partial<Record<string, string>> = { parameters: 'parameter', simulate: 'answer', fit: 'estimate', nca: 'result' };
@@ -243,17 +238,8 @@ export class StudySession {
   private runNode(node: GraphNode, problem: CellError | undefined): Outcome {
     if (problem) return { ok: false, error: problem };
     const sources = this.graph.sources.get(node.key)!;
-    for (const use of node.uses) {
-      const src = sources.get(use.name);
-      if (!src || !('node' in src)) continue;
-      const slot = this.slots.get(use.name);
-      if (!slot || slot.kind === 'unavailable') {
-        const reason = slot?.reason ?? 'it has not been computed';
-        // a reason that already names the same cell (a node waiting on a node of its own cell) is not named twice
-        const waits = `waits on cell "${slot?.cell ?? this.graph.nodes.get(src.node)?.cell}": `;
-        return { ok: false, error: { message: reason.startsWith(waits) ? reason : `${waits}${reason}`, path: use.path } };
-      }
-    }
+    const waiting = waitingOn(this.graph, node, (name) => this.slots.get(name));
+    if (waiting) return { ok: false, error: waiting };
     const ctx: RunContext = {
       mode: this.mode,
       binding: (name) => {
@@ -266,7 +252,7 @@ export class StudySession {
     try {
       return node.run(ctx);
     } catch (err) {
-      return { ok: false, error: { message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? CELL_PATH } };
+      return internalError(node, err);
     }
   }
 
@@ -300,21 +286,30 @@ export class StudySession {
     return `the ${kind} defined at ${resolvePath(path.replace(/\.name$/, ''), this.indexOf(definer.cell))}`;
   }
 
+  /**
+   * A what-if evaluator over the study as it stands now (`engine/what-if.ts`): the `wanted`
+   * names computed with the `replaced` parameters and states' initial values given new SI
+   * values, re-running only the nodes between them, never touching this session. Planned
+   * once here; each call of its `evaluate` only runs those nodes. It keeps answering for the
+   * study as it was when prepared: prepare again after an edit. Never throws.
+   */
+  whatIf(wanted: readonly string[], replaced: readonly Replacement[]): WhatIfPrepared {
+    const graph = this.graph;
+    const index = new Map(this.cells.map((c, i) => [c.id, i]));
+    const kinds = new Map(this.cells.map((c) => [c.id, c.kind]));
+    return prepareWhatIf({
+      graph,
+      slot: (name) => this.slots.get(name),
+      cellKind: (id) => kinds.get(id),
+      waitingOn: (node, slotOf) => waitingOn(graph, node, slotOf),
+      unavailable: (node, name, outcome) => unavailable(node, name, outcome, index.get(node.cell) ?? -1),
+      internalError,
+    }, wanted, replaced);
+  }
+
   /** Names `name` is computed from, following the graph's resolved sources. */
   private upstream(name: string): ReadonlySet<string> {
-    const out = new Set<string>();
-    const queue = [name];
-    while (queue.length) {
-      const key = this.graph.definers.get(queue.pop()!);
-      const sources = key ? this.graph.sources.get(key) : undefined;
-      for (const [n, s] of sources ?? []) {
-        if ('node' in s && !out.has(n)) {
-          out.add(n);
-          queue.push(n);
-        }
-      }
-    }
-    return out;
+    return upstreamOf(this.graph, name);
   }
 
   /** Every measured series a fit cell observed, in SI, by state. */
@@ -369,6 +364,28 @@ function withMeasurements(plot: SimulationPlot, measured: ReadonlyArray<{ state:
     return measured.filter((m) => m.state === s.name).map((m) => ({ state: s.name, t: m.t.map((t) => shownIn(t, timeUnit)), values: m.y.map((y) => shownIn(y, unit)) }));
   });
   return points.length ? { ...plot, points } : plot;
+}
+
+/** The error of a node that reads a name whose definer failed or computed nothing; undefined when all its inputs are bound. */
+function waitingOn(graph: Graph, node: GraphNode, slotOf: (name: string) => Slot | undefined): CellError | undefined {
+  const sources = graph.sources.get(node.key)!;
+  for (const use of node.uses) {
+    const src = sources.get(use.name);
+    if (!src || !('node' in src)) continue;
+    const slot = slotOf(use.name);
+    if (!slot || slot.kind === 'unavailable') {
+      const reason = slot?.reason ?? 'it has not been computed';
+      // a reason that already names the same cell (a node waiting on a node of its own cell) is not named twice
+      const waits = `waits on cell "${slot?.cell ?? graph.nodes.get(src.node)?.cell}": `;
+      return { message: reason.startsWith(waits) ? reason : `${waits}${reason}`, path: use.path };
+    }
+  }
+  return undefined;
+}
+
+/** What a node that threw is reported as. */
+function internalError(node: GraphNode, err: unknown): Outcome {
+  return { ok: false, error: { message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? CELL_PATH } };
 }
 
 function unavailable(node: GraphNode, name: string, outcome: Outcome, index: number): Unavailable {

@@ -86,7 +86,43 @@ export const DOPRI5_STIFFNESS = {
   signals: 15,
   /** Consecutive negative tests that clear the count. */
   reset: 6,
+  /**
+   * At tight tolerances the steps on a stiff problem settle below the stability edge (h|λ|
+   * ≈ 2.7 at rtol 1e-8 and 1.3 at rtol 1e-10 on y' = -1e4 (y - cos t), measured), where the
+   * test above never fires. So the threshold is also at most this multiple of the h|λ| an
+   * accuracy-limited step would have on a mode that is present (`activeModeHLambda`): a
+   * step that much longer can only stand on a mode that has decayed, which is stiffness.
+   */
+  activeModeMultiple: 10,
 } as const;
+
+/**
+ * The dopri5 error estimate on y' = λy, y = 1, for real z = hλ: |z·Σ e_i K_i(z)| with the
+ * stage values K_i(z) of the method (their Taylor series starts at z^5).
+ */
+export function dopri5ErrorOnMode(z: number): number {
+  const { a } = DOPRI5;
+  const K: number[] = [];
+  let err = 0;
+  for (let i = 0; i < 7; i++) {
+    let v = 1;
+    for (let j = 0; j < i; j++) v += z * a[i][j] * K[j];
+    K.push(v);
+    err += DOPRI5_E[i] * v;
+  }
+  return Math.abs(z * err);
+}
+
+/** The leading coefficient C of the estimate on a mode, |E(z)| ≈ C·|z|^5 for small z. */
+const ERROR_ON_MODE_C5 = dopri5ErrorOnMode(-1e-2) / 1e-10;
+
+/**
+ * The h|λ| at which dopri5's error estimate on a mode of relative size 1 reaches rtol:
+ * (rtol/C)^(1/5). Steps limited by accuracy on a mode that is present sit near it.
+ */
+export function activeModeHLambda(rtol: number): number {
+  return Math.pow(rtol / ERROR_ON_MODE_C5, 1 / 5);
+}
 
 /** The continuous solution of one Dormand–Prince step (see `DOPRI5_DENSE`). */
 export class Dopri5Segment implements DenseSegment {
@@ -143,6 +179,8 @@ export class Dopri5Stepper implements Stepper {
   private errOld: number = DOPRI5_CONTROL.errFloor;
   private stiffSignals = 0;
   private calmTests = 0;
+  /** h|λ| above which a step counts as a sign of stiffness (see `DOPRI5_STIFFNESS`). */
+  private readonly stiffThreshold: number;
 
   constructor(private readonly ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number) {
     this.t = t0;
@@ -152,6 +190,8 @@ export class Dopri5Stepper implements Stepper {
     this.err = new Float64Array(ctx.n);
     this.mark = new NonFiniteMark(ctx.n);
     if (firstStep !== undefined) this.h = firstStep;
+    const S = DOPRI5_STIFFNESS;
+    this.stiffThreshold = Math.min(S.threshold, S.activeModeMultiple * activeModeHLambda(ctx.options.rtol));
   }
 
   step(tEnd: number): StepOutcome {
@@ -235,7 +275,7 @@ export class Dopri5Stepper implements Stepper {
     if (den <= 0) return;
     const hLambda = h * Math.sqrt(num / den);
     const S = DOPRI5_STIFFNESS;
-    if (hLambda > S.threshold) {
+    if (hLambda > this.stiffThreshold) {
       this.calmTests = 0;
       this.stiffSignals++;
       if (this.stiffSignals >= S.signals && this.stiffAt === null) this.stiffAt = tNew;

@@ -11,7 +11,7 @@ import {
   type OdeContext, type Stepper, beyondBound, newContext, resolveOptions,
 } from './control.ts';
 import { Dopri5Stepper } from './dopri5.ts';
-import { RosenbrockStepper } from './rosenbrock.ts';
+import { type StiffFormula, stiffStepper } from './stiff-choice.ts';
 import { FixedStepper } from './fixed-step.ts';
 import { EULER, HEUN, RK4 } from './explicit-rk.ts';
 import {
@@ -47,6 +47,11 @@ export interface IntegrateResult {
   readonly counters: Counters;
   /** The method that made the last step ('dopri5' or 'stiff' for auto). */
   readonly method: MethodUsed;
+  /**
+   * The formula the stiff method ran ('rodas', or 'ndf' for a stiff run at a tolerance
+   * tighter than 1e-6: see `stiff-choice.ts`), or null when it did not run.
+   */
+  readonly stiffFormula: StiffFormula | null;
   /** Time at which auto switched to the stiff method, or null. */
   readonly switchedToStiff: number | null;
   /** Time at which dopri5 first found the problem stiff (auto then switches), or null. */
@@ -76,11 +81,10 @@ function checkInputs(t0: number, y0: ArrayLike<number>, t1: number, method: Meth
   }
 }
 
-function makeStepper(ctx: OdeContext, method: MethodUsed, t0: number, y0: ArrayLike<number>, options: IntegrateOptions): Stepper {
+function makeStepper(ctx: OdeContext, method: Exclude<MethodUsed, 'stiff'>, t0: number, y0: ArrayLike<number>, options: IntegrateOptions): Stepper {
   const first = ctx.options.firstStep;
   switch (method) {
     case 'dopri5': return new Dopri5Stepper(ctx, t0, y0, first);
-    case 'stiff': return new RosenbrockStepper(ctx, t0, y0, first, options.jacobian, options.autonomous ?? false, options.denseErrorControl ?? true);
     case 'rk4': return new FixedStepper(ctx, RK4, t0, y0, options.step!);
     case 'heun': return new FixedStepper(ctx, HEUN, t0, y0, options.step!);
     case 'euler': return new FixedStepper(ctx, EULER, t0, y0, options.step!);
@@ -104,7 +108,13 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
   const counters = newCounters();
   const ctx = newContext(f, start, resolved, counters, t1 - t0);
   let used: MethodUsed = method === 'auto' ? 'dopri5' : method;
-  let stepper = makeStepper(ctx, used, t0, start, options);
+  let stiffFormula: StiffFormula | null = null;
+  let stepper: Stepper;
+  if (used === 'stiff') {
+    ({ stepper, formula: stiffFormula } = stiffStepper(ctx, t0, start, t1, resolved.firstStep, options, false));
+  } else {
+    stepper = makeStepper(ctx, used, t0, start, options);
+  }
   const segments: DenseSegment[] = [];
   let stiffnessDetected: number | null = null;
 
@@ -116,6 +126,7 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
     segments,
     counters,
     method: used,
+    stiffFormula,
     switchedToStiff: counters.switchedToStiff,
     stiffnessDetected,
     nextStep: Number.isFinite(stepper.h) ? stepper.h : resolved.firstStep ?? t1 - t0,
@@ -136,8 +147,7 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
       if (method === 'auto' && stepper.t < t1) {
         counters.switchedToStiff = stepper.t;
         used = 'stiff';
-        stepper = new RosenbrockStepper(ctx, stepper.t, stepper.y, stepper.h, options.jacobian, options.autonomous ?? false,
-          options.denseErrorControl ?? true);
+        ({ stepper, formula: stiffFormula } = stiffStepper(ctx, stepper.t, stepper.y, t1, stepper.h, options, true));
       }
     }
   }

@@ -151,12 +151,13 @@ export const MESSAGES: { readonly [S in Status]: (at: Where, detail?: MessageDet
  * when it wrote one of them, false when t is inside and the caller interpolates.
  */
 export function writeStepEnd(t: number, t0: number, t1: number, data: Float64Array, n: number, out: Float64Array): boolean {
+  // element by element: a subarray would allocate on every call at a step's end
   if (t <= t0) {
-    out.set(data.subarray(0, n));
+    for (let i = 0; i < n; i++) out[i] = data[i];
     return true;
   }
   if (t >= t1) {
-    out.set(data.subarray(n, 2 * n));
+    for (let i = 0; i < n; i++) out[i] = data[n + i];
     return true;
   }
   return false;

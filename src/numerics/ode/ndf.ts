@@ -1,0 +1,395 @@
+/**
+ * The stiff method at tight tolerances: the numerical differentiation formulas (NDF) of
+ * orders 1 to 5, variable step and variable order, in backward-difference form, after
+ * Shampine & Reichelt, "The MATLAB ODE Suite", SIAM J. Sci. Comput. 18 (1997), 1–22,
+ * sec. 2 (the formulas, their κ values, the change of step size by rescaling the
+ * differences, the choice of order). The simplified Newton iteration, its convergence test
+ * and the reuse of the Jacobian follow Hairer & Wanner, Solving ODEs II, sec. IV.8 and
+ * Shampine & Reichelt sec. 2.3.
+ *
+ * Why a multistep formula next to RODAS (`rosenbrock.ts`): on a forced stiff problem such as
+ * y' = -1e4 (y - cos t), one RODAS step of size h with |hλ| between about 3 and 1e3 has a
+ * local error that grows only like h^1.5…h^2 (order reduction: its stages are accurate to
+ * low order only, and in that regime the stiff component of their error is not damped),
+ * and its embedded estimate is 5–10 times larger still. Measured on that problem at
+ * atol = 1e-3·rtol, RODAS held its step at h ≈ 1.4e-3 (hλ ≈ 14) all the way from t = 1 to
+ * t = 10 at rtol 1e-8 — 7 229 steps, each with a Jacobian, 65 077 evaluations — and needed
+ * 527 685 evaluations at rtol 1e-10; switching off the dense-output check (−12 %), the
+ * differenced ∂f/∂t, or the differenced Jacobian left this unchanged, and the order
+ * conditions of the coefficients hold to 1e-13 (test/engine/ode-coefficients.test.ts). A
+ * backward differentiation formula has no stages: its error constant applies to the smooth
+ * solution whatever hλ is, so the steps follow the accuracy of cos t alone (hundreds of
+ * steps at rtol 1e-10, one or two evaluations each), with one Jacobian kept over many steps
+ * and one LU factorization per change of step size or order.
+ *
+ * Per step: one to four evaluations of f (Newton iterations). A Jacobian is formed only when
+ * the Newton iteration fails to converge with an old one (n evaluations by differences, or
+ * one to difference plus one for f).
+ *
+ * Dense output: the interpolating polynomial through the last k+1 solution values, the
+ * very polynomial the differences hold (order k on the step, continuous at step ends).
+ */
+import {
+  type OdeContext, type StepOutcome, type Stepper,
+  NonFiniteMark, collapseFailure, errorNorm, failure, initialStep, minStep, nonFiniteStatus, spendAttempt, trialStep,
+} from './control.ts';
+import { type StiffStart, formJacobian } from './jacobian.ts';
+import { luFactor, luSolve } from './lu.ts';
+import { type DenseSegment, type Jacobian, writeStepEnd } from './types.ts';
+
+/** Highest order of the formulas. */
+export const NDF_MAX_ORDER = 5;
+
+/**
+ * The NDF coefficients by order k (index 0 unused): κ_k (Shampine & Reichelt 1997, Table 1;
+ * κ_5 = 0, order 5 is the BDF), γ_k = Σ_{j≤k} 1/j, α_k = (1 - κ_k)·γ_k (the formula's
+ * leading coefficient) and the error constant κ_k·γ_k + 1/(k+1) (the local error is about
+ * that times ∇^{k+1} y_{n+1}).
+ */
+export const NDF = (() => {
+  const kappa = [0, -0.185, -1 / 9, -0.0823, -0.0415, 0];
+  const gamma = [0];
+  for (let k = 1; k <= NDF_MAX_ORDER + 1; k++) gamma.push(gamma[k - 1] + 1 / k);
+  const alpha = kappa.map((kk, k) => (1 - kk) * gamma[k]);
+  const errorConst = [...kappa, 0].map((kk, k) => kk * gamma[k] + 1 / (k + 1));
+  return { kappa, gamma, alpha, errorConst } as const;
+})();
+
+/** Step-size and Newton constants (Hairer & Wanner II, sec. IV.8; common practice). */
+export const NDF_CONTROL = {
+  /** Safety factor on the predicted step. */
+  safety: 0.9,
+  minFactor: 0.2,
+  maxFactor: 10,
+  /**
+   * The error estimate is taken this many times over. Where a fast mode is still resolved
+   * (the start of y' = -1e4 (y - cos t), hλ ≈ 0.03), local errors add up over some 1/(h|λ|)
+   * steps before they decay; measured there, the global error at the steps reached 11
+   * tolerance units at rtol 1e-10 with a margin of 1, and 4.4 with 3, for 18 % more
+   * evaluations.
+   */
+  errorMargin: 3,
+  /** Most Newton iterations per attempt. */
+  newtonIterations: 4,
+  /**
+   * The iteration stops when its predicted remaining error is below this fraction of the
+   * tolerance (κ of Hairer & Wanner IV.8, between 0.01 and 0.1), and no lower than a few
+   * roundoffs of the solution.
+   */
+  newtonFraction: 0.03,
+  /** Factor for a step whose iteration failed with a fresh Jacobian, or met a non-finite f. */
+  failShrink: 0.5,
+  nonFiniteShrink: 0.25,
+} as const;
+
+/**
+ * Rescales backward differences D[0..k] (to the step h) to the step ρh, in place:
+ * D ← (R·U)ᵀ D with R_ij = Π_{m=1..i} (m - 1 - ρ j)/m and U the same at ρ = 1 (Shampine &
+ * Reichelt 1997, sec. 2.2). `D[0]`, the solution, is left unchanged. Cost O(k²·n).
+ */
+export function rescaleDifferences(D: Float64Array[], k: number, rho: number, work: Float64Array[]): void {
+  const size = k + 1;
+  const R = differenceChange(size, rho);
+  const U = differenceChange(size, 1);
+  const RU = new Float64Array(size * size);
+  for (let i = 0; i < size; i++) {
+    for (let j = 0; j < size; j++) {
+      let acc = 0;
+      for (let m = 0; m < size; m++) acc += R[i * size + m] * U[m * size + j];
+      RU[i * size + j] = acc;
+    }
+  }
+  const n = D[0].length;
+  for (let i = 0; i < size; i++) {
+    const w = work[i];
+    w.fill(0);
+    for (let j = 0; j < size; j++) {
+      const c = RU[j * size + i];
+      if (c !== 0) for (let q = 0; q < n; q++) w[q] += c * D[j][q];
+    }
+  }
+  for (let i = 0; i < size; i++) D[i].set(work[i]);
+}
+
+function differenceChange(size: number, rho: number): Float64Array {
+  const M = new Float64Array(size * size);
+  for (let j = 0; j < size; j++) M[j] = 1;
+  for (let i = 1; i < size; i++) {
+    for (let j = 0; j < size; j++) M[i * size + j] = (M[(i - 1) * size + j] * (i - 1 - rho * j)) / i;
+  }
+  return M;
+}
+
+/**
+ * The continuous solution of one NDF step: the polynomial through y_{n+1}, y_n, …,
+ * y_{n+1-k} at spacing h, y(t) = Σ_j D_j Π_{m<j} (x + m)/(m + 1) with x = (t - t1)/h.
+ */
+export class NdfSegment implements DenseSegment {
+  /** [y0 | y1 | D_1 | … | D_k], each n long. */
+  constructor(readonly t0: number, readonly t1: number, private readonly h: number, private readonly n: number,
+    private readonly order: number, private readonly data: Float64Array) {}
+
+  eval(t: number, out: Float64Array): void {
+    const { data, n } = this;
+    if (writeStepEnd(t, this.t0, this.t1, data, n, out)) return;
+    const x = (t - this.t1) / this.h;
+    for (let i = 0; i < n; i++) out[i] = data[n + i];
+    let p = 1;
+    for (let j = 1; j <= this.order; j++) {
+      p *= (x + j - 1) / j;
+      const off = (j + 1) * n;
+      for (let i = 0; i < n; i++) out[i] += p * data[off + i];
+    }
+  }
+}
+
+/** Adaptive variable-order NDF stepper. */
+export class NdfStepper implements Stepper {
+  t: number;
+  readonly y: Float64Array;
+  h = NaN;
+
+  /** Backward differences of the solution at step h: D[0] = y_n, D[j] = ∇^j y_n. */
+  private readonly D: Float64Array[];
+  private readonly work: Float64Array[];
+  private order = 1;
+  /** Accepted steps since the step size or the order last changed. */
+  private sameSteps = 0;
+  private readonly jac: Float64Array;
+  /** J was formed at the current accepted state. */
+  private jacFresh = false;
+  private readonly matrix: Float64Array;
+  private readonly pivot: Int32Array;
+  /** The h/α_k the matrix I - (h/α_k)·J was factored for (NaN: none). */
+  private factoredFor = NaN;
+  private readonly f: Float64Array;
+  private readonly probe: Float64Array;
+  private readonly yNew: Float64Array;
+  private readonly psi: Float64Array;
+  private readonly d: Float64Array;
+  private readonly dy: Float64Array;
+  private readonly mark: NonFiniteMark;
+  private started = false;
+
+  constructor(private readonly ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number,
+    private readonly jacobian?: Jacobian, private readonly start?: StiffStart) {
+    const n = ctx.n;
+    this.t = t0;
+    this.y = Float64Array.from(y0);
+    this.D = Array.from({ length: NDF_MAX_ORDER + 3 }, () => new Float64Array(n));
+    this.work = Array.from({ length: NDF_MAX_ORDER + 3 }, () => new Float64Array(n));
+    this.jac = new Float64Array(n * n);
+    this.matrix = new Float64Array(n * n);
+    this.pivot = new Int32Array(n);
+    this.f = new Float64Array(n);
+    this.probe = new Float64Array(n);
+    this.yNew = new Float64Array(n);
+    this.psi = new Float64Array(n);
+    this.d = new Float64Array(n);
+    this.dy = new Float64Array(n);
+    this.mark = new NonFiniteMark(n);
+    if (firstStep !== undefined) this.h = firstStep;
+  }
+
+  step(tEnd: number): StepOutcome {
+    if (!this.started) {
+      const begun = this.begin(tEnd);
+      if (begun) return begun;
+    }
+    this.mark.clear();
+    return this.attempt(tEnd);
+  }
+
+  /** f and J at the start, the first step, and the differences of order 1. */
+  private begin(tEnd: number): StepOutcome | null {
+    const { ctx, y, f } = this;
+    if (this.start) {
+      f.set(this.start.f0);
+      this.jac.set(this.start.jac);
+    } else {
+      if (!ctx.rhs.call(this.t, y, f)) return failure(nonFiniteStatus(ctx, y, y, f), this.t, y);
+      const bad = formJacobian(ctx, this.t, y, f, this.jac, this.probe, this.yNew, this.jacobian);
+      if (bad) return bad;
+    }
+    this.jacFresh = true;
+    if (Number.isNaN(this.h)) this.h = initialStep(ctx, this.t, y, f, tEnd, 1);
+    this.h = Math.min(this.h, ctx.options.maxStep, tEnd - this.t);
+    this.D[0].set(y);
+    for (let i = 0; i < ctx.n; i++) this.D[1][i] = this.h * f[i];
+    this.started = true;
+    return null;
+  }
+
+  /** Changes the step to hNew, rescaling the differences. */
+  private resize(hNew: number): void {
+    if (hNew === this.h) return;
+    rescaleDifferences(this.D, this.order, hNew / this.h, this.work);
+    this.h = hNew;
+    this.sameSteps = 0;
+  }
+
+  private attempt(tEnd: number): StepOutcome {
+    const { ctx, D, y, yNew, d } = this;
+    const n = ctx.n;
+    const C = NDF_CONTROL;
+    for (;;) {
+      const budget = spendAttempt(ctx, this.t, y);
+      if (budget) return budget;
+      const t = this.t;
+      const trial = trialStep(t, this.h, tEnd, ctx.options.maxStep);
+      this.resize(trial.last ? tEnd - t : trial.h);
+      const h = this.h;
+      const tNew = trial.last ? tEnd : t + h;
+      const k = this.order;
+      const solved = this.solve(tNew, h, k);
+      if (solved === 'retry') continue;
+      if (solved !== 'converged') {
+        ctx.counters.rejected++;
+        this.resize(h * (solved === 'non-finite' ? C.nonFiniteShrink : C.failShrink));
+        if (this.h < minStep(t)) return this.collapse();
+        continue;
+      }
+      const norm = this.scaledError(d, NDF_CONTROL.errorMargin * NDF.errorConst[k]);
+      const safety = this.safety;
+      if (!(norm <= 1)) {
+        ctx.counters.rejected++;
+        const factor = Number.isFinite(norm) ? Math.max(C.minFactor, safety * Math.pow(norm, -1 / (k + 1))) : C.minFactor;
+        this.resize(h * factor);
+        if (this.h < minStep(t)) return this.collapse();
+        continue;
+      }
+      // Accept: the differences move on to y_{n+1}.
+      for (let i = 0; i < n; i++) D[k + 2][i] = d[i] - D[k + 1][i];
+      D[k + 1].set(d);
+      for (let j = k; j >= 0; j--) for (let i = 0; i < n; i++) D[j][i] += D[j + 1][i];
+      const segment = this.segment(t, tNew, h, k, y);
+      this.t = tNew;
+      y.set(yNew);
+      this.jacFresh = false;
+      ctx.counters.steps++;
+      this.sameSteps++;
+      if (this.sameSteps > k) this.chooseOrder(norm, safety);
+      return { ok: true, segment };
+    }
+  }
+
+  private iterations = 0;
+  /** The Newton contraction rate last measured (1 before any: the first step iterates twice). */
+  private lastRate = 1;
+
+  /** The safety factor falls with the Newton iterations the last step needed. */
+  private get safety(): number {
+    const m = NDF_CONTROL.newtonIterations;
+    return (NDF_CONTROL.safety * (2 * m + 1)) / (2 * m + this.iterations);
+  }
+
+  /**
+   * Solves the NDF of order k for y_{n+1} at tNew by simplified Newton: (I - c·J)·Δ =
+   * c·f(y) - ψ - d with c = h/α_k, d = y - prediction, ψ = Σ γ_j ∇^j y_n / α_k. On
+   * success yNew holds y_{n+1} and d its correction. 'retry' when the iteration failed with
+   * an old Jacobian and a fresh one was formed (the step is tried again at the same size).
+   */
+  private solve(tNew: number, h: number, k: number): 'converged' | 'retry' | 'diverged' | 'non-finite' {
+    const { ctx, D, yNew, psi, d, dy, f, matrix, pivot } = this;
+    const n = ctx.n;
+    const { gamma, alpha } = NDF;
+    const C = NDF_CONTROL;
+    for (let i = 0; i < n; i++) {
+      let pred = 0;
+      let s = 0;
+      for (let j = 0; j <= k; j++) pred += D[j][i];
+      for (let j = 1; j <= k; j++) s += gamma[j] * D[j][i];
+      yNew[i] = pred;
+      psi[i] = s / alpha[k];
+      d[i] = 0;
+    }
+    const c = h / alpha[k];
+    if (c !== this.factoredFor) {
+      for (let i = 0; i < n * n; i++) matrix[i] = -c * this.jac[i];
+      for (let i = 0; i < n; i++) matrix[i * n + i] += 1;
+      ctx.counters.factorizations++;
+      this.factoredFor = luFactor(matrix, n, pivot) ? c : NaN;
+      if (Number.isNaN(this.factoredFor)) return this.refresh() ? 'retry' : 'diverged';
+    }
+    const tol = Math.max(10 * Number.EPSILON / ctx.options.rtol, C.newtonFraction);
+    let previous = NaN;
+    for (let iter = 1; iter <= C.newtonIterations; iter++) {
+      this.iterations = iter;
+      if (!ctx.rhs.call(tNew, yNew, f)) {
+        this.mark.set(ctx, tNew, this.y, yNew, f);
+        return 'non-finite';
+      }
+      for (let i = 0; i < n; i++) dy[i] = c * f[i] - psi[i] - d[i];
+      luSolve(matrix, n, pivot, dy);
+      const size = this.scaledError(dy, 1, yNew);
+      if (!Number.isFinite(size)) return this.refresh() ? 'retry' : 'diverged';
+      // The contraction rate: measured from the second iteration on; for the first, the last
+      // step's, damped (Hairer & Wanner II, sec. IV.8, as in their RADAU5).
+      const rate = iter === 1 ? Math.pow(Math.max(this.lastRate, Number.EPSILON), 0.8) : size / previous;
+      if (iter > 1 && (rate >= 1 || (Math.pow(rate, C.newtonIterations - iter) / (1 - rate)) * size > tol)) {
+        return this.refresh() ? 'retry' : 'diverged';
+      }
+      for (let i = 0; i < n; i++) {
+        yNew[i] += dy[i];
+        d[i] += dy[i];
+      }
+      if (iter > 1) this.lastRate = rate;
+      if (size === 0 || (rate < 1 && (rate / (1 - rate)) * size < tol)) return 'converged';
+      previous = size;
+    }
+    return this.refresh() ? 'retry' : 'diverged';
+  }
+
+  /** Forms J afresh at the accepted state when it is old; false when it was fresh (or f failed). */
+  private refresh(): boolean {
+    if (this.jacFresh) return false;
+    const { ctx, y, f } = this;
+    if (!ctx.rhs.call(this.t, y, f)) return false;
+    if (formJacobian(ctx, this.t, y, f, this.jac, this.probe, this.dy, this.jacobian)) return false;
+    this.jacFresh = true;
+    this.factoredFor = NaN;
+    return true;
+  }
+
+  /** Error norm of w·v scaled by the tolerances at the accepted state and yNew (or `at`). */
+  private scaledError(v: Float64Array, w: number, at: Float64Array = this.yNew): number {
+    const dy = this.probe;
+    for (let i = 0; i < v.length; i++) dy[i] = w * v[i];
+    return errorNorm(dy, this.y, at, this.ctx.options);
+  }
+
+  /**
+   * After k+1 steps at one size and order: the error the orders k-1 and k+1 would have made
+   * (from ∇^k and ∇^{k+2}) against this step's, and the order that allows the longest next
+   * step (Shampine & Reichelt 1997, sec. 2.3).
+   */
+  private chooseOrder(norm: number, safety: number): void {
+    const k = this.order;
+    const { D } = this;
+    const { errorConst } = NDF;
+    const C = NDF_CONTROL;
+    const lower = k > 1 ? this.scaledError(D[k], errorConst[k - 1], this.y) : Infinity;
+    const higher = k < NDF_MAX_ORDER ? this.scaledError(D[k + 2], errorConst[k + 1], this.y) : Infinity;
+    const factors = [lower ** (-1 / k), norm ** (-1 / (k + 1)), higher ** (-1 / (k + 2))];
+    let best = 1;
+    for (let i = 0; i < 3; i++) if (!(factors[i] <= factors[best])) best = i;
+    this.order = k + best - 1;
+    const factor = Math.min(C.maxFactor, safety * factors[best]);
+    this.resize(this.h * factor);
+  }
+
+  private collapse(): StepOutcome {
+    const { ctx, y, f } = this;
+    if (!ctx.rhs.call(this.t, y, f)) return failure(nonFiniteStatus(ctx, y, y, f), this.t, y);
+    return collapseFailure(ctx, this.t, y, f, this.mark);
+  }
+
+  private segment(t0: number, t1: number, h: number, k: number, y0: Float64Array): NdfSegment {
+    const n = this.ctx.n;
+    const data = new Float64Array((k + 2) * n);
+    data.set(y0, 0);
+    data.set(this.yNew, n);
+    for (let j = 1; j <= k; j++) data.set(this.D[j], (j + 1) * n);
+    return new NdfSegment(t0, t1, h, n, k, data);
+  }
+}
