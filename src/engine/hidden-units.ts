@@ -84,12 +84,18 @@ export function unitHints(node: GraphNode, graph: Graph, describe: (definer: Gra
   return new Map([...hints].map(([path, list]) => [path, list.join('; ')]));
 }
 
-/** `outcome` with its error explained when it lies on a field `hints` explains. */
+/**
+ * `outcome` with its error explained when it lies on a field `hints` explains, and is not about
+ * a value that is infinite or not a number (a division by zero is no matter of units).
+ */
 export function withUnitHint(outcome: Outcome, hints: ReadonlyMap<string, string>): Outcome {
-  if (outcome.ok) return outcome;
+  if (outcome.ok || NOT_FINITE.test(outcome.error.message)) return outcome;
   const hint = hints.get(outcome.error.path);
   return hint ? { ...outcome, error: { ...outcome.error, message: `${outcome.error.message} (${hint})` } } : outcome;
 }
+
+/** The words of `finite()` in cells/fields.ts. */
+const NOT_FINITE = / (is infinite|is not a number) \(/;
 
 /** "for hours write hour", or undefined when the unit has no other spelling. */
 function spellingAdvice(name: string): string | undefined {

@@ -233,6 +233,16 @@ describe('warnings only where they matter', () => {
     assert.match(bad.message, /here C is coulombs, not the state defined at cells\[0\]\.state: a state is read only in rate laws and event amounts/);
   });
 
+  it('an error that is no matter of units (a division by zero) gets no hint', () => {
+    const report = reportOf([
+      { id: 'p', kind: 'parameters', items: [{ name: 'V', value: '0 L' }, { name: 'C0', value: '500 mg / V' }] },
+    ]);
+    const p = cell(report, 'p');
+    assert.equal(p.error?.path, 'cells[0].items[1].value');
+    assert.match(p.error!.message, /is infinite/);
+    assert.ok(!p.error!.message.includes('here V'), p.error!.message);
+  });
+
   it('a parameter L (a pipe length) hides litres everywhere, with a warning; liter still means litres', () => {
     const report = reportOf([
       { id: 'p', kind: 'parameters', title: 'Pipe', items: [{ name: 'L', value: '2 m' }, { name: 'stretch', value: '3 L' }, { name: 'vol', value: '3 liter' }] },
