@@ -4,24 +4,14 @@
 // a name say so, with the unit's other spelling.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { runStudy, openStudy, type CellReport, type Report } from '../../src/index.ts';
+import { openStudy, type CellReport, type Report } from '../../src/index.ts';
 import { otherSpelling } from '../../src/units/spellings.ts';
 import { isCommonUnit } from '../../src/units/common.ts';
-import { near } from './helpers.ts';
+import { near, reportOf as studyReport, cell } from './helpers.ts';
 
 type Q = { value: number; unit: string; si: number };
 
-function reportOf(cells: unknown[]): Report {
-  const r = runStudy({ format: 'ratebook-study', version: 1, title: 'names and units', cells });
-  assert.ok(r.ok, r.ok ? '' : r.error.message);
-  return r.report;
-}
-
-function cell(report: Report, id: string): CellReport {
-  const c = report.cells.find((x) => x.id === id);
-  assert.ok(c, `no cell ${id}`);
-  return c;
-}
+const reportOf = (cells: unknown[]): Report => studyReport({ format: 'ratebook-study', version: 1, title: 'names and units', cells });
 
 const values = (c: CellReport) => c.values as Record<string, Q>;
 const results = (c: CellReport) => c.results as Record<string, Q>;

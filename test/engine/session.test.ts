@@ -1,9 +1,9 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
-import { openStudy, runStudy, type CellReport, type Report, type StudySession } from '../../src/index.ts';
+import { openStudy, runStudy, type Report, type StudySession } from '../../src/index.ts';
 import { migrate } from '../../src/study/migrate.ts';
-import { near } from './helpers.ts';
+import { near, reportOf, cell } from './helpers.ts';
 
 const example = (name: string) => JSON.parse(readFileSync(new URL(`../../examples/${name}`, import.meta.url), 'utf8'));
 
@@ -11,17 +11,6 @@ function study(cells: unknown[]) {
   return { format: 'ratebook-study', version: 1, title: 'test', cells };
 }
 
-function reportOf(doc: unknown): Report {
-  const r = runStudy(doc);
-  assert.ok(r.ok, r.ok ? '' : r.error.message);
-  return r.report;
-}
-
-function cell(report: Report, id: string): CellReport {
-  const c = report.cells.find((x) => x.id === id);
-  assert.ok(c, `no cell ${id}`);
-  return c;
-}
 
 function values(report: Report, id: string): Record<string, { value: number; unit: string; si: number }> {
   return cell(report, id).values as Record<string, { value: number; unit: string; si: number }>;
