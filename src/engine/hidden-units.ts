@@ -8,7 +8,7 @@
  * unit is one these trades write, and the hiding applies); and a hint added to an error on a
  * field that reads such a name, with the unit's other spelling ("for hours write hour").
  */
-import type { Definition, GraphNode, Outcome, Use } from './node.ts';
+import type { Definition, GraphNode, Outcome, ProblemKind, Use } from './node.ts';
 import type { Graph } from './graph.ts';
 import { lookupUnit } from '../units/units.ts';
 import { isCommonUnit } from '../units/common.ts';
@@ -85,17 +85,18 @@ export function unitHints(node: GraphNode, graph: Graph, describe: (definer: Gra
 }
 
 /**
- * `outcome` with its error explained when it lies on a field `hints` explains, and is not about
- * a value that is infinite or not a number (a division by zero is no matter of units).
+ * `outcome` with its error explained when it lies on a field `hints` explains and is a unit
+ * error or an invalid value: not a value that is infinite (a division by zero is no matter of
+ * units), nor an input that failed upstream.
  */
 export function withUnitHint(outcome: Outcome, hints: ReadonlyMap<string, string>): Outcome {
-  if (outcome.ok || NOT_FINITE.test(outcome.error.message)) return outcome;
+  if (outcome.ok || !HINTED_KINDS.has(outcome.error.kind)) return outcome;
   const hint = hints.get(outcome.error.path);
   return hint ? { ...outcome, error: { ...outcome.error, message: `${outcome.error.message} (${hint})` } } : outcome;
 }
 
-/** The words of `finite()` in cells/fields.ts. */
-const NOT_FINITE = / (is infinite|is not a number) \(/;
+/** The kinds of error a name read as the wrong thing can cause. */
+const HINTED_KINDS: ReadonlySet<ProblemKind> = new Set(['unit', 'invalid']);
 
 /** "for hours write hour", or undefined when the unit has no other spelling. */
 function spellingAdvice(name: string): string | undefined {
