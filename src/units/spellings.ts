@@ -29,12 +29,8 @@ const cache = new Map<string, Spelling | null>();
  * spelling of it (Pa, bar, degF). Cost: a scan of the unit table on the first call per name.
  */
 export function otherSpelling(name: string): Spelling | undefined {
-  let s = cache.get(name);
-  if (s === undefined) {
-    s = find(name);
-    cache.set(name, s);
-  }
-  return s ?? undefined;
+  if (!cache.has(name)) cache.set(name, find(name));
+  return cache.get(name) ?? undefined;
 }
 
 function find(name: string): Spelling | null {
