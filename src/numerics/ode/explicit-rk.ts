@@ -48,6 +48,31 @@ export class RkWork {
 }
 
 /**
+ * Evaluates stages `from` … `to - 1` of the rows (c, a) from (t, y) with step h: k[i] =
+ * f(t + c_i h, y + h Σ_{j<i} a_ij k_j), the earlier k already in `work.k`. Stages with c_i = 1
+ * are evaluated at `tNew`. Returns -1 on success, else the index of the first stage whose f
+ * was not finite (its state is then in `work.arg`, its rate in `work.k[index]`). Costs
+ * to - from evaluations.
+ */
+export function rkStages(
+  c: readonly number[], a: readonly (readonly number[])[], from: number, to: number,
+  rhs: Evaluator, t: number, y: Float64Array, h: number, work: RkWork, tNew: number,
+): number {
+  const n = y.length;
+  const { k, arg } = work;
+  for (let i = from; i < to; i++) {
+    const row = a[i];
+    for (let m = 0; m < n; m++) {
+      let acc = 0;
+      for (let j = 0; j < i; j++) acc += row[j] * k[j][m];
+      arg[m] = y[m] + h * acc;
+    }
+    if (!rhs.call(c[i] === 1 ? tNew : t + c[i] * h, arg, k[i])) return i;
+  }
+  return -1;
+}
+
+/**
  * One step of size h from (t, y). `work.k[0]` must already hold f(t, y). Writes the new
  * solution into `yNew`; for an FSAL tableau the last stage (f at t + h, yNew) is evaluated
  * too. Returns -1 on success, else the index of the first stage whose f was not finite
@@ -59,24 +84,16 @@ export function rkStep(
   tab: ButcherTableau, rhs: Evaluator, t: number, y: Float64Array, h: number, work: RkWork, yNew: Float64Array,
   tNew = t + h,
 ): number {
-  const { c, a } = tab;
-  const s = c.length;
-  const n = y.length;
-  const { k, arg } = work;
-  for (let i = 1; i < s; i++) {
-    const row = a[i];
-    for (let m = 0; m < n; m++) {
-      let acc = 0;
-      for (let j = 0; j < i; j++) acc += row[j] * k[j][m];
-      arg[m] = y[m] + h * acc;
-    }
-    if (!rhs.call(c[i] === 1 ? tNew : t + c[i] * h, arg, k[i])) return i;
-  }
+  const s = tab.c.length;
+  const bad = rkStages(tab.c, tab.a, 1, s, rhs, t, y, h, work, tNew);
+  if (bad >= 0) return bad;
   if (tab.fsal) {
-    yNew.set(arg);
+    yNew.set(work.arg);
     return -1;
   }
-  const b = tab.b;
+  const { b } = tab;
+  const { k } = work;
+  const n = y.length;
   for (let m = 0; m < n; m++) {
     let acc = 0;
     for (let j = 0; j < s; j++) acc += b[j] * k[j][m];
