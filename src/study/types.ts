@@ -33,7 +33,7 @@ export interface PhaseCell extends CellBase {
   sweep?: { name: string; from: string; to: string; steps: number };
 }
 
-export const METHODS = ['auto', 'dopri5', 'stiff', 'rk4', 'heun', 'euler'] as const;
+export const METHODS = ['auto', 'dopri5', 'stiff', 'rk4', 'heun', 'euler', 'dp853'] as const;
 export type Method = (typeof METHODS)[number];
 
 export interface ScheduleEvent {
