@@ -17,7 +17,7 @@
  */
 import { type OdeContext, errorNorm } from './control.ts';
 import { type EmbeddedPair, EmbeddedRkStepper } from './embedded-rk.ts';
-import type { ButcherTableau } from './explicit-rk.ts';
+import { type ButcherTableau, stageValuesOnMode } from './explicit-rk.ts';
 import type { DenseSegment } from './types.ts';
 import { writeStepEnd } from './types.ts';
 
@@ -102,16 +102,8 @@ export const DOPRI5_STIFFNESS = {
  * stage values K_i(z) of the method (their Taylor series starts at z^5).
  */
 export function dopri5ErrorOnMode(z: number): number {
-  const { a } = DOPRI5;
-  const K: number[] = [];
-  let err = 0;
-  for (let i = 0; i < 7; i++) {
-    let v = 1;
-    for (let j = 0; j < i; j++) v += z * a[i][j] * K[j];
-    K.push(v);
-    err += DOPRI5_E[i] * v;
-  }
-  return Math.abs(z * err);
+  const K = stageValuesOnMode(DOPRI5.a, 7, z);
+  return Math.abs(z * K.reduce((acc, v, i) => acc + DOPRI5_E[i] * v, 0));
 }
 
 /** The leading coefficient C of the estimate on a mode, |E(z)| ≈ C·|z|^5 for small z. */

@@ -19,6 +19,7 @@
 import { type OdeContext } from './control.ts';
 import { DP853, DP853_A, DP853_C, DP853_DENSE, DP853_E3, DP853_E5 } from './dp853-tableau.ts';
 import { type EmbeddedPair, type StepControl, EmbeddedRkStepper } from './embedded-rk.ts';
+import { stageValuesOnMode } from './explicit-rk.ts';
 import { type DenseSegment, writeStepEnd } from './types.ts';
 
 /** Step-size factor constants (Hairer, Nørsett & Wanner I, sec. II.4–II.5, for this method). */
@@ -54,16 +55,13 @@ export const DP853_STIFFNESS = {
  * Grows like |z|^8 for small z.
  */
 export function dp853ErrorOnMode(z: number): number {
-  const K: number[] = [];
+  const K = stageValuesOnMode(DP853_A, 12, z);
   let e5 = 0;
   let e3 = 0;
-  for (let i = 0; i < 12; i++) {
-    let v = 1;
-    for (let j = 0; j < i; j++) v += z * DP853_A[i][j] * K[j];
-    K.push(v);
+  K.forEach((v, i) => {
     e5 += DP853_E5[i] * v;
     e3 += DP853_E3[i] * v;
-  }
+  });
   e5 *= z;
   e3 *= z;
   const den = Math.sqrt(e5 * e5 + 0.01 * e3 * e3);

@@ -37,6 +37,20 @@ export const RK4: ButcherTableau = {
   fsal: false,
 };
 
+/**
+ * The stage values K_i(z) of the rows `a` (first `stages` of them) on y' = λy from y = 1 with
+ * z = hλ real: K_i = 1 + z Σ_{j<i} a_ij K_j. For stability and error-on-a-mode analyses.
+ */
+export function stageValuesOnMode(a: readonly (readonly number[])[], stages: number, z: number): number[] {
+  const K: number[] = [];
+  for (let i = 0; i < stages; i++) {
+    let v = 1;
+    for (let j = 0; j < i; j++) v += z * a[i][j] * K[j];
+    K.push(v);
+  }
+  return K;
+}
+
 /** Work arrays for `rkStep`: the stage derivatives k[i] and the current stage argument. */
 export class RkWork {
   readonly k: Float64Array[];
