@@ -18,6 +18,7 @@ import { odeBench, stiffBench } from './ode.ts';
 import { REFERENCE_VERSION, workPrecisionBench } from './work-precision.ts';
 import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
+import { whatIfBenchmarks } from './what-if.ts';
 import { fitBenchmarks } from './fit.ts';
 import { ncaBenchmarks } from './nca.ts';
 
@@ -328,6 +329,14 @@ function simulateRows(): Row[] {
   }));
 }
 
+function whatIfRows(): Row[] {
+  return whatIfBenchmarks().map((r) => ({
+    measure: r.name,
+    result: r.unit === 'ms' ? ms(r.value) : `${r.value.toFixed(2)}x`,
+    ...(Number.isNaN(r.goal) ? {} : { goal: r.unit === 'ms' ? `< ${ms(r.goal)}` : `<= ${r.goal}x`, met: r.value <= r.goal }),
+  }));
+}
+
 function fitRows(): Row[] {
   return [
     ...fitBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
@@ -348,6 +357,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Stiff method on y\' = -1e4 (y - cos t) against LSODA', run: stiffRows },
   { title: 'ODE work-precision: auto against SciPy solve_ivp at equal accuracy', run: workPrecisionRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
+  { title: 'What-if runs of a dosing schedule', run: whatIfRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },
 ];

@@ -12,7 +12,8 @@ export interface SimulateRow {
   readonly steps: number;
 }
 
-const STUDY = {
+/** One compartment, IV bolus every 8 h six times, four questions (also the what-if benchmark's study). */
+export const SIX_DOSES = {
   format: 'ratebook-study', version: 1, title: 'bench: six doses',
   cells: [
     { id: 'p', kind: 'parameters', items: [{ name: 'dose', value: '500 mg' }, { name: 'V', value: '30 L' }, { name: 'k', value: '0.1 / h' }, { name: 'MIC', value: '4 mg / L' }] },
@@ -29,10 +30,10 @@ const STUDY = {
 };
 
 export function simulateBenchmarks(repeats = 2000): SimulateRow[] {
-  const opened = openStudy(STUDY);
+  const opened = openStudy(SIX_DOSES);
   if (!opened.ok) throw new Error(opened.error.message);
   const s = opened.session;
-  const cell = structuredClone(STUDY.cells[2]) as { to: string };
+  const cell = structuredClone(SIX_DOSES.cells[2]) as { to: string };
   const times: number[] = [];
   let steps = 0;
   for (let i = 0; i < repeats + 200; i++) {

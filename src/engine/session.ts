@@ -11,22 +11,22 @@ import { readStudy, checkCell, type Problem } from '../study/validate.ts';
 import { applyEdit, type Edit } from '../study/edit.ts';
 import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.ts';
 import { buildCellNodes, resolvePath, CELL_PATH } from '../cells/index.ts';
-import { buildGraph, type Graph } from './graph.ts';
+import { buildGraph, upstreamOf, type Graph } from './graph.ts';
+import { prepareWhatIf, type Replacement, type Unavailable, type WhatIfPrepared } from './what-if.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
-import type { SimulationPlot } from '../simulate/plot-data.ts';
-import { unitFromText, shownIn } from '../expression/unit-text.ts';
+import { glanceOf } from '../output/glance.ts';
+import { cellTex, studySymbols } from '../output/sheet-tex.ts';
 
-/** A name that cannot be read: its definer failed or computed nothing. */
-interface Unavailable {
-  readonly kind: 'unavailable';
-  readonly cell: string;
-  readonly reason: string;
-  readonly sig: string;
-}
 type Slot = Binding | Unavailable;
 
+/** The binding in a slot; undefined when its name is unavailable. */
+function bound(slot: Slot | undefined): Binding | undefined {
+  return slot && slot.kind !== 'unavailable' ? slot : undefined;
+}
+
 export type { Edit } from '../study/edit.ts';
+export type { Replacement, WhatIfPrepared } from './what-if.ts';
 
 export type EditResult =
   | { readonly ok: true; readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report }
@@ -49,7 +49,7 @@ export function openStudy(input: unknown, options: SessionOptions = {}): OpenRes
 export class StudySession {
   private cells: Cell[];
   private title: string;
-  private readonly description?: string;
+  private description?: string;
   private author?: string;
   private readonly cellProblems = new Map<string, readonly Problem[]>();
   private readonly notes: readonly string[];
@@ -58,7 +58,8 @@ export class StudySession {
   private readonly outcomes = new Map<string, Outcome>();
   private readonly staticSigs = new Map<string, string>();
   private readonly slots = new Map<string, Slot>();
-  private readonly reports = new Map<string, CellReport>();
+  /** Each cell's last report, with the position it was made at. */
+  private readonly reports = new Map<string, { index: number; report: CellReport }>();
   private lastReport!: Report;
 
   constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check') {
@@ -97,12 +98,24 @@ export class StudySession {
   }
 
   private applyToCells(edit: Edit): Problem | undefined {
-    const out = applyEdit({ format: 'ratebook-study', version: 1, title: this.title, ...(this.author !== undefined ? { author: this.author } : {}), cells: this.cells }, edit);
+    const out = applyEdit({
+      format: 'ratebook-study', version: 1, title: this.title,
+      ...(this.description !== undefined ? { description: this.description } : {}),
+      ...(this.author !== undefined ? { author: this.author } : {}),
+      cells: this.cells,
+    }, edit);
     if (!out.ok) return out.error;
     this.positions = undefined;
     this.cells = out.study.cells;
     this.title = out.study.title;
+    this.description = out.study.description;
     this.author = out.study.author;
+    // a whole document brings the problems of all its cells; the cells it leaves unchanged
+    // keep their nodes, so only what differs re-runs
+    if (out.problems) {
+      this.cellProblems.clear();
+      for (const [id, p] of out.problems) this.cellProblems.set(id, p);
+    }
     const live = new Set(this.cells.map((c) => c.id));
     for (const id of [...this.cellProblems.keys()]) if (!live.has(id)) this.cellProblems.delete(id);
     if (out.written) {
@@ -114,7 +127,6 @@ export class StudySession {
   }
 
   private positions?: Map<string, number>;
-  private lastFitIds = '';
 
   /** A cell's position; -1 when absent. Cost: O(1) after the first call since the last edit. */
   private indexOf(id: string): number {
@@ -145,7 +157,7 @@ export class StudySession {
   private withShapeProblems(cell: Cell, nodes: GraphNode[]): GraphNode[] {
     const problems = this.cellProblems.get(cell.id);
     if (!problems?.length) return nodes;
-    const errors: CellError[] = problems.map((p) => ({ message: p.message, path: p.path.replace(/^cells\[\d+\]/, CELL_PATH) }));
+    const errors: CellError[] = problems.map((p) => ({ kind: 'shape', message: p.message, path: p.path.replace(/^cells\[\d+\]/, CELL_PATH) }));
     if (nodes.length === 0) {
       return [{ key: `${cell.id}/shape`, cell: cell.id, defines: [], uses: [], allowsTime: false, allowsStates: false, signature: JSON.stringify(errors), problems: errors, run: () => ({ ok: true, bindings: new Map(), output: {} }) }];
     }
@@ -205,28 +217,33 @@ export class StudySession {
     }
 
     const changed: string[] = [];
-    const cellReports: CellReport[] = [];
-    // a simulation's plot shows the measurements fits made of its states
-    const fitIds = this.cells.filter((c) => c.kind === 'fit').map((c) => c.id).join(',');
-    const fitsReran = fitIds !== this.lastFitIds || this.cells.some((c) => c.kind === 'fit' && rerunCells.has(c.id));
-    this.lastFitIds = fitIds;
+    const reports: CellReport[] = [];
+    // the TeX the printed sheet typesets, made here (in the app: in the engine's worker); made
+    // for every cell on each evaluation, as the names of the whole study decide how a symbol is set
+    const symbols = studySymbols({ cells: this.cells });
     for (const cell of this.cells) {
-      let r = this.reports.get(cell.id);
-      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== this.indexOf(cell.id) || (fitsReran && cell.kind === 'simulate')) {
-        const fresh = this.cellReport(cell);
-        if (!r || !deepEqual(r, fresh)) changed.push(cell.id);
-        r = fresh;
+      const old = this.reports.get(cell.id);
+      let r = old;
+      const index = this.indexOf(cell.id);
+      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index) r = { index, report: this.cellReport(cell, index) };
+      const tex = cellTex(cell, symbols);
+      if (!deepEqual(r.report.tex, tex)) {
+        const { tex: _old, ...rest } = r.report;
+        r = { index, report: (tex === undefined ? rest : { ...rest, tex }) as CellReport };
+      }
+      if (r !== old) {
+        if (!old || !deepEqual(old.report, r.report)) changed.push(cell.id);
         this.reports.set(cell.id, r);
       }
-      cellReports.push(r);
+      reports.push(r.report);
     }
     for (const id of [...this.reports.keys()]) if (this.indexOf(id) < 0) this.reports.delete(id);
-    const reports = cellReports.map(({ index: _index, ...rest }) => rest as CellReport);
     this.lastReport = {
       title: this.title,
       ok: reports.every((c) => c.ok),
       warnings: [...this.notes, ...this.graph.warnings],
       cautions: cautionsFor(this.cells),
+      glance: glanceOf(this.cells, reports),
       cells: reports,
     };
     return { rerun: this.cells.filter((c) => rerunCells.has(c.id)).map((c) => c.id), changed };
@@ -235,66 +252,52 @@ export class StudySession {
   private runNode(node: GraphNode, problem: CellError | undefined): Outcome {
     if (problem) return { ok: false, error: problem };
     const sources = this.graph.sources.get(node.key)!;
-    for (const use of node.uses) {
-      const src = sources.get(use.name);
-      if (!src || !('node' in src)) continue;
-      const slot = this.slots.get(use.name);
-      if (!slot || slot.kind === 'unavailable') {
-        const reason = slot?.reason ?? 'it has not been computed';
-        // a reason that already names the same cell (a node waiting on a node of its own cell) is not named twice
-        const waits = `waits on cell "${slot?.cell ?? this.graph.nodes.get(src.node)?.cell}": `;
-        return { ok: false, error: { message: reason.startsWith(waits) ? reason : `${waits}${reason}`, path: use.path } };
-      }
-    }
+    const waiting = waitingOn(this.graph, node, (name) => this.slots.get(name));
+    if (waiting) return { ok: false, error: waiting };
     const ctx: RunContext = {
       mode: this.mode,
-      binding: (name) => {
-        if (!sources.has(name)) return undefined;
-        const slot = this.slots.get(name);
-        return slot && slot.kind !== 'unavailable' ? slot : undefined;
-      },
+      binding: (name) => (sources.has(name) ? bound(this.slots.get(name)) : undefined),
+      bindingsOf: (kind) => [...sources.keys()].flatMap((name) => {
+        const b = bound(this.slots.get(name));
+        return b?.kind === kind ? [b as Extract<Binding, { kind: typeof kind }>] : [];
+      }),
       upstream: (name) => this.upstream(name),
     };
     try {
       return node.run(ctx);
     } catch (err) {
-      return { ok: false, error: { message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? CELL_PATH } };
+      return internalError(node, err);
     }
+  }
+
+  /**
+   * A what-if evaluator over the study as it stands now (`engine/what-if.ts`): the `wanted`
+   * names computed with the `replaced` parameters and states' initial values given new SI
+   * values, re-running only the nodes between them, never touching this session. Planned
+   * once here; each call of its `evaluate` only runs those nodes. It keeps answering for the
+   * study as it was when prepared: prepare again after an edit. Never throws.
+   */
+  whatIf(wanted: readonly string[], replaced: readonly Replacement[]): WhatIfPrepared {
+    const graph = this.graph;
+    const index = new Map(this.cells.map((c, i) => [c.id, i]));
+    const kinds = new Map(this.cells.map((c) => [c.id, c.kind]));
+    return prepareWhatIf({
+      graph,
+      slot: (name) => this.slots.get(name),
+      cellKind: (id) => kinds.get(id),
+      waitingOn: (node, slotOf) => waitingOn(graph, node, slotOf),
+      unavailable: (node, name, outcome) => unavailable(node, name, outcome, index.get(node.cell) ?? -1),
+      internalError,
+    }, wanted, replaced);
   }
 
   /** Names `name` is computed from, following the graph's resolved sources. */
   private upstream(name: string): ReadonlySet<string> {
-    const out = new Set<string>();
-    const queue = [name];
-    while (queue.length) {
-      const key = this.graph.definers.get(queue.pop()!);
-      const sources = key ? this.graph.sources.get(key) : undefined;
-      for (const [n, s] of sources ?? []) {
-        if ('node' in s && !out.has(n)) {
-          out.add(n);
-          queue.push(n);
-        }
-      }
-    }
-    return out;
+    return upstreamOf(this.graph, name);
   }
 
-  /** Every measured series a fit cell observed, in SI, by state. */
-  private measurements(): Array<{ state: string; t: number[]; y: number[] }> {
-    const out: Array<{ state: string; t: number[]; y: number[] }> = [];
-    for (const c of this.cells) {
-      if (c.kind !== 'fit') continue;
-      for (const n of this.built.get(c.id)?.nodes ?? []) {
-        const o = this.outcomes.get(n.key);
-        if (o?.ok && Array.isArray(o.output.observed)) out.push(...(o.output.observed as typeof out));
-      }
-    }
-    return out;
-  }
-
-  private cellReport(cell: Cell): CellReport & { index: number } {
-    const index = this.indexOf(cell.id);
-    const r: CellReport & { index: number } = { index, id: cell.id, kind: cell.kind, ...(typeof cell.title === 'string' ? { title: cell.title } : {}), ok: true };
+  private cellReport(cell: Cell, index: number): CellReport {
+    const r: CellReport = { id: cell.id, kind: cell.kind, ...(typeof cell.title === 'string' ? { title: cell.title } : {}), ok: true };
     const errors: CellError[] = [];
     const waits = new Set<string>();
     const output: Record<string, unknown> = {};
@@ -304,12 +307,10 @@ export class StudySession {
       if (o.output) mergeOutput(output, o.output);
       if (!o.ok) {
         errors.push({ ...o.error, path: resolvePath(o.error.path, index) });
-        const m = /^waits on cell "([^"]+)"/.exec(o.error.message);
-        if (m) waits.add(m[1]);
+        if (o.error.waitsOn !== undefined) waits.add(o.error.waitsOn);
       }
     }
     Object.assign(r, output);
-    if (cell.kind === 'simulate' && output.plot) r.plot = withMeasurements(output.plot as SimulationPlot, this.measurements());
     if (errors.length) {
       r.ok = false;
       r.error = errors[0];
@@ -320,23 +321,45 @@ export class StudySession {
   }
 }
 
-/** A simulation plot with the measurements of its states as points, in the plot's units. */
-function withMeasurements(plot: SimulationPlot, measured: ReadonlyArray<{ state: string; t: number[]; y: number[] }>): SimulationPlot {
-  const timeUnit = unitFromText(plot.timeUnit);
-  if (!timeUnit) return plot;
-  const points = plot.states.flatMap((s) => {
-    const unit = unitFromText(s.unit);
-    if (!unit) return [];
-    return measured.filter((m) => m.state === s.name).map((m) => ({ state: s.name, t: m.t.map((t) => shownIn(t, timeUnit)), values: m.y.map((y) => shownIn(y, unit)) }));
-  });
-  return points.length ? { ...plot, points } : plot;
+/** The error of a node that reads a name whose definer failed or computed nothing; undefined when all its inputs are bound. */
+function waitingOn(graph: Graph, node: GraphNode, slotOf: (name: string) => Slot | undefined): CellError | undefined {
+  const sources = graph.sources.get(node.key)!;
+  for (const use of node.uses) {
+    const src = sources.get(use.name);
+    if (!src || !('node' in src) || src.optional) continue;
+    const slot = slotOf(use.name);
+    if (!bound(slot)) {
+      const unavailable = slot as Unavailable | undefined;
+      return waitsOnCell(unavailable?.cell ?? graph.nodes.get(src.node)!.cell, unavailable, use.path);
+    }
+  }
+  return undefined;
+}
+
+/** What a node that threw is reported as. */
+function internalError(node: GraphNode, err: unknown): Outcome {
+  return { ok: false, error: { kind: 'internal', message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? CELL_PATH } };
 }
 
 function unavailable(node: GraphNode, name: string, outcome: Outcome, index: number): Unavailable {
-  const reason = outcome.ok && outcome.reasons?.has(name) ? outcome.reasons.get(name)! : !outcome.ok
-    ? (outcome.error.message.startsWith('waits on') ? outcome.error.message : `${show(name)} has an error (${resolvePath(outcome.error.path, index)}: ${outcome.error.message})`)
-    : typeof outcome.output.message === 'string' ? outcome.output.message : `${show(name)} was not computed`;
+  if (!outcome.ok) {
+    const { error } = outcome;
+    const reason = error.waitsOn !== undefined ? error.message : `${show(name)} has an error (${resolvePath(error.path, index)}: ${error.message})`;
+    return { kind: 'unavailable', cell: node.cell, reason, ...(error.waitsOn !== undefined ? { waitsOn: error.waitsOn } : {}), sig: `unavailable|${reason}` };
+  }
+  const message = (outcome.output as { message?: unknown }).message;
+  const reason = outcome.reasons?.get(name) ?? (typeof message === 'string' ? message : `${show(name)} was not computed`);
   return { kind: 'unavailable', cell: node.cell, reason, sig: `unavailable|${reason}` };
+}
+
+/**
+ * The error of a node that reads a name of `cell` that is unavailable. A reason that already
+ * waits on that same cell (a node of it waiting on another of its nodes) is not prefixed twice.
+ */
+function waitsOnCell(cell: string, slot: Unavailable | undefined, path: string): CellError {
+  const reason = slot?.reason ?? 'it has not been computed';
+  const message = slot?.waitsOn === cell ? reason : `waits on cell "${cell}": ${reason}`;
+  return { kind: 'waits', waitsOn: cell, message, path };
 }
 
 /** Structural equality of plain JSON-like values (reports): cheaper than comparing their JSON. */

@@ -6,6 +6,7 @@
  */
 import { brentRoot, brentMinimize } from '../numerics/brent.ts';
 import { type Trajectory, type Piece, evalPiece, pieceAt, valueAt } from './trajectory.ts';
+import type { DenseSegment } from '../numerics/ode/types.ts';
 
 
 /** Samples per dense segment when looking for sign changes and extremes. */
@@ -35,23 +36,27 @@ function component(p: Piece, i: number, width: number) {
   return (t: number) => { evalPiece(p, t, out); return out[i]; };
 }
 
+/**
+ * Writes piece p at t into out, on segment s directly when t lies in [s.t0, s.t1) strictly
+ * inside the piece (s is then the segment `evalPiece` would find), else through `evalPiece`:
+ * the same value without the search, for samples taken segment by segment.
+ */
+function sampleOn(p: Piece, s: DenseSegment, t: number, out: Float64Array): void {
+  if (t >= s.t0 && t < s.t1 && t > p.t0 && t < p.t1) s.eval(t, out);
+  else evalPiece(p, t, out);
+}
+
+// The two scans below keep their running state in plain locals (no closures over numbers,
+// no small objects per sample): they run for every question of every run, and a what-if
+// loop runs thousands of those.
+
 /** Every crossing of `level` by component i within [from, to], in time order. */
 export function crossings(tr: Trajectory, i: number, level: number, from = tr.t0, to = tr.t1): Crossing[] {
   const found: Crossing[] = [];
+  const out = new Float64Array(tr.width);
+  // the sign of the last sample off the level, and its time
   let lastSign = 0;
   let lastT = from;
-  const note = (t: number, v: number, g: (t: number) => number, prevT: number, jump: boolean) => {
-    const s = v > level ? 1 : v < level ? -1 : 0;
-    if (s !== 0 && lastSign !== 0 && s !== lastSign) {
-      let at = t;
-      if (!jump && g) {
-        const r = brentRoot((x) => g(x) - level, prevT, t, { xtol: 0, rtol: 4 * Number.EPSILON });
-        at = r.root;
-      }
-      found.push({ t: at, direction: s > 0 ? 'up' : 'down', jump });
-    }
-    if (s !== 0) { lastSign = s; lastT = t; }
-  };
   // an action at the run's start (a first dose at t0) is a jump from the state before it
   if (from <= tr.t0) lastSign = Math.sign(tr.start[i] - level);
   for (let k = 0; k < tr.pieces.length; k++) {
@@ -60,16 +65,33 @@ export function crossings(tr: Trajectory, i: number, level: number, from = tr.t0
     const g = component(p, i, tr.width);
     const a = Math.max(p.t0, from), b = Math.min(p.t1, to);
     // the value at the piece start: after a jump, if the piece starts inside the window
-    note(a, g(a), g, lastT, p.t0 >= from && p.t0 === a && lastSign !== 0);
-    const ts: number[] = [];
+    const jump = p.t0 >= from && p.t0 === a && lastSign !== 0;
+    const s0 = signAgainst(g(a), level);
+    if (s0 !== 0 && lastSign !== 0 && s0 !== lastSign) found.push(crossingIn(g, level, lastT, a, s0, jump));
+    if (s0 !== 0) { lastSign = s0; lastT = a; }
     for (const s of p.segments) {
       if (s.t1 <= a || s.t0 >= b) continue;
       const lo = Math.max(s.t0, a), hi = Math.min(s.t1, b);
-      for (let j = 1; j <= SAMPLES; j++) ts.push(lo + ((hi - lo) * j) / SAMPLES);
+      for (let j = 1; j <= SAMPLES; j++) {
+        const t = lo + ((hi - lo) * j) / SAMPLES;
+        sampleOn(p, s, t, out);
+        const sj = signAgainst(out[i], level);
+        if (sj !== 0 && lastSign !== 0 && sj !== lastSign) found.push(crossingIn(g, level, lastT, t, sj, false));
+        if (sj !== 0) { lastSign = sj; lastT = t; }
+      }
     }
-    for (const t of ts) note(t, g(t), g, lastT, false);
   }
   return found;
+}
+
+function signAgainst(v: number, level: number): number {
+  return v > level ? 1 : v < level ? -1 : 0;
+}
+
+/** The crossing between the samples at `before` and `t` (at `t` itself for a jump). */
+function crossingIn(g: (t: number) => number, level: number, before: number, t: number, sign: number, jump: boolean): Crossing {
+  const at = jump ? t : brentRoot((x) => g(x) - level, before, t, { xtol: 0, rtol: 4 * Number.EPSILON }).root;
+  return { t: at, direction: sign > 0 ? 'up' : 'down', jump };
 }
 
 export interface Extreme {
@@ -79,35 +101,36 @@ export interface Extreme {
 
 /** The largest (sign 1) or smallest (sign -1) value of component i over [from, to]. */
 export function extreme(tr: Trajectory, i: number, sign: 1 | -1, from = tr.t0, to = tr.t1): Extreme | undefined {
-  let best: Extreme | undefined;
-  const consider = (t: number, v: number) => {
-    if (Number.isFinite(v) && (!best || sign * v > sign * best.value)) best = { t, value: v };
-  };
+  // the best value so far (none while bestT is NaN)
+  let bestT = NaN, bestValue = NaN;
+  const out = new Float64Array(tr.width);
   for (let k = 0; k < tr.pieces.length; k++) {
     const p = tr.pieces[k];
     if (!inWindow(tr, k, from, to)) continue;
     const g = component(p, i, tr.width);
     const a = Math.max(p.t0, from), b = Math.min(p.t1, to);
-    consider(a, g(a));
-    consider(b, g(b));
+    for (const t of [a, b]) {
+      const v = g(t);
+      if (Number.isFinite(v) && (Number.isNaN(bestT) || sign * v > sign * bestValue)) { bestT = t; bestValue = v; }
+    }
     for (const s of p.segments) {
       if (s.t1 <= a || s.t0 >= b) continue;
       const lo = Math.max(s.t0, a), hi = Math.min(s.t1, b);
       const h = (hi - lo) / SAMPLES;
       let bestJ = 0, bestV = -Infinity;
       for (let j = 0; j <= SAMPLES; j++) {
-        const v = sign * g(lo + j * h);
+        sampleOn(p, s, lo + j * h, out);
+        const v = sign * out[i];
         if (v > bestV) { bestV = v; bestJ = j; }
       }
-      if (bestJ > 0 && bestJ < SAMPLES) {
-        const m = brentMinimize((t) => -sign * g(t), lo + (bestJ - 1) * h, lo + (bestJ + 1) * h, { xtol: 0, rtol: 1e-12 });
-        consider(m.x, g(m.x));
-      } else {
-        consider(lo + bestJ * h, g(lo + bestJ * h));
-      }
+      const t = bestJ > 0 && bestJ < SAMPLES
+        ? brentMinimize((x) => -sign * g(x), lo + (bestJ - 1) * h, lo + (bestJ + 1) * h, { xtol: 0, rtol: 1e-12 }).x
+        : lo + bestJ * h;
+      const v = g(t);
+      if (Number.isFinite(v) && (Number.isNaN(bestT) || sign * v > sign * bestValue)) { bestT = t; bestValue = v; }
     }
   }
-  return best;
+  return Number.isNaN(bestT) ? undefined : { t: bestT, value: bestValue };
 }
 
 /** Component i at time t (the value after any action at t, but at the run's end). */

@@ -63,9 +63,13 @@ export function expandSchedule(events: readonly ScheduledEvent[], from: number, 
   return actions;
 }
 
-/** The distinct action times strictly inside (from, to): where integration must stop. */
-export function breakpoints(actions: readonly Action[], from: number, to: number): number[] {
-  const out: number[] = [];
-  for (const a of actions) if (a.time > from && a.time < to && out[out.length - 1] !== a.time) out.push(a.time);
-  return out;
+/**
+ * How many times each event acts within the run, by event index (`events` entries): the
+ * distinct repetitions that made an action (an infusion counts by its starts). An `add` before
+ * the run is not counted; a `set` before it is, as it applies from the start. Cost: linear.
+ */
+export function timesInRun(actions: readonly Action[], events: number): number[] {
+  const seen = Array.from({ length: events }, () => new Set<number>());
+  for (const a of actions) if (a.kind !== 'infuse-stop') seen[a.event]?.add(a.repeat);
+  return seen.map((s) => s.size);
 }

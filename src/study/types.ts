@@ -2,6 +2,7 @@
  * The study document, version 1, as fixed by the study-format contract. Fields hold the
  * user's text (expressions are strings); nothing here is evaluated.
  */
+import { METHODS, type Method } from '../numerics/ode/integrate.ts';
 export const FORMAT = 'ratebook-study';
 export const CURRENT_VERSION = 1;
 
@@ -21,6 +22,8 @@ export interface ParameterItem {
   note?: string;
   /** The unit to show the value in (optional; the unit written in `value` otherwise). */
   unit?: string;
+  /** Listed among the results at a glance (optional; see output/glance.ts). */
+  glance?: boolean;
 }
 
 export interface ParametersCell extends CellBase { kind: 'parameters'; items: ParameterItem[] }
@@ -33,8 +36,8 @@ export interface PhaseCell extends CellBase {
   sweep?: { name: string; from: string; to: string; steps: number };
 }
 
-export const METHODS = ['auto', 'dopri5', 'stiff', 'rk4', 'heun', 'euler', 'dp853'] as const;
-export type Method = (typeof METHODS)[number];
+/** A simulate cell's integration methods: the solver's own list, so the two cannot drift apart. */
+export { METHODS, type Method };
 
 export interface ScheduleEvent {
   at: string;
@@ -47,6 +50,7 @@ export interface ScheduleEvent {
 }
 
 export const FIND_KINDS = ['crossing', 'maximum', 'minimum', 'timeOfMaximum', 'timeOfMinimum', 'valueOf', 'integralOf', 'timeAbove', 'timeBelow'] as const;
+/** What a question asks (one of FIND_KINDS). */
 export type FindKind = (typeof FIND_KINDS)[number];
 
 export interface FindQuery {
@@ -61,6 +65,8 @@ export interface FindQuery {
   to?: string;
   /** The unit to show the answer in (optional). */
   unit?: string;
+  /** Listed among the results at a glance (optional; see output/glance.ts). */
+  glance?: boolean;
 }
 
 export interface SimulateCell extends CellBase {
