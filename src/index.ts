@@ -17,3 +17,4 @@ export { tableFromCsv } from './cells/data.ts';
 export type { CsvRead, CsvColumn, CsvRowProblem } from './csv/read.ts';
 export type { StudyTex } from './output/sheet-tex.ts';
 export { unitChoicesFor, TRADE_UNITS } from './output/display-units.ts';
+export { unitAfterNumber } from './units/units.ts';

@@ -7,6 +7,7 @@
 import type { Quantity } from '../units/quantity.ts';
 import type { DisplayUnit } from '../units/units.ts';
 import type { Expr } from '../expression/ast.ts';
+import type { StudyUnits } from '../units/simplest-unit.ts';
 
 /** A message for the user, on the field it is about. */
 export interface CellError {
@@ -73,6 +74,8 @@ export interface RunContext {
   readonly mode: 'run' | 'check' | 'what-if';
   /** The study names a declared name is computed from, directly or through others. */
   upstream(name: string): ReadonlySet<string>;
+  /** The units the study's inputs are written in (engine/study-units.ts), for showing derived values. */
+  readonly studyUnits?: StudyUnits;
 }
 
 export type Outcome =
