@@ -15,6 +15,8 @@ export default defineConfig({
   root: '.',
   optimizeDeps: {
     include: prebundled,
+    // Served as it is: it reaches the test runner through a file the runner serves beside it.
+    exclude: ['@web/test-runner-commands'],
     // Let the dependency scanner also crawl the browser tests, so a package
     // missing from the list above is still found before the first request.
     entries: ['index.html', 'test/browser/**/*.test.ts'],

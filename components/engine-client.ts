@@ -4,8 +4,7 @@
  * makes stale, the worker is replaced and handed the latest study, so the old run is
  * cancelled. An answer older than the newest one shown is dropped.
  */
-import type { Edit, Report, Study } from '../src/index.ts';
-import type { FromWorker, ToWorker } from '../src/engine/worker-protocol.ts';
+import type { Edit, FromWorker, Report, Study, ToWorker } from '../src/index.ts';
 
 /** A run longer than this, with newer edits waiting, is cancelled. */
 export const CANCEL_AFTER_MS = 250;

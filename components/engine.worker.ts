@@ -3,8 +3,7 @@
  * The engine's worker: one study session off the main thread, so that long runs and sweeps
  * never freeze the page. It only relays: every computation is the engine's.
  */
-import { openStudy, type StudySession } from '../src/index.ts';
-import type { FromWorker, ToWorker } from '../src/engine/worker-protocol.ts';
+import { openStudy, type FromWorker, type StudySession, type ToWorker } from '../src/index.ts';
 
 let session: StudySession | undefined;
 

@@ -5,8 +5,12 @@ export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind } from './study/types.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT } from './study/types.ts';
-export type { Report, CellReport } from './engine/report.ts';
-export type { CellError } from './engine/node.ts';
+export type {
+  Report, CellReport, ReportOf, ReportBase, ReportQuantity, CellFields, ParameterValue, PhaseEquilibrium, PhaseInterval,
+  PhasePlotData, SweepReport, SimulationPlot, FindResult, NotReached, ClosedFormReport, EstimateReport, FitResidual, CsvReadReport,
+} from './engine/report.ts';
+export { isKind } from './engine/report.ts';
+export type { CellError, ProblemKind } from './engine/node.ts';
 export { parseExpression, type ParseResult, type ExprProblem } from './expression/parse.ts';
 export { evaluateExpression, type Lookup, type Value } from './expression/evaluate.ts';
 export { compileExpression, type Compiled } from './expression/compile.ts';
@@ -17,4 +21,8 @@ export { tableFromCsv } from './cells/data.ts';
 export type { CsvRead, CsvColumn, CsvRowProblem } from './csv/read.ts';
 export type { StudyTex } from './output/sheet-tex.ts';
 export { unitChoicesFor, TRADE_UNITS } from './output/display-units.ts';
-export { unitAfterNumber } from './units/units.ts';
+export { studyTex } from './output/sheet-tex.ts';
+export { nameTex } from './expression/tex.ts';
+export type { FromWorker, ToWorker } from './engine/worker-protocol.ts';
+export { lookupUnit, unitAfterNumber } from './units/units.ts';
+export { commonUnitNames, constantNames, functionNames, unitNames } from './expression/vocabulary.ts';

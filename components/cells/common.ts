@@ -3,7 +3,7 @@
  * expression fields, the edit event, and the shared styles. Look-ups only; no computation.
  */
 import { css, html, nothing } from 'lit';
-import type { CellError, CellReport, Report } from '../../src/index.ts';
+import type { CellError, ParameterValue, Report, ReportBase, ReportQuantity } from '../../src/index.ts';
 import { formatNumber, unitAfterNumber } from '../../src/index.ts';
 import type { StudyName } from '../expr-field.ts';
 
@@ -23,7 +23,7 @@ export class ErrorClaims {
   private readonly byPath = new Map<string, CellError>();
   private readonly claimed = new Set<string>();
 
-  constructor(report: CellReport | undefined) {
+  constructor(report: Pick<ReportBase, 'error' | 'errors'> | undefined) {
     const all = report?.errors ?? (report?.error ? [report.error] : []);
     for (const e of all) {
       const rel = e.path.replace(/^cells\[\d+\]/, '');
@@ -45,21 +45,18 @@ export class ErrorClaims {
   }
 }
 
-interface Q { value: number; unit: string; si: number }
-const isQ = (v: unknown): v is Q => !!v && typeof v === 'object' && typeof (v as Q).value === 'number' && typeof (v as Q).unit === 'string';
-
 /** An error shown under the field or result it belongs to, or nothing. */
 export function footError(e: { message: string } | undefined) {
   return e ? html`<div class="foot-error" role="alert">${e.message}</div>` : nothing;
 }
 
 /** A reported value as text: yes or no for a condition (`truth`), else as showQ does. */
-export function showValue(q: { value: number; unit: string; truth?: boolean } | undefined, digits = 4): string {
-  return typeof q?.truth === 'boolean' ? (q.truth ? 'yes' : 'no') : showQ(q, digits);
+export function showValue(q: ParameterValue | ReportQuantity | undefined, digits = 4): string {
+  return q && 'truth' in q && typeof q.truth === 'boolean' ? (q.truth ? 'yes' : 'no') : showQ(q, digits);
 }
 
 /** A quantity as text: 4 significant figures and its unit. */
-export function showQ(q: { value: number; unit: string } | undefined, digits = 4): string {
+export function showQ(q: ReportQuantity | undefined, digits = 4): string {
   if (!q) return '';
   const v = formatNumber(q.value, digits);
   return q.unit ? `${v} ${unitAfterNumber(q.unit)}` : v;
@@ -81,12 +78,9 @@ export function namesOf(report: Report | undefined): StudyName[] {
 function collectNames(report: Report): StudyName[] {
   const out: StudyName[] = [];
   for (const c of report?.cells ?? []) {
-    for (const group of [c.values, c.results]) {
-      if (group && typeof group === 'object') {
-        for (const [name, q] of Object.entries(group as Record<string, unknown>)) if (isQ(q)) out.push({ name, detail: showValue(q) });
-      }
-    }
-    if (typeof c.state === 'string' && isQ(c.initial)) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}` });
+    for (const [name, q] of Object.entries(c.values ?? {})) out.push({ name, detail: showValue(q) });
+    for (const [name, q] of Object.entries(c.results ?? {})) if (!('notReached' in q)) out.push({ name, detail: showValue(q) });
+    if (c.state !== undefined && c.initial) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}` });
   }
   return out;
 }

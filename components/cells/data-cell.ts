@@ -1,9 +1,10 @@
-import { LitElement, html, css, nothing } from 'lit';
-import type { Cell, CellReport, CsvRowProblem } from '../../src/index.ts';
+import { html, css, nothing, type PropertyDeclarations } from 'lit';
+import type { CsvReadReport } from '../../src/index.ts';
 import { tableFromCsv } from '../../src/index.ts';
-import { cellStyles, editEvent, ErrorClaims } from './common.ts';
+import { cellStyles, type ErrorClaims } from './common.ts';
+import { CellElement, type CellDoc } from './cell-element.ts';
 
-type DataCellDoc = Extract<Cell, { kind: 'data' }>;
+type DataCellDoc = CellDoc<'data'>;
 type Entry = number | string | null;
 
 /**
@@ -11,13 +12,11 @@ type Entry = number | string | null;
  * and deleted), or as CSV text pasted from a spreadsheet or read from a file. Bad entries are
  * kept as typed and flagged on their row by the engine; nothing is dropped.
  */
-export class DataCellElement extends LitElement {
-  static override properties = { cell: { attribute: false }, report: { attribute: false }, problem: { state: true }, read: { state: true } };
-  cell!: DataCellDoc;
-  report?: CellReport;
+export class DataCellElement extends CellElement<'data'> {
+  static override properties: PropertyDeclarations = { problem: { state: true }, read: { state: true } };
   problem?: string;
   /** What the engine said when it last read CSV text into the table: its notes and refused rows. */
-  read?: CsvReport;
+  read?: CsvReadReport;
   static override styles = [cellStyles, css`
     table.grid { width: auto; }
     table.grid input { width: 6.5rem; font-variant-numeric: tabular-nums; text-align: right; }
@@ -33,12 +32,13 @@ export class DataCellElement extends LitElement {
 
   override render() {
     const c = this.cell;
-    const claims = new ErrorClaims(this.report);
+    const claims = this.claims;
     const columns = Array.isArray(c.columns) ? c.columns : [];
+    // a bad row's error is on its path (the table's rows are flagged; CSV text has its own view)
     const flagged = new Map<number, string>();
     for (const e of this.report?.errors ?? (this.report?.error ? [this.report.error] : [])) {
-      const m = /\.rows\[(\d+)\]/.exec(e.path) ?? /^row (\d+)/.exec(e.message);
-      if (m) flagged.set(e.path.includes('.rows[') ? Number(m[1]) : Number(m[1]) - 1, e.message);
+      const m = /\.rows\[(\d+)\]/.exec(e.path);
+      if (m) flagged.set(Number(m[1]), e.message);
     }
     return html`
       ${c.csv !== undefined ? this.csvView(claims) : html`
@@ -57,53 +57,54 @@ export class DataCellElement extends LitElement {
         <div class="row">
           <button @click=${this.addRow}>Add a row</button>
           <button @click=${this.addColumn}>Add a column</button>
-          <button @click=${() => this.dispatchEvent(editEvent({ ...withoutRows(c), csv: toCsv(c) }))}>Edit as CSV text</button>
+          <button @click=${() => this.replace({ ...withoutRows(c), csv: toCsv(c) })}>Edit as CSV text</button>
           <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label>
         </div>`}
       ${c.csv === undefined && this.read ? csvReport(this.read, 'Read from the CSV text') : nothing}
       ${this.report?.ok ? html`<p class="muted">${this.report.rowCount} rows${this.report.note ? `; ${this.report.note}` : ''}.</p>` : nothing}
       ${this.problem ? html`<p class="foot-error" role="alert">${this.problem}</p>` : nothing}
-      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+      ${this.footErrors()}`;
   }
 
   private csvView(claims: ErrorClaims) {
     const error = claims.take('.csv');
-    const read = (this.read?.problems?.length ? this.read : undefined) ?? (this.report?.csv as CsvReport | undefined);
+    const read = (this.read?.problems?.length ? this.read : undefined) ?? this.report?.csv;
     return html`<label class="muted" for="csv">CSV text: a header row of column names (a unit may follow in parentheses, such as Temp (°C)), then one row per time, as a number or a clock time (comma, tab or semicolon separated; paste straight from a spreadsheet or a logger export)</label>
-      <textarea id="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.editCsv(editEvent({ ...this.cell, csv: (e.target as HTMLTextAreaElement).value }, `${this.cell.id}:csv`))}></textarea>
+      <textarea id="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.editCsv((e.target as HTMLTextAreaElement).value)}></textarea>
       ${error && !read?.problems?.length ? html`<p class="foot-error" role="alert">${error.message}</p>` : nothing}
       ${read ? csvReport(read, 'Read from the header and rows') : nothing}
       <div class="row"><button @click=${this.toTable}>Turn into a table</button>
         <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label></div>`;
   }
 
-  private editCsv(edit: CustomEvent) {
+  private editCsv(csv: string) {
     this.read = undefined;
-    this.dispatchEvent(edit);
+    this.edit({ csv }, 'csv');
   }
 
   private setColumn(j: number, patch: Partial<DataCellDoc['columns'][number]>) {
-    this.dispatchEvent(editEvent({ ...this.cell, columns: this.cell.columns.map((c, i) => (i === j ? { ...c, ...patch } : c)) }));
+    this.edit({ columns: this.cell.columns.map((c, i) => (i === j ? { ...c, ...patch } : c)) });
   }
 
   private setEntry(r: number, j: number, text: string) {
     const t = text.trim();
     const v: Entry = t === '' ? null : Number.isFinite(Number(t)) ? Number(t) : t;
     const rows = (this.cell.rows ?? []).map((row, i) => (i === r ? row.map((x, k) => (k === j ? v : x)) : row));
-    this.dispatchEvent(editEvent({ ...this.cell, rows }));
+    // text is kept as typed (the document's type says numbers): the engine flags its row
+    this.replace({ ...this.cell, rows } as DataCellDoc);
   }
 
   private addRow = () => {
-    this.dispatchEvent(editEvent({ ...this.cell, rows: [...(this.cell.rows ?? []), this.cell.columns.map(() => null)] }));
+    this.edit({ rows: [...(this.cell.rows ?? []), this.cell.columns.map(() => null)] });
   };
 
   private deleteRow(r: number) {
-    this.dispatchEvent(editEvent({ ...this.cell, rows: (this.cell.rows ?? []).filter((_, i) => i !== r) }));
+    this.edit({ rows: (this.cell.rows ?? []).filter((_, i) => i !== r) });
   }
 
   private addColumn = () => {
     const n = this.cell.columns.length + 1;
-    this.dispatchEvent(editEvent({ ...this.cell, columns: [...this.cell.columns, { name: `c${n}`, unit: '1' }], rows: (this.cell.rows ?? []).map((row) => [...row, null]) }));
+    this.edit({ columns: [...this.cell.columns, { name: `c${n}`, unit: '1' }], rows: (this.cell.rows ?? []).map((row) => [...row, null]) });
   };
 
   /**
@@ -119,7 +120,7 @@ export class DataCellElement extends LitElement {
     }
     this.problem = undefined;
     const { csv: _csv, ...rest } = this.cell;
-    this.dispatchEvent(editEvent({ ...rest, columns: r.columns.map((col) => ({ name: col.name, unit: col.unit })), rows: r.rows as DataCellDoc['rows'] }));
+    this.replace({ ...rest, columns: r.columns.map((col) => ({ name: col.name, unit: col.unit })), rows: r.rows } as DataCellDoc);
   };
 
   private importFile = async (e: Event) => {
@@ -129,14 +130,12 @@ export class DataCellElement extends LitElement {
     const text = await file.text();
     input.value = '';
     this.read = undefined;
-    this.dispatchEvent(editEvent({ ...withoutRows(this.cell), csv: text }));
+    this.replace({ ...withoutRows(this.cell), csv: text });
   };
 }
 
-/** The engine's report of reading CSV text: notes, the start of clock times, refused rows. */
-interface CsvReport { notes: string[]; start?: string; problems?: CsvRowProblem[] }
-
-function csvReport(read: CsvReport, heading: string) {
+/** The engine's report of reading CSV text, under a heading: notes, the start of clock times, refused rows. */
+function csvReport(read: CsvReadReport, heading: string) {
   return html`${read.notes.length ? html`<p class="muted">${heading}:</p><ul class="csv-notes muted">${read.notes.map((n) => html`<li>${n}</li>`)}</ul>` : nothing}
     ${read.problems?.length ? html`<ol class="csv-rows" role="alert">${read.problems.map((p) => html`<li class="foot-error">Row ${p.row} (line ${p.line}) <code>${p.text}</code>: ${p.message}</li>`)}</ol>` : nothing}`;
 }

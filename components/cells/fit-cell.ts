@@ -1,21 +1,17 @@
-import { LitElement, html, nothing, css } from 'lit';
-import type { Cell, CellReport, Report } from '../../src/index.ts';
-import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
+import { html, nothing, css } from 'lit';
+import type { ReportOf } from '../../src/index.ts';
+import { cellStyles, showQ } from './common.ts';
+import { CellElement, type CellDoc } from './cell-element.ts';
 import '../expr-field.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
 import '../plots/time-plot.ts';
 
-type FitDoc = Extract<Cell, { kind: 'fit' }>;
+type FitDoc = CellDoc<'fit'>;
 type Estimate = FitDoc['estimate'][number];
-type Q = { value: number; unit: string; si: number };
 
 /** A fit: which laws and data, what is observed and estimated, and the estimates with their uncertainty and plots. */
-export class FitCellElement extends LitElement {
-  static override properties = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false } };
-  cell!: FitDoc;
-  report?: CellReport;
-  study?: Report;
+export class FitCellElement extends CellElement<'fit'> {
   static override styles = [cellStyles, css`
     .est expr-field { min-width: 6rem; }
     .scroll { overflow-x: auto; }
@@ -23,29 +19,29 @@ export class FitCellElement extends LitElement {
 
   override render() {
     const c = this.cell;
-    const claims = new ErrorClaims(this.report);
-    const names = namesOf(this.study);
+    const claims = this.claims;
+    const names = this.names;
     const cells = this.study?.cells ?? [];
     const rates = cells.filter((x) => x.kind === 'rate');
     const dataCells = cells.filter((x) => x.kind === 'data');
-    const columns = ((dataCells.find((d) => d.id === c.data)?.columns ?? []) as Array<{ name: string }>).map((x) => x.name);
+    const columns = (dataCells.find((d) => d.id === c.data)?.columns ?? []).map((x) => x.name);
     const states = rates.filter((r) => (c.rates ?? []).includes(r.id)).map((r) => String(r.state));
     const r = this.report;
-    const estimates = (r?.estimates ?? {}) as Record<string, { value: Q; standardError?: Q; ci95?: Q[]; atBound?: boolean }>;
+    const estimates = r?.estimates ?? {};
     return html`
       <div class="row"><span class="lbl">Laws</span>
         ${rates.map((x) => html`<label><input type="checkbox" .checked=${(c.rates ?? []).includes(x.id)} @change=${(e: Event) => this.setRate(x.id, (e.target as HTMLInputElement).checked)} /> ${x.id}</label>`)}</div>
       <div class="row">
-        <label>Data <select @change=${(e: Event) => this.change({ data: (e.target as HTMLSelectElement).value })}>
+        <label>Data <select @change=${(e: Event) => this.edit({ data: (e.target as HTMLSelectElement).value })}>
           ${dataCells.some((d) => d.id === c.data) ? nothing : html`<option selected>${c.data || '(choose)'}</option>`}
           ${dataCells.map((d) => html`<option value=${d.id} ?selected=${d.id === c.data}>${d.id}</option>`)}</select></label>
-        <label>Time column <select @change=${(e: Event) => this.change({ time: (e.target as HTMLSelectElement).value })}>
+        <label>Time column <select @change=${(e: Event) => this.edit({ time: (e.target as HTMLSelectElement).value })}>
           ${columns.includes(c.time) ? nothing : html`<option selected>${c.time}</option>`}
           ${columns.map((n) => html`<option value=${n} ?selected=${n === c.time}>${n}</option>`)}</select></label>
         ${states.map((s) => html`<label>${s} is observed in <select @change=${(e: Event) => this.observe(s, (e.target as HTMLSelectElement).value)}>
           <option value="" ?selected=${!c.observe?.[s]}>(not observed)</option>
           ${columns.map((n) => html`<option value=${n} ?selected=${c.observe?.[s] === n}>${n}</option>`)}</select></label>`)}
-        <label>Weighting <select @change=${(e: Event) => this.change({ weighting: (e.target as HTMLSelectElement).value as FitDoc['weighting'] })}>
+        <label>Weighting <select @change=${(e: Event) => this.edit({ weighting: (e.target as HTMLSelectElement).value as FitDoc['weighting'] })}>
           ${([['none', 'none'], ['relative', 'relative (1/y²)'], ['proportional', 'proportional (1/y)']] as const).map(([v, l]) => html`<option value=${v} ?selected=${(c.weighting ?? 'none') === v}>${l}</option>`)}</select></label>
       </div>
       <div class="scroll"><table class="est">
@@ -65,19 +61,19 @@ export class FitCellElement extends LitElement {
               ${claims.take(`${p}.unit`) ? html`<div class="foot-error">${claims.take(`${p}.unit`)!.message}</div>` : nothing}</td>
             <td class="result">${res?.standardError ? showQ(res.standardError) : ''}</td>
             <td class="result">${res?.ci95 ? `${showQ(res.ci95[0])} to ${showQ(res.ci95[1])}` : ''}</td>
-            <td><button class="quiet" aria-label="Remove estimate ${i + 1}" @click=${() => this.change({ estimate: c.estimate.filter((_, j) => j !== i) })}>✕</button></td>
+            <td><button class="quiet" aria-label="Remove estimate ${i + 1}" @click=${() => this.edit({ estimate: c.estimate.filter((_, j) => j !== i) })}>✕</button></td>
           </tr>`;
         })}</tbody></table></div>
       <div class="row"><button @click=${this.addEstimate}>Estimate another parameter</button></div>
-      ${r?.ok && r.estimates ? html`<p class="muted">${r.converged ? 'Converged' : 'Not converged'} after ${r.iterations} iterations (${r.message}); ${r.n} points, ${r.dof} degrees of freedom${r.residualSD ? `, residual SD ${showQ(r.residualSD as Q)}` : ''}.</p>` : nothing}
+      ${r?.ok && r.estimates ? html`<p class="muted">${r.converged ? 'Converged' : 'Not converged'} after ${r.iterations} iterations (${r.message}); ${r.n} points, ${r.dof} degrees of freedom${r.residualSD ? `, residual SD ${showQ(r.residualSD)}` : ''}.</p>` : nothing}
       ${this.correlation()}
-      ${((r?.warnings ?? []) as string[]).map((w) => html`<p class="foot-error">${w}</p>`)}
-      ${r?.ok && r.plot ? this.plots(r) : nothing}
-      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+      ${(r?.warnings ?? []).map((w) => html`<p class="foot-error">${w}</p>`)}
+      ${r?.ok && r.plot ? this.plots(r.plot, r) : nothing}
+      ${this.footErrors()}`;
   }
 
   private correlation() {
-    const cor = this.report?.correlation as { names: string[]; matrix: number[][] } | undefined;
+    const cor = this.report?.correlation;
     if (!cor || cor.names.length < 2) return nothing;
     return html`<table style="width: auto"><caption class="muted" style="text-align: left">Correlation of the estimates</caption>
       <thead><tr><th></th>${cor.names.map((n) => html`<th>${n}</th>`)}</tr></thead>
@@ -85,29 +81,28 @@ export class FitCellElement extends LitElement {
   }
 
   /** The fitted curve over the data, and the residuals against time around a zero line. */
-  private plots(r: CellReport) {
-    const plot = r.plot as { timeUnit: string; t: number[]; points: Array<{ state: string; t: number[]; values: number[] }> };
-    const res = (r.residuals ?? []) as Array<{ time: Q; residual: Q }>;
+  private plots(plot: NonNullable<ReportOf<'fit'>['plot']>, r: ReportOf<'fit'>) {
+    const res = r.residuals ?? [];
     const unit = res[0]?.residual.unit ?? '';
     const residualPlot = {
       timeUnit: plot.timeUnit, t: [plot.t[0], plot.t[plot.t.length - 1]],
       states: [{ name: 'residual', unit, values: [0, 0] }], events: [], levels: [], marks: [],
     };
     const residualPoints = [{ state: 'residual', t: res.map((x) => x.time.value), values: res.map((x) => x.residual.value) }];
-    return html`<time-plot .plot=${plot} .points=${plot.points} .summary=${String(r.summary ?? '')}></time-plot>
+    return html`<time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${r.summary ?? ''}></time-plot>
       <time-plot .plot=${residualPlot} .points=${residualPoints} .summary=${`Residuals (measured minus fitted) against time, in ${unit}.`}></time-plot>`;
   }
 
   private setRate(id: string, on: boolean) {
     const rates = (this.cell.rates ?? []).filter((x) => x !== id);
-    this.change({ rates: on ? [...rates, id] : rates });
+    this.edit({ rates: on ? [...rates, id] : rates });
   }
 
   private observe(state: string, column: string) {
     const observe = { ...(this.cell.observe ?? {}) };
     if (column) observe[state] = column;
     else delete observe[state];
-    this.change({ observe });
+    this.edit({ observe });
   }
 
   private setEstimate(i: number, patch: Partial<Estimate>, key: string) {
@@ -117,17 +112,13 @@ export class FitCellElement extends LitElement {
       for (const k of ['min', 'max', 'unit']) if (next[k] === undefined) delete next[k];
       return next as unknown as Estimate;
     });
-    this.change({ estimate }, key);
+    this.edit({ estimate }, key);
   }
 
   private addEstimate = () => {
     const n = (this.cell.estimate ?? []).length + 1;
-    this.change({ estimate: [...(this.cell.estimate ?? []), { parameter: 'k', as: `est${n}`, guess: '1' }] });
+    this.edit({ estimate: [...(this.cell.estimate ?? []), { parameter: 'k', as: `est${n}`, guess: '1' }] });
   };
-
-  private change(patch: Partial<FitDoc>, key?: string) {
-    this.dispatchEvent(editEvent({ ...this.cell, ...patch }, key ? `${this.cell.id}:${key}` : undefined));
-  }
 }
 
 customElements.define('fit-cell', FitCellElement);

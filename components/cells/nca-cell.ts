@@ -1,60 +1,53 @@
-import { LitElement, html, nothing } from 'lit';
-import type { Cell, CellReport, Report } from '../../src/index.ts';
-import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
+import { html, nothing } from 'lit';
+import { showQ } from './common.ts';
+import { CellElement, type CellDoc } from './cell-element.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
 import '../expr-field.ts';
 
-type NcaDoc = Extract<Cell, { kind: 'nca' }>;
-type Q = { value: number; unit: string; si: number };
+type NcaDoc = CellDoc<'nca'>;
 const ROUTES = [['iv-bolus', 'IV bolus'], ['infusion', 'infusion'], ['extravascular', 'extravascular (oral, …)']] as const;
 
 /** A profile summary (non-compartmental analysis): which data, the dose and route, and the results. */
-export class NcaCellElement extends LitElement {
-  static override properties = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false } };
-  cell!: NcaDoc;
-  report?: CellReport;
-  study?: Report;
-  static override styles = [cellStyles];
-
+export class NcaCellElement extends CellElement<'nca'> {
   override render() {
     const c = this.cell;
-    const claims = new ErrorClaims(this.report);
-    const dataCells = (this.study?.cells ?? []).filter((x) => x.kind === 'data');
-    const columns = ((dataCells.find((d) => d.id === c.data)?.columns ?? []) as Array<{ name: string }>).map((x) => x.name);
-    const values = (this.report?.values ?? {}) as Record<string, Q>;
+    const claims = this.claims;
+    const dataCells = this.idsOf('data');
+    const columns = (this.study?.cells.find((d) => d.id === c.data)?.columns ?? []).map((x) => x.name);
+    const values = this.report?.values ?? {};
     const select = (label: string, value: string, options: readonly string[], key: keyof NcaDoc) => html`<label>${label}
-      <select .value=${value} @change=${(e: Event) => this.change({ [key]: (e.target as HTMLSelectElement).value } as Partial<NcaDoc>)}>
+      <select .value=${value} @change=${(e: Event) => this.edit({ [key]: (e.target as HTMLSelectElement).value } as Partial<NcaDoc>)}>
         ${options.includes(value) ? nothing : html`<option value=${value} selected>${value || '(choose)'}</option>`}
         ${options.map((o) => html`<option value=${o} ?selected=${o === value}>${o}</option>`)}</select></label>`;
     return html`
       <div class="row">
-        ${select('Data', c.data, dataCells.map((d) => d.id), 'data')}
+        ${select('Data', c.data, dataCells, 'data')}
         ${select('Time column', c.time, columns, 'time')}
         ${select('Concentration column', c.concentration, columns, 'concentration')}
       </div>
       <div class="row">
         <span class="lbl">Dose</span>
-        <expr-field style="flex: 0 1 9rem" label="Dose" .value=${c.dose ?? ''} .names=${namesOf(this.study)} .error=${claims.take('.dose')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ dose: e.detail.value }, 'dose')}></expr-field>
-        <label>Route <select @change=${(e: Event) => this.change({ route: (e.target as HTMLSelectElement).value as NcaDoc['route'] })}>
+        <expr-field style="flex: 0 1 9rem" label="Dose" .value=${c.dose ?? ''} .names=${this.names} .error=${claims.take('.dose')}
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ dose: e.detail.value }, 'dose')}></expr-field>
+        <label>Route <select @change=${(e: Event) => this.edit({ route: (e.target as HTMLSelectElement).value as NcaDoc['route'] })}>
           ${ROUTES.map(([v, l]) => html`<option value=${v} ?selected=${v === c.route}>${l}</option>`)}</select></label>
         ${c.route === 'infusion' ? html`<span class="lbl">for</span><expr-field style="flex: 0 1 7rem" label="Infusion duration" .value=${c.duration ?? ''} .error=${claims.take('.duration')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ duration: e.detail.value }, 'duration')}></expr-field>` : nothing}
-        <label>Areas <select @change=${(e: Event) => this.change({ auc: (e.target as HTMLSelectElement).value as NcaDoc['auc'] })}>
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ duration: e.detail.value }, 'duration')}></expr-field>` : nothing}
+        <label>Areas <select @change=${(e: Event) => this.edit({ auc: (e.target as HTMLSelectElement).value as NcaDoc['auc'] })}>
           <option value="linear-up-log-down" ?selected=${(c.auc ?? 'linear-up-log-down') === 'linear-up-log-down'}>linear up, log down</option>
           <option value="linear" ?selected=${c.auc === 'linear'}>linear trapezoid</option></select></label>
-        <label>Terminal phase <select @change=${(e: Event) => { const v = (e.target as HTMLSelectElement).value; this.change({ terminal: v === 'auto' ? 'auto' : Number(v) }); }}>
+        <label>Terminal phase <select @change=${(e: Event) => { const v = (e.target as HTMLSelectElement).value; this.edit({ terminal: v === 'auto' ? 'auto' : Number(v) }); }}>
           <option value="auto" ?selected=${(c.terminal ?? 'auto') === 'auto'}>chosen by adjusted R²</option>
           ${[3, 4, 5, 6].map((n) => html`<option value=${n} ?selected=${c.terminal === n}>last ${n} points</option>`)}</select></label>
-        <label>Prefix <input class="name" type="text" .value=${c.prefix ?? ''} @input=${(e: Event) => this.change({ prefix: (e.target as HTMLInputElement).value }, 'prefix')} /></label>
+        <label>Prefix <input class="name" type="text" .value=${c.prefix ?? ''} @input=${(e: Event) => this.edit({ prefix: (e.target as HTMLInputElement).value }, 'prefix')} /></label>
       </div>
       ${Object.keys(values).length ? html`<table><tbody>${Object.entries(values).map(([name, q]) => html`<tr><td>${name}</td><td class="result">${name.endsWith('AUCextrap') ? `${showQ(q)} %` : showQ(q)}<unit-pick .unit=${q.unit} .picked=${c.units?.[this.bare(name)]} label="Show ${name} in another unit"
         @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.pickUnit(this.bare(name), e.detail.unit)}></unit-pick></td></tr>`)}</tbody></table>` : nothing}
-      ${this.report?.pointsUsed ? html`<p class="muted">Terminal phase from ${(this.report.pointsUsed as { count: number }).count} points.</p>` : nothing}
-      ${this.report?.note ? html`<p class="muted">${String(this.report.note)}</p>` : nothing}
-      ${((this.report?.warnings ?? []) as string[]).map((w) => html`<p class="foot-error">${w}</p>`)}
-      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+      ${this.report?.pointsUsed ? html`<p class="muted">Terminal phase from ${this.report.pointsUsed.count} points.</p>` : nothing}
+      ${this.report?.note ? html`<p class="muted">${this.report.note}</p>` : nothing}
+      ${(this.report?.warnings ?? []).map((w) => html`<p class="foot-error">${w}</p>`)}
+      ${this.footErrors()}`;
   }
 
   /** A result's name without the cell's prefix (the key of `units`). */
@@ -67,11 +60,7 @@ export class NcaCellElement extends LitElement {
     const { [name]: _old, ...rest } = this.cell.units ?? {};
     const units = unit === undefined ? rest : { ...rest, [name]: unit };
     const { units: _u, ...cell } = this.cell;
-    this.dispatchEvent(editEvent(Object.keys(units).length ? { ...cell, units } : cell));
-  }
-
-  private change(patch: Partial<NcaDoc>, key?: string) {
-    this.dispatchEvent(editEvent({ ...this.cell, ...patch }, key ? `${this.cell.id}:${key}` : undefined));
+    this.replace(Object.keys(units).length ? { ...cell, units } : cell);
   }
 }
 

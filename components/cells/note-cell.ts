@@ -1,11 +1,10 @@
-import { LitElement, html, css } from 'lit';
-import type { NoteCellDoc } from './types.ts';
-import { cellStyles, editEvent } from './common.ts';
+import { html, css } from 'lit';
+import { cellStyles } from './common.ts';
+import { CellElement } from './cell-element.ts';
 
 /** A note: plain text, shown as text (never as HTML), edited in place. */
-export class NoteCellElement extends LitElement {
-  static override properties = { cell: { attribute: false }, editing: { state: true } };
-  cell!: NoteCellDoc;
+export class NoteCellElement extends CellElement<'note'> {
+  static override properties = { editing: { state: true } };
   editing = false;
   static override styles = [cellStyles, css`
     .text { white-space: pre-wrap; margin: 0.2rem 0; line-height: 1.45; }
@@ -17,7 +16,7 @@ export class NoteCellElement extends LitElement {
     const text = typeof this.cell.text === 'string' ? this.cell.text : '';
     if (this.editing) {
       return html`<textarea aria-label="Note text" .value=${text}
-        @input=${(e: Event) => this.dispatchEvent(editEvent({ ...this.cell, text: (e.target as HTMLTextAreaElement).value }, `${this.cell.id}:text`))}
+        @input=${(e: Event) => this.edit({ text: (e.target as HTMLTextAreaElement).value }, 'text')}
         @blur=${() => { this.editing = false; }}></textarea>`;
     }
     return html`<p class="text">${text || html`<span class="muted">Empty note.</span>`}</p>

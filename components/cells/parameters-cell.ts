@@ -1,18 +1,13 @@
-import { LitElement, html, nothing, css } from 'lit';
-import type { CellReport, ParametersCellDoc, Report } from './types.ts';
-import { cellStyles, editEvent, ErrorClaims, footError, namesOf, showQ, showValue } from './common.ts';
+import { html, nothing, css } from 'lit';
+import type { ParameterValue } from '../../src/index.ts';
+import { cellStyles, footError, showQ, showValue } from './common.ts';
+import { CellElement } from './cell-element.ts';
 import '../expr-field.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
 
-interface Entry { value: number; unit: string; si: number; truth?: boolean; originalUnit?: string; range?: Array<{ value: number; unit: string }> }
-
 /** A parameters cell: one row per name, with its value field, its current value and, given a range, a slider. */
-export class ParametersCellElement extends LitElement {
-  static override properties = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false } };
-  cell!: ParametersCellDoc;
-  report?: CellReport;
-  study?: Report;
+export class ParametersCellElement extends CellElement<'parameters'> {
   // fixed column widths: a value that changes length while a slider moves must not re-lay out
   // the table (and every editor in it)
   static override styles = [cellStyles, css`
@@ -26,9 +21,9 @@ export class ParametersCellElement extends LitElement {
   `];
 
   override render() {
-    const claims = new ErrorClaims(this.report);
-    const values = (this.report?.values ?? {}) as Record<string, Entry>;
-    const names = namesOf(this.study);
+    const claims = this.claims;
+    const values = this.report?.values ?? {};
+    const names = this.names;
     const items = Array.isArray(this.cell.items) ? this.cell.items : [];
     return html`
       <table>
@@ -57,11 +52,11 @@ export class ParametersCellElement extends LitElement {
         </tbody>
       </table>
       <div class="row"><button @click=${this.add}>Add a parameter</button></div>
-      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+      ${this.footErrors()}`;
   }
 
   /** A slider over the range; its position is written back as the value in the value's own unit. */
-  private slider(j: number, entry: Entry) {
+  private slider(j: number, entry: ParameterValue) {
     const [lo, hi] = entry.range!;
     const step = (hi.value - lo.value) / 200;
     return html`<input type="range" class="slider" aria-label="Drag ${this.cell.items[j].name} from ${showQ(lo)} to ${showQ(hi)}"
@@ -76,18 +71,18 @@ export class ParametersCellElement extends LitElement {
   private change(j: number, patch: Record<string, unknown>, key: string) {
     const items = this.cell.items.map((it, i) => (i === j ? { ...it, ...patch } : it));
     for (const it of items) { if (it.note === undefined) delete it.note; if (it.unit === undefined) delete it.unit; }
-    this.dispatchEvent(editEvent({ ...this.cell, items }, `${this.cell.id}:${key}`));
+    this.edit({ items }, key);
   }
 
   private add = () => {
     const used = new Set(this.cell.items.map((i) => i.name));
     let n = this.cell.items.length + 1;
     while (used.has(`p${n}`)) n++;
-    this.dispatchEvent(editEvent({ ...this.cell, items: [...this.cell.items, { name: `p${n}`, value: '1' }] }));
+    this.edit({ items: [...this.cell.items, { name: `p${n}`, value: '1' }] });
   };
 
   private removeItem(j: number) {
-    this.dispatchEvent(editEvent({ ...this.cell, items: this.cell.items.filter((_, i) => i !== j) }));
+    this.edit({ items: this.cell.items.filter((_, i) => i !== j) });
   }
 }
 

@@ -1,71 +1,59 @@
-import { LitElement, html, nothing } from 'lit';
-import type { CellReport, PhaseCellDoc, Report } from './types.ts';
-import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
+import { html, nothing } from 'lit';
+import { showQ } from './common.ts';
+import { CellElement } from './cell-element.ts';
 import '../expr-field.ts';
 import '../plots/phase-plot.ts';
 import '../plots/sweep-plot.ts';
 
-interface Eq { value: number; unit: string; si: number; stability: string; slope: { value: number; unit: string; si: number } }
-
 /** A phase cell: where a one-state law settles, and (with a sweep) how that changes with a parameter. */
-export class PhaseCellElement extends LitElement {
-  static override properties = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false } };
-  cell!: PhaseCellDoc;
-  report?: CellReport;
-  study?: Report;
-  static override styles = [cellStyles];
-
+export class PhaseCellElement extends CellElement<'phase'> {
   override render() {
     const c = this.cell;
-    const claims = new ErrorClaims(this.report);
-    const names = namesOf(this.study);
-    const rateCells = (this.study?.cells ?? []).filter((x) => x.kind === 'rate').map((x) => x.id);
-    const eqs = (this.report?.equilibria ?? []) as Eq[];
+    const claims = this.claims;
+    const names = this.names;
+    const rateCells = this.idsOf('rate');
+    const eqs = this.report?.equilibria ?? [];
     const law = this.study?.cells.find((x) => x.id === c.rate);
     const state = typeof law?.state === 'string' ? law.state : 'y';
     const sw = c.sweep;
     return html`
       <div class="row">
-        <label>Law <select .value=${c.rate ?? ''} @change=${(e: Event) => this.change({ rate: (e.target as HTMLSelectElement).value })}>
+        <label>Law <select .value=${c.rate ?? ''} @change=${(e: Event) => this.edit({ rate: (e.target as HTMLSelectElement).value })}>
           ${rateCells.map((id) => html`<option value=${id} ?selected=${id === c.rate}>${id}</option>`)}</select></label>
         <span class="lbl">From</span>
         <expr-field style="flex: 0 1 9rem" label="Lower end of the range" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ from: e.detail.value }, 'from')}></expr-field>
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ from: e.detail.value }, 'from')}></expr-field>
         <span class="lbl">to</span>
         <expr-field style="flex: 0 1 9rem" label="Upper end of the range" .value=${c.to ?? ''} .names=${names} .error=${claims.take('.to')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ to: e.detail.value }, 'to')}></expr-field>
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ to: e.detail.value }, 'to')}></expr-field>
       </div>
       <div class="row">
         <label><input type="checkbox" .checked=${!!sw} @change=${(e: Event) => this.toggleSweep((e.target as HTMLInputElement).checked)} /> Sweep a parameter</label>
         ${sw ? html`
-          <input class="name" type="text" aria-label="Parameter to sweep" .value=${sw.name ?? ''} @input=${(e: Event) => this.change({ sweep: { ...sw, name: (e.target as HTMLInputElement).value } }, 'sname')} />
+          <input class="name" type="text" aria-label="Parameter to sweep" .value=${sw.name ?? ''} @input=${(e: Event) => this.edit({ sweep: { ...sw, name: (e.target as HTMLInputElement).value } }, 'sname')} />
           <span class="lbl">from</span>
           <expr-field style="flex: 0 1 8rem" label="Sweep start" .value=${sw.from ?? ''} .names=${names} .error=${claims.take('.sweep.from')}
-            @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ sweep: { ...sw, from: e.detail.value } }, 'sfrom')}></expr-field>
+            @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ sweep: { ...sw, from: e.detail.value } }, 'sfrom')}></expr-field>
           <span class="lbl">to</span>
           <expr-field style="flex: 0 1 8rem" label="Sweep end" .value=${sw.to ?? ''} .names=${names} .error=${claims.take('.sweep.to')}
-            @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ sweep: { ...sw, to: e.detail.value } }, 'sto')}></expr-field>
+            @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ sweep: { ...sw, to: e.detail.value } }, 'sto')}></expr-field>
           <label>steps <input type="number" class="count" min="2" max="10000" .value=${String(sw.steps ?? 61)}
-            @input=${(e: Event) => this.change({ sweep: { ...sw, steps: Math.max(2, Math.min(10000, Math.trunc(Number((e.target as HTMLInputElement).value)) || 2)) } }, 'ssteps')} /></label>` : nothing}
+            @input=${(e: Event) => this.edit({ sweep: { ...sw, steps: Math.max(2, Math.min(10000, Math.trunc(Number((e.target as HTMLInputElement).value)) || 2)) } }, 'ssteps')} /></label>` : nothing}
       </div>
       ${this.report?.ok && this.report.plot ? html`
         <table><thead><tr><th>Equilibrium</th><th>Stability</th><th>Slope there</th></tr></thead><tbody>
           ${eqs.map((e) => html`<tr><td class="result">${showQ(e)}</td><td>${e.stability}</td><td class="result">${showQ(e.slope)}</td></tr>`)}
           ${eqs.length === 0 ? html`<tr><td colspan="3" class="muted">No equilibrium in the range.</td></tr>` : nothing}
         </tbody></table>
-        ${((this.report.notes ?? []) as string[]).map((n) => html`<p class="muted">${n}</p>`)}
-        <phase-plot .state=${state} .plot=${this.report.plot} .equilibria=${eqs} .intervals=${this.report.intervals ?? []} .poles=${this.report.poles ?? []} .summary=${String(this.report.summary ?? '')}></phase-plot>
+        ${(this.report.notes ?? []).map((n) => html`<p class="muted">${n}</p>`)}
+        <phase-plot .state=${state} .plot=${this.report.plot} .equilibria=${eqs} .intervals=${this.report.intervals ?? []} .poles=${this.report.poles ?? []} .summary=${this.report.summary ?? ''}></phase-plot>
         ${this.report.sweep ? html`<sweep-plot .state=${state} .sweep=${this.report.sweep}></sweep-plot>` : nothing}` : nothing}
-      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+      ${this.footErrors()}`;
   }
 
   private toggleSweep(on: boolean) {
     const { sweep: _s, ...rest } = this.cell;
-    this.dispatchEvent(editEvent(on ? { ...rest, sweep: { name: '', from: '', to: '', steps: 61 } } : rest));
-  }
-
-  private change(patch: Partial<PhaseCellDoc>, key?: string) {
-    this.dispatchEvent(editEvent({ ...this.cell, ...patch }, key ? `${this.cell.id}:${key}` : undefined));
+    this.replace(on ? { ...rest, sweep: { name: '', from: '', to: '', steps: 61 } } : rest);
   }
 }
 

@@ -1,49 +1,39 @@
-import { LitElement, html } from 'lit';
-import type { CellReport, RateCellDoc, Report } from './types.ts';
-import { cellStyles, editEvent, ErrorClaims, namesOf, showQ } from './common.ts';
+import { html } from 'lit';
+import { showQ } from './common.ts';
+import { CellElement } from './cell-element.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
 import '../expr-field.ts';
 
 /** A rate cell: d(state)/dt = rate, with the state's unit and initial value. */
-export class RateCellElement extends LitElement {
-  static override properties = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false } };
-  cell!: RateCellDoc;
-  report?: CellReport;
-  study?: Report;
-  static override styles = [cellStyles];
-
+export class RateCellElement extends CellElement<'rate'> {
   override render() {
-    const claims = new ErrorClaims(this.report);
-    const names = namesOf(this.study);
+    const claims = this.claims;
+    const names = this.names;
     const c = this.cell;
-    const rate = this.report?.rateAtStart as { value: number; unit: string; si: number } | undefined;
+    const rate = this.report?.rateAtStart;
     const stateError = claims.take('.state');
     return html`
       <div class="row">
         <span class="lbl">Rate of</span>
-        <input class="name" type="text" aria-label="State name" .value=${c.state ?? ''} @input=${(e: Event) => this.change({ state: (e.target as HTMLInputElement).value }, 'state')} />
+        <input class="name" type="text" aria-label="State name" .value=${c.state ?? ''} @input=${(e: Event) => this.edit({ state: (e.target as HTMLInputElement).value }, 'state')} />
         <span aria-hidden="true">per time =</span>
         <expr-field label="Rate law: the rate of change of ${c.state}" .value=${c.rate ?? ''} .names=${names} .error=${claims.take('.rate')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ rate: e.detail.value }, 'rate')}></expr-field>
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ rate: e.detail.value }, 'rate')}></expr-field>
       </div>
       ${stateError ? html`<p class="foot-error" role="alert">${stateError.message}</p>` : ''}
       <div class="row">
         <span class="lbl">Unit</span>
         <expr-field style="flex: 0 1 9rem" label="Unit of ${c.state}" .value=${c.unit ?? ''} .error=${claims.take('.unit')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ unit: e.detail.value }, 'unit')}></expr-field>
-        <unit-pick .unit=${c.unit ?? ''} .original=${this.report?.originalUnit as string | undefined} label="Show ${c.state} in another unit"
-          @unit-pick=${(e: CustomEvent<UnitPickDetail>) => { if (e.detail.unit) this.change({ unit: e.detail.unit }, 'unit-pick'); }}></unit-pick>
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ unit: e.detail.value }, 'unit')}></expr-field>
+        <unit-pick .unit=${c.unit ?? ''} .original=${this.report?.originalUnit} label="Show ${c.state} in another unit"
+          @unit-pick=${(e: CustomEvent<UnitPickDetail>) => { if (e.detail.unit) this.edit({ unit: e.detail.unit }, 'unit-pick'); }}></unit-pick>
         <span class="lbl">Starts at</span>
         <expr-field label="Initial value of ${c.state}" .value=${c.initial ?? ''} .names=${names} .error=${claims.take('.initial')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ initial: e.detail.value }, 'initial')}></expr-field>
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ initial: e.detail.value }, 'initial')}></expr-field>
       </div>
       ${rate ? html`<p class="muted">At the start: ${c.state} changes by <span class="result">${showQ(rate)}</span></p>` : ''}
-      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
-  }
-
-  private change(patch: Partial<RateCellDoc>, key: string) {
-    this.dispatchEvent(editEvent({ ...this.cell, ...patch }, `${this.cell.id}:${key}`));
+      ${this.footErrors()}`;
   }
 }
 

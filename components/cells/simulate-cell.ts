@@ -1,11 +1,15 @@
-import { LitElement, html, nothing, css } from 'lit';
-import type { CellReport, Report, SimulateCellDoc } from './types.ts';
-import { cellStyles, editEvent, ErrorClaims, footError, namesOf, showQ } from './common.ts';
+import { html, nothing, css } from 'lit';
+import type { ClosedFormReport, FindResult, SimulationPlot } from '../../src/index.ts';
+import { cellStyles, footError, showQ, type ErrorClaims } from './common.ts';
+import type { StudyName } from '../expr-field.ts';
+import { CellElement, type CellDoc } from './cell-element.ts';
 import { exportSeriesCsv } from '../series-csv.ts';
 import '../expr-field.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
 import '../plots/time-plot.ts';
+
+type SimulateCellDoc = CellDoc<'simulate'>;
 
 type EventDoc = NonNullable<SimulateCellDoc['events']>[number];
 type FindDoc = NonNullable<SimulateCellDoc['find']>[number];
@@ -19,14 +23,8 @@ const METHOD_LABELS: Record<string, string> = {
   rk4: 'Runge–Kutta 4, fixed step', heun: 'Heun, fixed step', euler: 'Euler, fixed step',
 };
 
-interface Plot { timeUnit: string; t: number[]; states: Array<{ name: string; unit: string; values: number[] }> }
-
 /** A simulate cell: the run's span and method, its schedule, its questions, and the results with their plot. */
-export class SimulateCellElement extends LitElement {
-  static override properties = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false } };
-  cell!: SimulateCellDoc;
-  report?: CellReport;
-  study?: Report;
+export class SimulateCellElement extends CellElement<'simulate'> {
   static override styles = [cellStyles, css`
     .events td, .finds td { padding: 0.15rem 0.25rem; }
     .events expr-field, .finds expr-field { min-width: 4.5rem; }
@@ -38,12 +36,12 @@ export class SimulateCellElement extends LitElement {
 
   override render() {
     const c = this.cell;
-    const claims = new ErrorClaims(this.report);
-    const names = namesOf(this.study);
-    const rateCells = (this.study?.cells ?? []).filter((x) => x.kind === 'rate').map((x) => x.id);
+    const claims = this.claims;
+    const names = this.names;
+    const rateCells = this.idsOf('rate');
     const fixed = c.method === 'rk4' || c.method === 'heun' || c.method === 'euler';
-    const results = (this.report?.results ?? {}) as Record<string, { value?: number; unit?: string; si?: number; notReached?: boolean; message?: string }>;
-    const plot = this.report?.plot as Plot | undefined;
+    const results = this.report?.results ?? {};
+    const plot = this.report?.plot;
     return html`
       <div class="row">
         <span class="lbl">Laws</span>
@@ -54,15 +52,15 @@ export class SimulateCellElement extends LitElement {
       <div class="row">
         <span class="lbl">From</span>
         <expr-field style="flex: 0 1 8rem" label="Start of the run" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ from: e.detail.value }, 'from')}></expr-field>
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ from: e.detail.value }, 'from')}></expr-field>
         <span class="lbl">to</span>
         <expr-field style="flex: 0 1 8rem" label="End of the run" .value=${c.to ?? ''} .names=${names} .error=${claims.take('.to')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ to: e.detail.value }, 'to')}></expr-field>
-        <label>Method <select .value=${c.method ?? 'auto'} @change=${(e: Event) => this.change({ method: (e.target as HTMLSelectElement).value as SimulateCellDoc['method'] }, 'method')}>
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ to: e.detail.value }, 'to')}></expr-field>
+        <label>Method <select .value=${c.method ?? 'auto'} @change=${(e: Event) => this.edit({ method: (e.target as HTMLSelectElement).value as SimulateCellDoc['method'] }, 'method')}>
           ${Object.entries(METHOD_LABELS).map(([m, l]) => html`<option value=${m} ?selected=${(c.method ?? 'auto') === m}>${l}</option>`)}
         </select></label>
         ${fixed || c.step !== undefined ? html`<span class="lbl">Step</span><expr-field style="flex: 0 1 7rem" label="Fixed step" .value=${c.step ?? ''} .error=${claims.take('.step')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.change({ step: e.detail.value }, 'step')}></expr-field>` : nothing}
+          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ step: e.detail.value }, 'step')}></expr-field>` : nothing}
       </div>
       <details ?open=${(c.events ?? []).length > 0}>
         <summary>Schedule (${(c.events ?? []).length} event${(c.events ?? []).length === 1 ? '' : 's'})</summary>
@@ -73,15 +71,15 @@ export class SimulateCellElement extends LitElement {
         ${this.findTable(claims, names, results)}
       </details>
       ${this.report?.ok && plot ? html`
-        <time-plot .plot=${plot} .points=${(plot as { points?: unknown[] }).points ?? []} .summary=${String(this.report.summary ?? '')}></time-plot>
-        <div class="row">${this.report.note ? html`<span class="muted">${String(this.report.note)}</span>` : nothing}
-          <span class="muted">${String(this.report.method)}: ${this.report.steps} steps, ${this.report.evaluations} evaluations of the rates</span>
+        <time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${this.report.summary ?? ''}></time-plot>
+        <div class="row">${this.report.note ? html`<span class="muted">${this.report.note}</span>` : nothing}
+          <span class="muted">${this.report.method}: ${this.report.steps} steps, ${this.report.evaluations} evaluations of the rates</span>
           <button @click=${() => this.downloadCsv(plot)}>Export the series as CSV</button></div>
-        ${this.closedForm()}` : nothing}
-      ${claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`)}`;
+        ${this.closedForm(this.report.closedForm)}` : nothing}
+      ${this.footErrors()}`;
   }
 
-  private eventsTable(claims: ErrorClaims, names: ReturnType<typeof namesOf>) {
+  private eventsTable(claims: ErrorClaims, names: StudyName[]) {
     const events = this.cell.events ?? [];
     return html`<div class="scroll"><table class="events">
       ${events.length ? html`<thead><tr><th>At</th><th>Every</th><th>Times</th><th>Action</th><th>On</th><th>Amount</th><th>For</th><th></th></tr></thead>` : nothing}
@@ -99,13 +97,13 @@ export class SimulateCellElement extends LitElement {
           <td><input class="name" type="text" aria-label="Event ${i + 1} target name" .value=${target} @input=${(e: Event) => this.setEvent(i, withTarget(ev, kind, (e.target as HTMLInputElement).value, amount), `target${i}`)} /></td>
           <td><expr-field label="Event ${i + 1} amount" .value=${amount} .names=${names} .error=${claims.take(`${p}.${kind}.${target}`) ?? claims.take(`${p}.${kind}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withTarget(ev, kind, target, e.detail.value), `amount${i}`)}></expr-field></td>
           <td>${kind === 'infuse' ? html`<expr-field label="Event ${i + 1} infusion duration" .value=${ev.for ?? ''} .names=${names} .error=${claims.take(`${p}.for`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, for: e.detail.value }, `for${i}`)}></expr-field>` : nothing}</td>
-          <td><button class="quiet" aria-label="Remove event ${i + 1}" @click=${() => this.change({ events: events.filter((_, j) => j !== i) })}>✕</button></td>
+          <td><button class="quiet" aria-label="Remove event ${i + 1}" @click=${() => this.edit({ events: events.filter((_, j) => j !== i) })}>✕</button></td>
         </tr>`;
       })}</tbody></table></div>
-      <div class="row"><button @click=${() => this.change({ events: [...events, { at: '0 h', add: { [this.firstState()]: '1' } }] })}>Add an event</button></div>`;
+      <div class="row"><button @click=${() => this.edit({ events: [...events, { at: '0 h', add: { [this.firstState()]: '1' } }] })}>Add an event</button></div>`;
   }
 
-  private findTable(claims: ErrorClaims, names: ReturnType<typeof namesOf>, results: Record<string, { value?: number; unit?: string; si?: number; notReached?: boolean; message?: string }>) {
+  private findTable(claims: ErrorClaims, names: StudyName[], results: Record<string, FindResult>) {
     const finds = this.cell.find ?? [];
     return html`<div class="scroll"><table class="finds">
       ${finds.length ? html`<thead><tr><th>Name</th><th>Question</th><th>Of</th><th>Level or time</th><th>Answer</th><th></th></tr></thead>` : nothing}
@@ -123,21 +121,20 @@ export class SimulateCellElement extends LitElement {
           <td><input class="name" type="text" aria-label="Question ${i + 1} state" .value=${String(f[kind] ?? '')} @input=${(e: Event) => this.setFind(i, { ...f, [kind]: (e.target as HTMLInputElement).value }, `fstate${i}`)} /></td>
           <td>${needsLevel || kind === 'valueOf' ? html`<expr-field label="Question ${i + 1} ${needsLevel ? 'level' : 'time'}" .value=${(needsLevel ? f.level : f.at) ?? ''} .names=${names}
             .error=${claims.take(`${p}.${needsLevel ? 'level' : 'at'}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setFind(i, { ...f, [needsLevel ? 'level' : 'at']: e.detail.value }, `flevel${i}`)}></expr-field>` : nothing}</td>
-          <td class="result">${r ? (r.notReached ? html`<span class="muted">${r.message}</span>` : showQ(r as { value: number; unit: string; si: number })) : ''}${r && !r.notReached ? html`<unit-pick .unit=${r.unit ?? ''} .picked=${f.unit} label="Show ${f.name} in another unit"
+          <td class="result">${!r ? '' : 'notReached' in r ? html`<span class="muted">${r.message}</span>` : showQ(r)}${r && !('notReached' in r) ? html`<unit-pick .unit=${r.unit} .picked=${f.unit} label="Show ${f.name} in another unit"
               @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.setFind(i, withUnit(f, e.detail.unit))}></unit-pick>` : nothing}
             ${footError(claims.take(p) ?? claims.take(`${p}.unit`))}</td>
-          <td><button class="quiet" aria-label="Remove question ${i + 1}" @click=${() => this.change({ find: finds.filter((_, j) => j !== i) })}>✕</button></td>
+          <td><button class="quiet" aria-label="Remove question ${i + 1}" @click=${() => this.edit({ find: finds.filter((_, j) => j !== i) })}>✕</button></td>
         </tr>`;
       })}</tbody></table></div>
-      <div class="row"><button @click=${() => this.change({ find: [...finds, { name: freshFindName(finds), maximum: this.firstState() } as FindDoc] })}>Ask a question</button></div>`;
+      <div class="row"><button @click=${() => this.edit({ find: [...finds, { name: freshFindName(finds), maximum: this.firstState() } as FindDoc] })}>Ask a question</button></div>`;
   }
 
-  private closedForm() {
-    const cf = this.report?.closedForm as Record<string, Record<string, unknown>> | undefined;
+  private closedForm(cf: Record<string, ClosedFormReport> | undefined) {
     if (!cf) return nothing;
     return html`${Object.entries(cf).map(([state, e]) => html`<p class="muted">Exact solution (${state} linear in itself):
-      time constant ${showQ(e.timeConstant as never)}, ${e.halfLife ? html`half-life ${showQ(e.halfLife as never)}` : html`doubling time ${showQ(e.doublingTime as never)}`},
-      settles toward ${showQ(e.equilibrium as never)} with the starting values; this run differs from it by at most ${showQ(e.maxError as never, 2)}.</p>`)}`;
+      time constant ${showQ(e.timeConstant)}, ${e.halfLife ? html`half-life ${showQ(e.halfLife)}` : html`doubling time ${showQ(e.doublingTime)}`},
+      settles toward ${showQ(e.equilibrium)} with the starting values; this run differs from it by at most ${showQ(e.maxError, 2)}.</p>`)}`;
   }
 
   private firstState(): string {
@@ -146,7 +143,7 @@ export class SimulateCellElement extends LitElement {
     return typeof rc?.state === 'string' ? rc.state : 'y';
   }
 
-  private downloadCsv(plot: Plot) {
+  private downloadCsv(plot: SimulationPlot) {
     const data = { t: plot.t, ...Object.fromEntries(plot.states.map((s) => [s.name, s.values])) };
     const text = exportSeriesCsv(data, [{ key: 't', label: `t (${plot.timeUnit})` }, ...plot.states.map((s) => ({ key: s.name, label: `${s.name} (${s.unit})` }))]);
     const a = document.createElement('a');
@@ -158,20 +155,17 @@ export class SimulateCellElement extends LitElement {
 
   private setRates(id: string, on: boolean) {
     const rates = (this.cell.rates ?? []).filter((r) => r !== id);
-    this.change({ rates: on ? [...rates, id] : rates });
+    this.edit({ rates: on ? [...rates, id] : rates });
   }
 
   private setEvent(i: number, ev: EventDoc, key?: string) {
-    this.change({ events: (this.cell.events ?? []).map((x, j) => (j === i ? ev : x)) }, key);
+    this.edit({ events: (this.cell.events ?? []).map((x, j) => (j === i ? ev : x)) }, key);
   }
 
   private setFind(i: number, f: FindDoc, key?: string) {
-    this.change({ find: (this.cell.find ?? []).map((x, j) => (j === i ? f : x)) }, key);
+    this.edit({ find: (this.cell.find ?? []).map((x, j) => (j === i ? f : x)) }, key);
   }
 
-  private change(patch: Partial<SimulateCellDoc>, key?: string) {
-    this.dispatchEvent(editEvent({ ...this.cell, ...patch }, key ? `${this.cell.id}:${key}` : undefined));
-  }
 }
 
 function withOptional<T extends object>(o: T, key: string, v: unknown): T {

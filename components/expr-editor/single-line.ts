@@ -29,8 +29,8 @@ const joinBreaks = EditorState.transactionFilter.of((tr) => {
 });
 
 /**
- * One line, with `commit` run on Enter. Enter still accepts an open completion first: the
- * completion keymap has the highest precedence.
+ * One line, with `commit` run on Enter. Enter accepts a completion option first when the user
+ * selected one in the list: the completion keys (`complete-keys.ts`) have the highest precedence.
  */
 export function singleLine(commit: (view: EditorView) => void): Extension {
   const run = (view: EditorView) => {

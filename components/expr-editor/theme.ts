@@ -38,6 +38,8 @@ export const fieldTheme = EditorView.theme({
     color: INK,
     boxShadow: '0 2px 6px rgb(0 0 0 / 0.15)',
   },
+  // the list drops below the whole field (its padding and border), not just below the text
+  '.cm-tooltip.cm-tooltip-autocomplete.cm-tooltip-below': { marginTop: '1rem' },
   '.cm-tooltip.cm-tooltip-autocomplete > ul': {
     fontFamily: 'ui-monospace, "SFMono-Regular", Menlo, Consolas, monospace',
     maxHeight: '14em',

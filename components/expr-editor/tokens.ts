@@ -4,8 +4,7 @@
  * what the text means, and the tokenizer never refuses anything (unknown characters become
  * 'other').
  */
-import { lookupUnit } from '../../src/units/units.ts';
-import { constantNames, functionNames } from '../../src/expression/vocabulary.ts';
+import { constantNames, functionNames, lookupUnit } from '../../src/index.ts';
 
 export type TokenKind = 'number' | 'word' | 'operator' | 'conditional' | 'bracket' | 'comma' | 'other';
 

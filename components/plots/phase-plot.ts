@@ -7,7 +7,7 @@
  */
 import { LitElement, html, nothing, type PropertyValues } from 'lit';
 import uPlot from 'uplot';
-import { formatNumber } from '../../src/index.ts';
+import { formatNumber, type ReportQuantity } from '../../src/index.ts';
 import { ChartController, type ChartSpec } from './chart-controller.ts';
 import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf } from './axes.ts';
@@ -15,8 +15,8 @@ import { drawOverlay, around, curveBoxes, type PointLabel } from './overlay.ts';
 import { FIELD_MARK, INK, MUTED, STABLE, UNSTABLE, ZERO_LINE } from './palette.ts';
 import { drawEquilibriumDot, equilibriumKey, type Stability } from './equilibrium-dot.ts';
 
-/** A quantity as the report gives it, in display units. */
-export interface ShownQuantity { readonly value: number; readonly unit: string; readonly si?: number }
+/** A quantity as the report gives it, in display units; the chart reads its value and unit. */
+export type ShownQuantity = Readonly<Partial<ReportQuantity> & Pick<ReportQuantity, 'value' | 'unit'>>;
 
 /** The phase cell's `plot`. */
 export interface PhasePlotData {

@@ -5,7 +5,7 @@
  */
 import { LitElement, html, nothing, type PropertyValues } from 'lit';
 import uPlot from 'uplot';
-import { formatNumber, unitAfterNumber } from '../../src/index.ts';
+import { formatNumber, unitAfterNumber, type ReportQuantity } from '../../src/index.ts';
 import { ChartController, type ChartSpec } from './chart-controller.ts';
 import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf } from './axes.ts';
@@ -13,7 +13,8 @@ import { drawOverlay, around, curveBoxes, type PointLabel } from './overlay.ts';
 import { FOLD, STABLE, UNSTABLE } from './palette.ts';
 import type { Stability } from './equilibrium-dot.ts';
 
-interface ShownQuantity { readonly value: number; readonly unit: string; readonly si?: number }
+/** A quantity as the report gives it; the chart reads its value and unit. */
+type ShownQuantity = Readonly<Partial<ReportQuantity> & Pick<ReportQuantity, 'value' | 'unit'>>;
 
 /** The phase cell's `sweep`. */
 export interface SweepData {

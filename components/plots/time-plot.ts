@@ -8,8 +8,7 @@
  */
 import { LitElement, html, nothing, type PropertyValues } from 'lit';
 import uPlot from 'uplot';
-import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
-import { formatNumber } from '../../src/index.ts';
+import { formatNumber, type SimulationPlot } from '../../src/index.ts';
 import { ChartController, type ChartSpec } from './chart-controller.ts';
 import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf, tickLabels } from './axes.ts';

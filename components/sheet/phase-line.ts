@@ -4,10 +4,11 @@
  * an arrow on each interval pointing the way the state moves there.
  */
 import { svg, type SVGTemplateResult } from 'lit';
-import { formatNumber } from '../../src/index.ts';
+import { formatNumber, type ReportQuantity } from '../../src/index.ts';
 import { INK, STABLE, UNSTABLE } from '../plots/palette.ts';
 
-type Q = { readonly value: number; readonly unit: string };
+/** A quantity as the report gives it; the line reads its value and unit. */
+type Q = Readonly<Pick<ReportQuantity, 'value' | 'unit'>>;
 export interface PhaseLineSpec {
   readonly state: string;
   readonly from: number;

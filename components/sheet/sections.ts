@@ -4,16 +4,14 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import type { Cell, CellReport, StudyTex } from '../../src/index.ts';
-import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
+import { nameTex, type Cell, type CellReport, type ReportOf, type SimulationPlot, type SweepReport, type StudyTex } from '../../src/index.ts';
+import { isKind } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
 import { STABLE, UNSTABLE } from '../plots/palette.ts';
 import { math } from './math.ts';
-import { nameTex } from '../../src/expression/tex.ts';
 
-type Q = { value: number; unit: string; si: number };
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
 
 /** Definitions longer than this (characters of source) are typeset on a row of their own. */
@@ -37,21 +35,21 @@ export function glance(study: { cells: readonly Cell[] }, report: { cells: reado
     const from = cell.title || cell.id;
     // verdicts (parameters that are conditions) belong at the top
     if (cell.kind === 'parameters') {
-      for (const [name, q] of Object.entries((r.values ?? {}) as Record<string, Q & { truth?: boolean }>)) {
-        if (typeof q.truth === 'boolean') verdicts.push({ name, shown: showValue(q), from });
+      for (const [name, q] of Object.entries(r.values ?? {})) {
+        if ('truth' in q && typeof q.truth === 'boolean') verdicts.push({ name, shown: showValue(q), from });
       }
     }
     if (!r.ok) continue;
     if (cell.kind === 'simulate') {
-      for (const [name, x] of Object.entries((r.results ?? {}) as Record<string, Q | { notReached: true; end: Q }>)) {
+      for (const [name, x] of Object.entries(r.results ?? {})) {
         rows.push({ name, shown: 'notReached' in x ? `not reached by ${showQ(x.end)}` : showQ(x), from });
       }
     } else if (cell.kind === 'fit') {
-      for (const [name, e] of Object.entries((r.estimates ?? {}) as Record<string, { value: Q; standardError: Q | null }>)) {
+      for (const [name, e] of Object.entries(r.estimates ?? {})) {
         rows.push({ name, shown: `${showQ(e.value)}${e.standardError ? ` ± ${showQ(e.standardError)} (SE)` : ''}`, from });
       }
     } else if (cell.kind === 'nca') {
-      for (const [name, q] of Object.entries((r.values ?? {}) as Record<string, Q>)) {
+      for (const [name, q] of Object.entries(r.values ?? {})) {
         if (/(Cmax|tmax|AUCinf|t_half|CL|Vz)$/.test(name)) rows.push({ name, shown: showQ(q), from });
       }
     }
@@ -74,20 +72,19 @@ export function section(cell: Cell, r: CellReport | undefined, tex: StudyTex, ce
 }
 
 function bodyOf(cell: Cell, r: CellReport, tex: StudyTex, cells: readonly Cell[]): TemplateResult {
-  switch (cell.kind) {
-    case 'note': return html`<p class="note-text">${typeof cell.text === 'string' ? cell.text : ''}</p>`;
-    case 'parameters': return parameters(cell, r, tex);
-    case 'rate': return rate(cell, r, tex);
-    case 'phase': return phase(cell, r, (cells.find((c) => c.id === cell.rate) as Of<'rate'> | undefined)?.state ?? '');
-    case 'simulate': return simulate(cell, r);
-    case 'data': return data(cell, r);
-    case 'fit': return fit(cell, r);
-    case 'nca': return nca(cell, r);
-  }
+  if (cell.kind === 'note') return html`<p class="note-text">${typeof cell.text === 'string' ? cell.text : ''}</p>`;
+  if (cell.kind === 'parameters' && isKind(r, 'parameters')) return parameters(cell, r, tex);
+  if (cell.kind === 'rate' && isKind(r, 'rate')) return rate(cell, r, tex);
+  if (cell.kind === 'phase' && isKind(r, 'phase')) return phase(cell, r, (cells.find((c) => c.id === cell.rate) as Of<'rate'> | undefined)?.state ?? '');
+  if (cell.kind === 'simulate' && isKind(r, 'simulate')) return simulate(cell, r);
+  if (cell.kind === 'data' && isKind(r, 'data')) return data(cell, r);
+  if (cell.kind === 'fit' && isKind(r, 'fit')) return fit(cell, r);
+  if (cell.kind === 'nca' && isKind(r, 'nca')) return nca(cell, r);
+  return html`<p class="muted">Not computed.</p>`;
 }
 
-function parameters(cell: Of<'parameters'>, r: CellReport, tex: StudyTex): TemplateResult {
-  const values = (r.values ?? {}) as Record<string, Q>;
+function parameters(cell: Of<'parameters'>, r: ReportOf<'parameters'>, tex: StudyTex): TemplateResult {
+  const values = r.values ?? {};
   const items = Array.isArray(cell.items) ? cell.items : [];
   // A long definition gets a row of its own under its name, across the table.
   return html`<table class="parameters">
@@ -103,20 +100,20 @@ function parameters(cell: Of<'parameters'>, r: CellReport, tex: StudyTex): Templ
     })}</tbody></table>`;
 }
 
-function rate(cell: Of<'rate'>, r: CellReport, tex: StudyTex): TemplateResult {
+function rate(cell: Of<'rate'>, r: ReportOf<'rate'>, tex: StudyTex): TemplateResult {
   const t = tex.rates.get(cell.id);
   return html`<div class="equation">${t ? math(t, true) : html`<code>d${cell.state}/dt = ${cell.rate}</code>`}</div>
-    <p>State <strong>${cell.state}</strong>, shown in ${cell.unit}; starts at <code>${cell.initial}</code> = ${showQ(r.initial as Q)};
-    at the start it changes by ${showQ(r.rateAtStart as Q)}.</p>`;
+    <p>State <strong>${cell.state}</strong>, shown in ${cell.unit}; starts at <code>${cell.initial}</code> = ${showQ(r.initial)};
+    at the start it changes by ${showQ(r.rateAtStart)}.</p>`;
 }
 
-function phase(cell: Of<'phase'>, r: CellReport, state: string): TemplateResult {
-  const eqs = (r.equilibria ?? []) as Array<Q & { stability: string; slope: Q }>;
-  const plot = r.plot as { stateUnit: string; rateUnit: string; y: Array<number | null>; f: Array<number | null> } | undefined;
+function phase(cell: Of<'phase'>, r: ReportOf<'phase'>, state: string): TemplateResult {
+  const eqs = r.equilibria ?? [];
+  const plot = r.plot;
   const ys = (plot?.y ?? []).filter((v): v is number => v !== null);
-  const sweep = r.sweep as { parameter: string; branches: Array<Array<{ parameter: Q; value: Q; stability: string }>>; folds: Array<{ parameter: Q; value: Q }> } | undefined;
+  const sweep = r.sweep;
   return html`
-    ${ys.length > 1 ? html`<figure>${phaseLine({ state, from: ys[0], to: ys[ys.length - 1], unit: plot!.stateUnit, equilibria: eqs, intervals: (r.intervals ?? []) as never })}</figure>` : nothing}
+    ${ys.length > 1 ? html`<figure>${phaseLine({ state, from: ys[0], to: ys[ys.length - 1], unit: plot!.stateUnit, equilibria: eqs, intervals: r.intervals ?? [] })}</figure>` : nothing}
     ${eqs.length ? html`<table><thead><tr><th>Equilibrium</th><th>Stability</th><th>Slope of the rate there</th></tr></thead>
       <tbody>${eqs.map((e) => html`<tr><td class="num">${showQ(e)}</td><td>${e.stability}</td><td class="num">${showQ(e.slope)}</td></tr>`)}</tbody></table>`
       : html`<p>No equilibrium in the range ${cell.from} to ${cell.to}.</p>`}
@@ -126,7 +123,7 @@ function phase(cell: Of<'phase'>, r: CellReport, state: string): TemplateResult 
     ${sweep ? sweepPart(cell, sweep) : nothing}`;
 }
 
-function sweepPart(cell: Of<'phase'>, sweep: { branches: Array<Array<{ parameter: Q; value: Q; stability: string }>>; folds: Array<{ parameter: Q; value: Q }> }): TemplateResult {
+function sweepPart(cell: Of<'phase'>, sweep: SweepReport): TemplateResult {
   const first = sweep.branches.find((b) => b.length)?.[0];
   // each branch in pieces of one stability: attractors solid, the rest dashed, one legend entry per kind
   const lines: ChartLine[] = [];
@@ -150,19 +147,19 @@ function sweepPart(cell: Of<'phase'>, sweep: { branches: Array<Array<{ parameter
       : html`<p>No fold: no two equilibria meet in this range.</p>`}`;
 }
 
-function simulate(cell: Of<'simulate'>, r: CellReport): TemplateResult {
-  const results = (r.results ?? {}) as Record<string, Q | { notReached: true; message: string }>;
+function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>): TemplateResult {
+  const results = r.results ?? {};
   const answer = (name: string) => {
     const x = results[name];
     return !x ? 'not found' : 'notReached' in x ? x.message : showQ(x);
   };
   const finds = Array.isArray(cell.find) ? cell.find : [];
   const events = Array.isArray(cell.events) ? cell.events : [];
-  const plot = r.plot as SimulationPlot | undefined;
-  const questions = (r.questions ?? {}) as Record<string, string>;
-  const closed = (r.closedForm ?? {}) as Record<string, { maxError: Q; timeConstant?: Q; halfLife?: Q; equilibrium?: Q }>;
+  const plot = r.plot;
+  const questions = r.questions ?? {};
+  const closed = r.closedForm ?? {};
   return html`
-    <p>From ${cell.from} to ${cell.to}; laws ${(cell.rates ?? []).join(', ')}; method ${r.method as string} (${r.steps as number} steps, ${r.evaluations as number} evaluations of the rates).</p>
+    <p>From ${cell.from} to ${cell.to}; laws ${(cell.rates ?? []).join(', ')}; method ${r.method} (${r.steps} steps, ${r.evaluations} evaluations of the rates).</p>
     ${events.length ? html`<table><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e) => html`<tr>
       <td>${e.at}</td><td>${e.every ? `every ${e.every}, ${e.count ?? 1} times` : 'once'}</td>
       <td>${e.add ? `add ${Object.entries(e.add).map(([k, v]) => `${v} to ${k}`).join(', ')}` : e.set ? `set ${Object.entries(e.set).map(([k, v]) => `${k} = ${v}`).join(', ')}` : e.infuse ? `infuse ${Object.entries(e.infuse).map(([k, v]) => `${v} into ${k}`).join(', ')} for ${e.for}` : ''}</td></tr>`)}</tbody></table>` : nothing}
@@ -189,32 +186,32 @@ function timeChart(plot: SimulationPlot): TemplateResult {
   })}</figure>`;
 }
 
-function data(cell: Of<'data'>, r: CellReport): TemplateResult {
+function data(cell: Of<'data'>, r: ReportOf<'data'>): TemplateResult {
   const columns = (Array.isArray(cell.columns) ? cell.columns : []) as Array<{ name: string; unit?: string }>;
   const rows = Array.isArray(cell.rows) ? cell.rows : null;
-  return html`<p>${r.rowCount as number} rows${rows ? '' : ' (given as CSV)'}.</p>
+  return html`<p>${r.rowCount} rows${rows ? '' : ' (given as CSV)'}.</p>
     ${rows ? html`<table class="data"><thead><tr>${columns.map((c) => html`<th>${c.name}${c.unit ? ` (${c.unit})` : ''}</th>`)}</tr></thead>
       <tbody>${rows.map((row) => html`<tr>${(row as unknown[]).map((v) => html`<td class="num">${v === null ? '' : String(v)}</td>`)}</tr>`)}</tbody></table>`
     : html`<pre>${typeof cell.csv === 'string' ? cell.csv : ''}</pre>`}`;
 }
 
-function fit(cell: Of<'fit'>, r: CellReport): TemplateResult {
-  const est = (r.estimates ?? {}) as Record<string, { value: Q; standardError: Q | null; ci95: [Q, Q] | null }>;
-  const plot = r.plot as SimulationPlot | undefined;
+function fit(cell: Of<'fit'>, r: ReportOf<'fit'>): TemplateResult {
+  const est = r.estimates ?? {};
+  const plot = r.plot;
   return html`<table class="results"><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead>
     <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
-    <p class="check">Fit diagnostics: ${r.n as number} points, ${r.dof as number} degrees of freedom, residual SD ${showQ(r.residualSD as Q)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations as number} iterations (${r.message as string}).</p>
+    <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, residual SD ${showQ(r.residualSD)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message}).</p>
     <div class="keep">${plot ? timeChart(plot) : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>`;
 }
 
-function nca(cell: Of<'nca'>, r: CellReport): TemplateResult {
-  const values = (r.values ?? {}) as Record<string, Q | null>;
-  const used = r.pointsUsed as { count: number; times: Q[] } | undefined;
+function nca(cell: Of<'nca'>, r: ReportOf<'nca'>): TemplateResult {
+  const values = r.values ?? {};
+  const used = r.pointsUsed;
   return html`<p>Route ${cell.route}; areas by the ${cell.auc} rule; dose <code>${cell.dose}</code>.</p>
     <table class="results"><thead><tr><th>Result</th><th>Value</th></tr></thead>
     <tbody>${Object.entries(values).map(([name, q]) => html`<tr><td class="name">${name}</td><td class="num answer">${q ? showQ(q) : 'not available'}</td></tr>`)}</tbody></table>
     ${used ? html`<p class="check">Terminal phase fitted on ${used.count} points, at ${used.times.map((t) => showQ(t)).join(', ')}.</p>` : nothing}
-    ${((r.warnings ?? []) as string[]).map((w) => html`<p class="check">Note: ${w}</p>`)}`;
+    ${(r.warnings ?? []).map((w) => html`<p class="check">Note: ${w}</p>`)}`;
 }

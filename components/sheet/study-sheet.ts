@@ -1,6 +1,5 @@
 import { LitElement, html, css, nothing } from 'lit';
-import type { Report, Study, StudyTex } from '../../src/index.ts';
-import { studyTex } from '../../src/output/sheet-tex.ts';
+import { studyTex, type Report, type Study, type StudyTex } from '../../src/index.ts';
 import { section, glance } from './sections.ts';
 
 /** What the sheet's header says about the stored study. */

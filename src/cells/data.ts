@@ -7,13 +7,14 @@
 import type { DataCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Outcome } from '../engine/node.ts';
 import { cellRef } from '../engine/node.ts';
+import type { NodeOutput } from '../engine/report.ts';
 import { type Field, field, unitOf, FieldError, guarded } from './fields.ts';
 import { fromUnit } from '../units/quantity.ts';
 import { type DisplayUnit, formatUnit } from '../units/units.ts';
 import { unitFromText } from '../expression/unit-text.ts';
 import { type CsvRead, type DeclaredColumn, readCsvTable } from '../csv/read.ts';
 
-export function dataNodes(cell: DataCell, at: string): GraphNode[] {
+export function dataNodes(cell: DataCell, at: string): Array<GraphNode<NodeOutput<'data'>>> {
   const problems: CellError[] = [];
   const columns = Array.isArray(cell.columns) ? cell.columns : [];
   const units = columns.map((c, i) => field(c?.unit, `${at}.columns[${i}].unit`, problems));
@@ -36,12 +37,12 @@ function columnUnit(f: Field): DisplayUnit {
   return unitOf(f);
 }
 
-function runData(cell: DataCell, at: string, unitFields: Field[]): Outcome {
+function runData(cell: DataCell, at: string, unitFields: Field[]): Outcome<NodeOutput<'data'>> {
   const units = unitFields.map(columnUnit);
   const names = cell.columns.map((c) => c.name);
   const read = cell.csv !== undefined ? readCsvTable(cell.csv, cell.columns) : undefined;
   if (read && !read.ok) {
-    return { ok: false, error: { path: `${at}.csv`, message: read.message }, output: { csv: { notes: read.notes, ...(read.problems.length ? { problems: read.problems } : {}) } } };
+    return { ok: false, error: { kind: 'invalid', path: `${at}.csv`, message: read.message }, output: { csv: { notes: read.notes, ...(read.problems.length ? { problems: read.problems } : {}) } } };
   }
   // CSV numbers are in the header's unit where it gives one (converted to SI all the same)
   const inUnits = read ? read.columns.map((c, i) => (c.unitFrom === 'cell' ? units[i] : unitFromText(c.unit) ?? units[i])) : units;
@@ -50,22 +51,22 @@ function runData(cell: DataCell, at: string, unitFields: Field[]): Outcome {
   let last = -Infinity;
   const rows = raw.map((row, r) => {
     const path = read ? `${at}.csv` : `${at}.rows[${r}]`;
-    if (!Array.isArray(row) || row.length !== names.length) throw new FieldError({ path, message: `row ${r + 1} has ${Array.isArray(row) ? row.length : 0} values; the table has ${names.length} columns (${names.join(', ')})` });
+    if (!Array.isArray(row) || row.length !== names.length) throw new FieldError({ kind: 'invalid', path, message: `row ${r + 1} has ${Array.isArray(row) ? row.length : 0} values; the table has ${names.length} columns (${names.join(', ')})` });
     return row.map((v, c) => {
       if (v === null) {
-        if (c === 0) throw new FieldError({ path, message: `row ${r + 1} has no time (${names[0]})` });
+        if (c === 0) throw new FieldError({ kind: 'invalid', path, message: `row ${r + 1} has no time (${names[0]})` });
         missing.push(`row ${r + 1}, ${names[c]}`);
         return null;
       }
-      if (typeof v !== 'number' || !Number.isFinite(v)) throw new FieldError({ path, message: `row ${r + 1}, ${names[c]}: ${JSON.stringify(v)} is not a number` });
+      if (typeof v !== 'number' || !Number.isFinite(v)) throw new FieldError({ kind: 'invalid', path, message: `row ${r + 1}, ${names[c]}: ${JSON.stringify(v)} is not a number` });
       if (c === 0) {
-        if (v < last) throw new FieldError({ path, message: `row ${r + 1}: the time ${v} goes backwards (the row before has ${last})` });
+        if (v < last) throw new FieldError({ kind: 'invalid', path, message: `row ${r + 1}: the time ${v} goes backwards (the row before has ${last})` });
         last = v;
       }
       return fromUnit(v, inUnits[c]).si;
     });
   });
-  if (rows.length === 0) throw new FieldError({ path: `${at}.rows`, message: 'the table has no rows' });
+  if (rows.length === 0) throw new FieldError({ kind: 'invalid', path: `${at}.rows`, message: 'the table has no rows' });
   const table = { columns: names.map((name, i) => ({ name, unit: units[i] })), rows };
   const binding: Binding = { kind: 'data', cell: cell.id, table, sig: JSON.stringify([names, units, rows]) };
   return {

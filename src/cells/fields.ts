@@ -6,12 +6,13 @@ import { parseExpression, type ParseResult } from '../expression/parse.ts';
 import { symbolsOf, type Expr } from '../expression/ast.ts';
 import { evaluateExpression, type Lookup, type Value } from '../expression/evaluate.ts';
 import { literalOf, type Literal } from '../expression/literal.ts';
-import type { CellError, Outcome, RunContext, Use } from '../engine/node.ts';
+import type { CellError, Outcome, ProblemKind, RunContext, Use } from '../engine/node.ts';
 import type { Quantity } from '../units/quantity.ts';
 import { describe, plain } from '../units/quantity.ts';
 import { unitDim, type DisplayUnit } from '../units/units.ts';
 import { TIME, sameDim, describeDim } from '../units/dimension.ts';
 import { unitFromText } from '../expression/unit-text.ts';
+import { findWord } from '../expression/find-word.ts';
 
 export interface Field {
   readonly path: string;
@@ -23,7 +24,7 @@ const CACHE_LIMIT = 5000;
 const cache = new Map<string, ParseResult>();
 
 /** parseExpression with a bounded cache keyed by the text. */
-export function parseCached(text: string): ParseResult {
+function parseCached(text: string): ParseResult {
   let r = cache.get(text);
   if (!r) {
     r = parseExpression(text);
@@ -36,12 +37,12 @@ export function parseCached(text: string): ParseResult {
 /** Parses the expression at `path`; on failure records a problem and returns undefined. */
 export function field(value: unknown, path: string, problems: CellError[]): Field | undefined {
   if (typeof value !== 'string') {
-    problems.push({ path, message: value === undefined ? 'is missing' : 'must be an expression written as text' });
+    problems.push({ kind: 'shape', path, message: value === undefined ? 'is missing' : 'must be an expression written as text' });
     return undefined;
   }
   const r = parseCached(value);
   if (!r.ok) {
-    problems.push({ path, message: `${label(path)} ${r.error.message}`, ...(r.error.span ? { span: r.error.span } : {}) });
+    problems.push({ kind: 'syntax', path, message: `${label(path)} ${r.error.message}`, ...(r.error.span ? { span: r.error.span } : {}) });
     return undefined;
   }
   return { path, text: value, expr: r.expr };
@@ -78,10 +79,16 @@ export function lookupFrom(ctx: RunContext, extra?: ReadonlyMap<string, Quantity
 /** The time `t` while a law is checked: the start of a run. */
 export const TIME_ZERO: Quantity = { ...plain(0), dim: TIME, unit: [['s', 1]] };
 
+/** A problem on one field, thrown inside a node's run and turned into its error by `guarded`. */
 export class FieldError extends Error {
   constructor(readonly error: CellError) {
     super(error.message);
   }
+}
+
+/** Throws the problem `kind` on the field at `path`. */
+export function fail(path: string, message: string, kind: ProblemKind = 'invalid'): never {
+  throw new FieldError({ kind, path, message });
 }
 
 /**
@@ -92,15 +99,15 @@ export class FieldError extends Error {
 export function shownAs(q: Quantity, text: unknown, path: string): Quantity {
   if (typeof text !== 'string' || text.trim() === '') return q;
   const unit = unitFromText(text);
-  if (!unit) throw new FieldError({ path, message: `"${text}" is not a unit (write it as in a value, such as mg / L or degF)` });
+  if (!unit) throw new FieldError({ kind: 'unit', path, message: `"${text}" is not a unit (write it as in a value, such as mg / L or degF)` });
   if (!sameDim(unitDim(unit), q.dim)) {
-    throw new FieldError({ path, message: `${describe(q)} cannot be shown in ${text}: it is ${describeDim(q.dim)}, and ${text} is ${describeDim(unitDim(unit))}` });
+    throw new FieldError({ kind: 'unit', path, message: `${describe(q)} cannot be shown in ${text}: it is ${describeDim(q.dim)}, and ${text} is ${describeDim(unitDim(unit))}` });
   }
   return { ...q, unit };
 }
 
 /** Runs a node's work; a FieldError thrown inside becomes the node's error on its field. */
-export function guarded(run: () => Outcome): Outcome {
+export function guarded<O extends object>(run: () => Outcome<O>): Outcome<O> {
   try {
     return run();
   } catch (err) {
@@ -113,8 +120,8 @@ export function guarded(run: () => Outcome): Outcome {
 export function valueOf(f: Field, lookup: Lookup): Value {
   const r = evaluateExpression(f.expr, lookup);
   if (!r.ok) {
-    const span = r.error.token ? findToken(f.text, r.error.token) : undefined;
-    throw new FieldError({ path: f.path, message: `${label(f.path)}: ${r.error.message}`, ...(span ? { span } : {}) });
+    const span = r.error.token ? findWord(f.text, r.error.token) : undefined;
+    throw new FieldError({ kind: r.error.units ? 'unit' : 'invalid', path: f.path, message: `${label(f.path)}: ${r.error.message}`, ...(span ? { span } : {}) });
   }
   return r.value;
 }
@@ -123,7 +130,7 @@ export function valueOf(f: Field, lookup: Lookup): Value {
 export function quantityOf(f: Field, lookup: Lookup): Quantity {
   const r = { value: valueOf(f, lookup) };
   if (typeof r.value === 'boolean') {
-    throw new FieldError({ path: f.path, message: `${label(f.path)} gives true/false; it must give a quantity` });
+    throw new FieldError({ kind: 'invalid', path: f.path, message: `${label(f.path)} gives true/false; it must give a quantity` });
   }
   return r.value;
 }
@@ -137,7 +144,7 @@ export function finiteQuantityOf(f: Field, lookup: Lookup): Quantity {
 export function finite(f: Field, q: Quantity): Quantity {
   if (!Number.isFinite(q.si)) {
     const why = Number.isNaN(q.si) ? 'is not a number (a logarithm or square root of a negative value?)' : 'is infinite (a division by zero?)';
-    throw new FieldError({ path: f.path, message: `${label(f.path)} ${why}: ${describe(q)}` });
+    throw new FieldError({ kind: 'numeric', path: f.path, message: `${label(f.path)} ${why}: ${describe(q)}` });
   }
   return q;
 }
@@ -146,12 +153,8 @@ export function finite(f: Field, q: Quantity): Quantity {
 export function unitOf(f: Field): DisplayUnit {
   const lit: Literal | null = literalOf(f.expr, () => false, new WeakMap());
   if (lit && lit.unit.length === 0 && lit.coef === 1 && f.text.trim() === '1') return lit.unit;
-  if (!lit || lit.unit.length === 0) throw new FieldError({ path: f.path, message: `unit "${f.text}" is not a unit: write one such as degC, mg / L or 1 / h (or 1 for a plain number)` });
-  if (lit.coef !== 1) throw new FieldError({ path: f.path, message: `unit "${f.text}" must be a unit without a number, such as mg / L` });
+  if (!lit || lit.unit.length === 0) throw new FieldError({ kind: 'unit', path: f.path, message: `unit "${f.text}" is not a unit: write one such as degC, mg / L or 1 / h (or 1 for a plain number)` });
+  if (lit.coef !== 1) throw new FieldError({ kind: 'unit', path: f.path, message: `unit "${f.text}" must be a unit without a number, such as mg / L` });
   return lit.unit;
 }
 
-function findToken(text: string, token: string): readonly [number, number] | undefined {
-  const m = new RegExp(`(?<![A-Za-z0-9_])${token.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}(?![A-Za-z0-9_])`).exec(text);
-  return m ? [m.index, m.index + token.length] : undefined;
-}

@@ -5,18 +5,24 @@
  * fit follow the data.
  */
 import type { FitCell } from '../study/types.ts';
-import type { Binding, CellError, DataTable, GraphNode, Law, Outcome, RunContext, Use } from '../engine/node.ts';
-import { cellRef } from '../engine/node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
+import type { Binding, CellError, GraphNode, Law, MeasuredSeries, Outcome, RunContext, Use } from '../engine/node.ts';
+import { cellRef, measuredRef } from '../engine/node.ts';
+import type { EstimateReport, FitFields, NodeOutput } from '../engine/report.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, fail, guarded, shownAs } from './fields.ts';
 import { type Quantity, report, describe, deltaUnit, valueIn } from '../units/quantity.ts';
 import { sameDim, describeDim, TIME } from '../units/dimension.ts';
-import { formatUnit, unitDim } from '../units/units.ts';
+import { type DisplayUnit, formatUnit, unitDim } from '../units/units.ts';
 import { fitLeastSquares } from '../numerics/fit/least-squares.ts';
 import { runModelAt, type ModelSpec } from '../simulate/model-run.ts';
 import { collectLaws } from './laws.ts';
+import { measuredPoints, type SimulationPlot } from '../simulate/plot-data.ts';
 import { quantitySig } from './signatures.ts';
 
-export function fitNodes(cell: FitCell, at: string): GraphNode[] {
+/**
+ * One node: it defines each estimate under its `as` name, and the measurements it fits, by
+ * state, under the hidden name `#id/measured` (plots of those states show them).
+ */
+export function fitNodes(cell: FitCell, at: string): Array<GraphNode<NodeOutput<'fit'>>> {
   const problems: CellError[] = [];
   const estimates = Array.isArray(cell.estimate) ? cell.estimate : [];
   const fields = estimates.map((e, i) => ({
@@ -31,7 +37,11 @@ export function fitNodes(cell: FitCell, at: string): GraphNode[] {
   return [{
     key: `${cell.id}/fit`,
     cell: cell.id,
-    defines: estimates.flatMap((e, i) => (typeof e?.as === 'string' ? [{ name: e.as, path: `${at}.estimate[${i}].as` }] : [])),
+    defines: [
+      ...estimates.flatMap((e, i) => (typeof e?.as === 'string' ? [{ name: e.as, path: `${at}.estimate[${i}].as` }] : [])),
+      { name: measuredRef(cell.id), path: `${at}.observe` },
+    ],
+    measures: { name: measuredRef(cell.id), states: cell.observe && typeof cell.observe === 'object' ? Object.keys(cell.observe) : [] },
     uses: [...usesOf(fields.flatMap((f) => [f.guess, f.min, f.max])), ...refs],
     allowsTime: false,
     allowsStates: true,
@@ -41,8 +51,6 @@ export function fitNodes(cell: FitCell, at: string): GraphNode[] {
     run: (ctx) => guarded(() => runFit(cell, at, fields as Array<{ guess: Field; min?: Field; max?: Field }>, ctx)),
   }];
 }
-
-const fail = (path: string, message: string): never => { throw new FieldError({ path, message }); };
 
 interface Unknown {
   readonly kind: 'parameter' | 'initial';
@@ -56,7 +64,7 @@ interface Unknown {
   readonly upper: number;
 }
 
-function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: Field; max?: Field }>, ctx: RunContext): Outcome {
+function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: Field; max?: Field }>, ctx: RunContext): Outcome<NodeOutput<'fit'>> {
   const laws = collectLaws(cell.rates, `${at}.rates`, ctx);
   const states = laws.map((l) => l.state);
   const params: string[] = [];
@@ -74,7 +82,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     return i;
   };
   const ti = colOf(cell.time, `${at}.time`);
-  if (!sameDim(unitDim(table.columns[ti].unit), TIME)) fail(`${at}.time`, `the column "${cell.time}" must hold times`);
+  if (!sameDim(unitDim(table.columns[ti].unit), TIME)) fail(`${at}.time`, `the column "${cell.time}" must hold times`, 'unit');
   const observed = Object.entries(cell.observe).map(([state, column]) => {
     const si = states.indexOf(state);
     if (si < 0) fail(`${at}.observe`, `"${state}" is not a state of the laws fitted (their states: ${states.join(', ')})`);
@@ -107,7 +115,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     const bound = (f: Field | undefined, what: string, dflt: number) => {
       if (!f) return dflt;
       const q = finiteQuantityOf(f, lookup);
-      if (!sameDim(q.dim, template.dim)) fail(f.path, `the ${what} must be ${describeDim(template.dim)} like ${e.parameter}; it is ${describe(q)}`);
+      if (!sameDim(q.dim, template.dim)) fail(f.path, `the ${what} must be ${describeDim(template.dim)} like ${e.parameter}; it is ${describe(q)}`, 'unit');
       return q.si;
     };
     const g = fields[i];
@@ -157,14 +165,15 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     residuals, m: points.length, p0: unknowns.map((u) => u.guess),
     lower: unknowns.map((u) => u.lower), upper: unknowns.map((u) => u.upper),
     scale: unknowns.map((u) => Math.abs(u.guess) || 1),
+    names: unknowns.map((u) => `"${u.as}"`),
   }, {
     // differences of a solver run (relative tolerance 1e-10) need a step near √rtol, not √ε
     diffStep: 1e-5,
   });
-  if (!fit.residuals) fail(at, `the fit could not start: ${fit.message}${fit.detail ? ` (${fit.detail})` : ''}${lastFailure ? `; the model failed: ${lastFailure}` : ''}`);
+  if (!fit.residuals) fail(at, `the fit could not start: ${fit.message}${fit.detail ? ` (${fit.detail})` : ''}${lastFailure ? `; the model failed: ${lastFailure}` : ''}`, 'numeric');
 
   // the answers
-  const estimates: Record<string, unknown> = {};
+  const estimates: Record<string, EstimateReport> = {};
   const bindings = new Map<string, Binding>();
   unknowns.forEach((u, k) => {
     const q: Quantity = { ...u.template, si: fit.p[k] };
@@ -173,7 +182,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
       value: report(q),
       ...(fit.standardErrors ? { standardError: report(delta(fit.standardErrors[k])) } : {}),
       ...(fit.ci95 ? { ci95: fit.ci95[k].map((x) => report({ ...q, si: x })) } : {}),
-      ...(fit.atBound[k] ? { atBound: true } : {}),
+      ...(fit.atBound[k] ? { atBound: true as const } : {}),
     };
     bindings.set(u.as, { kind: 'value', q, sig: quantitySig(q) });
   });
@@ -182,7 +191,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     : weighting === 'none' ? report({ si: fit.residualSD, dim: firstObserved.initial.dim, unit: deltaUnit(firstObserved.stateUnit), ...(firstObserved.initial.temp ? { temp: 'delta' as const } : {}) })
       : { value: fit.residualSD, unit: '', si: fit.residualSD };
   const n = unknowns.length;
-  const output: Record<string, unknown> = {
+  const output: Omit<FitFields, 'summary'> = {
     estimates,
     ...(residualSD ? { residualSD } : {}),
     n: points.length,
@@ -192,21 +201,22 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     converged: fit.converged,
     message: fit.message,
     ...(fit.correlation ? { correlation: { names: unknowns.map((u) => u.as), matrix: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => fit.correlation![i * n + j])) } } : {}),
-    ...(fit.warnings.length ? { warnings: fit.warnings.map((w) => w.message.replace(/parameter (\d+)/g, (_, i) => `"${unknowns[Number(i)]?.as ?? i}"`)) } : {}),
+    ...(fit.warnings.length ? { warnings: fit.warnings.map((w) => w.message) } : {}),
     residuals: points.map((pt, k) => {
       const law = laws[pt.state];
       const r: Quantity = { si: -fit.residuals![k] / pt.w, dim: law.initial.dim, unit: deltaUnit(law.stateUnit), ...(law.initial.temp ? { temp: 'delta' as const } : {}) };
       return { row: pt.row + 1, state: states[pt.state], time: report({ si: table.rows[pt.row][ti] as number, dim: TIME, unit: table.columns[ti].unit }), residual: report(r) };
     }),
   };
-  output.summary = `${unknowns.map((u, k) => `${u.as} = ${describe({ ...u.template, si: fit.p[k] })}${fit.standardErrors ? ` (standard error ${describe({ si: fit.standardErrors[k], dim: u.template.dim, unit: deltaUnit(u.template.unit) })})` : ''}`).join('; ')}; ${points.length} points${residualSD && weighting === 'none' ? `, residual SD ${describe({ si: fit.residualSD!, dim: firstObserved.initial.dim, unit: deltaUnit(firstObserved.stateUnit) })}` : ''}; ${fit.converged ? 'converged' : `not converged (${fit.message})`}.`;
+  const summary = `${unknowns.map((u, k) => `${u.as} = ${describe({ ...u.template, si: fit.p[k] })}${fit.standardErrors ? ` (standard error ${describe({ si: fit.standardErrors[k], dim: u.template.dim, unit: deltaUnit(u.template.unit) })})` : ''}`).join('; ')}; ${points.length} points${residualSD && weighting === 'none' ? `, residual SD ${describe({ si: fit.residualSD!, dim: firstObserved.initial.dim, unit: deltaUnit(firstObserved.stateUnit) })}` : ''}; ${fit.converged ? 'converged' : `not converged (${fit.message})`}.`;
   // the measurements in SI, so that plots of the same states elsewhere can show them
-  output.observed = observed.map((o) => {
+  const series = observed.map((o) => {
     const rows = table.rows.filter((r) => r[o.ci] !== null && r[ti] !== null);
     return { state: o.state, t: rows.map((r) => r[ti] as number), y: rows.map((r) => r[o.ci] as number) };
   });
-  output.plot = fitPlot(spec, t0, y0, p, fit.p, apply, times, scale, laws, observed, table, ti);
-  return { ok: true, bindings, output };
+  bindings.set(measuredRef(cell.id), { kind: 'measured', cell: cell.id, series, sig: JSON.stringify(series) });
+  const plot = fitPlot(spec, t0, y0, p, fit.p, apply, times, scale, laws, observed, series, table.columns[ti].unit);
+  return { ok: true, bindings, output: { ...output, summary, ...(plot ? { plot } : {}) } };
 }
 
 /** Points across the data's span for the fitted curve. */
@@ -217,14 +227,13 @@ const CURVE_POINTS = 200;
  * data's span, the measured points over them, and each residual at its time.
  */
 function fitPlot(spec: ModelSpec, t0: number, y0: Float64Array, p: Float64Array, best: Float64Array, apply: (v: ArrayLike<number>) => void,
-  times: readonly number[], scale: Float64Array, laws: readonly Law[], observed: ReadonlyArray<{ state: string; si: number; ci: number }>,
-  table: DataTable, ti: number) {
+  times: readonly number[], scale: Float64Array, laws: readonly Law[], observed: ReadonlyArray<{ state: string; si: number }>,
+  series: readonly MeasuredSeries[], tUnit: DisplayUnit): SimulationPlot | undefined {
   apply(best);
   const end = times[times.length - 1];
   const grid = Array.from({ length: CURVE_POINTS }, (_, i) => t0 + ((end - t0) * i) / (CURVE_POINTS - 1));
   const run = runModelAt(spec, t0, y0, p, grid, scale);
   if (!run.values) return undefined;
-  const tUnit = table.columns[ti].unit;
   const inTime = (si: number) => valueIn({ si, dim: TIME, unit: tUnit }, tUnit);
   const inState = (i: number, si: number) => valueIn({ ...laws[i].initial, si }, laws[i].initial.unit);
   const shown = observed.map((o) => o.si);
@@ -233,10 +242,7 @@ function fitPlot(spec: ModelSpec, t0: number, y0: Float64Array, p: Float64Array,
     t: grid.map(inTime),
     states: shown.map((i) => ({ name: laws[i].state, unit: formatUnit(laws[i].initial.unit), values: run.values!.map((v) => inState(i, v[i])) })),
     events: [], levels: [], marks: [],
-    points: observed.map((o) => {
-      const rows = table.rows.filter((r) => r[o.ci] !== null && r[ti] !== null);
-      return { state: o.state, t: rows.map((r) => inTime(r[ti] as number)), values: rows.map((r) => inState(o.si, r[o.ci] as number)) };
-    }),
+    points: measuredPoints(series, observed.map((o) => ({ name: o.state, template: laws[o.si].initial })), inTime),
   };
 }
 

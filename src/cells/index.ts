@@ -2,8 +2,9 @@
  * The registry of cell kinds: how each kind becomes graph nodes. Adding a kind is one
  * builder here plus its element in components/.
  */
-import type { Cell } from '../study/types.ts';
+import type { Cell, CellKind } from '../study/types.ts';
 import type { GraphNode } from '../engine/node.ts';
+import type { NodeOutput } from '../engine/report.ts';
 import { parameterNodes } from './parameters.ts';
 import { rateNodes } from './rate.ts';
 import { noteNodes } from './note.ts';
@@ -13,9 +14,10 @@ import { dataNodes } from './data.ts';
 import { ncaNodes } from './nca.ts';
 import { fitNodes } from './fit.ts';
 
-type Builder = (cell: any, at: string) => GraphNode[];
+/** A builder of kind K: its nodes output that kind's report fields (checked here, at compile time). */
+export type Builder<K extends CellKind> = (cell: Extract<Cell, { kind: K }>, at: string) => Array<GraphNode<NodeOutput<K>>>;
 
-const BUILDERS: Record<Cell['kind'], Builder> = {
+const BUILDERS: { readonly [K in CellKind]: Builder<K> } = {
   parameters: parameterNodes,
   rate: rateNodes,
   note: noteNodes,
@@ -32,7 +34,7 @@ const BUILDERS: Record<Cell['kind'], Builder> = {
  * reports. Never throws on malformed fields.
  */
 export function buildCellNodes(cell: Cell): GraphNode[] {
-  return BUILDERS[cell.kind](cell, CELL_PATH);
+  return (BUILDERS[cell.kind] as Builder<CellKind>)(cell, CELL_PATH);
 }
 
 /** The placeholder for "this cell's path" in node paths. */

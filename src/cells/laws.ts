@@ -10,7 +10,7 @@ export function collectLaws(ids: readonly string[], path: string, ctx: RunContex
   const add = (id: string, at: string) => {
     if (seen.has(id)) return;
     const b = ctx.binding(cellRef(id));
-    if (b?.kind !== 'law') throw new FieldError({ path: at, message: `cell "${id}" is not a rate cell` });
+    if (b?.kind !== 'law') throw new FieldError({ kind: 'invalid', path: at, message: `cell "${id}" is not a rate cell` });
     seen.add(id);
     laws.push((b as Extract<Binding, { kind: 'law' }>).law);
   };

@@ -7,14 +7,15 @@
 import { NCA_RESULTS, type NcaCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Outcome, RunContext } from '../engine/node.ts';
 import { cellRef } from '../engine/node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded, shownAs } from './fields.ts';
+import type { NodeOutput, ReportQuantity } from '../engine/report.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, fail, guarded, shownAs } from './fields.ts';
 import { type Quantity, report, describe } from '../units/quantity.ts';
 import { sameDim, describeDim, TIME } from '../units/dimension.ts';
 import { type DisplayUnit, mulUnits, unitDim, NO_UNIT } from '../units/units.ts';
 import { ncaProfile } from '../numerics/nca/nca.ts';
 import { quantitySig } from './signatures.ts';
 
-export function ncaNodes(cell: NcaCell, at: string): GraphNode[] {
+export function ncaNodes(cell: NcaCell, at: string): Array<GraphNode<NodeOutput<'nca'>>> {
   const problems: CellError[] = [];
   const dose = field(cell.dose, `${at}.dose`, problems);
   const duration = cell.duration !== undefined ? field(cell.duration, `${at}.duration`, problems) : undefined;
@@ -22,7 +23,7 @@ export function ncaNodes(cell: NcaCell, at: string): GraphNode[] {
   return [{
     key: `${cell.id}/nca`,
     cell: cell.id,
-    defines: NCA_NAMES.map((n) => ({ name: `${prefix}${n}`, path: `${at}.prefix` })),
+    defines: NCA_RESULTS.map((n) => ({ name: `${prefix}${n}`, path: `${at}.prefix` })),
     uses: [...usesOf([dose, duration]), ...(typeof cell.data === 'string' ? [{ name: cellRef(cell.data), path: `${at}.data` }] : [])],
     allowsTime: false,
     allowsStates: false,
@@ -32,9 +33,7 @@ export function ncaNodes(cell: NcaCell, at: string): GraphNode[] {
   }];
 }
 
-const fail = (path: string, message: string): never => { throw new FieldError({ path, message }); };
-
-function runNca(cell: NcaCell, at: string, prefix: string, doseField: Field, durationField: Field | undefined, ctx: RunContext): Outcome {
+function runNca(cell: NcaCell, at: string, prefix: string, doseField: Field, durationField: Field | undefined, ctx: RunContext): Outcome<NodeOutput<'nca'>> {
   const b = ctx.binding(cellRef(cell.data));
   if (b?.kind !== 'data') fail(`${at}.data`, `cell "${cell.data}" is not a data cell`);
   const table = (b as Extract<Binding, { kind: 'data' }>).table;
@@ -47,11 +46,11 @@ function runNca(cell: NcaCell, at: string, prefix: string, doseField: Field, dur
   const ci = col(cell.concentration, 'the concentration', `${at}.concentration`);
   const tUnit = table.columns[ti].unit;
   const cUnit = table.columns[ci].unit;
-  if (!sameDim(unitDim(tUnit), TIME)) fail(`${at}.time`, `the column "${cell.time}" must hold times; its unit is of ${describeDim(unitDim(tUnit))}`);
+  if (!sameDim(unitDim(tUnit), TIME)) fail(`${at}.time`, `the column "${cell.time}" must hold times; its unit is of ${describeDim(unitDim(tUnit))}`, 'unit');
   const lookup = lookupFrom(ctx);
   const dose = finiteQuantityOf(doseField, lookup);
   const duration = durationField ? finiteQuantityOf(durationField, lookup) : undefined;
-  if (duration && !sameDim(duration.dim, TIME)) fail(durationField!.path, `the infusion duration must be a time; it is ${describe(duration)}`);
+  if (duration && !sameDim(duration.dim, TIME)) fail(durationField!.path, `the infusion duration must be a time; it is ${describe(duration)}`, 'unit');
 
   const t = table.rows.map((r) => r[ti] as number);
   const c = table.rows.map((r) => r[ci]);
@@ -77,7 +76,7 @@ function runNca(cell: NcaCell, at: string, prefix: string, doseField: Field, dur
     ['lambda_z', r.lambdaZ, perTime], ['t_half', r.tHalf, tUnit], ['CL', r.CL, clUnit], ['Vz', r.Vz, vUnit],
     ['AUMClast', r.AUMClast, mulUnits(auc, tUnit)], ['MRT', r.MRT, tUnit], ['r2adj', r.r2adj, NO_UNIT],
   ];
-  const out: Record<string, unknown> = {};
+  const out: Record<string, ReportQuantity> = {};
   const bindings = new Map<string, Binding>();
   const reasons = new Map<string, string>();
   for (const [name, si, unit] of values) {
@@ -102,6 +101,3 @@ function runNca(cell: NcaCell, at: string, prefix: string, doseField: Field, dur
     },
   };
 }
-
-/** The names an nca cell defines, before its prefix (the study-format contract). */
-export const NCA_NAMES = NCA_RESULTS;

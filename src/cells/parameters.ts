@@ -1,6 +1,7 @@
 /** A parameters cell: one graph node per parameter, so that editing one re-runs only its users. */
 import type { ParametersCell } from '../study/types.ts';
-import type { Binding, CellError, GraphNode, Outcome } from '../engine/node.ts';
+import type { Binding, CellError, GraphNode, Outcome, RunContext } from '../engine/node.ts';
+import type { NodeOutput, ParameterValue } from '../engine/report.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, finite, valueOf, FieldError, guarded, shownAs } from './fields.ts';
 import { type Quantity, report, describe, valueIn, shownUnit, plain } from '../units/quantity.ts';
 import { formatUnit } from '../units/units.ts';
@@ -8,7 +9,7 @@ import { sameDim, describeDim } from '../units/dimension.ts';
 import { quantitySig } from './signatures.ts';
 import { type StudyUnits, simplestUnit } from '../units/simplest-unit.ts';
 
-export function parameterNodes(cell: ParametersCell, at: string): GraphNode[] {
+export function parameterNodes(cell: ParametersCell, at: string): Array<GraphNode<NodeOutput<'parameters'>>> {
   const items = Array.isArray(cell.items) ? cell.items : [];
   return items.map((item, j) => {
     const path = `${at}.items[${j}]`;
@@ -26,11 +27,11 @@ export function parameterNodes(cell: ParametersCell, at: string): GraphNode[] {
       signature: JSON.stringify(item ?? null),
       problems,
       run: (ctx) => runParameter(name, value!, range, ctx, item?.unit, `${path}.unit`),
-    } satisfies GraphNode;
+    } satisfies GraphNode<NodeOutput<'parameters'>>;
   });
 }
 
-function runParameter(name: string, value: Field, range: ReadonlyArray<Field | undefined>, ctx: Parameters<GraphNode['run']>[0], shownIn: unknown, unitPath: string): Outcome {
+function runParameter(name: string, value: Field, range: ReadonlyArray<Field | undefined>, ctx: RunContext, shownIn: unknown, unitPath: string): Outcome<NodeOutput<'parameters'>> {
   return guarded(() => {
     const lookup = lookupFrom(ctx);
     const v = valueOf(value, lookup);
@@ -42,15 +43,15 @@ function runParameter(name: string, value: Field, range: ReadonlyArray<Field | u
       const [lo, hi] = bounds = range.map((f) => finiteQuantityOf(f!, lookup));
       for (const [bound, f] of [[lo, range[0]!], [hi, range[1]!]] as const) {
         if (!sameDim(bound.dim, q.dim)) {
-          throw new FieldError({ path: f.path, message: `range of ${name} must be ${describeDim(q.dim)} like its value; it is ${describeDim(bound.dim)} (${describe(bound)})` });
+          throw new FieldError({ kind: 'unit', path: f.path, message: `range of ${name} must be ${describeDim(q.dim)} like its value; it is ${describeDim(bound.dim)} (${describe(bound)})` });
         }
       }
-      if (!(lo.si < hi.si)) throw new FieldError({ path: range[0]!.path, message: `range of ${name}: the low end (${describe(lo)}) must be below the high end (${describe(hi)})` });
+      if (!(lo.si < hi.si)) throw new FieldError({ kind: 'invalid', path: range[0]!.path, message: `range of ${name}: the low end (${describe(lo)}) must be below the high end (${describe(hi)})` });
     }
     const bindings = new Map<string, Binding>([[name, { kind: 'value', q, sig: quantitySig(q) }]]);
     // a what-if run needs the value alone, not its display
     if (ctx.mode === 'what-if') return { ok: true, bindings, output: {} };
-    const entry: Record<string, unknown> = { ...report(q) };
+    const entry: ParameterValue = { ...report(q) };
     // the unit it had before one was picked, so that it can be picked back
     const original = formatUnit(shownUnit(computed));
     if (original !== entry.unit) entry.originalUnit = original;
@@ -71,9 +72,9 @@ function inSimplestUnit(q: Quantity, units: StudyUnits | undefined): Quantity {
  * A parameter that is a condition (`T_2h <= 21 degC`, `stage1_ok and stage2_ok`): reported as
  * 1 or 0 with `truth`, usable as true/false by other parameters (not by rate laws).
  */
-function truthParameter(name: string, truth: boolean, range: ReadonlyArray<Field | undefined>, shownIn: unknown, unitPath: string): Outcome {
-  if (range.length) throw new FieldError({ path: range[0]!.path, message: `${name} is true/false; a range is for a quantity` });
-  if (typeof shownIn === 'string' && shownIn.trim()) throw new FieldError({ path: unitPath, message: `${name} is true/false; it has no unit to show it in` });
+function truthParameter(name: string, truth: boolean, range: ReadonlyArray<Field | undefined>, shownIn: unknown, unitPath: string): Outcome<NodeOutput<'parameters'>> {
+  if (range.length) throw new FieldError({ kind: 'invalid', path: range[0]!.path, message: `${name} is true/false; a range is for a quantity` });
+  if (typeof shownIn === 'string' && shownIn.trim()) throw new FieldError({ kind: 'invalid', path: unitPath, message: `${name} is true/false; it has no unit to show it in` });
   const one = Number(truth);
   const binding: Binding = { kind: 'value', q: plain(one), sig: `truth:${truth}`, truth };
   return { ok: true, bindings: new Map([[name, binding]]), output: { values: { [name]: { value: one, unit: '', si: one, truth } } } };

@@ -7,7 +7,8 @@
 import type { PhaseCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext, Use } from '../engine/node.ts';
 import { cellRef } from '../engine/node.ts';
-import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, guarded } from './fields.ts';
+import type { NodeOutput, PhaseFields } from '../engine/report.ts';
+import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, fail, guarded } from './fields.ts';
 import { type Quantity, report, describe, valueIn, deltaUnit } from '../units/quantity.ts';
 import { phasePortrait } from '../numerics/phase/portrait.ts';
 import { phaseSummary, sweepSummary } from '../output/summaries.ts';
@@ -18,7 +19,7 @@ import { derivative } from '../expression/derivative.ts';
 import { findEquilibria, type PhaseAnalysis } from '../numerics/phase/equilibria.ts';
 import { sweepEquilibria } from '../numerics/phase/sweep.ts';
 
-export function phaseNodes(cell: PhaseCell, at: string): GraphNode[] {
+export function phaseNodes(cell: PhaseCell, at: string): Array<GraphNode<NodeOutput<'phase'>>> {
   const problems: CellError[] = [];
   const from = field(cell.from, `${at}.from`, problems);
   const to = field(cell.to, `${at}.to`, problems);
@@ -41,9 +42,7 @@ export function phaseNodes(cell: PhaseCell, at: string): GraphNode[] {
   }];
 }
 
-const fail = (path: string, message: string): never => { throw new FieldError({ path, message }); };
-
-function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFrom?: Field; sTo?: Field }, ctx: RunContext): Outcome {
+function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFrom?: Field; sTo?: Field }, ctx: RunContext): Outcome<NodeOutput<'phase'>> {
   const b = ctx.binding(cellRef(cell.rate));
   if (b?.kind !== 'law') fail(`${at}.rate`, `cell "${cell.rate}" is not a rate cell`);
   const law = (b as Extract<Binding, { kind: 'law' }>).law;
@@ -55,7 +54,7 @@ function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFro
   const stateQ = (si: number): Quantity => ({ ...law.initial, si });
   const bound = (fd: Field, what: string) => {
     const q = finiteQuantityOf(fd, lookup);
-    if (!sameDim(q.dim, law.initial.dim)) fail(fd.path, `${what} must be ${describeDim(law.initial.dim)} like ${law.state}; it is ${describe(q)}`);
+    if (!sameDim(q.dim, law.initial.dim)) fail(fd.path, `${what} must be ${describeDim(law.initial.dim)} like ${law.state}; it is ${describe(q)}`, 'unit');
     return q;
   };
   const from = bound(f.from, 'the lower end');
@@ -72,7 +71,7 @@ function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFro
   const y = new Float64Array(1);
   const analysis = findEquilibria((v) => { y[0] = v; return fy(y); }, from.si, to.si,
     dfy ? { derivative: (v) => { y[0] = v; return dfy(y); } } : {});
-  const output: Record<string, unknown> = { ...describeAnalysis(analysis, stateQ, slopeQ, law) };
+  const output: NodeOutput<'phase'> = { ...describeAnalysis(analysis, stateQ, slopeQ, law) };
   const portrait = phasePortrait((v) => { y[0] = v; return fy(y); }, from.si, to.si, analysis.equilibria.map((e) => e.slope));
   const rateQ = (si: number): Quantity => ({ si, dim: divDim(law.initial.dim, TIME), unit: mulUnits(deltaUnit(law.stateUnit), [[timeUnit, 1]], -1) });
   const timeQ = (si: number): Quantity => ({ si, dim: TIME, unit: [[timeUnit, 1]] });
@@ -103,7 +102,7 @@ function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFro
     }
     const pq = (fd: Field | undefined, what: string) => {
       const q = finiteQuantityOf(fd!, lookup);
-      if (!sameDim(q.dim, p0.dim)) fail(fd!.path, `${what} must be ${describeDim(p0.dim)} like ${name}; it is ${describe(q)}`);
+      if (!sameDim(q.dim, p0.dim)) fail(fd!.path, `${what} must be ${describeDim(p0.dim)} like ${name}; it is ${describe(q)}`, 'unit');
       return q;
     };
     const pFrom = pq(f.sFrom, 'the sweep start');
@@ -131,7 +130,7 @@ function runPhase(cell: PhaseCell, at: string, f: { from: Field; to: Field; sFro
   return { ok: true, bindings: new Map(), output };
 }
 
-function describeAnalysis(a: PhaseAnalysis, stateQ: (si: number) => Quantity, slopeQ: (si: number) => Quantity, law: Law) {
+function describeAnalysis(a: PhaseAnalysis, stateQ: (si: number) => Quantity, slopeQ: (si: number) => Quantity, law: Law): Omit<PhaseFields, 'plot' | 'summary' | 'sweep'> {
   const end = (v: number | null) => (v === null ? null : report(stateQ(v)));
   const notes = [...a.warnings];
   for (const p of a.poles) notes.push(`the rate has a pole at ${law.state} = ${describe(stateQ(p.at))}: it changes sign there without passing through zero, so that point is not an equilibrium`);

@@ -6,20 +6,21 @@
 import type { RateCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext } from '../engine/node.ts';
 import { cellRef } from '../engine/node.ts';
+import type { NodeOutput } from '../engine/report.ts';
 import { type Field, field, usesOf, lookupFrom, quantityOf, finiteQuantityOf, unitOf, FieldError, TIME_ZERO, label, guarded } from './fields.ts';
 import { type Quantity, report, describe, shownUnit } from '../units/quantity.ts';
 import { sameDim, describeDim, divDim, TIME, TEMPERATURE } from '../units/dimension.ts';
 import { type DisplayUnit, formatUnit, lookupUnit, isOffsetTemperature, unitDim, mulUnits } from '../units/units.ts';
 import { quantitySig } from './signatures.ts';
 
-export function rateNodes(cell: RateCell, at: string): GraphNode[] {
+export function rateNodes(cell: RateCell, at: string): Array<GraphNode<NodeOutput<'rate'>>> {
   const problems: CellError[] = [];
   const state = typeof cell.state === 'string' ? cell.state : '';
   const unit = field(cell.unit, `${at}.unit`, problems);
   const initial = field(cell.initial, `${at}.initial`, problems);
   const lawProblems: CellError[] = [];
   const rate = field(cell.rate, `${at}.rate`, lawProblems);
-  const stateNode: GraphNode = {
+  const stateNode: GraphNode<NodeOutput<'rate'>> = {
     key: `${cell.id}/state`,
     cell: cell.id,
     role: 'state',
@@ -33,7 +34,7 @@ export function rateNodes(cell: RateCell, at: string): GraphNode[] {
   };
   const lawUses = usesOf([rate]);
   if (state && !lawUses.some((u) => u.name === state)) lawUses.push({ name: state, path: `${at}.state` });
-  const lawNode: GraphNode = {
+  const lawNode: GraphNode<NodeOutput<'rate'>> = {
     key: `${cell.id}/law`,
     cell: cell.id,
     role: 'law',
@@ -50,16 +51,16 @@ export function rateNodes(cell: RateCell, at: string): GraphNode[] {
 }
 
 
-function runState(cellId: string, state: string, unitField: Field, initialField: Field, ctx: RunContext): Outcome {
+function runState(cellId: string, state: string, unitField: Field, initialField: Field, ctx: RunContext): Outcome<NodeOutput<'rate'>> {
   const unit = unitOf(unitField);
   const dim = unitDim(unit);
   const q0 = finiteQuantityOf(initialField, lookupFrom(ctx));
   if (!sameDim(q0.dim, dim)) {
-    throw new FieldError({ path: initialField.path, message: `initial value of ${state} must be ${describeDim(dim)} (such as ${example(unit)}); it is ${describeDim(q0.dim)} (${describe(q0)})` });
+    throw new FieldError({ kind: 'unit', path: initialField.path, message: `initial value of ${state} must be ${describeDim(dim)} (such as ${example(unit)}); it is ${describeDim(q0.dim)} (${describe(q0)})` });
   }
   const point = unit.length === 1 && isOffsetTemperature(lookupUnit(unit[0][0])!);
   if (point && q0.temp === 'delta') {
-    throw new FieldError({ path: initialField.path, message: `initial value of ${state} is a temperature difference (${describe(q0)}); it must be a temperature, such as 20 ${unit[0][0]}` });
+    throw new FieldError({ kind: 'unit', path: initialField.path, message: `initial value of ${state} is a temperature difference (${describe(q0)}); it must be a temperature, such as 20 ${unit[0][0]}` });
   }
   const temp = sameDim(dim, TEMPERATURE) ? (point ? 'point' : q0.temp === 'delta' ? 'delta' : 'absolute') : undefined;
   const q: Quantity = temp ? { si: q0.si, dim, unit, temp } : { si: q0.si, dim, unit };
@@ -71,10 +72,10 @@ function runState(cellId: string, state: string, unitField: Field, initialField:
   return { ok: true, bindings: new Map([[state, binding]]), output: { state, unit: formatUnit(unit), ...original, initial: report(q) } };
 }
 
-function runLaw(cellId: string, state: string, rate: Field, ctx: RunContext): Outcome {
+function runLaw(cellId: string, state: string, rate: Field, ctx: RunContext): Outcome<NodeOutput<'rate'>> {
   const own = ctx.binding(state);
   if (own?.kind !== 'state') {
-    throw new FieldError({ path: rate.path, message: `the state of this cell is not available` });
+    throw new FieldError({ kind: 'invalid', path: rate.path, message: `the state of this cell is not available` });
   }
   const scope = new Map<string, Quantity>();
   const reads: string[] = [];
@@ -82,7 +83,7 @@ function runLaw(cellId: string, state: string, rate: Field, ctx: RunContext): Ou
   const recording = (name: string) => {
     const q = lookup(name);
     if (typeof q === 'boolean') {
-      throw new FieldError({ path: rate.path, message: `"${name}" is true/false; a rate law reads quantities only (choose a quantity with "? :" in a parameter)` });
+      throw new FieldError({ kind: 'invalid', path: rate.path, message: `"${name}" is true/false; a rate law reads quantities only (choose a quantity with "? :" in a parameter)` });
     }
     if (q && !scope.has(name)) {
       scope.set(name, q);
@@ -94,6 +95,7 @@ function runLaw(cellId: string, state: string, rate: Field, ctx: RunContext): Ou
   const want = divDim(own.q.dim, TIME);
   if (!sameDim(r.dim, want)) {
     throw new FieldError({
+      kind: 'unit',
       path: rate.path,
       message: `rate of ${state} must be ${describeDim(want)} (such as ${formatUnit(rateUnit(own.unit, r))}); it is ${formatUnit(shownUnit(r)) || describeDim(r.dim)}`,
     });
@@ -108,7 +110,7 @@ function runLaw(cellId: string, state: string, rate: Field, ctx: RunContext): Ou
   const bindings = new Map([[cellRef(cellId), { kind: 'law', law, sig } as const]]);
   if (ctx.mode === 'what-if') return { ok: true, bindings, output: {} };
   const shown: Quantity = { si: r.si, dim: r.dim, unit: rateUnit(own.unit, r) };
-  const output: Record<string, unknown> = { rateAtStart: report(shown) };
+  const output: NodeOutput<'rate'> = { rateAtStart: report(shown) };
   if (!Number.isFinite(r.si)) output.warning = `${label(rate.path)} is not finite at the initial state (${describe(r)})`;
   return { ok: true, bindings, output };
 }

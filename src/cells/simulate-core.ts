@@ -8,7 +8,7 @@
 import type { SimulateCell, FindQuery, ScheduleEvent } from '../study/types.ts';
 import { FIND_KINDS } from '../study/types.ts';
 import type { Binding, Law, RunContext } from '../engine/node.ts';
-import { type Field, lookupFrom, finiteQuantityOf, FieldError, shownAs } from './fields.ts';
+import { type Field, lookupFrom, finiteQuantityOf, fail, shownAs } from './fields.ts';
 import { type Quantity, describe, valueIn, deltaUnit } from '../units/quantity.ts';
 import { sameDim, describeDim, divDim, mulDim, TIME } from '../units/dimension.ts';
 import { type DisplayUnit, formatUnit, mulUnits, unitFactor } from '../units/units.ts';
@@ -20,7 +20,7 @@ import { runSchedule, type RunOutcome, type SystemSpec } from '../simulate/run-s
 import { crossings, extreme, valueOfAt, integralOver, timeBeyond } from '../simulate/queries.ts';
 import { quantitySig } from './signatures.ts';
 import { collectLaws } from './laws.ts';
-import { Status } from '../numerics/ode/types.ts';
+import { FAILURE_CAUSES, Status, type FailureStatus } from '../numerics/ode/types.ts';
 
 /** Step attempts allowed in one run, all pieces together. */
 export const MAX_STEPS = 200_000;
@@ -101,8 +101,6 @@ export function stateValue(core: Pick<SimulationCore, 'laws'>, i: number, si: nu
   return { ...core.laws[i].initial, si };
 }
 
-const fail = (path: string, message: string): never => { throw new FieldError({ path, message }); };
-
 /**
  * Runs the cell's numerics. Throws FieldError for a problem on a field; returns null in
  * 'check' mode once every field has been checked, before anything is integrated.
@@ -133,7 +131,7 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
   };
   const time = (fd: Field | undefined, what: string): Quantity => {
     const q = value(fd!);
-    if (!sameDim(q.dim, TIME)) fail(fd!.path, `${what} must be a time (such as 8 h); it is ${describeDim(q.dim)} (${describe(q)})`);
+    if (!sameDim(q.dim, TIME)) fail(fd!.path, `${what} must be a time (such as 8 h); it is ${describeDim(q.dim)} (${describe(q)})`, 'unit');
     return q;
   };
   const from = time(f.from, 'the start');
@@ -182,8 +180,8 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
       const q = value(fd);
       let want = e.kind === 'set' ? paramQ[paramIndex.get(t.name)!].dim : laws[stateIndex.get(t.name)!].initial.dim;
       if (e.kind === 'infuse') want = divDim(want, TIME);
-      if (!sameDim(q.dim, want)) fail(fd.path, `${e.kind === 'infuse' ? 'an infusion rate' : 'the amount'} for ${t.name} must be ${describeDim(want)}; it is ${describeDim(q.dim)} (${describe(q)})`);
-      if (e.kind === 'add' && q.temp === 'point') fail(fd.path, `adding a temperature reading (${describe(q)}) is ambiguous: add a change of temperature in K or degR`);
+      if (!sameDim(q.dim, want)) fail(fd.path, `${e.kind === 'infuse' ? 'an infusion rate' : 'the amount'} for ${t.name} must be ${describeDim(want)}; it is ${describeDim(q.dim)} (${describe(q)})`, 'unit');
+      if (e.kind === 'add' && q.temp === 'point') fail(fd.path, `adding a temperature reading (${describe(q)}) is ambiguous: add a change of temperature in K or degR`, 'unit');
       return { name: t.name, value: q.si };
     });
     const every = e.every ? time(e.every, 'the repeat interval').si : undefined;
@@ -204,7 +202,7 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
     const si = stateIndex.get(state);
     if (si === undefined) fail(`${path}.${fq.kind}`, `"${state}" is not a state of this run (its states: ${states.join(', ')})`);
     const level = fq.level ? value(fq.level) : undefined;
-    if (level && !sameDim(level.dim, laws[si!].initial.dim)) fail(fq.level!.path, `the level must be ${describeDim(laws[si!].initial.dim)} like ${state}; it is ${describe(level)}`);
+    if (level && !sameDim(level.dim, laws[si!].initial.dim)) fail(fq.level!.path, `the level must be ${describeDim(laws[si!].initial.dim)} like ${state}; it is ${describe(level)}`, 'unit');
     const span: [number, number] = [fq.from ? time(fq.from, 'the window start').si : from.si, fq.to ? time(fq.to, 'the window end').si : to.si];
     if (!(span[1] >= span[0])) fail(`${path}.to`, 'the window must end after it starts');
     const atT = fq.at ? time(fq.at, 'the time').si : undefined;
@@ -229,7 +227,7 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
     const scale = Math.max(Math.abs(l.initial.si), ...jumps, ...levels, ...alike);
     return scale > 0 && Number.isFinite(scale) ? scale * rtol * 1e-3 : 1e-9 * unitFactor(l.stateUnit);
   });
-  if (atolQ && !laws.some((l) => sameDim(atolQ.dim, l.initial.dim))) fail(f.atol!.path, `the absolute tolerance must have the unit of a state (${laws.map((l) => formatUnit(l.stateUnit)).join(', ')}); it is ${describe(atolQ)}`);
+  if (atolQ && !laws.some((l) => sameDim(atolQ.dim, l.initial.dim))) fail(f.atol!.path, `the absolute tolerance must have the unit of a state (${laws.map((l) => formatUnit(l.stateUnit)).join(', ')}); it is ${describe(atolQ)}`, 'unit');
   const method = cell.method ?? 'auto';
   const step = f.step ? time(f.step, 'the step').si : undefined;
   if (step !== undefined && !(step > 0)) fail(f.step!.path, 'the step must be longer than zero');
@@ -262,7 +260,7 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
   if (run.status !== Status.Success) {
     const fl = run.failure!;
     const where = states.map((s, i) => `${s} = ${describe(stateValue(core, i, fl.y[i]))}`).join(', ');
-    fail(at, `the run stopped at t = ${describe(asTime(fl.t))}: ${FAILURE[fl.status]} (${where})`);
+    fail(at, `the run stopped at t = ${describe(asTime(fl.t))}: ${FAILURE_CAUSES[fl.status as FailureStatus]({ limit: MAX_STEPS })} (${where})`, 'numeric');
   }
   const { answers, bindings, reasons } = answer(core);
   return { ...core, answers, bindings, reasons };
@@ -306,8 +304,7 @@ function answer(core: Integrated): Pick<SimulationCore, 'answers' | 'bindings' |
         if (c) {
           give(fq, timeOf(core, c.t), c.t);
         } else {
-          const what = questionText(core, fq);
-          const message = `not reached: no ${what.replace(/^(\S+) (rises through|falls through|crosses)/, (_, s, v) => `${s} ${v === 'rises through' ? 'rising through' : v === 'falls through' ? 'falling through' : 'crossing'}`)} by the end of the run (${describe(timeOf(core, b))})`;
+          const message = `not reached: no ${fq.state} ${CROSSING_NOUN[dir]} ${crossingLevel(fq)} by the end of the run (${describe(timeOf(core, b))})`;
           reasons.set(fq.name, `"${fq.name}" is not defined: ${message}`);
           answers.push({ find: fq, missing: message });
         }
@@ -335,6 +332,15 @@ function answer(core: Integrated): Pick<SimulationCore, 'answers' | 'bindings' |
   return { answers, bindings, reasons };
 }
 
+/** A crossing in words, by direction: as a question ("T falls through 21 degC") and as a thing not found ("no T falling through"). */
+const CROSSING_VERB = { up: 'rises through', down: 'falls through', either: 'crosses' } as const;
+const CROSSING_NOUN = { up: 'rising through', down: 'falling through', either: 'crossing' } as const;
+
+/** The level a crossing asks about, with its occurrence when not the first. */
+function crossingLevel(fq: Find): string {
+  return `${describe(fq.level!)}${(fq.q.occurrence ?? 1) > 1 ? `, occurrence ${fq.q.occurrence}` : ''}`;
+}
+
 /** A `find` question in words, as the summary and the sheet put it: "T falls through 21 degC". */
 export function questionText(core: Pick<SimulationCore, 'timeUnit'>, fq: Find): string {
   const [a, b] = fq.span;
@@ -342,7 +348,7 @@ export function questionText(core: Pick<SimulationCore, 'timeUnit'>, fq: Find): 
   switch (fq.kind) {
     case 'crossing': {
       const dir = fq.q.direction ?? 'either';
-      return `${fq.state} ${dir === 'up' ? 'rises through' : dir === 'down' ? 'falls through' : 'crosses'} ${describe(fq.level!)}${(fq.q.occurrence ?? 1) > 1 ? `, occurrence ${fq.q.occurrence}` : ''}`;
+      return `${fq.state} ${CROSSING_VERB[dir]} ${crossingLevel(fq)}`;
     }
     case 'maximum': case 'minimum': case 'timeOfMaximum': case 'timeOfMinimum': {
       const sign = fq.kind === 'maximum' || fq.kind === 'timeOfMaximum' ? 1 : -1;
@@ -359,12 +365,6 @@ export function questionText(core: Pick<SimulationCore, 'timeUnit'>, fq: Find): 
   }
 }
 
-const FAILURE: Record<string, string> = {
-  [Status.Blowup]: 'the solution grows without bound (a finite-time blow-up)',
-  [Status.UndefinedRate]: 'the rate is not a number there (a logarithm or square root of a negative value, or a division by zero?)',
-  [Status.StepCollapse]: 'the step size collapsed (the rate may jump there; try the stiff method)',
-  [Status.Budget]: `the run used its budget of ${MAX_STEPS} steps (shorten the run, loosen the tolerance, or try the stiff method)`,
-};
 
 /** A temperature reading used as a tolerance means a difference of that many degrees. */
 function differenceSize(q: Quantity): number {

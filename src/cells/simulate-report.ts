@@ -3,7 +3,6 @@
  * with the exact solution of linear laws, the step points, the summary, the questions in
  * words and the plot data. Not part of a what-if run.
  */
-import type { Law } from '../engine/node.ts';
 import { type Quantity, report, describe, tidy, deltaUnit } from '../units/quantity.ts';
 import { divDim, TIME } from '../units/dimension.ts';
 import { type DisplayUnit, mulUnits } from '../units/units.ts';
@@ -12,15 +11,17 @@ import { stepPoints, type Trajectory } from '../simulate/trajectory.ts';
 import { extreme, valueOfAt } from '../simulate/queries.ts';
 import { linearCoefficients, compareWithExact } from '../simulate/closed-form.ts';
 import { simulationPlot } from '../simulate/plot-data.ts';
+import type { Law, MeasuredSeries } from '../engine/node.ts';
+import type { ClosedFormReport, FindResult, SimulateFields } from '../engine/report.ts';
 import { simulationSummary, type FoundText, type StatePath } from '../output/summaries.ts';
 import { type SimulationCore, questionText, stateValue, timeOf } from './simulate-core.ts';
 
 /** The cell's report fields (the `output` merged into its cell's report). */
-export function simulationOutput(core: SimulationCore): Record<string, unknown> {
+export function simulationOutput(core: SimulationCore, measured: readonly MeasuredSeries[]): SimulateFields {
   const { run, laws, timeUnit } = core;
   const tr = run.trajectory;
   const asTime = (si: number) => timeOf(core, si);
-  const results: Record<string, unknown> = {};
+  const results: Record<string, FindResult> = {};
   const found: FoundText[] = [];
   const marks: Array<{ name: string; state: string; t: number; value: Quantity; answer: string }> = [];
   for (const { find, q, markAt, missing } of core.answers) {
@@ -31,7 +32,7 @@ export function simulationOutput(core: SimulationCore): Record<string, unknown> 
       if (markAt !== undefined) marks.push({ name: find.name, state: find.state, t: markAt, value: stateValue(core, find.si, valueOfAt(tr, find.si, markAt)!), answer: describe(q) });
     } else {
       const end = asTime(find.span[1]);
-      results[find.name] = { notReached: true, message: missing, end: report(end) };
+      results[find.name] = { notReached: true, message: missing ?? '', end: report(end) };
       found.push({ name: find.name, what, answer: `not reached by ${describe(end)}` });
     }
   }
@@ -47,9 +48,10 @@ export function simulationOutput(core: SimulationCore): Record<string, unknown> 
     tr, timeUnit, timeOf: asTime, actions: core.timeline, marks,
     states: laws.map((l) => ({ name: l.state, template: l.initial })),
     levels: core.finds.filter((fq) => fq.level).map((fq) => ({ state: fq.state, level: fq.level! })),
+    measured,
   });
 
-  const output: Record<string, unknown> = {
+  const output: SimulateFields = {
     method: run.switchedToStiff !== null ? 'stiff' : [...run.methodsUsed].join(', '),
     steps: run.steps,
     evaluations: run.evaluations,
@@ -77,7 +79,7 @@ function seriesOf(tr: Trajectory, states: readonly string[]): Record<string, num
 
 /** For each law linear in its own state alone: rate constant, time constant, half-life, and the run's error. */
 function closedForms(laws: readonly Law[], sys: SystemSpec, tr: Trajectory, compiled: ReadonlyArray<(x: ArrayLike<number>) => number>, width: number, rtol: number, atol: Float64Array, timeUnit: DisplayUnit) {
-  const out: Record<string, unknown> = {};
+  const out: Record<string, ClosedFormReport> = {};
   const n = laws.length;
   const points = stepPoints(tr);
   laws.forEach((l, i) => {
@@ -100,7 +102,7 @@ function closedForms(laws: readonly Law[], sys: SystemSpec, tr: Trajectory, comp
     const first = laws0[0]!;
     const check = compareWithExact(tr, i, (k) => laws0[k]!, rtol, atol[i]);
     const perTime: DisplayUnit = mulUnits([], timeUnit, -1);
-    const entry: Record<string, unknown> = {
+    const entry: ClosedFormReport = {
       form: `${l.state}' = a + b ${l.state}`,
       rateConstant: report({ si: first.b, dim: divDim(TIME.map(() => 0), TIME), unit: perTime }),
       maxError: report({ si: check.maxError, dim: l.initial.dim, unit: deltaUnit(l.stateUnit), ...(l.initial.temp ? { temp: 'delta' as const } : {}) }),

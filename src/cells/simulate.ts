@@ -7,12 +7,14 @@
 import type { SimulateCell } from '../study/types.ts';
 import { FIND_KINDS } from '../study/types.ts';
 import type { CellError, GraphNode, Outcome, RunContext, Use } from '../engine/node.ts';
+import type { NodeOutput } from '../engine/report.ts';
 import { cellRef } from '../engine/node.ts';
 import { field, usesOf, guarded } from './fields.ts';
 import { type CoreMemo, type Fields, simulateCore } from './simulate-core.ts';
 import { simulationOutput } from './simulate-report.ts';
 
-export function simulateNodes(cell: SimulateCell, at: string): GraphNode[] {
+/** One node; the graph adds the measurements of its states (`pullsMeasurements`), which its plot shows. */
+export function simulateNodes(cell: SimulateCell, at: string): Array<GraphNode<NodeOutput<'simulate'>>> {
   const problems: CellError[] = [];
   const f: Fields = { events: [], finds: [] };
   const opt = (v: unknown, path: string) => (v === undefined ? undefined : field(v, path, problems));
@@ -50,16 +52,17 @@ export function simulateNodes(cell: SimulateCell, at: string): GraphNode[] {
     allowsTime: true,
     allowsStates: true,
     pullsCoupledLaws: true,
+    pullsMeasurements: true,
     signature: JSON.stringify(cell),
     problems,
     run: (ctx) => guarded(() => runSimulation(cell, at, f, ctx, memo)),
   }];
 }
 
-function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContext, memo: CoreMemo): Outcome {
+function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContext, memo: CoreMemo): Outcome<NodeOutput<'simulate'>> {
   const core = simulateCore(cell, at, f, ctx, memo);
   if (!core) return { ok: true, bindings: new Map(), output: { computed: false, message: 'checked; run the study to simulate' } };
   // a what-if run wants the answers alone: no report, plot or text
   if (ctx.mode === 'what-if') return { ok: true, bindings: core.bindings, output: {}, reasons: core.reasons };
-  return { ok: true, bindings: core.bindings, output: simulationOutput(core), reasons: core.reasons };
+  return { ok: true, bindings: core.bindings, output: simulationOutput(core, ctx.bindingsOf('measured').flatMap((b) => b.series)), reasons: core.reasons };
 }

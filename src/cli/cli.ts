@@ -6,6 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { runStudy, exitCodeOf } from '../engine/run.ts';
 import { formatReport } from '../output/report-text.ts';
+import type { Report } from '../engine/report.ts';
 
 export const USAGE = `usage: ratebook run STUDY.json [--json] [--series]
        ratebook check STUDY.json
@@ -71,7 +72,7 @@ export function main(argv: readonly string[], io: Io = nodeIo): number {
 }
 
 /** The report without time series and plot samples, which only `--series` asks for. */
-function withoutSeries<T extends { cells: Array<Record<string, unknown>> }>(report: T): T {
+function withoutSeries(report: Report): Report {
   if (!report.cells.some((c) => 'series' in c || 'plot' in c)) return report;
   return { ...report, cells: report.cells.map(({ series: _series, plot: _plot, ...rest }) => rest) };
 }

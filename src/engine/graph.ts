@@ -10,9 +10,10 @@ import type { CellError, GraphNode } from './node.ts';
 import { lookupUnit } from '../units/units.ts';
 import { isConstantName } from '../expression/constants.ts';
 import { nearest } from '../expression/suggest.ts';
+import { findWord } from '../expression/find-word.ts';
 
-/** Where a used name comes from. */
-export type Source = { readonly node: string } | { readonly builtin: 'time' | 'constant' | 'unit' };
+/** Where a used name comes from; `optional` when the reader runs without it (it only shows it). */
+export type Source = { readonly node: string; readonly optional?: boolean } | { readonly builtin: 'time' | 'constant' | 'unit' };
 
 export interface Graph {
   readonly nodes: ReadonlyMap<string, GraphNode>;
@@ -45,11 +46,11 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
       if (first !== undefined) {
         const what = d.name.startsWith('#') ? `the cell id "${d.name.slice(1)}"` : `"${d.name}"`;
         const firstCell = nodes.get(first)!.cell;
-        flag(n.key, { message: `${what} is already defined in cell "${firstCell}" (${resolve(firstCell, definedAt.get(d.name)!)})`, path: d.path });
+        flag(n.key, { kind: 'duplicate', message: `${what} is already defined in cell "${firstCell}" (${resolve(firstCell, definedAt.get(d.name)!)})`, path: d.path });
         continue;
       }
       if (d.name === 't') {
-        flag(n.key, { message: '"t" is time and cannot be defined: choose another name', path: d.path });
+        flag(n.key, { kind: 'misplaced', message: '"t" is time and cannot be defined: choose another name', path: d.path });
         continue;
       }
       definers.set(d.name, n.key);
@@ -81,17 +82,17 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
       if (def !== undefined) {
         const target = nodes.get(def)!;
         if (target.role === 'state' && !n.allowsStates) {
-          flag(n.key, { message: `"${u.name}" is the state of rate cell "${target.cell}": it changes with time, so it can be used only in rate laws and schedules`, path: u.path, ...span(u) });
+          flag(n.key, { kind: 'misplaced', message: `"${u.name}" is the state of rate cell "${target.cell}": it changes with time, so it can be used only in rate laws and schedules`, path: u.path, ...span(u) });
         }
         src.set(u.name, { node: def });
       } else if (u.name === 't' && n.allowsTime) {
         src.set(u.name, { builtin: 'time' });
       } else if (u.name === 't') {
-        flag(n.key, { message: '"t" is time and can be used only in rate laws and schedules (for metric tons write "tonne")', path: u.path, ...span(u) });
+        flag(n.key, { kind: 'misplaced', message: '"t" is time and can be used only in rate laws and schedules (for metric tons write "tonne")', path: u.path, ...span(u) });
       } else if (u.name.startsWith('#')) {
-        const ids = [...definers.keys()].filter((k) => k.startsWith('#')).map((k) => k.slice(1));
+        const ids = [...definers.keys()].filter((k) => k.startsWith('#') && !k.includes('/')).map((k) => k.slice(1));
         const hint = nearest(u.name.slice(1), ids);
-        flag(n.key, { message: `there is no cell "${u.name.slice(1)}"${hint ? ` (did you mean "${hint}"?)` : ''}`, path: u.path });
+        flag(n.key, { kind: 'unknown-name', message: `there is no cell "${u.name.slice(1)}"${hint ? ` (did you mean "${hint}"?)` : ''}`, path: u.path });
       } else if (isConstantName(u.name)) {
         src.set(u.name, { builtin: 'constant' });
       } else if (lookupUnit(u.name)) {
@@ -99,23 +100,58 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
       } else {
         const names = [...definers.keys()].filter((k) => !k.startsWith('#'));
         const hint = nearest(u.name, n.allowsTime ? [...names, 't'] : names);
-        flag(n.key, { message: `unknown name "${u.name}"${hint ? ` (did you mean "${hint}"?)` : ''}`, path: u.path, ...span(u) });
+        flag(n.key, { kind: 'unknown-name', message: `unknown name "${u.name}"${hint ? ` (did you mean "${hint}"?)` : ''}`, path: u.path, ...span(u) });
       }
     }
   }
 
+  for (const n of list) if (n.pullsMeasurements) addMeasurements(n, list, nodes, sources, definers);
+
   const { order, cycles } = orderNodes(list, sources);
   for (const [key, path] of cycles) {
     const n = nodes.get(key)!;
-    flag(key, { message: `circular definition: ${path}`, path: n.defines[0]?.path ?? '@' });
+    flag(key, { kind: 'cycle', message: `circular definition: ${path}`, path: n.defines[0]?.path ?? '@' });
   }
   return { nodes, order, definers, sources, problems, warnings };
 }
 
 function span(u: { name: string; text?: string }): { span?: readonly [number, number] } {
   if (!u.text) return {};
-  const m = new RegExp(`(?<![A-Za-z0-9_])${u.name}(?![A-Za-z0-9_])`).exec(u.text);
-  return m ? { span: [m.index, m.index + u.name.length] } : {};
+  const at = findWord(u.text, u.name);
+  return at ? { span: at } : {};
+}
+
+/**
+ * Adds to n's sources, as optional uses, the names that measure a state of the laws n reads
+ * (its own and those coupled to them), except where the measurer depends on n: reading it
+ * would close a cycle, and the measurements are only shown.
+ */
+function addMeasurements(n: GraphNode, list: readonly GraphNode[], nodes: Map<string, GraphNode>, sources: Map<string, Map<string, Source>>, definers: Map<string, string>): void {
+  const src = sources.get(n.key)!;
+  const lawCells = new Set<string>();
+  for (const s of src.values()) {
+    const law = 'node' in s ? nodes.get(s.node) : undefined;
+    if (law?.role === 'law') lawCells.add(law.cell);
+  }
+  const states = new Set(list.filter((x) => x.role === 'state' && lawCells.has(x.cell)).flatMap((x) => x.defines.map((d) => d.name)));
+  for (const m of list) {
+    if (!m.measures || definers.get(m.measures.name) !== m.key || !m.measures.states.some((s) => states.has(s))) continue;
+    if (!dependsOn(m.key, n.key, sources)) src.set(m.measures.name, { node: m.key, optional: true });
+  }
+}
+
+/** Whether node `from` reads `to`, directly or through others. */
+function dependsOn(from: string, to: string, sources: Map<string, Map<string, Source>>): boolean {
+  const seen = new Set<string>();
+  const stack = [from];
+  while (stack.length) {
+    const k = stack.pop()!;
+    if (k === to) return true;
+    if (seen.has(k)) continue;
+    seen.add(k);
+    for (const s of sources.get(k)?.values() ?? []) if ('node' in s) stack.push(s.node);
+  }
+  return false;
 }
 
 /** The laws reachable from the laws n names, through the states those laws read. */

@@ -9,13 +9,33 @@ import type { DisplayUnit } from '../units/units.ts';
 import type { Expr } from '../expression/ast.ts';
 import type { StudyUnits } from '../units/simplest-unit.ts';
 
-/** A message for the user, on the field it is about. */
+/**
+ * The kinds of problem a cell can have:
+ * - `shape`: a field is missing or not of its type (the document check, or a field that is not text);
+ * - `syntax`: an expression that does not parse;
+ * - `unknown-name`: a name, or a cell id, that nothing defines;
+ * - `misplaced`: a name used or defined where it means nothing (a state outside rate laws, `t`);
+ * - `duplicate`: a name or cell id defined twice;
+ * - `cycle`: a circular definition;
+ * - `waits`: an input this node reads failed upstream (`waitsOn` names its cell);
+ * - `unit`: a unit that is not one, or a value of the wrong dimension;
+ * - `invalid`: a value or reference that cannot serve (out of order, out of range, of the wrong kind);
+ * - `numeric`: the numerics failed (a run that stopped, a fit that could not start, a value not finite);
+ * - `internal`: an unexpected failure inside the engine.
+ */
+export const PROBLEM_KINDS = ['shape', 'syntax', 'unknown-name', 'misplaced', 'duplicate', 'cycle', 'waits', 'unit', 'invalid', 'numeric', 'internal'] as const;
+export type ProblemKind = (typeof PROBLEM_KINDS)[number];
+
+/** A problem for the user, on the field it is about; `message` is made from the other fields. */
 export interface CellError {
+  readonly kind: ProblemKind;
   readonly message: string;
   /** Contract path, such as `cells[1].rate`. */
   readonly path: string;
   /** [start, end) in that field's text, when known. */
   readonly span?: readonly [number, number];
+  /** For `waits`: the id of the upstream cell waited on. */
+  readonly waitsOn?: string;
 }
 
 /** A name as one node defines it. Cell references are names too: `#cooling`. */
@@ -29,6 +49,8 @@ export interface Use {
   readonly name: string;
   readonly path: string;
   readonly text?: string;
+  /** The node runs without it when it is unavailable (it reads it only to show it). */
+  readonly optional?: boolean;
 }
 
 /** What a name is bound to after its node ran. `sig` decides whether it changed. */
@@ -37,7 +59,16 @@ export type Binding =
   | { readonly kind: 'value'; readonly q: Quantity; readonly sig: string; readonly truth?: boolean }
   | { readonly kind: 'state'; readonly q: Quantity; readonly unit: DisplayUnit; readonly cell: string; readonly sig: string }
   | { readonly kind: 'law'; readonly law: Law; readonly sig: string }
-  | { readonly kind: 'data'; readonly cell: string; readonly sig: string; readonly table: DataTable };
+  | { readonly kind: 'data'; readonly cell: string; readonly sig: string; readonly table: DataTable }
+  /** Measurements of states, in SI (a fit cell's observed columns), for plots of those states. */
+  | { readonly kind: 'measured'; readonly cell: string; readonly sig: string; readonly series: readonly MeasuredSeries[] };
+
+/** One state's measurements: times and values in SI. */
+export interface MeasuredSeries {
+  readonly state: string;
+  readonly t: readonly number[];
+  readonly y: readonly number[];
+}
 
 /** A checked rate law, ready for the numerics. */
 export interface Law {
@@ -74,21 +105,25 @@ export interface RunContext {
   readonly mode: 'run' | 'check' | 'what-if';
   /** The study names a declared name is computed from, directly or through others. */
   upstream(name: string): ReadonlySet<string>;
+  /** Every available binding of that kind among the names the node reads (those the graph added included). */
+  bindingsOf<K extends Binding['kind']>(kind: K): Array<Extract<Binding, { kind: K }>>;
   /** The units the study's inputs are written in (engine/study-units.ts), for showing derived values. */
   readonly studyUnits?: StudyUnits;
 }
 
-export type Outcome =
+/** What a node's run gives: bindings for the names it defines and `output` (of type O) for its cell's report. */
+export type Outcome<O extends object = object> =
   | {
     readonly ok: true;
     readonly bindings: ReadonlyMap<string, Binding>;
-    readonly output: Readonly<Record<string, unknown>>;
+    readonly output: Readonly<O>;
     /** Why a defined name has no binding (a crossing that was not reached). */
     readonly reasons?: ReadonlyMap<string, string>;
   }
-  | { readonly ok: false; readonly error: CellError; readonly bindings?: ReadonlyMap<string, Binding>; readonly output?: Readonly<Record<string, unknown>> };
+  | { readonly ok: false; readonly error: CellError; readonly bindings?: ReadonlyMap<string, Binding>; readonly output?: Readonly<O> };
 
-export interface GraphNode {
+/** A node whose run outputs O (its kind's `NodeOutput`) into its cell's report. */
+export interface GraphNode<O extends object = object> {
   /** Unique in the study: `${cellId}/${part}`. */
   readonly key: string;
   readonly cell: string;
@@ -104,14 +139,26 @@ export interface GraphNode {
   readonly couples?: readonly string[];
   /** Integrates laws: the graph adds the laws coupled to the ones it names to its uses. */
   readonly pullsCoupledLaws?: boolean;
+  /** Defines measurements (a `measured` binding) under `name` of these states. */
+  readonly measures?: { readonly name: string; readonly states: readonly string[] };
+  /**
+   * Shows measurements: the graph adds to its uses, as optional, every name that measures a
+   * state of the laws it integrates (unless that would close a cycle).
+   */
+  readonly pullsMeasurements?: boolean;
   /** Changes whenever the node's own text changes; equal signatures mean the same node. */
   readonly signature: string;
   /** Problems found while building (field shape, syntax): the node fails with the first. */
   readonly problems: readonly CellError[];
-  run(ctx: RunContext): Outcome;
+  run(ctx: RunContext): Outcome<O>;
 }
 
 /** The hidden name a cell is referred to by from other cells. */
 export function cellRef(id: string): string {
   return `#${id}`;
+}
+
+/** The hidden name of the measurements a cell (a fit) makes of states. */
+export function measuredRef(id: string): string {
+  return `#${id}/measured`;
 }

@@ -1,9 +1,23 @@
-/** The report of the study-format contract: what `ratebook run --json` prints. */
+/**
+ * The report of the study-format contract: what `ratebook run --json` prints, typed per cell
+ * kind. A cell's report is its common fields (id, kind, ok, errors) and the fields its kind's
+ * nodes output; `NodeOutput<K>` is what a builder of kind K may output, so the registry in
+ * cells/index.ts checks each builder against its kind here.
+ */
+import type { CellKind } from '../study/types.ts';
 import type { CellError } from './node.ts';
+import type { ReportQuantity } from '../units/quantity.ts';
+import type { SimulationPlot } from '../simulate/plot-data.ts';
+import type { Stability } from '../numerics/phase/equilibria.ts';
+import type { CsvRowProblem } from '../csv/read.ts';
 
-export interface CellReport {
+export type { ReportQuantity } from '../units/quantity.ts';
+export type { SimulationPlot } from '../simulate/plot-data.ts';
+
+/** What every cell's report has, whatever its kind. */
+export interface ReportBase<K extends CellKind = CellKind> {
   id: string;
-  kind: string;
+  kind: K;
   title?: string;
   ok: boolean;
   error?: CellError;
@@ -11,8 +25,246 @@ export interface CellReport {
   errors?: CellError[];
   /** Ids of upstream cells whose failure this cell waits on. */
   waitsOn?: string[];
-  [key: string]: unknown;
 }
+
+/** Output of a node that only checked its cell (mode 'check'), or that explains why it computed nothing. */
+export interface Unfinished {
+  computed?: false;
+  message?: string;
+}
+
+// parameters
+
+/** A parameter's value: a quantity, `truth` for a condition, `range` for a slider. */
+export interface ParameterValue extends ReportQuantity {
+  truth?: boolean;
+  /** Given with a picked `unit`: the unit the value is shown in with no pick. */
+  originalUnit?: string;
+  range?: ReportQuantity[];
+}
+
+export interface ParametersFields {
+  values: Record<string, ParameterValue>;
+}
+
+// rate
+
+export interface RateFields {
+  state: string;
+  /** The state's unit as text. */
+  unit: string;
+  /** The unit the initial value is written in, when it is not `unit`. */
+  originalUnit?: string;
+  initial: ReportQuantity;
+  /** The law at the initial state and t = 0. */
+  rateAtStart: ReportQuantity;
+  warning?: string;
+}
+
+// phase
+
+export interface PhaseEquilibrium extends ReportQuantity {
+  stability: Stability;
+  /** df/dy at the point, per the law's time unit. */
+  slope: ReportQuantity;
+}
+
+export interface PhaseInterval {
+  from: ReportQuantity | null;
+  to: ReportQuantity | null;
+  sign: '+' | '-' | '0' | 'none';
+}
+
+export interface QuantitySpan {
+  from: ReportQuantity;
+  to: ReportQuantity;
+}
+
+/** What the phase plot draws, in the study's units. */
+export interface PhasePlotData {
+  stateUnit: string;
+  rateUnit: string;
+  timeUnit: string;
+  y: Array<number | null>;
+  f: Array<number | null>;
+  solutions: Array<{ start: number | null; t: number[]; y: Array<number | null> }>;
+}
+
+export interface SweepPoint {
+  parameter: ReportQuantity;
+  value: ReportQuantity;
+  stability: Stability;
+}
+
+export interface SweepFold {
+  parameter: ReportQuantity;
+  value: ReportQuantity;
+  pair: 'vanishes' | 'appears';
+  located: 'newton' | 'bisection' | 'grid';
+  converged: boolean;
+}
+
+export interface SweepReport {
+  parameter: string;
+  range: ReportQuantity[];
+  branches: SweepPoint[][];
+  folds: SweepFold[];
+  evaluations: number;
+  summary: string;
+  warnings?: string[];
+  incomplete?: string;
+}
+
+export interface PhaseFields {
+  equilibria: PhaseEquilibrium[];
+  intervals: PhaseInterval[];
+  poles?: ReportQuantity[];
+  jumps?: ReportQuantity[];
+  gaps?: QuantitySpan[];
+  zeroIntervals?: QuantitySpan[];
+  evaluations: number;
+  notes?: string[];
+  plot: PhasePlotData;
+  summary: string;
+  sweep?: SweepReport;
+}
+
+// simulate
+
+/** A crossing that did not happen within the run. */
+export interface NotReached {
+  notReached: true;
+  message: string;
+  end: ReportQuantity;
+}
+
+export type FindResult = ReportQuantity | NotReached;
+
+/** The exact solution of a law `a + b·state`, beside the run. */
+export interface ClosedFormReport {
+  form: string;
+  rateConstant: ReportQuantity;
+  maxError: ReportQuantity;
+  maxErrorInTolerances: number;
+  timeConstant?: ReportQuantity;
+  halfLife?: ReportQuantity;
+  doublingTime?: ReportQuantity;
+  equilibrium?: ReportQuantity;
+  stable?: boolean;
+}
+
+export interface SimulateFields {
+  method: string;
+  steps: number;
+  evaluations: number;
+  results: Record<string, FindResult>;
+  closedForm?: Record<string, ClosedFormReport>;
+  /** `t` and one array per state, in SI. */
+  series: Record<string, number[]>;
+  summary: string;
+  /** Each question in words, as the summary puts it. */
+  questions: Record<string, string>;
+  plot: SimulationPlot;
+  switchedToStiff?: ReportQuantity;
+  note?: string;
+}
+
+// data
+
+/** What reading a data cell's CSV text said: notes on what was interpreted, the start of clock times, refused rows. */
+export interface CsvReadReport {
+  notes: string[];
+  start?: string;
+  problems?: CsvRowProblem[];
+}
+
+export interface DataFields {
+  columns: Array<{ name: string; unit: string }>;
+  rowCount: number;
+  missing?: string[];
+  note?: string;
+  csv?: CsvReadReport;
+}
+
+// fit
+
+export interface EstimateReport {
+  value: ReportQuantity;
+  standardError?: ReportQuantity;
+  ci95?: ReportQuantity[];
+  atBound?: true;
+}
+
+export interface FitResidual {
+  /** 1-based row of the data. */
+  row: number;
+  state: string;
+  time: ReportQuantity;
+  residual: ReportQuantity;
+}
+
+export interface FitFields {
+  estimates: Record<string, EstimateReport>;
+  residualSD?: ReportQuantity;
+  n: number;
+  dof: number;
+  iterations: number;
+  evaluations: number;
+  converged: boolean;
+  message: string;
+  correlation?: { names: string[]; matrix: number[][] };
+  warnings?: string[];
+  residuals: FitResidual[];
+  summary: string;
+  /** The fitted curve over the data's span, with the measurements as points. */
+  plot?: SimulationPlot;
+}
+
+// nca
+
+export interface NcaFields {
+  values: Record<string, ReportQuantity>;
+  pointsUsed: { count: number; times: ReportQuantity[] };
+  note?: string;
+  warnings?: string[];
+}
+
+// note
+
+export type NoteFields = Record<never, never>;
+
+/** The fields each kind adds to its cell's report. */
+export interface CellFields {
+  parameters: ParametersFields;
+  rate: RateFields;
+  phase: PhaseFields;
+  simulate: SimulateFields;
+  data: DataFields;
+  fit: FitFields;
+  nca: NcaFields;
+  note: NoteFields;
+}
+
+/**
+ * What one node of a cell of kind K outputs: some of its kind's fields (a rate cell's state
+ * node gives `state`, its law node `rateAtStart`), merged into the cell's report.
+ */
+export type NodeOutput<K extends CellKind> = Partial<CellFields[K]> & Unfinished;
+
+/** Every field name some kind adds. */
+type AnyField = { [K in CellKind]: keyof CellFields[K] }[CellKind];
+
+/** The fields of the other kinds, marked absent: any cell report can be asked for any field. */
+type OtherFields<K extends CellKind> = { [P in Exclude<AnyField, keyof CellFields[K] | keyof Unfinished>]?: undefined };
+
+/**
+ * The report of a cell of kind K. Its kind's fields are absent when the cell failed or was
+ * only checked; other kinds' fields are always absent.
+ */
+export type ReportOf<K extends CellKind> = ReportBase<K> & Unfinished & Partial<CellFields[K]> & OtherFields<K>;
+
+/** The report of one cell: narrow it on `kind`. */
+export type CellReport = { [K in CellKind]: ReportOf<K> }[CellKind];
 
 export interface Report {
   title: string;
@@ -23,8 +275,13 @@ export interface Report {
   cells: CellReport[];
 }
 
+/** Narrows a cell report to its kind. */
+export function isKind<K extends CellKind>(r: CellReport, kind: K): r is Extract<CellReport, { kind: K }> {
+  return r.kind === kind;
+}
+
 /** Merges node outputs of one cell: objects merge key by key, other values are replaced. */
-export function mergeOutput(into: Record<string, unknown>, part: Readonly<Record<string, unknown>>): void {
+export function mergeOutput(into: Record<string, unknown>, part: object): void {
   for (const [k, v] of Object.entries(part)) {
     const old = into[k];
     if (isPlain(old) && isPlain(v)) into[k] = { ...old, ...v };

@@ -15,12 +15,15 @@ import { buildGraph, upstreamOf, type Graph } from './graph.ts';
 import { prepareWhatIf, type Replacement, type Unavailable, type WhatIfPrepared } from './what-if.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
-import type { SimulationPlot } from '../simulate/plot-data.ts';
-import { unitFromText, shownIn } from '../expression/unit-text.ts';
 import { studyUnits } from './study-units.ts';
 import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
 
 type Slot = Binding | Unavailable;
+
+/** The binding in a slot; undefined when its name is unavailable. */
+function bound(slot: Slot | undefined): Binding | undefined {
+  return slot && slot.kind !== 'unavailable' ? slot : undefined;
+}
 
 export type { Edit } from '../study/edit.ts';
 export type { Replacement, WhatIfPrepared } from './what-if.ts';
@@ -55,7 +58,8 @@ export class StudySession {
   private readonly outcomes = new Map<string, Outcome>();
   private readonly staticSigs = new Map<string, string>();
   private readonly slots = new Map<string, Slot>();
-  private readonly reports = new Map<string, CellReport>();
+  /** Each cell's last report, with the position it was made at. */
+  private readonly reports = new Map<string, { index: number; report: CellReport }>();
   private lastReport!: Report;
   /** The units the study's inputs are written in, gathered once per evaluation. */
   private units!: StudyUnits;
@@ -113,7 +117,6 @@ export class StudySession {
   }
 
   private positions?: Map<string, number>;
-  private lastFitIds = '';
 
   /** A cell's position; -1 when absent. Cost: O(1) after the first call since the last edit. */
   private indexOf(id: string): number {
@@ -144,7 +147,7 @@ export class StudySession {
   private withShapeProblems(cell: Cell, nodes: GraphNode[]): GraphNode[] {
     const problems = this.cellProblems.get(cell.id);
     if (!problems?.length) return nodes;
-    const errors: CellError[] = problems.map((p) => ({ message: p.message, path: p.path.replace(/^cells\[\d+\]/, CELL_PATH) }));
+    const errors: CellError[] = problems.map((p) => ({ kind: 'shape', message: p.message, path: p.path.replace(/^cells\[\d+\]/, CELL_PATH) }));
     if (nodes.length === 0) {
       return [{ key: `${cell.id}/shape`, cell: cell.id, defines: [], uses: [], allowsTime: false, allowsStates: false, signature: JSON.stringify(errors), problems: errors, run: () => ({ ok: true, bindings: new Map(), output: {} }) }];
     }
@@ -213,23 +216,19 @@ export class StudySession {
     }
 
     const changed: string[] = [];
-    const cellReports: CellReport[] = [];
-    // a simulation's plot shows the measurements fits made of its states
-    const fitIds = this.cells.filter((c) => c.kind === 'fit').map((c) => c.id).join(',');
-    const fitsReran = fitIds !== this.lastFitIds || this.cells.some((c) => c.kind === 'fit' && rerunCells.has(c.id));
-    this.lastFitIds = fitIds;
+    const reports: CellReport[] = [];
     for (const cell of this.cells) {
       let r = this.reports.get(cell.id);
-      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== this.indexOf(cell.id) || (fitsReran && cell.kind === 'simulate')) {
-        const fresh = this.cellReport(cell);
-        if (!r || !deepEqual(r, fresh)) changed.push(cell.id);
-        r = fresh;
+      const index = this.indexOf(cell.id);
+      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index) {
+        const fresh = this.cellReport(cell, index);
+        if (!r || !deepEqual(r.report, fresh)) changed.push(cell.id);
+        r = { index, report: fresh };
         this.reports.set(cell.id, r);
       }
-      cellReports.push(r);
+      reports.push(r.report);
     }
     for (const id of [...this.reports.keys()]) if (this.indexOf(id) < 0) this.reports.delete(id);
-    const reports = cellReports.map(({ index: _index, ...rest }) => rest as CellReport);
     this.lastReport = {
       title: this.title,
       ok: reports.every((c) => c.ok),
@@ -247,11 +246,11 @@ export class StudySession {
     if (waiting) return { ok: false, error: waiting };
     const ctx: RunContext = {
       mode: this.mode,
-      binding: (name) => {
-        if (!sources.has(name)) return undefined;
-        const slot = this.slots.get(name);
-        return slot && slot.kind !== 'unavailable' ? slot : undefined;
-      },
+      binding: (name) => (sources.has(name) ? bound(this.slots.get(name)) : undefined),
+      bindingsOf: (kind) => [...sources.keys()].flatMap((name) => {
+        const b = bound(this.slots.get(name));
+        return b?.kind === kind ? [b as Extract<Binding, { kind: typeof kind }>] : [];
+      }),
       upstream: (name) => this.upstream(name),
       studyUnits: this.units,
     };
@@ -289,22 +288,8 @@ export class StudySession {
     return upstreamOf(this.graph, name);
   }
 
-  /** Every measured series a fit cell observed, in SI, by state. */
-  private measurements(): Array<{ state: string; t: number[]; y: number[] }> {
-    const out: Array<{ state: string; t: number[]; y: number[] }> = [];
-    for (const c of this.cells) {
-      if (c.kind !== 'fit') continue;
-      for (const n of this.built.get(c.id)?.nodes ?? []) {
-        const o = this.outcomes.get(n.key);
-        if (o?.ok && Array.isArray(o.output.observed)) out.push(...(o.output.observed as typeof out));
-      }
-    }
-    return out;
-  }
-
-  private cellReport(cell: Cell): CellReport & { index: number } {
-    const index = this.indexOf(cell.id);
-    const r: CellReport & { index: number } = { index, id: cell.id, kind: cell.kind, ...(typeof cell.title === 'string' ? { title: cell.title } : {}), ok: true };
+  private cellReport(cell: Cell, index: number): CellReport {
+    const r: CellReport = { id: cell.id, kind: cell.kind, ...(typeof cell.title === 'string' ? { title: cell.title } : {}), ok: true };
     const errors: CellError[] = [];
     const waits = new Set<string>();
     const output: Record<string, unknown> = {};
@@ -314,12 +299,10 @@ export class StudySession {
       if (o.output) mergeOutput(output, o.output);
       if (!o.ok) {
         errors.push({ ...o.error, path: resolvePath(o.error.path, index) });
-        const m = /^waits on cell "([^"]+)"/.exec(o.error.message);
-        if (m) waits.add(m[1]);
+        if (o.error.waitsOn !== undefined) waits.add(o.error.waitsOn);
       }
     }
     Object.assign(r, output);
-    if (cell.kind === 'simulate' && output.plot) r.plot = withMeasurements(output.plot as SimulationPlot, this.measurements());
     if (errors.length) {
       r.ok = false;
       r.error = errors[0];
@@ -330,30 +313,16 @@ export class StudySession {
   }
 }
 
-/** A simulation plot with the measurements of its states as points, in the plot's units. */
-function withMeasurements(plot: SimulationPlot, measured: ReadonlyArray<{ state: string; t: number[]; y: number[] }>): SimulationPlot {
-  const timeUnit = unitFromText(plot.timeUnit);
-  if (!timeUnit) return plot;
-  const points = plot.states.flatMap((s) => {
-    const unit = unitFromText(s.unit);
-    if (!unit) return [];
-    return measured.filter((m) => m.state === s.name).map((m) => ({ state: s.name, t: m.t.map((t) => shownIn(t, timeUnit)), values: m.y.map((y) => shownIn(y, unit)) }));
-  });
-  return points.length ? { ...plot, points } : plot;
-}
-
 /** The error of a node that reads a name whose definer failed or computed nothing; undefined when all its inputs are bound. */
 function waitingOn(graph: Graph, node: GraphNode, slotOf: (name: string) => Slot | undefined): CellError | undefined {
   const sources = graph.sources.get(node.key)!;
   for (const use of node.uses) {
     const src = sources.get(use.name);
-    if (!src || !('node' in src)) continue;
+    if (!src || !('node' in src) || src.optional) continue;
     const slot = slotOf(use.name);
-    if (!slot || slot.kind === 'unavailable') {
-      const reason = slot?.reason ?? 'it has not been computed';
-      // a reason that already names the same cell (a node waiting on a node of its own cell) is not named twice
-      const waits = `waits on cell "${slot?.cell ?? graph.nodes.get(src.node)?.cell}": `;
-      return { message: reason.startsWith(waits) ? reason : `${waits}${reason}`, path: use.path };
+    if (!bound(slot)) {
+      const unavailable = slot as Unavailable | undefined;
+      return waitsOnCell(unavailable?.cell ?? graph.nodes.get(src.node)!.cell, unavailable, use.path);
     }
   }
   return undefined;
@@ -361,14 +330,28 @@ function waitingOn(graph: Graph, node: GraphNode, slotOf: (name: string) => Slot
 
 /** What a node that threw is reported as. */
 function internalError(node: GraphNode, err: unknown): Outcome {
-  return { ok: false, error: { message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? CELL_PATH } };
+  return { ok: false, error: { kind: 'internal', message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? CELL_PATH } };
 }
 
 function unavailable(node: GraphNode, name: string, outcome: Outcome, index: number): Unavailable {
-  const reason = outcome.ok && outcome.reasons?.has(name) ? outcome.reasons.get(name)! : !outcome.ok
-    ? (outcome.error.message.startsWith('waits on') ? outcome.error.message : `${show(name)} has an error (${resolvePath(outcome.error.path, index)}: ${outcome.error.message})`)
-    : typeof outcome.output.message === 'string' ? outcome.output.message : `${show(name)} was not computed`;
+  if (!outcome.ok) {
+    const { error } = outcome;
+    const reason = error.waitsOn !== undefined ? error.message : `${show(name)} has an error (${resolvePath(error.path, index)}: ${error.message})`;
+    return { kind: 'unavailable', cell: node.cell, reason, ...(error.waitsOn !== undefined ? { waitsOn: error.waitsOn } : {}), sig: `unavailable|${reason}` };
+  }
+  const message = (outcome.output as { message?: unknown }).message;
+  const reason = outcome.reasons?.get(name) ?? (typeof message === 'string' ? message : `${show(name)} was not computed`);
   return { kind: 'unavailable', cell: node.cell, reason, sig: `unavailable|${reason}` };
+}
+
+/**
+ * The error of a node that reads a name of `cell` that is unavailable. A reason that already
+ * waits on that same cell (a node of it waiting on another of its nodes) is not prefixed twice.
+ */
+function waitsOnCell(cell: string, slot: Unavailable | undefined, path: string): CellError {
+  const reason = slot?.reason ?? 'it has not been computed';
+  const message = slot?.waitsOn === cell ? reason : `waits on cell "${cell}": ${reason}`;
+  return { kind: 'waits', waitsOn: cell, message, path };
 }
 
 /** Structural equality of plain JSON-like values (reports): cheaper than comparing their JSON. */

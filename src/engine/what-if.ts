@@ -27,6 +27,8 @@ export interface Unavailable {
   readonly kind: 'unavailable';
   readonly cell: string;
   readonly reason: string;
+  /** When the definer itself waits on a cell: that cell (its reason already names it). */
+  readonly waitsOn?: string;
   readonly sig: string;
 }
 
@@ -188,6 +190,10 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
         const s = read(name);
         return s && s.kind !== 'unavailable' ? s : undefined;
       },
+      bindingsOf: (kind) => [...local.keys()].flatMap((name) => {
+        const s = read(name);
+        return s && s.kind === kind ? [s as Extract<Binding, { kind: typeof kind }>] : [];
+      }),
       upstream: (name) => upstreamOf(graph, name),
       ...(view.studyUnits ? { studyUnits: view.studyUnits } : {}),
     };

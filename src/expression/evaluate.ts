@@ -21,7 +21,8 @@ export type Lookup = (name: string) => Value | undefined;
 /** A value of an expression: a quantity, or true/false from a comparison. */
 export type Value = Quantity | boolean;
 
-export type EvalResult = { ok: true; value: Value } | { ok: false; error: ExprProblem & { token?: string } };
+/** `units`: the problem is a unit or dimension mismatch in the arithmetic. */
+export type EvalResult = { ok: true; value: Value } | { ok: false; error: ExprProblem & { token?: string; units?: true } };
 
 class ExprError extends Error {
   constructor(message: string, readonly token?: string) {
@@ -36,7 +37,7 @@ export function evaluateExpression(e: Expr, lookup: Lookup): EvalResult {
     return { ok: true, value: evaluate(e, ctx) };
   } catch (err) {
     if (err instanceof ExprError) return { ok: false, error: { message: err.message, token: err.token } };
-    if (err instanceof QuantityError) return { ok: false, error: { message: err.message } };
+    if (err instanceof QuantityError) return { ok: false, error: { message: err.message, units: true } };
     if (err instanceof RangeError) return { ok: false, error: { message: 'is nested too deeply' } };
     return { ok: false, error: { message: `could not be evaluated: ${(err as Error).message}` } };
   }

@@ -6,6 +6,7 @@
 import { math } from '../units/mathjs.ts';
 import type { BinaryOp, CompareOp, Expr } from './ast.ts';
 import { FUNCTIONS, FUNCTION_NAMES, isFunctionName } from './functions.ts';
+import { findWord } from './find-word.ts';
 
 /** An error in an expression; `span` is [start, end) in the text when the parser knows it. */
 export interface ExprProblem {
@@ -89,13 +90,9 @@ function syntaxSpan(err: unknown, text: string): readonly [number, number] | und
 /** Finds a refused token in the text so the editor can underline it. */
 function locate(text: string, token?: string): readonly [number, number] | undefined {
   if (!token) return undefined;
-  const word = /^[A-Za-z_]/.test(token) ? new RegExp(`(?<![A-Za-z0-9_])${escape(token)}(?![A-Za-z0-9_])`) : new RegExp(escape(token));
-  const m = word.exec(text);
-  return m ? [m.index, m.index + token.length] : undefined;
-}
-
-function escape(s: string): string {
-  return s.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+  if (/^[A-Za-z_]/.test(token)) return findWord(text, token);
+  const at = text.indexOf(token);
+  return at >= 0 ? [at, at + token.length] : undefined;
 }
 
 function translate(n: any, depth: number): Expr {

@@ -32,7 +32,7 @@ export function linearCoefficients(f: (y: number) => number, y0: number, scale: 
 }
 
 /** The exact value at time dt into a piece that starts at y0 with y' = a + b y. */
-export function exactAfter(law: Linear, y0: number, dt: number): number {
+function exactAfter(law: Linear, y0: number, dt: number): number {
   if (law.b === 0) return y0 + law.a * dt;
   const star = -law.a / law.b;
   return star + (y0 - star) * Math.exp(law.b * dt);

@@ -10,6 +10,7 @@ import type { DisplayUnit } from '../units/units.ts';
 import { formatUnit } from '../units/units.ts';
 import { type Trajectory, evalPiece } from './trajectory.ts';
 import type { Action } from './schedule.ts';
+import type { MeasuredSeries } from '../engine/node.ts';
 
 /** Points across the whole run (more land on longer pieces; at least two per piece). */
 export const PLOT_POINTS = 400;
@@ -21,8 +22,15 @@ export interface SimulationPlot {
   readonly events: Array<{ readonly time: number; readonly kind: string; readonly label: string }>;
   readonly levels: Array<{ readonly state: string; readonly value: number; readonly label: string }>;
   readonly marks: Array<{ readonly name: string; readonly state: string; readonly time: number; readonly value: number; readonly label: string }>;
-  /** Measurements of the states (from fit cells that observe them), added by the session. */
-  readonly points?: Array<{ readonly state: string; readonly t: number[]; readonly values: number[] }>;
+  /** Measurements of the states (from fit cells that observe them), read through the graph. */
+  readonly points?: MeasuredPoints[];
+}
+
+/** One state's measurements in the plot's units. */
+export interface MeasuredPoints {
+  readonly state: string;
+  readonly t: number[];
+  readonly values: number[];
 }
 
 export interface PlotInput {
@@ -33,6 +41,8 @@ export interface PlotInput {
   readonly actions: readonly Action[];
   readonly levels: ReadonlyArray<{ readonly state: string; readonly level: Quantity }>;
   readonly marks: ReadonlyArray<{ readonly name: string; readonly state: string; readonly t: number; readonly value: Quantity; readonly answer: string }>;
+  /** Measurements of states, in SI; those of the plotted states become `points`. */
+  readonly measured: readonly MeasuredSeries[];
 }
 
 export function simulationPlot(p: PlotInput): SimulationPlot {
@@ -59,6 +69,7 @@ export function simulationPlot(p: PlotInput): SimulationPlot {
     const what = a.kind === 'add' ? 'dose' : a.kind === 'set' ? 'change' : a.kind === 'infuse-start' ? 'infusion starts' : 'infusion ends';
     return [{ time: timeIn(a.time), kind: a.kind, label: `${what}: ${a.targets.map((x) => x.name).join(', ')}` }];
   });
+  const points = measuredPoints(p.measured, p.states, timeIn);
   return {
     timeUnit: formatUnit(p.timeUnit),
     t,
@@ -66,12 +77,25 @@ export function simulationPlot(p: PlotInput): SimulationPlot {
     events,
     levels: p.levels.map((l) => levelOf(l, stateUnitOf(p, l.state))),
     marks: p.marks.map((m) => ({ name: m.name, state: m.state, time: timeIn(m.t), value: valueIn(m.value, stateUnitOf(p, m.state)), label: `${m.name}: ${m.answer}` })),
+    ...(points.length ? { points } : {}),
   };
 }
 
 /** A level in its state's unit, the unit of the axis it is drawn on, its label too. */
 function levelOf(l: PlotInput['levels'][number], unit: DisplayUnit): SimulationPlot['levels'][number] {
   return { state: l.state, value: valueIn(l.level, unit), label: `${l.state} = ${describe({ ...l.level, unit })}` };
+}
+
+/**
+ * Measurements of the plotted states as points: times by `timeIn`, values in each state's
+ * unit, in the order of the states; measurements of other states are left out.
+ */
+export function measuredPoints(measured: readonly MeasuredSeries[], states: PlotInput['states'], timeIn: (si: number) => number): MeasuredPoints[] {
+  return states.flatMap((s) => measured.filter((m) => m.state === s.name).map((m) => ({
+    state: s.name,
+    t: m.t.map(timeIn),
+    values: m.y.map((y) => valueIn({ ...s.template, si: y }, s.template.unit)),
+  })));
 }
 
 function stateUnitOf(p: PlotInput, state: string): DisplayUnit {

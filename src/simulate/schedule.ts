@@ -63,9 +63,3 @@ export function expandSchedule(events: readonly ScheduledEvent[], from: number, 
   return actions;
 }
 
-/** The distinct action times strictly inside (from, to): where integration must stop. */
-export function breakpoints(actions: readonly Action[], from: number, to: number): number[] {
-  const out: number[] = [];
-  for (const a of actions) if (a.time > from && a.time < to && out[out.length - 1] !== a.time) out.push(a.time);
-  return out;
-}

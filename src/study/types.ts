@@ -2,6 +2,7 @@
  * The study document, version 1, as fixed by the study-format contract. Fields hold the
  * user's text (expressions are strings); nothing here is evaluated.
  */
+import { METHODS, type Method } from '../numerics/ode/integrate.ts';
 export const FORMAT = 'ratebook-study';
 export const CURRENT_VERSION = 1;
 
@@ -33,8 +34,8 @@ export interface PhaseCell extends CellBase {
   sweep?: { name: string; from: string; to: string; steps: number };
 }
 
-export const METHODS = ['auto', 'dopri5', 'stiff', 'rk4', 'heun', 'euler'] as const;
-export type Method = (typeof METHODS)[number];
+/** A simulate cell's integration methods: the solver's own list, so the two cannot drift apart. */
+export { METHODS, type Method };
 
 export interface ScheduleEvent {
   at: string;
@@ -47,7 +48,6 @@ export interface ScheduleEvent {
 }
 
 export const FIND_KINDS = ['crossing', 'maximum', 'minimum', 'timeOfMaximum', 'timeOfMinimum', 'valueOf', 'integralOf', 'timeAbove', 'timeBelow'] as const;
-export type FindKind = (typeof FIND_KINDS)[number];
 
 export interface FindQuery {
   name: string;

@@ -80,6 +80,6 @@ export function describeDim(d: Dim): string {
   return parts.join(' ');
 }
 
-export function round6(x: number): number {
+function round6(x: number): number {
   return Math.round(x * 1e6) / 1e6;
 }

@@ -42,11 +42,6 @@ export function fromUnit(value: number, unit: DisplayUnit): Quantity {
   return sameDim(dim, TEMPERATURE) ? { ...q, temp: 'delta' } : q;
 }
 
-/** The number to show for q in its own display unit. */
-export function displayValue(q: Quantity): number {
-  return valueIn(q, q.unit);
-}
-
 /** The number q is in `unit` (a point temperature is read on the unit's scale). */
 export function valueIn(q: Quantity, unit: DisplayUnit): number {
   if (q.temp === 'point' && unit.length === 1 && unit[0][1] === 1) {
@@ -171,26 +166,21 @@ export function compare(a: Quantity, b: Quantity, op: string): boolean {
   }
 }
 
-/** Equal as values the user sees: same magnitude, dimension, kind and unit. Cost: O(unit terms). */
-export function sameQuantity(a: Quantity, b: Quantity): boolean {
-  return Object.is(a.si, b.si) && sameDim(a.dim, b.dim) && a.temp === b.temp && formatUnit(a.unit) === formatUnit(b.unit);
-}
-
 /** The contract's `{ value, unit, si }` form. */
-export interface ReportedQuantity {
+export interface ReportQuantity {
   value: number;
   unit: string;
   si: number;
 }
 
-export function report(q: Quantity): ReportedQuantity {
+export function report(q: Quantity): ReportQuantity {
   const unit = shownUnit(q);
   return { value: tidy(valueIn(q, unit)), unit: formatUnit(unit), si: q.si };
 }
 
 /**
  * Drops the last bits of floating-point noise from a converted value (39.99999999999996 degF
- * becomes 40): 12 significant digits, far finer than any input a study holds.
+ * becomes 40): 14 significant digits, far finer than any input a study holds.
  */
 export function tidy(x: number): number {
   return Number.isFinite(x) && x !== 0 ? Number(x.toPrecision(14)) : x;

@@ -64,11 +64,6 @@ export function isOffsetTemperature(def: UnitDef): boolean {
   return def.zero !== 0 && def.dim[4] === 1 && def.dim.every((x, i) => i === 4 || x === 0);
 }
 
-/** True for K and degR: absolute temperature scales. */
-export function isAbsoluteTemperature(def: UnitDef): boolean {
-  return def.zero === 0 && def.dim[4] === 1 && def.dim.every((x, i) => i === 4 || x === 0);
-}
-
 /** A product of named units with powers, in the order first written. */
 export type DisplayUnit = ReadonlyArray<readonly [name: string, power: number]>;
 

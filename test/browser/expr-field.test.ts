@@ -1,51 +1,10 @@
 // <expr-field>: the one-line expression editor. It shows and edits the text, reports edits
 // and commits as events, marks the engine's error, completes names and shows their values.
 import { expect } from 'chai';
-import { EditorView } from '@codemirror/view';
+import type { EditorView } from '@codemirror/view';
 import { currentCompletions, startCompletion, completionStatus } from '@codemirror/autocomplete';
-import '../../components/expr-field.ts';
-import type { ExprField, ExprInputDetail } from '../../components/expr-field.ts';
-
-const NAMES = [
-  { name: 'k', detail: '0.35 /h' },
-  { name: 'Ta', detail: '21 degC' },
-  { name: 'kelvinRate' },
-];
-
-async function field(props: Partial<Pick<ExprField, 'value' | 'names' | 'error' | 'label' | 'readonly'>> = {}): Promise<ExprField> {
-  const el = document.createElement('expr-field');
-  el.label = 'Rate law';
-  Object.assign(el, props);
-  document.body.append(el);
-  await el.updateComplete;
-  return el;
-}
-
-function viewOf(el: ExprField): EditorView {
-  const dom = el.shadowRoot!.querySelector('.cm-editor') as HTMLElement | null;
-  expect(dom, 'the editor is rendered').to.not.equal(null);
-  return EditorView.findFromDOM(dom!)!;
-}
-
-function record(el: ExprField, type: 'expr-input' | 'expr-commit'): string[] {
-  const seen: string[] = [];
-  document.body.addEventListener(type, (e) => {
-    if (e.composedPath()[0] === el) seen.push((e as CustomEvent<ExprInputDetail>).detail.value);
-  });
-  return seen;
-}
-
-async function until<T>(get: () => T | undefined | null | false, what: string, ms = 3000): Promise<T> {
-  const end = performance.now() + ms;
-  for (;;) {
-    const v = get();
-    if (v) return v;
-    if (performance.now() > end) throw new Error(`gave up waiting: ${what}`);
-    await new Promise((r) => setTimeout(r, 20));
-  }
-}
-
-const frame = () => new Promise((r) => requestAnimationFrame(() => r(undefined)));
+import type { ExprField } from '../../components/expr-field.ts';
+import { NAMES, field, frame, record, until, viewOf } from './expr-field-helpers.ts';
 
 function key(view: EditorView, key: string, init: KeyboardEventInit = {}): void {
   view.contentDOM.dispatchEvent(new KeyboardEvent('keydown', { key, bubbles: true, cancelable: true, ...init }));
@@ -192,17 +151,19 @@ describe('expr-field', () => {
     expect(el.shadowRoot!.querySelector('.cm-tooltip-autocomplete')!.textContent).to.contain('0.35 /h');
   });
 
-  it('inserts "name(" for a function', async () => {
+  it('inserts "name(" for a function chosen from the list', async () => {
     const el = await field({ value: '' });
     const view = viewOf(el);
     view.focus();
     view.dispatch({ changes: { from: 0, insert: 'ex' }, selection: { anchor: 2 }, userEvent: 'input.type' });
     startCompletion(view);
     await until(() => completionStatus(view.state) === 'active' && currentCompletions(view.state).some((c) => c.label === 'exp'), 'exp offered');
-    await until(() => el.shadowRoot!.querySelector('.cm-tooltip-autocomplete li[aria-selected]'), 'an option selected');
-    // the selected option is the best match, exp; Enter accepts it rather than committing
+    await until(() => el.shadowRoot!.querySelector('.cm-tooltip-autocomplete'), 'the completion list');
+    // moving into the list selects the best match, exp; Enter accepts it rather than committing
     const commits = record(el, 'expr-commit');
-    await new Promise((r) => setTimeout(r, 100)); // completion ignores Enter for a moment after opening
+    await new Promise((r) => setTimeout(r, 100)); // completion ignores keys for a moment after opening
+    key(view, 'ArrowDown');
+    await until(() => el.shadowRoot!.querySelector('.cm-tooltip-autocomplete li[aria-selected]'), 'an option selected');
     key(view, 'Enter');
     expect(view.state.doc.toString()).to.equal('exp(');
     expect(commits).to.deep.equal([]);

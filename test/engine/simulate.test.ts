@@ -189,7 +189,7 @@ describe('other laws with closed forms', () => {
       { id: 'law', kind: 'rate', state: 'C', unit: 'mg / L', rate: '0.2 / h * (5 mg / L - C)', initial: '0 mg / L' },
       { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '10 h' },
     ]);
-    const cf = (filling.closedForm as Record<string, Record<string, Q>>).C;
+    const cf = filling.closedForm!.C;
     assert.ok(Math.abs(cf.rateConstant.value + 0.2) < 1e-12, `${cf.rateConstant.value}`);
     assert.ok((filling.closedForm as Record<string, { maxErrorInTolerances: number }>).C.maxErrorInTolerances < 10);
     // falling from rest with quadratic drag: v' = g - c v|v| is not linear in v (common practice)

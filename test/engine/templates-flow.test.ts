@@ -105,8 +105,8 @@ it('radiocarbon age: t_half log2(1/f) with the NUBASE2020 half-life, and the con
   near(run.age, age, 1e-5, 'year'); // closed form of first-order decay
   near(run.N_at_half_life, 0.5, 1e-5, ''); // half left after one half-life (definition)
   near(run.N_at_10000, Math.pow(2, -10000 / tHalf), 1e-5, ''); // closed form
-  const cf = (byId(cs, 'run').closedForm as Record<string, Record<string, Q>>).N14;
-  near(cf.halfLife, tHalf, 1e-9, 'year'); // t_half = ln 2 / lambda, back to the NUBASE2020 value
+  const cf = byId(cs, 'run').closedForm!.N14;
+  near(cf.halfLife!, tHalf, 1e-9, 'year'); // t_half = ln 2 / lambda, back to the NUBASE2020 value
   const p = values(cs, 'decay');
   near(p.age_cf, age, 1e-12, 'year');
   near(p.age_cambridge, tHalfCambridge * Math.log2(1 / f), 1e-12, 'year'); // Godwin 1962 half-life

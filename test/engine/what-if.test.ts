@@ -66,7 +66,7 @@ function edited(doc: unknown, edits: Record<string, string>): { session: StudySe
 }
 
 function results(s: StudySession, cell: string): Record<string, Record<string, unknown>> {
-  return s.report().cells.find((c) => c.id === cell)!.results as Record<string, Record<string, unknown>>;
+  return s.report().cells.find((c) => c.id === cell)!.results as unknown as Record<string, Record<string, unknown>>;
 }
 
 describe('what-if: the same answers as a real edit', () => {

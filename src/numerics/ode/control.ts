@@ -217,7 +217,7 @@ export function beyondBound(ctx: OdeContext, y: ArrayLike<number>): boolean {
  * component has grown past `BLOWUP_GROWTH` times its scale and e-folds (|y|/|f|) within
  * `SINGULAR_TIME_FRACTION` of the span. `f` is f at (t, y).
  */
-export function nearSingularity(ctx: OdeContext, y: Float64Array, f: Float64Array): boolean {
+function nearSingularity(ctx: OdeContext, y: Float64Array, f: Float64Array): boolean {
   for (let i = 0; i < ctx.n; i++) {
     const v = Math.abs(y[i]);
     if (!(v > BLOWUP_GROWTH * ctx.scale[i])) continue;

@@ -55,7 +55,7 @@ export class HermiteSegment implements DenseSegment {
  */
 export const SLIVER = 1e-9;
 
-export function fixedStepCount(t0: number, tEnd: number, step: number): number {
+function fixedStepCount(t0: number, tEnd: number, step: number): number {
   return Math.max(1, Math.ceil((tEnd - t0) / step - SLIVER));
 }
 

@@ -20,7 +20,7 @@ export type Rhs = (t: number, y: Float64Array, dy: Float64Array) => void;
  */
 export type Jacobian = (t: number, y: Float64Array, jac: Float64Array) => void;
 
-/** Options read by every solver. Defaults are in `ode-control.ts` (`DEFAULTS`). */
+/** Options read by every solver. Defaults are in `control.ts` (`DEFAULTS`). */
 export interface SolverOptions {
   /** Relative tolerance, a positive number (default 1e-6). */
   readonly rtol?: number;
@@ -143,6 +143,21 @@ export const MESSAGES: { readonly [S in Status]: (at: Where, detail?: MessageDet
     (detail?.budget === 'evaluations'
       ? `${detail.limit ?? ''} evaluations of the rate (the evaluation budget)`
       : `${detail?.limit ?? ''} step attempts (the step budget)`),
+};
+
+/** The statuses that end a run early. */
+export type FailureStatus = Exclude<Status, 'success'>;
+
+/**
+ * What each failure means and what to try, without where it happened: for a caller that
+ * states the time and the states itself, in its own units (a simulate cell does, in the
+ * units of the study). `detail.limit` is the step budget for `Budget`.
+ */
+export const FAILURE_CAUSES: { readonly [S in FailureStatus]: (detail?: MessageDetail) => string } = {
+  [Status.Blowup]: () => 'the solution grows without bound (a finite-time blow-up)',
+  [Status.UndefinedRate]: () => 'the rate is not a number there (a logarithm or square root of a negative value, or a division by zero?)',
+  [Status.StepCollapse]: () => 'the step size collapsed (the rate may jump there; try the stiff method)',
+  [Status.Budget]: (detail) => `the run used its budget of ${detail?.limit ?? ''} steps (shorten the run, loosen the tolerance, or try the stiff method)`,
 };
 
 /**

@@ -1,0 +1,54 @@
+/**
+ * The base of the cell elements: the cell, its report and the whole report as properties, the
+ * study's names, the cell's errors by field for each render, and the `cell-edit` event. A
+ * cell element extends it and only renders.
+ */
+import { LitElement, html, type PropertyDeclarations } from 'lit';
+import type { Cell, CellKind, ReportOf, Report } from '../../src/index.ts';
+import { cellStyles, editEvent, ErrorClaims, namesOf } from './common.ts';
+import type { StudyName } from '../expr-field.ts';
+
+/** The document of a cell of kind K. */
+export type CellDoc<K extends CellKind> = Extract<Cell, { kind: K }>;
+
+export class CellElement<K extends CellKind> extends LitElement {
+  /** Subclasses add their own (Lit merges them with these). */
+  static override properties: PropertyDeclarations = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false } };
+  static override styles = [cellStyles];
+  cell!: CellDoc<K>;
+  /** The engine's report of this cell. */
+  report?: ReportOf<K>;
+  /** The engine's report of the whole study (names, other cells). */
+  study?: Report;
+  /** The cell's errors by field, made afresh for each render: a field takes its own, the rest go to the foot. */
+  protected claims = new ErrorClaims(undefined);
+
+  protected override willUpdate(): void {
+    this.claims = new ErrorClaims(this.report);
+  }
+
+  /** The study's names with their current values, for the expression fields. */
+  protected get names(): StudyName[] {
+    return namesOf(this.study);
+  }
+
+  /** Ids of the study's cells of one kind, in order. */
+  protected idsOf(kind: CellKind): string[] {
+    return (this.study?.cells ?? []).filter((c) => c.kind === kind).map((c) => c.id);
+  }
+
+  /** Asks to change fields of the cell; edits with the same `key` in a row are one undo step. */
+  protected edit(patch: Partial<CellDoc<K>>, key?: string): void {
+    this.replace({ ...this.cell, ...patch }, key);
+  }
+
+  /** Asks to replace the cell by `cell` (for edits that remove a field). */
+  protected replace(cell: CellDoc<K>, key?: string): void {
+    this.dispatchEvent(editEvent(cell, key ? `${this.cell.id}:${key}` : undefined));
+  }
+
+  /** The errors no field took, at the cell's foot, each with its path. */
+  protected footErrors() {
+    return this.claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`);
+  }
+}
