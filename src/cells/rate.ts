@@ -64,7 +64,10 @@ function runState(cellId: string, state: string, unitField: Field, initialField:
   const q: Quantity = temp ? { si: q0.si, dim, unit, temp } : { si: q0.si, dim, unit };
   const binding: Binding = { kind: 'state', q, unit, cell: cellId, sig: `${quantitySig(q)}|${state}` };
   if (ctx.mode === 'what-if') return { ok: true, bindings: new Map([[state, binding]]), output: {} };
-  return { ok: true, bindings: new Map([[state, binding]]), output: { state, unit: formatUnit(unit), initial: report(q) } };
+  // the unit the initial value is written in, so that the state can be shown in it again
+  const written = q0.temp === 'point' || !q0.temp ? formatUnit(shownUnit(q0)) : '';
+  const original = written && written !== formatUnit(unit) ? { originalUnit: written } : {};
+  return { ok: true, bindings: new Map([[state, binding]]), output: { state, unit: formatUnit(unit), ...original, initial: report(q) } };
 }
 
 function runLaw(cellId: string, state: string, rate: Field, ctx: RunContext): Outcome<NodeOutput<'rate'>> {

@@ -7,6 +7,7 @@
 import type { Quantity } from '../units/quantity.ts';
 import type { DisplayUnit } from '../units/units.ts';
 import type { Expr } from '../expression/ast.ts';
+import type { StudyUnits } from '../units/simplest-unit.ts';
 
 /**
  * The kinds of problem a cell can have:
@@ -112,6 +113,8 @@ export interface RunContext {
   upstream(name: string): ReadonlySet<string>;
   /** Every available binding of that kind among the names the node reads (those the graph added included). */
   bindingsOf<K extends Binding['kind']>(kind: K): Array<Extract<Binding, { kind: K }>>;
+  /** The units the study's inputs are written in (engine/study-units.ts), for showing derived values. */
+  readonly studyUnits?: StudyUnits;
 }
 
 /** What a node's run gives: bindings for the names it defines and `output` (of type O) for its cell's report. */

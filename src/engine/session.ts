@@ -18,6 +18,8 @@ import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
 import { glanceOf } from '../output/glance.ts';
 import { cellTex, studySymbols } from '../output/sheet-tex.ts';
+import { studyUnits } from './study-units.ts';
+import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
 
 type Slot = Binding | Unavailable;
 
@@ -67,6 +69,8 @@ export class StudySession {
   /** Each cell's last report, with the position it was made at. */
   private readonly reports = new Map<string, { index: number; report: CellReport }>();
   private lastReport!: Report;
+  /** The units the study's inputs are written in, gathered once per evaluation. */
+  private units!: StudyUnits;
 
   constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check') {
     this.cells = [...study.cells];
@@ -175,6 +179,14 @@ export class StudySession {
     // no longer has, changes its report
     const rebuilt = new Set<string>();
     const list = this.nodes(rebuilt);
+    this.units = studyUnits(this.cells);
+    // a parameter is shown in the study's units of its dimension: it runs again when they change
+    const kinds = new Map(this.cells.map((c) => [c.id, c.kind]));
+    const unitsKey = (node: GraphNode, o: Outcome | undefined) => {
+      if (kinds.get(node.cell) !== 'parameters') return '';
+      const b = o?.bindings?.values().next().value;
+      return b?.kind === 'value' ? `|units=${studyUnitsKey(this.units, b.q.dim)}` : '';
+    };
     this.graph = buildGraph(list, (cell, path) => resolvePath(path, this.indexOf(cell)), (id) => this.cellName(id));
     const changedNames = new Set<string>();
     const rerunCells = new Set<string>();
@@ -204,11 +216,12 @@ export class StudySession {
       }
       if (problem) staticSig += `|!${problem.path}:${problem.message}`;
       for (const d of node.defines) staticSig += `|${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`;
-      const keep = this.outcomes.has(key) && this.staticSigs.get(key) === staticSig && !inputsChanged;
-      const outcome = keep ? this.outcomes.get(key)! : this.runNode(node, problem);
+      const kept = this.outcomes.get(key);
+      const keep = !!kept && this.staticSigs.get(key) === staticSig + unitsKey(node, kept) && !inputsChanged;
+      const outcome = keep ? kept : this.runNode(node, problem);
       if (!keep) {
         this.outcomes.set(key, outcome);
-        this.staticSigs.set(key, staticSig);
+        this.staticSigs.set(key, staticSig + unitsKey(node, outcome));
         rerunCells.add(node.cell);
       }
       // a kept outcome is bound again too: the reason a name is unavailable gives the path
@@ -270,6 +283,7 @@ export class StudySession {
         return b?.kind === kind ? [b as Extract<Binding, { kind: typeof kind }>] : [];
       }),
       upstream: (name) => this.upstream(name),
+      studyUnits: this.units,
     };
     try {
       return node.run(ctx);
@@ -321,6 +335,7 @@ export class StudySession {
     const kinds = new Map(this.cells.map((c) => [c.id, c.kind]));
     return prepareWhatIf({
       graph,
+      studyUnits: this.units,
       slot: (name) => this.slots.get(name),
       cellKind: (id) => kinds.get(id),
       waitingOn: (node, slotOf) => waitingOn(graph, node, slotOf),

@@ -155,3 +155,11 @@ function format(u: DisplayUnit): string {
   if (den.length === 0) return top;
   return `${top} / ${den.length > 1 ? `(${den.join(' * ')})` : den[0]}`;
 }
+
+/**
+ * Unit text as it reads after a number, for people: "1 / h" becomes "/h" (`0.1 /h`), "1 / (h * kg)"
+ * "/(h * kg)"; other units are unchanged. The report's `unit` fields keep the re-readable form.
+ */
+export function unitAfterNumber(text: string): string {
+  return text.startsWith('1 / ') ? `/${text.slice(4)}` : text;
+}
