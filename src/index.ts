@@ -5,11 +5,14 @@ export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind } from './study/types.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT } from './study/types.ts';
+export { FIND_KINDS, findKindOf, needsLevel, switchFind, withFindState, withFindUnit, freshFindName, type FindKind, type FindQuery } from './study/find-rules.ts';
+export { EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, switchAction, withEventField, type EventAction, type ScheduleEvent } from './study/event-rules.ts';
 export type {
   Report, CellReport, ReportOf, ReportBase, ReportQuantity, CellFields, ParameterValue, PhaseEquilibrium, PhaseInterval,
   PhasePlotData, SweepReport, SimulationPlot, FindResult, NotReached, ClosedFormReport, EstimateReport, FitResidual, CsvReadReport,
 } from './engine/report.ts';
 export { isKind } from './engine/report.ts';
+export type { GlanceEntry, GlanceKind } from './output/glance.ts';
 export type { CellError, ProblemKind } from './engine/node.ts';
 export { parseExpression, type ParseResult, type ExprProblem } from './expression/parse.ts';
 export { evaluateExpression, type Lookup, type Value } from './expression/evaluate.ts';
@@ -19,9 +22,8 @@ export { FUNCTION_NAMES } from './expression/functions.ts';
 export { runStudy, exitCodeOf } from './engine/run.ts';
 export { tableFromCsv } from './cells/data.ts';
 export type { CsvRead, CsvColumn, CsvRowProblem } from './csv/read.ts';
-export type { StudyTex } from './output/sheet-tex.ts';
-export { unitChoicesFor, TRADE_UNITS } from './output/display-units.ts';
-export { studyTex } from './output/sheet-tex.ts';
+export type { ItemTex } from './output/sheet-tex.ts';
+export { unitChoicesFor, timeAxisUnits, TRADE_UNITS, type AxisUnit } from './output/display-units.ts';
 export { nameTex } from './expression/tex.ts';
 export type { FromWorker, ToWorker } from './engine/worker-protocol.ts';
 export { lookupUnit, unitAfterNumber } from './units/units.ts';

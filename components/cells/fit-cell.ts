@@ -85,7 +85,7 @@ export class FitCellElement extends CellElement<'fit'> {
     const res = r.residuals ?? [];
     const unit = res[0]?.residual.unit ?? '';
     const residualPlot = {
-      timeUnit: plot.timeUnit, t: [plot.t[0], plot.t[plot.t.length - 1]],
+      timeUnit: plot.timeUnit, timeUnits: plot.timeUnits, t: [plot.t[0], plot.t[plot.t.length - 1]],
       states: [{ name: 'residual', unit, values: [0, 0] }], events: [], levels: [], marks: [],
     };
     const residualPoints = [{ state: 'residual', t: res.map((x) => x.time.value), values: res.map((x) => x.residual.value) }];

@@ -13,7 +13,7 @@ import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf } from './axes.ts';
 import { drawOverlay, around, curveBoxes, type PointLabel } from './overlay.ts';
 import { FIELD_MARK, INK, MUTED, STABLE, UNSTABLE, ZERO_LINE } from './palette.ts';
-import { drawEquilibriumDot, equilibriumKey, type Stability } from './equilibrium-dot.ts';
+import { drawEquilibriumDot, equilibriumKey, type Side, type Stability } from './equilibrium-dot.ts';
 
 /** A quantity as the report gives it, in display units; the chart reads its value and unit. */
 export type ShownQuantity = Readonly<Partial<ReportQuantity> & Pick<ReportQuantity, 'value' | 'unit'>>;
@@ -28,7 +28,8 @@ export interface PhasePlotData {
   readonly solutions: ReadonlyArray<{ readonly start: number | null; readonly t: readonly number[]; readonly y: ReadonlyArray<number | null> }>;
 }
 
-export interface PhaseEquilibrium extends ShownQuantity { readonly stability: Stability; readonly slope?: ShownQuantity }
+/** One of the cell's `equilibria`; `attractsFrom` is the engine's side of a semi-stable point. */
+export interface PhaseEquilibrium extends ShownQuantity { readonly stability: Stability; readonly slope?: ShownQuantity; readonly attractsFrom?: Side }
 export interface PhaseInterval { readonly from: ShownQuantity | null; readonly to: ShownQuantity | null; readonly sign: string }
 
 const RATE_HEIGHT = 240;
@@ -184,7 +185,7 @@ export class PhasePlot extends LitElement {
     const labels: PointLabel[] = [];
     const clear = [];
     for (const e of this.equilibria) {
-      drawEquilibriumDot(u.ctx, u.valToPos(e.value, 'x', true), u.valToPos(0, 'y', true), 5.5 * r, r, e.stability, this.attractingSide(e));
+      drawEquilibriumDot(u.ctx, u.valToPos(e.value, 'x', true), u.valToPos(0, 'y', true), 5.5 * r, r, e.stability, e.attractsFrom);
       const x = u.valToPos(e.value, 'x');
       const y = u.valToPos(0, 'y');
       labels.push({ x, y, text: `${e.stability}: ${fmt(e.value)} ${e.unit}`, kind: 'equilibrium' });
@@ -194,17 +195,6 @@ export class PhasePlot extends LitElement {
       labels.push({ x: u.valToPos(pole.value, 'x'), y: 10, text: `pole: ${fmt(pole.value)} ${pole.unit}`, kind: 'pole' });
     }
     drawOverlay(u, labels, [], [...clear, ...curveBoxes(u, [1])]);
-  }
-
-  /** For a semi-stable point, the side the flow comes in from (read from the intervals' signs). */
-  private attractingSide(e: PhaseEquilibrium): 'left' | 'right' | undefined {
-    if (e.stability !== 'semi-stable') return undefined;
-    const near = (q: ShownQuantity | null) => (q ? Math.abs(q.value - e.value) : Infinity);
-    const below = [...this.intervals].sort((a, b) => near(a.to) - near(b.to))[0];
-    const above = [...this.intervals].sort((a, b) => near(a.from) - near(b.from))[0];
-    if (below?.sign === '+') return 'left';
-    if (above?.sign === '-') return 'right';
-    return undefined;
   }
 
   /** The phase line, drawn under the rate chart with the same horizontal scale. */
@@ -278,7 +268,7 @@ export class PhasePlot extends LitElement {
       ctx.beginPath(); ctx.moveTo(px, mid - 10 * r); ctx.lineTo(px, mid + 10 * r); ctx.stroke();
     }
     ctx.setLineDash([]);
-    for (const e of this.equilibria) drawEquilibriumDot(ctx, x(e.value), mid, 5.5 * r, r, e.stability, this.attractingSide(e));
+    for (const e of this.equilibria) drawEquilibriumDot(ctx, x(e.value), mid, 5.5 * r, r, e.stability, e.attractsFrom);
     ctx.fillStyle = MUTED;
     ctx.font = `${11 * r}px system-ui, sans-serif`;
     ctx.textBaseline = 'top';

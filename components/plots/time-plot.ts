@@ -3,7 +3,8 @@
  * src/simulate/plot-data.ts). Draws one y axis per distinct unit (two per chart; a third unit
  * starts another chart below), event times as vertical markers whose labels show on hover and
  * focus, levels as dashed lines, and the points the run found as labelled dots. A switch
- * relabels the time axis in another unit; the data are never converted. Optional measured
+ * relabels the time axis in another of the units the engine offers (`plot.timeUnits`, each with
+ * its factor); the data are never converted. Optional measured
  * points are drawn as open dots over the state they measure.
  */
 import { LitElement, html, nothing, type PropertyValues } from 'lit';
@@ -14,7 +15,6 @@ import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf, tickLabels } from './axes.ts';
 import { drawOverlay, around, curveBoxes, type PointLabel, type EventMarker } from './overlay.ts';
 import { EVENT_LINE, seriesColour } from './palette.ts';
-import { timeFactor, timeUnitChoices } from './time-units.ts';
 
 /** Measured values of one state, times in the plot's time unit and values in the state's unit. */
 export interface MeasuredPoints {
@@ -55,8 +55,8 @@ export class TimePlot extends LitElement {
   /** Measured points to draw over the curves. */
   points: readonly MeasuredPoints[] = [];
   /**
-   * The unit the time axis is labelled in: s, min, h or d (the reader's pick from the switch,
-   * or set by the host); the plot's own unit when empty or when it cannot be converted to.
+   * The unit the time axis is labelled in: one of the plot's `timeUnits` (the reader's pick from
+   * the switch, or set by the host); the plot's own unit when empty or not among them.
    */
   unit = '';
 
@@ -70,7 +70,7 @@ export class TimePlot extends LitElement {
 
   override willUpdate(changed: PropertyValues<this>): void {
     // Keep the reader's (or host's) unit across new data while it can be converted to.
-    if (changed.has('plot') && this.plot && timeFactor(this.plot.timeUnit, this.unit) === undefined) this.unit = this.plot.timeUnit;
+    if (changed.has('plot') && this.plot && this.factorOf(this.unit) === undefined) this.unit = this.plot.timeUnit;
     // New arrays for new points too, so that the chart re-ranges its scales to show them.
     const before = changed.get('points') as readonly MeasuredPoints[] | undefined;
     const pointsMoved = changed.has('points') && (before?.length !== this.points.length || this.points.some((m, i) => m !== before[i]));
@@ -80,9 +80,7 @@ export class TimePlot extends LitElement {
   override render() {
     const p = this.plot;
     if (!p) return nothing;
-    const span = p.t.length ? p.t[p.t.length - 1] - p.t[0] : 0;
-    const offered = timeUnitChoices(p.timeUnit, span);
-    const choices = offered.includes(this.shownUnit) ? offered : [...offered, this.shownUnit];
+    const choices = this.choices.map((c) => c.unit);
     return html`
       <figure>
         ${choices.length > 1 ? html`
@@ -113,13 +111,23 @@ export class TimePlot extends LitElement {
     }));
   }
 
+  /** The engine's units for the time axis; the plot's own alone when it offers none. */
+  private get choices(): ReadonlyArray<{ readonly unit: string; readonly factor: number }> {
+    return this.plot?.timeUnits?.length ? this.plot.timeUnits : this.plot ? [{ unit: this.plot.timeUnit, factor: 1 }] : [];
+  }
+
+  /** The engine's factor from the plot's unit to `unit`; undefined when it does not offer that unit. */
+  private factorOf(unit: string): number | undefined {
+    return this.choices.find((c) => c.unit === unit)?.factor;
+  }
+
   /** Multiply a time in the plot's unit by this to read it in the chosen unit. */
   private get factor(): number {
-    return (this.plot && timeFactor(this.plot.timeUnit, this.unit)) ?? 1;
+    return this.factorOf(this.unit) ?? 1;
   }
 
   private get shownUnit(): string {
-    return this.plot && timeFactor(this.plot.timeUnit, this.unit) !== undefined ? this.unit : this.plot?.timeUnit ?? '';
+    return this.factorOf(this.unit) !== undefined ? this.unit : this.plot?.timeUnit ?? '';
   }
 
   private options(panelIndex: number): Omit<uPlot.Options, 'width' | 'height'> {

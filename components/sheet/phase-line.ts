@@ -1,11 +1,14 @@
 /**
  * The phase line of a one-state law, drawn as SVG for the sheet: the state's range as an axis,
- * each equilibrium as a dot (filled: attractor; open: repeller; half-filled: semi-stable), and
- * an arrow on each interval pointing the way the state moves there.
+ * each equilibrium with the same mark as on screen (filled: attractor; open: repeller; filled
+ * on the side it attracts from, as the engine reports it: semi-stable), and an arrow on each
+ * interval where the state moves. Where the rate is zero on a whole stretch the state stays
+ * still (a thick line, no arrow); where the rate is not defined, a dotted gap.
  */
 import { svg, type SVGTemplateResult } from 'lit';
 import { formatNumber, type ReportQuantity } from '../../src/index.ts';
-import { INK, STABLE, UNSTABLE } from '../plots/palette.ts';
+import { INK, MUTED, STABLE } from '../plots/palette.ts';
+import { equilibriumMark } from '../plots/equilibrium-dot.ts';
 
 /** A quantity as the report gives it; the line reads its value and unit. */
 type Q = Readonly<Pick<ReportQuantity, 'value' | 'unit'>>;
@@ -14,7 +17,7 @@ export interface PhaseLineSpec {
   readonly from: number;
   readonly to: number;
   readonly unit: string;
-  readonly equilibria: ReadonlyArray<Q & { readonly stability: string }>;
+  readonly equilibria: ReadonlyArray<Q & { readonly stability: string; readonly attractsFrom?: string }>;
   readonly intervals: ReadonlyArray<{ readonly from: Q | null; readonly to: Q | null; readonly sign: string }>;
 }
 
@@ -33,17 +36,19 @@ export function phaseLine(p: PhaseLineSpec, width = 640): SVGTemplateResult {
     ${p.intervals.map((iv) => {
       const a = X(iv.from?.value ?? p.from);
       const b = X(iv.to?.value ?? p.to);
-      if (b - a < 14) return '';
+      if (iv.sign === '0') return svg`<line class="still" x1=${a} x2=${b} y1=${y} y2=${y} stroke=${STABLE} stroke-width="4" />`;
+      if (iv.sign === 'none') {
+        return svg`<line x1=${a} x2=${b} y1=${y} y2=${y} stroke="#fff" stroke-width="4" />
+          <line class="undefined" x1=${a} x2=${b} y1=${y} y2=${y} stroke=${MUTED} stroke-width="1.2" stroke-dasharray="2 3" />`;
+      }
+      if ((iv.sign !== '+' && iv.sign !== '-') || b - a < 14) return '';
       const mid = (a + b) / 2;
       const d = iv.sign === '+' ? 1 : -1;
-      return svg`<path d="M${mid - 7 * d},${y - 6} L${mid + 7 * d},${y} L${mid - 7 * d},${y + 6}" fill="none" stroke=${INK} stroke-width="1.6" />`;
+      return svg`<path class="arrow ${iv.sign === '+' ? 'rising' : 'falling'}" d="M${mid - 7 * d},${y - 6} L${mid + 7 * d},${y} L${mid - 7 * d},${y + 6}" fill="none" stroke=${INK} stroke-width="1.6" />`;
     })}
     ${p.equilibria.map((e) => {
       const x = X(e.value);
-      const fill = e.stability === 'attractor' ? STABLE : '#fff';
-      const stroke = e.stability === 'attractor' ? STABLE : UNSTABLE;
-      return svg`<circle cx=${x} cy=${y} r="6" fill=${fill} stroke=${stroke} stroke-width="1.6" />
-        ${e.stability === 'semi-stable' ? svg`<path d="M${x},${y - 6} A6,6 0 0 1 ${x},${y + 6} Z" fill=${UNSTABLE} />` : ''}
+      return svg`${equilibriumMark(x, y, 6, e.stability, e.attractsFrom, 1.6)}
         <text x=${x} y=${y + 26} text-anchor="middle" fill=${INK}>${label(e.value)}</text>`;
     })}
   </svg>`;

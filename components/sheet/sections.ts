@@ -4,8 +4,7 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import { nameTex, type Cell, type CellReport, type ReportOf, type SimulationPlot, type SweepReport, type StudyTex } from '../../src/index.ts';
-import { isKind } from '../../src/index.ts';
+import { isKind, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
@@ -23,58 +22,36 @@ const KIND_NAMES: Record<Cell['kind'], string> = {
 };
 
 /**
- * Results at a glance, for the top of the sheet: every yes/no verdict, every answer the runs found, every fitted
- * estimate, and the main values of each profile summary, with the cell each comes from.
+ * Results at a glance, for the top of the sheet: the engine's `glance` list as it stands (it
+ * chooses and orders them), each with the cell it comes from.
  */
-export function glance(study: { cells: readonly Cell[] }, report: { cells: readonly CellReport[] }): TemplateResult | typeof nothing {
-  const rows: Array<{ name: string; shown: string; from: string }> = [];
-  const verdicts: typeof rows = [];
-  for (const cell of study.cells) {
-    const r = report.cells.find((c) => c.id === cell.id);
-    if (!r) continue;
-    const from = cell.title || cell.id;
-    // verdicts (parameters that are conditions) belong at the top
-    if (cell.kind === 'parameters') {
-      for (const [name, q] of Object.entries(r.values ?? {})) {
-        if ('truth' in q && typeof q.truth === 'boolean') verdicts.push({ name, shown: showValue(q), from });
-      }
-    }
-    if (!r.ok) continue;
-    if (cell.kind === 'simulate') {
-      for (const [name, x] of Object.entries(r.results ?? {})) {
-        rows.push({ name, shown: 'notReached' in x ? `not reached by ${showQ(x.end)}` : showQ(x), from });
-      }
-    } else if (cell.kind === 'fit') {
-      for (const [name, e] of Object.entries(r.estimates ?? {})) {
-        rows.push({ name, shown: `${showQ(e.value)}${e.standardError ? ` ± ${showQ(e.standardError)} (SE)` : ''}`, from });
-      }
-    } else if (cell.kind === 'nca') {
-      for (const [name, q] of Object.entries(r.values ?? {})) {
-        if (/(Cmax|tmax|AUCinf|t_half|CL|Vz)$/.test(name)) rows.push({ name, shown: showQ(q), from });
-      }
-    }
-  }
-  rows.unshift(...verdicts);
-  if (!rows.length) return nothing;
+export function glance(report: Report): TemplateResult | typeof nothing {
+  const list = report.glance ?? [];
+  if (!list.length) return nothing;
+  const fromOf = (id: string) => { const c = report.cells.find((x) => x.id === id); return c?.title || id; };
+  const shown = (g: GlanceEntry) => g.unavailable !== undefined ? g.unavailable
+    : g.notReachedBy ? `not reached by ${showQ(g.notReachedBy)}`
+    : g.kind === 'verdict' ? showValue(g.value)
+    : `${g.value ? showQ(g.value) : ''}${g.standardError ? ` ± ${showQ(g.standardError)} (SE)` : ''}`;
   return html`<section class="cell glance"><h2>Results at a glance</h2>
     <table><thead><tr><th>Result</th><th>Value</th><th>From</th></tr></thead>
-    <tbody>${rows.map((x) => html`<tr><td class="name">${x.name}</td><td class="num">${x.shown}</td><td class="from">${x.from}</td></tr>`)}</tbody></table></section>`;
+    <tbody>${list.map((g) => html`<tr><td class="name">${g.name}</td><td class="num">${shown(g)}</td><td class="from">${fromOf(g.cell)}</td></tr>`)}</tbody></table></section>`;
 }
 
-export function section(cell: Cell, r: CellReport | undefined, tex: StudyTex, cells: readonly Cell[]): TemplateResult {
+export function section(cell: Cell, r: CellReport | undefined, cells: readonly Cell[]): TemplateResult {
   const body = !r ? html`<p class="muted">Not computed.</p>`
     : !r.ok ? html`<p class="error">${r.waitsOn ? `Not computed: waits on ${r.waitsOn.join(', ')}.` : `Error: ${r.error?.message ?? 'unknown'}`}</p>`
-    : bodyOf(cell, r, tex, cells);
+    : bodyOf(cell, r, cells);
   return html`<section class="cell ${cell.kind}">
     <h2>${cell.title || KIND_NAMES[cell.kind]} <span class="kind">${KIND_NAMES[cell.kind]} · ${cell.id}</span></h2>
     ${body}
   </section>`;
 }
 
-function bodyOf(cell: Cell, r: CellReport, tex: StudyTex, cells: readonly Cell[]): TemplateResult {
+function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[]): TemplateResult {
   if (cell.kind === 'note') return html`<p class="note-text">${typeof cell.text === 'string' ? cell.text : ''}</p>`;
-  if (cell.kind === 'parameters' && isKind(r, 'parameters')) return parameters(cell, r, tex);
-  if (cell.kind === 'rate' && isKind(r, 'rate')) return rate(cell, r, tex);
+  if (cell.kind === 'parameters' && isKind(r, 'parameters')) return parameters(cell, r);
+  if (cell.kind === 'rate' && isKind(r, 'rate')) return rate(cell, r);
   if (cell.kind === 'phase' && isKind(r, 'phase')) return phase(cell, r, (cells.find((c) => c.id === cell.rate) as Of<'rate'> | undefined)?.state ?? '');
   if (cell.kind === 'simulate' && isKind(r, 'simulate')) return simulate(cell, r);
   if (cell.kind === 'data' && isKind(r, 'data')) return data(cell, r);
@@ -83,25 +60,26 @@ function bodyOf(cell: Cell, r: CellReport, tex: StudyTex, cells: readonly Cell[]
   return html`<p class="muted">Not computed.</p>`;
 }
 
-function parameters(cell: Of<'parameters'>, r: ReportOf<'parameters'>, tex: StudyTex): TemplateResult {
+function parameters(cell: Of<'parameters'>, r: ReportOf<'parameters'>): TemplateResult {
   const values = r.values ?? {};
+  const tex = r.tex ?? {};
   const items = Array.isArray(cell.items) ? cell.items : [];
   // A long definition gets a row of its own under its name, across the table.
   return html`<table class="parameters">
     <colgroup><col style="width: 17%" /><col style="width: 33%" /><col style="width: 17%" /><col style="width: 33%" /></colgroup>
     <thead><tr><th>Name</th><th>Defined as</th><th>Value</th><th>Note</th></tr></thead>
     <tbody>${items.map((it) => {
-      const t = tex.values.get(`${cell.id}/${it.name}`);
+      const t = tex[it.name]?.value;
       const shown = t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`;
       const long = typeof it.value === 'string' && it.value.length > LONG_DEFINITION;
       return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${it.name}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
         <td class="num">${showValue(values[it.name])}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}</td></tr>
-        ${long ? html`<tr class="formula"><td colspan="4">${math(`${nameTex(it.name)} = ${t ?? ''}`)}</td></tr>` : nothing}`;
+        ${long ? html`<tr class="formula"><td colspan="4">${t ? math(`${tex[it.name].name} = ${t}`) : html`<code>${it.name} = ${it.value}</code>`}</td></tr>` : nothing}`;
     })}</tbody></table>`;
 }
 
-function rate(cell: Of<'rate'>, r: ReportOf<'rate'>, tex: StudyTex): TemplateResult {
-  const t = tex.rates.get(cell.id);
+function rate(cell: Of<'rate'>, r: ReportOf<'rate'>): TemplateResult {
+  const t = r.tex;
   return html`<div class="equation">${t ? math(t, true) : html`<code>d${cell.state}/dt = ${cell.rate}</code>`}</div>
     <p>State <strong>${cell.state}</strong>, shown in ${cell.unit}; starts at <code>${cell.initial}</code> = ${showQ(r.initial)};
     at the start it changes by ${showQ(r.rateAtStart)}.</p>`;
@@ -157,11 +135,12 @@ function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>): TemplateResult
   const events = Array.isArray(cell.events) ? cell.events : [];
   const plot = r.plot;
   const questions = r.questions ?? {};
+  const schedule = r.schedule ?? [];
   const closed = r.closedForm ?? {};
   return html`
     <p>From ${cell.from} to ${cell.to}; laws ${(cell.rates ?? []).join(', ')}; method ${r.method} (${r.steps} steps, ${r.evaluations} evaluations of the rates).</p>
-    ${events.length ? html`<table><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e) => html`<tr>
-      <td>${e.at}</td><td>${e.every ? `every ${e.every}, ${e.count ?? 1} times` : 'once'}</td>
+    ${events.length ? html`<table><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e, i) => html`<tr>
+      <td>${e.at}</td><td>${schedule[i]?.repeats ?? ''}</td>
       <td>${e.add ? `add ${Object.entries(e.add).map(([k, v]) => `${v} to ${k}`).join(', ')}` : e.set ? `set ${Object.entries(e.set).map(([k, v]) => `${k} = ${v}`).join(', ')}` : e.infuse ? `infuse ${Object.entries(e.infuse).map(([k, v]) => `${v} into ${k}`).join(', ')} for ${e.for}` : ''}</td></tr>`)}</tbody></table>` : nothing}
     <div class="keep">${plot ? timeChart(plot) : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>

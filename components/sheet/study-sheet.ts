@@ -1,5 +1,5 @@
 import { LitElement, html, css, nothing } from 'lit';
-import { studyTex, type Report, type Study, type StudyTex } from '../../src/index.ts';
+import type { Report, Study } from '../../src/index.ts';
 import { section, glance } from './sections.ts';
 
 /** What the sheet's header says about the stored study. */
@@ -21,8 +21,6 @@ export class StudySheet extends LitElement {
   study?: Study;
   report?: Report;
   meta: SheetMeta = {};
-  private texFor?: Study;
-  private tex?: StudyTex;
 
   static override styles = css`
     :host { display: block; color: #111; font: 10.5pt/1.4 Georgia, 'Times New Roman', serif; background: #fff; }
@@ -67,7 +65,6 @@ export class StudySheet extends LitElement {
   override render() {
     const study = this.study;
     if (!study) return nothing;
-    if (this.texFor !== study) { this.tex = studyTex(study); this.texFor = study; }
     const byId = new Map((this.report?.cells ?? []).map((c) => [c.id, c] as const));
     const when = (ms: number) => new Date(ms).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
     const warnings = this.report?.warnings ?? [];
@@ -83,8 +80,8 @@ export class StudySheet extends LitElement {
         ${study.description ? html`<p class="description">${study.description}</p>` : nothing}
       </header>
       ${(this.report?.cautions ?? []).map((c) => html`<p class="caution"><strong>Caution.</strong> ${c.text}</p>`)}
-      ${this.report ? glance(study, this.report) : nothing}
-      ${this.report ? study.cells.map((c) => section(c, byId.get(c.id), this.tex!, study.cells)) : html`<p class="muted">Computing…</p>`}
+      ${this.report ? glance(this.report) : nothing}
+      ${this.report ? study.cells.map((c) => section(c, byId.get(c.id), study.cells)) : html`<p class="muted">Computing…</p>`}
       ${warnings.length ? html`<section class="cell"><h2>Engine notes</h2>${warnings.map((w) => html`<p class="check">${w}</p>`)}</section>` : nothing}
       <footer>Every value on this sheet was computed by Ratebook from the inputs shown, with the units shown. It is an aid to analysis and does not replace professional judgement, local codes or licensed practice.</footer>`;
   }

@@ -17,6 +17,7 @@ import { runModelAt, type ModelSpec } from '../simulate/model-run.ts';
 import { collectLaws } from './laws.ts';
 import { measuredPoints, type SimulationPlot } from '../simulate/plot-data.ts';
 import { quantitySig } from './signatures.ts';
+import { timeAxisUnits } from '../output/display-units.ts';
 
 /**
  * One node: it defines each estimate under its `as` name, and the measurements it fits, by
@@ -33,7 +34,7 @@ export function fitNodes(cell: FitCell, at: string): Array<GraphNode<NodeOutput<
   const refs: Use[] = [];
   (Array.isArray(cell.rates) ? cell.rates : []).forEach((r, i) => { if (typeof r === 'string') refs.push({ name: cellRef(r), path: `${at}.rates[${i}]` }); });
   if (typeof cell.data === 'string') refs.push({ name: cellRef(cell.data), path: `${at}.data` });
-  estimates.forEach((e, i) => { if (typeof e?.parameter === 'string') refs.push({ name: e.parameter, path: `${at}.estimate[${i}].parameter` }); });
+  estimates.forEach((e, i) => { if (typeof e?.parameter === 'string') refs.push({ name: e.parameter, path: `${at}.estimate[${i}].parameter`, readsStates: true }); });
   return [{
     key: `${cell.id}/fit`,
     cell: cell.id,
@@ -44,7 +45,6 @@ export function fitNodes(cell: FitCell, at: string): Array<GraphNode<NodeOutput<
     measures: { name: measuredRef(cell.id), states: cell.observe && typeof cell.observe === 'object' ? Object.keys(cell.observe) : [] },
     uses: [...usesOf(fields.flatMap((f) => [f.guess, f.min, f.max])), ...refs],
     allowsTime: false,
-    allowsStates: true,
     pullsCoupledLaws: true,
     signature: JSON.stringify(cell),
     problems,
@@ -239,6 +239,7 @@ function fitPlot(spec: ModelSpec, t0: number, y0: Float64Array, p: Float64Array,
   const shown = observed.map((o) => o.si);
   return {
     timeUnit: formatUnit(tUnit),
+    timeUnits: timeAxisUnits(formatUnit(tUnit), inTime(end) - inTime(t0)),
     t: grid.map(inTime),
     states: shown.map((i) => ({ name: laws[i].state, unit: formatUnit(laws[i].initial.unit), values: run.values!.map((v) => inState(i, v[i])) })),
     events: [], levels: [], marks: [],

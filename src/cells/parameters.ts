@@ -23,7 +23,6 @@ export function parameterNodes(cell: ParametersCell, at: string): Array<GraphNod
       defines: name ? [{ name, path: `${path}.name` }] : [],
       uses: usesOf([value, ...range]),
       allowsTime: false,
-      allowsStates: false,
       signature: JSON.stringify(item ?? null),
       problems,
       run: (ctx) => runParameter(name, value!, range, ctx, item?.unit, `${path}.unit`),

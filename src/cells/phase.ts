@@ -18,6 +18,7 @@ import { compileLaw } from '../simulate/compile-law.ts';
 import { derivative } from '../expression/derivative.ts';
 import { findEquilibria, type PhaseAnalysis } from '../numerics/phase/equilibria.ts';
 import { sweepEquilibria } from '../numerics/phase/sweep.ts';
+import { attractsFrom } from '../numerics/phase/approach.ts';
 
 export function phaseNodes(cell: PhaseCell, at: string): Array<GraphNode<NodeOutput<'phase'>>> {
   const problems: CellError[] = [];
@@ -28,14 +29,13 @@ export function phaseNodes(cell: PhaseCell, at: string): Array<GraphNode<NodeOut
   const sTo = sweep ? field(sweep.to, `${at}.sweep.to`, problems) : undefined;
   const refs: Use[] = [];
   if (typeof cell.rate === 'string') refs.push({ name: cellRef(cell.rate), path: `${at}.rate` });
-  if (sweep && typeof sweep.name === 'string') refs.push({ name: sweep.name, path: `${at}.sweep.name` });
+  if (sweep && typeof sweep.name === 'string') refs.push({ name: sweep.name, path: `${at}.sweep.name`, readsStates: true });
   return [{
     key: `${cell.id}/phase`,
     cell: cell.id,
     defines: [],
     uses: [...usesOf([from, to, sFrom, sTo]), ...refs],
     allowsTime: false,
-    allowsStates: true,
     signature: JSON.stringify(cell),
     problems,
     run: (ctx) => guarded(() => runPhase(cell, at, { from: from!, to: to!, sFrom, sTo }, ctx)),
@@ -138,7 +138,10 @@ function describeAnalysis(a: PhaseAnalysis, stateQ: (si: number) => Quantity, sl
   for (const z of a.zeroIntervals) notes.push(`the rate is zero for every ${law.state} from ${describe(stateQ(z.from))} to ${describe(stateQ(z.to))}: each of those values is an equilibrium`);
   if (a.budgetExhausted) notes.push('the evaluation budget ran out; the analysis may be incomplete');
   return {
-    equilibria: a.equilibria.map((e) => ({ ...report(stateQ(e.value)), stability: e.stability, slope: report(slopeQ(e.slope)) })),
+    equilibria: a.equilibria.map((e) => {
+      const side = attractsFrom(e);
+      return { ...report(stateQ(e.value)), stability: e.stability, slope: report(slopeQ(e.slope)), ...(side ? { attractsFrom: side } : {}) };
+    }),
     intervals: a.intervals.map((iv) => ({ from: end(iv.from), to: end(iv.to), sign: iv.sign })),
     ...(a.poles.length ? { poles: a.poles.map((p) => report(stateQ(p.at))) } : {}),
     ...(a.jumps.length ? { jumps: a.jumps.map((p) => report(stateQ(p.at))) } : {}),

@@ -11,6 +11,8 @@ import { stepPoints, type Trajectory } from '../simulate/trajectory.ts';
 import { extreme, valueOfAt } from '../simulate/queries.ts';
 import { linearCoefficients, compareWithExact } from '../simulate/closed-form.ts';
 import { simulationPlot } from '../simulate/plot-data.ts';
+import { timesInRun } from '../simulate/schedule.ts';
+import { repeatsText } from '../output/event-words.ts';
 import type { Law, MeasuredSeries } from '../engine/node.ts';
 import type { ClosedFormReport, FindResult, SimulateFields } from '../engine/report.ts';
 import { simulationSummary, type FoundText, type StatePath } from '../output/summaries.ts';
@@ -61,6 +63,11 @@ export function simulationOutput(core: SimulationCore, measured: readonly Measur
     summary: simulationSummary(paths, found),
     // each question in words, as the summary puts it (for the printed sheet)
     questions: Object.fromEntries(found.map((f) => [f.name, f.what])),
+    // each event's repeats, counted in the run and in words (for the printed sheet)
+    schedule: timesInRun(core.timeline, core.scheduled.length).map((times, i) => {
+      const e = core.scheduled[i];
+      return { times, repeats: repeatsText(e.every === undefined ? undefined : describe(asTime(e.every)), e.count, times) };
+    }),
     plot,
   };
   if (run.switchedToStiff !== null) {

@@ -49,6 +49,12 @@ export interface Use {
   readonly name: string;
   readonly path: string;
   readonly text?: string;
+  /**
+   * The field can read states: a rate law, an event's amount under add or infuse, the state an
+   * event or a question names. Elsewhere a state's name that is spelled like a unit is that
+   * unit (`every: "12 h"` with a state `h`), and any other state's name is an error.
+   */
+  readonly readsStates?: boolean;
   /** The node runs without it when it is unavailable (it reads it only to show it). */
   readonly optional?: boolean;
 }
@@ -131,8 +137,6 @@ export interface GraphNode<O extends object = object> {
   readonly uses: readonly Use[];
   /** May read `t` (rate laws and schedules). */
   readonly allowsTime: boolean;
-  /** May read states (rate laws and schedules); elsewhere a state is an error. */
-  readonly allowsStates: boolean;
   /** 'state' for a node that defines a state, 'law' for a rate law. */
   readonly role?: 'state' | 'law';
   /** For law nodes: the names whose laws are coupled to this one when they are states. */

@@ -10,6 +10,9 @@ import type { ReportQuantity } from '../units/quantity.ts';
 import type { SimulationPlot } from '../simulate/plot-data.ts';
 import type { Stability } from '../numerics/phase/equilibria.ts';
 import type { CsvRowProblem } from '../csv/read.ts';
+import type { GlanceEntry } from '../output/glance.ts';
+import type { ItemTex } from '../output/sheet-tex.ts';
+import type { Side } from '../numerics/phase/approach.ts';
 
 export type { ReportQuantity } from '../units/quantity.ts';
 export type { SimulationPlot } from '../simulate/plot-data.ts';
@@ -45,6 +48,8 @@ export interface ParameterValue extends ReportQuantity {
 
 export interface ParametersFields {
   values: Record<string, ParameterValue>;
+  /** By item name: the TeX of its name and value, for the printed sheet (added by the session). */
+  tex?: Record<string, ItemTex>;
 }
 
 // rate
@@ -59,6 +64,8 @@ export interface RateFields {
   /** The law at the initial state and t = 0. */
   rateAtStart: ReportQuantity;
   warning?: string;
+  /** The law as a TeX equation, for the printed sheet (added by the session). */
+  tex?: string;
 }
 
 // phase
@@ -67,6 +74,8 @@ export interface PhaseEquilibrium extends ReportQuantity {
   stability: Stability;
   /** df/dy at the point, per the law's time unit. */
   slope: ReportQuantity;
+  /** A semi-stable point's side: `below` when the rate is positive on both sides, `above` when negative. */
+  attractsFrom?: Side;
 }
 
 export interface PhaseInterval {
@@ -165,6 +174,8 @@ export interface SimulateFields {
   /** Each question in words, as the summary puts it. */
   questions: Record<string, string>;
   plot: SimulationPlot;
+  /** Each event, in the cell's order: how many times it acts within the run, and its repeats in words. */
+  schedule?: Array<{ times: number; repeats: string }>;
   switchedToStiff?: ReportQuantity;
   note?: string;
 }
@@ -272,6 +283,8 @@ export interface Report {
   warnings: string[];
   /** Cautions the study must show (doses, temperature limits), in the order to show them. */
   cautions: Array<{ kind: string; text: string }>;
+  /** The results at a glance, chosen by the engine (see output/glance.ts). */
+  glance?: GlanceEntry[];
   cells: CellReport[];
 }
 

@@ -13,10 +13,13 @@ import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.
 import { buildCellNodes, resolvePath, CELL_PATH } from '../cells/index.ts';
 import { buildGraph, upstreamOf, type Graph } from './graph.ts';
 import { prepareWhatIf, type Replacement, type Unavailable, type WhatIfPrepared } from './what-if.ts';
+import { unitHints, withUnitHint } from './hidden-units.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
 import { studyUnits } from './study-units.ts';
 import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
+import { glanceOf } from '../output/glance.ts';
+import { cellTex, studySymbols } from '../output/sheet-tex.ts';
 
 type Slot = Binding | Unavailable;
 
@@ -27,6 +30,9 @@ function bound(slot: Slot | undefined): Binding | undefined {
 
 export type { Edit } from '../study/edit.ts';
 export type { Replacement, WhatIfPrepared } from './what-if.ts';
+
+/** What a name defined by a cell of each kind is called in messages. */
+const KIND_WORDS: Partial<Record<string, string>> = { parameters: 'parameter', simulate: 'answer', fit: 'estimate', nca: 'result' };
 
 export type EditResult =
   | { readonly ok: true; readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report }
@@ -49,7 +55,7 @@ export function openStudy(input: unknown, options: SessionOptions = {}): OpenRes
 export class StudySession {
   private cells: Cell[];
   private title: string;
-  private readonly description?: string;
+  private description?: string;
   private author?: string;
   private readonly cellProblems = new Map<string, readonly Problem[]>();
   private readonly notes: readonly string[];
@@ -58,6 +64,8 @@ export class StudySession {
   private readonly outcomes = new Map<string, Outcome>();
   private readonly staticSigs = new Map<string, string>();
   private readonly slots = new Map<string, Slot>();
+  /** By cell: the error messages its report was last written with (see hintText). */
+  private readonly hintTexts = new Map<string, string>();
   /** Each cell's last report, with the position it was made at. */
   private readonly reports = new Map<string, { index: number; report: CellReport }>();
   private lastReport!: Report;
@@ -100,12 +108,24 @@ export class StudySession {
   }
 
   private applyToCells(edit: Edit): Problem | undefined {
-    const out = applyEdit({ format: 'ratebook-study', version: 1, title: this.title, ...(this.author !== undefined ? { author: this.author } : {}), cells: this.cells }, edit);
+    const out = applyEdit({
+      format: 'ratebook-study', version: 1, title: this.title,
+      ...(this.description !== undefined ? { description: this.description } : {}),
+      ...(this.author !== undefined ? { author: this.author } : {}),
+      cells: this.cells,
+    }, edit);
     if (!out.ok) return out.error;
     this.positions = undefined;
     this.cells = out.study.cells;
     this.title = out.study.title;
+    this.description = out.study.description;
     this.author = out.study.author;
+    // a whole document brings the problems of all its cells; the cells it leaves unchanged
+    // keep their nodes, so only what differs re-runs
+    if (out.problems) {
+      this.cellProblems.clear();
+      for (const [id, p] of out.problems) this.cellProblems.set(id, p);
+    }
     const live = new Set(this.cells.map((c) => c.id));
     for (const id of [...this.cellProblems.keys()]) if (!live.has(id)) this.cellProblems.delete(id);
     if (out.written) {
@@ -149,7 +169,7 @@ export class StudySession {
     if (!problems?.length) return nodes;
     const errors: CellError[] = problems.map((p) => ({ kind: 'shape', message: p.message, path: p.path.replace(/^cells\[\d+\]/, CELL_PATH) }));
     if (nodes.length === 0) {
-      return [{ key: `${cell.id}/shape`, cell: cell.id, defines: [], uses: [], allowsTime: false, allowsStates: false, signature: JSON.stringify(errors), problems: errors, run: () => ({ ok: true, bindings: new Map(), output: {} }) }];
+      return [{ key: `${cell.id}/shape`, cell: cell.id, defines: [], uses: [], allowsTime: false, signature: JSON.stringify(errors), problems: errors, run: () => ({ ok: true, bindings: new Map(), output: {} }) }];
     }
     return nodes.map((n, i) => (i === 0 ? { ...n, problems: [...errors, ...n.problems], signature: `${n.signature}|${JSON.stringify(errors)}` } : n));
   }
@@ -167,7 +187,7 @@ export class StudySession {
       const b = o?.bindings?.values().next().value;
       return b?.kind === 'value' ? `|units=${studyUnitsKey(this.units, b.q.dim)}` : '';
     };
-    this.graph = buildGraph(list, (cell, path) => resolvePath(path, this.indexOf(cell)));
+    this.graph = buildGraph(list, (cell, path) => resolvePath(path, this.indexOf(cell)), (id) => this.cellName(id));
     const changedNames = new Set<string>();
     const rerunCells = new Set<string>();
     const liveKeys = new Set(list.map((n) => n.key));
@@ -217,23 +237,34 @@ export class StudySession {
 
     const changed: string[] = [];
     const reports: CellReport[] = [];
+    // the TeX the printed sheet typesets, made here (in the app: in the engine's worker); made
+    // for every cell on each evaluation, as the names of the whole study decide how a symbol is set
+    const symbols = studySymbols({ cells: this.cells });
     for (const cell of this.cells) {
-      let r = this.reports.get(cell.id);
+      const old = this.reports.get(cell.id);
+      let r = old;
       const index = this.indexOf(cell.id);
-      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index) {
-        const fresh = this.cellReport(cell, index);
-        if (!r || !deepEqual(r.report, fresh)) changed.push(cell.id);
-        r = { index, report: fresh };
+      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index
+        || (!r.report.ok && this.hintText(cell) !== this.hintTexts.get(cell.id))) r = { index, report: this.cellReport(cell, index) };
+      const tex = cellTex(cell, symbols);
+      if (!deepEqual(r.report.tex, tex)) {
+        const { tex: _old, ...rest } = r.report;
+        r = { index, report: (tex === undefined ? rest : { ...rest, tex }) as CellReport };
+      }
+      if (r !== old) {
+        if (!old || !deepEqual(old.report, r.report)) changed.push(cell.id);
         this.reports.set(cell.id, r);
       }
       reports.push(r.report);
     }
     for (const id of [...this.reports.keys()]) if (this.indexOf(id) < 0) this.reports.delete(id);
+    for (const id of [...this.hintTexts.keys()]) if (this.indexOf(id) < 0) this.hintTexts.delete(id);
     this.lastReport = {
       title: this.title,
       ok: reports.every((c) => c.ok),
       warnings: [...this.notes, ...this.graph.warnings],
       cautions: cautionsFor(this.cells),
+      glance: glanceOf(this.cells, reports),
       cells: reports,
     };
     return { rerun: this.cells.filter((c) => rerunCells.has(c.id)).map((c) => c.id), changed };
@@ -259,6 +290,36 @@ export class StudySession {
     } catch (err) {
       return internalError(node, err);
     }
+  }
+
+  /**
+   * A node's own error (not one it waits on) explained when its field reads a name that hides a
+   * unit (hidden-units.ts). Added when the cell is reported, as it names where the name is
+   * defined, which moves with its cell.
+   */
+  private hinted(node: GraphNode, o: Outcome | undefined): Outcome | undefined {
+    if (!o || o.ok || this.graph.problems.has(node.key)) return o;
+    return withUnitHint(o, unitHints(node, this.graph, (definer, def) => this.definedAt(definer, def.path)));
+  }
+
+  /** The hints a cell's errors carry, to tell when its report must be written again. */
+  private hintText(cell: Cell): string {
+    return (this.built.get(cell.id)?.nodes ?? []).map((n) => {
+      const o = this.hinted(n, this.outcomes.get(n.key));
+      return o && !o.ok ? o.error.message : '';
+    }).join('\n');
+  }
+
+  /** A cell as warnings name it: its title, else its id. */
+  private cellName(id: string): string {
+    const title = this.cells[this.indexOf(id)]?.title;
+    return typeof title === 'string' && title.trim() ? `"${title.trim()}"` : `cell "${id}"`;
+  }
+
+  /** What a definer's name is, and where: "the parameter defined at cells[0].items[1]". */
+  private definedAt(definer: GraphNode, path: string): string {
+    const kind = definer.role === 'state' ? 'state' : KIND_WORDS[this.cells[this.indexOf(definer.cell)]?.kind] ?? 'name';
+    return `the ${kind} defined at ${resolvePath(path.replace(/\.name$/, ''), this.indexOf(definer.cell))}`;
   }
 
   /**
@@ -294,7 +355,7 @@ export class StudySession {
     const waits = new Set<string>();
     const output: Record<string, unknown> = {};
     for (const node of this.built.get(cell.id)?.nodes ?? []) {
-      const o = this.outcomes.get(node.key);
+      const o = this.hinted(node, this.outcomes.get(node.key));
       if (!o) continue;
       if (o.output) mergeOutput(output, o.output);
       if (!o.ok) {
@@ -302,6 +363,7 @@ export class StudySession {
         if (o.error.waitsOn !== undefined) waits.add(o.error.waitsOn);
       }
     }
+    this.hintTexts.set(cell.id, this.hintText(cell));
     Object.assign(r, output);
     if (errors.length) {
       r.ok = false;

@@ -1,48 +1,69 @@
 /**
- * TeX for what the printed sheet typesets: each rate law as dState/dt = rate, and each
- * parameter's value. Symbols are read as the engine reads them: the study's own names first
- * (so a state `T` is not tesla), then constants, then units. An expression that does not
- * parse gets no TeX (the sheet shows its text).
+ * TeX for what the printed sheet typesets, carried in the report (`tex` on rate and
+ * parameters cells) so that the sheet only typesets it: each rate law as dState/dt = rate,
+ * and each parameter's name and value. Symbols are read as the engine reads them: the study's
+ * own names first (so a state `T` is not tesla), then constants, then units; in a parameter's
+ * value, where states cannot be read, a state's name spelled like a unit is the unit (a tank
+ * level `h` beside `0.9 / h`). An expression that does not parse gets no TeX (the sheet shows
+ * its text).
  */
-import type { Study } from '../study/types.ts';
+import type { Cell, Study } from '../study/types.ts';
 import { NCA_RESULTS } from '../study/types.ts';
 import { parseExpression } from '../expression/parse.ts';
-import { rateLawTex, symbolKinds, toTex } from '../expression/tex.ts';
+import { nameTex, rateLawTex, symbolKinds, toTex, type SymbolKind } from '../expression/tex.ts';
 
-export interface StudyTex {
-  /** By rate cell id: the law as an equation. */
-  readonly rates: ReadonlyMap<string, string>;
-  /** By `cellId/name`: a parameter's value. */
-  readonly values: ReadonlyMap<string, string>;
+/** How a symbol of the study is set: a name, a constant or a unit. */
+export type KindOf = (name: string) => SymbolKind;
+
+/** A parameter's TeX: its name, and its value when the value parses. */
+export interface ItemTex {
+  readonly name: string;
+  readonly value?: string;
 }
 
-export function studyTex(study: Study): StudyTex {
-  const defined = definedNames(study);
-  const kindOf = symbolKinds(defined);
-  const rates = new Map<string, string>();
-  const values = new Map<string, string>();
-  for (const cell of study.cells) {
-    if (cell.kind === 'rate') {
-      const p = parseExpression(cell.rate);
-      if (p.ok && typeof cell.state === 'string') rates.set(cell.id, rateLawTex(cell.state, p.expr, kindOf));
-    } else if (cell.kind === 'parameters' && Array.isArray(cell.items)) {
-      for (const item of cell.items) {
-        const p = parseExpression(item?.value);
-        if (p.ok && typeof item.name === 'string') values.set(`${cell.id}/${item.name}`, toTex(p.expr, kindOf));
-      }
-    }
-  }
-  return { rates, values };
+/** How a study's symbols are set: in rate laws (states readable) and in parameter values (states not). */
+export interface StudySymbols {
+  readonly law: KindOf;
+  readonly value: KindOf;
+}
+
+/** The symbol kinds of a study, from the names its document defines. Cost: linear in the cells. */
+export function studySymbols(study: Pick<Study, 'cells'>): StudySymbols {
+  const defined = definedNames(study.cells);
+  const states = new Set(study.cells.flatMap((c) => (c.kind === 'rate' && typeof c.state === 'string' ? [c.state] : [])));
+  return { law: symbolKinds(defined), value: symbolKinds(new Set([...defined].filter((n) => !states.has(n)))) };
 }
 
 /**
- * The names a study defines, read from the document alone (the sheet's code does not load the
- * cell builders): parameters, states, answers, estimates, data columns, profile results, and t.
+ * The `tex` a cell's report carries: the law as an equation for a rate cell, `{ name, value }`
+ * by item name for a parameters cell; undefined for other kinds. Cost: a parse per expression
+ * (cached by text).
  */
-function definedNames(study: Study): Set<string> {
+export function cellTex(cell: Cell, symbols: StudySymbols): string | Record<string, ItemTex> | undefined {
+  if (cell.kind === 'rate') {
+    const p = parseExpression(cell.rate);
+    return p.ok && typeof cell.state === 'string' ? rateLawTex(cell.state, p.expr, symbols.law) : undefined;
+  }
+  if (cell.kind === 'parameters' && Array.isArray(cell.items)) {
+    const out: Record<string, ItemTex> = {};
+    for (const item of cell.items) {
+      if (typeof item?.name !== 'string') continue;
+      const p = parseExpression(item.value);
+      out[item.name] = { name: nameTex(item.name), ...(p.ok ? { value: toTex(p.expr, symbols.value) } : {}) };
+    }
+    return out;
+  }
+  return undefined;
+}
+
+/**
+ * The names a study defines, read from the document alone: parameters, states, answers,
+ * estimates, data columns, profile results, and t.
+ */
+function definedNames(cells: readonly Cell[]): Set<string> {
   const out = new Set<string>(['t']);
   const add = (x: unknown) => { if (typeof x === 'string' && x) out.add(x); };
-  for (const c of study.cells) {
+  for (const c of cells) {
     if (c.kind === 'parameters' && Array.isArray(c.items)) c.items.forEach((i) => add(i?.name));
     else if (c.kind === 'rate') add(c.state);
     else if (c.kind === 'simulate' && Array.isArray(c.find)) c.find.forEach((f) => add(f?.name));

@@ -10,6 +10,7 @@ import type { DisplayUnit } from '../units/units.ts';
 import { formatUnit } from '../units/units.ts';
 import { type Trajectory, evalPiece } from './trajectory.ts';
 import type { Action } from './schedule.ts';
+import { timeAxisUnits, type AxisUnit } from '../output/display-units.ts';
 import type { MeasuredSeries } from '../engine/node.ts';
 
 /** Points across the whole run (more land on longer pieces; at least two per piece). */
@@ -17,6 +18,8 @@ export const PLOT_POINTS = 400;
 
 export interface SimulationPlot {
   readonly timeUnit: string;
+  /** The units the time axis may be relabelled in, with their factors from `timeUnit` (see output/display-units.ts). */
+  readonly timeUnits: readonly AxisUnit[];
   readonly t: number[];
   readonly states: Array<{ readonly name: string; readonly unit: string; readonly values: number[] }>;
   readonly events: Array<{ readonly time: number; readonly kind: string; readonly label: string }>;
@@ -72,6 +75,7 @@ export function simulationPlot(p: PlotInput): SimulationPlot {
   const points = measuredPoints(p.measured, p.states, timeIn);
   return {
     timeUnit: formatUnit(p.timeUnit),
+    timeUnits: timeAxisUnits(formatUnit(p.timeUnit), t.length ? t[t.length - 1] - t[0] : 0),
     t,
     states: p.states.map((s, i) => ({ name: s.name, unit: formatUnit(s.template.unit), values: cols[i] })),
     events,

@@ -63,3 +63,13 @@ export function expandSchedule(events: readonly ScheduledEvent[], from: number, 
   return actions;
 }
 
+/**
+ * How many times each event acts within the run, by event index (`events` entries): the
+ * distinct repetitions that made an action (an infusion counts by its starts). An `add` before
+ * the run is not counted; a `set` before it is, as it applies from the start. Cost: linear.
+ */
+export function timesInRun(actions: readonly Action[], events: number): number[] {
+  const seen = Array.from({ length: events }, () => new Set<number>());
+  for (const a of actions) if (a.kind !== 'infuse-stop') seen[a.event]?.add(a.repeat);
+  return seen.map((s) => s.size);
+}

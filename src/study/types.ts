@@ -22,6 +22,8 @@ export interface ParameterItem {
   note?: string;
   /** The unit to show the value in (optional; the unit written in `value` otherwise). */
   unit?: string;
+  /** Listed among the results at a glance (optional; see output/glance.ts). */
+  glance?: boolean;
 }
 
 export interface ParametersCell extends CellBase { kind: 'parameters'; items: ParameterItem[] }
@@ -48,6 +50,8 @@ export interface ScheduleEvent {
 }
 
 export const FIND_KINDS = ['crossing', 'maximum', 'minimum', 'timeOfMaximum', 'timeOfMinimum', 'valueOf', 'integralOf', 'timeAbove', 'timeBelow'] as const;
+/** What a question asks (one of FIND_KINDS). */
+export type FindKind = (typeof FIND_KINDS)[number];
 
 export interface FindQuery {
   name: string;
@@ -61,6 +65,8 @@ export interface FindQuery {
   to?: string;
   /** The unit to show the answer in (optional). */
   unit?: string;
+  /** Listed among the results at a glance (optional; see output/glance.ts). */
+  glance?: boolean;
 }
 
 export interface SimulateCell extends CellBase {

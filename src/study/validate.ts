@@ -110,6 +110,7 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
           }
           p.optionalText(item, 'note', path);
           p.optionalText(item, 'unit', path);
+          p.optionalFlag(item, 'glance', path);
         });
       }
       break;
@@ -238,6 +239,7 @@ function checkSimulate(c: Record<string, unknown>, p: Checker): void {
       if (!p.object(f, path)) return;
       p.name(f, 'name', path);
       p.optionalText(f, 'unit', path);
+      p.optionalFlag(f, 'glance', path);
       const kinds = FIND_KINDS.filter((k) => own(f, k));
       if (kinds.length !== 1) {
         p.add(`${p.at}.${path}`, `must have exactly one of ${FIND_KINDS.join(', ')}`);
@@ -325,6 +327,11 @@ class Checker {
 
   optionalText(o: Record<string, unknown>, field: string, within?: string): void {
     if (o[field] !== undefined) this.text(o, field, within);
+  }
+
+  /** An optional yes/no field: true or false, nothing else. */
+  optionalFlag(o: Record<string, unknown>, field: string, within?: string): void {
+    if (o[field] !== undefined && typeof o[field] !== 'boolean') this.add(this.where(field, within), 'must be true or false');
   }
 
   /** An expression field: its text is checked later, by the parser, on the same path. */

@@ -25,6 +25,9 @@ const EXTRA: Record<string, { factor: number; dim: number[] }> = {
   kcal: { factor: 4184, dim: [1, 2, -2] },
 };
 
+/** The units Ratebook adds to mathjs's table, by name. */
+export const EXTRA_UNIT_NAMES: readonly string[] = Object.keys(EXTRA);
+
 const cache = new Map<string, UnitDef | null>();
 
 /** The unit of that name, or undefined when it is not a unit. Cost: a map look-up after the first call. */

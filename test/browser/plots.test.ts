@@ -1,8 +1,7 @@
 // The chart elements draw what the engine reports: each is given a real cell report, and the
 // checks look at the chart's series and data, the labels laid over it, and its canvases.
 import { expect } from 'chai';
-import { runStudy } from '../../src/index.ts';
-import type { SimulationPlot } from '../../src/simulate/plot-data.ts';
+import { runStudy, type SimulationPlot } from '../../src/index.ts';
 import '../../components/plots/time-plot.ts';
 import '../../components/plots/phase-plot.ts';
 import '../../components/plots/sweep-plot.ts';
@@ -29,6 +28,8 @@ const phaseStudy = {
     { id: 'exchange', kind: 'phase', rate: 'swap', from: '-2 kg', to: '2 kg', sweep: { name: 'mu', from: '-1 kg', to: '1 kg', steps: 41 } },
     { id: 'touch', kind: 'rate', state: 'S', unit: 'kg', rate: 'r * (S - K / 2)^2 / K', initial: '1 kg' },
     { id: 'semi', kind: 'phase', rate: 'touch', from: '0 kg', to: '1000 kg' },
+    { id: 'dip', kind: 'rate', state: 'Q', unit: 'kg', rate: '-r * (Q - K / 2)^2 / K', initial: '1 kg' },
+    { id: 'semi-down', kind: 'phase', rate: 'dip', from: '0 kg', to: '1000 kg' },
   ],
 };
 
@@ -140,6 +141,7 @@ describe('<time-plot>', () => {
     const select = shadow(el).querySelector('select')!;
     // a 10 h run: offered in min and h (36 000 s is too many, 0.42 d too few)
     expect([...select.options].map((o) => o.value)).to.deep.equal(['min', 'h']);
+    expect([...select.options].map((o) => o.value), 'the units the engine offers').to.deep.equal(cell.plot.timeUnits.map((u) => u.unit));
     select.value = 'min';
     select.dispatchEvent(new Event('change'));
     await el.updateComplete;
@@ -355,6 +357,24 @@ describe('<phase-plot>', () => {
     const right = pixel(u.ctx.canvas, x + 2.5, y - 1.5);
     expect(left.slice(0, 3), 'left half filled').to.not.deep.equal([255, 255, 255]);
     expect(right.slice(0, 3), 'right half white').to.deep.equal([255, 255, 255]);
+  });
+
+  it('fills the half the engine reports, also on the phase line: the right one for a point that attracts from above', async () => {
+    const { cell, el } = phaseEl('semi-down', 'Q');
+    await mount(el, 500);
+    // closed form: -(Q - 500 kg)^2 < 0 on both sides: a state above 500 kg falls into it
+    expect(cell.equilibria.map((e: any) => [e.stability, e.attractsFrom])).to.deep.equal([['semi-stable', 'above']]);
+    const u = el.charts[0];
+    const r = u.ctx.canvas.width / u.width;
+    const x = u.bbox.left / r + u.valToPos(500, 'x');
+    const y = u.bbox.top / r + u.valToPos(0, 'y');
+    expect(pixel(u.ctx.canvas, x + 2.5, y - 1.5).slice(0, 3), 'right half filled').to.not.deep.equal([255, 255, 255]);
+    expect(pixel(u.ctx.canvas, x - 2.5, y - 1.5).slice(0, 3), 'left half white').to.deep.equal([255, 255, 255]);
+    const strip = shadow(el).querySelector<HTMLCanvasElement>('canvas.strip')!;
+    const sx = u.valToPos(500, 'x') + u.bbox.left / r;
+    const sy = 44 * 0.45;
+    expect(pixel(strip, sx + 2.5, sy - 1.5).slice(0, 3), 'strip: right half filled').to.not.deep.equal([255, 255, 255]);
+    expect(pixel(strip, sx - 2.5, sy - 1.5).slice(0, 3), 'strip: left half white').to.deep.equal([255, 255, 255]);
   });
 
   it('destroys both charts when taken out of the document', async () => {

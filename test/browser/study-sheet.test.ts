@@ -4,11 +4,32 @@
 import { expect } from 'chai';
 import { StudyView } from '../../components/study-view.ts';
 import '../../components/sheet/study-sheet.ts';
+import '../../components/plots/phase-plot.ts';
 import { openStudy, formatNumber, type Study, type Report } from '../../src/index.ts';
 import cooling from '../../examples/cooling-stock-pot.ratebook.json';
 import fold from '../../examples/harvested-stock-fold.ratebook.json';
 import plasma from '../../examples/plasma-levels.ratebook.json';
 import twoStage from '../../examples/two-stage-cooling-check.ratebook.json';
+import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
+
+/**
+ * Invented laws with closed-form phase lines: (S - 500 kg)^2 is semi-stable at 500 kg, drawing
+ * the state in from below; -(D - 500 kg)^2 from above; `still` is zero from 1 m to 2 m (falling
+ * below, rising above); `gap` is not defined below 1 m (a square root of a negative number).
+ */
+const phaseLines = {
+  format: 'ratebook-study', version: 1, title: 'phase lines',
+  cells: [
+    { id: 'up', kind: 'rate', state: 'S', unit: 'kg', rate: '(S - 500 kg)^2 / (1000 kg * d)', initial: '1 kg' },
+    { id: 'from-below', kind: 'phase', rate: 'up', from: '0 kg', to: '1000 kg' },
+    { id: 'down', kind: 'rate', state: 'D', unit: 'kg', rate: '-(D - 500 kg)^2 / (1000 kg * d)', initial: '1 kg' },
+    { id: 'from-above', kind: 'phase', rate: 'down', from: '0 kg', to: '1000 kg' },
+    { id: 'flat', kind: 'rate', state: 'y', unit: 'm', rate: 'max(y - 2 m, 0 m) / (1 s) - max(1 m - y, 0 m) / (1 s)', initial: '1 m' },
+    { id: 'still', kind: 'phase', rate: 'flat', from: '0 m', to: '3 m' },
+    { id: 'root', kind: 'rate', state: 'z', unit: 'm', rate: '-sqrt(z * 1 m - 1 m^2) / (1 s)', initial: '2 m' },
+    { id: 'gap', kind: 'phase', rate: 'root', from: '0 m', to: '3 m' },
+  ],
+};
 
 function reportOf(doc: unknown): Report {
   const r = openStudy(structuredClone(doc));
@@ -27,7 +48,7 @@ async function sheetOf(doc: unknown, meta = {}) {
 }
 
 describe('study-sheet', () => {
-  afterEach(() => document.querySelectorAll('study-sheet, study-view').forEach((v) => v.remove()));
+  afterEach(() => document.querySelectorAll('study-sheet, study-view, .plot-box').forEach((v) => v.remove()));
 
   it('has a header with title, author, revision and date, and the caution', async () => {
     const root = await sheetOf({ ...cooling, author: 'R. Sample' }, { revision: 7, updated: Date.UTC(2026, 0, 5) });
@@ -53,6 +74,25 @@ describe('study-sheet', () => {
     }
   });
 
+  it('typesets the TeX the report carries, and makes none itself', async () => {
+    const report = reportOf(cooling);
+    const rate = report.cells.find((c) => c.kind === 'rate')!;
+    expect(rate.tex, 'the engine made the law\'s TeX').to.be.a('string');
+    rate.tex = 'q_{\\mathrm{from\\,report}} = 1';
+    const el = document.createElement('study-sheet');
+    el.study = structuredClone(cooling) as Study;
+    el.report = report;
+    document.body.append(el);
+    await el.updateComplete;
+    const eq = el.shadowRoot!.querySelector('.equation math')!;
+    expect(eq.textContent).to.contain('report');
+    delete rate.tex;
+    el.report = { ...report };
+    await el.updateComplete;
+    expect(el.shadowRoot!.querySelector('.equation math'), 'no TeX in the report: the law as text').to.equal(null);
+    expect(el.shadowRoot!.querySelector('.equation code')!.textContent).to.contain(`d${(cooling.cells.find((c) => c.kind === 'rate') as { state: string }).state}/dt`);
+  });
+
   it('opens with the results at a glance: each answer, each estimate, with the cell it comes from', async () => {
     const root = await sheetOf(plasma);
     const glance = root.querySelector('section.glance')!;
@@ -62,6 +102,22 @@ describe('study-sheet', () => {
     for (const name of Object.keys(fit.estimates as object)) expect(names).to.include(name);
     expect(names).to.include.members(['CL', 't_half', 'AUCinf']);
     expect(glance.textContent).to.contain('(SE)');
+  });
+
+  it('lists at a glance exactly the glance list of the engine, in its order, also when the study chooses', async () => {
+    const chosen = structuredClone(cooling) as Study;
+    const run = chosen.cells.find((c) => c.kind === 'simulate') as Extract<Study['cells'][number], { kind: 'simulate' }>;
+    run.find![run.find!.length - 1].glance = true;
+    for (const doc of [plasma, twoStage, cooling, chosen]) {
+      const root = await sheetOf(doc);
+      const names = [...root.querySelectorAll('section.glance td.name')].map((td) => td.textContent);
+      const engine = reportOf(doc).glance!;
+      expect(engine.length, doc.title).to.be.greaterThan(0);
+      expect(names, doc.title).to.deep.equal(engine.map((g) => g.name));
+      root.host.remove();
+    }
+    const one = reportOf(chosen).glance!;
+    expect(one.map((g) => g.name), 'only the chosen answer').to.deep.equal([run.find![run.find!.length - 1].name]);
   });
 
   it('shows verdicts as yes or no, first among the results at a glance', async () => {
@@ -87,6 +143,81 @@ describe('study-sheet', () => {
     const paths = [...root.querySelectorAll('section.phase figure:last-of-type svg path[d]')].filter((p) => p.getAttribute('d'));
     expect(paths.some((p) => p.getAttribute('stroke-dasharray') === 'none'), 'attractors drawn solid').to.equal(true);
     expect(paths.some((p) => p.getAttribute('stroke-dasharray') !== 'none'), 'repellers drawn dashed').to.equal(true);
+  });
+
+  it('fills a semi-stable point on the side the engine reports, the same side the screen fills', async () => {
+    const root = await sheetOf(phaseLines);
+    const report = reportOf(phaseLines);
+    for (const [id, side] of [['from-below', 'below'], ['from-above', 'above']] as const) {
+      const cell = report.cells.find((c) => c.id === id)!;
+      const [eq] = cell.equilibria as Array<{ value: number; stability: string; attractsFrom?: string }>;
+      // closed form: ±(S - 500 kg)^2 has one sign on both sides of 500 kg
+      expect(eq.stability).to.equal('semi-stable');
+      expect(eq.attractsFrom, id).to.equal(side);
+      // the sheet: the filled half lies on the left of the dot for below, on the right for above
+      const svgLine = root.querySelectorAll('section.phase')[id === 'from-below' ? 0 : 1].querySelector('figure svg')!;
+      const dot = svgLine.querySelector<SVGCircleElement>('circle.semi-stable')!;
+      const half = svgLine.querySelector<SVGPathElement>('path.half')!;
+      const cx = dot.cx.baseVal.value;
+      const box = half.getBBox();
+      const printed = box.x + box.width <= cx + 0.01 ? 'below' : box.x >= cx - 0.01 ? 'above' : 'both';
+      expect(printed, `${id}: the printed half`).to.equal(side);
+      // the screen: the same cell on <phase-plot>, the pixels just left and right of the dot's centre
+      const plot = Object.assign(document.createElement('phase-plot'), {
+        plot: cell.plot, equilibria: cell.equilibria, intervals: cell.intervals, poles: [], summary: cell.summary as string, state: 'S',
+      });
+      const box2 = document.createElement('div');
+      box2.style.width = '500px';
+      box2.className = 'plot-box';
+      box2.append(plot);
+      document.body.append(box2);
+      await plot.updateComplete;
+      await new Promise((r) => requestAnimationFrame(() => setTimeout(r, 0)));
+      const u = plot.charts[0];
+      const canvas = u.ctx.canvas;
+      const ratio = canvas.width / u.width;
+      // canvas pixels of the dot's centre (uPlot's canvas positions include the plot's offset)
+      const x = u.valToPos(eq.value, 'x', true);
+      const y = u.valToPos(0, 'y', true) - 1.5 * ratio;
+      const at = (dx: number) => [...canvas.getContext('2d')!.getImageData(Math.round(x + dx * ratio), Math.round(y), 1, 1).data].slice(0, 3);
+      const white = [255, 255, 255];
+      const screen = JSON.stringify(at(-2.5)) !== JSON.stringify(white) && JSON.stringify(at(2.5)) === JSON.stringify(white) ? 'below'
+        : JSON.stringify(at(2.5)) !== JSON.stringify(white) && JSON.stringify(at(-2.5)) === JSON.stringify(white) ? 'above' : 'neither';
+      expect(screen, `${id}: the screen's half`).to.equal(printed);
+      box2.remove();
+    }
+  });
+
+  it('draws no arrow where the state stays still or the rate is not defined', async () => {
+    const root = await sheetOf(phaseLines);
+    const report = reportOf(phaseLines);
+    const signs = (id: string) => (report.cells.find((c) => c.id === id)!.intervals as Array<{ sign: string }>).map((iv) => iv.sign);
+    // closed form: max(y - 2, 0) - max(1 - y, 0) is negative below 1, zero on [1, 2], positive above 2
+    expect(signs('still')).to.deep.equal(['-', '0', '+']);
+    // closed form: -sqrt(z - 1) is not defined below 1 and negative above
+    expect(signs('gap')).to.deep.equal(['none', '-']);
+    const lines = [...root.querySelectorAll('section.phase')].slice(2).map((s) => s.querySelector('figure svg')!);
+    const arrows = (svg: Element) => [...svg.querySelectorAll('path.arrow')].map((p) => p.getAttribute('class'));
+    expect(arrows(lines[0])).to.deep.equal(['arrow falling', 'arrow rising']);
+    expect(lines[0].querySelectorAll('line.still').length, 'the still stretch').to.equal(1);
+    expect(arrows(lines[1])).to.deep.equal(['arrow falling']);
+    expect(lines[1].querySelectorAll('line.undefined').length, 'the undefined stretch').to.equal(1);
+  });
+
+  it('prints each event\'s repeats as the engine words them: to the end of the run when there is no count', async () => {
+    const open = structuredClone(bolus) as Study;
+    const run = open.cells.find((c) => c.id === 'run') as Extract<Study['cells'][number], { kind: 'simulate' }>;
+    delete run.events![0].count;
+    const cell = reportOf(open).cells.find((c) => c.id === 'run')!;
+    // hand-worked: doses every 8 h at 0, 8, ..., 48 h in a 48 h run: 7
+    expect(cell.schedule).to.deep.equal([{ times: 7, repeats: 'every 8 h until the end of the run (7 times)' }]);
+    const root = await sheetOf(open);
+    const row = [...root.querySelectorAll('section.simulate tbody tr')].map((tr) => tr.textContent!).find((t) => t.includes('dose / V'))!;
+    expect(row).to.contain('every 8 h until the end of the run (7 times)');
+    expect(row).to.not.contain('1 times');
+    root.host.remove();
+    const counted = await sheetOf(bolus);
+    expect(counted.querySelector('section.simulate tbody tr')!.textContent).to.contain('every 8 h, 6 times');
   });
 
   it('a study view shows the sheet in sheet mode, and renders it for print in edit mode', async () => {

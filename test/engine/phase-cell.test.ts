@@ -37,6 +37,26 @@ describe('equilibria and their stability', () => {
     assert.ok(Math.abs(eqs(c)[0].value - 1) < 1e-6);
   });
 
+  it('reports the side a semi-stable point attracts from: below for (y - 1)^2, above for -(y - 1)^2', () => {
+    // closed form: (y - 1)^2 > 0 on both sides of 1, so a state just below 1 rises into it and one
+    // just above rises away: it attracts from below; -(y - 1)^2 < 0 on both sides: from above
+    type Side = Eq & { attractsFrom?: string };
+    const up = eqs(phase('(y - u)^2 / u / tu', '-2 mg / L', '3 mg / L'))[0] as Side;
+    assert.equal(up.stability, 'semi-stable');
+    assert.equal(up.attractsFrom, 'below');
+    const down = eqs(phase('-(y - u)^2 / u / tu', '-2 mg / L', '3 mg / L'))[0] as Side;
+    assert.equal(down.stability, 'semi-stable');
+    assert.equal(down.attractsFrom, 'above');
+    // closed form: y (3 - 4 y) crosses zero at 0 and 3/4; neither point is semi-stable
+    for (const e of eqs(phase('y / u * (3 u - 4 y) / tu', '-1 mg / L', '2 mg / L')) as Side[]) assert.equal(e.attractsFrom, undefined);
+  });
+
+  it('a semi-stable point at the end of the range still knows its side', () => {
+    // closed form: (y - 1)^2 at the upper end 1 of [0, 1] and -(y - 1)^2 at the lower end 1 of [1, 3]
+    assert.equal((eqs(phase('(y - u)^2 / u / tu', '0 mg / L', '1 mg / L'))[0] as { attractsFrom?: string }).attractsFrom, 'below');
+    assert.equal((eqs(phase('-(y - u)^2 / u / tu', '1 mg / L', '3 mg / L'))[0] as { attractsFrom?: string }).attractsFrom, 'above');
+  });
+
   it('1 / (y - 1) has no equilibrium and a pole at 1', () => {
     const c = phase('u^2 / (y - u) / tu', '-2 mg / L', '3 mg / L');
     assert.equal(eqs(c).length, 0);

@@ -4,8 +4,7 @@ import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readdirSync, readFileSync } from 'node:fs';
 import katex from 'katex';
-import { parseExpression } from '../../src/index.ts';
-import { studyTex } from '../../src/output/sheet-tex.ts';
+import { parseExpression, runStudy, openStudy, type ItemTex } from '../../src/index.ts';
 import { symbolKinds, toTex, nameTex } from '../../src/expression/tex.ts';
 
 const kinds = symbolKinds(new Set(['t', 'k', 'T', 'Ta', 'V', 'h', 'C_feed', 'lambda']));
@@ -44,14 +43,90 @@ describe('TeX of expressions', () => {
   });
 });
 
+describe('TeX of a study', () => {
+  it('a state h is the state in its rate law and the hour in a parameter value', () => {
+    const r = runStudy({ format: 'ratebook-study', version: 1, title: 'tank', cells: [
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.9 / h' }] },
+      { id: 'tank', kind: 'rate', state: 'h', unit: 'm', rate: '-k * h', initial: '1 m' },
+    ] });
+    assert.ok(r.ok);
+    if (!r.ok) return;
+    const [p, tank] = r.report.cells;
+    assert.equal((p.tex as Record<string, ItemTex>).k.value, '\\frac{0.9}{\\mathrm{h}}');
+    assert.equal(tank.tex, '\\frac{\\mathrm{d}h}{\\mathrm{d}t} = -k h');
+  });
+});
+
 describe('TeX of every template', () => {
   const dir = new URL('../../examples/', import.meta.url);
   for (const f of readdirSync(dir).filter((x) => x.endsWith('.ratebook.json'))) {
-    it(`${f}: KaTeX accepts every law and value`, () => {
-      const t = studyTex(JSON.parse(readFileSync(new URL(f, dir), 'utf8')));
-      for (const [key, s] of [...t.rates, ...t.values]) {
+    it(`${f}: the report carries TeX for every law and value, and KaTeX accepts it`, () => {
+      const doc = JSON.parse(readFileSync(new URL(f, dir), 'utf8'));
+      const r = runStudy(doc);
+      assert.ok(r.ok);
+      const all: Array<[string, string]> = [];
+      for (const [i, cell] of doc.cells.entries()) {
+        const tex: unknown = r.report.cells[i].tex;
+        if (cell.kind === 'rate') { assert.equal(typeof tex, 'string', cell.id); all.push([cell.id, tex as string]); }
+        if (cell.kind === 'parameters') {
+          const items = tex as Record<string, ItemTex>;
+          for (const item of cell.items) {
+            assert.equal(typeof items[item.name]?.value, 'string', `${cell.id}/${item.name}`);
+            all.push([`${cell.id}/${item.name}`, `${items[item.name].name} = ${items[item.name].value}`]);
+          }
+        }
+        if (cell.kind !== 'rate' && cell.kind !== 'parameters') assert.equal(tex, undefined, cell.id);
+      }
+      for (const [key, s] of all) {
         assert.doesNotThrow(() => katex.renderToString(s, { throwOnError: true, output: 'mathml' }), `${key}: ${s}`);
       }
     });
   }
+});
+
+describe('TeX in the report', () => {
+  it('sets the study\'s own names as names and the rest as units, in the law and in values', () => {
+    const r = runStudy({ format: 'ratebook-study', version: 1, title: 't', cells: [
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.35 / h' }, { name: 'Ta', value: '20 degC' }, { name: 'bad', value: '2 +' }] },
+      { id: 'cool', kind: 'rate', state: 'T', unit: 'degC', rate: '-k * (T - Ta)', initial: '74 degC' },
+    ] });
+    assert.ok(r.ok);
+    const [p, cool] = r.report.cells;
+    // hand-worked: dT/dt = -k (T - Ta), with T the state (not tesla) and h the hour
+    assert.equal(cool.tex, '\\frac{\\mathrm{d}T}{\\mathrm{d}t} = -k \\left(T - \\textit{Ta}\\right)');
+    const items = p.tex as Record<string, ItemTex>;
+    assert.deepEqual(items.k, { name: 'k', value: '\\frac{0.35}{\\mathrm{h}}' });
+    assert.deepEqual(items.Ta, { name: '\\textit{Ta}', value: '20\\,\\text{°C}' });
+    assert.deepEqual(items.bad, { name: '\\textit{bad}' }, 'a value that does not parse has no TeX');
+  });
+
+  it('follows a name that another cell stops defining, even where the reading cell does not re-run', () => {
+    // found by the session property test: a data column C, then the data cell broken, so that C is the coulomb again
+    const data = { id: 'd', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, 1], [1, 2]] };
+    const inputs = { id: 'p', kind: 'parameters', items: [{ name: 'k', value: 'k + 2 C' }] };
+    const opened = openStudy({ format: 'ratebook-study', version: 1, title: 't', cells: [data, inputs] });
+    assert.ok(opened.ok);
+    assert.equal((opened.session.report().cells[1].tex as Record<string, ItemTex>).k.value, 'k + 2 C');
+    const broken = opened.session.apply({ type: 'replace', cell: { ...data, columns: 'not a list' } });
+    assert.ok(broken.ok);
+    const fresh = runStudy({ format: 'ratebook-study', version: 1, title: 't', cells: [{ ...data, columns: 'not a list' }, inputs] });
+    assert.ok(fresh.ok);
+    // hand-worked: with no column C, C is the coulomb, set upright
+    assert.equal((broken.report.cells[1].tex as Record<string, ItemTex>).k.value, 'k + 2\\,\\mathrm{C}');
+    assert.deepEqual(broken.report.cells[1].tex, fresh.report.cells[1].tex);
+  });
+
+  it('is made again when a name in another cell starts to hide a unit', () => {
+    const opened = openStudy({ format: 'ratebook-study', version: 1, title: 't', cells: [
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.35 / h' }] },
+    ] });
+    assert.ok(opened.ok);
+    const before = (opened.session.report().cells[0].tex as Record<string, ItemTex>).k.value;
+    const after = opened.session.apply({ type: 'insert', index: 1, cell: { id: 'q', kind: 'parameters', items: [{ name: 'h', value: '2' }] } });
+    assert.ok(after.ok);
+    const now = (after.report.cells[0].tex as Record<string, ItemTex>).k.value;
+    // hand-worked: h is a unit (upright) until the study defines h, then a name (italic)
+    assert.equal(before, '\\frac{0.35}{\\mathrm{h}}');
+    assert.equal(now, '\\frac{0.35}{h}');
+  });
 });
