@@ -64,8 +64,8 @@ describe('every template', () => {
 });
 
 describe('ratebook run --json on every template', () => {
-  // SI values of every template's report, written by `ratebook run --json` before this
-  // display rule existed: showing a value in another unit must not change one of them.
+  // SI values of every template's cells, written by `ratebook run --json` on main without this
+  // display rule: showing a value in another unit must not change one of them.
   const before = JSON.parse(readFileSync(new URL('unit-display-si.json', import.meta.url), 'utf8')) as Record<string, Record<string, number | string>>;
   it('gives the same SI numbers, to the last bit', () => {
     assert.deepEqual(Object.keys(before).sort(), examples);
@@ -81,7 +81,8 @@ describe('ratebook run --json on every template', () => {
           else if (k !== 'plot' && k !== 'series') walk(x, `${path}.${k}`);
         }
       };
-      walk(JSON.parse(out), '');
+      // the cells' quantities (a later `glance` repeats some of them; the snapshot predates it)
+      walk((JSON.parse(out) as { cells: unknown }).cells, '.cells');
       assert.deepEqual(now, before[file], file);
     }
   });
