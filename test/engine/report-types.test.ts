@@ -103,10 +103,10 @@ describe('the typed report', () => {
     assert.ok(r.ok);
     if (!r.ok) return;
     const declared: { [K in CellKind]: ReadonlyArray<keyof CellFields[K]> } = {
-      parameters: ['values'],
-      rate: ['state', 'unit', 'initial', 'rateAtStart', 'warning'],
+      parameters: ['values', 'tex'],
+      rate: ['state', 'unit', 'initial', 'rateAtStart', 'warning', 'tex'],
       phase: ['equilibria', 'intervals', 'poles', 'jumps', 'gaps', 'zeroIntervals', 'evaluations', 'notes', 'plot', 'summary', 'sweep'],
-      simulate: ['method', 'steps', 'evaluations', 'results', 'closedForm', 'series', 'summary', 'questions', 'plot', 'switchedToStiff', 'note'],
+      simulate: ['method', 'steps', 'evaluations', 'results', 'closedForm', 'series', 'summary', 'questions', 'schedule', 'plot', 'switchedToStiff', 'note'],
       data: ['columns', 'rowCount', 'missing', 'note', 'csv'],
       fit: ['estimates', 'residualSD', 'n', 'dof', 'iterations', 'evaluations', 'converged', 'message', 'correlation', 'warnings', 'residuals', 'summary', 'plot'],
       nca: ['values', 'pointsUsed', 'note', 'warnings'],
