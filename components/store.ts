@@ -77,6 +77,11 @@ export interface StoreOptions {
 /** The title given to a study that has none. */
 export const UNTITLED = 'Untitled study';
 
+/** The title a list shows for a document's title: trimmed, and never blank. */
+function listedTitle(title: string): string {
+  return title.trim() || UNTITLED;
+}
+
 /** The document of a new, empty study. */
 export function blankStudy(): Study {
   return { format: 'ratebook-study', version: 1, title: UNTITLED, cells: [] };
@@ -177,15 +182,18 @@ export function createStudyStore(options: StoreOptions = {}): StudyStore {
   async function insert(os: IDBObjectStore, doc: Study): Promise<MetaRecord> {
     const id = await freshId(os);
     const t = now();
-    const meta: MetaRecord = { id, title: doc.title, created: t, updated: t, revision: 1, cells: doc.cells.length };
+    const meta: MetaRecord = { id, title: listedTitle(doc.title), created: t, updated: t, revision: 1, cells: doc.cells.length };
     os.put(doc, docKey(id));
     os.put(meta, metaKey(id));
     return meta;
   }
 
-  /** Writes a changed document: new title and cell count, `updated` now, one more revision. */
+  /**
+   * Writes a changed document: new title and cell count, `updated` now, one more revision.
+   * So the list follows the open study's title edits when the study is saved.
+   */
   function change(os: IDBObjectStore, meta: MetaRecord, doc: Study): MetaRecord {
-    const next: MetaRecord = { ...meta, title: doc.title, cells: doc.cells.length, updated: now(), revision: meta.revision + 1 };
+    const next: MetaRecord = { ...meta, title: listedTitle(doc.title), cells: doc.cells.length, updated: now(), revision: meta.revision + 1 };
     os.put(doc, docKey(meta.id));
     os.put(next, metaKey(meta.id));
     return next;
@@ -219,7 +227,7 @@ export function createStudyStore(options: StoreOptions = {}): StudyStore {
 
     renameStudy: async (id, title) => {
       if (typeof title !== 'string') throw new StoreError('invalid', 'A title must be text.');
-      const name = title.trim() || UNTITLED;
+      const name = listedTitle(title);
       return transact('readwrite', 'rename the study', async (os) => {
         const meta = await getMeta(os, id);
         return change(os, meta, { ...(await getDoc(os, id)), title: name });

@@ -20,7 +20,9 @@ export interface StudyControllerOptions {
  * The open study in the app: its document, undo and redo, the engine's latest report, and
  * saving. The one way the app changes a study: `edit()`, which applies the engine's own edit
  * function to the document, records the undo step, sends the edit to the engine's worker and
- * schedules a save. It computes nothing itself.
+ * schedules a save. Undo and redo take the same path with a whole-document edit, so the
+ * worker re-runs only the cells that differ; only `open()` hands the worker a study afresh.
+ * It computes nothing itself.
  */
 export class StudyController implements ReactiveController {
   id?: string;
@@ -40,6 +42,7 @@ export class StudyController implements ReactiveController {
   private undoStack: Study[] = [];
   private redoStack: Study[] = [];
   private lastMerge?: { key: string; at: number };
+  private holding = false;
   private readonly engine: EngineClient;
   private saver?: Autosaver<{ id: string; study: Study }>;
   private readonly listeners = new Set<(a: EngineAnswer) => void>();
@@ -101,32 +104,50 @@ export class StudyController implements ReactiveController {
 
   /**
    * Applies an edit. `mergeKey` joins it to the previous undo step when that had the same key
-   * and was recent (typing in one field, dragging one slider). Returns the problem when the
-   * edit is refused (nothing changes then).
+   * and was recent (dragging one slider), or however long ago while a step is held open
+   * (typing in an expression field until it commits: see `holdStep`). Returns the problem
+   * when the edit is refused (nothing changes then).
    */
   edit(edit: Edit, mergeKey?: string): string | undefined {
     if (!this.study || !this.id) return 'no study is open';
-    const out = applyEdit(this.study, edit);
-    if (!out.ok) {
-      this.problem = out.error.message;
-      this.host.requestUpdate();
-      return out.error.message;
-    }
+    const before = this.study;
+    const problem = this.apply(edit, mergeKey !== undefined);
+    if (problem !== undefined) return problem;
     const now = performance.now();
-    const merging = mergeKey !== undefined && this.lastMerge?.key === mergeKey && now - this.lastMerge.at < MERGE_WINDOW_MS;
+    const merging = mergeKey !== undefined && this.lastMerge?.key === mergeKey && (this.holding || now - this.lastMerge.at < MERGE_WINDOW_MS);
     if (!merging) {
-      this.undoStack.push(this.study);
+      // an edit that changes nothing is no step, and keeps what can be redone
+      if (sameStudy(before, this.study)) {
+        this.lastMerge = undefined;
+        return undefined;
+      }
+      this.undoStack.push(before);
       if (this.undoStack.length > UNDO_LIMIT) this.undoStack.shift();
+    } else if (sameStudy(this.undoStack.at(-1), this.study)) {
+      // typing that comes back to where its step began (undone in the field) leaves no step
+      this.undoStack.pop();
+      this.lastMerge = undefined;
+      this.redoStack = [];
+      return undefined;
     }
-    this.lastMerge = mergeKey !== undefined ? { key: mergeKey, at: now } : undefined;
     this.redoStack = [];
-    this.study = out.study;
-    this.engine.edit(edit, out.study);
-    this.saver?.schedule({ id: this.id, study: out.study });
-    // typing and dragging (merged edits) wait for the answer; a structural change shows at once
-    if (mergeKey !== undefined) this.renderSoon();
-    else this.host.requestUpdate();
+    this.lastMerge = mergeKey !== undefined ? { key: mergeKey, at: now } : undefined;
     return undefined;
+  }
+
+  /** Ends the current undo step (a field committed, focus moved on): the next edit starts a new one. */
+  endStep(): void {
+    this.lastMerge = undefined;
+  }
+
+  /**
+   * While held, edits with one merge key make one undo step however slowly they come: the
+   * study view holds it while an expression field has focus, whose own undo covers the
+   * typing until it commits. Holding or letting go also ends the current step.
+   */
+  holdStep(hold: boolean): void {
+    this.holding = hold;
+    this.lastMerge = undefined;
   }
 
   get canUndo(): boolean {
@@ -137,18 +158,26 @@ export class StudyController implements ReactiveController {
     return this.redoStack.length > 0;
   }
 
+  /** Goes back one step: the study as it was, sent to the engine as a whole-document edit. */
   undo(): void {
-    const previous = this.undoStack.pop();
+    const previous = this.undoStack.at(-1);
     if (!previous || !this.study) return;
-    this.redoStack.push(this.study);
-    this.restore(previous);
+    const current = this.study;
+    if (this.apply({ type: 'document', study: previous }, false) !== undefined) return;
+    this.undoStack.pop();
+    this.redoStack.push(current);
+    this.lastMerge = undefined;
   }
 
+  /** Goes forward one undone step, as a whole-document edit. */
   redo(): void {
-    const next = this.redoStack.pop();
+    const next = this.redoStack.at(-1);
     if (!next || !this.study) return;
-    this.undoStack.push(this.study);
-    this.restore(next);
+    const current = this.study;
+    if (this.apply({ type: 'document', study: next }, false) !== undefined) return;
+    this.redoStack.pop();
+    this.undoStack.push(current);
+    this.lastMerge = undefined;
   }
 
   /** Saves now (before leaving the study). */
@@ -172,11 +201,28 @@ export class StudyController implements ReactiveController {
     }, RENDER_WAIT_MS);
   }
 
-  private restore(study: Study): void {
-    this.study = study;
-    this.lastMerge = undefined;
-    this.engine.open(study);
-    if (this.id) this.saver?.schedule({ id: this.id, study });
-    this.host.requestUpdate();
+  /**
+   * The one path of every change: the engine's `applyEdit` on this copy, the same edit to the
+   * engine's session, a save. `typing` edits (merged) wait for the engine's answer to render.
+   */
+  private apply(edit: Edit, typing: boolean): string | undefined {
+    const out = applyEdit(this.study!, edit);
+    if (!out.ok) {
+      this.problem = out.error.message;
+      this.host.requestUpdate();
+      return out.error.message;
+    }
+    this.study = out.study;
+    this.engine.edit(edit, out.study);
+    this.saver?.schedule({ id: this.id!, study: out.study });
+    // typing and dragging wait for the answer; a structural change shows at once
+    if (typing) this.renderSoon();
+    else this.host.requestUpdate();
+    return undefined;
   }
+}
+
+/** Two documents with the same content. Cost: O(size of the study). */
+function sameStudy(a: Study | undefined, b: Study | undefined): boolean {
+  return a !== undefined && b !== undefined && JSON.stringify(a) === JSON.stringify(b);
 }

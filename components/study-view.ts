@@ -74,6 +74,9 @@ export class StudyView extends LitElement {
   override connectedCallback(): void {
     super.connectedCallback();
     window.addEventListener('keydown', this.keys);
+    this.addEventListener('focusin', this.focusIn);
+    this.addEventListener('focusout', this.focusOut);
+    this.addEventListener('expr-commit', this.fieldCommitted);
     window.addEventListener('beforeprint', this.beforePrint);
     window.addEventListener('afterprint', this.afterPrint);
     // the sheet's code comes in its own chunk; fetch it now, before anyone prints
@@ -82,6 +85,9 @@ export class StudyView extends LitElement {
 
   override disconnectedCallback(): void {
     window.removeEventListener('keydown', this.keys);
+    this.removeEventListener('focusin', this.focusIn);
+    this.removeEventListener('focusout', this.focusOut);
+    this.removeEventListener('expr-commit', this.fieldCommitted);
     window.removeEventListener('beforeprint', this.beforePrint);
     window.removeEventListener('afterprint', this.afterPrint);
     super.disconnectedCallback();
@@ -92,16 +98,28 @@ export class StudyView extends LitElement {
   private beforePrint = () => { this.printing = customElements.get('study-sheet') !== undefined; };
   private afterPrint = () => { this.printing = false; };
 
-  /** Ctrl+Z / Cmd+Z undo; Ctrl+Shift+Z, Cmd+Shift+Z and Ctrl+Y redo; not while typing in a plain input that handles its own undo. */
+  /**
+   * Ctrl+Z / Cmd+Z undo the study; Ctrl+Shift+Z, Cmd+Shift+Z and Ctrl+Y redo it. Not a key
+   * already handled (an expression field undoing its own typing), nor one typed in a plain
+   * text input, which keeps the browser's own undo.
+   */
   private keys = (e: KeyboardEvent) => {
     const mod = e.ctrlKey || e.metaKey;
-    if (!mod) return;
+    if (!mod || e.defaultPrevented) return;
     const key = e.key.toLowerCase();
     const target = e.composedPath()[0] as HTMLElement | undefined;
     if (target && (target.tagName === 'INPUT' || target.tagName === 'TEXTAREA') && (target as HTMLInputElement).type !== 'range' && (target as HTMLInputElement).type !== 'checkbox') return;
     if (key === 'z' && !e.shiftKey) { e.preventDefault(); this.controller.undo(); }
     else if ((key === 'z' && e.shiftKey) || key === 'y') { e.preventDefault(); this.controller.redo(); }
   };
+
+  // One undo step per stretch of typing: an expression field holds its step open while it has
+  // focus (its own undo covers the typing), and a commit or a move of focus ends the step.
+  private focusIn = (e: FocusEvent) => {
+    this.controller.holdStep(e.composedPath().some((n) => (n as Element).localName === 'expr-field'));
+  };
+  private focusOut = () => this.controller.holdStep(false);
+  private fieldCommitted = () => this.controller.endStep();
 
   override render() {
     const c = this.controller;

@@ -8,12 +8,13 @@ import '../expr-field.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
 import '../plots/time-plot.ts';
+import {
+  FIND_KINDS, findKindOf, needsLevel as usesLevel, switchFind, withFindState, withFindUnit, freshFindName,
+  EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, switchAction, withEventField,
+  type EventAction, type FindKind, type FindQuery as FindDoc, type ScheduleEvent as EventDoc,
+} from '../../src/index.ts';
 
 type SimulateCellDoc = CellDoc<'simulate'>;
-
-type EventDoc = NonNullable<SimulateCellDoc['events']>[number];
-type FindDoc = NonNullable<SimulateCellDoc['find']>[number];
-const FIND_KINDS = ['crossing', 'maximum', 'minimum', 'timeOfMaximum', 'timeOfMinimum', 'valueOf', 'integralOf', 'timeAbove', 'timeBelow'] as const;
 const FIND_LABELS: Record<string, string> = {
   crossing: 'time it crosses', maximum: 'largest value', minimum: 'smallest value', timeOfMaximum: 'time of largest',
   timeOfMinimum: 'time of smallest', valueOf: 'value at', integralOf: 'area under', timeAbove: 'time above', timeBelow: 'time below',
@@ -84,18 +85,17 @@ export class SimulateCellElement extends CellElement<'simulate'> {
     return html`<div class="scroll"><table class="events">
       ${events.length ? html`<thead><tr><th>At</th><th>Every</th><th>Times</th><th>Action</th><th>On</th><th>Amount</th><th>For</th><th></th></tr></thead>` : nothing}
       <tbody>${events.map((ev, i) => {
-        const kind = ev.add ? 'add' : ev.set ? 'set' : 'infuse';
-        const targets = Object.entries(ev[kind] ?? {});
-        const [target, amount] = targets[0] ?? ['', ''];
+        const kind = eventActionOf(ev);
+        const [target, amount] = eventTarget(ev);
         const p = `.events[${i}]`;
         return html`<tr>
           <td><expr-field label="Event ${i + 1} time" .value=${ev.at ?? ''} .names=${names} .error=${claims.take(`${p}.at`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, at: e.detail.value }, `at${i}`)}></expr-field></td>
-          <td><expr-field label="Event ${i + 1} repeats every" .value=${ev.every ?? ''} .names=${names} .error=${claims.take(`${p}.every`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withOptional(ev, 'every', e.detail.value), `every${i}`)}></expr-field></td>
-          <td><input class="count" type="number" min="1" aria-label="Event ${i + 1} count" .value=${ev.count === undefined ? '' : String(ev.count)} @input=${(e: Event) => { const v = (e.target as HTMLInputElement).value; this.setEvent(i, withOptional(ev, 'count', v === '' ? '' : Math.max(1, Math.trunc(Number(v)))), `count${i}`); }} /></td>
-          <td><select aria-label="Event ${i + 1} action" @change=${(e: Event) => this.setEvent(i, switchAction(ev, (e.target as HTMLSelectElement).value as 'add' | 'set' | 'infuse'))}>
-            ${(['add', 'set', 'infuse'] as const).map((k) => html`<option value=${k} ?selected=${k === kind}>${k === 'add' ? 'add (dose)' : k === 'set' ? 'set a parameter' : 'infuse (rate)'}</option>`)}</select></td>
-          <td><input class="name" type="text" aria-label="Event ${i + 1} target name" .value=${target} @input=${(e: Event) => this.setEvent(i, withTarget(ev, kind, (e.target as HTMLInputElement).value, amount), `target${i}`)} /></td>
-          <td><expr-field label="Event ${i + 1} amount" .value=${amount} .names=${names} .error=${claims.take(`${p}.${kind}.${target}`) ?? claims.take(`${p}.${kind}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withTarget(ev, kind, target, e.detail.value), `amount${i}`)}></expr-field></td>
+          <td><expr-field label="Event ${i + 1} repeats every" .value=${ev.every ?? ''} .names=${names} .error=${claims.take(`${p}.every`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withEventField(ev, 'every', e.detail.value), `every${i}`)}></expr-field></td>
+          <td><input class="count" type="number" min="1" aria-label="Event ${i + 1} count" .value=${ev.count === undefined ? '' : String(ev.count)} @input=${(e: Event) => { const v = (e.target as HTMLInputElement).value; this.setEvent(i, withEventField(ev, 'count', v === '' ? '' : Math.max(1, Math.trunc(Number(v)))), `count${i}`); }} /></td>
+          <td><select aria-label="Event ${i + 1} action" @change=${(e: Event) => this.setEvent(i, switchAction(ev, (e.target as HTMLSelectElement).value as EventAction))}>
+            ${EVENT_ACTIONS.map((k) => html`<option value=${k} ?selected=${k === kind}>${k === 'add' ? 'add (dose)' : k === 'set' ? 'set a parameter' : 'infuse (rate)'}</option>`)}</select></td>
+          <td><input class="name" type="text" aria-label="Event ${i + 1} target name" .value=${target} @input=${(e: Event) => this.setEvent(i, withTarget(ev, (e.target as HTMLInputElement).value, amount), `target${i}`)} /></td>
+          <td><expr-field label="Event ${i + 1} amount" .value=${amount} .names=${names} .error=${claims.take(`${p}.${kind}.${target}`) ?? claims.take(`${p}.${kind}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withTarget(ev, target, e.detail.value), `amount${i}`)}></expr-field></td>
           <td>${kind === 'infuse' ? html`<expr-field label="Event ${i + 1} infusion duration" .value=${ev.for ?? ''} .names=${names} .error=${claims.take(`${p}.for`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, for: e.detail.value }, `for${i}`)}></expr-field>` : nothing}</td>
           <td><button class="quiet" aria-label="Remove event ${i + 1}" @click=${() => this.edit({ events: events.filter((_, j) => j !== i) })}>✕</button></td>
         </tr>`;
@@ -108,21 +108,21 @@ export class SimulateCellElement extends CellElement<'simulate'> {
     return html`<div class="scroll"><table class="finds">
       ${finds.length ? html`<thead><tr><th>Name</th><th>Question</th><th>Of</th><th>Level or time</th><th>Answer</th><th></th></tr></thead>` : nothing}
       <tbody>${finds.map((f, i) => {
-        const kind = FIND_KINDS.find((k) => Object.prototype.hasOwnProperty.call(f, k)) ?? 'crossing';
-        const needsLevel = kind === 'crossing' || kind === 'timeAbove' || kind === 'timeBelow';
+        const kind = findKindOf(f);
+        const needsLevel = usesLevel(kind);
         const r = results[f.name];
         const p = `.find[${i}]`;
         return html`<tr>
           <td><input class="name" type="text" aria-label="Question ${i + 1} name" .value=${f.name ?? ''} @input=${(e: Event) => this.setFind(i, { ...f, name: (e.target as HTMLInputElement).value }, `fname${i}`)} /></td>
-          <td><select aria-label="Question ${i + 1} kind" @change=${(e: Event) => this.setFind(i, switchFind(f, kind, (e.target as HTMLSelectElement).value as (typeof FIND_KINDS)[number]))}>
+          <td><select aria-label="Question ${i + 1} kind" @change=${(e: Event) => this.setFind(i, switchFind(f, (e.target as HTMLSelectElement).value as FindKind))}>
             ${FIND_KINDS.map((k) => html`<option value=${k} ?selected=${k === kind}>${FIND_LABELS[k]}</option>`)}</select>
             ${kind === 'crossing' ? html`<select aria-label="Question ${i + 1} direction" @change=${(e: Event) => this.setFind(i, { ...f, direction: (e.target as HTMLSelectElement).value as 'up' | 'down' | 'either' })}>
               ${(['either', 'down', 'up'] as const).map((d) => html`<option value=${d} ?selected=${(f.direction ?? 'either') === d}>${d === 'either' ? 'either way' : d === 'down' ? 'falling' : 'rising'}</option>`)}</select>` : nothing}</td>
-          <td><input class="name" type="text" aria-label="Question ${i + 1} state" .value=${String(f[kind] ?? '')} @input=${(e: Event) => this.setFind(i, { ...f, [kind]: (e.target as HTMLInputElement).value }, `fstate${i}`)} /></td>
+          <td><input class="name" type="text" aria-label="Question ${i + 1} state" .value=${String(f[kind] ?? '')} @input=${(e: Event) => this.setFind(i, withFindState(f, (e.target as HTMLInputElement).value), `fstate${i}`)} /></td>
           <td>${needsLevel || kind === 'valueOf' ? html`<expr-field label="Question ${i + 1} ${needsLevel ? 'level' : 'time'}" .value=${(needsLevel ? f.level : f.at) ?? ''} .names=${names}
             .error=${claims.take(`${p}.${needsLevel ? 'level' : 'at'}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setFind(i, { ...f, [needsLevel ? 'level' : 'at']: e.detail.value }, `flevel${i}`)}></expr-field>` : nothing}</td>
           <td class="result">${!r ? '' : 'notReached' in r ? html`<span class="muted">${r.message}</span>` : showQ(r)}${r && !('notReached' in r) ? html`<unit-pick .unit=${r.unit} .picked=${f.unit} label="Show ${f.name} in another unit"
-              @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.setFind(i, withUnit(f, e.detail.unit))}></unit-pick>` : nothing}
+              @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.setFind(i, withFindUnit(f, e.detail.unit))}></unit-pick>` : nothing}
             ${footError(claims.take(p) ?? claims.take(`${p}.unit`))}</td>
           <td><button class="quiet" aria-label="Remove question ${i + 1}" @click=${() => this.edit({ find: finds.filter((_, j) => j !== i) })}>✕</button></td>
         </tr>`;
@@ -166,50 +166,6 @@ export class SimulateCellElement extends CellElement<'simulate'> {
     this.edit({ find: (this.cell.find ?? []).map((x, j) => (j === i ? f : x)) }, key);
   }
 
-}
-
-function withOptional<T extends object>(o: T, key: string, v: unknown): T {
-  const copy = { ...o } as Record<string, unknown>;
-  if (v === '' || v === undefined) delete copy[key];
-  else copy[key] = v;
-  return copy as T;
-}
-
-function withTarget(ev: EventDoc, kind: 'add' | 'set' | 'infuse', name: string, amount: string): EventDoc {
-  const rest = Object.entries(ev[kind] ?? {}).slice(1);
-  return { ...ev, [kind]: Object.fromEntries([[name, amount], ...rest]) };
-}
-
-function switchAction(ev: EventDoc, to: 'add' | 'set' | 'infuse'): EventDoc {
-  const from = ev.add ? 'add' : ev.set ? 'set' : 'infuse';
-  const { add: _a, set: _s, infuse: _i, for: duration, ...rest } = ev;
-  return { ...rest, [to]: ev[from] ?? {}, ...(to === 'infuse' ? { for: duration ?? '1 h' } : {}) } as EventDoc;
-}
-
-function switchFind(f: FindDoc, from: (typeof FIND_KINDS)[number], to: (typeof FIND_KINDS)[number]): FindDoc {
-  const state = f[from];
-  const copy = { ...f } as Record<string, unknown>;
-  delete copy[from];
-  copy[to] = state;
-  if (to === 'crossing' || to === 'timeAbove' || to === 'timeBelow') copy.level ??= '0';
-  else delete copy.level;
-  if (to === 'valueOf') copy.at ??= '0 h';
-  else delete copy.at;
-  if (to !== 'crossing') { delete copy.direction; delete copy.occurrence; }
-  return copy as unknown as FindDoc;
-}
-
-function freshFindName(finds: readonly FindDoc[]): string {
-  const used = new Set(finds.map((f) => f.name));
-  let n = finds.length + 1;
-  while (used.has(`q${n}`)) n++;
-  return `q${n}`;
-}
-
-/** A question with the unit its answer is shown in set, or cleared when `unit` is undefined. */
-function withUnit(f: FindDoc, unit: string | undefined): FindDoc {
-  const { unit: _old, ...rest } = f;
-  return unit === undefined ? rest as FindDoc : { ...rest, unit } as FindDoc;
 }
 
 customElements.define('simulate-cell', SimulateCellElement);

@@ -5,7 +5,7 @@
  */
 import { Annotation, EditorState, Transaction, type Extension } from '@codemirror/state';
 import { EditorView, drawSelection, keymap, type ViewUpdate } from '@codemirror/view';
-import { history, historyKeymap, standardKeymap } from '@codemirror/commands';
+import { standardKeymap } from '@codemirror/commands';
 import type { ReactiveController, ReactiveControllerHost } from 'lit';
 import { fieldProps, namesMap, setProps, type FieldError, type FieldProps, type StudyName } from './props.ts';
 import { errorMark } from './error-mark.ts';
@@ -14,6 +14,7 @@ import { exprCompletion } from './complete.ts';
 import { nameInfo } from './name-info.ts';
 import { joinLines, singleLine } from './single-line.ts';
 import { fieldTheme } from './theme.ts';
+import { clearTyping, typingHistory } from './typing-history.ts';
 
 /** What the controller reads from its host. */
 export interface ExprFieldHost extends ReactiveControllerHost, EventTarget {
@@ -91,11 +92,11 @@ export class ExprEditorController implements ReactiveController {
     return [
       fieldProps,
       errorMark,
-      history(),
+      typingHistory,
       drawSelection(),
       EditorView.lineWrapping,
       singleLine((view) => this.commit(view)),
-      keymap.of([...standardKeymap, ...historyKeymap]),
+      keymap.of(standardKeymap),
       exprHighlight,
       highlightTheme,
       exprCompletion,
@@ -109,11 +110,15 @@ export class ExprEditorController implements ReactiveController {
     if (u.docChanged && !u.transactions.some((tr) => tr.annotation(fromHost))) {
       this.emit('expr-input', u.state.doc.toString());
     }
-    if (u.focusChanged && !u.view.hasFocus && u.state.doc.toString() !== this.committed) this.commit(u.view);
+    if (u.focusChanged && !u.view.hasFocus) {
+      if (u.state.doc.toString() !== this.committed) this.commit(u.view);
+      else clearTyping(u.view); // leaving the field ends its own undo, committed or not
+    }
   }
 
   private commit(view: EditorView): void {
     this.committed = view.state.doc.toString();
+    clearTyping(view);
     this.emit('expr-commit', this.committed);
   }
 
@@ -154,6 +159,8 @@ export class ExprEditorController implements ReactiveController {
       changes: { from: start, to: endD, insert: value.slice(start, endV) },
       annotations: [fromHost.of(true), Transaction.addToHistory.of(false)],
     });
+    // typing from before an outside change (an undo of the study) would no longer fit the text
+    clearTyping(view);
   }
 }
 

@@ -49,7 +49,7 @@ export function openStudy(input: unknown, options: SessionOptions = {}): OpenRes
 export class StudySession {
   private cells: Cell[];
   private title: string;
-  private readonly description?: string;
+  private description?: string;
   private author?: string;
   private readonly cellProblems = new Map<string, readonly Problem[]>();
   private readonly notes: readonly string[];
@@ -98,12 +98,24 @@ export class StudySession {
   }
 
   private applyToCells(edit: Edit): Problem | undefined {
-    const out = applyEdit({ format: 'ratebook-study', version: 1, title: this.title, ...(this.author !== undefined ? { author: this.author } : {}), cells: this.cells }, edit);
+    const out = applyEdit({
+      format: 'ratebook-study', version: 1, title: this.title,
+      ...(this.description !== undefined ? { description: this.description } : {}),
+      ...(this.author !== undefined ? { author: this.author } : {}),
+      cells: this.cells,
+    }, edit);
     if (!out.ok) return out.error;
     this.positions = undefined;
     this.cells = out.study.cells;
     this.title = out.study.title;
+    this.description = out.study.description;
     this.author = out.study.author;
+    // a whole document brings the problems of all its cells; the cells it leaves unchanged
+    // keep their nodes, so only what differs re-runs
+    if (out.problems) {
+      this.cellProblems.clear();
+      for (const [id, p] of out.problems) this.cellProblems.set(id, p);
+    }
     const live = new Set(this.cells.map((c) => c.id));
     for (const id of [...this.cellProblems.keys()]) if (!live.has(id)) this.cellProblems.delete(id);
     if (out.written) {

@@ -5,7 +5,7 @@
  */
 import type { Cell, Study } from './types.ts';
 import { CELL_KINDS, ID_PATTERN } from './types.ts';
-import { isObject, type Problem } from './validate.ts';
+import { isObject, readStudy, type Problem } from './validate.ts';
 
 export type Edit =
   | { readonly type: 'replace'; readonly cell: unknown }
@@ -13,10 +13,21 @@ export type Edit =
   | { readonly type: 'remove'; readonly id: string }
   | { readonly type: 'move'; readonly id: string; readonly to: number }
   | { readonly type: 'retitle'; readonly title: string }
-  | { readonly type: 'author'; readonly author: string };
+  | { readonly type: 'author'; readonly author: string }
+  /**
+   * The whole document at once (undo and redo send the study as it was). Checked like a
+   * study being opened; the session re-runs only the cells whose text changed.
+   */
+  | { readonly type: 'document'; readonly study: unknown };
 
 export type EditOutcome =
-  | { readonly ok: true; readonly study: Study; /** The cell written by a replace or insert. */ readonly written?: Cell }
+  | {
+    readonly ok: true; readonly study: Study;
+    /** The cell written by a replace or insert. */
+    readonly written?: Cell;
+    /** After a whole-document edit: the field problems of its cells, by id (none listed: none found). */
+    readonly problems?: ReadonlyMap<string, readonly Problem[]>;
+  }
   | { readonly ok: false; readonly error: Problem };
 
 /** Applies one edit to a study. Cost: O(cells) plus a copy of the written cell. */
@@ -33,6 +44,17 @@ export function applyEdit(study: Study, edit: Edit): EditOutcome {
       if (typeof edit.author !== 'string') return refuse('an author must be text', 'author');
       const { author: _old, ...rest } = study;
       return { ok: true, study: edit.author.trim() ? { ...rest, author: edit.author } : rest };
+    }
+    case 'document': {
+      let copy: unknown;
+      try {
+        copy = structuredClone(edit.study);
+      } catch {
+        return refuse('a study must be plain data (text, numbers, lists and objects)', '');
+      }
+      const read = readStudy(copy);
+      if (!read.ok) return read;
+      return { ok: true, study: read.study, problems: read.cellProblems };
     }
     case 'remove': {
       const i = at(edit.id);

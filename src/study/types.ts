@@ -50,6 +50,8 @@ export interface ScheduleEvent {
 }
 
 export const FIND_KINDS = ['crossing', 'maximum', 'minimum', 'timeOfMaximum', 'timeOfMinimum', 'valueOf', 'integralOf', 'timeAbove', 'timeBelow'] as const;
+/** What a question asks (one of FIND_KINDS). */
+export type FindKind = (typeof FIND_KINDS)[number];
 
 export interface FindQuery {
   name: string;

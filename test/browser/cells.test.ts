@@ -2,7 +2,7 @@
 // shows an engine error on the right field, and dispatches edits as new cells.
 import { expect } from 'chai';
 import '../../components/cells/registry.ts';
-import { runStudy, type Cell, type Report } from '../../src/index.ts';
+import { runStudy, switchAction, switchFind, type Cell, type FindQuery, type Report } from '../../src/index.ts';
 import type { ExprField } from '../../components/expr-field.ts';
 
 type CellEl = HTMLElement & { cell: Cell; report?: unknown; study?: Report; updateComplete: Promise<unknown> };
@@ -104,6 +104,21 @@ describe('cell elements', () => {
     const run = { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '8 h', events: [{ at: '1 h', set: { Ta: '5 h' } }] };
     const { el } = await mount('simulate-cell', [inputs, law, run], 'run');
     expect(field(el, 'Event 1 amount').error?.message).to.match(/must be temperature/);
+  });
+
+  it('simulate-cell: a new question kind or event action is the engine\'s rule applied to the row', async () => {
+    const crossing = { name: 't21', crossing: 'T', level: '21 degC', direction: 'down', unit: 'min' };
+    const run = { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '8 h', events: [{ at: '1 h', add: { T: '5 K' } }], find: [crossing] };
+    const { el } = await mount('simulate-cell', [inputs, law, run], 'run');
+    const pick = async (label: string, value: string) => {
+      const select = el.shadowRoot!.querySelector(`select[aria-label="${label}"]`) as HTMLSelectElement;
+      const edit = nextEdit(el);
+      select.value = value;
+      select.dispatchEvent(new Event('change'));
+      return (await edit).cell;
+    };
+    expect((await pick('Question 1 kind', 'timeBelow')).find).to.deep.equal([switchFind(crossing as FindQuery, 'timeBelow')]);
+    expect((await pick('Event 1 action', 'infuse')).events).to.deep.equal([switchAction(run.events[0], 'infuse')]);
   });
 
   it('phase-cell: the equilibria table and plot', async () => {

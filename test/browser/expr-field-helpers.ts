@@ -37,15 +37,6 @@ export function record(el: ExprField, type: 'expr-input' | 'expr-commit'): strin
   return seen;
 }
 
-/** Polls `get` until it gives a truthy value; fails after `ms` with `what` in the message. */
-export async function until<T>(get: () => T | undefined | null | false, what: string, ms = 3000): Promise<T> {
-  const end = performance.now() + ms;
-  for (;;) {
-    const v = get();
-    if (v) return v;
-    if (performance.now() > end) throw new Error(`gave up waiting: ${what}`);
-    await new Promise((r) => setTimeout(r, 20));
-  }
-}
+export { until } from './helpers.ts';
 
 export const frame = () => new Promise((r) => requestAnimationFrame(() => r(undefined)));

@@ -66,6 +66,53 @@ describe('expr-field', () => {
     expect(view.state.doc.toString()).to.equal('2 / h');
   });
 
+  it('undoes and redoes its own typing by key, and leaves the key alone when it has none', async () => {
+    const el = await field({ value: '0.9 / h' });
+    const view = viewOf(el);
+    view.focus();
+    const press = (k: string, init: KeyboardEventInit) => {
+      const e = new KeyboardEvent('keydown', { key: k, bubbles: true, cancelable: true, composed: true, ...init });
+      view.contentDOM.dispatchEvent(e);
+      return e.defaultPrevented;
+    };
+    view.dispatch({ changes: { from: 0, to: view.state.doc.length, insert: '0.8 / h' }, userEvent: 'input.type' });
+    expect(press('z', { ctrlKey: true }), 'undo handled by the field').to.equal(true);
+    expect(view.state.doc.toString()).to.equal('0.9 / h');
+    expect(press('z', { ctrlKey: true }), 'nothing to undo: the key goes on').to.equal(false);
+    // keyCode: how CodeMirror reads the key under Shift (a pressed key carries it)
+    expect(press('Z', { ctrlKey: true, shiftKey: true, keyCode: 90 } as KeyboardEventInit), 'redo handled by the field').to.equal(true);
+    expect(view.state.doc.toString()).to.equal('0.8 / h');
+    expect(press('y', { ctrlKey: true }), 'nothing to redo: the key goes on').to.equal(false);
+    expect(view.state.doc.toString()).to.equal('0.8 / h');
+  });
+
+  it('forgets its own typing when it commits and when a value comes from outside', async () => {
+    const el = await field({ value: '0.9 / h' });
+    const view = viewOf(el);
+    const commits = record(el, 'expr-commit');
+    view.focus();
+    view.dispatch({ changes: { from: 0, to: view.state.doc.length, insert: '0.8 / h' }, userEvent: 'input.type' });
+    key(view, 'Enter');
+    expect(commits).to.deep.equal(['0.8 / h']);
+    await Promise.resolve();
+    key(view, 'z', { ctrlKey: true });
+    expect(view.state.doc.toString(), 'after a commit the field has nothing to undo').to.equal('0.8 / h');
+    view.dispatch({ changes: { from: 0, to: view.state.doc.length, insert: '0.7 / h' }, userEvent: 'input.type' });
+    key(view, 'z', { ctrlKey: true });
+    expect(view.state.doc.toString()).to.equal('0.8 / h');
+    // the study went back (its undo): the field takes the value and its redo is gone, so it
+    // can never join an old redo onto the new text
+    el.value = '0.8 / h';
+    await el.updateComplete;
+    el.value = '0.9 / h';
+    await el.updateComplete;
+    await Promise.resolve();
+    expect(view.state.doc.toString()).to.equal('0.9 / h');
+    key(view, 'Z', { ctrlKey: true, shiftKey: true, keyCode: 90 } as KeyboardEventInit);
+    key(view, 'y', { ctrlKey: true });
+    expect(view.state.doc.toString()).to.equal('0.9 / h');
+  });
+
   it('shows an error with a span as an alert and underlines exactly that span', async () => {
     const el = await field({ value: 'k * kk + 2', names: NAMES });
     el.error = { message: 'unknown name "kk" (did you mean "k"?)', span: [4, 6] };

@@ -155,6 +155,16 @@ describe('study store', () => {
     expect((await store.renameStudy(id, '   ')).title).to.equal('Untitled study');
   });
 
+  it('a saved document with a new title renames its list entry; a blank one is listed as untitled, kept as typed', async () => {
+    const store = freshStore();
+    const { id } = await store.createStudy(study('Old', [note('n1')]));
+    expect((await store.saveStudy(id, study('Walk-in check', [note('n1')]))).title).to.equal('Walk-in check');
+    expect((await store.listStudies())[0].title).to.equal('Walk-in check');
+    expect((await store.saveStudy(id, study('  ', [note('n1')]))).title).to.equal('Untitled study');
+    expect((await store.listStudies())[0].title).to.equal('Untitled study');
+    expect((await store.loadStudy(id))?.doc.title).to.equal('  ');
+  });
+
   it('duplicates a study under a new id with "(copy)" after its title, leaving the original alone', async () => {
     const store = freshStore();
     const original = await store.createStudy(study('Tank flush', [note('n1'), note('n2')]));

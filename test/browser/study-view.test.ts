@@ -6,6 +6,7 @@ import type { ExprField } from '../../components/expr-field.ts';
 import { runStudy, type Study } from '../../src/index.ts';
 import cooling from '../../examples/cooling-stock-pot.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
+import { deep } from './helpers.ts';
 
 async function mount(doc: unknown): Promise<StudyView> {
   const view = StudyView.create();
@@ -19,16 +20,6 @@ async function mount(doc: unknown): Promise<StudyView> {
 
 function nextAnswer(view: StudyView): Promise<void> {
   return new Promise((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
-}
-
-function deep(root: ParentNode, selector: string): Element[] {
-  const out: Element[] = [];
-  const walk = (n: ParentNode) => {
-    out.push(...n.querySelectorAll(selector));
-    for (const el of n.querySelectorAll('*')) if (el.shadowRoot) walk(el.shadowRoot);
-  };
-  walk(root);
-  return out;
 }
 
 describe('study-view', () => {

@@ -3,7 +3,7 @@
 // never touched.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { openStudy, reportQuantity, type StudySession, type WhatIf, type WhatIfAnswer } from '../../src/index.ts';
+import { openStudy, reportQuantity, type FindResult, type StudySession, type WhatIf, type WhatIfAnswer } from '../../src/index.ts';
 import type { GraphNode } from '../../src/engine/node.ts';
 import { near } from './helpers.ts';
 // the benchmark's study: a dose every 8 h six times, with four questions
@@ -65,8 +65,8 @@ function edited(doc: unknown, edits: Record<string, string>): { session: StudySe
   return { session: s, si };
 }
 
-function results(s: StudySession, cell: string): Record<string, Record<string, unknown>> {
-  return s.report().cells.find((c) => c.id === cell)!.results as unknown as Record<string, Record<string, unknown>>;
+function results(s: StudySession, cell: string): Record<string, FindResult> {
+  return s.report().cells.find((c) => c.id === cell)!.results!;
 }
 
 describe('what-if: the same answers as a real edit', () => {
