@@ -15,6 +15,7 @@ import {
 import { setGeneratedCode } from '../src/expression/compile.ts';
 import { phaseBenchmarks } from './phase.ts';
 import { odeBench, stiffBench } from './ode.ts';
+import { REFERENCE_VERSION, workPrecisionBench } from './work-precision.ts';
 import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
 import { whatIfBenchmarks } from './what-if.ts';
@@ -306,6 +307,22 @@ function stiffRows(): Row[] {
   });
 }
 
+function workPrecisionRows(): Row[] {
+  const e = (x: number) => (Number.isFinite(x) ? x.toExponential(1) : 'failed');
+  return workPrecisionBench().map((r) => {
+    const { auto, dopri5, dp853, stiff } = r.runs;
+    const others = ([['dopri5', dopri5], ['dp853', dp853], ['stiff', stiff]] as const).map(([m, x]) => `${m} ${x.evaluations}/${e(x.error)}`).join(', ');
+    const best = Number.isFinite(r.best.evaluations) ? `${r.best.method} ${Math.round(r.best.evaluations)}${r.best.how === 'loosest' ? ' (its loosest run)' : ''}` : 'no SciPy run that accurate';
+    return {
+      measure: `${r.problem}, rtol ${r.rtol.toExponential(0)}: auto (${auto.method}) ${auto.evaluations} evaluations, error ${e(auto.error)}, ` +
+        `${auto.units.toFixed(2)} units; ${others}`,
+      result: Number.isNaN(r.ratio) ? best : `${r.ratio.toFixed(2)}x ${best}`,
+      goal: `<= 1.25x the best SciPy ${REFERENCE_VERSION}, <= 1 unit`,
+      met: r.ratio <= 1.25 && auto.units <= 1,
+    };
+  });
+}
+
 function simulateRows(): Row[] {
   return simulateBenchmarks().map((r) => ({
     measure: `${r.name} (${r.steps} steps)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
@@ -338,6 +355,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Equilibria and parameter sweeps', run: phaseRows },
   { title: 'ODE integration against odex at equal accuracy', run: odeRows },
   { title: 'Stiff method on y\' = -1e4 (y - cos t) against LSODA', run: stiffRows },
+  { title: 'ODE work-precision: auto against SciPy solve_ivp at equal accuracy', run: workPrecisionRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
   { title: 'What-if runs of a dosing schedule', run: whatIfRows },
   { title: 'Fitting and profile summaries', run: fitRows },

@@ -10,9 +10,11 @@ export interface UnitPickDetail { readonly unit: string | undefined }
  * written" clears the choice. Renders nothing when there is nothing to offer.
  */
 export class UnitPick extends LitElement {
-  static override properties = { unit: {}, picked: {}, label: {} };
+  static override properties = { unit: {}, original: {}, picked: {}, label: {} };
   /** The unit the value is shown in now (from the report). */
   unit = '';
+  /** The unit the value had before any pick (the report's `originalUnit`): always offered. */
+  original?: string;
   /** The unit the study picked, if any. */
   picked?: string;
   label = 'Show in another unit';
@@ -25,7 +27,7 @@ export class UnitPick extends LitElement {
   `;
 
   override render() {
-    const choices = unitChoicesFor(this.unit);
+    const choices = unitChoicesFor(this.unit, this.original);
     if (choices.length === 0 && !this.picked) return html``;
     // The closed menu shows a small mark beside the result; open, it lists the other units.
     return html`<select aria-label=${this.label} title=${this.label} @change=${this.choose}>

@@ -26,5 +26,5 @@ export type { ItemTex } from './output/sheet-tex.ts';
 export { unitChoicesFor, timeAxisUnits, TRADE_UNITS, type AxisUnit } from './output/display-units.ts';
 export { nameTex } from './expression/tex.ts';
 export type { FromWorker, ToWorker } from './engine/worker-protocol.ts';
-export { lookupUnit } from './units/units.ts';
+export { lookupUnit, unitAfterNumber } from './units/units.ts';
 export { commonUnitNames, constantNames, functionNames, unitNames } from './expression/vocabulary.ts';

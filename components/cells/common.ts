@@ -4,7 +4,7 @@
  */
 import { css, html, nothing } from 'lit';
 import type { CellError, ParameterValue, Report, ReportBase, ReportQuantity } from '../../src/index.ts';
-import { formatNumber } from '../../src/index.ts';
+import { formatNumber, unitAfterNumber } from '../../src/index.ts';
 import type { StudyName } from '../expr-field.ts';
 
 /** A cell element's request to change its cell. */
@@ -59,7 +59,7 @@ export function showValue(q: ParameterValue | ReportQuantity | undefined, digits
 export function showQ(q: ReportQuantity | undefined, digits = 4): string {
   if (!q) return '';
   const v = formatNumber(q.value, digits);
-  return q.unit ? `${v} ${q.unit}` : v;
+  return q.unit ? `${v} ${unitAfterNumber(q.unit)}` : v;
 }
 
 const namesCache = new WeakMap<Report, StudyName[]>();

@@ -41,7 +41,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
                 .error=${claims.take(`.items[${j}].value`) ?? claims.take(`.items[${j}].range[0]`) ?? claims.take(`.items[${j}].range[1]`)}
                 @expr-input=${(e: CustomEvent<{ value: string }>) => this.change(j, { value: e.detail.value }, `value${j}`)}></expr-field>
                 ${entry?.range ? this.slider(j, entry) : nothing}</td>
-              <td class="result">${entry ? showValue(entry) : ''}${entry && entry.truth === undefined ? html`<unit-pick .unit=${entry.unit} .picked=${item.unit} label="Show ${item.name} in another unit"
+              <td class="result">${entry ? showValue(entry) : ''}${entry && entry.truth === undefined ? html`<unit-pick .unit=${entry.unit} .original=${entry.originalUnit} .picked=${item.unit} label="Show ${item.name} in another unit"
                 @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.change(j, { unit: e.detail.unit }, `unit${j}`)}></unit-pick>` : nothing}
                 ${footError(claims.take(`.items[${j}].unit`))}</td>
               <td class="hide-narrow"><input type="text" aria-label="Note on ${item.name}" .value=${item.note ?? ''}

@@ -26,7 +26,7 @@ export class RateCellElement extends CellElement<'rate'> {
         <span class="lbl">Unit</span>
         <expr-field style="flex: 0 1 9rem" label="Unit of ${c.state}" .value=${c.unit ?? ''} .error=${claims.take('.unit')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ unit: e.detail.value }, 'unit')}></expr-field>
-        <unit-pick .unit=${c.unit ?? ''} label="Show ${c.state} in another unit"
+        <unit-pick .unit=${c.unit ?? ''} .original=${this.report?.originalUnit} label="Show ${c.state} in another unit"
           @unit-pick=${(e: CustomEvent<UnitPickDetail>) => { if (e.detail.unit) this.edit({ unit: e.detail.unit }, 'unit-pick'); }}></unit-pick>
         <span class="lbl">Starts at</span>
         <expr-field label="Initial value of ${c.state}" .value=${c.initial ?? ''} .names=${names} .error=${claims.take('.initial')}

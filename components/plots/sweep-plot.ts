@@ -5,7 +5,7 @@
  */
 import { LitElement, html, nothing, type PropertyValues } from 'lit';
 import uPlot from 'uplot';
-import { formatNumber, type ReportQuantity } from '../../src/index.ts';
+import { formatNumber, unitAfterNumber, type ReportQuantity } from '../../src/index.ts';
 import { ChartController, type ChartSpec } from './chart-controller.ts';
 import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf } from './axes.ts';
@@ -146,7 +146,7 @@ export class SweepPlot extends LitElement {
       ctx.stroke();
       const cx = u.valToPos(f.parameter.value, 'x');
       const cy = u.valToPos(f.value.value, 'y');
-      labels.push({ x: cx, y: cy, text: `fold: ${s.parameter} = ${fmt(f.parameter.value)} ${f.parameter.unit}`, kind: 'fold' });
+      labels.push({ x: cx, y: cy, text: `fold: ${s.parameter} = ${fmt(f.parameter.value)} ${unitAfterNumber(f.parameter.unit)}`, kind: 'fold' });
       clear.push(around(cx, cy, 7));
     }
     ctx.restore();

@@ -24,7 +24,6 @@ export function dataNodes(cell: DataCell, at: string): Array<GraphNode<NodeOutpu
     defines: [{ name: cellRef(cell.id), path: `${at}.id` }],
     uses: [],
     allowsTime: false,
-    allowsStates: false,
     signature: JSON.stringify(cell),
     problems,
     run: () => guarded(() => runData(cell, at, units as Field[])),

@@ -48,12 +48,15 @@ export function field(value: unknown, path: string, problems: CellError[]): Fiel
   return { path, text: value, expr: r.expr };
 }
 
-/** The names the fields read (units and constants too: the graph sorts them out). */
-export function usesOf(fields: ReadonlyArray<Field | undefined>): Use[] {
+/**
+ * The names the fields read (units and constants too: the graph sorts them out). `states`
+ * marks fields that can read states (rate laws, event amounts under add or infuse).
+ */
+export function usesOf(fields: ReadonlyArray<Field | undefined>, { states = false } = {}): Use[] {
   const uses: Use[] = [];
   for (const f of fields) {
     if (!f) continue;
-    for (const name of symbolsOf(f.expr)) uses.push({ name, path: f.path, text: f.text });
+    for (const name of symbolsOf(f.expr)) uses.push({ name, path: f.path, text: f.text, ...(states ? { readsStates: true } : {}) });
   }
   return uses;
 }
@@ -64,15 +67,27 @@ export function label(path: string): string {
   return m ? m[1] : 'the expression';
 }
 
-/** The graph's values as an expression lookup; states read as their initial values. */
+/**
+ * The graph's values as an expression lookup, for a field that cannot read states (values,
+ * times, levels, ranges, bounds): a state's name is not seen, so one spelled like a unit is
+ * that unit there (`12 h` is twelve hours beside a state `h`).
+ */
 export function lookupFrom(ctx: RunContext, extra?: ReadonlyMap<string, Quantity>): Lookup {
   return (name) => {
     const x = extra?.get(name);
     if (x) return x;
     const b = ctx.binding(name);
     if (b?.kind === 'value') return b.truth ?? b.q;
-    if (b?.kind === 'state') return b.q;
     return undefined;
+  };
+}
+
+/** Like lookupFrom, for a field that can read states (a rate law, an event amount): states read as their initial values. */
+export function stateLookupFrom(ctx: RunContext, extra?: ReadonlyMap<string, Quantity>): Lookup {
+  const values = lookupFrom(ctx, extra);
+  return (name) => {
+    const b = ctx.binding(name);
+    return b?.kind === 'state' && !extra?.has(name) ? b.q : values(name);
   };
 }
 

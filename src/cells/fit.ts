@@ -34,7 +34,7 @@ export function fitNodes(cell: FitCell, at: string): Array<GraphNode<NodeOutput<
   const refs: Use[] = [];
   (Array.isArray(cell.rates) ? cell.rates : []).forEach((r, i) => { if (typeof r === 'string') refs.push({ name: cellRef(r), path: `${at}.rates[${i}]` }); });
   if (typeof cell.data === 'string') refs.push({ name: cellRef(cell.data), path: `${at}.data` });
-  estimates.forEach((e, i) => { if (typeof e?.parameter === 'string') refs.push({ name: e.parameter, path: `${at}.estimate[${i}].parameter` }); });
+  estimates.forEach((e, i) => { if (typeof e?.parameter === 'string') refs.push({ name: e.parameter, path: `${at}.estimate[${i}].parameter`, readsStates: true }); });
   return [{
     key: `${cell.id}/fit`,
     cell: cell.id,
@@ -45,7 +45,6 @@ export function fitNodes(cell: FitCell, at: string): Array<GraphNode<NodeOutput<
     measures: { name: measuredRef(cell.id), states: cell.observe && typeof cell.observe === 'object' ? Object.keys(cell.observe) : [] },
     uses: [...usesOf(fields.flatMap((f) => [f.guess, f.min, f.max])), ...refs],
     allowsTime: false,
-    allowsStates: true,
     pullsCoupledLaws: true,
     signature: JSON.stringify(cell),
     problems,

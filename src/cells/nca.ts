@@ -26,7 +26,6 @@ export function ncaNodes(cell: NcaCell, at: string): Array<GraphNode<NodeOutput<
     defines: NCA_RESULTS.map((n) => ({ name: `${prefix}${n}`, path: `${at}.prefix` })),
     uses: [...usesOf([dose, duration]), ...(typeof cell.data === 'string' ? [{ name: cellRef(cell.data), path: `${at}.data` }] : [])],
     allowsTime: false,
-    allowsStates: false,
     signature: JSON.stringify(cell),
     problems,
     run: (ctx) => guarded(() => runNca(cell, at, prefix, dose!, duration, ctx)),

@@ -11,7 +11,6 @@ export function noteNodes(cell: NoteCell, at: string): Array<GraphNode<NodeOutpu
     defines: [],
     uses: [],
     allowsTime: false,
-    allowsStates: false,
     signature: JSON.stringify(cell.text ?? null),
     problems,
     run: () => ({ ok: true, bindings: new Map(), output: {} }),

@@ -7,6 +7,7 @@ import { type Quantity, report, describe, valueIn, shownUnit, plain } from '../u
 import { formatUnit } from '../units/units.ts';
 import { sameDim, describeDim } from '../units/dimension.ts';
 import { quantitySig } from './signatures.ts';
+import { type StudyUnits, simplestUnit } from '../units/simplest-unit.ts';
 
 export function parameterNodes(cell: ParametersCell, at: string): Array<GraphNode<NodeOutput<'parameters'>>> {
   const items = Array.isArray(cell.items) ? cell.items : [];
@@ -22,7 +23,6 @@ export function parameterNodes(cell: ParametersCell, at: string): Array<GraphNod
       defines: name ? [{ name, path: `${path}.name` }] : [],
       uses: usesOf([value, ...range]),
       allowsTime: false,
-      allowsStates: false,
       signature: JSON.stringify(item ?? null),
       problems,
       run: (ctx) => runParameter(name, value!, range, ctx, item?.unit, `${path}.unit`),
@@ -35,7 +35,8 @@ function runParameter(name: string, value: Field, range: ReadonlyArray<Field | u
     const lookup = lookupFrom(ctx);
     const v = valueOf(value, lookup);
     if (typeof v === 'boolean') return truthParameter(name, v, range, shownIn, unitPath);
-    const q = shownAs(finite(value, v), shownIn, unitPath);
+    const computed = inSimplestUnit(finite(value, v), ctx.studyUnits);
+    const q = shownAs(computed, shownIn, unitPath);
     let bounds: Quantity[] | undefined;
     if (range.length === 2) {
       const [lo, hi] = bounds = range.map((f) => finiteQuantityOf(f!, lookup));
@@ -50,12 +51,20 @@ function runParameter(name: string, value: Field, range: ReadonlyArray<Field | u
     // a what-if run needs the value alone, not its display
     if (ctx.mode === 'what-if') return { ok: true, bindings, output: {} };
     const entry: ParameterValue = { ...report(q) };
+    // the unit it had before one was picked, so that it can be picked back
+    const original = formatUnit(shownUnit(computed));
+    if (original !== entry.unit) entry.originalUnit = original;
     if (bounds) {
       const unit = shownUnit(q);
       entry.range = bounds.map((b) => ({ value: valueIn(b, unit), unit: formatUnit(unit), si: b.si }));
     }
     return { ok: true, bindings, output: { values: { [name]: entry } } };
   });
+}
+
+/** q in the simplest unit of its dimension the study uses (units/simplest-unit.ts); a temperature keeps its own. */
+function inSimplestUnit(q: Quantity, units: StudyUnits | undefined): Quantity {
+  return units && !q.temp ? { ...q, unit: simplestUnit(q.unit, q.dim, units) } : q;
 }
 
 /**

@@ -29,14 +29,13 @@ export function phaseNodes(cell: PhaseCell, at: string): Array<GraphNode<NodeOut
   const sTo = sweep ? field(sweep.to, `${at}.sweep.to`, problems) : undefined;
   const refs: Use[] = [];
   if (typeof cell.rate === 'string') refs.push({ name: cellRef(cell.rate), path: `${at}.rate` });
-  if (sweep && typeof sweep.name === 'string') refs.push({ name: sweep.name, path: `${at}.sweep.name` });
+  if (sweep && typeof sweep.name === 'string') refs.push({ name: sweep.name, path: `${at}.sweep.name`, readsStates: true });
   return [{
     key: `${cell.id}/phase`,
     cell: cell.id,
     defines: [],
     uses: [...usesOf([from, to, sFrom, sTo]), ...refs],
     allowsTime: false,
-    allowsStates: true,
     signature: JSON.stringify(cell),
     problems,
     run: (ctx) => guarded(() => runPhase(cell, at, { from: from!, to: to!, sFrom, sTo }, ctx)),

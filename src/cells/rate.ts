@@ -7,7 +7,7 @@ import type { RateCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, Outcome, RunContext } from '../engine/node.ts';
 import { cellRef } from '../engine/node.ts';
 import type { NodeOutput } from '../engine/report.ts';
-import { type Field, field, usesOf, lookupFrom, quantityOf, finiteQuantityOf, unitOf, FieldError, TIME_ZERO, label, guarded } from './fields.ts';
+import { type Field, field, usesOf, lookupFrom, stateLookupFrom, quantityOf, finiteQuantityOf, unitOf, FieldError, TIME_ZERO, label, guarded } from './fields.ts';
 import { type Quantity, report, describe, shownUnit } from '../units/quantity.ts';
 import { sameDim, describeDim, divDim, TIME, TEMPERATURE } from '../units/dimension.ts';
 import { type DisplayUnit, formatUnit, lookupUnit, isOffsetTemperature, unitDim, mulUnits } from '../units/units.ts';
@@ -27,13 +27,12 @@ export function rateNodes(cell: RateCell, at: string): Array<GraphNode<NodeOutpu
     defines: state ? [{ name: state, path: `${at}.state` }] : [],
     uses: usesOf([initial]),
     allowsTime: false,
-    allowsStates: false,
     signature: JSON.stringify([cell.state, cell.unit, cell.initial]),
     problems,
     run: (ctx) => guarded(() => runState(cell.id, state, unit!, initial!, ctx)),
   };
-  const lawUses = usesOf([rate]);
-  if (state && !lawUses.some((u) => u.name === state)) lawUses.push({ name: state, path: `${at}.state` });
+  const lawUses = usesOf([rate], { states: true });
+  if (state && !lawUses.some((u) => u.name === state)) lawUses.push({ name: state, path: `${at}.state`, readsStates: true });
   const lawNode: GraphNode<NodeOutput<'rate'>> = {
     key: `${cell.id}/law`,
     cell: cell.id,
@@ -42,7 +41,6 @@ export function rateNodes(cell: RateCell, at: string): Array<GraphNode<NodeOutpu
     uses: lawUses,
     couples: lawUses.map((u) => u.name).filter((n) => n !== state),
     allowsTime: true,
-    allowsStates: true,
     signature: JSON.stringify([cell.state, cell.rate]),
     problems: lawProblems,
     run: (ctx) => guarded(() => runLaw(cell.id, state, rate!, ctx)),
@@ -66,7 +64,10 @@ function runState(cellId: string, state: string, unitField: Field, initialField:
   const q: Quantity = temp ? { si: q0.si, dim, unit, temp } : { si: q0.si, dim, unit };
   const binding: Binding = { kind: 'state', q, unit, cell: cellId, sig: `${quantitySig(q)}|${state}` };
   if (ctx.mode === 'what-if') return { ok: true, bindings: new Map([[state, binding]]), output: {} };
-  return { ok: true, bindings: new Map([[state, binding]]), output: { state, unit: formatUnit(unit), initial: report(q) } };
+  // the unit the initial value is written in, so that the state can be shown in it again
+  const written = q0.temp === 'point' || !q0.temp ? formatUnit(shownUnit(q0)) : '';
+  const original = written && written !== formatUnit(unit) ? { originalUnit: written } : {};
+  return { ok: true, bindings: new Map([[state, binding]]), output: { state, unit: formatUnit(unit), ...original, initial: report(q) } };
 }
 
 function runLaw(cellId: string, state: string, rate: Field, ctx: RunContext): Outcome<NodeOutput<'rate'>> {
@@ -76,7 +77,7 @@ function runLaw(cellId: string, state: string, rate: Field, ctx: RunContext): Ou
   }
   const scope = new Map<string, Quantity>();
   const reads: string[] = [];
-  const lookup = lookupFrom(ctx, new Map([['t', TIME_ZERO]]));
+  const lookup = stateLookupFrom(ctx, new Map([['t', TIME_ZERO]]));
   const recording = (name: string) => {
     const q = lookup(name);
     if (typeof q === 'boolean') {

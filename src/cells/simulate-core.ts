@@ -8,7 +8,7 @@
 import type { SimulateCell, FindQuery, ScheduleEvent } from '../study/types.ts';
 import { FIND_KINDS } from '../study/types.ts';
 import type { Binding, Law, RunContext } from '../engine/node.ts';
-import { type Field, lookupFrom, finiteQuantityOf, fail, shownAs } from './fields.ts';
+import { type Field, lookupFrom, stateLookupFrom, finiteQuantityOf, fail, shownAs } from './fields.ts';
 import { type Quantity, describe, valueIn, deltaUnit } from '../units/quantity.ts';
 import { sameDim, describeDim, divDim, mulDim, TIME } from '../units/dimension.ts';
 import { type DisplayUnit, formatUnit, mulUnits, unitFactor } from '../units/units.ts';
@@ -112,6 +112,8 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
   const states = laws.map((l) => l.state);
   const stateIndex = new Map(states.map((s, i) => [s, i]));
   const lookup = lookupFrom(ctx);
+  // an event's amount under add or infuse sees states; every other field does not
+  const amountLookup = stateLookupFrom(ctx);
   const fields = (memo.fields ??= new WeakMap());
   const entry = (fd: Field) => {
     let m = fields.get(fd);
@@ -122,11 +124,11 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
     return m;
   };
   // a field's value, evaluated again only when a binding it reads changed
-  const value = (fd: Field): Quantity => {
+  const value = (fd: Field, from = lookup): Quantity => {
     const m = entry(fd);
     if (m.q && m.names.every((n, i) => ctx.binding(n) === m.deps[i])) return m.q;
     m.q = undefined;
-    const q = finiteQuantityOf(fd, lookup);
+    const q = finiteQuantityOf(fd, from);
     m.deps = m.names.map((n) => ctx.binding(n));
     m.q = q;
     return q;
@@ -177,9 +179,10 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
   const scheduled: ScheduledEvent[] = f.events.map((e, i) => {
     const targets = e.targets.map((t) => {
       const fd = t.value!;
-      const bad = entry(fd).names.find((s) => s === 't' || stateIndex.has(s));
+      // under set, a state's name is a unit (the field cannot read states)
+      const bad = entry(fd).names.find((s) => s === 't' || (e.kind !== 'set' && stateIndex.has(s)));
       if (bad) fail(fd.path, `an event's amount is fixed when the run starts, so it cannot read "${bad}"`);
-      const q = value(fd);
+      const q = value(fd, e.kind === 'set' ? lookup : amountLookup);
       let want = e.kind === 'set' ? paramQ[paramIndex.get(t.name)!].dim : laws[stateIndex.get(t.name)!].initial.dim;
       if (e.kind === 'infuse') want = divDim(want, TIME);
       if (!sameDim(q.dim, want)) fail(fd.path, `${e.kind === 'infuse' ? 'an infusion rate' : 'the amount'} for ${t.name} must be ${describeDim(want)}; it is ${describeDim(q.dim)} (${describe(q)})`, 'unit');

@@ -29,7 +29,7 @@ export function simulateNodes(cell: SimulateCell, at: string): Array<GraphNode<N
     const p = `${at}.events[${i}]`;
     const kind = (['add', 'set', 'infuse'] as const).find((k) => e && Object.prototype.hasOwnProperty.call(e, k)) ?? 'add';
     const targets = Object.entries((e?.[kind] ?? {}) as Record<string, unknown>).map(([name, v]) => {
-      refs.push({ name, path: `${p}.${kind}` });
+      refs.push({ name, path: `${p}.${kind}`, readsStates: true });
       return { name, value: field(v, `${p}.${kind}.${name}`, problems) };
     });
     f.events.push({ at: opt(e?.at, `${p}.at`), every: opt(e?.every, `${p}.every`), for: opt(e?.for, `${p}.for`), targets, kind, raw: e });
@@ -37,20 +37,22 @@ export function simulateNodes(cell: SimulateCell, at: string): Array<GraphNode<N
   const defines = (Array.isArray(cell.find) ? cell.find : []).flatMap((q, i) => {
     const p = `${at}.find[${i}]`;
     const kind = FIND_KINDS.find((k) => q && Object.prototype.hasOwnProperty.call(q, k));
-    if (kind && typeof q[kind] === 'string') refs.push({ name: q[kind] as string, path: `${p}.${kind}` });
+    if (kind && typeof q[kind] === 'string') refs.push({ name: q[kind] as string, path: `${p}.${kind}`, readsStates: true });
     f.finds.push({ q, kind, level: opt(q?.level, `${p}.level`), at: opt(q?.at, `${p}.at`), from: opt(q?.from, `${p}.from`), to: opt(q?.to, `${p}.to`) });
     return typeof q?.name === 'string' ? [{ name: q.name, path: `${p}.name` }] : [];
   });
   const memo: CoreMemo = {};
-  const all = [f.from, f.to, f.step, f.atol, ...f.events.flatMap((e) => [e.at, e.every, e.for, ...e.targets.map((t) => t.value)]),
+  // an event's amounts under add and infuse can read states (and are refused when they do);
+  // every other field is a time, a level or a tolerance, where a state's name is a unit's
+  const amounts = f.events.flatMap((e) => e.targets.map((t) => ({ value: t.value, states: e.kind !== 'set' })));
+  const all = [f.from, f.to, f.step, f.atol, ...f.events.flatMap((e) => [e.at, e.every, e.for]), ...amounts.filter((a) => !a.states).map((a) => a.value),
     ...f.finds.flatMap((q) => [q.level, q.at, q.from, q.to])];
   return [{
     key: `${cell.id}/simulate`,
     cell: cell.id,
     defines,
-    uses: [...usesOf(all), ...refs],
+    uses: [...usesOf(all), ...usesOf(amounts.filter((a) => a.states).map((a) => a.value), { states: true }), ...refs],
     allowsTime: true,
-    allowsStates: true,
     pullsCoupledLaws: true,
     pullsMeasurements: true,
     signature: JSON.stringify(cell),

@@ -7,9 +7,9 @@
  * microseconds for a 50-cell study. What is expensive (parsing, running) is cached elsewhere.
  */
 import type { CellError, GraphNode } from './node.ts';
-import { lookupUnit } from '../units/units.ts';
 import { isConstantName } from '../expression/constants.ts';
 import { nearest } from '../expression/suggest.ts';
+import { hiddenUnitWarnings, isUnitName } from './hidden-units.ts';
 import { findWord } from '../expression/find-word.ts';
 
 /** Where a used name comes from; `optional` when the reader runs without it (it only shows it). */
@@ -29,9 +29,10 @@ export interface Graph {
 
 /**
  * Builds the graph. `resolve(cell, path)` writes a node's cell-relative path out in full,
- * for messages that point at another cell.
+ * for messages that point at another cell; `cellName(cell)` names a cell in warnings (its
+ * title, else its id).
  */
-export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, path: string) => string): Graph {
+export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, path: string) => string, cellName: (cell: string) => string = (c) => `cell "${c}"`): Graph {
   const nodes = new Map(list.map((n) => [n.key, n]));
   const definers = new Map<string, string>();
   const definedAt = new Map<string, string>();
@@ -55,14 +56,10 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
       }
       definers.set(d.name, n.key);
       definedAt.set(d.name, d.path);
-      if (!d.name.startsWith('#')) {
-        const unit = lookupUnit(d.name);
-        const where = resolve(n.cell, d.path);
-        if (unit) warnings.push(`the name "${d.name}" (${where}) hides the unit ${d.name}; in this study ${d.name} means the value defined there`);
-        else if (isConstantName(d.name)) warnings.push(`the name "${d.name}" (${where}) hides the constant ${d.name}`);
-      }
+      if (!d.name.startsWith('#') && isConstantName(d.name)) warnings.push(`the name "${d.name}" (${resolve(n.cell, d.path)}) hides the constant ${d.name}`);
     }
   }
+  warnings.push(...hiddenUnitWarnings(list, definers, { resolve, cellName }));
 
   const lawOf = (state: string): string | undefined => {
     const key = definers.get(state);
@@ -77,12 +74,18 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
     const uses = [...n.uses];
     if (n.pullsCoupledLaws) uses.push(...coupledLaws(n, nodes, definers, lawOf));
     for (const u of uses) {
-      if (src.has(u.name)) continue;
       const def = definers.get(u.name);
+      // a name read as a unit in one field may be read as a state in another: the state wins
+      if (src.has(u.name) && !(def !== undefined && 'builtin' in src.get(u.name)!)) continue;
       if (def !== undefined) {
         const target = nodes.get(def)!;
-        if (target.role === 'state' && !n.allowsStates) {
-          flag(n.key, { kind: 'misplaced', message: `"${u.name}" is the state of rate cell "${target.cell}": it changes with time, so it can be used only in rate laws and schedules`, path: u.path, ...span(u) });
+        if (target.role === 'state' && !u.readsStates) {
+          // a state hides a unit only where states can be read: elsewhere the unit keeps its meaning
+          if (isUnitName(u.name)) {
+            if (!src.has(u.name)) src.set(u.name, { builtin: 'unit' });
+            continue;
+          }
+          flag(n.key, { kind: 'misplaced', message: `"${u.name}" is the state of rate cell "${target.cell}": it changes with time, so it can be read only in rate laws and event amounts`, path: u.path, ...span(u) });
         }
         src.set(u.name, { node: def });
       } else if (u.name === 't' && n.allowsTime) {
@@ -95,7 +98,7 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
         flag(n.key, { kind: 'unknown-name', message: `there is no cell "${u.name.slice(1)}"${hint ? ` (did you mean "${hint}"?)` : ''}`, path: u.path });
       } else if (isConstantName(u.name)) {
         src.set(u.name, { builtin: 'constant' });
-      } else if (lookupUnit(u.name)) {
+      } else if (isUnitName(u.name)) {
         src.set(u.name, { builtin: 'unit' });
       } else {
         const names = [...definers.keys()].filter((k) => !k.startsWith('#'));

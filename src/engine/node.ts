@@ -7,6 +7,7 @@
 import type { Quantity } from '../units/quantity.ts';
 import type { DisplayUnit } from '../units/units.ts';
 import type { Expr } from '../expression/ast.ts';
+import type { StudyUnits } from '../units/simplest-unit.ts';
 
 /**
  * The kinds of problem a cell can have:
@@ -48,6 +49,12 @@ export interface Use {
   readonly name: string;
   readonly path: string;
   readonly text?: string;
+  /**
+   * The field can read states: a rate law, an event's amount under add or infuse, the state an
+   * event or a question names. Elsewhere a state's name that is spelled like a unit is that
+   * unit (`every: "12 h"` with a state `h`), and any other state's name is an error.
+   */
+  readonly readsStates?: boolean;
   /** The node runs without it when it is unavailable (it reads it only to show it). */
   readonly optional?: boolean;
 }
@@ -106,6 +113,8 @@ export interface RunContext {
   upstream(name: string): ReadonlySet<string>;
   /** Every available binding of that kind among the names the node reads (those the graph added included). */
   bindingsOf<K extends Binding['kind']>(kind: K): Array<Extract<Binding, { kind: K }>>;
+  /** The units the study's inputs are written in (engine/study-units.ts), for showing derived values. */
+  readonly studyUnits?: StudyUnits;
 }
 
 /** What a node's run gives: bindings for the names it defines and `output` (of type O) for its cell's report. */
@@ -128,8 +137,6 @@ export interface GraphNode<O extends object = object> {
   readonly uses: readonly Use[];
   /** May read `t` (rate laws and schedules). */
   readonly allowsTime: boolean;
-  /** May read states (rate laws and schedules); elsewhere a state is an error. */
-  readonly allowsStates: boolean;
   /** 'state' for a node that defines a state, 'law' for a rate law. */
   readonly role?: 'state' | 'law';
   /** For law nodes: the names whose laws are coupled to this one when they are states. */

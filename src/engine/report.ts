@@ -41,6 +41,8 @@ export interface Unfinished {
 /** A parameter's value: a quantity, `truth` for a condition, `range` for a slider. */
 export interface ParameterValue extends ReportQuantity {
   truth?: boolean;
+  /** Given with a picked `unit`: the unit the value is shown in with no pick. */
+  originalUnit?: string;
   range?: ReportQuantity[];
 }
 
@@ -56,6 +58,8 @@ export interface RateFields {
   state: string;
   /** The state's unit as text. */
   unit: string;
+  /** The unit the initial value is written in, when it is not `unit`. */
+  originalUnit?: string;
   initial: ReportQuantity;
   /** The law at the initial state and t = 0. */
   rateAtStart: ReportQuantity;

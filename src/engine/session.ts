@@ -13,10 +13,13 @@ import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.
 import { buildCellNodes, resolvePath, CELL_PATH } from '../cells/index.ts';
 import { buildGraph, upstreamOf, type Graph } from './graph.ts';
 import { prepareWhatIf, type Replacement, type Unavailable, type WhatIfPrepared } from './what-if.ts';
+import { unitHints, withUnitHint } from './hidden-units.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
 import { glanceOf } from '../output/glance.ts';
 import { cellTex, studySymbols } from '../output/sheet-tex.ts';
+import { studyUnits } from './study-units.ts';
+import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
 
 type Slot = Binding | Unavailable;
 
@@ -27,6 +30,9 @@ function bound(slot: Slot | undefined): Binding | undefined {
 
 export type { Edit } from '../study/edit.ts';
 export type { Replacement, WhatIfPrepared } from './what-if.ts';
+
+/** What a name defined by a cell of each kind is called in messages. */
+const KIND_WORDS: Partial<Record<string, string>> = { parameters: 'parameter', simulate: 'answer', fit: 'estimate', nca: 'result' };
 
 export type EditResult =
   | { readonly ok: true; readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report }
@@ -58,9 +64,13 @@ export class StudySession {
   private readonly outcomes = new Map<string, Outcome>();
   private readonly staticSigs = new Map<string, string>();
   private readonly slots = new Map<string, Slot>();
+  /** By cell: the error messages its report was last written with (see hintText). */
+  private readonly hintTexts = new Map<string, string>();
   /** Each cell's last report, with the position it was made at. */
   private readonly reports = new Map<string, { index: number; report: CellReport }>();
   private lastReport!: Report;
+  /** The units the study's inputs are written in, gathered once per evaluation. */
+  private units!: StudyUnits;
 
   constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check') {
     this.cells = [...study.cells];
@@ -159,7 +169,7 @@ export class StudySession {
     if (!problems?.length) return nodes;
     const errors: CellError[] = problems.map((p) => ({ kind: 'shape', message: p.message, path: p.path.replace(/^cells\[\d+\]/, CELL_PATH) }));
     if (nodes.length === 0) {
-      return [{ key: `${cell.id}/shape`, cell: cell.id, defines: [], uses: [], allowsTime: false, allowsStates: false, signature: JSON.stringify(errors), problems: errors, run: () => ({ ok: true, bindings: new Map(), output: {} }) }];
+      return [{ key: `${cell.id}/shape`, cell: cell.id, defines: [], uses: [], allowsTime: false, signature: JSON.stringify(errors), problems: errors, run: () => ({ ok: true, bindings: new Map(), output: {} }) }];
     }
     return nodes.map((n, i) => (i === 0 ? { ...n, problems: [...errors, ...n.problems], signature: `${n.signature}|${JSON.stringify(errors)}` } : n));
   }
@@ -169,7 +179,15 @@ export class StudySession {
     // no longer has, changes its report
     const rebuilt = new Set<string>();
     const list = this.nodes(rebuilt);
-    this.graph = buildGraph(list, (cell, path) => resolvePath(path, this.indexOf(cell)));
+    this.units = studyUnits(this.cells);
+    // a parameter is shown in the study's units of its dimension: it runs again when they change
+    const kinds = new Map(this.cells.map((c) => [c.id, c.kind]));
+    const unitsKey = (node: GraphNode, o: Outcome | undefined) => {
+      if (kinds.get(node.cell) !== 'parameters') return '';
+      const b = o?.bindings?.values().next().value;
+      return b?.kind === 'value' ? `|units=${studyUnitsKey(this.units, b.q.dim)}` : '';
+    };
+    this.graph = buildGraph(list, (cell, path) => resolvePath(path, this.indexOf(cell)), (id) => this.cellName(id));
     const changedNames = new Set<string>();
     const rerunCells = new Set<string>();
     const liveKeys = new Set(list.map((n) => n.key));
@@ -198,11 +216,12 @@ export class StudySession {
       }
       if (problem) staticSig += `|!${problem.path}:${problem.message}`;
       for (const d of node.defines) staticSig += `|${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`;
-      const keep = this.outcomes.has(key) && this.staticSigs.get(key) === staticSig && !inputsChanged;
-      const outcome = keep ? this.outcomes.get(key)! : this.runNode(node, problem);
+      const kept = this.outcomes.get(key);
+      const keep = !!kept && this.staticSigs.get(key) === staticSig + unitsKey(node, kept) && !inputsChanged;
+      const outcome = keep ? kept : this.runNode(node, problem);
       if (!keep) {
         this.outcomes.set(key, outcome);
-        this.staticSigs.set(key, staticSig);
+        this.staticSigs.set(key, staticSig + unitsKey(node, outcome));
         rerunCells.add(node.cell);
       }
       // a kept outcome is bound again too: the reason a name is unavailable gives the path
@@ -225,7 +244,8 @@ export class StudySession {
       const old = this.reports.get(cell.id);
       let r = old;
       const index = this.indexOf(cell.id);
-      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index) r = { index, report: this.cellReport(cell, index) };
+      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index
+        || (!r.report.ok && this.hintText(cell) !== this.hintTexts.get(cell.id))) r = { index, report: this.cellReport(cell, index) };
       const tex = cellTex(cell, symbols);
       if (!deepEqual(r.report.tex, tex)) {
         const { tex: _old, ...rest } = r.report;
@@ -238,6 +258,7 @@ export class StudySession {
       reports.push(r.report);
     }
     for (const id of [...this.reports.keys()]) if (this.indexOf(id) < 0) this.reports.delete(id);
+    for (const id of [...this.hintTexts.keys()]) if (this.indexOf(id) < 0) this.hintTexts.delete(id);
     this.lastReport = {
       title: this.title,
       ok: reports.every((c) => c.ok),
@@ -262,12 +283,43 @@ export class StudySession {
         return b?.kind === kind ? [b as Extract<Binding, { kind: typeof kind }>] : [];
       }),
       upstream: (name) => this.upstream(name),
+      studyUnits: this.units,
     };
     try {
       return node.run(ctx);
     } catch (err) {
       return internalError(node, err);
     }
+  }
+
+  /**
+   * A node's own error (not one it waits on) explained when its field reads a name that hides a
+   * unit (hidden-units.ts). Added when the cell is reported, as it names where the name is
+   * defined, which moves with its cell.
+   */
+  private hinted(node: GraphNode, o: Outcome | undefined): Outcome | undefined {
+    if (!o || o.ok || this.graph.problems.has(node.key)) return o;
+    return withUnitHint(o, unitHints(node, this.graph, (definer, def) => this.definedAt(definer, def.path)));
+  }
+
+  /** The hints a cell's errors carry, to tell when its report must be written again. */
+  private hintText(cell: Cell): string {
+    return (this.built.get(cell.id)?.nodes ?? []).map((n) => {
+      const o = this.hinted(n, this.outcomes.get(n.key));
+      return o && !o.ok ? o.error.message : '';
+    }).join('\n');
+  }
+
+  /** A cell as warnings name it: its title, else its id. */
+  private cellName(id: string): string {
+    const title = this.cells[this.indexOf(id)]?.title;
+    return typeof title === 'string' && title.trim() ? `"${title.trim()}"` : `cell "${id}"`;
+  }
+
+  /** What a definer's name is, and where: "the parameter defined at cells[0].items[1]". */
+  private definedAt(definer: GraphNode, path: string): string {
+    const kind = definer.role === 'state' ? 'state' : KIND_WORDS[this.cells[this.indexOf(definer.cell)]?.kind] ?? 'name';
+    return `the ${kind} defined at ${resolvePath(path.replace(/\.name$/, ''), this.indexOf(definer.cell))}`;
   }
 
   /**
@@ -283,6 +335,7 @@ export class StudySession {
     const kinds = new Map(this.cells.map((c) => [c.id, c.kind]));
     return prepareWhatIf({
       graph,
+      studyUnits: this.units,
       slot: (name) => this.slots.get(name),
       cellKind: (id) => kinds.get(id),
       waitingOn: (node, slotOf) => waitingOn(graph, node, slotOf),
@@ -302,7 +355,7 @@ export class StudySession {
     const waits = new Set<string>();
     const output: Record<string, unknown> = {};
     for (const node of this.built.get(cell.id)?.nodes ?? []) {
-      const o = this.outcomes.get(node.key);
+      const o = this.hinted(node, this.outcomes.get(node.key));
       if (!o) continue;
       if (o.output) mergeOutput(output, o.output);
       if (!o.ok) {
@@ -310,6 +363,7 @@ export class StudySession {
         if (o.error.waitsOn !== undefined) waits.add(o.error.waitsOn);
       }
     }
+    this.hintTexts.set(cell.id, this.hintText(cell));
     Object.assign(r, output);
     if (errors.length) {
       r.ok = false;

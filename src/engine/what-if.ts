@@ -74,6 +74,8 @@ type Slot = Binding | Unavailable;
 /** What the session lends a what-if: its graph and bindings, and its own rules for failures. */
 export interface SessionView {
   readonly graph: Graph;
+  /** The units the study's inputs are written in: a what-if binding is shown as a real run's is. */
+  readonly studyUnits?: RunContext['studyUnits'];
   slot(name: string): Slot | undefined;
   cellKind(id: string): string | undefined;
   /** The error of a node whose input is unavailable; undefined when all are bound. */
@@ -193,6 +195,7 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
         return s && s.kind === kind ? [s as Extract<Binding, { kind: typeof kind }>] : [];
       }),
       upstream: (name) => upstreamOf(graph, name),
+      ...(view.studyUnits ? { studyUnits: view.studyUnits } : {}),
     };
     const out = node.defines.filter((d) => graph.definers.get(d.name) === key).map((d) => [d.name, slotOf(d.name)] as const);
     return { node, problem: graph.problems.get(key), ctx, out, read };

@@ -25,15 +25,20 @@ const cache = new Map<string, readonly string[]>();
 
 /**
  * Trade units of the same dimension as `unitText` (the unit a value is reported in), without
- * `unitText` itself; none for a unit that cannot be read or a plain number.
+ * `unitText` itself; none for a unit that cannot be read or a plain number. `original`, the
+ * unit the value had before one was picked (a report's `originalUnit`), comes first when it
+ * differs from `unitText` and has its dimension, so that it can always be picked back.
  */
-export function unitChoicesFor(unitText: string): readonly string[] {
-  const hit = cache.get(unitText);
+export function unitChoicesFor(unitText: string, original?: string): readonly string[] {
+  const key = `${unitText}\n${original ?? ''}`;
+  const hit = cache.get(key);
   if (hit) return hit;
   const unit = unitFromText(unitText);
   const dim = unit && unit.length ? unitDim(unit) : undefined;
-  const out = dim ? TRADE_UNITS.filter((u) => u !== unitText && sameDim(unitDim(unitFromText(u)!), dim)) : [];
-  cache.set(unitText, out);
+  const fits = (u: string) => u !== unitText && !!dim && sameDim(unitDim(unitFromText(u) ?? []), dim);
+  const first = original !== undefined && unitFromText(original) && fits(original) ? [original] : [];
+  const out = dim ? [...first, ...TRADE_UNITS.filter((u) => fits(u) && !first.includes(u))] : [];
+  cache.set(key, out);
   return out;
 }
 

@@ -1,6 +1,7 @@
 /** The report as a readable table for a terminal: one block per cell, quantities aligned. */
 import type { CellReport, Report } from '../engine/report.ts';
 import { formatNumber } from '../units/quantity.ts';
+import { unitAfterNumber } from '../units/units.ts';
 
 interface Q { value: number; unit: string; si: number }
 
@@ -84,5 +85,5 @@ function showQuantity(q: Q): string {
   // a parameter that is a condition (a verdict): yes or no
   if (typeof (q as { truth?: unknown }).truth === 'boolean') return (q as { truth?: boolean }).truth ? 'yes' : 'no';
   const v = formatNumber(q.value, 6);
-  return q.unit ? `${v} ${q.unit}` : v;
+  return q.unit ? `${v} ${unitAfterNumber(q.unit)}` : v;
 }

@@ -2,8 +2,10 @@
  * TeX for what the printed sheet typesets, carried in the report (`tex` on rate and
  * parameters cells) so that the sheet only typesets it: each rate law as dState/dt = rate,
  * and each parameter's name and value. Symbols are read as the engine reads them: the study's
- * own names first (so a state `T` is not tesla), then constants, then units. An expression
- * that does not parse gets no TeX (the sheet shows its text).
+ * own names first (so a state `T` is not tesla), then constants, then units; in a parameter's
+ * value, where states cannot be read, a state's name spelled like a unit is the unit (a tank
+ * level `h` beside `0.9 / h`). An expression that does not parse gets no TeX (the sheet shows
+ * its text).
  */
 import type { Cell, Study } from '../study/types.ts';
 import { NCA_RESULTS } from '../study/types.ts';
@@ -19,9 +21,17 @@ export interface ItemTex {
   readonly value?: string;
 }
 
+/** How a study's symbols are set: in rate laws (states readable) and in parameter values (states not). */
+export interface StudySymbols {
+  readonly law: KindOf;
+  readonly value: KindOf;
+}
+
 /** The symbol kinds of a study, from the names its document defines. Cost: linear in the cells. */
-export function studySymbols(study: Pick<Study, 'cells'>): KindOf {
-  return symbolKinds(definedNames(study.cells));
+export function studySymbols(study: Pick<Study, 'cells'>): StudySymbols {
+  const defined = definedNames(study.cells);
+  const states = new Set(study.cells.flatMap((c) => (c.kind === 'rate' && typeof c.state === 'string' ? [c.state] : [])));
+  return { law: symbolKinds(defined), value: symbolKinds(new Set([...defined].filter((n) => !states.has(n)))) };
 }
 
 /**
@@ -29,17 +39,17 @@ export function studySymbols(study: Pick<Study, 'cells'>): KindOf {
  * by item name for a parameters cell; undefined for other kinds. Cost: a parse per expression
  * (cached by text).
  */
-export function cellTex(cell: Cell, kindOf: KindOf): string | Record<string, ItemTex> | undefined {
+export function cellTex(cell: Cell, symbols: StudySymbols): string | Record<string, ItemTex> | undefined {
   if (cell.kind === 'rate') {
     const p = parseExpression(cell.rate);
-    return p.ok && typeof cell.state === 'string' ? rateLawTex(cell.state, p.expr, kindOf) : undefined;
+    return p.ok && typeof cell.state === 'string' ? rateLawTex(cell.state, p.expr, symbols.law) : undefined;
   }
   if (cell.kind === 'parameters' && Array.isArray(cell.items)) {
     const out: Record<string, ItemTex> = {};
     for (const item of cell.items) {
       if (typeof item?.name !== 'string') continue;
       const p = parseExpression(item.value);
-      out[item.name] = { name: nameTex(item.name), ...(p.ok ? { value: toTex(p.expr, kindOf) } : {}) };
+      out[item.name] = { name: nameTex(item.name), ...(p.ok ? { value: toTex(p.expr, symbols.value) } : {}) };
     }
     return out;
   }

@@ -79,10 +79,15 @@ export function simulationPlot(p: PlotInput): SimulationPlot {
     t,
     states: p.states.map((s, i) => ({ name: s.name, unit: formatUnit(s.template.unit), values: cols[i] })),
     events,
-    levels: p.levels.map((l) => ({ state: l.state, value: valueIn(l.level, stateUnitOf(p, l.state)), label: `${l.state} = ${describe(l.level)}` })),
+    levels: p.levels.map((l) => levelOf(l, stateUnitOf(p, l.state))),
     marks: p.marks.map((m) => ({ name: m.name, state: m.state, time: timeIn(m.t), value: valueIn(m.value, stateUnitOf(p, m.state)), label: `${m.name}: ${m.answer}` })),
     ...(points.length ? { points } : {}),
   };
+}
+
+/** A level in its state's unit, the unit of the axis it is drawn on, its label too. */
+function levelOf(l: PlotInput['levels'][number], unit: DisplayUnit): SimulationPlot['levels'][number] {
+  return { state: l.state, value: valueIn(l.level, unit), label: `${l.state} = ${describe({ ...l.level, unit })}` };
 }
 
 /**

@@ -7,7 +7,7 @@
  * temperature kind only decides what is allowed and how a result is shown.
  */
 import { type Dim, DIMENSIONLESS, TEMPERATURE, sameDim, mulDim, divDim, powDim, isDimensionless, describeDim } from './dimension.ts';
-import { type DisplayUnit, NO_UNIT, lookupUnit, isOffsetTemperature, unitFactor, unitDim, mulUnits, powUnits, siUnitFor, formatUnit } from './units.ts';
+import { type DisplayUnit, NO_UNIT, lookupUnit, isOffsetTemperature, unitFactor, unitDim, mulUnits, powUnits, siUnitFor, formatUnit, unitAfterNumber } from './units.ts';
 
 /**
  * point: a reading on a scale (20 degC); delta: a difference of two readings;
@@ -57,7 +57,7 @@ export function shownUnit(q: Quantity): DisplayUnit {
 }
 
 export function describe(q: Quantity): string {
-  const u = formatUnit(shownUnit(q));
+  const u = unitAfterNumber(formatUnit(shownUnit(q)));
   const v = valueIn(q, shownUnit(q));
   return u ? `${formatNumber(v)} ${u}` : formatNumber(v);
 }

@@ -25,6 +25,9 @@ const EXTRA: Record<string, { factor: number; dim: number[] }> = {
   kcal: { factor: 4184, dim: [1, 2, -2] },
 };
 
+/** The units Ratebook adds to mathjs's table, by name. */
+export const EXTRA_UNIT_NAMES: readonly string[] = Object.keys(EXTRA);
+
 const cache = new Map<string, UnitDef | null>();
 
 /** The unit of that name, or undefined when it is not a unit. Cost: a map look-up after the first call. */
@@ -151,4 +154,12 @@ function format(u: DisplayUnit): string {
   const top = num.length ? num.join(' * ') : '1';
   if (den.length === 0) return top;
   return `${top} / ${den.length > 1 ? `(${den.join(' * ')})` : den[0]}`;
+}
+
+/**
+ * Unit text as it reads after a number, for people: "1 / h" becomes "/h" (`0.1 /h`), "1 / (h * kg)"
+ * "/(h * kg)"; other units are unchanged. The report's `unit` fields keep the re-readable form.
+ */
+export function unitAfterNumber(text: string): string {
+  return text.startsWith('1 / ') ? `/${text.slice(4)}` : text;
 }

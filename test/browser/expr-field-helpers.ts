@@ -6,7 +6,7 @@ import '../../components/expr-field.ts';
 import type { ExprField, ExprInputDetail } from '../../components/expr-field.ts';
 
 export const NAMES = [
-  { name: 'k', detail: '0.35 1 / h' },
+  { name: 'k', detail: '0.35 /h' },
   { name: 'Ta', detail: '21 degC' },
   { name: 'kelvinRate' },
 ];

@@ -51,7 +51,7 @@ describe('ratebook run', () => {
     assert.equal(r.code, 0);
     assert.match(r.out, /^Two inputs\n/);
     assert.match(r.out, /\[ok\] p \(parameters\)/);
-    assert.match(r.out, /k {2,}0\.35 1 \/ h/);
+    assert.match(r.out, /k {2,}0\.35 \/h/);
     assert.match(r.out, /All 1 cells are ok\./);
   });
 

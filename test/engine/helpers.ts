@@ -1,6 +1,6 @@
 /** Small helpers shared by the engine tests. */
 import assert from 'node:assert/strict';
-import { parseExpression, evaluateExpression, type Value } from '../../src/index.ts';
+import { parseExpression, evaluateExpression, runStudy, type Value, type Report, type CellReport } from '../../src/index.ts';
 import type { Quantity } from '../../src/units/quantity.ts';
 
 /** Asserts |actual - expected| <= tol * max(1, |expected|). */
@@ -32,4 +32,18 @@ export function failure(text: string, names: Record<string, Quantity> = {}): str
   const r = evaluateExpression(p.expr, (n) => names[n]);
   assert.ok(!r.ok, `${text} should fail, but gave a value`);
   return r.error.message;
+}
+
+/** The report of a study document; fails the test when the document is refused. */
+export function reportOf(doc: unknown): Report {
+  const r = runStudy(doc);
+  assert.ok(r.ok, r.ok ? '' : r.error.message);
+  return r.report;
+}
+
+/** The report of cell `id`; fails the test when there is none. */
+export function cell(report: Report, id: string): CellReport {
+  const c = report.cells.find((x) => x.id === id);
+  assert.ok(c, `no cell ${id}`);
+  return c;
 }

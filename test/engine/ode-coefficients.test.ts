@@ -9,90 +9,13 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { DOPRI5, DOPRI5_B_HAT, DOPRI5_DENSE, DOPRI5_E } from '../../src/numerics/ode/dopri5.ts';
-import { EULER, HEUN, RK4, type ButcherTableau } from '../../src/numerics/ode/explicit-rk.ts';
+import { EULER, HEUN, RK4 } from '../../src/numerics/ode/explicit-rk.ts';
 import { RODAS, RODAS_DENSE } from '../../src/numerics/ode/rosenbrock.ts';
-
-/** A rooted tree as the list of its root's subtrees. */
-type Tree = Tree[];
-
-const key = (t: Tree): string => '[' + t.map(key).sort().join('') + ']';
-const size = (t: Tree): number => 1 + t.reduce((s, c) => s + size(c), 0);
-/** γ(t) = |t| · Π γ(children): the exact solution's weight is 1/γ(t). */
-const density = (t: Tree): number => size(t) * t.reduce((p, c) => p * density(c), 1);
-
-/** Every tree obtained by hanging one new leaf on some vertex of t. */
-function grow(t: Tree): Tree[] {
-  const out: Tree[] = [[...t, []]];
-  t.forEach((child, i) => {
-    for (const g of grow(child)) {
-      const copy = t.slice();
-      copy[i] = g;
-      out.push(copy);
-    }
-  });
-  return out;
-}
-
-/** All distinct rooted trees, grouped by number of vertices 1..p. */
-function treesUpTo(p: number): Tree[][] {
-  const levels: Tree[][] = [[[]]];
-  for (let n = 2; n <= p; n++) {
-    const seen = new Map<string, Tree>();
-    for (const t of levels[n - 2]) for (const g of grow(t)) seen.set(key(g), g);
-    levels.push([...seen.values()]);
-  }
-  return levels;
-}
-const TREES = treesUpTo(5);
-
-/**
- * Stage weights κ_i(t) of the B-series of stage i (derivative stages, step h = 1):
- * κ_i(t) = Π_children (Σ_j α_ij κ_j(child)), plus, for a Rosenbrock method and t = [u],
- * Σ_{j≤i} γ_ij κ_j(u) (the term J·Σ γ_ij k_j with the exact Jacobian J).
- */
-function stageWeights(t: Tree, alpha: number[][], gamma: number[][] | null): number[] {
-  const s = alpha.length;
-  const children = t.map((c) => stageWeights(c, alpha, gamma));
-  const k = new Array<number>(s).fill(0);
-  for (let i = 0; i < s; i++) {
-    let p = 1;
-    for (const kc of children) {
-      let acc = 0;
-      for (let j = 0; j < i; j++) acc += alpha[i][j] * kc[j];
-      p *= acc;
-    }
-    k[i] = p;
-  }
-  if (gamma && t.length === 1) {
-    for (let i = 0; i < s; i++) {
-      let acc = 0;
-      for (let j = 0; j <= i; j++) acc += gamma[i][j] * children[0][j];
-      k[i] += acc;
-    }
-  }
-  return k;
-}
-
-const dot = (a: readonly number[], b: readonly number[]) => a.reduce((s, v, i) => s + v * b[i], 0);
-
-/** Largest |Σ w_i κ_i(t) - θ^|t|/γ(t)| over the trees with exactly `order` vertices. */
-function defect(order: number, w: readonly number[], alpha: number[][], gamma: number[][] | null, theta = 1): number {
-  let worst = 0;
-  for (const t of TREES[order - 1]) {
-    const exact = theta ** size(t) / density(t);
-    worst = Math.max(worst, Math.abs(dot(w, stageWeights(t, alpha, gamma)) - exact));
-  }
-  return worst;
-}
-
-function square(tab: ButcherTableau): number[][] {
-  const s = tab.c.length;
-  return tab.a.map((row) => Array.from({ length: s }, (_, j) => row[j] ?? 0));
-}
+import { TREES, defect, dot, square } from './rooted-trees.ts';
 
 describe('rooted trees', () => {
-  it('there are 1, 1, 2, 4, 9 rooted trees with 1..5 vertices (OEIS A000081)', () => {
-    assert.deepEqual(TREES.map((l) => l.length), [1, 1, 2, 4, 9]);
+  it('there are 1, 1, 2, 4, 9, 20, 48, 115 rooted trees with 1..8 vertices (OEIS A000081)', () => {
+    assert.deepEqual(TREES.map((l) => l.length), [1, 1, 2, 4, 9, 20, 48, 115]);
   });
 });
 

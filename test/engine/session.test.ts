@@ -1,9 +1,9 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
-import { openStudy, runStudy, type CellReport, type Report, type StudySession } from '../../src/index.ts';
+import { openStudy, runStudy, type Report, type StudySession } from '../../src/index.ts';
 import { migrate } from '../../src/study/migrate.ts';
-import { near } from './helpers.ts';
+import { near, reportOf, cell } from './helpers.ts';
 
 const example = (name: string) => JSON.parse(readFileSync(new URL(`../../examples/${name}`, import.meta.url), 'utf8'));
 
@@ -11,17 +11,6 @@ function study(cells: unknown[]) {
   return { format: 'ratebook-study', version: 1, title: 'test', cells };
 }
 
-function reportOf(doc: unknown): Report {
-  const r = runStudy(doc);
-  assert.ok(r.ok, r.ok ? '' : r.error.message);
-  return r.report;
-}
-
-function cell(report: Report, id: string): CellReport {
-  const c = report.cells.find((x) => x.id === id);
-  assert.ok(c, `no cell ${id}`);
-  return c;
-}
 
 function values(report: Report, id: string): Record<string, { value: number; unit: string; si: number }> {
   return cell(report, id).values as Record<string, { value: number; unit: string; si: number }>;
@@ -78,8 +67,12 @@ describe('a study with inputs in mixed units', () => {
     assert.equal((c.rateAtStart as { unit: string }).unit, 'degC / h');
   });
 
-  it('lists names that hide units as warnings', () => {
-    assert.ok(report.warnings.some((w) => w.includes('"T"') && w.includes('hides the unit')));
+  it('lists names that hide the trades\' units as warnings, and not a state T (tesla)', () => {
+    assert.ok(!report.warnings.some((w) => w.includes('"T"')), JSON.stringify(report.warnings));
+    const doc = example('mixed-units-prep.ratebook.json');
+    doc.cells.push({ id: 'fall', kind: 'parameters', items: [{ name: 'g', value: '9.81 m / s^2' }] });
+    const r = reportOf(doc);
+    assert.ok(r.warnings.some((w) => w.includes('"g"') && w.includes('hides the unit g')), JSON.stringify(r.warnings));
   });
 });
 
@@ -158,11 +151,11 @@ describe('errors land on the right cell with their path', () => {
 
   it('a state or t used in a parameter is refused with the reason', () => {
     const r = reportOf(study([
-      { id: 'law', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-C / (2 h)', initial: '5 mg / L' },
-      { id: 'p', kind: 'parameters', items: [{ name: 'x', value: 'C * 2' }, { name: 'y', value: 't + 1 h' }] },
+      { id: 'law', kind: 'rate', state: 'conc', unit: 'mg / L', rate: '-conc / (2 h)', initial: '5 mg / L' },
+      { id: 'p', kind: 'parameters', items: [{ name: 'x', value: 'conc * 2' }, { name: 'y', value: 't + 1 h' }] },
     ]));
     const errors = cell(r, 'p').errors!;
-    assert.match(errors[0].message, /"C" is the state of rate cell "law"/);
+    assert.match(errors[0].message, /"conc" is the state of rate cell "law"/);
     assert.match(errors[1].message, /"t" is time/);
   });
 

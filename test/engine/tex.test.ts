@@ -43,6 +43,20 @@ describe('TeX of expressions', () => {
   });
 });
 
+describe('TeX of a study', () => {
+  it('a state h is the state in its rate law and the hour in a parameter value', () => {
+    const r = runStudy({ format: 'ratebook-study', version: 1, title: 'tank', cells: [
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.9 / h' }] },
+      { id: 'tank', kind: 'rate', state: 'h', unit: 'm', rate: '-k * h', initial: '1 m' },
+    ] });
+    assert.ok(r.ok);
+    if (!r.ok) return;
+    const [p, tank] = r.report.cells;
+    assert.equal((p.tex as Record<string, ItemTex>).k.value, '\\frac{0.9}{\\mathrm{h}}');
+    assert.equal(tank.tex, '\\frac{\\mathrm{d}h}{\\mathrm{d}t} = -k h');
+  });
+});
+
 describe('TeX of every template', () => {
   const dir = new URL('../../examples/', import.meta.url);
   for (const f of readdirSync(dir).filter((x) => x.endsWith('.ratebook.json'))) {

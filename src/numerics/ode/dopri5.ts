@@ -11,12 +11,13 @@
  *   sec. II.6 (after Shampine 1986 and Dormand & Prince 1986), one `Dopri5Segment` per step.
  * - Stiffness detection: Hairer & Wanner, Solving ODEs II, sec. IV.2 ("Automatic stiffness
  *   detection"): h·λ is estimated from the last two stages, which share the point t + h.
+ *
+ * The step loop and the stiffness test are shared with dp853 (`embedded-rk.ts`); this file
+ * holds the pair: coefficients, error norm, dense output and constants.
  */
-import {
-  type OdeContext, type StepOutcome, type Stepper,
-  NonFiniteMark, collapseFailure, errorNorm, failure, initialStep, minStep, nonFiniteStatus, spendAttempt, trialStep,
-} from './control.ts';
-import { type ButcherTableau, RkWork, rkStep } from './explicit-rk.ts';
+import { type OdeContext, errorNorm } from './control.ts';
+import { type EmbeddedPair, EmbeddedRkStepper } from './embedded-rk.ts';
+import { type ButcherTableau, stageValuesOnMode } from './explicit-rk.ts';
 import type { DenseSegment } from './types.ts';
 import { writeStepEnd } from './types.ts';
 
@@ -101,16 +102,8 @@ export const DOPRI5_STIFFNESS = {
  * stage values K_i(z) of the method (their Taylor series starts at z^5).
  */
 export function dopri5ErrorOnMode(z: number): number {
-  const { a } = DOPRI5;
-  const K: number[] = [];
-  let err = 0;
-  for (let i = 0; i < 7; i++) {
-    let v = 1;
-    for (let j = 0; j < i; j++) v += z * a[i][j] * K[j];
-    K.push(v);
-    err += DOPRI5_E[i] * v;
-  }
-  return Math.abs(z * err);
+  const K = stageValuesOnMode(DOPRI5.a, 7, z);
+  return Math.abs(z * K.reduce((acc, v, i) => acc + DOPRI5_E[i] * v, 0));
 }
 
 /** The leading coefficient C of the estimate on a mode, |E(z)| ≈ C·|z|^5 for small z. */
@@ -144,7 +137,7 @@ export class Dopri5Segment implements DenseSegment {
   }
 }
 
-function denseSegment(t0: number, t1: number, h: number, y0: Float64Array, y1: Float64Array, k: Float64Array[]): Dopri5Segment {
+function denseSegment(t0: number, t1: number, h: number, y0: Float64Array, y1: Float64Array, k: readonly Float64Array[]): Dopri5Segment {
   const n = y0.length;
   const data = new Float64Array(5 * n);
   const d = DOPRI5_DENSE;
@@ -163,125 +156,31 @@ function denseSegment(t0: number, t1: number, h: number, y0: Float64Array, y1: F
   return new Dopri5Segment(t0, t1, h, n, data);
 }
 
-/** Adaptive Dormand–Prince stepper. */
-export class Dopri5Stepper implements Stepper {
-  t: number;
-  readonly y: Float64Array;
-  h = NaN;
-  /** Time of the step at which stiffness was first reported, or null. */
-  stiffAt: number | null = null;
-
-  private readonly work: RkWork;
-  private readonly yNew: Float64Array;
-  private readonly err: Float64Array;
-  private readonly mark: NonFiniteMark;
-  private started = false;
-  private errOld: number = DOPRI5_CONTROL.errFloor;
-  private stiffSignals = 0;
-  private calmTests = 0;
-  /** h|λ| above which a step counts as a sign of stiffness (see `DOPRI5_STIFFNESS`). */
-  private readonly stiffThreshold: number;
-
-  constructor(private readonly ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number) {
-    this.t = t0;
-    this.y = Float64Array.from(y0);
-    this.work = new RkWork(ctx.n, 7);
-    this.yNew = new Float64Array(ctx.n);
-    this.err = new Float64Array(ctx.n);
-    this.mark = new NonFiniteMark(ctx.n);
-    if (firstStep !== undefined) this.h = firstStep;
-    const S = DOPRI5_STIFFNESS;
-    this.stiffThreshold = Math.min(S.threshold, S.activeModeMultiple * activeModeHLambda(ctx.options.rtol));
-  }
-
-  step(tEnd: number): StepOutcome {
-    const { ctx, work, y, yNew, err } = this;
-    const k = work.k;
-    const C = DOPRI5_CONTROL;
-    if (!this.started) {
-      if (!ctx.rhs.call(this.t, y, k[0])) return failure(nonFiniteStatus(ctx, y, y, k[0]), this.t, y);
-      if (Number.isNaN(this.h)) this.h = initialStep(ctx, this.t, y, k[0], tEnd, 4);
-      this.started = true;
+/** The Dormand–Prince 5(4) pair for the shared adaptive stepper. */
+export const DOPRI5_PAIR: EmbeddedPair = {
+  tableau: DOPRI5,
+  c: DOPRI5.c,
+  a: DOPRI5.a,
+  newRateStage: 6,
+  startOrder: 4,
+  control: DOPRI5_CONTROL,
+  stiffness: { ...DOPRI5_STIFFNESS, stages: [6, 5] },
+  activeModeHLambda,
+  errorNorm(h: number, k: readonly Float64Array[], y: Float64Array, yNew: Float64Array, ctx: OdeContext, err: Float64Array): number {
+    const e = DOPRI5_E;
+    for (let i = 0; i < ctx.n; i++) {
+      let acc = 0;
+      for (let j = 0; j < 7; j++) acc += e[j] * k[j][i];
+      err[i] = h * acc;
     }
-    this.mark.clear();
-    let rejected = false;
-    for (;;) {
-      const budget = spendAttempt(ctx, this.t, y);
-      if (budget) return budget;
-      const t = this.t;
-      const trial = trialStep(t, this.h, tEnd, ctx.options.maxStep);
-      const tNew = trial.last ? tEnd : t + trial.h;
-      const h = tNew - t;
-      const bad = rkStep(DOPRI5, ctx.rhs, t, y, h, work, yNew, tNew);
-      if (bad >= 0) {
-        this.mark.set(ctx, t + DOPRI5.c[bad] * h, y, work.arg, k[bad]);
-        ctx.counters.rejected++;
-        rejected = true;
-        this.h = h * C.nonFiniteShrink;
-        if (this.h < minStep(t)) return collapseFailure(ctx, t, y, k[0], this.mark);
-        continue;
-      }
-      const e = DOPRI5_E;
-      for (let i = 0; i < ctx.n; i++) {
-        let acc = 0;
-        for (let j = 0; j < 7; j++) acc += e[j] * k[j][i];
-        err[i] = h * acc;
-      }
-      const norm = errorNorm(err, y, yNew, ctx.options);
-      if (norm <= 1) {
-        const segment = denseSegment(t, tNew, h, y, yNew, k);
-        this.detectStiffness(h, tNew);
-        let factor = norm === 0 ? C.maxFactor : C.safety * Math.pow(norm, -C.alpha) * Math.pow(this.errOld, C.beta);
-        factor = Math.min(rejected ? 1 : C.maxFactor, Math.max(C.minFactor, factor));
-        this.errOld = Math.max(norm, C.errFloor);
-        // A last step cut short to land on tEnd says little about longer steps: a restart
-        // from here keeps at least the step that was planned before the cut.
-        const planned = Math.min(this.h, ctx.options.maxStep);
-        this.h = trial.last ? Math.max(h * factor, planned) : h * factor;
-        this.t = tNew;
-        y.set(yNew);
-        k[0].set(k[6]);
-        ctx.counters.steps++;
-        return { ok: true, segment };
-      }
-      ctx.counters.rejected++;
-      rejected = true;
-      this.mark.clear();
-      const factor = Number.isFinite(norm) ? Math.max(C.minFactor, C.safety * Math.pow(norm, -C.rejectExponent)) : C.minFactor;
-      this.h = h * factor;
-      if (this.h < minStep(t)) return collapseFailure(ctx, t, y, k[0], this.mark);
-    }
-  }
+    return errorNorm(err, y, yNew, ctx.options);
+  },
+  segment: denseSegment,
+};
 
-  /**
-   * h·λ ≈ h·|k7 - k6| / |y(t+h) - y6|: stages 6 and 7 are both at t + h, so their rates
-   * differ by about J·(difference of their arguments). Stiffness is reported after
-   * `DOPRI5_STIFFNESS.signals` tests above the stability threshold.
-   */
-  private detectStiffness(h: number, tNew: number): void {
-    const k = this.work.k;
-    const a6 = DOPRI5.a[5];
-    const a7 = DOPRI5.a[6];
-    let num = 0;
-    let den = 0;
-    for (let i = 0; i < this.ctx.n; i++) {
-      const dk = k[6][i] - k[5][i];
-      let dy = 0;
-      for (let j = 0; j < 6; j++) dy += (a7[j] - (a6[j] ?? 0)) * k[j][i];
-      dy *= h;
-      num += dk * dk;
-      den += dy * dy;
-    }
-    if (den <= 0) return;
-    const hLambda = h * Math.sqrt(num / den);
-    const S = DOPRI5_STIFFNESS;
-    if (hLambda > this.stiffThreshold) {
-      this.calmTests = 0;
-      this.stiffSignals++;
-      if (this.stiffSignals >= S.signals && this.stiffAt === null) this.stiffAt = tNew;
-    } else {
-      this.calmTests++;
-      if (this.calmTests >= S.reset) this.stiffSignals = 0;
-    }
+/** Adaptive Dormand–Prince 5(4) stepper (stiffness reported in `stiffAt`). */
+export class Dopri5Stepper extends EmbeddedRkStepper {
+  constructor(ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number) {
+    super(DOPRI5_PAIR, ctx, t0, y0, firstStep);
   }
 }

@@ -37,6 +37,20 @@ export const RK4: ButcherTableau = {
   fsal: false,
 };
 
+/**
+ * The stage values K_i(z) of the rows `a` (first `stages` of them) on y' = λy from y = 1 with
+ * z = hλ real: K_i = 1 + z Σ_{j<i} a_ij K_j. For stability and error-on-a-mode analyses.
+ */
+export function stageValuesOnMode(a: readonly (readonly number[])[], stages: number, z: number): number[] {
+  const K: number[] = [];
+  for (let i = 0; i < stages; i++) {
+    let v = 1;
+    for (let j = 0; j < i; j++) v += z * a[i][j] * K[j];
+    K.push(v);
+  }
+  return K;
+}
+
 /** Work arrays for `rkStep`: the stage derivatives k[i] and the current stage argument. */
 export class RkWork {
   readonly k: Float64Array[];
@@ -45,6 +59,31 @@ export class RkWork {
     this.k = Array.from({ length: stages }, () => new Float64Array(n));
     this.arg = new Float64Array(n);
   }
+}
+
+/**
+ * Evaluates stages `from` … `to - 1` of the rows (c, a) from (t, y) with step h: k[i] =
+ * f(t + c_i h, y + h Σ_{j<i} a_ij k_j), the earlier k already in `work.k`. Stages with c_i = 1
+ * are evaluated at `tNew`. Returns -1 on success, else the index of the first stage whose f
+ * was not finite (its state is then in `work.arg`, its rate in `work.k[index]`). Costs
+ * to - from evaluations.
+ */
+export function rkStages(
+  c: readonly number[], a: readonly (readonly number[])[], from: number, to: number,
+  rhs: Evaluator, t: number, y: Float64Array, h: number, work: RkWork, tNew: number,
+): number {
+  const n = y.length;
+  const { k, arg } = work;
+  for (let i = from; i < to; i++) {
+    const row = a[i];
+    for (let m = 0; m < n; m++) {
+      let acc = 0;
+      for (let j = 0; j < i; j++) acc += row[j] * k[j][m];
+      arg[m] = y[m] + h * acc;
+    }
+    if (!rhs.call(c[i] === 1 ? tNew : t + c[i] * h, arg, k[i])) return i;
+  }
+  return -1;
 }
 
 /**
@@ -59,24 +98,16 @@ export function rkStep(
   tab: ButcherTableau, rhs: Evaluator, t: number, y: Float64Array, h: number, work: RkWork, yNew: Float64Array,
   tNew = t + h,
 ): number {
-  const { c, a } = tab;
-  const s = c.length;
-  const n = y.length;
-  const { k, arg } = work;
-  for (let i = 1; i < s; i++) {
-    const row = a[i];
-    for (let m = 0; m < n; m++) {
-      let acc = 0;
-      for (let j = 0; j < i; j++) acc += row[j] * k[j][m];
-      arg[m] = y[m] + h * acc;
-    }
-    if (!rhs.call(c[i] === 1 ? tNew : t + c[i] * h, arg, k[i])) return i;
-  }
+  const s = tab.c.length;
+  const bad = rkStages(tab.c, tab.a, 1, s, rhs, t, y, h, work, tNew);
+  if (bad >= 0) return bad;
   if (tab.fsal) {
-    yNew.set(arg);
+    yNew.set(work.arg);
     return -1;
   }
-  const b = tab.b;
+  const { b } = tab;
+  const { k } = work;
+  const n = y.length;
   for (let m = 0; m < n; m++) {
     let acc = 0;
     for (let j = 0; j < s; j++) acc += b[j] * k[j][m];
