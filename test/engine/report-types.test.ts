@@ -69,7 +69,7 @@ check<Equals<keyof Unfinished, 'computed' | 'message'>>();
 /** Every field of every kind, as the JSON report may carry it. */
 const DECLARED = {
   parameters: ['values', 'tex'],
-  rate: ['state', 'unit', 'initial', 'rateAtStart', 'warning', 'tex'],
+  rate: ['state', 'unit', 'originalUnit', 'initial', 'rateAtStart', 'warning', 'tex'],
   phase: ['equilibria', 'intervals', 'poles', 'jumps', 'gaps', 'zeroIntervals', 'evaluations', 'notes', 'plot', 'summary', 'sweep'],
   simulate: ['method', 'steps', 'evaluations', 'results', 'closedForm', 'series', 'summary', 'questions', 'plot', 'schedule', 'switchedToStiff', 'note'],
   data: ['columns', 'rowCount', 'missing', 'note', 'csv'],
