@@ -66,6 +66,20 @@ void [badResult, badEstimates, badOutput];
 check<Equals<keyof CellFields, CellKind>>();
 check<Equals<keyof Unfinished, 'computed' | 'message'>>();
 
+/** Every field of every kind, as the JSON report may carry it. */
+const DECLARED = {
+  parameters: ['values', 'tex'],
+  rate: ['state', 'unit', 'originalUnit', 'initial', 'rateAtStart', 'warning', 'tex'],
+  phase: ['equilibria', 'intervals', 'poles', 'jumps', 'gaps', 'zeroIntervals', 'evaluations', 'notes', 'plot', 'summary', 'sweep'],
+  simulate: ['method', 'steps', 'evaluations', 'results', 'closedForm', 'series', 'summary', 'questions', 'plot', 'schedule', 'switchedToStiff', 'note'],
+  data: ['columns', 'rowCount', 'missing', 'note', 'csv'],
+  fit: ['estimates', 'residualSD', 'n', 'dof', 'iterations', 'evaluations', 'converged', 'message', 'correlation', 'warnings', 'residuals', 'summary', 'plot'],
+  nca: ['values', 'pointsUsed', 'note', 'warnings'],
+  note: [],
+} as const satisfies { [K in CellKind]: ReadonlyArray<keyof CellFields[K]> };
+// the list above names every field the types declare (a field added to a kind must be added there)
+check<Equals<{ [K in CellKind]: Exclude<keyof CellFields[K], (typeof DECLARED)[K][number]> }[CellKind], never>>();
+
 const STUDY = {
   format: 'ratebook-study', version: 1, title: 'every kind',
   cells: [
@@ -102,19 +116,9 @@ describe('the typed report', () => {
     const r = runStudy(STUDY);
     assert.ok(r.ok);
     if (!r.ok) return;
-    const declared: { [K in CellKind]: ReadonlyArray<keyof CellFields[K]> } = {
-      parameters: ['values', 'tex'],
-      rate: ['state', 'unit', 'initial', 'rateAtStart', 'warning', 'tex'],
-      phase: ['equilibria', 'intervals', 'poles', 'jumps', 'gaps', 'zeroIntervals', 'evaluations', 'notes', 'plot', 'summary', 'sweep'],
-      simulate: ['method', 'steps', 'evaluations', 'results', 'closedForm', 'series', 'summary', 'questions', 'plot', 'switchedToStiff', 'note', 'schedule'],
-      data: ['columns', 'rowCount', 'missing', 'note', 'csv'],
-      fit: ['estimates', 'residualSD', 'n', 'dof', 'iterations', 'evaluations', 'converged', 'message', 'correlation', 'warnings', 'residuals', 'summary', 'plot'],
-      nca: ['values', 'pointsUsed', 'note', 'warnings'],
-      note: [],
-    };
     const common = ['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn', 'computed', 'message'];
     for (const c of r.report.cells) {
-      const extra = Object.keys(c).filter((k) => !common.includes(k) && !(declared[c.kind] as readonly string[]).includes(k));
+      const extra = Object.keys(c).filter((k) => !common.includes(k) && !(DECLARED[c.kind] as readonly string[]).includes(k));
       assert.deepEqual(extra, [], `${c.id} (${c.kind})`);
     }
   });
