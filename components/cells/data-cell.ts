@@ -43,10 +43,10 @@ export class DataCellElement extends CellElement<'data'> {
     return html`
       ${c.csv !== undefined ? this.csvView(claims) : html`
         <div class="scroll"><table class="grid">
-          <thead><tr><th></th>${columns.map((col, j) => html`<th>
+          <thead><tr><th><span class="sr">Row</span></th>${columns.map((col, j) => html`<th>
             <input type="text" aria-label="Name of column ${j + 1}" .value=${col.name ?? ''} @change=${(e: Event) => this.setColumn(j, { name: (e.target as HTMLInputElement).value })} />
             <input type="text" aria-label="Unit of column ${col.name}" .value=${col.unit ?? ''} @change=${(e: Event) => this.setColumn(j, { unit: (e.target as HTMLInputElement).value })} />
-            ${claims.take(`.columns[${j}].unit`) ? html`<div class="foot-error">${claims.take(`.columns[${j}].unit`)!.message}</div>` : nothing}</th>`)}<th></th></tr></thead>
+            ${claims.take(`.columns[${j}].unit`) ? html`<div class="foot-error">${claims.take(`.columns[${j}].unit`)!.message}</div>` : nothing}</th>`)}<th><span class="sr">Delete</span></th></tr></thead>
           <tbody>${(c.rows ?? []).map((row, r) => html`<tr class=${flagged.has(r) ? 'flagged' : ''} title=${flagged.get(r) ?? ''}>
             <td class="muted">${r + 1}</td>
             ${columns.map((col, j) => html`<td><input type="text" inputmode="decimal" aria-label="Row ${r + 1}, ${col.name}" .value=${show(row[j] as Entry)}

@@ -18,7 +18,7 @@ export class PhaseCellElement extends CellElement<'phase'> {
     const sw = c.sweep;
     return html`
       <div class="row">
-        <label>Law <select .value=${c.rate ?? ''} @change=${(e: Event) => this.edit({ rate: (e.target as HTMLSelectElement).value })}>
+        <label>Law <select aria-label="Law of the phase line" .value=${c.rate ?? ''} @change=${(e: Event) => this.edit({ rate: (e.target as HTMLSelectElement).value })}>
           ${rateCells.map((id) => html`<option value=${id} ?selected=${id === c.rate}>${id}</option>`)}</select></label>
         <span class="lbl">From</span>
         <expr-field style="flex: 0 1 9rem" label="Lower end of the range" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
@@ -37,7 +37,7 @@ export class PhaseCellElement extends CellElement<'phase'> {
           <span class="lbl">to</span>
           <expr-field style="flex: 0 1 8rem" label="Sweep end" .value=${sw.to ?? ''} .names=${names} .error=${claims.take('.sweep.to')}
             @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ sweep: { ...sw, to: e.detail.value } }, 'sto')}></expr-field>
-          <label>steps <input type="number" class="count" min="2" max="10000" .value=${String(sw.steps ?? 61)}
+          <label>steps <input type="number" class="count" aria-label="Steps of the sweep" min="2" max="10000" .value=${String(sw.steps ?? 61)}
             @input=${(e: Event) => this.edit({ sweep: { ...sw, steps: Math.max(2, Math.min(10000, Math.trunc(Number((e.target as HTMLInputElement).value)) || 2)) } }, 'ssteps')} /></label>` : nothing}
       </div>
       ${this.report?.ok && this.report.plot ? html`

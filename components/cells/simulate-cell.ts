@@ -84,7 +84,7 @@ export class SimulateCellElement extends CellElement<'simulate'> {
   private eventsTable(claims: ErrorClaims, names: StudyName[]) {
     const events = this.cell.events ?? [];
     return html`<div class="scroll"><table class="events">
-      ${events.length ? html`<thead><tr><th>At</th><th>Every</th><th>Times</th><th>Action</th><th>On</th><th>Amount</th><th>For</th><th></th></tr></thead>` : nothing}
+      ${events.length ? html`<thead><tr><th>At</th><th>Every</th><th>Times</th><th>Action</th><th>On</th><th>Amount</th><th>For</th><th><span class="sr">Remove</span></th></tr></thead>` : nothing}
       <tbody>${events.map((ev, i) => {
         const kind = eventActionOf(ev);
         const [target, amount] = eventTarget(ev);
@@ -107,7 +107,7 @@ export class SimulateCellElement extends CellElement<'simulate'> {
   private findTable(claims: ErrorClaims, names: StudyName[], results: Record<string, FindResult>) {
     const finds = this.cell.find ?? [];
     return html`<div class="scroll"><table class="finds">
-      ${finds.length ? html`<thead><tr><th>Name</th><th>Question</th><th>Of</th><th>Level or time</th><th>Answer</th><th></th></tr></thead>` : nothing}
+      ${finds.length ? html`<thead><tr><th>Name</th><th>Question</th><th>Of</th><th>Level or time</th><th>Answer</th><th><span class="sr">Remove</span></th></tr></thead>` : nothing}
       <tbody>${finds.map((f, i) => {
         const kind = findKindOf(f);
         const needsLevel = usesLevel(kind);

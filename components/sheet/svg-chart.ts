@@ -2,7 +2,8 @@
  * A static line chart drawn as SVG for the printed sheet: vector lines and text, so it is
  * sharp at any print resolution, and no canvas or script is needed once drawn. Axes with
  * round ticks, curves (gaps where a value is null), measured points, dashed levels, event
- * times and labelled marks. Shows what it is given; it computes nothing but the layout.
+ * times and labelled marks. Shows what it is given; it computes nothing but the layout. The
+ * chart is an image named by its `label` (aria-label and <title>), the engine's summary.
  */
 import { svg, type SVGTemplateResult } from 'lit';
 import { tickLabels } from '../plots/axes.ts';
@@ -17,6 +18,8 @@ export interface ChartLine {
 }
 export interface ChartPoints { readonly label: string; readonly x: readonly number[]; readonly y: readonly number[]; readonly axis?: 0 | 1; readonly colourOf?: number }
 export interface ChartSpec {
+  /** The chart's text alternative (the engine's summary of what it shows): its name and its title. */
+  readonly label: string;
   readonly xLabel: string;
   /** One label per y axis: a second axis on the right when there are two. */
   readonly yLabels: readonly string[];
@@ -98,7 +101,8 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const yLabels = yr.map((r) => tickLabels(r.ticks, r.step));
   const listed = spec.lines.map((l, i) => ({ l, i })).filter(({ l }) => !l.unlisted);
   const legend = listed.length > 1 || (spec.points ?? []).length > 0;
-  return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height + (legend ? 18 : 0)}" width="${width}" height="${height + (legend ? 18 : 0)}" font-family="sans-serif" font-size="${FONT}" role="img">
+  return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height + (legend ? 18 : 0)}" width="${width}" height="${height + (legend ? 18 : 0)}" font-family="sans-serif" font-size="${FONT}" role="img" aria-label=${spec.label}>
+    <title>${spec.label}</title>
     <g stroke="#d5dbe0" stroke-width="0.6">
       ${xr.ticks.map((v) => svg`<line x1=${X(v)} x2=${X(v)} y1=${top} y2=${top + ph} />`)}
       ${yr[0].ticks.map((v) => svg`<line x1=${left} x2=${left + pw} y1=${Y(v)} y2=${Y(v)} />`)}
