@@ -1,5 +1,5 @@
 import { html, nothing, css } from 'lit';
-import type { ClosedFormReport, FindResult, SimulationPlot } from '../../src/index.ts';
+import type { ClosedFormReport, FindResult, PlotScale, SimulationPlot } from '../../src/index.ts';
 import { cellStyles, footError, showQ, type ErrorClaims } from './common.ts';
 import type { StudyName } from '../expr-field.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
@@ -8,6 +8,7 @@ import '../expr-field.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
 import '../plots/time-plot.ts';
+import type { PlotScaleEvent } from '../plots/time-plot.ts';
 import {
   FIND_KINDS, findKindOf, needsLevel as usesLevel, switchFind, withFindState, withFindUnit, freshFindName,
   EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, switchAction, withEventField,
@@ -72,13 +73,27 @@ export class SimulateCellElement extends CellElement<'simulate'> {
         <summary>Questions (${(c.find ?? []).length})</summary>
         ${this.findTable(claims, names, results)}
       </details>
+      ${this.plotScaleError(claims.take('.plotScale'))}
       ${this.report?.ok && plot ? html`
-        <time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${this.report.summary ?? ''}></time-plot>
+        <time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${this.report.summary ?? ''} .scale=${c.plotScale === 'log' ? 'log' : 'linear'} scaleToggle
+          @plot-scale=${(e: PlotScaleEvent) => this.setPlotScale(e.detail.scale)}></time-plot>
         <div class="row">${this.report.note ? html`<span class="muted">${this.report.note}</span>` : nothing}
           <span class="muted">${this.report.method}: ${this.report.steps} steps, ${this.report.evaluations} evaluations of the rates</span>
           <button @click=${() => this.downloadCsv(plot)}>Export the series as CSV</button></div>
         ${this.closedForm(this.report.closedForm)}` : nothing}
       ${this.footErrors()}`;
+  }
+
+  /** A stored axis choice that is neither linear nor log: the message, and the two choices to pick from. */
+  private plotScaleError(error: { message: string } | undefined) {
+    return error ? html`<p class="foot-error">Plot scale: ${error.message}
+      <button @click=${() => this.setPlotScale('linear')}>Draw it on a linear axis</button> <button @click=${() => this.setPlotScale('log')}>Draw it on a log axis</button></p>` : nothing;
+  }
+
+  /** The plot's axis choice, stored in the cell (no field for linear, the default), one undo step. */
+  private setPlotScale(scale: PlotScale): void {
+    const { plotScale: _old, ...rest } = this.cell;
+    this.replace(scale === 'log' ? { ...rest, plotScale: 'log' } : rest);
   }
 
   private eventsTable(claims: ErrorClaims, names: StudyName[]) {

@@ -9,6 +9,7 @@ import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
 import { STABLE, UNSTABLE } from '../plots/palette.ts';
+import { leftOffLog } from '../plots/time-plot-parts.ts';
 import { math } from './math.ts';
 
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
@@ -142,7 +143,7 @@ function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>): TemplateResult
     ${events.length ? html`<table><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e, i) => html`<tr>
       <td>${e.at}</td><td>${schedule[i]?.repeats ?? ''}</td>
       <td>${e.add ? `add ${Object.entries(e.add).map(([k, v]) => `${v} to ${k}`).join(', ')}` : e.set ? `set ${Object.entries(e.set).map(([k, v]) => `${k} = ${v}`).join(', ')}` : e.infuse ? `infuse ${Object.entries(e.infuse).map(([k, v]) => `${v} into ${k}`).join(', ')} for ${e.for}` : ''}</td></tr>`)}</tbody></table>` : nothing}
-    <div class="keep">${plot ? timeChart(plot, r.summary) : nothing}
+    <div class="keep">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log') : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
     ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
       <td class="name">${f.name}</td><td>${questions[f.name] ?? ''}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
@@ -154,12 +155,14 @@ function summaryOr(summary: unknown, fallback: string): string {
   return typeof summary === 'string' && summary ? summary : fallback;
 }
 
-function timeChart(plot: SimulationPlot, summary: unknown): TemplateResult {
+/** A run's chart; with `log`, on log axes, with a note of each state's values that cannot be drawn there. */
+function timeChart(plot: SimulationPlot, summary: unknown, log = false): TemplateResult {
   const units = [...new Set(plot.states.map((s) => s.unit))].slice(0, 2);
   const axisOf = (state: string) => (units.indexOf(plot.states.find((s) => s.name === state)?.unit ?? '') === 1 ? 1 : 0);
   const shown = plot.states.filter((s) => units.includes(s.unit));
   const points: ChartPoints[] = (plot.points ?? []).map((p) => ({ label: `${p.state} measured`, x: p.t, y: p.values, axis: axisOf(p.state), colourOf: shown.findIndex((s) => s.name === p.state) }));
   return html`<figure>${lineChart({
+    logY: log,
     label: summaryOr(summary, `${shown.map((s) => s.name).join(', ')} against time`),
     xLabel: `time (${plot.timeUnit})`,
     yLabels: units.map((u) => `${shown.filter((s) => s.unit === u).map((s) => s.name).join(', ')} (${u})`),
@@ -168,7 +171,7 @@ function timeChart(plot: SimulationPlot, summary: unknown): TemplateResult {
     levels: plot.levels.map((l) => ({ y: l.value, label: l.label, axis: axisOf(l.state) })),
     events: plot.events.map((e) => ({ x: e.time, label: e.label })),
     marks: plot.marks.map((m) => ({ x: m.time, y: m.value, label: m.name, axis: axisOf(m.state) })),
-  })}</figure>`;
+  })}${log ? html`<figcaption>States on a logarithmic axis.${leftOffLog(plot, plot.points ?? []).map((t) => html` ${t}`)}</figcaption>` : nothing}</figure>`;
 }
 
 function data(cell: Of<'data'>, r: ReportOf<'data'>): TemplateResult {

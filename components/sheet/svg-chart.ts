@@ -6,6 +6,7 @@
  * chart is an image named by its `label` (aria-label and <title>), the engine's summary.
  */
 import { svg, type SVGTemplateResult } from 'lit';
+import { formatNumber } from '../../src/index.ts';
 import { tickLabels } from '../plots/axes.ts';
 import { INK, seriesColour } from '../plots/palette.ts';
 
@@ -28,6 +29,11 @@ export interface ChartSpec {
   readonly levels?: ReadonlyArray<{ readonly y: number; readonly label: string; readonly axis?: 0 | 1 }>;
   readonly events?: ReadonlyArray<{ readonly x: number; readonly label: string }>;
   readonly marks?: ReadonlyArray<{ readonly x: number; readonly y: number; readonly label: string; readonly axis?: 0 | 1 }>;
+  /**
+   * The y axes logarithmic (base 10): values at or below zero have no place there and are
+   * left out of the drawing (the caller says so beside the chart).
+   */
+  readonly logY?: boolean;
   /** A horizontal line at zero (the rate in a phase plot). */
   readonly zeroLine?: boolean;
   readonly width?: number;
@@ -67,6 +73,26 @@ function axisRange(lo: number, hi: number): { lo: number; hi: number; ticks: num
   return b > a ? { lo: a, hi: b, ticks: ticks.filter((v) => v >= a - step * 1e-9 && v <= b + step * 1e-9), step } : { lo: a - step, hi: a + step, ticks: [a - step, a, a + step], step };
 }
 
+/** A y axis: its ticks with their labels, and where a value sits on it (0 bottom, 1 top; null: nowhere). */
+interface YAxis { readonly ticks: number[]; readonly labels: string[]; readonly at: (v: number) => number | null }
+
+function linearAxis(values: Array<number | null>): YAxis {
+  const r = axisRange(...extent(values));
+  return { ticks: r.ticks, labels: tickLabels(r.ticks, r.step), at: (v) => (v - r.lo) / (r.hi - r.lo) };
+}
+
+/** Whole decades around the positive values; ticks at powers of ten (every few when there are many), and at 2 and 5 times them over two decades or less. */
+function logAxis(values: Array<number | null>): YAxis {
+  const [lo, hi] = extent(values.filter((v) => v !== null && v > 0));
+  const a = Math.floor(Math.log10(lo) + 1e-9);
+  const b = Math.max(a + 1, Math.ceil(Math.log10(hi) - 1e-9));
+  const ticks: number[] = [];
+  // every decade up to 8 of them, else every few so that at most about 8 are labelled
+  const every = Math.ceil((b - a) / 8);
+  for (let e = a; e <= b; e += every) for (const m of b - a <= 2 ? [1, 2, 5] : [1]) if (e < b || m === 1) ticks.push(m * 10 ** e);
+  return { ticks, labels: ticks.map((v) => formatNumber(v, 3)), at: (v) => (v > 0 ? (Math.log10(v) - a) / (b - a) : null) };
+}
+
 export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const width = spec.width ?? 640;
   const height = spec.height ?? 250;
@@ -82,23 +108,25 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const yr = [0, 1].map((axis) => {
     const on = <T extends { axis?: 0 | 1 }>(list: readonly T[] | undefined) => (list ?? []).filter((l) => (l.axis ?? 0) === axis);
     const ys = [...on(spec.lines).flatMap((l) => l.y), ...on(spec.points).flatMap((p) => p.y), ...on(spec.levels).map((l) => l.y), ...(spec.zeroLine && axis === 0 ? [0] : [])];
-    return axisRange(...extent(ys));
+    return spec.logY ? logAxis(ys) : linearAxis(ys);
   });
   const X = (v: number) => left + ((v - xr.lo) / (xr.hi - xr.lo)) * pw;
-  const Y = (v: number, axis: 0 | 1 = 0) => top + ph - ((v - yr[axis].lo) / (yr[axis].hi - yr[axis].lo)) * ph;
+  /** NaN where the axis has no place for the value (at or below zero on a log axis). */
+  const Y = (v: number, axis: 0 | 1 = 0) => top + ph - (yr[axis].at(v) ?? NaN) * ph;
+  const placed = (v: number, axis: 0 | 1 = 0) => Number.isFinite(Y(v, axis));
   const path = (l: ChartLine) => {
     let d = '';
     let pen = false;
     for (let i = 0; i < l.x.length; i++) {
       const y = l.y[i];
-      if (y === null || !Number.isFinite(y) || !Number.isFinite(l.x[i])) { pen = false; continue; }
+      if (y === null || !Number.isFinite(y) || !Number.isFinite(l.x[i]) || !placed(y, l.axis ?? 0)) { pen = false; continue; }
       d += `${pen ? 'L' : 'M'}${X(l.x[i]).toFixed(1)},${Y(y, l.axis ?? 0).toFixed(1)}`;
       pen = true;
     }
     return d;
   };
   const xLabels = tickLabels(xr.ticks, xr.step);
-  const yLabels = yr.map((r) => tickLabels(r.ticks, r.step));
+  const yLabels = yr.map((r) => r.labels);
   const listed = spec.lines.map((l, i) => ({ l, i })).filter(({ l }) => !l.unlisted);
   const legend = listed.length > 1 || (spec.points ?? []).length > 0;
   return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height + (legend ? 18 : 0)}" width="${width}" height="${height + (legend ? 18 : 0)}" font-family="sans-serif" font-size="${FONT}" role="img" aria-label=${spec.label}>
@@ -108,7 +136,7 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
       ${yr[0].ticks.map((v) => svg`<line x1=${left} x2=${left + pw} y1=${Y(v)} y2=${Y(v)} />`)}
     </g>
     <rect x=${left} y=${top} width=${pw} height=${ph} fill="none" stroke=${INK} stroke-width="0.8" />
-    ${spec.zeroLine && yr[0].lo < 0 && yr[0].hi > 0 ? svg`<line x1=${left} x2=${left + pw} y1=${Y(0)} y2=${Y(0)} stroke=${INK} stroke-width="0.8" />` : ''}
+    ${spec.zeroLine && !spec.logY && (yr[0].at(0) ?? -1) > 0 && (yr[0].at(0) ?? 2) < 1 ? svg`<line x1=${left} x2=${left + pw} y1=${Y(0)} y2=${Y(0)} stroke=${INK} stroke-width="0.8" />` : ''}
     <g fill=${INK}>
       ${xr.ticks.map((v, i) => svg`<text x=${X(v)} y=${top + ph + 14} text-anchor="middle">${xLabels[i]}</text>`)}
       ${yr[0].ticks.map((v, i) => svg`<text x=${left - 5} y=${Y(v) + 4} text-anchor="end">${yLabels[0][i]}</text>`)}
@@ -118,11 +146,11 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
       ${twoAxes ? svg`<text transform="translate(${width - 8} ${top + ph / 2}) rotate(90)" text-anchor="middle">${spec.yLabels[1]}</text>` : ''}
     </g>
     ${(spec.events ?? []).map((e) => svg`<line x1=${X(e.x)} x2=${X(e.x)} y1=${top} y2=${top + ph} stroke="#7a5ba8" stroke-width="0.8" stroke-dasharray="2 3"><title>${e.label}</title></line>`)}
-    ${(spec.levels ?? []).map((l) => svg`<line x1=${left} x2=${left + pw} y1=${Y(l.y, l.axis ?? 0)} y2=${Y(l.y, l.axis ?? 0)} stroke="#555" stroke-width="0.8" stroke-dasharray="5 3" />
+    ${(spec.levels ?? []).filter((l) => placed(l.y, l.axis ?? 0)).map((l) => svg`<line x1=${left} x2=${left + pw} y1=${Y(l.y, l.axis ?? 0)} y2=${Y(l.y, l.axis ?? 0)} stroke="#555" stroke-width="0.8" stroke-dasharray="5 3" />
       <text x=${left + pw - 4} y=${Y(l.y, l.axis ?? 0) - 3} text-anchor="end" fill="#333" font-size="10">${l.label}</text>`)}
     ${spec.lines.map((l, i) => svg`<path d=${path(l)} fill="none" stroke=${l.colour ?? seriesColour(i)} stroke-width="1.6" stroke-linejoin="round" stroke-dasharray=${l.dashed ? '6 4' : 'none'} />`)}
-    ${(spec.points ?? []).map((p, i) => p.x.map((x, j) => svg`<circle cx=${X(x)} cy=${Y(p.y[j], p.axis ?? 0)} r="2.8" fill="#fff" stroke=${seriesColour(p.colourOf ?? i)} stroke-width="1.2" />`))}
-    ${(spec.marks ?? []).map((m) => {
+    ${(spec.points ?? []).map((p, i) => p.x.map((x, j) => !placed(p.y[j], p.axis ?? 0) ? '' : svg`<circle cx=${X(x)} cy=${Y(p.y[j], p.axis ?? 0)} r="2.8" fill="#fff" stroke=${seriesColour(p.colourOf ?? i)} stroke-width="1.2" />`))}
+    ${(spec.marks ?? []).filter((m) => placed(m.y, m.axis ?? 0)).map((m) => {
       // a label near the right edge runs leftwards, so it stays inside the chart
       const nearRight = X(m.x) > left + pw - 70;
       return svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />
