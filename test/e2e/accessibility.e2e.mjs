@@ -106,6 +106,13 @@ async function main() {
     await page.locator('button.template').first().waitFor({ timeout: STEP });
     await page.waitForTimeout(300);
     await check(page, 'library with studies');
+    // each study's buttons say which study they act on
+    for (const key of TEMPLATES) {
+      const { title } = JSON.parse(readFileSync(join(root, 'examples', `${key}.ratebook.json`), 'utf8'));
+      for (const verb of ['Rename', 'Duplicate', 'Delete']) {
+        if ((await page.getByRole('button', { name: `${verb} ${title}`, exact: true }).count()) !== 1) fail(`the library has no one button named "${verb} ${title}"`);
+      }
+    }
 
     if (errors.length) fail(`the page threw: ${errors.join(' | ')}`);
     if (problems.length) fail(`axe found ${problems.length} violations:\n  ${problems.join('\n  ')}`);
