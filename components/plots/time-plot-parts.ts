@@ -1,6 +1,6 @@
 /**
  * The parts of `<time-plot>` that are not drawing: panels (states grouped by unit), time-axis
- * ticks, events grouped by time, the values a log axis cannot show, and the chart's data as
+ * ticks, events grouped by time, the values a log axis cannot show and the ticks it labels, and the chart's data as
  * tables. They choose and arrange what the engine reported; they compute no new values (a time
  * read in another unit is multiplied by the engine's own factor, as the axis labels are).
  */
@@ -126,4 +126,26 @@ export function timePlotTables(p: SimulationPlot, panels: readonly Panel[], poin
     });
   }
   return tables;
+}
+
+/** Least distance between labelled ticks on a log axis, CSS pixels. */
+const LOG_TICK_SPACE = 18;
+
+/**
+ * The ticks a log axis labels: powers of ten, then 2 and 5 times them where there is room,
+ * none closer than LOG_TICK_SPACE pixels to the one before (the others null, unlabelled).
+ */
+export function logSplits(u: uPlot, splits: number[], axisIdx: number): Array<number | null> {
+  const scale = u.axes[axisIdx].scale ?? 'y0';
+  const keep = new Set<number>();
+  for (const mantissas of [[1], [2, 5]]) {
+    const pos = (v: number) => u.valToPos(v, scale);
+    const wanted = splits.filter((v) => mantissas.includes(Math.round(v / 10 ** Math.floor(Math.log10(v) + 1e-9))));
+    const placed = [...keep].map(pos);
+    for (const v of wanted) {
+      if (placed.every((y) => Math.abs(y - pos(v)) >= LOG_TICK_SPACE)) { keep.add(v); placed.push(pos(v)); }
+    }
+    if (mantissas[0] === 1 && wanted.length > 1 && Math.abs(pos(wanted[0]) - pos(wanted[1])) < 3 * LOG_TICK_SPACE) break;
+  }
+  return splits.map((v) => (keep.has(v) ? v : null));
 }

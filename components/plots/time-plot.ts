@@ -16,7 +16,7 @@ import { formatNumber, type PlotScale, type SimulationPlot } from '../../src/ind
 import { ChartController, type ChartSpec } from './chart-controller.ts';
 import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf, tickLabels } from './axes.ts';
-import { eventTimes, leftOffLog, logDrawn, onLogAxis, panelsOf, timePlotTables, timeSplits, type MeasuredPoints, type Panel } from './time-plot-parts.ts';
+import { eventTimes, leftOffLog, logDrawn, logSplits, onLogAxis, panelsOf, timePlotTables, timeSplits, type MeasuredPoints, type Panel } from './time-plot-parts.ts';
 import './data-table.ts';
 import { drawOverlay, around, curveBoxes, type PointLabel, type EventMarker } from './overlay.ts';
 import { EVENT_LINE, GRID, seriesColour } from './palette.ts';
@@ -299,28 +299,6 @@ export class TimePlot extends LitElement {
       .filter((ev) => ev.x >= 0 && ev.x <= cssW);
     drawOverlay(u, labels, events, [...clear, ...curveBoxes(u, panel.states.map((_, j) => j + 1))]);
   }
-}
-
-/** Least distance between labelled ticks on a log axis, CSS pixels. */
-const LOG_TICK_SPACE = 18;
-
-/**
- * The ticks a log axis labels: powers of ten, then 2 and 5 times them where there is room,
- * none closer than LOG_TICK_SPACE pixels to the one before (the others null, unlabelled).
- */
-function logSplits(u: uPlot, splits: number[], axisIdx: number): Array<number | null> {
-  const scale = u.axes[axisIdx].scale ?? 'y0';
-  const keep = new Set<number>();
-  for (const mantissas of [[1], [2, 5]]) {
-    const pos = (v: number) => u.valToPos(v, scale);
-    const wanted = splits.filter((v) => mantissas.includes(Math.round(v / 10 ** Math.floor(Math.log10(v) + 1e-9))));
-    const placed = [...keep].map(pos);
-    for (const v of wanted) {
-      if (placed.every((y) => Math.abs(y - pos(v)) >= LOG_TICK_SPACE)) { keep.add(v); placed.push(pos(v)); }
-    }
-    if (mantissas[0] === 1 && wanted.length > 1 && Math.abs(pos(wanted[0]) - pos(wanted[1])) < 3 * LOG_TICK_SPACE) break;
-  }
-  return splits.map((v) => (keep.has(v) ? v : null));
 }
 
 const dot = () => html`<svg width="10" height="10" aria-hidden="true"><circle cx="5" cy="5" r="3.5" fill="#fff" stroke="#1d2630" stroke-width="1.5"/></svg>`;

@@ -83,13 +83,16 @@ function linearAxis(values: Array<number | null>): YAxis {
 
 /** Whole decades around the positive values; ticks at powers of ten (every few when there are many), and at 2 and 5 times them over two decades or less. */
 function logAxis(values: Array<number | null>): YAxis {
-  const [lo, hi] = extent(values.filter((v) => v !== null && v > 0));
+  const positive = values.filter((v): v is number => v !== null && v > 0 && Number.isFinite(v));
+  // nothing the axis can place (or an axis with nothing on it): one decade, 1 to 10
+  const [lo, hi] = positive.length ? extent(positive) : [1, 10];
   const a = Math.floor(Math.log10(lo) + 1e-9);
   const b = Math.max(a + 1, Math.ceil(Math.log10(hi) - 1e-9));
   const ticks: number[] = [];
   // every decade up to 8 of them, else every few so that at most about 8 are labelled
   const every = Math.ceil((b - a) / 8);
-  for (let e = a; e <= b; e += every) for (const m of b - a <= 2 ? [1, 2, 5] : [1]) if (e < b || m === 1) ticks.push(m * 10 ** e);
+  // counted down from the top decade, so that the top of the axis is labelled
+  for (let e = b; e >= a; e -= every) for (const m of b - a <= 2 ? [5, 2, 1] : [1]) if (e < b || m === 1) ticks.unshift(m * 10 ** e);
   return { ticks, labels: ticks.map((v) => formatNumber(v, 3)), at: (v) => (v > 0 ? (Math.log10(v) - a) / (b - a) : null) };
 }
 

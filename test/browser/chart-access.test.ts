@@ -120,6 +120,15 @@ describe('chart data tables and the log axis', () => {
     expect(el.charts[0].data[1][0]).to.equal(0);
   });
 
+  it('a state that never rises above zero: nothing of it drawn on a log axis, and the plot says so', async () => {
+    // hand-worked: x' = -0.5/h * x from 0 mg stays exactly 0 mg
+    const still = { ...law, rate: '-0.5 / h * x' };
+    const cell = report([still, { ...run, find: [] }]);
+    const el = await plotOf(cell, { scale: 'log' });
+    expect([...el.charts[0].data[1]].every((v) => v === null)).to.equal(true);
+    expect(el.shadowRoot!.querySelector('.log-note')!.textContent).to.contain(`${cell.plot.t.length} of its ${cell.plot.t.length} plotted values (none of its curve can be drawn)`);
+  });
+
   it('the simulate cell stores the choice as plotScale through an ordinary edit, and the study undoes it', async () => {
     const view = StudyView.create();
     document.body.append(view);
@@ -172,6 +181,18 @@ describe('chart data tables and the log axis', () => {
     const d = svg.querySelector('path')!.getAttribute('d')!;
     expect(d.match(/M/g)!.length).to.equal(1);
     expect(d.match(/L/g)!.length).to.equal(2);
+    host.remove();
+  });
+
+  it('a sheet chart on a log axis with nothing it can place still draws its frame, with finite ticks and no curve', () => {
+    const host = document.createElement('div');
+    document.body.append(host);
+    render(html`${lineChart({ label: 'x stays at 0 mg', xLabel: 'time (h)', yLabels: ['x (mg)', 'y (mg)'], logY: true,
+      lines: [{ label: 'x', x: [0, 1], y: [0, -1] }, { label: 'y', x: [0, 1], y: [0, 0], axis: 1 }] })}`, host);
+    const svg = host.querySelector('svg')!;
+    expect([...svg.querySelectorAll('path')].map((p) => p.getAttribute('d'))).to.deep.equal(['', '']);
+    const labels = [...svg.querySelectorAll('text')].map((t) => t.textContent);
+    expect(labels).to.include('1').and.to.include('10');
     host.remove();
   });
 

@@ -93,6 +93,23 @@ async function main() {
         await page.waitForTimeout(200);
         await check(page, `study ${key}, chart data tables open`);
       }
+      // Time plots on a log axis (stored in the study, so the sheet draws it too).
+      const logged = await page.evaluate(() => {
+        const walk = (root, out) => {
+          for (const el of root.querySelectorAll('*')) {
+            if (el.matches('input.log-toggle')) out.push(el);
+            if (el.shadowRoot) walk(el.shadowRoot, out);
+          }
+          return out;
+        };
+        const boxes = walk(document, []);
+        boxes.forEach((b) => b.click());
+        return boxes.length;
+      });
+      if (logged) {
+        await computed(page);
+        await check(page, `study ${key}, time plots on a log axis`);
+      }
       await page.getByRole('button', { name: 'Printable sheet' }).click();
       await page.waitForURL(/\/sheet$/, { timeout: STEP });
       await page.waitForFunction(() => {
