@@ -172,7 +172,7 @@ export class StudyView extends LitElement {
         @cell-edit=${(e: CustomEvent<CellEditDetail>) => { e.stopPropagation(); c.edit({ type: 'replace', cell: e.detail.cell }, e.detail.mergeKey); }}>
       <header class="cell">
         <span class="kind">${info.label}</span>
-        <input aria-label="Title of cell ${cell.id}" placeholder=${cell.id} .value=${cell.title ?? ''}
+        <input data-field="title" aria-label="Title of cell ${cell.id}" placeholder=${cell.id} .value=${cell.title ?? ''}
           @input=${(e: Event) => { const t = (e.target as HTMLInputElement).value; const { title: _t, ...rest } = cell; c.edit({ type: 'replace', cell: t ? { ...rest, title: t } : rest }, `${cell.id}:title`); }} />
         <span class="state ${failed ? 'bad' : idle ? 'idle' : ''}">${!r ? '' : failed ? (r.waitsOn ? `waits on ${r.waitsOn.join(', ')}` : 'error') : idle ? 'not computed yet' : c.busy && c.rerun.includes(cell.id) ? 'recomputing…' : ''}</span>
         <span class="tools">
