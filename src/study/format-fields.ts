@@ -6,7 +6,7 @@
  * types in `types.ts`; the lists below are checked against it at compile time
  * (test/engine/format-fields.test.ts), so a field added to a type and not here fails the type check.
  */
-import type { Cell, CellKind } from './types.ts';
+import type { Cell, CellKind, Study } from './types.ts';
 
 type Plain = string | number | boolean | null;
 
@@ -38,11 +38,17 @@ export const FORMAT_FIELDS = {
   note: ['id', 'kind', 'title', 'text'],
 } as const satisfies { [K in CellKind]: ReadonlyArray<FieldPath<CellOf<K>>> };
 
+/** The study's own fields (`cells` holds the cells above). */
+export const STUDY_FIELDS = ['format', 'version', 'title', 'description', 'author', 'cells'] as const satisfies ReadonlyArray<keyof Study>;
+
 /**
  * Fields fixed when a cell is made, shown but not edited: its `id` (other cells refer to it;
  * shown as the title's placeholder) and its `kind` (chosen on the "add" bar).
  */
 export const FIXED_FIELDS: readonly string[] = ['id', 'kind'];
+
+/** The study's fields that are not edited as text: its `format` and `version` (the file's kind) and `cells` (edited cell by cell). */
+export const FIXED_STUDY_FIELDS: readonly string[] = ['format', 'version', 'cells'];
 
 /** A field's path with list positions left out, as `FORMAT_FIELDS` names it: `find[2].from` is `find[].from`, `items[0].range[1]` is `items[].range`. */
 export function fieldPathOf(concrete: string): string {

@@ -5,13 +5,13 @@
 // added to the format without a control fails here.
 import { expect } from 'chai';
 import { StudyView } from '../../components/study-view.ts';
-import { FORMAT_FIELDS, FIXED_FIELDS, fieldPathOf, fieldsIn } from '../../src/study/format-fields.ts';
+import { FORMAT_FIELDS, FIXED_FIELDS, STUDY_FIELDS, FIXED_STUDY_FIELDS, fieldPathOf, fieldsIn } from '../../src/study/format-fields.ts';
 import type { Study } from '../../src/index.ts';
 import { deep, until } from './helpers.ts';
 
 /** Every field of every kind at least once (invented numbers, for the editor only). */
 export const EVERY_FIELD: Study = {
-  format: 'ratebook-study', version: 1, title: 'Every field (invented numbers)', cells: [
+  format: 'ratebook-study', version: 1, title: 'Every field (invented numbers)', description: 'For the editor only.', author: 'A. Tester', cells: [
     { id: 'p', kind: 'parameters', title: 'Inputs', items: [
       { name: 'k', value: '0.1 / h', range: ['0.05 / h', '0.2 / h'], note: 'invented', unit: '1 / d', glance: true },
       { name: 'kb', value: '0.3 / h' }, { name: 'V', value: '40 L' }, { name: 'dose', value: '400 mg' },
@@ -124,6 +124,15 @@ describe('every field of the study format has its control in the editor', () => 
       const shown = new Set(EVERY_FIELD.cells.flatMap((c, i) => (c.kind === kind ? [...controls[i].keys()].map(fieldPathOf) : [])));
       const lacking = fields.filter((f) => !FIXED_FIELDS.includes(f) && !shown.has(f));
       expect(lacking, `${kind} fields with no control`).to.deep.equal([]);
+    }
+  });
+
+  it('the study\'s own fields have their controls above the cells', async () => {
+    const bar = [...view.shadowRoot!.querySelectorAll('[data-field]')].filter((el) => !el.closest('article'));
+    for (const field of STUDY_FIELDS.filter((f) => !FIXED_STUDY_FIELDS.includes(f))) {
+      const found = bar.filter((el) => el.getAttribute('data-field') === field);
+      expect(found.length, `a control for the study's ${field}`).to.be.greaterThan(0);
+      for (const el of found) expect(nameOf(el), `the ${field} control's name`).to.not.equal('');
     }
   });
 });

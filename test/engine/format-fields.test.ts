@@ -5,7 +5,8 @@
 import { it } from 'node:test';
 import assert from 'node:assert/strict';
 import type { Cell, CellKind } from '../../src/study/types.ts';
-import { FORMAT_FIELDS, fieldPathOf, fieldsIn, type FieldPath } from '../../src/study/format-fields.ts';
+import { FORMAT_FIELDS, STUDY_FIELDS, fieldPathOf, fieldsIn, type FieldPath } from '../../src/study/format-fields.ts';
+import type { Study } from '../../src/study/types.ts';
 
 /** True when A and B are the same type (neither wider). */
 type Equals<A, B> = (<T>() => T extends A ? 1 : 2) extends (<T>() => T extends B ? 1 : 2) ? true : false;
@@ -23,6 +24,8 @@ check<Equals<Listed<'fit'>, Typed<'fit'>>>();
 check<Equals<Listed<'nca'>, Typed<'nca'>>>();
 check<Equals<Listed<'note'>, Typed<'note'>>>();
 check<Equals<keyof typeof FORMAT_FIELDS, CellKind>>();
+// the study's own fields, every one
+check<Equals<(typeof STUDY_FIELDS)[number], keyof Study>>();
 // the paths are what the types say: a tuple, a list of names and a record are one field each
 check<Equals<Extract<Typed<'parameters'>, `items[].range${string}`>, 'items[].range'>>();
 check<Equals<Extract<Typed<'simulate'>, `tolerance${string}`>, 'tolerance.relative' | 'tolerance.absolute'>>();
