@@ -19,6 +19,7 @@ export class PhaseCellElement extends CellElement<'phase'> {
     return html`
       <div class="row">
         <label>Law <select data-field="rate" .value=${c.rate ?? ''} @change=${(e: Event) => this.edit({ rate: (e.target as HTMLSelectElement).value })}>
+          ${rateCells.includes(c.rate) ? nothing : html`<option value=${c.rate ?? ''} selected>${c.rate || '(choose)'}</option>`}
           ${rateCells.map((id) => html`<option value=${id} ?selected=${id === c.rate}>${id}</option>`)}</select></label>
         <span class="lbl">From</span>
         <expr-field style="flex: 0 1 9rem" data-field="from" label="Lower end of the range" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}

@@ -12,8 +12,8 @@ import { findsTable } from './simulate-finds.ts';
 
 type SimulateCellDoc = CellDoc<'simulate'>;
 type Input = CustomEvent<{ value: string }>;
-/** The relative tolerances offered (the default, 1e-6, is the blank choice). */
-const RELATIVE_TOLERANCES: readonly number[] = [1e-3, 1e-4, 1e-5, 1e-7, 1e-8, 1e-9, 1e-10];
+/** The relative tolerances offered; the blank choice leaves the default (1e-6) to the engine. */
+const RELATIVE_TOLERANCES: readonly number[] = [1e-3, 1e-4, 1e-5, 1e-6, 1e-7, 1e-8, 1e-9, 1e-10];
 const METHOD_LABELS: Record<string, string> = {
   auto: 'automatic (switches to stiff when needed)', dopri5: 'Dormand–Prince 5(4), adaptive', stiff: 'stiff (implicit, adaptive)',
   rk4: 'Runge–Kutta 4, fixed step', heun: 'Heun, fixed step', euler: 'Euler, fixed step',
@@ -29,8 +29,11 @@ export class SimulateCellElement extends CellElement<'simulate'> {
     input.count { width: 4rem; }
     .target { display: flex; gap: 0.3rem; align-items: flex-start; margin-bottom: 0.2rem; }
     .repeats { margin-top: 0.2rem; white-space: normal; }
+    .finds td.result .muted { white-space: normal; }
     tr.more td { padding-top: 0; border-bottom: 1px solid #e6eaee; }
     tr.more details { margin: 0 0 0.3rem; }
+    /* the table may scroll sideways on a narrow screen: keep a question's window on the visible part */
+    tr.more .row { max-width: calc(100vw - 3rem); position: sticky; left: 0; }
     tr.more summary, details.solver summary { font-weight: 400; font-size: 0.85rem; color: #3b4650; }
     button.small { font-size: 0.8rem; padding: 0 0.4rem; }
     details { margin: 0.4rem 0; }
@@ -97,7 +100,7 @@ export class SimulateCellElement extends CellElement<'simulate'> {
     const listed = RELATIVE_TOLERANCES.includes(rel as number);
     return html`<details class="solver" ?open=${tol !== undefined}><summary>Solver tolerances</summary><div class="row">
       <label>Relative tolerance <select data-field="tolerance.relative" @change=${(e: Event) => this.setTolerance('relative', (e.target as HTMLSelectElement).value)}>
-        <option value="" ?selected=${rel === undefined}>1e-6 (the default)</option>
+        <option value="" ?selected=${rel === undefined}>the default (1e-6)</option>
         ${rel !== undefined && !listed ? html`<option value=${String(rel)} selected>${String(rel)}</option>` : nothing}
         ${RELATIVE_TOLERANCES.map((r) => html`<option value=${String(r)} ?selected=${rel === r}>${r.toExponential(0)}</option>`)}</select></label>
       ${footError(this.claims.take('.tolerance.relative'))}
