@@ -5,7 +5,7 @@
 // elimination; the standard multiple-dosing result of any pharmacokinetics textbook).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { runStudy, type CellReport } from '../../src/index.ts';
+import { runStudy, openStudy, type CellReport } from '../../src/index.ts';
 
 type Q = { value: number; unit: string; si: number };
 const K = 0.1; // 1/h
@@ -134,5 +134,28 @@ describe('repeat counts as expressions', () => {
     const c = run({ count: 'n_doses', every: undefined }, []);
     assert.equal(c.error!.path, 'cells[2].events[0].every');
     assert.match(c.error!.message, /is needed to repeat an event \(6 times\)/);
+  });
+});
+
+describe('a count read from a parameter, in a what-if run', () => {
+  it('replacing the number of doses re-expands the schedule: the closed form for each number', () => {
+    const o = openStudy({ format: 'ratebook-study', version: 1, title: 'doses (invented numbers)', cells: [
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: `${K} / h` }, { name: 'n_doses', value: '6' }] },
+      { id: 'c', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-k * C', initial: '0 mg / L' },
+      { id: 'run', kind: 'simulate', rates: ['c'], from: '0 h', to: '72 h', tolerance: { relative: 1e-9 },
+        events: [{ at: '0 h', every: '12 h', count: 'n_doses', add: { C: `${DOSE} mg / L` } }], find: [{ name: 'C72', valueOf: 'C', at: '72 h' }] },
+    ] });
+    assert.ok(o.ok);
+    if (!o.ok) return;
+    const w = o.session.whatIf(['C72'], ['n_doses']);
+    assert.ok(w.ok, w.ok ? '' : w.error.message);
+    if (!w.ok) return;
+    for (const n of [1, 3, 6, 2]) {
+      const r = w.evaluate([n]);
+      // closed form: n doses seen at 72 h, in mg/L (the SI value is in kg/m³: 1 mg/L = 1e-3 kg/m³)
+      close(r.values[0] * 1e3, exact(72, times(n)), `C at 72 h after ${n} doses`);
+    }
+    const bad = w.evaluate([2.5]);
+    assert.match(bad.answers[0].ok ? '' : bad.answers[0].reason, /must be a whole number/);
   });
 });
