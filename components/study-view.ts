@@ -174,14 +174,14 @@ export class StudyView extends LitElement {
         <span class="kind">${info.label}</span>
         <input aria-label="Title of cell ${cell.id}" placeholder=${cell.id} .value=${cell.title ?? ''}
           @input=${(e: Event) => { const t = (e.target as HTMLInputElement).value; const { title: _t, ...rest } = cell; c.edit({ type: 'replace', cell: t ? { ...rest, title: t } : rest }, `${cell.id}:title`); }} />
-        <span class="state ${failed ? 'bad' : idle ? 'idle' : ''}">${!r ? '' : failed ? (r.waitsOn ? `waits on ${r.waitsOn.join(', ')}` : 'error') : idle ? 'not computed yet' : c.busy && c.rerun.includes(cell.id) ? 'recomputing…' : ''}</span>
+        <span class="state ${failed ? 'bad' : idle ? 'idle' : ''}">${!r ? '' : failed ? (r.waitsOn ? 'waiting' : 'error') : idle ? 'not computed yet' : c.busy && c.rerun.includes(cell.id) ? 'recomputing…' : ''}</span>
         <span class="tools">
           <button aria-label="Move ${cell.id} up" ?disabled=${i === 0} @click=${() => c.edit({ type: 'move', id: cell.id, to: i - 1 })}>↑</button>
           <button aria-label="Move ${cell.id} down" ?disabled=${i === (c.study?.cells.length ?? 0) - 1} @click=${() => c.edit({ type: 'move', id: cell.id, to: i + 1 })}>↓</button>
           <button aria-label="Delete ${cell.id}" @click=${() => c.edit({ type: 'remove', id: cell.id })}>✕</button>
         </span>
       </header>
-      ${info.render(cell, r, c.report)}
+      ${info.render(cell, r, c.report, c.study)}
     </article>`;
   }
 

@@ -47,7 +47,8 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
       if (first !== undefined) {
         const what = d.name.startsWith('#') ? `the cell id "${d.name.slice(1)}"` : `"${d.name}"`;
         const firstCell = nodes.get(first)!.cell;
-        flag(n.key, { kind: 'duplicate', message: `${what} is already defined in cell "${firstCell}" (${resolve(firstCell, definedAt.get(d.name)!)})`, path: d.path });
+        const firstAt = resolve(firstCell, definedAt.get(d.name)!);
+        flag(n.key, { kind: 'duplicate', message: `${what} is already defined in cell "${firstCell}" (${firstAt})`, path: d.path, parts: [`${what} is already defined in `, { path: firstAt }] });
         continue;
       }
       if (d.name === 't') {

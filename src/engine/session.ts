@@ -9,7 +9,7 @@
 import type { Cell, Study } from '../study/types.ts';
 import { readStudy, checkCell, type Problem } from '../study/validate.ts';
 import { applyEdit, type Edit } from '../study/edit.ts';
-import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.ts';
+import type { Binding, CellError, GraphNode, MessagePart, Outcome, RunContext } from './node.ts';
 import { buildCellNodes, resolvePath, CELL_PATH } from '../cells/index.ts';
 import { buildGraph, upstreamOf, type Graph } from './graph.ts';
 import { prepareWhatIf, type Replacement, type Unavailable, type WhatIfPrepared } from './what-if.ts';
@@ -316,10 +316,10 @@ export class StudySession {
     return typeof title === 'string' && title.trim() ? `"${title.trim()}"` : `cell "${id}"`;
   }
 
-  /** What a definer's name is, and where: "the parameter defined at cells[0].items[1]". */
-  private definedAt(definer: GraphNode, path: string): string {
+  /** What a definer's name is, and where: "the parameter defined at cells[0].items[1]", the place as a part. */
+  private definedAt(definer: GraphNode, path: string): MessagePart[] {
     const kind = definer.role === 'state' ? 'state' : KIND_WORDS[this.cells[this.indexOf(definer.cell)]?.kind] ?? 'name';
-    return `the ${kind} defined at ${resolvePath(path.replace(/\.name$/, ''), this.indexOf(definer.cell))}`;
+    return [`the ${kind} defined at `, { path: resolvePath(path.replace(/\.name$/, ''), this.indexOf(definer.cell)) }];
   }
 
   /**
