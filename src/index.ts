@@ -31,3 +31,4 @@ export { commonUnitNames, constantNames, functionNames, unitNames } from './expr
 export { fieldWords, cellWords, KIND_LABELS } from './output/field-words.ts';
 export { problemWords, waitWords, waitedOn, type ReportsOf } from './output/problem-words.ts';
 export { inspectorNotes, residualSdReason } from './output/sheet-notes.ts';
+export { fieldReadsStates } from './cells/reads-states.ts';

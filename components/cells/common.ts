@@ -108,7 +108,7 @@ function collectNames(report: Report): StudyName[] {
   for (const c of report?.cells ?? []) {
     for (const [name, q] of Object.entries(c.values ?? {})) out.push({ name, detail: showValue(q) });
     for (const [name, q] of Object.entries(c.results ?? {})) if (!('notReached' in q)) out.push({ name, detail: showValue(q) });
-    if (c.state !== undefined && c.initial) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}` });
+    if (c.state !== undefined && c.initial) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}`, state: true });
   }
   return out;
 }

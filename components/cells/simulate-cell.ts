@@ -1,5 +1,6 @@
 import { html, nothing, css } from 'lit';
 import type { ClosedFormReport, FindResult, SimulationPlot } from '../../src/index.ts';
+import { fieldReadsStates } from '../../src/index.ts';
 import { cellStyles, footError, showQ, type ErrorClaims } from './common.ts';
 import type { StudyName } from '../expr-field.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
@@ -96,7 +97,7 @@ export class SimulateCellElement extends CellElement<'simulate'> {
           <td><select aria-label="Event ${i + 1} action" @change=${(e: Event) => this.setEvent(i, switchAction(ev, (e.target as HTMLSelectElement).value as EventAction))}>
             ${EVENT_ACTIONS.map((k) => html`<option value=${k} ?selected=${k === kind}>${k === 'add' ? 'add (dose)' : k === 'set' ? 'set a parameter' : 'infuse (rate)'}</option>`)}</select></td>
           <td><input class="name" type="text" aria-label="Event ${i + 1} target name" .value=${target} @input=${(e: Event) => this.setEvent(i, withTarget(ev, (e.target as HTMLInputElement).value, amount), `target${i}`)} /></td>
-          <td><expr-field label="Event ${i + 1} amount" .value=${amount} .names=${names} .error=${claims.take(`${p}.${kind}.${target}`) ?? claims.take(`${p}.${kind}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withTarget(ev, target, e.detail.value), `amount${i}`)}></expr-field></td>
+          <td><expr-field label="Event ${i + 1} amount" .value=${amount} .names=${names} .readsStates=${fieldReadsStates('simulate', `${p}.${kind}.${target}`)} .error=${claims.take(`${p}.${kind}.${target}`) ?? claims.take(`${p}.${kind}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withTarget(ev, target, e.detail.value), `amount${i}`)}></expr-field></td>
           <td>${kind === 'infuse' ? html`<expr-field label="Event ${i + 1} infusion duration" .value=${ev.for ?? ''} .names=${names} .error=${claims.take(`${p}.for`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, for: e.detail.value }, `for${i}`)}></expr-field>` : nothing}</td>
           <td><button class="quiet" aria-label="Remove event ${i + 1}" @click=${() => this.edit({ events: events.filter((_, j) => j !== i) })}>✕</button></td>
         </tr>`;
