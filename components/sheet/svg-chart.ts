@@ -43,7 +43,10 @@ const UNPLACED_ROW = 16;
 /** A label's box for its text, in the chart's units: wide enough for the text in the sheet's font. */
 const labelSize = (text: string) => ({ w: Math.ceil(text.length * LABEL_CHAR) + 2, h: LABEL_HEIGHT });
 
-interface PlacedLabel { readonly text: string; readonly box: Box }
+/** Distance from a point to its label beyond which a leader line joins them. */
+const LEADER_FROM = 14;
+
+interface PlacedLabel { readonly text: string; readonly box: Box; readonly leader?: readonly [number, number, number, number] }
 
 /** Round tick values covering [lo, hi]: steps of 1, 2, 2.5 or 5 times a power of ten. */
 export function niceTicks(lo: number, hi: number, most = 7): { ticks: number[]; step: number } {
@@ -122,7 +125,11 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const place = (text: string, px: number, py: number, along?: number[]) => {
     const { w, h } = labelSize(text);
     const box = placeLabel(px, py, w, h, taken, bounds, along);
-    if (box) placed.push({ text, box }); else unplaced.push(text);
+    if (!box) { unplaced.push(text); return; }
+    // a mark's label pushed away from its point gets a thin line back to it
+    const nx = Math.min(Math.max(px, box.x), box.x + box.w);
+    const ny = Math.min(Math.max(py, box.y), box.y + box.h);
+    placed.push({ text, box, ...(!along && Math.hypot(nx - px, ny - py) > LEADER_FROM ? { leader: [px, py, nx, ny] as const } : {}) });
   };
   for (const m of spec.marks ?? []) place(m.label, X(m.x), Y(m.y, m.axis ?? 0));
   for (const l of spec.levels ?? []) place(l.label, left + pw - 4, Y(l.y, l.axis ?? 0), [left + pw / 2, left + 8]);
@@ -147,6 +154,7 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
     ${spec.lines.map((l, i) => svg`<path d=${path(l)} fill="none" stroke=${l.colour ?? seriesColour(i)} stroke-width="1.6" stroke-linejoin="round" stroke-dasharray=${l.dashed ? '6 4' : 'none'} />`)}
     ${(spec.points ?? []).map((p, i) => p.x.map((x, j) => svg`<circle cx=${X(x)} cy=${Y(p.y[j], p.axis ?? 0)} r="2.8" fill="#fff" stroke=${seriesColour(p.colourOf ?? i)} stroke-width="1.2" />`))}
     ${(spec.marks ?? []).map((m) => svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />`)}
+    <g stroke="#777" stroke-width="0.6">${placed.filter((p) => p.leader).map(({ leader: [x1, y1, x2, y2] = [0, 0, 0, 0] }) => svg`<line x1=${x1} y1=${y1} x2=${x2} y2=${y2} />`)}</g>
     <g class="labels" font-size=${LABEL_FONT} fill=${INK}>${placed.map((p) => svg`<text class="lbl" x=${p.box.x + 1} y=${p.box.y + p.box.h - 3}>${p.text}</text>`)}</g>
     ${unplaced.length ? svg`<text class="unplaced" x=${left} y=${height + extra - 4} font-size="10" fill=${INK}>Marked but not labelled, for want of room: ${unplaced.join(', ')}</text>` : ''}
     ${legend ? svg`<g font-size="10" fill=${INK}>${[...listed.map(({ l, i }) => ({ label: l.label, colour: l.colour ?? seriesColour(i), dashed: !!l.dashed, dot: false })), ...(spec.points ?? []).map((p, i) => ({ label: p.label, colour: seriesColour(p.colourOf ?? i), dashed: false, dot: true }))].map((item, k) => svg`
