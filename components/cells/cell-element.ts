@@ -31,7 +31,7 @@ export class CellElement<K extends CellKind> extends LitElement {
 
   /** The study's names with their current values, for the expression fields. */
   protected get names(): StudyName[] {
-    return namesOf(this.study);
+    return namesOf(this.study, this.doc);
   }
 
   /** Ids of the study's cells of one kind, in order. */

@@ -90,25 +90,40 @@ export function showQ(q: ReportQuantity | undefined, digits = 4): string {
   return q.unit ? `${v} ${unitAfterNumber(q.unit)}` : v;
 }
 
-const namesCache = new WeakMap<Report, StudyName[]>();
+const namesCache = new WeakMap<Report, { doc?: object; names: StudyName[] }>();
 
-/** The study's names with their current values, for completion and the name tooltip (one list per report). */
-export function namesOf(report: Report | undefined): StudyName[] {
+/**
+ * The study's names with their current values, for completion, colouring and the name tooltip
+ * (one list per report and document). Names the document defines that have no value now (their
+ * cell failed or waits) are listed too, with no value: the engine still reads them as the
+ * study's, so `V` stays the volume, not the volt.
+ */
+export function namesOf(report: Report | undefined, doc?: { readonly cells: readonly Cell[] }): StudyName[] {
   if (!report) return [];
-  let names = namesCache.get(report);
-  if (!names) {
-    names = collectNames(report);
-    namesCache.set(report, names);
+  let hit = namesCache.get(report);
+  if (!hit || hit.doc !== doc) {
+    hit = { doc, names: collectNames(report, doc) };
+    namesCache.set(report, hit);
   }
-  return names;
+  return hit.names;
 }
 
-function collectNames(report: Report): StudyName[] {
+function collectNames(report: Report, doc?: { readonly cells: readonly Cell[] }): StudyName[] {
   const out: StudyName[] = [];
   for (const c of report?.cells ?? []) {
     for (const [name, q] of Object.entries(c.values ?? {})) out.push({ name, detail: showValue(q) });
     for (const [name, q] of Object.entries(c.results ?? {})) if (!('notReached' in q)) out.push({ name, detail: showValue(q) });
     if (c.state !== undefined && c.initial) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}`, state: true });
+  }
+  const known = new Set(out.map((n) => n.name));
+  const add = (name: unknown, state = false) => {
+    if (typeof name === 'string' && name && !known.has(name)) { known.add(name); out.push(state ? { name, state } : { name }); }
+  };
+  for (const c of doc?.cells ?? []) {
+    if (c.kind === 'parameters' && Array.isArray(c.items)) for (const i of c.items) add(i?.name);
+    if (c.kind === 'rate') add(c.state, true);
+    if (c.kind === 'simulate' && Array.isArray(c.find)) for (const f of c.find) add(f?.name);
+    if (c.kind === 'fit' && Array.isArray(c.estimate)) for (const e of c.estimate) add(e?.as);
   }
   return out;
 }

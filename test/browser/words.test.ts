@@ -84,6 +84,17 @@ describe('a field is coloured as the engine reads it', () => {
     expect(coloured(law, 'cm-x-unit')).to.deep.equal([]);
   });
 
+  it('a name whose cell failed is still the study\'s: V is the volume, not the volt', async () => {
+    const failing = [
+      { id: 'a', kind: 'parameters', items: [{ name: 'V', value: '30 zz' }] },
+      { id: 'b', kind: 'parameters', items: [{ name: 'C0', value: '500 mg / V' }] },
+    ];
+    const el = await mount('parameters-cell', failing, 'b');
+    const value = field(el, 'Value of C0');
+    expect(coloured(value, 'cm-x-name')).to.deep.equal(['V']);
+    expect(coloured(value, 'cm-x-unit')).to.deep.equal(['mg']);
+  });
+
   it('in a run, h is the hour in times and the state in an amount added', async () => {
     const run = await mount('simulate-cell', cells, 'run');
     expect(coloured(field(run, 'End of the run'), 'cm-x-unit')).to.deep.equal(['h']);
