@@ -1,5 +1,5 @@
 import { LitElement, html, css, nothing } from 'lit';
-import { freshId, type Cell, type CellReport } from '../src/index.ts';
+import { freshId, partsWords, type Cell, type CellReport } from '../src/index.ts';
 import { StudyController, type StudyControllerOptions } from './study-controller.ts';
 import { KINDS, ADDABLE } from './cells/registry.ts';
 import type { CellEditDetail } from './cells/common.ts';
@@ -40,6 +40,8 @@ export class StudyView extends LitElement {
     button:hover:not(:disabled) { background: #e4e9ee; }
     button:disabled { opacity: 0.45; cursor: default; }
     button:focus-visible, .title:focus-visible { outline: 2px solid #1d5fa8; outline-offset: 1px; }
+    .name-notes { border-left: 4px solid #5b6670; background: #f3f5f7; padding: 0.3rem 0.9rem; margin: 0 0 0.8rem; color: #2b3640; font-size: 0.9rem; }
+    .name-notes p { margin: 0.25rem 0; }
     .caution { border-left: 4px solid #a85d00; background: #fff3df; padding: 0.55rem 0.9rem; margin: 0 0 0.8rem; color: #3d2a00; }
     article { border: 1px solid #c9d1d8; border-radius: 6px; background: #fff; margin: 0 0 0.9rem; padding: 0.6rem 0.9rem 0.7rem; break-inside: avoid; contain: layout style; }
     article.failed { border-color: #b3261e; box-shadow: inset 3px 0 0 #b3261e; }
@@ -152,6 +154,8 @@ export class StudyView extends LitElement {
         <span class="status ${c.busy ? 'busy' : ''}" role="status" aria-live="polite">${c.busy ? 'computing…' : saveText(c.saveState)}</span>
       </div>
       ${(report?.cautions ?? []).map((x) => html`<p class="caution" role="note"><strong>Caution.</strong> ${x.text}</p>`)}
+      ${report?.warningParts?.length ? html`<section class="name-notes" aria-label="How this study's names are read">
+        ${report.warningParts.map((p) => { const w = partsWords(study, p); return html`<p>${w[0].toUpperCase()}${w.slice(1)}.</p>`; })}</section>` : nothing}
       ${c.problem ? html`<p class="problem" role="alert">${c.problem}</p>` : nothing}
       ${study.cells.length === 0 ? html`<p class="empty">This study has no cells yet. Start with parameters or a rate law below.</p>` : nothing}
       ${study.cells.map((cell, i) => this.cell(cell, i, byId.get(cell.id)))}

@@ -29,6 +29,6 @@ export type { FromWorker, ToWorker } from './engine/worker-protocol.ts';
 export { lookupUnit, unitAfterNumber } from './units/units.ts';
 export { commonUnitNames, constantNames, functionNames, unitNames } from './expression/vocabulary.ts';
 export { fieldWords, cellWords, KIND_LABELS } from './output/field-words.ts';
-export { problemWords, waitWords, waitedOn, type ReportsOf } from './output/problem-words.ts';
+export { problemWords, partsWords, waitWords, waitedOn, type ReportsOf } from './output/problem-words.ts';
 export { inspectorNotes, residualSdReason } from './output/sheet-notes.ts';
 export { fieldReadsStates } from './cells/reads-states.ts';

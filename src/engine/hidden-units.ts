@@ -8,7 +8,7 @@
  * unit is one these trades write, and the hiding applies); and a hint added to an error on a
  * field that reads such a name, with the unit's other spelling ("for hours write hour").
  */
-import { partsText, type Definition, type GraphNode, type MessagePart, type Outcome, type ProblemKind, type Use } from './node.ts';
+import { partsText, type Definition, type GraphNode, type MessagePart, type Outcome, type ProblemKind, type StudyNote, type Use } from './node.ts';
 import type { Graph } from './graph.ts';
 import { lookupUnit } from '../units/units.ts';
 import { isCommonUnit } from '../units/common.ts';
@@ -37,21 +37,29 @@ export interface Places {
  * in the state fields that write it, so a state is warned about only when one does. Cost:
  * linear in definitions plus uses.
  */
-export function hiddenUnitWarnings(list: readonly GraphNode[], definers: ReadonlyMap<string, string>, places: Places): string[] {
+export function hiddenUnitWarnings(list: readonly GraphNode[], definers: ReadonlyMap<string, string>, places: Places): StudyNote[] {
   const nodes = new Map(list.map((n) => [n.key, n]));
-  const out: string[] = [];
+  const out: StudyNote[] = [];
   for (const [name, key] of definers) {
     if (name.startsWith('#') || !isCommonUnit(name) || !isUnitName(name)) continue;
     const definer = nodes.get(key)!;
     const def = definer.defines.find((d) => d.name === name)!;
     const write = spellingAdvice(name);
     if (definer.role !== 'state') {
-      out.push(`${whatIs(definer, def, places)} hides the unit ${name}: in this study ${name} means that value everywhere${write ? `; ${write}` : ''}`);
+      const rest = ` hides the unit ${name}: in this study ${name} means that value everywhere${write ? `; ${write}` : ''}`;
+      const what = whatIs(definer, def, places);
+      out.push({ text: `${what.text}${rest}`, parts: [...what.parts, rest] });
       continue;
     }
-    const fields = list.flatMap((n) => n.uses.filter((u) => u.name === name && u.readsStates && u.text).map((u) => fieldName(n, u, places)));
+    const seen = new Set<string>();
+    const fields = list.flatMap((n) => n.uses.filter((u) => u.name === name && u.readsStates && u.text).map((u) => fieldName(n, u, places)))
+      .filter((f) => !seen.has(f.text) && seen.add(f.text));
     if (fields.length === 0) continue;
-    out.push(`the state "${name}" of ${places.cellName(definer.cell)} hides the unit ${name} in ${[...new Set(fields)].join(', ')}: there ${name} is the state${write ? `; ${write}` : ''}. Everywhere else ${name} is the unit.`);
+    const tail = `: there ${name} is the state${write ? `; ${write}` : ''}. Everywhere else ${name} is the unit.`;
+    out.push({
+      text: `the state "${name}" of ${places.cellName(definer.cell)} hides the unit ${name} in ${fields.map((f) => f.text).join(', ')}${tail}`,
+      parts: [`the state "${name}" of `, { path: places.resolve(definer.cell, '@') }, ` hides the unit ${name} in `, ...fields.flatMap((f, i) => (i ? [', ', ...f.parts] : f.parts)), tail],
+    });
   }
   return out;
 }
@@ -114,12 +122,14 @@ function advice(name: string, definer: GraphNode): string {
   return `; the unit ${name} has no other spelling, so rename the ${definer.role === 'state' ? 'state' : 'name'} to use it`;
 }
 
-function whatIs(definer: GraphNode, def: Definition, places: Places): string {
-  return `the name "${def.name}" (${places.cellName(definer.cell)}, ${places.resolve(definer.cell, def.path.replace(/\.name$/, ''))})`;
+function whatIs(definer: GraphNode, def: Definition, places: Places): StudyNote {
+  const at = places.resolve(definer.cell, def.path.replace(/\.name$/, ''));
+  return { text: `the name "${def.name}" (${places.cellName(definer.cell)}, ${at})`, parts: [`the name "${def.name}" (`, { path: at }, ')'] };
 }
 
-/** A field in words: "the rate law of "Tank"" for a rate law, else the cell and the path. */
-function fieldName(n: GraphNode, u: Use, places: Places): string {
-  if (/\.rate$/.test(u.path)) return `the rate law of ${places.cellName(n.cell)}`;
-  return `${places.resolve(n.cell, u.path)} (${places.cellName(n.cell)})`;
+/** A field in words: "the rate law of "Tank"" for a rate law, else the cell and the path; as parts, the field's place. */
+function fieldName(n: GraphNode, u: Use, places: Places): StudyNote {
+  const at = places.resolve(n.cell, u.path);
+  if (/\.rate$/.test(u.path)) return { text: `the rate law of ${places.cellName(n.cell)}`, parts: [{ path: at }] };
+  return { text: `${at} (${places.cellName(n.cell)})`, parts: [{ path: at }] };
 }

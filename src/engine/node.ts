@@ -47,6 +47,12 @@ export interface CellError {
   readonly parts?: readonly MessagePart[];
 }
 
+/** A note on the whole study (a report warning): its text with paths, and the same as parts for words. */
+export interface StudyNote {
+  readonly text: string;
+  readonly parts: readonly MessagePart[];
+}
+
 /** A message's parts as text, each place written by `place` (its path, by default). */
 export function partsText(parts: readonly MessagePart[], place: (path: string) => string = (p) => p): string {
   return parts.map((x) => (typeof x === 'string' ? x : place(x.path))).join('');

@@ -262,7 +262,8 @@ export class StudySession {
     this.lastReport = {
       title: this.title,
       ok: reports.every((c) => c.ok),
-      warnings: [...this.notes, ...this.graph.warnings],
+      warnings: [...this.notes, ...this.graph.warnings.map((w) => w.text)],
+      warningParts: [...this.notes.map((n) => [n]), ...this.graph.warnings.map((w) => [...w.parts])],
       cautions: cautionsFor(this.cells),
       glance: glanceOf(this.cells, reports),
       cells: reports,

@@ -4,7 +4,7 @@
  * and why. Made from the errors' data (kind, path, `waitsOn`, `parts`) and the report's other
  * cells, never from a message's text. The JSON report and the command line keep paths.
  */
-import type { CellError } from '../engine/node.ts';
+import type { CellError, MessagePart } from '../engine/node.ts';
 import { partsText } from '../engine/node.ts';
 import type { CellReport } from '../engine/report.ts';
 import { cellWords, fieldWords, type CellsOf } from './field-words.ts';
@@ -18,7 +18,7 @@ export type ReportsOf = { readonly cells: ReadonlyArray<Pick<CellReport, 'id' | 
  */
 export function problemWords(study: CellsOf, report: ReportsOf, error: CellError): string {
   if (error.kind === 'waits' && error.waitsOn !== undefined) return waitWords(study, report, error.waitsOn);
-  return error.parts ? partsText(error.parts, (path) => fieldWords(study, path)) : error.message;
+  return error.parts ? partsWords(study, error.parts) : error.message;
 }
 
 /**
@@ -41,6 +41,11 @@ export function waitWords(study: CellsOf, report: ReportsOf, cellId: string): st
     id = errors.find((e) => e.waitsOn !== undefined)?.waitsOn;
   }
   return `waits on ${chain.join(', which waits on ')}`;
+}
+
+/** A message's parts in words: each place as `fieldWords` says it (a report warning's `warningParts`). */
+export function partsWords(study: CellsOf, parts: readonly MessagePart[]): string {
+  return partsText(parts, (path) => fieldWords(study, path));
 }
 
 /** The distinct cells a cell's problems wait on, in order. */

@@ -9,7 +9,7 @@
  *
  * Engine-only (never printed): the report's `warnings` — how the study's text is read (a name
  * that hides a unit or a constant, a format migration). They help whoever writes the study,
- * say nothing about the results, and name fields by their paths; the editor shows them.
+ * say nothing about the results; the study view shows them in words (`warningParts`).
  *
  * Pure; reads the report only.
  */
