@@ -4,7 +4,7 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import { isKind, cellWords, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
+import { isKind, KIND_LABELS, cellWords, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
@@ -16,10 +16,8 @@ type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
 /** Definitions longer than this (characters of source) are typeset on a row of their own. */
 const LONG_DEFINITION = 32;
 
-const KIND_NAMES: Record<Cell['kind'], string> = {
-  parameters: 'Parameters', rate: 'Rate law', phase: 'Where it settles', simulate: 'Simulation',
-  data: 'Measurements', fit: 'Fit', nca: 'Profile summary (non-compartmental)', note: 'Note',
-};
+/** Each kind as the app names it, so that a place in words (`Run "Six doses"`) is found by its heading. */
+const KIND_NAMES: Record<Cell['kind'], string> = { ...KIND_LABELS, nca: `${KIND_LABELS.nca} (non-compartmental)` };
 
 /**
  * Results at a glance, for the top of the sheet: the engine's `glance` list as it stands (it
