@@ -57,9 +57,9 @@ export class StudyLibrary extends LitElement {
       ${this.studies.length === 0 ? html`<p class="empty">No studies yet: start one below.</p>` : nothing}
       <ul>${this.studies.map((s) => html`<li>
         <span class="t"><a href="#/study/${s.id}">${s.title}</a> <span class="when">${s.cells} cells · changed ${when(s.updated)}</span></span>
-        <button @click=${() => this.rename(s)}>Rename</button>
-        <button @click=${() => this.duplicate(s)}>Duplicate</button>
-        <button @click=${() => this.trashStudy(s)}>Delete</button>
+        <button aria-label="Rename ${s.title}" @click=${() => this.rename(s)}>Rename</button>
+        <button aria-label="Duplicate ${s.title}" @click=${() => this.duplicate(s)}>Duplicate</button>
+        <button aria-label="Delete ${s.title}" @click=${() => this.trashStudy(s)}>Delete</button>
       </li>`)}</ul>
       <h2>Start a new study</h2>
       <input class="search" type="search" placeholder="Search the templates" aria-label="Search the templates" .value=${this.filter} @input=${(e: Event) => { this.filter = (e.target as HTMLInputElement).value; }} />
@@ -73,7 +73,7 @@ export class StudyLibrary extends LitElement {
       <label>Open a study file (.ratebook.json): <input type="file" accept=".json,application/json" @change=${this.importFile} /></label>
       ${this.trash.length ? html`<h2>Trash</h2><ul>${this.trash.map((s) => html`<li>
         <span class="t">${s.title} <span class="when">deleted ${when(s.deleted)}</span></span>
-        <button @click=${() => this.restore(s.id)}>Restore</button></li>`)}</ul>` : nothing}`;
+        <button aria-label="Restore ${s.title}" @click=${() => this.restore(s.id)}>Restore</button></li>`)}</ul>` : nothing}`;
   }
 
   private open(id: string) {

@@ -44,7 +44,7 @@ export class DataCellElement extends CellElement<'data'> {
     return html`
       ${c.csv !== undefined ? this.csvView(claims) : html`
         <div class="scroll"><table class="grid">
-          <thead><tr><th></th>${columns.map((col, j) => html`<th>${this.column(j, claims)}</th>`)}<th></th></tr></thead>
+          <thead><tr><th><span class="sr">Row</span></th>${columns.map((col, j) => html`<th>${this.column(j, claims)}</th>`)}<th><span class="sr">Delete</span></th></tr></thead>
           <tbody>${(c.rows ?? []).map((row, r) => html`<tr class=${flagged.has(r) ? 'flagged' : ''} title=${flagged.get(r) ?? ''}>
             <td class="muted">${r + 1}</td>
             ${columns.map((col, j) => html`<td><input type="text" inputmode="decimal" data-field="rows" aria-label="Row ${r + 1}, ${col.name}" .value=${show(row[j] as Entry)}

@@ -45,7 +45,7 @@ export class FitCellElement extends CellElement<'fit'> {
           ${([['none', 'none'], ['relative', 'relative (1/y²)'], ['proportional', 'proportional (1/y)']] as const).map(([v, l]) => html`<option value=${v} ?selected=${(c.weighting ?? 'none') === v}>${l}</option>`)}</select></label>
       </div>
       <div class="scroll"><table class="est">
-        <thead><tr><th>Estimate</th><th>as</th><th>Guess</th><th>At least</th><th>At most</th><th>Value</th><th>Standard error</th><th>95% interval</th><th></th></tr></thead>
+        <thead><tr><th>Estimate</th><th>as</th><th>Guess</th><th>At least</th><th>At most</th><th>Value</th><th>Standard error</th><th>95% interval</th><th><span class="sr">Remove</span></th></tr></thead>
         <tbody>${(c.estimate ?? []).map((e, i) => {
           const res = estimates[e.as];
           const p = `.estimate[${i}]`;
@@ -76,7 +76,7 @@ export class FitCellElement extends CellElement<'fit'> {
     const cor = this.report?.correlation;
     if (!cor || cor.names.length < 2) return nothing;
     return html`<table style="width: auto"><caption class="muted" style="text-align: left">Correlation of the estimates</caption>
-      <thead><tr><th></th>${cor.names.map((n) => html`<th>${n}</th>`)}</tr></thead>
+      <thead><tr><th><span class="sr">Estimate</span></th>${cor.names.map((n) => html`<th>${n}</th>`)}</tr></thead>
       <tbody>${cor.names.map((n, i) => html`<tr><th>${n}</th>${cor.matrix[i].map((v) => html`<td class="num">${v.toFixed(3)}</td>`)}</tr>`)}</tbody></table>`;
   }
 

@@ -18,7 +18,7 @@ export class PhaseCellElement extends CellElement<'phase'> {
     const sw = c.sweep;
     return html`
       <div class="row">
-        <label>Law <select data-field="rate" .value=${c.rate ?? ''} @change=${(e: Event) => this.edit({ rate: (e.target as HTMLSelectElement).value })}>
+        <label>Law <select data-field="rate" aria-label="Law of the phase line" .value=${c.rate ?? ''} @change=${(e: Event) => this.edit({ rate: (e.target as HTMLSelectElement).value })}>
           ${rateCells.includes(c.rate) ? nothing : html`<option value=${c.rate ?? ''} selected>${c.rate || '(choose)'}</option>`}
           ${rateCells.map((id) => html`<option value=${id} ?selected=${id === c.rate}>${id}</option>`)}</select></label>
         <span class="lbl">From</span>
@@ -38,7 +38,7 @@ export class PhaseCellElement extends CellElement<'phase'> {
           <span class="lbl">to</span>
           <expr-field style="flex: 0 1 8rem" data-field="sweep.to" label="Sweep end" .value=${sw.to ?? ''} .names=${names} .error=${claims.take('.sweep.to')}
             @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ sweep: { ...sw, to: e.detail.value } }, 'sto')}></expr-field>
-          <label>steps <input type="number" class="count" data-field="sweep.steps" min="2" max="10000" .value=${String(sw.steps ?? '')}
+          <label>steps <input type="number" class="count" data-field="sweep.steps" aria-label="Steps of the sweep" min="2" max="10000" .value=${String(sw.steps ?? '')}
             @input=${(e: Event) => this.setSteps((e.target as HTMLInputElement).value)} /></label>
           ${footError(claims.take('.sweep.steps'))}` : nothing}
       </div>

@@ -1,11 +1,12 @@
 import { html, nothing, css } from 'lit';
-import type { ClosedFormReport, SimulationPlot } from '../../src/index.ts';
+import type { ClosedFormReport, PlotScale, SimulationPlot } from '../../src/index.ts';
 import { cellStyles, footError, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import { exportSeriesCsv } from '../series-csv.ts';
 import '../expr-field.ts';
 import '../unit-pick.ts';
 import '../plots/time-plot.ts';
+import type { PlotScaleEvent } from '../plots/time-plot.ts';
 import type { FindQuery as FindDoc, ScheduleEvent as EventDoc } from '../../src/index.ts';
 import { eventsTable } from './simulate-events.ts';
 import { findsTable } from './simulate-finds.ts';
@@ -84,13 +85,27 @@ export class SimulateCellElement extends CellElement<'simulate'> {
           setFind: (i, f, key) => this.setFind(i, f, key), setFinds: (find) => this.edit({ find }),
         })}
       </details>
+      ${this.plotScaleError(claims.take('.plotScale'))}
       ${this.report?.ok && plot ? html`
-        <time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${this.report.summary ?? ''}></time-plot>
+        <time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${this.report.summary ?? ''} .scale=${c.plotScale === 'log' ? 'log' : 'linear'} scaleToggle
+          @plot-scale=${(e: PlotScaleEvent) => this.setPlotScale(e.detail.scale)}></time-plot>
         <div class="row">${this.report.note ? html`<span class="muted">${this.report.note}</span>` : nothing}
           <span class="muted">${this.report.method}: ${this.report.steps} steps, ${this.report.evaluations} evaluations of the rates</span>
           <button @click=${() => this.downloadCsv(plot)}>Export the series as CSV</button></div>
         ${this.closedForm(this.report.closedForm)}` : nothing}
       ${this.footErrors()}`;
+  }
+
+  /** A stored axis choice that is neither linear nor log: the message, and the two choices to pick from. */
+  private plotScaleError(error: { message: string } | undefined) {
+    return error ? html`<p class="foot-error">Plot scale: ${error.message}
+      <button @click=${() => this.setPlotScale('linear')}>Draw it on a linear axis</button> <button @click=${() => this.setPlotScale('log')}>Draw it on a log axis</button></p>` : nothing;
+  }
+
+  /** The plot's axis choice, stored in the cell (no field for linear, the default), one undo step. */
+  private setPlotScale(scale: PlotScale): void {
+    const { plotScale: _old, ...rest } = this.cell;
+    this.replace(scale === 'log' ? { ...rest, plotScale: 'log' } : rest);
   }
 
   /** The solver's tolerances, behind a disclosure: a relative tolerance from a list, an absolute one as an expression. */

@@ -3,7 +3,8 @@
  * parts: the rate f against the state with its zero line, the equilibria (marked by stability)
  * and any poles; under it, the phase line: the state's range with arrows showing which way the
  * state moves on each interval; and a direction field over time and state, with slope marks
- * taken from the sampled rate and the engine's solutions drawn over it.
+ * taken from the sampled rate and the engine's solutions drawn over it. A "Data table"
+ * disclosure shows the plotted values (`<chart-data>`, tables from plot-tables.ts).
  */
 import { LitElement, html, nothing, type PropertyValues } from 'lit';
 import uPlot from 'uplot';
@@ -13,6 +14,8 @@ import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf } from './axes.ts';
 import { drawOverlay, around, curveBoxes, type PointLabel } from './overlay.ts';
 import { FIELD_MARK, INK, MUTED, STABLE, UNSTABLE, ZERO_LINE } from './palette.ts';
+import { phaseTables } from './plot-tables.ts';
+import './data-table.ts';
 import { drawEquilibriumDot, equilibriumKey, type Side, type Stability } from './equilibrium-dot.ts';
 
 /** A quantity as the report gives it, in display units; the chart reads its value and unit. */
@@ -99,6 +102,7 @@ export class PhasePlot extends LitElement {
         </ul>
         <div class="chart field"></div>
         <p class="summary">${this.summary}</p>
+        <chart-data .name=${this.summary || `the phase of ${this.state}`} .tables=${() => phaseTables(this.plot!, this.state, this.equilibria, this.fieldData)}></chart-data>
       </figure>`;
   }
 

@@ -1,7 +1,8 @@
 /**
  * `<sweep-plot>`: the equilibria of a phase cell's sweep against the swept parameter. Each
  * branch is split into runs where its stability changes: attractors solid, the rest dashed;
- * the folds, where two equilibria meet and vanish, are marked and labelled.
+ * the folds, where two equilibria meet and vanish, are marked and labelled. A "Data table"
+ * disclosure lists every equilibrium and fold (`<chart-data>`).
  */
 import { LitElement, html, nothing, type PropertyValues } from 'lit';
 import uPlot from 'uplot';
@@ -12,6 +13,8 @@ import { xAxis, yAxis, ratioOf } from './axes.ts';
 import { drawOverlay, around, curveBoxes, type PointLabel } from './overlay.ts';
 import { FOLD, STABLE, UNSTABLE } from './palette.ts';
 import type { Stability } from './equilibrium-dot.ts';
+import { sweepTables } from './plot-tables.ts';
+import './data-table.ts';
 
 /** A quantity as the report gives it; the chart reads its value and unit. */
 type ShownQuantity = Readonly<Partial<ReportQuantity> & Pick<ReportQuantity, 'value' | 'unit'>>;
@@ -71,6 +74,7 @@ export class SweepPlot extends LitElement {
           ${s.folds.length ? html`<li><svg width="12" height="12"><path d="M6 1L11 6L6 11L1 6Z" fill=${FOLD}/></svg>fold</li>` : nothing}
         </ul>
         <p class="summary">${s.summary ?? ''}</p>
+        <chart-data .name=${s.summary || `the equilibria of ${this.state}`} .tables=${() => sweepTables(s, this.state)}></chart-data>
         ${[...(s.warnings ?? []), ...(s.incomplete ? [s.incomplete] : [])].map((w) => html`<p class="notes">${w}</p>`)}
       </figure>`;
   }

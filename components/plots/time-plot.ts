@@ -5,38 +5,29 @@
  * focus, levels as dashed lines, and the points the run found as labelled dots. A switch
  * relabels the time axis in another of the units the engine offers (`plot.timeUnits`, each with
  * its factor); the data are never converted. Optional measured
- * points are drawn as open dots over the state they measure.
+ * points are drawn as open dots over the state they measure. The state axes may be
+ * logarithmic (`scale`, the host's; with `scaleToggle` a checkbox asks the host to change it by a
+ * `plot-scale` event): values at or below zero are then left out of the drawing, and the plot
+ * says so. A "Data table" disclosure shows every plotted value as tables (`<chart-data>`).
  */
 import { LitElement, html, nothing, type PropertyValues } from 'lit';
 import uPlot from 'uplot';
-import { formatNumber, type SimulationPlot } from '../../src/index.ts';
+import { formatNumber, type PlotScale, type SimulationPlot } from '../../src/index.ts';
 import { ChartController, type ChartSpec } from './chart-controller.ts';
 import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf, tickLabels } from './axes.ts';
+import { eventTimes, leftOffLog, logDrawn, logSplits, onLogAxis, panelsOf, timePlotTables, timeSplits, type MeasuredPoints, type Panel } from './time-plot-parts.ts';
+import './data-table.ts';
 import { drawOverlay, around, curveBoxes, type PointLabel, type EventMarker } from './overlay.ts';
-import { EVENT_LINE, seriesColour } from './palette.ts';
+import { EVENT_LINE, GRID, seriesColour } from './palette.ts';
 
-/** Measured values of one state, times in the plot's time unit and values in the state's unit. */
-export interface MeasuredPoints {
-  readonly state: string;
-  readonly t: readonly number[];
-  readonly values: readonly number[];
-}
+export type { MeasuredPoints } from './time-plot-parts.ts';
 
-/** States that share a chart: at most two units, one y axis each. */
-interface Panel {
-  readonly units: string[];
-  /** Indices into plot.states. */
-  readonly states: number[];
-  readonly data: uPlot.AlignedData;
-}
+/** Asks the host to draw the state axes on another scale (`detail.scale`); the plot itself does not change. */
+export type PlotScaleEvent = CustomEvent<{ readonly scale: PlotScale }>;
 
 const HEIGHT = 300;
-/** Tick steps offered to the time axis, in the unit it is shown in. */
-const NICE_STEPS = [-6, -5, -4, -3, -2, -1, 0, 1, 2, 3, 4, 5, 6, 7, 8, 9].flatMap((e) => [1, 2, 2.5, 5].map((m) => m * 10 ** e));
 const fmt = (v: number) => formatNumber(v, 6);
-/** Least distance between time ticks, CSS pixels. */
-const TICK_SPACE = 60;
 
 export class TimePlot extends LitElement {
   static override properties = {
@@ -44,6 +35,8 @@ export class TimePlot extends LitElement {
     summary: {},
     points: { attribute: false },
     unit: {},
+    scale: {},
+    scaleToggle: { type: Boolean },
   };
 
   static override styles = chartStyles;
@@ -59,8 +52,14 @@ export class TimePlot extends LitElement {
    * the switch, or set by the host); the plot's own unit when empty or not among them.
    */
   unit = '';
+  /** How the state axes are drawn: the host's choice (a simulate cell's `plotScale`). */
+  scale: PlotScale = 'linear';
+  /** Show the log-axis checkbox (the host stores the choice and passes it back as `scale`). */
+  scaleToggle = false;
 
   private panels: Panel[] = [];
+  /** Each panel's data as drawn: the plot's own, or on a log axis with the values it cannot place left out. */
+  private drawn: uPlot.AlignedData[] = [];
   private readonly chart = new ChartController(this, () => this.specs());
 
   /** The uPlot charts, one per panel (for tests and tools; read-only use). */
@@ -75,26 +74,43 @@ export class TimePlot extends LitElement {
     const before = changed.get('points') as readonly MeasuredPoints[] | undefined;
     const pointsMoved = changed.has('points') && (before?.length !== this.points.length || this.points.some((m, i) => m !== before[i]));
     if (changed.has('plot') || pointsMoved) this.panels = this.plot ? panelsOf(this.plot) : [];
+    if (changed.has('plot') || pointsMoved || changed.has('scale')) this.drawn = this.panels.map((panel) => (this.isLog ? logDrawn(panel.data) : panel.data));
   }
 
   override render() {
     const p = this.plot;
     if (!p) return nothing;
     const choices = this.choices.map((c) => c.unit);
+    const log = this.isLog;
+    const leftOff = log ? leftOffLog(p, this.points) : [];
     return html`
       <figure>
-        ${choices.length > 1 ? html`
+        ${choices.length > 1 || this.scaleToggle ? html`
           <div class="controls">
-            <label>time in
+            ${this.scaleToggle ? html`<label><input type="checkbox" class="log-toggle" data-field="plotScale" .checked=${log}
+              @change=${(e: Event) => this.askScale((e.target as HTMLInputElement).checked ? 'log' : 'linear', e.target as HTMLInputElement)} /> log scale</label>` : nothing}
+            ${choices.length > 1 ? html`<label>time in
               <select aria-label="time unit" @change=${(e: Event) => { this.unit = (e.target as HTMLSelectElement).value; }}>
                 ${choices.map((u) => html`<option value=${u} ?selected=${u === this.shownUnit}>${u}</option>`)}
               </select>
-            </label>
+            </label>` : nothing}
           </div>` : nothing}
+        ${leftOff.map((text) => html`<p class="notes log-note">${text} The data table lists every value.</p>`)}
         ${this.panels.map((_, i) => html`<div class="chart" data-panel=${i}></div>`)}
         ${this.points.length ? html`<ul class="key"><li>${dot()} measured</li></ul>` : nothing}
         <p class="summary">${this.summary}</p>
+        <chart-data .name=${this.summary || 'the chart'} .tables=${() => timePlotTables(p, this.panels, this.points, this.factor, this.shownUnit)}></chart-data>
       </figure>`;
+  }
+
+  private get isLog(): boolean {
+    return this.scale === 'log';
+  }
+
+  /** Asks the host for another scale; the box shows the host's choice until it answers. */
+  private askScale(scale: PlotScale, box: HTMLInputElement): void {
+    box.checked = this.isLog;
+    this.dispatchEvent(new CustomEvent('plot-scale', { detail: { scale }, bubbles: true, composed: true }));
   }
 
   private specs(): ChartSpec[] {
@@ -103,10 +119,10 @@ export class TimePlot extends LitElement {
     const targets = this.renderRoot.querySelectorAll<HTMLElement>('.chart');
     return this.panels.map((panel, i) => ({
       target: targets[i],
-      key: JSON.stringify([panel.units, panel.states.map((s) => p.states[s].name)]),
+      key: JSON.stringify([panel.units, panel.states.map((s) => p.states[s].name), this.scale]),
       height: HEIGHT,
       options: () => this.options(i),
-      data: panel.data,
+      data: this.drawn[i],
       label: this.summary || `${panel.states.map((s) => p.states[s].name).join(', ')} against time`,
     }));
   }
@@ -133,12 +149,18 @@ export class TimePlot extends LitElement {
   private options(panelIndex: number): Omit<uPlot.Options, 'width' | 'height'> {
     const p = this.plot!;
     const panel = this.panels[panelIndex];
+    const logTicks: Partial<uPlot.Axis> = this.isLog ? {
+      values: (_u, splits) => splits.map((v) => (v == null ? '' : formatNumber(v, 3))),
+      filter: logSplits, grid: { show: true, stroke: GRID, width: 1, filter: logSplits }, ticks: { stroke: GRID, width: 1, size: 5, filter: logSplits },
+    } : {};
     const scaleOf = (s: number) => `y${panel.units.indexOf(p.states[s].unit)}`;
     const axisLabel = (u: string) => `${panel.states.filter((s) => p.states[s].unit === u).map((s) => p.states[s].name).join(', ')} (${u})`;
     return {
       scales: Object.fromEntries([
         ['x', { time: false }],
-        ...panel.units.map((unit, j) => [`y${j}`, { range: (_u: uPlot, min: number, max: number) => this.stateRange(unit, min, max) }]),
+        ...panel.units.map((unit, j) => [`y${j}`, this.isLog
+          ? { distr: 3, log: 10, range: (_u: uPlot, min: number, max: number) => this.stateRange(unit, min, max) }
+          : { range: (_u: uPlot, min: number, max: number) => this.stateRange(unit, min, max) }]),
       ]),
       series: [
         { label: 'time', value: (_u, v) => (v == null ? '–' : `${fmt(v * this.factor)} ${this.shownUnit}`) },
@@ -156,8 +178,8 @@ export class TimePlot extends LitElement {
           splits: (u, _axis, min, max) => timeSplits(min, max, this.factor, u.bbox.width / ratioOf(u)),
           values: (_u, splits) => tickLabels(splits.map((v) => v * this.factor), splits.length > 1 ? (splits[1] - splits[0]) * this.factor : 1),
         }),
-        yAxis('y0', axisLabel(panel.units[0]), 3),
-        ...(panel.units[1] ? [yAxis('y1', axisLabel(panel.units[1]), 1)] : []),
+        yAxis('y0', axisLabel(panel.units[0]), 3, logTicks),
+        ...(panel.units[1] ? [yAxis('y1', axisLabel(panel.units[1]), 1, this.isLog ? { ...logTicks, grid: { show: false } } : {})] : []),
       ],
       legend: { show: true, live: true },
       cursor: { points: { size: 7 } },
@@ -170,6 +192,13 @@ export class TimePlot extends LitElement {
     const p = this.plot!;
     const mine = (state: string) => p.states.find((s) => s.name === state)?.unit === unit;
     const extra = [...p.levels.filter((l) => mine(l.state)).map((l) => l.value), ...this.points.filter((m) => mine(m.state)).flatMap((m) => m.values)];
+    if (this.isLog) {
+      // only what the axis can place; the data arrive with the rest already left out
+      const shown = extra.filter(onLogAxis);
+      const lo = Math.min(onLogAxis(min) ? min : Infinity, ...shown);
+      const hi = Math.max(onLogAxis(max) ? max : -Infinity, ...shown);
+      return Number.isFinite(lo) && Number.isFinite(hi) ? uPlot.rangeLog(lo, hi, 10, true) : [1, 10];
+    }
     const lo = Math.min(min ?? Infinity, ...extra);
     const hi = Math.max(max ?? -Infinity, ...extra);
     return Number.isFinite(lo) && Number.isFinite(hi) ? uPlot.rangeNum(lo, hi, 0.1, true) : [0, 1];
@@ -211,7 +240,8 @@ export class TimePlot extends LitElement {
 
     ctx.setLineDash([7 * r, 5 * r]);
     ctx.lineWidth = 1.25 * r;
-    for (const l of p.levels.filter((l) => inPanel(l.state))) {
+    const placeable = (v: number) => !this.isLog || onLogAxis(v);
+    for (const l of p.levels.filter((l) => inPanel(l.state) && placeable(l.value))) {
       const y = u.valToPos(l.value, scaleOf(l.state), true);
       ctx.strokeStyle = seriesColour(stateIndex(l.state));
       ctx.beginPath();
@@ -226,6 +256,7 @@ export class TimePlot extends LitElement {
       ctx.fillStyle = '#fff';
       ctx.lineWidth = 1.5 * r;
       m.t.forEach((t, i) => {
+        if (!placeable(m.values[i])) return;
         ctx.beginPath();
         ctx.arc(u.valToPos(t, 'x', true), u.valToPos(m.values[i], scaleOf(m.state), true), 3.5 * r, 0, 2 * Math.PI);
         ctx.fill();
@@ -233,7 +264,7 @@ export class TimePlot extends LitElement {
       });
     }
 
-    const marks = p.marks.filter((m) => inPanel(m.state));
+    const marks = p.marks.filter((m) => inPanel(m.state) && placeable(m.value));
     for (const m of marks) {
       ctx.beginPath();
       ctx.arc(u.valToPos(m.time, 'x', true), u.valToPos(m.value, scaleOf(m.state), true), 4.5 * r, 0, 2 * Math.PI);
@@ -257,9 +288,9 @@ export class TimePlot extends LitElement {
       clear.push(around(x, y));
     }
     for (const m of this.points.filter((m) => inPanel(m.state))) {
-      m.t.forEach((t, i) => clear.push(around(u.valToPos(t, 'x'), u.valToPos(m.values[i], scaleOf(m.state)), 4)));
+      m.t.forEach((t, i) => placeable(m.values[i]) && clear.push(around(u.valToPos(t, 'x'), u.valToPos(m.values[i], scaleOf(m.state)), 4)));
     }
-    for (const l of p.levels.filter((l) => inPanel(l.state))) {
+    for (const l of p.levels.filter((l) => inPanel(l.state) && placeable(l.value))) {
       const y = u.valToPos(l.value, scaleOf(l.state));
       if (inside(cssW, y)) labels.push({ x: cssW - 2, y, text: l.label, kind: 'level', along: [0.75, 0.5, 0.25].map((f) => f * cssW) });
     }
@@ -268,45 +299,6 @@ export class TimePlot extends LitElement {
       .filter((ev) => ev.x >= 0 && ev.x <= cssW);
     drawOverlay(u, labels, events, [...clear, ...curveBoxes(u, panel.states.map((_, j) => j + 1))]);
   }
-}
-
-/**
- * Ticks for the time axis at round numbers of the unit it is shown in (`factor` of them per
- * data unit), at least TICK_SPACE pixels apart over `width` pixels; returned in data units.
- */
-function timeSplits(min: number, max: number, factor: number, width: number): number[] {
-  const lo = min * factor;
-  const hi = max * factor;
-  if (!(hi > lo) || !(width > 0)) return [min];
-  const step = NICE_STEPS.find((s) => (s / (hi - lo)) * width >= TICK_SPACE) ?? hi - lo;
-  const first = Math.ceil(lo / step - 1e-9);
-  const out: number[] = [];
-  for (let i = first; i * step <= hi + 1e-9 * step; i++) out.push((i * step) / factor);
-  return out;
-}
-
-/** Events grouped by time (two actions at one time get one marker). */
-function eventTimes(p: SimulationPlot): Array<{ time: number; labels: string[] }> {
-  const out: Array<{ time: number; labels: string[] }> = [];
-  for (const e of p.events) {
-    const same = out.find((o) => o.time === e.time);
-    if (same) {
-      if (!same.labels.includes(e.label)) same.labels.push(e.label);
-    } else out.push({ time: e.time, labels: [e.label] });
-  }
-  return out;
-}
-
-/** Groups the states by unit, two units to a chart, in the order the states come. */
-function panelsOf(p: SimulationPlot): Panel[] {
-  const units = [...new Set(p.states.map((s) => s.unit))];
-  const panels: Panel[] = [];
-  for (let i = 0; i < units.length; i += 2) {
-    const mine = units.slice(i, i + 2);
-    const states = p.states.flatMap((s, j) => (mine.includes(s.unit) ? [j] : []));
-    panels.push({ units: mine, states, data: [p.t, ...states.map((s) => p.states[s].values)] as uPlot.AlignedData });
-  }
-  return panels;
 }
 
 const dot = () => html`<svg width="10" height="10" aria-hidden="true"><circle cx="5" cy="5" r="3.5" fill="#fff" stroke="#1d2630" stroke-width="1.5"/></svg>`;

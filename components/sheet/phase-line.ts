@@ -13,6 +13,8 @@ import { equilibriumMark } from '../plots/equilibrium-dot.ts';
 /** A quantity as the report gives it; the line reads its value and unit. */
 type Q = Readonly<Pick<ReportQuantity, 'value' | 'unit'>>;
 export interface PhaseLineSpec {
+  /** The line's text alternative (the engine's summary of the phase cell): its name and its title. */
+  readonly label: string;
   readonly state: string;
   readonly from: number;
   readonly to: number;
@@ -28,7 +30,8 @@ export function phaseLine(p: PhaseLineSpec, width = 640): SVGTemplateResult {
   const span = p.to - p.from || 1;
   const X = (v: number) => left + ((v - p.from) / span) * (width - left - right);
   const label = (v: number) => `${formatNumber(v, 4)} ${p.unit}`.trim();
-  return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} 70" width=${width} height="70" font-family="sans-serif" font-size="11" role="img">
+  return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} 70" width=${width} height="70" font-family="sans-serif" font-size="11" role="img" aria-label=${p.label}>
+    <title>${p.label}</title>
     <line x1=${left} x2=${width - right} y1=${y} y2=${y} stroke=${INK} stroke-width="1.2" />
     <text x=${left} y=${y + 26} text-anchor="start" fill=${INK}>${label(p.from)}</text>
     <text x=${width - right} y=${y + 26} text-anchor="end" fill=${INK}>${label(p.to)}</text>

@@ -9,6 +9,7 @@ import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
 import { STABLE, UNSTABLE } from '../plots/palette.ts';
+import { leftOffLog } from '../plots/time-plot-parts.ts';
 import { math } from './math.ts';
 
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
@@ -102,17 +103,17 @@ function phase(cell: Of<'phase'>, r: ReportOf<'phase'>, state: string): Template
   const ys = (plot?.y ?? []).filter((v): v is number => v !== null);
   const sweep = r.sweep;
   return html`
-    ${ys.length > 1 ? html`<figure>${phaseLine({ state, from: ys[0], to: ys[ys.length - 1], unit: plot!.stateUnit, equilibria: eqs, intervals: r.intervals ?? [] })}</figure>` : nothing}
+    ${ys.length > 1 ? html`<figure>${phaseLine({ label: summaryOr(r.summary, `phase line of ${state}`), state, from: ys[0], to: ys[ys.length - 1], unit: plot!.stateUnit, equilibria: eqs, intervals: r.intervals ?? [] })}</figure>` : nothing}
     ${eqs.length ? html`<table><thead><tr><th>Equilibrium</th><th>Stability</th><th>Slope of the rate there</th></tr></thead>
       <tbody>${eqs.map((e) => html`<tr><td class="num">${showQ(e)}</td><td>${e.stability}</td><td class="num">${showQ(e.slope)}</td></tr>`)}</tbody></table>`
       : html`<p>No equilibrium in the range ${cell.from} to ${cell.to}.</p>`}
-    <div class="keep">${plot && ys.length > 1 ? html`<figure>${lineChart({ xLabel: `state (${plot.stateUnit})`, yLabels: [`rate (${plot.rateUnit})`], zeroLine: true, height: 200,
+    <div class="keep">${plot && ys.length > 1 ? html`<figure>${lineChart({ label: summaryOr(r.summary, `rate of ${state} against ${state}`), xLabel: `state (${plot.stateUnit})`, yLabels: [`rate (${plot.rateUnit})`], zeroLine: true, height: 200,
       lines: [{ label: 'rate', x: plot.y.map((v) => v ?? NaN), y: plot.f }] })}</figure>` : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
-    ${sweep ? sweepPart(cell, sweep) : nothing}`;
+    ${sweep ? sweepPart(cell, sweep, state) : nothing}`;
 }
 
-function sweepPart(cell: Of<'phase'>, sweep: SweepReport): TemplateResult {
+function sweepPart(cell: Of<'phase'>, sweep: SweepReport, state: string): TemplateResult {
   const first = sweep.branches.find((b) => b.length)?.[0];
   // each branch in pieces of one stability: attractors solid, the rest dashed, one legend entry per kind
   const lines: ChartLine[] = [];
@@ -130,7 +131,7 @@ function sweepPart(cell: Of<'phase'>, sweep: SweepReport): TemplateResult {
     }
   }
   return html`<h3>As ${cell.sweep?.name} runs from ${cell.sweep?.from} to ${cell.sweep?.to}</h3>
-    ${first ? html`<figure>${lineChart({ xLabel: `${cell.sweep?.name} (${first.parameter.unit})`, yLabels: [`equilibrium (${first.value.unit})`], lines, height: 220 })}</figure>` : nothing}
+    ${first ? html`<figure>${lineChart({ label: summaryOr(sweep.summary, `equilibria of ${state} against ${cell.sweep?.name}`), xLabel: `${cell.sweep?.name} (${first.parameter.unit})`, yLabels: [`equilibrium (${first.value.unit})`], lines, height: 220 })}</figure>` : nothing}
     ${sweep.folds.length ? html`<table><thead><tr><th>Fold at ${cell.sweep?.name}</th><th>Equilibrium there</th></tr></thead>
       <tbody>${sweep.folds.map((f) => html`<tr><td class="num">${showQ(f.parameter)}</td><td class="num">${showQ(f.value)}</td></tr>`)}</tbody></table>`
       : html`<p>No fold: no two equilibria meet in this range.</p>`}`;
@@ -153,19 +154,27 @@ function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>): TemplateResult
     ${events.length ? html`<table><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e, i) => html`<tr>
       <td>${e.at}</td><td>${schedule[i]?.repeats ?? ''}</td>
       <td>${e.add ? `add ${Object.entries(e.add).map(([k, v]) => `${v} to ${k}`).join(', ')}` : e.set ? `set ${Object.entries(e.set).map(([k, v]) => `${k} = ${v}`).join(', ')}` : e.infuse ? `infuse ${Object.entries(e.infuse).map(([k, v]) => `${v} into ${k}`).join(', ')} for ${e.for}` : ''}</td></tr>`)}</tbody></table>` : nothing}
-    <div class="keep">${plot ? timeChart(plot) : nothing}
+    <div class="keep">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log') : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
     ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
       <td class="name">${f.name}</td><td>${questions[f.name] ?? ''}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
     ${Object.entries(closed).map(([state, c]) => html`<p class="check">Check: ${state} also follows an exact solution here${c.timeConstant ? ` (time constant ${showQ(c.timeConstant)}${c.halfLife ? `, half-life ${showQ(c.halfLife)}` : ''})` : ''}; the numeric run differs from it by at most ${showQ(c.maxError)}.</p>`)}`;
 }
 
-function timeChart(plot: SimulationPlot): TemplateResult {
+/** A chart's text alternative: the engine's summary, or words naming what it shows when there is none. */
+function summaryOr(summary: unknown, fallback: string): string {
+  return typeof summary === 'string' && summary ? summary : fallback;
+}
+
+/** A run's chart; with `log`, on log axes, with a note of each state's values that cannot be drawn there. */
+function timeChart(plot: SimulationPlot, summary: unknown, log = false): TemplateResult {
   const units = [...new Set(plot.states.map((s) => s.unit))].slice(0, 2);
   const axisOf = (state: string) => (units.indexOf(plot.states.find((s) => s.name === state)?.unit ?? '') === 1 ? 1 : 0);
   const shown = plot.states.filter((s) => units.includes(s.unit));
   const points: ChartPoints[] = (plot.points ?? []).map((p) => ({ label: `${p.state} measured`, x: p.t, y: p.values, axis: axisOf(p.state), colourOf: shown.findIndex((s) => s.name === p.state) }));
   return html`<figure>${lineChart({
+    logY: log,
+    label: summaryOr(summary, `${shown.map((s) => s.name).join(', ')} against time`),
     xLabel: `time (${plot.timeUnit})`,
     yLabels: units.map((u) => `${shown.filter((s) => s.unit === u).map((s) => s.name).join(', ')} (${u})`),
     lines: shown.map((s) => ({ label: s.name, x: plot.t, y: s.values, axis: units.indexOf(s.unit) === 1 ? 1 : 0 })),
@@ -173,7 +182,7 @@ function timeChart(plot: SimulationPlot): TemplateResult {
     levels: plot.levels.map((l) => ({ y: l.value, label: l.label, axis: axisOf(l.state) })),
     events: plot.events.map((e) => ({ x: e.time, label: e.label })),
     marks: plot.marks.map((m) => ({ x: m.time, y: m.value, label: m.name, axis: axisOf(m.state) })),
-  })}</figure>`;
+  })}${log ? html`<figcaption>States on a logarithmic axis.${leftOffLog(plot, plot.points ?? []).map((t) => html` ${t}`)}</figcaption>` : nothing}</figure>`;
 }
 
 function data(cell: Of<'data'>, r: ReportOf<'data'>): TemplateResult {
@@ -192,7 +201,7 @@ function fit(cell: Of<'fit'>, r: ReportOf<'fit'>): TemplateResult {
     <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
     <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, residual SD ${r.residualSD ? showQ(r.residualSD) : residualSdReason(r)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message}).</p>
-    <div class="keep">${plot ? timeChart(plot) : nothing}
+    <div class="keep">${plot ? timeChart(plot, r.summary) : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>`;
 }
 

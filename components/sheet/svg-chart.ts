@@ -2,9 +2,11 @@
  * A static line chart drawn as SVG for the printed sheet: vector lines and text, so it is
  * sharp at any print resolution, and no canvas or script is needed once drawn. Axes with
  * round ticks, curves (gaps where a value is null), measured points, dashed levels, event
- * times and labelled marks. Shows what it is given; it computes nothing but the layout.
+ * times and labelled marks. Shows what it is given; it computes nothing but the layout. The
+ * chart is an image named by its `label` (aria-label and <title>), the engine's summary.
  */
 import { svg, type SVGTemplateResult } from 'lit';
+import { formatNumber } from '../../src/index.ts';
 import { tickLabels } from '../plots/axes.ts';
 import { placeLabel, type Box, type Taken } from '../plots/label-placement.ts';
 import { INK, seriesColour } from '../plots/palette.ts';
@@ -18,6 +20,8 @@ export interface ChartLine {
 }
 export interface ChartPoints { readonly label: string; readonly x: readonly number[]; readonly y: readonly number[]; readonly axis?: 0 | 1; readonly colourOf?: number }
 export interface ChartSpec {
+  /** The chart's text alternative (the engine's summary of what it shows): its name and its title. */
+  readonly label: string;
   readonly xLabel: string;
   /** One label per y axis: a second axis on the right when there are two. */
   readonly yLabels: readonly string[];
@@ -28,6 +32,11 @@ export interface ChartSpec {
   readonly marks?: ReadonlyArray<{ readonly x: number; readonly y: number; readonly label: string; readonly axis?: 0 | 1 }>;
   /** A horizontal line at zero (the rate in a phase plot). */
   readonly zeroLine?: boolean;
+  /**
+   * The y axes logarithmic (base 10): values at or below zero have no place there and are
+   * left out of the drawing (the caller says so beside the chart).
+   */
+  readonly logY?: boolean;
   readonly width?: number;
   readonly height?: number;
 }
@@ -79,6 +88,29 @@ function axisRange(lo: number, hi: number): { lo: number; hi: number; ticks: num
   return b > a ? { lo: a, hi: b, ticks: ticks.filter((v) => v >= a - step * 1e-9 && v <= b + step * 1e-9), step } : { lo: a - step, hi: a + step, ticks: [a - step, a, a + step], step };
 }
 
+/** A y axis: its ticks with their labels, and where a value sits on it (0 bottom, 1 top; null: nowhere). */
+interface YAxis { readonly ticks: number[]; readonly labels: string[]; readonly at: (v: number) => number | null }
+
+function linearAxis(values: Array<number | null>): YAxis {
+  const r = axisRange(...extent(values));
+  return { ticks: r.ticks, labels: tickLabels(r.ticks, r.step), at: (v) => (v - r.lo) / (r.hi - r.lo) };
+}
+
+/** Whole decades around the positive values; ticks at powers of ten (every few when there are many), and at 2 and 5 times them over two decades or less. */
+function logAxis(values: Array<number | null>): YAxis {
+  const positive = values.filter((v): v is number => v !== null && v > 0 && Number.isFinite(v));
+  // nothing the axis can place (or an axis with nothing on it): one decade, 1 to 10
+  const [lo, hi] = positive.length ? extent(positive) : [1, 10];
+  const a = Math.floor(Math.log10(lo) + 1e-9);
+  const b = Math.max(a + 1, Math.ceil(Math.log10(hi) - 1e-9));
+  const ticks: number[] = [];
+  // every decade up to 8 of them, else every few so that at most about 8 are labelled
+  const every = Math.ceil((b - a) / 8);
+  // counted down from the top decade, so that the top of the axis is labelled
+  for (let e = b; e >= a; e -= every) for (const m of b - a <= 2 ? [5, 2, 1] : [1]) if (e < b || m === 1) ticks.unshift(m * 10 ** e);
+  return { ticks, labels: ticks.map((v) => formatNumber(v, 3)), at: (v) => (v > 0 ? (Math.log10(v) - a) / (b - a) : null) };
+}
+
 export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const width = spec.width ?? 640;
   const height = spec.height ?? 250;
@@ -94,30 +126,35 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const yr = [0, 1].map((axis) => {
     const on = <T extends { axis?: 0 | 1 }>(list: readonly T[] | undefined) => (list ?? []).filter((l) => (l.axis ?? 0) === axis);
     const ys = [...on(spec.lines).flatMap((l) => l.y), ...on(spec.points).flatMap((p) => p.y), ...on(spec.levels).map((l) => l.y), ...(spec.zeroLine && axis === 0 ? [0] : [])];
-    return axisRange(...extent(ys));
+    return spec.logY ? logAxis(ys) : linearAxis(ys);
   });
   const X = (v: number) => left + ((v - xr.lo) / (xr.hi - xr.lo)) * pw;
-  const Y = (v: number, axis: 0 | 1 = 0) => top + ph - ((v - yr[axis].lo) / (yr[axis].hi - yr[axis].lo)) * ph;
+  /** NaN where the axis has no place for the value (at or below zero on a log axis). */
+  const Y = (v: number, axis: 0 | 1 = 0) => top + ph - (yr[axis].at(v) ?? NaN) * ph;
+  const onAxis = (v: number, axis: 0 | 1 = 0) => Number.isFinite(Y(v, axis));
+  const levels = (spec.levels ?? []).filter((l) => onAxis(l.y, l.axis ?? 0));
+  const marks = (spec.marks ?? []).filter((m) => onAxis(m.y, m.axis ?? 0));
+  const points = (spec.points ?? []).map((p) => ({ ...p, shown: p.x.flatMap((x, j) => (onAxis(p.y[j], p.axis ?? 0) ? [j] : [])) }));
   const path = (l: ChartLine) => {
     let d = '';
     let pen = false;
     for (let i = 0; i < l.x.length; i++) {
       const y = l.y[i];
-      if (y === null || !Number.isFinite(y) || !Number.isFinite(l.x[i])) { pen = false; continue; }
+      if (y === null || !Number.isFinite(y) || !Number.isFinite(l.x[i]) || !onAxis(y, l.axis ?? 0)) { pen = false; continue; }
       d += `${pen ? 'L' : 'M'}${X(l.x[i]).toFixed(1)},${Y(y, l.axis ?? 0).toFixed(1)}`;
       pen = true;
     }
     return d;
   };
   const xLabels = tickLabels(xr.ticks, xr.step);
-  const yLabels = yr.map((r) => tickLabels(r.ticks, r.step));
+  const yLabels = yr.map((r) => r.labels);
   const listed = spec.lines.map((l, i) => ({ l, i })).filter(({ l }) => !l.unlisted);
   const legend = listed.length > 1 || (spec.points ?? []).length > 0;
   // labels of marks, then levels, placed so that none covers another, off the curves where there is room
   const taken: Taken = { labels: [], clear: [
     ...curveBoxes(spec.lines, X, Y),
-    ...(spec.points ?? []).flatMap((p) => p.x.map((x, j) => around(X(x), Y(p.y[j], p.axis ?? 0), 4))),
-    ...(spec.marks ?? []).map((m) => around(X(m.x), Y(m.y, m.axis ?? 0), 4)),
+    ...points.flatMap((p) => p.shown.map((j) => around(X(p.x[j]), Y(p.y[j], p.axis ?? 0), 4))),
+    ...marks.map((m) => around(X(m.x), Y(m.y, m.axis ?? 0), 4)),
   ] };
   const bounds: Box = { x: left + 1, y: top + 1, w: pw - 2, h: ph - 2 };
   const placed: PlacedLabel[] = [];
@@ -131,16 +168,17 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
     const ny = Math.min(Math.max(py, box.y), box.y + box.h);
     placed.push({ text, box, ...(!along && Math.hypot(nx - px, ny - py) > LEADER_FROM ? { leader: [px, py, nx, ny] as const } : {}) });
   };
-  for (const m of spec.marks ?? []) place(m.label, X(m.x), Y(m.y, m.axis ?? 0));
-  for (const l of spec.levels ?? []) place(l.label, left + pw - 4, Y(l.y, l.axis ?? 0), [left + pw / 2, left + 8]);
+  for (const m of marks) place(m.label, X(m.x), Y(m.y, m.axis ?? 0));
+  for (const l of levels) place(l.label, left + pw - 4, Y(l.y, l.axis ?? 0), [left + pw / 2, left + 8]);
   const extra = (legend ? 18 : 0) + (unplaced.length ? UNPLACED_ROW : 0);
-  return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height + extra}" width="${width}" height="${height + extra}" font-family="sans-serif" font-size="${FONT}" role="img">
+  return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height + extra}" width="${width}" height="${height + extra}" font-family="sans-serif" font-size="${FONT}" role="img" aria-label=${spec.label}>
+    <title>${spec.label}</title>
     <g stroke="#d5dbe0" stroke-width="0.6">
       ${xr.ticks.map((v) => svg`<line x1=${X(v)} x2=${X(v)} y1=${top} y2=${top + ph} />`)}
       ${yr[0].ticks.map((v) => svg`<line x1=${left} x2=${left + pw} y1=${Y(v)} y2=${Y(v)} />`)}
     </g>
     <rect x=${left} y=${top} width=${pw} height=${ph} fill="none" stroke=${INK} stroke-width="0.8" />
-    ${spec.zeroLine && yr[0].lo < 0 && yr[0].hi > 0 ? svg`<line x1=${left} x2=${left + pw} y1=${Y(0)} y2=${Y(0)} stroke=${INK} stroke-width="0.8" />` : ''}
+    ${spec.zeroLine && !spec.logY && (yr[0].at(0) ?? -1) > 0 && (yr[0].at(0) ?? 2) < 1 ? svg`<line x1=${left} x2=${left + pw} y1=${Y(0)} y2=${Y(0)} stroke=${INK} stroke-width="0.8" />` : ''}
     <g fill=${INK}>
       ${xr.ticks.map((v, i) => svg`<text x=${X(v)} y=${top + ph + 14} text-anchor="middle">${xLabels[i]}</text>`)}
       ${yr[0].ticks.map((v, i) => svg`<text x=${left - 5} y=${Y(v) + 4} text-anchor="end">${yLabels[0][i]}</text>`)}
@@ -150,10 +188,10 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
       ${twoAxes ? svg`<text transform="translate(${width - 8} ${top + ph / 2}) rotate(90)" text-anchor="middle">${spec.yLabels[1]}</text>` : ''}
     </g>
     ${(spec.events ?? []).map((e) => svg`<line x1=${X(e.x)} x2=${X(e.x)} y1=${top} y2=${top + ph} stroke="#7a5ba8" stroke-width="0.8" stroke-dasharray="2 3"><title>${e.label}</title></line>`)}
-    ${(spec.levels ?? []).map((l) => svg`<line x1=${left} x2=${left + pw} y1=${Y(l.y, l.axis ?? 0)} y2=${Y(l.y, l.axis ?? 0)} stroke="#555" stroke-width="0.8" stroke-dasharray="5 3" />`)}
+    ${levels.map((l) => svg`<line x1=${left} x2=${left + pw} y1=${Y(l.y, l.axis ?? 0)} y2=${Y(l.y, l.axis ?? 0)} stroke="#555" stroke-width="0.8" stroke-dasharray="5 3" />`)}
     ${spec.lines.map((l, i) => svg`<path d=${path(l)} fill="none" stroke=${l.colour ?? seriesColour(i)} stroke-width="1.6" stroke-linejoin="round" stroke-dasharray=${l.dashed ? '6 4' : 'none'} />`)}
-    ${(spec.points ?? []).map((p, i) => p.x.map((x, j) => svg`<circle cx=${X(x)} cy=${Y(p.y[j], p.axis ?? 0)} r="2.8" fill="#fff" stroke=${seriesColour(p.colourOf ?? i)} stroke-width="1.2" />`))}
-    ${(spec.marks ?? []).map((m) => svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />`)}
+    ${points.map((p, i) => p.shown.map((j) => svg`<circle cx=${X(p.x[j])} cy=${Y(p.y[j], p.axis ?? 0)} r="2.8" fill="#fff" stroke=${seriesColour(p.colourOf ?? i)} stroke-width="1.2" />`))}
+    ${marks.map((m) => svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />`)}
     <g stroke="#777" stroke-width="0.6">${placed.filter((p) => p.leader).map(({ leader: [x1, y1, x2, y2] = [0, 0, 0, 0] }) => svg`<line x1=${x1} y1=${y1} x2=${x2} y2=${y2} />`)}</g>
     <g class="labels" font-size=${LABEL_FONT} fill=${INK}>${placed.map((p) => svg`<text class="lbl" x=${p.box.x + 1} y=${p.box.y + p.box.h - 3}>${p.text}</text>`)}</g>
     ${unplaced.length ? svg`<text class="unplaced" x=${left} y=${height + extra - 4} font-size="10" fill=${INK}>Marked but not labelled, for want of room: ${unplaced.join(', ')}</text>` : ''}
@@ -174,7 +212,7 @@ function curveBoxes(lines: readonly ChartLine[], X: (v: number) => number, Y: (v
     let prev: [number, number] | undefined;
     for (let i = 0; i < l.x.length; i++) {
       const v = l.y[i];
-      if (v === null || !Number.isFinite(v) || !Number.isFinite(l.x[i])) { prev = undefined; continue; }
+      if (v === null || !Number.isFinite(v) || !Number.isFinite(l.x[i]) || !Number.isFinite(Y(v, l.axis ?? 0))) { prev = undefined; continue; }
       const p: [number, number] = [X(l.x[i]), Y(v, l.axis ?? 0)];
       const n = prev ? Math.min(200, Math.floor(Math.hypot(p[0] - prev[0], p[1] - prev[1]) / step)) : 0;
       for (let k = 1; k < n; k++) boxes.push(around(prev![0] + ((p[0] - prev![0]) * k) / n, prev![1] + ((p[1] - prev![1]) * k) / n, 1.5));

@@ -83,7 +83,16 @@ export interface SimulateCell extends CellBase {
   tolerance?: { relative?: number; absolute?: string };
   events?: ScheduleEvent[];
   find?: FindQuery[];
+  /**
+   * How the plot's state axis is drawn (optional, a Ratebook display field): `linear` (the
+   * default) or `log`. It changes no value the run computes.
+   */
+  plotScale?: PlotScale;
 }
+
+/** The state axis of a simulate cell's plot: linear, or logarithmic (base 10). */
+export const PLOT_SCALES = ['linear', 'log'] as const;
+export type PlotScale = (typeof PLOT_SCALES)[number];
 
 export interface DataColumn { name: string; unit: string }
 export interface DataCell extends CellBase { kind: 'data'; columns: DataColumn[]; rows?: Array<Array<number | null>>; csv?: string }

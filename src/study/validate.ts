@@ -7,7 +7,7 @@
  */
 import {
   type Cell, type Study, CELL_KINDS, CURRENT_VERSION, FORMAT, ID_PATTERN, NAME_PATTERN,
-  METHODS, FIND_KINDS, WEIGHTINGS, ROUTES, AUC_RULES, NCA_RESULTS,
+  METHODS, PLOT_SCALES, FIND_KINDS, WEIGHTINGS, ROUTES, AUC_RULES, NCA_RESULTS,
 } from './types.ts';
 import { migrate } from './migrate.ts';
 
@@ -198,6 +198,7 @@ function checkSimulate(c: Record<string, unknown>, p: Checker): void {
   p.expr(c, 'from');
   p.expr(c, 'to');
   p.oneOf(c, 'method', METHODS, true);
+  p.oneOf(c, 'plotScale', PLOT_SCALES, true);
   const fixed = c.method === 'rk4' || c.method === 'heun' || c.method === 'euler';
   if (fixed || c.step !== undefined) p.expr(c, 'step');
   if (c.tolerance !== undefined && p.object(c.tolerance, 'tolerance')) {

@@ -42,7 +42,7 @@ describe('svg-chart labels', () => {
   it('labels of marks and levels never overlap, as the browser lays them out, even on one point', () => {
     // the case seen on the sheet: the last peak and the time of that peak mark the same point
     const spec: ChartSpec = {
-      xLabel: 'time (h)', yLabels: ['C (mg/L)'], lines: [line],
+      label: 'C against time', xLabel: 'time (h)', yLabels: ['C (mg/L)'], lines: [line],
       marks: [
         { x: 24, y: 16, label: 'peak_last' }, { x: 24, y: 16, label: 't_peak_last' },
         { x: 16, y: 14, label: 'peak_3' }, { x: 16.2, y: 14, label: 'trough_3' }, { x: 0, y: 10, label: 'C0' },
@@ -62,7 +62,7 @@ describe('svg-chart labels', () => {
     const marks = Array.from({ length: 60 }, (_, i) => ({ x: 12, y: 12, label: `a_rather_long_label_${i}` }));
     const host = document.createElement('div');
     document.body.append(host);
-    render(lineChart({ xLabel: 'time (h)', yLabels: ['C (mg/L)'], lines: [line], marks, height: 120 }), host);
+    render(lineChart({ label: 'C against time', xLabel: 'time (h)', yLabels: ['C (mg/L)'], lines: [line], marks, height: 120 }), host);
     const boxes = [...host.querySelectorAll<SVGTextElement>('text.lbl')].map((x) => x.getBBox());
     for (let i = 0; i < boxes.length; i++) for (let j = i + 1; j < boxes.length; j++) expect(overlap(boxes[i], boxes[j])).to.equal(false);
     expect(boxes.length).to.be.below(60);
