@@ -2,7 +2,7 @@
  * What every cell element shares: errors looked up by field path, the study's names for the
  * expression fields, the edit event, and the shared styles. Look-ups only; no computation.
  */
-import { css, html, nothing } from 'lit';
+import { css, html, nothing, unsafeCSS } from 'lit';
 import type { CellError, ParameterValue, Report, ReportBase, ReportQuantity } from '../../src/index.ts';
 import { formatNumber, unitAfterNumber } from '../../src/index.ts';
 import type { StudyName } from '../expr-field.ts';
@@ -85,6 +85,34 @@ function collectNames(report: Report): StudyName[] {
   return out;
 }
 
+/**
+ * The width (CSS px) below which a cell's tables become stacked blocks, one per row: a phone.
+ * A tablet (820 px) keeps the columns.
+ */
+export const NARROW_PX = 700;
+const narrow = unsafeCSS(`(max-width: ${NARROW_PX}px)`);
+
+/**
+ * A table of rows the user edits, stacked: each row a block whose cells wrap side by side, each
+ * under its own heading (its `data-label`), the remove button (`td.remove`) at the block's top
+ * right, a `td.wide` on a line of its own. For `table.stack` on a phone, `table.stack-always`
+ * everywhere.
+ */
+function stacked(table: string) {
+  return unsafeCSS(`
+    ${table}, ${table} tbody { display: block; }
+    .scroll:has(> ${table}) { overflow-x: visible; }
+    ${table} thead { display: none; }
+    ${table} tr { display: flex; flex-wrap: wrap; align-items: flex-end; gap: 0.3rem 0.6rem; padding: 0.45rem 2.2rem 0.45rem 0; border-bottom: 1px solid #d5dbe0; position: relative; }
+    ${table} td { display: block; flex: 1 1 7.5rem; min-width: 0; padding: 0; }
+    ${table} td[data-label]::before { content: attr(data-label); display: block; font-size: 0.75rem; color: #4a5560; margin-bottom: 0.1rem; }
+    ${table} td.remove { position: absolute; top: 0.45rem; right: 0; }
+    ${table} td.wide { flex-basis: 100%; }
+    ${table} td.result { white-space: normal; }
+    ${table} input[type='text'], ${table} select { width: 100%; box-sizing: border-box; }
+    ${table} expr-field { min-width: 0; }`);
+}
+
 export const cellStyles = css`
   :host { display: block; }
   .row { display: flex; flex-wrap: wrap; gap: 0.5rem 0.9rem; align-items: center; margin: 0.35rem 0; }
@@ -107,5 +135,9 @@ export const cellStyles = css`
   .summary { color: #2b3640; font-size: 0.92rem; margin: 0.4rem 0; }
   .muted { color: #5b6670; font-size: 0.85rem; }
   .sr { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); white-space: nowrap; }
+  select { max-width: 100%; }
+  label:has(select) { max-width: 100%; }
+  @media ${narrow} { ${stacked('table.stack')} }
+  ${stacked('table.stack-always')}
   @media print { button, select, input[type='range'] { display: none !important; } }
 `;

@@ -44,24 +44,24 @@ export class FitCellElement extends CellElement<'fit'> {
         <label>Weighting <select @change=${(e: Event) => this.edit({ weighting: (e.target as HTMLSelectElement).value as FitDoc['weighting'] })}>
           ${([['none', 'none'], ['relative', 'relative (1/y²)'], ['proportional', 'proportional (1/y)']] as const).map(([v, l]) => html`<option value=${v} ?selected=${(c.weighting ?? 'none') === v}>${l}</option>`)}</select></label>
       </div>
-      <div class="scroll"><table class="est">
+      <div class="scroll"><table class="est stack-always">
         <thead><tr><th>Estimate</th><th>as</th><th>Guess</th><th>At least</th><th>At most</th><th>Value</th><th>Standard error</th><th>95% interval</th><th></th></tr></thead>
         <tbody>${(c.estimate ?? []).map((e, i) => {
           const res = estimates[e.as];
           const p = `.estimate[${i}]`;
           return html`<tr>
-            <td><input class="name" type="text" aria-label="Estimate ${i + 1}: parameter or state" .value=${e.parameter ?? ''} @input=${(ev: Event) => this.setEstimate(i, { parameter: (ev.target as HTMLInputElement).value }, `p${i}`)} />
+            <td data-label="Estimate"><input class="name" type="text" aria-label="Estimate ${i + 1}: parameter or state" .value=${e.parameter ?? ''} @input=${(ev: Event) => this.setEstimate(i, { parameter: (ev.target as HTMLInputElement).value }, `p${i}`)} />
               ${claims.take(`${p}.parameter`) ? html`<div class="foot-error">${claims.take(`${p}.parameter`)!.message}</div>` : nothing}</td>
-            <td><input class="name" type="text" aria-label="Estimate ${i + 1}: name of the result" .value=${e.as ?? ''} @input=${(ev: Event) => this.setEstimate(i, { as: (ev.target as HTMLInputElement).value }, `as${i}`)} /></td>
-            <td><expr-field label="Estimate ${i + 1} guess" .value=${e.guess ?? ''} .names=${names} .error=${claims.take(`${p}.guess`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { guess: ev.detail.value }, `g${i}`)}></expr-field></td>
-            <td><expr-field label="Estimate ${i + 1} lower bound" .value=${e.min ?? ''} .names=${names} .error=${claims.take(`${p}.min`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { min: ev.detail.value || undefined }, `min${i}`)}></expr-field></td>
-            <td><expr-field label="Estimate ${i + 1} upper bound" .value=${e.max ?? ''} .names=${names} .error=${claims.take(`${p}.max`) ?? claims.take(`${p}`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { max: ev.detail.value || undefined }, `max${i}`)}></expr-field></td>
-            <td class="result">${res ? `${showQ(res.value)}${res.atBound ? ' (at a bound)' : ''}` : ''}${res ? html`<unit-pick .unit=${res.value.unit} .picked=${e.unit} label="Show ${e.as} in another unit"
+            <td data-label="as"><input class="name" type="text" aria-label="Estimate ${i + 1}: name of the result" .value=${e.as ?? ''} @input=${(ev: Event) => this.setEstimate(i, { as: (ev.target as HTMLInputElement).value }, `as${i}`)} /></td>
+            <td data-label="Guess"><expr-field label="Estimate ${i + 1} guess" .value=${e.guess ?? ''} .names=${names} .error=${claims.take(`${p}.guess`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { guess: ev.detail.value }, `g${i}`)}></expr-field></td>
+            <td data-label="At least"><expr-field label="Estimate ${i + 1} lower bound" .value=${e.min ?? ''} .names=${names} .error=${claims.take(`${p}.min`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { min: ev.detail.value || undefined }, `min${i}`)}></expr-field></td>
+            <td data-label="At most"><expr-field label="Estimate ${i + 1} upper bound" .value=${e.max ?? ''} .names=${names} .error=${claims.take(`${p}.max`) ?? claims.take(`${p}`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { max: ev.detail.value || undefined }, `max${i}`)}></expr-field></td>
+            <td class="result" data-label="Value">${res ? `${showQ(res.value)}${res.atBound ? ' (at a bound)' : ''}` : ''}${res ? html`<unit-pick .unit=${res.value.unit} .picked=${e.unit} label="Show ${e.as} in another unit"
               @unit-pick=${(ev: CustomEvent<UnitPickDetail>) => this.setEstimate(i, { unit: ev.detail.unit }, `unit${i}`)}></unit-pick>` : nothing}
               ${claims.take(`${p}.unit`) ? html`<div class="foot-error">${claims.take(`${p}.unit`)!.message}</div>` : nothing}</td>
-            <td class="result">${res?.standardError ? showQ(res.standardError) : ''}</td>
-            <td class="result">${res?.ci95 ? `${showQ(res.ci95[0])} to ${showQ(res.ci95[1])}` : ''}</td>
-            <td><button class="quiet" aria-label="Remove estimate ${i + 1}" @click=${() => this.edit({ estimate: c.estimate.filter((_, j) => j !== i) })}>✕</button></td>
+            <td class="result" data-label="Standard error">${res?.standardError ? showQ(res.standardError) : ''}</td>
+            <td class="result" data-label="95% interval">${res?.ci95 ? `${showQ(res.ci95[0])} to ${showQ(res.ci95[1])}` : ''}</td>
+            <td class="remove"><button class="quiet" aria-label="Remove estimate ${i + 1}" @click=${() => this.edit({ estimate: c.estimate.filter((_, j) => j !== i) })}>✕</button></td>
           </tr>`;
         })}</tbody></table></div>
       <div class="row"><button @click=${this.addEstimate}>Estimate another parameter</button></div>

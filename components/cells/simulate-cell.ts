@@ -83,22 +83,22 @@ export class SimulateCellElement extends CellElement<'simulate'> {
 
   private eventsTable(claims: ErrorClaims, names: StudyName[]) {
     const events = this.cell.events ?? [];
-    return html`<div class="scroll"><table class="events">
+    return html`<div class="scroll"><table class="events stack">
       ${events.length ? html`<thead><tr><th>At</th><th>Every</th><th>Times</th><th>Action</th><th>On</th><th>Amount</th><th>For</th><th></th></tr></thead>` : nothing}
       <tbody>${events.map((ev, i) => {
         const kind = eventActionOf(ev);
         const [target, amount] = eventTarget(ev);
         const p = `.events[${i}]`;
         return html`<tr>
-          <td><expr-field label="Event ${i + 1} time" .value=${ev.at ?? ''} .names=${names} .error=${claims.take(`${p}.at`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, at: e.detail.value }, `at${i}`)}></expr-field></td>
-          <td><expr-field label="Event ${i + 1} repeats every" .value=${ev.every ?? ''} .names=${names} .error=${claims.take(`${p}.every`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withEventField(ev, 'every', e.detail.value), `every${i}`)}></expr-field></td>
-          <td><input class="count" type="number" min="1" aria-label="Event ${i + 1} count" .value=${ev.count === undefined ? '' : String(ev.count)} @input=${(e: Event) => { const v = (e.target as HTMLInputElement).value; this.setEvent(i, withEventField(ev, 'count', v === '' ? '' : Math.max(1, Math.trunc(Number(v)))), `count${i}`); }} /></td>
-          <td><select aria-label="Event ${i + 1} action" @change=${(e: Event) => this.setEvent(i, switchAction(ev, (e.target as HTMLSelectElement).value as EventAction))}>
+          <td data-label="At"><expr-field label="Event ${i + 1} time" .value=${ev.at ?? ''} .names=${names} .error=${claims.take(`${p}.at`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, at: e.detail.value }, `at${i}`)}></expr-field></td>
+          <td data-label="Every"><expr-field label="Event ${i + 1} repeats every" .value=${ev.every ?? ''} .names=${names} .error=${claims.take(`${p}.every`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withEventField(ev, 'every', e.detail.value), `every${i}`)}></expr-field></td>
+          <td data-label="Times"><input class="count" type="number" min="1" aria-label="Event ${i + 1} count" .value=${ev.count === undefined ? '' : String(ev.count)} @input=${(e: Event) => { const v = (e.target as HTMLInputElement).value; this.setEvent(i, withEventField(ev, 'count', v === '' ? '' : Math.max(1, Math.trunc(Number(v)))), `count${i}`); }} /></td>
+          <td data-label="Action"><select aria-label="Event ${i + 1} action" @change=${(e: Event) => this.setEvent(i, switchAction(ev, (e.target as HTMLSelectElement).value as EventAction))}>
             ${EVENT_ACTIONS.map((k) => html`<option value=${k} ?selected=${k === kind}>${k === 'add' ? 'add (dose)' : k === 'set' ? 'set a parameter' : 'infuse (rate)'}</option>`)}</select></td>
-          <td><input class="name" type="text" aria-label="Event ${i + 1} target name" .value=${target} @input=${(e: Event) => this.setEvent(i, withTarget(ev, (e.target as HTMLInputElement).value, amount), `target${i}`)} /></td>
-          <td><expr-field label="Event ${i + 1} amount" .value=${amount} .names=${names} .error=${claims.take(`${p}.${kind}.${target}`) ?? claims.take(`${p}.${kind}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withTarget(ev, target, e.detail.value), `amount${i}`)}></expr-field></td>
-          <td>${kind === 'infuse' ? html`<expr-field label="Event ${i + 1} infusion duration" .value=${ev.for ?? ''} .names=${names} .error=${claims.take(`${p}.for`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, for: e.detail.value }, `for${i}`)}></expr-field>` : nothing}</td>
-          <td><button class="quiet" aria-label="Remove event ${i + 1}" @click=${() => this.edit({ events: events.filter((_, j) => j !== i) })}>✕</button></td>
+          <td data-label="On"><input class="name" type="text" aria-label="Event ${i + 1} target name" .value=${target} @input=${(e: Event) => this.setEvent(i, withTarget(ev, (e.target as HTMLInputElement).value, amount), `target${i}`)} /></td>
+          <td data-label="Amount"><expr-field label="Event ${i + 1} amount" .value=${amount} .names=${names} .error=${claims.take(`${p}.${kind}.${target}`) ?? claims.take(`${p}.${kind}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withTarget(ev, target, e.detail.value), `amount${i}`)}></expr-field></td>
+          <td data-label=${kind === 'infuse' ? 'For' : nothing}>${kind === 'infuse' ? html`<expr-field label="Event ${i + 1} infusion duration" .value=${ev.for ?? ''} .names=${names} .error=${claims.take(`${p}.for`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, for: e.detail.value }, `for${i}`)}></expr-field>` : nothing}</td>
+          <td class="remove"><button class="quiet" aria-label="Remove event ${i + 1}" @click=${() => this.edit({ events: events.filter((_, j) => j !== i) })}>✕</button></td>
         </tr>`;
       })}</tbody></table></div>
       <div class="row"><button @click=${() => this.edit({ events: [...events, { at: '0 h', add: { [this.firstState()]: '1' } }] })}>Add an event</button></div>`;
@@ -106,7 +106,7 @@ export class SimulateCellElement extends CellElement<'simulate'> {
 
   private findTable(claims: ErrorClaims, names: StudyName[], results: Record<string, FindResult>) {
     const finds = this.cell.find ?? [];
-    return html`<div class="scroll"><table class="finds">
+    return html`<div class="scroll"><table class="finds stack">
       ${finds.length ? html`<thead><tr><th>Name</th><th>Question</th><th>Of</th><th>Level or time</th><th>Answer</th><th></th></tr></thead>` : nothing}
       <tbody>${finds.map((f, i) => {
         const kind = findKindOf(f);
@@ -114,18 +114,18 @@ export class SimulateCellElement extends CellElement<'simulate'> {
         const r = results[f.name];
         const p = `.find[${i}]`;
         return html`<tr>
-          <td><input class="name" type="text" aria-label="Question ${i + 1} name" .value=${f.name ?? ''} @input=${(e: Event) => this.setFind(i, { ...f, name: (e.target as HTMLInputElement).value }, `fname${i}`)} /></td>
-          <td><select aria-label="Question ${i + 1} kind" @change=${(e: Event) => this.setFind(i, switchFind(f, (e.target as HTMLSelectElement).value as FindKind))}>
+          <td data-label="Name"><input class="name" type="text" aria-label="Question ${i + 1} name" .value=${f.name ?? ''} @input=${(e: Event) => this.setFind(i, { ...f, name: (e.target as HTMLInputElement).value }, `fname${i}`)} /></td>
+          <td data-label="Question"><select aria-label="Question ${i + 1} kind" @change=${(e: Event) => this.setFind(i, switchFind(f, (e.target as HTMLSelectElement).value as FindKind))}>
             ${FIND_KINDS.map((k) => html`<option value=${k} ?selected=${k === kind}>${FIND_LABELS[k]}</option>`)}</select>
             ${kind === 'crossing' ? html`<select aria-label="Question ${i + 1} direction" @change=${(e: Event) => this.setFind(i, { ...f, direction: (e.target as HTMLSelectElement).value as 'up' | 'down' | 'either' })}>
               ${(['either', 'down', 'up'] as const).map((d) => html`<option value=${d} ?selected=${(f.direction ?? 'either') === d}>${d === 'either' ? 'either way' : d === 'down' ? 'falling' : 'rising'}</option>`)}</select>` : nothing}</td>
-          <td><input class="name" type="text" aria-label="Question ${i + 1} state" .value=${String(f[kind] ?? '')} @input=${(e: Event) => this.setFind(i, withFindState(f, (e.target as HTMLInputElement).value), `fstate${i}`)} /></td>
-          <td>${needsLevel || kind === 'valueOf' ? html`<expr-field label="Question ${i + 1} ${needsLevel ? 'level' : 'time'}" .value=${(needsLevel ? f.level : f.at) ?? ''} .names=${names}
+          <td data-label="Of"><input class="name" type="text" aria-label="Question ${i + 1} state" .value=${String(f[kind] ?? '')} @input=${(e: Event) => this.setFind(i, withFindState(f, (e.target as HTMLInputElement).value), `fstate${i}`)} /></td>
+          <td data-label=${needsLevel ? 'Level' : kind === 'valueOf' ? 'Time' : nothing}>${needsLevel || kind === 'valueOf' ? html`<expr-field label="Question ${i + 1} ${needsLevel ? 'level' : 'time'}" .value=${(needsLevel ? f.level : f.at) ?? ''} .names=${names}
             .error=${claims.take(`${p}.${needsLevel ? 'level' : 'at'}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setFind(i, { ...f, [needsLevel ? 'level' : 'at']: e.detail.value }, `flevel${i}`)}></expr-field>` : nothing}</td>
-          <td class="result">${!r ? '' : 'notReached' in r ? html`<span class="muted">${r.message}</span>` : showQ(r)}${r && !('notReached' in r) ? html`<unit-pick .unit=${r.unit} .picked=${f.unit} label="Show ${f.name} in another unit"
+          <td class="result" data-label="Answer">${!r ? '' : 'notReached' in r ? html`<span class="muted">${r.message}</span>` : showQ(r)}${r && !('notReached' in r) ? html`<unit-pick .unit=${r.unit} .picked=${f.unit} label="Show ${f.name} in another unit"
               @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.setFind(i, withFindUnit(f, e.detail.unit))}></unit-pick>` : nothing}
             ${footError(claims.take(p) ?? claims.take(`${p}.unit`))}</td>
-          <td><button class="quiet" aria-label="Remove question ${i + 1}" @click=${() => this.edit({ find: finds.filter((_, j) => j !== i) })}>✕</button></td>
+          <td class="remove"><button class="quiet" aria-label="Remove question ${i + 1}" @click=${() => this.edit({ find: finds.filter((_, j) => j !== i) })}>✕</button></td>
         </tr>`;
       })}</tbody></table></div>
       <div class="row"><button @click=${() => this.edit({ find: [...finds, { name: freshFindName(finds), maximum: this.firstState() } as FindDoc] })}>Ask a question</button></div>`;
