@@ -6,6 +6,9 @@ import { NARROW_PX, type CellEditDetail } from './cells/common.ts';
 import type { SheetMeta } from './sheet/study-sheet.ts';
 import { loadSheet } from './sheet/load.ts';
 import { wrapField, wrapFieldStyles } from './wrap-field.ts';
+import { focusFirstField } from './focus-first.ts';
+import { keepClear } from './expr-editor/keep-clear.ts';
+import { ref } from 'lit/directives/ref.js';
 
 /**
  * The open study: its title, cautions, every cell in order with its result, and the tools to
@@ -155,9 +158,9 @@ export class StudyView extends LitElement {
       ${c.problem ? html`<p class="problem" role="alert">${c.problem}</p>` : nothing}
       ${study.cells.length === 0 ? html`<p class="empty">This study has no cells yet. Start with parameters or a rate law below.</p>` : nothing}
       ${study.cells.map((cell, i) => this.cell(cell, i, byId.get(cell.id)))}
-      <div class="add" role="group" aria-label="Add a cell">
+      <div class="add" role="group" aria-label="Add a cell" ${ref(this.addBar)}>
         <span>Add</span>
-        ${ADDABLE.map((kind) => html`<button @click=${() => this.add(kind)}>${KINDS[kind].label}</button>`)}
+        ${ADDABLE.map((kind) => html`<button @click=${() => void this.add(kind)}>${KINDS[kind].label}</button>`)}
       </div>
       </div>`;
   }
@@ -168,7 +171,7 @@ export class StudyView extends LitElement {
     const failed = r && !r.ok;
     const idle = r?.ok && r.computed === false;
     const fresh = c.changed.includes(cell.id);
-    return html`<article class="${failed ? 'failed' : ''} ${fresh ? 'fresh' : ''}" aria-label="${cell.title || cell.id} (${info.label})"
+    return html`<article data-cell=${cell.id} class="${failed ? 'failed' : ''} ${fresh ? 'fresh' : ''}" aria-label="${cell.title || cell.id} (${info.label})"
         @cell-edit=${(e: CustomEvent<CellEditDetail>) => { e.stopPropagation(); c.edit({ type: 'replace', cell: e.detail.cell }, e.detail.mergeKey); }}>
       <header class="cell">
         <span class="kind">${info.label}</span>
@@ -194,10 +197,21 @@ export class StudyView extends LitElement {
     document.title = before;
   }
 
-  private add(kind: Cell['kind']) {
+  /** The Add bar, kept clear of the expression fields' completion lists while it is shown. */
+  private releaseAddBar?: () => void;
+  private addBar = (el?: Element) => {
+    this.releaseAddBar?.();
+    this.releaseAddBar = el ? keepClear(el) : undefined;
+  };
+
+  /** Adds a cell of that kind at the end, and moves focus into its first field. */
+  private async add(kind: Cell['kind']) {
     const study = this.controller.study!;
     const id = freshId(study, kind === 'parameters' ? 'inputs' : kind === 'simulate' ? 'run' : kind);
     this.controller.edit({ type: 'insert', index: study.cells.length, cell: { id, kind, ...KINDS[kind].blank(study) } });
+    await this.updateComplete;
+    const body = this.renderRoot.querySelector(`article[data-cell="${CSS.escape(id)}"] > :last-child`);
+    if (body) await focusFirstField(body);
   }
 }
 

@@ -80,6 +80,7 @@ function collectNames(report: Report): StudyName[] {
   for (const c of report?.cells ?? []) {
     for (const [name, q] of Object.entries(c.values ?? {})) out.push({ name, detail: showValue(q) });
     for (const [name, q] of Object.entries(c.results ?? {})) if (!('notReached' in q)) out.push({ name, detail: showValue(q) });
+    for (const [name, e] of Object.entries(c.estimates ?? {})) out.push({ name, detail: `${showQ(e.value)} (fitted)` });
     if (c.state !== undefined && c.initial) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}` });
   }
   return out;

@@ -30,7 +30,7 @@ export class FitCellElement extends CellElement<'fit'> {
     const estimates = r?.estimates ?? {};
     return html`
       <div class="row"><span class="lbl">Laws</span>
-        ${rates.map((x) => html`<label><input type="checkbox" .checked=${(c.rates ?? []).includes(x.id)} @change=${(e: Event) => this.setRate(x.id, (e.target as HTMLInputElement).checked)} /> ${x.id}</label>`)}</div>
+        ${this.laws().map((x) => html`<label><input type="checkbox" .checked=${(c.rates ?? []).includes(x.id)} @change=${(e: Event) => this.setRate(x.id, (e.target as HTMLInputElement).checked)} /> ${x.label}</label>`)}</div>
       <div class="row">
         <label>Data <select @change=${(e: Event) => this.edit({ data: (e.target as HTMLSelectElement).value })}>
           ${dataCells.some((d) => d.id === c.data) ? nothing : html`<option selected>${c.data || '(choose)'}</option>`}
@@ -90,7 +90,7 @@ export class FitCellElement extends CellElement<'fit'> {
     };
     const residualPoints = [{ state: 'residual', t: res.map((x) => x.time.value), values: res.map((x) => x.residual.value) }];
     return html`<time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${r.summary ?? ''}></time-plot>
-      <time-plot .plot=${residualPlot} .points=${residualPoints} .summary=${`Residuals (measured minus fitted) against time, in ${unit}.`}></time-plot>`;
+      <time-plot .plot=${residualPlot} .points=${residualPoints} .floor=${r.residualFloor?.value ?? 0} .summary=${`Residuals (measured minus fitted) against time, in ${unit}.`}></time-plot>`;
   }
 
   private setRate(id: string, on: boolean) {

@@ -44,6 +44,7 @@ export class TimePlot extends LitElement {
     summary: {},
     points: { attribute: false },
     unit: {},
+    floor: { type: Number },
   };
 
   static override styles = chartStyles;
@@ -59,6 +60,11 @@ export class TimePlot extends LitElement {
    * the switch, or set by the host); the plot's own unit when empty or not among them.
    */
   unit = '';
+  /**
+   * The least half-height of the y axes around zero, in the states' unit (a fit's
+   * `residualFloor`): values smaller than it are drawn flat, not magnified. 0 for none.
+   */
+  floor = 0;
 
   private panels: Panel[] = [];
   private readonly chart = new ChartController(this, () => this.specs());
@@ -170,8 +176,8 @@ export class TimePlot extends LitElement {
     const p = this.plot!;
     const mine = (state: string) => p.states.find((s) => s.name === state)?.unit === unit;
     const extra = [...p.levels.filter((l) => mine(l.state)).map((l) => l.value), ...this.points.filter((m) => mine(m.state)).flatMap((m) => m.values)];
-    const lo = Math.min(min ?? Infinity, ...extra);
-    const hi = Math.max(max ?? -Infinity, ...extra);
+    const lo = Math.min(min ?? Infinity, ...extra, ...(this.floor > 0 ? [-this.floor] : []));
+    const hi = Math.max(max ?? -Infinity, ...extra, ...(this.floor > 0 ? [this.floor] : []));
     return Number.isFinite(lo) && Number.isFinite(hi) ? uPlot.rangeNum(lo, hi, 0.1, true) : [0, 1];
   }
 
