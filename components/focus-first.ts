@@ -9,8 +9,9 @@ const TYPING = 'input:not([type]), input[type="text"], input[type="number"], inp
 const CONTROL = 'input:not([type="hidden"]), select, button, [tabindex="0"]';
 
 /**
- * Focuses the first field under `root` that takes typing, else its first control; skips what is
- * disabled or not displayed. Resolves with the element focused, or undefined. Cost: one walk.
+ * Focuses the first field under `root` that takes typing, else its first control, and scrolls
+ * it into view; skips what is disabled or not displayed. Resolves with the element focused, or
+ * undefined. Cost: one walk.
  */
 export async function focusFirstField(root: Element): Promise<HTMLElement | undefined> {
   const usable: HTMLElement[] = [];
@@ -18,6 +19,8 @@ export async function focusFirstField(root: Element): Promise<HTMLElement | unde
   const shown = usable.filter((el) => !(el as HTMLInputElement).disabled && el.getClientRects().length > 0);
   const target = shown.find((el) => el.matches(TYPING)) ?? shown.find((el) => el.matches(CONTROL));
   target?.focus();
+  // an editor's content may take focus without scrolling to it: bring it into view
+  target?.scrollIntoView({ block: 'nearest' });
   return target;
 }
 
