@@ -4,7 +4,7 @@
  * nothing (the text is one line, as in a text input) and line breaks pasted in become spaces. It sizes itself with CSS alone: a hidden copy
  * of its text in the same grid cell gives the box its height, so it follows any width.
  */
-import { css, html } from 'lit';
+import { css, html, nothing } from 'lit';
 
 /** Styles for {@link wrapField}; the host sets the font on `.grow` (or its parent). */
 export const wrapFieldStyles = css`
@@ -23,6 +23,8 @@ export interface WrapFieldOptions {
   /** Class of the wrapper (for its size and place) and of the text area; with "boxed" its border always shows. */
   readonly cls: string;
   readonly label: string;
+  /** The path of the format field it edits, as `data-field` (see DEVELOPERS.md, components/cells/). */
+  readonly field?: string;
   readonly value: string;
   readonly placeholder?: string;
   /** Called with the text as one line on every change the user makes. */
@@ -31,7 +33,7 @@ export interface WrapFieldOptions {
 
 /** The field (see the module's comment). */
 export function wrapField(o: WrapFieldOptions) {
-  return html`<div class="grow ${o.cls}" data-text=${o.value || (o.placeholder ?? '')}><textarea class=${o.cls} rows="1" aria-label=${o.label}
+  return html`<div class="grow ${o.cls}" data-text=${o.value || (o.placeholder ?? '')}><textarea class=${o.cls} rows="1" data-field=${o.field ?? nothing} aria-label=${o.label}
     placeholder=${o.placeholder ?? ''} .value=${o.value} @keydown=${ignoreEnter}
     @input=${(e: Event) => o.onInput(oneLine((e.target as HTMLTextAreaElement).value))}></textarea></div>`;
 }
