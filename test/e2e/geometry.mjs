@@ -17,9 +17,12 @@ export function pageGeometry() {
   };
   walk(document);
 
+  // shown: has a box and is painted (not hidden, nor inside a closed <details> or other
+  // content the browser skips: checkVisibility)
   const shown = (el) => {
     const r = el.getBoundingClientRect();
     if (r.width === 0 && r.height === 0) return false;
+    if (el.checkVisibility && !el.checkVisibility({ contentVisibilityAuto: true, visibilityProperty: true, opacityProperty: true })) return false;
     const s = getComputedStyle(el);
     return s.visibility !== 'hidden' && s.display !== 'none' && Number(s.opacity) !== 0;
   };
