@@ -98,7 +98,7 @@ describe('adding a cell', () => {
     this.timeout(20000);
     const view = await mount(falling);
     const run = deep(view.shadowRoot!, 'simulate-cell')[0];
-    const labels = [...run.shadowRoot!.querySelectorAll('label')].filter((l) => l.querySelector('input[type="checkbox"]')).map((l) => l.textContent!.trim());
+    const labels = [...run.shadowRoot!.querySelectorAll('label')].filter((l) => l.querySelector('input[type="checkbox"][data-field="rates"]')).map((l) => l.textContent!.trim());
     expect(labels).to.deep.equal(['v (Speed with quadratic drag)', 'x (Distance fallen)']);
     const phase = deep(view.shadowRoot!, 'phase-cell')[0];
     expect([...phase.shadowRoot!.querySelectorAll('select option')].map((o) => o.textContent!.trim()).slice(0, 2)).to.deep.equal(['v (Speed with quadratic drag)', 'x (Distance fallen)']);
@@ -106,7 +106,7 @@ describe('adding a cell', () => {
 
     const other = await mount(plasma);
     const fit = deep(other.shadowRoot!, 'fit-cell')[0];
-    const fitLabels = [...fit.shadowRoot!.querySelectorAll('label')].filter((l) => l.querySelector('input[type="checkbox"]')).map((l) => l.textContent!.trim());
+    const fitLabels = [...fit.shadowRoot!.querySelectorAll('label')].filter((l) => l.querySelector('input[type="checkbox"][data-field="rates"]')).map((l) => l.textContent!.trim());
     expect(fitLabels).to.deep.equal(['Cp (One compartment)']);
   });
 });
