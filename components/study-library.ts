@@ -6,12 +6,14 @@ import type { Study } from '../src/index.ts';
 
 /** The home page: the studies kept on this device, new ones (blank or from a template), import, and the trash. */
 export class StudyLibrary extends LitElement {
-  static override properties = { studies: { state: true }, trash: { state: true }, problem: { state: true }, filter: { state: true }, notice: { state: true } };
+  static override properties = { studies: { state: true }, trash: { state: true }, problem: { state: true }, filter: { state: true }, notice: { state: true }, renaming: { state: true } };
   studies: StudySummary[] = [];
   trash: TrashedStudy[] = [];
   problem?: string;
   notice?: { text: string; undo?: () => void };
   filter = '';
+  /** The id of the study whose title is being edited in place. */
+  renaming?: string;
 
   static override styles = css`
     :host { display: block; }
@@ -22,6 +24,7 @@ export class StudyLibrary extends LitElement {
     li .t { flex: 1 1 14rem; min-width: 0; }
     li .t a { color: #12406e; font-weight: 600; text-decoration: none; }
     li .t a:hover { text-decoration: underline; }
+    li .t input.rename { font: inherit; font-weight: 600; padding: 0.15rem 0.35rem; border: 1px solid #9aa6b1; border-radius: 4px; width: min(24rem, 100%); box-sizing: border-box; }
     .when { color: #56616b; font-size: 0.85rem; }
     button { font: inherit; font-size: 0.85rem; padding: 0.2rem 0.6rem; border: 1px solid #8795a1; border-radius: 4px; background: #f3f5f7; cursor: pointer; color: #1c2329; }
     button:hover { background: #e4e9ee; }
@@ -56,8 +59,11 @@ export class StudyLibrary extends LitElement {
       <h2>Your studies</h2>
       ${this.studies.length === 0 ? html`<p class="empty">No studies yet: start one below.</p>` : nothing}
       <ul>${this.studies.map((s) => html`<li>
-        <span class="t"><a href="#/study/${s.id}">${s.title}</a> <span class="when">${s.cells} cells · changed ${when(s.updated)}</span></span>
-        <button aria-label="Rename ${s.title}" @click=${() => this.rename(s)}>Rename</button>
+        <span class="t">${this.renaming === s.id
+          ? html`<input class="rename" type="text" aria-label="New title for ${s.title}" .value=${s.title}
+              @keydown=${(e: KeyboardEvent) => this.renameKey(e, s)} @blur=${(e: Event) => void this.finishRename(s, (e.target as HTMLInputElement).value, false)} />`
+          : html`<a href="#/study/${s.id}">${s.title}</a>`} <span class="when">${s.cells} cells · changed ${when(s.updated)}</span></span>
+        <button data-rename=${s.id} aria-label="Rename ${s.title}" @click=${() => void this.startRename(s)}>Rename</button>
         <button aria-label="Duplicate ${s.title}" @click=${() => this.duplicate(s)}>Duplicate</button>
         <button aria-label="Delete ${s.title}" @click=${() => this.trashStudy(s)}>Delete</button>
       </li>`)}</ul>
@@ -85,11 +91,37 @@ export class StudyLibrary extends LitElement {
     this.open(info.id);
   }
 
-  private async rename(s: StudySummary) {
-    const title = prompt('New title', s.title);
-    if (title === null) return;
-    await store.renameStudy(s.id, title);
+  /** Rename in place: the title becomes a text field, its text selected. */
+  private async startRename(s: StudySummary) {
+    this.renaming = s.id;
+    await this.updateComplete;
+    const input = this.renderRoot.querySelector<HTMLInputElement>('input.rename');
+    input?.focus();
+    input?.select();
+  }
+
+  /** Enter keeps the new title, Escape keeps the old one. */
+  private renameKey(e: KeyboardEvent, s: StudySummary) {
+    if (e.key === 'Enter') {
+      e.preventDefault();
+      void this.finishRename(s, (e.target as HTMLInputElement).value, true);
+    } else if (e.key === 'Escape') {
+      e.preventDefault();
+      void this.finishRename(s, undefined, true);
+    }
+  }
+
+  /**
+   * Ends the rename of `s`: saves `title` when given and changed (leaving the field saves too).
+   * After a key, focus returns to the study's Rename button; after a click elsewhere it stays there.
+   */
+  private async finishRename(s: StudySummary, title: string | undefined, refocus: boolean) {
+    if (this.renaming !== s.id) return;
+    this.renaming = undefined;
+    if (title !== undefined && title !== s.title) await store.renameStudy(s.id, title);
     await this.refresh();
+    await this.updateComplete;
+    if (refocus) this.renderRoot.querySelector<HTMLButtonElement>(`button[data-rename="${CSS.escape(s.id)}"]`)?.focus();
   }
 
   private async duplicate(s: StudySummary) {

@@ -1,10 +1,14 @@
-import { LitElement, html, css, nothing } from 'lit';
+import { LitElement, html, css, nothing, unsafeCSS } from 'lit';
 import { freshId, partsWords, type Cell, type CellReport } from '../src/index.ts';
 import { StudyController, type StudyControllerOptions } from './study-controller.ts';
 import { KINDS, ADDABLE } from './cells/registry.ts';
-import type { CellEditDetail } from './cells/common.ts';
+import { NARROW_PX, type CellEditDetail } from './cells/common.ts';
 import type { SheetMeta } from './sheet/study-sheet.ts';
 import { loadSheet } from './sheet/load.ts';
+import { wrapField, wrapFieldStyles } from './wrap-field.ts';
+import { focusFirstField } from './focus-first.ts';
+import { keepClear } from './expr-editor/keep-clear.ts';
+import { ref } from 'lit/directives/ref.js';
 
 /**
  * The open study: its title, cautions, every cell in order with its result, and the tools to
@@ -29,17 +33,16 @@ export class StudyView extends LitElement {
     return view;
   }
 
-  static override styles = css`
+  static override styles = [wrapFieldStyles, css`
     :host { display: block; }
     .bar { display: flex; flex-wrap: wrap; gap: 0.5rem; align-items: center; margin: 0.4rem 0 1rem; }
-    .title { font-size: 1.4rem; font-weight: 650; border: 1px solid transparent; border-radius: 4px; padding: 0.15rem 0.35rem; flex: 1 1 100%; min-width: 0; font-family: inherit; color: #13202b; background: transparent; }
-    .title:hover, .title:focus { border-color: #9aa6b1; background: #fff; }
+    .grow.title { font-size: 1.4rem; font-weight: 650; flex: 1 1 100%; color: #13202b; }
     .status { font-size: 0.85rem; color: #4a5560; min-width: 7rem; }
     .status.busy::before { content: '● '; color: #b07800; }
     button { font: inherit; font-size: 0.9rem; padding: 0.25rem 0.7rem; border: 1px solid #8795a1; border-radius: 4px; background: #f3f5f7; color: #1c2329; cursor: pointer; }
     button:hover:not(:disabled) { background: #e4e9ee; }
     button:disabled { opacity: 0.45; cursor: default; }
-    button:focus-visible, .title:focus-visible { outline: 2px solid #1d5fa8; outline-offset: 1px; }
+    button:focus-visible { outline: 2px solid #1d5fa8; outline-offset: 1px; }
     .name-notes { border-left: 4px solid #5b6670; background: #f3f5f7; padding: 0.3rem 0.9rem; margin: 0 0 0.8rem; color: #2b3640; font-size: 0.9rem; }
     .name-notes p { margin: 0.25rem 0; }
     .caution { border-left: 4px solid #a85d00; background: #fff3df; padding: 0.55rem 0.9rem; margin: 0 0 0.8rem; color: #3d2a00; }
@@ -48,8 +51,9 @@ export class StudyView extends LitElement {
     article.fresh { animation: flash 0.6s ease-out; }
     @keyframes flash { from { box-shadow: 0 0 0 3px rgba(29, 95, 168, 0.35); } to { box-shadow: 0 0 0 0 rgba(29, 95, 168, 0); } }
     header.cell { display: flex; flex-wrap: wrap; align-items: center; gap: 0.4rem; margin-bottom: 0.3rem; }
-    header.cell input { font: inherit; font-weight: 600; border: 1px solid transparent; border-radius: 4px; padding: 0.1rem 0.3rem; flex: 1 1 10rem; min-width: 0; background: transparent; color: #13202b; }
-    header.cell input:hover, header.cell input:focus { border-color: #9aa6b1; background: #fff; }
+    header.cell .grow { font-weight: 600; flex: 1 1 10rem; color: #13202b; }
+    header.cell .tools { white-space: nowrap; }
+    @media (max-width: ${unsafeCSS(NARROW_PX)}px) { header.cell .grow { order: 1; flex-basis: 100%; } header.cell .tools { margin-left: auto; } }
     .kind { font-size: 0.75rem; text-transform: uppercase; letter-spacing: 0.04em; color: #44525e; background: #e8edf1; border-radius: 3px; padding: 0.05rem 0.4rem; }
     .state { font-size: 0.8rem; }
     .state.bad { color: #a3211a; font-weight: 600; }
@@ -73,7 +77,7 @@ export class StudyView extends LitElement {
       .for-print { display: block; }
       .paper { box-shadow: none; padding: 0; max-width: none; }
     }
-  `;
+  `];
 
   override connectedCallback(): void {
     super.connectedCallback();
@@ -146,8 +150,7 @@ export class StudyView extends LitElement {
       ${this.printing ? html`<div class="for-print">${sheet}</div>` : nothing}
       <div class="editing ${this.printing ? 'sheet-instead' : ''}">
       <div class="bar">
-        <input class="title" data-field="title" aria-label="Study title" .value=${study.title}
-          @input=${(e: Event) => c.edit({ type: 'retitle', title: (e.target as HTMLInputElement).value }, 'title')} />
+        ${wrapField({ cls: 'title', field: 'title', label: 'Study title', value: study.title, onInput: (title) => c.edit({ type: 'retitle', title }, 'title') })}
         <button ?disabled=${!c.canUndo} @click=${() => c.undo()} title="Undo (Ctrl+Z)">Undo</button>
         <button ?disabled=${!c.canRedo} @click=${() => c.redo()} title="Redo (Ctrl+Shift+Z)">Redo</button>
         <input class="author" data-field="author" aria-label="Prepared by" placeholder="Prepared by (name)" .value=${study.author ?? ''}
@@ -163,9 +166,9 @@ export class StudyView extends LitElement {
       ${c.problem ? html`<p class="problem" role="alert">${c.problem}</p>` : nothing}
       ${study.cells.length === 0 ? html`<p class="empty">This study has no cells yet. Start with parameters or a rate law below.</p>` : nothing}
       ${study.cells.map((cell, i) => this.cell(cell, i, byId.get(cell.id)))}
-      <div class="add" role="group" aria-label="Add a cell">
+      <div class="add" role="group" aria-label="Add a cell" ${ref(this.addBar)}>
         <span>Add</span>
-        ${ADDABLE.map((kind) => html`<button @click=${() => this.add(kind)}>${KINDS[kind].label}</button>`)}
+        ${ADDABLE.map((kind) => html`<button @click=${() => void this.add(kind)}>${KINDS[kind].label}</button>`)}
       </div>
       </div>`;
   }
@@ -176,12 +179,12 @@ export class StudyView extends LitElement {
     const failed = r && !r.ok;
     const idle = r?.ok && r.computed === false;
     const fresh = c.changed.includes(cell.id);
-    return html`<article class="${failed ? 'failed' : ''} ${fresh ? 'fresh' : ''}" aria-label="${cell.title || cell.id} (${info.label})"
+    return html`<article data-cell=${cell.id} class="${failed ? 'failed' : ''} ${fresh ? 'fresh' : ''}" aria-label="${cell.title || cell.id} (${info.label})"
         @cell-edit=${(e: CustomEvent<CellEditDetail>) => { e.stopPropagation(); c.edit({ type: 'replace', cell: e.detail.cell }, e.detail.mergeKey); }}>
       <header class="cell">
         <span class="kind">${info.label}</span>
-        <input data-field="title" aria-label="Title of cell ${cell.id}" placeholder=${cell.id} .value=${cell.title ?? ''}
-          @input=${(e: Event) => { const t = (e.target as HTMLInputElement).value; const { title: _t, ...rest } = cell; c.edit({ type: 'replace', cell: t ? { ...rest, title: t } : rest }, `${cell.id}:title`); }} />
+        ${wrapField({ cls: 'cell-title', field: 'title', label: `Title of cell ${cell.id}`, placeholder: cell.id, value: cell.title ?? '',
+          onInput: (t) => { const { title: _t, ...rest } = cell; c.edit({ type: 'replace', cell: t ? { ...rest, title: t } : rest }, `${cell.id}:title`); } })}
         <span class="state ${failed ? 'bad' : idle ? 'idle' : ''}">${!r ? '' : failed ? (r.waitsOn ? 'waiting' : 'error') : idle ? 'not computed yet' : c.busy && c.rerun.includes(cell.id) ? 'recomputing…' : ''}</span>
         <span class="tools">
           <button aria-label="Move ${cell.id} up" ?disabled=${i === 0} @click=${() => c.edit({ type: 'move', id: cell.id, to: i - 1 })}>↑</button>
@@ -202,10 +205,21 @@ export class StudyView extends LitElement {
     document.title = before;
   }
 
-  private add(kind: Cell['kind']) {
+  /** The Add bar, kept clear of the expression fields' completion lists while it is shown. */
+  private releaseAddBar?: () => void;
+  private addBar = (el?: Element) => {
+    this.releaseAddBar?.();
+    this.releaseAddBar = el ? keepClear(el) : undefined;
+  };
+
+  /** Adds a cell of that kind at the end, and moves focus into its first field. */
+  private async add(kind: Cell['kind']) {
     const study = this.controller.study!;
     const id = freshId(study, kind === 'parameters' ? 'inputs' : kind === 'simulate' ? 'run' : kind);
     this.controller.edit({ type: 'insert', index: study.cells.length, cell: { id, kind, ...KINDS[kind].blank(study) } });
+    await this.updateComplete;
+    const body = this.renderRoot.querySelector(`article[data-cell="${CSS.escape(id)}"] > :last-child`);
+    if (body) await focusFirstField(body);
   }
 }
 

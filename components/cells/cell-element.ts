@@ -39,6 +39,18 @@ export class CellElement<K extends CellKind> extends LitElement {
     return (this.study?.cells ?? []).filter((c) => c.kind === kind).map((c) => c.id);
   }
 
+  /**
+   * The study's rate laws, in order, each with what it describes for a reader: its state and
+   * its cell's title (`C (Elimination)`), or the state alone when the cell has no title (the
+   * cell's id only while the report has no state for it).
+   */
+  protected laws(): Array<{ id: string; label: string }> {
+    return (this.study?.cells ?? []).filter((c) => c.kind === 'rate').map((c) => {
+      const state = typeof (c as { state?: unknown }).state === 'string' ? (c as { state: string }).state : '';
+      return { id: c.id, label: state ? (c.title ? `${state} (${c.title})` : state) : c.title || c.id };
+    });
+  }
+
   /** Asks to change fields of the cell; edits with the same `key` in a row are one undo step. */
   protected edit(patch: Partial<CellDoc<K>>, key?: string): void {
     this.replace({ ...this.cell, ...patch }, key);

@@ -2,7 +2,7 @@
  * What every cell element shares: errors looked up by field path, the study's names for the
  * expression fields, the edit event, and the shared styles. Look-ups only; no computation.
  */
-import { css, html, nothing } from 'lit';
+import { css, html, nothing, unsafeCSS } from 'lit';
 import type { Cell, CellError, ParameterValue, Report, ReportBase, ReportQuantity } from '../../src/index.ts';
 import { fieldWords, formatNumber, problemWords, unitAfterNumber, waitedOn, waitWords } from '../../src/index.ts';
 import type { ReportsOf } from '../../src/index.ts';
@@ -113,6 +113,7 @@ function collectNames(report: Report, doc?: { readonly cells: readonly Cell[] })
   for (const c of report?.cells ?? []) {
     for (const [name, q] of Object.entries(c.values ?? {})) out.push({ name, detail: showValue(q) });
     for (const [name, q] of Object.entries(c.results ?? {})) if (!('notReached' in q)) out.push({ name, detail: showValue(q) });
+    for (const [name, e] of Object.entries(c.estimates ?? {})) out.push({ name, detail: `${showQ(e.value)} (fitted)` });
     if (c.state !== undefined && c.initial) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}`, state: true });
   }
   const known = new Set(out.map((n) => n.name));
@@ -126,6 +127,34 @@ function collectNames(report: Report, doc?: { readonly cells: readonly Cell[] })
     if (c.kind === 'fit' && Array.isArray(c.estimate)) for (const e of c.estimate) add(e?.as);
   }
   return out;
+}
+
+/**
+ * The width (CSS px) below which a cell's tables become stacked blocks, one per row: a phone.
+ * A tablet (820 px) keeps the columns.
+ */
+export const NARROW_PX = 700;
+const narrow = unsafeCSS(`(max-width: ${NARROW_PX}px)`);
+
+/**
+ * A table of rows the user edits, stacked: each row a block whose cells wrap side by side, each
+ * under its own heading (its `data-label`), the remove button (`td.remove`) at the block's top
+ * right, a `td.wide` on a line of its own. For `table.stack` on a phone, `table.stack-always`
+ * everywhere.
+ */
+function stacked(table: string) {
+  return unsafeCSS(`
+    ${table}, ${table} tbody { display: block; }
+    .scroll:has(> ${table}) { overflow-x: visible; }
+    ${table} thead { display: none; }
+    ${table} tr { display: flex; flex-wrap: wrap; align-items: flex-end; gap: 0.3rem 0.6rem; padding: 0.45rem 2.2rem 0.45rem 0; border-bottom: 1px solid #d5dbe0; position: relative; }
+    ${table} td { display: block; flex: 1 1 7.5rem; min-width: 0; padding: 0; }
+    ${table} td[data-label]::before { content: attr(data-label); display: block; font-size: 0.75rem; color: #4a5560; margin-bottom: 0.1rem; }
+    ${table} td.remove { position: absolute; top: 0.45rem; right: 0; }
+    ${table} td.wide { flex-basis: 100%; }
+    ${table} td.result { white-space: normal; }
+    ${table} input[type='text'], ${table} select { width: 100%; box-sizing: border-box; }
+    ${table} expr-field { min-width: 0; }`);
 }
 
 export const cellStyles = css`
@@ -150,5 +179,9 @@ export const cellStyles = css`
   .summary { color: #2b3640; font-size: 0.92rem; margin: 0.4rem 0; }
   .muted { color: #5b6670; font-size: 0.85rem; }
   .sr { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); white-space: nowrap; }
+  select { max-width: 100%; }
+  label:has(select) { max-width: 100%; }
+  @media ${narrow} { ${stacked('table.stack')} }
+  ${stacked('table.stack-always')}
   @media print { button, select, input[type='range'] { display: none !important; } }
 `;

@@ -1,7 +1,7 @@
-import { html, css, nothing, type PropertyDeclarations } from 'lit';
+import { html, css, nothing, unsafeCSS, type PropertyDeclarations } from 'lit';
 import type { CsvReadReport } from '../../src/index.ts';
 import { tableFromCsv } from '../../src/index.ts';
-import { cellStyles, type ErrorClaims } from './common.ts';
+import { cellStyles, NARROW_PX, type ErrorClaims } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 
 type DataCellDoc = CellDoc<'data'>;
@@ -23,6 +23,7 @@ export class DataCellElement extends CellElement<'data'> {
     table.grid th input { display: block; text-align: left; margin-bottom: 2px; }
     table.grid th input:first-child { font-weight: 600; }
     tr.flagged td { background: #fdeceb; }
+    @media ${unsafeCSS(`(max-width: ${NARROW_PX}px)`)} { table.grid input { width: 5.5rem; } }
     textarea { width: 100%; min-height: 7rem; box-sizing: border-box; font-family: ui-monospace, monospace; font-size: 0.85rem; }
     .scroll { overflow-x: auto; max-height: 26rem; overflow-y: auto; }
     ul.csv-notes, ol.csv-rows { margin: 0.3rem 0 0; padding-left: 1.2rem; }

@@ -30,7 +30,7 @@ export class FitCellElement extends CellElement<'fit'> {
     const estimates = r?.estimates ?? {};
     return html`
       <div class="row"><span class="lbl">Laws</span>
-        ${rates.map((x) => html`<label><input type="checkbox" data-field="rates" .checked=${(c.rates ?? []).includes(x.id)} @change=${(e: Event) => this.setRate(x.id, (e.target as HTMLInputElement).checked)} /> ${x.id}</label>`)}</div>
+        ${this.laws().map((x) => html`<label><input type="checkbox" data-field="rates" .checked=${(c.rates ?? []).includes(x.id)} @change=${(e: Event) => this.setRate(x.id, (e.target as HTMLInputElement).checked)} /> ${x.label}</label>`)}</div>
       <div class="row">
         <label>Data <select data-field="data" @change=${(e: Event) => this.edit({ data: (e.target as HTMLSelectElement).value })}>
           ${dataCells.some((d) => d.id === c.data) ? nothing : html`<option selected>${c.data || '(choose)'}</option>`}
@@ -44,24 +44,24 @@ export class FitCellElement extends CellElement<'fit'> {
         <label>Weighting <select data-field="weighting" @change=${(e: Event) => this.edit({ weighting: (e.target as HTMLSelectElement).value as FitDoc['weighting'] })}>
           ${([['none', 'none'], ['relative', 'relative (1/y²)'], ['proportional', 'proportional (1/y)']] as const).map(([v, l]) => html`<option value=${v} ?selected=${(c.weighting ?? 'none') === v}>${l}</option>`)}</select></label>
       </div>
-      <div class="scroll"><table class="est">
+      <div class="scroll"><table class="est stack-always">
         <thead><tr><th>Estimate</th><th>as</th><th>Guess</th><th>At least</th><th>At most</th><th>Value</th><th>Standard error</th><th>95% interval</th><th><span class="sr">Remove</span></th></tr></thead>
         <tbody>${(c.estimate ?? []).map((e, i) => {
           const res = estimates[e.as];
           const p = `.estimate[${i}]`;
           return html`<tr>
-            <td><input class="name" type="text" data-field="estimate[${i}].parameter" aria-label="Estimate ${i + 1}: parameter or state" .value=${e.parameter ?? ''} @input=${(ev: Event) => this.setEstimate(i, { parameter: (ev.target as HTMLInputElement).value }, `p${i}`)} />
+            <td data-label="Estimate"><input class="name" type="text" data-field="estimate[${i}].parameter" aria-label="Estimate ${i + 1}: parameter or state" .value=${e.parameter ?? ''} @input=${(ev: Event) => this.setEstimate(i, { parameter: (ev.target as HTMLInputElement).value }, `p${i}`)} />
               ${claims.take(`${p}.parameter`) ? html`<div class="foot-error">${claims.take(`${p}.parameter`)!.message}</div>` : nothing}</td>
-            <td><input class="name" type="text" data-field="estimate[${i}].as" aria-label="Estimate ${i + 1}: name of the result" .value=${e.as ?? ''} @input=${(ev: Event) => this.setEstimate(i, { as: (ev.target as HTMLInputElement).value }, `as${i}`)} /></td>
-            <td><expr-field data-field="estimate[${i}].guess" label="Estimate ${i + 1} guess" .value=${e.guess ?? ''} .names=${names} .error=${claims.take(`${p}.guess`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { guess: ev.detail.value }, `g${i}`)}></expr-field></td>
-            <td><expr-field data-field="estimate[${i}].min" label="Estimate ${i + 1} lower bound" .value=${e.min ?? ''} .names=${names} .error=${claims.take(`${p}.min`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { min: ev.detail.value || undefined }, `min${i}`)}></expr-field></td>
-            <td><expr-field data-field="estimate[${i}].max" label="Estimate ${i + 1} upper bound" .value=${e.max ?? ''} .names=${names} .error=${claims.take(`${p}.max`) ?? claims.take(`${p}`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { max: ev.detail.value || undefined }, `max${i}`)}></expr-field></td>
-            <td class="result">${res ? `${showQ(res.value)}${res.atBound ? ' (at a bound)' : ''}` : ''}${res ? html`<unit-pick data-field="estimate[${i}].unit" .unit=${res.value.unit} .picked=${e.unit} label="Show ${e.as} in another unit"
+            <td data-label="as"><input class="name" type="text" data-field="estimate[${i}].as" aria-label="Estimate ${i + 1}: name of the result" .value=${e.as ?? ''} @input=${(ev: Event) => this.setEstimate(i, { as: (ev.target as HTMLInputElement).value }, `as${i}`)} /></td>
+            <td data-label="Guess"><expr-field data-field="estimate[${i}].guess" label="Estimate ${i + 1} guess" .value=${e.guess ?? ''} .names=${names} .error=${claims.take(`${p}.guess`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { guess: ev.detail.value }, `g${i}`)}></expr-field></td>
+            <td data-label="At least"><expr-field data-field="estimate[${i}].min" label="Estimate ${i + 1} lower bound" .value=${e.min ?? ''} .names=${names} .error=${claims.take(`${p}.min`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { min: ev.detail.value || undefined }, `min${i}`)}></expr-field></td>
+            <td data-label="At most"><expr-field data-field="estimate[${i}].max" label="Estimate ${i + 1} upper bound" .value=${e.max ?? ''} .names=${names} .error=${claims.take(`${p}.max`) ?? claims.take(`${p}`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { max: ev.detail.value || undefined }, `max${i}`)}></expr-field></td>
+            <td class="result" data-label="Value">${res ? `${showQ(res.value)}${res.atBound ? ' (at a bound)' : ''}` : ''}${res ? html`<unit-pick data-field="estimate[${i}].unit" .unit=${res.value.unit} .picked=${e.unit} label="Show ${e.as} in another unit"
               @unit-pick=${(ev: CustomEvent<UnitPickDetail>) => this.setEstimate(i, { unit: ev.detail.unit }, `unit${i}`)}></unit-pick>` : nothing}
               ${claims.take(`${p}.unit`) ? html`<div class="foot-error">${claims.take(`${p}.unit`)!.message}</div>` : nothing}</td>
-            <td class="result">${res?.standardError ? showQ(res.standardError) : ''}</td>
-            <td class="result">${res?.ci95 ? `${showQ(res.ci95[0])} to ${showQ(res.ci95[1])}` : ''}</td>
-            <td><button class="quiet" aria-label="Remove estimate ${i + 1}" @click=${() => this.edit({ estimate: c.estimate.filter((_, j) => j !== i) })}>✕</button></td>
+            <td class="result" data-label="Standard error">${res?.standardError ? showQ(res.standardError) : ''}</td>
+            <td class="result" data-label="95% interval">${res?.ci95 ? `${showQ(res.ci95[0])} to ${showQ(res.ci95[1])}` : ''}</td>
+            <td class="remove"><button class="quiet" aria-label="Remove estimate ${i + 1}" @click=${() => this.edit({ estimate: c.estimate.filter((_, j) => j !== i) })}>✕</button></td>
           </tr>`;
         })}</tbody></table></div>
       <div class="row"><button @click=${this.addEstimate}>Estimate another parameter</button></div>
@@ -90,7 +90,7 @@ export class FitCellElement extends CellElement<'fit'> {
     };
     const residualPoints = [{ state: 'residual', t: res.map((x) => x.time.value), values: res.map((x) => x.residual.value) }];
     return html`<time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${r.summary ?? ''}></time-plot>
-      <time-plot .plot=${residualPlot} .points=${residualPoints} .summary=${`Residuals (measured minus fitted) against time, in ${unit}.`}></time-plot>`;
+      <time-plot .plot=${residualPlot} .points=${residualPoints} .floor=${r.residualFloor?.value ?? 0} .summary=${`Residuals (measured minus fitted) against time, in ${unit}.`}></time-plot>`;
   }
 
   private setRate(id: string, on: boolean) {

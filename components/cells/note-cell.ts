@@ -12,6 +12,12 @@ export class NoteCellElement extends CellElement<'note'> {
     @media print { .edit { display: none; } }
   `];
 
+  protected override willUpdate(): void {
+    super.willUpdate();
+    // an empty note (a new one) opens ready to type in
+    if (!this.hasUpdated && !(typeof this.cell.text === 'string' && this.cell.text)) this.editing = true;
+  }
+
   override render() {
     const text = typeof this.cell.text === 'string' ? this.cell.text : '';
     if (this.editing) {

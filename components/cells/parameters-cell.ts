@@ -1,27 +1,36 @@
-import { html, nothing, css } from 'lit';
+import { html, nothing, css, unsafeCSS } from 'lit';
 import type { ParameterValue } from '../../src/index.ts';
-import { cellStyles, footError, showQ, showValue } from './common.ts';
+import { cellStyles, footError, NARROW_PX, showQ, showValue } from './common.ts';
 import { CellElement } from './cell-element.ts';
 import '../expr-field.ts';
+import { wrapField, wrapFieldStyles } from '../wrap-field.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
 
 /** A parameters cell: one row per name, with its value field, its current value and, given a range, a slider. */
 export class ParametersCellElement extends CellElement<'parameters'> {
   // fixed column widths: a value that changes length while a slider moves must not re-lay out
-  // the table (and every editor in it)
-  static override styles = [cellStyles, css`
+  // the table (and every editor in it); a value longer than its column wraps, never cut. On a
+  // phone each parameter is a block: name, value, what it is now, note (the shared stack).
+  static override styles = [cellStyles, wrapFieldStyles, css`
     table { table-layout: fixed; }
     col.name { width: 8.5rem; } col.now { width: 9rem; } col.note { width: 11rem; } col.remove { width: 2.5rem; }
-    td.result { overflow: hidden; text-overflow: ellipsis; white-space: nowrap; }
-    td.result .foot-error { white-space: normal; }
+    td.result { white-space: normal; overflow-wrap: break-word; }
     input.name { width: 100%; box-sizing: border-box; }
     td input[type='text']:not(.name) { width: 100%; box-sizing: border-box; }
+    @media ${unsafeCSS(`(max-width: ${NARROW_PX}px)`)} {
+      table.stack tr { display: grid; grid-template-columns: minmax(0, auto) minmax(0, 1fr) auto; grid-template-areas: 'name now remove' 'value value value' 'note note note'; align-items: center; }
+      table.stack tr { padding-right: 0; }
+      table.stack td.name { grid-area: name; } table.stack td.remove { grid-area: remove; position: static; }
+      table.stack td.value { grid-area: value; } table.stack td.note { grid-area: note; }
+      table.stack td.result { grid-area: now; }
+      table.stack td.result .now::before { content: '= '; }
+      table.stack td.name input.name { width: 7.5rem; }
+    }
     details.more { margin-top: 0.2rem; }
     details.more summary { cursor: pointer; font-size: 0.8rem; color: #3b4650; }
     .range { display: flex; gap: 0.3rem; align-items: center; margin: 0.25rem 0; }
     .range expr-field { min-width: 5rem; }
-    @media (max-width: 700px) { col.note { width: 0; } .hide-narrow { display: none; } }
   `];
 
   override render() {
@@ -30,29 +39,29 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     const names = this.names;
     const items = Array.isArray(this.cell.items) ? this.cell.items : [];
     return html`
-      <table>
+      <table class="stack">
         <colgroup><col class="name" /><col class="value" /><col class="now" /><col class="note" /><col class="remove" /></colgroup>
-        <thead><tr><th>Name</th><th>Value</th><th>Now</th><th class="hide-narrow">Note</th><th><span class="sr">Remove</span></th></tr></thead>
+        <thead><tr><th>Name</th><th>Value</th><th>Now</th><th>Note</th><th><span class="sr">Remove</span></th></tr></thead>
         <tbody>
           ${items.map((item, j) => {
             const entry = values[item.name];
             const nameError = claims.take(`.items[${j}].name`);
             const who = item.name || `parameter ${j + 1}`;
-            return html`<tr>
-              <td><input class="name" type="text" data-field="items[${j}].name" aria-label="Name of parameter ${j + 1}" .value=${item.name ?? ''}
+            return html`<tr class="item">
+              <td class="name"><input class="name" type="text" data-field="items[${j}].name" aria-label="Name of parameter ${j + 1}" .value=${item.name ?? ''}
                 @input=${(e: Event) => this.change(j, { name: (e.target as HTMLInputElement).value }, `name${j}`)} />
                 ${nameError ? html`<div class="foot-error" role="alert">${nameError.message}</div>` : nothing}</td>
-              <td><expr-field data-field="items[${j}].value" label="Value of ${who}" .value=${item.value ?? ''} .names=${names}
+              <td class="value"><expr-field data-field="items[${j}].value" label="Value of ${who}" .value=${item.value ?? ''} .names=${names}
                 .error=${claims.take(`.items[${j}].value`)}
                 @expr-input=${(e: CustomEvent<{ value: string }>) => this.change(j, { value: e.detail.value }, `value${j}`)}></expr-field>
                 ${entry?.range ? this.slider(j, entry) : nothing}
                 ${this.more(j)}</td>
-              <td class="result">${entry ? showValue(entry) : ''}${entry && entry.truth === undefined ? html`<unit-pick data-field="items[${j}].unit" .unit=${entry.unit} .original=${entry.originalUnit} .picked=${item.unit} label="Show ${item.name} in another unit"
+              <td class="result">${entry ? html`<span class="now">${showValue(entry)}</span>` : ''}${entry && entry.truth === undefined ? html`<unit-pick data-field="items[${j}].unit" .unit=${entry.unit} .original=${entry.originalUnit} .picked=${item.unit} label="Show ${item.name} in another unit"
                 @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.change(j, { unit: e.detail.unit }, `unit${j}`)}></unit-pick>` : nothing}
                 ${footError(claims.take(`.items[${j}].unit`))}</td>
-              <td class="hide-narrow"><input type="text" data-field="items[${j}].note" aria-label="Note on ${who}" .value=${item.note ?? ''}
-                @input=${(e: Event) => this.change(j, { note: (e.target as HTMLInputElement).value || undefined }, `note${j}`)} /></td>
-              <td><button class="quiet" aria-label="Remove ${item.name || `parameter ${j + 1}`}" @click=${() => this.removeItem(j)}>✕</button></td>
+              <td class="note">${wrapField({ cls: 'note boxed', field: `items[${j}].note`, label: `Note on ${who}`, placeholder: 'Note', value: item.note ?? '',
+                onInput: (note) => this.change(j, { note: note || undefined }, `note${j}`) })}</td>
+              <td class="remove"><button class="quiet" aria-label="Remove ${item.name || `parameter ${j + 1}`}" @click=${() => this.removeItem(j)}>✕</button></td>
             </tr>`;
           })}
         </tbody>

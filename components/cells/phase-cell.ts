@@ -11,7 +11,7 @@ export class PhaseCellElement extends CellElement<'phase'> {
     const c = this.cell;
     const claims = this.claims;
     const names = this.names;
-    const rateCells = this.idsOf('rate');
+    const laws = this.laws();
     const eqs = this.report?.equilibria ?? [];
     const law = this.study?.cells.find((x) => x.id === c.rate);
     const state = typeof law?.state === 'string' ? law.state : 'y';
@@ -19,8 +19,8 @@ export class PhaseCellElement extends CellElement<'phase'> {
     return html`
       <div class="row">
         <label>Law <select data-field="rate" aria-label="Law of the phase line" .value=${c.rate ?? ''} @change=${(e: Event) => this.edit({ rate: (e.target as HTMLSelectElement).value })}>
-          ${rateCells.includes(c.rate) ? nothing : html`<option value=${c.rate ?? ''} selected>${c.rate || '(choose)'}</option>`}
-          ${rateCells.map((id) => html`<option value=${id} ?selected=${id === c.rate}>${id}</option>`)}</select></label>
+          ${laws.some((l) => l.id === c.rate) ? nothing : html`<option value=${c.rate ?? ''} selected>${c.rate || '(choose)'}</option>`}
+          ${laws.map(({ id, label }) => html`<option value=${id} ?selected=${id === c.rate}>${label}</option>`)}</select></label>
         <span class="lbl">From</span>
         <expr-field style="flex: 0 1 9rem" data-field="from" label="Lower end of the range" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ from: e.detail.value }, 'from')}></expr-field>

@@ -43,7 +43,8 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
   },
   simulate: {
     label: 'Run',
-    blank: (study) => ({ rates: firstRate(study) ? [firstRate(study)!.id] : [], from: '0 h', to: '12 h', find: [] }),
+    // every law of the study: a run of some of them is a choice the user makes by unticking
+    blank: (study) => ({ rates: study.cells.filter((c) => c.kind === 'rate').map((c) => c.id), from: '0 h', to: '12 h', find: [] }),
     render: (c, r, s, d) => html`<simulate-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></simulate-cell>`,
   },
   note: {

@@ -45,16 +45,16 @@ export class SimulateCellElement extends CellElement<'simulate'> {
     const c = this.cell;
     const claims = this.claims;
     const names = this.names;
-    const rateCells = this.idsOf('rate');
+    const laws = this.laws();
     const fixed = c.method === 'rk4' || c.method === 'heun' || c.method === 'euler';
     const results = this.report?.results ?? {};
     const plot = this.report?.plot;
     return html`
       <div class="row">
         <span class="lbl">Laws</span>
-        ${rateCells.map((id) => html`<label><input type="checkbox" data-field="rates" .checked=${(c.rates ?? []).includes(id)}
-          @change=${(e: Event) => this.setRates(id, (e.target as HTMLInputElement).checked)} /> ${id}</label>`)}
-        ${rateCells.length === 0 ? html`<span class="muted">Add a rate cell first.</span>` : nothing}
+        ${laws.map(({ id, label }) => html`<label><input type="checkbox" data-field="rates" .checked=${(c.rates ?? []).includes(id)}
+          @change=${(e: Event) => this.setRates(id, (e.target as HTMLInputElement).checked)} /> ${label}</label>`)}
+        ${laws.length === 0 ? html`<span class="muted">Add a rate cell first.</span>` : nothing}
         ${footError(claims.take('.rates'))}
       </div>
       <div class="row">

@@ -44,7 +44,7 @@ function countOf(text: string): number | string {
 
 export function eventsTable(h: EventsHost) {
   const { events, claims, names } = h;
-  return html`<div class="scroll"><table class="events">
+  return html`<div class="scroll"><table class="events stack">
     ${events.length ? html`<thead><tr><th>At</th><th>Every</th><th>Number of times</th><th>Action</th><th>On, amount</th><th>For</th><th><span class="sr">Remove</span></th></tr></thead>` : nothing}
     <tbody>${events.map((ev, i) => {
       const kind = eventActionOf(ev);
@@ -53,16 +53,16 @@ export function eventsTable(h: EventsHost) {
       const count = ev.count === undefined ? '' : String(ev.count);
       const words = repeatsWords(ev, h.report?.schedule?.[i]?.repeats);
       return html`<tr>
-        <td><expr-field data-field="events[${i}].at" label="Event ${i + 1} time" .value=${ev.at ?? ''} .names=${names} .error=${claims.take(`${p}.at`)}
+        <td data-label="At"><expr-field data-field="events[${i}].at" label="Event ${i + 1} time" .value=${ev.at ?? ''} .names=${names} .error=${claims.take(`${p}.at`)}
           @expr-input=${(e: Input) => h.setEvent(i, { ...ev, at: e.detail.value }, `at${i}`)}></expr-field></td>
-        <td><expr-field data-field="events[${i}].every" label="Event ${i + 1} repeats every" .value=${ev.every ?? ''} .names=${names} .error=${claims.take(`${p}.every`)}
+        <td data-label="Every"><expr-field data-field="events[${i}].every" label="Event ${i + 1} repeats every" .value=${ev.every ?? ''} .names=${names} .error=${claims.take(`${p}.every`)}
           @expr-input=${(e: Input) => h.setEvent(i, withEventField(ev, 'every', e.detail.value), `every${i}`)}></expr-field></td>
-        <td><expr-field data-field="events[${i}].count" label="Event ${i + 1} number of times (blank: until the end of the run)" .value=${count} .names=${names}
+        <td data-label="Number of times"><expr-field data-field="events[${i}].count" label="Event ${i + 1} number of times (blank: until the end of the run)" .value=${count} .names=${names}
           .error=${claims.take(`${p}.count`)} @expr-input=${(e: Input) => h.setEvent(i, withEventField(ev, 'count', countOf(e.detail.value)), `count${i}`)}></expr-field>
           ${words ? html`<div class="muted repeats">${words}</div>` : nothing}</td>
-        <td><select data-field="events[${i}].${kind}" aria-label="Event ${i + 1} action" @change=${(e: Event) => h.setEvent(i, switchAction(ev, (e.target as HTMLSelectElement).value as EventAction))}>
+        <td data-label="Action"><select data-field="events[${i}].${kind}" aria-label="Event ${i + 1} action" @change=${(e: Event) => h.setEvent(i, switchAction(ev, (e.target as HTMLSelectElement).value as EventAction))}>
           ${EVENT_ACTIONS.map((k) => html`<option value=${k} ?selected=${k === kind}>${ACTION_LABELS[k]}</option>`)}</select></td>
-        <td>${targets.map(([target, amount], t) => html`<div class="target">
+        <td data-label="On, amount">${targets.map(([target, amount], t) => html`<div class="target">
           <input class="name" type="text" data-field="events[${i}].${kind}" aria-label="Event ${i + 1} target ${t + 1} name" .value=${target}
             @input=${(e: Event) => { const next = withTargetAt(ev, t, (e.target as HTMLInputElement).value, amount); if (next) h.setEvent(i, next, `target${i}.${t}`); }} />
           <expr-field data-field="events[${i}].${kind}" label="Event ${i + 1} ${t === 0 ? 'amount' : `amount ${t + 1}`}" .value=${amount} .names=${names}
@@ -71,9 +71,9 @@ export function eventsTable(h: EventsHost) {
           ${targets.length > 1 ? html`<button class="quiet" aria-label="Remove target ${target || t + 1} of event ${i + 1}" @click=${() => h.setEvent(i, withoutTargetAt(ev, t))}>✕</button>` : nothing}
         </div>`)}
           <button class="quiet small" aria-label="Event ${i + 1}: add another target" @click=${() => { const next = withTargetAt(ev, targets.length, '', ''); if (next) h.setEvent(i, next); }}>+ target</button></td>
-        <td>${kind === 'infuse' || ev.for !== undefined ? html`<expr-field data-field="events[${i}].for" label="Event ${i + 1} infusion duration" .value=${ev.for ?? ''} .names=${names} .error=${claims.take(`${p}.for`)}
+        <td data-label=${kind === 'infuse' || ev.for !== undefined ? 'For' : nothing}>${kind === 'infuse' || ev.for !== undefined ? html`<expr-field data-field="events[${i}].for" label="Event ${i + 1} infusion duration" .value=${ev.for ?? ''} .names=${names} .error=${claims.take(`${p}.for`)}
           @expr-input=${(e: Input) => h.setEvent(i, { ...ev, for: e.detail.value }, `for${i}`)}></expr-field>` : nothing}</td>
-        <td><button class="quiet" aria-label="Remove event ${i + 1}" @click=${() => h.setEvents(events.filter((_, j) => j !== i))}>✕</button></td>
+        <td class="remove"><button class="quiet" aria-label="Remove event ${i + 1}" @click=${() => h.setEvents(events.filter((_, j) => j !== i))}>✕</button></td>
       </tr>`;
     })}</tbody></table></div>
     <div class="row"><button @click=${() => h.setEvents([...events, { at: '0 h', add: { [h.firstState()]: '1' } }])}>Add an event</button></div>`;

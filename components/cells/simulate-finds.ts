@@ -41,7 +41,7 @@ function occurrenceOf(text: string): number | string {
 
 export function findsTable(h: FindsHost) {
   const { finds, claims, names, results } = h;
-  return html`<div class="scroll"><table class="finds">
+  return html`<div class="scroll"><table class="finds stack">
     ${finds.length ? html`<thead><tr><th>Name</th><th>Question</th><th>Of</th><th>Level or time</th><th>Answer</th><th><span class="sr">Remove</span></th></tr></thead>` : nothing}
     <tbody>${finds.map((f, i) => {
       const kind = findKindOf(f);
@@ -51,26 +51,26 @@ export function findsTable(h: FindsHost) {
       const hasMore = f.from !== undefined || f.to !== undefined || f.occurrence !== undefined || f.glance !== undefined;
       const who = f.name || `question ${i + 1}`;
       return html`<tr>
-        <td><input class="name" type="text" data-field="find[${i}].name" aria-label="Question ${i + 1} name" .value=${f.name ?? ''}
+        <td data-label="Name"><input class="name" type="text" data-field="find[${i}].name" aria-label="Question ${i + 1} name" .value=${f.name ?? ''}
           @input=${(e: Event) => h.setFind(i, { ...f, name: (e.target as HTMLInputElement).value }, `fname${i}`)} />
           ${footError(claims.take(`${p}.name`))}</td>
-        <td><select aria-label="Question ${i + 1} kind" @change=${(e: Event) => h.setFind(i, switchFind(f, (e.target as HTMLSelectElement).value as FindKind))}>
+        <td data-label="Question"><select aria-label="Question ${i + 1} kind" @change=${(e: Event) => h.setFind(i, switchFind(f, (e.target as HTMLSelectElement).value as FindKind))}>
           ${FIND_KINDS.map((k) => html`<option value=${k} ?selected=${k === kind}>${FIND_LABELS[k]}</option>`)}</select>
           ${kind === 'crossing' || f.direction !== undefined ? html`<select data-field="find[${i}].direction" aria-label="Question ${i + 1} direction" @change=${(e: Event) => set('direction', (e.target as HTMLSelectElement).value as FindDoc['direction'])}>
             ${DIRECTIONS.map(([d, l]) => html`<option value=${d} ?selected=${(f.direction ?? 'either') === d}>${l}</option>`)}</select>` : nothing}</td>
-        <td><input class="name" type="text" data-field="find[${i}].${kind}" aria-label="Question ${i + 1} state" .value=${String(f[kind] ?? '')}
+        <td data-label="Of"><input class="name" type="text" data-field="find[${i}].${kind}" aria-label="Question ${i + 1} state" .value=${String(f[kind] ?? '')}
           @input=${(e: Event) => h.setFind(i, withFindState(f, (e.target as HTMLInputElement).value), `fstate${i}`)} />
           ${footError(claims.take(`${p}.${kind}`))}</td>
-        <td>${needsLevel(kind) || f.level !== undefined ? html`<expr-field data-field="find[${i}].level" label="Question ${i + 1} level" .value=${f.level ?? ''} .names=${names}
+        <td data-label=${needsLevel(kind) || f.level !== undefined ? 'Level' : kind === 'valueOf' || f.at !== undefined ? 'Time' : nothing}>${needsLevel(kind) || f.level !== undefined ? html`<expr-field data-field="find[${i}].level" label="Question ${i + 1} level" .value=${f.level ?? ''} .names=${names}
             .error=${claims.take(`${p}.level`)} @expr-input=${(e: Input) => h.setFind(i, { ...f, level: e.detail.value }, `flevel${i}`)}></expr-field>` : nothing}
           ${kind === 'valueOf' || f.at !== undefined ? html`<expr-field data-field="find[${i}].at" label="Question ${i + 1} time" .value=${f.at ?? ''} .names=${names}
             .error=${claims.take(`${p}.at`)} @expr-input=${(e: Input) => h.setFind(i, { ...f, at: e.detail.value }, `fat${i}`)}></expr-field>` : nothing}</td>
-        <td class="result">${!r ? '' : 'notReached' in r ? html`<span class="muted">${r.message}</span>` : showQ(r)}${r && !('notReached' in r) ? html`<unit-pick data-field="find[${i}].unit" .unit=${r.unit} .picked=${f.unit} label="Show ${f.name} in another unit"
+        <td class="result" data-label="Answer">${!r ? '' : 'notReached' in r ? html`<span class="muted">${r.message}</span>` : showQ(r)}${r && !('notReached' in r) ? html`<unit-pick data-field="find[${i}].unit" .unit=${r.unit} .picked=${f.unit} label="Show ${f.name} in another unit"
             @unit-pick=${(e: CustomEvent<UnitPickDetail>) => h.setFind(i, withFindUnit(f, e.detail.unit))}></unit-pick>` : nothing}
           ${footError(claims.take(p) ?? claims.take(`${p}.unit`))}</td>
-        <td><button class="quiet" aria-label="Remove question ${i + 1}" @click=${() => h.setFinds(finds.filter((_, j) => j !== i))}>✕</button></td>
+        <td class="remove"><button class="quiet" aria-label="Remove question ${i + 1}" @click=${() => h.setFinds(finds.filter((_, j) => j !== i))}>✕</button></td>
       </tr>
-      <tr class="more"><td colspan="6"><details ?open=${hasMore}><summary>Window${kind === 'crossing' ? ', occurrence' : ''}, at a glance</summary>
+      <tr class="more"><td class="wide" colspan="6"><details ?open=${hasMore}><summary>Window${kind === 'crossing' ? ', occurrence' : ''}, at a glance</summary>
         <div class="row">
           <span class="lbl">Window from</span>
           <expr-field style="flex: 0 1 8rem" data-field="find[${i}].from" label="Question ${i + 1} window from (blank: the start of the run)" .value=${f.from ?? ''} .names=${names}

@@ -12,6 +12,7 @@ import { errorMark } from './error-mark.ts';
 import { exprHighlight, highlightTheme } from './highlight.ts';
 import { exprCompletion } from './complete.ts';
 import { nameInfo } from './name-info.ts';
+import { keepClearOfParts } from './keep-clear.ts';
 import { joinLines, singleLine } from './single-line.ts';
 import { fieldTheme } from './theme.ts';
 import { clearTyping, typingHistory } from './typing-history.ts';
@@ -103,6 +104,7 @@ export class ExprEditorController implements ReactiveController {
       exprHighlight,
       highlightTheme,
       exprCompletion,
+      keepClearOfParts,
       nameInfo,
       fieldTheme,
       EditorView.updateListener.of((u) => this.onUpdate(u)),

@@ -37,6 +37,7 @@ export class TimePlot extends LitElement {
     unit: {},
     scale: {},
     scaleToggle: { type: Boolean },
+    floor: { type: Number },
   };
 
   static override styles = chartStyles;
@@ -56,6 +57,12 @@ export class TimePlot extends LitElement {
   scale: PlotScale = 'linear';
   /** Show the log-axis checkbox (the host stores the choice and passes it back as `scale`). */
   scaleToggle = false;
+
+  /**
+   * The least half-height of the y axes around zero, in the states' unit (a fit's
+   * `residualFloor`): values smaller than it are drawn flat, not magnified. 0 for none.
+   */
+  floor = 0;
 
   private panels: Panel[] = [];
   /** Each panel's data as drawn: the plot's own, or on a log axis with the values it cannot place left out. */
@@ -199,8 +206,8 @@ export class TimePlot extends LitElement {
       const hi = Math.max(onLogAxis(max) ? max : -Infinity, ...shown);
       return Number.isFinite(lo) && Number.isFinite(hi) ? uPlot.rangeLog(lo, hi, 10, true) : [1, 10];
     }
-    const lo = Math.min(min ?? Infinity, ...extra);
-    const hi = Math.max(max ?? -Infinity, ...extra);
+    const lo = Math.min(min ?? Infinity, ...extra, ...(this.floor > 0 ? [-this.floor] : []));
+    const hi = Math.max(max ?? -Infinity, ...extra, ...(this.floor > 0 ? [this.floor] : []));
     return Number.isFinite(lo) && Number.isFinite(hi) ? uPlot.rangeNum(lo, hi, 0.1, true) : [0, 1];
   }
 

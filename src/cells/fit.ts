@@ -18,6 +18,7 @@ import { collectLaws } from './laws.ts';
 import { measuredPoints, type SimulationPlot } from '../simulate/plot-data.ts';
 import { quantitySig } from './signatures.ts';
 import { timeAxisUnits } from '../output/display-units.ts';
+import { residualAxisFloor, withoutRoundOff } from '../output/residuals.ts';
 
 /**
  * One node: it defines each estimate under its `as` name, and the measurements it fits, by
@@ -187,9 +188,12 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     bindings.set(u.as, { kind: 'value', q, sig: quantitySig(q) });
   });
   const firstObserved = laws[observed[0].si];
-  const residualSD = fit.residualSD === null ? undefined
-    : weighting === 'none' ? report({ si: fit.residualSD, dim: firstObserved.initial.dim, unit: deltaUnit(firstObserved.stateUnit), ...(firstObserved.initial.temp ? { temp: 'delta' as const } : {}) })
-      : { value: fit.residualSD, unit: '', si: fit.residualSD };
+  const difference = (law: Law, si: number): Quantity => ({ si, dim: law.initial.dim, unit: deltaUnit(law.stateUnit), ...(law.initial.temp ? { temp: 'delta' as const } : {}) });
+  // residuals (and their SD) within round-off of the data's scale are 0 (output/residuals.ts)
+  const sdSI = fit.residualSD === null ? null : weighting === 'none' ? withoutRoundOff(fit.residualSD, scale[observed[0].si]) : fit.residualSD;
+  const residualSD = sdSI === null ? undefined
+    : weighting === 'none' ? report(difference(firstObserved, sdSI))
+      : { value: sdSI, unit: '', si: sdSI };
   const n = unknowns.length;
   const output: Omit<FitFields, 'summary'> = {
     estimates,
@@ -203,12 +207,12 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     ...(fit.correlation ? { correlation: { names: unknowns.map((u) => u.as), matrix: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => fit.correlation![i * n + j])) } } : {}),
     ...(fit.warnings.length ? { warnings: fit.warnings.map((w) => w.message) } : {}),
     residuals: points.map((pt, k) => {
-      const law = laws[pt.state];
-      const r: Quantity = { si: -fit.residuals![k] / pt.w, dim: law.initial.dim, unit: deltaUnit(law.stateUnit), ...(law.initial.temp ? { temp: 'delta' as const } : {}) };
+      const r = difference(laws[pt.state], withoutRoundOff(-fit.residuals![k] / pt.w, scale[pt.state]));
       return { row: pt.row + 1, state: states[pt.state], time: report({ si: table.rows[pt.row][ti] as number, dim: TIME, unit: table.columns[ti].unit }), residual: report(r) };
     }),
+    residualFloor: report(difference(firstObserved, residualAxisFloor(scale[observed[0].si]))),
   };
-  const summary = `${unknowns.map((u, k) => `${u.as} = ${describe({ ...u.template, si: fit.p[k] })}${fit.standardErrors ? ` (standard error ${describe({ si: fit.standardErrors[k], dim: u.template.dim, unit: deltaUnit(u.template.unit) })})` : ''}`).join('; ')}; ${points.length} points${residualSD && weighting === 'none' ? `, residual SD ${describe({ si: fit.residualSD!, dim: firstObserved.initial.dim, unit: deltaUnit(firstObserved.stateUnit) })}` : ''}; ${fit.converged ? 'converged' : `not converged (${fit.message})`}.`;
+  const summary = `${unknowns.map((u, k) => `${u.as} = ${describe({ ...u.template, si: fit.p[k] })}${fit.standardErrors ? ` (standard error ${describe({ si: fit.standardErrors[k], dim: u.template.dim, unit: deltaUnit(u.template.unit) })})` : ''}`).join('; ')}; ${points.length} points${residualSD && weighting === 'none' ? `, residual SD ${describe(difference(firstObserved, sdSI!))}` : ''}; ${fit.converged ? 'converged' : `not converged (${fit.message})`}.`;
   // the measurements in SI, so that plots of the same states elsewhere can show them
   const series = observed.map((o) => {
     const rows = table.rows.filter((r) => r[o.ci] !== null && r[ti] !== null);

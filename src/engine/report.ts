@@ -226,6 +226,8 @@ export interface FitFields {
   correlation?: { names: string[]; matrix: number[][] };
   warnings?: string[];
   residuals: FitResidual[];
+  /** The least half-height of a plot of the residuals around zero (output/residuals.ts), in the first observed state's difference unit. */
+  residualFloor?: ReportQuantity;
   summary: string;
   /** The fitted curve over the data's span, with the measurements as points. */
   plot?: SimulationPlot;

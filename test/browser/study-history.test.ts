@@ -165,7 +165,7 @@ describe('undo and redo by keyboard', () => {
     const store = createStudyStore({ dbName: `ratebook-history-${Date.now()}-${Math.random().toString(36).slice(2)}` });
     const { id } = await store.createStudy(structuredClone(STUDY));
     const view = await mount({ save: async (sid, doc) => { await store.saveStudy(sid, doc); } }, id);
-    const title = view.shadowRoot!.querySelector('input.title') as HTMLInputElement;
+    const title = view.shadowRoot!.querySelector('textarea.title') as HTMLTextAreaElement;
     title.focus();
     title.select();
     await sendKeys({ type: 'Walk-in check' });
