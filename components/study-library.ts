@@ -51,9 +51,13 @@ export class StudyLibrary extends LitElement {
     const read = async <T>(what: () => Promise<T>, fallback: T): Promise<T> => {
       try { return await what(); } catch (err) { problems.push(message(err)); return fallback; }
     };
-    this.studies = await read(store.listStudies, []);
-    this.trash = await read(store.listTrash, []);
+    const studies = await read(store.listStudies, []);
+    const trash = await read(store.listTrash, []);
     this.damaged = await read(store.listDamaged, []);
+    // a sound metadata record beside a damaged document is listed once, as damaged
+    const bad = new Set(this.damaged.map((d) => d.id));
+    this.studies = studies.filter((s) => !bad.has(s.id));
+    this.trash = trash.filter((s) => !bad.has(s.id));
     this.loaded = true;
     if (problems.length) this.problem = problems.join(' ');
   }
