@@ -13,7 +13,8 @@ const ERROR_ID = 'error';
  * Properties: `value` (the text), `names` (the study's names, each with its current value
  * text as `detail`, for completion, colouring and the name tooltip), `error` (shown below
  * the field; its `span` is underlined, and without a span the whole field is outlined),
- * `label` (the accessible name), `readonly`.
+ * `label` (the accessible name), `readonly`, `readsStates` (the engine's fact that this field
+ * can read states: elsewhere a state's name is not the study's, and `h` is the hour).
  *
  * Events (bubbling, composed; detail `{ value }`): `expr-input` on every change the user
  * makes; `expr-commit` on Enter, and on blur when the text changed since the last commit.
@@ -27,6 +28,7 @@ export class ExprField extends LitElement {
     error: { attribute: false },
     label: { type: String },
     readonly: { type: Boolean, reflect: true },
+    readsStates: { attribute: false },
   };
 
   value = '';
@@ -34,6 +36,8 @@ export class ExprField extends LitElement {
   error?: FieldError;
   label = '';
   readonly = false;
+  /** The field can read states: set from the engine's `fieldReadsStates` for the field's path. */
+  readsStates = false;
 
   private readonly editor = new ExprEditorController(this, ERROR_ID);
 

@@ -1,5 +1,5 @@
 import { LitElement, html, css, nothing } from 'lit';
-import { freshId, type Cell, type CellReport } from '../src/index.ts';
+import { freshId, partsWords, type Cell, type CellReport } from '../src/index.ts';
 import { StudyController, type StudyControllerOptions } from './study-controller.ts';
 import { KINDS, ADDABLE } from './cells/registry.ts';
 import type { CellEditDetail } from './cells/common.ts';
@@ -40,6 +40,8 @@ export class StudyView extends LitElement {
     button:hover:not(:disabled) { background: #e4e9ee; }
     button:disabled { opacity: 0.45; cursor: default; }
     button:focus-visible, .title:focus-visible { outline: 2px solid #1d5fa8; outline-offset: 1px; }
+    .name-notes { border-left: 4px solid #5b6670; background: #f3f5f7; padding: 0.3rem 0.9rem; margin: 0 0 0.8rem; color: #2b3640; font-size: 0.9rem; }
+    .name-notes p { margin: 0.25rem 0; }
     .caution { border-left: 4px solid #a85d00; background: #fff3df; padding: 0.55rem 0.9rem; margin: 0 0 0.8rem; color: #3d2a00; }
     article { border: 1px solid #c9d1d8; border-radius: 6px; background: #fff; margin: 0 0 0.9rem; padding: 0.6rem 0.9rem 0.7rem; break-inside: avoid; contain: layout style; }
     article.failed { border-color: #b3261e; box-shadow: inset 3px 0 0 #b3261e; }
@@ -156,6 +158,8 @@ export class StudyView extends LitElement {
       <textarea class="description" data-field="description" rows="1" aria-label="What the study is about" placeholder="What this study is about (optional; printed on the sheet)" .value=${study.description ?? ''}
         @input=${(e: Event) => c.edit({ type: 'describe', description: (e.target as HTMLTextAreaElement).value }, 'description')}></textarea>
       ${(report?.cautions ?? []).map((x) => html`<p class="caution" role="note"><strong>Caution.</strong> ${x.text}</p>`)}
+      ${report?.warningParts?.length ? html`<section class="name-notes" aria-label="How this study's names are read">
+        ${report.warningParts.map((p) => { const w = partsWords(study, p); return html`<p>${w[0].toUpperCase()}${w.slice(1)}.</p>`; })}</section>` : nothing}
       ${c.problem ? html`<p class="problem" role="alert">${c.problem}</p>` : nothing}
       ${study.cells.length === 0 ? html`<p class="empty">This study has no cells yet. Start with parameters or a rate law below.</p>` : nothing}
       ${study.cells.map((cell, i) => this.cell(cell, i, byId.get(cell.id)))}
@@ -178,14 +182,14 @@ export class StudyView extends LitElement {
         <span class="kind">${info.label}</span>
         <input data-field="title" aria-label="Title of cell ${cell.id}" placeholder=${cell.id} .value=${cell.title ?? ''}
           @input=${(e: Event) => { const t = (e.target as HTMLInputElement).value; const { title: _t, ...rest } = cell; c.edit({ type: 'replace', cell: t ? { ...rest, title: t } : rest }, `${cell.id}:title`); }} />
-        <span class="state ${failed ? 'bad' : idle ? 'idle' : ''}">${!r ? '' : failed ? (r.waitsOn ? `waits on ${r.waitsOn.join(', ')}` : 'error') : idle ? 'not computed yet' : c.busy && c.rerun.includes(cell.id) ? 'recomputing…' : ''}</span>
+        <span class="state ${failed ? 'bad' : idle ? 'idle' : ''}">${!r ? '' : failed ? (r.waitsOn ? 'waiting' : 'error') : idle ? 'not computed yet' : c.busy && c.rerun.includes(cell.id) ? 'recomputing…' : ''}</span>
         <span class="tools">
           <button aria-label="Move ${cell.id} up" ?disabled=${i === 0} @click=${() => c.edit({ type: 'move', id: cell.id, to: i - 1 })}>↑</button>
           <button aria-label="Move ${cell.id} down" ?disabled=${i === (c.study?.cells.length ?? 0) - 1} @click=${() => c.edit({ type: 'move', id: cell.id, to: i + 1 })}>↓</button>
           <button aria-label="Delete ${cell.id}" @click=${() => c.edit({ type: 'remove', id: cell.id })}>✕</button>
         </span>
       </header>
-      ${info.render(cell, r, c.report)}
+      ${info.render(cell, r, c.report, c.study)}
     </article>`;
   }
 

@@ -13,7 +13,7 @@ export type {
 } from './engine/report.ts';
 export { isKind } from './engine/report.ts';
 export type { GlanceEntry, GlanceKind } from './output/glance.ts';
-export type { CellError, ProblemKind } from './engine/node.ts';
+export type { CellError, ProblemKind, MessagePart } from './engine/node.ts';
 export { parseExpression, type ParseResult, type ExprProblem } from './expression/parse.ts';
 export { evaluateExpression, type Lookup, type Value } from './expression/evaluate.ts';
 export { compileExpression, type Compiled } from './expression/compile.ts';
@@ -28,3 +28,7 @@ export { nameTex } from './expression/tex.ts';
 export type { FromWorker, ToWorker } from './engine/worker-protocol.ts';
 export { lookupUnit, unitAfterNumber } from './units/units.ts';
 export { commonUnitNames, constantNames, functionNames, unitNames } from './expression/vocabulary.ts';
+export { fieldWords, cellWords, KIND_LABELS } from './output/field-words.ts';
+export { problemWords, partsWords, waitWords, waitedOn, type ReportsOf } from './output/problem-words.ts';
+export { inspectorNotes, residualSdReason } from './output/sheet-notes.ts';
+export { fieldReadsStates } from './cells/reads-states.ts';

@@ -13,23 +13,25 @@ export type CellDoc<K extends CellKind> = Extract<Cell, { kind: K }>;
 
 export class CellElement<K extends CellKind> extends LitElement {
   /** Subclasses add their own (Lit merges them with these). */
-  static override properties: PropertyDeclarations = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false } };
+  static override properties: PropertyDeclarations = { cell: { attribute: false }, report: { attribute: false }, study: { attribute: false }, doc: { attribute: false } };
   static override styles = [cellStyles];
   cell!: CellDoc<K>;
   /** The engine's report of this cell. */
   report?: ReportOf<K>;
   /** The engine's report of the whole study (names, other cells). */
   study?: Report;
+  /** The study's document, for messages in words (places named as a person sees them). */
+  doc?: { readonly cells: readonly Cell[] };
   /** The cell's errors by field, made afresh for each render: a field takes its own, the rest go to the foot. */
   protected claims = new ErrorClaims(undefined);
 
   protected override willUpdate(): void {
-    this.claims = new ErrorClaims(this.report);
+    this.claims = new ErrorClaims(this.report, this.doc ? { doc: this.doc, report: this.study ?? { cells: [] }, self: this.cell.id } : undefined);
   }
 
   /** The study's names with their current values, for the expression fields. */
   protected get names(): StudyName[] {
-    return namesOf(this.study);
+    return namesOf(this.study, this.doc);
   }
 
   /** Ids of the study's cells of one kind, in order. */
@@ -47,8 +49,11 @@ export class CellElement<K extends CellKind> extends LitElement {
     this.dispatchEvent(editEvent(cell, key ? `${this.cell.id}:${key}` : undefined));
   }
 
-  /** The errors no field took, at the cell's foot, each with its path. */
+  /** At the cell's foot: what it waits on, once, and the errors no field took, each with its place in words. */
   protected footErrors() {
-    return this.claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="path">${e.path}</span>: ${e.message}</p>`);
+    return [
+      ...this.claims.waits().map((w) => html`<p class="foot-error waits" role="alert">${w[0].toUpperCase()}${w.slice(1)}.</p>`),
+      ...this.claims.rest().map((e) => html`<p class="foot-error" role="alert"><span class="place">${e.place[0].toUpperCase()}${e.place.slice(1)}</span>: ${e.message}</p>`),
+    ];
   }
 }

@@ -3,8 +3,9 @@
  * expression fields, the edit event, and the shared styles. Look-ups only; no computation.
  */
 import { css, html, nothing } from 'lit';
-import type { CellError, ParameterValue, Report, ReportBase, ReportQuantity } from '../../src/index.ts';
-import { formatNumber, unitAfterNumber } from '../../src/index.ts';
+import type { Cell, CellError, ParameterValue, Report, ReportBase, ReportQuantity } from '../../src/index.ts';
+import { fieldWords, formatNumber, problemWords, unitAfterNumber, waitedOn, waitWords } from '../../src/index.ts';
+import type { ReportsOf } from '../../src/index.ts';
 import type { StudyName } from '../expr-field.ts';
 
 /** A cell element's request to change its cell. */
@@ -18,14 +19,27 @@ export function editEvent(cell: unknown, mergeKey?: string): CustomEvent<CellEdi
   return new CustomEvent('cell-edit', { detail: { cell, mergeKey }, bubbles: true, composed: true });
 }
 
-/** Hands out the cell's errors by field path (relative, like `.items[0].value`); what is left is shown at the cell's foot. */
+/** What the words of a cell's messages are made from: the study's document and report, and the cell's id. */
+export interface WordsContext {
+  readonly doc: { readonly cells: readonly Cell[] };
+  readonly report: ReportsOf;
+  readonly self: string;
+}
+
+/**
+ * Hands out the cell's errors by field path (relative, like `.items[0].value`), in words; what
+ * is left is shown at the cell's foot. A wait is not handed to its fields: the cell says it
+ * once (`waits()`). Without a context (no document yet) the messages are the engine's own.
+ */
 export class ErrorClaims {
   private readonly byPath = new Map<string, CellError>();
   private readonly claimed = new Set<string>();
+  private readonly all: CellError[];
 
-  constructor(report: Pick<ReportBase, 'error' | 'errors'> | undefined) {
-    const all = report?.errors ?? (report?.error ? [report.error] : []);
-    for (const e of all) {
+  constructor(report: Pick<ReportBase, 'error' | 'errors'> | undefined, private readonly words?: WordsContext) {
+    this.all = report?.errors ?? (report?.error ? [report.error] : []);
+    for (const e of this.all) {
+      if (e.kind === 'waits' && e.waitsOn !== undefined) continue;
       const rel = e.path.replace(/^cells\[\d+\]/, '');
       if (!this.byPath.has(rel)) this.byPath.set(rel, e);
     }
@@ -36,12 +50,26 @@ export class ErrorClaims {
     const e = this.byPath.get(rel);
     if (!e) return undefined;
     this.claimed.add(rel);
-    return { message: e.message, ...(e.span ? { span: [e.span[0], e.span[1]] as [number, number] } : {}) };
+    return { message: this.message(e), ...(e.span ? { span: [e.span[0], e.span[1]] as [number, number] } : {}) };
   }
 
-  /** Errors no field took, in order. */
-  rest(): CellError[] {
-    return [...this.byPath].filter(([rel]) => !this.claimed.has(rel)).map(([, e]) => e);
+  /** Errors no field took, in order, each with its place and message in words. */
+  rest(): Array<{ place: string; message: string }> {
+    return [...this.byPath].filter(([rel]) => !this.claimed.has(rel)).map(([, e]) => ({ place: this.place(e.path), message: this.message(e) }));
+  }
+
+  /** The cell's waits, one sentence per cell waited on ("waits on Fit "k": ..."), its own cell left out. */
+  waits(): string[] {
+    const ids = waitedOn(this.all).filter((id) => id !== this.words?.self);
+    return ids.map((id) => (this.words ? waitWords(this.words.doc, this.words.report, id) : `waits on cell "${id}"`));
+  }
+
+  private message(e: CellError): string {
+    return this.words ? problemWords(this.words.doc, this.words.report, e) : e.message;
+  }
+
+  private place(path: string): string {
+    return this.words ? fieldWords(this.words.doc, path, false) : path;
   }
 }
 
@@ -62,25 +90,40 @@ export function showQ(q: ReportQuantity | undefined, digits = 4): string {
   return q.unit ? `${v} ${unitAfterNumber(q.unit)}` : v;
 }
 
-const namesCache = new WeakMap<Report, StudyName[]>();
+const namesCache = new WeakMap<Report, { doc?: object; names: StudyName[] }>();
 
-/** The study's names with their current values, for completion and the name tooltip (one list per report). */
-export function namesOf(report: Report | undefined): StudyName[] {
+/**
+ * The study's names with their current values, for completion, colouring and the name tooltip
+ * (one list per report and document). Names the document defines that have no value now (their
+ * cell failed or waits) are listed too, with no value: the engine still reads them as the
+ * study's, so `V` stays the volume, not the volt.
+ */
+export function namesOf(report: Report | undefined, doc?: { readonly cells: readonly Cell[] }): StudyName[] {
   if (!report) return [];
-  let names = namesCache.get(report);
-  if (!names) {
-    names = collectNames(report);
-    namesCache.set(report, names);
+  let hit = namesCache.get(report);
+  if (!hit || hit.doc !== doc) {
+    hit = { doc, names: collectNames(report, doc) };
+    namesCache.set(report, hit);
   }
-  return names;
+  return hit.names;
 }
 
-function collectNames(report: Report): StudyName[] {
+function collectNames(report: Report, doc?: { readonly cells: readonly Cell[] }): StudyName[] {
   const out: StudyName[] = [];
   for (const c of report?.cells ?? []) {
     for (const [name, q] of Object.entries(c.values ?? {})) out.push({ name, detail: showValue(q) });
     for (const [name, q] of Object.entries(c.results ?? {})) if (!('notReached' in q)) out.push({ name, detail: showValue(q) });
-    if (c.state !== undefined && c.initial) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}` });
+    if (c.state !== undefined && c.initial) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}`, state: true });
+  }
+  const known = new Set(out.map((n) => n.name));
+  const add = (name: unknown, state = false) => {
+    if (typeof name === 'string' && name && !known.has(name)) { known.add(name); out.push(state ? { name, state } : { name }); }
+  };
+  for (const c of doc?.cells ?? []) {
+    if (c.kind === 'parameters' && Array.isArray(c.items)) for (const i of c.items) add(i?.name);
+    if (c.kind === 'rate') add(c.state, true);
+    if (c.kind === 'simulate' && Array.isArray(c.find)) for (const f of c.find) add(f?.name);
+    if (c.kind === 'fit' && Array.isArray(c.estimate)) for (const e of c.estimate) add(e?.as);
   }
   return out;
 }

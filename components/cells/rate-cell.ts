@@ -1,5 +1,6 @@
 import { html } from 'lit';
 import { showQ } from './common.ts';
+import { fieldReadsStates } from '../../src/index.ts';
 import { CellElement } from './cell-element.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
@@ -18,7 +19,7 @@ export class RateCellElement extends CellElement<'rate'> {
         <span class="lbl">Rate of</span>
         <input class="name" type="text" data-field="state" aria-label="State name" .value=${c.state ?? ''} @input=${(e: Event) => this.edit({ state: (e.target as HTMLInputElement).value }, 'state')} />
         <span aria-hidden="true">per time =</span>
-        <expr-field data-field="rate" label="Rate law: the rate of change of ${c.state}" .value=${c.rate ?? ''} .names=${names} .error=${claims.take('.rate')}
+        <expr-field data-field="rate" label="Rate law: the rate of change of ${c.state}" .value=${c.rate ?? ''} .names=${names} .readsStates=${fieldReadsStates('rate', '.rate')} .error=${claims.take('.rate')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ rate: e.detail.value }, 'rate')}></expr-field>
       </div>
       ${stateError ? html`<p class="foot-error" role="alert">${stateError.message}</p>` : ''}

@@ -18,7 +18,8 @@ export interface KindInfo {
   readonly label: string;
   /** Fields of a new cell of this kind (the id is added by the caller). */
   readonly blank: (study: { cells: readonly Cell[] }) => Record<string, unknown>;
-  readonly render: (cell: Cell, report: CellReport | undefined, study: Report | undefined) => TemplateResult;
+  /** `doc` is the study's document, for messages in words. */
+  readonly render: (cell: Cell, report: CellReport | undefined, study: Report | undefined, doc?: { readonly cells: readonly Cell[] }) => TemplateResult;
 }
 
 const firstRate = (study: { cells: readonly Cell[] }) => study.cells.find((c) => c.kind === 'rate');
@@ -28,22 +29,22 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
   parameters: {
     label: 'Parameters',
     blank: () => ({ items: [{ name: 'k', value: '0.5 / h' }] }),
-    render: (c, r, s) => html`<parameters-cell .cell=${c} .report=${r} .study=${s}></parameters-cell>`,
+    render: (c, r, s, d) => html`<parameters-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></parameters-cell>`,
   },
   rate: {
     label: 'Rate law',
     blank: () => ({ state: 'y', unit: 'mg / L', rate: '-y / (2 h)', initial: '10 mg / L' }),
-    render: (c, r, s) => html`<rate-cell .cell=${c} .report=${r} .study=${s}></rate-cell>`,
+    render: (c, r, s, d) => html`<rate-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></rate-cell>`,
   },
   phase: {
     label: 'Where it settles',
     blank: (study) => ({ rate: firstRate(study)?.id ?? '', from: '0 mg / L', to: '20 mg / L' }),
-    render: (c, r, s) => html`<phase-cell .cell=${c} .report=${r} .study=${s}></phase-cell>`,
+    render: (c, r, s, d) => html`<phase-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></phase-cell>`,
   },
   simulate: {
     label: 'Run',
     blank: (study) => ({ rates: firstRate(study) ? [firstRate(study)!.id] : [], from: '0 h', to: '12 h', find: [] }),
-    render: (c, r, s) => html`<simulate-cell .cell=${c} .report=${r} .study=${s}></simulate-cell>`,
+    render: (c, r, s, d) => html`<simulate-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></simulate-cell>`,
   },
   note: {
     label: 'Note',
@@ -53,7 +54,7 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
   data: {
     label: 'Measurements',
     blank: () => ({ columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, null], [1, null]] }),
-    render: (c, r) => html`<data-cell .cell=${c} .report=${r}></data-cell>`,
+    render: (c, r, s, d) => html`<data-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></data-cell>`,
   },
   fit: {
     label: 'Fit',
@@ -66,7 +67,7 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
         estimate: rate ? [{ parameter: rate.state, as: `${rate.state}0_fit`, guess: rate.initial }] : [],
       };
     },
-    render: (c, r, s) => html`<fit-cell .cell=${c} .report=${r} .study=${s}></fit-cell>`,
+    render: (c, r, s, d) => html`<fit-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></fit-cell>`,
   },
   nca: {
     label: 'Profile summary',
@@ -74,7 +75,7 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
       const data = firstData(study);
       return { data: data?.id ?? '', time: data?.columns[0]?.name ?? 't', concentration: data?.columns[1]?.name ?? 'C', dose: '100 mg', route: 'iv-bolus' };
     },
-    render: (c, r, s) => html`<nca-cell .cell=${c} .report=${r} .study=${s}></nca-cell>`,
+    render: (c, r, s, d) => html`<nca-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></nca-cell>`,
   },
 };
 

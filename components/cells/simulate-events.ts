@@ -6,7 +6,7 @@
  */
 import { html, nothing } from 'lit';
 import {
-  EVENT_ACTIONS, eventActionOf, eventTargets, withTargetAt, withoutTargetAt, switchAction, withEventField,
+  EVENT_ACTIONS, eventActionOf, eventTargets, withTargetAt, withoutTargetAt, switchAction, withEventField, fieldReadsStates,
   type EventAction, type ScheduleEvent as EventDoc, type ReportOf,
 } from '../../src/index.ts';
 import type { ErrorClaims } from './common.ts';
@@ -66,7 +66,7 @@ export function eventsTable(h: EventsHost) {
           <input class="name" type="text" data-field="events[${i}].${kind}" aria-label="Event ${i + 1} target ${t + 1} name" .value=${target}
             @input=${(e: Event) => { const next = withTargetAt(ev, t, (e.target as HTMLInputElement).value, amount); if (next) h.setEvent(i, next, `target${i}.${t}`); }} />
           <expr-field data-field="events[${i}].${kind}" label="Event ${i + 1} ${t === 0 ? 'amount' : `amount ${t + 1}`}" .value=${amount} .names=${names}
-            .error=${claims.take(`${p}.${kind}.${target}`) ?? (t === 0 ? claims.take(`${p}.${kind}`) : undefined)}
+            .readsStates=${fieldReadsStates('simulate', `${p}.${kind}.${target}`)} .error=${claims.take(`${p}.${kind}.${target}`) ?? (t === 0 ? claims.take(`${p}.${kind}`) : undefined)}
             @expr-input=${(e: Input) => { const next = withTargetAt(ev, t, target, e.detail.value); if (next) h.setEvent(i, next, `amount${i}.${t}`); }}></expr-field>
           ${targets.length > 1 ? html`<button class="quiet" aria-label="Remove target ${target || t + 1} of event ${i + 1}" @click=${() => h.setEvent(i, withoutTargetAt(ev, t))}>✕</button>` : nothing}
         </div>`)}

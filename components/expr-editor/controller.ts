@@ -23,6 +23,8 @@ export interface ExprFieldHost extends ReactiveControllerHost, EventTarget {
   error?: FieldError;
   label: string;
   readonly: boolean;
+  /** The field can read states (the engine's `fieldReadsStates` for its path); false when absent. */
+  readsStates?: boolean;
 }
 
 export interface ExprInputDetail {
@@ -39,6 +41,7 @@ export class ExprEditorController implements ReactiveController {
   private committed = '';
   private props?: FieldProps;
   private namesFrom?: ReadonlyArray<StudyName>;
+  private readsStatesFrom = false;
 
   /**
    * @param host the element
@@ -129,8 +132,11 @@ export class ExprEditorController implements ReactiveController {
   private syncProps(): void {
     const h = this.host;
     const old = this.props;
-    const names = old && (this.namesFrom === h.names || sameNamesUpdated(old.names, h.names ?? [])) ? old.names : namesMap(h.names ?? []);
+    const reads = !!h.readsStates;
+    const keep = old && reads === this.readsStatesFrom && (this.namesFrom === h.names || sameNamesUpdated(old.names, h.names ?? [], reads));
+    const names = keep ? old.names : namesMap(h.names ?? [], reads);
     this.namesFrom = h.names;
+    this.readsStatesFrom = reads;
     const error = old && sameError(old.error, h.error) ? old.error : h.error;
     const next: FieldProps = { names, error, label: h.label ?? '', readonly: !!h.readonly, errorId: this.errorId };
     if (old && old.names === next.names && old.error === next.error && old.label === next.label && old.readonly === next.readonly) return;
@@ -169,8 +175,8 @@ export class ExprEditorController implements ReactiveController {
  * shown values are updated in place and the editor is left alone: colours depend on the
  * names, not their values, and the tooltip and completion read the values when they open.
  */
-function sameNamesUpdated(map: ReadonlyMap<string, string | undefined>, names: ReadonlyArray<StudyName>): boolean {
-  const fresh = namesMap(names);
+function sameNamesUpdated(map: ReadonlyMap<string, string | undefined>, names: ReadonlyArray<StudyName>, readsStates: boolean): boolean {
+  const fresh = namesMap(names, readsStates);
   if (fresh.size !== map.size) return false;
   for (const key of fresh.keys()) if (!map.has(key)) return false;
   for (const [key, detail] of fresh) (map as Map<string, string | undefined>).set(key, detail);

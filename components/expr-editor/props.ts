@@ -16,6 +16,8 @@ export interface FieldError {
 export interface StudyName {
   readonly name: string;
   readonly detail?: string;
+  /** A state: the engine reads it only in fields that can read states; elsewhere its spelling is a unit's, or nothing. */
+  readonly state?: boolean;
 }
 
 export interface FieldProps {
@@ -52,9 +54,14 @@ export const fieldProps = StateField.define<FieldProps>({
   ],
 });
 
-/** The name → detail map for a list of study names (later duplicates ignored). */
-export function namesMap(names: ReadonlyArray<StudyName>): ReadonlyMap<string, string | undefined> {
+/**
+ * The name → detail map for a list of study names (later duplicates ignored): the names the
+ * engine reads as the study's in this field. Without `readsStates` (the engine's per-field
+ * fact, `fieldReadsStates`) states are left out, so a state `h` in `to: "8 h"` is coloured and
+ * completed as the hour, as the engine reads it.
+ */
+export function namesMap(names: ReadonlyArray<StudyName>, readsStates = false): ReadonlyMap<string, string | undefined> {
   const map = new Map<string, string | undefined>();
-  for (const n of names) if (!map.has(n.name)) map.set(n.name, n.detail);
+  for (const n of names) if (!map.has(n.name) && (readsStates || !n.state)) map.set(n.name, n.detail);
   return map;
 }

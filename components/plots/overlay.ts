@@ -5,7 +5,7 @@
  * printed sharp. Rebuilt on every draw of the chart (data, size), never on cursor moves.
  */
 import type uPlot from 'uplot';
-import { type Box, placeLabel } from './label-placement.ts';
+import { type Box, type Taken, placeLabel } from './label-placement.ts';
 import { ratioOf } from './axes.ts';
 
 /** A label tied to a point, in CSS pixels relative to the plotting area. */
@@ -39,8 +39,9 @@ export function labelLayer(u: uPlot): HTMLElement {
 }
 
 /**
- * Replaces the layer's content: event markers first, then the labels, each placed clear of
- * those before it and of `keepClear` (e.g. the points themselves).
+ * Replaces the layer's content: event markers first, then the labels, each placed so that it
+ * never covers one before it, and clear of `keepClear` (the points, the curves) where it can
+ * be; a label with no room left is hidden.
  */
 export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: readonly EventMarker[] = [], keepClear: Box[] = []): void {
   const layer = labelLayer(u);
@@ -61,7 +62,7 @@ export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: rea
     layer.append(b);
   }
   const bounds: Box = { x: 0, y: 0, w, h };
-  const taken: Box[] = [...keepClear];
+  const taken: Taken = { labels: [], clear: keepClear };
   const leaders = document.createElementNS(SVG, 'svg');
   leaders.setAttribute('class', 'leaders');
   leaders.setAttribute('aria-hidden', 'true');
@@ -78,6 +79,9 @@ export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: rea
   labels.forEach((l, i) => {
     const el = els[i];
     const box = placeLabel(l.x, l.y, sizes[i][0], sizes[i][1], taken, bounds, l.along);
+    // no room left that would not cover another label: the label is left out (its value is
+    // in the cell's results and the chart's data table)
+    if (!box) { el.hidden = true; return; }
     el.style.left = `${box.x}px`;
     el.style.top = `${box.y}px`;
     // A label pushed away from its point gets a thin line back to it (a level's label, only

@@ -4,7 +4,7 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import { isKind, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
+import { isKind, KIND_LABELS, cellWords, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
@@ -16,20 +16,19 @@ type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
 /** Definitions longer than this (characters of source) are typeset on a row of their own. */
 const LONG_DEFINITION = 32;
 
-const KIND_NAMES: Record<Cell['kind'], string> = {
-  parameters: 'Parameters', rate: 'Rate law', phase: 'Where it settles', simulate: 'Simulation',
-  data: 'Measurements', fit: 'Fit', nca: 'Profile summary (non-compartmental)', note: 'Note',
-};
+/** Each kind as the app names it, so that a place in words (`Run "Six doses"`) is found by its heading. */
+const KIND_NAMES: Record<Cell['kind'], string> = { ...KIND_LABELS, nca: `${KIND_LABELS.nca} (non-compartmental)` };
 
 /**
  * Results at a glance, for the top of the sheet: the engine's `glance` list as it stands (it
  * chooses and orders them), each with the cell it comes from.
  */
-export function glance(report: Report): TemplateResult | typeof nothing {
+export function glance(report: Report, study: { readonly cells: readonly Cell[] }): TemplateResult | typeof nothing {
   const list = report.glance ?? [];
   if (!list.length) return nothing;
   const fromOf = (id: string) => { const c = report.cells.find((x) => x.id === id); return c?.title || id; };
-  const shown = (g: GlanceEntry) => g.unavailable !== undefined ? g.unavailable
+  const shown = (g: GlanceEntry) => g.waitsOn?.length ? `not computed: ${g.waitsOn.filter((id) => id !== g.cell).map((id) => `waits on ${cellWords(study, id)}`).join('; ') || 'waits'}`
+    : g.unavailable !== undefined ? g.unavailable
     : g.notReachedBy ? `not reached by ${showQ(g.notReachedBy)}`
     : g.kind === 'verdict' ? showValue(g.value)
     : `${g.value ? showQ(g.value) : ''}${g.standardError ? ` ± ${showQ(g.standardError)} (SE)` : ''}`;
@@ -38,14 +37,26 @@ export function glance(report: Report): TemplateResult | typeof nothing {
     <tbody>${list.map((g) => html`<tr><td class="name">${g.name}</td><td class="num">${shown(g)}</td><td class="from">${fromOf(g.cell)}</td></tr>`)}</tbody></table></section>`;
 }
 
-export function section(cell: Cell, r: CellReport | undefined, cells: readonly Cell[]): TemplateResult {
-  const body = !r ? html`<p class="muted">Not computed.</p>`
-    : !r.ok ? html`<p class="error">${r.waitsOn ? `Not computed: waits on ${r.waitsOn.join(', ')}.` : `Error: ${r.error?.message ?? 'unknown'}`}</p>`
-    : bodyOf(cell, r, cells);
+/**
+ * One cell as a section: its body, or its problems in words (places as a person sees them, a
+ * wait said once with its reason); then the notes an inspector needs (`inspectorNotes`).
+ */
+export function section(cell: Cell, r: CellReport | undefined, doc: { readonly cells: readonly Cell[] }, report: Report): TemplateResult {
+  const body = !r ? html`<p class="muted">Not computed.</p>` : !r.ok ? problems(cell, r, doc, report) : bodyOf(cell, r, doc.cells);
   return html`<section class="cell ${cell.kind}">
     <h2>${cell.title || KIND_NAMES[cell.kind]} <span class="kind">${KIND_NAMES[cell.kind]} · ${cell.id}</span></h2>
     ${body}
+    ${r ? inspectorNotes(r).map((n) => html`<p class="check note">Note: ${n}</p>`) : nothing}
   </section>`;
+}
+
+function problems(cell: Cell, r: CellReport, doc: { readonly cells: readonly Cell[] }, report: Report): TemplateResult {
+  const errors = r.errors ?? (r.error ? [r.error] : []);
+  const waits = waitedOn(errors).filter((id) => id !== cell.id).map((id) => waitWords(doc, report, id));
+  const own = errors.filter((e) => e.kind !== 'waits');
+  return html`${waits.map((w) => html`<p class="error">Not computed: it ${w}.</p>`)}
+    ${own.map((e) => html`<p class="error">Error in ${fieldWords(doc, e.path, false)}: ${problemWords(doc, report, e)}</p>`)}
+    ${!waits.length && !own.length ? html`<p class="error">Not computed.</p>` : nothing}`;
 }
 
 function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[]): TemplateResult {
@@ -74,7 +85,7 @@ function parameters(cell: Of<'parameters'>, r: ReportOf<'parameters'>): Template
       const long = typeof it.value === 'string' && it.value.length > LONG_DEFINITION;
       return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${it.name}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
         <td class="num">${showValue(values[it.name])}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}</td></tr>
-        ${long ? html`<tr class="formula"><td colspan="4">${t ? math(`${tex[it.name].name} = ${t}`) : html`<code>${it.name} = ${it.value}</code>`}</td></tr>` : nothing}`;
+        ${long ? html`<tr class="formula"><td colspan="4">${t ? math(`\\displaystyle ${tex[it.name].name} = ${t}`) : html`<code>${it.name} = ${it.value}</code>`}</td></tr>` : nothing}`;
     })}</tbody></table>`;
 }
 
@@ -180,7 +191,7 @@ function fit(cell: Of<'fit'>, r: ReportOf<'fit'>): TemplateResult {
   return html`<table class="results"><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead>
     <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
-    <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, residual SD ${showQ(r.residualSD)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message}).</p>
+    <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, residual SD ${r.residualSD ? showQ(r.residualSD) : residualSdReason(r)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message}).</p>
     <div class="keep">${plot ? timeChart(plot) : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>`;
 }
@@ -191,6 +202,5 @@ function nca(cell: Of<'nca'>, r: ReportOf<'nca'>): TemplateResult {
   return html`<p>Route ${cell.route}; areas by the ${cell.auc} rule; dose <code>${cell.dose}</code>.</p>
     <table class="results"><thead><tr><th>Result</th><th>Value</th></tr></thead>
     <tbody>${Object.entries(values).map(([name, q]) => html`<tr><td class="name">${name}</td><td class="num answer">${q ? showQ(q) : 'not available'}</td></tr>`)}</tbody></table>
-    ${used ? html`<p class="check">Terminal phase fitted on ${used.count} points, at ${used.times.map((t) => showQ(t)).join(', ')}.</p>` : nothing}
-    ${(r.warnings ?? []).map((w) => html`<p class="check">Note: ${w}</p>`)}`;
+    ${used ? html`<p class="check">Terminal phase fitted on ${used.count} points, at ${used.times.map((t) => showQ(t)).join(', ')}.</p>` : nothing}`;
 }

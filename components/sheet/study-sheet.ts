@@ -13,8 +13,9 @@ export interface SheetMeta {
 /**
  * `<study-sheet>`: the study as a document to hand over and print. A header with title,
  * author, date and revision; the cautions; every cell as a static section (tables, typeset
- * laws, phase lines, charts drawn as SVG, found results, the checks made); the engine's
- * warnings at the end. No controls. Sections and figures are kept whole across page breaks.
+ * laws, phase lines, charts drawn as SVG, found results, the checks made), each with the
+ * notes an inspector needs in plain language (`inspectorNotes`); the report's warnings about
+ * how the study's text is read are for its author and are not printed. No controls. Sections and figures are kept whole across page breaks.
  */
 export class StudySheet extends LitElement {
   static override properties = { study: { attribute: false }, report: { attribute: false }, meta: { attribute: false } };
@@ -67,7 +68,6 @@ export class StudySheet extends LitElement {
     if (!study) return nothing;
     const byId = new Map((this.report?.cells ?? []).map((c) => [c.id, c] as const));
     const when = (ms: number) => new Date(ms).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
-    const warnings = this.report?.warnings ?? [];
     return html`
       <header class="doc">
         <h1>${study.title}</h1>
@@ -80,9 +80,8 @@ export class StudySheet extends LitElement {
         ${study.description ? html`<p class="description">${study.description}</p>` : nothing}
       </header>
       ${(this.report?.cautions ?? []).map((c) => html`<p class="caution"><strong>Caution.</strong> ${c.text}</p>`)}
-      ${this.report ? glance(this.report) : nothing}
-      ${this.report ? study.cells.map((c) => section(c, byId.get(c.id), study.cells)) : html`<p class="muted">Computing…</p>`}
-      ${warnings.length ? html`<section class="cell"><h2>Engine notes</h2>${warnings.map((w) => html`<p class="check">${w}</p>`)}</section>` : nothing}
+      ${this.report ? glance(this.report, study) : nothing}
+      ${this.report ? study.cells.map((c) => section(c, byId.get(c.id), study, this.report!)) : html`<p class="muted">Computing…</p>`}
       <footer>Every value on this sheet was computed by Ratebook from the inputs shown, with the units shown. It is an aid to analysis and does not replace professional judgement, local codes or licensed practice.</footer>`;
   }
 }

@@ -6,6 +6,7 @@
  */
 import { svg, type SVGTemplateResult } from 'lit';
 import { tickLabels } from '../plots/axes.ts';
+import { placeLabel, type Box, type Taken } from '../plots/label-placement.ts';
 import { INK, seriesColour } from '../plots/palette.ts';
 
 export interface ChartLine {
@@ -32,6 +33,20 @@ export interface ChartSpec {
 }
 
 const FONT = 11;
+/** Labels of marks and levels: their font size, and a width per character no glyph of it exceeds on average (sans-serif). */
+const LABEL_FONT = 10;
+const LABEL_CHAR = 0.62 * LABEL_FONT;
+const LABEL_HEIGHT = 12;
+/** Space under the legend for the labels that found no room on the plot. */
+const UNPLACED_ROW = 16;
+
+/** A label's box for its text, in the chart's units: wide enough for the text in the sheet's font. */
+const labelSize = (text: string) => ({ w: Math.ceil(text.length * LABEL_CHAR) + 2, h: LABEL_HEIGHT });
+
+/** Distance from a point to its label beyond which a leader line joins them. */
+const LEADER_FROM = 14;
+
+interface PlacedLabel { readonly text: string; readonly box: Box; readonly leader?: readonly [number, number, number, number] }
 
 /** Round tick values covering [lo, hi]: steps of 1, 2, 2.5 or 5 times a power of ten. */
 export function niceTicks(lo: number, hi: number, most = 7): { ticks: number[]; step: number } {
@@ -98,7 +113,28 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const yLabels = yr.map((r) => tickLabels(r.ticks, r.step));
   const listed = spec.lines.map((l, i) => ({ l, i })).filter(({ l }) => !l.unlisted);
   const legend = listed.length > 1 || (spec.points ?? []).length > 0;
-  return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height + (legend ? 18 : 0)}" width="${width}" height="${height + (legend ? 18 : 0)}" font-family="sans-serif" font-size="${FONT}" role="img">
+  // labels of marks, then levels, placed so that none covers another, off the curves where there is room
+  const taken: Taken = { labels: [], clear: [
+    ...curveBoxes(spec.lines, X, Y),
+    ...(spec.points ?? []).flatMap((p) => p.x.map((x, j) => around(X(x), Y(p.y[j], p.axis ?? 0), 4))),
+    ...(spec.marks ?? []).map((m) => around(X(m.x), Y(m.y, m.axis ?? 0), 4)),
+  ] };
+  const bounds: Box = { x: left + 1, y: top + 1, w: pw - 2, h: ph - 2 };
+  const placed: PlacedLabel[] = [];
+  const unplaced: string[] = [];
+  const place = (text: string, px: number, py: number, along?: number[]) => {
+    const { w, h } = labelSize(text);
+    const box = placeLabel(px, py, w, h, taken, bounds, along);
+    if (!box) { unplaced.push(text); return; }
+    // a mark's label pushed away from its point gets a thin line back to it
+    const nx = Math.min(Math.max(px, box.x), box.x + box.w);
+    const ny = Math.min(Math.max(py, box.y), box.y + box.h);
+    placed.push({ text, box, ...(!along && Math.hypot(nx - px, ny - py) > LEADER_FROM ? { leader: [px, py, nx, ny] as const } : {}) });
+  };
+  for (const m of spec.marks ?? []) place(m.label, X(m.x), Y(m.y, m.axis ?? 0));
+  for (const l of spec.levels ?? []) place(l.label, left + pw - 4, Y(l.y, l.axis ?? 0), [left + pw / 2, left + 8]);
+  const extra = (legend ? 18 : 0) + (unplaced.length ? UNPLACED_ROW : 0);
+  return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height + extra}" width="${width}" height="${height + extra}" font-family="sans-serif" font-size="${FONT}" role="img">
     <g stroke="#d5dbe0" stroke-width="0.6">
       ${xr.ticks.map((v) => svg`<line x1=${X(v)} x2=${X(v)} y1=${top} y2=${top + ph} />`)}
       ${yr[0].ticks.map((v) => svg`<line x1=${left} x2=${left + pw} y1=${Y(v)} y2=${Y(v)} />`)}
@@ -114,19 +150,37 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
       ${twoAxes ? svg`<text transform="translate(${width - 8} ${top + ph / 2}) rotate(90)" text-anchor="middle">${spec.yLabels[1]}</text>` : ''}
     </g>
     ${(spec.events ?? []).map((e) => svg`<line x1=${X(e.x)} x2=${X(e.x)} y1=${top} y2=${top + ph} stroke="#7a5ba8" stroke-width="0.8" stroke-dasharray="2 3"><title>${e.label}</title></line>`)}
-    ${(spec.levels ?? []).map((l) => svg`<line x1=${left} x2=${left + pw} y1=${Y(l.y, l.axis ?? 0)} y2=${Y(l.y, l.axis ?? 0)} stroke="#555" stroke-width="0.8" stroke-dasharray="5 3" />
-      <text x=${left + pw - 4} y=${Y(l.y, l.axis ?? 0) - 3} text-anchor="end" fill="#333" font-size="10">${l.label}</text>`)}
+    ${(spec.levels ?? []).map((l) => svg`<line x1=${left} x2=${left + pw} y1=${Y(l.y, l.axis ?? 0)} y2=${Y(l.y, l.axis ?? 0)} stroke="#555" stroke-width="0.8" stroke-dasharray="5 3" />`)}
     ${spec.lines.map((l, i) => svg`<path d=${path(l)} fill="none" stroke=${l.colour ?? seriesColour(i)} stroke-width="1.6" stroke-linejoin="round" stroke-dasharray=${l.dashed ? '6 4' : 'none'} />`)}
     ${(spec.points ?? []).map((p, i) => p.x.map((x, j) => svg`<circle cx=${X(x)} cy=${Y(p.y[j], p.axis ?? 0)} r="2.8" fill="#fff" stroke=${seriesColour(p.colourOf ?? i)} stroke-width="1.2" />`))}
-    ${(spec.marks ?? []).map((m) => {
-      // a label near the right edge runs leftwards, so it stays inside the chart
-      const nearRight = X(m.x) > left + pw - 70;
-      return svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />
-      <text x=${X(m.x) + (nearRight ? -5 : 5)} y=${Y(m.y, m.axis ?? 0) - 5} text-anchor=${nearRight ? 'end' : 'start'} font-size="10" fill=${INK}>${m.label}</text>`;
-    })}
+    ${(spec.marks ?? []).map((m) => svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />`)}
+    <g stroke="#777" stroke-width="0.6">${placed.filter((p) => p.leader).map(({ leader: [x1, y1, x2, y2] = [0, 0, 0, 0] }) => svg`<line x1=${x1} y1=${y1} x2=${x2} y2=${y2} />`)}</g>
+    <g class="labels" font-size=${LABEL_FONT} fill=${INK}>${placed.map((p) => svg`<text class="lbl" x=${p.box.x + 1} y=${p.box.y + p.box.h - 3}>${p.text}</text>`)}</g>
+    ${unplaced.length ? svg`<text class="unplaced" x=${left} y=${height + extra - 4} font-size="10" fill=${INK}>Marked but not labelled, for want of room: ${unplaced.join(', ')}</text>` : ''}
     ${legend ? svg`<g font-size="10" fill=${INK}>${[...listed.map(({ l, i }) => ({ label: l.label, colour: l.colour ?? seriesColour(i), dashed: !!l.dashed, dot: false })), ...(spec.points ?? []).map((p, i) => ({ label: p.label, colour: seriesColour(p.colourOf ?? i), dashed: false, dot: true }))].map((item, k) => svg`
       <g transform="translate(${left + k * 150} ${height + 8})">
         ${item.dot ? svg`<circle cx="8" cy="0" r="2.8" fill="#fff" stroke=${item.colour} stroke-width="1.2" />` : svg`<line x1="0" x2="16" y1="0" y2="0" stroke=${item.colour} stroke-width="1.6" stroke-dasharray=${item.dashed ? '6 4' : 'none'} />`}
         <text x="21" y="3.5">${item.label}</text></g>`)}</g>` : ''}
   </svg>`;
+}
+
+/** A small square around a point, to keep labels off it. */
+const around = (x: number, y: number, r: number): Box => ({ x: x - r, y: y - r, w: 2 * r, h: 2 * r });
+
+/** Small boxes along the drawn lines (every few units), so that labels keep off the curves where they can. */
+function curveBoxes(lines: readonly ChartLine[], X: (v: number) => number, Y: (v: number, axis?: 0 | 1) => number, step = 4): Box[] {
+  const boxes: Box[] = [];
+  for (const l of lines) {
+    let prev: [number, number] | undefined;
+    for (let i = 0; i < l.x.length; i++) {
+      const v = l.y[i];
+      if (v === null || !Number.isFinite(v) || !Number.isFinite(l.x[i])) { prev = undefined; continue; }
+      const p: [number, number] = [X(l.x[i]), Y(v, l.axis ?? 0)];
+      const n = prev ? Math.min(200, Math.floor(Math.hypot(p[0] - prev[0], p[1] - prev[1]) / step)) : 0;
+      for (let k = 1; k < n; k++) boxes.push(around(prev![0] + ((p[0] - prev![0]) * k) / n, prev![1] + ((p[1] - prev![1]) * k) / n, 1.5));
+      boxes.push(around(p[0], p[1], 1.5));
+      prev = p;
+    }
+  }
+  return boxes;
 }

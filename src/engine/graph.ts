@@ -6,7 +6,7 @@
  * Built afresh from the node list on every edit: linear in nodes plus uses, a few
  * microseconds for a 50-cell study. What is expensive (parsing, running) is cached elsewhere.
  */
-import type { CellError, GraphNode } from './node.ts';
+import type { CellError, GraphNode, StudyNote } from './node.ts';
 import { isConstantName } from '../expression/constants.ts';
 import { nearest } from '../expression/suggest.ts';
 import { hiddenUnitWarnings, isUnitName } from './hidden-units.ts';
@@ -24,7 +24,8 @@ export interface Graph {
   readonly sources: ReadonlyMap<string, ReadonlyMap<string, Source>>;
   /** Problems known before running, per node key. */
   readonly problems: ReadonlyMap<string, CellError>;
-  readonly warnings: readonly string[];
+  /** Notes on how the study's names are read (names hiding constants or units), with their places as parts. */
+  readonly warnings: readonly StudyNote[];
 }
 
 /**
@@ -37,7 +38,7 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
   const definers = new Map<string, string>();
   const definedAt = new Map<string, string>();
   const problems = new Map<string, CellError>();
-  const warnings: string[] = [];
+  const warnings: StudyNote[] = [];
   const flag = (key: string, e: CellError) => { if (!problems.has(key)) problems.set(key, e); };
 
   for (const n of list) {
@@ -47,7 +48,8 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
       if (first !== undefined) {
         const what = d.name.startsWith('#') ? `the cell id "${d.name.slice(1)}"` : `"${d.name}"`;
         const firstCell = nodes.get(first)!.cell;
-        flag(n.key, { kind: 'duplicate', message: `${what} is already defined in cell "${firstCell}" (${resolve(firstCell, definedAt.get(d.name)!)})`, path: d.path });
+        const firstAt = resolve(firstCell, definedAt.get(d.name)!);
+        flag(n.key, { kind: 'duplicate', message: `${what} is already defined in cell "${firstCell}" (${firstAt})`, path: d.path, parts: [`${what} is already defined in `, { path: firstAt }] });
         continue;
       }
       if (d.name === 't') {
@@ -56,7 +58,10 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
       }
       definers.set(d.name, n.key);
       definedAt.set(d.name, d.path);
-      if (!d.name.startsWith('#') && isConstantName(d.name)) warnings.push(`the name "${d.name}" (${resolve(n.cell, d.path)}) hides the constant ${d.name}`);
+      if (!d.name.startsWith('#') && isConstantName(d.name)) {
+        const at = resolve(n.cell, d.path);
+        warnings.push({ text: `the name "${d.name}" (${at}) hides the constant ${d.name}`, parts: [`the name "${d.name}" (`, { path: at }, `) hides the constant ${d.name}`] });
+      }
     }
   }
   warnings.push(...hiddenUnitWarnings(list, definers, { resolve, cellName }));

@@ -26,6 +26,9 @@ import type { StudyUnits } from '../units/simplest-unit.ts';
 export const PROBLEM_KINDS = ['shape', 'syntax', 'unknown-name', 'misplaced', 'duplicate', 'cycle', 'waits', 'unit', 'invalid', 'numeric', 'internal'] as const;
 export type ProblemKind = (typeof PROBLEM_KINDS)[number];
 
+/** A piece of a message: text, or a place in the study (a contract path) that the app writes in words. */
+export type MessagePart = string | { readonly path: string };
+
 /** A problem for the user, on the field it is about; `message` is made from the other fields. */
 export interface CellError {
   readonly kind: ProblemKind;
@@ -36,6 +39,23 @@ export interface CellError {
   readonly span?: readonly [number, number];
   /** For `waits`: the id of the upstream cell waited on. */
   readonly waitsOn?: string;
+  /**
+   * The message as text and places, when it names another place of the study: `message`
+   * writes each place as its path (for the JSON report and the command line), the app and the
+   * sheet write it in words (`output/problem-words.ts`).
+   */
+  readonly parts?: readonly MessagePart[];
+}
+
+/** A note on the whole study (a report warning): its text with paths, and the same as parts for words. */
+export interface StudyNote {
+  readonly text: string;
+  readonly parts: readonly MessagePart[];
+}
+
+/** A message's parts as text, each place written by `place` (its path, by default). */
+export function partsText(parts: readonly MessagePart[], place: (path: string) => string = (p) => p): string {
+  return parts.map((x) => (typeof x === 'string' ? x : place(x.path))).join('');
 }
 
 /** A name as one node defines it. Cell references are names too: `#cooling`. */

@@ -5,7 +5,7 @@
  * cells/index.ts checks each builder against its kind here.
  */
 import type { CellKind } from '../study/types.ts';
-import type { CellError } from './node.ts';
+import type { CellError, MessagePart } from './node.ts';
 import type { ReportQuantity } from '../units/quantity.ts';
 import type { SimulationPlot } from '../simulate/plot-data.ts';
 import type { Stability } from '../numerics/phase/equilibria.ts';
@@ -281,6 +281,8 @@ export interface Report {
   title: string;
   ok: boolean;
   warnings: string[];
+  /** The same warnings as message parts, one list per warning in order: their places as `{ path }`, for words. */
+  warningParts?: MessagePart[][];
   /** Cautions the study must show (doses, temperature limits), in the order to show them. */
   cautions: Array<{ kind: string; text: string }>;
   /** The results at a glance, chosen by the engine (see output/glance.ts). */

@@ -9,7 +9,7 @@
 import type { Cell, Study } from '../study/types.ts';
 import { readStudy, checkCell, type Problem } from '../study/validate.ts';
 import { applyEdit, type Edit } from '../study/edit.ts';
-import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.ts';
+import type { Binding, CellError, GraphNode, MessagePart, Outcome, RunContext } from './node.ts';
 import { buildCellNodes, resolvePath, CELL_PATH } from '../cells/index.ts';
 import { buildGraph, upstreamOf, type Graph } from './graph.ts';
 import { prepareWhatIf, type Replacement, type Unavailable, type WhatIfPrepared } from './what-if.ts';
@@ -262,7 +262,8 @@ export class StudySession {
     this.lastReport = {
       title: this.title,
       ok: reports.every((c) => c.ok),
-      warnings: [...this.notes, ...this.graph.warnings],
+      warnings: [...this.notes, ...this.graph.warnings.map((w) => w.text)],
+      warningParts: [...this.notes.map((n) => [n]), ...this.graph.warnings.map((w) => [...w.parts])],
       cautions: cautionsFor(this.cells),
       glance: glanceOf(this.cells, reports),
       cells: reports,
@@ -316,10 +317,10 @@ export class StudySession {
     return typeof title === 'string' && title.trim() ? `"${title.trim()}"` : `cell "${id}"`;
   }
 
-  /** What a definer's name is, and where: "the parameter defined at cells[0].items[1]". */
-  private definedAt(definer: GraphNode, path: string): string {
+  /** What a definer's name is, and where: "the parameter defined at cells[0].items[1]", the place as a part. */
+  private definedAt(definer: GraphNode, path: string): MessagePart[] {
     const kind = definer.role === 'state' ? 'state' : KIND_WORDS[this.cells[this.indexOf(definer.cell)]?.kind] ?? 'name';
-    return `the ${kind} defined at ${resolvePath(path.replace(/\.name$/, ''), this.indexOf(definer.cell))}`;
+    return [`the ${kind} defined at `, { path: resolvePath(path.replace(/\.name$/, ''), this.indexOf(definer.cell)) }];
   }
 
   /**

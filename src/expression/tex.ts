@@ -60,8 +60,16 @@ export function symbolKinds(defined: ReadonlySet<string>): (name: string) => Sym
 
 /** TeX for `e`; `kindOf` tells a study's names from constants and units. */
 export function toTex(e: Expr, kindOf: (name: string) => SymbolKind): string {
-  return tex(e, kindOf).s;
+  return tex(e, kindOf, TOP).s;
 }
+
+/**
+ * Where a piece stands: inside a fraction (or a condition's rows, which TeX sets in text
+ * style), where a plain `\frac` would shrink to subscript size, so `\dfrac` keeps it at full
+ * size; or in an exponent, where small is right and `\frac` stays.
+ */
+interface Place { readonly nested: boolean; readonly script: boolean }
+const TOP: Place = { nested: false, script: false };
 
 /** The derivative of `state` with respect to time, set equal to its rate law: dT/dt = ... */
 export function rateLawTex(state: string, rate: Expr, kindOf: (name: string) => SymbolKind): string {
@@ -74,8 +82,10 @@ function wrap(x: Piece, need: P): string {
   return x.p < need ? `\\left(${x.s}\\right)` : x.s;
 }
 
-function tex(e: Expr, kindOf: (name: string) => SymbolKind): Piece {
-  const t = (x: Expr) => tex(x, kindOf);
+function tex(e: Expr, kindOf: (name: string) => SymbolKind, at: Place): Piece {
+  const t = (x: Expr, where: Place = at) => tex(x, kindOf, where);
+  const nested: Place = { nested: true, script: at.script };
+  const script: Place = { nested: at.nested, script: true };
   switch (e.k) {
     case 'num': return { s: numberTex(e.v), p: P.Atom, num: true, unit: false };
     case 'bool': return { s: `\\mathrm{${e.v}}`, p: P.Atom, num: false, unit: false };
@@ -89,13 +99,14 @@ function tex(e: Expr, kindOf: (name: string) => SymbolKind): Piece {
       return { s: `-${wrap(a, P.Mul)}`, p: P.Neg, num: false, unit: false };
     }
     case 'bin': {
-      const a = t(e.a);
-      const b = t(e.b);
+      const a = t(e.a, e.op === '/' ? nested : at);
+      const b = t(e.b, e.op === '/' ? nested : e.op === '^' ? script : at);
       switch (e.op) {
         case '+': return { s: `${wrap(a, P.Add)} + ${wrap(b, P.Add + 1)}`, p: P.Add, num: a.num, unit: false };
         case '-': return { s: `${wrap(a, P.Add)} - ${wrap(b, P.Add + 1)}`, p: P.Add, num: a.num, unit: false };
-        case '/': return { s: `\\frac{${a.s}}{${b.s}}`, p: P.Atom, num: false, unit: a.unit && b.unit };
-        case '^': return { s: `${wrap(a, P.Atom)}^{${b.s}}`, p: P.Pow, num: a.num, unit: a.unit };
+        case '/': return { s: `${at.nested && !at.script ? '\\dfrac' : '\\frac'}{${a.s}}{${b.s}}`, p: P.Atom, num: false, unit: a.unit && b.unit };
+        // a fraction raised to a power is bracketed, or the exponent would read as the denominator's
+        case '^': return { s: `${e.a.k === 'bin' && e.a.op === '/' ? `\\left(${a.s}\\right)` : wrap(a, P.Atom)}^{${b.s}}`, p: P.Pow, num: a.num, unit: a.unit };
         case '*': {
           // a number times a number keeps its sign; a quantity and its unit get a thin space
           const right = wrap(b, P.Mul + 1);
@@ -116,11 +127,11 @@ function tex(e: Expr, kindOf: (name: string) => SymbolKind): Piece {
     }
     case 'not': return { s: `\\lnot ${wrap(t(e.a), P.Neg)}`, p: P.Neg, num: false, unit: false };
     case 'if': return {
-      s: `\\begin{cases} ${t(e.a).s} & \\text{if } ${t(e.c).s} \\\\ ${t(e.b).s} & \\text{otherwise} \\end{cases}`,
+      s: `\\begin{cases} ${t(e.a, nested).s} & \\text{if } ${t(e.c, nested).s} \\\\ ${t(e.b, nested).s} & \\text{otherwise} \\end{cases}`,
       p: P.Atom, num: false, unit: false,
     };
     case 'call': {
-      const args = e.args.map(t);
+      const args = e.args.map((x, i) => t(x, e.fn === 'pow' && i === 1 ? script : at));
       if (e.fn === 'sqrt') return { s: `\\sqrt{${args[0].s}}`, p: P.Atom, num: false, unit: false };
       if (e.fn === 'abs') return { s: `\\left|${args[0].s}\\right|`, p: P.Atom, num: false, unit: false };
       if (e.fn === 'pow') return { s: `${wrap(args[0], P.Atom)}^{${args[1].s}}`, p: P.Pow, num: false, unit: false };

@@ -28,6 +28,8 @@ export interface GlanceEntry {
   readonly notReachedBy?: Shown;
   /** Why a result the study chose for the glance has no value (the cell failed, or waits). */
   readonly unavailable?: string;
+  /** With `unavailable`: the cells its cell waits on (ids), for words. */
+  readonly waitsOn?: readonly string[];
 }
 
 /** The profile summary's results that belong at a glance by default (names without the prefix). */
@@ -44,6 +46,7 @@ export function glanceOf(cells: readonly Cell[], reports: readonly CellReport[])
     const r = reports.find((x) => x.id === cell.id);
     if (!r) continue;
     const why = r.ok ? 'not computed' : r.waitsOn ? `waits on ${r.waitsOn.join(', ')}` : r.error?.message ?? 'not computed';
+    const waits = !r.ok && r.waitsOn ? { waitsOn: [...r.waitsOn] } : {};
     if (cell.kind === 'parameters' && Array.isArray(cell.items)) {
       const values = (r.values ?? {}) as Record<string, Shown>;
       for (const item of cell.items) {
@@ -52,7 +55,7 @@ export function glanceOf(cells: readonly Cell[], reports: readonly CellReport[])
         const verdict = typeof q?.truth === 'boolean';
         if (!chosen && !verdict) continue;
         out.push(q ? { name: item.name, cell: cell.id, kind: verdict ? 'verdict' : 'parameter', value: q }
-          : { name: item.name, cell: cell.id, kind: 'parameter', unavailable: why });
+          : { name: item.name, cell: cell.id, kind: 'parameter', unavailable: why, ...waits });
       }
     } else if (cell.kind === 'simulate' && Array.isArray(cell.find)) {
       const results = (r.results ?? {}) as Record<string, Shown | { notReached: true; end: Shown }>;
@@ -60,7 +63,7 @@ export function glanceOf(cells: readonly Cell[], reports: readonly CellReport[])
         if (typeof f?.name !== 'string' || (chosen && f.glance !== true)) continue;
         const x = r.ok ? results[f.name] : undefined;
         if (!x && !chosen) continue;
-        out.push(!x ? { name: f.name, cell: cell.id, kind: 'answer', unavailable: why }
+        out.push(!x ? { name: f.name, cell: cell.id, kind: 'answer', unavailable: why, ...waits }
           : 'notReached' in x ? { name: f.name, cell: cell.id, kind: 'answer', notReachedBy: x.end }
           : { name: f.name, cell: cell.id, kind: 'answer', value: x });
       }

@@ -7,7 +7,7 @@ import '../../components/plots/phase-plot.ts';
 import '../../components/plots/sweep-plot.ts';
 import { PRINT_WIDTH } from '../../components/plots/chart-controller.ts';
 import { runsOf } from '../../components/plots/sweep-plot.ts';
-import { placeLabel, type Box } from '../../components/plots/label-placement.ts';
+import { placeLabel, type Box, type Taken } from '../../components/plots/label-placement.ts';
 import { tickLabels } from '../../components/plots/axes.ts';
 import cooling from '../../examples/cooling-stock-pot.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
@@ -128,6 +128,24 @@ describe('<time-plot>', () => {
         const overlap = a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
         expect(overlap, `labels ${i} and ${j} overlap`).to.equal(false);
       }
+    }
+  });
+
+  it('never lets two labels overlap, at any width, on a crowded dosing chart (peaks and their times)', async () => {
+    const cell = simulation(bolus);
+    for (const width of [320, 500, 700]) {
+      const el = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary }), width);
+      const shown = [...shadow(el).querySelectorAll<HTMLElement>('.lbl')].filter((l) => !l.hidden);
+      expect(shown.length, `${width} px: most labels shown`).to.be.at.least(Math.min(4, cell.plot.marks.length));
+      const boxes = shown.map((l) => l.getBoundingClientRect());
+      for (let i = 0; i < boxes.length; i++) {
+        for (let j = i + 1; j < boxes.length; j++) {
+          const [a, b] = [boxes[i], boxes[j]];
+          const overlap = a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
+          expect(overlap, `${width} px: "${shown[i].textContent}" overlaps "${shown[j].textContent}"`).to.equal(false);
+        }
+      }
+      el.parentElement!.remove();
     }
   });
 
@@ -447,23 +465,23 @@ describe('label placement and tick labels', () => {
   const bounds: Box = { x: 0, y: 0, w: 400, h: 200 };
 
   it('puts a label above right of its point, and the next one elsewhere when that is taken', () => {
-    const taken: Box[] = [];
+    const taken: Taken = { labels: [], clear: [] };
     const a = placeLabel(100, 100, 60, 16, taken, bounds);
     expect(a).to.deep.equal({ x: 106, y: 78, w: 60, h: 16 });
     const b = placeLabel(104, 100, 60, 16, taken, bounds);
     expect(b).to.deep.equal({ x: 110, y: 106, w: 60, h: 16 });
-    expect(taken).to.have.length(2);
+    expect(taken.labels).to.have.length(2);
   });
 
   it('moves a level\'s label along its line before pushing it off the line', () => {
-    const taken: Box[] = [{ x: 300, y: 0, w: 100, h: 200 }]; // the right end is busy
+    const taken: Taken = { labels: [], clear: [{ x: 300, y: 0, w: 100, h: 200 }] }; // the right end is busy
     const box = placeLabel(398, 100, 60, 16, taken, bounds, [200, 100]);
     // first free spot: right above the line at x = 200
     expect(box).to.deep.equal({ x: 206, y: 78, w: 60, h: 16 });
   });
 
   it('keeps a label inside the plot near an edge', () => {
-    const box = placeLabel(398, 4, 60, 16, [], bounds);
+    const box = placeLabel(398, 4, 60, 16, { labels: [], clear: [] }, bounds)!;
     expect(box.x + box.w).to.be.at.most(400);
     expect(box.y).to.be.at.least(0);
   });

@@ -120,6 +120,48 @@ describe('study-sheet', () => {
     expect(one.map((g) => g.name), 'only the chosen answer').to.deep.equal([run.find![run.find!.length - 1].name]);
   });
 
+  it('says in words why a result chosen for the glance has no value', async () => {
+    const doc = { format: 'ratebook-study', version: 1, title: 'waits', cells: [
+      { id: 'a', kind: 'parameters', title: 'Inputs', items: [{ name: 'k', value: 'zz / h' }] },
+      { id: 'b', kind: 'parameters', items: [{ name: 'k2', value: '2 * k', glance: true }] },
+    ] };
+    const root = await sheetOf(doc);
+    const row = [...root.querySelectorAll('section.glance tbody tr td')].map((td) => td.textContent!.trim());
+    expect(row.slice(0, 2)).to.deep.equal(['k2', 'not computed: waits on Parameters "Inputs"']);
+    // the failed cells say their problems in words, the wait once, with its reason
+    const text = root.textContent!.replace(/\s+/g, ' ');
+    expect(text).to.contain('Error in parameter "k", value: unknown name "zz"');
+    expect(text).to.contain('Not computed: it waits on Parameters "Inputs": parameter "k", value: unknown name "zz".');
+    expect(text).to.not.match(/cells\[\d+\]/);
+  });
+
+  it('prints notes for an inspector in words, and not the engine\'s notes on how names are read', async () => {
+    // invented numbers: a tank level h read in its law, where h hides the hour (an engine-only note)
+    const doc = { format: 'ratebook-study', version: 1, title: 'tank', cells: [
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.2 m^0.5 / min' }] },
+      { id: 'tank', kind: 'rate', state: 'h', unit: 'm', rate: '-k * sqrt(h)', initial: '2 m' },
+    ] };
+    expect(reportOf(doc).warnings.join(' ')).to.match(/hides the unit h/);
+    const root = await sheetOf(doc);
+    expect(root.textContent).to.not.match(/Engine notes|hides the unit|cells\[/);
+  });
+
+  it('a fit with no degrees of freedom says why it has no residual SD, and keeps its warning', async () => {
+    // invented numbers: two readings, two estimates
+    const doc = { format: 'ratebook-study', version: 1, title: 'two points', cells: [
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h' }] },
+      { id: 'cool', kind: 'rate', state: 'T', unit: 'degC', rate: '-k * (T - 20 degC)', initial: '80 degC' },
+      { id: 'logger', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'T', unit: 'degC' }], rows: [[0, 80], [1, 56]] },
+      { id: 'fit', kind: 'fit', rates: ['cool'], data: 'logger', time: 't', observe: { T: 'T' }, estimate: [{ parameter: 'k', as: 'k_fit', guess: '0.3 / h' }, { parameter: 'T', as: 'T0_fit', guess: '75 degC' }] },
+    ] };
+    const root = await sheetOf(doc);
+    const text = root.querySelector('section.fit')!.textContent!.replace(/\s+/g, ' ');
+    // hand-worked: 2 points - 2 estimates = 0 degrees of freedom
+    expect(text).to.contain('0 degrees of freedom, residual SD not available: 2 points for 2 estimates leave no degrees of freedom to estimate it from,');
+    expect(text).to.contain('Note: As many data points as parameters');
+    expect(text).to.not.match(/residual SD ,/);
+  });
+
   it('shows verdicts as yes or no, first among the results at a glance', async () => {
     const root = await sheetOf(twoStage);
     const rows = [...root.querySelectorAll('section.glance tbody tr')].map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent!.trim()));

@@ -35,6 +35,17 @@ describe('study-view', () => {
     expect(text).to.contain('Caution.');
   });
 
+  it('says how the study\'s names are read, in words, where the sheet does not print it', async () => {
+    // invented numbers: a tank level h read in its law, where it hides the hour
+    const view = await mount({ format: 'ratebook-study', version: 1, title: 'tank', cells: [
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.2 m^0.5 / min' }] },
+      { id: 'tank', kind: 'rate', title: 'Tank', state: 'h', unit: 'm', rate: '-k * sqrt(h)', initial: '2 m' },
+    ] });
+    const notes = view.shadowRoot!.querySelector('.name-notes')!.textContent!.replace(/\s+/g, ' ').trim();
+    expect(notes).to.contain('The state "h" of Rate law "Tank" hides the unit h in Rate law "Tank", rate law: there h is the state; for hours write hour.');
+    expect(notes).to.not.match(/cells\[/);
+  });
+
   it('an edit of a field re-runs the study and shows the engine\'s new answer', async () => {
     const view = await mount(cooling);
     const field = deep(view.shadowRoot!, 'expr-field').find((f) => (f as ExprField).label === 'Value of T_walkin') as ExprField;

@@ -43,6 +43,46 @@ describe('TeX of expressions', () => {
   });
 });
 
+/**
+ * The fractions KaTeX (the reference parser) would set smaller than text size outside an
+ * exponent: a fraction inside another fraction's numerator or denominator, or in a
+ * condition's rows, that does not ask for display size. KaTeX's parse tree: `genfrac` nodes
+ * with `numer`, `denom` and `size` ('display' for \dfrac), `supsub` with `sup`/`sub`.
+ */
+function shrunkFractions(texText: string): string[] {
+  const found: string[] = [];
+  const walk = (node: unknown, nested: boolean): void => {
+    if (Array.isArray(node)) { for (const x of node) walk(x, nested); return; }
+    if (!node || typeof node !== 'object') return;
+    const n = node as Record<string, unknown>;
+    if (n.type === 'supsub') { walk(n.base, nested); return; } // exponents and subscripts are meant small
+    if (n.type === 'genfrac') {
+      if (nested && n.size !== 'display') found.push(JSON.stringify(n).slice(0, 80));
+      walk(n.numer, true);
+      walk(n.denom, true);
+      return;
+    }
+    if (n.type === 'array') { walk(n.body, true); return; }
+    for (const [k, v] of Object.entries(n)) if (k !== 'loc' && typeof v === 'object') walk(v, nested);
+  };
+  walk((katex as unknown as { __parse(s: string, o: object): unknown }).__parse(texText, { displayMode: true }), false);
+  return found;
+}
+
+describe('nested fractions stay legible', () => {
+  it('a fraction inside a fraction or a condition is set at display size; in an exponent it stays small', () => {
+    assert.equal(tex('(k / 2) / (V / 3)'), '\\frac{\\dfrac{k}{2}}{\\dfrac{V}{3}}');
+    assert.equal(tex('1 / (1 + k / V)'), '\\frac{1}{1 + \\dfrac{k}{V}}');
+    assert.match(tex('t < 2 min ? k / 2 : k / 3'), /\\dfrac\{k\}\{2\}.*\\dfrac\{k\}\{3\}/);
+    assert.equal(tex('k ^ (1 / 2)'), 'k^{\\frac{1}{2}}');
+    assert.equal(tex('(V / (k / 2)) ^ (1 / 2)'), '\\left(\\frac{V}{\\dfrac{k}{2}}\\right)^{\\frac{1}{2}}');
+    // KaTeX's own reading agrees: no fraction at subscript size outside an exponent
+    for (const x of ['(k / 2) / (V / 3)', '1 / (1 + k / (V / 2))', 't < 2 min ? k / 2 : k / 3', '(V / (k / 2)) ^ (1 / 2)']) assert.deepEqual(shrunkFractions(tex(x)), [], x);
+    // and the check can fail: the old plain \frac inside a \frac is caught
+    assert.equal(shrunkFractions('\\frac{\\frac{k}{2}}{V}').length, 1);
+  });
+});
+
 describe('TeX of a study', () => {
   it('a state h is the state in its rate law and the hour in a parameter value', () => {
     const r = runStudy({ format: 'ratebook-study', version: 1, title: 'tank', cells: [
@@ -79,6 +119,7 @@ describe('TeX of every template', () => {
       }
       for (const [key, s] of all) {
         assert.doesNotThrow(() => katex.renderToString(s, { throwOnError: true, output: 'mathml' }), `${key}: ${s}`);
+        assert.deepEqual(shrunkFractions(s), [], `${key}: a fraction set at subscript size in ${s}`);
       }
     });
   }
