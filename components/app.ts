@@ -3,16 +3,28 @@ import * as store from './store.ts';
 import { StudyView } from './study-view.ts';
 import './study-library.ts';
 import { loadSheet } from './sheet/load.ts';
+import { StudySaving } from './study-saving.ts';
+import { replayJournals } from './journal.ts';
 
 /**
  * The app shell: the library of studies (#/) and one open study (#/study/<id>), with export
  * and print. Routing by the address's hash, so a reload comes back to the same place.
  */
 export class RatebookApp extends LitElement {
-  static override properties = { route: { state: true }, problem: { state: true } };
+  static override properties = { route: { state: true }, problem: { state: true }, notice: { state: true }, conflict: { state: true }, saveProblem: { state: true }, ready: { state: true } };
+  /** False until the journal has been replayed: the library lists studies only after it. */
+  ready = false;
   route: { page: 'library' } | { page: 'study'; id: string; sheet: boolean } = { page: 'library' };
   problem?: string;
+  /** What saving did that the user should know: edits replayed from the journal, saving working again. */
+  notice?: string;
+  /** The open study was saved elsewhere: what happened, until the user chooses. */
+  conflict?: string;
+  /** Why the open study's last save failed, until a save succeeds. */
+  saveProblem?: string;
   private view?: StudyView;
+  private saving?: StudySaving;
+  private replayed?: Promise<void>;
 
   static override styles = css`
     :host { display: block; font-family: system-ui, -apple-system, 'Segoe UI', sans-serif; color: #1c2329; background: #f2f4f6; min-height: 100vh; }
@@ -25,6 +37,9 @@ export class RatebookApp extends LitElement {
     header.top button:focus-visible, header.top a:focus-visible { outline: 2px solid #ffd27a; outline-offset: 2px; }
     main { max-width: 64rem; margin: 0 auto; padding: 0.8rem 1.2rem 2rem; }
     .problem { color: #a3211a; }
+    .notice { background: #eef4fb; border: 1px solid #b8cde6; border-radius: 5px; padding: 0.4rem 0.7rem; }
+    .conflict { background: #fff3df; border: 1px solid #a85d00; border-radius: 5px; padding: 0.4rem 0.8rem 0.7rem; }
+    .conflict button, .notice button { font: inherit; font-size: 0.85rem; padding: 0.2rem 0.6rem; margin-right: 0.4rem; border: 1px solid #8795a1; border-radius: 4px; background: #f3f5f7; cursor: pointer; }
     @media print {
       :host { background: #fff; }
       header.top { display: none; }
@@ -36,8 +51,26 @@ export class RatebookApp extends LitElement {
     super.connectedCallback();
     window.addEventListener('hashchange', this.navigate);
     window.addEventListener('pagehide', this.flush);
+    window.addEventListener('beforeunload', this.guard);
     document.addEventListener('visibilitychange', this.flush);
     void this.navigate();
+  }
+
+  /** Asks before the page goes only while an edit is neither stored nor in the journal. */
+  private guard = (e: BeforeUnloadEvent) => {
+    const c = this.view?.controller;
+    if (!c || !this.saving || c.saveState === 'saved' || this.saving.journaled) return;
+    e.preventDefault();
+    e.returnValue = '';
+  };
+
+  /** Replays the journal of pages closed before their edits were stored (once, before the first page opens). */
+  private replay(): Promise<void> {
+    return (this.replayed ??= replayJournals(store).then(({ restored, problems }) => {
+      if (restored.length) this.notice = restored.join(' ');
+      if (problems.length) this.problem = problems.join(' ');
+    }, (err) => { this.problem = `Could not check for unsaved changes: ${err instanceof Error ? err.message : String(err)}`; })
+      .finally(() => { this.ready = true; }));
   }
 
   /** Saves the open study now: the page may be closing or going to the background. */
@@ -48,11 +81,13 @@ export class RatebookApp extends LitElement {
   override disconnectedCallback(): void {
     window.removeEventListener('hashchange', this.navigate);
     window.removeEventListener('pagehide', this.flush);
+    window.removeEventListener('beforeunload', this.guard);
     document.removeEventListener('visibilitychange', this.flush);
     super.disconnectedCallback();
   }
 
   private navigate = async () => {
+    await this.replay();
     const m = /^#\/study\/([^/]+)(\/sheet)?$/.exec(location.hash);
     const sheet = m?.[2] !== undefined;
     const id = m ? decodeURIComponent(m[1]) : undefined;
@@ -62,25 +97,40 @@ export class RatebookApp extends LitElement {
       this.route = { page: 'study', id, sheet };
       return;
     }
-    if (this.view) await this.view.controller.flush();
+    if (this.view && !this.conflict) await this.view.controller.flush();
+    this.conflict = undefined;
+    this.saveProblem = undefined;
     if (!m || id === undefined) {
       this.view = undefined;
       this.route = { page: 'library' };
       return;
     }
-    const stored = await store.loadStudy(id);
+    let stored: store.StoredStudy | undefined;
+    try {
+      stored = await store.loadStudy(id);
+    } catch (err) {
+      this.view = undefined;
+      this.problem = err instanceof Error ? err.message : String(err);
+      location.hash = '#/';
+      return;
+    }
     if (!stored || stored.deleted !== undefined) {
       this.problem = 'That study is not on this device (it may have been deleted).';
       location.hash = '#/';
       return;
     }
     this.problem = undefined;
-    const view = StudyView.create({
-      save: async (sid, doc) => {
-        const info = await store.saveStudy(sid, doc);
+    const saving = new StudySaving(id, stored.revision, {
+      saved: (info, recovered) => {
         view.meta = { revision: info.revision, updated: info.updated };
+        this.saveProblem = undefined;
+        if (recovered) this.notice = 'Saved: the changes that could not be stored before are stored now.';
       },
+      conflict: (message) => { this.conflict = message; },
+      failed: (message) => { this.saveProblem = message; },
     });
+    const view = StudyView.create({ save: saving.save, journal: saving.journal, retry: saving.retry });
+    this.saving = saving;
     view.meta = { revision: stored.revision, updated: stored.updated };
     view.mode = sheet ? 'sheet' : 'edit';
     view.addEventListener('sheet-mode', (e) => {
@@ -102,9 +152,37 @@ export class RatebookApp extends LitElement {
       </header>
       <main>
         ${this.problem ? html`<p class="problem" role="alert">${this.problem}</p>` : nothing}
-        ${this.route.page === 'study' ? this.view : html`<study-library></study-library>`}
+        ${this.notice ? html`<p class="notice" role="status">${this.notice} <button class="dismiss" @click=${() => { this.notice = undefined; }}>OK</button></p>` : nothing}
+        ${this.conflict ? html`<div class="conflict" role="alert"><p>${this.conflict} Choose which version to keep:</p>
+          <button data-choice="newer" @click=${this.takeNewer}>Open the newer version (drop the changes made here)</button>
+          <button data-choice="copy" @click=${this.keepCopy}>Keep the changes made here as a new study</button></div>` : nothing}
+        ${this.route.page === 'study' && this.saveProblem && !this.conflict
+          ? html`<p class="problem save-error" role="alert">${this.saveProblem} Your changes are kept on this page${this.saving?.journaled ? ' and on this device' : ''}, and saving is tried again by itself.</p>` : nothing}
+        ${this.route.page === 'study' ? this.view : this.ready ? html`<study-library></study-library>` : nothing}
       </main>`;
   }
+
+  /** The conflict's first choice: the stored (newer) study, this page's changes dropped. */
+  private takeNewer = () => {
+    this.saving?.discard();
+    this.view = undefined;
+    void this.navigate();
+  };
+
+  /** The conflict's second choice: this page's study becomes a new study, and opens. */
+  private keepCopy = async () => {
+    const study = this.view?.controller.study;
+    if (!study) return;
+    try {
+      const info = await store.createStudy({ ...study, title: `${study.title} (copy from another tab)` });
+      this.saving?.discard();
+      this.view = undefined;
+      this.notice = `Your changes are kept as a new study, "${info.title}". The other version is unchanged.`;
+      location.hash = `#/study/${encodeURIComponent(info.id)}`;
+    } catch (err) {
+      this.problem = `Could not keep your changes as a new study: ${err instanceof Error ? err.message : String(err)} Use Export study to keep them as a file.`;
+    }
+  };
 
   private exportStudy = () => {
     const study = this.view?.controller.study;

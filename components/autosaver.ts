@@ -14,7 +14,7 @@ export const AutosaveStates = {
   pending: 'pending',
   /** A save is in flight. */
   saving: 'saving',
-  /** The last save failed; `error` says why. The document is kept and retried on the next `schedule` or `flush`. */
+  /** The last save failed; `error` says why. The document is kept and retried: by itself after a growing wait (unless the failure says not to), and on the next `schedule` or `flush`. */
   error: 'error',
 } as const;
 export type AutosaveState = (typeof AutosaveStates)[keyof typeof AutosaveStates];
@@ -50,8 +50,19 @@ export interface Autosaver<D> {
  * saved after it, so an older document can never land after a newer one. A rejected save puts
  * the autosaver in 'error' with the rejection's message and keeps the unsaved document.
  */
-export function createAutosaver<D>(save: (doc: D) => Promise<void>, delayMs = 600): Autosaver<D> {
+/** The first wait before a failed save is tried again, and the longest (ms): the wait doubles after each failure. */
+const RETRY_FIRST_MS = 1000;
+const RETRY_MAX_MS = 16000;
+
+export interface AutosaverOptions {
+  /** Whether a failure is worth retrying by itself (default: every failure is). */
+  readonly retry?: (err: unknown) => boolean;
+}
+
+export function createAutosaver<D>(save: (doc: D) => Promise<void>, delayMs = 600, options: AutosaverOptions = {}): Autosaver<D> {
   if (!(delayMs >= 0)) throw new RangeError(`createAutosaver: delayMs must be 0 or more, not ${delayMs}`);
+  let failures = 0;
+  let retryable = false;
   let state: AutosaveState = 'saved';
   let error: string | undefined;
   let unsaved: { doc: D } | undefined; // the newest document not yet handed to `save`
@@ -107,8 +118,11 @@ export function createAutosaver<D>(save: (doc: D) => Promise<void>, delayMs = 60
       let failure: string | undefined;
       try {
         await save(job.doc);
+        failures = 0;
       } catch (err) {
         failure = err instanceof Error ? err.message : String(err);
+        failures++;
+        retryable = options.retry ? options.retry(err) : true;
         unsaved ??= job; // keep the document that failed unless a newer one is waiting
         firstUnsavedAt = Date.now(); // retries wait a quiet period: no save per keystroke while failing
       }
@@ -123,7 +137,10 @@ export function createAutosaver<D>(save: (doc: D) => Promise<void>, delayMs = 60
       start(); // a newer document is due (its quiet period ended, or someone is flushing)
       return;
     }
-    if (failure !== undefined) setState('error', failure);
+    if (failure !== undefined) {
+      setState('error', failure);
+      if (retryable && timer === undefined) timer = setTimeout(onQuiet, Math.min(RETRY_MAX_MS, RETRY_FIRST_MS * 2 ** (failures - 1)));
+    }
     else setState(unsaved ? 'pending' : 'saved');
     if (flushing && (failure !== undefined || !unsaved)) {
       const resolveAll = waiters;

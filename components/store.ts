@@ -16,6 +16,9 @@
  */
 import { createStore, promisifyRequest, type UseStore } from 'idb-keyval';
 import { readStudy, type Study } from '../src/index.ts';
+import { metaProblem, docProblem, damaged, keyId, type DamagedStudy } from './store-records.ts';
+
+export type { DamagedStudy } from './store-records.ts';
 
 export { createAutosaver, AutosaveStates, type Autosaver, type AutosaveState } from './autosaver.ts';
 export { exportSeriesCsv, type SeriesColumn, type SeriesData } from './series-csv.ts';
@@ -60,7 +63,7 @@ export interface StudyFile {
 /** Why a store operation failed. `code` tells the kinds apart; `message` is for the user. */
 export class StoreError extends Error {
   override name = 'StoreError';
-  readonly code: 'not-found' | 'invalid' | 'storage';
+  readonly code: 'not-found' | 'invalid' | 'storage' | 'conflict' | 'damaged';
   constructor(code: StoreError['code'], message: string, options?: { cause?: unknown }) {
     super(message, options);
     this.code = code;
@@ -97,9 +100,12 @@ export interface StudyStore {
    * Replaces the study's document, stamps `updated` and adds one to `revision`. The document
    * must pass `readStudy` (field problems in cells are kept, as the engine keeps them); a
    * refused one rejects with code 'invalid' and nothing changes. A study in the trash stays
-   * there, with the new document. Rejects with code 'not-found' for an unknown id.
+   * there, with the new document. Rejects with code 'not-found' for an unknown id. With
+   * `expectedRevision` it is a compare-and-set inside the one transaction: when the stored
+   * revision is another (a newer save from another tab), it rejects with code 'conflict' and
+   * nothing changes.
    */
-  saveStudy(id: string, doc: Study): Promise<StudyInfo>;
+  saveStudy(id: string, doc: Study, expectedRevision?: number): Promise<StudyInfo>;
   /** Stores a new study under a new id: a copy of `doc` (which must pass `readStudy`), or a blank study. Revision 1. */
   createStudy(doc?: Study): Promise<StudyInfo>;
   /** Sets the title (trimmed; a blank one becomes "Untitled study") in the document and the metadata: a change, so a new revision. */
@@ -120,7 +126,16 @@ export interface StudyStore {
    * stored in the current version (`notes` says what a migration changed).
    */
   importStudy(text: string): Promise<ImportResult>;
+  /**
+   * The records that cannot be listed or opened (a metadata record that is not one, a
+   * document that is missing or not a study), each with what could be recovered. Reads every
+   * record: called by the library after `listStudies`, which skips them.
+   */
+  listDamaged(): Promise<DamagedStudy[]>;
+  /** Removes both records of a study for good, whatever their state (for a damaged one). */
+  removeStudy(id: string): Promise<void>;
 }
+
 
 type MetaRecord = { -readonly [K in keyof StudyInfo]: StudyInfo[K] };
 
@@ -161,13 +176,17 @@ export function createStudyStore(options: StoreOptions = {}): StudyStore {
 
   async function getMeta(os: IDBObjectStore, id: string): Promise<MetaRecord> {
     const meta = (await promisifyRequest(os.get(metaKey(id)))) as MetaRecord | undefined;
-    if (!meta) throw new StoreError('not-found', `There is no study with id "${id}" (it may have been removed from the trash).`);
+    if (meta === undefined) throw new StoreError('not-found', `There is no study with id "${id}" (it may have been removed from the trash).`);
+    const bad = metaProblem(meta, id);
+    if (bad) throw new StoreError('damaged', `The study "${id}" is damaged: ${bad}.`);
     return meta;
   }
 
   async function getDoc(os: IDBObjectStore, id: string): Promise<Study> {
     const doc = (await promisifyRequest(os.get(docKey(id)))) as Study | undefined;
-    if (!doc) throw new StoreError('not-found', `The study "${id}" has no document.`);
+    if (doc === undefined) throw new StoreError('not-found', `The study "${id}" has no document.`);
+    const bad = docProblem(doc);
+    if (bad) throw new StoreError('damaged', `The study "${id}" is damaged: ${bad}.`);
     return doc;
   }
 
@@ -199,8 +218,10 @@ export function createStudyStore(options: StoreOptions = {}): StudyStore {
     return next;
   }
 
+  /** The metadata records that are sound (damaged ones are left to `listDamaged`). */
   async function allMetas(os: IDBObjectStore): Promise<MetaRecord[]> {
-    return (await promisifyRequest(os.getAll(allMeta()))) as MetaRecord[];
+    const [keys, values] = await Promise.all([promisifyRequest(os.getAllKeys(allMeta())), promisifyRequest(os.getAll(allMeta()))]);
+    return values.filter((m, i) => metaProblem(m, keyId(keys[i])) === undefined) as MetaRecord[];
   }
 
   return {
@@ -209,16 +230,47 @@ export function createStudyStore(options: StoreOptions = {}): StudyStore {
 
     loadStudy: (id) => transact('readonly', 'open the study', async (os) => {
       const [meta, doc] = await Promise.all([
-        promisifyRequest(os.get(metaKey(id))) as Promise<MetaRecord | undefined>,
-        promisifyRequest(os.get(docKey(id))) as Promise<Study | undefined>,
+        promisifyRequest(os.get(metaKey(id))) as Promise<unknown>,
+        promisifyRequest(os.get(docKey(id))) as Promise<unknown>,
       ]);
-      return meta && doc ? { ...meta, doc } : undefined;
+      if (meta === undefined && doc === undefined) return undefined;
+      const bad = (meta === undefined ? 'its metadata record is missing' : metaProblem(meta, id)) ?? (doc === undefined ? 'its document is missing' : docProblem(doc));
+      if (bad) throw new StoreError('damaged', `This study is damaged (${bad}). It is listed as damaged on the home page, where it can be exported as it is or deleted; your other studies are not affected.`);
+      return { ...(meta as MetaRecord), doc: doc as Study };
     }),
 
-    saveStudy: async (id, doc) => {
+    saveStudy: async (id, doc, expectedRevision) => {
       const study = checked(doc, 'save the study');
-      return transact('readwrite', 'save the study', async (os) => change(os, await getMeta(os, id), study));
+      return transact('readwrite', 'save the study', async (os) => {
+        const meta = await getMeta(os, id);
+        if (expectedRevision !== undefined && meta.revision !== expectedRevision) {
+          throw new StoreError('conflict', `This study was saved elsewhere (another tab or window) since it was opened here: revision ${meta.revision} is stored, this page has revision ${expectedRevision}. Nothing was overwritten.`);
+        }
+        return change(os, meta, study);
+      });
     },
+
+    listDamaged: () => transact('readonly', 'check the studies', async (os) => {
+      const all = IDBKeyRange.bound(['doc'], ['meta', []]);
+      const [keys, values] = await Promise.all([promisifyRequest(os.getAllKeys(all)), promisifyRequest(os.getAll(all))]);
+      const byId = new Map<string, { meta?: unknown; doc?: unknown }>();
+      keys.forEach((k, i) => {
+        const [kind, id] = k as [string, unknown];
+        if (typeof id !== 'string' || (kind !== 'doc' && kind !== 'meta')) return;
+        const entry = byId.get(id) ?? {};
+        entry[kind] = values[i];
+        byId.set(id, entry);
+      });
+      return [...byId].flatMap(([id, { meta, doc }]) => {
+        const problem = (meta === undefined ? 'its metadata record is missing' : metaProblem(meta, id)) ?? (doc === undefined ? 'its document is missing' : docProblem(doc));
+        return problem ? [damaged(id, problem, meta, doc)] : [];
+      });
+    }),
+
+    removeStudy: (id) => transact('readwrite', 'delete the study', async (os) => {
+      os.delete(metaKey(id));
+      os.delete(docKey(id));
+    }),
 
     createStudy: async (doc) => {
       const study = doc === undefined ? blankStudy() : checked(doc, 'create the study');
@@ -301,7 +353,7 @@ function newestFirst(a: StudyInfo, b: StudyInfo): number {
 /** What went wrong with the storage, in words for the user. */
 function storageProblem(err: unknown): string {
   const name = (err as { name?: unknown })?.name;
-  if (name === 'QuotaExceededError') return 'the browser has no more storage space for this site.';
+  if (name === 'QuotaExceededError') return 'the browser has no more storage space for this site. To free space: export the studies you want to keep (Export study), then delete studies you no longer need and empty the trash on the home page.';
   if (name === 'DataCloneError') return 'the study holds something that cannot be stored (not plain JSON data).';
   const text = err instanceof Error ? err.message : String(err);
   return `the browser's storage failed (${typeof name === 'string' ? `${name}: ` : ''}${text}).`;
@@ -353,7 +405,7 @@ export function listStudies(): Promise<StudySummary[]> { return app().listStudie
 /** {@link StudyStore.loadStudy} on the app's store. */
 export function loadStudy(id: string): Promise<StoredStudy | undefined> { return app().loadStudy(id); }
 /** {@link StudyStore.saveStudy} on the app's store. */
-export function saveStudy(id: string, doc: Study): Promise<StudyInfo> { return app().saveStudy(id, doc); }
+export function saveStudy(id: string, doc: Study, expectedRevision?: number): Promise<StudyInfo> { return app().saveStudy(id, doc, expectedRevision); }
 /** {@link StudyStore.createStudy} on the app's store. */
 export function createStudy(doc?: Study): Promise<StudyInfo> { return app().createStudy(doc); }
 /** {@link StudyStore.renameStudy} on the app's store. */
@@ -368,5 +420,9 @@ export function restoreStudy(id: string): Promise<StudyInfo> { return app().rest
 export function listTrash(): Promise<TrashedStudy[]> { return app().listTrash(); }
 /** {@link StudyStore.purgeTrash} on the app's store. */
 export function purgeTrash(olderThanMs: number): Promise<string[]> { return app().purgeTrash(olderThanMs); }
+/** {@link StudyStore.listDamaged} on the app's store. */
+export function listDamaged(): Promise<DamagedStudy[]> { return app().listDamaged(); }
+/** {@link StudyStore.removeStudy} on the app's store. */
+export function removeStudy(id: string): Promise<void> { return app().removeStudy(id); }
 /** {@link StudyStore.importStudy} on the app's store. */
 export function importStudy(text: string): Promise<ImportResult> { return app().importStudy(text); }

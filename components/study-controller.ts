@@ -12,6 +12,10 @@ const RENDER_WAIT_MS = 40;
 export interface StudyControllerOptions {
   /** Persists the study; called a moment after each change. */
   readonly save?: (id: string, study: Study) => Promise<void>;
+  /** Whether a failed save is worth retrying by itself (default: yes). */
+  readonly retry?: (err: unknown) => boolean;
+  /** Called synchronously on every change, before it is rendered (the crash-safe journal). */
+  readonly journal?: (id: string, study: Study) => void;
   /** Makes the engine client (tests pass one with a fake worker). */
   readonly engine?: (events: ConstructorParameters<typeof EngineClient>[0]) => EngineClient;
 }
@@ -35,6 +39,8 @@ export class StudyController implements ReactiveController {
   /** A refused edit or an engine failure, for the status line. */
   problem?: string;
   saveState: AutosaveState = 'saved';
+  /** Why the last save failed, while `saveState` is 'error'. */
+  saveError?: string;
   lastRunMs = 0;
   /** When the worker got the last edit, sent its answer, and the answer arrived here (ms since the epoch): for the benchmark. */
   lastTiming = { received: 0, sent: 0, arrived: 0 };
@@ -46,6 +52,7 @@ export class StudyController implements ReactiveController {
   private readonly engine: EngineClient;
   private saver?: Autosaver<{ id: string; study: Study }>;
   private readonly listeners = new Set<(a: EngineAnswer) => void>();
+  private readonly journal?: (id: string, study: Study) => void;
 
   constructor(private readonly host: ReactiveControllerHost, options: StudyControllerOptions = {}) {
     host.addController(this);
@@ -72,10 +79,11 @@ export class StudyController implements ReactiveController {
       },
     };
     this.engine = options.engine ? options.engine(events) : new EngineClient(events);
+    this.journal = options.journal;
     if (options.save) {
       const save = options.save;
-      this.saver = createAutosaver(({ id, study }) => save(id, study));
-      this.saver.onchange = (state) => { this.saveState = state; this.host.requestUpdate(); };
+      this.saver = createAutosaver(({ id, study }) => save(id, study), undefined, { retry: options.retry });
+      this.saver.onchange = (state, error) => { this.saveState = state; this.saveError = error; this.host.requestUpdate(); };
     }
   }
 
@@ -213,6 +221,7 @@ export class StudyController implements ReactiveController {
       return out.error.message;
     }
     this.study = out.study;
+    this.journal?.(this.id!, out.study);
     this.engine.edit(edit, out.study);
     this.saver?.schedule({ id: this.id!, study: out.study });
     // typing and dragging wait for the answer; a structural change shows at once

@@ -1,13 +1,16 @@
 import { LitElement, html, css, nothing } from 'lit';
 import * as store from './store.ts';
-import type { StudySummary, TrashedStudy } from './store.ts';
+import type { DamagedStudy, StudySummary, TrashedStudy } from './store.ts';
 import { TEMPLATES } from './templates.ts';
 import type { Study } from '../src/index.ts';
 
 /** The home page: the studies kept on this device, new ones (blank or from a template), import, and the trash. */
 export class StudyLibrary extends LitElement {
-  static override properties = { studies: { state: true }, trash: { state: true }, problem: { state: true }, filter: { state: true }, notice: { state: true }, renaming: { state: true } };
+  static override properties = { studies: { state: true }, trash: { state: true }, damaged: { state: true }, problem: { state: true }, filter: { state: true }, notice: { state: true }, loaded: { state: true }, renaming: { state: true } };
   studies: StudySummary[] = [];
+  damaged: DamagedStudy[] = [];
+  /** False until the first listing answered (so "No studies yet" is never said before it is known). */
+  loaded = false;
   trash: TrashedStudy[] = [];
   problem?: string;
   notice?: { text: string; undo?: () => void };
@@ -45,9 +48,31 @@ export class StudyLibrary extends LitElement {
     void this.refresh();
   }
 
+  /** Reads the lists again; a storage failure is said on the page, and what could be read is shown. */
   async refresh(): Promise<void> {
-    this.studies = await store.listStudies();
-    this.trash = await store.listTrash();
+    const problems: string[] = [];
+    const read = async <T>(what: () => Promise<T>, fallback: T): Promise<T> => {
+      try { return await what(); } catch (err) { problems.push(message(err)); return fallback; }
+    };
+    const studies = await read(store.listStudies, []);
+    const trash = await read(store.listTrash, []);
+    this.damaged = await read(store.listDamaged, []);
+    // a sound metadata record beside a damaged document is listed once, as damaged
+    const bad = new Set(this.damaged.map((d) => d.id));
+    this.studies = studies.filter((s) => !bad.has(s.id));
+    this.trash = trash.filter((s) => !bad.has(s.id));
+    this.loaded = true;
+    if (problems.length) this.problem = problems.join(' ');
+  }
+
+  /** Runs a library action; a failure is said on the page (never silent), and the lists are read again. */
+  private async act(work: () => Promise<void>): Promise<void> {
+    try {
+      await work();
+    } catch (err) {
+      this.problem = message(err);
+    }
+    await this.refresh();
   }
 
   override render() {
@@ -57,7 +82,7 @@ export class StudyLibrary extends LitElement {
       ${this.notice ? html`<p class="notice" role="status">${this.notice.text} ${this.notice.undo ? html`<button @click=${this.notice.undo}>Undo</button>` : nothing}</p>` : nothing}
       ${this.problem ? html`<p class="problem" role="alert">${this.problem}</p>` : nothing}
       <h2>Your studies</h2>
-      ${this.studies.length === 0 ? html`<p class="empty">No studies yet: start one below.</p>` : nothing}
+      ${this.loaded && this.studies.length === 0 && this.damaged.length === 0 ? html`<p class="empty">No studies yet: start one below.</p>` : nothing}
       <ul>${this.studies.map((s) => html`<li>
         <span class="t">${this.renaming === s.id
           ? html`<input class="rename" type="text" aria-label="New title for ${s.title}" .value=${s.title}
@@ -66,6 +91,11 @@ export class StudyLibrary extends LitElement {
         <button data-rename=${s.id} aria-label="Rename ${s.title}" @click=${() => void this.startRename(s)}>Rename</button>
         <button aria-label="Duplicate ${s.title}" @click=${() => this.duplicate(s)}>Duplicate</button>
         <button aria-label="Delete ${s.title}" @click=${() => this.trashStudy(s)}>Delete</button>
+      </li>`)}
+      ${this.damaged.map((d) => html`<li class="damaged" data-id=${d.id}>
+        <span class="t"><strong>Damaged:</strong> ${d.title ?? `study ${d.id}`} <span class="when">${d.problem}.${d.cells !== undefined ? ` Its document has ${d.cells} cells.` : ''} It cannot be opened; export its records to keep what is there.</span></span>
+        <button data-action="export-raw" aria-label="Export the damaged study ${d.title ?? d.id} as it is" @click=${() => this.exportRaw(d)}>Export as it is</button>
+        <button data-action="remove" aria-label="Delete the damaged study ${d.title ?? d.id} for good" @click=${() => this.removeDamaged(d)}>Delete for good</button>
       </li>`)}</ul>
       <h2>Start a new study</h2>
       <input class="search" type="search" placeholder="Search the templates" aria-label="Search the templates" .value=${this.filter} @input=${(e: Event) => { this.filter = (e.target as HTMLInputElement).value; }} />
@@ -77,7 +107,7 @@ export class StudyLibrary extends LitElement {
       ${q && templates.length === 0 ? html`<p class="empty">No template matches "${this.filter}".</p>` : nothing}
       <h2>Import</h2>
       <label>Open a study file (.ratebook.json): <input type="file" accept=".json,application/json" @change=${this.importFile} /></label>
-      ${this.trash.length ? html`<h2>Trash</h2><ul>${this.trash.map((s) => html`<li>
+      ${this.trash.length ? html`<h2>Trash</h2><button class="purge" @click=${this.emptyTrash}>Empty the trash</button><ul>${this.trash.map((s) => html`<li>
         <span class="t">${s.title} <span class="when">deleted ${when(s.deleted)}</span></span>
         <button aria-label="Restore ${s.title}" @click=${() => this.restore(s.id)}>Restore</button></li>`)}</ul>` : nothing}`;
   }
@@ -87,8 +117,12 @@ export class StudyLibrary extends LitElement {
   }
 
   private async create(doc?: Study) {
-    const info = await store.createStudy(doc ? structuredClone(doc) : undefined);
-    this.open(info.id);
+    try {
+      const info = await store.createStudy(doc ? structuredClone(doc) : undefined);
+      this.open(info.id);
+    } catch (err) {
+      this.problem = `The new study was not created: ${message(err)}`;
+    }
   }
 
   /** Rename in place: the title becomes a text field, its text selected. */
@@ -118,34 +152,66 @@ export class StudyLibrary extends LitElement {
   private async finishRename(s: StudySummary, title: string | undefined, refocus: boolean) {
     if (this.renaming !== s.id) return;
     this.renaming = undefined;
-    if (title !== undefined && title !== s.title) await store.renameStudy(s.id, title);
-    await this.refresh();
+    if (title !== undefined && title !== s.title) await this.act(async () => { await store.renameStudy(s.id, title); });
     await this.updateComplete;
     if (refocus) this.renderRoot.querySelector<HTMLButtonElement>(`button[data-rename="${CSS.escape(s.id)}"]`)?.focus();
   }
 
-  private async duplicate(s: StudySummary) {
-    await store.duplicateStudy(s.id);
-    await this.refresh();
+  private duplicate(s: StudySummary) {
+    void this.act(async () => { await store.duplicateStudy(s.id); });
   }
 
-  private async trashStudy(s: StudySummary) {
-    await store.deleteStudy(s.id);
-    this.notice = { text: `"${s.title}" moved to the trash.`, undo: () => void this.restore(s.id) };
-    await this.refresh();
+  private trashStudy(s: StudySummary) {
+    void this.act(async () => {
+      await store.deleteStudy(s.id);
+      this.notice = { text: `"${s.title}" moved to the trash.`, undo: () => void this.restore(s.id) };
+    });
   }
 
-  private async restore(id: string) {
-    await store.restoreStudy(id);
-    this.notice = { text: 'Study restored.' };
-    await this.refresh();
+  private restore(id: string) {
+    void this.act(async () => {
+      await store.restoreStudy(id);
+      this.notice = { text: 'Study restored.' };
+    });
+  }
+
+  private emptyTrash = () => {
+    if (!confirm(`Delete the ${this.trash.length} studies in the trash for good? This cannot be undone.`)) return;
+    void this.act(async () => {
+      const gone = await store.purgeTrash(0);
+      this.notice = { text: `${gone.length} studies deleted for good.` };
+    });
+  };
+
+  /** Downloads a damaged study's records as they are stored. */
+  private exportRaw(d: DamagedStudy) {
+    const a = document.createElement('a');
+    a.href = URL.createObjectURL(new Blob([d.raw], { type: 'application/json' }));
+    a.download = `damaged-${d.id}.json`;
+    a.click();
+    setTimeout(() => URL.revokeObjectURL(a.href), 1000);
+  }
+
+  private removeDamaged(d: DamagedStudy) {
+    if (!confirm(`Delete the damaged study "${d.title ?? d.id}" for good? Export it first to keep what is there.`)) return;
+    void this.act(async () => {
+      await store.removeStudy(d.id);
+      this.notice = { text: 'The damaged study was deleted.' };
+    });
   }
 
   private importFile = async (e: Event) => {
     const input = e.target as HTMLInputElement;
     const file = input.files?.[0];
     if (!file) return;
-    const r = await store.importStudy(await file.text());
+    let r: store.ImportResult;
+    try {
+      r = await store.importStudy(await file.text());
+    } catch (err) {
+      input.value = '';
+      this.problem = `${file.name} was not imported: ${message(err)}`;
+      return;
+    }
     input.value = '';
     if (!r.ok) {
       this.problem = `${file.name} was not imported${r.path ? ` (at ${r.path})` : ''}: ${r.message}. Your studies are unchanged.`;
@@ -155,6 +221,10 @@ export class StudyLibrary extends LitElement {
     this.notice = { text: `Imported "${r.summary.title}" as a new study.` };
     await this.refresh();
   };
+}
+
+function message(err: unknown): string {
+  return err instanceof Error ? err.message : String(err);
 }
 
 function when(ms: number): string {

@@ -21,6 +21,8 @@ describe('ratebook-app', () => {
     const app = document.createElement('ratebook-app');
     document.body.append(app);
     await app.updateComplete;
+    // the library appears once the journal of unsaved edits has been replayed
+    await until(() => app.shadowRoot!.querySelector('study-library') !== null, 'the library');
     const library = app.shadowRoot!.querySelector('study-library')!;
     await until(() => !!library.shadowRoot?.querySelector('button.template[data-template="cooling-stock-pot"]'), 'the templates');
     const before = (await store.listStudies()).length;
@@ -39,6 +41,8 @@ describe('ratebook-app', () => {
     const app = document.createElement('ratebook-app');
     document.body.append(app);
     await app.updateComplete;
+    // the library appears once the journal of unsaved edits has been replayed
+    await until(() => app.shadowRoot!.querySelector('study-library') !== null, 'the library');
     const library = app.shadowRoot!.querySelector('study-library')!;
     await until(() => !!library.shadowRoot?.querySelector('button.template[data-template]'), 'the templates');
     const root = library.shadowRoot!;
