@@ -36,6 +36,11 @@ export interface CellError {
   readonly span?: readonly [number, number];
   /** For `waits`: the id of the upstream cell waited on. */
   readonly waitsOn?: string;
+  /**
+   * For `waits`: where the failure began and its own reason, carried down a chain of waits so
+   * that each waiting cell names it once (never the chain of messages). Not in the report.
+   */
+  readonly cause?: { readonly cell: string; readonly reason: string };
 }
 
 /** A name as one node defines it. Cell references are names too: `#cooling`. */

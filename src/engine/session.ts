@@ -359,7 +359,8 @@ export class StudySession {
       if (!o) continue;
       if (o.output) mergeOutput(output, o.output);
       if (!o.ok) {
-        errors.push({ ...o.error, path: resolvePath(o.error.path, index) });
+        const { cause: _cause, ...error } = o.error;
+        errors.push({ ...error, path: resolvePath(o.error.path, index) });
         if (o.error.waitsOn !== undefined) waits.add(o.error.waitsOn);
       }
     }
@@ -399,21 +400,23 @@ function unavailable(node: GraphNode, name: string, outcome: Outcome, index: num
   if (!outcome.ok) {
     const { error } = outcome;
     const reason = error.waitsOn !== undefined ? error.message : `${show(name)} has an error (${resolvePath(error.path, index)}: ${error.message})`;
-    return { kind: 'unavailable', cell: node.cell, reason, ...(error.waitsOn !== undefined ? { waitsOn: error.waitsOn } : {}), sig: `unavailable|${reason}` };
+    const root = error.cause ?? { cell: node.cell, reason };
+    return { kind: 'unavailable', cell: node.cell, reason, root, sig: `unavailable|${root.cell}|${reason}` };
   }
   const message = (outcome.output as { message?: unknown }).message;
   const reason = outcome.reasons?.get(name) ?? (typeof message === 'string' ? message : `${show(name)} was not computed`);
-  return { kind: 'unavailable', cell: node.cell, reason, sig: `unavailable|${reason}` };
+  return { kind: 'unavailable', cell: node.cell, reason, root: { cell: node.cell, reason }, sig: `unavailable|${reason}` };
 }
 
 /**
- * The error of a node that reads a name of `cell` that is unavailable. A reason that already
- * waits on that same cell (a node of it waiting on another of its nodes) is not prefixed twice.
+ * The error of a node that reads a name of `cell` that is unavailable: it names that cell and
+ * the cause once (where the failure began, when further up, and its own reason), never the
+ * messages of the cells between, so a chain of waits costs the same per cell however long.
  */
 function waitsOnCell(cell: string, slot: Unavailable | undefined, path: string): CellError {
-  const reason = slot?.reason ?? 'it has not been computed';
-  const message = slot?.waitsOn === cell ? reason : `waits on cell "${cell}": ${reason}`;
-  return { kind: 'waits', waitsOn: cell, message, path };
+  const cause = slot?.root ?? { cell, reason: 'it has not been computed' };
+  const message = cause.cell === cell ? `waits on cell "${cell}": ${cause.reason}` : `waits on cell "${cell}" (the cause is in cell "${cause.cell}"): ${cause.reason}`;
+  return { kind: 'waits', waitsOn: cell, message, path, cause };
 }
 
 /** Structural equality of plain JSON-like values (reports): cheaper than comparing their JSON. */

@@ -27,8 +27,11 @@ export interface Unavailable {
   readonly kind: 'unavailable';
   readonly cell: string;
   readonly reason: string;
-  /** When the definer itself waits on a cell: that cell (its reason already names it). */
-  readonly waitsOn?: string;
+  /**
+   * Where the failure began (the definer's cell, or the cell its chain of waits ends at) and
+   * that cell's own reason: a cell waiting on this one names it once.
+   */
+  readonly root: { readonly cell: string; readonly reason: string };
   readonly sig: string;
 }
 
