@@ -38,8 +38,27 @@ class Refusal extends Error {
   }
 }
 
-/** Parses one expression. Never throws. Cost: linear in the text. */
+/**
+ * Texts parsed lately and their results (which no one changes): the session, the study's units
+ * and the sheet's TeX each parse every field of a study on an evaluation, so one parse serves
+ * all three. Large enough for a 10,000-field study; beyond it the oldest text goes first.
+ */
+const CACHE_LIMIT = 20000;
+const cache = new Map<string, ParseResult>();
+
+/** Parses one expression. Never throws. Cost: linear in the text, a map look-up for a text parsed lately. */
 export function parseExpression(text: unknown): ParseResult {
+  if (typeof text !== 'string') return parseText(text);
+  let r = cache.get(text);
+  if (!r) {
+    r = parseText(text);
+    if (cache.size >= CACHE_LIMIT) cache.delete(cache.keys().next().value!);
+    cache.set(text, r);
+  }
+  return r;
+}
+
+function parseText(text: unknown): ParseResult {
   if (typeof text !== 'string') return fail(`must be an expression written as text; it is ${typeof text === 'number' ? `the number ${text} (write it as "${text}")` : describeJson(text)}`);
   if (text.trim() === '') return fail('is empty: write a value, such as "0.35 / h"');
   if (text.length > MAX_LENGTH) return fail(`is too long (${text.length} characters; at most ${MAX_LENGTH})`);
