@@ -20,6 +20,8 @@ import { glanceOf } from '../output/glance.ts';
 import { cellTex, studySymbols } from '../output/sheet-tex.ts';
 import { studyUnits } from './study-units.ts';
 import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
+import { metered } from '../numerics/work.ts';
+import { DEFAULT_CELL_WORK, stoppedError, type WorkLimits } from './budget.ts';
 
 type Slot = Binding | Unavailable;
 
@@ -40,7 +42,7 @@ export type EditResult =
 
 export type OpenResult = { readonly ok: true; readonly session: StudySession } | { readonly ok: false; readonly error: Problem };
 
-export interface SessionOptions {
+export interface SessionOptions extends WorkLimits {
   /** 'check' validates without the heavy numerics. */
   readonly mode?: 'run' | 'check';
 }
@@ -49,7 +51,7 @@ export interface SessionOptions {
 export function openStudy(input: unknown, options: SessionOptions = {}): OpenResult {
   const read = readStudy(input);
   if (!read.ok) return read;
-  return { ok: true, session: new StudySession(read.study, read.cellProblems, read.notes, options.mode ?? 'run') };
+  return { ok: true, session: new StudySession(read.study, read.cellProblems, read.notes, options.mode ?? 'run', options) };
 }
 
 export class StudySession {
@@ -72,7 +74,10 @@ export class StudySession {
   /** The units the study's inputs are written in, gathered once per evaluation. */
   private units!: StudyUnits;
 
-  constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check') {
+  /** performance.now() after which the evaluation under way stops its cells (Infinity: none). */
+  private deadline = Infinity;
+
+  constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check', private readonly limits: WorkLimits = {}) {
     this.cells = [...study.cells];
     this.title = study.title;
     this.description = study.description;
@@ -178,6 +183,7 @@ export class StudySession {
     // a rebuilt cell is reported again even when no node re-runs: its title, or a node it
     // no longer has, changes its report
     const rebuilt = new Set<string>();
+    this.deadline = this.limits.timeLimit === undefined ? Infinity : performance.now() + this.limits.timeLimit * 1000;
     const list = this.nodes(rebuilt);
     this.units = studyUnits(this.cells);
     // a parameter is shown in the study's units of its dimension: it runs again when they change
@@ -286,7 +292,8 @@ export class StudySession {
       studyUnits: this.units,
     };
     try {
-      return node.run(ctx);
+      const done = metered(this.limits.cellWork ?? DEFAULT_CELL_WORK, this.deadline, () => node.run(ctx));
+      return done.exceeded ? { ok: false, error: stoppedError(node, done.exceeded, this.limits) } : done.value!;
     } catch (err) {
       return internalError(node, err);
     }
@@ -360,7 +367,7 @@ export class StudySession {
       if (o.output) mergeOutput(output, o.output);
       if (!o.ok) {
         const { cause: _cause, ...error } = o.error;
-        errors.push({ ...error, path: resolvePath(o.error.path, index) });
+        errors.push({ ...error, message: bounded(error.message), path: resolvePath(o.error.path, index) });
         if (o.error.waitsOn !== undefined) waits.add(o.error.waitsOn);
       }
     }
@@ -399,7 +406,7 @@ function internalError(node: GraphNode, err: unknown): Outcome {
 function unavailable(node: GraphNode, name: string, outcome: Outcome, index: number): Unavailable {
   if (!outcome.ok) {
     const { error } = outcome;
-    const reason = error.waitsOn !== undefined ? error.message : `${show(name)} has an error (${resolvePath(error.path, index)}: ${error.message})`;
+    const reason = bounded(error.waitsOn !== undefined ? error.message : `${show(name)} has an error (${resolvePath(error.path, index)}: ${error.message})`);
     const root = error.cause ?? { cell: node.cell, reason };
     return { kind: 'unavailable', cell: node.cell, reason, root, sig: `unavailable|${root.cell}|${reason}` };
   }
@@ -437,6 +444,16 @@ function deepEqual(a: unknown, b: unknown): boolean {
     if (!deepEqual((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k])) return false;
   }
   return true;
+}
+
+/**
+ * Longest message a report carries, in characters: a message that quotes the study's text (an
+ * unknown name 5,000 letters long) is cut, so that messages never grow with what they quote.
+ */
+const MAX_MESSAGE = 1000;
+
+function bounded(message: string): string {
+  return message.length > MAX_MESSAGE ? `${message.slice(0, MAX_MESSAGE)}…` : message;
 }
 
 function show(name: string): string {

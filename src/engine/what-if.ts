@@ -21,6 +21,7 @@ import { unitDim } from '../units/units.ts';
 import { unitFromText } from '../expression/unit-text.ts';
 import { nearest } from '../expression/suggest.ts';
 import { quantitySig } from '../cells/signatures.ts';
+import { rethrowWork } from '../numerics/work.ts';
 
 /** A name that cannot be read: its definer failed or computed nothing. */
 export interface Unavailable {
@@ -223,6 +224,8 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
           try {
             outcome = node.run(step.ctx);
           } catch (err) {
+            // a cell running what-ifs stops when its own budget is spent (numerics/work.ts)
+            rethrowWork(err);
             outcome = view.internalError(node, err);
           }
         }
