@@ -250,10 +250,10 @@ export class StudySession {
       const old = this.reports.get(cell.id);
       let r = old;
       const index = this.indexOf(cell.id);
-      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index
-        || (!r.report.ok && this.hintText(cell) !== this.hintTexts.get(cell.id))) r = { index, report: this.cellReport(cell, index) };
       const tex = cellTex(cell, symbols);
-      if (!deepEqual(r.report.tex, tex)) {
+      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index
+        || (!r.report.ok && this.hintText(cell) !== this.hintTexts.get(cell.id))) r = { index, report: this.cellReport(cell, index, tex) };
+      else if (!deepEqual(r.report.tex, tex)) {
         const { tex: _old, ...rest } = r.report;
         r = { index, report: (tex === undefined ? rest : { ...rest, tex }) as CellReport };
       }
@@ -356,8 +356,8 @@ export class StudySession {
     return upstreamOf(this.graph, name);
   }
 
-  private cellReport(cell: Cell, index: number): CellReport {
-    const r: CellReport = { id: cell.id, kind: cell.kind, ...(typeof cell.title === 'string' ? { title: cell.title } : {}), ok: true };
+  /** A cell's report from its nodes' outcomes, with `tex` last (as a report whose TeX changed alone gets it). */
+  private cellReport(cell: Cell, index: number, tex: CellReport['tex']): CellReport {
     const errors: CellError[] = [];
     const waits = new Set<string>();
     const output: Record<string, unknown> = {};
@@ -372,13 +372,14 @@ export class StudySession {
       }
     }
     this.hintTexts.set(cell.id, this.hintText(cell));
-    Object.assign(r, output);
+    // one object literal: assigning the fields one by one after made each report a slow object
+    const r: CellReport = { id: cell.id, kind: cell.kind, ...(typeof cell.title === 'string' ? { title: cell.title } : {}), ok: errors.length === 0, ...output };
     if (errors.length) {
-      r.ok = false;
       r.error = errors[0];
       if (errors.length > 1) r.errors = errors;
       if (waits.size) r.waitsOn = [...waits];
     }
+    if (tex !== undefined) r.tex = tex;
     return r;
   }
 }
