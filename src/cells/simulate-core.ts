@@ -211,6 +211,10 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
     if (level && !sameDim(level.dim, laws[si!].initial.dim)) fail(fq.level!.path, `the level must be ${describeDim(laws[si!].initial.dim)} like ${state}; it is ${describe(level)}`, 'unit');
     const span: [number, number] = [fq.from ? time(fq.from, 'the window start').si : from.si, fq.to ? time(fq.to, 'the window end').si : to.si];
     if (!(span[1] >= span[0])) fail(`${path}.to`, 'the window must end after it starts');
+    // a window wholly before or after the run has nothing to ask of it (found by the fuzz test)
+    if (span[0] > to.si || span[1] < from.si) {
+      fail(`${path}.${span[0] > to.si ? 'from' : 'to'}`, `the window (${describe(asTime(span[0]))} to ${describe(asTime(span[1]))}) lies outside the run (${describe(asTime(from.si))} to ${describe(asTime(to.si))})`);
+    }
     const atT = fq.at ? time(fq.at, 'the time').si : undefined;
     if (atT !== undefined && (atT < from.si || atT > to.si)) fail(fq.at!.path, `the time ${describe(asTime(atT))} is outside the run`);
     let quadrature = -1;

@@ -187,6 +187,13 @@ describe('tolerances and the causes of failures', () => {
     assert.match(r.error!.message, /finite-time blow-up/);
   });
 
+  it('a question whose window lies wholly outside the run is refused on its window (a case the fuzz test found)', () => {
+    const r = cell(run({ to: '7.2 h', find: [{ name: 'auc_last', integralOf: 'C', from: '60 h', to: '72 h' }, { name: 'low', minimum: 'C', from: '60 h', to: '72 h' }] }), 'run');
+    assert.equal(r.error?.kind, 'invalid');
+    assert.equal(r.error?.path, 'cells[1].find[0].from');
+    assert.equal(r.error?.message, 'the window (60 h to 72 h) lies outside the run (0 h to 7.2 h)');
+  });
+
   it('a problem with a parameter\'s range names its cell', () => {
     const r = reportOf(study([{ id: 'p', kind: 'parameters', items: [{ name: 'k', value: '1 / h', range: 'wide' }] }]));
     assert.equal(cell(r, 'p').error?.path, 'cells[0].items[0].range');
