@@ -62,6 +62,8 @@ export class StudyView extends LitElement {
     .sheet-bar { display: flex; flex-wrap: wrap; gap: 0.5rem; align-items: center; margin: 0.4rem 0 1rem; }
     .sheet-bar .hint { font-size: 0.85rem; color: #4a5560; }
     .paper { background: #fff; max-width: 180mm; margin: 0 auto; padding: 14mm 15mm; box-shadow: 0 1px 4px rgba(0, 0, 0, 0.25); }
+    .description { display: block; box-sizing: border-box; width: 100%; font: inherit; font-size: 0.92rem; color: #2b3640; border: 1px solid transparent; border-radius: 4px; padding: 0.2rem 0.35rem; background: transparent; resize: vertical; margin: 0 0 0.4rem; }
+    .description:hover, .description:focus { border-color: #9aa6b1; background: #fff; }
     .author { font: inherit; font-size: 0.9rem; border: 1px solid #c9d1d8; border-radius: 4px; padding: 0.2rem 0.4rem; width: 12rem; }
     @media print {
       .sheet-instead, .sheet-bar { display: none !important; }
@@ -142,15 +144,17 @@ export class StudyView extends LitElement {
       ${this.printing ? html`<div class="for-print">${sheet}</div>` : nothing}
       <div class="editing ${this.printing ? 'sheet-instead' : ''}">
       <div class="bar">
-        <input class="title" aria-label="Study title" .value=${study.title}
+        <input class="title" data-field="title" aria-label="Study title" .value=${study.title}
           @input=${(e: Event) => c.edit({ type: 'retitle', title: (e.target as HTMLInputElement).value }, 'title')} />
         <button ?disabled=${!c.canUndo} @click=${() => c.undo()} title="Undo (Ctrl+Z)">Undo</button>
         <button ?disabled=${!c.canRedo} @click=${() => c.redo()} title="Redo (Ctrl+Shift+Z)">Redo</button>
-        <input class="author" aria-label="Prepared by" placeholder="Prepared by (name)" .value=${study.author ?? ''}
+        <input class="author" data-field="author" aria-label="Prepared by" placeholder="Prepared by (name)" .value=${study.author ?? ''}
           @input=${(e: Event) => c.edit({ type: 'author', author: (e.target as HTMLInputElement).value }, 'author')} />
         <button @click=${() => this.dispatchEvent(new CustomEvent('sheet-mode', { detail: { mode: 'sheet' }, bubbles: true, composed: true }))} title="The study as a document to print or save as PDF">Printable sheet</button>
         <span class="status ${c.busy ? 'busy' : ''}" role="status" aria-live="polite">${c.busy ? 'computing…' : saveText(c.saveState)}</span>
       </div>
+      <textarea class="description" data-field="description" rows="1" aria-label="What the study is about" placeholder="What this study is about (optional; printed on the sheet)" .value=${study.description ?? ''}
+        @input=${(e: Event) => c.edit({ type: 'describe', description: (e.target as HTMLTextAreaElement).value }, 'description')}></textarea>
       ${(report?.cautions ?? []).map((x) => html`<p class="caution" role="note"><strong>Caution.</strong> ${x.text}</p>`)}
       ${c.problem ? html`<p class="problem" role="alert">${c.problem}</p>` : nothing}
       ${study.cells.length === 0 ? html`<p class="empty">This study has no cells yet. Start with parameters or a rate law below.</p>` : nothing}
@@ -172,7 +176,7 @@ export class StudyView extends LitElement {
         @cell-edit=${(e: CustomEvent<CellEditDetail>) => { e.stopPropagation(); c.edit({ type: 'replace', cell: e.detail.cell }, e.detail.mergeKey); }}>
       <header class="cell">
         <span class="kind">${info.label}</span>
-        <input aria-label="Title of cell ${cell.id}" placeholder=${cell.id} .value=${cell.title ?? ''}
+        <input data-field="title" aria-label="Title of cell ${cell.id}" placeholder=${cell.id} .value=${cell.title ?? ''}
           @input=${(e: Event) => { const t = (e.target as HTMLInputElement).value; const { title: _t, ...rest } = cell; c.edit({ type: 'replace', cell: t ? { ...rest, title: t } : rest }, `${cell.id}:title`); }} />
         <span class="state ${failed ? 'bad' : idle ? 'idle' : ''}">${!r ? '' : failed ? (r.waitsOn ? `waits on ${r.waitsOn.join(', ')}` : 'error') : idle ? 'not computed yet' : c.busy && c.rerun.includes(cell.id) ? 'recomputing…' : ''}</span>
         <span class="tools">

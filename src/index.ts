@@ -5,8 +5,8 @@ export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind } from './study/types.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT } from './study/types.ts';
-export { FIND_KINDS, findKindOf, needsLevel, switchFind, withFindState, withFindUnit, freshFindName, type FindKind, type FindQuery } from './study/find-rules.ts';
-export { EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, switchAction, withEventField, type EventAction, type ScheduleEvent } from './study/event-rules.ts';
+export { FIND_KINDS, findKindOf, needsLevel, switchFind, withFindState, withFindUnit, withFindField, freshFindName, type FindKind, type FindOption, type FindQuery } from './study/find-rules.ts';
+export { EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, eventTargets, withTargetAt, withoutTargetAt, switchAction, withEventField, type EventAction, type ScheduleEvent } from './study/event-rules.ts';
 export type {
   Report, CellReport, ReportOf, ReportBase, ReportQuantity, CellFields, ParameterValue, PhaseEquilibrium, PhaseInterval,
   PhasePlotData, SweepReport, SimulationPlot, FindResult, NotReached, ClosedFormReport, EstimateReport, FitResidual, CsvReadReport,

@@ -27,6 +27,7 @@ export class DataCellElement extends CellElement<'data'> {
     .scroll { overflow-x: auto; max-height: 26rem; overflow-y: auto; }
     ul.csv-notes, ol.csv-rows { margin: 0.3rem 0 0; padding-left: 1.2rem; }
     ol.csv-rows { list-style: none; padding-left: 0; }
+    .columns .column input { width: 6.5rem; margin-right: 0.2rem; }
     ol.csv-rows code { background: #fdeceb; padding: 0 0.2rem; }
   `];
 
@@ -43,13 +44,10 @@ export class DataCellElement extends CellElement<'data'> {
     return html`
       ${c.csv !== undefined ? this.csvView(claims) : html`
         <div class="scroll"><table class="grid">
-          <thead><tr><th></th>${columns.map((col, j) => html`<th>
-            <input type="text" aria-label="Name of column ${j + 1}" .value=${col.name ?? ''} @change=${(e: Event) => this.setColumn(j, { name: (e.target as HTMLInputElement).value })} />
-            <input type="text" aria-label="Unit of column ${col.name}" .value=${col.unit ?? ''} @change=${(e: Event) => this.setColumn(j, { unit: (e.target as HTMLInputElement).value })} />
-            ${claims.take(`.columns[${j}].unit`) ? html`<div class="foot-error">${claims.take(`.columns[${j}].unit`)!.message}</div>` : nothing}</th>`)}<th></th></tr></thead>
+          <thead><tr><th></th>${columns.map((col, j) => html`<th>${this.column(j, claims)}</th>`)}<th></th></tr></thead>
           <tbody>${(c.rows ?? []).map((row, r) => html`<tr class=${flagged.has(r) ? 'flagged' : ''} title=${flagged.get(r) ?? ''}>
             <td class="muted">${r + 1}</td>
-            ${columns.map((col, j) => html`<td><input type="text" inputmode="decimal" aria-label="Row ${r + 1}, ${col.name}" .value=${show(row[j] as Entry)}
+            ${columns.map((col, j) => html`<td><input type="text" inputmode="decimal" data-field="rows" aria-label="Row ${r + 1}, ${col.name}" .value=${show(row[j] as Entry)}
               @change=${(e: Event) => this.setEntry(r, j, (e.target as HTMLInputElement).value)} /></td>`)}
             <td><button class="quiet" aria-label="Delete row ${r + 1}" @click=${() => this.deleteRow(r)}>✕</button></td>
           </tr>`)}</tbody>
@@ -66,11 +64,22 @@ export class DataCellElement extends CellElement<'data'> {
       ${this.footErrors()}`;
   }
 
+  /** A column's name and unit, as inputs, with the engine's error on them. */
+  private column(j: number, claims: ErrorClaims) {
+    const col = this.cell.columns[j];
+    const error = claims.take(`.columns[${j}].unit`) ?? claims.take(`.columns[${j}].name`);
+    return html`<input type="text" data-field="columns[${j}].name" aria-label="Name of column ${j + 1}" .value=${col.name ?? ''} @change=${(e: Event) => this.setColumn(j, { name: (e.target as HTMLInputElement).value })} />
+      <input type="text" data-field="columns[${j}].unit" aria-label="Unit of column ${col.name || j + 1}" .value=${col.unit ?? ''} @change=${(e: Event) => this.setColumn(j, { unit: (e.target as HTMLInputElement).value })} />
+      ${error ? html`<div class="foot-error">${error.message}</div>` : nothing}`;
+  }
+
   private csvView(claims: ErrorClaims) {
     const error = claims.take('.csv');
+    const columns = Array.isArray(this.cell.columns) ? this.cell.columns : [];
     const read = (this.read?.problems?.length ? this.read : undefined) ?? this.report?.csv;
     return html`<label class="muted" for="csv">CSV text: a header row of column names (a unit may follow in parentheses, such as Temp (°C)), then one row per time, as a number or a clock time (comma, tab or semicolon separated; paste straight from a spreadsheet or a logger export)</label>
-      <textarea id="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.editCsv((e.target as HTMLTextAreaElement).value)}></textarea>
+      <div class="row columns"><span class="lbl">Columns</span>${columns.map((_, j) => html`<span class="column">${this.column(j, claims)}</span>`)}</div>
+      <textarea id="csv" data-field="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.editCsv((e.target as HTMLTextAreaElement).value)}></textarea>
       ${error && !read?.problems?.length ? html`<p class="foot-error" role="alert">${error.message}</p>` : nothing}
       ${read ? csvReport(read, 'Read from the header and rows') : nothing}
       <div class="row"><button @click=${this.toTable}>Turn into a table</button>

@@ -30,18 +30,18 @@ export class FitCellElement extends CellElement<'fit'> {
     const estimates = r?.estimates ?? {};
     return html`
       <div class="row"><span class="lbl">Laws</span>
-        ${rates.map((x) => html`<label><input type="checkbox" .checked=${(c.rates ?? []).includes(x.id)} @change=${(e: Event) => this.setRate(x.id, (e.target as HTMLInputElement).checked)} /> ${x.id}</label>`)}</div>
+        ${rates.map((x) => html`<label><input type="checkbox" data-field="rates" .checked=${(c.rates ?? []).includes(x.id)} @change=${(e: Event) => this.setRate(x.id, (e.target as HTMLInputElement).checked)} /> ${x.id}</label>`)}</div>
       <div class="row">
-        <label>Data <select @change=${(e: Event) => this.edit({ data: (e.target as HTMLSelectElement).value })}>
+        <label>Data <select data-field="data" @change=${(e: Event) => this.edit({ data: (e.target as HTMLSelectElement).value })}>
           ${dataCells.some((d) => d.id === c.data) ? nothing : html`<option selected>${c.data || '(choose)'}</option>`}
           ${dataCells.map((d) => html`<option value=${d.id} ?selected=${d.id === c.data}>${d.id}</option>`)}</select></label>
-        <label>Time column <select @change=${(e: Event) => this.edit({ time: (e.target as HTMLSelectElement).value })}>
+        <label>Time column <select data-field="time" @change=${(e: Event) => this.edit({ time: (e.target as HTMLSelectElement).value })}>
           ${columns.includes(c.time) ? nothing : html`<option selected>${c.time}</option>`}
           ${columns.map((n) => html`<option value=${n} ?selected=${n === c.time}>${n}</option>`)}</select></label>
-        ${states.map((s) => html`<label>${s} is observed in <select @change=${(e: Event) => this.observe(s, (e.target as HTMLSelectElement).value)}>
+        ${states.map((s) => html`<label>${s} is observed in <select data-field="observe" @change=${(e: Event) => this.observe(s, (e.target as HTMLSelectElement).value)}>
           <option value="" ?selected=${!c.observe?.[s]}>(not observed)</option>
           ${columns.map((n) => html`<option value=${n} ?selected=${c.observe?.[s] === n}>${n}</option>`)}</select></label>`)}
-        <label>Weighting <select @change=${(e: Event) => this.edit({ weighting: (e.target as HTMLSelectElement).value as FitDoc['weighting'] })}>
+        <label>Weighting <select data-field="weighting" @change=${(e: Event) => this.edit({ weighting: (e.target as HTMLSelectElement).value as FitDoc['weighting'] })}>
           ${([['none', 'none'], ['relative', 'relative (1/y²)'], ['proportional', 'proportional (1/y)']] as const).map(([v, l]) => html`<option value=${v} ?selected=${(c.weighting ?? 'none') === v}>${l}</option>`)}</select></label>
       </div>
       <div class="scroll"><table class="est">
@@ -50,13 +50,13 @@ export class FitCellElement extends CellElement<'fit'> {
           const res = estimates[e.as];
           const p = `.estimate[${i}]`;
           return html`<tr>
-            <td><input class="name" type="text" aria-label="Estimate ${i + 1}: parameter or state" .value=${e.parameter ?? ''} @input=${(ev: Event) => this.setEstimate(i, { parameter: (ev.target as HTMLInputElement).value }, `p${i}`)} />
+            <td><input class="name" type="text" data-field="estimate[${i}].parameter" aria-label="Estimate ${i + 1}: parameter or state" .value=${e.parameter ?? ''} @input=${(ev: Event) => this.setEstimate(i, { parameter: (ev.target as HTMLInputElement).value }, `p${i}`)} />
               ${claims.take(`${p}.parameter`) ? html`<div class="foot-error">${claims.take(`${p}.parameter`)!.message}</div>` : nothing}</td>
-            <td><input class="name" type="text" aria-label="Estimate ${i + 1}: name of the result" .value=${e.as ?? ''} @input=${(ev: Event) => this.setEstimate(i, { as: (ev.target as HTMLInputElement).value }, `as${i}`)} /></td>
-            <td><expr-field label="Estimate ${i + 1} guess" .value=${e.guess ?? ''} .names=${names} .error=${claims.take(`${p}.guess`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { guess: ev.detail.value }, `g${i}`)}></expr-field></td>
-            <td><expr-field label="Estimate ${i + 1} lower bound" .value=${e.min ?? ''} .names=${names} .error=${claims.take(`${p}.min`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { min: ev.detail.value || undefined }, `min${i}`)}></expr-field></td>
-            <td><expr-field label="Estimate ${i + 1} upper bound" .value=${e.max ?? ''} .names=${names} .error=${claims.take(`${p}.max`) ?? claims.take(`${p}`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { max: ev.detail.value || undefined }, `max${i}`)}></expr-field></td>
-            <td class="result">${res ? `${showQ(res.value)}${res.atBound ? ' (at a bound)' : ''}` : ''}${res ? html`<unit-pick .unit=${res.value.unit} .picked=${e.unit} label="Show ${e.as} in another unit"
+            <td><input class="name" type="text" data-field="estimate[${i}].as" aria-label="Estimate ${i + 1}: name of the result" .value=${e.as ?? ''} @input=${(ev: Event) => this.setEstimate(i, { as: (ev.target as HTMLInputElement).value }, `as${i}`)} /></td>
+            <td><expr-field data-field="estimate[${i}].guess" label="Estimate ${i + 1} guess" .value=${e.guess ?? ''} .names=${names} .error=${claims.take(`${p}.guess`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { guess: ev.detail.value }, `g${i}`)}></expr-field></td>
+            <td><expr-field data-field="estimate[${i}].min" label="Estimate ${i + 1} lower bound" .value=${e.min ?? ''} .names=${names} .error=${claims.take(`${p}.min`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { min: ev.detail.value || undefined }, `min${i}`)}></expr-field></td>
+            <td><expr-field data-field="estimate[${i}].max" label="Estimate ${i + 1} upper bound" .value=${e.max ?? ''} .names=${names} .error=${claims.take(`${p}.max`) ?? claims.take(`${p}`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { max: ev.detail.value || undefined }, `max${i}`)}></expr-field></td>
+            <td class="result">${res ? `${showQ(res.value)}${res.atBound ? ' (at a bound)' : ''}` : ''}${res ? html`<unit-pick data-field="estimate[${i}].unit" .unit=${res.value.unit} .picked=${e.unit} label="Show ${e.as} in another unit"
               @unit-pick=${(ev: CustomEvent<UnitPickDetail>) => this.setEstimate(i, { unit: ev.detail.unit }, `unit${i}`)}></unit-pick>` : nothing}
               ${claims.take(`${p}.unit`) ? html`<div class="foot-error">${claims.take(`${p}.unit`)!.message}</div>` : nothing}</td>
             <td class="result">${res?.standardError ? showQ(res.standardError) : ''}</td>

@@ -15,12 +15,12 @@ export class NoteCellElement extends CellElement<'note'> {
   override render() {
     const text = typeof this.cell.text === 'string' ? this.cell.text : '';
     if (this.editing) {
-      return html`<textarea aria-label="Note text" .value=${text}
+      return html`<textarea data-field="text" aria-label="Note text" .value=${text}
         @input=${(e: Event) => this.edit({ text: (e.target as HTMLTextAreaElement).value }, 'text')}
         @blur=${() => { this.editing = false; }}></textarea>`;
     }
     return html`<p class="text">${text || html`<span class="muted">Empty note.</span>`}</p>
-      <button class="edit" @click=${() => { this.editing = true; void this.updateComplete.then(() => this.renderRoot.querySelector('textarea')?.focus()); }}>Edit note</button>`;
+      <button class="edit" data-field="text" @click=${() => { this.editing = true; void this.updateComplete.then(() => this.renderRoot.querySelector('textarea')?.focus()); }}>Edit note</button>`;
   }
 }
 

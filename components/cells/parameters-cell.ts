@@ -17,6 +17,10 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     td.result .foot-error { white-space: normal; }
     input.name { width: 100%; box-sizing: border-box; }
     td input[type='text']:not(.name) { width: 100%; box-sizing: border-box; }
+    details.more { margin-top: 0.2rem; }
+    details.more summary { cursor: pointer; font-size: 0.8rem; color: #3b4650; }
+    .range { display: flex; gap: 0.3rem; align-items: center; margin: 0.25rem 0; }
+    .range expr-field { min-width: 5rem; }
     @media (max-width: 700px) { col.note { width: 0; } .hide-narrow { display: none; } }
   `];
 
@@ -33,18 +37,20 @@ export class ParametersCellElement extends CellElement<'parameters'> {
           ${items.map((item, j) => {
             const entry = values[item.name];
             const nameError = claims.take(`.items[${j}].name`);
+            const who = item.name || `parameter ${j + 1}`;
             return html`<tr>
-              <td><input class="name" type="text" aria-label="Name of parameter ${j + 1}" .value=${item.name ?? ''}
+              <td><input class="name" type="text" data-field="items[${j}].name" aria-label="Name of parameter ${j + 1}" .value=${item.name ?? ''}
                 @input=${(e: Event) => this.change(j, { name: (e.target as HTMLInputElement).value }, `name${j}`)} />
                 ${nameError ? html`<div class="foot-error" role="alert">${nameError.message}</div>` : nothing}</td>
-              <td><expr-field label="Value of ${item.name || `parameter ${j + 1}`}" .value=${item.value ?? ''} .names=${names}
-                .error=${claims.take(`.items[${j}].value`) ?? claims.take(`.items[${j}].range[0]`) ?? claims.take(`.items[${j}].range[1]`)}
+              <td><expr-field data-field="items[${j}].value" label="Value of ${who}" .value=${item.value ?? ''} .names=${names}
+                .error=${claims.take(`.items[${j}].value`)}
                 @expr-input=${(e: CustomEvent<{ value: string }>) => this.change(j, { value: e.detail.value }, `value${j}`)}></expr-field>
-                ${entry?.range ? this.slider(j, entry) : nothing}</td>
-              <td class="result">${entry ? showValue(entry) : ''}${entry && entry.truth === undefined ? html`<unit-pick .unit=${entry.unit} .original=${entry.originalUnit} .picked=${item.unit} label="Show ${item.name} in another unit"
+                ${entry?.range ? this.slider(j, entry) : nothing}
+                ${this.more(j)}</td>
+              <td class="result">${entry ? showValue(entry) : ''}${entry && entry.truth === undefined ? html`<unit-pick data-field="items[${j}].unit" .unit=${entry.unit} .original=${entry.originalUnit} .picked=${item.unit} label="Show ${item.name} in another unit"
                 @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.change(j, { unit: e.detail.unit }, `unit${j}`)}></unit-pick>` : nothing}
                 ${footError(claims.take(`.items[${j}].unit`))}</td>
-              <td class="hide-narrow"><input type="text" aria-label="Note on ${item.name}" .value=${item.note ?? ''}
+              <td class="hide-narrow"><input type="text" data-field="items[${j}].note" aria-label="Note on ${who}" .value=${item.note ?? ''}
                 @input=${(e: Event) => this.change(j, { note: (e.target as HTMLInputElement).value || undefined }, `note${j}`)} /></td>
               <td><button class="quiet" aria-label="Remove ${item.name || `parameter ${j + 1}`}" @click=${() => this.removeItem(j)}>✕</button></td>
             </tr>`;
@@ -53,6 +59,38 @@ export class ParametersCellElement extends CellElement<'parameters'> {
       </table>
       <div class="row"><button @click=${this.add}>Add a parameter</button></div>
       ${this.footErrors()}`;
+  }
+
+  /**
+   * Under a value, behind "more": the slider's range (two expressions, low and high; both
+   * blank removes it) and whether the value is listed at a glance. Open when either is set.
+   */
+  private more(j: number) {
+    const item = this.cell.items[j];
+    const who = item.name || `parameter ${j + 1}`;
+    const [lo, hi] = Array.isArray(item.range) ? item.range : ['', ''];
+    const claims = this.claims;
+    return html`<details class="more" ?open=${item.range !== undefined || item.glance !== undefined}><summary>Slider range, at a glance</summary>
+      <div class="range">
+        <expr-field data-field="items[${j}].range" label="Slider range of ${who}: low end" .value=${lo ?? ''} .names=${this.names}
+          .error=${claims.take(`.items[${j}].range[0]`) ?? claims.take(`.items[${j}].range`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setRange(j, 0, e.detail.value)}></expr-field>
+        <span aria-hidden="true">to</span>
+        <expr-field data-field="items[${j}].range" label="Slider range of ${who}: high end" .value=${hi ?? ''} .names=${this.names}
+          .error=${claims.take(`.items[${j}].range[1]`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setRange(j, 1, e.detail.value)}></expr-field>
+      </div>
+      ${item.range === undefined ? html`<div class="muted">No range: no slider. Give both ends to drag the value between them.</div>` : nothing}
+      <label><input type="checkbox" data-field="items[${j}].glance" .checked=${item.glance === true}
+        @change=${(e: Event) => this.change(j, { glance: (e.target as HTMLInputElement).checked || undefined }, `glance${j}`)} /> List ${who} among the results at a glance</label>
+      ${footError(claims.take(`.items[${j}].glance`))}
+    </details>`;
+  }
+
+  /** Sets one end of the slider's range; with both ends blank the range is removed. */
+  private setRange(j: number, end: 0 | 1, text: string) {
+    const item = this.cell.items[j];
+    const range: [string, string] = Array.isArray(item.range) ? [item.range[0] ?? '', item.range[1] ?? ''] : ['', ''];
+    range[end] = text;
+    this.change(j, { range: range.every((r) => r.trim() === '') ? undefined : range }, `range${j}.${end}`);
   }
 
   /** A slider over the range; its position is written back as the value in the value's own unit. */
@@ -70,7 +108,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
 
   private change(j: number, patch: Record<string, unknown>, key: string) {
     const items = this.cell.items.map((it, i) => (i === j ? { ...it, ...patch } : it));
-    for (const it of items) { if (it.note === undefined) delete it.note; if (it.unit === undefined) delete it.unit; }
+    for (const it of items) for (const k of ['note', 'unit', 'range', 'glance'] as const) if (it[k] === undefined) delete it[k];
     this.edit({ items }, key);
   }
 

@@ -1,5 +1,5 @@
 import { html, nothing } from 'lit';
-import { showQ } from './common.ts';
+import { footError, showQ } from './common.ts';
 import { CellElement } from './cell-element.ts';
 import '../expr-field.ts';
 import '../plots/phase-plot.ts';
@@ -18,27 +18,29 @@ export class PhaseCellElement extends CellElement<'phase'> {
     const sw = c.sweep;
     return html`
       <div class="row">
-        <label>Law <select .value=${c.rate ?? ''} @change=${(e: Event) => this.edit({ rate: (e.target as HTMLSelectElement).value })}>
+        <label>Law <select data-field="rate" .value=${c.rate ?? ''} @change=${(e: Event) => this.edit({ rate: (e.target as HTMLSelectElement).value })}>
+          ${rateCells.includes(c.rate) ? nothing : html`<option value=${c.rate ?? ''} selected>${c.rate || '(choose)'}</option>`}
           ${rateCells.map((id) => html`<option value=${id} ?selected=${id === c.rate}>${id}</option>`)}</select></label>
         <span class="lbl">From</span>
-        <expr-field style="flex: 0 1 9rem" label="Lower end of the range" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
+        <expr-field style="flex: 0 1 9rem" data-field="from" label="Lower end of the range" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ from: e.detail.value }, 'from')}></expr-field>
         <span class="lbl">to</span>
-        <expr-field style="flex: 0 1 9rem" label="Upper end of the range" .value=${c.to ?? ''} .names=${names} .error=${claims.take('.to')}
+        <expr-field style="flex: 0 1 9rem" data-field="to" label="Upper end of the range" .value=${c.to ?? ''} .names=${names} .error=${claims.take('.to')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ to: e.detail.value }, 'to')}></expr-field>
       </div>
       <div class="row">
         <label><input type="checkbox" .checked=${!!sw} @change=${(e: Event) => this.toggleSweep((e.target as HTMLInputElement).checked)} /> Sweep a parameter</label>
         ${sw ? html`
-          <input class="name" type="text" aria-label="Parameter to sweep" .value=${sw.name ?? ''} @input=${(e: Event) => this.edit({ sweep: { ...sw, name: (e.target as HTMLInputElement).value } }, 'sname')} />
+          <input class="name" type="text" data-field="sweep.name" aria-label="Parameter to sweep" .value=${sw.name ?? ''} @input=${(e: Event) => this.edit({ sweep: { ...sw, name: (e.target as HTMLInputElement).value } }, 'sname')} />
           <span class="lbl">from</span>
-          <expr-field style="flex: 0 1 8rem" label="Sweep start" .value=${sw.from ?? ''} .names=${names} .error=${claims.take('.sweep.from')}
+          <expr-field style="flex: 0 1 8rem" data-field="sweep.from" label="Sweep start" .value=${sw.from ?? ''} .names=${names} .error=${claims.take('.sweep.from')}
             @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ sweep: { ...sw, from: e.detail.value } }, 'sfrom')}></expr-field>
           <span class="lbl">to</span>
-          <expr-field style="flex: 0 1 8rem" label="Sweep end" .value=${sw.to ?? ''} .names=${names} .error=${claims.take('.sweep.to')}
+          <expr-field style="flex: 0 1 8rem" data-field="sweep.to" label="Sweep end" .value=${sw.to ?? ''} .names=${names} .error=${claims.take('.sweep.to')}
             @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ sweep: { ...sw, to: e.detail.value } }, 'sto')}></expr-field>
-          <label>steps <input type="number" class="count" min="2" max="10000" .value=${String(sw.steps ?? 61)}
-            @input=${(e: Event) => this.edit({ sweep: { ...sw, steps: Math.max(2, Math.min(10000, Math.trunc(Number((e.target as HTMLInputElement).value)) || 2)) } }, 'ssteps')} /></label>` : nothing}
+          <label>steps <input type="number" class="count" data-field="sweep.steps" min="2" max="10000" .value=${String(sw.steps ?? '')}
+            @input=${(e: Event) => this.setSteps((e.target as HTMLInputElement).value)} /></label>
+          ${footError(claims.take('.sweep.steps'))}` : nothing}
       </div>
       ${this.report?.ok && this.report.plot ? html`
         <table><thead><tr><th>Equilibrium</th><th>Stability</th><th>Slope there</th></tr></thead><tbody>
@@ -49,6 +51,14 @@ export class PhaseCellElement extends CellElement<'phase'> {
         <phase-plot .state=${state} .plot=${this.report.plot} .equilibria=${eqs} .intervals=${this.report.intervals ?? []} .poles=${this.report.poles ?? []} .summary=${this.report.summary ?? ''}></phase-plot>
         ${this.report.sweep ? html`<sweep-plot .state=${state} .sweep=${this.report.sweep}></sweep-plot>` : nothing}` : nothing}
       ${this.footErrors()}`;
+  }
+
+  /** The number of steps as typed: a number is written as it is (the engine says when it is out of range); a blank or partial entry writes nothing. */
+  private setSteps(text: string) {
+    const sw = this.cell.sweep;
+    const n = Number(text);
+    if (!sw || text.trim() === '' || !Number.isFinite(n)) return;
+    this.edit({ sweep: { ...sw, steps: n } }, 'ssteps');
   }
 
   private toggleSweep(on: boolean) {

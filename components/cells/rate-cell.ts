@@ -16,20 +16,20 @@ export class RateCellElement extends CellElement<'rate'> {
     return html`
       <div class="row">
         <span class="lbl">Rate of</span>
-        <input class="name" type="text" aria-label="State name" .value=${c.state ?? ''} @input=${(e: Event) => this.edit({ state: (e.target as HTMLInputElement).value }, 'state')} />
+        <input class="name" type="text" data-field="state" aria-label="State name" .value=${c.state ?? ''} @input=${(e: Event) => this.edit({ state: (e.target as HTMLInputElement).value }, 'state')} />
         <span aria-hidden="true">per time =</span>
-        <expr-field label="Rate law: the rate of change of ${c.state}" .value=${c.rate ?? ''} .names=${names} .error=${claims.take('.rate')}
+        <expr-field data-field="rate" label="Rate law: the rate of change of ${c.state}" .value=${c.rate ?? ''} .names=${names} .error=${claims.take('.rate')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ rate: e.detail.value }, 'rate')}></expr-field>
       </div>
       ${stateError ? html`<p class="foot-error" role="alert">${stateError.message}</p>` : ''}
       <div class="row">
         <span class="lbl">Unit</span>
-        <expr-field style="flex: 0 1 9rem" label="Unit of ${c.state}" .value=${c.unit ?? ''} .error=${claims.take('.unit')}
+        <expr-field style="flex: 0 1 9rem" data-field="unit" label="Unit of ${c.state}" .value=${c.unit ?? ''} .error=${claims.take('.unit')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ unit: e.detail.value }, 'unit')}></expr-field>
-        <unit-pick .unit=${c.unit ?? ''} .original=${this.report?.originalUnit} label="Show ${c.state} in another unit"
+        <unit-pick data-field="unit" .unit=${c.unit ?? ''} .original=${this.report?.originalUnit} label="Show ${c.state} in another unit"
           @unit-pick=${(e: CustomEvent<UnitPickDetail>) => { if (e.detail.unit) this.edit({ unit: e.detail.unit }, 'unit-pick'); }}></unit-pick>
         <span class="lbl">Starts at</span>
-        <expr-field label="Initial value of ${c.state}" .value=${c.initial ?? ''} .names=${names} .error=${claims.take('.initial')}
+        <expr-field data-field="initial" label="Initial value of ${c.state}" .value=${c.initial ?? ''} .names=${names} .error=${claims.take('.initial')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ initial: e.detail.value }, 'initial')}></expr-field>
       </div>
       ${rate ? html`<p class="muted">At the start: ${c.state} changes by <span class="result">${showQ(rate)}</span></p>` : ''}

@@ -1,24 +1,19 @@
 import { html, nothing, css } from 'lit';
-import type { ClosedFormReport, FindResult, SimulationPlot } from '../../src/index.ts';
-import { cellStyles, footError, showQ, type ErrorClaims } from './common.ts';
-import type { StudyName } from '../expr-field.ts';
+import type { ClosedFormReport, SimulationPlot } from '../../src/index.ts';
+import { cellStyles, footError, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import { exportSeriesCsv } from '../series-csv.ts';
 import '../expr-field.ts';
 import '../unit-pick.ts';
-import type { UnitPickDetail } from '../unit-pick.ts';
 import '../plots/time-plot.ts';
-import {
-  FIND_KINDS, findKindOf, needsLevel as usesLevel, switchFind, withFindState, withFindUnit, freshFindName,
-  EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, switchAction, withEventField,
-  type EventAction, type FindKind, type FindQuery as FindDoc, type ScheduleEvent as EventDoc,
-} from '../../src/index.ts';
+import type { FindQuery as FindDoc, ScheduleEvent as EventDoc } from '../../src/index.ts';
+import { eventsTable } from './simulate-events.ts';
+import { findsTable } from './simulate-finds.ts';
 
 type SimulateCellDoc = CellDoc<'simulate'>;
-const FIND_LABELS: Record<string, string> = {
-  crossing: 'time it crosses', maximum: 'largest value', minimum: 'smallest value', timeOfMaximum: 'time of largest',
-  timeOfMinimum: 'time of smallest', valueOf: 'value at', integralOf: 'area under', timeAbove: 'time above', timeBelow: 'time below',
-};
+type Input = CustomEvent<{ value: string }>;
+/** The relative tolerances offered; the blank choice leaves the default (1e-6) to the engine. */
+const RELATIVE_TOLERANCES: readonly number[] = [1e-3, 1e-4, 1e-5, 1e-6, 1e-7, 1e-8, 1e-9, 1e-10];
 const METHOD_LABELS: Record<string, string> = {
   auto: 'automatic (switches to stiff when needed)', dopri5: 'Dormand–Prince 5(4), adaptive', stiff: 'stiff (implicit, adaptive)',
   rk4: 'Runge–Kutta 4, fixed step', heun: 'Heun, fixed step', euler: 'Euler, fixed step',
@@ -32,6 +27,15 @@ export class SimulateCellElement extends CellElement<'simulate'> {
     .events expr-field, .finds expr-field { min-width: 4.5rem; }
     .scroll { overflow-x: auto; }
     input.count { width: 4rem; }
+    .target { display: flex; gap: 0.3rem; align-items: flex-start; margin-bottom: 0.2rem; }
+    .repeats { margin-top: 0.2rem; white-space: normal; }
+    .finds td.result .muted { white-space: normal; }
+    tr.more td { padding-top: 0; border-bottom: 1px solid #e6eaee; }
+    tr.more details { margin: 0 0 0.3rem; }
+    /* the table may scroll sideways on a narrow screen: keep a question's window on the visible part */
+    tr.more .row { max-width: calc(100vw - 3rem); position: sticky; left: 0; }
+    tr.more summary, details.solver summary { font-weight: 400; font-size: 0.85rem; color: #3b4650; }
+    button.small { font-size: 0.8rem; padding: 0 0.4rem; }
     details { margin: 0.4rem 0; }
     summary { cursor: pointer; font-weight: 600; font-size: 0.9rem; color: #2b3640; }
   `];
@@ -47,30 +51,38 @@ export class SimulateCellElement extends CellElement<'simulate'> {
     return html`
       <div class="row">
         <span class="lbl">Laws</span>
-        ${rateCells.map((id) => html`<label><input type="checkbox" .checked=${(c.rates ?? []).includes(id)}
+        ${rateCells.map((id) => html`<label><input type="checkbox" data-field="rates" .checked=${(c.rates ?? []).includes(id)}
           @change=${(e: Event) => this.setRates(id, (e.target as HTMLInputElement).checked)} /> ${id}</label>`)}
         ${rateCells.length === 0 ? html`<span class="muted">Add a rate cell first.</span>` : nothing}
+        ${footError(claims.take('.rates'))}
       </div>
       <div class="row">
         <span class="lbl">From</span>
-        <expr-field style="flex: 0 1 8rem" label="Start of the run" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ from: e.detail.value }, 'from')}></expr-field>
+        <expr-field style="flex: 0 1 8rem" data-field="from" label="Start of the run" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
+          @expr-input=${(e: Input) => this.edit({ from: e.detail.value }, 'from')}></expr-field>
         <span class="lbl">to</span>
-        <expr-field style="flex: 0 1 8rem" label="End of the run" .value=${c.to ?? ''} .names=${names} .error=${claims.take('.to')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ to: e.detail.value }, 'to')}></expr-field>
-        <label>Method <select .value=${c.method ?? 'auto'} @change=${(e: Event) => this.edit({ method: (e.target as HTMLSelectElement).value as SimulateCellDoc['method'] }, 'method')}>
+        <expr-field style="flex: 0 1 8rem" data-field="to" label="End of the run" .value=${c.to ?? ''} .names=${names} .error=${claims.take('.to')}
+          @expr-input=${(e: Input) => this.edit({ to: e.detail.value }, 'to')}></expr-field>
+        <label>Method <select data-field="method" @change=${(e: Event) => this.edit({ method: (e.target as HTMLSelectElement).value as SimulateCellDoc['method'] })}>
           ${Object.entries(METHOD_LABELS).map(([m, l]) => html`<option value=${m} ?selected=${(c.method ?? 'auto') === m}>${l}</option>`)}
         </select></label>
-        ${fixed || c.step !== undefined ? html`<span class="lbl">Step</span><expr-field style="flex: 0 1 7rem" label="Fixed step" .value=${c.step ?? ''} .error=${claims.take('.step')}
-          @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ step: e.detail.value }, 'step')}></expr-field>` : nothing}
+        ${fixed || c.step !== undefined ? html`<span class="lbl">Step</span><expr-field style="flex: 0 1 7rem" data-field="step" label="Fixed step${fixed ? '' : ' (used by the fixed-step methods only)'}" .value=${c.step ?? ''} .names=${names} .error=${claims.take('.step')}
+          @expr-input=${(e: Input) => this.setStep(e.detail.value)}></expr-field>` : nothing}
       </div>
+      ${this.tolerances()}
       <details ?open=${(c.events ?? []).length > 0}>
         <summary>Schedule (${(c.events ?? []).length} event${(c.events ?? []).length === 1 ? '' : 's'})</summary>
-        ${this.eventsTable(claims, names)}
+        ${eventsTable({
+          events: c.events ?? [], report: this.report, claims, names, firstState: () => this.firstState(),
+          setEvent: (i, ev, key) => this.setEvent(i, ev, key), setEvents: (events) => this.edit({ events }),
+        })}
       </details>
       <details open>
         <summary>Questions (${(c.find ?? []).length})</summary>
-        ${this.findTable(claims, names, results)}
+        ${findsTable({
+          finds: c.find ?? [], results, claims, names, firstState: () => this.firstState(),
+          setFind: (i, f, key) => this.setFind(i, f, key), setFinds: (find) => this.edit({ find }),
+        })}
       </details>
       ${this.report?.ok && plot ? html`
         <time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${this.report.summary ?? ''}></time-plot>
@@ -81,54 +93,21 @@ export class SimulateCellElement extends CellElement<'simulate'> {
       ${this.footErrors()}`;
   }
 
-  private eventsTable(claims: ErrorClaims, names: StudyName[]) {
-    const events = this.cell.events ?? [];
-    return html`<div class="scroll"><table class="events">
-      ${events.length ? html`<thead><tr><th>At</th><th>Every</th><th>Times</th><th>Action</th><th>On</th><th>Amount</th><th>For</th><th></th></tr></thead>` : nothing}
-      <tbody>${events.map((ev, i) => {
-        const kind = eventActionOf(ev);
-        const [target, amount] = eventTarget(ev);
-        const p = `.events[${i}]`;
-        return html`<tr>
-          <td><expr-field label="Event ${i + 1} time" .value=${ev.at ?? ''} .names=${names} .error=${claims.take(`${p}.at`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, at: e.detail.value }, `at${i}`)}></expr-field></td>
-          <td><expr-field label="Event ${i + 1} repeats every" .value=${ev.every ?? ''} .names=${names} .error=${claims.take(`${p}.every`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withEventField(ev, 'every', e.detail.value), `every${i}`)}></expr-field></td>
-          <td><input class="count" type="number" min="1" aria-label="Event ${i + 1} count" .value=${ev.count === undefined ? '' : String(ev.count)} @input=${(e: Event) => { const v = (e.target as HTMLInputElement).value; this.setEvent(i, withEventField(ev, 'count', v === '' ? '' : Math.max(1, Math.trunc(Number(v)))), `count${i}`); }} /></td>
-          <td><select aria-label="Event ${i + 1} action" @change=${(e: Event) => this.setEvent(i, switchAction(ev, (e.target as HTMLSelectElement).value as EventAction))}>
-            ${EVENT_ACTIONS.map((k) => html`<option value=${k} ?selected=${k === kind}>${k === 'add' ? 'add (dose)' : k === 'set' ? 'set a parameter' : 'infuse (rate)'}</option>`)}</select></td>
-          <td><input class="name" type="text" aria-label="Event ${i + 1} target name" .value=${target} @input=${(e: Event) => this.setEvent(i, withTarget(ev, (e.target as HTMLInputElement).value, amount), `target${i}`)} /></td>
-          <td><expr-field label="Event ${i + 1} amount" .value=${amount} .names=${names} .error=${claims.take(`${p}.${kind}.${target}`) ?? claims.take(`${p}.${kind}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, withTarget(ev, target, e.detail.value), `amount${i}`)}></expr-field></td>
-          <td>${kind === 'infuse' ? html`<expr-field label="Event ${i + 1} infusion duration" .value=${ev.for ?? ''} .names=${names} .error=${claims.take(`${p}.for`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setEvent(i, { ...ev, for: e.detail.value }, `for${i}`)}></expr-field>` : nothing}</td>
-          <td><button class="quiet" aria-label="Remove event ${i + 1}" @click=${() => this.edit({ events: events.filter((_, j) => j !== i) })}>✕</button></td>
-        </tr>`;
-      })}</tbody></table></div>
-      <div class="row"><button @click=${() => this.edit({ events: [...events, { at: '0 h', add: { [this.firstState()]: '1' } }] })}>Add an event</button></div>`;
-  }
-
-  private findTable(claims: ErrorClaims, names: StudyName[], results: Record<string, FindResult>) {
-    const finds = this.cell.find ?? [];
-    return html`<div class="scroll"><table class="finds">
-      ${finds.length ? html`<thead><tr><th>Name</th><th>Question</th><th>Of</th><th>Level or time</th><th>Answer</th><th></th></tr></thead>` : nothing}
-      <tbody>${finds.map((f, i) => {
-        const kind = findKindOf(f);
-        const needsLevel = usesLevel(kind);
-        const r = results[f.name];
-        const p = `.find[${i}]`;
-        return html`<tr>
-          <td><input class="name" type="text" aria-label="Question ${i + 1} name" .value=${f.name ?? ''} @input=${(e: Event) => this.setFind(i, { ...f, name: (e.target as HTMLInputElement).value }, `fname${i}`)} /></td>
-          <td><select aria-label="Question ${i + 1} kind" @change=${(e: Event) => this.setFind(i, switchFind(f, (e.target as HTMLSelectElement).value as FindKind))}>
-            ${FIND_KINDS.map((k) => html`<option value=${k} ?selected=${k === kind}>${FIND_LABELS[k]}</option>`)}</select>
-            ${kind === 'crossing' ? html`<select aria-label="Question ${i + 1} direction" @change=${(e: Event) => this.setFind(i, { ...f, direction: (e.target as HTMLSelectElement).value as 'up' | 'down' | 'either' })}>
-              ${(['either', 'down', 'up'] as const).map((d) => html`<option value=${d} ?selected=${(f.direction ?? 'either') === d}>${d === 'either' ? 'either way' : d === 'down' ? 'falling' : 'rising'}</option>`)}</select>` : nothing}</td>
-          <td><input class="name" type="text" aria-label="Question ${i + 1} state" .value=${String(f[kind] ?? '')} @input=${(e: Event) => this.setFind(i, withFindState(f, (e.target as HTMLInputElement).value), `fstate${i}`)} /></td>
-          <td>${needsLevel || kind === 'valueOf' ? html`<expr-field label="Question ${i + 1} ${needsLevel ? 'level' : 'time'}" .value=${(needsLevel ? f.level : f.at) ?? ''} .names=${names}
-            .error=${claims.take(`${p}.${needsLevel ? 'level' : 'at'}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setFind(i, { ...f, [needsLevel ? 'level' : 'at']: e.detail.value }, `flevel${i}`)}></expr-field>` : nothing}</td>
-          <td class="result">${!r ? '' : 'notReached' in r ? html`<span class="muted">${r.message}</span>` : showQ(r)}${r && !('notReached' in r) ? html`<unit-pick .unit=${r.unit} .picked=${f.unit} label="Show ${f.name} in another unit"
-              @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.setFind(i, withFindUnit(f, e.detail.unit))}></unit-pick>` : nothing}
-            ${footError(claims.take(p) ?? claims.take(`${p}.unit`))}</td>
-          <td><button class="quiet" aria-label="Remove question ${i + 1}" @click=${() => this.edit({ find: finds.filter((_, j) => j !== i) })}>✕</button></td>
-        </tr>`;
-      })}</tbody></table></div>
-      <div class="row"><button @click=${() => this.edit({ find: [...finds, { name: freshFindName(finds), maximum: this.firstState() } as FindDoc] })}>Ask a question</button></div>`;
+  /** The solver's tolerances, behind a disclosure: a relative tolerance from a list, an absolute one as an expression. */
+  private tolerances() {
+    const tol = this.cell.tolerance;
+    const rel = tol?.relative;
+    const listed = RELATIVE_TOLERANCES.includes(rel as number);
+    return html`<details class="solver" ?open=${tol !== undefined}><summary>Solver tolerances</summary><div class="row">
+      <label>Relative tolerance <select data-field="tolerance.relative" @change=${(e: Event) => this.setTolerance('relative', (e.target as HTMLSelectElement).value)}>
+        <option value="" ?selected=${rel === undefined}>the default (1e-6)</option>
+        ${rel !== undefined && !listed ? html`<option value=${String(rel)} selected>${String(rel)}</option>` : nothing}
+        ${RELATIVE_TOLERANCES.map((r) => html`<option value=${String(r)} ?selected=${rel === r}>${r.toExponential(0)}</option>`)}</select></label>
+      ${footError(this.claims.take('.tolerance.relative'))}
+      <span class="lbl">Absolute</span>
+      <expr-field style="flex: 0 1 10rem" data-field="tolerance.absolute" label="Absolute tolerance, in a state's unit (blank: from each state's scale)" .value=${tol?.absolute ?? ''} .names=${this.names}
+        .error=${this.claims.take('.tolerance.absolute')} @expr-input=${(e: Input) => this.setTolerance('absolute', e.detail.value, 'atol')}></expr-field>
+    </div></details>`;
   }
 
   private closedForm(cf: Record<string, ClosedFormReport> | undefined) {
@@ -157,6 +136,22 @@ export class SimulateCellElement extends CellElement<'simulate'> {
   private setRates(id: string, on: boolean) {
     const rates = (this.cell.rates ?? []).filter((r) => r !== id);
     this.edit({ rates: on ? [...rates, id] : rates });
+  }
+
+  /** Sets the fixed step, or removes it when blank and the method does not need it. */
+  private setStep(text: string) {
+    const { step: _s, ...rest } = this.cell;
+    const fixed = this.cell.method === 'rk4' || this.cell.method === 'heun' || this.cell.method === 'euler';
+    this.replace(text.trim() === '' && !fixed ? rest : { ...rest, step: text }, 'step');
+  }
+
+  /** Sets one tolerance (a relative one from the list, as a number), or removes it when blank; no tolerance left removes the object. */
+  private setTolerance(key: 'relative' | 'absolute', text: string, merge?: string) {
+    const { tolerance, ...rest } = this.cell;
+    const next: Record<string, unknown> = { ...tolerance };
+    if (text.trim() === '') delete next[key];
+    else next[key] = key === 'relative' ? Number(text) : text;
+    this.replace(Object.keys(next).length ? { ...rest, tolerance: next } : rest, merge);
   }
 
   private setEvent(i: number, ev: EventDoc, key?: string) {

@@ -19,6 +19,7 @@ import { expandSchedule, type Action, type ScheduledEvent } from '../simulate/sc
 import { runSchedule, type RunOutcome, type SystemSpec } from '../simulate/run-schedule.ts';
 import { crossings, extreme, valueOfAt, integralOver, timeBeyond } from '../simulate/queries.ts';
 import { quantitySig } from './signatures.ts';
+import { repeatCount } from './repeat-count.ts';
 import { collectLaws } from './laws.ts';
 import { FAILURE_CAUSES, Status, formatForMessage, type FailureStatus } from '../numerics/ode/types.ts';
 import { unstableStep } from '../simulate/unstable-step.ts';
@@ -30,7 +31,7 @@ const DEFAULT_RTOL = 1e-6;
 /** The cell's expression fields, parsed once when its node is built. */
 export interface Fields {
   from?: Field; to?: Field; step?: Field; atol?: Field;
-  events: Array<{ at?: Field; every?: Field; for?: Field; targets: Array<{ name: string; value?: Field }>; kind: 'add' | 'set' | 'infuse'; raw: ScheduleEvent }>;
+  events: Array<{ at?: Field; every?: Field; count?: Field; for?: Field; targets: Array<{ name: string; value?: Field }>; kind: 'add' | 'set' | 'infuse'; raw: ScheduleEvent }>;
   finds: Array<{ q: FindQuery; kind: (typeof FIND_KINDS)[number] | undefined; level?: Field; at?: Field; from?: Field; to?: Field }>;
 }
 
@@ -191,8 +192,10 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
       return { name: t.name, value: q.si };
     });
     const every = e.every ? time(e.every, 'the repeat interval').si : undefined;
+    const count = e.count ? repeatCount(value(e.count), e.count.path) : (e.raw.count as number | undefined);
+    if (e.count && every === undefined && count !== 1) fail(`${at}.events[${i}].every`, `is needed to repeat an event (${count} times)`);
     return {
-      index: i, at: time(e.at, 'the event time').si, every, count: e.raw.count,
+      index: i, at: time(e.at, 'the event time').si, every, count,
       duration: e.for ? time(e.for, 'the infusion duration').si : undefined, kind: e.kind, targets,
     };
   });
@@ -210,13 +213,13 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
     const level = fq.level ? value(fq.level) : undefined;
     if (level && !sameDim(level.dim, laws[si!].initial.dim)) fail(fq.level!.path, `the level must be ${describeDim(laws[si!].initial.dim)} like ${state}; it is ${describe(level)}`, 'unit');
     const span: [number, number] = [fq.from ? time(fq.from, 'the window start').si : from.si, fq.to ? time(fq.to, 'the window end').si : to.si];
+    const run = `the run (${describe(from)} to ${describe(to)})`;
+    if (span[0] < from.si || span[0] > to.si) fail(`${path}.from`, `the window starts at ${describe(asTime(span[0]))}, outside ${run}`);
+    if (span[1] < from.si || span[1] > to.si) fail(`${path}.to`, `the window ends at ${describe(asTime(span[1]))}, outside ${run}`);
     if (!(span[1] >= span[0])) fail(`${path}.to`, 'the window must end after it starts');
-    // a window wholly before or after the run has nothing to ask of it (found by the fuzz test)
-    if (span[0] > to.si || span[1] < from.si) {
-      fail(`${path}.${span[0] > to.si ? 'from' : 'to'}`, `the window (${describe(asTime(span[0]))} to ${describe(asTime(span[1]))}) lies outside the run (${describe(asTime(from.si))} to ${describe(asTime(to.si))})`);
-    }
     const atT = fq.at ? time(fq.at, 'the time').si : undefined;
     if (atT !== undefined && (atT < from.si || atT > to.si)) fail(fq.at!.path, `the time ${describe(asTime(atT))} is outside the run`);
+    if (atT !== undefined && (atT < span[0] || atT > span[1])) fail(fq.at!.path, `the time ${describe(asTime(atT))} is outside the question's window (${describe(asTime(span[0]))} to ${describe(asTime(span[1]))})`);
     let quadrature = -1;
     if (fq.kind === 'integralOf') { quadrature = states.length + integrals.length; integrals.push(si!); }
     return { q: fq.q, kind: fq.kind, name: fq.q.name, state, si: si!, level, span, atT, quadrature, path, unitPath: `${path}.unit` };
@@ -319,7 +322,8 @@ function answer(core: Integrated): Pick<SimulationCore, 'answers' | 'bindings' |
         if (c) {
           give(fq, timeOf(core, c.t), c.t);
         } else {
-          const message = `not reached: no ${fq.state} ${CROSSING_NOUN[dir]} ${crossingLevel(fq)} by the end of the run (${describe(timeOf(core, b))})`;
+          const end = fq.q.to === undefined ? 'the end of the run' : 'the end of the window';
+          const message = `not reached: no ${fq.state} ${CROSSING_NOUN[dir]} ${crossingLevel(fq)}${windowText(core, fq)} by ${end} (${describe(timeOf(core, b))})`;
           reasons.set(fq.name, `"${fq.name}" is not defined: ${message}`);
           answers.push({ find: fq, missing: message });
         }
@@ -356,14 +360,19 @@ function crossingLevel(fq: Find): string {
   return `${describe(fq.level!)}${(fq.q.occurrence ?? 1) > 1 ? `, occurrence ${fq.q.occurrence}` : ''}`;
 }
 
+/** A question's window in words (" from 60 h to 72 h"), or nothing when it asks over the whole run. */
+function windowText(core: Pick<SimulationCore, 'timeUnit'>, fq: Find): string {
+  const [a, b] = fq.span;
+  return fq.q.from !== undefined || fq.q.to !== undefined ? ` from ${describe(timeOf(core, a))} to ${describe(timeOf(core, b))}` : '';
+}
+
 /** A `find` question in words, as the summary and the sheet put it: "T falls through 21 degC". */
 export function questionText(core: Pick<SimulationCore, 'timeUnit'>, fq: Find): string {
-  const [a, b] = fq.span;
-  const inWindow = fq.q.from !== undefined || fq.q.to !== undefined ? ` from ${describe(timeOf(core, a))} to ${describe(timeOf(core, b))}` : '';
+  const inWindow = windowText(core, fq);
   switch (fq.kind) {
     case 'crossing': {
       const dir = fq.q.direction ?? 'either';
-      return `${fq.state} ${CROSSING_VERB[dir]} ${crossingLevel(fq)}`;
+      return `${fq.state} ${CROSSING_VERB[dir]} ${crossingLevel(fq)}${inWindow}`;
     }
     case 'maximum': case 'minimum': case 'timeOfMaximum': case 'timeOfMinimum': {
       const sign = fq.kind === 'maximum' || fq.kind === 'timeOfMaximum' ? 1 : -1;

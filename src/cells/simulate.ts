@@ -32,7 +32,9 @@ export function simulateNodes(cell: SimulateCell, at: string): Array<GraphNode<N
       refs.push({ name, path: `${p}.${kind}`, readsStates: true });
       return { name, value: field(v, `${p}.${kind}.${name}`, problems) };
     });
-    f.events.push({ at: opt(e?.at, `${p}.at`), every: opt(e?.every, `${p}.every`), for: opt(e?.for, `${p}.for`), targets, kind, raw: e });
+    // a count written as text is an expression (a number stays a number)
+    const count = typeof e?.count === 'string' ? field(e.count, `${p}.count`, problems) : undefined;
+    f.events.push({ at: opt(e?.at, `${p}.at`), every: opt(e?.every, `${p}.every`), count, for: opt(e?.for, `${p}.for`), targets, kind, raw: e });
   });
   const defines = (Array.isArray(cell.find) ? cell.find : []).flatMap((q, i) => {
     const p = `${at}.find[${i}]`;
@@ -45,7 +47,7 @@ export function simulateNodes(cell: SimulateCell, at: string): Array<GraphNode<N
   // an event's amounts under add and infuse can read states (and are refused when they do);
   // every other field is a time, a level or a tolerance, where a state's name is a unit's
   const amounts = f.events.flatMap((e) => e.targets.map((t) => ({ value: t.value, states: e.kind !== 'set' })));
-  const all = [f.from, f.to, f.step, f.atol, ...f.events.flatMap((e) => [e.at, e.every, e.for]), ...amounts.filter((a) => !a.states).map((a) => a.value),
+  const all = [f.from, f.to, f.step, f.atol, ...f.events.flatMap((e) => [e.at, e.every, e.count, e.for]), ...amounts.filter((a) => !a.states).map((a) => a.value),
     ...f.finds.flatMap((q) => [q.level, q.at, q.from, q.to])];
   return [{
     key: `${cell.id}/simulate`,

@@ -15,6 +15,8 @@ export type Edit =
   | { readonly type: 'move'; readonly id: string; readonly to: number }
   | { readonly type: 'retitle'; readonly title: string }
   | { readonly type: 'author'; readonly author: string }
+  /** The study's description (blank text removes it). */
+  | { readonly type: 'describe'; readonly description: string }
   /**
    * The whole document at once (undo and redo send the study as it was). Checked like a
    * study being opened; the session re-runs only the cells whose text changed.
@@ -45,6 +47,11 @@ export function applyEdit(study: Study, edit: Edit): EditOutcome {
       if (typeof edit.author !== 'string') return refuse('an author must be text', 'author');
       const { author: _old, ...rest } = study;
       return { ok: true, study: edit.author.trim() ? { ...rest, author: edit.author } : rest };
+    }
+    case 'describe': {
+      if (typeof edit.description !== 'string') return refuse('a description must be text', 'description');
+      const { description: _old, ...rest } = study;
+      return { ok: true, study: edit.description.trim() ? { ...rest, description: edit.description } : rest };
     }
     case 'document': {
       const bound = valueLimitProblem(edit.study);

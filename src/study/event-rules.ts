@@ -53,3 +53,30 @@ export function withEventField<K extends 'every' | 'count' | 'for'>(ev: Schedule
   else copy[key] = value as ScheduleEvent[K];
   return copy;
 }
+
+/** The event's targets under its action, in order, each as [name, amount]. */
+export function eventTargets(ev: ScheduleEvent): Array<readonly [name: string, amount: string]> {
+  return Object.entries(ev[eventActionOf(ev)] ?? {}).map(([n, v]) => [n, v] as const);
+}
+
+/**
+ * The event with target i given `name` and `amount`, in the same place. A name another target
+ * of the event already has would merge the two and lose one amount, so the event is then
+ * returned as it was (`null` says so).
+ */
+export function withTargetAt(ev: ScheduleEvent, i: number, name: string, amount: string): ScheduleEvent | null {
+  const action = eventActionOf(ev);
+  const entries = eventTargets(ev);
+  if (entries.some(([n], j) => j !== i && n === name)) return null;
+  const next = entries.map((e, j) => (j === i ? [name, amount] as const : e));
+  if (i >= entries.length) next.push([name, amount]);
+  return { ...ev, [action]: Object.fromEntries(next) };
+}
+
+/** The event without target i (an event keeps at least its first target: one with none cannot run). */
+export function withoutTargetAt(ev: ScheduleEvent, i: number): ScheduleEvent {
+  const action = eventActionOf(ev);
+  const entries = eventTargets(ev);
+  if (entries.length <= 1) return ev;
+  return { ...ev, [action]: Object.fromEntries(entries.filter((_, j) => j !== i)) };
+}

@@ -75,3 +75,17 @@ export function freshFindName(finds: readonly FindQuery[]): string {
   while (used.has(`q${n}`)) n++;
   return `q${n}`;
 }
+
+/** The optional fields of a question that the editor sets or clears one at a time. */
+export type FindOption = 'from' | 'to' | 'level' | 'at' | 'direction' | 'occurrence' | 'glance';
+
+/**
+ * The question with one optional field set, or removed when `value` is blank text or
+ * undefined (a window end left blank is the run's own end; `glance` false is its default).
+ */
+export function withFindField<K extends FindOption>(f: FindQuery, key: K, value: FindQuery[K] | '' | undefined): FindQuery {
+  const copy = { ...f };
+  if (value === '' || value === undefined || (key === 'glance' && value === false)) delete copy[key];
+  else copy[key] = value as FindQuery[K];
+  return copy;
+}

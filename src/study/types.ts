@@ -42,7 +42,11 @@ export { METHODS, type Method };
 export interface ScheduleEvent {
   at: string;
   every?: string;
-  count?: number;
+  /**
+   * How many times the event acts: a whole number, or an expression giving one (`n_doses`,
+   * `round(72 h / tau)`). None: it repeats every `every` until the end of the run.
+   */
+  count?: number | string;
   for?: string;
   add?: Record<string, string>;
   set?: Record<string, string>;

@@ -233,8 +233,10 @@ function checkSimulate(c: Record<string, unknown>, p: Checker): void {
       if (!p.object(e, path)) return;
       p.expr(e, 'at', path);
       if (e.every !== undefined) p.expr(e, 'every', path);
-      if (e.count !== undefined) p.integer(e, 'count', path, 1, 100000);
-      if (e.count !== undefined && e.every === undefined && e.count !== 1) p.add(`${p.at}.${path}.every`, 'is needed to repeat an event (count more than 1)');
+      // a count is a whole number, or an expression checked when the run evaluates it
+      if (typeof e.count === 'string') p.expr(e, 'count', path);
+      else if (e.count !== undefined) p.integer(e, 'count', path, 1, 100000);
+      if (typeof e.count === 'number' && e.every === undefined && e.count !== 1) p.add(`${p.at}.${path}.every`, 'is needed to repeat an event (count more than 1)');
       const actions = ['add', 'set', 'infuse'].filter((k) => own(e, k));
       if (actions.length !== 1) {
         p.add(`${p.at}.${path}`, 'must have exactly one of "add", "set" or "infuse"');

@@ -4,7 +4,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
-  EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, switchAction, withEventField, readStudy, runStudy,
+  EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, eventTargets, withTargetAt, withoutTargetAt, switchAction, withEventField, readStudy, runStudy,
   type Report, type ScheduleEvent,
 } from '../../src/index.ts';
 import { near } from './helpers.ts';
@@ -89,5 +89,26 @@ describe('event rules', () => {
     // closed form: doses of 20 at 0, 1 and 2 h; at 3 h: 20 (e^-1.5 + e^-1 + e^-0.5)
     near(levels(repeated).C3, 20 * (Math.exp(-1.5) + Math.exp(-1) + Math.exp(-0.5)), 1e-6);
     assert.deepEqual(withEventField(withEventField(repeated, 'every', ''), 'count', ''), ev);
+  });
+
+  it('a count may be an expression; blank removes it', () => {
+    const ev: ScheduleEvent = { at: '0 h', every: '1 h', add: { C: '20 mg / L' } };
+    const counted = withEventField(ev, 'count', '2 + 1');
+    valid(counted);
+    // closed form: three doses as above, at 3 h
+    near(levels(counted).C3, 20 * (Math.exp(-1.5) + Math.exp(-1) + Math.exp(-0.5)), 1e-6);
+    assert.deepEqual(withEventField(counted, 'count', ''), ev);
+  });
+
+  it('edits every target of an event in its place, and never merges two into one', () => {
+    const ev: ScheduleEvent = { at: '0 h', add: { C: '1 mg / L', D: '2 mg / L' } };
+    assert.deepEqual(eventTargets(ev), [['C', '1 mg / L'], ['D', '2 mg / L']]);
+    assert.deepEqual(withTargetAt(ev, 1, 'E', '2 mg / L'), { at: '0 h', add: { C: '1 mg / L', E: '2 mg / L' } });
+    assert.deepEqual(withTargetAt(ev, 1, 'D', '5 mg / L'), { at: '0 h', add: { C: '1 mg / L', D: '5 mg / L' } });
+    assert.equal(withTargetAt(ev, 1, 'C', '2 mg / L'), null, 'a name the other target has would lose an amount');
+    assert.deepEqual(withTargetAt(ev, 2, 'F', ''), { at: '0 h', add: { C: '1 mg / L', D: '2 mg / L', F: '' } });
+    assert.deepEqual(withoutTargetAt(ev, 0), { at: '0 h', add: { D: '2 mg / L' } });
+    assert.deepEqual(withoutTargetAt({ at: '0 h', add: { C: '1' } }, 0), { at: '0 h', add: { C: '1' } }, 'the last target stays');
+    assert.deepEqual(ev, { at: '0 h', add: { C: '1 mg / L', D: '2 mg / L' } }, 'the input is never changed');
   });
 });

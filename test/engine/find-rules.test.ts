@@ -4,7 +4,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
-  FIND_KINDS, findKindOf, needsLevel, switchFind, withFindState, withFindUnit, freshFindName, readStudy, runStudy,
+  FIND_KINDS, findKindOf, needsLevel, switchFind, withFindState, withFindUnit, withFindField, freshFindName, readStudy, runStudy,
   type FindKind, type FindQuery, type Report,
 } from '../../src/index.ts';
 import { near } from './helpers.ts';
@@ -103,5 +103,29 @@ describe('question rules', () => {
     assert.equal(freshFindName([]), 'q1');
     assert.equal(freshFindName([q({ name: 'q2', maximum: 'T' }), q({ name: 'q3', minimum: 'T' })]), 'q4');
     assert.equal(freshFindName([q({ name: 'q1', maximum: 'T' })]), 'q2');
+  });
+});
+
+describe('a question\'s optional fields', () => {
+  it('sets a window end, and a blank one is removed (the run\'s own end)', () => {
+    const q = { name: 'lo', minimum: 'T' } as FindQuery;
+    const windowed = withFindField(withFindField(q, 'from', '2 h'), 'to', '4 h');
+    assert.deepEqual(windowed, { name: 'lo', minimum: 'T', from: '2 h', to: '4 h' });
+    assert.deepEqual(withFindField(windowed, 'to', ''), { name: 'lo', minimum: 'T', from: '2 h' });
+    assert.deepEqual(q, { name: 'lo', minimum: 'T' }, 'the input is never changed');
+    // closed form: the smallest T over 2-4 h is at 4 h, 20 + 60 e^{-2} degC
+    near(answer(windowed).value, 20 + 60 * Math.exp(-2), 1e-6);
+  });
+
+  it('sets glance when ticked and removes it when not (false is its default)', () => {
+    const q = { name: 'lo', minimum: 'T' } as FindQuery;
+    assert.equal(withFindField(q, 'glance', true).glance, true);
+    assert.equal('glance' in withFindField({ ...q, glance: true } as FindQuery, 'glance', false), false);
+  });
+
+  it('sets an occurrence, valid for the format\'s check', () => {
+    const q = withFindField({ name: 'x', crossing: 'T', level: '50 degC' } as FindQuery, 'occurrence', 1);
+    const r = readStudy(cooling([q]));
+    assert.ok(r.ok && r.cellProblems.size === 0);
   });
 });

@@ -224,6 +224,18 @@ describe('documents that are not studies are refused with a path', () => {
     assert.equal('author' in r.session.document(), false, 'a blank author is removed');
   });
 
+  it('sets the optional description and clears it', () => {
+    const r = openStudy({ format: 'ratebook-study', version: 1, title: 'x', cells: [{ id: 'a', kind: 'note', text: '' }] });
+    assert.ok(r.ok);
+    if (!r.ok) return;
+    r.session.apply({ type: 'describe', description: 'Cooling a stock pot (invented numbers)' });
+    assert.equal(r.session.document().description, 'Cooling a stock pot (invented numbers)');
+    r.session.apply({ type: 'retitle', title: 'y' });
+    assert.equal(r.session.document().description, 'Cooling a stock pot (invented numbers)');
+    r.session.apply({ type: 'describe', description: ' ' });
+    assert.equal('description' in r.session.document(), false, 'a blank description is removed');
+  });
+
   it('older versions go through the migration table step by step', () => {
     const table = {
       1: (d: Record<string, unknown>) => ({ ...d, cells: [...(d.cells as unknown[]), { id: 'added', kind: 'note', text: 'v2' }] }),
