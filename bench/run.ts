@@ -21,6 +21,7 @@ import { browserBenchmarks } from './browser.ts';
 import { whatIfBenchmarks } from './what-if.ts';
 import { fitBenchmarks } from './fit.ts';
 import { ncaBenchmarks } from './nca.ts';
+import { scalingBenchmarks } from './scaling.ts';
 
 /** One line of a section's table. `met` is undefined for a figure with no goal. */
 interface Row {
@@ -359,6 +360,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Simulating a dosing schedule', run: simulateRows },
   { title: 'What-if runs of a dosing schedule', run: whatIfRows },
   { title: 'Fitting and profile summaries', run: fitRows },
+  { title: 'Studies of many cells: opening a chain of parameters', run: scalingBenchmarks },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },
 ];
 

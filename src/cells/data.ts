@@ -13,6 +13,7 @@ import { fromUnit } from '../units/quantity.ts';
 import { type DisplayUnit, formatUnit } from '../units/units.ts';
 import { unitFromText } from '../expression/unit-text.ts';
 import { type CsvRead, type DeclaredColumn, readCsvTable } from '../csv/read.ts';
+import { shortJson } from '../study/limits.ts';
 
 export function dataNodes(cell: DataCell, at: string): Array<GraphNode<NodeOutput<'data'>>> {
   const problems: CellError[] = [];
@@ -57,7 +58,7 @@ function runData(cell: DataCell, at: string, unitFields: Field[]): Outcome<NodeO
         missing.push(`row ${r + 1}, ${names[c]}`);
         return null;
       }
-      if (typeof v !== 'number' || !Number.isFinite(v)) throw new FieldError({ kind: 'invalid', path, message: `row ${r + 1}, ${names[c]}: ${JSON.stringify(v)} is not a number` });
+      if (typeof v !== 'number' || !Number.isFinite(v)) throw new FieldError({ kind: 'invalid', path, message: `row ${r + 1}, ${names[c]}: ${shortJson(v)} is not a number` });
       if (c === 0) {
         if (v < last) throw new FieldError({ kind: 'invalid', path, message: `row ${r + 1}: the time ${v} goes backwards (the row before has ${last})` });
         last = v;

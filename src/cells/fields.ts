@@ -20,19 +20,8 @@ export interface Field {
   readonly expr: Expr;
 }
 
-const CACHE_LIMIT = 5000;
-const cache = new Map<string, ParseResult>();
-
-/** parseExpression with a bounded cache keyed by the text. */
-function parseCached(text: string): ParseResult {
-  let r = cache.get(text);
-  if (!r) {
-    r = parseExpression(text);
-    if (cache.size >= CACHE_LIMIT) cache.delete(cache.keys().next().value!);
-    cache.set(text, r);
-  }
-  return r;
-}
+/** parseExpression keeps the texts it parsed lately (expression/parse.ts). */
+const parseCached = (text: string): ParseResult => parseExpression(text);
 
 /** Parses the expression at `path`; on failure records a problem and returns undefined. */
 export function field(value: unknown, path: string, problems: CellError[]): Field | undefined {

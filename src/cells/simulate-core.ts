@@ -21,7 +21,8 @@ import { crossings, extreme, valueOfAt, integralOver, timeBeyond } from '../simu
 import { quantitySig } from './signatures.ts';
 import { repeatCount } from './repeat-count.ts';
 import { collectLaws } from './laws.ts';
-import { FAILURE_CAUSES, Status, type FailureStatus } from '../numerics/ode/types.ts';
+import { FAILURE_CAUSES, Status, formatForMessage, type FailureStatus } from '../numerics/ode/types.ts';
+import { unstableStep } from '../simulate/unstable-step.ts';
 
 /** Step attempts allowed in one run, all pieces together. */
 export const MAX_STEPS = 200_000;
@@ -272,7 +273,12 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
   if (run.status !== Status.Success) {
     const fl = run.failure!;
     const where = states.map((s, i) => `${s} = ${describe(stateValue(core, i, fl.y[i]))}`).join(', ');
-    fail(at, `the run stopped at t = ${describe(asTime(fl.t))}: ${FAILURE_CAUSES[fl.status as FailureStatus]({ limit: MAX_STEPS })} (${where})`, 'numeric');
+    const unstable = fl.status === Status.Blowup && step !== undefined && (method === 'euler' || method === 'heun' || method === 'rk4')
+      ? unstableStep((t, y, dy) => sys.rates(t, y, sys.p0, dy), from.si, sys.y0, step, method) : undefined;
+    const cause = unstable
+      ? `${method} is unstable with this step, though the law may stay bounded: the step (${describe(asTime(step!))}) is ${formatForMessage(unstable.product)} times the law's fastest time scale (${describe(asTime(1 / unstable.rho))}), above the ${unstable.limit} ${method} can take; use a step below ${describe(asTime(unstable.largestStep))}, or the auto or stiff method`
+      : FAILURE_CAUSES[fl.status as FailureStatus]({ limit: MAX_STEPS });
+    fail(at, `the run stopped at t = ${describe(asTime(fl.t))}: ${cause} (${where})`, 'numeric');
   }
   const { answers, bindings, reasons } = answer(core);
   return { ...core, answers, bindings, reasons };

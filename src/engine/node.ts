@@ -40,6 +40,11 @@ export interface CellError {
   /** For `waits`: the id of the upstream cell waited on. */
   readonly waitsOn?: string;
   /**
+   * For `waits`: where the failure began and its own reason, carried down a chain of waits so
+   * that each waiting cell names it once (never the chain of messages). Not in the report.
+   */
+  readonly cause?: { readonly cell: string; readonly reason: string };
+  /**
    * The message as text and places, when it names another place of the study: `message`
    * writes each place as its path (for the JSON report and the command line), the app and the
    * sheet write it in words (`output/problem-words.ts`).

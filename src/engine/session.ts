@@ -20,6 +20,8 @@ import { glanceOf } from '../output/glance.ts';
 import { cellTex, studySymbols } from '../output/sheet-tex.ts';
 import { studyUnits } from './study-units.ts';
 import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
+import { metered } from '../numerics/work.ts';
+import { DEFAULT_CELL_WORK, stoppedError, type WorkLimits } from './budget.ts';
 
 type Slot = Binding | Unavailable;
 
@@ -40,7 +42,7 @@ export type EditResult =
 
 export type OpenResult = { readonly ok: true; readonly session: StudySession } | { readonly ok: false; readonly error: Problem };
 
-export interface SessionOptions {
+export interface SessionOptions extends WorkLimits {
   /** 'check' validates without the heavy numerics. */
   readonly mode?: 'run' | 'check';
 }
@@ -49,7 +51,7 @@ export interface SessionOptions {
 export function openStudy(input: unknown, options: SessionOptions = {}): OpenResult {
   const read = readStudy(input);
   if (!read.ok) return read;
-  return { ok: true, session: new StudySession(read.study, read.cellProblems, read.notes, options.mode ?? 'run') };
+  return { ok: true, session: new StudySession(read.study, read.cellProblems, read.notes, options.mode ?? 'run', options) };
 }
 
 export class StudySession {
@@ -72,7 +74,10 @@ export class StudySession {
   /** The units the study's inputs are written in, gathered once per evaluation. */
   private units!: StudyUnits;
 
-  constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check') {
+  /** performance.now() after which the evaluation under way stops its cells (Infinity: none). */
+  private deadline = Infinity;
+
+  constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check', private readonly limits: WorkLimits = {}) {
     this.cells = [...study.cells];
     this.title = study.title;
     this.description = study.description;
@@ -178,6 +183,7 @@ export class StudySession {
     // a rebuilt cell is reported again even when no node re-runs: its title, or a node it
     // no longer has, changes its report
     const rebuilt = new Set<string>();
+    this.deadline = this.limits.timeLimit === undefined ? Infinity : performance.now() + this.limits.timeLimit * 1000;
     const list = this.nodes(rebuilt);
     this.units = studyUnits(this.cells);
     // a parameter is shown in the study's units of its dimension: it runs again when they change
@@ -244,10 +250,10 @@ export class StudySession {
       const old = this.reports.get(cell.id);
       let r = old;
       const index = this.indexOf(cell.id);
-      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index
-        || (!r.report.ok && this.hintText(cell) !== this.hintTexts.get(cell.id))) r = { index, report: this.cellReport(cell, index) };
       const tex = cellTex(cell, symbols);
-      if (!deepEqual(r.report.tex, tex)) {
+      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index
+        || (!r.report.ok && this.hintText(cell) !== this.hintTexts.get(cell.id))) r = { index, report: this.cellReport(cell, index, tex) };
+      else if (!deepEqual(r.report.tex, tex)) {
         const { tex: _old, ...rest } = r.report;
         r = { index, report: (tex === undefined ? rest : { ...rest, tex }) as CellReport };
       }
@@ -287,7 +293,8 @@ export class StudySession {
       studyUnits: this.units,
     };
     try {
-      return node.run(ctx);
+      const done = metered(this.limits.cellWork ?? DEFAULT_CELL_WORK, this.deadline, () => node.run(ctx));
+      return done.exceeded ? { ok: false, error: stoppedError(node, done.exceeded, this.limits) } : done.value!;
     } catch (err) {
       return internalError(node, err);
     }
@@ -350,8 +357,8 @@ export class StudySession {
     return upstreamOf(this.graph, name);
   }
 
-  private cellReport(cell: Cell, index: number): CellReport {
-    const r: CellReport = { id: cell.id, kind: cell.kind, ...(typeof cell.title === 'string' ? { title: cell.title } : {}), ok: true };
+  /** A cell's report from its nodes' outcomes, with `tex` last (as a report whose TeX changed alone gets it). */
+  private cellReport(cell: Cell, index: number, tex: CellReport['tex']): CellReport {
     const errors: CellError[] = [];
     const waits = new Set<string>();
     const output: Record<string, unknown> = {};
@@ -360,18 +367,20 @@ export class StudySession {
       if (!o) continue;
       if (o.output) mergeOutput(output, o.output);
       if (!o.ok) {
-        errors.push({ ...o.error, path: resolvePath(o.error.path, index) });
+        const { cause: _cause, ...error } = o.error;
+        errors.push({ ...error, message: bounded(error.message), path: resolvePath(o.error.path, index) });
         if (o.error.waitsOn !== undefined) waits.add(o.error.waitsOn);
       }
     }
     this.hintTexts.set(cell.id, this.hintText(cell));
-    Object.assign(r, output);
+    // one object literal: assigning the fields one by one after made each report a slow object
+    const r: CellReport = { id: cell.id, kind: cell.kind, ...(typeof cell.title === 'string' ? { title: cell.title } : {}), ok: errors.length === 0, ...output };
     if (errors.length) {
-      r.ok = false;
       r.error = errors[0];
       if (errors.length > 1) r.errors = errors;
       if (waits.size) r.waitsOn = [...waits];
     }
+    if (tex !== undefined) r.tex = tex;
     return r;
   }
 }
@@ -399,22 +408,24 @@ function internalError(node: GraphNode, err: unknown): Outcome {
 function unavailable(node: GraphNode, name: string, outcome: Outcome, index: number): Unavailable {
   if (!outcome.ok) {
     const { error } = outcome;
-    const reason = error.waitsOn !== undefined ? error.message : `${show(name)} has an error (${resolvePath(error.path, index)}: ${error.message})`;
-    return { kind: 'unavailable', cell: node.cell, reason, ...(error.waitsOn !== undefined ? { waitsOn: error.waitsOn } : {}), sig: `unavailable|${reason}` };
+    const reason = bounded(error.waitsOn !== undefined ? error.message : `${show(name)} has an error (${resolvePath(error.path, index)}: ${error.message})`);
+    const root = error.cause ?? { cell: node.cell, reason };
+    return { kind: 'unavailable', cell: node.cell, reason, root, sig: `unavailable|${root.cell}|${reason}` };
   }
   const message = (outcome.output as { message?: unknown }).message;
   const reason = outcome.reasons?.get(name) ?? (typeof message === 'string' ? message : `${show(name)} was not computed`);
-  return { kind: 'unavailable', cell: node.cell, reason, sig: `unavailable|${reason}` };
+  return { kind: 'unavailable', cell: node.cell, reason, root: { cell: node.cell, reason }, sig: `unavailable|${reason}` };
 }
 
 /**
- * The error of a node that reads a name of `cell` that is unavailable. A reason that already
- * waits on that same cell (a node of it waiting on another of its nodes) is not prefixed twice.
+ * The error of a node that reads a name of `cell` that is unavailable: it names that cell and
+ * the cause once (where the failure began, when further up, and its own reason), never the
+ * messages of the cells between, so a chain of waits costs the same per cell however long.
  */
 function waitsOnCell(cell: string, slot: Unavailable | undefined, path: string): CellError {
-  const reason = slot?.reason ?? 'it has not been computed';
-  const message = slot?.waitsOn === cell ? reason : `waits on cell "${cell}": ${reason}`;
-  return { kind: 'waits', waitsOn: cell, message, path };
+  const cause = slot?.root ?? { cell, reason: 'it has not been computed' };
+  const message = cause.cell === cell ? `waits on cell "${cell}": ${cause.reason}` : `waits on cell "${cell}" (the cause is in cell "${cause.cell}"): ${cause.reason}`;
+  return { kind: 'waits', waitsOn: cell, message, path, cause };
 }
 
 /** Structural equality of plain JSON-like values (reports): cheaper than comparing their JSON. */
@@ -435,6 +446,16 @@ function deepEqual(a: unknown, b: unknown): boolean {
     if (!deepEqual((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k])) return false;
   }
   return true;
+}
+
+/**
+ * Longest message a report carries, in characters: a message that quotes the study's text (an
+ * unknown name 5,000 letters long) is cut, so that messages never grow with what they quote.
+ */
+const MAX_MESSAGE = 1000;
+
+function bounded(message: string): string {
+  return message.length > MAX_MESSAGE ? `${message.slice(0, MAX_MESSAGE)}…` : message;
 }
 
 function show(name: string): string {

@@ -21,14 +21,18 @@ import { unitDim } from '../units/units.ts';
 import { unitFromText } from '../expression/unit-text.ts';
 import { nearest } from '../expression/suggest.ts';
 import { quantitySig } from '../cells/signatures.ts';
+import { rethrowWork } from '../numerics/work.ts';
 
 /** A name that cannot be read: its definer failed or computed nothing. */
 export interface Unavailable {
   readonly kind: 'unavailable';
   readonly cell: string;
   readonly reason: string;
-  /** When the definer itself waits on a cell: that cell (its reason already names it). */
-  readonly waitsOn?: string;
+  /**
+   * Where the failure began (the definer's cell, or the cell its chain of waits ends at) and
+   * that cell's own reason: a cell waiting on this one names it once.
+   */
+  readonly root: { readonly cell: string; readonly reason: string };
   readonly sig: string;
 }
 
@@ -220,6 +224,8 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
           try {
             outcome = node.run(step.ctx);
           } catch (err) {
+            // a cell running what-ifs stops when its own budget is spent (numerics/work.ts)
+            rethrowWork(err);
             outcome = view.internalError(node, err);
           }
         }

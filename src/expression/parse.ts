@@ -38,8 +38,33 @@ class Refusal extends Error {
   }
 }
 
-/** Parses one expression. Never throws. Cost: linear in the text. */
+/**
+ * Texts parsed lately and their results (which no one changes): the session, the study's units
+ * and the sheet's TeX each parse every field of a study on an evaluation, so one parse serves
+ * all three. Two generations of up to CACHE_LIMIT texts each: when the young one is full it
+ * becomes the old one and the old one is dropped, and a text found in the old one moves to
+ * the young. So a study of up to CACHE_LIMIT fields stays cached, at O(1) per look-up (a Map
+ * emptied from its front one key at a time costs more the more keys it has lost).
+ */
+const CACHE_LIMIT = 20000;
+let young = new Map<string, ParseResult>();
+let old = new Map<string, ParseResult>();
+
+/** Parses one expression. Never throws. Cost: linear in the text, a map look-up for a text parsed lately. */
 export function parseExpression(text: unknown): ParseResult {
+  if (typeof text !== 'string') return parseText(text);
+  let r = young.get(text);
+  if (r) return r;
+  r = old.get(text) ?? parseText(text);
+  if (young.size >= CACHE_LIMIT) {
+    old = young;
+    young = new Map();
+  }
+  young.set(text, r);
+  return r;
+}
+
+function parseText(text: unknown): ParseResult {
   if (typeof text !== 'string') return fail(`must be an expression written as text; it is ${typeof text === 'number' ? `the number ${text} (write it as "${text}")` : describeJson(text)}`);
   if (text.trim() === '') return fail('is empty: write a value, such as "0.35 / h"');
   if (text.length > MAX_LENGTH) return fail(`is too long (${text.length} characters; at most ${MAX_LENGTH})`);

@@ -42,8 +42,11 @@ export function glanceOf(cells: readonly Cell[], reports: readonly CellReport[])
   const chosen = cells.some((c) => (c.kind === 'parameters' && Array.isArray(c.items) && c.items.some((i) => i?.glance === true))
     || (c.kind === 'simulate' && Array.isArray(c.find) && c.find.some((f) => f?.glance === true)));
   const out: GlanceEntry[] = [];
-  for (const cell of cells) {
-    const r = reports.find((x) => x.id === cell.id);
+  // the reports are in the cells' order; a look-up by id only where they are not
+  let byId: Map<string, CellReport> | undefined;
+  for (let i = 0; i < cells.length; i++) {
+    const cell = cells[i];
+    const r = reports[i]?.id === cell.id ? reports[i] : (byId ??= new Map(reports.map((x) => [x.id, x]))).get(cell.id);
     if (!r) continue;
     const why = r.ok ? 'not computed' : r.waitsOn ? `waits on ${r.waitsOn.join(', ')}` : r.error?.message ?? 'not computed';
     const waits = !r.ok && r.waitsOn ? { waitsOn: [...r.waitsOn] } : {};
@@ -80,5 +83,5 @@ export function glanceOf(cells: readonly Cell[], reports: readonly CellReport[])
     }
   }
   // a stable sort: document order within each kind
-  return out.map((e, i) => [e, i] as const).sort((a, b) => ORDER.indexOf(a[0].kind) - ORDER.indexOf(b[0].kind) || a[1] - b[1]).map(([e]) => e);
+  return ORDER.flatMap((kind) => out.filter((e) => e.kind === kind));
 }

@@ -12,6 +12,7 @@ import { type Trajectory, evalPiece } from './trajectory.ts';
 import type { Action } from './schedule.ts';
 import { timeAxisUnits, type AxisUnit } from '../output/display-units.ts';
 import type { MeasuredSeries } from '../engine/node.ts';
+import { charge } from '../numerics/work.ts';
 
 /** Points across the whole run (more land on longer pieces; at least two per piece). */
 export const PLOT_POINTS = 400;
@@ -57,6 +58,7 @@ export function simulationPlot(p: PlotInput): SimulationPlot {
   const timeIn = (si: number) => valueIn(p.timeOf(si), p.timeUnit);
   for (const piece of tr.pieces) {
     const n = Math.max(2, Math.round((PLOT_POINTS * (piece.t1 - piece.t0)) / (span || 1)));
+    charge(n);
     for (let j = 0; j < n; j++) {
       const at = j === n - 1 ? piece.t1 : piece.t0 + ((piece.t1 - piece.t0) * j) / (n - 1);
       evalPiece(piece, at, out);

@@ -5,6 +5,7 @@
  * of the interpolant; a jump at a scheduled action is a crossing at the action's time.
  */
 import { brentRoot, brentMinimize } from '../numerics/brent.ts';
+import { charge } from '../numerics/work.ts';
 import { type Trajectory, type Piece, evalPiece, pieceAt, valueAt } from './trajectory.ts';
 import type { DenseSegment } from '../numerics/ode/types.ts';
 
@@ -72,6 +73,7 @@ export function crossings(tr: Trajectory, i: number, level: number, from = tr.t0
     for (const s of p.segments) {
       if (s.t1 <= a || s.t0 >= b) continue;
       const lo = Math.max(s.t0, a), hi = Math.min(s.t1, b);
+      charge(SAMPLES);
       for (let j = 1; j <= SAMPLES; j++) {
         const t = lo + ((hi - lo) * j) / SAMPLES;
         sampleOn(p, s, t, out);
@@ -118,6 +120,7 @@ export function extreme(tr: Trajectory, i: number, sign: 1 | -1, from = tr.t0, t
       const lo = Math.max(s.t0, a), hi = Math.min(s.t1, b);
       const h = (hi - lo) / SAMPLES;
       let bestJ = 0, bestV = -Infinity;
+      charge(SAMPLES + 1);
       for (let j = 0; j <= SAMPLES; j++) {
         sampleOn(p, s, lo + j * h, out);
         const v = sign * out[i];

@@ -1,8 +1,16 @@
+
 /**
  * Schedules: a simulate cell's events expanded into a timeline of actions at exact times,
  * so that integration can stop and restart at each one and never step across a jump.
  * Pure numbers (SI seconds and SI magnitudes).
  */
+import { charge } from '../numerics/work.ts';
+
+/**
+ * Units of work charged for each action of a schedule: each one restarts the integration and
+ * adds a piece to the solution, its samples and its plot (about 250 evaluations' worth).
+ */
+const ACTION_WORK = 200;
 
 export type ActionKind = 'add' | 'set' | 'infuse-start' | 'infuse-stop';
 
@@ -45,6 +53,7 @@ export function expandSchedule(events: readonly ScheduledEvent[], from: number, 
     const count = e.count ?? (e.every !== undefined ? Math.floor((to - e.at) / e.every + 1e-9) + 1 : 1);
     if (count > MAX_ACTIONS) return { error: `this event repeats ${count} times in the run; at most ${MAX_ACTIONS} are allowed`, event: e.index };
     for (let r = 0; r < count; r++) {
+      charge(ACTION_WORK);
       const time = e.at + r * (e.every ?? 0);
       if (time > to) break;
       if (e.kind === 'infuse') {

@@ -6,6 +6,7 @@
 import type { Cell, Study } from './types.ts';
 import { CELL_KINDS, ID_PATTERN } from './types.ts';
 import { isObject, readStudy, type Problem } from './validate.ts';
+import { shortJson, valueLimitProblem } from './limits.ts';
 
 export type Edit =
   | { readonly type: 'replace'; readonly cell: unknown }
@@ -53,6 +54,8 @@ export function applyEdit(study: Study, edit: Edit): EditOutcome {
       return { ok: true, study: edit.description.trim() ? { ...rest, description: edit.description } : rest };
     }
     case 'document': {
+      const bound = valueLimitProblem(edit.study);
+      if (bound) return { ok: false, error: bound };
       let copy: unknown;
       try {
         copy = structuredClone(edit.study);
@@ -80,9 +83,11 @@ export function applyEdit(study: Study, edit: Edit): EditOutcome {
     case 'insert': {
       const c = edit.cell;
       if (!isObject(c)) return refuse('a cell must be an object', 'cells');
+      const bound = valueLimitProblem(c);
+      if (bound) return { ok: false, error: { ...bound, path: bound.path ? `cell.${bound.path}` : 'cell' } };
       if (typeof c.id !== 'string' || !ID_PATTERN.test(c.id)) return refuse('a cell id must be lower-case letters, digits, "-" or "_", starting with a letter', 'id');
       if (typeof c.kind !== 'string' || !(CELL_KINDS as readonly string[]).includes(c.kind)) {
-        return refuse(`unknown cell kind ${JSON.stringify(c.kind)}; the kinds are ${CELL_KINDS.join(', ')}`, 'kind');
+        return refuse(`unknown cell kind ${shortJson(c.kind)}; the kinds are ${CELL_KINDS.join(', ')}`, 'kind');
       }
       const written = structuredClone(c) as unknown as Cell;
       const existing = at(c.id);

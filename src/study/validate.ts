@@ -10,6 +10,7 @@ import {
   METHODS, PLOT_SCALES, FIND_KINDS, WEIGHTINGS, ROUTES, AUC_RULES, NCA_RESULTS,
 } from './types.ts';
 import { migrate } from './migrate.ts';
+import { shortJson, textLimitProblem, valueLimitProblem, withoutByteOrderMark } from './limits.ts';
 
 export interface Problem {
   readonly message: string;
@@ -20,19 +21,28 @@ export type ReadResult =
   | { ok: true; study: Study; cellProblems: ReadonlyMap<string, readonly Problem[]>; notes: readonly string[] }
   | { ok: false; error: Problem };
 
-/** Reads a study from JSON text or a parsed value. Never throws. */
+/**
+ * Reads a study from JSON text or a parsed value. Never throws. The bounds of `limits.ts` are
+ * checked first (a byte-order mark before the text is dropped), so nothing after walks a
+ * value nested too deeply.
+ */
 export function readStudy(input: unknown): ReadResult {
   let doc: unknown = input;
   if (typeof input === 'string') {
+    const text = withoutByteOrderMark(input);
+    const bound = textLimitProblem(text);
+    if (bound) return { ok: false, error: bound };
     try {
-      doc = JSON.parse(input);
+      doc = JSON.parse(text);
     } catch (err) {
       return refuse(`the file is not valid JSON: ${(err as Error).message}`, '');
     }
   }
+  const bound = valueLimitProblem(doc);
+  if (bound) return { ok: false, error: bound };
   if (!isObject(doc)) return refuse('a study must be a JSON object', '');
   if (doc.format !== FORMAT) {
-    return refuse(`this is not a Ratebook study: "format" must be "${FORMAT}"${doc.format === undefined ? '' : `, not ${JSON.stringify(doc.format)}`}`, 'format');
+    return refuse(`this is not a Ratebook study: "format" must be "${FORMAT}"${doc.format === undefined ? '' : `, not ${shortJson(doc.format)}`}`, 'format');
   }
   const version = doc.version;
   if (!Number.isInteger(version) || (version as number) < 1) return refuse('"version" must be a whole number, 1 or more', 'version');
@@ -62,7 +72,7 @@ export function readStudy(input: unknown): ReadResult {
     if (seen.has(c.id)) return refuse(`the cell id "${c.id}" is used twice (first at cells[${seen.get(c.id)}])`, `${at}.id`);
     seen.set(c.id, i);
     if (typeof c.kind !== 'string' || !(CELL_KINDS as readonly string[]).includes(c.kind)) {
-      return refuse(`unknown cell kind ${JSON.stringify(c.kind)}; the kinds are ${CELL_KINDS.join(', ')}`, `${at}.kind`);
+      return refuse(`unknown cell kind ${shortJson(c.kind)}; the kinds are ${CELL_KINDS.join(', ')}`, `${at}.kind`);
     }
     const problems = checkCell(c, at);
     if (problems.length) cellProblems.set(c.id, problems);
@@ -105,7 +115,7 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
           p.expr(item, 'value', path);
           if (item.range !== undefined) {
             if (!Array.isArray(item.range) || item.range.length !== 2 || item.range.some((r) => typeof r !== 'string')) {
-              p.add(`${path}.range`, 'must be a list of two expressions, [low, high]');
+              p.add(`${at}.${path}.range`, 'must be a list of two expressions, [low, high]');
             }
           }
           p.optionalText(item, 'note', path);
@@ -193,6 +203,14 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
   return p.problems;
 }
 
+/**
+ * The relative tolerances a run accepts. Below 1e-12 the steps needed fall under what double
+ * precision resolves (about 16 digits, less the digits a step's rounding costs), and the run
+ * exhausts its steps at the start; above 0.1 it is no longer a tolerance (common practice).
+ */
+export const MIN_RTOL = 1e-12;
+export const MAX_RTOL = 0.1;
+
 function checkSimulate(c: Record<string, unknown>, p: Checker): void {
   p.ids(c, 'rates');
   p.expr(c, 'from');
@@ -203,8 +221,10 @@ function checkSimulate(c: Record<string, unknown>, p: Checker): void {
   if (fixed || c.step !== undefined) p.expr(c, 'step');
   if (c.tolerance !== undefined && p.object(c.tolerance, 'tolerance')) {
     const t = c.tolerance;
-    if (t.relative !== undefined && !(typeof t.relative === 'number' && t.relative > 0 && t.relative < 1)) {
-      p.add(`${p.at}.tolerance.relative`, 'must be a number between 0 and 1, such as 1e-6');
+    if (t.relative !== undefined && !(typeof t.relative === 'number' && t.relative >= MIN_RTOL && t.relative <= MAX_RTOL)) {
+      p.add(`${p.at}.tolerance.relative`, typeof t.relative === 'number' && t.relative > 0 && t.relative < MIN_RTOL
+        ? `${t.relative} is tighter than a run can resolve (numbers carry about 16 digits): use ${MIN_RTOL} or more, such as 1e-6`
+        : `must be a number from ${MIN_RTOL} to ${MAX_RTOL}, such as 1e-6`);
     }
     if (t.absolute !== undefined) p.expr(t, 'absolute', 'tolerance');
   }
@@ -288,7 +308,7 @@ function checkData(c: Record<string, unknown>, p: Checker): void {
       if (!Array.isArray(row)) return p.add(path, `row ${j + 1} must be a list of numbers`);
       if (width && row.length !== width) return p.add(path, `row ${j + 1} has ${row.length} values; the table has ${width} columns`);
       const bad = row.findIndex((v) => v !== null && !(typeof v === 'number' && Number.isFinite(v)));
-      if (bad >= 0) return p.add(`${path}[${bad}]`, `row ${j + 1} has ${JSON.stringify(row[bad])} where a number (or null for a missing value) belongs`);
+      if (bad >= 0) return p.add(`${path}[${bad}]`, `row ${j + 1} has ${shortJson(row[bad])} where a number (or null for a missing value) belongs`);
       const t = row[0];
       if (t === null) return p.add(`${path}[0]`, `row ${j + 1} has no time`);
       if (t < lastTime) p.add(`${path}[0]`, `row ${j + 1}: the time ${t} goes backwards (the row before has ${lastTime})`);
@@ -375,7 +395,7 @@ class Checker {
     const v = o[field];
     if (v === undefined && optional) return;
     if (typeof v !== 'string' || !allowed.includes(v)) {
-      this.add(this.where(field, within), `must be one of ${allowed.join(', ')}${v === undefined ? '' : `, not ${JSON.stringify(v)}`}`);
+      this.add(this.where(field, within), `must be one of ${allowed.join(', ')}${v === undefined ? '' : `, not ${shortJson(v)}`}`);
     }
   }
 }

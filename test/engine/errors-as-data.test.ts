@@ -47,10 +47,12 @@ describe('errors are data', () => {
     assert.equal(b.error?.kind, 'waits');
     assert.equal(b.error?.waitsOn, 'a');
     assert.deepEqual(b.waitsOn, ['a']);
-    // the cell further down waits on the one it reads, whose reason it repeats
+    // the cell further down names the one it reads and the cause, once: never the chain
     const c = cell(r, 'c');
     assert.equal(c.error?.waitsOn, 'b');
-    assert.match(c.error!.message, /^waits on cell "b": waits on cell "a": /);
+    assert.match(c.error!.message, /^waits on cell "b" \(the cause is in cell "a"\): "k" has an error \(cells\[0\]\.items\[0\]\.value: /);
+    assert.equal(c.error!.message.split('waits on cell').length, 2, c.error!.message);
+    assert.equal('cause' in c.error!, false, 'the cause travels inside the engine, not in the report');
   });
 
   it('a wait on a cell whose law waits on its own state names that cell once', () => {

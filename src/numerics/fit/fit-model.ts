@@ -12,6 +12,7 @@
  */
 import type { CheckedInput } from './fit-input.ts';
 import type { LeastSquaresProblem } from './fit-types.ts';
+import { rethrowWork } from '../work.ts';
 
 /** The model as the fit calls it: counts, failure handling, a private copy of the point. */
 export class CountedModel {
@@ -35,6 +36,7 @@ export class CountedModel {
     try {
       ok = problem.residuals(xCall, out) === true;
     } catch (e) {
+      rethrowWork(e);
       ok = false;
       if (this.modelError === null) this.modelError = e instanceof Error ? e.message : String(e);
     }

@@ -11,6 +11,7 @@ import {
   type Counters, type DenseSegment, type MessageDetail, type Rhs, type SolverOptions, type Where,
   Status,
 } from './types.ts';
+import { charge } from '../work.ts';
 
 /** Defaults of the options in `SolverOptions`. */
 export const DEFAULTS = {
@@ -91,6 +92,7 @@ export class Evaluator {
   /** Writes f(t, y) into dy; false when some component is NaN or infinite. */
   call(t: number, y: Float64Array, dy: Float64Array): boolean {
     this.counters.evaluations++;
+    charge();
     this.f(t, y, dy);
     for (let i = 0; i < dy.length; i++) if (!Number.isFinite(dy[i])) return false;
     return true;

@@ -5,6 +5,7 @@
  * best-effort evaluation). Internal to `src/numerics/phase/`.
  */
 import type { FSign, Span } from './types.ts';
+import { charge } from '../work.ts';
 
 export const EPS = Number.EPSILON;
 /** Across a converged sign-change bracket: |f| fallen by this factor is a zero ... */
@@ -26,6 +27,7 @@ export class Evaluator {
   at(y: number): number {
     if (this.count >= this.limit) throw new BudgetError();
     this.count++;
+    charge();
     let v: unknown;
     try { v = this.f(y); } catch { v = NaN; }
     return typeof v === 'number' ? v : NaN;

@@ -17,6 +17,7 @@
  */
 import { brentMinimize } from '../brent.ts';
 import { findEquilibria, type EquilibriumOptions, type PhaseAnalysis, type Stability, type Equilibrium } from './equilibria.ts';
+import { charge } from '../work.ts';
 
 export interface SweepOptions extends Omit<EquilibriumOptions, 'derivative'> {
   /** ∂f/∂y when known exactly (passed to each step's analysis). */
@@ -92,6 +93,8 @@ const BISECTION_MAX_ITERATIONS = 60;
 /** Two folds closer than this fraction of both ranges are one (found from both sides of a grid step). */
 const FOLD_SAME = 1e-6;
 const MAX_STEPS = 100000;
+/** Units of work charged for each point of a sweep, beyond its evaluations of f. */
+const SWEEP_POINT_WORK = 1000;
 
 /**
  * Analyses y' = f(y, p) on [yFrom, yTo] at `steps` parameter values evenly spaced from pFrom
@@ -123,6 +126,8 @@ export function sweepEquilibria(
   let evaluations = 0;
   let budgetExhausted = false;
   const analyses: PhaseAnalysis[] = parameters.map((p) => {
+    // a sweep point costs about as much again as its evaluations of f (numerics/work.ts)
+    charge(SWEEP_POINT_WORK);
     const a = findEquilibria((y) => f(y, p), yFrom, yTo, { ...stepOptions, derivative: derivative && ((y) => derivative(y, p)) });
     evaluations += a.evaluations;
     if (a.budgetExhausted) budgetExhausted = true;
@@ -232,6 +237,7 @@ class FoldBudget extends Error {}
 function evalIn(c: FoldContext, y: number, p: number): number {
   if (c.used >= c.budget) throw new FoldBudget();
   c.used++;
+  charge();
   try { const v = c.f(y, p); return typeof v === 'number' ? v : NaN; } catch { return NaN; }
 }
 
