@@ -61,5 +61,7 @@ export async function runScript(name, main) {
   } catch (err) {
     console.error(`e2e ${name}: FAILED: ${err instanceof Failure ? err.message : err?.stack ?? err}`);
     process.exitCode = 1;
+    // a browser left open by the failed step must not keep the suite waiting: exit soon
+    setTimeout(() => process.exit(1), 10_000).unref();
   }
 }

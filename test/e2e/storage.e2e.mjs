@@ -19,10 +19,15 @@ const profiles = [];
 let executablePath;
 let url;
 
-function launch(profile) {
-  return chromium.launchPersistentContext(profile, {
+/** Every browser launched, closed at the end whatever happened (a failed step leaves its own open). */
+const launched = [];
+
+async function launch(profile) {
+  const context = await chromium.launchPersistentContext(profile, {
     executablePath, headless: true, acceptDownloads: true, serviceWorkers: 'block', viewport: { width: 1200, height: 900 }, args: CHROMIUM_ARGS,
   });
+  launched.push(context);
+  return context;
 }
 
 function newProfile() {
@@ -233,6 +238,7 @@ async function main() {
     }
     console.log(`  all in ${((Date.now() - started) / 1000).toFixed(1)} s`);
   } finally {
+    await Promise.all(launched.map((c) => c.close().catch(() => {})));
     server.child.kill();
     for (const p of profiles) rmSync(p, { recursive: true, force: true });
   }
