@@ -53,7 +53,7 @@ export function section(cell: Cell, r: CellReport | undefined, doc: { readonly c
 
 function problems(cell: Cell, r: CellReport, doc: { readonly cells: readonly Cell[] }, report: Report): TemplateResult {
   const errors = r.errors ?? (r.error ? [r.error] : []);
-  const waits = waitedOn(errors).filter((id) => id !== cell.id).map((id) => waitWords(doc, report, id));
+  const waits = waitedOn(errors).filter((id) => id !== cell.id).map((id) => waitWords(doc, report, id, errors));
   const own = errors.filter((e) => e.kind !== 'waits');
   return html`${waits.map((w) => html`<p class="error">Not computed: it ${w}.</p>`)}
     ${own.map((e) => html`<p class="error">Error in ${fieldWords(doc, e.path, false)}: ${problemWords(doc, report, e)}</p>`)}
