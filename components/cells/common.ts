@@ -61,7 +61,7 @@ export class ErrorClaims {
   /** The cell's waits, one sentence per cell waited on ("waits on Fit "k": ..."), its own cell left out. */
   waits(): string[] {
     const ids = waitedOn(this.all).filter((id) => id !== this.words?.self);
-    return ids.map((id) => (this.words ? waitWords(this.words.doc, this.words.report, id) : `waits on cell "${id}"`));
+    return ids.map((id) => (this.words ? waitWords(this.words.doc, this.words.report, id, this.all) : `waits on cell "${id}"`));
   }
 
   private message(e: CellError): string {

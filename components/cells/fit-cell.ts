@@ -1,11 +1,12 @@
 import { html, nothing, css } from 'lit';
-import type { ReportOf } from '../../src/index.ts';
+import type { PlotScale, ReportOf } from '../../src/index.ts';
 import { cellStyles, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import '../expr-field.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
 import '../plots/time-plot.ts';
+import type { PlotScaleEvent } from '../plots/time-plot.ts';
 
 type FitDoc = CellDoc<'fit'>;
 type Estimate = FitDoc['estimate'][number];
@@ -68,6 +69,7 @@ export class FitCellElement extends CellElement<'fit'> {
       ${r?.ok && r.estimates ? html`<p class="muted">${r.converged ? 'Converged' : 'Not converged'} after ${r.iterations} iterations (${r.message}); ${r.n} points, ${r.dof} degrees of freedom${r.residualSD ? `, residual SD ${showQ(r.residualSD)}` : ''}.</p>` : nothing}
       ${this.correlation()}
       ${(r?.warnings ?? []).map((w) => html`<p class="foot-error">${w}</p>`)}
+      ${this.plotScaleError(claims.take('.plotScale'))}
       ${r?.ok && r.plot ? this.plots(r.plot, r) : nothing}
       ${this.footErrors()}`;
   }
@@ -80,7 +82,19 @@ export class FitCellElement extends CellElement<'fit'> {
       <tbody>${cor.names.map((n, i) => html`<tr><th>${n}</th>${cor.matrix[i].map((v) => html`<td class="num">${v.toFixed(3)}</td>`)}</tr>`)}</tbody></table>`;
   }
 
-  /** The fitted curve over the data, and the residuals against time around a zero line. */
+  /** A stored axis choice that is neither linear nor log: the message, and the two choices to pick from. */
+  private plotScaleError(error: { message: string } | undefined) {
+    return error ? html`<p class="foot-error">Plot scale: ${error.message}
+      <button @click=${() => this.setPlotScale('linear')}>Draw it on a linear axis</button> <button @click=${() => this.setPlotScale('log')}>Draw it on a log axis</button></p>` : nothing;
+  }
+
+  /** The fitted curve's axis choice, stored in the cell (no field for linear, the default), one undo step. */
+  private setPlotScale(scale: PlotScale): void {
+    const { plotScale: _old, ...rest } = this.cell;
+    this.replace(scale === 'log' ? { ...rest, plotScale: 'log' } : rest);
+  }
+
+  /** The fitted curve over the data (linear or log, the cell's choice), and the residuals against time around a zero line (always linear: residuals are signed). */
   private plots(plot: NonNullable<ReportOf<'fit'>['plot']>, r: ReportOf<'fit'>) {
     const res = r.residuals ?? [];
     const unit = res[0]?.residual.unit ?? '';
@@ -89,7 +103,8 @@ export class FitCellElement extends CellElement<'fit'> {
       states: [{ name: 'residual', unit, values: [0, 0] }], events: [], levels: [], marks: [],
     };
     const residualPoints = [{ state: 'residual', t: res.map((x) => x.time.value), values: res.map((x) => x.residual.value) }];
-    return html`<time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${r.summary ?? ''}></time-plot>
+    return html`<time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${r.summary ?? ''} .scale=${this.cell.plotScale === 'log' ? 'log' : 'linear'} scaleToggle
+        @plot-scale=${(e: PlotScaleEvent) => this.setPlotScale(e.detail.scale)}></time-plot>
       <time-plot .plot=${residualPlot} .points=${residualPoints} .floor=${r.residualFloor?.value ?? 0} .summary=${`Residuals (measured minus fitted) against time, in ${unit}.`}></time-plot>`;
   }
 

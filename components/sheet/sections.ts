@@ -53,7 +53,7 @@ export function section(cell: Cell, r: CellReport | undefined, doc: { readonly c
 
 function problems(cell: Cell, r: CellReport, doc: { readonly cells: readonly Cell[] }, report: Report): TemplateResult {
   const errors = r.errors ?? (r.error ? [r.error] : []);
-  const waits = waitedOn(errors).filter((id) => id !== cell.id).map((id) => waitWords(doc, report, id));
+  const waits = waitedOn(errors).filter((id) => id !== cell.id).map((id) => waitWords(doc, report, id, errors));
   const own = errors.filter((e) => e.kind !== 'waits');
   return html`${waits.map((w) => html`<p class="error">Not computed: it ${w}.</p>`)}
     ${own.map((e) => html`<p class="error">Error in ${fieldWords(doc, e.path, false)}: ${problemWords(doc, report, e)}</p>`)}
@@ -201,7 +201,7 @@ function fit(cell: Of<'fit'>, r: ReportOf<'fit'>): TemplateResult {
     <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
     <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, residual SD ${r.residualSD ? showQ(r.residualSD) : residualSdReason(r)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message}).</p>
-    <div class="keep">${plot ? timeChart(plot, r.summary) : nothing}
+    <div class="keep">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log') : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>`;
 }
 

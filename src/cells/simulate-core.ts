@@ -324,7 +324,7 @@ function answer(core: Integrated): Pick<SimulationCore, 'answers' | 'bindings' |
         } else {
           const end = fq.q.to === undefined ? 'the end of the run' : 'the end of the window';
           const message = `not reached: no ${fq.state} ${CROSSING_NOUN[dir]} ${crossingLevel(fq)}${windowText(core, fq)} by ${end} (${describe(timeOf(core, b))})`;
-          reasons.set(fq.name, `"${fq.name}" is not defined: ${message}`);
+          reasons.set(fq.name, `"${fq.name}" was ${message}`);
           answers.push({ find: fq, missing: message });
         }
         break;

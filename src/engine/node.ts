@@ -43,13 +43,26 @@ export interface CellError {
    * For `waits`: where the failure began and its own reason, carried down a chain of waits so
    * that each waiting cell names it once (never the chain of messages). Not in the report.
    */
-  readonly cause?: { readonly cell: string; readonly reason: string };
+  readonly cause?: { readonly cell: string; readonly reason: string; readonly name?: string };
+  /**
+   * For `waits` whose chain ends at a cell with no problem of its own that left a name
+   * undefined (a crossing not reached, a profile result not defined): that cell, the name and
+   * the definer's reason, so the app can say why without reading `message`. In the report.
+   */
+  readonly undefinedName?: UndefinedName;
   /**
    * The message as text and places, when it names another place of the study: `message`
    * writes each place as its path (for the JSON report and the command line), the app and the
    * sheet write it in words (`output/problem-words.ts`).
    */
   readonly parts?: readonly MessagePart[];
+}
+
+/** A name its definer computed without error but left undefined, and why (the definer's words). */
+export interface UndefinedName {
+  readonly cell: string;
+  readonly name: string;
+  readonly reason: string;
 }
 
 /** A note on the whole study (a report warning): its text with paths, and the same as parts for words. */

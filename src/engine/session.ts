@@ -414,7 +414,8 @@ function unavailable(node: GraphNode, name: string, outcome: Outcome, index: num
   }
   const message = (outcome.output as { message?: unknown }).message;
   const reason = outcome.reasons?.get(name) ?? (typeof message === 'string' ? message : `${show(name)} was not computed`);
-  return { kind: 'unavailable', cell: node.cell, reason, root: { cell: node.cell, reason }, sig: `unavailable|${reason}` };
+  // the definer has no problem of its own: the name it left undefined travels with the reason
+  return { kind: 'unavailable', cell: node.cell, reason, root: { cell: node.cell, reason, name }, sig: `unavailable|${reason}` };
 }
 
 /**
@@ -425,7 +426,8 @@ function unavailable(node: GraphNode, name: string, outcome: Outcome, index: num
 function waitsOnCell(cell: string, slot: Unavailable | undefined, path: string): CellError {
   const cause = slot?.root ?? { cell, reason: 'it has not been computed' };
   const message = cause.cell === cell ? `waits on cell "${cell}": ${cause.reason}` : `waits on cell "${cell}" (the cause is in cell "${cause.cell}"): ${cause.reason}`;
-  return { kind: 'waits', waitsOn: cell, message, path, cause };
+  const undefinedName = cause.name !== undefined ? { undefinedName: { cell: cause.cell, name: cause.name, reason: cause.reason } } : {};
+  return { kind: 'waits', waitsOn: cell, message, path, cause, ...undefinedName };
 }
 
 /** Structural equality of plain JSON-like values (reports): cheaper than comparing their JSON. */

@@ -32,7 +32,7 @@ export interface Unavailable {
    * Where the failure began (the definer's cell, or the cell its chain of waits ends at) and
    * that cell's own reason: a cell waiting on this one names it once.
    */
-  readonly root: { readonly cell: string; readonly reason: string };
+  readonly root: { readonly cell: string; readonly reason: string; readonly name?: string };
   readonly sig: string;
 }
 

@@ -17,17 +17,19 @@ export type ReportsOf = { readonly cells: ReadonlyArray<Pick<CellReport, 'id' | 
  * `fieldWords` before it). A wait is said as `waitWords` says it.
  */
 export function problemWords(study: CellsOf, report: ReportsOf, error: CellError): string {
-  if (error.kind === 'waits' && error.waitsOn !== undefined) return waitWords(study, report, error.waitsOn);
+  if (error.kind === 'waits' && error.waitsOn !== undefined) return waitWords(study, report, error.waitsOn, [error]);
   return error.parts ? partsWords(study, error.parts) : error.message;
 }
 
 /**
  * A wait in words: `waits on Parameters "b", which waits on Parameters "a": parameter "k",
  * value: unknown name "kk"` (the place of the problem within the last cell named). Follows the cells waited on to the first with a problem of its
- * own and says that problem with its place; a cell waited on whose report is ok (a value it
- * did not reach) is named alone. Cost: linear in the cells.
+ * own and says that problem with its place. A chain that ends at a cell with no problem of its
+ * own (a name it left undefined: a crossing not reached) ends with that cell's reason, taken
+ * from the `undefinedName` of the waiting cell's `errors` (the data the engine carries down the
+ * chain); without them the cell is named alone. Cost: linear in the cells.
  */
-export function waitWords(study: CellsOf, report: ReportsOf, cellId: string): string {
+export function waitWords(study: CellsOf, report: ReportsOf, cellId: string, waiting: readonly CellError[] = []): string {
   const chain: string[] = [];
   const seen = new Set<string>();
   let id: string | undefined = cellId;
@@ -40,7 +42,9 @@ export function waitWords(study: CellsOf, report: ReportsOf, cellId: string): st
     if (own) return `waits on ${chain.join(', which waits on ')}: ${fieldWords(study, own.path, false)}: ${problemWords(study, report, own)}`;
     id = errors.find((e) => e.waitsOn !== undefined)?.waitsOn;
   }
-  return `waits on ${chain.join(', which waits on ')}`;
+  const last = [...seen].pop();
+  const why = waiting.find((e) => e.waitsOn === cellId && e.undefinedName?.cell === last)?.undefinedName;
+  return `waits on ${chain.join(', which waits on ')}${why ? `: ${why.reason}` : ''}`;
 }
 
 /** A message's parts in words: each place as `fieldWords` says it (a report warning's `warningParts`). */

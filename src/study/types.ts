@@ -107,6 +107,11 @@ export interface FitCell extends CellBase {
   observe: Record<string, string>;
   estimate: FitEstimate[];
   weighting?: (typeof WEIGHTINGS)[number];
+  /**
+   * How the fitted curve's state axis is drawn (optional, a Ratebook display field), as a
+   * simulate cell's `plotScale`; the residual plot stays linear (residuals are signed).
+   */
+  plotScale?: PlotScale;
 }
 
 export const ROUTES = ['iv-bolus', 'infusion', 'extravascular'] as const;

@@ -151,6 +151,7 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
       p.ids(c, 'rates');
       p.id(c, 'data');
       p.text(c, 'time');
+      p.oneOf(c, 'plotScale', PLOT_SCALES, true);
       if (p.object(c.observe, 'observe')) {
         const entries = Object.entries(c.observe);
         if (entries.length === 0) p.add(`${at}.observe`, 'must name at least one state and its data column');

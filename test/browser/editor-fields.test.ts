@@ -42,7 +42,7 @@ export const EVERY_FIELD: Study = {
     { id: 'd', kind: 'data', title: 'Levels', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[1, 7.4], [2, 5.5], [4, 3.0], [8, 0.9]] },
     { id: 'd2', kind: 'data', title: 'Pasted', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], csv: 't,C\n1,7.4\n2,5.5\n4,3.0\n' },
     { id: 'f', kind: 'fit', title: 'Fit', rates: ['cb'], data: 'd', time: 't', observe: { Cb: 'C' },
-      estimate: [{ parameter: 'kb', as: 'kb_hat', guess: '0.2 / h', min: '0.01 / h', max: '1 / h', unit: '1 / d' }], weighting: 'relative' },
+      estimate: [{ parameter: 'kb', as: 'kb_hat', guess: '0.2 / h', min: '0.01 / h', max: '1 / h', unit: '1 / d' }], weighting: 'relative', plotScale: 'log' },
     { id: 'n', kind: 'nca', title: 'Profile', data: 'd', time: 't', concentration: 'C', dose: '500 mg', route: 'infusion', duration: '0.5 h',
       auc: 'linear', terminal: 3, prefix: 'p_', units: { CL: 'mL / min' } },
     { id: 'm', kind: 'note', title: 'About', text: 'Every field once, with invented numbers.' },

@@ -47,6 +47,17 @@ describe('messages in words', () => {
     for (const t of said) expect(t).to.not.match(/cells\[|\.items\[/);
   });
 
+  it('a wait on a name its cell left undefined says why: a crossing not reached by the end of the run', async () => {
+    // hand-worked (invented numbers): T = 4 degC + 70 degC · exp(-0.35/h · t) is 38.76 degC at 2 h, still above 21 degC
+    const cells = [
+      { id: 'cool', kind: 'rate', state: 'T', unit: 'degC', initial: '74 degC', rate: '-0.35 / h * (T - 4 degC)' },
+      { id: 'run', kind: 'simulate', title: 'Cooling', rates: ['cool'], from: '0 h', to: '2 h', find: [{ name: 't_21', crossing: 'T', level: '21 degC', direction: 'down' }] },
+      { id: 'hold', kind: 'parameters', items: [{ name: 'discard', value: 't_21 + 1 h' }] },
+    ];
+    const el = await mount('parameters-cell', cells, 'hold');
+    expect(foot(el)).to.deep.equal(['Waits on Run "Cooling": "t_21" was not reached: no T falling through 21 degC by the end of the run (2 h).']);
+  });
+
   it('an error the fields do not show names its place in words at the cell\'s foot', async () => {
     const law = { id: 'drug', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-k * C', initial: '10 mg / L' };
     const data = { id: 'logger', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, 10], [1, 6], [2, 3.7]] };

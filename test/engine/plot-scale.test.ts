@@ -47,3 +47,33 @@ describe('simulate plotScale (a display field)', () => {
     assert.deepEqual(b.summary, a.summary);
   });
 });
+
+// The fit cell's `plotScale` (docs/study-format.md, "Fit: how this version answers"): the same
+// two values; the estimates are the same with and without it (an identity).
+describe('fit plotScale (a display field)', () => {
+  const data = { id: 'logger', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'T', unit: 'degC' }], rows: [[1, 56.3], [2, 43.8], [4, 28.4]] };
+  const fit = (extra: Record<string, unknown>) => ({ id: 'fit', kind: 'fit', rates: ['cooling'], data: 'logger', time: 't', observe: { T: 'T' },
+    estimate: [{ parameter: 'T', as: 'T0_hat', guess: '70 degC' }], ...extra });
+  const fitStudy = (extra: Record<string, unknown>) => ({ format: 'ratebook-study', version: 1, title: 'fit scale', cells: [rate, data, fit(extra)] });
+  const fitProblems = (extra: Record<string, unknown>) => {
+    const read = readStudy(fitStudy(extra));
+    assert.ok(read.ok);
+    return [...read.cellProblems.values()].flat().map((p) => [p.path, p.message]);
+  };
+
+  it('accepts "linear", "log" and no field, and refuses anything else on cells[i].plotScale', () => {
+    assert.deepEqual(fitProblems({}), []);
+    assert.deepEqual(fitProblems({ plotScale: 'linear' }), []);
+    assert.deepEqual(fitProblems({ plotScale: 'log' }), []);
+    assert.deepEqual(fitProblems({ plotScale: 'semilog' }), [['cells[2].plotScale', 'must be one of linear, log, not "semilog"']]);
+  });
+
+  it('changes no estimate the fit reports', () => {
+    const plain = runStudy(fitStudy({}));
+    const log = runStudy(fitStudy({ plotScale: 'log' }));
+    assert.ok(plain.ok && log.ok);
+    const cellOf = (r: typeof plain) => (r.ok ? r.report.cells.find((c) => c.id === 'fit') : undefined) as unknown as Record<string, unknown>;
+    assert.equal(cellOf(log).ok, true);
+    assert.deepEqual(cellOf(log).estimates, cellOf(plain).estimates);
+  });
+});

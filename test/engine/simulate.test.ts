@@ -57,7 +57,7 @@ describe('Newton cooling', () => {
     const never = (r.report.cells[2].results as Record<string, any>).never;
     assert.equal(never.notReached, true);
     assert.match(never.message, /not reached: no T crossing 2 degC by the end of the run \(10 h\)/);
-    assert.match(r.report.cells[3].error!.message, /waits on cell "run": "never" is not defined: not reached/);
+    assert.match(r.report.cells[3].error!.message, /waits on cell "run": "never" was not reached: no T crossing 2 degC/);
     const cs = cells();
     (cs[2] as Record<string, unknown>).find = [{ name: 'low', crossing: 'T', level: '-40 degC', direction: 'down' }];
     const down = runStudy({ format: 'ratebook-study', version: 1, title: 't', cells: cs });

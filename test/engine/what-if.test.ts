@@ -170,12 +170,12 @@ describe('what-if: no answer, and why', () => {
     assert.ok(!t40.ok && t2h.ok && !margin.ok);
     const own = results(session, 'run').t_40 as { notReached: boolean; message: string };
     assert.ok(own.notReached);
-    assert.equal(t40.reason, `"t_40" is not defined: ${own.message}`);
+    assert.equal(t40.reason, `"t_40" was ${own.message}`);
     assert.match(t40.reason, /not reached: no T falling through 40 degC by the end of the run/);
     assert.ok(Number.isNaN(r.values[0]));
     // the parameter reading it waits on the run, in the session's own words
     assert.equal(margin.reason, session.report().cells[3].error!.message);
-    assert.match(margin.reason, /^waits on cell "run": "t_40" is not defined/);
+    assert.match(margin.reason, /^waits on cell "run": "t_40" was not reached/);
     // and back: a reachable value answers again
     assert.ok(w.evaluate([293.15]).ok);
   });
