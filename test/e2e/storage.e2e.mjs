@@ -47,11 +47,11 @@ async function openPage(context, hash = '') {
 async function newBlankStudy(page) {
   await page.locator('button.template').first().click({ timeout: STEP });
   await page.waitForURL(/#\/study\//, { timeout: STEP });
-  await page.locator('input.title').waitFor({ timeout: STEP });
+  await page.locator('textarea.title').waitFor({ timeout: STEP });
   return new URL(page.url()).hash;
 }
 
-const titleOf = (page) => page.locator('input.title').inputValue({ timeout: STEP });
+const titleOf = (page) => page.locator('textarea.title').inputValue({ timeout: STEP });
 const statusOf = (page) => page.locator('span.status').textContent({ timeout: STEP });
 
 async function waitForText(page, selector, text, what) {
@@ -78,7 +78,7 @@ async function editThenLeave(mode) {
   const hash = await newBlankStudy(page);
   for (const ms of [0, 50, 200]) {
     const title = `Kept after ${mode} at ${ms} ms`;
-    await page.locator('input.title').fill(title);
+    await page.locator('textarea.title').fill(title);
     if (ms) await page.waitForTimeout(ms);
     if (mode === 'reload') await page.reload();
     else if (ms === 0) {
@@ -89,7 +89,7 @@ async function editThenLeave(mode) {
       await context.newPage();
     }
     page = await openPage(context, hash);
-    await page.locator('input.title').waitFor({ timeout: STEP });
+    await page.locator('textarea.title').waitFor({ timeout: STEP });
     const shown = await titleOf(page);
     if (shown !== title) fail(`${mode} ${ms} ms after an edit: the title is "${shown}", not the edited "${title}"`);
     noErrors(page, `${mode} at ${ms} ms`);
@@ -104,30 +104,30 @@ async function twoTabs() {
   const b = await context.newPage();
   b.on('dialog', (d) => void d.accept());
   await b.goto(url + hash);
-  await b.locator('input.title').waitFor({ timeout: STEP });
-  await a.locator('input.title').fill('Title typed in tab A');
+  await b.locator('textarea.title').waitFor({ timeout: STEP });
+  await a.locator('textarea.title').fill('Title typed in tab A');
   await waitForText(a, 'span.status', 'saved', 'tab A after its edit');
   await a.waitForFunction(() => !localStorage.length, undefined, { timeout: STEP }); // A's save landed: its journal is empty
-  await b.locator('input.title').fill('Title typed in tab B');
+  await b.locator('textarea.title').fill('Title typed in tab B');
   await waitForText(b, '.conflict', 'saved elsewhere', 'tab B, whose study was saved in tab A');
   await b.locator('button[data-choice="newer"]').waitFor({ timeout: STEP });
   await b.locator('button[data-choice="copy"]').click();
   await b.waitForURL((u) => u.hash !== hash, { timeout: STEP });
-  await b.locator('input.title').waitFor({ timeout: STEP });
+  await b.locator('textarea.title').waitFor({ timeout: STEP });
   if (!(await titleOf(b)).startsWith('Title typed in tab B')) fail(`tab B's copy is titled "${await titleOf(b)}"`);
   await a.reload();
-  await a.locator('input.title').waitFor({ timeout: STEP });
+  await a.locator('textarea.title').waitFor({ timeout: STEP });
   if ((await titleOf(a)) !== 'Title typed in tab A') fail(`tab A's study was overwritten: "${await titleOf(a)}"`);
   // The other choice: tab B, stale again, takes the newer version.
   const c = await context.newPage();
   await c.goto(url + hash);
-  await c.locator('input.title').waitFor({ timeout: STEP });
-  await a.locator('input.title').fill('Second title from tab A');
+  await c.locator('textarea.title').waitFor({ timeout: STEP });
+  await a.locator('textarea.title').fill('Second title from tab A');
   await waitForText(a, 'span.status', 'saved', 'tab A after its second edit');
-  await c.locator('input.title').fill('Stale edit in tab C');
+  await c.locator('textarea.title').fill('Stale edit in tab C');
   await c.locator('button[data-choice="newer"]').click({ timeout: STEP });
   await c.waitForFunction(() => !document.querySelector('ratebook-app').shadowRoot.querySelector('.conflict'), undefined, { timeout: STEP });
-  await c.locator('input.title').waitFor({ timeout: STEP });
+  await c.locator('textarea.title').waitFor({ timeout: STEP });
   const shown = await titleOf(c);
   if (shown !== 'Second title from tab A') fail(`tab C chose the newer version but shows "${shown}"`);
   noErrors(a, 'tab A');
@@ -170,7 +170,7 @@ async function quotaThenRecovery() {
     window.realPut = IDBObjectStore.prototype.put;
     IDBObjectStore.prototype.put = function () { throw new DOMException('stubbed full disk', 'QuotaExceededError'); };
   });
-  await page.locator('input.title').fill('Written while the disk is full');
+  await page.locator('textarea.title').fill('Written while the disk is full');
   await waitForText(page, 'span.status', 'could not save', 'a save on a full disk');
   await waitForText(page, '.save-error', 'no more storage space', 'the quota message');
   const says = await page.locator('.save-error').textContent();
@@ -179,7 +179,7 @@ async function quotaThenRecovery() {
   await waitForText(page, '.notice', 'stored now', 'saving after space returned');
   await waitForText(page, 'span.status', 'saved', 'the status after space returned');
   await page.reload();
-  await page.locator('input.title').waitFor({ timeout: STEP });
+  await page.locator('textarea.title').waitFor({ timeout: STEP });
   if ((await titleOf(page)) !== 'Written while the disk is full') fail('the edit made on a full disk was not stored after recovery');
   // Creating a study on a full disk says so on the page.
   await page.goto(`${url}#/`);
@@ -197,7 +197,7 @@ async function damagedRecords() {
   const page = await openPage(context);
   for (const t of ['Sound study one', 'Sound study two']) {
     await newBlankStudy(page);
-    await page.locator('input.title').fill(t);
+    await page.locator('textarea.title').fill(t);
     await waitForText(page, 'span.status', 'saved', `saving "${t}"`);
     await page.goto(`${url}#/`);
   }
@@ -239,7 +239,7 @@ async function damagedRecords() {
   await page.goto(`${url}#/study/brokendoc`);
   await waitForText(page, 'ratebook-app .problem', 'damaged', 'opening a damaged study');
   await lib.locator('li a', { hasText: 'Sound study one' }).click({ timeout: STEP });
-  await page.locator('input.title').waitFor({ timeout: STEP });
+  await page.locator('textarea.title').waitFor({ timeout: STEP });
   if ((await titleOf(page)) !== 'Sound study one') fail('a sound study did not open beside the damaged ones');
   noErrors(page, 'damaged records');
   await context.close();
