@@ -5,13 +5,14 @@ import './study-library.ts';
 import { loadSheet } from './sheet/load.ts';
 import { StudySaving } from './study-saving.ts';
 import { replayJournals } from './journal.ts';
+import { listen, type SaveNews } from './save-news.ts';
 
 /**
  * The app shell: the library of studies (#/) and one open study (#/study/<id>), with export
  * and print. Routing by the address's hash, so a reload comes back to the same place.
  */
 export class RatebookApp extends LitElement {
-  static override properties = { route: { state: true }, problem: { state: true }, notice: { state: true }, conflict: { state: true }, saveProblem: { state: true }, ready: { state: true } };
+  static override properties = { route: { state: true }, problem: { state: true }, notice: { state: true }, conflict: { state: true }, elsewhere: { state: true }, saveProblem: { state: true }, ready: { state: true } };
   /** False until the journal has been replayed: the library lists studies only after it. */
   ready = false;
   route: { page: 'library' } | { page: 'study'; id: string; sheet: boolean } = { page: 'library' };
@@ -20,11 +21,14 @@ export class RatebookApp extends LitElement {
   notice?: string;
   /** The open study was saved elsewhere: what happened, until the user chooses. */
   conflict?: string;
+  /** The open study, with no unsaved changes here, was saved in another tab: said until the user chooses. */
+  elsewhere?: string;
   /** Why the open study's last save failed, until a save succeeds. */
   saveProblem?: string;
   private view?: StudyView;
   private saving?: StudySaving;
   private replayed?: Promise<void>;
+  private unlisten?: () => void;
 
   static override styles = css`
     :host { display: block; font-family: system-ui, -apple-system, 'Segoe UI', sans-serif; color: #1c2329; background: #f2f4f6; min-height: 100vh; }
@@ -53,6 +57,7 @@ export class RatebookApp extends LitElement {
     window.addEventListener('pagehide', this.flush);
     window.addEventListener('beforeunload', this.guard);
     document.addEventListener('visibilitychange', this.flush);
+    this.unlisten = listen(this.heard);
     void this.navigate();
   }
 
@@ -73,6 +78,24 @@ export class RatebookApp extends LitElement {
       .finally(() => { this.ready = true; }));
   }
 
+  /**
+   * Another tab changed a study. When it is the open one and its revision is newer than the
+   * one this page is based on: with no unsaved changes here, the page says so and offers the
+   * newer version (what is shown stays until the user chooses); with unsaved changes, the two
+   * choices of a refused save are offered at once (this page's save would be refused).
+   */
+  private heard = (news: SaveNews) => {
+    const saving = this.saving;
+    if (this.route.page !== 'study' || news.id !== this.route.id || !saving || !this.view) return;
+    if (news.revision === undefined || news.revision <= saving.base || this.conflict) return;
+    if (this.view.controller.saveState === 'saved') {
+      this.elsewhere = `This study was changed in another tab (revision ${news.revision} is stored; this page shows revision ${saving.base}).`;
+    } else {
+      this.elsewhere = undefined;
+      this.conflict = `This study was saved in another tab (revision ${news.revision}) while this page has changes not yet saved (made on revision ${saving.base}). Nothing was overwritten.`;
+    }
+  };
+
   /** Saves the open study now: the page may be closing or going to the background. */
   private flush = () => {
     void this.view?.controller.flush();
@@ -83,6 +106,7 @@ export class RatebookApp extends LitElement {
     window.removeEventListener('pagehide', this.flush);
     window.removeEventListener('beforeunload', this.guard);
     document.removeEventListener('visibilitychange', this.flush);
+    this.unlisten?.();
     super.disconnectedCallback();
   }
 
@@ -99,6 +123,7 @@ export class RatebookApp extends LitElement {
     }
     if (this.view && !this.conflict) await this.view.controller.flush();
     this.conflict = undefined;
+    this.elsewhere = undefined;
     this.saveProblem = undefined;
     if (!m || id === undefined) {
       this.view = undefined;
@@ -126,7 +151,7 @@ export class RatebookApp extends LitElement {
         this.saveProblem = undefined;
         if (recovered) this.notice = 'Saved: the changes that could not be stored before are stored now.';
       },
-      conflict: (message) => { this.conflict = message; },
+      conflict: (message) => { this.conflict = message; this.elsewhere = undefined; },
       failed: (message) => { this.saveProblem = message; },
     });
     const view = StudyView.create({ save: saving.save, journal: saving.journal, retry: saving.retry });
@@ -156,6 +181,9 @@ export class RatebookApp extends LitElement {
         ${this.conflict ? html`<div class="conflict" role="alert"><p>${this.conflict} Choose which version to keep:</p>
           <button data-choice="newer" @click=${this.takeNewer}>Open the newer version (drop the changes made here)</button>
           <button data-choice="copy" @click=${this.keepCopy}>Keep the changes made here as a new study</button></div>` : nothing}
+        ${this.elsewhere && !this.conflict ? html`<div class="conflict elsewhere" role="alert"><p>${this.elsewhere} This page still shows the version it opened.</p>
+          <button data-choice="newer" @click=${this.takeNewer}>Open the newer version</button>
+          <button data-choice="stay" @click=${() => { this.elsewhere = undefined; }}>Keep looking at this one</button></div>` : nothing}
         ${this.route.page === 'study' && this.saveProblem && !this.conflict
           ? html`<p class="problem save-error" role="alert">${this.saveProblem} Your changes are kept on this page${this.saving?.journaled ? ' and on this device' : ''}, and saving is tried again by itself.</p>` : nothing}
         ${this.route.page === 'study' ? this.view : this.ready ? html`<study-library></study-library>` : nothing}

@@ -17,6 +17,7 @@
 import { createStore, promisifyRequest, type UseStore } from 'idb-keyval';
 import { readStudy, type Study } from '../src/index.ts';
 import { metaProblem, docProblem, damaged, keyId, type DamagedStudy } from './store-records.ts';
+import { announced, type SaveNews } from './save-news.ts';
 
 export type { DamagedStudy } from './store-records.ts';
 
@@ -395,6 +396,8 @@ export function studyFileName(title: string | undefined): string {
 }
 
 let appStore: StudyStore | undefined;
+/** The news of a change that gives a revision (see `save-news.ts`: the app's store announces each change it makes). */
+const info = (i: StudyInfo): SaveNews => ({ id: i.id, revision: i.revision });
 /** The app's store (database "ratebook", object store "studies"), opened on first use. */
 function app(): StudyStore {
   return (appStore ??= createStudyStore());
@@ -405,24 +408,24 @@ export function listStudies(): Promise<StudySummary[]> { return app().listStudie
 /** {@link StudyStore.loadStudy} on the app's store. */
 export function loadStudy(id: string): Promise<StoredStudy | undefined> { return app().loadStudy(id); }
 /** {@link StudyStore.saveStudy} on the app's store. */
-export function saveStudy(id: string, doc: Study, expectedRevision?: number): Promise<StudyInfo> { return app().saveStudy(id, doc, expectedRevision); }
+export function saveStudy(id: string, doc: Study, expectedRevision?: number): Promise<StudyInfo> { return announced(app().saveStudy(id, doc, expectedRevision), info); }
 /** {@link StudyStore.createStudy} on the app's store. */
-export function createStudy(doc?: Study): Promise<StudyInfo> { return app().createStudy(doc); }
+export function createStudy(doc?: Study): Promise<StudyInfo> { return announced(app().createStudy(doc), info); }
 /** {@link StudyStore.renameStudy} on the app's store. */
-export function renameStudy(id: string, title: string): Promise<StudyInfo> { return app().renameStudy(id, title); }
+export function renameStudy(id: string, title: string): Promise<StudyInfo> { return announced(app().renameStudy(id, title), info); }
 /** {@link StudyStore.duplicateStudy} on the app's store. */
-export function duplicateStudy(id: string): Promise<StudyInfo> { return app().duplicateStudy(id); }
+export function duplicateStudy(id: string): Promise<StudyInfo> { return announced(app().duplicateStudy(id), info); }
 /** {@link StudyStore.deleteStudy} on the app's store. */
-export function deleteStudy(id: string): Promise<TrashedStudy> { return app().deleteStudy(id); }
+export function deleteStudy(id: string): Promise<TrashedStudy> { return announced(app().deleteStudy(id), () => ({ id })); }
 /** {@link StudyStore.restoreStudy} on the app's store. */
-export function restoreStudy(id: string): Promise<StudyInfo> { return app().restoreStudy(id); }
+export function restoreStudy(id: string): Promise<StudyInfo> { return announced(app().restoreStudy(id), info); }
 /** {@link StudyStore.listTrash} on the app's store. */
 export function listTrash(): Promise<TrashedStudy[]> { return app().listTrash(); }
 /** {@link StudyStore.purgeTrash} on the app's store. */
-export function purgeTrash(olderThanMs: number): Promise<string[]> { return app().purgeTrash(olderThanMs); }
+export function purgeTrash(olderThanMs: number): Promise<string[]> { return announced(app().purgeTrash(olderThanMs), (ids) => ids.map((id) => ({ id }))); }
 /** {@link StudyStore.listDamaged} on the app's store. */
 export function listDamaged(): Promise<DamagedStudy[]> { return app().listDamaged(); }
 /** {@link StudyStore.removeStudy} on the app's store. */
-export function removeStudy(id: string): Promise<void> { return app().removeStudy(id); }
+export function removeStudy(id: string): Promise<void> { return announced(app().removeStudy(id), () => ({ id })); }
 /** {@link StudyStore.importStudy} on the app's store. */
-export function importStudy(text: string): Promise<ImportResult> { return app().importStudy(text); }
+export function importStudy(text: string): Promise<ImportResult> { return announced(app().importStudy(text), (r) => (r.ok ? { id: r.id } : undefined)); }

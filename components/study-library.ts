@@ -2,6 +2,7 @@ import { LitElement, html, css, nothing } from 'lit';
 import * as store from './store.ts';
 import type { DamagedStudy, StudySummary, TrashedStudy } from './store.ts';
 import { TEMPLATES } from './templates.ts';
+import { listen } from './save-news.ts';
 import type { Study } from '../src/index.ts';
 
 /** The home page: the studies kept on this device, new ones (blank or from a template), import, and the trash. */
@@ -43,9 +44,18 @@ export class StudyLibrary extends LitElement {
     .empty { color: #56616b; }
   `;
 
+  private unlisten?: () => void;
+
   override connectedCallback(): void {
     super.connectedCallback();
+    // a study saved, created or deleted in another tab: the lists are read again at once
+    this.unlisten = listen(() => void this.refresh());
     void this.refresh();
+  }
+
+  override disconnectedCallback(): void {
+    this.unlisten?.();
+    super.disconnectedCallback();
   }
 
   /** Reads the lists again; a storage failure is said on the page, and what could be read is shown. */

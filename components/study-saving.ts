@@ -27,6 +27,11 @@ export class StudySaving {
 
   constructor(private readonly id: string, private revision: number, private readonly events: SavingEvents) {}
 
+  /** The stored revision this page's study is based on (its last save, or the one it opened). */
+  get base(): number {
+    return this.revision;
+  }
+
   /** The journal: called on every edit, before anything else. */
   journal = (id: string, doc: Study): void => {
     this.seq++;

@@ -1,6 +1,6 @@
 // End to end: saving that survives the page. An edit is kept when the page is reloaded or
 // closed 0, 50 or 200 ms after it; a tab whose study was saved in another tab is refused and
-// offered the two choices; a storage quota error (stubbed in the page) is said in words and
+// offered the two choices; tabs hear each other's saves at once; a storage quota error (stubbed in the page) is said in words and
 // saving recovers by itself when space returns; damaged records are listed as damaged while
 // the other studies open normally.
 //
@@ -139,6 +139,34 @@ async function twoTabs() {
   await context.close();
 }
 
+/**
+ * Tabs hear each other's saves as they happen: tab B, with the study open and no edits, says
+ * it changed in tab A without replacing what it shows, and opens the newer version on request;
+ * a third tab on the library lists A's new title without a reload.
+ */
+async function tabsHearSaves() {
+  const context = await launch(newProfile());
+  const a = await openPage(context);
+  const hash = await newBlankStudy(a);
+  const b = await context.newPage();
+  await b.goto(url + hash);
+  await b.locator('textarea.title').waitFor({ timeout: STEP });
+  const before = await titleOf(b);
+  const lib = await context.newPage();
+  await lib.goto(url);
+  await lib.locator('study-library li', { hasText: before }).first().waitFor({ timeout: STEP });
+  await a.locator('textarea.title').fill('Saved in tab A');
+  await waitForText(b, '.elsewhere', 'changed in another tab', 'tab B, after tab A saved');
+  if ((await titleOf(b)) !== before) fail(`tab B replaced what it showed without a choice: "${await titleOf(b)}"`);
+  await waitForText(lib, 'study-library li', 'Saved in tab A', 'the library tab, after tab A saved');
+  await b.locator('.elsewhere button[data-choice="newer"]').click({ timeout: STEP });
+  await b.waitForFunction(() => !document.querySelector('ratebook-app').shadowRoot.querySelector('.elsewhere'), undefined, { timeout: STEP });
+  await b.locator('textarea.title').waitFor({ timeout: STEP });
+  if ((await titleOf(b)) !== 'Saved in tab A') fail(`tab B chose the newer version but shows "${await titleOf(b)}"`);
+  noErrors(a, 'tab A');
+  await context.close();
+}
+
 async function quotaThenRecovery() {
   const context = await launch(newProfile());
   const page = await openPage(context);
@@ -230,7 +258,7 @@ async function main() {
   const started = Date.now();
   try {
     for (const [what, run] of [['reload after an edit', () => editThenLeave('reload')], ['close after an edit', () => editThenLeave('close')],
-      ['two tabs', twoTabs], ['quota error then recovery', quotaThenRecovery], ['damaged records', damagedRecords]]) {
+      ['two tabs', twoTabs], ['tabs hear saves', tabsHearSaves], ['quota error then recovery', quotaThenRecovery], ['damaged records', damagedRecords]]) {
       if (process.env.STORAGE_E2E_ONLY && !what.includes(process.env.STORAGE_E2E_ONLY)) continue; // to run one group while working
       const t = Date.now();
       await run();

@@ -1,0 +1,110 @@
+// Tabs learning of each other's saves: the page's own end of the BroadcastChannel
+// `ratebook-saves` and a second end opened by the test in the same page stand for two tabs.
+// Expected behaviour is the project's own contract for saving (components/save-news.ts,
+// components/app.ts): news of a newer revision of the open study is said, and nothing the user
+// sees is replaced until they choose.
+import { expect } from 'chai';
+import '../../components/app.ts';
+import * as store from '../../components/store.ts';
+import { SAVES_CHANNEL, listen, type SaveNews } from '../../components/save-news.ts';
+import type { StudyView } from '../../components/study-view.ts';
+import type { Study } from '../../src/index.ts';
+import { until } from './helpers.ts';
+
+const study = (title: string): Study => ({ format: 'ratebook-study', version: 1, title, cells: [] });
+
+let other: BroadcastChannel;
+beforeEach(() => { other = new BroadcastChannel(SAVES_CHANNEL); });
+afterEach(() => {
+  other.close();
+  document.querySelectorAll('ratebook-app').forEach((a) => a.remove());
+  location.hash = '';
+});
+
+/** Opens the app on a study and waits for its view. */
+async function openApp(id: string) {
+  location.hash = `#/study/${encodeURIComponent(id)}`;
+  const app = document.createElement('ratebook-app');
+  document.body.append(app);
+  const view = await until(() => app.shadowRoot!.querySelector('study-view') as StudyView | null, 'the study view', 8000);
+  await until(() => view.controller.study !== undefined, 'the open study', 8000);
+  return { app, view, root: app.shadowRoot! };
+}
+
+describe('save news between tabs', () => {
+  it('announces each save of the app store with the study and its new revision, to other ends only', async () => {
+    const heard: SaveNews[] = [];
+    other.onmessage = (e) => heard.push(e.data as SaveNews);
+    const ownEnd: SaveNews[] = [];
+    const stop = listen((n) => ownEnd.push(n));
+    const { id } = await store.createStudy(study('announced'));
+    const saved = await store.saveStudy(id, study('announced, saved'), 1);
+    await until(() => heard.length >= 2, 'two announcements');
+    expect(heard).to.deep.equal([{ id, revision: 1 }, { id, revision: saved.revision }]);
+    expect(saved.revision).to.equal(2);
+    expect(ownEnd, 'the page that saved does not hear itself').to.deep.equal([]);
+    // what another end says is heard; anything that is not news is ignored
+    other.postMessage({ id: 'x', revision: 'many' });
+    other.postMessage('hello');
+    other.postMessage({ id: 'y', revision: 7 });
+    await until(() => ownEnd.length >= 1, 'the news from the other end');
+    await new Promise((r) => setTimeout(r, 50));
+    stop();
+    expect(ownEnd).to.deep.equal([{ id: 'y', revision: 7 }]);
+  });
+
+  it('with no unsaved changes: says the study changed elsewhere, keeps what is shown, opens the newer one on request', async () => {
+    const { id } = await store.createStudy(study('Opened here'));
+    const { root, view } = await openApp(id);
+    // another tab saves revision 2 and says so
+    await store.saveStudy(id, study('Saved in the other tab'), 1);
+    other.postMessage({ id, revision: 2 });
+    const box = await until(() => root.querySelector('.elsewhere'), 'the news of the other save');
+    expect(box.textContent).to.contain('changed in another tab (revision 2 is stored; this page shows revision 1)');
+    expect(view.controller.study?.title, 'nothing replaced without a choice').to.equal('Opened here');
+    // news of another study, or of an older revision, says nothing new
+    (box.querySelector('button[data-choice="stay"]') as HTMLButtonElement).click();
+    other.postMessage({ id: 'another-study', revision: 9 });
+    other.postMessage({ id, revision: 1 });
+    await new Promise((r) => setTimeout(r, 100));
+    expect(root.querySelector('.elsewhere')).to.equal(null);
+    other.postMessage({ id, revision: 2 });
+    const again = await until(() => root.querySelector('.elsewhere'), 'the news again');
+    (again.querySelector('button[data-choice="newer"]') as HTMLButtonElement).click();
+    await until(() => (root.querySelector('study-view') as StudyView | null)?.controller.study?.title === 'Saved in the other tab', 'the newer version');
+    expect(root.querySelector('.elsewhere')).to.equal(null);
+  });
+
+  it('with unsaved changes: offers the two choices at once, and the stale save overwrites nothing', async () => {
+    const { id } = await store.createStudy(study('Opened here'));
+    const { root, view } = await openApp(id);
+    view.controller.edit({ type: 'retitle', title: 'Typed here, not yet saved' });
+    expect(view.controller.saveState).to.not.equal('saved');
+    await store.saveStudy(id, study('Saved in the other tab'), 1);
+    other.postMessage({ id, revision: 2 });
+    const box = await until(() => root.querySelector('.conflict:not(.elsewhere)'), 'the two choices');
+    expect(box.textContent).to.contain('saved in another tab (revision 2) while this page has changes not yet saved');
+    expect(box.querySelector('button[data-choice="newer"]')).to.not.equal(null);
+    expect(box.querySelector('button[data-choice="copy"]')).to.not.equal(null);
+    expect(view.controller.study?.title).to.equal('Typed here, not yet saved');
+    await until(() => view.controller.saveState === 'error', 'the refused save', 8000);
+    expect((await store.loadStudy(id))?.doc.title).to.equal('Saved in the other tab');
+  });
+});
+
+describe('the library', () => {
+  it('reads its list again when a study is saved in another tab', async () => {
+    const { id } = await store.createStudy(study('Listed before'));
+    location.hash = '#/';
+    const app = document.createElement('ratebook-app');
+    document.body.append(app);
+    const library = await until(() => app.shadowRoot!.querySelector('study-library'), 'the library', 8000);
+    await until(() => library.shadowRoot?.textContent?.includes('Listed before'), 'the first listing', 8000);
+    // another tab renames the study (its own store object on the app's database, which says nothing here)
+    await store.createStudyStore().renameStudy(id, 'Renamed in the other tab');
+    await new Promise((r) => setTimeout(r, 100));
+    expect(library.shadowRoot?.textContent, 'no news, no new listing').to.contain('Listed before');
+    other.postMessage({ id, revision: 2 });
+    await until(() => library.shadowRoot?.textContent?.includes('Renamed in the other tab'), 'the list read again', 8000);
+  });
+});
