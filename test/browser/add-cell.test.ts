@@ -8,17 +8,10 @@ import { KINDS, ADDABLE } from '../../components/cells/registry.ts';
 import type { Study } from '../../src/index.ts';
 import falling from '../../examples/falling-body-drag.ratebook.json';
 import plasma from '../../examples/plasma-levels.ratebook.json';
+import { mountStudy } from './mount-study.ts';
 import { deep, until } from './helpers.ts';
 
-async function mount(doc: unknown): Promise<StudyView> {
-  const view = StudyView.create();
-  document.body.append(view);
-  const answered = new Promise<void>((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
-  view.controller.open('test', structuredClone(doc) as Study);
-  await answered;
-  await view.updateComplete;
-  return view;
-}
+const mount = mountStudy;
 
 /** The element that has focus, looked for through shadow roots. */
 function focused(): Element | null {

@@ -9,18 +9,11 @@ import type { ExprField } from '../../components/expr-field.ts';
 import type { TimePlot } from '../../components/plots/time-plot.ts';
 import type { Study } from '../../src/index.ts';
 import plasma from '../../examples/plasma-levels.ratebook.json';
+import { mountStudy } from './mount-study.ts';
 import { deep, until } from './helpers.ts';
 import { viewOf } from './expr-field-helpers.ts';
 
-async function mount(doc: unknown): Promise<StudyView> {
-  const view = StudyView.create();
-  document.body.append(view);
-  const answered = new Promise<void>((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
-  view.controller.open('test', structuredClone(doc) as Study);
-  await answered;
-  await view.updateComplete;
-  return view;
-}
+const mount = mountStudy;
 
 const fieldOf = (view: StudyView, label: string) => deep(view.shadowRoot!, 'expr-field').find((f) => (f as ExprField).label === label) as ExprField;
 

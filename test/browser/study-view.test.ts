@@ -6,17 +6,10 @@ import type { ExprField } from '../../components/expr-field.ts';
 import { runStudy, type Study } from '../../src/index.ts';
 import cooling from '../../examples/cooling-stock-pot.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
+import { mountStudy } from './mount-study.ts';
 import { deep } from './helpers.ts';
 
-async function mount(doc: unknown): Promise<StudyView> {
-  const view = StudyView.create();
-  document.body.append(view);
-  const answered = new Promise<void>((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
-  view.controller.open('test', structuredClone(doc) as Study);
-  await answered;
-  await view.updateComplete;
-  return view;
-}
+const mount = mountStudy;
 
 function nextAnswer(view: StudyView): Promise<void> {
   return new Promise((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
