@@ -3,7 +3,7 @@
  * expression fields, the edit event, and the shared styles. Look-ups only; no computation.
  */
 import { css, html, nothing, unsafeCSS } from 'lit';
-import type { Cell, CellError, ParameterValue, Report, ReportBase, ReportQuantity } from '../../src/index.ts';
+import type { Cell, CellError, ParameterValue, PlotScale, Report, ReportBase, ReportQuantity } from '../../src/index.ts';
 import { fieldWords, formatNumber, problemWords, unitAfterNumber, waitedOn, waitWords } from '../../src/index.ts';
 import type { ReportsOf } from '../../src/index.ts';
 import type { StudyName } from '../expr-field.ts';
@@ -185,3 +185,15 @@ export const cellStyles = css`
   ${stacked('table.stack-always')}
   @media print { button, select, input[type='range'] { display: none !important; } }
 `;
+
+/** A stored axis choice that is neither linear nor log: the message, and the two choices to pick from. */
+export function plotScaleError(error: { message: string } | undefined, pick: (scale: PlotScale) => void) {
+  return error ? html`<p class="foot-error">Plot scale: ${error.message}
+    <button @click=${() => pick('linear')}>Draw it on a linear axis</button> <button @click=${() => pick('log')}>Draw it on a log axis</button></p>` : nothing;
+}
+
+/** The cell with its plot's axis choice (no field for linear, the default). */
+export function withPlotScale<T extends { plotScale?: unknown }>(cell: T, scale: PlotScale): T {
+  const { plotScale: _old, ...rest } = cell;
+  return (scale === 'log' ? { ...rest, plotScale: 'log' } : rest) as T;
+}

@@ -1,6 +1,6 @@
 import { html, nothing, css } from 'lit';
 import type { PlotScale, ReportOf } from '../../src/index.ts';
-import { cellStyles, showQ } from './common.ts';
+import { cellStyles, plotScaleError, withPlotScale, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import '../expr-field.ts';
 import '../unit-pick.ts';
@@ -69,7 +69,7 @@ export class FitCellElement extends CellElement<'fit'> {
       ${r?.ok && r.estimates ? html`<p class="muted">${r.converged ? 'Converged' : 'Not converged'} after ${r.iterations} iterations (${r.message}); ${r.n} points, ${r.dof} degrees of freedom${r.residualSD ? `, residual SD ${showQ(r.residualSD)}` : ''}.</p>` : nothing}
       ${this.correlation()}
       ${(r?.warnings ?? []).map((w) => html`<p class="foot-error">${w}</p>`)}
-      ${this.plotScaleError(claims.take('.plotScale'))}
+      ${plotScaleError(claims.take('.plotScale'), (s) => this.setPlotScale(s))}
       ${r?.ok && r.plot ? this.plots(r.plot, r) : nothing}
       ${this.footErrors()}`;
   }
@@ -82,16 +82,9 @@ export class FitCellElement extends CellElement<'fit'> {
       <tbody>${cor.names.map((n, i) => html`<tr><th>${n}</th>${cor.matrix[i].map((v) => html`<td class="num">${v.toFixed(3)}</td>`)}</tr>`)}</tbody></table>`;
   }
 
-  /** A stored axis choice that is neither linear nor log: the message, and the two choices to pick from. */
-  private plotScaleError(error: { message: string } | undefined) {
-    return error ? html`<p class="foot-error">Plot scale: ${error.message}
-      <button @click=${() => this.setPlotScale('linear')}>Draw it on a linear axis</button> <button @click=${() => this.setPlotScale('log')}>Draw it on a log axis</button></p>` : nothing;
-  }
-
-  /** The fitted curve's axis choice, stored in the cell (no field for linear, the default), one undo step. */
+  /** The plot's axis choice, stored in the cell, one undo step. */
   private setPlotScale(scale: PlotScale): void {
-    const { plotScale: _old, ...rest } = this.cell;
-    this.replace(scale === 'log' ? { ...rest, plotScale: 'log' } : rest);
+    this.replace(withPlotScale(this.cell, scale));
   }
 
   /** The fitted curve over the data (linear or log, the cell's choice), and the residuals against time around a zero line (always linear: residuals are signed). */

@@ -1,6 +1,6 @@
 import { html, nothing, css } from 'lit';
 import type { ClosedFormReport, PlotScale, SimulationPlot } from '../../src/index.ts';
-import { cellStyles, footError, showQ } from './common.ts';
+import { cellStyles, plotScaleError, withPlotScale, footError, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import { exportSeriesCsv } from '../series-csv.ts';
 import '../expr-field.ts';
@@ -85,7 +85,7 @@ export class SimulateCellElement extends CellElement<'simulate'> {
           setFind: (i, f, key) => this.setFind(i, f, key), setFinds: (find) => this.edit({ find }),
         })}
       </details>
-      ${this.plotScaleError(claims.take('.plotScale'))}
+      ${plotScaleError(claims.take('.plotScale'), (s) => this.setPlotScale(s))}
       ${this.report?.ok && plot ? html`
         <time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${this.report.summary ?? ''} .scale=${c.plotScale === 'log' ? 'log' : 'linear'} scaleToggle
           @plot-scale=${(e: PlotScaleEvent) => this.setPlotScale(e.detail.scale)}></time-plot>
@@ -96,16 +96,9 @@ export class SimulateCellElement extends CellElement<'simulate'> {
       ${this.footErrors()}`;
   }
 
-  /** A stored axis choice that is neither linear nor log: the message, and the two choices to pick from. */
-  private plotScaleError(error: { message: string } | undefined) {
-    return error ? html`<p class="foot-error">Plot scale: ${error.message}
-      <button @click=${() => this.setPlotScale('linear')}>Draw it on a linear axis</button> <button @click=${() => this.setPlotScale('log')}>Draw it on a log axis</button></p>` : nothing;
-  }
-
-  /** The plot's axis choice, stored in the cell (no field for linear, the default), one undo step. */
+  /** The plot's axis choice, stored in the cell, one undo step. */
   private setPlotScale(scale: PlotScale): void {
-    const { plotScale: _old, ...rest } = this.cell;
-    this.replace(scale === 'log' ? { ...rest, plotScale: 'log' } : rest);
+    this.replace(withPlotScale(this.cell, scale));
   }
 
   /** The solver's tolerances, behind a disclosure: a relative tolerance from a list, an absolute one as an expression. */

@@ -1,12 +1,12 @@
 /**
- * The work a cell may do (`numerics/work.ts` counts it): evaluations of a rate, steps,
+ * The work a cell may do (`numerics/work-meter.ts` counts it): evaluations of a rate, steps,
  * samples of a solution, points of a sweep, actions of a schedule, one unit each. A cell that
  * needs more is stopped with a message on the cell instead of running on for seconds; the
  * other cells still run. A time limit for a whole evaluation (the command line's `--timeout`)
  * stops the cell running when it passes, and the cells after it, the same way.
  */
 import type { CellError, GraphNode } from './node.ts';
-import type { WorkExceeded } from '../numerics/work.ts';
+import type { WorkExceeded } from '../numerics/work-meter.ts';
 import { CELL_PATH } from '../cells/index.ts';
 
 /**

@@ -20,7 +20,7 @@ import { glanceOf } from '../output/glance.ts';
 import { cellTex, studySymbols } from '../output/sheet-tex.ts';
 import { studyUnits } from './study-units.ts';
 import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
-import { metered } from '../numerics/work.ts';
+import { metered } from '../numerics/work-meter.ts';
 import { DEFAULT_CELL_WORK, stoppedError, type WorkLimits } from './budget.ts';
 
 type Slot = Binding | Unavailable;

@@ -21,7 +21,7 @@ import { unitDim } from '../units/units.ts';
 import { unitFromText } from '../expression/unit-text.ts';
 import { nearest } from '../expression/suggest.ts';
 import { quantitySig } from '../cells/signatures.ts';
-import { rethrowWork } from '../numerics/work.ts';
+import { rethrowWork } from '../numerics/work-meter.ts';
 
 /** A name that cannot be read: its definer failed or computed nothing. */
 export interface Unavailable {
@@ -224,7 +224,7 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
           try {
             outcome = node.run(step.ctx);
           } catch (err) {
-            // a cell running what-ifs stops when its own budget is spent (numerics/work.ts)
+            // a cell running what-ifs stops when its own budget is spent (numerics/work-meter.ts)
             rethrowWork(err);
             outcome = view.internalError(node, err);
           }

@@ -12,7 +12,7 @@ import { type Trajectory, evalPiece } from './trajectory.ts';
 import type { Action } from './schedule.ts';
 import { timeAxisUnits, type AxisUnit } from '../output/display-units.ts';
 import type { MeasuredSeries } from '../engine/node.ts';
-import { charge } from '../numerics/work.ts';
+import { charge } from '../numerics/work-meter.ts';
 
 /** Points across the whole run (more land on longer pieces; at least two per piece). */
 export const PLOT_POINTS = 400;

@@ -5,7 +5,7 @@
  * of the interpolant; a jump at a scheduled action is a crossing at the action's time.
  */
 import { brentRoot, brentMinimize } from '../numerics/brent.ts';
-import { charge } from '../numerics/work.ts';
+import { charge } from '../numerics/work-meter.ts';
 import { type Trajectory, type Piece, evalPiece, pieceAt, valueAt } from './trajectory.ts';
 import type { DenseSegment } from '../numerics/ode/types.ts';
 

@@ -4,7 +4,7 @@
  * so that integration can stop and restart at each one and never step across a jump.
  * Pure numbers (SI seconds and SI magnitudes).
  */
-import { charge } from '../numerics/work.ts';
+import { charge } from '../numerics/work-meter.ts';
 
 /**
  * Units of work charged for each action of a schedule: each one restarts the integration and

@@ -1,6 +1,6 @@
 // Bounded work for any file: the bounds on a study file (study/limits.ts), checked before
 // anything walks it; each cell's work budget and the time limit (engine/budget.ts,
-// numerics/work.ts); the command line's --timeout and its promise never to print a stack;
+// numerics/work-meter.ts); the command line's --timeout and its promise never to print a stack;
 // tolerances in a sane range; the likely cause of a fixed-step run that blows up.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';

@@ -4,7 +4,7 @@
 // command line. Checked for every case: nothing throws, no JavaScript stack is printed, no cell
 // reports an internal error, every message names a path (a cell's on its own cells[i]), and
 // the study's work stays within the stated budget: FUZZ_CELL_WORK units per cell, plus at most
-// one charge's overshoot (numerics/work.ts counts evaluations, steps, samples, sweep points and
+// one charge's overshoot (numerics/work-meter.ts counts evaluations, steps, samples, sweep points and
 // doses). Budgets, not clocks: speed goals live in `npm run bench`.
 //
 // CI: the fixed seed of test/fast-check-seed.mjs, RATEBOOK_FUZZ_RUNS cases (default 10,000,
@@ -17,7 +17,7 @@ import { readFileSync, readdirSync } from 'node:fs';
 import fc from 'fast-check';
 import { main, type Io } from '../../src/cli/cli.ts';
 import { openStudy } from '../../src/engine/session.ts';
-import { metered } from '../../src/numerics/work.ts';
+import { metered } from '../../src/numerics/work-meter.ts';
 import type { CellReport } from '../../src/engine/report.ts';
 
 const RUNS = Number(process.env.RATEBOOK_FUZZ_RUNS ?? 10000);

@@ -12,7 +12,7 @@
  */
 import type { CheckedInput } from './fit-input.ts';
 import type { LeastSquaresProblem } from './fit-types.ts';
-import { rethrowWork } from '../work.ts';
+import { rethrowWork } from '../work-meter.ts';
 
 /** The model as the fit calls it: counts, failure handling, a private copy of the point. */
 export class CountedModel {

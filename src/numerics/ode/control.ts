@@ -11,7 +11,7 @@ import {
   type Counters, type DenseSegment, type MessageDetail, type Rhs, type SolverOptions, type Where,
   Status,
 } from './types.ts';
-import { charge } from '../work.ts';
+import { charge } from '../work-meter.ts';
 
 /** Defaults of the options in `SolverOptions`. */
 export const DEFAULTS = {

@@ -5,7 +5,7 @@
  * best-effort evaluation). Internal to `src/numerics/phase/`.
  */
 import type { FSign, Span } from './types.ts';
-import { charge } from '../work.ts';
+import { charge } from '../work-meter.ts';
 
 export const EPS = Number.EPSILON;
 /** Across a converged sign-change bracket: |f| fallen by this factor is a zero ... */

@@ -17,7 +17,7 @@
  */
 import { brentMinimize } from '../brent.ts';
 import { findEquilibria, type EquilibriumOptions, type PhaseAnalysis, type Stability, type Equilibrium } from './equilibria.ts';
-import { charge } from '../work.ts';
+import { charge } from '../work-meter.ts';
 
 export interface SweepOptions extends Omit<EquilibriumOptions, 'derivative'> {
   /** ∂f/∂y when known exactly (passed to each step's analysis). */
@@ -126,7 +126,7 @@ export function sweepEquilibria(
   let evaluations = 0;
   let budgetExhausted = false;
   const analyses: PhaseAnalysis[] = parameters.map((p) => {
-    // a sweep point costs about as much again as its evaluations of f (numerics/work.ts)
+    // a sweep point costs about as much again as its evaluations of f (numerics/work-meter.ts)
     charge(SWEEP_POINT_WORK);
     const a = findEquilibria((y) => f(y, p), yFrom, yTo, { ...stepOptions, derivative: derivative && ((y) => derivative(y, p)) });
     evaluations += a.evaluations;
