@@ -120,7 +120,10 @@ export function inverseSpd(a: Float64Array, n: number): Float64Array | null {
   return inv;
 }
 
-/** A MAP estimate: a `FitResult` on the natural scale (residuals are f − y, unweighted), with the objective and the posterior. */
+/**
+ * A MAP estimate: a `FitResult` on the natural scale (residuals are f − y, unweighted; `dof`
+ * is the data's m − n, the priors aside; no residual SD), with the objective and the posterior.
+ */
 export interface MapResult extends FitResult {
   /** The objective at the estimate (data part + prior part). */
   readonly objective: number | null;
@@ -177,7 +180,7 @@ export function fitMap(problem: MapProblem, options: LeastSquaresOptions = {}): 
   const warnings = fit.warnings.filter((w) => w.kind !== 'no-degrees-of-freedom');
   const none = { objective: null, dataObjective: null, priorObjective: null, hessian: null, workingSD: null };
   if (!fit.residuals) {
-    return { ...fit, ...none, p: natural, logScale, warnings, residualSD: null, standardErrors: null, ci95: null, covariance: null, correlation: null };
+    return { ...fit, ...none, p: natural, logScale, warnings, dof: m - n, residualSD: null, standardErrors: null, ci95: null, covariance: null, correlation: null };
   }
   // predictions at the estimate: the residuals unweighted
   toNatural(theta, p);
@@ -214,7 +217,7 @@ export function fitMap(problem: MapProblem, options: LeastSquaresOptions = {}): 
     })
     : null;
   return {
-    ...fit, p: natural, logScale, warnings,
+    ...fit, p: natural, logScale, warnings, dof: m - n,
     residuals: predicted ? predicted.map((v, i) => v - problem.y[i]) : null,
     residualSD: null, tQuantile95: null,
     objective: parts ? parts.data + parts.prior : null, dataObjective: parts?.data ?? null, priorObjective: parts?.prior ?? null,
