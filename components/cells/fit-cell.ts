@@ -22,6 +22,7 @@ export class FitCellElement extends CellElement<'fit'> {
     tr.more summary, details.error-model summary { font-weight: 400; font-size: 0.85rem; color: #3b4650; cursor: pointer; }
     .moved { font-size: 0.8rem; white-space: normal; }
     .bayes { font-weight: 600; }
+    input.count { width: 5rem; }
   `];
 
   override render() {
