@@ -122,7 +122,8 @@ export function inverseSpd(a: Float64Array, n: number): Float64Array | null {
 
 /**
  * A MAP estimate: a `FitResult` on the natural scale (residuals are f − y, unweighted; `dof`
- * is the data's m − n, the priors aside; no residual SD), with the objective and the posterior.
+ * is the data's m − n, the priors aside; no residual SD; `evaluations` counts the model calls
+ * of the curvature too), with the objective and the posterior.
  */
 export interface MapResult extends FitResult {
   /** The objective at the estimate (data part + prior part). */
@@ -186,7 +187,9 @@ export function fitMap(problem: MapProblem, options: LeastSquaresOptions = {}): 
   toNatural(theta, p);
   const predicted = problem.predict(p, f) ? Float64Array.from(f) : null;
   const parts = predicted ? objectiveParts(problem, natural, predicted) : null;
+  let curvatureCalls = predicted ? 1 : 0;
   const objective = (x: Float64Array): number => {
+    curvatureCalls++;
     const out = new Float64Array(m + priorRows);
     if (!residuals(x, out)) return NaN;
     let s = 0;
@@ -217,7 +220,7 @@ export function fitMap(problem: MapProblem, options: LeastSquaresOptions = {}): 
     })
     : null;
   return {
-    ...fit, p: natural, logScale, warnings, dof: m - n,
+    ...fit, p: natural, logScale, warnings, dof: m - n, evaluations: fit.evaluations + curvatureCalls,
     residuals: predicted ? predicted.map((v, i) => v - problem.y[i]) : null,
     residualSD: null, tQuantile95: null,
     objective: parts ? parts.data + parts.prior : null, dataObjective: parts?.data ?? null, priorObjective: parts?.prior ?? null,
