@@ -153,6 +153,10 @@ export function fitMap(problem: MapProblem, options: LeastSquaresOptions = {}): 
   const priorRows = logScale.filter(Boolean).length;
   const toNatural = (theta: ArrayLike<number>, p: Float64Array) => { for (let k = 0; k < n; k++) p[k] = logScale[k] ? Math.exp(theta[k]) : theta[k]; };
   const toWorking = (v: number, k: number, dflt: number) => (logScale[k] ? (v > 0 ? Math.log(v) : dflt) : v);
+  const theta0 = Array.from({ length: n }, (_, k) => toWorking(problem.p0[k], k, NaN));
+  // the fitter works on φ = θ − θ0 for the log-scale estimates, so that it starts at 0 and its
+  // first trust radius (‖D·φ0‖, else 1) allows a step of about e-fold, not of |log P0|
+  const offset = theta0.map((t, k) => (logScale[k] && Number.isFinite(t) ? t : 0));
   const p = new Float64Array(n);
   const f = new Float64Array(m);
   const residuals = (theta: Float64Array, out: Float64Array): boolean => {
@@ -167,15 +171,19 @@ export function fitMap(problem: MapProblem, options: LeastSquaresOptions = {}): 
     problem.priors.forEach((pr, k) => { if (pr) out[r++] = (theta[k] - Math.log(pr.median)) / pr.omega; });
     return true;
   };
-  const lower = Array.from({ length: n }, (_, k) => toWorking(problem.lower?.[k] ?? -Infinity, k, -Infinity));
-  const upper = Array.from({ length: n }, (_, k) => toWorking(problem.upper?.[k] ?? Infinity, k, -Infinity));
-  const theta0 = Array.from({ length: n }, (_, k) => toWorking(problem.p0[k], k, NaN));
+  const lower = Array.from({ length: n }, (_, k) => toWorking(problem.lower?.[k] ?? -Infinity, k, -Infinity) - offset[k]);
+  const upper = Array.from({ length: n }, (_, k) => toWorking(problem.upper?.[k] ?? Infinity, k, -Infinity) - offset[k]);
+  const theta = new Float64Array(n);
+  const shifted = (phi: Float64Array, out: Float64Array): boolean => {
+    for (let k = 0; k < n; k++) theta[k] = phi[k] + offset[k];
+    return residuals(theta, out);
+  };
   const fit = fitLeastSquares({
-    residuals, m: m + priorRows, p0: theta0, lower, upper, names: problem.names as string[] | undefined,
+    residuals: shifted, m: m + priorRows, p0: theta0.map((t, k) => t - offset[k]), lower, upper, names: problem.names as string[] | undefined,
     scale: theta0.map((t, k) => (logScale[k] ? 1 : Math.abs(t) || 1)),
   }, options);
 
-  const theta = fit.p;
+  for (let k = 0; k < n; k++) theta[k] = fit.p[k] + offset[k];
   const natural = new Float64Array(n);
   toNatural(theta, natural);
   const warnings = fit.warnings.filter((w) => w.kind !== 'no-degrees-of-freedom');
