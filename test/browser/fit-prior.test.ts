@@ -57,8 +57,7 @@ describe('fit cell: a prior and an error model by keys', () => {
     await until(() => fitDoc().estimate[0].prior?.omega === 0.3, 'omega stored as a number', 8000);
     // no error model yet: refused on its row, and the prior stays as typed
     await until(() => (fitReport()?.error?.path === 'cells[3].error' ? true : undefined), 'the refusal on the error model', 8000);
-    await fitEl().updateComplete;
-    expect(text()).to.match(/needs an error model/);
+    await until(() => (/needs an error model/.test(text()) ? true : undefined), 'the refusal shown on the cell', 8000);
     expect(fitDoc().estimate[0].prior).to.deep.equal({ median: '0.1 / h', omega: 0.3 });
     // the error model's disclosure is open since a prior is set
     const additive = fitEl().shadowRoot!.querySelector('[data-field="error.additive"]') as ExprField;
@@ -68,8 +67,7 @@ describe('fit cell: a prior and an error model by keys', () => {
     await sendKeys({ press: 'Enter' });
     await until(() => fitDoc().error?.additive === '0.3 mg / L', 'the additive SD in the document', 8000);
     await until(() => (fitReport()?.bayesian ? true : undefined), 'a Bayesian estimate', 10_000);
-    await fitEl().updateComplete;
-    expect(text()).to.match(/Bayesian \(MAP\) estimate/);
+    await until(() => (/Bayesian \(MAP\) estimate/.test(text()) ? true : undefined), 'the Bayesian label on the cell', 8000);
     expect(text()).to.match(/prior median 0\.1 \/h; the data moved it ×[0-9.]+ \([+−][0-9.]+ omega\)/);
     // undo, step by step, back to the study as it was
     for (let i = 0; i < 6 && JSON.stringify(view.controller.study) !== before; i++) view.controller.undo();
@@ -85,7 +83,8 @@ describe('fit cell: a prior and an error model by keys', () => {
     await sendKeys({ type: 'ten' });
     await until(() => fitDoc().error?.proportional === 'ten', 'the text kept in the document', 8000);
     await until(() => (fitReport()?.ok === false ? true : undefined), 'the fit refused', 8000);
-    await fitEl().updateComplete;
+    // the cell shows the refusal once the view has passed the new report down
+    await until(() => (/ten/.test(text()) ? true : undefined), 'the refusal shown on the cell', 8000);
     const input = fitEl().shadowRoot!.querySelector('[data-field="error.proportional"]') as HTMLInputElement;
     expect(input.value).to.equal('ten');
     expect(fitReport()?.error?.path).to.equal('cells[3].error.proportional');
