@@ -20,6 +20,8 @@ export interface SolveProblem {
   readonly field: string;
   readonly message: string;
   readonly kind?: ProblemKind;
+  /** What the search found before it failed (the target's range, the runs made), for the report. */
+  readonly output?: NodeOutput<'solve'>;
 }
 
 interface Common {
@@ -54,12 +56,13 @@ export function searchRange(a: Common & { min: Quantity; max: Quantity; step?: n
     ? `; it has no value for ${parameter} ${found.undefinedIn.map(([from, to]) => `from ${describe(vary(from))} to ${describe(vary(to))}`).join(' and ')} (${a.reason() ?? 'no value'})`
     : '';
   if (Number.isNaN(found.low)) {
-    a.problem({ field: 'value', kind: 'numeric', message: `the target ${a.targetText} has no value for any ${parameter} ${span}: ${a.reason() ?? 'it was not computed'}` });
+    a.problem({ field: 'value', kind: 'numeric', message: `the target ${a.targetText} has no value for any ${parameter} ${span}: ${a.reason() ?? 'it was not computed'}`, output: { evaluations: a.count() } });
   }
   const range = { low: report(goal(found.low + wanted.si)), high: report(goal(found.high + wanted.si)) };
   if (found.roots.length === 0) {
     a.problem({
       field: 'equals',
+      output: { targetRange: range, ...(gaps.length ? { undefinedIn: gaps } : {}), evaluations: a.count() },
       message: `no ${parameter} ${span} gives ${a.targetText} = ${describe(wanted)}: over that range ${a.targetText} runs from ${describe(goal(found.low + wanted.si))} (at ${describe(vary(found.lowAt))}) to ${describe(goal(found.high + wanted.si))} (at ${describe(vary(found.highAt))})${gapWords}`,
     });
   }

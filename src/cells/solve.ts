@@ -62,8 +62,22 @@ export function solveNodes(cell: SolveCell, at: string): Array<GraphNode<NodeOut
     readsUpstream: true,
     signature: JSON.stringify(cell),
     problems,
-    run: (ctx) => guarded(() => runSolve(at, parameter, as, f, ctx)),
+    run: (ctx) => {
+      try {
+        return guarded(() => runSolve(at, parameter, as, f, ctx));
+      } catch (err) {
+        if (err instanceof Refused) return { ok: false, error: err.error, output: err.output };
+        throw err;
+      }
+    },
   }];
+}
+
+/** A search that found no answer: its error, and what it found on the way (the target's range). */
+class Refused extends Error {
+  constructor(readonly error: CellError, readonly output: NodeOutput<'solve'>) {
+    super(error.message);
+  }
 }
 
 function runSolve(at: string, parameter: string, as: string, f: SolveFields, ctx: RunContext): Outcome<NodeOutput<'solve'>> {
@@ -128,7 +142,10 @@ function runSolve(at: string, parameter: string, as: string, f: SolveFields, ctx
     return { ok: true, q: e.value };
   };
 
-  const problem = (p: SolveProblem): never => fail(p.field === 'equals' ? equals.path : p.field === 'value' ? value.path : `${at}.vary.${p.field}`, p.message, p.kind);
+  const problem = (p: SolveProblem): never => {
+    const path = p.field === 'equals' ? equals.path : p.field === 'value' ? value.path : `${at}.vary.${p.field}`;
+    throw new Refused({ kind: p.kind ?? 'invalid', path, message: p.message }, p.output ?? {});
+  };
   const common = { parameter, as, present, wanted: wantedValue, targetText: value.text, targetAt, problem, count: () => evaluations };
   if (f.choices) {
     const choices = f.choices.map((c) => same(finiteQuantityOf(c!, lookup), c!.path, 'a choice'));
