@@ -93,6 +93,11 @@ function runSolve(at: string, parameter: string, as: string, f: SolveFields, ctx
     return q;
   };
   const wantedValue = finiteQuantityOf(equals, lookup);
+  // the wanted value is read once, at the present values: it must not move with the varied name
+  const moving = [...new Set(symbolsOf(equals.expr))].find((n) => n === parameter || ctx.upstream(n).has(parameter));
+  if (moving !== undefined) {
+    fail(equals.path, `the wanted value reads "${moving}", which changes with ${parameter}: move it into the target (target ${value.text} - (${equals.text}), wanted value 0 in its unit)`);
+  }
 
   // the study names the target reads; the what-if computes them again with the parameter replaced
   const names = [...new Set(symbolsOf(value.expr))].filter((n) => n !== 't'

@@ -210,6 +210,12 @@ describe('solve: refusals, each on its field', () => {
     assert.match(r.error!.message, /does not depend on dose: "k" is not computed from it/);
   });
 
+  it('a wanted value that changes with the varied parameter', () => {
+    const r = tryIt({ min: '100 mg', max: '5000 mg' }, { value: 'trough', equals: 'dose / V' });
+    assert.equal(r.error!.path, 'cells[3].target.equals');
+    assert.match(r.error!.message, /reads "dose", which changes with dose: move it into the target/);
+  });
+
   it('a varied name that is an answer, not a parameter', () => {
     const r = solveOf(base, { vary: { parameter: 'trough', as: 'x', min: '1 mg/L', max: '2 mg/L' }, target: { value: 'trough * 2', equals: '3 mg/L' } });
     assert.equal(r.error!.path, 'cells[3].vary.parameter');
