@@ -92,7 +92,7 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
           }
           flag(n.key, { kind: 'misplaced', message: `"${u.name}" is the state of rate cell "${target.cell}": it changes with time, so it can be read only in rate laws and event amounts`, path: u.path, ...span(u) });
         }
-        src.set(u.name, { node: def });
+        src.set(u.name, u.optional ? { node: def, optional: true } : { node: def });
       } else if (u.name === 't' && n.allowsTime) {
         src.set(u.name, { builtin: 'time' });
       } else if (u.name === 't') {

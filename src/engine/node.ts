@@ -8,6 +8,7 @@ import type { Quantity } from '../units/quantity.ts';
 import type { DisplayUnit } from '../units/units.ts';
 import type { Expr } from '../expression/ast.ts';
 import type { StudyUnits } from '../units/simplest-unit.ts';
+import type { Replacement, WhatIfPrepared } from './what-if.ts';
 
 /**
  * The kinds of problem a cell can have:
@@ -153,6 +154,14 @@ export interface RunContext {
   bindingsOf<K extends Binding['kind']>(kind: K): Array<Extract<Binding, { kind: K }>>;
   /** The units the study's inputs are written in (engine/study-units.ts), for showing derived values. */
   readonly studyUnits?: StudyUnits;
+  /**
+   * A what-if evaluator (engine/what-if.ts) over the study's values as this node sees them: the
+   * session's current bindings in a run, the outer what-if's values when the node itself runs
+   * inside one (a nested what-if). For a node that varies a name upstream of names it reads (a
+   * solve cell): its `uses` cover the varied name and every name its target reads, so all
+   * that the evaluator plans over is computed before it runs. Prepare once per run.
+   */
+  whatIf?(wanted: readonly string[], replaced: readonly Replacement[]): WhatIfPrepared;
 }
 
 /** What a node's run gives: bindings for the names it defines and `output` (of type O) for its cell's report. */
@@ -188,6 +197,12 @@ export interface GraphNode<O extends object = object> {
    * state of the laws it integrates (unless that would close a cycle).
    */
   readonly pullsMeasurements?: boolean;
+  /**
+   * Its result depends on how the names it reads are computed, not only on their values (a
+   * solve cell re-runs what lies between a parameter and its target): it runs again when any
+   * name upstream of the names it reads changes.
+   */
+  readonly readsUpstream?: boolean;
   /** Changes whenever the node's own text changes; equal signatures mean the same node. */
   readonly signature: string;
   /** Problems found while building (field shape, syntax): the node fails with the first. */

@@ -220,6 +220,9 @@ export class StudySession {
         staticSig += `|${name}=${'node' in s ? s.node : s.builtin}`;
         if ('node' in s && changedNames.has(name)) inputsChanged = true;
       }
+      if (node.readsUpstream && !inputsChanged && changedNames.size) {
+        inputsChanged = [...sources.keys()].some((name) => [...upstreamOf(this.graph, name)].some((n) => changedNames.has(n)));
+      }
       if (problem) staticSig += `|!${problem.path}:${problem.message}`;
       for (const d of node.defines) staticSig += `|${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`;
       const kept = this.outcomes.get(key);
@@ -291,6 +294,7 @@ export class StudySession {
       }),
       upstream: (name) => this.upstream(name),
       studyUnits: this.units,
+      whatIf: (wanted, replaced) => this.whatIf(wanted, replaced),
     };
     try {
       const done = metered(this.limits.cellWork ?? DEFAULT_CELL_WORK, this.deadline, () => node.run(ctx));

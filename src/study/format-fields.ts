@@ -35,6 +35,7 @@ export const FORMAT_FIELDS = {
   data: ['id', 'kind', 'title', 'columns[].name', 'columns[].unit', 'rows', 'csv'],
   fit: ['id', 'kind', 'title', 'rates', 'data', 'time', 'observe', 'estimate[].parameter', 'estimate[].as', 'estimate[].guess', 'estimate[].min', 'estimate[].max', 'estimate[].unit', 'weighting', 'plotScale'],
   nca: ['id', 'kind', 'title', 'data', 'time', 'concentration', 'dose', 'route', 'duration', 'auc', 'terminal', 'prefix', 'units'],
+  solve: ['id', 'kind', 'title', 'vary.parameter', 'vary.as', 'vary.min', 'vary.max', 'vary.roundTo', 'vary.choices', 'vary.guess', 'target.value', 'target.equals'],
   note: ['id', 'kind', 'title', 'text'],
 } as const satisfies { [K in CellKind]: ReadonlyArray<FieldPath<CellOf<K>>> };
 

@@ -6,7 +6,7 @@ import { METHODS, type Method } from '../numerics/ode/integrate.ts';
 export const FORMAT = 'ratebook-study';
 export const CURRENT_VERSION = 1;
 
-export const CELL_KINDS = ['parameters', 'rate', 'phase', 'simulate', 'data', 'fit', 'nca', 'note'] as const;
+export const CELL_KINDS = ['parameters', 'rate', 'phase', 'simulate', 'data', 'fit', 'nca', 'solve', 'note'] as const;
 export type CellKind = (typeof CELL_KINDS)[number];
 
 export interface CellBase {
@@ -135,7 +135,28 @@ export interface NcaCell extends CellBase {
 
 export interface NoteCell extends CellBase { kind: 'note'; text: string }
 
-export type Cell = ParametersCell | RateCell | PhaseCell | SimulateCell | DataCell | FitCell | NcaCell | NoteCell;
+/**
+ * A solve cell: the value of a parameter (or a state's initial value) in [min, max], or among
+ * `choices`, at which the target expression equals `equals` (cells/solve.ts).
+ */
+export interface SolveCell extends CellBase {
+  kind: 'solve';
+  vary: {
+    parameter: string;
+    as: string;
+    min?: string;
+    max?: string;
+    /** Round the solution to a multiple of this (a vial, a tablet, a pump setting). */
+    roundTo?: string;
+    /** Values to try instead of a range; the one whose target is nearest is defined. */
+    choices?: string[];
+    /** With several solutions, the one nearest this is defined (default: the smallest). */
+    guess?: string;
+  };
+  target: { value: string; equals: string };
+}
+
+export type Cell = ParametersCell | RateCell | PhaseCell | SimulateCell | DataCell | FitCell | NcaCell | SolveCell | NoteCell;
 
 export interface Study {
   format: typeof FORMAT;

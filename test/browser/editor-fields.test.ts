@@ -45,6 +45,9 @@ export const EVERY_FIELD: Study = {
       estimate: [{ parameter: 'kb', as: 'kb_hat', guess: '0.2 / h', min: '0.01 / h', max: '1 / h', unit: '1 / d' }], weighting: 'relative', plotScale: 'log' },
     { id: 'n', kind: 'nca', title: 'Profile', data: 'd', time: 't', concentration: 'C', dose: '500 mg', route: 'infusion', duration: '0.5 h',
       auc: 'linear', terminal: 3, prefix: 'p_', units: { CL: 'mL / min' } },
+    { id: 'sv', kind: 'solve', title: 'Dose for a trough', vary: { parameter: 'dose', as: 'dose_new', min: '100 mg', max: '2000 mg', roundTo: '50 mg', guess: '400 mg' },
+      target: { value: 'trough_last', equals: '1 mg / L' } },
+    { id: 'sc', kind: 'solve', title: 'Interval', vary: { parameter: 'tau', as: 'tau_new', choices: ['8 h', '12 h', '24 h'] }, target: { value: 'trough_last', equals: '1 mg / L' } },
     { id: 'm', kind: 'note', title: 'About', text: 'Every field once, with invented numbers.' },
   ],
 } as Study;
