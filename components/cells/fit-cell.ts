@@ -16,6 +16,7 @@ export class FitCellElement extends CellElement<'fit'> {
   static override styles = [cellStyles, css`
     .est expr-field { min-width: 6rem; }
     .scroll { overflow-x: auto; }
+    select[data-field="run"] { max-width: 100%; }
   `];
 
   override render() {
@@ -36,9 +37,9 @@ export class FitCellElement extends CellElement<'fit'> {
     return html`
       <div class="row">
         <label>Model <select data-field="run" @change=${(e: Event) => this.setRun((e.target as HTMLSelectElement).value)}>
-          <option value="" ?selected=${c.run === undefined}>the laws ticked, from t = 0 with no events</option>
-          ${c.run !== undefined && !run ? html`<option selected value=${c.run}>through "${c.run}" (not a run)</option>` : nothing}
-          ${runs.map((x) => html`<option value=${x.id} ?selected=${x.id === c.run}>through the run ${x.title || x.id}, with its schedule</option>`)}</select></label>
+          <option value="" ?selected=${c.run === undefined}>laws only, from t = 0</option>
+          ${c.run !== undefined && !run ? html`<option selected value=${c.run}>"${c.run}" (not a run)</option>` : nothing}
+          ${runs.map((x) => html`<option value=${x.id} ?selected=${x.id === c.run}>run ${x.title || x.id}, whole schedule</option>`)}</select></label>
         ${claims.take('.run') ? html`<div class="foot-error">${claims.take('.run')!.message}</div>` : nothing}
       </div>
       ${c.run === undefined ? html`<div class="row"><span class="lbl">Laws</span>
