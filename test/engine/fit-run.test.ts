@@ -137,7 +137,7 @@ describe('a fit through a run\'s schedule', () => {
   });
 
   it('puts each bad input on its field', () => {
-    const ok = () => [params(), law, regimen(q12h), levels([[84.5, 30], [90, 25], [95, 20]]), fit()] as any[];
+    const ok = () => structuredClone([params(), law, regimen(q12h), levels([[84.5, 30], [90, 25], [95, 20]]), fit()]) as any[];
     const errorOf = (cells: any[]) => byId(report(cells), 'fit').error!;
     let c = ok(); c[4].run = 'elim';
     assert.deepEqual([errorOf(c).path, errorOf(c).message], ['cells[4].run', 'cell "elim" is not a simulate cell: a fit goes through a run (a simulate cell)']);
@@ -155,6 +155,19 @@ describe('a fit through a run\'s schedule', () => {
     c = ok(); c[0].items.push({ name: 'k', value: 'CL / V' }); c[1].rate = '-k * C';
     assert.equal(errorOf(c).path, 'cells[4].estimate[0].parameter');
     assert.match(errorOf(c).message, /the run "regimen" reads "k", which is computed from "CL"/);
+  });
+
+  it('answers the what-if evaluator: with the dose doubled, the same levels mean twice the V and CL (linear scaling)', () => {
+    const o = openStudy(study([params(), law, regimen(q12h), levels([84.5, 90, 95.5].map((t) => [t, bolus(t)])), fit()]));
+    assert.ok(o.ok);
+    const s = (o as { session: StudySession }).session;
+    const w = s.whatIf(['CL_i', 'V_i', 'V_i_se'], [{ name: 'dose' }]);
+    assert.ok(w.ok, JSON.stringify(w));
+    const r = (w as Extract<typeof w, { ok: true }>).evaluate([2e-3]); // 2000 mg in SI (kg)
+    // C = dose/V sum e^{-k(t - t_i)} with k = CL/V: doubling the dose doubles V and CL for the same levels (closed form)
+    assert.ok(rel(r.values[0], 2 * 5 / 3.6e6) < 1e-6, JSON.stringify(r).slice(0, 600));
+    assert.ok(rel(r.values[1], 2 * 0.05) < 1e-6, `${r.values[1]}`);
+    assert.ok(Number.isFinite(r.values[2]));
   });
 
   it('does not fit again when only a question of the run changes', () => {
