@@ -34,6 +34,21 @@ export function runParameter(model: RunModel, run: string, name: string, path: s
 }
 
 /**
+ * A note when data rows lie at the very time of a jump of the run (a dose): the run's value
+ * there is the one after it, as its questions read it. Read after a run or curve of `model`.
+ */
+export function jumpTimeNote(model: RunModel, run: string, table: DataTable, ti: number): string | undefined {
+  const jumps = model.jumps();
+  const rows = table.rows.flatMap((row, r) => {
+    const t = row[ti];
+    return t !== null && jumps.some((j) => Math.abs(t - j) <= 1e-9 * Math.max(1, Math.abs(j))) ? [r + 1] : [];
+  });
+  if (rows.length === 0) return undefined;
+  const many = rows.length > 1;
+  return `row${many ? 's' : ''} ${rows.join(', ')} ${many ? 'are' : 'is'} at the very time of a dose in the run "${run}", so ${many ? 'they are' : 'it is'} fitted to the level just after that dose; a level drawn just before a dose (a trough) must be written a moment earlier`;
+}
+
+/**
  * Checks that every time in the data's time column lies within the run's span (the data's
  * times are on the run's clock); a message on `time` naming the first row outside.
  */

@@ -19,7 +19,7 @@ import { measuredPoints, type SimulationPlot } from '../simulate/plot-data.ts';
 import { quantitySig } from './signatures.ts';
 import { timeAxisUnits } from '../output/display-units.ts';
 import { residualAxisFloor, withoutRoundOff } from '../output/residuals.ts';
-import { runModelOf, runParameter, checkTimesInRun } from './fit-through-run.ts';
+import { runModelOf, runParameter, checkTimesInRun, jumpTimeNote } from './fit-through-run.ts';
 import { uncertaintyBindings, uncertaintyDefinitions } from './fit-uncertainty.ts';
 
 /**
@@ -232,7 +232,9 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
   });
   bindings.set(measuredRef(cell.id), { kind: 'measured', cell: cell.id, series, sig: JSON.stringify(series) });
   const plot = fitPlot(through ? throughCurve(through, unknowns, fit.p) : curve(spec, t0, y0, p, fit.p, apply, times, scale), laws, observed, series, table.columns[ti].unit);
-  return { ok: true, bindings, output: { ...output, summary, ...(plot ? { plot } : {}) }, reasons: spread.reasons };
+  const atJump = through ? jumpTimeNote(through, cell.run!, table, ti) : undefined;
+  const warnings = atJump ? { warnings: [...(output.warnings ?? []), atJump] } : {};
+  return { ok: true, bindings, output: { ...output, summary, ...(plot ? { plot } : {}), ...warnings }, reasons: spread.reasons };
 }
 
 /** Points across the data's span for the fitted curve. */

@@ -79,6 +79,7 @@ function makeModel(cell: SimulateCell, at: string, fields: Fields, ctx: RunConte
   const memo: CoreMemo = {};
   const upstream = ctx.upstream.bind(ctx);
   const studyUnits = ctx.studyUnits;
+  let lastJumps: number[] = [];
   // the run's trajectory with the names replaced, or a message
   const trajectory = (replaced: ReadonlyMap<string, number>): Trajectory | string => {
     const lawsNow = new Map<string, Binding | undefined>();
@@ -103,7 +104,9 @@ function makeModel(cell: SimulateCell, at: string, fields: Fields, ctx: RunConte
       studyUnits,
     };
     try {
-      return simulateCore(tight, at, fields, proxy, memo)!.run.trajectory;
+      const core = simulateCore(tight, at, fields, proxy, memo)!;
+      lastJumps = core.timeline.filter((a) => a.kind === 'add').map((a) => a.time);
+      return core.run.trajectory;
     } catch (err) {
       if (err instanceof FieldError) return err.error.message;
       throw err;
@@ -112,6 +115,7 @@ function makeModel(cell: SimulateCell, at: string, fields: Fields, ctx: RunConte
   const n = laws.length;
   return {
     laws, reads: [...span.values.keys()], ...span,
+    jumps: () => lastJumps,
     run(replaced, times) {
       const tr = trajectory(replaced);
       if (typeof tr === 'string') return { message: tr };

@@ -137,6 +137,8 @@ export interface RunModel {
    * and both ends of every piece between actions, so each jump shows (for plots).
    */
   curve(replaced: ReadonlyMap<string, number>, points: number): { readonly t?: number[]; readonly values?: Float64Array[]; readonly message?: string };
+  /** The times (SI) at which a state jumps (`add` events) in the last run or curve made. */
+  jumps(): readonly number[];
 }
 
 /** One state's measurements: times and values in SI. */

@@ -157,6 +157,18 @@ describe('a fit through a run\'s schedule', () => {
     assert.match(errorOf(c).message, /the run "regimen" reads "k", which is computed from "CL"/);
   });
 
+  it('fits a level at the very time of a dose to the level after it, and says so', () => {
+    // the trajectory is right-continuous (a run's valueOf reads it so): at 84 h the eighth dose is in
+    const rows = [[84, bolus(84)], [90, bolus(90)], [95.5, bolus(95.5)]];
+    const cells = report([params(), law, regimen(q12h), levels(rows), fit()]);
+    const f = byId(cells, 'fit');
+    const est = f.estimates as Est;
+    assert.ok(rel(est.V_i.value.value, 50) < 1e-6, `${est.V_i.value.value}`);
+    assert.deepEqual(f.warnings, ['row 1 is at the very time of a dose in the run "regimen", so it is fitted to the level just after that dose; a level drawn just before a dose (a trough) must be written a moment earlier']);
+    const away = byId(report([params(), law, regimen(q12h), levels([[83.9, bolus(83.9)], [90, bolus(90)], [95.5, bolus(95.5)]]), fit()]), 'fit');
+    assert.equal(away.warnings, undefined);
+  });
+
   it('answers the what-if evaluator: with the dose doubled, the same levels mean twice the V and CL (linear scaling)', () => {
     const o = openStudy(study([params(), law, regimen(q12h), levels([84.5, 90, 95.5].map((t) => [t, bolus(t)])), fit()]));
     assert.ok(o.ok);
