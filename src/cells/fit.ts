@@ -1,8 +1,9 @@
 /**
  * A fit cell: estimates parameters and starting values of rate laws from measurements, by
  * nonlinear least squares (numerics/fit/least-squares.ts) on the simulated states at the data's
- * times (simulate/model-run.ts). Defines each estimate under its `as` name, so cells below a
- * fit follow the data.
+ * times: the laws from t = 0 (simulate/model-run.ts), or a run with its whole schedule (`run`,
+ * fit-through-run.ts). Defines each estimate under its `as` name, and its standard error and
+ * 95% bounds (fit-uncertainty.ts), so cells below a fit follow the data.
  */
 import type { FitCell } from '../study/types.ts';
 import type { Binding, CellError, GraphNode, Law, MeasuredSeries, Outcome, RunContext, RunModel, Use } from '../engine/node.ts';
