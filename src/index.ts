@@ -33,3 +33,4 @@ export { fieldWords, cellWords, KIND_LABELS } from './output/field-words.ts';
 export { problemWords, partsWords, waitWords, waitedOn, type ReportsOf } from './output/problem-words.ts';
 export { inspectorNotes, residualSdReason } from './output/sheet-notes.ts';
 export { fieldReadsStates } from './cells/reads-states.ts';
+export { UNCERTAINTY_ENDINGS } from './cells/fit-uncertainty.ts';

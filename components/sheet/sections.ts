@@ -67,7 +67,7 @@ function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[]): TemplateResu
   if (cell.kind === 'phase' && isKind(r, 'phase')) return phase(cell, r, (cells.find((c) => c.id === cell.rate) as Of<'rate'> | undefined)?.state ?? '');
   if (cell.kind === 'simulate' && isKind(r, 'simulate')) return simulate(cell, r);
   if (cell.kind === 'data' && isKind(r, 'data')) return data(cell, r);
-  if (cell.kind === 'fit' && isKind(r, 'fit')) return fit(cell, r);
+  if (cell.kind === 'fit' && isKind(r, 'fit')) return fit(cell, r, cells);
   if (cell.kind === 'nca' && isKind(r, 'nca')) return nca(cell, r);
   if (cell.kind === 'solve' && isKind(r, 'solve')) return solve(cell, r);
   return html`<p class="muted">Not computed.</p>`;
@@ -195,10 +195,11 @@ function data(cell: Of<'data'>, r: ReportOf<'data'>): TemplateResult {
     : html`<pre>${typeof cell.csv === 'string' ? cell.csv : ''}</pre>`}`;
 }
 
-function fit(cell: Of<'fit'>, r: ReportOf<'fit'>): TemplateResult {
+function fit(cell: Of<'fit'>, r: ReportOf<'fit'>, cells: readonly Cell[]): TemplateResult {
   const est = r.estimates ?? {};
   const plot = r.plot;
-  return html`<table class="results"><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead>
+  return html`${cell.run !== undefined ? html`<p>Fitted through ${cellWords({ cells }, cell.run)}: its start, laws and every event of its schedule; the data's times are on its clock.</p>` : nothing}
+    <table class="results"><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead>
     <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
     <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, residual SD ${r.residualSD ? showQ(r.residualSD) : residualSdReason(r)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message}).</p>

@@ -101,7 +101,10 @@ export const WEIGHTINGS = ['none', 'relative', 'proportional'] as const;
 export interface FitEstimate { parameter: string; as: string; guess: string; min?: string; max?: string; /** unit to show the estimate in (optional) */ unit?: string }
 export interface FitCell extends CellBase {
   kind: 'fit';
-  rates: string[];
+  /** The rate cells whose laws are fitted from t = 0 with no events; absent when `run` is given. */
+  rates?: string[];
+  /** A simulate cell whose span start, laws and whole schedule are the model (instead of `rates`). */
+  run?: string;
   data: string;
   time: string;
   observe: Record<string, string>;

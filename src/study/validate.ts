@@ -148,7 +148,11 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
       checkData(c, p);
       break;
     case 'fit':
-      p.ids(c, 'rates');
+      // the model: the laws named in `rates`, or the run named in `run`, never both
+      if (c.run !== undefined && c.rates !== undefined) p.add(`${at}.run`, 'name either the laws ("rates") or a run ("run"), not both');
+      else if (c.run !== undefined) p.id(c, 'run');
+      else if (c.rates === undefined) p.add(`${at}.rates`, 'is missing: name the laws to fit ("rates") or a run to fit through ("run")');
+      else p.ids(c, 'rates');
       p.id(c, 'data');
       p.text(c, 'time');
       p.oneOf(c, 'plotScale', PLOT_SCALES, true);
