@@ -19,8 +19,10 @@ import { REFERENCE_VERSION, workPrecisionBench } from './work-precision.ts';
 import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
 import { whatIfBenchmarks } from './what-if.ts';
+import { solveBenchmarks } from './solve.ts';
 import { fitBenchmarks } from './fit.ts';
 import { mapFitBenchmarks } from './fit-map.ts';
+import { fitRunBenchmarks } from './fit-run.ts';
 import { ncaBenchmarks } from './nca.ts';
 import { scalingBenchmarks } from './scaling.ts';
 
@@ -339,11 +341,18 @@ function whatIfRows(): Row[] {
   }));
 }
 
+function solveRows(): Row[] {
+  return solveBenchmarks().map((r) => ({
+    measure: `${r.name} (${r.evaluations} what-if runs)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
+  }));
+}
+
 function fitRows(): Row[] {
   return [
     ...fitBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
     ...fitCellBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
     ...mapFitBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
+    ...fitRunBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
     ...ncaBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
   ];
 }
@@ -361,6 +370,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'ODE work-precision: auto against SciPy solve_ivp at equal accuracy', run: workPrecisionRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
   { title: 'What-if runs of a dosing schedule', run: whatIfRows },
+  { title: 'Solving for a dose', run: solveRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'Studies of many cells: opening a chain of parameters', run: scalingBenchmarks },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },

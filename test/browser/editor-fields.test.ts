@@ -46,8 +46,13 @@ export const EVERY_FIELD: Study = {
     { id: 'fm', kind: 'fit', title: 'Bayesian fit', rates: ['cb'], data: 'd', time: 't', observe: { Cb: 'C' },
       estimate: [{ parameter: 'kb', as: 'kb_map', guess: '0.2 / h', prior: { median: '0.25 / h', omega: 0.3 } }],
       error: { additive: '0.2 mg / L', proportional: 0.1 } },
+    { id: 'f2', kind: 'fit', title: 'Through the regimen', run: 'run', data: 'd', time: 't', observe: { C: 'C' },
+      estimate: [{ parameter: 'V', as: 'V_hat', guess: '30 L' }] },
     { id: 'n', kind: 'nca', title: 'Profile', data: 'd', time: 't', concentration: 'C', dose: '500 mg', route: 'infusion', duration: '0.5 h',
       auc: 'linear', terminal: 3, prefix: 'p_', units: { CL: 'mL / min' } },
+    { id: 'sv', kind: 'solve', title: 'Dose for a trough', vary: { parameter: 'dose', as: 'dose_new', min: '100 mg', max: '2000 mg', roundTo: '50 mg', guess: '400 mg' },
+      target: { value: 'trough_last', equals: '1 mg / L' } },
+    { id: 'sc', kind: 'solve', title: 'Interval', vary: { parameter: 'tau', as: 'tau_new', choices: ['8 h', '12 h', '24 h'] }, target: { value: 'trough_last', equals: '1 mg / L' } },
     { id: 'm', kind: 'note', title: 'About', text: 'Every field once, with invented numbers.' },
   ],
 } as Study;
