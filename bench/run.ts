@@ -21,6 +21,7 @@ import { browserBenchmarks } from './browser.ts';
 import { whatIfBenchmarks } from './what-if.ts';
 import { solveBenchmarks } from './solve.ts';
 import { fitBenchmarks } from './fit.ts';
+import { mapFitBenchmarks } from './fit-map.ts';
 import { fitRunBenchmarks } from './fit-run.ts';
 import { ncaBenchmarks } from './nca.ts';
 import { scalingBenchmarks } from './scaling.ts';
@@ -350,6 +351,7 @@ function fitRows(): Row[] {
   return [
     ...fitBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
     ...fitCellBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
+    ...mapFitBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
     ...fitRunBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
     ...ncaBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
   ];

@@ -1,5 +1,5 @@
 import { html, nothing, css } from 'lit';
-import type { PlotScale, ReportOf } from '../../src/index.ts';
+import type { FitErrorModel, FitPrior, PlotScale, ReportOf } from '../../src/index.ts';
 import { cellStyles, plotScaleError, withPlotScale, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import '../expr-field.ts';
@@ -7,6 +7,7 @@ import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
 import '../plots/time-plot.ts';
 import type { PlotScaleEvent } from '../plots/time-plot.ts';
+import { errorModelRow, movedWords, priorRow, type PriorHost } from './fit-prior-fields.ts';
 
 type FitDoc = CellDoc<'fit'>;
 type Estimate = FitDoc['estimate'][number];
@@ -16,6 +17,12 @@ export class FitCellElement extends CellElement<'fit'> {
   static override styles = [cellStyles, css`
     .est expr-field { min-width: 6rem; }
     .scroll { overflow-x: auto; }
+    tr.more td { padding-top: 0; border-bottom: 1px solid #e6eaee; }
+    tr.more details, details.error-model { margin: 0 0 0.3rem; }
+    tr.more summary, details.error-model summary { font-weight: 400; font-size: 0.85rem; color: #3b4650; cursor: pointer; }
+    .moved { font-size: 0.8rem; white-space: normal; }
+    .bayes { font-weight: 600; }
+    input.count { width: 5rem; }
     select[data-field="run"] { max-width: 100%; }
   `];
 
@@ -34,7 +41,10 @@ export class FitCellElement extends CellElement<'fit'> {
     const states = rates.filter((r) => modelLaws.includes(r.id)).map((r) => String(r.state));
     const r = this.report;
     const estimates = r?.estimates ?? {};
+    const host = this.priorHost();
+    const anyPrior = (c.estimate ?? []).some((e) => e?.prior !== undefined);
     return html`
+      ${r?.bayesian ? html`<p class="bayes">Bayesian (MAP) estimate: the data combined with the priors below.</p>` : nothing}
       <div class="row">
         <label>Model <select data-field="run" @change=${(e: Event) => this.setRun((e.target as HTMLSelectElement).value)}>
           <option value="" ?selected=${c.run === undefined}>laws only, from t = 0</option>
@@ -70,16 +80,17 @@ export class FitCellElement extends CellElement<'fit'> {
             <td data-label="Guess"><expr-field data-field="estimate[${i}].guess" label="Estimate ${i + 1} guess" .value=${e.guess ?? ''} .names=${names} .error=${claims.take(`${p}.guess`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { guess: ev.detail.value }, `g${i}`)}></expr-field></td>
             <td data-label="At least"><expr-field data-field="estimate[${i}].min" label="Estimate ${i + 1} lower bound" .value=${e.min ?? ''} .names=${names} .error=${claims.take(`${p}.min`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { min: ev.detail.value || undefined }, `min${i}`)}></expr-field></td>
             <td data-label="At most"><expr-field data-field="estimate[${i}].max" label="Estimate ${i + 1} upper bound" .value=${e.max ?? ''} .names=${names} .error=${claims.take(`${p}.max`) ?? claims.take(`${p}`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { max: ev.detail.value || undefined }, `max${i}`)}></expr-field></td>
-            <td class="result" data-label="Value">${res ? `${showQ(res.value)}${res.atBound ? ' (at a bound)' : ''}` : ''}${res ? html`<unit-pick data-field="estimate[${i}].unit" .unit=${res.value.unit} .picked=${e.unit} label="Show ${e.as} in another unit"
+            <td class="result" data-label="Value">${res ? `${showQ(res.value)}${res.atBound ? ' (at a bound)' : ''}` : ''}${movedWords(res)}${res ? html`<unit-pick data-field="estimate[${i}].unit" .unit=${res.value.unit} .picked=${e.unit} label="Show ${e.as} in another unit"
               @unit-pick=${(ev: CustomEvent<UnitPickDetail>) => this.setEstimate(i, { unit: ev.detail.unit }, `unit${i}`)}></unit-pick>` : nothing}
               ${claims.take(`${p}.unit`) ? html`<div class="foot-error">${claims.take(`${p}.unit`)!.message}</div>` : nothing}</td>
             <td class="result" data-label="Standard error">${res?.standardError ? showQ(res.standardError) : ''}</td>
             <td class="result" data-label="95% interval">${res?.ci95 ? `${showQ(res.ci95[0])} to ${showQ(res.ci95[1])}` : ''}</td>
             <td class="remove"><button class="quiet" aria-label="Remove estimate ${i + 1}" @click=${() => this.edit({ estimate: c.estimate.filter((_, j) => j !== i) })}>✕</button></td>
-          </tr>`;
+          </tr>${priorRow(host, i, e.prior, 9)}`;
         })}</tbody></table></div>
       <div class="row"><button @click=${this.addEstimate}>Estimate another parameter</button></div>
-      ${r?.ok && r.estimates ? html`<p class="muted">${r.converged ? 'Converged' : 'Not converged'} after ${r.iterations} iterations (${r.message}); ${r.n} points, ${r.dof} degrees of freedom${r.residualSD ? `, residual SD ${showQ(r.residualSD)}` : ''}.</p>` : nothing}
+      ${errorModelRow(host, c.error, anyPrior)}
+      ${r?.ok && r.estimates ? html`<p class="muted">${r.converged ? 'Converged' : 'Not converged'} after ${r.iterations} iterations (${r.message}); ${r.n} points${r.bayesian ? '' : `, ${r.dof} degrees of freedom`}${r.residualSD ? `, residual SD ${showQ(r.residualSD)}` : ''}${r.objective !== undefined ? `; objective ${r.objective.toPrecision(4)}` : ''}.${r.errorModel ? ` Standard errors and 95% intervals come from the curvature of the objective (the posterior's normal approximation${r.bayesian ? ', on the log scale for an estimate with a prior' : ''}).` : ''}</p>` : nothing}
       ${this.correlation()}
       ${(r?.warnings ?? []).map((w) => html`<p class="foot-error">${w}</p>`)}
       ${plotScaleError(claims.take('.plotScale'), (s) => this.setPlotScale(s))}
@@ -150,10 +161,23 @@ export class FitCellElement extends CellElement<'fit'> {
     const estimate = this.cell.estimate.map((e, j) => {
       if (j !== i) return e;
       const next = { ...e, ...patch } as Record<string, unknown>;
-      for (const k of ['min', 'max', 'unit']) if (next[k] === undefined) delete next[k];
+      for (const k of ['min', 'max', 'unit', 'prior']) if (next[k] === undefined) delete next[k];
       return next as unknown as Estimate;
     });
     this.edit({ estimate }, key);
+  }
+
+  /** The prior and error-model controls' view of this cell (components/cells/fit-prior-fields.ts). */
+  private priorHost(): PriorHost {
+    return {
+      claims: this.claims, names: this.names,
+      setPrior: (i, prior, key) => this.setEstimate(i, { prior: prior as FitPrior | undefined }, key),
+      setError: (error: FitErrorModel | undefined, key) => {
+        const next = { ...this.cell } as Record<string, unknown>;
+        if (error) next.error = error; else delete next.error;
+        this.replace(next as unknown as FitDoc, key);
+      },
+    };
   }
 
   private addEstimate = () => {

@@ -11,6 +11,7 @@ import { phaseLine } from './phase-line.ts';
 import { STABLE, UNSTABLE } from '../plots/palette.ts';
 import { leftOffLog } from '../plots/time-plot-parts.ts';
 import { math } from './math.ts';
+import { fitPriorPart } from './fit-prior-sheet.ts';
 
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
 
@@ -202,7 +203,8 @@ function fit(cell: Of<'fit'>, r: ReportOf<'fit'>, cells: readonly Cell[]): Templ
     <table class="results"><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead>
     <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
-    <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, residual SD ${r.residualSD ? showQ(r.residualSD) : residualSdReason(r)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message}).</p>
+    ${fitPriorPart(r)}
+    <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, ${r.errorModel ? 'SDs from the error model' : html`residual SD ${r.residualSD ? showQ(r.residualSD) : residualSdReason(r)}, weighting ${cell.weighting ?? 'none'}`}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message}).</p>
     <div class="keep">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log') : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>`;
 }

@@ -20,6 +20,8 @@ import { measuredPoints, type SimulationPlot } from '../simulate/plot-data.ts';
 import { quantitySig } from './signatures.ts';
 import { timeAxisUnits } from '../output/display-units.ts';
 import { residualAxisFloor, withoutRoundOff } from '../output/residuals.ts';
+import { priorFields, readMapSettings, type PriorFields } from './fit-prior.ts';
+import { runMapFit, priorReport, errorModelReport, mapSummary } from './fit-map.ts';
 import { runModelOf, runParameter, checkTimesInRun, jumpTimeNote } from './fit-through-run.ts';
 import { uncertaintyBindings, uncertaintyDefinitions } from './fit-uncertainty.ts';
 
@@ -35,6 +37,7 @@ export function fitNodes(cell: FitCell, at: string): Array<GraphNode<NodeOutput<
     min: e?.min !== undefined ? field(e.min, `${at}.estimate[${i}].min`, problems) : undefined,
     max: e?.max !== undefined ? field(e.max, `${at}.estimate[${i}].max`, problems) : undefined,
   }));
+  const pf = priorFields(cell, at, problems);
   const refs: Use[] = [];
   (Array.isArray(cell.rates) ? cell.rates : []).forEach((r, i) => { if (typeof r === 'string') refs.push({ name: cellRef(r), path: `${at}.rates[${i}]` }); });
   // through a run: the run's model, made from its inputs alone (cells/run-model.ts)
@@ -50,12 +53,12 @@ export function fitNodes(cell: FitCell, at: string): Array<GraphNode<NodeOutput<
       { name: measuredRef(cell.id), path: `${at}.observe` },
     ],
     measures: { name: measuredRef(cell.id), states: cell.observe && typeof cell.observe === 'object' ? Object.keys(cell.observe) : [] },
-    uses: [...usesOf(fields.flatMap((f) => [f.guess, f.min, f.max])), ...refs],
+    uses: [...usesOf(fields.flatMap((f) => [f.guess, f.min, f.max])), ...usesOf(pf.fields), ...refs],
     allowsTime: false,
     pullsCoupledLaws: true,
     signature: JSON.stringify(cell),
     problems,
-    run: (ctx) => guarded(() => runFit(cell, at, fields as Array<{ guess: Field; min?: Field; max?: Field }>, ctx)),
+    run: (ctx) => guarded(() => runFit(cell, at, fields as Array<{ guess: Field; min?: Field; max?: Field }>, pf, ctx)),
   }];
 }
 
@@ -71,7 +74,7 @@ interface Unknown {
   readonly upper: number;
 }
 
-function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: Field; max?: Field }>, ctx: RunContext): Outcome<NodeOutput<'fit'>> {
+function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: Field; max?: Field }>, pf: PriorFields, ctx: RunContext): Outcome<NodeOutput<'fit'>> {
   const through = cell.run !== undefined ? runModelOf(cell, at, ctx) : undefined;
   const laws = through ? [...through.laws] : collectLaws(cell.rates ?? [], `${at}.rates`, ctx);
   const states = laws.map((l) => l.state);
@@ -152,6 +155,10 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     }
   });
   if (points.length === 0) fail(`${at}.data`, 'no observed values to fit');
+  // priors and an error model make it a MAP estimate (cells/fit-prior.ts, cells/fit-map.ts)
+  const map = readMapSettings(cell, at, pf, unknowns.map((u, i) => ({
+    name: u.name, template: u.template, guess: u.guess, upper: u.upper, guessPath: `${at}.estimate[${i}].guess`, maxPath: `${at}.estimate[${i}].max`,
+  })), observed.map((o) => ({ column: o.column, dim: laws[o.si].initial.dim })), lookup);
   const times = [...new Set(table.rows.map((r) => r[ti] as number))].sort((a, c) => a - c);
   const t0 = through ? through.from : Math.min(0, times[0]);
   const rowTime = table.rows.map((r) => times.indexOf(r[ti] as number));
@@ -172,7 +179,9 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     points.forEach((pt, k) => { out[k] = pt.w * (run.values![rowTime[pt.row]][pt.state] - pt.y); });
     return true;
   };
-  const fit = fitLeastSquares({
+  // differences of a solver run (relative tolerance 1e-10) need a step near √rtol, not √ε
+  const mapFit = map ? runMapFit(map, unknowns, points.map((pt) => pt.y), residuals, 1e-5) : undefined;
+  const fit = mapFit ?? fitLeastSquares({
     residuals, m: points.length, p0: unknowns.map((u) => u.guess),
     lower: unknowns.map((u) => u.lower), upper: unknowns.map((u) => u.upper),
     scale: unknowns.map((u) => Math.abs(u.guess) || 1),
@@ -191,6 +200,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     const delta = (si: number): Quantity => ({ si, dim: q.dim, unit: deltaUnit(q.unit), ...(q.temp ? { temp: 'delta' as const } : {}) });
     estimates[u.as] = {
       value: report(q),
+      ...(map && mapFit ? priorReport(map, k, q, mapFit) : {}),
       ...(fit.standardErrors ? { standardError: report(delta(fit.standardErrors[k])) } : {}),
       ...(fit.ci95 ? { ci95: fit.ci95[k].map((x) => report({ ...q, si: x })) } : {}),
       ...(fit.atBound[k] ? { atBound: true as const } : {}),
@@ -208,8 +218,11 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     : weighting === 'none' ? report(difference(firstObserved, sdSI))
       : { value: sdSI, unit: '', si: sdSI };
   const n = unknowns.length;
+  const objective = mapFit ? mapFit.objective : fit.cost === null ? null : 2 * fit.cost;
   const output: Omit<FitFields, 'summary'> = {
     estimates,
+    ...(objective !== null ? { objective } : {}),
+    ...(map ? errorModelReport(map, firstObserved.initial) : {}),
     ...(residualSD ? { residualSD } : {}),
     n: points.length,
     dof: fit.dof,
@@ -225,7 +238,8 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     }),
     residualFloor: report(difference(firstObserved, residualAxisFloor(scale[observed[0].si]))),
   };
-  const summary = `${unknowns.map((u, k) => `${u.as} = ${describe({ ...u.template, si: fit.p[k] })}${fit.standardErrors ? ` (standard error ${describe({ si: fit.standardErrors[k], dim: u.template.dim, unit: deltaUnit(u.template.unit) })})` : ''}`).join('; ')}; ${points.length} points${residualSD && weighting === 'none' ? `, residual SD ${describe(difference(firstObserved, sdSI!))}` : ''}; ${fit.converged ? 'converged' : `not converged (${fit.message})`}.`;
+  const summary = map && mapFit ? mapSummary(map, unknowns.map((u) => u.as), unknowns.map((u) => u.template), mapFit, points.length)
+    : `${unknowns.map((u, k) => `${u.as} = ${describe({ ...u.template, si: fit.p[k] })}${fit.standardErrors ? ` (standard error ${describe({ si: fit.standardErrors[k], dim: u.template.dim, unit: deltaUnit(u.template.unit) })})` : ''}`).join('; ')}; ${points.length} points${residualSD && weighting === 'none' ? `, residual SD ${describe(difference(firstObserved, sdSI!))}` : ''}; ${fit.converged ? 'converged' : `not converged (${fit.message})`}.`;
   // the measurements in SI, so that plots of the same states elsewhere can show them
   const series = observed.map((o) => {
     const rows = table.rows.filter((r) => r[o.ci] !== null && r[ti] !== null);

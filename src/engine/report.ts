@@ -204,6 +204,14 @@ export interface EstimateReport {
   standardError?: ReportQuantity;
   ci95?: ReportQuantity[];
   atBound?: true;
+  /**
+   * A Bayesian fit's estimate with a prior: the prior's median (in the estimate's unit) and
+   * omega, and how far the data moved the estimate from it: `ratio` = estimate / median,
+   * `shift` = (log estimate − log median) / omega (in omegas).
+   */
+  prior?: { median: ReportQuantity; omega: number; ratio: number; shift: number };
+  /** The posterior SD of log P, for an estimate with a prior: its ci95 is exp(log P̂ ± 1.96·logSD). */
+  logSD?: number;
 }
 
 export interface FitResidual {
@@ -216,6 +224,15 @@ export interface FitResidual {
 
 export interface FitFields {
   estimates: Record<string, EstimateReport>;
+  /**
+   * The objective at the estimate: the sum of squared (weighted) residuals; with an error
+   * model, Σ((y − f)/σ)² plus, for a Bayesian fit, Σ(log P − log median)²/omega².
+   */
+  objective?: number;
+  /** True for a Bayesian (MAP) estimate: some estimate has a prior. */
+  bayesian?: true;
+  /** The error model, when given: σ² = additive² + (proportional · f)². */
+  errorModel?: { additive?: ReportQuantity; proportional: number };
   residualSD?: ReportQuantity;
   n: number;
   dof: number;

@@ -1,6 +1,7 @@
 /**
  * Cautions a study must carry, decided from what it models: doses (a schedule that adds to or
- * infuses into a state, a non-compartmental analysis, or a name about dosing), and
+ * infuses into a state, a non-compartmental analysis, a fit of a drug's levels, or a name
+ * about dosing), and
  * temperature limits (a temperature state checked against a level): the food code's when the
  * study speaks of food, the applicable rules' otherwise. The wording
  * defers to licensed practice and local codes; it never gives advice of its own.
@@ -21,13 +22,28 @@ export const PRACTICE_CAUTION = 'Temperature limits and handling rules come from
 const FOOD_WORDS = /\b(food|cook|cooked|chill|chiller|walk-in|refrigerat|fridge|freezer|rice|stock pot|soup|stew|chili|sauce|meat|poultry|kitchen|hot[- ]holding|cold[- ]holding)/i;
 const DOSING_WORDS = /dose|dosing|bolus|infus|regimen|mg\s*\/\s*kg/i;
 const TEMPERATURE_UNITS = /\b(degC|degF|K|degR)\b/;
+/** A concentration by mass or amount per volume, as drug levels are measured (mg/L, ug/mL, umol/L). */
+const LEVEL_UNITS = /\b(g|mg|ug|mcg|µg|ng|mol|mmol|umol|nmol)\s*\/\s*(L|dL|mL|uL)\b/;
+const DRUG_WORDS = /\b(drug|plasma|serum|patient|trough|antibiotic|medicine|medication)s?\b/i;
+
+/**
+ * A fit of a drug's levels: a fit observing a state measured as a concentration by mass or
+ * amount per volume, that is Bayesian (an individual estimate from population priors) or
+ * sits in a study that speaks of drugs, plasma, serum or patients.
+ */
+function fitsDrugLevels(cells: readonly Cell[], text: string): boolean {
+  const levelStates = new Set(cells.filter((c) => c.kind === 'rate' && typeof c.unit === 'string' && LEVEL_UNITS.test(c.unit)).map((c) => (c as { state: string }).state));
+  return cells.some((c) => c.kind === 'fit' && c.observe !== null && typeof c.observe === 'object'
+    && Object.keys(c.observe).some((s) => levelStates.has(s))
+    && ((Array.isArray(c.estimate) && c.estimate.some((e) => e?.prior !== undefined)) || DRUG_WORDS.test(text)));
+}
 
 export function cautionsFor(cells: readonly Cell[]): Caution[] {
   const out: Caution[] = [];
   const text = JSON.stringify(cells);
   const dosing = cells.some((c) => c.kind === 'nca'
     || (c.kind === 'simulate' && Array.isArray(c.events) && c.events.some((e) => e && (e.add !== undefined || e.infuse !== undefined))))
-    || DOSING_WORDS.test(text);
+    || DOSING_WORDS.test(text) || fitsDrugLevels(cells, text);
   if (dosing) out.push({ kind: 'dosing', text: DOSING_CAUTION });
   const temperatureStates = new Set(cells.filter((c) => c.kind === 'rate' && typeof c.unit === 'string' && TEMPERATURE_UNITS.test(c.unit)).map((c) => (c as { state: string }).state));
   const checked = cells.some((c) => c.kind === 'simulate' && Array.isArray(c.find)

@@ -98,7 +98,21 @@ export interface DataColumn { name: string; unit: string }
 export interface DataCell extends CellBase { kind: 'data'; columns: DataColumn[]; rows?: Array<Array<number | null>>; csv?: string }
 
 export const WEIGHTINGS = ['none', 'relative', 'proportional'] as const;
-export interface FitEstimate { parameter: string; as: string; guess: string; min?: string; max?: string; /** unit to show the estimate in (optional) */ unit?: string }
+/**
+ * A log-normal prior on an estimate: log P ~ N(log median, omega²). `omega` is a plain number,
+ * written as a number or as an expression.
+ */
+export interface FitPrior { median: string; omega: number | string }
+export interface FitEstimate {
+  parameter: string; as: string; guess: string; min?: string; max?: string;
+  /** unit to show the estimate in (optional) */ unit?: string;
+  /** makes the fit a Bayesian (MAP) estimate (optional) */ prior?: FitPrior;
+}
+/**
+ * A fit's error model: σ² = additive² + (proportional · f)². `additive` is an expression in the
+ * observed column's unit; `proportional` a plain number (a number or an expression).
+ */
+export interface FitErrorModel { additive?: string; proportional?: number | string }
 export interface FitCell extends CellBase {
   kind: 'fit';
   /** The rate cells whose laws are fitted from t = 0 with no events; absent when `run` is given. */
@@ -110,6 +124,8 @@ export interface FitCell extends CellBase {
   observe: Record<string, string>;
   estimate: FitEstimate[];
   weighting?: (typeof WEIGHTINGS)[number];
+  /** The measurement error model (required when an estimate has a prior). */
+  error?: FitErrorModel;
   /**
    * How the fitted curve's state axis is drawn (optional, a Ratebook display field), as a
    * simulate cell's `plotScale`; the residual plot stays linear (residuals are signed).

@@ -175,9 +175,18 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
           if (e.min !== undefined) p.expr(e, 'min', path);
           if (e.max !== undefined) p.expr(e, 'max', path);
           p.optionalText(e, 'unit', path);
+          if (e.prior !== undefined && p.object(e.prior, `${path}.prior`)) {
+            p.expr(e.prior, 'median', `${path}.prior`);
+            p.numberOrExpr(e.prior, 'omega', `${path}.prior`, false);
+          }
         });
       }
       p.oneOf(c, 'weighting', WEIGHTINGS, true);
+      if (c.error !== undefined && p.object(c.error, 'error')) {
+        if (c.error.additive !== undefined) p.expr(c.error, 'additive', 'error');
+        p.numberOrExpr(c.error, 'proportional', 'error', true);
+        if (c.error.additive === undefined && c.error.proportional === undefined) p.add(`${at}.error`, 'must give an additive SD, a proportional SD, or both');
+      }
       break;
     case 'nca':
       p.id(c, 'data');
@@ -422,6 +431,14 @@ class Checker {
     if (!Number.isInteger(v) || (v as number) < min || (v as number) > max) {
       this.add(this.where(field, within), `must be a whole number from ${min} to ${max}`);
     }
+  }
+
+  /** A plain number written as a number or as an expression (checked later, by the parser). */
+  numberOrExpr(o: Record<string, unknown>, field: string, within: string, optional: boolean): void {
+    const v = o[field];
+    if (v === undefined && optional) return;
+    if (typeof v === 'string') return;
+    if (typeof v !== 'number' || !Number.isFinite(v)) this.add(this.where(field, within), v === undefined ? 'is missing' : 'must be a number, or an expression written as text');
   }
 
   oneOf(o: Record<string, unknown>, field: string, allowed: readonly string[], optional: boolean, within?: string): void {
