@@ -29,6 +29,8 @@ const PREVIEW_LINES = 8;
  */
 export class DataCellElement extends CellElement<'data'> {
   static override properties: PropertyDeclarations = { problem: { state: true }, read: { state: true }, reading: { state: true }, wholeText: { state: true } };
+  /** The rows of the text last shown, counted once per text. */
+  private counted?: { text: string; rows: number };
   /** The whole of a long CSV text is shown in the text box (asked for). */
   wholeText = false;
   problem?: string;
@@ -112,7 +114,8 @@ export class DataCellElement extends CellElement<'data'> {
 
   /** The CSV text in a box to edit, or, when long, its first lines and the count of the rest. */
   private textBox(csv: string) {
-    const rows = roughRowCount(csv);
+    if (this.counted?.text !== csv) this.counted = { text: csv, rows: roughRowCount(csv) };
+    const rows = this.counted.rows;
     if (this.wholeText || rows <= LONG_TEXT_ROWS) {
       return html`<textarea id="csv" data-field="csv" spellcheck="false" .value=${live(csv)} @paste=${this.onPaste} @input=${(e: Event) => this.editCsv((e.target as HTMLTextAreaElement).value)}></textarea>`;
     }
