@@ -41,15 +41,9 @@ export class DataGridElement extends LitElement {
   /** The row whose entry has focus, drawn wherever the window is. */
   focusRow?: number;
   viewRows = DEFAULT_VIEW_ROWS;
-  private frame?: number;
 
   protected override createRenderRoot() {
     return this;
-  }
-
-  override disconnectedCallback(): void {
-    super.disconnectedCallback();
-    if (this.frame !== undefined) cancelAnimationFrame(this.frame);
   }
 
   /** The rows drawn: the window around `top`, and the focused row. */
@@ -101,14 +95,8 @@ export class DataGridElement extends LitElement {
     this.dispatchEvent(new CustomEvent(type, { detail }));
   }
 
-  private onScroll = (e: Event) => {
-    const box = e.currentTarget as HTMLElement;
-    if (this.frame !== undefined) return;
-    this.frame = requestAnimationFrame(() => {
-      this.frame = undefined;
-      this.place(box);
-    });
-  };
+  /** Scroll events come at most once a frame, so the window moves at once (a render is small). */
+  private onScroll = (e: Event) => this.place(e.currentTarget as HTMLElement);
 
   /** The window from the box's scroll position and height. */
   private place(box: HTMLElement): void {
