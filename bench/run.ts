@@ -22,6 +22,7 @@ import { whatIfBenchmarks } from './what-if.ts';
 import { fitBenchmarks } from './fit.ts';
 import { ncaBenchmarks } from './nca.ts';
 import { scalingBenchmarks } from './scaling.ts';
+import { csvBenchmarks } from './csv.ts';
 
 /** One line of a section's table. `met` is undefined for a figure with no goal. */
 interface Row {
@@ -361,6 +362,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'What-if runs of a dosing schedule', run: whatIfRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'Studies of many cells: opening a chain of parameters', run: scalingBenchmarks },
+  { title: 'Large CSV logs read into a table', run: csvBenchmarks },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },
 ];
 
