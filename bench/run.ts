@@ -25,6 +25,7 @@ import { mapFitBenchmarks } from './fit-map.ts';
 import { fitRunBenchmarks } from './fit-run.ts';
 import { ncaBenchmarks } from './nca.ts';
 import { scalingBenchmarks } from './scaling.ts';
+import { csvBenchmarks } from './csv.ts';
 
 /** One line of a section's table. `met` is undefined for a figure with no goal. */
 interface Row {
@@ -373,6 +374,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Solving for a dose', run: solveRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'Studies of many cells: opening a chain of parameters', run: scalingBenchmarks },
+  { title: 'Large CSV logs read into a table', run: csvBenchmarks },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },
 ];
 

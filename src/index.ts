@@ -22,7 +22,9 @@ export { type Quantity, report as reportQuantity, describe as describeQuantity, 
 export { FUNCTION_NAMES } from './expression/functions.ts';
 export { runStudy, exitCodeOf } from './engine/run.ts';
 export { tableFromCsv } from './cells/data.ts';
-export type { CsvRead, CsvColumn, CsvRowProblem } from './csv/read.ts';
+export type { CsvRead, CsvColumn, CsvRowProblem, DeclaredColumn } from './csv/read.ts';
+export { readCsvTable } from './csv/read.ts';
+export { type ToCsvWorker, type FromCsvWorker, PASTE_ROW_LIMIT, roughRowCount } from './csv/worker-messages.ts';
 export type { ItemTex } from './output/sheet-tex.ts';
 export { unitChoicesFor, timeAxisUnits, TRADE_UNITS, type AxisUnit } from './output/display-units.ts';
 export { nameTex } from './expression/tex.ts';

@@ -1,25 +1,55 @@
 import { html, css, nothing, unsafeCSS, type PropertyDeclarations } from 'lit';
-import type { CsvReadReport } from '../../src/index.ts';
-import { tableFromCsv } from '../../src/index.ts';
+import { live } from 'lit/directives/live.js';
+import type { CsvRead, CsvReadReport } from '../../src/index.ts';
+import { PASTE_ROW_LIMIT, roughRowCount } from '../../src/index.ts';
 import { cellStyles, NARROW_PX, type ErrorClaims } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
+import { ROW_PX, type EntryEdit } from './data-grid.ts';
+import { readCsvOffThread } from '../csv-client.ts';
 
 type DataCellDoc = CellDoc<'data'>;
 type Entry = number | string | null;
 
 /**
+ * CSV text of more rows than this is shown as its first lines, not in a text box: a browser's
+ * text box holding (or pasted) thousands of lines holds the page for a second or more. A paste
+ * that makes the text this long is written by the cell, not by the browser, for that reason.
+ * "Edit the whole text" opens the box all the same.
+ */
+const LONG_TEXT_ROWS = 1_000;
+/** Lines of a long text shown. */
+const PREVIEW_LINES = 8;
+
+/**
  * A data cell: the measurements as a table to edit in place (a unit per column, rows added
- * and deleted), or as CSV text pasted from a spreadsheet or read from a file. Bad entries are
- * kept as typed and flagged on their row by the engine; nothing is dropped.
+ * and deleted; only the rows in view are drawn, `data-grid.ts`), or as CSV text pasted from a
+ * spreadsheet or read from a file. CSV text becomes a table in the CSV worker, with the rows
+ * read shown as it goes. Bad entries are kept as typed and flagged on their row by the
+ * engine; nothing is dropped.
  */
 export class DataCellElement extends CellElement<'data'> {
-  static override properties: PropertyDeclarations = { problem: { state: true }, read: { state: true } };
+  static override properties: PropertyDeclarations = { problem: { state: true }, read: { state: true }, reading: { state: true }, wholeText: { state: true } };
+  /** The rows of the text last shown, counted once per text. */
+  private counted?: { text: string; rows: number };
+  /** The whole of a long CSV text is shown in the text box (asked for). */
+  wholeText = false;
   problem?: string;
   /** What the engine said when it last read CSV text into the table: its notes and refused rows. */
   read?: CsvReadReport;
+  /** A read into a table under way: rows read so far, about how many there are, what is read. */
+  reading?: { rowsRead: number; rows: number; what: string; stop: AbortController };
+  /** The read into a table last started, settled when it has been applied or refused (for tests). */
+  converted?: Promise<void>;
   static override styles = [cellStyles, css`
     table.grid { width: auto; }
     table.grid input { width: 6.5rem; font-variant-numeric: tabular-nums; text-align: right; }
+    table.grid tbody tr { height: ${unsafeCSS(ROW_PX)}px; }
+    table.grid tbody td { padding-top: 0; padding-bottom: 0; vertical-align: middle; }
+    table.grid tbody input { height: ${unsafeCSS(ROW_PX - 6)}px; box-sizing: border-box; }
+    table.grid tr.gap td { padding: 0; }
+    .long-text pre { margin: 0.3rem 0 0; padding: 0.4rem; background: #f4f6f8; border: 1px solid #9aa6b1; border-radius: 4px; font-size: 0.85rem; overflow-x: auto; }
+    .reading { display: flex; gap: 0.6rem; align-items: center; }
+    .reading progress { width: 14rem; }
     table.grid th input { display: block; text-align: left; margin-bottom: 2px; }
     table.grid th input:first-child { font-weight: 600; }
     tr.flagged td { background: #fdeceb; }
@@ -44,21 +74,16 @@ export class DataCellElement extends CellElement<'data'> {
     }
     return html`
       ${c.csv !== undefined ? this.csvView(claims) : html`
-        <div class="scroll"><table class="grid">
-          <thead><tr><th><span class="sr">Row</span></th>${columns.map((col, j) => html`<th>${this.column(j, claims)}</th>`)}<th><span class="sr">Delete</span></th></tr></thead>
-          <tbody>${(c.rows ?? []).map((row, r) => html`<tr class=${flagged.has(r) ? 'flagged' : ''} title=${flagged.get(r) ?? ''}>
-            <td class="muted">${r + 1}</td>
-            ${columns.map((col, j) => html`<td><input type="text" inputmode="decimal" data-field="rows" aria-label="Row ${r + 1}, ${col.name}" .value=${show(row[j] as Entry)}
-              @change=${(e: Event) => this.setEntry(r, j, (e.target as HTMLInputElement).value)} /></td>`)}
-            <td><button class="quiet" aria-label="Delete row ${r + 1}" @click=${() => this.deleteRow(r)}>✕</button></td>
-          </tr>`)}</tbody>
-        </table></div>
+        <data-grid .names=${columns.map((col) => col.name)} .heads=${columns.map((_, j) => this.column(j, claims))} .rows=${c.rows ?? []} .flagged=${flagged}
+          @entry=${(e: CustomEvent<EntryEdit>) => this.setEntry(e.detail.row, e.detail.column, e.detail.text)}
+          @delete-row=${(e: CustomEvent<number>) => this.deleteRow(e.detail)}></data-grid>
         <div class="row">
           <button @click=${this.addRow}>Add a row</button>
           <button @click=${this.addColumn}>Add a column</button>
           <button @click=${() => this.replace({ ...withoutRows(c), csv: toCsv(c) })}>Edit as CSV text</button>
-          <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label>
+          ${this.importControl()}
         </div>`}
+      ${this.reading ? this.progress(this.reading) : nothing}
       ${c.csv === undefined && this.read ? csvReport(this.read, 'Read from the CSV text') : nothing}
       ${this.report?.ok ? html`<p class="muted">${this.report.rowCount} rows${this.report.note ? `; ${this.report.note}` : ''}.</p>` : nothing}
       ${this.problem ? html`<p class="foot-error" role="alert">${this.problem}</p>` : nothing}
@@ -80,15 +105,71 @@ export class DataCellElement extends CellElement<'data'> {
     const read = (this.read?.problems?.length ? this.read : undefined) ?? this.report?.csv;
     return html`<label class="muted" for="csv">CSV text: a header row of column names (a unit may follow in parentheses, such as Temp (°C)), then one row per time, as a number or a clock time (comma, tab or semicolon separated; paste straight from a spreadsheet or a logger export)</label>
       <div class="row columns"><span class="lbl">Columns</span>${columns.map((_, j) => html`<span class="column">${this.column(j, claims)}</span>`)}</div>
-      <textarea id="csv" data-field="csv" .value=${this.cell.csv ?? ''} @input=${(e: Event) => this.editCsv((e.target as HTMLTextAreaElement).value)}></textarea>
+      ${this.textBox(this.cell.csv ?? '')}
       ${error && !read?.problems?.length ? html`<p class="foot-error" role="alert">${error.message}</p>` : nothing}
       ${read ? csvReport(read, 'Read from the header and rows') : nothing}
-      <div class="row"><button @click=${this.toTable}>Turn into a table</button>
-        <label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" @change=${this.importFile} /></label></div>`;
+      <div class="row"><button class="to-table" @click=${this.toTable} ?disabled=${!!this.reading}>Turn into a table</button>
+        ${this.importControl()}</div>`;
   }
+
+  /** The CSV text in a box to edit, or, when long, its first lines and the count of the rest. */
+  private textBox(csv: string) {
+    if (this.counted?.text !== csv) this.counted = { text: csv, rows: roughRowCount(csv) };
+    const rows = this.counted.rows;
+    if (this.wholeText || rows <= LONG_TEXT_ROWS) {
+      return html`<textarea id="csv" data-field="csv" spellcheck="false" .value=${live(csv)} @paste=${this.onPaste} @input=${(e: Event) => this.editCsv((e.target as HTMLTextAreaElement).value)}></textarea>`;
+    }
+    const lines = firstLines(csv, PREVIEW_LINES);
+    return html`<div class="long-text" data-field="csv" role="group" aria-label="CSV text, its first lines">
+      <pre>${lines}</pre>
+      <p class="muted">… about ${(rows + 1 - PREVIEW_LINES).toLocaleString('en-US')} more lines (${rows.toLocaleString('en-US')} rows, ${Math.ceil(csv.length / 1024).toLocaleString('en-US')} KB of text).
+        <button class="quiet" @click=${() => { this.wholeText = true; }}>Edit the whole text</button> (a long text makes the page slow while it is open)</p></div>`;
+  }
+
+  private importControl() {
+    return html`<label>Import a CSV file <input type="file" accept=".csv,text/csv,text/plain" ?disabled=${!!this.reading} @change=${this.importFile} /></label>`;
+  }
+
+  /** A read under way: a progress bar of the rows read, and a way to stop it (nothing changes then). */
+  private progress(r: NonNullable<DataCellElement['reading']>) {
+    const words = `${r.what}: ${r.rowsRead.toLocaleString('en-US')} of about ${r.rows.toLocaleString('en-US')} rows read`;
+    return html`<div class="row reading"><progress max=${Math.max(1, r.rows)} .value=${Math.min(r.rowsRead, r.rows)} aria-label=${r.what}></progress>
+      <span role="status">${words}</span><button class="quiet" @click=${() => r.stop.abort()}>Stop</button></div>`;
+  }
+
+  override disconnectedCallback(): void {
+    super.disconnectedCallback();
+    this.reading?.stop.abort();
+  }
+
+  /**
+   * A paste into the CSV text. Past `PASTE_ROW_LIMIT` rows it is refused with a message that
+   * points to the file import (the text stays as it was; the paste is still on the clipboard).
+   * A long paste is written into the box by the cell (the same text where the browser would
+   * put it), as one edit: the browser's own paste of a long text holds the page for seconds.
+   */
+  private onPaste = (e: ClipboardEvent) => {
+    const text = e.clipboardData?.getData('text/plain');
+    if (!text) return;
+    const rows = roughRowCount(text);
+    if (rows > PASTE_ROW_LIMIT) {
+      e.preventDefault();
+      this.problem = `This paste holds about ${rows.toLocaleString('en-US')} rows; a paste into the text holds at most ${PASTE_ROW_LIMIT.toLocaleString('en-US')}. Save it as a CSV file and use "Import a CSV file", which reads it straight into the table. The text here is unchanged.`;
+      return;
+    }
+    const area = e.target as HTMLTextAreaElement;
+    const value = area.value.slice(0, area.selectionStart) + text + area.value.slice(area.selectionEnd);
+    if (rows <= LONG_TEXT_ROWS && roughRowCount(value) <= LONG_TEXT_ROWS) return;
+    e.preventDefault();
+    this.problem = undefined;
+    this.wholeText = false;
+    this.editCsv(value);
+    void this.updateComplete.then(() => (this.shadowRoot?.querySelector('button.to-table') as HTMLButtonElement | null)?.focus());
+  };
 
   private editCsv(csv: string) {
     this.read = undefined;
+    if (this.problem?.startsWith('This paste holds')) this.problem = undefined;
     this.edit({ csv }, 'csv');
   }
 
@@ -118,36 +199,76 @@ export class DataCellElement extends CellElement<'data'> {
   };
 
   /**
-   * The CSV text as a table, read by the engine's CSV reader (its columns, with the header's
-   * units, and rows); the engine's notes stay shown. A problem is shown and nothing changes.
+   * The CSV text as a table, read by the engine's CSV reader in the CSV worker (its columns,
+   * with the header's units, and rows); the engine's notes stay shown. A problem is shown and
+   * nothing changes; so too when the text was changed while it was read.
    */
   private toTable = () => {
-    const r = tableFromCsv(this.cell.csv ?? '', this.cell.columns);
-    this.read = { notes: r.notes, ...(r.ok ? {} : { problems: r.problems }) };
-    if (!r.ok) {
-      this.problem = r.problems.length ? undefined : r.message;
-      return;
-    }
-    this.problem = undefined;
-    const { csv: _csv, ...rest } = this.cell;
-    this.replace({ ...rest, columns: r.columns.map((col) => ({ name: col.name, unit: col.unit })), rows: r.rows } as DataCellDoc);
+    const text = this.cell.csv ?? '';
+    this.convert(text, 'Turning the text into a table', (r) => {
+      if ((this.cell.csv ?? '') !== text) {
+        this.problem = 'The text changed while it was being read, so nothing was turned into a table: press "Turn into a table" again.';
+        return;
+      }
+      this.showRead(r);
+      if (r.ok) this.adopt(r);
+    });
   };
 
+  /**
+   * A CSV file read straight into the table, in the CSV worker. If it cannot be read, its
+   * refused rows are listed and, up to `PASTE_ROW_LIMIT` rows, its text is put in the cell's
+   * CSV text to correct; a longer file leaves the cell as it was.
+   */
   private importFile = async (e: Event) => {
     const input = e.target as HTMLInputElement;
     const file = input.files?.[0];
     if (!file) return;
     const text = await file.text();
     input.value = '';
-    this.read = undefined;
-    this.replace({ ...withoutRows(this.cell), csv: text });
+    this.convert(text, `Reading ${file.name}`, (r) => {
+      this.showRead(r);
+      if (r.ok) return this.adopt(r);
+      if (roughRowCount(text) <= PASTE_ROW_LIMIT) this.replace({ ...withoutRows(this.cell), csv: text });
+    });
   };
+
+  /** Reads `text` in the CSV worker with progress shown, then hands the read to `done` (not when stopped). */
+  private convert(text: string, what: string, done: (r: CsvRead) => void): void {
+    if (this.reading) return;
+    const stop = new AbortController();
+    const reading = { rowsRead: 0, rows: roughRowCount(text), what, stop };
+    this.reading = reading;
+    this.problem = undefined;
+    this.converted = readCsvOffThread(text, this.cell.columns ?? [], (rowsRead) => { this.reading = { ...reading, rowsRead }; }, stop.signal).then((r) => {
+      this.reading = undefined;
+      if (r) done(r);
+    });
+  }
+
+  private showRead(r: CsvRead): void {
+    this.read = { notes: r.notes, ...(r.ok ? {} : { problems: r.problems }) };
+    this.problem = r.ok || r.problems.length ? undefined : r.message;
+  }
+
+  /** The read table in place of the cell's text or rows: one edit. */
+  private adopt(r: Extract<CsvRead, { ok: true }>): void {
+    const { csv: _csv, ...rest } = this.cell;
+    this.replace({ ...rest, columns: r.columns.map((col) => ({ name: col.name, unit: col.unit })), rows: r.rows } as DataCellDoc);
+  }
 }
 
 /** The engine's report of reading CSV text, under a heading: notes, the start of clock times, refused rows. */
 function csvReport(read: CsvReadReport, heading: string) {
   return html`${read.notes.length ? html`<p class="muted">${heading}:</p><ul class="csv-notes muted">${read.notes.map((n) => html`<li>${n}</li>`)}</ul>` : nothing}
     ${read.problems?.length ? html`<ol class="csv-rows" role="alert">${read.problems.map((p) => html`<li class="foot-error">Row ${p.row} (line ${p.line}) <code>${p.text}</code>: ${p.message}</li>`)}</ol>` : nothing}`;
+}
+
+/** The first `n` lines of `text` (found without splitting the rest). */
+function firstLines(text: string, n: number): string {
+  let at = -1;
+  for (let k = 0; k < n && (k === 0 || at >= 0); k++) at = text.indexOf('\n', at + 1);
+  return at < 0 ? text : text.slice(0, at);
 }
 
 function show(v: Entry): string {

@@ -258,17 +258,32 @@ export class TimePlot extends LitElement {
     }
     ctx.setLineDash([]);
 
+    const pointsShown = new Map<(typeof this.points)[number], Array<[number, number]>>();
     for (const m of this.points.filter((m) => inPanel(m.state))) {
       ctx.strokeStyle = seriesColour(stateIndex(m.state));
       ctx.fillStyle = '#fff';
       ctx.lineWidth = 1.5 * r;
+      // one path per series, a point on the pixel of the one before left out: thousands of
+      // measurements draw in one fill and one stroke
+      const scale = scaleOf(m.state);
+      const shown: Array<[number, number]> = [];
+      let lastX = NaN;
+      let lastY = NaN;
+      ctx.beginPath();
       m.t.forEach((t, i) => {
         if (!placeable(m.values[i])) return;
-        ctx.beginPath();
-        ctx.arc(u.valToPos(t, 'x', true), u.valToPos(m.values[i], scaleOf(m.state), true), 3.5 * r, 0, 2 * Math.PI);
-        ctx.fill();
-        ctx.stroke();
+        const x = u.valToPos(t, 'x', true);
+        const y = u.valToPos(m.values[i], scale, true);
+        if (Math.abs(x - lastX) < r && Math.abs(y - lastY) < r) return;
+        lastX = x;
+        lastY = y;
+        shown.push([(x - left) / r, (y - top) / r]);
+        ctx.moveTo(x + 3.5 * r, y);
+        ctx.arc(x, y, 3.5 * r, 0, 2 * Math.PI);
       });
+      ctx.fill();
+      ctx.stroke();
+      pointsShown.set(m, shown);
     }
 
     const marks = p.marks.filter((m) => inPanel(m.state) && placeable(m.value));
@@ -294,9 +309,7 @@ export class TimePlot extends LitElement {
       labels.push({ x, y, text: m.label, kind: 'mark' });
       clear.push(around(x, y));
     }
-    for (const m of this.points.filter((m) => inPanel(m.state))) {
-      m.t.forEach((t, i) => placeable(m.values[i]) && clear.push(around(u.valToPos(t, 'x'), u.valToPos(m.values[i], scaleOf(m.state)), 4)));
-    }
+    for (const shown of pointsShown.values()) for (const [x, y] of shown) clear.push(around(x, y, 4));
     for (const l of p.levels.filter((l) => inPanel(l.state) && placeable(l.value))) {
       const y = u.valToPos(l.value, scaleOf(l.state));
       if (inside(cssW, y)) labels.push({ x: cssW - 2, y, text: l.label, kind: 'level', along: [0.75, 0.5, 0.25].map((f) => f * cssW) });

@@ -52,7 +52,12 @@ export type CsvRead =
 export interface CsvReadOptions {
   /** When the header's columns match the cell's neither by name nor by position, take the header's (names and units). */
   readonly adopt?: boolean;
+  /** Told the number of rows read so far, every `PROGRESS_EVERY` rows while the text is parsed (for a progress bar). */
+  readonly onProgress?: (rowsRead: number) => void;
 }
+
+/** How often, in rows, `onProgress` is told. */
+export const PROGRESS_EVERY = 2_000;
 
 const DOT_NUMBER = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/;
 const COMMA_NUMBER = /^[-+]?(\d+,\d*|,\d+)([eE][-+]?\d+)?$/;
@@ -83,7 +88,7 @@ export function readCsvTable(text: string, declared: readonly DeclaredColumn[], 
   const separator = SEPARATORS.find((s) => header.text.includes(s)) ?? SEPARATORS.find((s) => dataLine?.text.includes(s)) ?? ',';
   const decimalComma = separator !== ',';
 
-  const parsed = parseFrom(lines, header.index, separator);
+  const parsed = parseFrom(lines, header.index, separator, options.onProgress);
   if ('message' in parsed) return fail(parsed.message);
   const [head, ...body] = parsed.rows;
   const entries = head.fields.map(readHeaderEntry);
@@ -159,7 +164,7 @@ function looksLikeValue(line: string): boolean {
 interface Parsed { readonly fields: string[]; readonly line: number }
 
 /** The rows from line `from` on, each with its line number (1-based); rows of empty fields left out. */
-function parseFrom(lines: readonly string[], from: number, delimiter: string): { rows: Parsed[] } | { message: string } {
+function parseFrom(lines: readonly string[], from: number, delimiter: string, onProgress?: (rowsRead: number) => void): { rows: Parsed[] } | { message: string } {
   const text = lines.slice(from).join('\n');
   const rows: Parsed[] = [];
   let offset = 0;
@@ -175,6 +180,7 @@ function parseFrom(lines: readonly string[], from: number, delimiter: string): {
       if (r.errors.length && error === undefined) error = `the CSV text cannot be read (line ${at}): ${r.errors[0].message}`;
       const fields = r.data;
       if (fields.some((f) => f.trim() !== '')) rows.push({ fields, line: at });
+      if (onProgress && rows.length % PROGRESS_EVERY === 0) onProgress(rows.length - 1);
     },
   });
   return error !== undefined ? { message: error } : { rows };

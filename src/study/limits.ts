@@ -99,7 +99,12 @@ export function valueLimitProblem(value: unknown): Problem | undefined {
     if (typeof v !== 'object' || v === null) continue;
     if (depth >= MAX_NESTING) return tooDeep(keysOf(at));
     if (Array.isArray(v)) {
-      for (let i = v.length - 1; i >= 0; i--) stack.push({ v: v[i], key: i, parent: at, depth: depth + 1 });
+      for (let i = v.length - 1; i >= 0; i--) {
+        const x: unknown = v[i];
+        // a number or text in a list (a table's entries) is counted here, not visited: no object per entry
+        if ((typeof x !== 'object' || x === null) && values < MAX_VALUES) values++;
+        else stack.push({ v: x, key: i, parent: at, depth: depth + 1 });
+      }
     } else {
       const names = Object.keys(v);
       for (let i = names.length - 1; i >= 0; i--) stack.push({ v: (v as Record<string, unknown>)[names[i]], key: names[i], parent: at, depth: depth + 1 });

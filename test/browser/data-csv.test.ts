@@ -74,6 +74,7 @@ describe('data cell: a logger export pasted as CSV', () => {
     let changed = false;
     el.addEventListener('cell-edit', () => { changed = true; }, { once: true });
     ([...el.shadowRoot!.querySelectorAll('button')].find((b) => b.textContent === 'Turn into a table') as HTMLButtonElement).click();
+    await (el as DataEl & { converted?: Promise<void> }).converted;
     await el.updateComplete;
     expect(changed).to.equal(false);
     expect((el.shadowRoot!.querySelector('textarea') as HTMLTextAreaElement).value).to.equal(text);
