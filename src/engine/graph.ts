@@ -12,8 +12,12 @@ import { nearest } from '../expression/suggest.ts';
 import { hiddenUnitWarnings, isUnitName } from './hidden-units.ts';
 import { findWord } from '../expression/find-word.ts';
 
-/** Where a used name comes from; `optional` when the reader runs without it (it only shows it). */
-export type Source = { readonly node: string; readonly optional?: boolean } | { readonly builtin: 'time' | 'constant' | 'unit' };
+/**
+ * Where a used name comes from; `optional` when the reader runs without it (it only shows it);
+ * `shown` when the reader only draws it in its report (measurements on a run's plot), so that
+ * a what-if, which skips reports, need not compute it again.
+ */
+export type Source = { readonly node: string; readonly optional?: boolean; readonly shown?: boolean } | { readonly builtin: 'time' | 'constant' | 'unit' };
 
 export interface Graph {
   readonly nodes: ReadonlyMap<string, GraphNode>;
@@ -145,7 +149,7 @@ function addMeasurements(n: GraphNode, list: readonly GraphNode[], nodes: Map<st
   const states = new Set(list.filter((x) => x.role === 'state' && lawCells.has(x.cell)).flatMap((x) => x.defines.map((d) => d.name)));
   for (const m of list) {
     if (!m.measures || definers.get(m.measures.name) !== m.key || !m.measures.states.some((s) => states.has(s))) continue;
-    if (!dependsOn(m.key, n.key, sources)) src.set(m.measures.name, { node: m.key, optional: true });
+    if (!dependsOn(m.key, n.key, sources)) src.set(m.measures.name, { node: m.key, optional: true, shown: true });
   }
 }
 
@@ -316,15 +320,18 @@ class MinHeap {
   }
 }
 
-/** Names `name` is computed from, following the resolved sources. Cost: O(nodes upstream). */
-export function upstreamOf(graph: Graph, name: string): ReadonlySet<string> {
+/**
+ * Names `name` is computed from, following the resolved sources; with `computedOnly`, not
+ * through names a node only shows (`shown`). Cost: O(nodes upstream).
+ */
+export function upstreamOf(graph: Graph, name: string, computedOnly = false): ReadonlySet<string> {
   const out = new Set<string>();
   const queue = [name];
   while (queue.length) {
     const key = graph.definers.get(queue.pop()!);
     const sources = key ? graph.sources.get(key) : undefined;
     for (const [n, s] of sources ?? []) {
-      if ('node' in s && !out.has(n)) {
+      if ('node' in s && !out.has(n) && !(computedOnly && s.shown)) {
         out.add(n);
         queue.push(n);
       }

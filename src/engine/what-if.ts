@@ -162,7 +162,8 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
   const upstream = new Set<string>();
   for (const name of wanted) {
     upstream.add(graph.definers.get(name)!);
-    for (const n of upstreamOf(graph, name)) upstream.add(graph.definers.get(n)!);
+    // measurements a run only draws on its plot are read as they are: a what-if skips reports
+    for (const n of upstreamOf(graph, name, true)) upstream.add(graph.definers.get(n)!);
   }
   const plan = graph.order.filter((k) => downstream.has(k) && upstream.has(k));
 

@@ -285,4 +285,27 @@ describe('what-if: the session is left alone', () => {
     const w2 = prepared(s, ['ratio'], ['MIC']);
     assert.deepEqual(w2.plan, ['uses/0']);
   });
+
+  it('leaves out a fit whose measurements a run only draws on its plot', () => {
+    // the fit observes the run's state and goes through the run, so the run reads the fit's
+    // measurements (to draw them) and the fit reads the dose: re-fitting on every what-if call
+    // would cost a whole fit per call for nothing the answers need
+    const s = open({
+      format: 'ratebook-study', version: 1, title: 'levels',
+      cells: [
+        { id: 'p', kind: 'parameters', items: [{ name: 'dose', value: '100 mg' }, { name: 'V', value: '20 L' }, { name: 'k', value: '0.3 / h' }] },
+        { id: 'law', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-k * C', initial: '0 mg / L' },
+        { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '24 h', events: [{ at: '0 h', every: '8 h', add: { C: 'dose / V' } }],
+          find: [{ name: 'C_last', valueOf: 'C', at: '23 h' }] },
+        { id: 'levels', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[2, 3.1], [7, 1.2], [10, 4.0]] },
+        { id: 'fit', kind: 'fit', run: 'run', data: 'levels', time: 't', observe: { C: 'C' }, estimate: [{ parameter: 'V', as: 'V_i', guess: '20 L' }] },
+      ],
+    });
+    const w = prepared(s, ['C_last'], ['dose']);
+    assert.ok(!w.plan.some((key) => key.startsWith('fit/')), w.plan.join(', '));
+    // superposition of three boluses at 0, 8 and 16 h read at 23 h (closed form, common practice),
+    // in SI: a dose of 250 mg is 2.5e-4 kg, V = 20 L is 0.02 m^3
+    const expected = (doseKg: number) => (doseKg / 0.02) * [23, 15, 7].reduce((sum, dt) => sum + Math.exp(-0.3 * dt), 0);
+    near(w.evaluate([2.5e-4]).values[0], expected(2.5e-4), 1e-6, 'C_last at 250 mg (kg / m^3)');
+  });
 });
