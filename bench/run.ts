@@ -19,6 +19,7 @@ import { REFERENCE_VERSION, workPrecisionBench } from './work-precision.ts';
 import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
 import { whatIfBenchmarks } from './what-if.ts';
+import { closureBenchmarks } from './closures.ts';
 import { fitBenchmarks } from './fit.ts';
 import { ncaBenchmarks } from './nca.ts';
 import { scalingBenchmarks } from './scaling.ts';
@@ -338,6 +339,14 @@ function whatIfRows(): Row[] {
   }));
 }
 
+function closureRows(): Row[] {
+  return closureBenchmarks().flatMap((r) => [
+    { measure: `${r.name}: generated code, median`, result: ms(r.generatedMs) },
+    { measure: '  closures (as under a policy without unsafe-eval), median', result: ms(r.closuresMs) },
+    { measure: '  closures / generated code', result: `${(r.closuresMs / r.generatedMs).toFixed(2)}x` },
+  ]);
+}
+
 function fitRows(): Row[] {
   return [
     ...fitBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
@@ -359,6 +368,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'ODE work-precision: auto against SciPy solve_ivp at equal accuracy', run: workPrecisionRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
   { title: 'What-if runs of a dosing schedule', run: whatIfRows },
+  { title: 'Rate law runs: generated code against closures', run: closureRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'Studies of many cells: opening a chain of parameters', run: scalingBenchmarks },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },

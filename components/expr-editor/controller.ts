@@ -16,6 +16,7 @@ import { keepClearOfParts } from './keep-clear.ts';
 import { joinLines, singleLine } from './single-line.ts';
 import { fieldTheme } from './theme.ts';
 import { clearTyping, typingHistory } from './typing-history.ts';
+import { typeOverSelection } from './type-over.ts';
 
 /** What the controller reads from its host. */
 export interface ExprFieldHost extends ReactiveControllerHost, EventTarget {
@@ -97,6 +98,7 @@ export class ExprEditorController implements ReactiveController {
       fieldProps,
       errorMark,
       typingHistory,
+      typeOverSelection,
       drawSelection(),
       EditorView.lineWrapping,
       singleLine((view) => this.commit(view)),
