@@ -5,7 +5,7 @@ import { unitAfterNumber } from '../units/units.ts';
 
 interface Q { value: number; unit: string; si: number }
 
-const HIDDEN = new Set(['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn', 'series', 'plot', 'intervals', 'summary', 'residuals', 'questions']);
+const HIDDEN = new Set(['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn', 'series', 'plot', 'intervals', 'summary', 'residuals', 'questions', 'tex']);
 
 export function formatReport(report: Report): string {
   const lines: string[] = [report.title, '='.repeat(Math.min(72, Math.max(8, report.title.length))), ''];

@@ -53,6 +53,9 @@ describe('ratebook run', () => {
     assert.match(r.out, /\[ok\] p \(parameters\)/);
     assert.match(r.out, /k {2,}0\.35 \/h/);
     assert.match(r.out, /All 1 cells are ok\./);
+    // the sheet's TeX is for the app's printed sheet: the command line's table never lists it
+    assert.doesNotMatch(r.out, /tex\./);
+    assert.doesNotMatch(run(['run', 'bad.json'], { 'bad.json': bad }).out, /tex\./);
   });
 
   it('exits 1 and names the cell and path when a cell has an error', () => {
