@@ -18,6 +18,7 @@ import { odeBench, stiffBench } from './ode.ts';
 import { REFERENCE_VERSION, workPrecisionBench } from './work-precision.ts';
 import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
+import { openLargeStudyBenchmarks } from './browser-open.ts';
 import { whatIfBenchmarks } from './what-if.ts';
 import { closureBenchmarks } from './closures.ts';
 import { fitBenchmarks } from './fit.ts';
@@ -359,6 +360,10 @@ async function browserRows(): Promise<Row[]> {
   return (await browserBenchmarks()).map((r) => ({ measure: r.name, result: r.value, goal: r.goal, met: r.met }));
 }
 
+async function openRows(): Promise<Row[]> {
+  return (await openLargeStudyBenchmarks()).map((r) => ({ measure: r.name, result: r.value, goal: r.goal, met: r.met }));
+}
+
 const SECTIONS: readonly Section[] = [
   { title: 'Compiled rate laws: evaluations per second', run: rateLawRows },
   { title: 'Incremental editing of a study', run: editRows },
@@ -372,6 +377,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'Studies of many cells: opening a chain of parameters', run: scalingBenchmarks },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },
+  { title: 'In the browser: opening a 200-cell study', run: openRows },
 ];
 
 // ---------------------------------------------------------------------------------------
