@@ -50,7 +50,7 @@ export class StudyView extends LitElement {
     .name-notes { border-left: 4px solid #5b6670; background: #f3f5f7; padding: 0.3rem 0.9rem; margin: 0 0 0.8rem; color: #2b3640; font-size: 0.9rem; }
     .name-notes p { margin: 0.25rem 0; }
     .caution { border-left: 4px solid #a85d00; background: #fff3df; padding: 0.55rem 0.9rem; margin: 0 0 0.8rem; color: #3d2a00; }
-    article { border: 1px solid #c9d1d8; border-radius: 6px; background: #fff; margin: 0 0 0.9rem; padding: 0.6rem 0.9rem 0.7rem; break-inside: avoid; contain: layout style; content-visibility: auto; contain-intrinsic-size: auto 9rem; }
+    article { border: 1px solid #c9d1d8; border-radius: 6px; background: #fff; margin: 0 0 0.9rem; padding: 0.6rem 0.9rem 0.7rem; break-inside: avoid; contain: layout style; }
     article.failed { border-color: #b3261e; box-shadow: inset 3px 0 0 #b3261e; }
     article.fresh { animation: flash 0.6s ease-out; }
     @keyframes flash { from { box-shadow: 0 0 0 3px rgba(29, 95, 168, 0.35); } to { box-shadow: 0 0 0 0 rgba(29, 95, 168, 0); } }

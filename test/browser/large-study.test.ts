@@ -2,7 +2,8 @@
 // waiting for their editors until needed (components/expr-editor/deferred.ts). Every cell
 // arrives, with the engine's results, and an edit of a cell far below reaches the engine.
 import { expect } from 'chai';
-import type { StudyView } from '../../components/study-view.ts';
+import { StudyView } from '../../components/study-view.ts';
+import type { Study } from '../../src/index.ts';
 import { LARGE } from '../../components/progressive.ts';
 import { mountStudy } from './mount-study.ts';
 import { until } from './helpers.ts';
@@ -26,7 +27,10 @@ afterEach(() => {
 describe('a large study', () => {
   it('renders a screenful at once and the rest in later tasks, each with its result', async function () {
     this.timeout(30000);
-    const view = await mountStudy(chain());
+    const view = StudyView.create();
+    document.body.append(view);
+    view.controller.open('large', chain() as unknown as Study);
+    await view.updateComplete;
     const first = articles(view).length;
     expect(first, 'not every cell at once').to.be.below(LARGE + 20);
     expect(first, 'a screenful at once').to.be.at.least(6);
