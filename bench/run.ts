@@ -21,7 +21,9 @@ import { browserBenchmarks } from './browser.ts';
 import { openLargeStudyBenchmarks } from './browser-open.ts';
 import { whatIfBenchmarks } from './what-if.ts';
 import { closureBenchmarks } from './closures.ts';
+import { solveBenchmarks } from './solve.ts';
 import { fitBenchmarks } from './fit.ts';
+import { fitRunBenchmarks } from './fit-run.ts';
 import { ncaBenchmarks } from './nca.ts';
 import { scalingBenchmarks } from './scaling.ts';
 
@@ -348,10 +350,17 @@ function closureRows(): Row[] {
   ]);
 }
 
+function solveRows(): Row[] {
+  return solveBenchmarks().map((r) => ({
+    measure: `${r.name} (${r.evaluations} what-if runs)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
+  }));
+}
+
 function fitRows(): Row[] {
   return [
     ...fitBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
     ...fitCellBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
+    ...fitRunBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
     ...ncaBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
   ];
 }
@@ -374,6 +383,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Simulating a dosing schedule', run: simulateRows },
   { title: 'What-if runs of a dosing schedule', run: whatIfRows },
   { title: 'Rate law runs: generated code against closures', run: closureRows },
+  { title: 'Solving for a dose', run: solveRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'Studies of many cells: opening a chain of parameters', run: scalingBenchmarks },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },

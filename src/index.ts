@@ -2,8 +2,9 @@
 export { openStudy, StudySession, type EditResult, type OpenResult, type SessionOptions } from './engine/session.ts';
 export type { Replacement, WhatIf, WhatIfAnswer, WhatIfPrepared, WhatIfResult } from './engine/what-if.ts';
 export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts';
+export { solutionEdit, solutionText, type SolutionEdit } from './study/use-solution.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
-export type { Study, Cell, CellKind, PlotScale } from './study/types.ts';
+export type { Study, Cell, CellKind, PlotScale, SolveCell } from './study/types.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT, PLOT_SCALES } from './study/types.ts';
 export { FIND_KINDS, findKindOf, needsLevel, switchFind, withFindState, withFindUnit, withFindField, freshFindName, type FindKind, type FindOption, type FindQuery } from './study/find-rules.ts';
 export { EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, eventTargets, withTargetAt, withoutTargetAt, switchAction, withEventField, type EventAction, type ScheduleEvent } from './study/event-rules.ts';
@@ -32,3 +33,4 @@ export { fieldWords, cellWords, KIND_LABELS } from './output/field-words.ts';
 export { problemWords, partsWords, waitWords, waitedOn, type ReportsOf } from './output/problem-words.ts';
 export { inspectorNotes, residualSdReason } from './output/sheet-notes.ts';
 export { fieldReadsStates } from './cells/reads-states.ts';
+export { UNCERTAINTY_ENDINGS } from './cells/fit-uncertainty.ts';

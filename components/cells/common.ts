@@ -4,7 +4,7 @@
  */
 import { css, html, nothing, unsafeCSS } from 'lit';
 import type { Cell, CellError, ParameterValue, PlotScale, Report, ReportBase, ReportQuantity } from '../../src/index.ts';
-import { fieldWords, formatNumber, problemWords, unitAfterNumber, waitedOn, waitWords } from '../../src/index.ts';
+import { fieldWords, formatNumber, problemWords, unitAfterNumber, waitedOn, waitWords, UNCERTAINTY_ENDINGS } from '../../src/index.ts';
 import type { ReportsOf } from '../../src/index.ts';
 import type { StudyName } from '../expr-field.ts';
 
@@ -113,7 +113,13 @@ function collectNames(report: Report, doc?: { readonly cells: readonly Cell[] })
   for (const c of report?.cells ?? []) {
     for (const [name, q] of Object.entries(c.values ?? {})) out.push({ name, detail: showValue(q) });
     for (const [name, q] of Object.entries(c.results ?? {})) if (!('notReached' in q)) out.push({ name, detail: showValue(q) });
-    for (const [name, e] of Object.entries(c.estimates ?? {})) out.push({ name, detail: `${showQ(e.value)} (fitted)` });
+    for (const [name, e] of Object.entries(c.estimates ?? {})) {
+      out.push({ name, detail: `${showQ(e.value)} (fitted)` });
+      // its standard error and 95% bounds, names too (src/cells/fit-uncertainty.ts)
+      if (e.standardError) out.push({ name: `${name}${UNCERTAINTY_ENDINGS.standardError}`, detail: `${showQ(e.standardError)} (standard error of ${name})` });
+      if (e.ci95) out.push({ name: `${name}${UNCERTAINTY_ENDINGS.lower}`, detail: `${showQ(e.ci95[0])} (95% lower bound of ${name})` },
+        { name: `${name}${UNCERTAINTY_ENDINGS.upper}`, detail: `${showQ(e.ci95[1])} (95% upper bound of ${name})` });
+    }
     if (c.state !== undefined && c.initial) out.push({ name: c.state, detail: `state, starts at ${showQ(c.initial)}`, state: true });
   }
   const known = new Set(out.map((n) => n.name));
@@ -124,7 +130,9 @@ function collectNames(report: Report, doc?: { readonly cells: readonly Cell[] })
     if (c.kind === 'parameters' && Array.isArray(c.items)) for (const i of c.items) add(i?.name);
     if (c.kind === 'rate') add(c.state, true);
     if (c.kind === 'simulate' && Array.isArray(c.find)) for (const f of c.find) add(f?.name);
-    if (c.kind === 'fit' && Array.isArray(c.estimate)) for (const e of c.estimate) add(e?.as);
+    if (c.kind === 'fit' && Array.isArray(c.estimate)) {
+      for (const e of c.estimate) if (typeof e?.as === 'string') for (const end of ['', ...Object.values(UNCERTAINTY_ENDINGS)]) add(`${e.as}${end}`);
+    }
   }
   return out;
 }

@@ -16,6 +16,7 @@ export class FitCellElement extends CellElement<'fit'> {
   static override styles = [cellStyles, css`
     .est expr-field { min-width: 6rem; }
     .scroll { overflow-x: auto; }
+    select[data-field="run"] { max-width: 100%; }
   `];
 
   override render() {
@@ -26,12 +27,24 @@ export class FitCellElement extends CellElement<'fit'> {
     const rates = cells.filter((x) => x.kind === 'rate');
     const dataCells = cells.filter((x) => x.kind === 'data');
     const columns = (dataCells.find((d) => d.id === c.data)?.columns ?? []).map((x) => x.name);
-    const states = rates.filter((r) => (c.rates ?? []).includes(r.id)).map((r) => String(r.state));
+    const runs = cells.filter((x) => x.kind === 'simulate');
+    const run = runs.find((x) => x.id === c.run);
+    // the laws of the model: those the run integrates (from the document), or those ticked
+    const modelLaws = c.run !== undefined ? this.runLaws(c.run) : (c.rates ?? []);
+    const states = rates.filter((r) => modelLaws.includes(r.id)).map((r) => String(r.state));
     const r = this.report;
     const estimates = r?.estimates ?? {};
     return html`
-      <div class="row"><span class="lbl">Laws</span>
-        ${this.laws().map((x) => html`<label><input type="checkbox" data-field="rates" .checked=${(c.rates ?? []).includes(x.id)} @change=${(e: Event) => this.setRate(x.id, (e.target as HTMLInputElement).checked)} /> ${x.label}</label>`)}</div>
+      <div class="row">
+        <label>Model <select data-field="run" @change=${(e: Event) => this.setRun((e.target as HTMLSelectElement).value)}>
+          <option value="" ?selected=${c.run === undefined}>laws only, from t = 0</option>
+          ${c.run !== undefined && !run ? html`<option selected value=${c.run}>"${c.run}" (not a run)</option>` : nothing}
+          ${runs.map((x) => html`<option value=${x.id} ?selected=${x.id === c.run}>run ${x.title || x.id}, whole schedule</option>`)}</select></label>
+        ${claims.take('.run') ? html`<div class="foot-error">${claims.take('.run')!.message}</div>` : nothing}
+      </div>
+      ${c.run === undefined ? html`<div class="row"><span class="lbl">Laws</span>
+        ${this.laws().map((x) => html`<label><input type="checkbox" data-field="rates" .checked=${(c.rates ?? []).includes(x.id)} @change=${(e: Event) => this.setRate(x.id, (e.target as HTMLInputElement).checked)} /> ${x.label}</label>`)}</div>`
+        : html`<p class="muted">The model is the run's start, laws and every event of its schedule; the data's times are times on the run's clock.</p>`}
       <div class="row">
         <label>Data <select data-field="data" @change=${(e: Event) => this.edit({ data: (e.target as HTMLSelectElement).value })}>
           ${dataCells.some((d) => d.id === c.data) ? nothing : html`<option selected>${c.data || '(choose)'}</option>`}
@@ -99,6 +112,26 @@ export class FitCellElement extends CellElement<'fit'> {
     return html`<time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${r.summary ?? ''} .scale=${this.cell.plotScale === 'log' ? 'log' : 'linear'} scaleToggle
         @plot-scale=${(e: PlotScaleEvent) => this.setPlotScale(e.detail.scale)}></time-plot>
       <time-plot .plot=${residualPlot} .points=${residualPoints} .floor=${r.residualFloor?.value ?? 0} .summary=${`Residuals (measured minus fitted) against time, in ${unit}.`}></time-plot>`;
+  }
+
+  /**
+   * The model: through a run (its laws come with it), or the laws ticked; going back to laws
+   * ticks the ones the run integrated, so the laws fitted stay the same.
+   */
+  private setRun(id: string) {
+    const { run: was, rates: _rates, ...rest } = this.cell;
+    if (id) {
+      this.replace({ ...rest, run: id });
+      return;
+    }
+    this.replace({ ...rest, rates: was === undefined ? [] : this.runLaws(was) });
+  }
+
+  /** The rate cells a run names, from the study's document. */
+  private runLaws(id: string): string[] {
+    const runCell = (this.doc?.cells ?? []).find((x) => x.id === id);
+    const rates = runCell?.kind === 'simulate' ? runCell.rates : undefined;
+    return Array.isArray(rates) ? rates.filter((x): x is string => typeof x === 'string') : [];
   }
 
   private setRate(id: string, on: boolean) {

@@ -12,6 +12,7 @@ import './note-cell.ts';
 import './data-cell.ts';
 import './nca-cell.ts';
 import './fit-cell.ts';
+import './solve-cell.ts';
 
 export interface KindInfo {
   /** Shown on the "add" buttons and the cell's tag. */
@@ -78,7 +79,18 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
     },
     render: (c, r, s, d) => html`<nca-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></nca-cell>`,
   },
+  solve: {
+    label: 'Solve for',
+    // the study's first parameter, over half to twice its value, and its first answer as the target
+    blank: (study) => {
+      const p = study.cells.find((c) => c.kind === 'parameters') as Extract<Cell, { kind: 'parameters' }> | undefined;
+      const name = p?.items?.[0]?.name ?? 'x';
+      const run = study.cells.find((c) => c.kind === 'simulate' && (c.find ?? []).length) as Extract<Cell, { kind: 'simulate' }> | undefined;
+      return { vary: { parameter: name, as: `${name}_solved`, min: `${name} / 2`, max: `${name} * 2` }, target: { value: run?.find?.[0]?.name ?? '', equals: '' } };
+    },
+    render: (c, r, s, d) => html`<solve-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></solve-cell>`,
+  },
 };
 
 /** The kinds offered on the "add a cell" bar, in order. */
-export const ADDABLE: ReadonlyArray<Cell['kind']> = ['parameters', 'rate', 'simulate', 'phase', 'data', 'fit', 'nca', 'note'];
+export const ADDABLE: ReadonlyArray<Cell['kind']> = ['parameters', 'rate', 'simulate', 'phase', 'data', 'fit', 'nca', 'solve', 'note'];

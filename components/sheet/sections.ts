@@ -67,8 +67,9 @@ function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[]): TemplateResu
   if (cell.kind === 'phase' && isKind(r, 'phase')) return phase(cell, r, (cells.find((c) => c.id === cell.rate) as Of<'rate'> | undefined)?.state ?? '');
   if (cell.kind === 'simulate' && isKind(r, 'simulate')) return simulate(cell, r);
   if (cell.kind === 'data' && isKind(r, 'data')) return data(cell, r);
-  if (cell.kind === 'fit' && isKind(r, 'fit')) return fit(cell, r);
+  if (cell.kind === 'fit' && isKind(r, 'fit')) return fit(cell, r, cells);
   if (cell.kind === 'nca' && isKind(r, 'nca')) return nca(cell, r);
+  if (cell.kind === 'solve' && isKind(r, 'solve')) return solve(cell, r);
   return html`<p class="muted">Not computed.</p>`;
 }
 
@@ -194,10 +195,11 @@ function data(cell: Of<'data'>, r: ReportOf<'data'>): TemplateResult {
     : html`<pre>${typeof cell.csv === 'string' ? cell.csv : ''}</pre>`}`;
 }
 
-function fit(cell: Of<'fit'>, r: ReportOf<'fit'>): TemplateResult {
+function fit(cell: Of<'fit'>, r: ReportOf<'fit'>, cells: readonly Cell[]): TemplateResult {
   const est = r.estimates ?? {};
   const plot = r.plot;
-  return html`<table class="results"><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead>
+  return html`${cell.run !== undefined ? html`<p>Fitted through ${cellWords({ cells }, cell.run)}: its start, laws and every event of its schedule; the data's times are on its clock.</p>` : nothing}
+    <table class="results"><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead>
     <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
     <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, residual SD ${r.residualSD ? showQ(r.residualSD) : residualSdReason(r)}, weighting ${cell.weighting ?? 'none'}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message}).</p>
@@ -212,4 +214,19 @@ function nca(cell: Of<'nca'>, r: ReportOf<'nca'>): TemplateResult {
     <table class="results"><thead><tr><th>Result</th><th>Value</th></tr></thead>
     <tbody>${Object.entries(values).map(([name, q]) => html`<tr><td class="name">${name}</td><td class="num answer">${q ? showQ(q) : 'not available'}</td></tr>`)}</tbody></table>
     ${used ? html`<p class="check">Terminal phase fitted on ${used.count} points, at ${used.times.map((t) => showQ(t)).join(', ')}.</p>` : nothing}`;
+}
+
+/** A solve cell: its target, the value found, its rounded value, what each gives (tables of their own: `table.results` holds found results by name). */
+function solve(cell: Of<'solve'>, r: ReportOf<'solve'>): TemplateResult {
+  const v = cell.vary;
+  const where = Array.isArray(v.choices) ? html`among the choices <code>${v.choices.join(', ')}</code>` : html`from <code>${v.min}</code> to <code>${v.max}</code>`;
+  return html`<p>Target: <code>${cell.target.value}</code> = <code>${cell.target.equals}</code>, varying <strong>${v.parameter}</strong> ${where}; the answer is named <strong>${v.as}</strong>.</p>
+    <table class="solved"><thead><tr><th>${v.parameter}</th><th>${cell.target.value}</th></tr></thead>
+    <tbody><tr><td class="num answer">${r.solution ? showQ(r.solution, 6) : ''}</td><td class="num">${r.achieved ? showQ(r.achieved) : ''}</td></tr>
+    ${r.rounded ? html`<tr><td class="num answer">${showQ(r.rounded)} (rounded to a multiple of <code>${v.roundTo}</code>)</td><td class="num">${r.achievedRounded ? showQ(r.achievedRounded) : 'no value'}</td></tr>` : nothing}
+    </tbody></table>
+    ${r.choices ? html`<table class="solved"><thead><tr><th>Choice of ${v.parameter}</th><th>${cell.target.value}</th></tr></thead>
+      <tbody>${r.choices.map((x) => html`<tr><td class="num ${x.chosen ? 'answer' : ''}">${showQ(x.value)}${x.chosen ? ' (nearest)' : ''}</td><td class="num">${x.achieved ? showQ(x.achieved) : x.reason ?? ''}</td></tr>`)}</tbody></table>` : nothing}
+    ${r.solutions && r.solutions.length > 1 ? html`<p class="check">${r.solutions.length} values meet the target: ${r.solutions.map((q) => showQ(q)).join(', ')}; ${v.guess ? 'the one nearest the guess' : 'the smallest'} is used.</p>` : nothing}
+    <p class="check">${r.message ? `${r.message[0].toUpperCase()}${r.message.slice(1)}` : ''}; ${r.evaluations} runs.</p>`;
 }

@@ -1,11 +1,12 @@
 /**
  * A fit cell: estimates parameters and starting values of rate laws from measurements, by
  * nonlinear least squares (numerics/fit/least-squares.ts) on the simulated states at the data's
- * times (simulate/model-run.ts). Defines each estimate under its `as` name, so cells below a
- * fit follow the data.
+ * times: the laws from t = 0 (simulate/model-run.ts), or a run with its whole schedule (`run`,
+ * fit-through-run.ts). Defines each estimate under its `as` name, and its standard error and
+ * 95% bounds (fit-uncertainty.ts), so cells below a fit follow the data.
  */
 import type { FitCell } from '../study/types.ts';
-import type { Binding, CellError, GraphNode, Law, MeasuredSeries, Outcome, RunContext, Use } from '../engine/node.ts';
+import type { Binding, CellError, GraphNode, Law, MeasuredSeries, Outcome, RunContext, RunModel, Use } from '../engine/node.ts';
 import { cellRef, measuredRef } from '../engine/node.ts';
 import type { EstimateReport, FitFields, NodeOutput } from '../engine/report.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, fail, guarded, shownAs } from './fields.ts';
@@ -19,6 +20,8 @@ import { measuredPoints, type SimulationPlot } from '../simulate/plot-data.ts';
 import { quantitySig } from './signatures.ts';
 import { timeAxisUnits } from '../output/display-units.ts';
 import { residualAxisFloor, withoutRoundOff } from '../output/residuals.ts';
+import { runModelOf, runParameter, checkTimesInRun, jumpTimeNote } from './fit-through-run.ts';
+import { uncertaintyBindings, uncertaintyDefinitions } from './fit-uncertainty.ts';
 
 /**
  * One node: it defines each estimate under its `as` name, and the measurements it fits, by
@@ -34,6 +37,8 @@ export function fitNodes(cell: FitCell, at: string): Array<GraphNode<NodeOutput<
   }));
   const refs: Use[] = [];
   (Array.isArray(cell.rates) ? cell.rates : []).forEach((r, i) => { if (typeof r === 'string') refs.push({ name: cellRef(r), path: `${at}.rates[${i}]` }); });
+  // through a run: the run's model, made from its inputs alone (cells/run-model.ts)
+  if (typeof cell.run === 'string') refs.push({ name: cellRef(cell.run), path: `${at}.run` });
   if (typeof cell.data === 'string') refs.push({ name: cellRef(cell.data), path: `${at}.data` });
   estimates.forEach((e, i) => { if (typeof e?.parameter === 'string') refs.push({ name: e.parameter, path: `${at}.estimate[${i}].parameter`, readsStates: true }); });
   return [{
@@ -41,6 +46,7 @@ export function fitNodes(cell: FitCell, at: string): Array<GraphNode<NodeOutput<
     cell: cell.id,
     defines: [
       ...estimates.flatMap((e, i) => (typeof e?.as === 'string' ? [{ name: e.as, path: `${at}.estimate[${i}].as` }] : [])),
+      ...estimates.flatMap((e, i) => uncertaintyDefinitions(e?.as, `${at}.estimate[${i}].as`)),
       { name: measuredRef(cell.id), path: `${at}.observe` },
     ],
     measures: { name: measuredRef(cell.id), states: cell.observe && typeof cell.observe === 'object' ? Object.keys(cell.observe) : [] },
@@ -66,7 +72,8 @@ interface Unknown {
 }
 
 function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: Field; max?: Field }>, ctx: RunContext): Outcome<NodeOutput<'fit'>> {
-  const laws = collectLaws(cell.rates, `${at}.rates`, ctx);
+  const through = cell.run !== undefined ? runModelOf(cell, at, ctx) : undefined;
+  const laws = through ? [...through.laws] : collectLaws(cell.rates ?? [], `${at}.rates`, ctx);
   const states = laws.map((l) => l.state);
   const params: string[] = [];
   for (const l of laws) for (const n of l.reads) if (n !== 't' && !states.includes(n) && !params.includes(n)) params.push(n);
@@ -84,6 +91,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
   };
   const ti = colOf(cell.time, `${at}.time`);
   if (!sameDim(unitDim(table.columns[ti].unit), TIME)) fail(`${at}.time`, `the column "${cell.time}" must hold times`, 'unit');
+  if (through) checkTimesInRun(through, cell.run!, table, ti, at);
   const observed = Object.entries(cell.observe).map(([state, column]) => {
     const si = states.indexOf(state);
     if (si < 0) fail(`${at}.observe`, `"${state}" is not a state of the laws fitted (their states: ${states.join(', ')})`);
@@ -103,6 +111,8 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     let index: number;
     if (si >= 0) {
       kind = 'initial'; index = si; template = laws[si].initial;
+    } else if (through) {
+      kind = 'parameter'; index = -1; template = runParameter(through, cell.run!, e.parameter, `${path}.parameter`, ctx);
     } else {
       index = params.indexOf(e.parameter);
       if (index < 0) {
@@ -143,7 +153,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
   });
   if (points.length === 0) fail(`${at}.data`, 'no observed values to fit');
   const times = [...new Set(table.rows.map((r) => r[ti] as number))].sort((a, c) => a - c);
-  const t0 = Math.min(0, times[0]);
+  const t0 = through ? through.from : Math.min(0, times[0]);
   const rowTime = table.rows.map((r) => times.indexOf(r[ti] as number));
   if (ctx.mode === 'check') return { ok: true, bindings: new Map(), output: { computed: false, message: 'checked; run the study to fit' } };
 
@@ -152,12 +162,12 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
   const y0 = Float64Array.from(laws, (l) => l.initial.si);
   const p = Float64Array.from(paramQ, (q) => q.si);
   const apply = (v: ArrayLike<number>) => {
-    unknowns.forEach((u, k) => { if (u.kind === 'initial') y0[u.index] = v[k]; else p[u.index] = v[k]; });
+    unknowns.forEach((u, k) => { if (u.kind === 'initial') y0[u.index] = v[k]; else if (u.index >= 0) p[u.index] = v[k]; });
   };
   let lastFailure: string | undefined;
   const residuals = (v: Float64Array, out: Float64Array): boolean => {
     apply(v);
-    const run = runModelAt(spec, t0, y0, p, times, scale);
+    const run = through ? through.run(new Map(unknowns.map((u, k) => [u.name, v[k]])), times) : runModelAt(spec, t0, y0, p, times, scale);
     if (!run.values) { lastFailure = run.message; return false; }
     points.forEach((pt, k) => { out[k] = pt.w * (run.values![rowTime[pt.row]][pt.state] - pt.y); });
     return true;
@@ -187,6 +197,9 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     };
     bindings.set(u.as, { kind: 'value', q, sig: quantitySig(q) });
   });
+  // each estimate's standard error and 95% bounds as names, equal to the report's
+  const spread = uncertaintyBindings(unknowns.map((u) => ({ as: u.as, template: u.template, report: estimates[u.as] })), fit.dof, fit.warnings.map((w) => w.message).join('; ') || undefined);
+  for (const [name, b] of spread.bindings) bindings.set(name, b);
   const firstObserved = laws[observed[0].si];
   const difference = (law: Law, si: number): Quantity => ({ si, dim: law.initial.dim, unit: deltaUnit(law.stateUnit), ...(law.initial.temp ? { temp: 'delta' as const } : {}) });
   // residuals (and their SD) within round-off of the data's scale are 0 (output/residuals.ts)
@@ -219,32 +232,50 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     return { state: o.state, t: rows.map((r) => r[ti] as number), y: rows.map((r) => r[o.ci] as number) };
   });
   bindings.set(measuredRef(cell.id), { kind: 'measured', cell: cell.id, series, sig: JSON.stringify(series) });
-  const plot = fitPlot(spec, t0, y0, p, fit.p, apply, times, scale, laws, observed, series, table.columns[ti].unit);
-  return { ok: true, bindings, output: { ...output, summary, ...(plot ? { plot } : {}) } };
+  const plot = fitPlot(through ? throughCurve(through, unknowns, fit.p) : curve(spec, t0, y0, p, fit.p, apply, times, scale), laws, observed, series, table.columns[ti].unit);
+  const atJump = through ? jumpTimeNote(through, cell.run!, table, ti) : undefined;
+  const warnings = atJump ? { warnings: [...(output.warnings ?? []), atJump] } : {};
+  return { ok: true, bindings, output: { ...output, summary, ...(plot ? { plot } : {}), ...warnings }, reasons: spread.reasons };
 }
 
 /** Points across the data's span for the fitted curve. */
 const CURVE_POINTS = 200;
 
-/**
- * What the plots of a fit draw, in the units the study shows: the fitted states over the
- * data's span, the measured points over them, and each residual at its time.
- */
-function fitPlot(spec: ModelSpec, t0: number, y0: Float64Array, p: Float64Array, best: Float64Array, apply: (v: ArrayLike<number>) => void,
-  times: readonly number[], scale: Float64Array, laws: readonly Law[], observed: ReadonlyArray<{ state: string; si: number }>,
-  series: readonly MeasuredSeries[], tUnit: DisplayUnit): SimulationPlot | undefined {
+/** The fitted curve of a laws-only fit over the data's span. */
+function curve(spec: ModelSpec, t0: number, y0: Float64Array, p: Float64Array, best: Float64Array, apply: (v: ArrayLike<number>) => void,
+  times: readonly number[], scale: Float64Array): Curve | undefined {
   apply(best);
   const end = times[times.length - 1];
   const grid = Array.from({ length: CURVE_POINTS }, (_, i) => t0 + ((end - t0) * i) / (CURVE_POINTS - 1));
   const run = runModelAt(spec, t0, y0, p, grid, scale);
-  if (!run.values) return undefined;
+  return run.values ? { t: grid, values: run.values } : undefined;
+}
+
+/** The fitted curve of a fit through a run: the whole run with the estimates, every jump drawn. */
+function throughCurve(model: RunModel, unknowns: readonly Unknown[], best: Float64Array): Curve | undefined {
+  const drawn = model.curve(new Map(unknowns.map((u, k) => [u.name, best[k]])), 2 * CURVE_POINTS);
+  return drawn.t && drawn.values ? { t: drawn.t, values: drawn.values } : undefined;
+}
+
+/** Times (SI) and the states at each. */
+interface Curve { readonly t: readonly number[]; readonly values: readonly Float64Array[] }
+
+/**
+ * What the plots of a fit draw, in the units the study shows: the fitted states (over the
+ * data's span, or the run's), the measured points over them, and each residual at its time.
+ */
+function fitPlot(run: Curve | undefined, laws: readonly Law[], observed: ReadonlyArray<{ state: string; si: number }>,
+  series: readonly MeasuredSeries[], tUnit: DisplayUnit): SimulationPlot | undefined {
+  if (!run) return undefined;
+  const t0 = run.t[0];
+  const end = run.t[run.t.length - 1];
   const inTime = (si: number) => valueIn({ si, dim: TIME, unit: tUnit }, tUnit);
   const inState = (i: number, si: number) => valueIn({ ...laws[i].initial, si }, laws[i].initial.unit);
   const shown = observed.map((o) => o.si);
   return {
     timeUnit: formatUnit(tUnit),
     timeUnits: timeAxisUnits(formatUnit(tUnit), inTime(end) - inTime(t0)),
-    t: grid.map(inTime),
+    t: run.t.map(inTime),
     states: shown.map((i) => ({ name: laws[i].state, unit: formatUnit(laws[i].initial.unit), values: run.values!.map((v) => inState(i, v[i])) })),
     events: [], levels: [], marks: [],
     points: measuredPoints(series, observed.map((o) => ({ name: o.state, template: laws[o.si].initial })), inTime),

@@ -13,6 +13,7 @@ import { phaseNodes } from './phase.ts';
 import { dataNodes } from './data.ts';
 import { ncaNodes } from './nca.ts';
 import { fitNodes } from './fit.ts';
+import { solveNodes } from './solve.ts';
 
 /** A builder of kind K: its nodes output that kind's report fields (checked here, at compile time). */
 export type Builder<K extends CellKind> = (cell: Extract<Cell, { kind: K }>, at: string) => Array<GraphNode<NodeOutput<K>>>;
@@ -26,6 +27,7 @@ const BUILDERS: { readonly [K in CellKind]: Builder<K> } = {
   data: dataNodes,
   fit: fitNodes,
   nca: ncaNodes,
+  solve: solveNodes,
 };
 
 /**

@@ -16,6 +16,7 @@ const RULES: Readonly<Record<CellKind, readonly RegExp[]>> = {
   data: [],
   fit: [/^\.estimate\[\d+\]\.parameter$/],
   nca: [],
+  solve: [/^\.vary\.parameter$/],
   note: [],
 };
 

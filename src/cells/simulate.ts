@@ -12,8 +12,11 @@ import { cellRef } from '../engine/node.ts';
 import { field, usesOf, guarded } from './fields.ts';
 import { type CoreMemo, type Fields, simulateCore } from './simulate-core.ts';
 import { simulationOutput } from './simulate-report.ts';
+import { runModelNode } from './run-model.ts';
 
-/** One node; the graph adds the measurements of its states (`pullsMeasurements`), which its plot shows. */
+/**
+ * Two nodes: the run, and its model for fits through it (`run-model.ts`, the cell's reference
+ * `#id`, made from the run's inputs alone). The graph adds the measurements of its states (`pullsMeasurements`), which its plot shows. */
 export function simulateNodes(cell: SimulateCell, at: string): Array<GraphNode<NodeOutput<'simulate'>>> {
   const problems: CellError[] = [];
   const f: Fields = { events: [], finds: [] };
@@ -49,18 +52,19 @@ export function simulateNodes(cell: SimulateCell, at: string): Array<GraphNode<N
   const amounts = f.events.flatMap((e) => e.targets.map((t) => ({ value: t.value, states: e.kind !== 'set' })));
   const all = [f.from, f.to, f.step, f.atol, ...f.events.flatMap((e) => [e.at, e.every, e.count, e.for]), ...amounts.filter((a) => !a.states).map((a) => a.value),
     ...f.finds.flatMap((q) => [q.level, q.at, q.from, q.to])];
+  const uses = [...usesOf(all), ...usesOf(amounts.filter((a) => a.states).map((a) => a.value), { states: true }), ...refs];
   return [{
     key: `${cell.id}/simulate`,
     cell: cell.id,
     defines,
-    uses: [...usesOf(all), ...usesOf(amounts.filter((a) => a.states).map((a) => a.value), { states: true }), ...refs],
+    uses,
     allowsTime: true,
     pullsCoupledLaws: true,
     pullsMeasurements: true,
     signature: JSON.stringify(cell),
     problems,
     run: (ctx) => guarded(() => runSimulation(cell, at, f, ctx, memo)),
-  }];
+  }, runModelNode(cell, at, f, uses, problems)];
 }
 
 function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContext, memo: CoreMemo): Outcome<NodeOutput<'simulate'>> {

@@ -92,7 +92,7 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
           }
           flag(n.key, { kind: 'misplaced', message: `"${u.name}" is the state of rate cell "${target.cell}": it changes with time, so it can be read only in rate laws and event amounts`, path: u.path, ...span(u) });
         }
-        src.set(u.name, { node: def });
+        src.set(u.name, u.optional ? { node: def, optional: true } : { node: def });
       } else if (u.name === 't' && n.allowsTime) {
         src.set(u.name, { builtin: 'time' });
       } else if (u.name === 't') {
@@ -118,7 +118,8 @@ export function buildGraph(list: readonly GraphNode[], resolve: (cell: string, p
   const { order, cycles } = orderNodes(list, sources);
   for (const [key, path] of cycles) {
     const n = nodes.get(key)!;
-    flag(key, { kind: 'cycle', message: `circular definition: ${path}`, path: n.defines[0]?.path ?? '@' });
+    const hints = [...new Set(path.keys.flatMap((k) => nodes.get(k)?.cycleHint ?? []))];
+    flag(key, { kind: 'cycle', message: `circular definition: ${path.text}${hints.map((h) => `; ${h}`).join('')}`, path: n.defines[0]?.path ?? '@' });
   }
   return { nodes, order, definers, sources, problems, warnings };
 }
@@ -221,7 +222,7 @@ function orderNodes(list: readonly GraphNode[], sources: Map<string, Map<string,
     }
   };
   drain();
-  const cycles = new Map<string, string>();
+  const cycles = new Map<string, { text: string; keys: string[] }>();
   if (order.length < list.length) {
     const left = list.filter((n) => !done.has(n.key));
     for (const n of left) {
@@ -238,7 +239,7 @@ function orderNodes(list: readonly GraphNode[], sources: Map<string, Map<string,
 }
 
 /** The shortest cycle through `start`, written as the names read along it; undefined if none. */
-function cyclePath(start: string, deps: Map<string, string[]>, sources: Map<string, Map<string, Source>>, within: Set<string>): string | undefined {
+function cyclePath(start: string, deps: Map<string, string[]>, sources: Map<string, Map<string, Source>>, within: Set<string>): { text: string; keys: string[] } | undefined {
   const back = new Map<string, string>();
   const queue = [start];
   const seen = new Set([start]);
@@ -251,7 +252,7 @@ function cyclePath(start: string, deps: Map<string, string[]>, sources: Map<stri
         for (let x = k; x !== start; x = back.get(x)!) keys.splice(1, 0, x);
         keys.push(start);
         const names = keys.map((key, i) => readName(i === 0 ? keys[keys.length - 2] : keys[i - 1], key, sources));
-        return names.join(' -> ');
+        return { text: names.join(' -> '), keys };
       }
       if (!seen.has(d)) {
         seen.add(d);

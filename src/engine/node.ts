@@ -8,6 +8,7 @@ import type { Quantity } from '../units/quantity.ts';
 import type { DisplayUnit } from '../units/units.ts';
 import type { Expr } from '../expression/ast.ts';
 import type { StudyUnits } from '../units/simplest-unit.ts';
+import type { Replacement, WhatIfPrepared } from './what-if.ts';
 
 /**
  * The kinds of problem a cell can have:
@@ -105,7 +106,41 @@ export type Binding =
   | { readonly kind: 'law'; readonly law: Law; readonly sig: string }
   | { readonly kind: 'data'; readonly cell: string; readonly sig: string; readonly table: DataTable }
   /** Measurements of states, in SI (a fit cell's observed columns), for plots of those states. */
-  | { readonly kind: 'measured'; readonly cell: string; readonly sig: string; readonly series: readonly MeasuredSeries[] };
+  | { readonly kind: 'measured'; readonly cell: string; readonly sig: string; readonly series: readonly MeasuredSeries[] }
+  /** A simulate cell's run as a model for a fit: made from the run's inputs only, never its results (`cells/run-model.ts`). */
+  | { readonly kind: 'model'; readonly cell: string; readonly sig: string; readonly model: RunModel };
+
+/**
+ * A simulate cell's run, to be run again with some of its inputs replaced: its laws, span and
+ * whole schedule. Made by the cell's model node from the inputs alone, so a fit through the run
+ * does not wait on the run's results (and a second run may use the fit's estimates).
+ */
+export interface RunModel {
+  /** The laws integrated, in state order (those coupled to the named ones included). */
+  readonly laws: readonly Law[];
+  /** The run's span in SI seconds, and the unit its end is written in. */
+  readonly from: number;
+  readonly to: number;
+  readonly timeUnit: DisplayUnit;
+  /** The parameters the laws and the events read directly (no states, units or constants). */
+  readonly reads: readonly string[];
+  /** Their values now, by name. */
+  readonly values: ReadonlyMap<string, Quantity>;
+  /**
+   * The run with some parameters and states' starting values replaced (SI, by name), at
+   * tolerances tight enough for differences (relative 1e-10), sampled at `times` (within the
+   * span, ascending): values[k][i] is state i at times[k], after any jump at that time. A
+   * run that fails, or a field that cannot be evaluated with these values, gives a message.
+   */
+  run(replaced: ReadonlyMap<string, number>, times: readonly number[]): { readonly values?: Float64Array[]; readonly message?: string };
+  /**
+   * The run with these values drawn over its whole span: about `points` times spread evenly,
+   * and both ends of every piece between actions, so each jump shows (for plots).
+   */
+  curve(replaced: ReadonlyMap<string, number>, points: number): { readonly t?: number[]; readonly values?: Float64Array[]; readonly message?: string };
+  /** The times (SI) at which a state jumps (`add` events) in the last run or curve made. */
+  jumps(): readonly number[];
+}
 
 /** One state's measurements: times and values in SI. */
 export interface MeasuredSeries {
@@ -153,6 +188,14 @@ export interface RunContext {
   bindingsOf<K extends Binding['kind']>(kind: K): Array<Extract<Binding, { kind: K }>>;
   /** The units the study's inputs are written in (engine/study-units.ts), for showing derived values. */
   readonly studyUnits?: StudyUnits;
+  /**
+   * A what-if evaluator (engine/what-if.ts) over the study's values as this node sees them: the
+   * session's current bindings in a run, the outer what-if's values when the node itself runs
+   * inside one (a nested what-if). For a node that varies a name upstream of names it reads (a
+   * solve cell): its `uses` cover the varied name and every name its target reads, so all
+   * that the evaluator plans over is computed before it runs. Prepare once per run.
+   */
+  whatIf?(wanted: readonly string[], replaced: readonly Replacement[]): WhatIfPrepared;
 }
 
 /** What a node's run gives: bindings for the names it defines and `output` (of type O) for its cell's report. */
@@ -188,6 +231,16 @@ export interface GraphNode<O extends object = object> {
    * state of the laws it integrates (unless that would close a cycle).
    */
   readonly pullsMeasurements?: boolean;
+  /**
+   * Its result depends on how the names it reads are computed, not only on their values (a
+   * solve cell re-runs what lies between a parameter and its target): it runs again when any
+   * name upstream of the names it reads changes.
+   */
+  readonly readsUpstream?: boolean;
+  /** Said after the message of each node on a cycle through this node: why such a cycle arises and the way out. */
+  readonly cycleHint?: string;
+  /** Fails too with the problems the document check found in its cell (which go to a cell's first node). */
+  readonly sharesShapeProblems?: boolean;
   /** Changes whenever the node's own text changes; equal signatures mean the same node. */
   readonly signature: string;
   /** Problems found while building (field shape, syntax): the node fails with the first. */

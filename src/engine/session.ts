@@ -176,7 +176,7 @@ export class StudySession {
     if (nodes.length === 0) {
       return [{ key: `${cell.id}/shape`, cell: cell.id, defines: [], uses: [], allowsTime: false, signature: JSON.stringify(errors), problems: errors, run: () => ({ ok: true, bindings: new Map(), output: {} }) }];
     }
-    return nodes.map((n, i) => (i === 0 ? { ...n, problems: [...errors, ...n.problems], signature: `${n.signature}|${JSON.stringify(errors)}` } : n));
+    return nodes.map((n, i) => (i === 0 || n.sharesShapeProblems ? { ...n, problems: [...errors, ...n.problems], signature: `${n.signature}|${JSON.stringify(errors)}` } : n));
   }
 
   private evaluate(): { rerun: string[]; changed: string[] } {
@@ -219,6 +219,9 @@ export class StudySession {
       for (const [name, s] of sources) {
         staticSig += `|${name}=${'node' in s ? s.node : s.builtin}`;
         if ('node' in s && changedNames.has(name)) inputsChanged = true;
+      }
+      if (node.readsUpstream && !inputsChanged && changedNames.size) {
+        inputsChanged = [...sources.keys()].some((name) => [...upstreamOf(this.graph, name)].some((n) => changedNames.has(n)));
       }
       if (problem) staticSig += `|!${problem.path}:${problem.message}`;
       for (const d of node.defines) staticSig += `|${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`;
@@ -291,6 +294,7 @@ export class StudySession {
       }),
       upstream: (name) => this.upstream(name),
       studyUnits: this.units,
+      whatIf: (wanted, replaced) => this.whatIf(wanted, replaced),
     };
     try {
       const done = metered(this.limits.cellWork ?? DEFAULT_CELL_WORK, this.deadline, () => node.run(ctx));
@@ -368,6 +372,8 @@ export class StudySession {
       if (o.output) mergeOutput(output, o.output);
       if (!o.ok) {
         const { cause: _cause, ...error } = o.error;
+        // two nodes of a cell that fail alike (a run and its model) report it once
+        if (errors.some((e) => e.message === bounded(error.message) && e.path === resolvePath(o.error.path, index))) continue;
         errors.push({ ...error, message: bounded(error.message), path: resolvePath(o.error.path, index) });
         if (o.error.waitsOn !== undefined) waits.add(o.error.waitsOn);
       }

@@ -200,6 +200,8 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
       }),
       upstream: (name) => upstreamOf(graph, name),
       ...(view.studyUnits ? { studyUnits: view.studyUnits } : {}),
+      // nested: a node that runs what-ifs of its own (a solve cell) plans over this call's values
+      whatIf: (w, r) => prepareWhatIf({ ...view, slot: (name) => { const i = index.get(name); return i === undefined ? view.slot(name) : slots[i]; } }, w, r),
     };
     const out = node.defines.filter((d) => graph.definers.get(d.name) === key).map((d) => [d.name, slotOf(d.name)] as const);
     return { node, problem: graph.problems.get(key), ctx, out, read };

@@ -10,7 +10,7 @@ import type { Cell, CellKind } from '../study/types.ts';
 /** How each cell kind is named where a person meets it (the app's cell tags, the sheet). */
 export const KIND_LABELS: Readonly<Record<CellKind, string>> = {
   parameters: 'Parameters', rate: 'Rate law', phase: 'Where it settles', simulate: 'Run',
-  data: 'Measurements', fit: 'Fit', nca: 'Profile summary', note: 'Note',
+  data: 'Measurements', fit: 'Fit', nca: 'Profile summary', solve: 'Solve for', note: 'Note',
 };
 
 /** The cells of a study, as much of them as the words need. */
@@ -48,6 +48,9 @@ const FIELD_WORDS: Readonly<Record<string, Readonly<Record<string, string>>>> = 
   'cell:nca': { data: 'measurements', time: 'time column', concentration: 'concentration column', dose: 'dose', route: 'route', duration: 'infusion duration', auc: 'area rule', terminal: 'terminal phase', prefix: 'prefix', units: 'units' },
   'cell:data': { csv: 'CSV text' },
   'cell:note': { text: 'text' },
+  'cell:solve': { vary: 'varied value', target: 'target' },
+  vary: { parameter: 'parameter varied', as: 'name of the result', min: 'lowest value', max: 'highest value', roundTo: 'round to', choices: 'choices', guess: 'guess' },
+  target: { value: 'target', equals: 'wanted value' },
   item: { name: 'name', value: 'value', note: 'note', unit: 'shown in', glance: 'at a glance' },
   event: { at: 'time', every: 'repeats every', count: 'repeat count', for: 'infusion duration', add: 'amounts added', set: 'values set', infuse: 'infusion rates' },
   question: { name: 'name', level: 'level', at: 'time', from: 'window start', to: 'window end', direction: 'direction', occurrence: 'occurrence', unit: 'shown in', glance: 'at a glance' },
@@ -69,6 +72,7 @@ function entryWords(list: string, i: number, entry: unknown, cell: Cell): { word
     case 'columns': return { words: `column ${named ?? i + 1}`, context: 'column' };
     case 'rows': return { words: `row ${i + 1}`, context: 'row' };
     case 'rates': return { words: `law ${i + 1}`, context: 'value' };
+    case 'choices': return { words: `choice ${i + 1}`, context: 'value' };
     case 'range': return { words: i === 0 ? 'slider range start' : 'slider range end', context: 'value' };
     default: return { words: `${spaced(list)} ${i + 1}`, context: cell.kind };
   }
@@ -134,8 +138,8 @@ export function fieldWords(study: CellsOf, path: string, withCell = true): strin
     if (context === 'units') { parts.push(`${key} shown in`); context = 'value'; node = next; continue; }
     const words = FIELD_WORDS[context]?.[key];
     parts.push(words ?? spaced(key));
-    // inside a sweep or the tolerances, the field's own words say enough (`sweep start`)
-    if ((key === 'sweep' || key === 'tolerance') && at < steps.length - 1) { context = key; parts.pop(); }
+    // inside a sweep, the tolerances, a solve's vary or target, the field's own words say enough (`sweep start`)
+    if ((key === 'sweep' || key === 'tolerance' || key === 'vary' || key === 'target') && at < steps.length - 1) { context = key; parts.pop(); }
     node = next;
   }
   if (!withCell) return parts.length > 1 ? parts.slice(1).join(', ') : 'the cell';

@@ -33,8 +33,9 @@ export const FORMAT_FIELDS = {
     'find[].occurrence', 'find[].at', 'find[].from', 'find[].to', 'find[].unit', 'find[].glance', 'plotScale',
   ],
   data: ['id', 'kind', 'title', 'columns[].name', 'columns[].unit', 'rows', 'csv'],
-  fit: ['id', 'kind', 'title', 'rates', 'data', 'time', 'observe', 'estimate[].parameter', 'estimate[].as', 'estimate[].guess', 'estimate[].min', 'estimate[].max', 'estimate[].unit', 'weighting', 'plotScale'],
+  fit: ['id', 'kind', 'title', 'rates', 'run', 'data', 'time', 'observe', 'estimate[].parameter', 'estimate[].as', 'estimate[].guess', 'estimate[].min', 'estimate[].max', 'estimate[].unit', 'weighting', 'plotScale'],
   nca: ['id', 'kind', 'title', 'data', 'time', 'concentration', 'dose', 'route', 'duration', 'auc', 'terminal', 'prefix', 'units'],
+  solve: ['id', 'kind', 'title', 'vary.parameter', 'vary.as', 'vary.min', 'vary.max', 'vary.roundTo', 'vary.choices', 'vary.guess', 'target.value', 'target.equals'],
   note: ['id', 'kind', 'title', 'text'],
 } as const satisfies { [K in CellKind]: ReadonlyArray<FieldPath<CellOf<K>>> };
 

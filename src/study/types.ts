@@ -6,7 +6,7 @@ import { METHODS, type Method } from '../numerics/ode/integrate.ts';
 export const FORMAT = 'ratebook-study';
 export const CURRENT_VERSION = 1;
 
-export const CELL_KINDS = ['parameters', 'rate', 'phase', 'simulate', 'data', 'fit', 'nca', 'note'] as const;
+export const CELL_KINDS = ['parameters', 'rate', 'phase', 'simulate', 'data', 'fit', 'nca', 'solve', 'note'] as const;
 export type CellKind = (typeof CELL_KINDS)[number];
 
 export interface CellBase {
@@ -101,7 +101,10 @@ export const WEIGHTINGS = ['none', 'relative', 'proportional'] as const;
 export interface FitEstimate { parameter: string; as: string; guess: string; min?: string; max?: string; /** unit to show the estimate in (optional) */ unit?: string }
 export interface FitCell extends CellBase {
   kind: 'fit';
-  rates: string[];
+  /** The rate cells whose laws are fitted from t = 0 with no events; absent when `run` is given. */
+  rates?: string[];
+  /** A simulate cell whose span start, laws and whole schedule are the model (instead of `rates`). */
+  run?: string;
   data: string;
   time: string;
   observe: Record<string, string>;
@@ -135,7 +138,28 @@ export interface NcaCell extends CellBase {
 
 export interface NoteCell extends CellBase { kind: 'note'; text: string }
 
-export type Cell = ParametersCell | RateCell | PhaseCell | SimulateCell | DataCell | FitCell | NcaCell | NoteCell;
+/**
+ * A solve cell: the value of a parameter (or a state's initial value) in [min, max], or among
+ * `choices`, at which the target expression equals `equals` (cells/solve.ts).
+ */
+export interface SolveCell extends CellBase {
+  kind: 'solve';
+  vary: {
+    parameter: string;
+    as: string;
+    min?: string;
+    max?: string;
+    /** Round the solution to a multiple of this (a vial, a tablet, a pump setting). */
+    roundTo?: string;
+    /** Values to try instead of a range; the one whose target is nearest is defined. */
+    choices?: string[];
+    /** With several solutions, the one nearest this is defined (default: the smallest). */
+    guess?: string;
+  };
+  target: { value: string; equals: string };
+}
+
+export type Cell = ParametersCell | RateCell | PhaseCell | SimulateCell | DataCell | FitCell | NcaCell | SolveCell | NoteCell;
 
 export interface Study {
   format: typeof FORMAT;

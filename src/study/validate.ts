@@ -148,7 +148,11 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
       checkData(c, p);
       break;
     case 'fit':
-      p.ids(c, 'rates');
+      // the model: the laws named in `rates`, or the run named in `run`, never both
+      if (c.run !== undefined && c.rates !== undefined) p.add(`${at}.run`, 'name either the laws ("rates") or a run ("run"), not both');
+      else if (c.run !== undefined) p.id(c, 'run');
+      else if (c.rates === undefined) p.add(`${at}.rates`, 'is missing: name the laws to fit ("rates") or a run to fit through ("run")');
+      else p.ids(c, 'rates');
       p.id(c, 'data');
       p.text(c, 'time');
       p.oneOf(c, 'plotScale', PLOT_SCALES, true);
@@ -196,6 +200,9 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
       if (c.prefix !== undefined && (typeof c.prefix !== 'string' || !/^[A-Za-z0-9_]*$/.test(c.prefix))) {
         p.add(`${at}.prefix`, 'must be letters, digits or "_"');
       }
+      break;
+    case 'solve':
+      checkSolve(c, p);
       break;
     case 'note':
       p.text(c, 'text');
@@ -280,6 +287,31 @@ function checkSimulate(c: Record<string, unknown>, p: Checker): void {
       if (f.from !== undefined) p.expr(f, 'from', path);
       if (f.to !== undefined) p.expr(f, 'to', path);
     });
+  }
+}
+
+function checkSolve(c: Record<string, unknown>, p: Checker): void {
+  if (p.object(c.vary, 'vary')) {
+    const v = c.vary;
+    p.name(v, 'parameter', 'vary');
+    p.name(v, 'as', 'vary');
+    const range = v.min !== undefined || v.max !== undefined;
+    if (v.choices !== undefined) {
+      if (!Array.isArray(v.choices) || v.choices.length === 0 || v.choices.some((x) => typeof x !== 'string')) {
+        p.add(`${p.at}.vary.choices`, 'must be a list of one or more values, each an expression written as text');
+      } else if (v.choices.length > 100) p.add(`${p.at}.vary.choices`, `lists ${v.choices.length} values; at most 100 can be tried`);
+      if (range) p.add(`${p.at}.vary.${v.min !== undefined ? 'min' : 'max'}`, 'give either min and max, or choices, not both');
+      if (v.roundTo !== undefined) p.add(`${p.at}.vary.roundTo`, 'rounds a solution found in a range; the choices are used as they are');
+    } else {
+      p.expr(v, 'min', 'vary');
+      p.expr(v, 'max', 'vary');
+      if (v.roundTo !== undefined) p.expr(v, 'roundTo', 'vary');
+    }
+    if (v.guess !== undefined) p.expr(v, 'guess', 'vary');
+  }
+  if (p.object(c.target, 'target')) {
+    p.expr(c.target, 'value', 'target');
+    p.expr(c.target, 'equals', 'target');
   }
 }
 

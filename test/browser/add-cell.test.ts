@@ -39,6 +39,7 @@ const FIRST_FIELD: Record<string, string> = {
   data: 'Name of column 1',
   fit: 'Estimate 1: parameter or state',
   nca: 'Dose',
+  solve: 'Parameter or state to vary',
   note: 'Note text',
 };
 

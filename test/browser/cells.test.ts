@@ -36,7 +36,7 @@ const law = { id: 'law', kind: 'rate', state: 'T', unit: 'degC', rate: '-k * (T 
 const inputs = { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h', range: ['0.1 / h', '1 / h'] }, { name: 'Ta', value: '4 degC' }] };
 
 describe('cell elements', () => {
-  afterEach(() => document.querySelectorAll('parameters-cell, rate-cell, simulate-cell, phase-cell, note-cell, data-cell, nca-cell, fit-cell').forEach((e) => e.remove()));
+  afterEach(() => document.querySelectorAll('parameters-cell, rate-cell, simulate-cell, phase-cell, note-cell, data-cell, nca-cell, fit-cell, solve-cell').forEach((e) => e.remove()));
 
   it('parameters-cell: values, a slider for a range, an error on its field, edits', async () => {
     const { el } = await mount('parameters-cell', [{ ...inputs, items: [...inputs.items, { name: 'bad', value: 'k * 1 m + 1' }] }], 'p');
@@ -153,6 +153,52 @@ describe('cell elements', () => {
     const d = (await toTable).cell;
     expect(d.rows).to.deep.equal([[0, 2], [1, 1.5]]);
     expect(d.csv).to.equal(undefined);
+  });
+
+  it('solve-cell: the answer with its rounded value, a unit error on its field, edits, and the button that writes the answer into the parameter', async () => {
+    const p = { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h' }, { name: 'Ta', value: '4 degC' }] };
+    const run = { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '2 h', find: [{ name: 'T2', valueOf: 'T', at: '2 h' }] };
+    const solve = { id: 's', kind: 'solve', vary: { parameter: 'k', as: 'k_new', min: '0.1 / h', max: '3 / h', roundTo: '0.05 / h' }, target: { value: 'T2', equals: '21 degC' } };
+    const { el, report } = await mount('solve-cell', [p, law, run, solve], 's');
+    // closed form: T(2 h) = Ta + (T0 - Ta) e^{-2k} = 21 degC at k = ln(66/17) / 2 h = 0.6782 /h, rounded to 0.7 /h
+    const text = el.shadowRoot!.textContent!.replace(/\s+/g, ' ');
+    expect(text).to.match(/k = 0\.678[0-9]* \/h gives T2 = 21 degC/);
+    expect(text).to.match(/Rounded: k = 0\.7 \/h gives T2 = 20\.2[78] degC/);
+    (el as unknown as { doc: unknown }).doc = { cells: [p, law, run, solve] };
+    await el.updateComplete;
+    const button = el.shadowRoot!.querySelector('button[data-use]') as HTMLButtonElement;
+    expect(button.textContent!.trim()).to.equal('Set k to 0.7 /h');
+    const used = nextEdit(el);
+    button.click();
+    const u = await used;
+    expect(u.cell.id).to.equal('p');
+    expect((u.cell.items as Array<{ value: string }>)[0].value).to.equal('0.7 /h');
+    expect(u.mergeKey).to.equal(undefined);
+    expect(report.cells[0]).to.exist;
+
+    const { el: bad } = await mount('solve-cell', [p, law, run, { ...solve, target: { value: 'T2', equals: '21 mg' } }], 's');
+    expect(field(bad, 'Wanted value of the target').error?.message).to.match(/temperature/);
+    const edit = nextEdit(bad);
+    type(field(bad, 'Highest value to try'), '2 / h');
+    const d = await edit;
+    expect((d.cell.vary as { max: string }).max).to.equal('2 / h');
+    expect(d.mergeKey).to.equal('s:vary.max');
+  });
+
+  it('solve-cell: choices in a table, the nearest marked; switching to a range keeps the first and last choice', async () => {
+    const p = { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h' }, { name: 'Ta', value: '4 degC' }] };
+    const run = { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '2 h', find: [{ name: 'T2', valueOf: 'T', at: '2 h' }] };
+    const solve = { id: 's', kind: 'solve', vary: { parameter: 'k', as: 'k_new', choices: ['0.25 / h', '0.5 / h', '1 / h'] }, target: { value: 'T2', equals: '21 degC' } };
+    const { el } = await mount('solve-cell', [p, law, run, solve], 's');
+    const rows = [...el.shadowRoot!.querySelectorAll('table.choices tbody tr')];
+    expect(rows.length).to.equal(3);
+    // closed form: T(2 h) at k = 0.25, 0.5, 1 /h is 44.0, 28.3, 12.9 degC; 21 degC is nearest 28.3 (0.5 /h)
+    expect(rows[1].classList.contains('chosen')).to.equal(true);
+    const edit = nextEdit(el);
+    const radios = [...el.shadowRoot!.querySelectorAll('input[type="radio"]')] as HTMLInputElement[];
+    radios[0].click();
+    const d = await edit;
+    expect(d.cell.vary).to.deep.equal({ parameter: 'k', as: 'k_new', min: '0.25 / h', max: '1 / h' });
   });
 
   it('nca-cell: the profile values, an error on the dose field, edits of the route', async () => {

@@ -43,8 +43,13 @@ export const EVERY_FIELD: Study = {
     { id: 'd2', kind: 'data', title: 'Pasted', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], csv: 't,C\n1,7.4\n2,5.5\n4,3.0\n' },
     { id: 'f', kind: 'fit', title: 'Fit', rates: ['cb'], data: 'd', time: 't', observe: { Cb: 'C' },
       estimate: [{ parameter: 'kb', as: 'kb_hat', guess: '0.2 / h', min: '0.01 / h', max: '1 / h', unit: '1 / d' }], weighting: 'relative', plotScale: 'log' },
+    { id: 'f2', kind: 'fit', title: 'Through the regimen', run: 'run', data: 'd', time: 't', observe: { C: 'C' },
+      estimate: [{ parameter: 'V', as: 'V_hat', guess: '30 L' }] },
     { id: 'n', kind: 'nca', title: 'Profile', data: 'd', time: 't', concentration: 'C', dose: '500 mg', route: 'infusion', duration: '0.5 h',
       auc: 'linear', terminal: 3, prefix: 'p_', units: { CL: 'mL / min' } },
+    { id: 'sv', kind: 'solve', title: 'Dose for a trough', vary: { parameter: 'dose', as: 'dose_new', min: '100 mg', max: '2000 mg', roundTo: '50 mg', guess: '400 mg' },
+      target: { value: 'trough_last', equals: '1 mg / L' } },
+    { id: 'sc', kind: 'solve', title: 'Interval', vary: { parameter: 'tau', as: 'tau_new', choices: ['8 h', '12 h', '24 h'] }, target: { value: 'trough_last', equals: '1 mg / L' } },
     { id: 'm', kind: 'note', title: 'About', text: 'Every field once, with invented numbers.' },
   ],
 } as Study;

@@ -46,6 +46,19 @@ describe('names a fit defines', () => {
     expect(option!.detail).to.match(/^0\.15\d+ \/h \(fitted\)$/);
   });
 
+  it('offer each estimate\'s standard error and 95% bounds by completion, as names', async function () {
+    this.timeout(20000);
+    const view = await mount(plasma);
+    const f = fieldOf(view, 'Value of CL_fit');
+    const cm = viewOf(f);
+    cm.focus();
+    cm.dispatch({ changes: { from: 0, to: cm.state.doc.length, insert: 'k_fit_' }, selection: { anchor: 6 }, userEvent: 'input.type' });
+    await until(() => completionStatus(cm.state) === 'active', 'the completion list');
+    const options = currentCompletions(cm.state).filter((c) => c.label.startsWith('k_fit_'));
+    expect(options.map((o) => o.label).sort()).to.deep.equal(['k_fit_hi', 'k_fit_lo', 'k_fit_se']);
+    expect(options.find((o) => o.label === 'k_fit_se')!.detail).to.match(/ \/h \(standard error of k_fit\)$/);
+  });
+
   it('are suggested for a near miss, on the field that has it', async function () {
     this.timeout(20000);
     const view = await mount(plasma);

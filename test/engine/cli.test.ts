@@ -127,3 +127,32 @@ describe('ratebook run --series', () => {
     assert.equal(without.cells[1].series, undefined);
   });
 });
+
+describe('ratebook run: a solve cell', () => {
+  // invented numbers: the level after 4 doses of D every 6 h into x' = -0.2/h x, read at 24 h
+  const study = JSON.stringify({
+    format: 'ratebook-study', version: 1, title: 'Solve',
+    cells: [
+      { id: 'p', kind: 'parameters', items: [{ name: 'D', value: '2 g' }, { name: 'k', value: '0.2 / h' }] },
+      { id: 'law', kind: 'rate', state: 'x', unit: 'g / L', rate: '-k * x', initial: '0 g / L' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '24 h', events: [{ at: '0 h', every: '6 h', count: 4, add: { x: 'D / (10 L)' } }], find: [{ name: 'low', valueOf: 'x', at: '24 h' }] },
+      { id: 's', kind: 'solve', vary: { parameter: 'D', as: 'D_new', min: '0.1 g', max: '10 g', roundTo: '0.5 g' }, target: { value: 'low', equals: '0.1 g / L' } },
+    ],
+  });
+  // closed form: x(24 h) = (D / 10 L) Σ_{j=0..3} e^{-0.2 (24 - 6 j)}, so D = 0.1 g/L · 10 L / Σ
+  const sum = [0, 1, 2, 3].reduce((s, j) => s + Math.exp(-0.2 * (24 - 6 * j)), 0);
+  const exact = 1 / sum;
+
+  it('prints the solution, what it gives, the rounded value and the runs, as text and in --json', () => {
+    const text = run(['run', 's.json'], { 's.json': study });
+    assert.equal(text.code, 0);
+    assert.match(text.out, /\[ok\] s \(solve\)/);
+    assert.match(text.out, new RegExp(`solution +${exact.toPrecision(6).replace('.', '\\.')} g`));
+    assert.match(text.out, /rounded +2\.5 g/); // hand-worked: 2.339 g to the nearest 0.5 g
+    const json = run(['run', 's.json', '--json'], { 's.json': study });
+    const s = JSON.parse(json.out).cells[3];
+    assert.ok(Math.abs(s.solution.value - exact) <= 1e-5 * exact);
+    assert.equal(s.rounded.value, 2.5);
+    assert.ok(s.evaluations > 0);
+  });
+});

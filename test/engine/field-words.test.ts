@@ -25,6 +25,14 @@ const DOC = study([
 ]);
 
 describe('a place in words', () => {
+  it('names a solve cell\'s fields as its element labels them (hand-written)', () => {
+    const doc = study([{ id: 's', kind: 'solve', title: 'Dose', vary: { parameter: 'dose', as: 'd2', choices: ['1 g', '2 g'] }, target: { value: 'x', equals: '1' } }]);
+    assert.equal(fieldWords(doc, 'cells[0].vary.min'), 'Solve for "Dose", lowest value');
+    assert.equal(fieldWords(doc, 'cells[0].vary.choices[1]'), 'Solve for "Dose", choice 2');
+    assert.equal(fieldWords(doc, 'cells[0].target.equals'), 'Solve for "Dose", wanted value');
+    assert.equal(fieldWords(doc, 'cells[0].vary.parameter', false), 'parameter varied');
+  });
+
   it('names the cell by its kind and title (else id), then the field as the editor shows it', () => {
     // hand-written from DOC
     assert.equal(fieldWords(DOC, 'cells[4].estimate[0].as'), 'Fit "k", estimate 1, name');

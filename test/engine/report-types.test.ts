@@ -75,6 +75,7 @@ const DECLARED = {
   data: ['columns', 'rowCount', 'missing', 'note', 'csv'],
   fit: ['estimates', 'residualSD', 'n', 'dof', 'iterations', 'evaluations', 'converged', 'message', 'correlation', 'warnings', 'residuals', 'residualFloor', 'summary', 'plot'],
   nca: ['values', 'pointsUsed', 'note', 'warnings'],
+  solve: ['solution', 'achieved', 'rounded', 'achievedRounded', 'solutions', 'targetRange', 'undefinedIn', 'choices', 'evaluations', 'message'],
   note: [],
 } as const satisfies { [K in CellKind]: ReadonlyArray<keyof CellFields[K]> };
 // the list above names every field the types declare (a field added to a kind must be added there)
@@ -90,6 +91,7 @@ const STUDY = {
     { id: 'fitk', kind: 'fit', rates: ['drug'], data: 'logger', time: 't', observe: { C: 'C' }, estimate: [{ parameter: 'k', as: 'k_hat', guess: '0.4 / h' }] },
     { id: 'run', kind: 'simulate', rates: ['drug'], from: '0 h', to: '8 h', find: [{ name: 'C_end', valueOf: 'C', at: '8 h' }] },
     { id: 'prof', kind: 'nca', data: 'logger', time: 't', concentration: 'C', dose: '100 mg', route: 'iv-bolus' },
+    { id: 'find-k', kind: 'solve', vary: { parameter: 'k', as: 'k_new', min: '0.1 / h', max: '2 / h' }, target: { value: 'C_end', equals: '1 mg / L' } },
     { id: 'n', kind: 'note', text: 'every kind once' },
   ],
 };
@@ -109,6 +111,8 @@ describe('the typed report', () => {
       if (isKind(c, 'data')) assert.equal(c.rowCount, 5);
       if (isKind(c, 'fit')) assert.equal(c.estimates?.k_hat.value.unit, '1 / h');
       if (isKind(c, 'nca')) assert.equal(c.values?.Cmax.value, 10);
+      // closed form: 10 mg/L · exp(-k · 8 h) = 1 mg/L at k = ln(10) / 8 h
+      if (isKind(c, 'solve')) assert.ok(Math.abs((c.solution?.value ?? 0) - Math.log(10) / 8) < 1e-5);
     }
   });
 
