@@ -26,7 +26,7 @@ afterEach(() => {
 
 describe('a large study', () => {
   it('renders a screenful at once and the rest in later tasks, each with its result', async function () {
-    this.timeout(30000);
+    this.timeout(45000);
     const view = StudyView.create();
     document.body.append(view);
     view.controller.open('large', chain() as unknown as Study);
@@ -34,15 +34,15 @@ describe('a large study', () => {
     const first = articles(view).length;
     expect(first, 'not every cell at once').to.be.below(LARGE + 20);
     expect(first, 'a screenful at once').to.be.at.least(6);
-    await until(() => articles(view).length === LARGE + 20, 'every cell rendered', 10000);
+    await until(() => articles(view).length === LARGE + 20, 'every cell rendered', 20000);
     // hand-worked: p_i = i + 1, so the last is LARGE + 20
-    await until(() => shownValue(articles(view).at(-1)!).startsWith(String(LARGE + 20)), 'the last cell shows its value', 10000);
+    await until(() => shownValue(articles(view).at(-1)!).startsWith(String(LARGE + 20)), 'the last cell shows its value', 25000);
   });
 
   it('a field far below waits for its editor as a labelled text box, and becomes the editor on focus', async function () {
-    this.timeout(30000);
+    this.timeout(45000);
     const view = await mountStudy(chain());
-    await until(() => articles(view).length === LARGE + 20, 'every cell rendered', 10000);
+    await until(() => articles(view).length === LARGE + 20, 'every cell rendered', 20000);
     const last = articles(view).at(-1)!.querySelector('parameters-cell')!.shadowRoot!.querySelector('expr-field')!;
     await last.updateComplete;
     const box = await until(() => last.shadowRoot!.querySelector<HTMLElement>('.waiting'), 'the waiting box');
@@ -57,9 +57,9 @@ describe('a large study', () => {
   });
 
   it('a new report reaches every cell', async function () {
-    this.timeout(30000);
+    this.timeout(45000);
     const view = await mountStudy(chain());
-    await until(() => articles(view).length === LARGE + 20, 'every cell rendered', 10000);
+    await until(() => articles(view).length === LARGE + 20, 'every cell rendered', 20000);
     view.controller.edit({ type: 'replace', cell: { id: 'c0', kind: 'parameters', items: [{ name: 'p0', value: '101' }] } });
     // hand-worked: p_i = i + 101 now, so the last is LARGE + 120
     await until(() => shownValue(articles(view).at(-1)!).startsWith(String(LARGE + 120)), 'the last cell shows its new value', 15000);
