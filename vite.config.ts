@@ -1,5 +1,7 @@
 import { defineConfig } from 'vite';
 import { offlineServiceWorker } from './offline/vite-plugin.ts';
+import { contentSecurityPolicy } from './csp/vite-plugin.ts';
+import { PAGE_HEADER } from './csp/policy.ts';
 
 // Dependencies are pre-bundled up front. If Vite discovered one of these only
 // when a browser test imported it, it would re-optimize and reload the page in
@@ -25,6 +27,9 @@ export default defineConfig({
     outDir: 'dist',
     emptyOutDir: true,
   },
+  // The page's content security policy as a header (csp/policy.ts); the plugin gives the
+  // engine worker its own and writes the page's into the built index.html as a meta tag.
+  preview: { headers: { 'Content-Security-Policy': PAGE_HEADER } },
   // Production builds only: writes dist/sw.js, which caches every built file for offline use.
-  plugins: [offlineServiceWorker()],
+  plugins: [offlineServiceWorker(), contentSecurityPolicy()],
 });

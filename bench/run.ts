@@ -18,7 +18,9 @@ import { odeBench, stiffBench } from './ode.ts';
 import { REFERENCE_VERSION, workPrecisionBench } from './work-precision.ts';
 import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
+import { openLargeStudyBenchmarks } from './browser-open.ts';
 import { whatIfBenchmarks } from './what-if.ts';
+import { closureBenchmarks } from './closures.ts';
 import { solveBenchmarks } from './solve.ts';
 import { fitBenchmarks } from './fit.ts';
 import { mapFitBenchmarks } from './fit-map.ts';
@@ -342,6 +344,14 @@ function whatIfRows(): Row[] {
   }));
 }
 
+function closureRows(): Row[] {
+  return closureBenchmarks().flatMap((r) => [
+    { measure: `${r.name}: generated code, median`, result: ms(r.generatedMs) },
+    { measure: '  closures (as under a policy without unsafe-eval), median', result: ms(r.closuresMs) },
+    { measure: '  closures / generated code', result: `${(r.closuresMs / r.generatedMs).toFixed(2)}x` },
+  ]);
+}
+
 function solveRows(): Row[] {
   return solveBenchmarks().map((r) => ({
     measure: `${r.name} (${r.evaluations} what-if runs)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
@@ -362,6 +372,10 @@ async function browserRows(): Promise<Row[]> {
   return (await browserBenchmarks()).map((r) => ({ measure: r.name, result: r.value, goal: r.goal, met: r.met }));
 }
 
+async function openRows(): Promise<Row[]> {
+  return (await openLargeStudyBenchmarks()).map((r) => ({ measure: r.name, result: r.value, goal: r.goal, met: r.met }));
+}
+
 const SECTIONS: readonly Section[] = [
   { title: 'Compiled rate laws: evaluations per second', run: rateLawRows },
   { title: 'Incremental editing of a study', run: editRows },
@@ -371,11 +385,13 @@ const SECTIONS: readonly Section[] = [
   { title: 'ODE work-precision: auto against SciPy solve_ivp at equal accuracy', run: workPrecisionRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
   { title: 'What-if runs of a dosing schedule', run: whatIfRows },
+  { title: 'Rate law runs: generated code against closures', run: closureRows },
   { title: 'Solving for a dose', run: solveRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'Studies of many cells: opening a chain of parameters', run: scalingBenchmarks },
   { title: 'Large CSV logs read into a table', run: csvBenchmarks },
   { title: 'In the browser: dragging a slider, and the bundle', run: browserRows },
+  { title: 'In the browser: opening a 200-cell study', run: openRows },
 ];
 
 // ---------------------------------------------------------------------------------------

@@ -55,6 +55,12 @@ export class ExprField extends LitElement {
     :host([readonly]) .box { background: #f4f6f8; border-style: dashed; }
     :host([readonly]) .box .cm-editor { background: transparent; }
     .message { color: #b3261e; margin: 0.3rem 0 0; font-size: 0.9rem; }
+    /* the field's text until its editor is made (expr-editor/deferred.ts): the editor's type and spacing */
+    .waiting {
+      font: 1rem/1.5 ui-monospace, "SFMono-Regular", Menlo, Consolas, monospace;
+      color: #1c2329; padding: 0.4rem 0.6rem; white-space: pre-wrap; overflow-wrap: anywhere; min-height: 1.5em;
+    }
+    .waiting:focus { outline: none; }
   `;
 
   override render() {

@@ -3,8 +3,8 @@
  * document order through shadow roots once each element there has rendered.
  */
 
-/** Where a person types: text inputs, number boxes, text areas, expression editors. */
-const TYPING = 'input:not([type]), input[type="text"], input[type="number"], input[type="search"], textarea, [contenteditable="true"]';
+/** Where a person types: text inputs, number boxes, text areas, expression editors (and a field waiting for its editor, which makes it on focus). */
+const TYPING = 'input:not([type]), input[type="text"], input[type="number"], input[type="search"], textarea, [contenteditable="true"], [role="textbox"][tabindex="0"]';
 /** Any other control, taken when there is nowhere to type. */
 const CONTROL = 'input:not([type="hidden"]), select, button, [tabindex="0"]';
 

@@ -1,6 +1,8 @@
 import { LitElement, html, css, nothing, unsafeCSS } from 'lit';
 import { freshId, partsWords, type Cell, type CellReport } from '../src/index.ts';
 import { StudyController, type StudyControllerOptions } from './study-controller.ts';
+import { LARGE, Progressive } from './progressive.ts';
+import { deferEditors } from './expr-editor/deferred.ts';
 import { KINDS, ADDABLE } from './cells/registry.ts';
 import { NARROW_PX, type CellEditDetail } from './cells/common.ts';
 import type { SheetMeta } from './sheet/study-sheet.ts';
@@ -25,6 +27,8 @@ export class StudyView extends LitElement {
   /** True while the browser prints: the sheet is rendered (hidden on screen) in edit mode too. */
   printing = false;
   controller!: StudyController;
+  /** A long study is rendered in chunks (`progressive.ts`). */
+  private readonly chunks = new Progressive<{ r: CellReport | undefined; report: StudyController['report'] }>(this);
 
   /** A study view with its controller (saving as `options` say). */
   static create(options: StudyControllerOptions = {}): StudyView {
@@ -98,6 +102,7 @@ export class StudyView extends LitElement {
     this.removeEventListener('expr-commit', this.fieldCommitted);
     window.removeEventListener('beforeprint', this.beforePrint);
     window.removeEventListener('afterprint', this.afterPrint);
+    this.chunks.stop();
     super.disconnectedCallback();
   }
 
@@ -146,6 +151,8 @@ export class StudyView extends LitElement {
         <div class="paper">${sheet}</div>`;
     }
     const byId = new Map((report?.cells ?? []).map((r) => [r.id, r] as const));
+    // not while printing: the charts and fields of the page must all be there for paper
+    deferEditors(!this.printing && study.cells.length > LARGE);
     return html`
       ${this.printing ? html`<div class="for-print">${sheet}</div>` : nothing}
       <div class="editing ${this.printing ? 'sheet-instead' : ''}">
@@ -165,7 +172,7 @@ export class StudyView extends LitElement {
         ${report.warningParts.map((p) => { const w = partsWords(study, p); return html`<p>${w[0].toUpperCase()}${w.slice(1)}.</p>`; })}</section>` : nothing}
       ${c.problem ? html`<p class="problem" role="alert">${c.problem}</p>` : nothing}
       ${study.cells.length === 0 ? html`<p class="empty">This study has no cells yet. Start with parameters or a rate law below.</p>` : nothing}
-      ${study.cells.map((cell, i) => this.cell(cell, i, byId.get(cell.id)))}
+      ${this.chunks.pick(study.cells, report, (cell) => ({ r: byId.get(cell.id), report })).map(([cell, i, g]) => this.cell(cell, i, g.r, g.report))}
       <div class="add" role="group" aria-label="Add a cell" ${ref(this.addBar)}>
         <span>Add</span>
         ${ADDABLE.map((kind) => html`<button @click=${() => void this.add(kind)}>${KINDS[kind].label}</button>`)}
@@ -173,7 +180,7 @@ export class StudyView extends LitElement {
       </div>`;
   }
 
-  private cell(cell: Cell, i: number, r: CellReport | undefined) {
+  private cell(cell: Cell, i: number, r: CellReport | undefined, report: StudyController['report']) {
     const c = this.controller;
     const info = KINDS[cell.kind];
     const failed = r && !r.ok;
@@ -192,7 +199,7 @@ export class StudyView extends LitElement {
           <button aria-label="Delete ${cell.id}" @click=${() => c.edit({ type: 'remove', id: cell.id })}>✕</button>
         </span>
       </header>
-      ${info.render(cell, r, c.report, c.study)}
+      ${info.render(cell, r, report, c.study)}
     </article>`;
   }
 
@@ -216,6 +223,7 @@ export class StudyView extends LitElement {
   private async add(kind: Cell['kind']) {
     const study = this.controller.study!;
     const id = freshId(study, kind === 'parameters' ? 'inputs' : kind === 'simulate' ? 'run' : kind);
+    this.chunks.showAll();
     this.controller.edit({ type: 'insert', index: study.cells.length, cell: { id, kind, ...KINDS[kind].blank(study) } });
     await this.updateComplete;
     const body = this.renderRoot.querySelector(`article[data-cell="${CSS.escape(id)}"] > :last-child`);

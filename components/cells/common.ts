@@ -171,6 +171,13 @@ export const cellStyles = css`
   label { font-size: 0.85rem; color: #3b4650; }
   .lbl { font-size: 0.85rem; color: #3b4650; min-width: 4.5rem; }
   expr-field { flex: 1 1 12rem; min-width: 10rem; }
+  /* narrower fields by class: the content security policy refuses style attributes */
+  expr-field.w7 { flex: 0 1 7rem; }
+  expr-field.w8 { flex: 0 1 8rem; }
+  expr-field.w9 { flex: 0 1 9rem; }
+  expr-field.w10 { flex: 0 1 10rem; }
+  table.fit-width { width: auto; }
+  caption.start { text-align: left; }
   input[type='text'], input[type='number'], select, textarea { font: inherit; padding: 0.25rem 0.4rem; border: 1px solid #9aa6b1; border-radius: 4px; background: #fff; color: #1c2329; }
   input:focus-visible, select:focus-visible, textarea:focus-visible, button:focus-visible { outline: 2px solid #1d5fa8; outline-offset: 1px; }
   input.name { width: 7rem; font-family: ui-monospace, monospace; }

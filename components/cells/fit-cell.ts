@@ -101,7 +101,7 @@ export class FitCellElement extends CellElement<'fit'> {
   private correlation() {
     const cor = this.report?.correlation;
     if (!cor || cor.names.length < 2) return nothing;
-    return html`<table style="width: auto"><caption class="muted" style="text-align: left">Correlation of the estimates</caption>
+    return html`<table class="fit-width"><caption class="muted start">Correlation of the estimates</caption>
       <thead><tr><th><span class="sr">Estimate</span></th>${cor.names.map((n) => html`<th>${n}</th>`)}</tr></thead>
       <tbody>${cor.names.map((n, i) => html`<tr><th>${n}</th>${cor.matrix[i].map((v) => html`<td class="num">${v.toFixed(3)}</td>`)}</tr>`)}</tbody></table>`;
   }

@@ -31,11 +31,11 @@ export class NcaCellElement extends CellElement<'nca'> {
       </div>
       <div class="row">
         <span class="lbl">Dose</span>
-        <expr-field style="flex: 0 1 9rem" data-field="dose" label="Dose" .value=${c.dose ?? ''} .names=${this.names} .error=${claims.take('.dose')}
+        <expr-field class="w9" data-field="dose" label="Dose" .value=${c.dose ?? ''} .names=${this.names} .error=${claims.take('.dose')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ dose: e.detail.value }, 'dose')}></expr-field>
         <label>Route <select data-field="route" @change=${(e: Event) => this.edit({ route: (e.target as HTMLSelectElement).value as NcaDoc['route'] })}>
           ${ROUTES.map(([v, l]) => html`<option value=${v} ?selected=${v === c.route}>${l}</option>`)}</select></label>
-        ${c.route === 'infusion' || c.duration !== undefined ? html`<span class="lbl">for</span><expr-field style="flex: 0 1 7rem" data-field="duration" label="Infusion duration" .value=${c.duration ?? ''} .error=${claims.take('.duration')}
+        ${c.route === 'infusion' || c.duration !== undefined ? html`<span class="lbl">for</span><expr-field class="w7" data-field="duration" label="Infusion duration" .value=${c.duration ?? ''} .error=${claims.take('.duration')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ duration: e.detail.value }, 'duration')}></expr-field>` : nothing}
         <label>Areas <select data-field="auc" @change=${(e: Event) => this.edit({ auc: (e.target as HTMLSelectElement).value as NcaDoc['auc'] })}>
           <option value="linear-up-log-down" ?selected=${(c.auc ?? 'linear-up-log-down') === 'linear-up-log-down'}>linear up, log down</option>

@@ -22,10 +22,10 @@ export class PhaseCellElement extends CellElement<'phase'> {
           ${laws.some((l) => l.id === c.rate) ? nothing : html`<option value=${c.rate ?? ''} selected>${c.rate || '(choose)'}</option>`}
           ${laws.map(({ id, label }) => html`<option value=${id} ?selected=${id === c.rate}>${label}</option>`)}</select></label>
         <span class="lbl">From</span>
-        <expr-field style="flex: 0 1 9rem" data-field="from" label="Lower end of the range" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
+        <expr-field class="w9" data-field="from" label="Lower end of the range" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ from: e.detail.value }, 'from')}></expr-field>
         <span class="lbl">to</span>
-        <expr-field style="flex: 0 1 9rem" data-field="to" label="Upper end of the range" .value=${c.to ?? ''} .names=${names} .error=${claims.take('.to')}
+        <expr-field class="w9" data-field="to" label="Upper end of the range" .value=${c.to ?? ''} .names=${names} .error=${claims.take('.to')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ to: e.detail.value }, 'to')}></expr-field>
       </div>
       <div class="row">
@@ -33,10 +33,10 @@ export class PhaseCellElement extends CellElement<'phase'> {
         ${sw ? html`
           <input class="name" type="text" data-field="sweep.name" aria-label="Parameter to sweep" .value=${sw.name ?? ''} @input=${(e: Event) => this.edit({ sweep: { ...sw, name: (e.target as HTMLInputElement).value } }, 'sname')} />
           <span class="lbl">from</span>
-          <expr-field style="flex: 0 1 8rem" data-field="sweep.from" label="Sweep start" .value=${sw.from ?? ''} .names=${names} .error=${claims.take('.sweep.from')}
+          <expr-field class="w8" data-field="sweep.from" label="Sweep start" .value=${sw.from ?? ''} .names=${names} .error=${claims.take('.sweep.from')}
             @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ sweep: { ...sw, from: e.detail.value } }, 'sfrom')}></expr-field>
           <span class="lbl">to</span>
-          <expr-field style="flex: 0 1 8rem" data-field="sweep.to" label="Sweep end" .value=${sw.to ?? ''} .names=${names} .error=${claims.take('.sweep.to')}
+          <expr-field class="w8" data-field="sweep.to" label="Sweep end" .value=${sw.to ?? ''} .names=${names} .error=${claims.take('.sweep.to')}
             @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ sweep: { ...sw, to: e.detail.value } }, 'sto')}></expr-field>
           <label>steps <input type="number" class="count" data-field="sweep.steps" aria-label="Steps of the sweep" min="2" max="10000" .value=${String(sw.steps ?? '')}
             @input=${(e: Event) => this.setSteps((e.target as HTMLInputElement).value)} /></label>

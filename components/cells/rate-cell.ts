@@ -25,7 +25,7 @@ export class RateCellElement extends CellElement<'rate'> {
       ${stateError ? html`<p class="foot-error" role="alert">${stateError.message}</p>` : ''}
       <div class="row">
         <span class="lbl">Unit</span>
-        <expr-field style="flex: 0 1 9rem" data-field="unit" label="Unit of ${c.state}" .value=${c.unit ?? ''} .error=${claims.take('.unit')}
+        <expr-field class="w9" data-field="unit" label="Unit of ${c.state}" .value=${c.unit ?? ''} .error=${claims.take('.unit')}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.edit({ unit: e.detail.value }, 'unit')}></expr-field>
         <unit-pick data-field="unit" .unit=${c.unit ?? ''} .original=${this.report?.originalUnit} label="Show ${c.state} in another unit"
           @unit-pick=${(e: CustomEvent<UnitPickDetail>) => { if (e.detail.unit) this.edit({ unit: e.detail.unit }, 'unit-pick'); }}></unit-pick>

@@ -59,15 +59,15 @@ export class SimulateCellElement extends CellElement<'simulate'> {
       </div>
       <div class="row">
         <span class="lbl">From</span>
-        <expr-field style="flex: 0 1 8rem" data-field="from" label="Start of the run" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
+        <expr-field class="w8" data-field="from" label="Start of the run" .value=${c.from ?? ''} .names=${names} .error=${claims.take('.from')}
           @expr-input=${(e: Input) => this.edit({ from: e.detail.value }, 'from')}></expr-field>
         <span class="lbl">to</span>
-        <expr-field style="flex: 0 1 8rem" data-field="to" label="End of the run" .value=${c.to ?? ''} .names=${names} .error=${claims.take('.to')}
+        <expr-field class="w8" data-field="to" label="End of the run" .value=${c.to ?? ''} .names=${names} .error=${claims.take('.to')}
           @expr-input=${(e: Input) => this.edit({ to: e.detail.value }, 'to')}></expr-field>
         <label>Method <select data-field="method" @change=${(e: Event) => this.edit({ method: (e.target as HTMLSelectElement).value as SimulateCellDoc['method'] })}>
           ${Object.entries(METHOD_LABELS).map(([m, l]) => html`<option value=${m} ?selected=${(c.method ?? 'auto') === m}>${l}</option>`)}
         </select></label>
-        ${fixed || c.step !== undefined ? html`<span class="lbl">Step</span><expr-field style="flex: 0 1 7rem" data-field="step" label="Fixed step${fixed ? '' : ' (used by the fixed-step methods only)'}" .value=${c.step ?? ''} .names=${names} .error=${claims.take('.step')}
+        ${fixed || c.step !== undefined ? html`<span class="lbl">Step</span><expr-field class="w7" data-field="step" label="Fixed step${fixed ? '' : ' (used by the fixed-step methods only)'}" .value=${c.step ?? ''} .names=${names} .error=${claims.take('.step')}
           @expr-input=${(e: Input) => this.setStep(e.detail.value)}></expr-field>` : nothing}
       </div>
       ${this.tolerances()}
@@ -113,7 +113,7 @@ export class SimulateCellElement extends CellElement<'simulate'> {
         ${RELATIVE_TOLERANCES.map((r) => html`<option value=${String(r)} ?selected=${rel === r}>${r.toExponential(0)}</option>`)}</select></label>
       ${footError(this.claims.take('.tolerance.relative'))}
       <span class="lbl">Absolute</span>
-      <expr-field style="flex: 0 1 10rem" data-field="tolerance.absolute" label="Absolute tolerance, in a state's unit (blank: from each state's scale)" .value=${tol?.absolute ?? ''} .names=${this.names}
+      <expr-field class="w10" data-field="tolerance.absolute" label="Absolute tolerance, in a state's unit (blank: from each state's scale)" .value=${tol?.absolute ?? ''} .names=${this.names}
         .error=${this.claims.take('.tolerance.absolute')} @expr-input=${(e: Input) => this.setTolerance('absolute', e.detail.value, 'atol')}></expr-field>
     </div></details>`;
   }

@@ -73,10 +73,10 @@ export function findsTable(h: FindsHost) {
       <tr class="more"><td class="wide" colspan="6"><details ?open=${hasMore}><summary>Window${kind === 'crossing' ? ', occurrence' : ''}, at a glance</summary>
         <div class="row">
           <span class="lbl">Window from</span>
-          <expr-field style="flex: 0 1 8rem" data-field="find[${i}].from" label="Question ${i + 1} window from (blank: the start of the run)" .value=${f.from ?? ''} .names=${names}
+          <expr-field class="w8" data-field="find[${i}].from" label="Question ${i + 1} window from (blank: the start of the run)" .value=${f.from ?? ''} .names=${names}
             .error=${claims.take(`${p}.from`)} @expr-input=${(e: Input) => set('from', e.detail.value.trim() === '' ? '' : e.detail.value, `ffrom${i}`)}></expr-field>
           <span class="lbl">to</span>
-          <expr-field style="flex: 0 1 8rem" data-field="find[${i}].to" label="Question ${i + 1} window to (blank: the end of the run)" .value=${f.to ?? ''} .names=${names}
+          <expr-field class="w8" data-field="find[${i}].to" label="Question ${i + 1} window to (blank: the end of the run)" .value=${f.to ?? ''} .names=${names}
             .error=${claims.take(`${p}.to`)} @expr-input=${(e: Input) => set('to', e.detail.value.trim() === '' ? '' : e.detail.value, `fto${i}`)}></expr-field>
           ${f.from === undefined && f.to === undefined ? html`<span class="muted">blank: over the whole run</span>` : nothing}
           ${kind === 'crossing' || f.occurrence !== undefined ? html`<label>Occurrence <input type="text" inputmode="numeric" class="count" data-field="find[${i}].occurrence"

@@ -17,6 +17,9 @@ export class SolveCellElement extends CellElement<'solve'> {
     .answer { margin: 0.5rem 0 0.2rem; font-size: 0.95rem; }
     .answer .result { font-weight: 600; }
     .choices { width: auto; }
+    /* classes, not style attributes: the content security policy refuses those */
+    span.choice { display: inline-flex; align-items: center; gap: 0.2rem; }
+    expr-field.choice-field { min-width: 6rem; }
     tr.chosen td { background: #eaf2fb; font-weight: 600; }
     details summary { font-size: 0.85rem; color: #3b4650; cursor: pointer; }
   `];
@@ -28,7 +31,7 @@ export class SolveCellElement extends CellElement<'solve'> {
     const claims = this.claims;
     const names = this.names;
     const byChoices = Array.isArray(v.choices);
-    const expr = (path: string, label: string, value: string | undefined, onValue: (s: string) => void, style = '') => html`<expr-field style=${style} data-field=${path} label=${label}
+    const expr = (path: string, label: string, value: string | undefined, onValue: (s: string) => void, cls = '') => html`<expr-field class=${cls} data-field=${path} label=${label}
       .value=${value ?? ''} .names=${names} .error=${claims.take(`.${path}`)} @expr-input=${(e: CustomEvent<{ value: string }>) => onValue(e.detail.value)}></expr-field>`;
     const name = (path: 'parameter' | 'as', label: string) => html`<input class="name" type="text" data-field="vary.${path}" aria-label=${label} .value=${v[path] ?? ''}
       @input=${(e: Event) => this.setVary({ [path]: (e.target as HTMLInputElement).value }, path)} />`;
@@ -45,16 +48,16 @@ export class SolveCellElement extends CellElement<'solve'> {
       </div>
       ${byChoices ? this.choiceFields(v.choices ?? []) : html`
         <div class="row">
-          <span class="lbl">From</span>${expr('vary.min', 'Lowest value to try', v.min, (s) => this.setVary({ min: s }, 'min'), 'flex: 0 1 10rem')}
-          <span class="lbl">to</span>${expr('vary.max', 'Highest value to try', v.max, (s) => this.setVary({ max: s }, 'max'), 'flex: 0 1 10rem')}
+          <span class="lbl">From</span>${expr('vary.min', 'Lowest value to try', v.min, (s) => this.setVary({ min: s }, 'min'), 'w10')}
+          <span class="lbl">to</span>${expr('vary.max', 'Highest value to try', v.max, (s) => this.setVary({ max: s }, 'max'), 'w10')}
         </div>
         <details ?open=${more}><summary>Rounding, guess</summary><div class="row">
-          <span class="lbl">Round to</span>${expr('vary.roundTo', 'Round the answer to a multiple of', v.roundTo, (s) => this.setVary({ roundTo: s || undefined }, 'roundTo'), 'flex: 0 1 9rem')}
-          <span class="lbl">Guess</span>${expr('vary.guess', 'With several answers, use the one nearest', v.guess, (s) => this.setVary({ guess: s || undefined }, 'guess'), 'flex: 0 1 9rem')}
+          <span class="lbl">Round to</span>${expr('vary.roundTo', 'Round the answer to a multiple of', v.roundTo, (s) => this.setVary({ roundTo: s || undefined }, 'roundTo'), 'w9')}
+          <span class="lbl">Guess</span>${expr('vary.guess', 'With several answers, use the one nearest', v.guess, (s) => this.setVary({ guess: s || undefined }, 'guess'), 'w9')}
         </div></details>`}
       <div class="row">
         <span class="lbl">So that</span>${expr('target.value', 'Target', t.value, (s) => this.setTarget({ value: s }, 'value'))}
-        <span class="lbl">equals</span>${expr('target.equals', 'Wanted value of the target', t.equals, (s) => this.setTarget({ equals: s }, 'equals'), 'flex: 0 1 10rem')}
+        <span class="lbl">equals</span>${expr('target.equals', 'Wanted value of the target', t.equals, (s) => this.setTarget({ equals: s }, 'equals'), 'w10')}
       </div>
       ${this.answer()}
       ${this.footErrors()}`;
@@ -62,8 +65,8 @@ export class SolveCellElement extends CellElement<'solve'> {
 
   private choiceFields(choices: readonly string[]) {
     return html`<div class="row"><span class="lbl">Choices</span>
-      ${choices.map((x, i) => html`<span style="display: inline-flex; align-items: center; gap: 0.2rem">
-        <expr-field style="flex: 0 1 7rem; min-width: 6rem" data-field="vary.choices" label="Choice ${i + 1}" .value=${x} .names=${this.names} .error=${this.claims.take(`.vary.choices[${i}]`)}
+      ${choices.map((x, i) => html`<span class="choice">
+        <expr-field class="w7 choice-field" data-field="vary.choices" label="Choice ${i + 1}" .value=${x} .names=${this.names} .error=${this.claims.take(`.vary.choices[${i}]`)}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.setVary({ choices: choices.map((y, j) => (j === i ? e.detail.value : y)) }, `choice${i}`)}></expr-field>
         <button class="quiet" aria-label="Remove choice ${i + 1}" ?disabled=${choices.length < 2} @click=${() => this.setVary({ choices: choices.filter((_, j) => j !== i) })}>✕</button></span>`)}
       <button @click=${() => this.setVary({ choices: [...choices, choices[choices.length - 1] ?? ''] })}>Add a choice</button>

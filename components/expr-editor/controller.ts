@@ -16,6 +16,8 @@ import { keepClearOfParts } from './keep-clear.ts';
 import { joinLines, singleLine } from './single-line.ts';
 import { fieldTheme } from './theme.ts';
 import { clearTyping, typingHistory } from './typing-history.ts';
+import { typeOverSelection } from './type-over.ts';
+import { shouldWait, showWaiting, stopWatching, wakeWhenNear } from './deferred.ts';
 
 /** What the controller reads from its host. */
 export interface ExprFieldHost extends ReactiveControllerHost, EventTarget {
@@ -43,6 +45,10 @@ export class ExprEditorController implements ReactiveController {
   private props?: FieldProps;
   private namesFrom?: ReadonlyArray<StudyName>;
   private readsStatesFrom = false;
+  /** The plain box shown while the editor waits to be needed (`deferred.ts`). */
+  private waiting?: HTMLElement;
+  /** The field was needed (near the viewport, or focused): it gets its editor whatever the count. */
+  private needed = false;
 
   /**
    * @param host the element
@@ -65,7 +71,10 @@ export class ExprEditorController implements ReactiveController {
 
   hostUpdated(): void {
     this.create();
-    if (!this.view) return;
+    if (!this.view) {
+      if (this.waiting) showWaiting(this.waiting, this.waitingView());
+      return;
+    }
     this.syncProps();
     this.syncValue();
   }
@@ -77,6 +86,11 @@ export class ExprEditorController implements ReactiveController {
   private create(): void {
     const parent = this.parent;
     if (this.view || !parent?.isConnected) return;
+    if (!this.needed && shouldWait()) {
+      this.wait(parent);
+      return;
+    }
+    this.stopWaiting();
     this.committed = joinLines(this.host.value ?? '');
     this.view = new EditorView({
       parent,
@@ -90,6 +104,37 @@ export class ExprEditorController implements ReactiveController {
   private destroy(): void {
     this.view?.destroy();
     this.view = undefined;
+    this.stopWaiting();
+  }
+
+  /** Shows the field's text in a plain box until the field is needed, then makes the editor. */
+  private wait(parent: Element): void {
+    if (!this.waiting) {
+      const box = document.createElement('div');
+      box.className = 'waiting';
+      const wake = () => {
+        this.needed = true;
+        const focused = (box.getRootNode() as ShadowRoot | Document).activeElement === box;
+        this.create();
+        if (focused) this.view?.focus();
+      };
+      box.addEventListener('focus', wake);
+      parent.append(box);
+      this.waiting = box;
+      wakeWhenNear(parent, wake);
+    }
+    showWaiting(this.waiting, this.waitingView());
+  }
+
+  private waitingView() {
+    const h = this.host;
+    return { text: joinLines(h.value ?? ''), label: h.label ?? '', readonly: !!h.readonly, invalid: !!h.error, describedBy: h.error ? this.errorId : undefined };
+  }
+
+  private stopWaiting(): void {
+    if (this.parent) stopWatching(this.parent);
+    this.waiting?.remove();
+    this.waiting = undefined;
   }
 
   private extensions(): Extension {
@@ -97,6 +142,7 @@ export class ExprEditorController implements ReactiveController {
       fieldProps,
       errorMark,
       typingHistory,
+      typeOverSelection,
       drawSelection(),
       EditorView.lineWrapping,
       singleLine((view) => this.commit(view)),

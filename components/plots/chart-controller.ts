@@ -4,9 +4,12 @@
  * follows its container's width through a ResizeObserver, widens it to the printed width
  * around printing, and destroys it when the element leaves the document. A chart is made
  * again only when its key changes (other series or axes), never on a plain data update.
+ * In a large study (`expr-editor/deferred.ts`) the charts are made once their element comes
+ * near the viewport, as the expression editors are.
  */
 import uPlot from 'uplot';
 import type { ReactiveController, ReactiveControllerHost } from 'lit';
+import { shouldWait, stopWatching, wakeWhenNear } from '../expr-editor/deferred.ts';
 
 /** What one chart is, as the host describes it after each render. */
 export interface ChartSpec {
@@ -37,6 +40,9 @@ export class ChartController implements ReactiveController {
   private live: Live[] = [];
   private printing = false;
   private observer?: ResizeObserver;
+  /** The element whose coming near the viewport the charts wait for, in a large study. */
+  private waitingOn?: HTMLElement;
+  private near = false;
 
   /**
    * @param host the plot element
@@ -61,6 +67,19 @@ export class ChartController implements ReactiveController {
 
   hostUpdated(): void {
     const specs = this.specs();
+    if (!this.live.length && specs.length && !this.printing && !this.near && shouldWait()) {
+      const target = specs[0].target;
+      if (this.waitingOn !== target) {
+        if (this.waitingOn) stopWatching(this.waitingOn);
+        this.waitingOn = target;
+        wakeWhenNear(target, () => {
+          this.near = true;
+          this.waitingOn = undefined;
+          this.hostUpdated();
+        });
+      }
+      return;
+    }
     this.live.slice(specs.length).forEach((c) => this.drop(c));
     this.live.length = Math.min(this.live.length, specs.length);
     specs.forEach((spec, i) => {
@@ -86,6 +105,8 @@ export class ChartController implements ReactiveController {
     this.live = [];
     this.observer?.disconnect();
     this.observer = undefined;
+    if (this.waitingOn) stopWatching(this.waitingOn);
+    this.waitingOn = undefined;
   }
 
   private make(spec: ChartSpec): Live {

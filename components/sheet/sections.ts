@@ -80,7 +80,7 @@ function parameters(cell: Of<'parameters'>, r: ReportOf<'parameters'>): Template
   const items = Array.isArray(cell.items) ? cell.items : [];
   // A long definition gets a row of its own under its name, across the table.
   return html`<table class="parameters">
-    <colgroup><col style="width: 17%" /><col style="width: 33%" /><col style="width: 17%" /><col style="width: 33%" /></colgroup>
+    <colgroup><col class="narrow" /><col class="wide" /><col class="narrow" /><col class="wide" /></colgroup>
     <thead><tr><th>Name</th><th>Defined as</th><th>Value</th><th>Note</th></tr></thead>
     <tbody>${items.map((it) => {
       const t = tex[it.name]?.value;

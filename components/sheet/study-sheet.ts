@@ -37,6 +37,8 @@ export class StudySheet extends LitElement {
     table { border-collapse: collapse; width: 100%; margin: 0.3rem 0 0.5rem; font-size: 9.5pt; break-inside: avoid; }
     table.data { width: auto; }
     table.parameters { table-layout: fixed; }
+    table.parameters col.narrow { width: 17%; }
+    table.parameters col.wide { width: 33%; }
     table.parameters td { overflow-wrap: anywhere; }
     tr.has-formula td { border-bottom-style: dotted; }
     tr.formula td { border-top: none; padding: 0.1rem 0.4rem 0.3rem 1.2rem; overflow-x: hidden; }

@@ -51,7 +51,9 @@ function num(v: number): string {
   if (Number.isNaN(v)) return 'NaN';
   if (v === Infinity) return 'Infinity';
   if (v === -Infinity) return '(-Infinity)';
-  return v < 0 || Object.is(v, -0) ? `(${String(v)})` : String(v);
+  // String(-0) is "0": print the sign, or -(0 * x) would give +0 where the closures give -0
+  if (Object.is(v, -0)) return '(-0)';
+  return v < 0 ? `(${String(v)})` : String(v);
 }
 
 function constantOf(e: Expr, lookup: Lookup, isName: (n: string) => boolean, inputs: readonly string[], memo: WeakMap<Expr, Literal | null>): number | undefined {
@@ -157,7 +159,19 @@ function compareNumbers(a: number, b: number, op: string): boolean {
   }
 }
 
-/** For tests: force the closure path, as under a strict content security policy. */
+/**
+ * For tests and benchmarks: force the closure path (false), as under a strict content
+ * security policy, or let the next compilation try generated code again (undefined).
+ */
 export function setGeneratedCode(allowed: boolean | undefined): void {
   generatedCodeAllowed = allowed;
+}
+
+/**
+ * Whether compiled expressions are generated code (true), closures because the platform
+ * refused `new Function` or a test forced them (false), or not known until the first
+ * compilation (undefined). Functions already compiled keep the form they were made in.
+ */
+export function generatedCodeInUse(): boolean | undefined {
+  return generatedCodeAllowed;
 }

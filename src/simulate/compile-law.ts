@@ -7,7 +7,7 @@
  */
 import type { Law } from '../engine/node.ts';
 import type { Expr } from '../expression/ast.ts';
-import { compileExpression, type Compiled } from '../expression/compile.ts';
+import { compileExpression, generatedCodeInUse, type Compiled } from '../expression/compile.ts';
 
 /** Compiled variants kept per parsed expression (different inputs, or folded values). */
 const PER_EXPR = 32;
@@ -23,7 +23,8 @@ export function compileLaw(law: Law, inputs: readonly string[], expr: Expr = law
     forLaw = new Map();
     byLaw.set(law, forLaw);
   }
-  const key = inputs.join(',');
+  // the form (generated code or closures) is part of the key: a benchmark compares the two
+  const key = `${inputs.join(',')}${generatedCodeInUse() === false ? '|closures' : ''}`;
   const hit = forLaw.get(key);
   if (hit) return hit;
   let forExpr = byExpr.get(expr);

@@ -1,0 +1,91 @@
+/**
+ * Editors made only when needed. A study of hundreds of cells would make hundreds of CodeMirror
+ * views at once, each measuring the page: seconds of one task. In a large study (the study
+ * view says so: `deferEditors`), a field shows its text in a plain focusable box instead, and
+ * gets its editor when it comes within `NEAR_PX` of the viewport or takes focus (keyboard or
+ * pointer). Editors woken together are made a few per task, those first in the page first.
+ * In other studies, and in the tests, every field gets its editor at once.
+ */
+
+/** How near the viewport (CSS px, above and below) a waiting field gets its editor. */
+export const NEAR_PX = 600;
+/** Time for making woken editors in one task (ms); the rest wait for the next task. */
+const WAKE_BUDGET_MS = 30;
+
+let deferring = false;
+
+/** Whether new fields wait for their editors (true while a large study is shown). */
+export function deferEditors(on: boolean): void {
+  deferring = on;
+}
+
+/** Whether a new field should wait for its editor. */
+export function shouldWait(): boolean {
+  return deferring;
+}
+
+const wakers = new WeakMap<Element, () => void>();
+let observer: IntersectionObserver | undefined;
+/** Fields that came near the viewport, in page order, waiting for their turn. */
+const due: Element[] = [];
+let draining: ReturnType<typeof setTimeout> | undefined;
+
+function near(): IntersectionObserver {
+  observer ??= new IntersectionObserver((entries) => {
+    for (const e of entries) {
+      if (!e.isIntersecting) continue;
+      observer!.unobserve(e.target);
+      due.push(e.target);
+    }
+    drain();
+  }, { rootMargin: `${NEAR_PX}px 0px` });
+  return observer;
+}
+
+/** Makes the due editors, for about WAKE_BUDGET_MS, then leaves the rest to the next task. */
+function drain(): void {
+  const started = performance.now();
+  while (due.length && performance.now() - started < WAKE_BUDGET_MS) {
+    const el = due.shift()!;
+    const wake = wakers.get(el);
+    wakers.delete(el);
+    wake?.();
+  }
+  if (due.length && draining === undefined) draining = setTimeout(() => { draining = undefined; drain(); }, 0);
+}
+
+/** Calls `wake` once `el` comes near the viewport (at once, in the next frame, if it is). */
+export function wakeWhenNear(el: Element, wake: () => void): void {
+  wakers.set(el, wake);
+  near().observe(el);
+}
+
+/** Stops watching `el`. */
+export function stopWatching(el: Element): void {
+  wakers.delete(el);
+  const i = due.indexOf(el);
+  if (i >= 0) due.splice(i, 1);
+  observer?.unobserve(el);
+}
+
+/** What the waiting box shows and says: the field's text, and its accessible name and state. */
+export interface WaitingView {
+  readonly text: string;
+  readonly label: string;
+  readonly readonly: boolean;
+  readonly invalid: boolean;
+  readonly describedBy?: string;
+}
+
+/** Brings the waiting box `box` in line with `v` (a text box to assistive technology, like the editor's). */
+export function showWaiting(box: HTMLElement, v: WaitingView): void {
+  if (box.textContent !== v.text) box.textContent = v.text;
+  const attrs: Record<string, string | undefined> = {
+    role: 'textbox', tabindex: '0', 'aria-label': v.label, 'aria-multiline': 'false',
+    'aria-readonly': v.readonly ? 'true' : undefined, 'aria-invalid': v.invalid ? 'true' : undefined, 'aria-describedby': v.describedBy,
+  };
+  for (const [name, value] of Object.entries(attrs)) {
+    if (value === undefined) box.removeAttribute(name);
+    else if (box.getAttribute(name) !== value) box.setAttribute(name, value);
+  }
+}
