@@ -43,9 +43,9 @@ export function priorRow(h: PriorHost, i: number, prior: Partial<FitPrior> | und
   return html`<tr class="more"><td class="wide" colspan=${colspan}><details ?open=${prior !== undefined}><summary>Prior (makes the fit a Bayesian estimate)</summary>
     <div class="row">
       <span class="lbl">Median</span>
-      <expr-field style="flex: 0 1 9rem" data-field="estimate[${i}].prior.median" label="Estimate ${i + 1} prior median (blank: no prior)" .value=${prior?.median ?? ''} .names=${h.names}
+      <expr-field class="w9" data-field="estimate[${i}].prior.median" label="Estimate ${i + 1} prior median (blank: no prior)" .value=${prior?.median ?? ''} .names=${h.names}
         .error=${h.claims.take(`${p}.median`)} @expr-input=${(e: Input) => set({ median: e.detail.value.trim() === '' ? undefined : e.detail.value }, `pmed${i}`)}></expr-field>
-      <label>omega <input type="text" inputmode="decimal" class="count" style="width: 5rem" data-field="estimate[${i}].prior.omega"
+      <label>omega <input type="text" inputmode="decimal" class="count" data-field="estimate[${i}].prior.omega"
         aria-label="Estimate ${i + 1} prior omega, the SD of its logarithm (0.3 is about 30%)" .value=${omega === undefined ? '' : String(omega)}
         @input=${(e: Event) => set({ omega: plainNumberOf((e.target as HTMLInputElement).value) }, `pom${i}`)} /></label>
       <span class="muted">log-normal: log of the parameter ~ N(log median, omega²)</span>
@@ -71,9 +71,9 @@ export function errorModelRow(h: PriorHost, error: FitErrorModel | undefined, op
   return html`<details class="error-model" ?open=${open || error !== undefined}><summary>Measurement error (needed for a prior)</summary>
     <div class="row">
       <span class="lbl">Additive SD</span>
-      <expr-field style="flex: 0 1 9rem" data-field="error.additive" label="Additive SD of a measurement, in the measured unit" .value=${error?.additive ?? ''} .names=${h.names}
+      <expr-field class="w9" data-field="error.additive" label="Additive SD of a measurement, in the measured unit" .value=${error?.additive ?? ''} .names=${h.names}
         .error=${h.claims.take('.error.additive')} @expr-input=${(e: Input) => set({ additive: e.detail.value.trim() === '' ? undefined : e.detail.value }, 'eadd')}></expr-field>
-      <label>Proportional SD <input type="text" inputmode="decimal" class="count" style="width: 5rem" data-field="error.proportional"
+      <label>Proportional SD <input type="text" inputmode="decimal" class="count" data-field="error.proportional"
         aria-label="Proportional SD of a measurement, a fraction of the predicted value (0.1 is 10%)" .value=${error?.proportional === undefined ? '' : String(error.proportional)}
         @input=${(e: Event) => set({ proportional: plainNumberOf((e.target as HTMLInputElement).value) }, 'eprop')} /></label>
       <span class="muted">SD² = additive² + (proportional × predicted)²</span>
