@@ -1,6 +1,5 @@
 import { LitElement, html, nothing, type PropertyDeclarations, type TemplateResult } from 'lit';
 import { repeat } from 'lit/directives/repeat.js';
-import { styleMap } from 'lit/directives/style-map.js';
 
 type Entry = number | string | null;
 
@@ -76,9 +75,14 @@ export class DataGridElement extends LitElement {
     return html`<div class="scroll" @scroll=${this.onScroll}><table class="grid" aria-rowcount=${n + 1}>
       <thead><tr aria-rowindex="1"><th><span class="sr">Row</span></th>${this.names.map((_, j) => html`<th>${this.heads[j] ?? nothing}</th>`)}<th><span class="sr">Delete</span></th></tr></thead>
       <tbody @focusin=${this.onFocusIn} @keydown=${this.onKey}>${repeat(items, (x) => x.key, (x) => (x.gap !== undefined
-        ? html`<tr class="gap" aria-hidden="true" style=${styleMap({ height: `${x.gap * ROW_PX}px` })}><td colspan=${span}></td></tr>`
+        ? html`<tr class="gap" aria-hidden="true" data-gap=${x.gap}><td colspan=${span}></td></tr>`
         : this.row(x.row!)))}</tbody>
     </table></div>`;
+  }
+
+  /** Spacer heights through the CSSOM: the content security policy refuses style attributes. */
+  protected override updated(): void {
+    for (const tr of this.querySelectorAll<HTMLElement>('tr.gap')) tr.style.height = `${Number(tr.dataset.gap) * ROW_PX}px`;
   }
 
   private row(r: number): TemplateResult {
