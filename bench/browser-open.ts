@@ -7,11 +7,12 @@
  */
 import { spawn, spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium } from 'playwright-core';
+// @ts-expect-error: a plain JavaScript module shared with the end-to-end tests
+import { freePort } from '../test/e2e/serve.mjs';
 // @ts-expect-error: a plain JavaScript module shared with the end-to-end test
 import { largeStudy, measureOpen, WATCH_LONG_TASKS } from './large-study.mjs';
 
@@ -20,14 +21,6 @@ const vite = join(root, 'node_modules', 'vite', 'bin', 'vite.js');
 
 export interface OpenRow { readonly name: string; readonly value: string; readonly goal?: string; readonly met?: boolean }
 
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = createServer();
-    s.unref();
-    s.on('error', reject);
-    s.listen(0, '127.0.0.1', () => { const a = s.address(); s.close(() => resolve(typeof a === 'object' && a ? a.port : 0)); });
-  });
-}
 
 export async function openLargeStudyBenchmarks(times = 3): Promise<OpenRow[]> {
   const build = spawnSync(process.execPath, [vite, 'build'], { cwd: root, encoding: 'utf8' });

@@ -7,24 +7,17 @@
 import { spawn, spawnSync } from 'node:child_process';
 import { readdirSync, readFileSync, mkdtempSync, rmSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium } from 'playwright-core';
+// @ts-expect-error: a plain JavaScript module shared with the end-to-end tests
+import { freePort } from '../test/e2e/serve.mjs';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
 
 export interface BrowserRow { readonly name: string; readonly value: string; readonly goal?: string; readonly met?: boolean }
 
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = createServer();
-    s.unref();
-    s.on('error', reject);
-    s.listen(0, '127.0.0.1', () => { const a = s.address(); s.close(() => resolve(typeof a === 'object' && a ? a.port : 0)); });
-  });
-}
 
 /** The gzipped size of what the first page loads (the page and its entry script) and of the engine's worker. */
 function bundleSizes(): { first: number; worker: number } {

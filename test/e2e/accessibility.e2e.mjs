@@ -10,7 +10,7 @@ import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { chromium } from 'playwright-core';
-import { freePort, startPreview, CHROMIUM_ARGS, fail, runScript, root } from './serve.mjs';
+import { freePort, startPreview, CHROMIUM_ARGS, fail, runScript, root, openSheet } from './serve.mjs';
 import { DEFAULT_CHROMIUM, NOT_FOUND_MESSAGE, findChromium } from '../../scripts/find-chromium.mjs';
 
 const NAME = 'accessibility (axe-core)';
@@ -110,12 +110,7 @@ async function main() {
         await computed(page);
         await check(page, `study ${key}, time plots on a log axis`);
       }
-      await page.getByRole('button', { name: 'Printable sheet' }).click();
-      await page.waitForURL(/\/sheet$/, { timeout: STEP });
-      await page.waitForFunction(() => {
-        const sheet = document.querySelector('ratebook-app')?.shadowRoot?.querySelector('study-view')?.shadowRoot?.querySelector('study-sheet');
-        return (sheet?.shadowRoot?.querySelectorAll('section.cell').length ?? 0) > 0;
-      }, null, { timeout: STEP });
+      await openSheet(page, STEP);
       await check(page, `sheet ${key}`);
     }
 

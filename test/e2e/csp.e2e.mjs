@@ -11,7 +11,7 @@ import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSy
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { chromium } from 'playwright-core';
-import { freePort, startPreview, CHROMIUM_ARGS, fail, runScript, root, policyViolations, clearViolations } from './serve.mjs';
+import { freePort, startPreview, CHROMIUM_ARGS, fail, runScript, root, policyViolations, clearViolations, openSheet } from './serve.mjs';
 import { DEFAULT_CHROMIUM, NOT_FOUND_MESSAGE, findChromium } from '../../scripts/find-chromium.mjs';
 
 const NAME = 'content security policy';
@@ -155,12 +155,7 @@ async function main() {
     if (!edit.text.includes('<img src=x onerror=window.__pwned=1>')) fail('the payload is not shown as text');
 
     // 4. Its printable sheet, and the sheet printed.
-    await page.getByRole('button', { name: 'Printable sheet' }).click();
-    await page.waitForURL(/\/sheet$/, { timeout: STEP });
-    await page.waitForFunction(() => {
-      const sheet = document.querySelector('ratebook-app')?.shadowRoot?.querySelector('study-view')?.shadowRoot?.querySelector('study-sheet');
-      return (sheet?.shadowRoot?.querySelectorAll('section.cell').length ?? 0) > 0;
-    }, null, { timeout: STEP });
+    await openSheet(page, STEP);
     const sheet = await inspect(page);
     await page.pdf({ format: 'A4' });
     await page.waitForTimeout(500);

@@ -24,6 +24,16 @@ export function freePort() {
   });
 }
 
+/** Clicks "Printable sheet" and waits until the sheet shows its sections; rejects after `timeout` ms. */
+export async function openSheet(page, timeout) {
+  await page.getByRole('button', { name: 'Printable sheet' }).click();
+  await page.waitForURL(/\/sheet$/, { timeout });
+  await page.waitForFunction(() => {
+    const sheet = document.querySelector('ratebook-app')?.shadowRoot?.querySelector('study-view')?.shadowRoot?.querySelector('study-sheet');
+    return (sheet?.shadowRoot?.querySelectorAll('section.cell').length ?? 0) > 0;
+  }, null, { timeout });
+}
+
 /** The files the previews of this script write the browser's policy violation reports to (csp/vite-plugin.ts). */
 const reportFiles = [];
 

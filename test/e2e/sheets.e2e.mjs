@@ -11,7 +11,7 @@ import { existsSync, mkdtempSync, readdirSync, rmSync, mkdirSync } from 'node:fs
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { chromium } from 'playwright-core';
-import { freePort, startPreview, CHROMIUM_ARGS, fail, runScript, root } from './serve.mjs';
+import { freePort, startPreview, CHROMIUM_ARGS, fail, runScript, root, openSheet } from './serve.mjs';
 import { DEFAULT_CHROMIUM, NOT_FOUND_MESSAGE, findChromium } from '../../scripts/find-chromium.mjs';
 
 const NAME = 'printed sheets';
@@ -110,12 +110,7 @@ async function main() {
       if (states.idle.length) fail(`${key}: cells not computed: ${states.idle.join('; ')}`);
 
       // the printable sheet, then PDFs on both paper sizes
-      await page.getByRole('button', { name: 'Printable sheet' }).click();
-      await page.waitForURL(/\/sheet$/, { timeout: STEP });
-      await page.waitForFunction(() => {
-        const sheet = document.querySelector('ratebook-app')?.shadowRoot?.querySelector('study-view')?.shadowRoot?.querySelector('study-sheet');
-        return (sheet?.shadowRoot?.querySelectorAll('section.cell').length ?? 0) > 0;
-      }, null, { timeout: STEP }).catch(async () => {
+      await openSheet(page, STEP).catch(async () => {
         const shown = await page.evaluate(() => document.querySelector('ratebook-app')?.shadowRoot?.querySelector('study-view')?.shadowRoot?.textContent?.replace(/\s+/g, ' ').slice(0, 300));
         fail(`${key}: the printable sheet did not appear; the page shows: ${shown}`);
       });
