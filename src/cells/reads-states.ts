@@ -18,6 +18,8 @@ const RULES: Readonly<Record<CellKind, readonly RegExp[]>> = {
   nca: [],
   solve: [/^\.vary\.parameter$/],
   note: [],
+  sensitivity: [/^\.parameters\[\d+\]$/],
+  compare: [/^\.scenarios\[\d+\]\.set$/],
 };
 
 /**

@@ -10,6 +10,7 @@ import {
   METHODS, PLOT_SCALES, FIND_KINDS, WEIGHTINGS, ROUTES, AUC_RULES, NCA_RESULTS,
 } from './types.ts';
 import { migrate } from './migrate.ts';
+import { checkSensitivity, checkCompare } from './validate-scenarios.ts';
 import { shortJson, textLimitProblem, valueLimitProblem, withoutByteOrderMark } from './limits.ts';
 
 export interface Problem {
@@ -216,6 +217,12 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
     case 'note':
       p.text(c, 'text');
       break;
+    case 'sensitivity':
+      checkSensitivity(c, p);
+      break;
+    case 'compare':
+      checkCompare(c, p);
+      break;
   }
   return p.problems;
 }
@@ -360,7 +367,7 @@ function checkData(c: Record<string, unknown>, p: Checker): void {
 }
 
 /** Collects field problems of one cell, with full paths. */
-class Checker {
+export class Checker {
   readonly problems: Problem[] = [];
   constructor(readonly at: string) {}
 

@@ -77,6 +77,8 @@ const DECLARED = {
   nca: ['values', 'pointsUsed', 'note', 'warnings'],
   solve: ['solution', 'achieved', 'rounded', 'achievedRounded', 'solutions', 'targetRange', 'undefinedIn', 'choices', 'evaluations', 'message'],
   note: [],
+  sensitivity: ['results', 'ranking', 'accuracy', 'evaluations', 'summary'],
+  compare: ['scenarios', 'plot', 'questions', 'evaluations', 'summary'],
 } as const satisfies { [K in CellKind]: ReadonlyArray<keyof CellFields[K]> };
 // the list above names every field the types declare (a field added to a kind must be added there)
 check<Equals<{ [K in CellKind]: Exclude<keyof CellFields[K], (typeof DECLARED)[K][number]> }[CellKind], never>>();
