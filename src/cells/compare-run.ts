@@ -92,7 +92,7 @@ export function runCompare(at: string, run: string, questions: readonly string[]
     const replaced = new Map<string, number>();
     r.answers.slice(questions.length).forEach((a) => { if (a.ok) replaced.set(a.name, a.si); });
     const missing = r.answers.slice(questions.length).find((a) => !a.ok);
-    const curve = missing && !missing.ok ? { message: missing.reason } : model.curve(replaced, COMPARE_PLOT_POINTS);
+    const curve = missing && !missing.ok ? { message: missing.reason } : model.curve(replaced, COMPARE_PLOT_POINTS, true);
     if (!curve.t || !curve.values) {
       reports.push({ name: s.name, ok: false, results, set, message: curve.message ?? 'the run gave no curve' });
       return;
