@@ -9,10 +9,9 @@ import type { CompareScenarioReport, ComparePlot, FindResult, NodeOutput, Report
 import type { WhatIfPrepared } from '../engine/what-if.ts';
 import { type Field, fail, finiteQuantityOf, lookupFrom } from './fields.ts';
 import { quantitySig } from './signatures.ts';
-import { type Quantity, describe, report, valueIn } from '../units/quantity.ts';
+import { type Quantity, describe, report } from '../units/quantity.ts';
 import { sameDim, describeDim, TIME } from '../units/dimension.ts';
-import { formatUnit } from '../units/units.ts';
-import { timeAxisUnits } from '../output/display-units.ts';
+import { comparePlot, type ScenarioCurve } from './compare-plot.ts';
 
 /** Points per curve on the overlay chart (more land where the run has pieces). */
 export const COMPARE_PLOT_POINTS = 200;
@@ -59,9 +58,8 @@ export function runCompare(at: string, run: string, questions: readonly string[]
   const bindings = new Map<string, Binding>();
   const reasons = new Map<string, string>();
   const reports: CompareScenarioReport[] = [];
-  const series: ComparePlot['series'] = [];
+  const curves: ScenarioCurve[] = [];
   const end = report({ si: model.to, dim: TIME, unit: model.timeUnit });
-  const timeUnit = model.timeUnit;
   let evaluations = 0;
 
   scenarios.forEach((s, j) => {
@@ -97,15 +95,11 @@ export function runCompare(at: string, run: string, questions: readonly string[]
       reports.push({ name: s.name, ok: false, results, set, message: curve.message ?? 'the run gave no curve' });
       return;
     }
-    const t = curve.t.map((x) => valueIn({ si: x, dim: TIME, unit: timeUnit }, timeUnit));
-    model.laws.forEach((l, i) => {
-      series.push({ scenario: s.name, state: l.state, unit: formatUnit(l.initial.unit), t, values: curve.values!.map((v) => valueIn({ ...l.initial, si: v[i] }, l.initial.unit)) });
-    });
+    curves.push({ scenario: s.name, replaced, t: curve.t, values: curve.values });
     reports.push({ name: s.name, ok: true, results, set });
   });
 
-  const span = valueIn({ si: model.to - model.from, dim: TIME, unit: timeUnit }, timeUnit);
-  const plot: ComparePlot = { timeUnit: formatUnit(timeUnit), timeUnits: timeAxisUnits(formatUnit(timeUnit), span), series };
+  const plot: ComparePlot = comparePlot(model, curves);
   return {
     ok: true,
     bindings,

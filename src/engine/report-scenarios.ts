@@ -43,12 +43,13 @@ export interface CompareScenarioReport {
   message?: string;
 }
 
-/** Every scenario's curves on one chart: one series per scenario and state. */
-export interface ComparePlot {
-  timeUnit: string;
-  timeUnits: SimulationPlot['timeUnits'];
-  /** `t` per scenario (the runs' pieces differ). */
-  series: Array<{ scenario: string; state: string; unit: string; t: number[]; values: number[] }>;
+/**
+ * Every scenario's curves on one chart, in the shape of a run's plot: one entry of `states`
+ * per scenario and state (named by the scenario, and the state when the run has several), on
+ * one time axis; `series` says which scenario and state each entry is, in the same order.
+ */
+export interface ComparePlot extends SimulationPlot {
+  series: Array<{ scenario: string; state: string }>;
 }
 
 export interface CompareFields {

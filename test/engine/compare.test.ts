@@ -58,17 +58,19 @@ describe('compare: closed forms and real edits', () => {
     }
     assert.equal(r.evaluations, 3);
     assert.deepEqual(r.questions, ['t_1pct', 'C_30']);
-    // one curve per scenario and state, each starting at C0 = 40 mg/L
-    assert.deepEqual(r.plot!.series.map((x) => `${x.scenario}/${x.state}`), ['slow/C', 'usual/C', 'fast/C']);
-    for (const x of r.plot!.series) {
+    // one curve per scenario (named by it: the run has one state), each starting at C0 = 40 mg/L
+    assert.deepEqual(r.plot!.series, [{ scenario: 'slow', state: 'C' }, { scenario: 'usual', state: 'C' }, { scenario: 'fast', state: 'C' }]);
+    assert.deepEqual(r.plot!.states.map((x) => x.name), ['slow', 'usual', 'fast']);
+    const t = r.plot!.t;
+    near(t[t.length - 1], 240, 1e-12, 'end time in min');
+    for (const x of r.plot!.states) {
       assert.equal(x.unit, 'mg / L');
       near(x.values[0], 40, 1e-12, 'start');
-      // closed form at the end of the run: 40 e^(-Q·240 min/V) mg/L
-      const q = { slow: 50, usual: 100, fast: 200 }[x.scenario]!;
-      // the model runs at rtol 1e-10 (src/cells/run-model.ts); near 0 its absolute tolerance rules: 1e-6 of C0 allowed
+      // closed form at the end of the run: 40 e^(-Q·240 min/V) mg/L, within the run's tolerance
+      // (rtol 1e-6; near 0 its absolute tolerance rules: 1e-6 of C0 allowed)
+      const q = { slow: 50, usual: 100, fast: 200 }[x.name]!;
       const end = x.values[x.values.length - 1];
-      assert.ok(Math.abs(end - 40 * Math.exp((-q * 240) / 2000)) < 40e-6, `end (${x.scenario}): ${end}`);
-      near(x.t[x.t.length - 1], 240, 1e-12, 'end time in min');
+      assert.ok(Math.abs(end - 40 * Math.exp((-q * 240) / 2000)) < 40e-6, `end (${x.name}): ${end}`);
     }
     assert.equal(r.plot!.timeUnit, 'min');
   });
@@ -91,6 +93,32 @@ describe('compare: closed forms and real edits', () => {
     const r = s.apply({ type: 'replace', cell: { id: 'cmp', kind: 'compare', run: 'run', scenarios: [{ name: 'slow', set: { Q: '40 L / min' } }, SCENARIOS[2]] } });
     assert.ok(r.ok);
     near(gain(), 5, 1e-5, 'slow over fast after the edit (200/40)');
+  });
+
+  it('scenarios with different dosing intervals share one time axis, each jump drawn at its own time', () => {
+    const doc = {
+      format: 'ratebook-study', version: 1, title: 'intervals',
+      cells: [
+        { id: 'p', kind: 'parameters', items: [{ name: 'dose', value: '500 mg' }, { name: 'V', value: '50 L' }, { name: 'k', value: '0.1 / h' }, { name: 'tau', value: '8 h' }] },
+        { id: 'law', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-k * C', initial: '0 mg / L' },
+        { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '24 h', events: [{ at: '0 h', every: 'tau', add: { C: 'dose / V' } }],
+          find: [{ name: 'Cmax', maximum: 'C' }] },
+        { id: 'cmp', kind: 'compare', run: 'run', scenarios: [{ name: 'q8', set: {} }, { name: 'q12', set: { tau: '12 h' } }] },
+      ],
+    };
+    const r = open(doc).report().cells.find((c) => c.id === 'cmp') as ReportOf<'compare'>;
+    assert.ok(r.ok, JSON.stringify(r.error));
+    const { t, states } = r.plot!;
+    const [q8, q12] = states;
+    assert.ok(t.every((x, i) => i === 0 || x >= t[i - 1]), 'times in order');
+    assert.ok([...q8.values, ...q12.values].every(Number.isFinite));
+    // at 8 h: the q8 run jumps by dose/V = 10 mg/L (two entries), the q12 run does not
+    const at8 = t.flatMap((x, i) => (x === 8 ? [i] : []));
+    assert.equal(at8.length, 2);
+    near(q8.values[at8[1]] - q8.values[at8[0]], 10, 1e-9, 'q8 jump at 8 h (mg/L)');
+    near(q12.values[at8[1]], q12.values[at8[0]], 1e-12, 'q12 at 8 h');
+    // closed form: q12 at 8 h is 10 e^(-0.8) mg/L (one dose at 0 h)
+    near(q12.values[at8[0]], 10 * Math.exp(-0.8), 1e-5, 'q12 at 8 h (mg/L)');
   });
 
   it('a crossing not reached in one scenario is said there, and its name waits with the reason', () => {
