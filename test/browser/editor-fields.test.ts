@@ -53,6 +53,8 @@ export const EVERY_FIELD: Study = {
     { id: 'sv', kind: 'solve', title: 'Dose for a trough', vary: { parameter: 'dose', as: 'dose_new', min: '100 mg', max: '2000 mg', roundTo: '50 mg', guess: '400 mg' },
       target: { value: 'trough_last', equals: '1 mg / L' } },
     { id: 'sc', kind: 'solve', title: 'Interval', vary: { parameter: 'tau', as: 'tau_new', choices: ['8 h', '12 h', '24 h'] }, target: { value: 'trough_last', equals: '1 mg / L' } },
+    { id: 'sens', kind: 'sensitivity', title: 'What matters', of: ['trough_last'], parameters: ['k', 'V'] },
+    { id: 'cmp', kind: 'compare', title: 'Intervals', run: 'run', scenarios: [{ name: 'q12', set: {} }, { name: 'q8', set: { tau: '8 h' } }] },
     { id: 'm', kind: 'note', title: 'About', text: 'Every field once, with invented numbers.' },
   ],
 } as Study;
