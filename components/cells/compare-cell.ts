@@ -84,7 +84,7 @@ export class CompareCellElement extends CellElement<'compare'> {
             @expr-input=${(e: CustomEvent<{ value: string }>) => this.setScenario(all, j, { ...s, set: { ...set, [name]: e.detail.value } }, `${path}.set.${name}`)}></expr-field>
           <button class="quiet" aria-label="Scenario ${label}: stop setting ${name}" @click=${() => this.setScenario(all, j, { ...s, set: Object.fromEntries(entries.filter(([n]) => n !== name)) })}>✕</button>
         </span>`)}
-        ${options.some((o) => !(o in set)) ? html`<button class="add-value" data-field="${path}.set" aria-label="Scenario ${label}: set another value" @click=${() => this.addEntry(all, j, options)}>Set a value</button>` : nothing}
+        ${options.some((o) => !(o in set)) ? html`<button class="add-value" data-field="${path}.set" aria-label="Set a value in scenario ${label}" @click=${() => this.addEntry(all, j, options)}>Set a value</button>` : nothing}
         ${footError(this.claims.take(`.${path}.set`))}
       </div></fieldset>`;
   }

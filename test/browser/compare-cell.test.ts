@@ -61,7 +61,7 @@ describe('compare cell: by keyboard, with the engine', () => {
     await until(() => compareDoc(view)!.scenarios.length === 2, 'a second scenario');
     expect(compareDoc(view)!.scenarios[1]).to.deep.equal({ name: 'scenario_2', set: {} });
 
-    await tabTo((el) => el.getAttribute('aria-label') === 'Scenario scenario_2: set another value', 'the second scenario\'s Set a value button', true);
+    await tabTo((el) => el.getAttribute('aria-label') === 'Set a value in scenario scenario_2', 'the second scenario\'s Set a value button', true);
     await sendKeys({ press: 'Enter' });
     // the first parameter, at the value the study gives it now: nothing changes until it is edited
     await until(() => compareDoc(view)!.scenarios[1].set.Q === '100 L / min', 'Q set to its present value');
