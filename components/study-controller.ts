@@ -188,9 +188,9 @@ export class StudyController implements ReactiveController {
     this.lastMerge = undefined;
   }
 
-  /** Saves now (before leaving the study). */
-  async flush(): Promise<void> {
-    await this.saver?.flush();
+  /** Saves now (before leaving the study): 'saved', or 'error' when the save failed. */
+  async flush(): Promise<'saved' | 'error'> {
+    return (await this.saver?.flush()) ?? 'saved';
   }
 
   private renderTimer?: ReturnType<typeof setTimeout>;
