@@ -90,22 +90,23 @@ export const NO_EXTENT: Extent = { lo: Infinity, hi: -Infinity, logLo: Infinity,
  * loop, not a spread into `Math.min`. Values that are not finite numbers are left out.
  */
 export function extentsByUnit(p: SimulationPlot, points: readonly MeasuredPoints[]): Map<string, Extent> {
-  const out = new Map<string, { lo: number; hi: number; logLo: number; logHi: number }>();
+  const out = new Map<string, Extent>();
   const unitOf = (state: string) => p.states.find((s) => s.name === state)?.unit;
-  const add = (unit: string | undefined, v: number) => {
-    if (unit === undefined || typeof v !== 'number' || !Number.isFinite(v)) return;
-    let e = out.get(unit);
-    if (!e) out.set(unit, (e = { ...NO_EXTENT }));
-    if (v < e.lo) e.lo = v;
-    if (v > e.hi) e.hi = v;
-    if (v > 0 && v < e.logLo) e.logLo = v;
-    if (v > 0 && v > e.logHi) e.logHi = v;
+  const add = (unit: string | undefined, values: readonly number[]) => {
+    if (unit === undefined) return;
+    let { lo, hi, logLo, logHi } = out.get(unit) ?? NO_EXTENT;
+    for (let i = 0; i < values.length; i++) {
+      const v = values[i];
+      if (typeof v !== 'number' || !(v - v === 0)) continue; // not a finite number
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+      if (v > 0 && v < logLo) logLo = v;
+      if (v > 0 && v > logHi) logHi = v;
+    }
+    out.set(unit, { lo, hi, logLo, logHi });
   };
-  for (const l of p.levels) add(unitOf(l.state), l.value);
-  for (const m of points) {
-    const unit = unitOf(m.state);
-    for (const v of m.values) add(unit, v);
-  }
+  for (const l of p.levels) add(unitOf(l.state), [l.value]);
+  for (const m of points) add(unitOf(m.state), m.values);
   return out;
 }
 

@@ -21,6 +21,7 @@ import './data-table.ts';
 import { drawOverlay, around, curveBoxes, type PointLabel, type EventMarker } from './overlay.ts';
 import { EVENT_LINE, GRID, seriesColour } from './palette.ts';
 import { onePerPixel } from './one-per-pixel.ts';
+import type { Box } from './label-placement.ts';
 
 export type { MeasuredPoints } from './time-plot-parts.ts';
 
@@ -262,29 +263,29 @@ export class TimePlot extends LitElement {
     }
     ctx.setLineDash([]);
 
-    const pointsShown = new Map<(typeof this.points)[number], Array<[number, number]>>();
+    // measured points: one path per series, one dot per device pixel (one-per-pixel.ts):
+    // thousands of measurements draw in one fill and one stroke, each place once
+    const shownBoxes: Box[] = [];
+    const margin = 5 * r;
+    const bounds = { left: left - margin, top: top - margin, right: left + width + margin, bottom: top + height + margin };
     for (const m of this.points.filter((m) => inPanel(m.state))) {
+      const scale = scaleOf(m.state);
+      const xs = new Float64Array(m.t.length);
+      const ys = new Float64Array(m.t.length);
+      const kept = onePerPixel(m.t.length, (i) => (xs[i] = u.valToPos(m.t[i], 'x', true)), (i) => (ys[i] = u.valToPos(m.values[i], scale, true)), bounds, (i) => !placeable(m.values[i]));
       ctx.strokeStyle = seriesColour(stateIndex(m.state));
       ctx.fillStyle = '#fff';
       ctx.lineWidth = 1.5 * r;
-      // one path per series and one dot per pixel (one-per-pixel.ts): thousands of
-      // measurements draw in one fill and one stroke, each place once
-      const scale = scaleOf(m.state);
-      const shown: Array<[number, number]> = [];
-      const xs = new Float64Array(m.t.length);
-      const ys = new Float64Array(m.t.length);
-      const kept = onePerPixel(m.t.length, (i) => (xs[i] = u.valToPos(m.t[i], 'x', true)), (i) => (ys[i] = u.valToPos(m.values[i], scale, true)), (i) => !placeable(m.values[i]));
       ctx.beginPath();
       for (const i of kept) {
         const x = xs[i];
         const y = ys[i];
-        shown.push([(x - left) / r, (y - top) / r]);
         ctx.moveTo(x + 3.5 * r, y);
         ctx.arc(x, y, 3.5 * r, 0, 2 * Math.PI);
+        shownBoxes.push(around((x - left) / r, (y - top) / r, 4));
       }
       ctx.fill();
       ctx.stroke();
-      pointsShown.set(m, shown);
     }
 
     const marks = p.marks.filter((m) => inPanel(m.state) && placeable(m.value));
@@ -302,7 +303,7 @@ export class TimePlot extends LitElement {
     const cssW = width / r;
     const inside = (x: number, y: number) => x >= 0 && x <= cssW && y >= 0 && y <= height / r;
     const labels: PointLabel[] = [];
-    const clear = [];
+    const clear: Box[] = shownBoxes;
     for (const m of marks) {
       const x = u.valToPos(m.time, 'x');
       const y = u.valToPos(m.value, scaleOf(m.state));
@@ -310,7 +311,6 @@ export class TimePlot extends LitElement {
       labels.push({ x, y, text: m.label, kind: 'mark' });
       clear.push(around(x, y));
     }
-    for (const shown of pointsShown.values()) for (const [x, y] of shown) clear.push(around(x, y, 4));
     for (const l of p.levels.filter((l) => inPanel(l.state) && placeable(l.value))) {
       const y = u.valToPos(l.value, scaleOf(l.state));
       if (inside(cssW, y)) labels.push({ x: cssW - 2, y, text: l.label, kind: 'level', along: [0.75, 0.5, 0.25].map((f) => f * cssW) });
