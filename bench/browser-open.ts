@@ -28,7 +28,7 @@ export async function openLargeStudyBenchmarks(times = 3): Promise<OpenRow[]> {
   const port = await freePort();
   const preview = spawn(process.execPath, [vite, 'preview', '--host', '127.0.0.1', '--port', String(port), '--strictPort'], { cwd: root, stdio: 'ignore' });
   const url = `http://127.0.0.1:${port}/`;
-  const runs: Array<{ longest: number; over: number; ready: number }> = [];
+  const runs: Array<{ longest: number; over: number; ready: number; cpu: number; cpuOver: number }> = [];
   try {
     for (let i = 0; i < 100; i++) {
       try { if ((await fetch(url)).ok) break; } catch { /* not yet */ }
@@ -46,8 +46,8 @@ export async function openLargeStudyBenchmarks(times = 3): Promise<OpenRow[]> {
         const study = largeStudy();
         const file = join(profile, 'large.ratebook.json');
         writeFileSync(file, JSON.stringify(study));
-        const r = (await measureOpen(page, url, file, study.cells.length)) as { tasks: number[]; ready: number };
-        runs.push({ longest: Math.max(0, ...r.tasks), over: r.tasks.filter((t) => t > 100).length, ready: r.ready });
+        const r = (await measureOpen(page, url, file, study.cells.length, 60_000, await context.newCDPSession(page))) as { tasks: number[]; ready: number; cpu: number[] };
+        runs.push({ longest: Math.max(0, ...r.tasks), over: r.tasks.filter((t) => t > 100).length, ready: r.ready, cpu: Math.max(0, ...r.cpu), cpuOver: r.cpu.filter((t) => t > 100).length });
       } finally {
         await context.close();
         rmSync(profile, { recursive: true, force: true, maxRetries: 5 });
@@ -58,9 +58,12 @@ export async function openLargeStudyBenchmarks(times = 3): Promise<OpenRow[]> {
   }
   const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
   const longest = median(runs.map((r) => r.longest));
+  const cpu = median(runs.map((r) => r.cpu));
   return [
     { name: 'opening a 200-cell study: the longest main-thread task (median of 3 openings)', value: `${Math.round(longest)} ms`, goal: '< 100 ms', met: longest < 100 },
     { name: '  tasks over 100 ms while it opens (median)', value: String(median(runs.map((r) => r.over))) },
+    { name: '  the longest task in thread (CPU) time, from a trace: its length on a quiet machine (median)', value: `${Math.round(cpu)} ms`, goal: '< 100 ms', met: cpu < 100 },
+    { name: '  tasks over 100 ms of CPU time (median)', value: String(median(runs.map((r) => r.cpuOver))) },
     { name: '  from the page\'s start to every cell showing its result (median)', value: `${(median(runs.map((r) => r.ready)) / 1000).toFixed(1)} s` },
   ];
 }

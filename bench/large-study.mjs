@@ -40,15 +40,19 @@ export const CELL_STATES = `(() => {
 
 /**
  * Imports the study through the library, then opens it on a fresh page and waits until every
- * cell shows its result. Resolves with the long tasks of the opening (ms each), its time to
- * every cell computed, and the number of cells shown.
+ * cell shows its result. Resolves with the long tasks of the opening (ms each, wall clock), its
+ * time to every cell computed, and the number of cells shown. Given the page's CDP session
+ * (`context.newCDPSession(page)`), it also traces the opening and gives `cpu`: the thread (CPU)
+ * time of each of the page's main-thread tasks, in ms (see `mainThreadCpu`).
  */
-export async function measureOpen(page, url, file, cellCount, step = 60_000) {
+export async function measureOpen(page, url, file, cellCount, step = 60_000, cdp = undefined) {
   await page.goto(url);
   await page.locator('study-library input[type="file"]').setInputFiles(file);
   await page.getByText(/Imported ".*" as a new study/).waitFor({ timeout: step });
   const href = await page.locator('study-library li .t a').first().getAttribute('href');
   await page.goto('about:blank');
+  const tracing = cdp ? startTrace(cdp) : undefined;
+  if (tracing) await tracing.started;
   const t0 = Date.now();
   await page.goto(new URL(href, url).href);
   let states;
@@ -62,5 +66,33 @@ export async function measureOpen(page, url, file, cellCount, step = 60_000) {
   await page.waitForTimeout(300);
   const tasks = await page.evaluate('window.__longTasks');
   const loaded = await page.evaluate('performance.getEntriesByType("navigation")[0]?.domContentLoadedEventEnd ?? 0');
-  return { tasks: tasks.map((t) => t.ms), starts: tasks.map((t) => t.start), loaded, ready, cells: states.count };
+  const cpu = tracing ? mainThreadCpu(await tracing.stop()) : undefined;
+  return { tasks: tasks.map((t) => t.ms), starts: tasks.map((t) => t.start), loaded, ready, cells: states.count, cpu };
+}
+
+/** Starts a trace of the browser's task scheduling; `stop()` resolves with its events. */
+function startTrace(cdp) {
+  const events = [];
+  cdp.on('Tracing.dataCollected', (e) => events.push(...e.value));
+  const complete = new Promise((resolve) => cdp.once('Tracing.tracingComplete', resolve));
+  const started = cdp.send('Tracing.start', { transferMode: 'ReportEvents', traceConfig: { includedCategories: ['toplevel', 'devtools.timeline'] } });
+  return { started, stop: async () => { await cdp.send('Tracing.end'); await complete; return events; } };
+}
+
+/**
+ * The thread time (CPU time, ms) of each task of the busiest renderer main thread in a trace:
+ * on a quiet machine a task's duration; on a loaded one, its duration less the time the thread
+ * waited for a core (which makes wall-clock long tasks of a shared machine mostly noise).
+ */
+export function mainThreadCpu(events) {
+  const mains = events.filter((e) => e.name === 'thread_name' && e.args?.name === 'CrRendererMain');
+  // the measurement's own tasks (the DevTools session's messages) are left out
+  const devtools = events.filter((e) => e.name === 'Receive mojo message' && e.args?.chrome_mojo_event_info?.mojo_interface_tag === 'blink.mojom.DevToolsSession');
+  const ours = (e) => !devtools.some((d) => d.pid === e.pid && d.tid === e.tid && d.ts >= e.ts && d.ts <= e.ts + e.dur);
+  let best = [];
+  for (const m of mains) {
+    const tasks = events.filter((e) => e.pid === m.pid && e.tid === m.tid && e.ph === 'X' && e.name === 'ThreadControllerImpl::RunTask' && ours(e)).map((e) => (e.tdur ?? e.dur) / 1000);
+    if (tasks.reduce((a, b) => a + b, 0) > best.reduce((a, b) => a + b, 0)) best = tasks;
+  }
+  return best;
 }

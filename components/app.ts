@@ -6,13 +6,14 @@ import { loadSheet } from './sheet/load.ts';
 import { StudySaving } from './study-saving.ts';
 import { replayJournals } from './journal.ts';
 import { listen, type SaveNews } from './save-news.ts';
+import { RESTORED, goneWords, whereGone, type Gone } from './study-gone.ts';
 
 /**
  * The app shell: the library of studies (#/) and one open study (#/study/<id>), with export
  * and print. Routing by the address's hash, so a reload comes back to the same place.
  */
 export class RatebookApp extends LitElement {
-  static override properties = { route: { state: true }, problem: { state: true }, notice: { state: true }, conflict: { state: true }, elsewhere: { state: true }, saveProblem: { state: true }, ready: { state: true } };
+  static override properties = { route: { state: true }, problem: { state: true }, notice: { state: true }, conflict: { state: true }, elsewhere: { state: true }, gone: { state: true }, saveProblem: { state: true }, ready: { state: true } };
   /** False until the journal has been replayed: the library lists studies only after it. */
   ready = false;
   route: { page: 'library' } | { page: 'study'; id: string; sheet: boolean } = { page: 'library' };
@@ -23,6 +24,8 @@ export class RatebookApp extends LitElement {
   conflict?: string;
   /** The open study, with no unsaved changes here, was saved in another tab: said until the user chooses. */
   elsewhere?: string;
+  /** The open study was moved to the trash, or removed for good, in another tab: said until the user chooses. */
+  gone?: Gone;
   /** Why the open study's last save failed, until a save succeeds. */
   saveProblem?: string;
   private view?: StudyView;
@@ -82,18 +85,61 @@ export class RatebookApp extends LitElement {
    * Another tab changed a study. When it is the open one and its revision is newer than the
    * one this page is based on: with no unsaved changes here, the page says so and offers the
    * newer version (what is shown stays until the user chooses); with unsaved changes, the two
-   * choices of a refused save are offered at once (this page's save would be refused).
+   * choices of a refused save are offered at once (this page's save would be refused). News
+   * without a revision (a study moved to the trash or removed), and any news while the study
+   * is gone, is checked against the store (`checkGone`).
    */
   private heard = (news: SaveNews) => {
     const saving = this.saving;
     if (this.route.page !== 'study' || news.id !== this.route.id || !saving || !this.view) return;
-    if (news.revision === undefined || news.revision <= saving.base || this.conflict) return;
+    if (news.revision === undefined || this.gone) { void this.checkGone(news.id); return; }
+    if (news.revision <= saving.base || this.conflict) return;
     if (this.view.controller.saveState === 'saved') {
       this.elsewhere = `This study was changed in another tab (revision ${news.revision} is stored; this page shows revision ${saving.base}).`;
     } else {
       this.elsewhere = undefined;
       this.conflict = `This study was saved in another tab (revision ${news.revision}) while this page has changes not yet saved (made on revision ${saving.base}). Nothing was overwritten.`;
     }
+  };
+
+  /**
+   * Whether the open study is still in the store and out of the trash: when it is gone, the
+   * page says so and offers the choices (nothing else changes); when another tab restored it,
+   * the notice goes and this page's unsaved changes are saved.
+   */
+  private async checkGone(id: string): Promise<void> {
+    let where: Gone | undefined;
+    try {
+      where = await whereGone(id);
+    } catch {
+      return; // a damaged record: the next save says so
+    }
+    const view = this.view;
+    if (this.route.page !== 'study' || this.route.id !== id || !view) return;
+    if (where) {
+      this.gone = where;
+      this.elsewhere = undefined;
+    } else if (this.gone) {
+      this.gone = undefined;
+      void view.controller.flush();
+    }
+  }
+
+  /** The first choice while the study is in the trash: take it out, and save what this page has. */
+  private restoreGone = async () => {
+    if (this.route.page !== 'study') return;
+    const id = this.route.id;
+    try {
+      await store.restoreStudy(id);
+    } catch (err) {
+      if (err instanceof store.StoreError && err.code === 'not-found') this.gone = 'removed';
+      else this.problem = `Could not restore the study: ${err instanceof Error ? err.message : String(err)}`;
+      return;
+    }
+    this.gone = undefined;
+    this.notice = RESTORED;
+    // what was typed meanwhile is saved now (its notice would replace this one: both are said)
+    if ((await this.view?.controller.flush()) === 'saved' && this.notice !== RESTORED) this.notice = `${RESTORED} The changes typed meanwhile are saved.`;
   };
 
   /** Saves the open study now: the page may be closing or going to the background. */
@@ -124,6 +170,7 @@ export class RatebookApp extends LitElement {
     if (this.view && !this.conflict) await this.view.controller.flush();
     this.conflict = undefined;
     this.elsewhere = undefined;
+    this.gone = undefined;
     this.saveProblem = undefined;
     if (!m || id === undefined) {
       this.view = undefined;
@@ -152,6 +199,7 @@ export class RatebookApp extends LitElement {
         if (recovered) this.notice = 'Saved: the changes that could not be stored before are stored now.';
       },
       conflict: (message) => { this.conflict = message; this.elsewhere = undefined; },
+      gone: (where) => { this.gone = where; this.elsewhere = undefined; },
       failed: (message) => { this.saveProblem = message; },
     });
     const view = StudyView.create({ save: saving.save, journal: saving.journal, retry: saving.retry });
@@ -178,13 +226,16 @@ export class RatebookApp extends LitElement {
       <main>
         ${this.problem ? html`<p class="problem" role="alert">${this.problem}</p>` : nothing}
         ${this.notice ? html`<p class="notice" role="status">${this.notice} <button class="dismiss" @click=${() => { this.notice = undefined; }}>OK</button></p>` : nothing}
-        ${this.conflict ? html`<div class="conflict" role="alert"><p>${this.conflict} Choose which version to keep:</p>
+        ${this.gone ? html`<div class="conflict gone" role="alert"><p>${goneWords(this.gone)} Choose:</p>
+          ${this.gone === 'trash' ? html`<button data-choice="restore" @click=${this.restoreGone}>Restore it from the trash and keep editing</button>` : nothing}
+          <button data-choice="copy" @click=${() => void this.keepAsNew('(copy)', this.gone === 'trash' ? 'The study in the trash is unchanged.' : '')}>Keep this page's version as a new study</button></div>` : nothing}
+        ${this.conflict && !this.gone ? html`<div class="conflict" role="alert"><p>${this.conflict} Choose which version to keep:</p>
           <button data-choice="newer" @click=${this.takeNewer}>Open the newer version (drop the changes made here)</button>
           <button data-choice="copy" @click=${this.keepCopy}>Keep the changes made here as a new study</button></div>` : nothing}
-        ${this.elsewhere && !this.conflict ? html`<div class="conflict elsewhere" role="alert"><p>${this.elsewhere} This page still shows the version it opened.</p>
+        ${this.elsewhere && !this.conflict && !this.gone ? html`<div class="conflict elsewhere" role="alert"><p>${this.elsewhere} This page still shows the version it opened.</p>
           <button data-choice="newer" @click=${this.takeNewer}>Open the newer version</button>
           <button data-choice="stay" @click=${() => { this.elsewhere = undefined; }}>Keep looking at this one</button></div>` : nothing}
-        ${this.route.page === 'study' && this.saveProblem && !this.conflict
+        ${this.route.page === 'study' && this.saveProblem && !this.conflict && !this.gone
           ? html`<p class="problem save-error" role="alert">${this.saveProblem} Your changes are kept on this page${this.saving?.journaled ? ' and on this device' : ''}, and saving is tried again by itself.</p>` : nothing}
         ${this.route.page === 'study' ? this.view : this.ready ? html`<study-library></study-library>` : nothing}
       </main>`;
@@ -198,14 +249,17 @@ export class RatebookApp extends LitElement {
   };
 
   /** The conflict's second choice: this page's study becomes a new study, and opens. */
-  private keepCopy = async () => {
+  private keepCopy = () => this.keepAsNew('(copy from another tab)', 'The other version is unchanged.');
+
+  /** This page's study, as it stands, becomes a new study titled "<title> <suffix>", and opens. */
+  private keepAsNew = async (suffix: string, rest: string) => {
     const study = this.view?.controller.study;
     if (!study) return;
     try {
-      const info = await store.createStudy({ ...study, title: `${study.title} (copy from another tab)` });
+      const info = await store.createStudy({ ...study, title: `${study.title} ${suffix}` });
       this.saving?.discard();
       this.view = undefined;
-      this.notice = `Your changes are kept as a new study, "${info.title}". The other version is unchanged.`;
+      this.notice = `Your version is kept as a new study, "${info.title}".${rest ? ` ${rest}` : ''}`;
       location.hash = `#/study/${encodeURIComponent(info.id)}`;
     } catch (err) {
       this.problem = `Could not keep your changes as a new study: ${err instanceof Error ? err.message : String(err)} Use Export study to keep them as a file.`;

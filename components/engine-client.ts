@@ -4,7 +4,7 @@
  * makes stale, the worker is replaced and handed the latest study, so the old run is
  * cancelled. An answer older than the newest one shown is dropped.
  */
-import type { Edit, FromWorker, Report, Study, ToWorker } from '../src/index.ts';
+import { lazyResiduals, type Edit, type FromWorker, type Report, type ResidualColumns, type Study, type ToWorker } from '../src/index.ts';
 
 /** A run longer than this, with newer edits waiting, is cancelled. */
 export const CANCEL_AFTER_MS = 250;
@@ -87,7 +87,14 @@ export class EngineClient {
     clearTimeout(this.cancelTimer);
     this.cancelTimer = undefined;
     if (msg.type === 'refused') this.events.refused(msg.error.message, msg.error.path);
-    else this.events.answer(msg); // newer than anything shown; queued edits follow at once
+    else {
+      // a fit's residuals came as columns: the report reads as the engine wrote it
+      for (const c of msg.report.cells) {
+        const columns = (c as { residualColumns?: ResidualColumns }).residualColumns;
+        if (columns && !('residuals' in c)) lazyResiduals(c, columns);
+      }
+      this.events.answer(msg); // newer than anything shown; queued edits follow at once
+    }
     if (this.queued.length) {
       const edits = this.queued;
       this.queued = [];

@@ -3,17 +3,28 @@
  * The engine's worker: one study session off the main thread, so that long runs and sweeps
  * never freeze the page. It only relays: every computation is the engine's.
  */
-import { openStudy, type FromWorker, type StudySession, type ToWorker } from '../src/index.ts';
+import { openStudy, residualBuffers, residualColumns, type CellReport, type FromWorker, type StudySession, type ToWorker } from '../src/index.ts';
 
 let session: StudySession | undefined;
 
-/** The page plots the `plot` samples; the raw `series` (for the command line) would only cost copying. */
+/**
+ * The page plots the `plot` samples; the raw `series` (for the command line) would only cost
+ * copying. A fit's residuals go as columns whose buffers are transferred (see worker-protocol).
+ */
 function post(message: FromWorker): void {
+  const transfer: ArrayBuffer[] = [];
   if (message.type === 'report') {
-    const cells = message.report.cells.map((c) => ('series' in c ? (({ series: _s, ...rest }) => rest)(c) : c));
+    const cells = message.report.cells.map((c): CellReport => {
+      const { series: _s, ...rest } = c as CellReport & { series?: unknown };
+      if (rest.kind !== 'fit' || !Array.isArray((rest as { residuals?: unknown }).residuals)) return rest as CellReport;
+      const { residuals, ...fit } = rest as Extract<CellReport, { kind: 'fit' }>;
+      const columns = residualColumns(residuals ?? []);
+      transfer.push(...residualBuffers(columns));
+      return { ...fit, residualColumns: columns } as unknown as CellReport;
+    });
     message = { ...message, report: { ...message.report, cells }, received, sent: performance.timeOrigin + performance.now() };
   }
-  (self as unknown as Worker).postMessage(message);
+  (self as unknown as Worker).postMessage(message, transfer);
 }
 
 let received = 0;

@@ -98,7 +98,8 @@ export interface ReplayOutcome {
 /**
  * Puts the entries of closed tabs into the store: an entry made on the stored revision is
  * saved over it (compare-and-set); one made on an older revision (another tab saved since)
- * becomes a new study "<title> (recovered)", so neither version is lost. An entry that
+ * becomes a new study "<title> (recovered)", so neither version is lost; so does one whose
+ * study is in the trash or gone (never saved into the trash). An entry that
  * could not be stored stays for the next time.
  */
 export async function replayJournals(store: JournalStore): Promise<ReplayOutcome> {
@@ -112,12 +113,12 @@ export async function replayJournals(store: JournalStore): Promise<ReplayOutcome
     try {
       const stored = await store.loadStudy(id);
       if (stored && JSON.stringify(stored.doc) === JSON.stringify(e.doc)) { clearJournal(id); continue; }
-      if (stored && stored.revision === e.base) {
+      if (stored && stored.revision === e.base && stored.deleted === undefined) {
         await store.saveStudy(id, e.doc, e.base);
         restored.push(`"${e.doc.title}": the last changes made before the page closed were saved.`);
       } else {
         await store.createStudy({ ...e.doc, title: `${e.doc.title} (recovered)` });
-        restored.push(`"${e.doc.title}": changes made before the page closed were kept as a new study "${e.doc.title} (recovered)", because the study ${stored ? 'was saved elsewhere since' : 'is no longer here'}.`);
+        restored.push(`"${e.doc.title}": changes made before the page closed were kept as a new study "${e.doc.title} (recovered)", because the study ${!stored ? 'is no longer here' : stored.deleted !== undefined ? 'is in the trash' : 'was saved elsewhere since'}.`);
       }
       clearJournal(id);
     } catch (err) {

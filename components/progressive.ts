@@ -2,7 +2,9 @@
  * A long study rendered in chunks, so that no one task renders hundreds of cells. A study of
  * at most `LARGE` cells renders at once (every template, and the tests). In a larger one the
  * first `first` cells render at once (a screenful), the rest are added in later tasks, each
- * sized to take about `budgetMs`. When a new report
+ * sized to take about `budgetMs`: the time of a chunk is measured from its start to the next
+ * task, so the cells' own elements and fields, which render in microtasks after the view's
+ * update, are counted, and the next chunk grows at most twofold. When a new report
  * arrives, cells past the first screenful keep what they were given last (their previous
  * report) until their chunk comes round again. Each cell always gets its current document,
  * so an edit is always made on what the page shows: only results can lag, by a few tasks.
@@ -11,6 +13,8 @@ import type { ReactiveControllerHost } from 'lit';
 
 /** Studies with more cells than this are rendered in chunks, their fields' editors made when needed. */
 export const LARGE = 40;
+/** The most cells one chunk adds, however cheap the last chunk was (notes cost little, runs much). */
+const MOST_PER_CHUNK = 16;
 
 export class Progressive<G> {
   private shown: number;
@@ -18,7 +22,7 @@ export class Progressive<G> {
   private fresh = Infinity;
   private readonly given = new Map<string, G>();
   private version: unknown;
-  private step = 4;
+  private step = 2;
   private timer: ReturnType<typeof setTimeout> | undefined;
 
   constructor(private readonly host: ReactiveControllerHost, private readonly first = 6, private readonly budgetMs = 40) {
@@ -73,11 +77,20 @@ export class Progressive<G> {
       const started = performance.now();
       this.shown += this.step;
       this.fresh += this.step;
+      const step = this.step;
       this.host.requestUpdate();
-      void this.host.updateComplete.then(() => {
+      // a message is a task of its own, after every microtask of this one: the whole chunk is measured
+      afterThisTask(() => {
         const ms = Math.max(1, performance.now() - started);
-        this.step = Math.max(1, Math.min(50, Math.round((this.step * this.budgetMs) / ms)));
+        this.step = Math.max(2, Math.min(2 * step, MOST_PER_CHUNK, Math.floor((step * this.budgetMs) / ms)));
       });
     }, 0);
   }
+}
+
+/** Calls `then` in the next task (a message to itself: no timer clamping). */
+function afterThisTask(then: () => void): void {
+  const ch = new MessageChannel();
+  ch.port1.onmessage = () => { ch.port1.close(); then(); };
+  ch.port2.postMessage(null);
 }

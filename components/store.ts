@@ -64,7 +64,7 @@ export interface StudyFile {
 /** Why a store operation failed. `code` tells the kinds apart; `message` is for the user. */
 export class StoreError extends Error {
   override name = 'StoreError';
-  readonly code: 'not-found' | 'invalid' | 'storage' | 'conflict' | 'damaged';
+  readonly code: 'not-found' | 'invalid' | 'storage' | 'conflict' | 'damaged' | 'trashed';
   constructor(code: StoreError['code'], message: string, options?: { cause?: unknown }) {
     super(message, options);
     this.code = code;
@@ -104,7 +104,8 @@ export interface StudyStore {
    * there, with the new document. Rejects with code 'not-found' for an unknown id. With
    * `expectedRevision` it is a compare-and-set inside the one transaction: when the stored
    * revision is another (a newer save from another tab), it rejects with code 'conflict' and
-   * nothing changes.
+   * nothing changes; when the study is in the trash (moved there by another tab while a page
+   * edits it), it rejects with code 'trashed' and nothing changes.
    */
   saveStudy(id: string, doc: Study, expectedRevision?: number): Promise<StudyInfo>;
   /** Stores a new study under a new id: a copy of `doc` (which must pass `readStudy`), or a blank study. Revision 1. */
@@ -246,6 +247,9 @@ export function createStudyStore(options: StoreOptions = {}): StudyStore {
         const meta = await getMeta(os, id);
         if (expectedRevision !== undefined && meta.revision !== expectedRevision) {
           throw new StoreError('conflict', `This study was saved elsewhere (another tab or window) since it was opened here: revision ${meta.revision} is stored, this page has revision ${expectedRevision}. Nothing was overwritten.`);
+        }
+        if (expectedRevision !== undefined && meta.deleted !== undefined) {
+          throw new StoreError('trashed', 'This study was moved to the trash (in another tab or window) since it was opened here. Nothing was saved into the trash.');
         }
         return change(os, meta, study);
       });

@@ -1,5 +1,5 @@
 import type { ReactiveController, ReactiveControllerHost } from 'lit';
-import { applyEdit, type Edit, type Report, type Study } from '../src/index.ts';
+import { applyEdit, sameContent, type Edit, type Report, type Study } from '../src/index.ts';
 import { EngineClient, type EngineAnswer } from './engine-client.ts';
 import { createAutosaver, type Autosaver, type AutosaveState } from './autosaver.ts';
 
@@ -188,9 +188,9 @@ export class StudyController implements ReactiveController {
     this.lastMerge = undefined;
   }
 
-  /** Saves now (before leaving the study). */
-  async flush(): Promise<void> {
-    await this.saver?.flush();
+  /** Saves now (before leaving the study): 'saved', or 'error' when the save failed. */
+  async flush(): Promise<'saved' | 'error'> {
+    return (await this.saver?.flush()) ?? 'saved';
   }
 
   private renderTimer?: ReturnType<typeof setTimeout>;
@@ -231,7 +231,7 @@ export class StudyController implements ReactiveController {
   }
 }
 
-/** Two documents with the same content. Cost: O(size of the study). */
+/** Two documents with the same content. Cost: at most O(size of the study); cells both share cost nothing. */
 function sameStudy(a: Study | undefined, b: Study | undefined): boolean {
-  return a !== undefined && b !== undefined && JSON.stringify(a) === JSON.stringify(b);
+  return a !== undefined && b !== undefined && sameContent(a, b);
 }

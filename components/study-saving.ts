@@ -2,8 +2,9 @@
  * How the open study is saved safely: every edit goes to the journal first (synchronously,
  * see `journal.ts`), then to the store a moment later as a compare-and-set on the revision
  * this page knows, so a page whose study was saved elsewhere since never overwrites it.
- * Tells the shell, in words, when a save failed, when saving works again, and when the study
- * was saved elsewhere. Computes nothing; the shell renders what it says.
+ * Tells the shell, in words, when a save failed, when saving works again, when the study
+ * was saved elsewhere, and when it was moved to the trash or removed elsewhere (a save into
+ * the trash is refused by the store, so an edit never lands there unseen). Computes nothing; the shell renders what it says.
  */
 import type { Study } from '../src/index.ts';
 import * as store from './store.ts';
@@ -14,7 +15,9 @@ export interface SavingEvents {
   saved(info: store.StudyInfo, recovered: boolean): void;
   /** The study was saved elsewhere since this page opened it: nothing was overwritten. */
   conflict(message: string): void;
-  /** A save failed (other than by a conflict): why, in words. */
+  /** The study was moved to the trash, or removed for good, elsewhere: nothing was saved (the edits stay here and in the journal). */
+  gone(where: 'trash' | 'removed'): void;
+  /** A save failed (other than by a conflict or the study gone): why, in words. */
   failed(message: string): void;
 }
 
@@ -53,14 +56,16 @@ export class StudySaving {
     } catch (err) {
       this.failing = true;
       if (this.closed) throw err;
-      if (err instanceof store.StoreError && err.code === 'conflict') this.events.conflict(err.message);
+      const code = err instanceof store.StoreError ? err.code : undefined;
+      if (code === 'conflict') this.events.conflict((err as Error).message);
+      else if (code === 'trashed' || code === 'not-found') this.events.gone(code === 'trashed' ? 'trash' : 'removed');
       else this.events.failed(err instanceof Error ? err.message : String(err));
       throw err;
     }
   };
 
-  /** Whether a failed save is worth retrying: not a conflict, nor a document the store refuses. */
-  retry = (err: unknown): boolean => !(err instanceof store.StoreError && (err.code === 'conflict' || err.code === 'invalid'));
+  /** Whether a failed save is worth retrying by itself: not a conflict, a document the store refuses, nor a study gone to the trash or removed (the user chooses). */
+  retry = (err: unknown): boolean => !(err instanceof store.StoreError && ['conflict', 'invalid', 'trashed', 'not-found'].includes(err.code));
 
   /** Drops this page's unsaved changes (the user chose the version saved elsewhere, or kept theirs as a copy). */
   discard(): void {

@@ -51,6 +51,10 @@ export class StudyView extends LitElement {
     .name-notes p { margin: 0.25rem 0; }
     .caution { border-left: 4px solid #a85d00; background: #fff3df; padding: 0.55rem 0.9rem; margin: 0 0 0.8rem; color: #3d2a00; }
     article { border: 1px solid #c9d1d8; border-radius: 6px; background: #fff; margin: 0 0 0.9rem; padding: 0.6rem 0.9rem 0.7rem; break-inside: avoid; contain: layout style; }
+    /* a large study: cells far from the view are neither laid out nor painted (each editor made measures the page);
+       they count as 11rem tall. Not 'auto 11rem': the remembered sizes cost up to 16 layout passes in one task */
+    .large article { content-visibility: auto; contain-intrinsic-size: 11rem; }
+    @media print { .large article { content-visibility: visible; } }
     article.failed { border-color: #b3261e; box-shadow: inset 3px 0 0 #b3261e; }
     article.fresh { animation: flash 0.6s ease-out; }
     @keyframes flash { from { box-shadow: 0 0 0 3px rgba(29, 95, 168, 0.35); } to { box-shadow: 0 0 0 0 rgba(29, 95, 168, 0); } }
@@ -155,7 +159,7 @@ export class StudyView extends LitElement {
     deferEditors(!this.printing && study.cells.length > LARGE);
     return html`
       ${this.printing ? html`<div class="for-print">${sheet}</div>` : nothing}
-      <div class="editing ${this.printing ? 'sheet-instead' : ''}">
+      <div class="editing ${this.printing ? 'sheet-instead' : ''} ${study.cells.length > LARGE ? 'large' : ''}">
       <div class="bar">
         ${wrapField({ cls: 'title', field: 'title', label: 'Study title', value: study.title, onInput: (title) => c.edit({ type: 'retitle', title }, 'title') })}
         <button ?disabled=${!c.canUndo} @click=${() => c.undo()} title="Undo (Ctrl+Z)">Undo</button>

@@ -2,6 +2,7 @@
 export { openStudy, StudySession, type EditResult, type OpenResult, type SessionOptions } from './engine/session.ts';
 export type { Replacement, WhatIf, WhatIfAnswer, WhatIfPrepared, WhatIfResult } from './engine/what-if.ts';
 export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts';
+export { sameContent } from './study/same.ts';
 export { solutionEdit, solutionText, type SolutionEdit } from './study/use-solution.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind, PlotScale, SolveCell, FitPrior, FitErrorModel } from './study/types.ts';
@@ -31,6 +32,7 @@ export type { ItemTex } from './output/sheet-tex.ts';
 export { unitChoicesFor, timeAxisUnits, TRADE_UNITS, type AxisUnit } from './output/display-units.ts';
 export { nameTex } from './expression/tex.ts';
 export type { FromWorker, ToWorker } from './engine/worker-protocol.ts';
+export { residualColumns, residualsFromColumns, residualBuffers, lazyResiduals, type ResidualColumns } from './output/residual-columns.ts';
 export { lookupUnit, unitAfterNumber } from './units/units.ts';
 export { commonUnitNames, constantNames, functionNames, unitNames } from './expression/vocabulary.ts';
 export { fieldWords, cellWords, KIND_LABELS } from './output/field-words.ts';

@@ -163,8 +163,11 @@ export class DataCellElement extends CellElement<'data'> {
     e.preventDefault();
     this.problem = undefined;
     this.wholeText = false;
+    // the text replaced whole (the usual paste): its rows are the paste's, counted once
+    if (value === text) this.counted = { text, rows };
     this.editCsv(value);
-    void this.updateComplete.then(() => (this.shadowRoot?.querySelector('button.to-table') as HTMLButtonElement | null)?.focus());
+    // focus moves in the next frame: here it would lay the page out inside the paste's task
+    void this.updateComplete.then(() => requestAnimationFrame(() => (this.shadowRoot?.querySelector('button.to-table') as HTMLButtonElement | null)?.focus()));
   };
 
   private editCsv(csv: string) {
@@ -237,7 +240,7 @@ export class DataCellElement extends CellElement<'data'> {
   private convert(text: string, what: string, done: (r: CsvRead) => void): void {
     if (this.reading) return;
     const stop = new AbortController();
-    const reading = { rowsRead: 0, rows: roughRowCount(text), what, stop };
+    const reading = { rowsRead: 0, rows: this.counted?.text === text ? this.counted.rows : roughRowCount(text), what, stop };
     this.reading = reading;
     this.problem = undefined;
     this.converted = readCsvOffThread(text, this.cell.columns ?? [], (rowsRead) => { this.reading = { ...reading, rowsRead }; }, stop.signal).then((r) => {

@@ -17,7 +17,7 @@ import { joinLines, singleLine } from './single-line.ts';
 import { fieldTheme } from './theme.ts';
 import { clearTyping, typingHistory } from './typing-history.ts';
 import { typeOverSelection } from './type-over.ts';
-import { shouldWait, showWaiting, stopWatching, wakeWhenNear } from './deferred.ts';
+import { dropUpdate, putOffUpdate, shouldWait, showWaiting, stopWatching, updateNow, wakeWhenNear } from './deferred.ts';
 
 /** What the controller reads from its host. */
 export interface ExprFieldHost extends ReactiveControllerHost, EventTarget {
@@ -98,10 +98,11 @@ export class ExprEditorController implements ReactiveController {
       state: EditorState.create({ doc: this.committed, extensions: this.extensions() }),
     });
     this.props = undefined;
-    this.syncProps();
+    this.syncProps(true);
   }
 
   private destroy(): void {
+    dropUpdate(this);
     this.view?.destroy();
     this.view = undefined;
     this.stopWaiting();
@@ -158,6 +159,7 @@ export class ExprEditorController implements ReactiveController {
   }
 
   private onUpdate(u: ViewUpdate): void {
+    if (u.focusChanged && u.view.hasFocus) queueMicrotask(() => updateNow(this)); // not inside this update
     if (u.docChanged && !u.transactions.some((tr) => tr.annotation(fromHost))) {
       this.emit('expr-input', u.state.doc.toString());
     }
@@ -177,7 +179,8 @@ export class ExprEditorController implements ReactiveController {
     this.host.dispatchEvent(new CustomEvent<ExprInputDetail>(type, { detail: { value }, bubbles: true, composed: true }));
   }
 
-  private syncProps(): void {
+  /** Gives the editor the host's names, error, label: at once when `now`, when the editor has focus or the study is small; else a little later (`putOffUpdate`). */
+  private syncProps(now = false): void {
     const h = this.host;
     const old = this.props;
     const reads = !!h.readsStates;
@@ -189,7 +192,13 @@ export class ExprEditorController implements ReactiveController {
     const next: FieldProps = { names, error, label: h.label ?? '', readonly: !!h.readonly, errorId: this.errorId };
     if (old && old.names === next.names && old.error === next.error && old.label === next.label && old.readonly === next.readonly) return;
     this.props = next;
-    this.view!.dispatch({ effects: setProps.of(next) });
+    const view = this.view!;
+    const give = () => { if (this.view === view && this.props === next) view.dispatch({ effects: setProps.of(next) }); };
+    if (!now && shouldWait() && !view.hasFocus) putOffUpdate(this, give);
+    else {
+      dropUpdate(this);
+      give();
+    }
   }
 
   /**

@@ -3,14 +3,22 @@
  * views at once, each measuring the page: seconds of one task. In a large study (the study
  * view says so: `deferEditors`), a field shows its text in a plain focusable box instead, and
  * gets its editor when it comes within `NEAR_PX` of the viewport or takes focus (keyboard or
- * pointer). Editors woken together are made a few per task, those first in the page first.
+ * pointer). Editors woken together are made a few per task, those first in the page first,
+ * and new props for editors without focus (names, errors: a new report) are given a few per
+ * task too.
  * In other studies, and in the tests, every field gets its editor at once.
  */
 
 /** How near the viewport (CSS px, above and below) a waiting field gets its editor. */
 export const NEAR_PX = 600;
-/** Time for making woken editors in one task (ms); the rest wait for the next task. */
-const WAKE_BUDGET_MS = 30;
+/**
+ * Time for making woken editors in one task (ms); the rest wait until the page has drawn a
+ * frame, since each new editor measures itself in the next animation frame: editors made over
+ * several tasks before one frame would all measure in that frame's one task.
+ */
+const WAKE_BUDGET_MS = 15;
+/** The longest wait for that frame (ms): a page in the background draws none. */
+const FRAME_WAIT_MS = 100;
 
 let deferring = false;
 
@@ -51,7 +59,54 @@ function drain(): void {
     wakers.delete(el);
     wake?.();
   }
-  if (due.length && draining === undefined) draining = setTimeout(() => { draining = undefined; drain(); }, 0);
+  if (due.length && draining === undefined) draining = afterFrame(() => { draining = undefined; drain(); });
+}
+
+/** Calls `next` in a task after the next frame is drawn (or after FRAME_WAIT_MS without one). */
+function afterFrame(next: () => void): ReturnType<typeof setTimeout> {
+  let done = false;
+  const once = () => { if (!done) { done = true; clearTimeout(fallback); next(); } };
+  const fallback = setTimeout(once, FRAME_WAIT_MS);
+  requestAnimationFrame(() => setTimeout(once, 0));
+  return fallback;
+}
+
+/**
+ * Updates of editors without focus, put off in a large study: the newest per editor, made for
+ * about WAKE_BUDGET_MS per task. A report reaching dozens of editors at once would otherwise
+ * update them all in one task, and each update of an editor reads the page's selection, which
+ * makes the browser lay the page out again after the previous editor changed it.
+ */
+const putOff = new Map<object, () => void>();
+let puttingOff: ReturnType<typeof setTimeout> | undefined;
+
+/** Makes `update` for the editor `key` in a later task (replacing one still waiting for it). */
+export function putOffUpdate(key: object, update: () => void): void {
+  putOff.set(key, update);
+  puttingOff ??= setTimeout(runPutOff, 0);
+}
+
+/** Makes the editor's waiting update now (it took focus), if there is one. */
+export function updateNow(key: object): void {
+  const update = putOff.get(key);
+  putOff.delete(key);
+  update?.();
+}
+
+/** Drops the editor's waiting update (the editor is gone). */
+export function dropUpdate(key: object): void {
+  putOff.delete(key);
+}
+
+function runPutOff(): void {
+  puttingOff = undefined;
+  const started = performance.now();
+  for (const [key, update] of putOff) {
+    if (performance.now() - started >= WAKE_BUDGET_MS) break;
+    putOff.delete(key);
+    update();
+  }
+  if (putOff.size) puttingOff = setTimeout(runPutOff, 0);
 }
 
 /** Calls `wake` once `el` comes near the viewport (at once, in the next frame, if it is). */

@@ -80,6 +80,36 @@ export function logDrawn(data: uPlot.AlignedData): uPlot.AlignedData {
 /** A value a log axis can place. */
 export const onLogAxis = (v: number | null | undefined): v is number => v != null && v > 0 && Number.isFinite(v);
 
+/** The extremes of the values on one y unit: all of them, and those a log axis can place. */
+export interface Extent { readonly lo: number; readonly hi: number; readonly logLo: number; readonly logHi: number }
+export const NO_EXTENT: Extent = { lo: Infinity, hi: -Infinity, logLo: Infinity, logHi: -Infinity };
+
+/**
+ * The extremes of the levels and measured points of each state unit (what a y range must show
+ * besides the curves). One pass over the values, no argument lists: 100,000 points cost a
+ * loop, not a spread into `Math.min`. Values that are not finite numbers are left out.
+ */
+export function extentsByUnit(p: SimulationPlot, points: readonly MeasuredPoints[]): Map<string, Extent> {
+  const out = new Map<string, Extent>();
+  const unitOf = (state: string) => p.states.find((s) => s.name === state)?.unit;
+  const add = (unit: string | undefined, values: readonly number[]) => {
+    if (unit === undefined) return;
+    let { lo, hi, logLo, logHi } = out.get(unit) ?? NO_EXTENT;
+    for (let i = 0; i < values.length; i++) {
+      const v = values[i];
+      if (typeof v !== 'number' || !(v - v === 0)) continue; // not a finite number
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+      if (v > 0 && v < logLo) logLo = v;
+      if (v > 0 && v > logHi) logHi = v;
+    }
+    out.set(unit, { lo, hi, logLo, logHi });
+  };
+  for (const l of p.levels) add(unitOf(l.state), [l.value]);
+  for (const m of points) add(unitOf(m.state), m.values);
+  return out;
+}
+
 /**
  * What a log axis leaves out, in words, one sentence per state (its curve, its measured points,
  * its levels and found points): empty when everything can be drawn.

@@ -16,10 +16,12 @@ import { formatNumber, type PlotScale, type SimulationPlot } from '../../src/ind
 import { ChartController, type ChartSpec } from './chart-controller.ts';
 import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf, tickLabels } from './axes.ts';
-import { eventTimes, leftOffLog, logDrawn, logSplits, onLogAxis, panelsOf, timePlotTables, timeSplits, type MeasuredPoints, type Panel } from './time-plot-parts.ts';
+import { eventTimes, extentsByUnit, NO_EXTENT, type Extent, leftOffLog, logDrawn, logSplits, onLogAxis, panelsOf, timePlotTables, timeSplits, type MeasuredPoints, type Panel } from './time-plot-parts.ts';
 import './data-table.ts';
 import { drawOverlay, around, curveBoxes, type PointLabel, type EventMarker } from './overlay.ts';
 import { EVENT_LINE, GRID, seriesColour } from './palette.ts';
+import { onePerPixel } from './one-per-pixel.ts';
+import type { Box } from './label-placement.ts';
 
 export type { MeasuredPoints } from './time-plot-parts.ts';
 
@@ -67,6 +69,8 @@ export class TimePlot extends LitElement {
   private panels: Panel[] = [];
   /** Each panel's data as drawn: the plot's own, or on a log axis with the values it cannot place left out. */
   private drawn: uPlot.AlignedData[] = [];
+  /** The extremes of the levels and measured points by unit, for the y ranges (made when first asked). */
+  private extents?: Map<string, Extent>;
   private readonly chart = new ChartController(this, () => this.specs());
 
   /** The uPlot charts, one per panel (for tests and tools; read-only use). */
@@ -80,7 +84,10 @@ export class TimePlot extends LitElement {
     // New arrays for new points too, so that the chart re-ranges its scales to show them.
     const before = changed.get('points') as readonly MeasuredPoints[] | undefined;
     const pointsMoved = changed.has('points') && (before?.length !== this.points.length || this.points.some((m, i) => m !== before[i]));
-    if (changed.has('plot') || pointsMoved) this.panels = this.plot ? panelsOf(this.plot) : [];
+    if (changed.has('plot') || pointsMoved) {
+      this.panels = this.plot ? panelsOf(this.plot) : [];
+      this.extents = undefined;
+    }
     if (changed.has('plot') || pointsMoved || changed.has('scale')) this.drawn = this.panels.map((panel) => (this.isLog ? logDrawn(panel.data) : panel.data));
   }
 
@@ -196,18 +203,16 @@ export class TimePlot extends LitElement {
 
   /** A y scale's range: the curves' and also every level and measured point on it, padded. */
   private stateRange(unit: string, min: number | null, max: number | null): uPlot.Range.MinMax {
-    const p = this.plot!;
-    const mine = (state: string) => p.states.find((s) => s.name === state)?.unit === unit;
-    const extra = [...p.levels.filter((l) => mine(l.state)).map((l) => l.value), ...this.points.filter((m) => mine(m.state)).flatMap((m) => m.values)];
+    // the levels' and points' extremes, found once per data (a chart asks on every redraw)
+    const extra = (this.extents ??= extentsByUnit(this.plot!, this.points)).get(unit) ?? NO_EXTENT;
     if (this.isLog) {
       // only what the axis can place; the data arrive with the rest already left out
-      const shown = extra.filter(onLogAxis);
-      const lo = Math.min(onLogAxis(min) ? min : Infinity, ...shown);
-      const hi = Math.max(onLogAxis(max) ? max : -Infinity, ...shown);
+      const lo = Math.min(onLogAxis(min) ? min : Infinity, extra.logLo);
+      const hi = Math.max(onLogAxis(max) ? max : -Infinity, extra.logHi);
       return Number.isFinite(lo) && Number.isFinite(hi) ? uPlot.rangeLog(lo, hi, 10, true) : [1, 10];
     }
-    const lo = Math.min(min ?? Infinity, ...extra, ...(this.floor > 0 ? [-this.floor] : []));
-    const hi = Math.max(max ?? -Infinity, ...extra, ...(this.floor > 0 ? [this.floor] : []));
+    const lo = Math.min(min ?? Infinity, extra.lo, this.floor > 0 ? -this.floor : Infinity);
+    const hi = Math.max(max ?? -Infinity, extra.hi, this.floor > 0 ? this.floor : -Infinity);
     return Number.isFinite(lo) && Number.isFinite(hi) ? uPlot.rangeNum(lo, hi, 0.1, true) : [0, 1];
   }
 
@@ -258,32 +263,29 @@ export class TimePlot extends LitElement {
     }
     ctx.setLineDash([]);
 
-    const pointsShown = new Map<(typeof this.points)[number], Array<[number, number]>>();
+    // measured points: one path per series, one dot per device pixel (one-per-pixel.ts):
+    // thousands of measurements draw in one fill and one stroke, each place once
+    const shownBoxes: Box[] = [];
+    const margin = 5 * r;
+    const bounds = { left: left - margin, top: top - margin, right: left + width + margin, bottom: top + height + margin };
     for (const m of this.points.filter((m) => inPanel(m.state))) {
+      const scale = scaleOf(m.state);
+      const xs = new Float64Array(m.t.length);
+      const ys = new Float64Array(m.t.length);
+      const kept = onePerPixel(m.t.length, (i) => (xs[i] = u.valToPos(m.t[i], 'x', true)), (i) => (ys[i] = u.valToPos(m.values[i], scale, true)), bounds, (i) => !placeable(m.values[i]));
       ctx.strokeStyle = seriesColour(stateIndex(m.state));
       ctx.fillStyle = '#fff';
       ctx.lineWidth = 1.5 * r;
-      // one path per series, a point on the pixel of the one before left out: thousands of
-      // measurements draw in one fill and one stroke
-      const scale = scaleOf(m.state);
-      const shown: Array<[number, number]> = [];
-      let lastX = NaN;
-      let lastY = NaN;
       ctx.beginPath();
-      m.t.forEach((t, i) => {
-        if (!placeable(m.values[i])) return;
-        const x = u.valToPos(t, 'x', true);
-        const y = u.valToPos(m.values[i], scale, true);
-        if (Math.abs(x - lastX) < r && Math.abs(y - lastY) < r) return;
-        lastX = x;
-        lastY = y;
-        shown.push([(x - left) / r, (y - top) / r]);
+      for (const i of kept) {
+        const x = xs[i];
+        const y = ys[i];
         ctx.moveTo(x + 3.5 * r, y);
         ctx.arc(x, y, 3.5 * r, 0, 2 * Math.PI);
-      });
+        shownBoxes.push(around((x - left) / r, (y - top) / r, 4));
+      }
       ctx.fill();
       ctx.stroke();
-      pointsShown.set(m, shown);
     }
 
     const marks = p.marks.filter((m) => inPanel(m.state) && placeable(m.value));
@@ -301,7 +303,7 @@ export class TimePlot extends LitElement {
     const cssW = width / r;
     const inside = (x: number, y: number) => x >= 0 && x <= cssW && y >= 0 && y <= height / r;
     const labels: PointLabel[] = [];
-    const clear = [];
+    const clear: Box[] = shownBoxes;
     for (const m of marks) {
       const x = u.valToPos(m.time, 'x');
       const y = u.valToPos(m.value, scaleOf(m.state));
@@ -309,7 +311,6 @@ export class TimePlot extends LitElement {
       labels.push({ x, y, text: m.label, kind: 'mark' });
       clear.push(around(x, y));
     }
-    for (const shown of pointsShown.values()) for (const [x, y] of shown) clear.push(around(x, y, 4));
     for (const l of p.levels.filter((l) => inPanel(l.state) && placeable(l.value))) {
       const y = u.valToPos(l.value, scaleOf(l.state));
       if (inside(cssW, y)) labels.push({ x: cssW - 2, y, text: l.label, kind: 'level', along: [0.75, 0.5, 0.25].map((f) => f * cssW) });

@@ -2,6 +2,9 @@
  * Messages between the app and the engine's worker. The worker holds one study session;
  * the app sends the study once, then batches of edits, each with a sequence number; every
  * answer carries the number of the last message it reflects, so a stale answer is known.
+ * On the way to the page a fit cell's `residuals` travel as `residualColumns` (typed arrays,
+ * transferred: `output/residual-columns.ts`); the page's client gives the report its
+ * `residuals` back, made from the columns when first read.
  */
 import type { Edit } from '../study/edit.ts';
 import type { Report } from './report.ts';

@@ -6,7 +6,7 @@
 import type { Cell, Study } from './types.ts';
 import { CELL_KINDS, ID_PATTERN } from './types.ts';
 import { isObject, readStudy, type Problem } from './validate.ts';
-import { shortJson, valueLimitProblem } from './limits.ts';
+import { copyPlain, shortJson, valueLimitProblem } from './limits.ts';
 
 export type Edit =
   | { readonly type: 'replace'; readonly cell: unknown }
@@ -58,7 +58,7 @@ export function applyEdit(study: Study, edit: Edit): EditOutcome {
       if (bound) return { ok: false, error: bound };
       let copy: unknown;
       try {
-        copy = structuredClone(edit.study);
+        copy = copyPlain(edit.study);
       } catch {
         return refuse('a study must be plain data (text, numbers, lists and objects)', '');
       }
@@ -89,7 +89,12 @@ export function applyEdit(study: Study, edit: Edit): EditOutcome {
       if (typeof c.kind !== 'string' || !(CELL_KINDS as readonly string[]).includes(c.kind)) {
         return refuse(`unknown cell kind ${shortJson(c.kind)}; the kinds are ${CELL_KINDS.join(', ')}`, 'kind');
       }
-      const written = structuredClone(c) as unknown as Cell;
+      let written: Cell;
+      try {
+        written = copyPlain(c) as unknown as Cell;
+      } catch {
+        return refuse('a cell must be plain data (text, numbers, lists and objects)', 'cell');
+      }
       const existing = at(c.id);
       if (edit.type === 'replace') {
         if (existing < 0) return refuse(`there is no cell "${c.id}" to replace`, 'id');

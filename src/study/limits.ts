@@ -103,6 +103,7 @@ export function valueLimitProblem(value: unknown): Problem | undefined {
         const x: unknown = v[i];
         // a number or text in a list (a table's entries) is counted here, not visited: no object per entry
         if ((typeof x !== 'object' || x === null) && values < MAX_VALUES) values++;
+        else if (depth + 1 < MAX_NESTING && flatList(x) && values + 1 + x.length <= MAX_VALUES) values += 1 + x.length;
         else stack.push({ v: x, key: i, parent: at, depth: depth + 1 });
       }
     } else {
@@ -111,6 +112,37 @@ export function valueLimitProblem(value: unknown): Problem | undefined {
     }
   }
   return undefined;
+}
+
+/** A list of numbers, texts and nulls only (a table's row): counted without a visit of its own. */
+function flatList(x: unknown): x is unknown[] {
+  if (!Array.isArray(x)) return false;
+  for (let i = 0; i < x.length; i++) if (typeof x[i] === 'object' && x[i] !== null) return false;
+  return true;
+}
+
+/**
+ * A copy of a value within the bounds above: lists and plain objects copied, numbers, texts,
+ * booleans and null as they are. Anything else (a date, a map, a function) is copied by
+ * `structuredClone`, which refuses what cannot be copied by throwing. Many times faster than
+ * `structuredClone` on a table of 10,000 rows (no serialising). Recursion is safe: the value's
+ * nesting is bounded (`valueLimitProblem` first).
+ */
+export function copyPlain<T>(value: T): T {
+  if (typeof value !== 'object' || value === null) return typeof value === 'function' || typeof value === 'symbol' ? structuredClone(value) : value;
+  if (Array.isArray(value)) {
+    const out = new Array(value.length);
+    for (let i = 0; i < value.length; i++) {
+      const x: unknown = value[i];
+      out[i] = typeof x === 'object' && x !== null ? copyPlain(x) : x === undefined || typeof x === 'number' || typeof x === 'string' || typeof x === 'boolean' ? x : structuredClone(x);
+    }
+    return out as T;
+  }
+  const proto = Object.getPrototypeOf(value);
+  if (proto !== Object.prototype && proto !== null) return structuredClone(value);
+  const out: Record<string, unknown> = {};
+  for (const k of Object.keys(value)) out[k] = copyPlain((value as Record<string, unknown>)[k]);
+  return out as T;
 }
 
 /**

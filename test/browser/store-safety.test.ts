@@ -55,6 +55,23 @@ describe('compare-and-set saves', () => {
     expect(now?.doc.title).to.equal('tab A');
     expect(now?.revision).to.equal(2);
   });
+
+  it('refuses a compare-and-set save into a study in the trash, changing nothing; a plain save still may', async () => {
+    const store = freshStore();
+    const { id } = await store.createStudy(study('first'));
+    await store.deleteStudy(id);
+    const err = await rejection(store.saveStudy(id, study('typed in a tab that had it open'), 1));
+    expect(err).to.be.instanceOf(StoreError);
+    expect(err.code).to.equal('trashed');
+    expect(err.message).to.match(/moved to the trash.*Nothing was saved into the trash/);
+    const now = await store.loadStudy(id);
+    expect(now?.doc.title).to.equal('first');
+    expect(now?.revision).to.equal(1);
+    expect(now?.deleted).to.be.a('number');
+    // without an expected revision (not a page's autosave) the trash keeps the new document, as before
+    expect((await store.saveStudy(id, study('plain save'))).revision).to.equal(2);
+    expect((await store.loadStudy(id))?.deleted).to.be.a('number');
+  });
 });
 
 describe('damaged records', () => {
@@ -133,6 +150,21 @@ describe('the journal of unsaved edits', () => {
     expect((await store.listStudies()).map((s) => s.title).sort()).to.deep.equal(['edit on v1 (recovered)', 'saved in another tab']);
     expect(readJournal(id)).to.equal(undefined);
     clearJournal(id);
+  });
+
+  it('keeps an entry whose study went to the trash as a new "(recovered)" study, saving nothing into the trash', async () => {
+    const store = freshStore();
+    const { id } = await store.createStudy(study('v1'));
+    await store.deleteStudy(id);
+    orphan(id, 1, study('typed before the page closed'));
+    const out = await replayJournals(store);
+    expect(out.problems).to.deep.equal([]);
+    expect(out.restored.join(' ')).to.contain('is in the trash');
+    const binned = await store.loadStudy(id);
+    expect(binned?.doc.title).to.equal('v1');
+    expect(binned?.deleted).to.be.a('number');
+    expect((await store.listStudies()).map((s) => s.title)).to.deep.equal(['typed before the page closed (recovered)']);
+    expect(readJournal(id)).to.equal(undefined);
   });
 
   it('leaves alone the entry of a tab that is still open (it holds its lock)', async () => {

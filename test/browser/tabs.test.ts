@@ -95,6 +95,116 @@ describe('save news between tabs', () => {
   });
 });
 
+/** Waits until `check` (which reads the store) holds. */
+async function untilStored(check: () => Promise<boolean>, what: string, ms = 5000): Promise<void> {
+  const end = performance.now() + ms;
+  while (!(await check())) {
+    if (performance.now() > end) throw new Error(`gave up waiting: ${what}`);
+    await new Promise((r) => setTimeout(r, 20));
+  }
+}
+
+describe('a study moved to the trash or removed in another tab', () => {
+  afterEach(() => { for (const k of Object.keys(localStorage)) if (k.startsWith('ratebook-journal:')) localStorage.removeItem(k); });
+
+  it('says so, changes nothing, and restores it from the trash on request', async () => {
+    const { id } = await store.createStudy(study('Opened here'));
+    const { root, view } = await openApp(id);
+    // another tab moves it to the trash and says so (news without a revision)
+    await store.deleteStudy(id);
+    other.postMessage({ id });
+    const box = await until(() => root.querySelector('.gone'), 'the news of the trash');
+    expect(box.textContent).to.contain('moved to the trash in another tab');
+    expect(box.textContent).to.contain('saves nothing into the trash until you choose');
+    expect(view.controller.study?.title, 'nothing replaced').to.equal('Opened here');
+    expect((await store.loadStudy(id))?.deleted, 'nothing restored without a choice').to.be.a('number');
+    (box.querySelector('button[data-choice="restore"]') as HTMLButtonElement).click();
+    await untilStored(async () => (await store.loadStudy(id))?.deleted === undefined, 'the study out of the trash');
+    await until(() => root.querySelector('.gone') === null, 'the notice gone');
+    expect(root.querySelector('.notice')?.textContent).to.contain('restored from the trash');
+    expect((root.querySelector('study-view') as StudyView).controller.study?.title).to.equal('Opened here');
+  });
+
+  it('keeps an edit typed meanwhile, saves none of it into the trash, and saves it once restored', async () => {
+    const { id } = await store.createStudy(study('Opened here'));
+    const { root, view } = await openApp(id);
+    await store.deleteStudy(id);
+    other.postMessage({ id });
+    const box = await until(() => root.querySelector('.gone'), 'the news of the trash');
+    view.controller.edit({ type: 'retitle', title: 'Typed after the news' });
+    await until(() => view.controller.saveState === 'error', 'the save refused by the store', 8000);
+    const binned = await store.loadStudy(id);
+    expect(binned?.doc.title, 'nothing saved into the trash').to.equal('Opened here');
+    expect(binned?.revision).to.equal(1);
+    expect(JSON.parse(localStorage.getItem(`ratebook-journal:${id}`) ?? '{}').doc?.title, 'the edit is in the journal').to.equal('Typed after the news');
+    expect(view.controller.study?.title).to.equal('Typed after the news');
+    expect(root.querySelector('.save-error'), 'no second, contradicting message').to.equal(null);
+    (box.querySelector('button[data-choice="restore"]') as HTMLButtonElement).click();
+    await until(() => view.controller.saveState === 'saved', 'the save after restoring', 8000);
+    const now = await store.loadStudy(id);
+    expect(now?.deleted).to.equal(undefined);
+    expect(now?.doc.title).to.equal('Typed after the news');
+    expect(localStorage.getItem(`ratebook-journal:${id}`), 'the journal emptied once stored').to.equal(null);
+    await until(() => root.querySelector('.notice')?.textContent?.includes('restored from the trash; editing and saving go on as before. The changes typed meanwhile are saved.'), 'both said');
+  });
+
+  it('says so from the refused save alone when the news is missed', async () => {
+    const { id } = await store.createStudy(study('Opened here'));
+    const { root, view } = await openApp(id);
+    await store.deleteStudy(id); // no news: this page's own channel end does not hear itself
+    view.controller.edit({ type: 'retitle', title: 'Typed, the news missed' });
+    const box = await until(() => root.querySelector('.gone'), 'the refused save said', 8000);
+    expect(box.textContent).to.contain('moved to the trash in another tab');
+    expect((await store.loadStudy(id))?.doc.title).to.equal('Opened here');
+  });
+
+  it('keeps this page\'s version as a new study, leaving the one in the trash as it was', async () => {
+    const { id } = await store.createStudy(study('Opened here'));
+    const { root, view } = await openApp(id);
+    await store.deleteStudy(id);
+    other.postMessage({ id });
+    const box = await until(() => root.querySelector('.gone'), 'the news of the trash');
+    view.controller.edit({ type: 'retitle', title: 'Mine' });
+    (box.querySelector('button[data-choice="copy"]') as HTMLButtonElement).click();
+    await until(() => location.hash !== `#/study/${encodeURIComponent(id)}` && location.hash.startsWith('#/study/'), 'the new study opened');
+    const opened = await until(() => { const v = root.querySelector('study-view') as StudyView | null; return v?.controller.study?.title === 'Mine (copy)' ? v : null; }, 'the copy shown');
+    const copyId = opened.controller.id!;
+    expect((await store.loadStudy(copyId))?.doc.title).to.equal('Mine (copy)');
+    const binned = await store.loadStudy(id);
+    expect(binned?.doc.title).to.equal('Opened here');
+    expect(binned?.deleted).to.be.a('number');
+    expect(root.querySelector('.notice')?.textContent).to.contain('The study in the trash is unchanged.');
+    expect(localStorage.getItem(`ratebook-journal:${id}`), 'the old journal entry dropped').to.equal(null);
+  });
+
+  it('deleted for good (the trash emptied): offers only the new study, and keeps what was typed', async () => {
+    const { id } = await store.createStudy(study('Opened here'));
+    const { root, view } = await openApp(id);
+    await store.deleteStudy(id);
+    await store.purgeTrash(0);
+    other.postMessage({ id });
+    const box = await until(() => root.querySelector('.gone'), 'the news of the removal');
+    expect(box.textContent).to.contain('deleted for good in another tab');
+    expect(box.querySelector('button[data-choice="restore"]')).to.equal(null);
+    view.controller.edit({ type: 'retitle', title: 'Still here' });
+    await until(() => view.controller.saveState === 'error', 'the refused save', 8000);
+    expect(await store.loadStudy(id), 'nothing recreated under the old id').to.equal(undefined);
+    (box.querySelector('button[data-choice="copy"]') as HTMLButtonElement).click();
+    await until(() => (root.querySelector('study-view') as StudyView | null)?.controller.study?.title === 'Still here (copy)', 'the copy shown');
+  });
+
+  it('goes back to normal when the other tab restores it first', async () => {
+    const { id } = await store.createStudy(study('Opened here'));
+    const { root } = await openApp(id);
+    await store.deleteStudy(id);
+    other.postMessage({ id });
+    await until(() => root.querySelector('.gone'), 'the news of the trash');
+    const restored = await store.restoreStudy(id);
+    other.postMessage({ id, revision: restored.revision });
+    await until(() => root.querySelector('.gone') === null, 'the notice gone');
+  });
+});
+
 describe('the library', () => {
   it('reads its list again when a study is saved in another tab', async () => {
     const { id } = await store.createStudy(study('Listed before'));

@@ -4,16 +4,21 @@
 // text into a table, waits for the table and the fit again, scrolls the table and checks that
 // the rows in view are drawn (and only about those). Throughout, a PerformanceObserver for
 // 'longtask' records every main-thread task of 50 ms or more; the longest must stay under
-// LONGEST_MS.
+// the goal.
 //
-// The goal is 100 ms (issue: "the page answers input within 100 ms"), on a quiet machine.
-// The test machine is shared (2 cores, several test runs at once; load averages of 15-20 seen),
-// which stretches every main-thread task by about the load per core. The goal is NOT met yet:
-// the longest task measured 158 ms at a load per core of 1.0 (it was 3.5 s before the worker
-// and the virtual table). So the threshold guards against going back, not the goal: three
-// times the goal times that slowdown (the 1-minute load average over the cores, at least 1).
-// The script prints the longest task, the slowdown and whether the goal was met, so the gap
-// shows in every log. RATEBOOK_BIG_LONGEST_MS sets the threshold outright.
+// The goal is 100 ms (issue: "the page answers input within 100 ms"). Two measures of each
+// task, both printed:
+// - its thread's CPU time, from a Chromium trace of the page ('toplevel' RunTask events,
+//   `tdur`): what the page's own work costs, which other processes on the machine barely
+//   change. Held to the goal outright: the longest must be under 100 ms.
+// - its wall-clock time, from a 'longtask' PerformanceObserver: what a person feels, which
+//   a shared machine stretches (2 cores, several test runs at once, loads of 15 seen) by about
+//   the load per core. Held to the goal times the load per core (the 1-minute load average
+//   over the cores) times 1.5, the scheduler's unevenness, when that is above 1; on a quiet
+//   machine (load per core at most 2/3) to the goal itself.
+// Measured on a quiet moment (load per core 1.1) before this work: longest 272 ms wall
+// (turning the text into a table); see DEVELOPERS.md for the costs and what removed them.
+// RATEBOOK_BIG_LONGEST_MS sets the wall-clock threshold outright.
 //
 // Expects a build in dist/ (`npm run test:e2e` builds first).
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
@@ -26,8 +31,9 @@ import { DEFAULT_CHROMIUM, NOT_FOUND_MESSAGE, findChromium } from '../../scripts
 const NAME = 'big data';
 const ROWS = Number(process.env.RATEBOOK_BIG_ROWS ?? 10_000);
 const GOAL_MS = 100;
-const SLOWDOWN = Math.max(1, loadavg()[0] / cpus().length);
-const LONGEST_MS = Number(process.env.RATEBOOK_BIG_LONGEST_MS ?? Math.round(GOAL_MS * SLOWDOWN * 3));
+const LOAD_PER_CORE = loadavg()[0] / cpus().length;
+const SLOWDOWN = Math.max(1, LOAD_PER_CORE * 1.5);
+const LONGEST_MS = Number(process.env.RATEBOOK_BIG_LONGEST_MS ?? Math.round(GOAL_MS * SLOWDOWN));
 const STEP = 40_000;
 const OUT = process.env.RATEBOOK_BIG_OUT;
 
@@ -76,6 +82,7 @@ async function main() {
     for (let i = 0; i < 300 && (await dataRows()) !== 11; i++) await page.waitForTimeout(100);
     if ((await dataRows()) !== 11) fail('the template\'s data cell never showed its 11 rows');
     await page.evaluate(() => { window.__longTasks.length = 0; });
+    const trace = await startTaskTrace(page);
 
     // 0. A paste past the limit is refused with a pointer to the file import; the text stays.
     const over = ['t,T', ...Array.from({ length: 20_001 }, (_, i) => `${i},${i}`)].join('\n');
@@ -129,6 +136,7 @@ async function main() {
     for (let i = 0; i < 600 && (await fitRows()) === null; i++) await page.waitForTimeout(100);
     if ((await fitRows()) === null) fail('the fit never answered on the table');
     if (OUT) await page.screenshot({ path: join(OUT, 'big-table.png') });
+    if (OUT) await page.locator('fit-cell').screenshot({ path: join(OUT, 'big-fit.png') });
 
     // 3. Scroll the table to row 7,000 and check that it is drawn, with its value.
     const at = await page.evaluate(() => {
@@ -153,15 +161,41 @@ async function main() {
 
     const longest = await page.evaluate(() => Math.max(0, ...window.__longTasks));
     const all = await page.evaluate(() => window.__longTasks.slice());
-    console.log(`longest main-thread task over the whole run: ${longest} ms (goal ${GOAL_MS} ms on a quiet machine; load per core ${SLOWDOWN.toFixed(1)}, threshold ${LONGEST_MS} ms); tasks ≥ 50 ms: ${all.join(', ') || 'none'}`);
-    console.log(longest < GOAL_MS * SLOWDOWN ? 'goal met' : `goal NOT met: ${longest} ms against ${Math.round(GOAL_MS * SLOWDOWN)} ms at this load`);
+    const cpu = await trace.stop();
+    console.log(`longest main-thread task over the whole run: ${longest} ms wall (threshold ${LONGEST_MS} ms: goal ${GOAL_MS} ms, load per core ${LOAD_PER_CORE.toFixed(1)}); tasks ≥ 50 ms: ${all.join(', ') || 'none'}`);
+    console.log(`longest main-thread task in CPU time: ${cpu.longest.toFixed(0)} ms (goal ${GOAL_MS} ms); tasks ≥ 30 ms of CPU: ${cpu.over.map((t) => `${t.cpu.toFixed(0)} (${t.wall.toFixed(0)} wall)`).join(', ') || 'none'}`);
     if (errors.length) fail(`the page threw: ${errors.join('; ')}`);
-    if (longest >= LONGEST_MS) fail(`the longest main-thread task took ${longest} ms (threshold ${LONGEST_MS} ms, goal ${GOAL_MS} ms)`);
+    if (cpu.tasks === 0) fail('the trace holds no task of the page\'s main thread');
+    if (cpu.longest >= GOAL_MS) fail(`the longest main-thread task took ${cpu.longest.toFixed(0)} ms of CPU time (goal ${GOAL_MS} ms)`);
+    if (longest >= LONGEST_MS) fail(`the longest main-thread task took ${longest} ms (threshold ${LONGEST_MS} ms, goal ${GOAL_MS} ms at load per core ${LOAD_PER_CORE.toFixed(1)})`);
   } finally {
     await context?.close();
     child.kill();
     rmSync(profile, { recursive: true, force: true });
   }
+}
+
+/**
+ * Starts a Chromium trace of the page's tasks ('toplevel': each task with its wall and thread
+ * CPU time). `stop()` resolves with the longest CPU time of a task of the renderer's main
+ * thread, the number of its tasks, and those of 30 ms of CPU or more.
+ */
+async function startTaskTrace(page) {
+  const cdp = await page.context().newCDPSession(page);
+  const events = [];
+  cdp.on('Tracing.dataCollected', (e) => { for (const x of e.value) if (x.ph === 'M' || x.name === 'ThreadControllerImpl::RunTask') events.push(x); });
+  await cdp.send('Tracing.start', { transferMode: 'ReportEvents', traceConfig: { includedCategories: ['toplevel'] } });
+  return {
+    async stop() {
+      const done = new Promise((resolve) => cdp.once('Tracing.tracingComplete', resolve));
+      await cdp.send('Tracing.end');
+      await done;
+      const main = new Set(events.filter((e) => e.ph === 'M' && e.name === 'thread_name' && e.args?.name === 'CrRendererMain').map((e) => `${e.pid}:${e.tid}`));
+      const tasks = events.filter((e) => e.ph === 'X' && main.has(`${e.pid}:${e.tid}`) && typeof e.tdur === 'number');
+      const cpu = tasks.map((t) => ({ cpu: t.tdur / 1000, wall: t.dur / 1000 }));
+      return { tasks: tasks.length, longest: Math.max(0, ...cpu.map((t) => t.cpu)), over: cpu.filter((t) => t.cpu >= 30) };
+    },
+  };
 }
 
 await runScript(NAME, main);

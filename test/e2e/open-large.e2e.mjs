@@ -2,8 +2,13 @@
 // app. Every cell shows its result; the page renders a long study in chunks and makes the
 // expression editors of fields far from the view only when they are needed, so opening it
 // makes few editors; a field still waiting for its editor is a labelled text box that turns
-// into the editor when focused, and typing in it edits the study. The longest main-thread
-// task is printed (a figure, not a check: `npm run bench -- "200-cell"` holds the goal).
+// into the editor when focused, and typing in it edits the study. The goal, no main-thread
+// task over 100 ms, is checked on the tasks' thread (CPU) time from a trace: on this shared
+// machine a task's wall-clock time mostly measures the other work on the cores (2 cores, load
+// average often 10: the same opening gave longest tasks of 400 to 900 ms wall clock and 90 to
+// 105 ms CPU). CPU time too grows under load (shared caches, the other hyperthread), so the
+// check allows 1.5 times the goal: it fails past 150 ms. `npm run bench -- "200-cell"` gives
+// both figures against the goal itself.
 import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -15,6 +20,9 @@ import { largeStudy, measureOpen, WATCH_LONG_TASKS } from '../../bench/large-stu
 const NAME = 'a 200-cell study';
 /** Editors made while the study opens, at most: the 60 made before any field waits, and those near the first screen. */
 const MOST_EDITORS = 100;
+/** The goal for the longest main-thread task (ms), and the allowance for a loaded machine. */
+const GOAL_MS = 100;
+const LOAD_MARGIN = 1.5;
 
 /** Counts, through every shadow root: CodeMirror editors, and fields still waiting for theirs. */
 const EDITORS = `(() => {
@@ -39,7 +47,10 @@ async function main() {
     const study = largeStudy();
     const file = join(profile, 'large.ratebook.json');
     writeFileSync(file, JSON.stringify(study));
-    const opened = await measureOpen(page, url, file, study.cells.length);
+    const opened = await measureOpen(page, url, file, study.cells.length, 60_000, await context.newCDPSession(page));
+    const longestCpu = Math.max(0, ...opened.cpu);
+    if (!(opened.cpu.length > 0)) fail('the trace holds no main-thread task');
+    if (longestCpu > GOAL_MS * LOAD_MARGIN) fail(`opening took a main-thread task of ${Math.round(longestCpu)} ms of CPU time (goal ${GOAL_MS} ms, allowed ${GOAL_MS * LOAD_MARGIN} ms under load)`);
     if (opened.cells !== 200) fail(`the page shows ${opened.cells} cells of 200`);
     const counts = await page.evaluate(EDITORS);
     if (counts.editors > MOST_EDITORS) fail(`opening made ${counts.editors} editors (at most ${MOST_EDITORS} expected)`);
@@ -60,7 +71,7 @@ async function main() {
     if (shown !== 'k98 * 1.001 * 2') fail(`after typing, the field shows "${shown}"`);
     if (errors.length) fail(`the page threw: ${errors.join(' | ')}`);
     const longest = Math.max(0, ...opened.tasks);
-    console.log(`ok: 200 cells shown in ${(opened.ready / 1000).toFixed(1)} s, ${counts.editors} editors made and ${counts.waiting} waiting; the longest main-thread task ${Math.round(longest)} ms (${opened.tasks.filter((t) => t > 100).length} over 100 ms)`);
+    console.log(`ok: 200 cells shown in ${(opened.ready / 1000).toFixed(1)} s, ${counts.editors} editors made and ${counts.waiting} waiting; the longest main-thread task ${Math.round(longestCpu)} ms of CPU time (goal ${GOAL_MS} ms), ${Math.round(longest)} ms by the wall clock (${opened.tasks.filter((t) => t > 100).length} tasks over 100 ms by the wall clock)`);
   } finally {
     await context?.close().catch(() => {});
     child.kill();

@@ -163,7 +163,29 @@ async function tabsHearSaves() {
   await b.waitForFunction(() => !document.querySelector('ratebook-app').shadowRoot.querySelector('.elsewhere'), undefined, { timeout: STEP });
   await b.locator('textarea.title').waitFor({ timeout: STEP });
   if ((await titleOf(b)) !== 'Saved in tab A') fail(`tab B chose the newer version but shows "${await titleOf(b)}"`);
-  noErrors(a, 'tab A');
+  // The library tab moves the study to the trash while tab B types: B says so, keeps its edit,
+  // saves none of it into the trash, and restores the study on request.
+  await a.close();
+  await lib.locator('study-library button[aria-label="Delete Saved in tab A"]').click({ timeout: STEP });
+  await waitForText(b, '.gone', 'moved to the trash in another tab', 'tab B, after the library tab trashed the study');
+  await b.locator('textarea.title').fill('Typed in tab B after the trash');
+  await waitForText(b, 'span.status', 'could not save', 'tab B\'s save refused while the study is in the trash');
+  await lib.reload();
+  await waitForText(lib, 'study-library li', 'Saved in tab A', 'the trash in the library tab');
+  if (await lib.locator('study-library li', { hasText: 'Typed in tab B' }).count()) fail('tab B\'s edit was saved into the trash');
+  await b.locator('.gone button[data-choice="restore"]').click({ timeout: STEP });
+  await waitForText(b, 'span.status', 'saved', 'tab B after restoring');
+  await waitForText(lib, 'study-library li', 'Typed in tab B after the trash', 'the library tab, after tab B restored and saved');
+  // The library tab moves it to the trash again and empties the trash: B offers only a new study.
+  await lib.locator('study-library button[aria-label="Delete Typed in tab B after the trash"]').click({ timeout: STEP });
+  lib.once('dialog', (d) => void d.accept());
+  await lib.locator('study-library button.purge').click({ timeout: STEP });
+  await waitForText(b, '.gone', 'deleted for good in another tab', 'tab B, after the trash was emptied');
+  if (await b.locator('.gone button[data-choice="restore"]').count()) fail('tab B offers to restore a study no longer in the trash');
+  await b.locator('.gone button[data-choice="copy"]').click({ timeout: STEP });
+  await waitForText(b, '.notice', 'kept as a new study', 'tab B after keeping its version');
+  await waitForText(lib, 'study-library li', 'Typed in tab B after the trash (copy)', 'the library tab, after tab B kept its version');
+  noErrors(b, 'tab B');
   await context.close();
 }
 
