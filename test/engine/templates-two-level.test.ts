@@ -5,8 +5,8 @@
 //   before the dose taken from one-compartment superposition (derived below);
 // - the Bayesian (MAP) fit against the study format's MAP objective written out here from the
 //   closed-form concentrations;
-// - the solve cells against the closed-form steady state of an intermittent infusion
-//   (one-compartment superposition, standard pharmacokinetics textbooks, from memory).
+// - the solve cells against one-compartment superposition over the 7-day run and at steady state
+//   (standard pharmacokinetics textbooks, from memory).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
@@ -96,33 +96,54 @@ describe('the Bayesian (MAP) fit', () => {
   });
 });
 
-describe('the new regimen at steady state, with the Bayesian CL and V', () => {
+describe('the new regimen, with the Bayesian CL and V, against superposition and its steady state', () => {
   const cl = est('bayes').CL_i.value.value, v = est('bayes').V_i.value.value, k = cl / v;
+  const SPAN = 7 * 24; // the template's new regimen: doses every tau for 7 days
   // steady state of an intermittent infusion (one-compartment superposition):
-  // Cmin,ss = (k0 / (k V)) (1 - e^(-k t_inf)) e^(-k (tau - t_inf)) / (1 - e^(-k tau)); the 14-day
-  // run is within e^(-k 336 h), about 1e-11, of it
+  // Cmin,ss = (k0 / (k V)) (1 - e^(-k t_inf)) e^(-k (tau - t_inf)) / (1 - e^(-k tau))
   const troughSS = (dose: number, tau: number) => dose / T_INF / (k * v) * (1 - Math.exp(-k * T_INF)) * Math.exp(-k * (tau - T_INF)) / (1 - Math.exp(-k * tau));
+  // after n doses: one dose leaves A one interval after it started, and the trough after n doses is
+  // A (1 + r + ... + r^(n-1)) = Cmin,ss (1 - r^n), r = e^(-k tau)
+  const troughN = (dose: number, tau: number) => troughSS(dose, tau) * (1 - Math.exp(-k * SPAN));
   // area over 24 h at steady state: AUC24 = 24 h dose / (tau CL)
-  const auc24 = (dose: number, tau: number) => 24 * dose / (tau * cl);
+  const auc24SS = (dose: number, tau: number) => 24 * dose / (tau * cl);
+  // after n doses: the area under all doses in interval m is the area of one dose over its first
+  // m tau, dose/CL - C1(m tau)/k (C1 one dose's level, past its infusion); summed over the last 24 h
+  const c1 = (dose: number, t: number) => dose / T_INF / (k * v) * (1 - Math.exp(-k * T_INF)) * Math.exp(-k * (t - T_INF));
+  const auc24N = (dose: number, tau: number) => {
+    const n = SPAN / tau;
+    let a = 0;
+    for (let m = n - 24 / tau + 1; m <= n; m++) a += dose / cl - c1(dose, m * tau) / k;
+    return a;
+  };
+
+  it('seven days are steady state to within 1e-5 of the trough and 1e-4 of the area (closed forms)', () => {
+    for (const tau of [6, 8, 12, 24]) {
+      near(troughN(1, tau), troughSS(1, tau), 1e-5, `trough at ${tau} h`);
+      near(auc24N(1, tau), auc24SS(1, tau), 1e-4, `area at ${tau} h`);
+    }
+  });
 
   it('the dose for the target trough: linear in the dose, rounded to a 250 mg vial', () => {
     const s = solve('dose-trough');
-    near(s.solution!.value, TARGET_TROUGH / troughSS(1, TAU), 1e-5, 'dose (mg)');
+    near(s.solution!.value, TARGET_TROUGH / troughN(1, TAU), 1e-5, 'dose (mg)');
+    near(s.solution!.value, TARGET_TROUGH / troughSS(1, TAU), 1e-5, 'dose (mg), steady state');
     assert.equal(s.rounded!.value, 750); // hand-worked: 801 mg is nearest 750 mg among multiples of 250 mg
-    near(s.achievedRounded!.value, troughSS(750, TAU), 1e-5, 'trough at 750 mg');
+    near(s.achievedRounded!.value, troughN(750, TAU), 1e-5, 'trough at 750 mg');
   });
 
   it('the interval for the target trough: the trough at each choice, and the choice nearest the target', () => {
     const s = solve('interval-trough');
-    for (const c of s.choices!) near(c.achieved!.value, troughSS(DOSE, c.value.value), 1e-5, `trough at ${c.value.value} h`);
+    for (const c of s.choices!) near(c.achieved!.value, troughN(DOSE, c.value.value), 1e-5, `trough at ${c.value.value} h`);
     const nearest = [6, 8, 12, 24].reduce((a, b) => (Math.abs(troughSS(DOSE, b) - TARGET_TROUGH) < Math.abs(troughSS(DOSE, a) - TARGET_TROUGH) ? b : a));
     assert.equal(s.solution!.value, nearest);
   });
 
-  it('the dose for the target area over 24 hours: AUC24 = 24 h dose / (tau CL)', () => {
+  it('the dose for the target area over 24 hours: AUC24 = 24 h dose / (tau CL) at steady state', () => {
     const s = solve('dose-auc');
-    near(s.solution!.value, TARGET_AUC24 * TAU * cl / 24, 1e-5, 'dose (mg)');
-    near(s.achievedRounded!.value, auc24(s.rounded!.value, TAU), 1e-5, 'area at the rounded dose');
-    near((byId('steady').results as Record<string, Q>).auc24_ss.value, auc24(DOSE, TAU), 1e-5, 'the run\'s area at the present dose');
+    near(s.solution!.value, TARGET_AUC24 / auc24N(1, TAU), 1e-5, 'dose (mg)');
+    near(s.solution!.value, TARGET_AUC24 * TAU * cl / 24, 1e-4, 'dose (mg), steady state');
+    near(s.achievedRounded!.value, auc24N(s.rounded!.value, TAU), 1e-5, 'area at the rounded dose');
+    near((byId('steady').results as Record<string, Q>).auc24_ss.value, auc24N(DOSE, TAU), 1e-5, 'the run\'s area at the present dose');
   });
 });
