@@ -233,5 +233,5 @@ function solve(cell: Of<'solve'>, r: ReportOf<'solve'>): TemplateResult {
     ${r.choices ? html`<table class="solved"><thead><tr><th>Choice of ${v.parameter}</th><th>${cell.target.value}</th></tr></thead>
       <tbody>${r.choices.map((x) => html`<tr><td class="num ${x.chosen ? 'answer' : ''}">${showQ(x.value)}${x.chosen ? ' (nearest)' : ''}</td><td class="num">${x.achieved ? showQ(x.achieved) : x.reason ?? ''}</td></tr>`)}</tbody></table>` : nothing}
     ${r.solutions && r.solutions.length > 1 ? html`<p class="check">${r.solutions.length} values meet the target: ${r.solutions.map((q) => showQ(q)).join(', ')}; ${v.guess ? 'the one nearest the guess' : 'the smallest'} is used.</p>` : nothing}
-    <p class="check">${r.message ? `${r.message[0].toUpperCase()}${r.message.slice(1)}` : ''}; ${r.evaluations} runs.</p>`;
+    <p class="check">${r.message ? html`In short: ${r.message}; ` : nothing}${r.evaluations} runs.</p>`;
 }

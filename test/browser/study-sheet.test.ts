@@ -11,6 +11,7 @@ import fold from '../../examples/harvested-stock-fold.ratebook.json';
 import plasma from '../../examples/plasma-levels.ratebook.json';
 import twoStage from '../../examples/two-stage-cooling-check.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
+import coolingDesign from '../../examples/cooling-design.ratebook.json';
 
 /**
  * Invented laws with closed-form phase lines: (S - 500 kg)^2 is semi-stable at 500 kg, drawing
@@ -58,6 +59,14 @@ describe('study-sheet', () => {
     expect(header).to.contain('Revision 7');
     expect(header).to.match(/Saved .*2026/);
     expect(root.querySelector('.caution')!.textContent).to.contain('food code');
+  });
+
+  it('writes a solve cell\'s answer with the varied name as it is spelled (k is not K)', async () => {
+    const root = await sheetOf(coolingDesign);
+    const solve = reportOf(coolingDesign).cells.find((c) => c.id === 'k-needed')!;
+    const said = [...root.querySelectorAll('p.check')].map((p) => p.textContent!.replace(/\s+/g, ' ').trim());
+    expect(said).to.include(`In short: ${solve.message}; ${solve.evaluations} runs.`);
+    expect(String(solve.message)).to.match(/^k = /);
   });
 
   it('typesets the rate law as MathML and shows each found result as the engine computed it', async () => {
