@@ -14,6 +14,7 @@ import { dataNodes } from './data.ts';
 import { ncaNodes } from './nca.ts';
 import { fitNodes } from './fit.ts';
 import { solveNodes } from './solve.ts';
+import { uncertaintyNodes } from './uncertainty.ts';
 
 /** A builder of kind K: its nodes output that kind's report fields (checked here, at compile time). */
 export type Builder<K extends CellKind> = (cell: Extract<Cell, { kind: K }>, at: string) => Array<GraphNode<NodeOutput<K>>>;
@@ -28,6 +29,7 @@ const BUILDERS: { readonly [K in CellKind]: Builder<K> } = {
   fit: fitNodes,
   nca: ncaNodes,
   solve: solveNodes,
+  uncertainty: uncertaintyNodes,
 };
 
 /**

@@ -295,6 +295,7 @@ export class StudySession {
       upstream: (name) => this.upstream(name),
       studyUnits: this.units,
       whatIf: (wanted, replaced) => this.whatIf(wanted, replaced),
+      ...(node.readsUpstream ? { peek: (name: string) => bound(this.slots.get(name)) } : {}),
     };
     try {
       const done = metered(this.limits.cellWork ?? DEFAULT_CELL_WORK, this.deadline, () => node.run(ctx));

@@ -10,6 +10,7 @@ import {
   METHODS, PLOT_SCALES, FIND_KINDS, WEIGHTINGS, ROUTES, AUC_RULES, NCA_RESULTS,
 } from './types.ts';
 import { migrate } from './migrate.ts';
+import { checkSpread, checkUncertainty } from './validate-uncertainty.ts';
 import { shortJson, textLimitProblem, valueLimitProblem, withoutByteOrderMark } from './limits.ts';
 
 export interface Problem {
@@ -121,6 +122,7 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
           p.optionalText(item, 'note', path);
           p.optionalText(item, 'unit', path);
           p.optionalFlag(item, 'glance', path);
+          if (item.spread !== undefined) checkSpread(item.spread, p, path);
         });
       }
       break;
@@ -212,6 +214,9 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
       break;
     case 'solve':
       checkSolve(c, p);
+      break;
+    case 'uncertainty':
+      checkUncertainty(c, p);
       break;
     case 'note':
       p.text(c, 'text');
@@ -360,7 +365,7 @@ function checkData(c: Record<string, unknown>, p: Checker): void {
 }
 
 /** Collects field problems of one cell, with full paths. */
-class Checker {
+export class Checker {
   readonly problems: Problem[] = [];
   constructor(readonly at: string) {}
 

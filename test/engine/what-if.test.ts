@@ -66,7 +66,7 @@ function edited(doc: unknown, edits: Record<string, string>): { session: StudySe
 }
 
 function results(s: StudySession, cell: string): Record<string, FindResult> {
-  return s.report().cells.find((c) => c.id === cell)!.results!;
+  return s.report().cells.find((c) => c.id === cell)!.results as Record<string, FindResult>;
 }
 
 describe('what-if: the same answers as a real edit', () => {
