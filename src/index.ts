@@ -4,7 +4,7 @@ export type { Replacement, WhatIf, WhatIfAnswer, WhatIfPrepared, WhatIfResult } 
 export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts';
 export { solutionEdit, solutionText, type SolutionEdit } from './study/use-solution.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
-export type { Study, Cell, CellKind, PlotScale, SolveCell, FitPrior, FitErrorModel } from './study/types.ts';
+export type { Study, Cell, CellKind, PlotScale, SolveCell, FitPrior, FitErrorModel, ParameterItem, ParameterSpread } from './study/types.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT, PLOT_SCALES } from './study/types.ts';
 export { FIND_KINDS, findKindOf, needsLevel, switchFind, withFindState, withFindUnit, withFindField, freshFindName, type FindKind, type FindOption, type FindQuery } from './study/find-rules.ts';
 export { EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, eventTargets, withTargetAt, withoutTargetAt, switchAction, withEventField, type EventAction, type ScheduleEvent } from './study/event-rules.ts';
@@ -12,6 +12,8 @@ export type {
   Report, CellReport, ReportOf, ReportBase, ReportQuantity, CellFields, ParameterValue, PhaseEquilibrium, PhaseInterval,
   PhasePlotData, SweepReport, SimulationPlot, FindResult, NotReached, ClosedFormReport, EstimateReport, FitResidual, CsvReadReport,
 } from './engine/report.ts';
+export type { Histogram, UncertaintyResult, UncertainInput, SpreadReport } from './engine/report.ts';
+export { MAX_SAMPLES } from './study/types.ts';
 export { isKind } from './engine/report.ts';
 export type { GlanceEntry, GlanceKind } from './output/glance.ts';
 export type { CellError, ProblemKind, MessagePart } from './engine/node.ts';
