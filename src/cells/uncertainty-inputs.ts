@@ -68,7 +68,7 @@ export interface Working {
   toValues(w: ArrayLike<number>, out: Float64Array): void;
 }
 
-interface Group { readonly joint: JointNormal; readonly at: number[]; readonly index: number[]; readonly l: Float64Array }
+interface Group { readonly joint: JointNormal; readonly at: number[]; readonly index: number[]; readonly l: Float64Array; readonly center: Float64Array }
 
 /** The fit groups of the inputs, with the Cholesky factor of each group's covariance; a message when one is not a covariance. */
 function groups(inputs: readonly Input[]): Group[] | string {
@@ -84,7 +84,7 @@ function groups(inputs: readonly Input[]): Group[] | string {
   for (const [joint, g] of byCell) {
     const l = cholesky(subCovariance(joint, g.index), g.index.length);
     if (!l) return `the covariance of fit "${joint.cell}" is not positive semi-definite, so its estimates cannot be drawn jointly`;
-    out.push({ joint, ...g, l });
+    out.push({ joint, ...g, l, center: Float64Array.from(g.index, (k) => joint.center[k]) });
   }
   return out;
 }
@@ -100,17 +100,16 @@ export function drawerOf(inputs: readonly Input[]): Drawer | string {
   if (typeof gs === 'string') return gs;
   const z = new Float64Array(inputs.length), w = new Float64Array(inputs.length);
   return (rng, out) => {
-    inputs.forEach((x, i) => {
-      const s = x.spread;
+    for (let i = 0; i < inputs.length; i++) {
+      const x = inputs[i], s = x.spread;
       if (s.kind === 'normal') out[i] = x.q.si + s.sd * rng.normal();
       else if (s.kind === 'lognormal') out[i] = x.q.si * Math.exp(s.sigma * rng.normal());
       else if (s.kind === 'uniform') out[i] = s.from + (s.to - s.from) * rng.uniform();
-    });
+    }
     for (const g of gs) {
       const m = g.at.length;
       for (let k = 0; k < m; k++) z[k] = rng.normal();
-      const center = Float64Array.from(g.index, (k) => g.joint.center[k]);
-      correlated(center, g.l, z.subarray(0, m), w.subarray(0, m));
+      correlated(g.center, g.l, z.subarray(0, m), w.subarray(0, m));
       for (let k = 0; k < m; k++) out[g.at[k]] = g.joint.logScale[g.index[k]] ? Math.exp(w[k]) : w[k];
     }
   };

@@ -18,6 +18,8 @@ import { RESULT_ENDINGS, monteCarloOutcome, linearOutcome } from './uncertainty-
 /** Samples drawn when `samples` is not given, and the seed when `seed` is not. */
 export const DEFAULT_SAMPLES = 2000;
 export const DEFAULT_SEED = 1;
+/** Samples per cell work budget (engine/budget.ts): about 3,000 units per sample, more than the 6-dose schedule with four questions needs (about 1,900). */
+export const SAMPLES_PER_BUDGET = 1000;
 
 export function uncertaintyNodes(cell: UncertaintyCell, at: string): Array<GraphNode<NodeOutput<'uncertainty'>>> {
   const of = Array.isArray(cell.of) ? cell.of.filter((n): n is string => typeof n === 'string') : [];
@@ -30,6 +32,8 @@ export function uncertaintyNodes(cell: UncertaintyCell, at: string): Array<Graph
     uses,
     allowsTime: false,
     readsUpstream: true,
+    // each sample runs part of the study again: one cell budget per 1,000 samples
+    ...(cell.method !== 'linear' && Number.isInteger(cell.samples) ? { workScale: Math.max(1, (cell.samples as number) / SAMPLES_PER_BUDGET) } : { workScale: DEFAULT_SAMPLES / SAMPLES_PER_BUDGET }),
     signature: JSON.stringify(cell),
     problems: [],
     run: (ctx) => guarded(() => runUncertainty(cell, at, of, ctx)),

@@ -272,6 +272,11 @@ export interface GraphNode<O extends object = object> {
    * name upstream of the names it reads changes.
    */
   readonly readsUpstream?: boolean;
+  /**
+   * The node may use this many times a cell's work budget (default 1): an uncertainty cell
+   * asks for one budget per 1,000 samples, as each sample is a run of part of the study.
+   */
+  readonly workScale?: number;
   /** Said after the message of each node on a cycle through this node: why such a cycle arises and the way out. */
   readonly cycleHint?: string;
   /** Fails too with the problems the document check found in its cell (which go to a cell's first node). */
