@@ -125,7 +125,7 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
     const estimate = view.slot(name);
     const drawn = estimate?.kind === 'value' && estimate.spread?.kind === 'joint';
     if (kind !== 'parameters' && node.role !== 'state' && !drawn) {
-      return refuse(`"${name}" is computed by ${kind ?? 'a'} cell "${node.cell}"; only parameters, the initial values of states and a fit's estimates can be replaced`, name);
+      return refuse(`"${name}" is computed by ${kind ?? 'a'} cell "${node.cell}"; only parameters and the initial values of states can be replaced`, name);
     }
     const slot = view.slot(name);
     if (!slot || slot.kind === 'unavailable') return refuse(`"${name}" has no value now${slot ? `: ${slot.reason}` : ''}; it can be replaced once it has one`, name);
