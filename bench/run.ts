@@ -21,6 +21,7 @@ import { browserBenchmarks } from './browser.ts';
 import { openLargeStudyBenchmarks } from './browser-open.ts';
 import { whatIfBenchmarks } from './what-if.ts';
 import { uncertaintyBenchmarks } from './uncertainty.ts';
+import { scenarioBenchmarks } from './scenarios.ts';
 import { closureBenchmarks } from './closures.ts';
 import { solveBenchmarks } from './solve.ts';
 import { fitBenchmarks } from './fit.ts';
@@ -365,6 +366,12 @@ function solveRows(): Row[] {
   }));
 }
 
+function scenarioRows(): Row[] {
+  return scenarioBenchmarks().map((r) => ({
+    measure: `${r.name} (${r.evaluations} what-if runs)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
+  }));
+}
+
 function fitRows(): Row[] {
   return [
     ...fitBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
@@ -395,6 +402,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Rate law runs: generated code against closures', run: closureRows },
   { title: 'Solving for a dose', run: solveRows },
   { title: 'How sure: Monte Carlo and linear uncertainty', run: uncertaintyRows },
+  { title: 'Sensitivity and scenarios side by side', run: scenarioRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'Studies of many cells: opening a chain of parameters', run: scalingBenchmarks },
   { title: 'Large CSV logs read into a table', run: csvBenchmarks },

@@ -5,6 +5,8 @@ export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts
 export { solutionEdit, solutionText, type SolutionEdit } from './study/use-solution.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind, PlotScale, SolveCell, FitPrior, FitErrorModel, ParameterItem, ParameterSpread } from './study/types.ts';
+export type { SensitivityCell, CompareCell, CompareScenario } from './study/types.ts';
+export type { SensitivityEntry, SensitivityFields, CompareFields, ComparePlot, CompareScenarioReport } from './engine/report-scenarios.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT, PLOT_SCALES } from './study/types.ts';
 export { FIND_KINDS, findKindOf, needsLevel, switchFind, withFindState, withFindUnit, withFindField, freshFindName, type FindKind, type FindOption, type FindQuery } from './study/find-rules.ts';
 export { EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, eventTargets, withTargetAt, withoutTargetAt, switchAction, withEventField, type EventAction, type ScheduleEvent } from './study/event-rules.ts';

@@ -112,7 +112,9 @@ function collectNames(report: Report, doc?: { readonly cells: readonly Cell[] })
   const out: StudyName[] = [];
   for (const c of report?.cells ?? []) {
     for (const [name, q] of Object.entries(c.values ?? {})) out.push({ name, detail: showValue(q) });
-    for (const [name, q] of Object.entries(c.results ?? {})) if (!('notReached' in q)) out.push({ name, detail: showValue(q) });
+    if (c.kind === 'simulate') for (const [name, q] of Object.entries(c.results ?? {})) if (!('notReached' in q)) out.push({ name, detail: showValue(q) });
+    // a comparison's answers, one per question and scenario (src/cells/compare.ts)
+    if (c.kind === 'compare') for (const s of c.scenarios ?? []) for (const [q, a] of Object.entries(s.results)) if (!('notReached' in a)) out.push({ name: `${q}_${s.name}`, detail: `${showQ(a)} (${q} under ${s.name})` });
     for (const [name, e] of Object.entries(c.estimates ?? {})) {
       out.push({ name, detail: `${showQ(e.value)} (fitted)` });
       // its standard error and 95% bounds, names too (src/cells/fit-uncertainty.ts)

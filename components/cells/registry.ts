@@ -14,6 +14,8 @@ import './nca-cell.ts';
 import './fit-cell.ts';
 import './solve-cell.ts';
 import './uncertainty-cell.ts';
+import './sensitivity-cell.ts';
+import './compare-cell.ts';
 
 export interface KindInfo {
   /** Shown on the "add" buttons and the cell's tag. */
@@ -102,7 +104,23 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
     },
     render: (c, r, s, d) => html`<uncertainty-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></uncertainty-cell>`,
   },
+  sensitivity: {
+    label: 'What matters most',
+    // the first run's answers against the study's parameters (at most five), as a start
+    blank: (study) => {
+      const run = study.cells.find((c) => c.kind === 'simulate' && (c.find ?? []).length) as Extract<Cell, { kind: 'simulate' }> | undefined;
+      const items = study.cells.flatMap((c) => (c.kind === 'parameters' ? c.items.map((i) => i.name) : []));
+      return { of: run?.find?.slice(0, 1).map((f) => f.name) ?? [''], parameters: items.length ? items.slice(0, 5) : [''] };
+    },
+    render: (c, r, s, d) => html`<sensitivity-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></sensitivity-cell>`,
+  },
+  compare: {
+    label: 'Scenarios',
+    // the study's first run, as it stands: scenarios are added one by one
+    blank: (study) => ({ run: study.cells.find((c) => c.kind === 'simulate')?.id ?? '', scenarios: [{ name: 'as_is', set: {} }] }),
+    render: (c, r, s, d) => html`<compare-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></compare-cell>`,
+  },
 };
 
 /** The kinds offered on the "add a cell" bar, in order. */
-export const ADDABLE: ReadonlyArray<Cell['kind']> = ['parameters', 'rate', 'simulate', 'phase', 'data', 'fit', 'nca', 'solve', 'uncertainty', 'note'];
+export const ADDABLE: ReadonlyArray<Cell['kind']> = ['parameters', 'rate', 'simulate', 'phase', 'data', 'fit', 'nca', 'solve', 'sensitivity', 'compare', 'uncertainty', 'note'];

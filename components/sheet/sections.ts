@@ -12,6 +12,7 @@ import { STABLE, UNSTABLE } from '../plots/palette.ts';
 import { leftOffLog } from '../plots/time-plot-parts.ts';
 import { math } from './math.ts';
 import { fitPriorPart } from './fit-prior-sheet.ts';
+import { sensitivitySheet, compareSheet } from './scenario-sheet.ts';
 
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
 
@@ -71,6 +72,8 @@ function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[]): TemplateResu
   if (cell.kind === 'fit' && isKind(r, 'fit')) return fit(cell, r, cells);
   if (cell.kind === 'nca' && isKind(r, 'nca')) return nca(cell, r);
   if (cell.kind === 'solve' && isKind(r, 'solve')) return solve(cell, r);
+  if (cell.kind === 'sensitivity' && isKind(r, 'sensitivity')) return sensitivitySheet(cell, r);
+  if (cell.kind === 'compare' && isKind(r, 'compare')) return compareSheet(cell, r, (plot, summary) => timeChart(plot, summary));
   return html`<p class="muted">Not computed.</p>`;
 }
 

@@ -15,9 +15,15 @@ import { ncaNodes } from './nca.ts';
 import { fitNodes } from './fit.ts';
 import { solveNodes } from './solve.ts';
 import { uncertaintyNodes } from './uncertainty.ts';
+import { sensitivityNodes } from './sensitivity.ts';
+import { compareNodes, runQuestions } from './compare.ts';
 
-/** A builder of kind K: its nodes output that kind's report fields (checked here, at compile time). */
-export type Builder<K extends CellKind> = (cell: Extract<Cell, { kind: K }>, at: string) => Array<GraphNode<NodeOutput<K>>>;
+/**
+ * A builder of kind K: its nodes output that kind's report fields (checked here, at compile
+ * time). `cells` is the study, for a kind that reads another cell's document when it is built
+ * (a compare cell, its run's questions); what it reads must be in `buildContext`.
+ */
+export type Builder<K extends CellKind> = (cell: Extract<Cell, { kind: K }>, at: string, cells?: readonly Cell[]) => Array<GraphNode<NodeOutput<K>>>;
 
 const BUILDERS: { readonly [K in CellKind]: Builder<K> } = {
   parameters: parameterNodes,
@@ -30,6 +36,8 @@ const BUILDERS: { readonly [K in CellKind]: Builder<K> } = {
   nca: ncaNodes,
   solve: solveNodes,
   uncertainty: uncertaintyNodes,
+  sensitivity: sensitivityNodes,
+  compare: compareNodes,
 };
 
 /**
@@ -37,8 +45,16 @@ const BUILDERS: { readonly [K in CellKind]: Builder<K> } = {
  * cell that moves keeps its nodes and results; the session writes `@` as `cells[i]` when it
  * reports. Never throws on malformed fields.
  */
-export function buildCellNodes(cell: Cell): GraphNode[] {
-  return (BUILDERS[cell.kind] as Builder<CellKind>)(cell, CELL_PATH);
+export function buildCellNodes(cell: Cell, cells: readonly Cell[] = []): GraphNode[] {
+  return (BUILDERS[cell.kind] as Builder<CellKind>)(cell, CELL_PATH, cells);
+}
+
+/**
+ * What of the other cells' documents a cell's nodes are built from (empty for most kinds):
+ * the session builds a cell again when this or the cell's own text changes. Cost: O(cells).
+ */
+export function buildContext(cell: Cell, cells: readonly Cell[]): string {
+  return cell.kind === 'compare' ? runQuestions(cell.run, cells).join(',') : '';
 }
 
 /** The placeholder for "this cell's path" in node paths. */

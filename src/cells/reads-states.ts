@@ -19,6 +19,8 @@ const RULES: Readonly<Record<CellKind, readonly RegExp[]>> = {
   solve: [/^\.vary\.parameter$/],
   uncertainty: [],
   note: [],
+  sensitivity: [/^\.parameters\[\d+\]$/],
+  compare: [/^\.scenarios\[\d+\]\.set$/],
 };
 
 /**

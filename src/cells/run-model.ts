@@ -81,7 +81,8 @@ function makeModel(cell: SimulateCell, at: string, fields: Fields, ctx: RunConte
   const studyUnits = ctx.studyUnits;
   let lastJumps: number[] = [];
   // the run's trajectory with the names replaced, or a message
-  const trajectory = (replaced: ReadonlyMap<string, number>): Trajectory | string => {
+  const ownMemo: CoreMemo = {};
+  const trajectory = (replaced: ReadonlyMap<string, number>, own = false): Trajectory | string => {
     const lawsNow = new Map<string, Binding | undefined>();
     for (const [name, b] of snapshot) if (b?.kind === 'law') lawsNow.set(name, withReplaced(b, replaced));
     const binding = (name: string): Binding | undefined => {
@@ -104,7 +105,7 @@ function makeModel(cell: SimulateCell, at: string, fields: Fields, ctx: RunConte
       studyUnits,
     };
     try {
-      const core = simulateCore(tight, at, fields, proxy, memo)!;
+      const core = own ? simulateCore({ ...cell, find: [] }, at, fields, proxy, ownMemo)! : simulateCore(tight, at, fields, proxy, memo)!;
       lastJumps = core.timeline.filter((a) => a.kind === 'add').map((a) => a.time);
       return core.run.trajectory;
     } catch (err) {
@@ -127,8 +128,8 @@ function makeModel(cell: SimulateCell, at: string, fields: Fields, ctx: RunConte
       }
       return { values };
     },
-    curve(replaced, points) {
-      const tr = trajectory(replaced);
+    curve(replaced, points, own) {
+      const tr = trajectory(replaced, own);
       if (typeof tr === 'string') return { message: tr };
       const t: number[] = [];
       const values: Float64Array[] = [];

@@ -165,9 +165,10 @@ export interface RunModel {
   run(replaced: ReadonlyMap<string, number>, times: readonly number[]): { readonly values?: Float64Array[]; readonly message?: string };
   /**
    * The run with these values drawn over its whole span: about `points` times spread evenly,
-   * and both ends of every piece between actions, so each jump shows (for plots).
+   * and both ends of every piece between actions, so each jump shows (for plots). With `own`,
+   * at the run's own tolerances instead of the model's tight ones (a plot of the run itself).
    */
-  curve(replaced: ReadonlyMap<string, number>, points: number): { readonly t?: number[]; readonly values?: Float64Array[]; readonly message?: string };
+  curve(replaced: ReadonlyMap<string, number>, points: number, own?: boolean): { readonly t?: number[]; readonly values?: Float64Array[]; readonly message?: string };
   /** The times (SI) at which a state jumps (`add` events) in the last run or curve made. */
   jumps(): readonly number[];
 }

@@ -13,9 +13,11 @@ import type { CsvRowProblem } from '../csv/read.ts';
 import type { GlanceEntry } from '../output/glance.ts';
 import type { ItemTex } from '../output/sheet-tex.ts';
 import type { Side } from '../numerics/phase/approach.ts';
+import type { SensitivityFields, CompareFields } from './report-scenarios.ts';
 
 export type { ReportQuantity } from '../units/quantity.ts';
 export type { SimulationPlot } from '../simulate/plot-data.ts';
+export type * from './report-scenarios.ts';
 
 /** What every cell's report has, whatever its kind. */
 export interface ReportBase<K extends CellKind = CellKind> {
@@ -376,6 +378,8 @@ export interface CellFields {
   solve: SolveFields;
   uncertainty: UncertaintyFields;
   note: NoteFields;
+  sensitivity: SensitivityFields;
+  compare: CompareFields;
 }
 
 /**

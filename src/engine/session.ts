@@ -10,7 +10,7 @@ import type { Cell, Study } from '../study/types.ts';
 import { readStudy, checkCell, type Problem } from '../study/validate.ts';
 import { applyEdit, type Edit } from '../study/edit.ts';
 import type { Binding, CellError, GraphNode, MessagePart, Outcome, RunContext } from './node.ts';
-import { buildCellNodes, resolvePath, CELL_PATH } from '../cells/index.ts';
+import { buildCellNodes, buildContext, resolvePath, CELL_PATH } from '../cells/index.ts';
 import { buildGraph, upstreamOf, type Graph } from './graph.ts';
 import { prepareWhatIf, type Replacement, type Unavailable, type WhatIfPrepared } from './what-if.ts';
 import { unitHints, withUnitHint } from './hidden-units.ts';
@@ -155,10 +155,10 @@ export class StudySession {
     const live = new Set<string>();
     this.cells.forEach((cell) => {
       live.add(cell.id);
-      const sig = JSON.stringify(cell);
+      const sig = `${JSON.stringify(cell)}|${buildContext(cell, this.cells)}`;
       let entry = this.built.get(cell.id);
       if (!entry || entry.sig !== sig) {
-        entry = { sig, nodes: this.withShapeProblems(cell, buildCellNodes(cell)) };
+        entry = { sig, nodes: this.withShapeProblems(cell, buildCellNodes(cell, this.cells)) };
         this.built.set(cell.id, entry);
         rebuilt.add(cell.id);
       }

@@ -12,6 +12,7 @@ export const KIND_LABELS: Readonly<Record<CellKind, string>> = {
   parameters: 'Parameters', rate: 'Rate law', phase: 'Where it settles', simulate: 'Run',
   data: 'Measurements', fit: 'Fit', nca: 'Profile summary', solve: 'Solve for', note: 'Note',
   uncertainty: 'How sure',
+  sensitivity: 'What matters most', compare: 'Scenarios',
 };
 
 /** The cells of a study, as much of them as the words need. */
@@ -52,6 +53,8 @@ const FIELD_WORDS: Readonly<Record<string, Readonly<Record<string, string>>>> = 
   'cell:solve': { vary: 'varied value', target: 'target' },
   'cell:uncertainty': { of: 'names carried', method: 'method', samples: 'samples', seed: 'seed' },
   spread: { distribution: 'spread', sd: 'spread SD', cv: 'spread CV', from: 'spread from', to: 'spread to' },
+  'cell:sensitivity': { of: 'results', parameters: 'parameters' },
+  'cell:compare': { run: 'run', scenarios: 'scenarios' },
   vary: { parameter: 'parameter varied', as: 'name of the result', min: 'lowest value', max: 'highest value', roundTo: 'round to', choices: 'choices', guess: 'guess' },
   target: { value: 'target', equals: 'wanted value' },
   item: { name: 'name', value: 'value', note: 'note', unit: 'shown in', glance: 'at a glance' },
@@ -61,6 +64,7 @@ const FIELD_WORDS: Readonly<Record<string, Readonly<Record<string, string>>>> = 
   sweep: { name: 'swept parameter', from: 'sweep start', to: 'sweep end', steps: 'steps' },
   tolerance: { relative: 'relative tolerance', absolute: 'absolute tolerance' },
   column: { name: 'name', unit: 'unit' },
+  scenario: { name: 'name', set: 'values set' },
 };
 
 /** What an entry of a list is called, from its place in the list and the entry itself. */
@@ -76,6 +80,9 @@ function entryWords(list: string, i: number, entry: unknown, cell: Cell): { word
     case 'rows': return { words: `row ${i + 1}`, context: 'row' };
     case 'rates': return { words: `law ${i + 1}`, context: 'value' };
     case 'choices': return { words: `choice ${i + 1}`, context: 'value' };
+    case 'of': return { words: `result ${typeof entry === 'string' && entry ? `"${entry}"` : i + 1}`, context: 'value' };
+    case 'parameters': return { words: `parameter ${typeof entry === 'string' && entry ? `"${entry}"` : i + 1}`, context: 'value' };
+    case 'scenarios': return { words: `scenario ${named ?? i + 1}`, context: 'scenario' };
     case 'range': return { words: i === 0 ? 'slider range start' : 'slider range end', context: 'value' };
     default: return { words: `${spaced(list)} ${i + 1}`, context: cell.kind };
   }
@@ -135,6 +142,8 @@ export function fieldWords(study: CellsOf, path: string, withCell = true): strin
       continue;
     }
     if (context === 'question' && FIELD_WORDS.question[key] === undefined) { parts.push('state'); node = next; context = 'value'; continue; }
+    if (context === 'scenario' && key === 'set') { parts.push(FIELD_WORDS.scenario.set); context = 'scenario-set'; node = next; continue; }
+    if (context === 'scenario-set') { parts.pop(); parts.push(`value set for ${key}`); context = 'value'; node = next; continue; }
     if (context === 'cell:fit' && key === 'observe') { parts.push('observed columns'); context = 'observe'; node = next; continue; }
     if (context === 'observe') { parts.push(`column for ${key}`); context = 'value'; node = next; continue; }
     if (context === 'cell:nca' && key === 'units') { context = 'units'; node = next; continue; }

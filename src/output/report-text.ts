@@ -2,6 +2,7 @@
 import type { CellReport, Report } from '../engine/report.ts';
 import { formatNumber } from '../units/quantity.ts';
 import { unitAfterNumber } from '../units/units.ts';
+import { scenarioRows } from './report-text-scenarios.ts';
 
 interface Q { value: number; unit: string; si: number }
 
@@ -29,8 +30,8 @@ function formatCell(cell: CellReport): string[] {
     out.push(`    ${cell.error.path}: ${cell.error.message}`);
     for (const e of (cell.errors ?? []).slice(1)) out.push(`    ${e.path}: ${e.message}`);
   }
-  const rows: Array<[string, string]> = [];
-  for (const [key, value] of Object.entries(cell)) {
+  const rows: Array<[string, string]> = scenarioRows(cell) ?? [];
+  for (const [key, value] of scenarioRows(cell) ? [] : Object.entries(cell)) {
     if (HIDDEN.has(key) || key === 'computed') continue;
     if (key === 'equilibria' && Array.isArray(value)) {
       for (const e of value as Array<Q & { stability: string; slope: Q }>) rows.push(['equilibrium', `${showQuantity(e)}  ${e.stability} (slope ${showQuantity(e.slope)})`]);

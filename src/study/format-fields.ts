@@ -38,6 +38,8 @@ export const FORMAT_FIELDS = {
   solve: ['id', 'kind', 'title', 'vary.parameter', 'vary.as', 'vary.min', 'vary.max', 'vary.roundTo', 'vary.choices', 'vary.guess', 'target.value', 'target.equals'],
   uncertainty: ['id', 'kind', 'title', 'of', 'method', 'samples', 'seed'],
   note: ['id', 'kind', 'title', 'text'],
+  sensitivity: ['id', 'kind', 'title', 'of', 'parameters'],
+  compare: ['id', 'kind', 'title', 'run', 'scenarios[].name', 'scenarios[].set'],
 } as const satisfies { [K in CellKind]: ReadonlyArray<FieldPath<CellOf<K>>> };
 
 /** The study's own fields (`cells` holds the cells above). */

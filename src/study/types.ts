@@ -6,7 +6,7 @@ import { METHODS, type Method } from '../numerics/ode/integrate.ts';
 export const FORMAT = 'ratebook-study';
 export const CURRENT_VERSION = 1;
 
-export const CELL_KINDS = ['parameters', 'rate', 'phase', 'simulate', 'data', 'fit', 'nca', 'solve', 'uncertainty', 'note'] as const;
+export const CELL_KINDS = ['parameters', 'rate', 'phase', 'simulate', 'data', 'fit', 'nca', 'solve', 'note', 'sensitivity', 'compare', 'uncertainty'] as const;
 export type CellKind = (typeof CELL_KINDS)[number];
 
 export interface CellBase {
@@ -211,7 +211,19 @@ export interface UncertaintyCell extends CellBase {
   seed?: number;
 }
 
-export type Cell = ParametersCell | RateCell | PhaseCell | SimulateCell | DataCell | FitCell | NcaCell | SolveCell | UncertaintyCell | NoteCell;
+/**
+ * A sensitivity cell: for each name in `of` and each parameter (or state, its initial value),
+ * d of / d parameter and d ln of / d ln parameter (cells/sensitivity.ts).
+ */
+export interface SensitivityCell extends CellBase { kind: 'sensitivity'; of: string[]; parameters: string[] }
+
+/** One scenario of a compare cell: its name (a part of the names it defines) and the values it replaces. */
+export interface CompareScenario { name: string; set: Record<string, string> }
+/** A compare cell: the simulate cell `run` again under each scenario (cells/compare.ts). */
+export interface CompareCell extends CellBase { kind: 'compare'; run: string; scenarios: CompareScenario[] }
+
+export type Cell = ParametersCell | RateCell | PhaseCell | SimulateCell | DataCell | FitCell | NcaCell | SolveCell | NoteCell
+  | SensitivityCell | CompareCell | UncertaintyCell;
 
 export interface Study {
   format: typeof FORMAT;

@@ -11,6 +11,7 @@ import {
 } from './types.ts';
 import { migrate } from './migrate.ts';
 import { checkSpread, checkUncertainty } from './validate-uncertainty.ts';
+import { checkSensitivity, checkCompare } from './validate-scenarios.ts';
 import { shortJson, textLimitProblem, valueLimitProblem, withoutByteOrderMark } from './limits.ts';
 
 export interface Problem {
@@ -220,6 +221,12 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
       break;
     case 'note':
       p.text(c, 'text');
+      break;
+    case 'sensitivity':
+      checkSensitivity(c, p);
+      break;
+    case 'compare':
+      checkCompare(c, p);
       break;
   }
   return p.problems;
