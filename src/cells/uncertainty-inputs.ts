@@ -116,9 +116,10 @@ export function drawerOf(inputs: readonly Input[]): Drawer | string {
 }
 
 /**
- * The working coordinates of the linear method: a normal's value, a log-normal's log, a
- * uniform's value (variance (to − from)²/12, the rectangular distribution of JCGM 100:2008
- * 4.3.7), a fit's estimates on the fit's working scale with its covariance.
+ * The working coordinates of the linear method: a normal's value, a log-normal's log relative
+ * to its median (0 at the present value), a uniform's value (variance (to − from)²/12, the
+ * rectangular distribution of JCGM 100:2008 4.3.7), a fit's estimates on the fit's working
+ * scale (log P relative to the estimate where the fit works on log P) with its covariance.
  */
 export function workingOf(inputs: readonly Input[]): Working {
   const n = inputs.length;
@@ -127,7 +128,7 @@ export function workingOf(inputs: readonly Input[]): Working {
   const log = inputs.map((x) => x.spread.kind === 'lognormal' || (x.spread.kind === 'joint' && x.spread.joint.logScale[x.spread.index]));
   inputs.forEach((x, i) => {
     const s = x.spread;
-    w0[i] = log[i] ? Math.log(x.q.si) : x.q.si;
+    w0[i] = log[i] ? 0 : x.q.si;
     if (s.kind === 'normal') cov[i * n + i] = s.sd ** 2;
     else if (s.kind === 'lognormal') cov[i * n + i] = s.sigma ** 2;
     else if (s.kind === 'uniform') cov[i * n + i] = (s.to - s.from) ** 2 / 12;
@@ -135,8 +136,8 @@ export function workingOf(inputs: readonly Input[]): Working {
       inputs.forEach((y, j) => {
         if (y.spread.kind === 'joint' && y.spread.joint === s.joint) cov[i * n + j] = s.joint.covariance[s.index * s.joint.names.length + y.spread.index];
       });
-      if (s.joint.logScale[s.index]) w0[i] = s.joint.center[s.index];
     }
   });
-  return { w0, covariance: cov, toValues: (w, out) => { for (let i = 0; i < n; i++) out[i] = log[i] ? Math.exp(w[i]) : w[i]; } };
+  const at = inputs.map((x) => x.q.si);
+  return { w0, covariance: cov, toValues: (w, out) => { for (let i = 0; i < n; i++) out[i] = log[i] ? at[i] * Math.exp(w[i]) : w[i]; } };
 }

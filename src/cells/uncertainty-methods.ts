@@ -6,7 +6,7 @@
  *   and the samples in which it had no value with the first reason.
  * - Linear (JCGM 100:2008, the law of propagation of uncertainty, 5.2): u(y)² = J Σ Jᵀ with J
  *   the derivatives of each name with respect to the inputs' working coordinates
- *   (uncertainty-inputs.ts), by central differences.
+ *   (uncertainty-inputs.ts), by the shared central differences of numerics/slopes.ts.
  * Each what-if run charges the work meter one unit besides its own work.
  */
 import type { WhatIf } from '../engine/what-if.ts';
@@ -14,6 +14,8 @@ import type { Quantity } from '../units/quantity.ts';
 import { charge } from '../numerics/work-meter.ts';
 import { seeded } from '../numerics/sampling/random.ts';
 import type { Drawer, Working } from './uncertainty-inputs.ts';
+import { slopes } from '../numerics/slopes.ts';
+import { RUN_ACCURACY } from './sensitivity.ts';
 
 /** What the samples gave for one name. */
 export interface NameSamples {
@@ -70,46 +72,31 @@ export type LinearName =
   | { readonly ok: false; readonly reason: string };
 
 /**
- * The linear method. The step for input j is 1e-3 of its standard uncertainty on the working
- * scale (central differences: error O(h²) relative to the curvature over one uncertainty).
- * Cost: 1 + 2·inputs what-if runs.
+ * The linear method. The derivatives are central differences (numerics/slopes.ts: a step per
+ * input from its standard uncertainty and the runs' accuracy, `RUN_ACCURACY`, one-sided where
+ * a side has no value). Cost: 1 + 2·inputs what-if runs (more where a side has no value).
  */
 export function linear(whatIf: WhatIf, working: Working): { names: LinearName[]; evaluations: number } {
   const n = working.w0.length;
   const x = new Float64Array(n);
-  const w = Float64Array.from(working.w0);
-  const run = () => {
+  const run = (w: ArrayLike<number>) => {
     working.toValues(w, x);
     charge(1);
     return whatIf.evaluate(x);
   };
-  const center = run();
-  const m = whatIf.wanted.length;
-  const jac = new Float64Array(m * n);
-  const bad = new Array<string | undefined>(m);
-  for (let j = 0; j < n; j++) {
-    const u = Math.sqrt(working.covariance[j * n + j]);
-    if (!(u > 0)) continue;
-    const h = 1e-3 * u;
-    w[j] = working.w0[j] + h;
-    const up = run();
-    w[j] = working.w0[j] - h;
-    const down = run();
-    w[j] = working.w0[j];
-    for (let i = 0; i < m; i++) {
-      const a = up.answers[i], b = down.answers[i];
-      if (!a.ok || !b.ok) bad[i] ??= !a.ok ? a.reason : (b as { reason: string }).reason;
-      else jac[i * n + j] = (a.si - b.si) / (2 * h);
-    }
-  }
+  const center = run(working.w0);
+  const scale = Float64Array.from({ length: n }, (_, j) => Math.sqrt(working.covariance[j * n + j]));
+  const s = slopes((w) => run(w).values, Float64Array.from(working.w0), scale, { accuracy: RUN_ACCURACY, f0: center.values });
+  const bad = new Map<number, string>();
+  for (const f of s.failed) if (f.output >= 0 && !bad.has(f.output)) bad.set(f.output, f.reason);
   const names: LinearName[] = center.answers.map((a, i) => {
     if (!a.ok) return { ok: false, reason: a.reason };
     const truth = a.binding.kind === 'value' ? a.binding.truth : undefined;
     if (truth !== undefined) return { ok: true, mean: a.si, sd: 0, template: a.q, truth };
-    if (bad[i]) return { ok: false, reason: `near the present values: ${bad[i]}` };
+    if (bad.has(i)) return { ok: false, reason: `no slope near the present values: ${bad.get(i)}` };
     let v = 0;
-    for (let j = 0; j < n; j++) for (let k = 0; k < n; k++) v += jac[i * n + j] * working.covariance[j * n + k] * jac[i * n + k];
+    for (let j = 0; j < n; j++) for (let k = 0; k < n; k++) v += s.d[i * n + j] * working.covariance[j * n + k] * s.d[i * n + k];
     return { ok: true, mean: a.si, sd: Math.sqrt(Math.max(0, v)), template: a.q };
   });
-  return { names, evaluations: 1 + 2 * n };
+  return { names, evaluations: 1 + s.evaluations };
 }

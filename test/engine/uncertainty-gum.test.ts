@@ -33,6 +33,20 @@ describe('uncertainty, linear method: the law of propagation of uncertainty (JCG
     assert.equal(r.evaluations, 5); // the present values, then two per input
   });
 
+  it('a log-normal input is linear in its log: t = C / k with σ = sqrt(ln(1 + cv²)) gives u(t) = t·σ to first order (c = dt/d ln k = -t)', () => {
+    const r = cell(reportOf({
+      format: 'ratebook-study', version: 1, title: 'log-normal input',
+      cells: [
+        { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.8 / h', spread: { distribution: 'lognormal', cv: 0.15 } }, { name: 'tc', value: 'log(2.5) / k' }] },
+        { id: 'u', kind: 'uncertainty', of: ['tc'], method: 'linear' },
+      ],
+    }), 'u') as ReportOf<'uncertainty'>;
+    const t = Math.log(2.5) / 0.8;
+    // central differences on ln k: -t·sinh(h)/h, h about 1e-3 of σ, so within 1e-6 (hand-worked)
+    near(r.results!.tc.sd!.value, t * Math.sqrt(Math.log(1 + 0.15 ** 2)), 1e-6, 'u(t)');
+    near(r.results!.tc.mean!.value, t, 1e-12, 't at the median of k');
+  });
+
   it('correlated inputs, a fit\'s two estimates: u(z)² = Σ c_i c_j r_ij u_i u_j (5.2.2) with the fit\'s own standard errors and correlation', () => {
     // two studies: the names each method defines (z_p025 ...) may have one definer only
     const doc = (how: object) => ({
