@@ -19,6 +19,7 @@ export function histogramPlot(name: string, h: Histogram, marks: ReadonlyArray<R
   const unit = unitAfterNumber(h.unit);
   const label = `Histogram of ${name}: ${h.counts.reduce((a, b) => a + b, 0)} samples from ${formatNumber(lo)} to ${formatNumber(hi)}${unit ? ` ${unit}` : ''}`;
   return html`<figure class="histogram">
+    <figcaption class="histogram-title">${name}: samples per bin${unit ? ` (${unit})` : ''}, dashed at the 2.5 and 97.5 percentiles</figcaption>
     <svg viewBox="0 0 ${W} ${H}" role="img" aria-label=${label} class="histogram-svg">
       <title>${label}</title>
       ${h.counts.map((c, i) => svg`<rect class="bar" x=${x(h.edges[i])} y=${y(c)} width=${Math.max(0.5, x(h.edges[i + 1]) - x(h.edges[i]) - 0.5)} height=${H - PAD - y(c)}></rect>`)}
@@ -38,6 +39,7 @@ export function histogramPlot(name: string, h: Histogram, marks: ReadonlyArray<R
 /** The styles the histogram needs, for the element that shows it. */
 export const HISTOGRAM_CSS = `
   figure.histogram { margin: 0.3rem 0 0.6rem; }
+  figcaption.histogram-title { font-size: 0.85rem; color: #3b4650; margin-bottom: 0.1rem; }
   svg.histogram-svg { width: 100%; max-width: 26rem; height: auto; display: block; }
   svg.histogram-svg rect.bar { fill: #7aa6d6; }
   svg.histogram-svg line.mark { stroke: #1c2329; stroke-dasharray: 3 2; stroke-width: 1; }
