@@ -32,6 +32,8 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     details.more summary { cursor: pointer; font-size: 0.8rem; color: #3b4650; }
     .range { display: flex; gap: 0.3rem; align-items: center; margin: 0.25rem 0; }
     .range expr-field { min-width: 5rem; }
+    .range.spread { flex-wrap: wrap; }
+    .range.spread select { max-width: 100%; }
   `];
 
   override render() {

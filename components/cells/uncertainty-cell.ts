@@ -19,6 +19,7 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     table.results td, table.results th { text-align: right; }
     table.results td.name, table.results th.name { text-align: left; }
     .failed { color: #8a4b00; }
+    .table-scroll { overflow-x: auto; max-width: 100%; }
     ${unsafeCSS(HISTOGRAM_CSS)}
   `];
 
@@ -57,11 +58,11 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     const verdicts = entries.filter(([, x]) => x.probability !== undefined || x.truth !== undefined);
     const none = entries.filter(([, x]) => !x.mean && x.probability === undefined && x.truth === undefined);
     return html`
-      ${quantities.length ? html`<table class="results"><caption class="sr">How sure each result is</caption>
+      ${quantities.length ? html`<div class="table-scroll" role="region" tabindex="0" aria-label="How sure each result is"><table class="results"><caption class="sr">How sure each result is</caption>
         <thead><tr><th class="name">Result</th><th>mean</th><th>SD</th><th>median</th><th>95% interval (2.5–97.5 percentile)</th>${r.method === 'monte-carlo' ? html`<th>no value</th>` : nothing}</tr></thead>
         <tbody>${quantities.map(([name, x]) => html`<tr><td class="name">${name}</td><td class="result">${showQ(x.mean)}</td><td class="result">${showQ(x.sd)}</td>
           <td class="result">${showQ(x.median)}</td><td class="result">${showQ(x.p025)} to ${showQ(x.p975)}</td>
-          ${r.method === 'monte-carlo' ? html`<td class=${x.failed ? 'failed' : ''}>${x.failed}</td>` : nothing}</tr>`)}</tbody></table>` : nothing}
+          ${r.method === 'monte-carlo' ? html`<td class=${x.failed ? 'failed' : ''}>${x.failed}</td>` : nothing}</tr>`)}</tbody></table></div>` : nothing}
       ${verdicts.map(([name, x]) => html`<p class="verdict">${this.verdictWords(name, x, r.samples)}</p>`)}
       ${none.map(([name, x]) => html`<p class="foot-error">${name}: no value (${x.reason ?? 'no reason given'}).</p>`)}
       ${r.failed ? html`<p class="failed">${r.failed.toLocaleString('en-US')} of ${r.samples?.toLocaleString('en-US')} samples left a name without a value: ${r.failedReason}.</p>` : nothing}

@@ -22,7 +22,7 @@ const AXE_SOURCE = readFileSync(createRequire(import.meta.url).resolve('axe-core
  * and simulate (time plot); data, fit and NCA; a fit whose plot shows measured points; a phase
  * cell with a sweep; solve cells over a range and among choices.
  */
-const TEMPLATES = ['convection-radiation-cooling', 'plasma-levels', 'cooling-data-fit', 'harvested-stock-fold', 'dose-for-target-trough'];
+const TEMPLATES = ['convection-radiation-cooling', 'plasma-levels', 'cooling-data-fit', 'harvested-stock-fold', 'dose-for-target-trough', 'trough-in-range-probability'];
 
 /** Runs axe on the page as it is and returns its violations, one line per element. */
 async function violations(page) {
