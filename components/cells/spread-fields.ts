@@ -9,7 +9,7 @@ import { footError, type ErrorClaims } from './common.ts';
 import type { StudyName } from '../expr-field.ts';
 import '../expr-field.ts';
 
-const CHOICES = [['', 'none (a fixed value)'], ['normal', 'normal, with an SD'], ['lognormal', 'log-normal, with a CV (the value is the median)'], ['uniform', 'uniform, between two values']] as const;
+const CHOICES = [['', 'none (a fixed value)'], ['normal', 'normal, with an SD'], ['lognormal', 'log-normal, with a CV'], ['uniform', 'uniform, between two values']] as const;
 
 /** The figures each distribution starts with when chosen: empty, for the user to fill in. */
 function fresh(distribution: string, old: ParameterSpread | undefined): ParameterSpread | undefined {
@@ -37,7 +37,7 @@ export function spreadFields(item: ParameterItem, j: number, who: string, claims
         ${s && !CHOICES.some(([v]) => v === s.distribution) ? html`<option selected value=${String(s.distribution)}>${String(s.distribution)}</option>` : nothing}
       </select></label>
       ${s?.distribution === 'normal' ? html`<span class="lbl">SD</span>${figure('sd', `SD of ${who}`)}` : nothing}
-      ${s?.distribution === 'lognormal' ? html`<span class="lbl">CV</span>${figure('cv', `CV of ${who} (0.15 or 15%)`)}` : nothing}
+      ${s?.distribution === 'lognormal' ? html`<span class="lbl">CV</span>${figure('cv', `CV of ${who} (0.15 or 15%)`)}<span class="muted">the value is the median</span>` : nothing}
       ${s?.distribution === 'uniform' ? html`<span class="lbl">from</span>${figure('from', `Lowest value of ${who}`)}<span class="lbl">to</span>${figure('to', `Highest value of ${who}`)}` : nothing}
     </div>
     ${footError(claims.take(`.${at}.distribution`) ?? claims.take(`.${at}`))}`;

@@ -1,5 +1,5 @@
 import { html, nothing, css, unsafeCSS } from 'lit';
-import { MAX_SAMPLES, type UncertaintyResult } from '../../src/index.ts';
+import { MAX_SAMPLES, formatNumber, type UncertaintyResult } from '../../src/index.ts';
 import { cellStyles, footError, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import { histogramPlot, HISTOGRAM_CSS } from '../plots/histogram-plot.ts';
@@ -74,7 +74,7 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
   private verdictWords(name: string, x: UncertaintyResult, samples: number | undefined) {
     if (x.probability !== undefined) {
       const counted = (samples ?? 0) - x.failed;
-      return html`${name}: yes in <span class="result">${(100 * x.probability).toPrecision(3)}%</span> of ${counted.toLocaleString('en-US')} samples${x.failed ? html` <span class="failed">(${x.failed} without a value)</span>` : nothing}`;
+      return html`${name}: yes in <span class="result">${formatNumber(100 * x.probability, 3)}%</span> of ${counted.toLocaleString('en-US')} samples${x.failed ? html` <span class="failed">(${x.failed} without a value)</span>` : nothing}`;
     }
     return html`${name}: ${x.truth ? 'yes' : 'no'} at the present values (the linear method gives no probability for a yes/no verdict)`;
   }

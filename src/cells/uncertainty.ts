@@ -20,6 +20,19 @@ export const DEFAULT_SAMPLES = 2000;
 export const DEFAULT_SEED = 1;
 /** Samples per cell work budget (engine/budget.ts): about 3,000 units per sample, more than the 6-dose schedule with four questions needs (about 1,900). */
 export const SAMPLES_PER_BUDGET = 1000;
+/** The most cell budgets an uncertainty cell may use: past it, it is stopped with the budget's message (fewer samples, or a lighter run). */
+export const MOST_BUDGETS = 10;
+
+/**
+ * How many cell budgets a cell may use (`GraphNode.workScale`): for an uncertainty cell one per
+ * 1,000 samples (its default samples for the linear method), 1 to MOST_BUDGETS; 1 for another cell.
+ */
+export function workScaleOf(cell: unknown): number {
+  const c = cell as Partial<UncertaintyCell> | null;
+  if (c?.kind !== 'uncertainty') return 1;
+  const samples = c.method !== 'linear' && Number.isInteger(c.samples) ? (c.samples as number) : DEFAULT_SAMPLES;
+  return Math.min(MOST_BUDGETS, Math.max(1, samples / SAMPLES_PER_BUDGET));
+}
 
 export function uncertaintyNodes(cell: UncertaintyCell, at: string): Array<GraphNode<NodeOutput<'uncertainty'>>> {
   const of = Array.isArray(cell.of) ? cell.of.filter((n): n is string => typeof n === 'string') : [];
@@ -32,8 +45,7 @@ export function uncertaintyNodes(cell: UncertaintyCell, at: string): Array<Graph
     uses,
     allowsTime: false,
     readsUpstream: true,
-    // each sample runs part of the study again: one cell budget per 1,000 samples
-    ...(cell.method !== 'linear' && Number.isInteger(cell.samples) ? { workScale: Math.max(1, (cell.samples as number) / SAMPLES_PER_BUDGET) } : { workScale: DEFAULT_SAMPLES / SAMPLES_PER_BUDGET }),
+    workScale: workScaleOf(cell),
     signature: JSON.stringify(cell),
     problems: [],
     run: (ctx) => guarded(() => runUncertainty(cell, at, of, ctx)),

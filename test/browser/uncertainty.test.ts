@@ -100,7 +100,7 @@ describe('the uncertainty cell element', () => {
     const row = el.shadowRoot!.querySelector('table.results tbody tr')!;
     expect(row.querySelector('td.name')!.textContent).to.equal('t_40');
     expect(row.textContent).to.contain(`${Number(r.results.t_40.p025.value.toPrecision(4))} h to ${Number(r.results.t_40.p975.value.toPrecision(4))} h`);
-    expect(el.shadowRoot!.querySelector('.verdict')!.textContent).to.contain(`quick: yes in ${(100 * r.results.quick.probability!).toPrecision(3)}% of 300 samples`);
+    expect(el.shadowRoot!.querySelector('.verdict')!.textContent).to.contain(`quick: yes in ${Number((100 * r.results.quick.probability!).toPrecision(3))}% of 300 samples`);
     const svg = el.shadowRoot!.querySelector('svg.histogram-svg')!;
     expect(svg.getAttribute('role')).to.equal('img');
     expect(svg.getAttribute('aria-label')).to.match(/^Histogram of t_40: 300 samples/);
