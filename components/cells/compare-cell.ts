@@ -16,7 +16,7 @@ export class CompareCellElement extends CellElement<'compare'> {
   static override styles = [cellStyles, css`
     fieldset.scenario { border: 1px solid #d5dbe0; border-radius: 6px; margin: 0.4rem 0; padding: 0.3rem 0.6rem; }
     fieldset.scenario legend { font-size: 0.85rem; color: #3b4650; padding: 0 0.3rem; }
-    span.set { display: inline-flex; align-items: center; gap: 0.3rem; flex-wrap: wrap; }
+    span.set { display: inline-flex; align-items: center; gap: 0.3rem; flex-wrap: nowrap; max-width: 100%; }
     expr-field.set-value { flex: 0 1 10rem; min-width: 8rem; }
     table.answers { width: auto; }
   `];
@@ -84,7 +84,7 @@ export class CompareCellElement extends CellElement<'compare'> {
             @expr-input=${(e: CustomEvent<{ value: string }>) => this.setScenario(all, j, { ...s, set: { ...set, [name]: e.detail.value } }, `${path}.set.${name}`)}></expr-field>
           <button class="quiet" aria-label="Scenario ${label}: stop setting ${name}" @click=${() => this.setScenario(all, j, { ...s, set: Object.fromEntries(entries.filter(([n]) => n !== name)) })}>✕</button>
         </span>`)}
-        ${options.some((o) => !(o in set)) ? html`<button class="add-value" aria-label="Scenario ${label}: set another value" @click=${() => this.addEntry(all, j, options)}>Set a value</button>` : nothing}
+        ${options.some((o) => !(o in set)) ? html`<button class="add-value" data-field="${path}.set" aria-label="Set a value in scenario ${label}" @click=${() => this.addEntry(all, j, options)}>Set a value</button>` : nothing}
         ${footError(this.claims.take(`.${path}.set`))}
       </div></fieldset>`;
   }

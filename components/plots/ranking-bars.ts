@@ -14,7 +14,7 @@ const LABEL = 200;
 export function rankingBars(r: Pick<SensitivityFields, 'ranking' | 'results' | 'summary'>) {
   const ranked = r.ranking.flatMap(({ of, parameter }) => {
     const n = r.results[of]?.[parameter]?.normalized;
-    return typeof n === 'number' ? [{ label: `${of} / ${parameter}`, n }] : [];
+    return typeof n === 'number' ? [{ label: `${parameter} → ${of}`, n }] : [];
   });
   if (!ranked.length) return nothing;
   const largest = Math.max(...ranked.map((x) => Math.abs(x.n))) || 1;

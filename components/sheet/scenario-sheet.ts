@@ -16,10 +16,10 @@ export function sensitivitySheet(cell: Of<'sensitivity'>, r: ReportOf<'sensitivi
   const ranking = r.ranking ?? [];
   return html`<p>How much ${(cell.of ?? []).join(', ')} move${(cell.of ?? []).length === 1 ? 's' : ''} with ${(cell.parameters ?? []).join(', ')}: each slope from runs of the study with one value moved a little either way.</p>
     <figure>${rankingBars({ ranking, results, summary: r.summary ?? '' })}</figure>
-    <table class="results"><thead><tr><th>Result</th><th>Parameter</th><th>Slope</th><th>Normalized (% per 1%)</th><th>Note</th></tr></thead>
+    <table class="slopes"><thead><tr><th>Result</th><th>Parameter</th><th>Slope</th><th>Normalized (% per 1%)</th><th>Note</th></tr></thead>
     <tbody>${ranking.map(({ of, parameter }) => {
       const e = results[of][parameter];
-      return html`<tr><td class="name">${of}</td><td class="name">${parameter}</td><td class="num answer">${e.coefficient ? showQ(e.coefficient) : '—'}</td>
+      return html`<tr><td class="name">${of}</td><td class="name">${parameter}</td><td class="num">${e.coefficient ? showQ(e.coefficient) : '—'}</td>
         <td class="num">${e.normalized === null ? '—' : formatNumber(e.normalized, 4)}</td><td>${e.note ?? ''}</td></tr>`;
     })}</tbody></table>
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}
@@ -33,7 +33,7 @@ export function compareSheet(cell: Of<'compare'>, r: ReportOf<'compare'>, chart:
   return html`<p>The run <strong>${cell.run}</strong> under ${scenarios.length} scenario${scenarios.length === 1 ? '' : 's'}; each answer is named question_scenario.</p>
     <table><thead><tr><th>Scenario</th><th>Sets</th></tr></thead>
     <tbody>${scenarios.map((s) => html`<tr><td class="name">${s.name}</td><td>${Object.entries(s.set).map(([n, q]) => `${n} = ${showQ(q)}`).join(', ') || 'nothing: the run as the study stands'}${s.ok ? '' : ` (${s.message})`}</td></tr>`)}</tbody></table>
-    ${questions.length ? html`<table class="results"><thead><tr><th>Question</th>${scenarios.map((s) => html`<th>${s.name}</th>`)}</tr></thead>
+    ${questions.length ? html`<table class="per-scenario"><thead><tr><th>Question</th>${scenarios.map((s) => html`<th>${s.name}</th>`)}</tr></thead>
       <tbody>${questions.map((q) => html`<tr><td class="name">${q}</td>${scenarios.map((s) => {
         const a = s.results[q];
         return html`<td class="num answer">${!a ? '—' : 'notReached' in a ? `not reached by ${showQ(a.end)}` : showQ(a)}</td>`;

@@ -40,6 +40,9 @@ const FIRST_FIELD: Record<string, string> = {
   fit: 'Estimate 1: parameter or state',
   nca: 'Dose',
   solve: 'Parameter or state to vary',
+  sensitivity: 'Result to follow 1',
+  compare: 'Name of scenario 1',
+  uncertainty: 'Names to carry the uncertainty to, separated by commas',
   note: 'Note text',
 };
 

@@ -55,6 +55,8 @@ export const EVERY_FIELD: Study = {
       target: { value: 'trough_last', equals: '1 mg / L' } },
     { id: 'sc', kind: 'solve', title: 'Interval', vary: { parameter: 'tau', as: 'tau_new', choices: ['8 h', '12 h', '24 h'] }, target: { value: 'trough_last', equals: '1 mg / L' } },
     { id: 'u', kind: 'uncertainty', title: 'How sure', of: ['trough_last'], method: 'monte-carlo', samples: 50, seed: 3 },
+    { id: 'sens', kind: 'sensitivity', title: 'What matters', of: ['trough_last'], parameters: ['k', 'V'] },
+    { id: 'cmp', kind: 'compare', title: 'Intervals', run: 'run', scenarios: [{ name: 'q12', set: {} }, { name: 'q8', set: { tau: '8 h' } }] },
     { id: 'm', kind: 'note', title: 'About', text: 'Every field once, with invented numbers.' },
   ],
 } as Study;
