@@ -20,6 +20,7 @@ import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
 import { openLargeStudyBenchmarks } from './browser-open.ts';
 import { whatIfBenchmarks } from './what-if.ts';
+import { uncertaintyBenchmarks } from './uncertainty.ts';
 import { scenarioBenchmarks } from './scenarios.ts';
 import { closureBenchmarks } from './closures.ts';
 import { solveBenchmarks } from './solve.ts';
@@ -345,6 +346,12 @@ function whatIfRows(): Row[] {
   }));
 }
 
+function uncertaintyRows(): Row[] {
+  return uncertaintyBenchmarks().map((r) => ({
+    measure: `${r.name} (${r.evaluations} what-if runs)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
+  }));
+}
+
 function closureRows(): Row[] {
   return closureBenchmarks().flatMap((r) => [
     { measure: `${r.name}: generated code, median`, result: ms(r.generatedMs) },
@@ -395,6 +402,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'What-if runs of a dosing schedule', run: whatIfRows },
   { title: 'Rate law runs: generated code against closures', run: closureRows },
   { title: 'Solving for a dose', run: solveRows },
+  { title: 'How sure: Monte Carlo and linear uncertainty', run: uncertaintyRows },
   { title: 'Sensitivity and scenarios side by side', run: scenarioRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'Studies of many cells: opening a chain of parameters', run: scalingBenchmarks },

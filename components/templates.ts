@@ -6,8 +6,8 @@ import type { Study } from '../src/index.ts';
 
 /** Headings of the library, in order, with the templates under each (by file name). */
 export const GROUPS: Readonly<Record<string, readonly string[]>> = {
-  'Heating and cooling': ['cooling-stock-pot', 'two-stage-cooling-check', 'heating-constant-power', 'convection-radiation-cooling', 'lumped-capacitance-check', 'cooling-data-fit', 'mixed-units-prep', 'cooling-design'],
-  'Drug levels, one compartment': ['iv-bolus-repeated', 'intermittent-iv-infusion', 'oral-first-order-absorption', 'loading-dose-maintenance', 'saturable-elimination-infusion', 'plasma-levels', 'dose-for-target-trough', 'bayesian-two-levels', 'two-level-infusion-dosing'],
+  'Heating and cooling': ['cooling-stock-pot', 'two-stage-cooling-check', 'heating-constant-power', 'convection-radiation-cooling', 'lumped-capacitance-check', 'cooling-data-fit', 'mixed-units-prep', 'cooling-design', 'cooling-fail-probability'],
+  'Drug levels, one compartment': ['iv-bolus-repeated', 'intermittent-iv-infusion', 'oral-first-order-absorption', 'loading-dose-maintenance', 'saturable-elimination-infusion', 'plasma-levels', 'dose-for-target-trough', 'bayesian-two-levels', 'two-level-infusion-dosing', 'trough-in-range-probability'],
   'Mixing, flushing and draining': ['mixing-tank-flush', 'tank-changing-volume', 'lake-first-order-decay', 'tank-draining-orifice', 'flush-design', 'flush-pump-settings'],
   'Growth, decay and motion': ['harvested-stock-fold', 'radiometric-age', 'falling-body-drag'],
 };

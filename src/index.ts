@@ -5,7 +5,7 @@ export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts
 export { sameContent } from './study/same.ts';
 export { solutionEdit, solutionText, type SolutionEdit } from './study/use-solution.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
-export type { Study, Cell, CellKind, PlotScale, SolveCell, FitPrior, FitErrorModel } from './study/types.ts';
+export type { Study, Cell, CellKind, PlotScale, SolveCell, FitPrior, FitErrorModel, ParameterItem, ParameterSpread } from './study/types.ts';
 export type { SensitivityCell, CompareCell, CompareScenario } from './study/types.ts';
 export type { SensitivityEntry, SensitivityFields, CompareFields, ComparePlot, CompareScenarioReport } from './engine/report-scenarios.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT, PLOT_SCALES } from './study/types.ts';
@@ -15,6 +15,8 @@ export type {
   Report, CellReport, ReportOf, ReportBase, ReportQuantity, CellFields, ParameterValue, PhaseEquilibrium, PhaseInterval,
   PhasePlotData, SweepReport, SimulationPlot, FindResult, NotReached, ClosedFormReport, EstimateReport, FitResidual, CsvReadReport,
 } from './engine/report.ts';
+export type { Histogram, UncertaintyResult, UncertainInput, SpreadReport } from './engine/report.ts';
+export { MAX_SAMPLES } from './study/types.ts';
 export { isKind } from './engine/report.ts';
 export type { GlanceEntry, GlanceKind } from './output/glance.ts';
 export type { CellError, ProblemKind, MessagePart } from './engine/node.ts';

@@ -6,6 +6,7 @@ import '../expr-field.ts';
 import { wrapField, wrapFieldStyles } from '../wrap-field.ts';
 import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
+import { spreadFields } from './spread-fields.ts';
 
 /** A parameters cell: one row per name, with its value field, its current value and, given a range, a slider. */
 export class ParametersCellElement extends CellElement<'parameters'> {
@@ -31,6 +32,8 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     details.more summary { cursor: pointer; font-size: 0.8rem; color: #3b4650; }
     .range { display: flex; gap: 0.3rem; align-items: center; margin: 0.25rem 0; }
     .range expr-field { min-width: 5rem; }
+    .range.spread { flex-wrap: wrap; }
+    .range.spread select { max-width: 100%; }
   `];
 
   override render() {
@@ -56,7 +59,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
                 @expr-input=${(e: CustomEvent<{ value: string }>) => this.change(j, { value: e.detail.value }, `value${j}`)}></expr-field>
                 ${entry?.range ? this.slider(j, entry) : nothing}
                 ${this.more(j)}</td>
-              <td class="result">${entry ? html`<span class="now">${showValue(entry)}</span>` : ''}${entry && entry.truth === undefined ? html`<unit-pick data-field="items[${j}].unit" .unit=${entry.unit} .original=${entry.originalUnit} .picked=${item.unit} label="Show ${item.name} in another unit"
+              <td class="result">${entry ? html`<span class="now">${showValue(entry)}</span>` : ''}${entry?.spread ? html`<div class="spread-text muted">${entry.spread.text}</div>` : nothing}${entry && entry.truth === undefined ? html`<unit-pick data-field="items[${j}].unit" .unit=${entry.unit} .original=${entry.originalUnit} .picked=${item.unit} label="Show ${item.name} in another unit"
                 @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.change(j, { unit: e.detail.unit }, `unit${j}`)}></unit-pick>` : nothing}
                 ${footError(claims.take(`.items[${j}].unit`))}</td>
               <td class="note">${wrapField({ cls: 'note boxed', field: `items[${j}].note`, label: `Note on ${who}`, placeholder: 'Note', value: item.note ?? '',
@@ -79,7 +82,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     const who = item.name || `parameter ${j + 1}`;
     const [lo, hi] = Array.isArray(item.range) ? item.range : ['', ''];
     const claims = this.claims;
-    return html`<details class="more" ?open=${item.range !== undefined || item.glance !== undefined}><summary>Slider range, at a glance</summary>
+    return html`<details class="more" ?open=${item.range !== undefined || item.glance !== undefined || item.spread !== undefined}><summary>Slider range, spread, at a glance</summary>
       <div class="range">
         <expr-field data-field="items[${j}].range" label="Slider range of ${who}: low end" .value=${lo ?? ''} .names=${this.names}
           .error=${claims.take(`.items[${j}].range[0]`) ?? claims.take(`.items[${j}].range`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setRange(j, 0, e.detail.value)}></expr-field>
@@ -88,6 +91,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
           .error=${claims.take(`.items[${j}].range[1]`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setRange(j, 1, e.detail.value)}></expr-field>
       </div>
       ${item.range === undefined ? html`<div class="muted">No range: no slider. Give both ends to drag the value between them.</div>` : nothing}
+      ${spreadFields(item, j, who, claims, this.names, (spread, key) => this.change(j, { spread }, key))}
       <label><input type="checkbox" data-field="items[${j}].glance" .checked=${item.glance === true}
         @change=${(e: Event) => this.change(j, { glance: (e.target as HTMLInputElement).checked || undefined }, `glance${j}`)} /> List ${who} among the results at a glance</label>
       ${footError(claims.take(`.items[${j}].glance`))}
@@ -117,7 +121,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
 
   private change(j: number, patch: Record<string, unknown>, key: string) {
     const items = this.cell.items.map((it, i) => (i === j ? { ...it, ...patch } : it));
-    for (const it of items) for (const k of ['note', 'unit', 'range', 'glance'] as const) if (it[k] === undefined) delete it[k];
+    for (const it of items) for (const k of ['note', 'unit', 'range', 'glance', 'spread'] as const) if (it[k] === undefined) delete it[k];
     this.edit({ items }, key);
   }
 

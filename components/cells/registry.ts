@@ -13,6 +13,7 @@ import './data-cell.ts';
 import './nca-cell.ts';
 import './fit-cell.ts';
 import './solve-cell.ts';
+import './uncertainty-cell.ts';
 import './sensitivity-cell.ts';
 import './compare-cell.ts';
 
@@ -92,6 +93,17 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
     },
     render: (c, r, s, d) => html`<solve-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></solve-cell>`,
   },
+  uncertainty: {
+    label: 'How sure',
+    // the study's first answer of a run, else its first parameter
+    blank: (study) => {
+      const run = study.cells.find((c) => c.kind === 'simulate' && (c.find ?? []).length) as Extract<Cell, { kind: 'simulate' }> | undefined;
+      const p = study.cells.find((c) => c.kind === 'parameters') as Extract<Cell, { kind: 'parameters' }> | undefined;
+      const name = run?.find?.[0]?.name ?? p?.items?.[0]?.name;
+      return { of: name ? [name] : [], method: 'monte-carlo', samples: 2000, seed: 1 };
+    },
+    render: (c, r, s, d) => html`<uncertainty-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></uncertainty-cell>`,
+  },
   sensitivity: {
     label: 'What matters most',
     // the first run's answers against the study's parameters (at most five), as a start
@@ -111,4 +123,4 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
 };
 
 /** The kinds offered on the "add a cell" bar, in order. */
-export const ADDABLE: ReadonlyArray<Cell['kind']> = ['parameters', 'rate', 'simulate', 'phase', 'data', 'fit', 'nca', 'solve', 'sensitivity', 'compare', 'note'];
+export const ADDABLE: ReadonlyArray<Cell['kind']> = ['parameters', 'rate', 'simulate', 'phase', 'data', 'fit', 'nca', 'solve', 'sensitivity', 'compare', 'uncertainty', 'note'];

@@ -13,6 +13,7 @@ import { leftOffLog } from '../plots/time-plot-parts.ts';
 import { math } from './math.ts';
 import { fitPriorPart } from './fit-prior-sheet.ts';
 import { sensitivitySheet, compareSheet } from './scenario-sheet.ts';
+import { uncertaintySheet } from './uncertainty-sheet.ts';
 
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
 
@@ -73,6 +74,7 @@ function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[]): TemplateResu
   if (cell.kind === 'nca' && isKind(r, 'nca')) return nca(cell, r);
   if (cell.kind === 'solve' && isKind(r, 'solve')) return solve(cell, r);
   if (cell.kind === 'sensitivity' && isKind(r, 'sensitivity')) return sensitivitySheet(cell, r);
+  if (cell.kind === 'uncertainty' && isKind(r, 'uncertainty')) return uncertaintySheet(cell, r);
   if (cell.kind === 'compare' && isKind(r, 'compare')) return compareSheet(cell, r, (plot, summary) => timeChart(plot, summary));
   return html`<p class="muted">Not computed.</p>`;
 }
@@ -90,7 +92,7 @@ function parameters(cell: Of<'parameters'>, r: ReportOf<'parameters'>): Template
       const shown = t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`;
       const long = typeof it.value === 'string' && it.value.length > LONG_DEFINITION;
       return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${it.name}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
-        <td class="num">${showValue(values[it.name])}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}</td></tr>
+        <td class="num">${showValue(values[it.name])}${values[it.name]?.spread ? html`<br /><span class="muted">spread: ${values[it.name]!.spread!.text}</span>` : nothing}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}</td></tr>
         ${long ? html`<tr class="formula"><td colspan="4">${t ? math(`\\displaystyle ${tex[it.name].name} = ${t}`) : html`<code>${it.name} = ${it.value}</code>`}</td></tr>` : nothing}`;
     })}</tbody></table>`;
 }

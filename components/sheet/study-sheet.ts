@@ -1,5 +1,6 @@
 import { LitElement, html, css, nothing, unsafeCSS } from 'lit';
 import { RANKING_CSS } from '../plots/ranking-bars.ts';
+import { HISTOGRAM_CSS } from '../plots/histogram-plot.ts';
 import type { Report, Study } from '../../src/index.ts';
 import { section, glance } from './sections.ts';
 
@@ -26,6 +27,7 @@ export class StudySheet extends LitElement {
 
   static override styles = css`
     ${unsafeCSS(RANKING_CSS)}
+    ${unsafeCSS(HISTOGRAM_CSS)}
     :host { display: block; color: #111; font: 10.5pt/1.4 Georgia, 'Times New Roman', serif; background: #fff; }
     header.doc { border-bottom: 2px solid #222; padding-bottom: 0.4rem; margin-bottom: 0.8rem; }
     h1 { font: 700 17pt/1.2 system-ui, sans-serif; margin: 0 0 0.3rem; }

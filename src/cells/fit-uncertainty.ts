@@ -4,7 +4,7 @@
  * as `standardError` and `ci95`. When the fit gives none (no degrees of freedom, estimates
  * that cannot be told apart), the names are left undefined with the reason.
  */
-import type { Binding, Definition } from '../engine/node.ts';
+import type { Binding, Definition, JointNormal } from '../engine/node.ts';
 import type { EstimateReport } from '../engine/report.ts';
 import { type Quantity, deltaUnit } from '../units/quantity.ts';
 import { quantitySig } from './signatures.ts';
@@ -43,4 +43,17 @@ export function uncertaintyBindings(estimates: ReadonlyArray<{ as: string; templ
     names.forEach((n, i) => bindings.set(n, { kind: 'value', q: values[i], sig: quantitySig(values[i]) }));
   }
   return { bindings, reasons };
+}
+
+/**
+ * The estimates as a joint normal, for an uncertainty cell's draws: the fit's covariance on
+ * its working scale (log P for an estimate with a prior, P otherwise). Undefined when the fit
+ * gives no covariance, or one that is not finite.
+ */
+export function jointOf(cell: string, names: readonly string[], p: ArrayLike<number>, covariance: Float64Array | null, logScale?: readonly boolean[]): JointNormal | undefined {
+  if (!covariance || !covariance.every(Number.isFinite)) return undefined;
+  const log = names.map((_, k) => logScale?.[k] === true);
+  const center = Float64Array.from(names, (_, k) => (log[k] ? Math.log(p[k]) : p[k]));
+  if (!center.every(Number.isFinite)) return undefined;
+  return { cell, names: [...names], center, covariance: Float64Array.from(covariance), logScale: log };
 }

@@ -23,7 +23,8 @@ import { residualAxisFloor, withoutRoundOff } from '../output/residuals.ts';
 import { priorFields, readMapSettings, type PriorFields } from './fit-prior.ts';
 import { runMapFit, priorReport, errorModelReport, mapSummary } from './fit-map.ts';
 import { runModelOf, runParameter, checkTimesInRun, jumpTimeNote } from './fit-through-run.ts';
-import { uncertaintyBindings, uncertaintyDefinitions } from './fit-uncertainty.ts';
+import { jointOf, uncertaintyBindings, uncertaintyDefinitions } from './fit-uncertainty.ts';
+import { spreadSig } from './spread.ts';
 
 /**
  * One node: it defines each estimate under its `as` name, and the measurements it fits, by
@@ -195,6 +196,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
   // the answers
   const estimates: Record<string, EstimateReport> = {};
   const bindings = new Map<string, Binding>();
+  const joint = jointOf(cell.id, unknowns.map((u) => u.as), fit.p, fit.covariance, mapFit?.logScale);
   unknowns.forEach((u, k) => {
     const q: Quantity = { ...u.template, si: fit.p[k] };
     const delta = (si: number): Quantity => ({ si, dim: q.dim, unit: deltaUnit(q.unit), ...(q.temp ? { temp: 'delta' as const } : {}) });
@@ -205,7 +207,8 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
       ...(fit.ci95 ? { ci95: fit.ci95[k].map((x) => report({ ...q, si: x })) } : {}),
       ...(fit.atBound[k] ? { atBound: true as const } : {}),
     };
-    bindings.set(u.as, { kind: 'value', q, sig: quantitySig(q) });
+    const spread = joint ? { kind: 'joint' as const, joint, index: k } : undefined;
+    bindings.set(u.as, spread ? { kind: 'value', q, sig: quantitySig(q) + spreadSig(spread), spread } : { kind: 'value', q, sig: quantitySig(q) });
   });
   // each estimate's standard error and 95% bounds as names, equal to the report's
   const spread = uncertaintyBindings(unknowns.map((u) => ({ as: u.as, template: u.template, report: estimates[u.as] })), fit.dof, fit.warnings.map((w) => w.message).join('; ') || undefined);

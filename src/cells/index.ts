@@ -14,6 +14,7 @@ import { dataNodes } from './data.ts';
 import { ncaNodes } from './nca.ts';
 import { fitNodes } from './fit.ts';
 import { solveNodes } from './solve.ts';
+import { uncertaintyNodes } from './uncertainty.ts';
 import { sensitivityNodes } from './sensitivity.ts';
 import { compareNodes, runQuestions } from './compare.ts';
 
@@ -34,6 +35,7 @@ const BUILDERS: { readonly [K in CellKind]: Builder<K> } = {
   fit: fitNodes,
   nca: ncaNodes,
   solve: solveNodes,
+  uncertainty: uncertaintyNodes,
   sensitivity: sensitivityNodes,
   compare: compareNodes,
 };

@@ -8,6 +8,7 @@ import { formatUnit } from '../units/units.ts';
 import { sameDim, describeDim } from '../units/dimension.ts';
 import { quantitySig } from './signatures.ts';
 import { type StudyUnits, simplestUnit } from '../units/simplest-unit.ts';
+import { type SpreadFields, spreadFields, checkedSpread, spreadSig } from './spread.ts';
 
 export function parameterNodes(cell: ParametersCell, at: string): Array<GraphNode<NodeOutput<'parameters'>>> {
   const items = Array.isArray(cell.items) ? cell.items : [];
@@ -17,24 +18,29 @@ export function parameterNodes(cell: ParametersCell, at: string): Array<GraphNod
     const name = typeof item?.name === 'string' ? item.name : '';
     const value = field(item?.value, `${path}.value`, problems);
     const range = Array.isArray(item?.range) ? item.range.map((r, i) => field(r, `${path}.range[${i}]`, problems)) : [];
+    const spread = spreadFields(item?.spread, `${path}.spread`, problems);
     return {
       key: `${cell.id}/${j}`,
       cell: cell.id,
       defines: name ? [{ name, path: `${path}.name` }] : [],
-      uses: usesOf([value, ...range]),
+      uses: usesOf([value, ...range, spread?.sd, spread?.cv, spread?.from, spread?.to]),
       allowsTime: false,
       signature: JSON.stringify(item ?? null),
       problems,
-      run: (ctx) => runParameter(name, value!, range, ctx, item?.unit, `${path}.unit`),
+      run: (ctx) => runParameter(name, value!, range, ctx, item?.unit, `${path}.unit`, spread),
     } satisfies GraphNode<NodeOutput<'parameters'>>;
   });
 }
 
-function runParameter(name: string, value: Field, range: ReadonlyArray<Field | undefined>, ctx: RunContext, shownIn: unknown, unitPath: string): Outcome<NodeOutput<'parameters'>> {
+function runParameter(name: string, value: Field, range: ReadonlyArray<Field | undefined>, ctx: RunContext, shownIn: unknown, unitPath: string,
+  spreadOf: SpreadFields | undefined): Outcome<NodeOutput<'parameters'>> {
   return guarded(() => {
     const lookup = lookupFrom(ctx);
     const v = valueOf(value, lookup);
-    if (typeof v === 'boolean') return truthParameter(name, v, range, shownIn, unitPath);
+    if (typeof v === 'boolean') {
+      if (spreadOf) throw new FieldError({ kind: 'invalid', path: `${spreadOf.path}.distribution`, message: `${name} is true/false; a spread is for a quantity` });
+      return truthParameter(name, v, range, shownIn, unitPath);
+    }
     const computed = inSimplestUnit(finite(value, v), ctx.studyUnits);
     const q = shownAs(computed, shownIn, unitPath);
     let bounds: Quantity[] | undefined;
@@ -47,7 +53,9 @@ function runParameter(name: string, value: Field, range: ReadonlyArray<Field | u
       }
       if (!(lo.si < hi.si)) throw new FieldError({ kind: 'invalid', path: range[0]!.path, message: `range of ${name}: the low end (${describe(lo)}) must be below the high end (${describe(hi)})` });
     }
-    const bindings = new Map<string, Binding>([[name, { kind: 'value', q, sig: quantitySig(q) }]]);
+    const spread = spreadOf ? checkedSpread(name, q, spreadOf, lookup) : undefined;
+    const binding: Binding = spread ? { kind: 'value', q, sig: quantitySig(q) + spreadSig(spread.spread), spread: spread.spread } : { kind: 'value', q, sig: quantitySig(q) };
+    const bindings = new Map<string, Binding>([[name, binding]]);
     // a what-if run needs the value alone, not its display
     if (ctx.mode === 'what-if') return { ok: true, bindings, output: {} };
     const entry: ParameterValue = { ...report(q) };
@@ -58,6 +66,7 @@ function runParameter(name: string, value: Field, range: ReadonlyArray<Field | u
       const unit = shownUnit(q);
       entry.range = bounds.map((b) => ({ value: valueIn(b, unit), unit: formatUnit(unit), si: b.si }));
     }
+    if (spread) entry.spread = spread.report;
     return { ok: true, bindings, output: { values: { [name]: entry } } };
   });
 }

@@ -17,6 +17,7 @@ const RULES: Readonly<Record<CellKind, readonly RegExp[]>> = {
   fit: [/^\.estimate\[\d+\]\.parameter$/],
   nca: [],
   solve: [/^\.vary\.parameter$/],
+  uncertainty: [],
   note: [],
   sensitivity: [/^\.parameters\[\d+\]$/],
   compare: [/^\.scenarios\[\d+\]\.set$/],

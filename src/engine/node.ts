@@ -100,8 +100,12 @@ export interface Use {
 
 /** What a name is bound to after its node ran. `sig` decides whether it changed. */
 export type Binding =
-  /** `truth` for a parameter that is a condition: q is then the plain number 1 or 0. */
-  | { readonly kind: 'value'; readonly q: Quantity; readonly sig: string; readonly truth?: boolean }
+  /**
+   * `truth` for a parameter that is a condition: q is then the plain number 1 or 0. `spread`
+   * for a value that is uncertain (a parameter's spread, a fit's estimate); its `sig` then
+   * says the spread too.
+   */
+  | { readonly kind: 'value'; readonly q: Quantity; readonly sig: string; readonly truth?: boolean; readonly spread?: InputSpread }
   | { readonly kind: 'state'; readonly q: Quantity; readonly unit: DisplayUnit; readonly cell: string; readonly sig: string }
   | { readonly kind: 'law'; readonly law: Law; readonly sig: string }
   | { readonly kind: 'data'; readonly cell: string; readonly sig: string; readonly table: DataTable }
@@ -109,6 +113,32 @@ export type Binding =
   | { readonly kind: 'measured'; readonly cell: string; readonly sig: string; readonly series: readonly MeasuredSeries[] }
   /** A simulate cell's run as a model for a fit: made from the run's inputs only, never its results (`cells/run-model.ts`). */
   | { readonly kind: 'model'; readonly cell: string; readonly sig: string; readonly model: RunModel };
+
+/**
+ * How uncertain a value is, in SI: a parameter's spread (`normal` with its SD, `lognormal`
+ * with the SD of its log, the value being the median, `uniform` between two values), or a
+ * fit's estimate as entry `index` of its fit's joint normal.
+ */
+export type InputSpread =
+  | { readonly kind: 'normal'; readonly sd: number }
+  | { readonly kind: 'lognormal'; readonly sigma: number }
+  | { readonly kind: 'uniform'; readonly from: number; readonly to: number }
+  | { readonly kind: 'joint'; readonly joint: JointNormal; readonly index: number };
+
+/**
+ * A fit's estimates as a joint normal (the fit's covariance): on the working scale of each,
+ * log P where `logScale` (an estimate with a prior), P otherwise. One object shared by the
+ * estimates of one fit.
+ */
+export interface JointNormal {
+  /** The fit cell's id. */
+  readonly cell: string;
+  readonly names: readonly string[];
+  readonly center: Float64Array;
+  /** n×n, row-major, on the working scale. */
+  readonly covariance: Float64Array;
+  readonly logScale: readonly boolean[];
+}
 
 /**
  * A simulate cell's run, to be run again with some of its inputs replaced: its laws, span and
@@ -197,6 +227,11 @@ export interface RunContext {
    * that the evaluator plans over is computed before it runs. Prepare once per run.
    */
   whatIf?(wanted: readonly string[], replaced: readonly Replacement[]): WhatIfPrepared;
+  /**
+   * The binding of a name upstream of the names the node reads, for a node that sets
+   * `readsUpstream` (an uncertainty cell looks there for spreads); undefined when unavailable.
+   */
+  peek?(name: string): Binding | undefined;
 }
 
 /** What a node's run gives: bindings for the names it defines and `output` (of type O) for its cell's report. */
@@ -238,6 +273,11 @@ export interface GraphNode<O extends object = object> {
    * name upstream of the names it reads changes.
    */
   readonly readsUpstream?: boolean;
+  /**
+   * The node may use this many times a cell's work budget (default 1): an uncertainty cell
+   * asks for one budget per 1,000 samples, as each sample is a run of part of the study.
+   */
+  readonly workScale?: number;
   /** Said after the message of each node on a cycle through this node: why such a cycle arises and the way out. */
   readonly cycleHint?: string;
   /** Fails too with the problems the document check found in its cell (which go to a cell's first node). */

@@ -46,6 +46,22 @@ export interface ParameterValue extends ReportQuantity {
   /** Given with a picked `unit`: the unit the value is shown in with no pick. */
   originalUnit?: string;
   range?: ReportQuantity[];
+  /** Its spread (a Ratebook report of the `spread` field), in the value's unit. */
+  spread?: SpreadReport;
+}
+
+/**
+ * A parameter's spread as reported: the distribution, its figures in the value's unit (`sd`
+ * a difference for a temperature), and `text` for people ("0.6 /h ± 15%", "0.6 /h ± 0.05 /h",
+ * "0.5–0.7 /h").
+ */
+export interface SpreadReport {
+  distribution: 'normal' | 'lognormal' | 'uniform';
+  sd?: ReportQuantity;
+  cv?: number;
+  from?: ReportQuantity;
+  to?: ReportQuantity;
+  text: string;
 }
 
 export interface ParametersFields {
@@ -293,6 +309,59 @@ export interface SolveFields {
   message: string;
 }
 
+// uncertainty
+
+/** A histogram of one result: bin edges (one more than counts) in `unit`. */
+export interface Histogram {
+  unit: string;
+  edges: number[];
+  counts: number[];
+}
+
+/** What an uncertainty cell found for one name. */
+export interface UncertaintyResult {
+  /** Quantities (mean, median, percentiles in the name's unit, sd a difference); absent for a verdict. */
+  mean?: ReportQuantity;
+  sd?: ReportQuantity;
+  median?: ReportQuantity;
+  p025?: ReportQuantity;
+  p975?: ReportQuantity;
+  /** For a yes/no verdict: the share of samples in which it is yes. */
+  probability?: number;
+  /** For a verdict under the linear method: its value at the present values. */
+  truth?: boolean;
+  /** Monte Carlo: the samples' histogram. */
+  histogram?: Histogram;
+  /** Samples in which the name had no value, and the first reason. */
+  failed: number;
+  reason?: string;
+}
+
+/** An uncertain input as the cell drew it. */
+export interface UncertainInput {
+  name: string;
+  /** For a fit's estimate: the fit cell whose covariance it is drawn from. */
+  cell?: string;
+  /** In words: "0.6 /h ± 15% (log-normal)", "fit "cooling", joint normal, SE 0.01 /h". */
+  text: string;
+}
+
+export interface UncertaintyFields {
+  method: 'monte-carlo' | 'linear';
+  results: Record<string, UncertaintyResult>;
+  inputs: UncertainInput[];
+  /** Monte Carlo: the samples drawn, the seed, and how many had some name undefined (with the first reason). */
+  samples?: number;
+  seed?: number;
+  failed: number;
+  failedReason?: string;
+  /** What-if runs made. */
+  evaluations: number;
+  /** How the figures are defined (quantiles, or the linear method's interval). */
+  notes: string[];
+  summary: string;
+}
+
 // note
 
 export type NoteFields = Record<never, never>;
@@ -307,6 +376,7 @@ export interface CellFields {
   fit: FitFields;
   nca: NcaFields;
   solve: SolveFields;
+  uncertainty: UncertaintyFields;
   note: NoteFields;
   sensitivity: SensitivityFields;
   compare: CompareFields;

@@ -295,9 +295,10 @@ export class StudySession {
       upstream: (name) => this.upstream(name),
       studyUnits: this.units,
       whatIf: (wanted, replaced) => this.whatIf(wanted, replaced),
+      ...(node.readsUpstream ? { peek: (name: string) => bound(this.slots.get(name)) } : {}),
     };
     try {
-      const done = metered(this.limits.cellWork ?? DEFAULT_CELL_WORK, this.deadline, () => node.run(ctx));
+      const done = metered((this.limits.cellWork ?? DEFAULT_CELL_WORK) * Math.max(1, node.workScale ?? 1), this.deadline, () => node.run(ctx));
       return done.exceeded ? { ok: false, error: stoppedError(node, done.exceeded, this.limits) } : done.value!;
     } catch (err) {
       return internalError(node, err);

@@ -121,7 +121,10 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
     if (key === undefined) return refuse(unknown(name), name);
     const node = graph.nodes.get(key)!;
     const kind = view.cellKind(node.cell);
-    if (kind !== 'parameters' && node.role !== 'state') {
+    // a fit's estimate, drawn from its joint normal by an uncertainty cell, may be replaced too
+    const estimate = view.slot(name);
+    const drawn = estimate?.kind === 'value' && estimate.spread?.kind === 'joint';
+    if (kind !== 'parameters' && node.role !== 'state' && !drawn) {
       return refuse(`"${name}" is computed by ${kind ?? 'a'} cell "${node.cell}"; only parameters and the initial values of states can be replaced`, name);
     }
     const slot = view.slot(name);
@@ -180,6 +183,8 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
     return i;
   };
   const replacedAt = names.map(slotOf);
+  // a name's slot as it stands in this call
+  const nowOf = (name: string): Slot | undefined => { const i = index.get(name); return i === undefined ? view.slot(name) : slots[i]; };
   const steps: Step[] = plan.map((key) => {
     const node = graph.nodes.get(key)!;
     const sources = graph.sources.get(key)!;
@@ -202,7 +207,8 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
       upstream: (name) => upstreamOf(graph, name),
       ...(view.studyUnits ? { studyUnits: view.studyUnits } : {}),
       // nested: a node that runs what-ifs of its own (a solve cell) plans over this call's values
-      whatIf: (w, r) => prepareWhatIf({ ...view, slot: (name) => { const i = index.get(name); return i === undefined ? view.slot(name) : slots[i]; } }, w, r),
+      whatIf: (w, r) => prepareWhatIf({ ...view, slot: nowOf }, w, r),
+      ...(node.readsUpstream ? { peek: (name: string) => { const s = nowOf(name); return s && s.kind !== 'unavailable' ? s : undefined; } } : {}),
     };
     const out = node.defines.filter((d) => graph.definers.get(d.name) === key).map((d) => [d.name, slotOf(d.name)] as const);
     return { node, problem: graph.problems.get(key), ctx, out, read };

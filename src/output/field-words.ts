@@ -11,6 +11,7 @@ import type { Cell, CellKind } from '../study/types.ts';
 export const KIND_LABELS: Readonly<Record<CellKind, string>> = {
   parameters: 'Parameters', rate: 'Rate law', phase: 'Where it settles', simulate: 'Run',
   data: 'Measurements', fit: 'Fit', nca: 'Profile summary', solve: 'Solve for', note: 'Note',
+  uncertainty: 'How sure',
   sensitivity: 'What matters most', compare: 'Scenarios',
 };
 
@@ -50,6 +51,8 @@ const FIELD_WORDS: Readonly<Record<string, Readonly<Record<string, string>>>> = 
   'cell:data': { csv: 'CSV text' },
   'cell:note': { text: 'text' },
   'cell:solve': { vary: 'varied value', target: 'target' },
+  'cell:uncertainty': { of: 'names carried', method: 'method', samples: 'samples', seed: 'seed' },
+  spread: { distribution: 'spread', sd: 'spread SD', cv: 'spread CV', from: 'spread from', to: 'spread to' },
   'cell:sensitivity': { of: 'results', parameters: 'parameters' },
   'cell:compare': { run: 'run', scenarios: 'scenarios' },
   vary: { parameter: 'parameter varied', as: 'name of the result', min: 'lowest value', max: 'highest value', roundTo: 'round to', choices: 'choices', guess: 'guess' },
@@ -148,7 +151,7 @@ export function fieldWords(study: CellsOf, path: string, withCell = true): strin
     const words = FIELD_WORDS[context]?.[key];
     parts.push(words ?? spaced(key));
     // inside a sweep, the tolerances, a solve's vary or target, the field's own words say enough (`sweep start`)
-    if ((key === 'sweep' || key === 'tolerance' || key === 'vary' || key === 'target') && at < steps.length - 1) { context = key; parts.pop(); }
+    if ((key === 'sweep' || key === 'tolerance' || key === 'vary' || key === 'target' || key === 'spread') && at < steps.length - 1) { context = key; parts.pop(); }
     node = next;
   }
   if (!withCell) return parts.length > 1 ? parts.slice(1).join(', ') : 'the cell';

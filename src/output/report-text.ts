@@ -3,6 +3,7 @@ import type { CellReport, Report } from '../engine/report.ts';
 import { formatNumber } from '../units/quantity.ts';
 import { unitAfterNumber } from '../units/units.ts';
 import { scenarioRows } from './report-text-scenarios.ts';
+import { uncertaintyRows } from './report-text-uncertainty.ts';
 
 interface Q { value: number; unit: string; si: number }
 
@@ -30,8 +31,9 @@ function formatCell(cell: CellReport): string[] {
     out.push(`    ${cell.error.path}: ${cell.error.message}`);
     for (const e of (cell.errors ?? []).slice(1)) out.push(`    ${e.path}: ${e.message}`);
   }
-  const rows: Array<[string, string]> = scenarioRows(cell) ?? [];
-  for (const [key, value] of scenarioRows(cell) ? [] : Object.entries(cell)) {
+  const special = scenarioRows(cell) ?? uncertaintyRows(cell);
+  const rows: Array<[string, string]> = special ?? [];
+  for (const [key, value] of special ? [] : Object.entries(cell)) {
     if (HIDDEN.has(key) || key === 'computed') continue;
     if (key === 'equilibria' && Array.isArray(value)) {
       for (const e of value as Array<Q & { stability: string; slope: Q }>) rows.push(['equilibrium', `${showQuantity(e)}  ${e.stability} (slope ${showQuantity(e.slope)})`]);
@@ -86,5 +88,6 @@ function showQuantity(q: Q): string {
   // a parameter that is a condition (a verdict): yes or no
   if (typeof (q as { truth?: unknown }).truth === 'boolean') return (q as { truth?: boolean }).truth ? 'yes' : 'no';
   const v = formatNumber(q.value, 6);
-  return q.unit ? `${v} ${unitAfterNumber(q.unit)}` : v;
+  const spread = (q as { spread?: { text?: string } }).spread?.text;
+  return `${q.unit ? `${v} ${unitAfterNumber(q.unit)}` : v}${spread ? `  (spread ${spread})` : ''}`;
 }

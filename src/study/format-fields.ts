@@ -22,7 +22,7 @@ type CellOf<K extends CellKind> = Extract<Cell, { kind: K }>;
 
 /** Every field of every kind, in the order the editor shows them. */
 export const FORMAT_FIELDS = {
-  parameters: ['id', 'kind', 'title', 'items[].name', 'items[].value', 'items[].range', 'items[].note', 'items[].unit', 'items[].glance'],
+  parameters: ['id', 'kind', 'title', 'items[].name', 'items[].value', 'items[].range', 'items[].note', 'items[].unit', 'items[].glance', 'items[].spread.distribution', 'items[].spread.sd', 'items[].spread.cv', 'items[].spread.from', 'items[].spread.to'],
   rate: ['id', 'kind', 'title', 'state', 'rate', 'unit', 'initial'],
   phase: ['id', 'kind', 'title', 'rate', 'from', 'to', 'sweep.name', 'sweep.from', 'sweep.to', 'sweep.steps'],
   simulate: [
@@ -36,6 +36,7 @@ export const FORMAT_FIELDS = {
   fit: ['id', 'kind', 'title', 'rates', 'run', 'data', 'time', 'observe', 'estimate[].parameter', 'estimate[].as', 'estimate[].guess', 'estimate[].min', 'estimate[].max', 'estimate[].unit', 'estimate[].prior.median', 'estimate[].prior.omega', 'weighting', 'error.additive', 'error.proportional', 'plotScale'],
   nca: ['id', 'kind', 'title', 'data', 'time', 'concentration', 'dose', 'route', 'duration', 'auc', 'terminal', 'prefix', 'units'],
   solve: ['id', 'kind', 'title', 'vary.parameter', 'vary.as', 'vary.min', 'vary.max', 'vary.roundTo', 'vary.choices', 'vary.guess', 'target.value', 'target.equals'],
+  uncertainty: ['id', 'kind', 'title', 'of', 'method', 'samples', 'seed'],
   note: ['id', 'kind', 'title', 'text'],
   sensitivity: ['id', 'kind', 'title', 'of', 'parameters'],
   compare: ['id', 'kind', 'title', 'run', 'scenarios[].name', 'scenarios[].set'],

@@ -6,7 +6,7 @@ import { METHODS, type Method } from '../numerics/ode/integrate.ts';
 export const FORMAT = 'ratebook-study';
 export const CURRENT_VERSION = 1;
 
-export const CELL_KINDS = ['parameters', 'rate', 'phase', 'simulate', 'data', 'fit', 'nca', 'solve', 'note', 'sensitivity', 'compare'] as const;
+export const CELL_KINDS = ['parameters', 'rate', 'phase', 'simulate', 'data', 'fit', 'nca', 'solve', 'note', 'sensitivity', 'compare', 'uncertainty'] as const;
 export type CellKind = (typeof CELL_KINDS)[number];
 
 export interface CellBase {
@@ -24,6 +24,23 @@ export interface ParameterItem {
   unit?: string;
   /** Listed among the results at a glance (optional; see output/glance.ts). */
   glance?: boolean;
+  /** How uncertain the value is (optional): a distribution around it, for the uncertainty cell. */
+  spread?: ParameterSpread;
+}
+
+/** The distributions a parameter's spread may take. */
+export const DISTRIBUTIONS = ['normal', 'lognormal', 'uniform'] as const;
+export type Distribution = (typeof DISTRIBUTIONS)[number];
+/**
+ * A parameter's spread: `normal` with `sd` (an expression in the value's unit), `lognormal`
+ * with `cv` (a plain number; the value is the median), `uniform` from `from` to `to`.
+ */
+export interface ParameterSpread {
+  distribution: Distribution;
+  sd?: string;
+  cv?: number | string;
+  from?: string;
+  to?: string;
 }
 
 export interface ParametersCell extends CellBase { kind: 'parameters'; items: ParameterItem[] }
@@ -175,6 +192,25 @@ export interface SolveCell extends CellBase {
   target: { value: string; equals: string };
 }
 
+/** How an uncertainty cell propagates: sampling, or first-order (the law of propagation of uncertainty). */
+export const UNCERTAINTY_METHODS = ['monte-carlo', 'linear'] as const;
+export type UncertaintyMethod = (typeof UNCERTAINTY_METHODS)[number];
+/** The most samples an uncertainty cell draws. */
+export const MAX_SAMPLES = 100_000;
+/**
+ * An uncertainty cell: every spread and fit covariance upstream of the names in `of` carried to
+ * them (cells/uncertainty.ts).
+ */
+export interface UncertaintyCell extends CellBase {
+  kind: 'uncertainty';
+  of: string[];
+  method?: UncertaintyMethod;
+  /** Monte Carlo samples, 1 to MAX_SAMPLES (default 2000). */
+  samples?: number;
+  /** The seed of the draws, a whole number from 0 to 4294967295 (default 1). */
+  seed?: number;
+}
+
 /**
  * A sensitivity cell: for each name in `of` and each parameter (or state, its initial value),
  * d of / d parameter and d ln of / d ln parameter (cells/sensitivity.ts).
@@ -187,7 +223,7 @@ export interface CompareScenario { name: string; set: Record<string, string> }
 export interface CompareCell extends CellBase { kind: 'compare'; run: string; scenarios: CompareScenario[] }
 
 export type Cell = ParametersCell | RateCell | PhaseCell | SimulateCell | DataCell | FitCell | NcaCell | SolveCell | NoteCell
-  | SensitivityCell | CompareCell;
+  | SensitivityCell | CompareCell | UncertaintyCell;
 
 export interface Study {
   format: typeof FORMAT;

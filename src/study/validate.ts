@@ -10,6 +10,7 @@ import {
   METHODS, PLOT_SCALES, FIND_KINDS, WEIGHTINGS, ROUTES, AUC_RULES, NCA_RESULTS,
 } from './types.ts';
 import { migrate } from './migrate.ts';
+import { checkSpread, checkUncertainty } from './validate-uncertainty.ts';
 import { checkSensitivity, checkCompare } from './validate-scenarios.ts';
 import { shortJson, textLimitProblem, valueLimitProblem, withoutByteOrderMark } from './limits.ts';
 
@@ -122,6 +123,7 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
           p.optionalText(item, 'note', path);
           p.optionalText(item, 'unit', path);
           p.optionalFlag(item, 'glance', path);
+          if (item.spread !== undefined) checkSpread(item.spread, p, path);
         });
       }
       break;
@@ -213,6 +215,9 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
       break;
     case 'solve':
       checkSolve(c, p);
+      break;
+    case 'uncertainty':
+      checkUncertainty(c, p);
       break;
     case 'note':
       p.text(c, 'text');

@@ -42,6 +42,7 @@ const FIRST_FIELD: Record<string, string> = {
   solve: 'Parameter or state to vary',
   sensitivity: 'Result to follow 1',
   compare: 'Name of scenario 1',
+  uncertainty: 'Names to carry the uncertainty to, separated by commas',
   note: 'Note text',
 };
 

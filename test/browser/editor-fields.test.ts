@@ -14,7 +14,8 @@ export const EVERY_FIELD: Study = {
   format: 'ratebook-study', version: 1, title: 'Every field (invented numbers)', description: 'For the editor only.', author: 'A. Tester', cells: [
     { id: 'p', kind: 'parameters', title: 'Inputs', items: [
       { name: 'k', value: '0.1 / h', range: ['0.05 / h', '0.2 / h'], note: 'invented', unit: '1 / d', glance: true },
-      { name: 'kb', value: '0.3 / h' }, { name: 'V', value: '40 L' }, { name: 'dose', value: '400 mg' },
+      { name: 'kb', value: '0.3 / h', spread: { distribution: 'normal', sd: '0.03 / h' } }, { name: 'V', value: '40 L', spread: { distribution: 'lognormal', cv: 0.2 } },
+      { name: 'dose', value: '400 mg', spread: { distribution: 'uniform', from: '380 mg', to: '420 mg' } },
       { name: 'tau', value: '12 h' }, { name: 'n_doses', value: '6' }, { name: 'MIC', value: '2 mg / L' },
     ] },
     { id: 'c', kind: 'rate', title: 'Central', state: 'C', unit: 'mg / L', rate: '-k * C', initial: '0 mg / L' },
@@ -53,6 +54,7 @@ export const EVERY_FIELD: Study = {
     { id: 'sv', kind: 'solve', title: 'Dose for a trough', vary: { parameter: 'dose', as: 'dose_new', min: '100 mg', max: '2000 mg', roundTo: '50 mg', guess: '400 mg' },
       target: { value: 'trough_last', equals: '1 mg / L' } },
     { id: 'sc', kind: 'solve', title: 'Interval', vary: { parameter: 'tau', as: 'tau_new', choices: ['8 h', '12 h', '24 h'] }, target: { value: 'trough_last', equals: '1 mg / L' } },
+    { id: 'u', kind: 'uncertainty', title: 'How sure', of: ['trough_last'], method: 'monte-carlo', samples: 50, seed: 3 },
     { id: 'sens', kind: 'sensitivity', title: 'What matters', of: ['trough_last'], parameters: ['k', 'V'] },
     { id: 'cmp', kind: 'compare', title: 'Intervals', run: 'run', scenarios: [{ name: 'q12', set: {} }, { name: 'q8', set: { tau: '8 h' } }] },
     { id: 'm', kind: 'note', title: 'About', text: 'Every field once, with invented numbers.' },

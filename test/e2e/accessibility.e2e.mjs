@@ -20,9 +20,10 @@ const AXE_SOURCE = readFileSync(createRequire(import.meta.url).resolve('axe-core
 /**
  * Templates that between them hold every cell kind: parameters, rate, phase (with its plot)
  * and simulate (time plot); data, fit and NCA; a fit whose plot shows measured points; a phase
- * cell with a sweep; solve cells over a range and among choices; a compare and a sensitivity cell.
+ * cell with a sweep; solve cells over a range and among choices; a compare and a sensitivity cell;
+ * an uncertainty cell and parameters with spreads.
  */
-const TEMPLATES = ['convection-radiation-cooling', 'plasma-levels', 'cooling-data-fit', 'harvested-stock-fold', 'dose-for-target-trough', 'flush-pump-settings'];
+const TEMPLATES = ['convection-radiation-cooling', 'plasma-levels', 'cooling-data-fit', 'harvested-stock-fold', 'dose-for-target-trough', 'flush-pump-settings', 'trough-in-range-probability'];
 
 /** Runs axe on the page as it is and returns its violations, one line per element. */
 async function violations(page) {

@@ -95,13 +95,17 @@ describe('bounds on a study file, checked before anything walks it', () => {
 });
 
 describe('each cell within its work budget', () => {
-  it('every template computes each cell within 100,000 units, 1/30 of the default budget', () => {
+  it('every template computes each cell within 100,000 units, 1/30 of the default budget (an uncertainty cell, which runs part of the study once per sample, within its own)', () => {
     assert.ok(100000 * 30 <= DEFAULT_CELL_WORK);
+    // an uncertainty cell's budget is one cell budget per 1,000 samples (cells/uncertainty.ts):
+    // held to it at the default, and left out of the comparison at 1/30 of it
+    const sampled = (r: { cells: Array<{ kind: string }> }) => ({ ...r, cells: r.cells.filter((c) => c.kind !== 'uncertainty') });
     for (const name of templates) {
       const plain = openStudy(template(name));
       const small = openStudy(template(name), { cellWork: 100000 });
       assert.ok(plain.ok && small.ok);
-      assert.deepEqual(small.session.report(), plain.session.report(), name);
+      for (const c of plain.session.report().cells) if (c.kind === 'uncertainty') assert.ok(c.ok, `${name}: ${c.id} ${JSON.stringify(c.error)}`);
+      assert.deepEqual(sampled(small.session.report()).cells, sampled(plain.session.report()).cells, name);
     }
   });
 

@@ -3,7 +3,8 @@
 // swapped, text cut short, a byte-order mark, nesting 40 deep) go through the engine and the
 // command line. Checked for every case: nothing throws, no JavaScript stack is printed, no cell
 // reports an internal error, every message names a path (a cell's on its own cells[i]), and
-// the study's work stays within the stated budget: FUZZ_CELL_WORK units per cell, plus at most
+// the study's work stays within the stated budget: FUZZ_CELL_WORK units per cell (an uncertainty
+// cell: that times its workScale, one budget per 1,000 samples), plus at most
 // one charge's overshoot (numerics/work-meter.ts counts evaluations, steps, samples, sweep points and
 // doses). Budgets, not clocks: speed goals live in `npm run bench`.
 //
@@ -14,6 +15,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFileSync, readdirSync } from 'node:fs';
+import { workScaleOf } from '../../src/cells/uncertainty.ts';
 import fc from 'fast-check';
 import { main, type Io } from '../../src/cli/cli.ts';
 import { openStudy } from '../../src/engine/session.ts';
@@ -118,6 +120,14 @@ function checkCells(cells: readonly CellReport[], where: string): void {
   });
 }
 
+/** The study's budget: each cell's own (an uncertainty cell may use several, `workScaleOf`), plus the overshoot. */
+function budgetOf(doc: unknown, cellCount: number): number {
+  const cells = (doc as { cells?: unknown[] }).cells ?? [];
+  let total = 0;
+  for (let i = 0; i < cellCount; i++) total += FUZZ_CELL_WORK * workScaleOf(cells[i]) + OVERSHOOT;
+  return total;
+}
+
 const TOP_LEVEL = /^(format|version|title|description|author|cells)\b/;
 
 describe('fuzz: mutated studies through the engine and the command line', () => {
@@ -136,7 +146,7 @@ describe('fuzz: mutated studies through the engine and the command line', () => 
           const report = opened.session.report();
           cellCount = report.cells.length;
           checkCells(report.cells, `engine, ${where}`);
-          assert.ok(engine.used <= cellCount * (FUZZ_CELL_WORK + OVERSHOOT), `${where}: ${engine.used} units of work for ${cellCount} cells`);
+          assert.ok(engine.used <= budgetOf(doc, cellCount), `${where}: ${engine.used} units of work for ${cellCount} cells`);
         } else {
           assert.equal(typeof opened.error.path, 'string');
           if (opened.error.path) assert.match(opened.error.path, TOP_LEVEL, where);
@@ -159,7 +169,7 @@ describe('fuzz: mutated studies through the engine and the command line', () => 
           if (form !== 'cut') assert.equal(opened.ok, true, `${where}: the command line opened what the engine refused`);
           const report = JSON.parse(out) as { cells: CellReport[] };
           checkCells(report.cells, `command line, ${where}`);
-          assert.ok(cli.used <= report.cells.length * (FUZZ_CELL_WORK + OVERSHOOT), `${where}: ${cli.used} units of work`);
+          assert.ok(cli.used <= budgetOf(doc, report.cells.length), `${where}: ${cli.used} units of work`);
         }
       },
     ), { numRuns: RUNS, includeErrorInReport: true });

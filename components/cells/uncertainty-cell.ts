@@ -1,0 +1,99 @@
+import { html, nothing, css, unsafeCSS } from 'lit';
+import { MAX_SAMPLES, formatNumber, type UncertaintyResult } from '../../src/index.ts';
+import { cellStyles, footError, showQ } from './common.ts';
+import { CellElement, type CellDoc } from './cell-element.ts';
+import { histogramPlot, HISTOGRAM_CSS } from '../plots/histogram-plot.ts';
+
+type UncertaintyDoc = CellDoc<'uncertainty'>;
+
+/**
+ * An uncertainty cell: the names to carry the uncertainty to, the method, samples and seed;
+ * the engine's results (a table of mean, SD, median and the 2.5–97.5 percentile interval, a
+ * verdict's probability of yes, a histogram per result), the uncertain inputs it drew, and
+ * the samples in which a name had no value. Renders only.
+ */
+export class UncertaintyCellElement extends CellElement<'uncertainty'> {
+  static override styles = [cellStyles, css`
+    input.names { width: 18rem; max-width: 100%; }
+    input.count { width: 7rem; }
+    table.results td, table.results th { text-align: right; }
+    table.results td.name, table.results th.name { text-align: left; }
+    .failed { color: #8a4b00; }
+    .table-scroll { overflow-x: auto; max-width: 100%; }
+    ${unsafeCSS(HISTOGRAM_CSS)}
+  `];
+
+  override render() {
+    const c = this.cell;
+    const claims = this.claims;
+    const of = Array.isArray(c.of) ? c.of : [];
+    const method = c.method ?? 'monte-carlo';
+    const ofError = claims.take('.of') ?? of.map((_, i) => claims.take(`.of[${i}]`)).find((e) => e);
+    return html`
+      <div class="row">
+        <label>How sure are <input class="names" type="text" data-field="of" aria-label="Names to carry the uncertainty to, separated by commas"
+          .value=${of.join(', ')} @change=${(e: Event) => this.setOf((e.target as HTMLInputElement).value)} /></label>
+        ${footError(ofError)}
+      </div>
+      <div class="row">
+        <label>Method <select data-field="method" @change=${(e: Event) => this.setMethod((e.target as HTMLSelectElement).value as UncertaintyDoc['method'])}>
+          <option value="monte-carlo" ?selected=${method === 'monte-carlo'}>Monte Carlo (samples)</option>
+          <option value="linear" ?selected=${method === 'linear'}>linear (first order)</option></select></label>
+        ${method === 'monte-carlo' ? html`
+          <label>Samples <input class="count" type="number" min="1" max=${MAX_SAMPLES} step="1" data-field="samples" .value=${String(c.samples ?? 2000)}
+            @change=${(e: Event) => this.setNumber('samples', (e.target as HTMLInputElement).value)} /></label>
+          <label>Seed <input class="count" type="number" min="0" step="1" data-field="seed" .value=${String(c.seed ?? 1)}
+            @change=${(e: Event) => this.setNumber('seed', (e.target as HTMLInputElement).value)} /></label>` : nothing}
+        ${footError(claims.take('.samples') ?? claims.take('.seed') ?? claims.take('.method'))}
+      </div>
+      ${this.results()}
+      ${this.footErrors()}`;
+  }
+
+  private results() {
+    const r = this.report;
+    if (!r?.ok || !r.results) return nothing;
+    const entries = Object.entries(r.results);
+    const quantities = entries.filter(([, x]) => x.mean);
+    const verdicts = entries.filter(([, x]) => x.probability !== undefined || x.truth !== undefined);
+    const none = entries.filter(([, x]) => !x.mean && x.probability === undefined && x.truth === undefined);
+    return html`
+      ${quantities.length ? html`<div class="table-scroll" role="region" tabindex="0" aria-label="How sure each result is"><table class="results"><caption class="sr">How sure each result is</caption>
+        <thead><tr><th class="name">Result</th><th>mean</th><th>SD</th><th>median</th><th>95% interval (2.5–97.5 percentile)</th>${r.method === 'monte-carlo' ? html`<th>no value</th>` : nothing}</tr></thead>
+        <tbody>${quantities.map(([name, x]) => html`<tr><td class="name">${name}</td><td class="result">${showQ(x.mean)}</td><td class="result">${showQ(x.sd)}</td>
+          <td class="result">${showQ(x.median)}</td><td class="result">${showQ(x.p025)} to ${showQ(x.p975)}</td>
+          ${r.method === 'monte-carlo' ? html`<td class=${x.failed ? 'failed' : ''}>${x.failed}</td>` : nothing}</tr>`)}</tbody></table></div>` : nothing}
+      ${verdicts.map(([name, x]) => html`<p class="verdict">${this.verdictWords(name, x, r.samples)}</p>`)}
+      ${none.map(([name, x]) => html`<p class="foot-error">${name}: no value (${x.reason ?? 'no reason given'}).</p>`)}
+      ${r.failed ? html`<p class="failed">${r.failed.toLocaleString('en-US')} of ${r.samples?.toLocaleString('en-US')} samples left a name without a value: ${r.failedReason}.</p>` : nothing}
+      ${quantities.filter(([, x]) => x.histogram).map(([name, x]) => histogramPlot(name, x.histogram!, [x.p025, x.p975]))}
+      <p class="muted">Uncertain inputs: ${(r.inputs ?? []).map((i) => `${i.name} ${i.text}`).join('; ')}.</p>
+      <p class="muted">${r.summary} ${r.evaluations} runs of the study's values. ${(r.notes ?? []).join(' ')}</p>`;
+  }
+
+  private verdictWords(name: string, x: UncertaintyResult, samples: number | undefined) {
+    if (x.probability !== undefined) {
+      const counted = (samples ?? 0) - x.failed;
+      return html`${name}: yes in <span class="result">${formatNumber(100 * x.probability, 3)}%</span> of ${counted.toLocaleString('en-US')} samples${x.failed ? html` <span class="failed">(${x.failed} without a value)</span>` : nothing}`;
+    }
+    return html`${name}: ${x.truth ? 'yes' : 'no'} at the present values (the linear method gives no probability for a yes/no verdict)`;
+  }
+
+  private setOf(text: string) {
+    const of = text.split(/[,\s]+/).map((s) => s.trim()).filter((s) => s);
+    this.edit({ of });
+  }
+
+  private setMethod(method: UncertaintyDoc['method']) {
+    this.edit({ method });
+  }
+
+  /** A whole number as typed; a blank removes the field (its default applies), anything else is kept for the engine to refuse. */
+  private setNumber(key: 'samples' | 'seed', text: string) {
+    const { [key]: _old, ...rest } = this.cell;
+    if (text.trim() === '') this.replace(rest as UncertaintyDoc);
+    else this.replace({ ...rest, [key]: Number(text) } as UncertaintyDoc);
+  }
+}
+
+customElements.define('uncertainty-cell', UncertaintyCellElement);

@@ -1,0 +1,29 @@
+/**
+ * The printed sheet's section of an uncertainty cell: the spread of every uncertain input, the
+ * result table with its intervals, each verdict's probability, and a histogram per result.
+ * Layout only: every number is the report's.
+ */
+import { html, nothing, type TemplateResult } from 'lit';
+import type { Cell, ReportOf } from '../../src/index.ts';
+import { formatNumber } from '../../src/index.ts';
+import { showQ } from '../cells/common.ts';
+import { histogramPlot } from '../plots/histogram-plot.ts';
+
+type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
+
+export function uncertaintySheet(cell: Of<'uncertainty'>, r: ReportOf<'uncertainty'>): TemplateResult {
+  const results = Object.entries(r.results ?? {});
+  const mc = r.method === 'monte-carlo';
+  return html`<p>How sure ${(cell.of ?? []).join(', ')} ${(cell.of ?? []).length === 1 ? 'is' : 'are'}: ${mc ? `${r.samples?.toLocaleString('en-US')} Monte Carlo samples (seed ${r.seed})` : 'first-order propagation (linear)'} over these inputs.</p>
+    <table><thead><tr><th>Input</th><th>Spread</th></tr></thead>
+    <tbody>${(r.inputs ?? []).map((i) => html`<tr><td class="name">${i.name}</td><td>${i.text}</td></tr>`)}</tbody></table>
+    <table class="how-sure"><thead><tr><th>Result</th><th>Mean</th><th>SD</th><th>Median</th><th>95% interval</th>${mc ? html`<th>No value</th>` : nothing}</tr></thead>
+    <tbody>${results.map(([name, x]) => html`<tr><td class="name">${name}</td>${x.mean
+      ? html`<td class="num">${showQ(x.mean)}</td><td class="num">${showQ(x.sd)}</td><td class="num">${showQ(x.median)}</td><td class="num">${showQ(x.p025)} to ${showQ(x.p975)}</td>`
+      : html`<td colspan="4">${x.probability !== undefined ? `yes in ${formatNumber(100 * x.probability, 3)}% of samples` : x.truth !== undefined ? `${x.truth ? 'yes' : 'no'} at the present values` : `no value: ${x.reason ?? ''}`}</td>`}
+      ${mc ? html`<td class="num">${x.failed}</td>` : nothing}</tr>`)}</tbody></table>
+    ${r.failed ? html`<p class="check">${r.failed} samples left a name without a value: ${r.failedReason}.</p>` : nothing}
+    ${results.filter(([, x]) => x.histogram).map(([name, x]) => html`<div class="keep">${histogramPlot(name, x.histogram!, [x.p025, x.p975], false)}</div>`)}
+    ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}
+    ${(r.notes ?? []).map((n) => html`<p class="check">${n}</p>`)}`;
+}

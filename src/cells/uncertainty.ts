@@ -1,0 +1,97 @@
+/**
+ * An uncertainty cell: how sure the names in `of` are, given every spread upstream of them (a
+ * parameter's `spread`, a fit's estimates with their covariance). It draws or perturbs those
+ * inputs with the what-if evaluator (engine/what-if.ts, `RunContext.whatIf`), so only what lies
+ * between them and the names runs again and the study's own values are never touched.
+ * Inputs: uncertainty-inputs.ts; the methods: uncertainty-methods.ts; the report and the names
+ * defined downstream (`<name>_p025`, `_p975`, `_sd`, `_probability`): uncertainty-report.ts.
+ */
+import type { UncertaintyCell } from '../study/types.ts';
+import { MAX_SAMPLES } from '../study/types.ts';
+import type { GraphNode, Outcome, RunContext, Use } from '../engine/node.ts';
+import type { NodeOutput } from '../engine/report.ts';
+import { fail, guarded } from './fields.ts';
+import { uncertainInputs, drawerOf, workingOf, inputWords } from './uncertainty-inputs.ts';
+import { monteCarlo, linear } from './uncertainty-methods.ts';
+import { RESULT_ENDINGS, monteCarloOutcome, linearOutcome } from './uncertainty-report.ts';
+
+/** Samples drawn when `samples` is not given, and the seed when `seed` is not. */
+export const DEFAULT_SAMPLES = 2000;
+export const DEFAULT_SEED = 1;
+/** Samples per cell work budget (engine/budget.ts): about 3,000 units per sample, more than the 6-dose schedule with four questions needs (about 1,900). */
+export const SAMPLES_PER_BUDGET = 1000;
+/** The most cell budgets an uncertainty cell may use: past it, it is stopped with the budget's message (fewer samples, or a lighter run). */
+export const MOST_BUDGETS = 10;
+
+/**
+ * How many cell budgets a cell may use (`GraphNode.workScale`): for an uncertainty cell one per
+ * 1,000 samples (its default samples for the linear method), 1 to MOST_BUDGETS; 1 for another cell.
+ */
+export function workScaleOf(cell: unknown): number {
+  const c = cell as Partial<UncertaintyCell> | null;
+  if (c?.kind !== 'uncertainty') return 1;
+  const samples = c.method !== 'linear' && Number.isInteger(c.samples) ? (c.samples as number) : DEFAULT_SAMPLES;
+  return Math.min(MOST_BUDGETS, Math.max(1, samples / SAMPLES_PER_BUDGET));
+}
+
+export function uncertaintyNodes(cell: UncertaintyCell, at: string): Array<GraphNode<NodeOutput<'uncertainty'>>> {
+  const of = Array.isArray(cell.of) ? cell.of.filter((n): n is string => typeof n === 'string') : [];
+  // each name is read even when it has no value now: a sample may give it one
+  const uses: Use[] = of.map((name, i) => ({ name, path: `${at}.of[${i}]`, optional: true }));
+  return [{
+    key: `${cell.id}/uncertainty`,
+    cell: cell.id,
+    defines: of.flatMap((name, i) => RESULT_ENDINGS.map((end) => ({ name: `${name}${end}`, path: `${at}.of[${i}]` }))),
+    uses,
+    allowsTime: false,
+    readsUpstream: true,
+    workScale: workScaleOf(cell),
+    signature: JSON.stringify(cell),
+    problems: [],
+    run: (ctx) => guarded(() => runUncertainty(cell, at, of, ctx)),
+  }];
+}
+
+function runUncertainty(cell: UncertaintyCell, at: string, of: readonly string[], ctx: RunContext): Outcome<NodeOutput<'uncertainty'>> {
+  if (ctx.mode === 'check') return { ok: true, bindings: new Map(), output: { computed: false, message: 'checked; run the study to see how sure its results are' } };
+  if (!ctx.whatIf || !ctx.peek) fail(at, 'this cell cannot vary values here (no what-if evaluation is available)', 'internal');
+  const peek = ctx.peek!;
+  const method = cell.method ?? 'monte-carlo';
+  const samples = cell.samples ?? DEFAULT_SAMPLES;
+  const seed = cell.seed ?? DEFAULT_SEED;
+  if (!(Number.isInteger(samples) && samples >= 1 && samples <= MAX_SAMPLES)) fail(`${at}.samples`, `must be a whole number of samples from 1 to ${MAX_SAMPLES.toLocaleString('en-US')}`);
+  if (of.length === 0) fail(`${at}.of`, 'list the names to carry the uncertainty to');
+
+  // the values with a spread upstream of the names (a name may be one itself)
+  const candidates = new Set<string>();
+  for (const name of of) {
+    candidates.add(name);
+    for (const n of ctx.upstream(name)) candidates.add(n);
+  }
+  const bindingOf = (n: string) => (of.includes(n) ? ctx.binding(n) : peek(n));
+  const found = uncertainInputs(candidates, bindingOf);
+  // keep those that can change a name (a fit's estimates reach a run's plot without changing its answers)
+  const inputs = found.filter((x) => {
+    if (of.includes(x.name)) return true;
+    const w = ctx.whatIf!(of, [x.name]);
+    return w.ok && w.plan.length > 0;
+  });
+  if (inputs.length === 0) {
+    fail(`${at}.of`, `${of.length === 1 ? `"${of[0]}" depends` : 'none of these names depends'} on no value with a spread: give a parameter upstream a spread (beside its value), or read a fit's estimates`);
+  }
+  const prepared = ctx.whatIf!(of, inputs.map((x) => x.name));
+  if (!prepared.ok) {
+    const i = prepared.error.name !== undefined ? of.indexOf(prepared.error.name) : -1;
+    fail(i >= 0 ? `${at}.of[${i}]` : `${at}.of`, prepared.error.message);
+  }
+  const words = inputs.map(inputWords);
+  const present = (name: string) => ctx.binding(name);
+  if (method === 'linear') {
+    const r = linear(prepared, workingOf(inputs));
+    return linearOutcome(of, r, words, present, at);
+  }
+  const drawer = drawerOf(inputs);
+  if (typeof drawer === 'string') fail(`${at}.of`, drawer, 'numeric');
+  const r = monteCarlo(prepared, drawer as Exclude<typeof drawer, string>, inputs.length, samples, seed);
+  return monteCarloOutcome(of, r, words, present, samples, seed, at);
+}
