@@ -182,6 +182,8 @@ export const cellStyles = css`
   caption.start { text-align: left; }
   input[type='text'], input[type='number'], select, textarea { font: inherit; padding: 0.25rem 0.4rem; border: 1px solid #9aa6b1; border-radius: 4px; background: #fff; color: #1c2329; }
   input:focus-visible, select:focus-visible, textarea:focus-visible, button:focus-visible { outline: 2px solid #1d5fa8; outline-offset: 1px; }
+  /* line-height 1.3: at a label's 0.85rem the monospace underscore fell below an input's line box and k_min read "k min" */
+  input[type='text'], input[type='number'] { line-height: 1.3; }
   input.name { width: 7rem; font-family: ui-monospace, monospace; }
   button { font: inherit; font-size: 0.85rem; padding: 0.2rem 0.6rem; border: 1px solid #8795a1; border-radius: 4px; background: #f3f5f7; color: #1c2329; cursor: pointer; }
   button:hover { background: #e4e9ee; }
