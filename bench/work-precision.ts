@@ -39,7 +39,7 @@ export function lambertW0(x: number): number {
   return w;
 }
 
-interface Problem {
+export interface Problem {
   readonly name: string;
   readonly f: Rhs;
   readonly y0: readonly number[];
@@ -52,7 +52,7 @@ interface Problem {
   readonly jump?: number;
 }
 
-function problems(): Problem[] {
+export function problems(): Problem[] {
   const H = P.hour;
   const c = P.cooling, g = P.logistic, b = P.bateman, d = P.doses, s = P.forced, m = P.michaelis;
   const amp = (b.dose * b.ka) / (b.V * (b.ka - b.k));
@@ -107,7 +107,7 @@ function problems(): Problem[] {
 /** One run of ours: evaluations, the error measure, the error in tolerance units, the method that ran. */
 export interface OurRun { readonly evaluations: number; readonly error: number; readonly units: number; readonly method: string }
 
-function ours(p: Problem, method: Method, rtol: number): OurRun {
+export function ours(p: Problem, method: Method, rtol: number): OurRun {
   const grid = Array.from({ length: GRID }, (_, i) => (p.t1 * i) / (GRID - 1));
   const exact = grid.map(p.exact);
   const n = p.y0.length;
