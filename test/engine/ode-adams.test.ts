@@ -5,7 +5,7 @@
 // solve_ivp counts measured once into bench/scipy-reference.json.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { dividedDifferences, newtonIntegrals } from '../../src/numerics/ode/adams.ts';
+import { dividedDifferences, newtonIntegrals } from '../../src/numerics/ode/adams-newton.ts';
 import { integrate } from '../../src/numerics/ode/integrate.ts';
 import { bestReference, ours, problems } from '../../bench/work-precision.ts';
 
