@@ -172,6 +172,11 @@ export const DP853_PAIR: EmbeddedPair = {
   a: DP853_A,
   newRateStage: 12,
   startOrder: 7,
+  // The time-scale start (start-step.ts) saves dp853 45–90 evaluations a run, but its error
+  // estimate is not yet reliable enough for the shifted step sequence (0.8–4 units on
+  // the Bateman problem of test/engine/ode.test.ts at rtol 1e-9 depending on the first step
+  // alone), so it keeps the book's start until that estimate is sharpened.
+  timeScaleStart: false,
   control: DP853_CONTROL,
   stiffness: DP853_STIFFNESS,
   activeModeHLambda: dp853ActiveModeHLambda,
