@@ -22,6 +22,7 @@ import { quantitySig } from './signatures.ts';
 import { repeatCount } from './repeat-count.ts';
 import { collectLaws } from './laws.ts';
 import { FAILURE_CAUSES, Status, formatForMessage, type FailureStatus } from '../numerics/ode/types.ts';
+import { newOdeReuse, type OdeReuse } from '../numerics/ode/integrate.ts';
 import { unstableStep } from '../simulate/unstable-step.ts';
 
 /** Step attempts allowed in one run, all pieces together. */
@@ -92,6 +93,8 @@ export interface SimulationCore {
  */
 export interface CoreMemo {
   schedule?: { readonly key: readonly number[]; readonly actions: ReturnType<typeof expandSchedule> };
+  /** The integrator's set-up, kept from run to run (`OdeReuse`). */
+  ode?: OdeReuse;
   fields?: WeakMap<Field, { readonly names: readonly string[]; deps: Array<Binding | undefined>; q?: Quantity }>;
 }
 
@@ -213,9 +216,10 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
     const level = fq.level ? value(fq.level) : undefined;
     if (level && !sameDim(level.dim, laws[si!].initial.dim)) fail(fq.level!.path, `the level must be ${describeDim(laws[si!].initial.dim)} like ${state}; it is ${describe(level)}`, 'unit');
     const span: [number, number] = [fq.from ? time(fq.from, 'the window start').si : from.si, fq.to ? time(fq.to, 'the window end').si : to.si];
-    const run = `the run (${describe(from)} to ${describe(to)})`;
-    if (span[0] < from.si || span[0] > to.si) fail(`${path}.from`, `the window starts at ${describe(asTime(span[0]))}, outside ${run}`);
-    if (span[1] < from.si || span[1] > to.si) fail(`${path}.to`, `the window ends at ${describe(asTime(span[1]))}, outside ${run}`);
+    // in words only when said: a what-if loop checks every question on every run
+    const run = () => `the run (${describe(from)} to ${describe(to)})`;
+    if (span[0] < from.si || span[0] > to.si) fail(`${path}.from`, `the window starts at ${describe(asTime(span[0]))}, outside ${run()}`);
+    if (span[1] < from.si || span[1] > to.si) fail(`${path}.to`, `the window ends at ${describe(asTime(span[1]))}, outside ${run()}`);
     if (!(span[1] >= span[0])) fail(`${path}.to`, 'the window must end after it starts');
     const atT = fq.at ? time(fq.at, 'the time').si : undefined;
     if (atT !== undefined && (atT < from.si || atT > to.si)) fail(fq.at!.path, `the time ${describe(asTime(atT))} is outside the run`);
@@ -268,7 +272,7 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
       for (let i = 0; i < n; i++) dy[i] = compiled[i](x);
     },
   };
-  const run = runSchedule(sys, timeline, from.si, to.si, { method, step, rtol, atol, maxSteps: MAX_STEPS });
+  const run = runSchedule(sys, timeline, from.si, to.si, { method, step, rtol, atol, maxSteps: MAX_STEPS }, memo.ode ??= newOdeReuse());
   const core = { laws, states, from, to, timeUnit, timeline, scheduled, finds, sys, compiled, inputs, rtol, atol, run };
   if (run.status !== Status.Success) {
     const fl = run.failure!;
