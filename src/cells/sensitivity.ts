@@ -65,7 +65,10 @@ function runSensitivity(at: string, ofList: string[], parameterList: string[], c
     q: quantityBinding(ctx, name, `${at}.parameters[${j}]`, 'name a parameter, or a state (its initial value)').q,
   }));
   // which of the pairs can move at all: of computed from the parameter (or the parameter itself)
-  const depends = followed.map((o) => varied.map((p) => o.name === p.name || ctx.upstream(o.name).has(p.name)));
+  const depends = followed.map((o) => {
+    const up = ctx.upstream(o.name); // a walk of the graph: once per name followed
+    return varied.map((p) => o.name === p.name || up.has(p.name));
+  });
   const moving = varied.map((_, j) => depends.some((row) => row[j]));
   const inputs = varied.flatMap((p, j) => (moving[j] ? [{ ...p, j }] : []));
 

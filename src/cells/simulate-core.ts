@@ -22,6 +22,7 @@ import { quantitySig } from './signatures.ts';
 import { repeatCount } from './repeat-count.ts';
 import { collectLaws } from './laws.ts';
 import { FAILURE_CAUSES, Status, formatForMessage, type FailureStatus } from '../numerics/ode/types.ts';
+import { newOdeReuse, type OdeReuse } from '../numerics/ode/integrate.ts';
 import { unstableStep } from '../simulate/unstable-step.ts';
 
 /** Step attempts allowed in one run, all pieces together. */
@@ -92,6 +93,8 @@ export interface SimulationCore {
  */
 export interface CoreMemo {
   schedule?: { readonly key: readonly number[]; readonly actions: ReturnType<typeof expandSchedule> };
+  /** The integrator's set-up, kept from run to run (`OdeReuse`). */
+  ode?: OdeReuse;
   fields?: WeakMap<Field, { readonly names: readonly string[]; deps: Array<Binding | undefined>; q?: Quantity }>;
 }
 
@@ -213,9 +216,10 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
     const level = fq.level ? value(fq.level) : undefined;
     if (level && !sameDim(level.dim, laws[si!].initial.dim)) fail(fq.level!.path, `the level must be ${describeDim(laws[si!].initial.dim)} like ${state}; it is ${describe(level)}`, 'unit');
     const span: [number, number] = [fq.from ? time(fq.from, 'the window start').si : from.si, fq.to ? time(fq.to, 'the window end').si : to.si];
-    const run = `the run (${describe(from)} to ${describe(to)})`;
-    if (span[0] < from.si || span[0] > to.si) fail(`${path}.from`, `the window starts at ${describe(asTime(span[0]))}, outside ${run}`);
-    if (span[1] < from.si || span[1] > to.si) fail(`${path}.to`, `the window ends at ${describe(asTime(span[1]))}, outside ${run}`);
+    // in words only when said: a what-if loop checks every question on every run
+    const run = () => `the run (${describe(from)} to ${describe(to)})`;
+    if (span[0] < from.si || span[0] > to.si) fail(`${path}.from`, `the window starts at ${describe(asTime(span[0]))}, outside ${run()}`);
+    if (span[1] < from.si || span[1] > to.si) fail(`${path}.to`, `the window ends at ${describe(asTime(span[1]))}, outside ${run()}`);
     if (!(span[1] >= span[0])) fail(`${path}.to`, 'the window must end after it starts');
     const atT = fq.at ? time(fq.at, 'the time').si : undefined;
     if (atT !== undefined && (atT < from.si || atT > to.si)) fail(fq.at!.path, `the time ${describe(asTime(atT))} is outside the run`);
@@ -231,13 +235,17 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
   // default absolute tolerance: a thousandth of the relative one, on the state's own scale
   // (its start, its jumps and infusions, the levels asked about, and the values of its kind
   // that its law reads); when all of those are zero, a billionth of the state's unit
+  // (the largest of those found in plain loops: Math.max taken one value at a time gives the
+  // same number, NaN included, without the arrays a what-if loop would make on every run)
   const atol = Float64Array.from(laws, (l, i) => {
     if (atolQ && sameDim(atolQ.dim, l.initial.dim)) return Math.abs(differenceSize(atolQ));
-    const jumps = timeline.filter((a) => a.kind !== 'set').flatMap((a) => a.targets.filter((t) => t.name === l.state)
-      .map((t) => Math.abs(t.value) * (a.kind === 'add' ? 1 : to.si - from.si)));
-    const levels = finds.filter((q) => q.si === i && q.level).map((q) => Math.abs(q.level!.si));
-    const alike = [...l.scope.values()].filter((q) => sameDim(q.dim, l.initial.dim)).map((q) => Math.abs(q.si));
-    const scale = Math.max(Math.abs(l.initial.si), ...jumps, ...levels, ...alike);
+    let scale = Math.abs(l.initial.si);
+    for (const a of timeline) {
+      if (a.kind === 'set') continue;
+      for (const t of a.targets) if (t.name === l.state) scale = Math.max(scale, Math.abs(t.value) * (a.kind === 'add' ? 1 : to.si - from.si));
+    }
+    for (const q of finds) if (q.si === i && q.level) scale = Math.max(scale, Math.abs(q.level.si));
+    for (const q of l.scope.values()) if (sameDim(q.dim, l.initial.dim)) scale = Math.max(scale, Math.abs(q.si));
     return scale > 0 && Number.isFinite(scale) ? scale * rtol * 1e-3 : 1e-9 * unitFactor(l.stateUnit);
   });
   if (atolQ && !laws.some((l) => sameDim(atolQ.dim, l.initial.dim))) fail(f.atol!.path, `the absolute tolerance must have the unit of a state (${laws.map((l) => formatUnit(l.stateUnit)).join(', ')}); it is ${describe(atolQ)}`, 'unit');
@@ -268,7 +276,7 @@ export function simulateCore(cell: SimulateCell, at: string, f: Fields, ctx: Run
       for (let i = 0; i < n; i++) dy[i] = compiled[i](x);
     },
   };
-  const run = runSchedule(sys, timeline, from.si, to.si, { method, step, rtol, atol, maxSteps: MAX_STEPS });
+  const run = runSchedule(sys, timeline, from.si, to.si, { method, step, rtol, atol, maxSteps: MAX_STEPS }, memo.ode ??= newOdeReuse());
   const core = { laws, states, from, to, timeUnit, timeline, scheduled, finds, sys, compiled, inputs, rtol, atol, run };
   if (run.status !== Status.Success) {
     const fl = run.failure!;
@@ -340,7 +348,7 @@ function answer(core: Integrated): Pick<SimulationCore, 'answers' | 'bindings' |
         break;
       case 'integralOf': {
         const area = integralOver(tr, fq.quadrature, a, b)!;
-        give(fq, { si: area, dim: mulDim(law.initial.dim, TIME), unit: mulUnits(deltaUnit(law.stateUnit), core.timeUnit) });
+        give(fq, { si: area, dim: mulDim(law.initial.dim, TIME), unit: areaUnit(law.stateUnit, core.timeUnit) });
         break;
       }
       case 'timeAbove': case 'timeBelow':
@@ -349,6 +357,23 @@ function answer(core: Integrated): Pick<SimulationCore, 'answers' | 'bindings' |
     }
   }
   return { answers, bindings, reasons };
+}
+
+/** An area's unit (the state's difference unit times the run's time unit), cached by the two units' identity: units are immutable, and a what-if loop asks on every run. */
+const areaUnits = new WeakMap<DisplayUnit, WeakMap<DisplayUnit, DisplayUnit>>();
+
+function areaUnit(state: DisplayUnit, time: DisplayUnit): DisplayUnit {
+  let byTime = areaUnits.get(state);
+  if (!byTime) {
+    byTime = new WeakMap();
+    areaUnits.set(state, byTime);
+  }
+  let unit = byTime.get(time);
+  if (!unit) {
+    unit = mulUnits(deltaUnit(state), time);
+    byTime.set(time, unit);
+  }
+  return unit;
 }
 
 /** A crossing in words, by direction: as a question ("T falls through 21 degC") and as a thing not found ("no T falling through"). */

@@ -63,12 +63,12 @@ export function crossings(tr: Trajectory, i: number, level: number, from = tr.t0
   for (let k = 0; k < tr.pieces.length; k++) {
     const p = tr.pieces[k];
     if (!inWindow(tr, k, from, to)) continue;
-    const g = component(p, i, tr.width);
     const a = Math.max(p.t0, from), b = Math.min(p.t1, to);
     // the value at the piece start: after a jump, if the piece starts inside the window
     const jump = p.t0 >= from && p.t0 === a && lastSign !== 0;
-    const s0 = signAgainst(g(a), level);
-    if (s0 !== 0 && lastSign !== 0 && s0 !== lastSign) found.push(crossingIn(g, level, lastT, a, s0, jump));
+    evalPiece(p, a, out);
+    const s0 = signAgainst(out[i], level);
+    if (s0 !== 0 && lastSign !== 0 && s0 !== lastSign) found.push(crossingIn(component(p, i, tr.width), level, lastT, a, s0, jump));
     if (s0 !== 0) { lastSign = s0; lastT = a; }
     for (const s of p.segments) {
       if (s.t1 <= a || s.t0 >= b) continue;
@@ -78,7 +78,7 @@ export function crossings(tr: Trajectory, i: number, level: number, from = tr.t0
         const t = lo + ((hi - lo) * j) / SAMPLES;
         sampleOn(p, s, t, out);
         const sj = signAgainst(out[i], level);
-        if (sj !== 0 && lastSign !== 0 && sj !== lastSign) found.push(crossingIn(g, level, lastT, t, sj, false));
+        if (sj !== 0 && lastSign !== 0 && sj !== lastSign) found.push(crossingIn(component(p, i, tr.width), level, lastT, t, sj, false));
         if (sj !== 0) { lastSign = sj; lastT = t; }
       }
     }
@@ -111,7 +111,9 @@ export function extreme(tr: Trajectory, i: number, sign: 1 | -1, from = tr.t0, t
     if (!inWindow(tr, k, from, to)) continue;
     const g = component(p, i, tr.width);
     const a = Math.max(p.t0, from), b = Math.min(p.t1, to);
-    for (const t of [a, b]) {
+    // the piece's two ends, a then b (no array of the two: this runs for every question of every run)
+    for (let e = 0; e < 2; e++) {
+      const t = e === 0 ? a : b;
       const v = g(t);
       if (Number.isFinite(v) && (Number.isNaN(bestT) || sign * v > sign * bestValue)) { bestT = t; bestValue = v; }
     }

@@ -3,7 +3,7 @@
  * and restarts after applying the actions (jumps, parameter changes, infusions switched on or
  * off), so no step ever crosses a discontinuity. Pure numbers (SI).
  */
-import { integrate, type Method } from '../numerics/ode/integrate.ts';
+import { integrate, newOdeReuse, type Method, type OdeReuse } from '../numerics/ode/integrate.ts';
 import { Status } from '../numerics/ode/types.ts';
 import type { Action } from './schedule.ts';
 import type { Piece, Trajectory } from './trajectory.ts';
@@ -42,8 +42,12 @@ export interface RunOutcome {
   readonly switchedToStiff: number | null;
 }
 
-/** Runs the system from t0 to t1 through the actions (sorted, as from expandSchedule). */
-export function runSchedule(sys: SystemSpec, actions: readonly Action[], t0: number, t1: number, settings: RunSettings): RunOutcome {
+/**
+ * Runs the system from t0 to t1 through the actions (sorted, as from expandSchedule). The
+ * integrator's set-up is made once for all the pieces, or kept in `reuse` from an earlier
+ * run (a what-if loop runs one system thousands of times); the numbers are the same either way.
+ */
+export function runSchedule(sys: SystemSpec, actions: readonly Action[], t0: number, t1: number, settings: RunSettings, reuse: OdeReuse = newOdeReuse()): RunOutcome {
   const width = sys.n + sys.quadratures.length;
   const y = new Float64Array(width);
   y.set(sys.y0);
@@ -98,21 +102,22 @@ export function runSchedule(sys: SystemSpec, actions: readonly Action[], t0: num
     const r = integrate(f, t, y, next, {
       method: settings.method, step: settings.step, rtol: settings.rtol, atol,
       firstStep, maxSteps: Math.max(1, settings.maxSteps - steps - rejected), autonomous: sys.autonomous,
-    });
+    }, reuse);
     steps += r.counters.steps;
     rejected += r.counters.rejected;
     evaluations += r.counters.evaluations;
     methods.add(r.method);
     if (r.switchedToStiff !== null && switched === null) switched = r.switchedToStiff;
-    pieces.push({ t0: t, t1: r.t, y0, y1: Float64Array.from(r.y), segments: r.segments, params: Float64Array.from(p), infusion: Float64Array.from(infusion) });
-    const outcome = (status: Status) => ({
-      trajectory: { t0, t1: r.t, width, start, pieces }, status, steps, evaluations, rejected, methodsUsed: methods, switchedToStiff: switched,
-      ...(status === Status.Success ? {} : { failure: { t: r.failure?.t ?? r.t, y: Float64Array.from(r.failure?.y ?? r.y), status } }),
-    });
-    if (r.status !== Status.Success) return outcome(r.status);
+    // r.y is the integrator's own copy, which nothing else holds
+    pieces.push({ t0: t, t1: r.t, y0, y1: r.y, segments: r.segments, params: Float64Array.from(p), infusion: Float64Array.from(infusion) });
+    if (r.status !== Status.Success || next >= t1) {
+      return {
+        trajectory: { t0, t1: r.t, width, start, pieces }, status: r.status, steps, evaluations, rejected, methodsUsed: methods, switchedToStiff: switched,
+        ...(r.status === Status.Success ? {} : { failure: { t: r.failure?.t ?? r.t, y: Float64Array.from(r.failure?.y ?? r.y), status: r.status } }),
+      };
+    }
     y.set(r.y);
     t = next;
-    if (next >= t1) return outcome(Status.Success);
     firstStep = r.nextStep;
     apply(next);
   }

@@ -19,7 +19,7 @@ import { type OdeContext, errorNorm } from './control.ts';
 import { type EmbeddedPair, EmbeddedRkStepper } from './embedded-rk.ts';
 import { type ButcherTableau, stageValuesOnMode } from './explicit-rk.ts';
 import type { DenseSegment } from './types.ts';
-import { writeStepEnd } from './types.ts';
+import { DenseSlab, writeStepEnd } from './types.ts';
 
 /** The Dormand–Prince 5(4) tableau (FSAL: the last row of a is b). */
 export const DOPRI5: ButcherTableau = {
@@ -119,27 +119,29 @@ export function activeModeHLambda(rtol: number): number {
 
 /** The continuous solution of one Dormand–Prince step (see `DOPRI5_DENSE`). */
 export class Dopri5Segment implements DenseSegment {
-  /** [y0 | y1 | r3 | r4 | r5], each n long. */
-  private readonly data: Float64Array;
-  constructor(readonly t0: number, readonly t1: number, private readonly h: number, private readonly n: number, data: Float64Array) {
-    this.data = data;
-  }
+  /** `data` from `at`: [y0 | y1 | r3 | r4 | r5], each n long. */
+  constructor(readonly t0: number, readonly t1: number, private readonly h: number, private readonly n: number,
+    private readonly data: Float64Array, private readonly at = 0) {}
 
   eval(t: number, out: Float64Array): void {
-    const { data, n } = this;
-    if (writeStepEnd(t, this.t0, this.t1, data, n, out)) return;
+    const { data, n, at } = this;
+    if (writeStepEnd(t, this.t0, this.t1, data, n, out, at)) return;
     const th = (t - this.t0) / this.h;
     const th1 = 1 - th;
     for (let i = 0; i < n; i++) {
-      const q = data[2 * n + i] + th * (data[3 * n + i] + th1 * data[4 * n + i]);
-      out[i] = th1 * data[i] + th * data[n + i] + th * th1 * q;
+      const q = data[at + 2 * n + i] + th * (data[at + 3 * n + i] + th1 * data[at + 4 * n + i]);
+      out[i] = th1 * data[at + i] + th * data[at + n + i] + th * th1 * q;
     }
   }
 }
 
+/** Where the segments' numbers come from: one chunk for many steps. */
+const slab = new DenseSlab();
+
 function denseSegment(t0: number, t1: number, h: number, y0: Float64Array, y1: Float64Array, k: readonly Float64Array[]): Dopri5Segment {
   const n = y0.length;
-  const data = new Float64Array(5 * n);
+  const at = slab.take(5 * n);
+  const data = slab.data;
   const d = DOPRI5_DENSE;
   for (let i = 0; i < n; i++) {
     const delta = y1[i] - y0[i];
@@ -147,13 +149,13 @@ function denseSegment(t0: number, t1: number, h: number, y0: Float64Array, y1: F
     const r4 = delta - h * k[6][i] - r3;
     let acc = 0;
     for (let j = 0; j < 7; j++) acc += d[j] * k[j][i];
-    data[i] = y0[i];
-    data[n + i] = y1[i];
-    data[2 * n + i] = r3;
-    data[3 * n + i] = r4;
-    data[4 * n + i] = h * acc;
+    data[at + i] = y0[i];
+    data[at + n + i] = y1[i];
+    data[at + 2 * n + i] = r3;
+    data[at + 3 * n + i] = r4;
+    data[at + 4 * n + i] = h * acc;
   }
-  return new Dopri5Segment(t0, t1, h, n, data);
+  return new Dopri5Segment(t0, t1, h, n, data, at);
 }
 
 /** The Dormand–Prince 5(4) pair for the shared adaptive stepper. */

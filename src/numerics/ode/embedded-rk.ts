@@ -96,25 +96,46 @@ export class EmbeddedRkStepper implements Stepper {
   private readonly yNew: Float64Array;
   private readonly err: Float64Array;
   private readonly mark: NonFiniteMark;
+  private ctx: OdeContext;
   private started = false;
   private errOld: number;
   private stiffSignals = 0;
   private calmTests = 0;
   /** h|λ| above which a step counts as a sign of stiffness (see `StiffnessTest`). */
-  private readonly stiffThreshold: number;
+  private stiffThreshold: number;
 
-  constructor(private readonly pair: EmbeddedPair, private readonly ctx: OdeContext, t0: number, y0: ArrayLike<number>,
+  constructor(private readonly pair: EmbeddedPair, ctx: OdeContext, t0: number, y0: ArrayLike<number>,
     firstStep?: number) {
+    this.ctx = ctx;
     this.t = t0;
-    this.y = Float64Array.from(y0);
+    this.y = new Float64Array(ctx.n);
     this.work = new RkWork(ctx.n, pair.c.length);
     this.yNew = new Float64Array(ctx.n);
     this.err = new Float64Array(ctx.n);
     this.mark = new NonFiniteMark(ctx.n);
     this.errOld = pair.control.errFloor;
-    if (firstStep !== undefined) this.h = firstStep;
-    const S = pair.stiffness;
-    this.stiffThreshold = Math.min(S.threshold, S.activeModeMultiple * pair.activeModeHLambda(ctx.options.rtol));
+    this.stiffThreshold = NaN;
+    this.restart(ctx, t0, y0, firstStep);
+  }
+
+  /**
+   * Starts again from (t0, y0) under a new run's context (of the same number of states), in
+   * the state the constructor leaves: only the work arrays are kept, and each is written
+   * before it is read. So a run of many pieces, or many runs, allocates them once.
+   */
+  restart(ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number): void {
+    this.ctx = ctx;
+    this.t = t0;
+    this.y.set(y0);
+    this.h = firstStep ?? NaN;
+    this.stiffAt = null;
+    this.started = false;
+    this.errOld = this.pair.control.errFloor;
+    this.stiffSignals = 0;
+    this.calmTests = 0;
+    this.mark.clear();
+    const S = this.pair.stiffness;
+    this.stiffThreshold = Math.min(S.threshold, S.activeModeMultiple * this.pair.activeModeHLambda(ctx.options.rtol));
   }
 
   step(tEnd: number): StepOutcome {
@@ -186,15 +207,18 @@ export class EmbeddedRkStepper implements Stepper {
   private detectStiffness(h: number, tNew: number): void {
     const k = this.work.k;
     const S = this.pair.stiffness;
-    const [ia, ib] = S.stages;
+    // read by index: destructuring the pair would allocate on every step
+    const ia = S.stages[0];
+    const ib = S.stages[1];
     const rowA = this.pair.a[ia];
     const rowB = this.pair.a[ib];
+    const top = Math.max(ia, ib);
     let num = 0;
     let den = 0;
     for (let i = 0; i < this.ctx.n; i++) {
       const dk = k[ia][i] - k[ib][i];
       let dy = 0;
-      for (let j = 0; j < Math.max(ia, ib); j++) dy += ((rowA[j] ?? 0) - (rowB[j] ?? 0)) * k[j][i];
+      for (let j = 0; j < top; j++) dy += ((rowA[j] ?? 0) - (rowB[j] ?? 0)) * k[j][i];
       dy *= h;
       num += dk * dk;
       den += dy * dy;

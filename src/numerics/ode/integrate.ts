@@ -79,6 +79,26 @@ export interface IntegrateResult {
   readonly detail?: MessageDetail;
 }
 
+/** A run's result; its message is put in words when read (the pieces of a schedule, the runs of a what-if seldom read it). */
+class Result implements IntegrateResult {
+  readonly #at: Where;
+  readonly switchedToStiff: number | null;
+  readonly failure: Where | null;
+  constructor(
+    readonly status: Status, at: Where, readonly t: number, readonly y: Float64Array, readonly segments: readonly DenseSegment[],
+    readonly counters: Counters, readonly method: MethodUsed, readonly stiffFormula: StiffFormula | null,
+    readonly stiffnessDetected: number | null, readonly nextStep: number, readonly detail: MessageDetail | undefined,
+  ) {
+    this.#at = at;
+    this.switchedToStiff = counters.switchedToStiff;
+    this.failure = status === Status.Success ? null : at;
+  }
+
+  get message(): string {
+    return MESSAGES[this.status](this.#at, this.detail);
+  }
+}
+
 function checkInputs(t0: number, y0: ArrayLike<number>, t1: number, method: Method, step: number | undefined): void {
   if (!Number.isFinite(t0)) throw new RangeError(`t0 must be a finite number; it is ${t0}`);
   if (!Number.isFinite(t1)) throw new RangeError(`t1 must be a finite number; it is ${t1}`);
@@ -97,12 +117,45 @@ function checkInputs(t0: number, y0: ArrayLike<number>, t1: number, method: Meth
   }
 }
 
-function makeStepper(ctx: OdeContext, method: Exclude<MethodUsed, 'stiff'>, t0: number, y0: ArrayLike<number>, options: IntegrateOptions): Stepper {
+/**
+ * What one integration leaves for the next: the explicit pairs' steppers with their work
+ * arrays (`EmbeddedRkStepper.restart`), so that the pieces of a schedule, or the runs of a
+ * what-if loop, set them up once. Results are the same bit for bit as with new steppers
+ * (`test/engine/ode-reuse.test.ts`). One integration at a time: a call made while another
+ * holds it (an f that integrates) sets up its own.
+ */
+export interface OdeReuse {
+  dopri5?: Dopri5Stepper;
+  dp853?: Dp853Stepper;
+  busy: boolean;
+}
+
+export function newOdeReuse(): OdeReuse {
+  return { busy: false };
+}
+
+/** The explicit pair's stepper: the one `reuse` holds, started again, or a new one. */
+function explicitStepper(ctx: OdeContext, method: 'dopri5' | 'dp853', t0: number, y0: ArrayLike<number>, reuse: OdeReuse | undefined): Stepper {
   const first = ctx.options.firstStep;
+  const kept = reuse === undefined ? undefined : method === 'dopri5' ? reuse.dopri5 : reuse.dp853;
+  if (kept !== undefined && kept.y.length === ctx.n) {
+    kept.restart(ctx, t0, y0, first);
+    return kept;
+  }
+  if (method === 'dopri5') {
+    const made = new Dopri5Stepper(ctx, t0, y0, first);
+    if (reuse) reuse.dopri5 = made;
+    return made;
+  }
+  const made = new Dp853Stepper(ctx, t0, y0, first);
+  if (reuse) reuse.dp853 = made;
+  return made;
+}
+
+function makeStepper(ctx: OdeContext, method: Exclude<MethodUsed, 'stiff'>, t0: number, y0: ArrayLike<number>, options: IntegrateOptions, reuse?: OdeReuse): Stepper {
   switch (method) {
-    case 'dopri5': return new Dopri5Stepper(ctx, t0, y0, first);
-    case 'dp853': return new Dp853Stepper(ctx, t0, y0, first);
-    case 'adams': return new AdamsStepper(ctx, t0, y0, first);
+    case 'dopri5': case 'dp853': return explicitStepper(ctx, method, t0, y0, reuse);
+    case 'adams': return new AdamsStepper(ctx, t0, y0, ctx.options.firstStep);
     case 'rk4': return new FixedStepper(ctx, RK4, t0, y0, options.step!);
     case 'heun': return new FixedStepper(ctx, HEUN, t0, y0, options.step!);
     case 'euler': return new FixedStepper(ctx, EULER, t0, y0, options.step!);
@@ -117,9 +170,20 @@ function makeStepper(ctx: OdeContext, method: Exclude<MethodUsed, 'stiff'>, t0: 
  * per rejected attempt), 1 for adams (one more every eighth step, its stiffness test); n + 8 per step
  * for the stiff method (one less when `autonomous`, another less without
  * `denseErrorControl`, n less with an analytic `jacobian`); s per step for a fixed-step
- * method of s stages; plus one or two to start.
+ * method of s stages; plus one or two to start. With `reuse`, the explicit pairs' set-up is
+ * kept from the last call that used it (see `OdeReuse`).
  */
-export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number, options: IntegrateOptions = {}): IntegrateResult {
+export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number, options: IntegrateOptions = {}, reuse?: OdeReuse): IntegrateResult {
+  if (!reuse || reuse.busy) return run(f, t0, y0, t1, options, undefined);
+  reuse.busy = true;
+  try {
+    return run(f, t0, y0, t1, options, reuse);
+  } finally {
+    reuse.busy = false;
+  }
+}
+
+function run(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number, options: IntegrateOptions, reuse: OdeReuse | undefined): IntegrateResult {
   const method = options.method ?? 'auto';
   checkInputs(t0, y0, t1, method, options.step);
   const start = Float64Array.from(y0);
@@ -132,26 +196,14 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
   if (used === 'stiff') {
     ({ stepper, formula: stiffFormula } = stiffStepper(ctx, t0, start, t1, resolved.firstStep, options, false));
   } else {
-    stepper = makeStepper(ctx, used, t0, start, options);
+    stepper = makeStepper(ctx, used, t0, start, options, reuse);
   }
   const segments: DenseSegment[] = [];
   let stiffnessDetected: number | null = null;
 
-  const finish = (status: Status, at: Where, detail?: MessageDetail): IntegrateResult => ({
-    status,
-    message: MESSAGES[status](at, detail),
-    t: stepper.t,
-    y: Float64Array.from(stepper.y),
-    segments,
-    counters,
-    method: used,
-    stiffFormula,
-    switchedToStiff: counters.switchedToStiff,
-    stiffnessDetected,
-    nextStep: Number.isFinite(stepper.h) ? stepper.h : resolved.firstStep ?? t1 - t0,
-    failure: status === Status.Success ? null : at,
-    detail,
-  });
+  const finish = (status: Status, at: Where, detail?: MessageDetail): IntegrateResult => new Result(
+    status, at, stepper.t, status === Status.Success ? at.y : Float64Array.from(stepper.y), segments, counters, used,
+    stiffFormula, stiffnessDetected, Number.isFinite(stepper.h) ? stepper.h : resolved.firstStep ?? t1 - t0, detail);
 
   while (stepper.t < t1) {
     const outcome = stepper.step(t1);

@@ -162,18 +162,42 @@ export const FAILURE_CAUSES: { readonly [S in FailureStatus]: (detail?: MessageD
 
 /**
  * The shared start of every dense segment's `eval`: at or before t0 the step's first state,
- * at or after t1 its last, bit for bit (both stored in `data`, first then last). Returns true
- * when it wrote one of them, false when t is inside and the caller interpolates.
+ * at or after t1 its last, bit for bit (both stored in `data` from `at`, first then last).
+ * Returns true when it wrote one of them, false when t is inside and the caller interpolates.
  */
-export function writeStepEnd(t: number, t0: number, t1: number, data: Float64Array, n: number, out: Float64Array): boolean {
+export function writeStepEnd(t: number, t0: number, t1: number, data: Float64Array, n: number, out: Float64Array, at = 0): boolean {
   // element by element: a subarray would allocate on every call at a step's end
   if (t <= t0) {
-    for (let i = 0; i < n; i++) out[i] = data[i];
+    for (let i = 0; i < n; i++) out[i] = data[at + i];
     return true;
   }
   if (t >= t1) {
-    for (let i = 0; i < n; i++) out[i] = data[n + i];
+    for (let i = 0; i < n; i++) out[i] = data[at + n + i];
     return true;
   }
   return false;
+}
+
+/**
+ * Numbers for dense output handed out in chunks, so that a step's segment costs no
+ * allocation of its own (an array per step was a fifth of a schedule's run). A region is
+ * never handed out twice: a segment's numbers stay its own for as long as it lives, which
+ * keeps its chunk alive too (at most `CHUNK` numbers).
+ */
+export class DenseSlab {
+  static readonly CHUNK = 2048;
+  /** The chunk the last `take` gave a region of. */
+  data = new Float64Array(0);
+  private used = 0;
+
+  /** The offset in `data` (read after the call) of `size` numbers that belong to no one else. */
+  take(size: number): number {
+    if (this.used + size > this.data.length) {
+      this.data = new Float64Array(Math.max(DenseSlab.CHUNK, size));
+      this.used = 0;
+    }
+    const at = this.used;
+    this.used += size;
+    return at;
+  }
 }
