@@ -26,6 +26,7 @@ export default defineConfig({
   build: {
     outDir: 'dist',
     emptyOutDir: true,
+    rolldownOptions: { treeshake: { moduleSideEffects: (id: string) => !/[\\/]src[\\/].*\.ts$/.test(id) } },
   },
   // The page's content security policy as a header (csp/policy.ts); the plugin gives the
   // engine worker its own and writes the page's into the built index.html as a meta tag.

@@ -1,10 +1,8 @@
 /**
- * The page's one script: defines the app's elements, readies the unit table in short tasks
- * (`ready-units.ts`) and registers the offline service worker. A file of its own, because the content security policy allows no inline script.
+ * The page's one script: defines the app's elements and registers the offline service
+ * worker. A file of its own, because the content security policy allows no inline script.
  */
 import './app.ts';
 import { registerServiceWorker } from './register-sw.ts';
-import { readyUnitsInBackground } from './ready-units.ts';
 
-readyUnitsInBackground();
 void registerServiceWorker();

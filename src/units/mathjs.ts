@@ -12,7 +12,8 @@ import { create, parseDependencies, unitDependencies } from 'mathjs';
 
 const FACTORIES = { parseDependencies, unitDependencies };
 
-export const math = create(FACTORIES, { number: 'number' });
+// marked pure so that a bundle that never reads `math` leaves mathjs out
+export const math = /* @__PURE__ */ create(FACTORIES, { number: 'number' });
 
 /** A mathjs factory: the name of the part it makes on the instance. */
 interface Factory { readonly isFactory: true; readonly fn: string }
@@ -22,7 +23,7 @@ interface Factory { readonly isFactory: true; readonly fn: string }
  * after those it is made from, so building them in this order builds one at a time). Only
  * names the instance builds on first use are kept.
  */
-const PARTS: readonly string[] = (() => {
+const PARTS: readonly string[] = /* @__PURE__ */ (() => {
   const out: string[] = [];
   const walk = (o: object): void => {
     for (const v of Object.values(o)) {
