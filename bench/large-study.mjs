@@ -1,6 +1,7 @@
 // A 200-cell study (invented numbers, for measuring only) and a measurement of opening it in
 // the built app: the longest main-thread task from the page's start until every cell shows
 // its result. Shared by bench/browser-open.ts and test/e2e/open-large.e2e.mjs.
+import { loadavg } from 'node:os';
 import { mainThreadTasks, startTrace } from '../test/e2e/trace.mjs';
 
 /** 100 parameters cells (a chain of rates and a dose each), 40 rate laws, 30 runs, 30 notes. */
@@ -33,18 +34,24 @@ export const CELL_STATES = `(() => {
 })()`;
 
 /**
- * Imports the study through the library, then opens it on a fresh page, tracing the opening
- * through the page's CDP session (`context.newCDPSession(page)`), and waits until every cell
- * shows its result. Resolves with the page's main-thread tasks from the trace (`{ start, wall,
- * cpu }` each, ms: see test/e2e/trace.mjs; the measurement's own tasks left out), the time to
- * every cell computed (ms) and the number of cells shown.
+ * Imports the study through the library, waits until the app's offline copy is installed (the
+ * service worker: once per version, it fetches and compiles every built file, work that would
+ * otherwise share the cores with the opening measured), then opens the study on a fresh page,
+ * tracing the opening through the page's CDP session (`context.newCDPSession(page)`), and waits
+ * until every cell shows its result. Resolves with the page's main-thread tasks from the trace
+ * (`{ start, wall, cpu }` each, ms: see test/e2e/trace.mjs; the measurement's own tasks left
+ * out), the time to every cell computed (ms), the number of cells shown, and the 1-minute load
+ * average of the machine when the opening began.
  */
 export async function measureOpen(page, url, file, cellCount, cdp, step = 60_000) {
   await page.goto(url);
   await page.locator('study-library input[type="file"]').setInputFiles(file);
   await page.getByText(/Imported ".*" as a new study/).waitFor({ timeout: step });
   const href = await page.locator('study-library li .t a').first().getAttribute('href');
+  await page.evaluate(() => navigator.serviceWorker.ready.then(() => true));
+  await page.waitForTimeout(1000);
   await page.goto('about:blank');
+  const load = loadavg()[0];
   const tracing = startTrace(cdp);
   await tracing.started;
   const t0 = Date.now();
@@ -59,5 +66,5 @@ export async function measureOpen(page, url, file, cellCount, cdp, step = 60_000
   const ready = Date.now() - t0;
   await page.waitForTimeout(300);
   const tasks = mainThreadTasks(await tracing.stop());
-  return { tasks, ready, cells: states.count };
+  return { tasks, ready, cells: states.count, load };
 }

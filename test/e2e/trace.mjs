@@ -4,6 +4,8 @@
 // thread waited for a core, which the CPU time leaves out. The tasks that carry the
 // measurement's own DevTools messages (a script's `page.evaluate`) are left out.
 
+import { cpus, loadavg } from 'node:os';
+
 /** What the tasks are read from: 'toplevel' gives every task, with `dur` and `tdur`. */
 const CATEGORIES = ['toplevel', 'devtools.timeline'];
 
@@ -81,4 +83,15 @@ export function longestTasks(tasks, over = 100) {
     wallOver: tasks.filter((t) => t.wall > over).length,
     cpuOver: tasks.filter((t) => t.cpu > over).length,
   };
+}
+
+/**
+ * The wall-clock time allowed for a task whose goal is `goalMs` at the 1-minute load average
+ * `load` (by default, now): the goal times the load per core (the load over the cores) times 1.5, the
+ * scheduler's unevenness, when that exceeds 1; the goal itself on a quiet machine (load per
+ * core at most 2/3). A loaded machine stretches a task's wall-clock time by about the load per
+ * core, since the page's thread waits for a core; its CPU time it barely changes.
+ */
+export function wallAllowance(goalMs, load = loadavg()[0]) {
+  return Math.round(goalMs * Math.max(1, (load / cpus().length) * 1.5));
 }
