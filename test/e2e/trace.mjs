@@ -1,8 +1,9 @@
 // The one reader of Chromium traces for the end-to-end scripts and the browser benchmark: each
-// task of the page's main thread with its wall-clock time and its thread (CPU) time. On a
-// quiet machine the two agree; on a loaded one the wall clock also counts the time the
-// thread waited for a core, which the CPU time leaves out. The tasks that carry the
-// measurement's own DevTools messages (a script's `page.evaluate`) are left out.
+// task of the page's main thread with its wall-clock time and its thread (CPU) time. The wall
+// clock also counts the time the thread waited: for a core (on a shared, loaded machine,
+// most of it), for the browser's other threads (the engine's worker, drawing, the garbage
+// collector's helpers); the CPU time leaves that out. The tasks that carry the measurement's
+// own DevTools messages (a script's `page.evaluate`) are left out.
 
 import { cpus, loadavg } from 'node:os';
 
