@@ -2,8 +2,9 @@
  * The engine's unit table and expression parser (mathjs, on the page for editors' highlighting
  * and completion and for the unit menus) readied a few milliseconds per task. mathjs builds
  * them on first use, some sixty parts in one go: tens of milliseconds in whichever task first
- * needs a unit, such as the one making the first editor. From the moment a study view is shown they
- * are built in short tasks of their own instead; a use before the end builds the rest at once, as before.
+ * needs a unit, such as the one making the first editor. From the moment a study view is shown
+ * they are built in short tasks of their own instead; a use before the end builds the rest at
+ * once, as before.
  */
 import { prepareMathjs } from '../src/index.ts';
 
@@ -18,14 +19,9 @@ export function readyUnitsSlice(): boolean {
   return ready;
 }
 
-/** Whether every part is built (no first use will build any). */
-export function unitsReady(): boolean {
-  return ready;
-}
-
 let started = false;
 
-/** Builds the parts in tasks of about SLICE_MS each, one after another, until all are built (once; later calls do nothing). */
+/** Builds the parts in tasks of about SLICE_MS each, one after another, until all are built (once: later calls do nothing). */
 export function readyUnitsInBackground(): void {
   if (started) return;
   started = true;
