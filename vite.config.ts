@@ -26,6 +26,11 @@ export default defineConfig({
   build: {
     outDir: 'dist',
     emptyOutDir: true,
+    // The engine's modules (src/) do nothing when loaded but define things: a bundle takes
+    // only those whose exports it uses. Without this, importing src/index.ts from the app's
+    // first script would pull the whole engine (mathjs among it) into that script, though only
+    // the study view, a chunk of its own, uses most of it.
+    rolldownOptions: { treeshake: { moduleSideEffects: (id: string) => !/[\\/]src[\\/].*\.ts$/.test(id) } },
   },
   // The page's content security policy as a header (csp/policy.ts); the plugin gives the
   // engine worker its own and writes the page's into the built index.html as a meta tag.

@@ -1,6 +1,8 @@
 // A 200-cell study (invented numbers, for measuring only) and a measurement of opening it in
 // the built app: the longest main-thread task from the page's start until every cell shows
 // its result. Shared by bench/browser-open.ts and test/e2e/open-large.e2e.mjs.
+import { loadavg } from 'node:os';
+import { mainThreadTasks, startTrace } from '../test/e2e/trace.mjs';
 
 /** 100 parameters cells (a chain of rates and a dose each), 40 rate laws, 30 runs, 30 notes. */
 export function largeStudy() {
@@ -23,13 +25,6 @@ export function largeStudy() {
   return { format: 'ratebook-study', version: 1, title: 'A large study (invented numbers)', cells };
 }
 
-/** Installed before the page's own scripts: records every long task (over 50 ms) from the start. */
-export const WATCH_LONG_TASKS = `(() => {
-  window.__longTasks = [];
-  new PerformanceObserver((list) => { for (const e of list.getEntries()) window.__longTasks.push({ start: e.startTime, ms: e.duration }); })
-    .observe({ type: 'longtask', buffered: true });
-})()`;
-
 /** The open study's cells: how many, and how many still wait for a result. */
 export const CELL_STATES = `(() => {
   const root = document.querySelector('ratebook-app')?.shadowRoot?.querySelector('study-view')?.shadowRoot;
@@ -39,20 +34,26 @@ export const CELL_STATES = `(() => {
 })()`;
 
 /**
- * Imports the study through the library, then opens it on a fresh page and waits until every
- * cell shows its result. Resolves with the long tasks of the opening (ms each, wall clock), its
- * time to every cell computed, and the number of cells shown. Given the page's CDP session
- * (`context.newCDPSession(page)`), it also traces the opening and gives `cpu`: the thread (CPU)
- * time of each of the page's main-thread tasks, in ms (see `mainThreadCpu`).
+ * Imports the study through the library, waits until the app's offline copy is installed (the
+ * service worker: once per version, it fetches and compiles every built file, work that would
+ * otherwise share the cores with the opening measured), then opens the study on a fresh page,
+ * tracing the opening through the page's CDP session (`context.newCDPSession(page)`), and waits
+ * until every cell shows its result. Resolves with the page's main-thread tasks from the trace
+ * (`{ start, wall, cpu }` each, ms: see test/e2e/trace.mjs; the measurement's own tasks left
+ * out), the time to every cell computed (ms), the number of cells shown, and the 1-minute load
+ * average of the machine when the opening began.
  */
-export async function measureOpen(page, url, file, cellCount, step = 60_000, cdp = undefined) {
+export async function measureOpen(page, url, file, cellCount, cdp, step = 60_000) {
   await page.goto(url);
   await page.locator('study-library input[type="file"]').setInputFiles(file);
   await page.getByText(/Imported ".*" as a new study/).waitFor({ timeout: step });
   const href = await page.locator('study-library li .t a').first().getAttribute('href');
+  await page.evaluate(() => navigator.serviceWorker.ready.then(() => true));
+  await page.waitForTimeout(1000);
   await page.goto('about:blank');
-  const tracing = cdp ? startTrace(cdp) : undefined;
-  if (tracing) await tracing.started;
+  const load = loadavg()[0];
+  const tracing = startTrace(cdp);
+  await tracing.started;
   const t0 = Date.now();
   await page.goto(new URL(href, url).href);
   let states;
@@ -64,35 +65,6 @@ export async function measureOpen(page, url, file, cellCount, step = 60_000, cdp
   }
   const ready = Date.now() - t0;
   await page.waitForTimeout(300);
-  const tasks = await page.evaluate('window.__longTasks');
-  const loaded = await page.evaluate('performance.getEntriesByType("navigation")[0]?.domContentLoadedEventEnd ?? 0');
-  const cpu = tracing ? mainThreadCpu(await tracing.stop()) : undefined;
-  return { tasks: tasks.map((t) => t.ms), starts: tasks.map((t) => t.start), loaded, ready, cells: states.count, cpu };
-}
-
-/** Starts a trace of the browser's task scheduling; `stop()` resolves with its events. */
-function startTrace(cdp) {
-  const events = [];
-  cdp.on('Tracing.dataCollected', (e) => events.push(...e.value));
-  const complete = new Promise((resolve) => cdp.once('Tracing.tracingComplete', resolve));
-  const started = cdp.send('Tracing.start', { transferMode: 'ReportEvents', traceConfig: { includedCategories: ['toplevel', 'devtools.timeline'] } });
-  return { started, stop: async () => { await cdp.send('Tracing.end'); await complete; return events; } };
-}
-
-/**
- * The thread time (CPU time, ms) of each task of the busiest renderer main thread in a trace:
- * on a quiet machine a task's duration; on a loaded one, its duration less the time the thread
- * waited for a core (which makes wall-clock long tasks of a shared machine mostly noise).
- */
-export function mainThreadCpu(events) {
-  const mains = events.filter((e) => e.name === 'thread_name' && e.args?.name === 'CrRendererMain');
-  // the measurement's own tasks (the DevTools session's messages) are left out
-  const devtools = events.filter((e) => e.name === 'Receive mojo message' && e.args?.chrome_mojo_event_info?.mojo_interface_tag === 'blink.mojom.DevToolsSession');
-  const ours = (e) => !devtools.some((d) => d.pid === e.pid && d.tid === e.tid && d.ts >= e.ts && d.ts <= e.ts + e.dur);
-  let best = [];
-  for (const m of mains) {
-    const tasks = events.filter((e) => e.pid === m.pid && e.tid === m.tid && e.ph === 'X' && e.name === 'ThreadControllerImpl::RunTask' && ours(e)).map((e) => (e.tdur ?? e.dur) / 1000);
-    if (tasks.reduce((a, b) => a + b, 0) > best.reduce((a, b) => a + b, 0)) best = tasks;
-  }
-  return best;
+  const tasks = mainThreadTasks(await tracing.stop());
+  return { tasks, ready, cells: states.count, load };
 }

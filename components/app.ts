@@ -1,6 +1,7 @@
 import { LitElement, css, html, nothing } from 'lit';
 import * as store from './store.ts';
-import { StudyView } from './study-view.ts';
+import type { StudyView } from './study-view.ts';
+import { loadStudyView } from './load-study-view.ts';
 import './study-library.ts';
 import { loadSheet } from './sheet/load.ts';
 import { StudySaving } from './study-saving.ts';
@@ -188,6 +189,8 @@ export class RatebookApp extends LitElement {
       return;
     }
     let stored: store.StoredStudy | undefined;
+    // the study view's code, fetched while the study is read
+    const code = loadStudyView().then((c) => c, (err: unknown) => err instanceof Error ? err : new Error(String(err)));
     try {
       stored = await store.loadStudy(id);
     } catch (err) {
@@ -198,6 +201,13 @@ export class RatebookApp extends LitElement {
     }
     if (!stored || stored.deleted !== undefined) {
       this.problem = 'That study is not on this device (it may have been deleted).';
+      location.hash = '#/';
+      return;
+    }
+    const loaded = await code;
+    if (loaded instanceof Error) {
+      this.view = undefined;
+      this.problem = `The page for a study could not be loaded (${loaded.message}). Reload the page to try again.`;
       location.hash = '#/';
       return;
     }
@@ -212,7 +222,7 @@ export class RatebookApp extends LitElement {
       gone: (where) => { this.gone = where; this.elsewhere = undefined; },
       failed: (message) => { this.saveProblem = message; },
     });
-    const view = StudyView.create({ save: saving.save, journal: saving.journal, retry: saving.retry });
+    const view = loaded.StudyView.create({ save: saving.save, journal: saving.journal, retry: saving.retry });
     this.saving = saving;
     view.meta = { revision: stored.revision, updated: stored.updated };
     view.mode = sheet ? 'sheet' : 'edit';

@@ -10,6 +10,7 @@ import { loadSheet } from './sheet/load.ts';
 import { wrapField, wrapFieldStyles } from './wrap-field.ts';
 import { focusFirstField } from './focus-first.ts';
 import { keepClear } from './expr-editor/keep-clear.ts';
+import { readyUnitsInBackground } from './ready-units.ts';
 import { ref } from 'lit/directives/ref.js';
 
 /**
@@ -97,6 +98,8 @@ export class StudyView extends LitElement {
     window.addEventListener('afterprint', this.afterPrint);
     // the sheet's code comes in its own chunk; fetch it now, before anyone prints
     void loadSheet();
+    // the unit table and parser, which editors and unit menus need, a part per short task
+    readyUnitsInBackground();
   }
 
   override disconnectedCallback(): void {

@@ -36,6 +36,7 @@ export { nameTex } from './expression/tex.ts';
 export type { FromWorker, ToWorker } from './engine/worker-protocol.ts';
 export { residualColumns, residualsFromColumns, residualBuffers, lazyResiduals, type ResidualColumns } from './output/residual-columns.ts';
 export { lookupUnit, unitAfterNumber } from './units/units.ts';
+export { prepareMathjs } from './units/mathjs.ts';
 export { commonUnitNames, constantNames, functionNames, unitNames } from './expression/vocabulary.ts';
 export { fieldWords, cellWords, KIND_LABELS } from './output/field-words.ts';
 export { problemWords, partsWords, waitWords, waitedOn, type ReportsOf } from './output/problem-words.ts';

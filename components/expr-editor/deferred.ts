@@ -9,6 +9,8 @@
  * In other studies, and in the tests, every field gets its editor at once.
  */
 
+import { readyUnitsSlice } from '../ready-units.ts';
+
 /** How near the viewport (CSS px, above and below) a waiting field gets its editor. */
 export const NEAR_PX = 600;
 /**
@@ -50,8 +52,16 @@ function near(): IntersectionObserver {
   return observer;
 }
 
-/** Makes the due editors, for about WAKE_BUDGET_MS, then leaves the rest to the next task. */
+/**
+ * Makes the due editors, for about WAKE_BUDGET_MS, then leaves the rest to the next task. An
+ * editor looks up units as it highlights: until the unit table is ready, a task readies a
+ * part of it instead, so that no one task builds it all.
+ */
 function drain(): void {
+  if (due.length && !readyUnitsSlice()) {
+    draining ??= setTimeout(() => { draining = undefined; drain(); }, 0);
+    return;
+  }
   const started = performance.now();
   while (due.length && performance.now() - started < WAKE_BUDGET_MS) {
     const el = due.shift()!;

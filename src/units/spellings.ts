@@ -15,8 +15,9 @@ export interface Spelling {
 
 interface TableUnit { readonly value: unknown; readonly offset: unknown }
 interface TablePrefix { readonly value: unknown }
-const UNITS = (math.Unit as unknown as { UNITS: Record<string, TableUnit> }).UNITS;
-const LONG_PREFIXES = (math.Unit as unknown as { PREFIXES: { LONG: Record<string, TablePrefix> } }).PREFIXES.LONG;
+// read when first needed: reading `math.Unit` makes mathjs build its unit class, most of its set-up
+const unitTable = () => (math.Unit as unknown as { UNITS: Record<string, TableUnit> }).UNITS;
+const longPrefixes = () => (math.Unit as unknown as { PREFIXES: { LONG: Record<string, TablePrefix> } }).PREFIXES.LONG;
 
 /** Words the expression syntax reads as operators, never as units. */
 const OPERATOR_WORDS = new Set(['to', 'mod', 'and', 'or', 'not', 'xor']);
@@ -38,7 +39,7 @@ function find(name: string): Spelling | null {
   if (!def) return null;
   const { base, prefix } = split(name);
   const baseDef = lookupUnit(base)!;
-  const alike = [...Object.keys(UNITS), ...EXTRA_UNIT_NAMES]
+  const alike = [...Object.keys(unitTable()), ...EXTRA_UNIT_NAMES]
     .filter((k) => k !== base && /^[A-Za-z]+$/.test(k) && !OPERATOR_WORDS.has(k) && same(lookupUnit(k), baseDef));
   const words = alike.filter((k) => /^[a-z]{4,}$/.test(k));
   // a plural is offered beside its singular, never for it
@@ -60,7 +61,7 @@ function split(name: string): { base: string; prefix: string } {
   if (EXTRA_UNIT_NAMES.includes(name)) return { base: name, prefix: '' };
   const parsed = math.Unit.parse(name).units[0] as unknown as { unit: { name: string }; prefix: { name: string; value: unknown } };
   if (!parsed.prefix.name) return { base: parsed.unit.name, prefix: '' };
-  const long = Object.entries(LONG_PREFIXES).find(([p, v]) => p !== '' && Number(v.value) === Number(parsed.prefix.value));
+  const long = Object.entries(longPrefixes()).find(([p, v]) => p !== '' && Number(v.value) === Number(parsed.prefix.value));
   return { base: parsed.unit.name, prefix: long ? long[0] : parsed.prefix.name };
 }
 

@@ -3,26 +3,34 @@
 // expression editors of fields far from the view only when they are needed, so opening it
 // makes few editors; a field still waiting for its editor is a labelled text box that turns
 // into the editor when focused, and typing in it edits the study. The goal, no main-thread
-// task over 100 ms, is checked on the tasks' thread (CPU) time from a trace: on this shared
-// machine a task's wall-clock time mostly measures the other work on the cores (2 cores, load
-// average often 10: the same opening gave longest tasks of 400 to 900 ms wall clock and 90 to
-// 105 ms CPU). CPU time too grows under load (shared caches, the other hyperthread), so the
-// check allows 1.5 times the goal: it fails past 150 ms. `npm run bench -- "200-cell"` gives
-// both figures against the goal itself.
+// task over 100 ms, is checked on a trace of the opening (test/e2e/trace.mjs), which gives
+// each task's wall-clock and thread (CPU) time; both are printed, and
+// `npm run bench -- "200-cell"` gives them against the goal itself.
+// - CPU time: what the page's own work costs. Other processes change it less than the wall
+//   clock, but not nothing (shared caches, the other hyperthread: the same module's loading
+//   took 33 ms of CPU at load average 13 and 72 ms at 20, on 2 cores). Held to the goal on a
+//   quiet machine (load per core at most 2/3), to 1.5 times the goal on a loaded one.
+// - wall-clock time: what a person feels. On a quiet machine held to WALL_MS, twice the goal:
+//   even then the page's thread shares 2 cores with the engine's worker, which computes the
+//   study meanwhile, and with the browser's drawing (before this check, 146 to 188 ms were
+//   measured quietly); on a loaded one to that times 1.5 times the load per core
+//   (`wallAllowance`), since there the wall clock mostly measures the waiting for a core.
 import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { cpus, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { chromium } from 'playwright-core';
 import { freePort, startPreview, CHROMIUM_ARGS, fail, runScript, root } from './serve.mjs';
 import { DEFAULT_CHROMIUM, NOT_FOUND_MESSAGE, findChromium } from '../../scripts/find-chromium.mjs';
-import { largeStudy, measureOpen, WATCH_LONG_TASKS } from '../../bench/large-study.mjs';
+import { largeStudy, measureOpen } from '../../bench/large-study.mjs';
+import { longestTasks, wallAllowance } from './trace.mjs';
 
 const NAME = 'a 200-cell study';
 /** Editors made while the study opens, at most: the 60 made before any field waits, and those near the first screen. */
 const MOST_EDITORS = 100;
-/** The goal for the longest main-thread task (ms), and the allowance for a loaded machine. */
+/** The goal for the longest main-thread task (ms). */
 const GOAL_MS = 100;
-const LOAD_MARGIN = 1.5;
+/** The longest task allowed by the wall clock on a quiet machine (ms). */
+const WALL_MS = 2 * GOAL_MS;
 
 /** Counts, through every shadow root: CodeMirror editors, and fields still waiting for theirs. */
 const EDITORS = `(() => {
@@ -40,17 +48,20 @@ async function main() {
   let context;
   try {
     context = await chromium.launchPersistentContext(profile, { executablePath, headless: true, args: CHROMIUM_ARGS, viewport: { width: 1280, height: 900 } });
-    await context.addInitScript(WATCH_LONG_TASKS);
     const page = context.pages()[0] ?? (await context.newPage());
     const errors = [];
     page.on('pageerror', (e) => errors.push(e.message));
     const study = largeStudy();
     const file = join(profile, 'large.ratebook.json');
     writeFileSync(file, JSON.stringify(study));
-    const opened = await measureOpen(page, url, file, study.cells.length, 60_000, await context.newCDPSession(page));
-    const longestCpu = Math.max(0, ...opened.cpu);
-    if (!(opened.cpu.length > 0)) fail('the trace holds no main-thread task');
-    if (longestCpu > GOAL_MS * LOAD_MARGIN) fail(`opening took a main-thread task of ${Math.round(longestCpu)} ms of CPU time (goal ${GOAL_MS} ms, allowed ${GOAL_MS * LOAD_MARGIN} ms under load)`);
+    const opened = await measureOpen(page, url, file, study.cells.length, await context.newCDPSession(page));
+    if (!(opened.tasks.length > 0)) fail('the trace holds no main-thread task');
+    const longest = longestTasks(opened.tasks);
+    const wallMs = wallAllowance(WALL_MS, opened.load);
+    const cpuMs = opened.load / cpus().length <= 2 / 3 ? GOAL_MS : 1.5 * GOAL_MS;
+    const figures = `the longest main-thread task ${Math.round(longest.wall)} ms by the wall clock (allowed ${wallMs} ms at load average ${opened.load.toFixed(1)}; ${longest.wallOver} over 100 ms) and ${Math.round(longest.cpu)} ms of CPU time (allowed ${cpuMs} ms)`;
+    if (longest.cpu > cpuMs) fail(`opening took a main-thread task of ${Math.round(longest.cpu)} ms of CPU time: ${figures}`);
+    if (longest.wall > wallMs) fail(`opening took a main-thread task of ${Math.round(longest.wall)} ms by the wall clock: ${figures}`);
     if (opened.cells !== 200) fail(`the page shows ${opened.cells} cells of 200`);
     const counts = await page.evaluate(EDITORS);
     if (counts.editors > MOST_EDITORS) fail(`opening made ${counts.editors} editors (at most ${MOST_EDITORS} expected)`);
@@ -70,8 +81,7 @@ async function main() {
     const shown = await page.locator('expr-field[label="Value of k99"] .cm-content').textContent();
     if (shown !== 'k98 * 1.001 * 2') fail(`after typing, the field shows "${shown}"`);
     if (errors.length) fail(`the page threw: ${errors.join(' | ')}`);
-    const longest = Math.max(0, ...opened.tasks);
-    console.log(`ok: 200 cells shown in ${(opened.ready / 1000).toFixed(1)} s, ${counts.editors} editors made and ${counts.waiting} waiting; the longest main-thread task ${Math.round(longestCpu)} ms of CPU time (goal ${GOAL_MS} ms), ${Math.round(longest)} ms by the wall clock (${opened.tasks.filter((t) => t > 100).length} tasks over 100 ms by the wall clock)`);
+    console.log(`ok: 200 cells shown in ${(opened.ready / 1000).toFixed(1)} s, ${counts.editors} editors made and ${counts.waiting} waiting; ${figures}`);
   } finally {
     await context?.close().catch(() => {});
     child.kill();
