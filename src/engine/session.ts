@@ -22,6 +22,8 @@ import { studyUnits } from './study-units.ts';
 import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
 import { metered } from '../numerics/work-meter.ts';
 import { DEFAULT_CELL_WORK, stoppedError, type WorkLimits } from './budget.ts';
+import { DeferredWork, type DeferHost } from './deferred.ts';
+import type { Progress } from './sliced.ts';
 
 type Slot = Binding | Unavailable;
 
@@ -45,6 +47,18 @@ export type OpenResult = { readonly ok: true; readonly session: StudySession } |
 export interface SessionOptions extends WorkLimits {
   /** 'check' validates without the heavy numerics. */
   readonly mode?: 'run' | 'check';
+  /**
+   * Leave long cells (a Monte Carlo uncertainty cell) and what reads them pending in an
+   * evaluation, for `work` to compute in slices afterwards (the app's worker); the figures are
+   * the same as without.
+   */
+  readonly defer?: boolean;
+}
+
+/** What a slice of deferred work did: how far the running cell is, and the answer of an evaluation when a cell finished. */
+export interface WorkStep {
+  readonly progress?: Progress;
+  readonly answer?: { readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report };
 }
 
 /** Opens a study from JSON text or a parsed document. Never throws. */
@@ -76,8 +90,11 @@ export class StudySession {
 
   /** performance.now() after which the evaluation under way stops its cells (Infinity: none). */
   private deadline = Infinity;
+  /** The long cells left for later, with `defer` (engine/deferred.ts). */
+  private readonly deferred?: DeferredWork;
 
-  constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check', private readonly limits: WorkLimits = {}) {
+  constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check', private readonly limits: SessionOptions = {}) {
+    if (limits.defer && mode === 'run') this.deferred = new DeferredWork();
     this.cells = [...study.cells];
     this.title = study.title;
     this.description = study.description;
@@ -179,7 +196,67 @@ export class StudySession {
     return nodes.map((n, i) => (i === 0 || n.sharesShapeProblems ? { ...n, problems: [...errors, ...n.problems], signature: `${n.signature}|${JSON.stringify(errors)}` } : n));
   }
 
-  private evaluate(): { rerun: string[]; changed: string[] } {
+  /**
+   * Ids of the cells whose report is not current: a long cell still computing (see `work`),
+   * and the cells that read what it defines. In document order; empty without `defer`.
+   */
+  pending(): string[] {
+    const d = this.deferred;
+    if (!d?.size) return [];
+    return this.cells.filter((c) => (this.built.get(c.id)?.nodes ?? []).some((n) => d.has(n.key))).map((c) => c.id);
+  }
+
+  /**
+   * Computes the pending cells (with `defer`) until `until`, a performance.now() time: a slice
+   * of the first (a few milliseconds past `until` at most: one sample). When a cell finishes,
+   * the study is evaluated again (what reads it runs) and the answer says so. Undefined when
+   * nothing is pending. Never throws.
+   */
+  work(until: number): WorkStep | undefined {
+    const d = this.deferred;
+    if (!d?.size) return undefined;
+    const done = d.step(until, this.deferHost());
+    if (!done) return { progress: d.progress() };
+    const node = this.graph.nodes.get(done.key)!;
+    this.outcomes.set(done.key, done.outcome);
+    this.staticSigs.set(done.key, done.sig);
+    d.finished(done.key);
+    const { rerun, changed } = this.evaluate(new Set([node.cell]));
+    return { progress: d.progress(), answer: { rerun, changed, report: this.lastReport } };
+  }
+
+  private deferHost(): DeferHost {
+    return {
+      order: this.graph.order,
+      node: (key) => this.graph.nodes.get(key),
+      staticSig: (key) => this.staticSig(key),
+      context: (node) => {
+        const waits = waitingOn(this.graph, node, (name) => this.slots.get(name));
+        return waits ? { waits } : this.context(node);
+      },
+      budget: (node) => ({
+        limit: (this.limits.cellWork ?? DEFAULT_CELL_WORK) * Math.max(1, node.workScale ?? 1),
+        deadline: this.limits.timeLimit === undefined ? Infinity : performance.now() + this.limits.timeLimit * 1000,
+      }),
+      stopped: (node, stop) => ({ ok: false, error: stoppedError(node, stop, this.limits) }),
+      internal: internalError,
+      runNow: (node) => this.runNode(node, this.graph.problems.get(node.key)),
+    };
+  }
+
+  /** A node's change signature: its own, where each name it reads comes from, its graph problem, what it defines. */
+  private staticSig(key: string): string {
+    const node = this.graph.nodes.get(key)!;
+    const problem = this.graph.problems.get(key);
+    let sig = node.signature;
+    for (const [name, s] of this.graph.sources.get(key)!) sig += `|${name}=${'node' in s ? s.node : s.builtin}`;
+    if (problem) sig += `|!${problem.path}:${problem.message}`;
+    for (const d of node.defines) sig += `|${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`;
+    return sig;
+  }
+
+  /** `finished`: cells whose deferred node has just been computed (reported as re-run). */
+  private evaluate(finished?: ReadonlySet<string>): { rerun: string[]; changed: string[] } {
     // a rebuilt cell is reported again even when no node re-runs: its title, or a node it
     // no longer has, changes its report
     const rebuilt = new Set<string>();
@@ -195,7 +272,10 @@ export class StudySession {
     };
     this.graph = buildGraph(list, (cell, path) => resolvePath(path, this.indexOf(cell)), (id) => this.cellName(id));
     const changedNames = new Set<string>();
-    const rerunCells = new Set<string>();
+    const rerunCells = new Set<string>(finished);
+    // with `defer`: names of the nodes left pending in this pass
+    const pendingNames = new Set<string>();
+    this.deferred?.begin();
     const liveKeys = new Set(list.map((n) => n.key));
 
     for (const key of [...this.outcomes.keys()]) {
@@ -214,19 +294,21 @@ export class StudySession {
       const node = this.graph.nodes.get(key)!;
       const sources = this.graph.sources.get(key)!;
       const problem = this.graph.problems.get(key);
-      let staticSig = node.signature;
+      const staticSig = this.staticSig(key);
       let inputsChanged = false;
-      for (const [name, s] of sources) {
-        staticSig += `|${name}=${'node' in s ? s.node : s.builtin}`;
-        if ('node' in s && changedNames.has(name)) inputsChanged = true;
-      }
+      for (const [name, s] of sources) if ('node' in s && changedNames.has(name)) inputsChanged = true;
       if (node.readsUpstream && !inputsChanged && changedNames.size) {
         inputsChanged = [...sources.keys()].some((name) => [...upstreamOf(this.graph, name)].some((n) => changedNames.has(n)));
       }
-      if (problem) staticSig += `|!${problem.path}:${problem.message}`;
-      for (const d of node.defines) staticSig += `|${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`;
       const kept = this.outcomes.get(key);
-      const keep = !!kept && this.staticSigs.get(key) === staticSig + unitsKey(node, kept) && !inputsChanged;
+      // a node left pending before runs now (what it read may have changed meanwhile)
+      const keep = !!kept && this.staticSigs.get(key) === staticSig + unitsKey(node, kept) && !inputsChanged && !this.deferred?.has(key);
+      // left for later: its previous outcome, bindings and report stay until `work` computes it
+      if (this.deferred?.defers(key, node, { sig: staticSig, keep, inputsChanged, problem: !!problem,
+        readsPending: pendingNames.size > 0 && [...sources.keys()].some((n) => pendingNames.has(n)) })) {
+        for (const d of node.defines) pendingNames.add(d.name);
+        continue;
+      }
       const outcome = keep ? kept : this.runNode(node, problem);
       if (!keep) {
         this.outcomes.set(key, outcome);
@@ -244,6 +326,7 @@ export class StudySession {
       }
     }
 
+    this.deferred?.end();
     const changed: string[] = [];
     const reports: CellReport[] = [];
     // the TeX the printed sheet typesets, made here (in the app: in the engine's worker); made
@@ -282,10 +365,21 @@ export class StudySession {
 
   private runNode(node: GraphNode, problem: CellError | undefined): Outcome {
     if (problem) return { ok: false, error: problem };
-    const sources = this.graph.sources.get(node.key)!;
     const waiting = waitingOn(this.graph, node, (name) => this.slots.get(name));
     if (waiting) return { ok: false, error: waiting };
-    const ctx: RunContext = {
+    const ctx = this.context(node);
+    try {
+      const done = metered((this.limits.cellWork ?? DEFAULT_CELL_WORK) * Math.max(1, node.workScale ?? 1), this.deadline, () => node.run(ctx));
+      return done.exceeded ? { ok: false, error: stoppedError(node, done.exceeded, this.limits) } : done.value!;
+    } catch (err) {
+      return internalError(node, err);
+    }
+  }
+
+  /** What a node sees while it runs: the session's bindings of the names it reads. */
+  private context(node: GraphNode): RunContext {
+    const sources = this.graph.sources.get(node.key)!;
+    return {
       mode: this.mode,
       binding: (name) => (sources.has(name) ? bound(this.slots.get(name)) : undefined),
       bindingsOf: (kind) => [...sources.keys()].flatMap((name) => {
@@ -297,12 +391,6 @@ export class StudySession {
       whatIf: (wanted, replaced) => this.whatIf(wanted, replaced),
       ...(node.readsUpstream ? { peek: (name: string) => bound(this.slots.get(name)) } : {}),
     };
-    try {
-      const done = metered((this.limits.cellWork ?? DEFAULT_CELL_WORK) * Math.max(1, node.workScale ?? 1), this.deadline, () => node.run(ctx));
-      return done.exceeded ? { ok: false, error: stoppedError(node, done.exceeded, this.limits) } : done.value!;
-    } catch (err) {
-      return internalError(node, err);
-    }
   }
 
   /**
