@@ -206,6 +206,11 @@ export class StudySession {
     return this.cells.filter((c) => (this.built.get(c.id)?.nodes ?? []).some((n) => d.has(n.key))).map((c) => c.id);
   }
 
+  /** How far the pending cell being computed is; undefined when none has started. */
+  progress(): Progress | undefined {
+    return this.deferred?.progress();
+  }
+
   /**
    * Computes the pending cells (with `defer`) until `until`, a performance.now() time: a slice
    * of the first (a few milliseconds past `until` at most: one sample). When a cell finishes,
