@@ -12,7 +12,7 @@
 import { openStudy, residualBuffers, residualColumns, type CellReport, type FromWorker, type StudySession, type ToWorker } from '../src/index.ts';
 
 /** The longest slice of deferred work, in ms: an edit waits at most this long (plus one sample) before it is applied. */
-const SLICE_MS = 8;
+const SLICE_MS = 5;
 /** The least time between two progress messages, in ms. */
 const PROGRESS_EVERY_MS = 250;
 
