@@ -17,7 +17,7 @@ mkdirSync(out, { recursive: true });
 const { child, url } = await startPreview(await freePort());
 const profile = mkdtempSync(join(tmpdir(), 'ratebook-look-'));
 try {
-  const context = await chromium.launchPersistentContext(profile, { executablePath: findChromium() ?? DEFAULT_CHROMIUM, headless: true, args: CHROMIUM_ARGS, viewport: { width: 1280, height: 900 } });
+  const context = await chromium.launchPersistentContext(profile, { executablePath: findChromium() ?? DEFAULT_CHROMIUM, headless: true, args: CHROMIUM_ARGS, viewport: { width: Number(process.env.LOOK_WIDTH ?? 1280), height: 900 } });
   const page = context.pages()[0] ?? (await context.newPage());
   page.on('pageerror', (e) => console.log('pageerror', e.message));
   page.on('console', (m) => { if (m.type() === 'error') console.log('console', m.text()); });

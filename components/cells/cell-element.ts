@@ -36,16 +36,21 @@ export class CellElement<K extends CellKind> extends LitElement {
 
   /** Ids of the study's cells of one kind, in order. */
   protected idsOf(kind: CellKind): string[] {
-    return (this.study?.cells ?? []).filter((c) => c.kind === kind).map((c) => c.id);
+    return this.cellsNow().filter((c) => c.kind === kind).map((c) => c.id);
+  }
+
+  /** The study's cells as the document has them now (the report's while no document is given): a cell added or renamed counts at once, and before the first report arrives. */
+  private cellsNow(): ReadonlyArray<{ readonly kind: string; readonly id: string; readonly title?: string; readonly state?: unknown }> {
+    return this.doc?.cells ?? this.study?.cells ?? [];
   }
 
   /**
    * The study's rate laws, in order, each with what it describes for a reader: its state and
    * its cell's title (`C (Elimination)`), or the state alone when the cell has no title (the
-   * cell's id only while the report has no state for it).
+   * cell's id while it has no state), from the document as it is now.
    */
   protected laws(): Array<{ id: string; label: string }> {
-    return (this.study?.cells ?? []).filter((c) => c.kind === 'rate').map((c) => {
+    return this.cellsNow().filter((c) => c.kind === 'rate').map((c) => {
       const state = typeof (c as { state?: unknown }).state === 'string' ? (c as { state: string }).state : '';
       return { id: c.id, label: state ? (c.title ? `${state} (${c.title})` : state) : c.title || c.id };
     });
