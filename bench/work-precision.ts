@@ -39,7 +39,7 @@ export function lambertW0(x: number): number {
   return w;
 }
 
-interface Problem {
+export interface Problem {
   readonly name: string;
   readonly f: Rhs;
   readonly y0: readonly number[];
@@ -52,7 +52,7 @@ interface Problem {
   readonly jump?: number;
 }
 
-function problems(): Problem[] {
+export function problems(): Problem[] {
   const H = P.hour;
   const c = P.cooling, g = P.logistic, b = P.bateman, d = P.doses, s = P.forced, m = P.michaelis;
   const amp = (b.dose * b.ka) / (b.V * (b.ka - b.k));
@@ -107,7 +107,7 @@ function problems(): Problem[] {
 /** One run of ours: evaluations, the error measure, the error in tolerance units, the method that ran. */
 export interface OurRun { readonly evaluations: number; readonly error: number; readonly units: number; readonly method: string }
 
-function ours(p: Problem, method: Method, rtol: number): OurRun {
+export function ours(p: Problem, method: Method, rtol: number): OurRun {
   const grid = Array.from({ length: GRID }, (_, i) => (p.t1 * i) / (GRID - 1));
   const exact = grid.map(p.exact);
   const n = p.y0.length;
@@ -157,6 +157,16 @@ export function atEqualAccuracy(runs: readonly RefRun[], E: number): { evaluatio
   return { evaluations: Math.exp(Math.log(a.evaluations) + s * (Math.log(b.evaluations) - Math.log(a.evaluations))), how: 'interpolated' };
 }
 
+/** The SciPy method with the fewest evaluations at error E on a problem, and that count (Infinity when none was that accurate). */
+export function bestReference(problem: string, E: number): { method: string; evaluations: number; how: string } {
+  let best = { method: 'none', evaluations: Infinity, how: 'never' };
+  for (const [method, list] of Object.entries(REF.problems[problem] ?? {})) {
+    const at = atEqualAccuracy(list, E);
+    if (at.evaluations < best.evaluations) best = { method, ...at };
+  }
+  return best;
+}
+
 export interface WorkPrecisionRow {
   readonly problem: string;
   readonly rtol: number;
@@ -171,17 +181,12 @@ export interface WorkPrecisionRow {
 export function workPrecisionBench(): WorkPrecisionRow[] {
   const rows: WorkPrecisionRow[] = [];
   for (const p of problems()) {
-    const ref = REF.problems[p.name];
     for (let q = 3; q <= 10; q++) {
       const rtol = 10 ** -q;
       const runs = {
         dopri5: ours(p, 'dopri5', rtol), dp853: ours(p, 'dp853', rtol), stiff: ours(p, 'stiff', rtol), auto: ours(p, 'auto', rtol),
       };
-      let best = { method: 'none', evaluations: Infinity, how: 'never' };
-      for (const [method, list] of Object.entries(ref ?? {})) {
-        const at = atEqualAccuracy(list, runs.auto.error);
-        if (at.evaluations < best.evaluations) best = { method, ...at };
-      }
+      const best = bestReference(p.name, runs.auto.error);
       rows.push({ problem: p.name, rtol, runs, best, ratio: Number.isFinite(best.evaluations) ? runs.auto.evaluations / best.evaluations : NaN });
     }
   }

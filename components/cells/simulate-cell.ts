@@ -19,6 +19,7 @@ const METHOD_LABELS: Record<string, string> = {
   auto: 'automatic (switches to stiff when needed)', dopri5: 'Dormand–Prince 5(4), adaptive', stiff: 'stiff (implicit, adaptive)',
   rk4: 'Runge–Kutta 4, fixed step', heun: 'Heun, fixed step', euler: 'Euler, fixed step',
   dp853: 'Dormand–Prince 8(5,3), adaptive, for tight tolerances',
+  adams: 'Adams, variable order, for smooth laws at tight tolerances',
 };
 
 /** A simulate cell: the run's span and method, its schedule, its questions, and the results with their plot. */

@@ -209,7 +209,7 @@ function fit(cell: Of<'fit'>, r: ReportOf<'fit'>, cells: readonly Cell[]): Templ
     <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
     ${fitPriorPart(r)}
-    <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, ${r.errorModel ? 'SDs from the error model' : html`residual SD ${r.residualSD ? showQ(r.residualSD) : residualSdReason(r)}, weighting ${cell.weighting ?? 'none'}`}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message}).</p>
+    <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, ${r.errorModel ? 'SDs from the error model' : html`residual SD ${r.residualSD ? showQ(r.residualSD) : residualSdReason(r)}, weighting ${cell.weighting ?? 'none'}`}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message})${r.digits !== undefined ? `; estimates computed to ${r.digits} significant digits` : ''}.</p>
     <div class="keep">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log') : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>`;
 }

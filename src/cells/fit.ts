@@ -14,7 +14,7 @@ import { type Quantity, report, describe, deltaUnit, valueIn } from '../units/qu
 import { sameDim, describeDim, TIME } from '../units/dimension.ts';
 import { type DisplayUnit, formatUnit, unitDim } from '../units/units.ts';
 import { fitLeastSquares } from '../numerics/fit/least-squares.ts';
-import { runModelAt, type ModelSpec } from '../simulate/model-run.ts';
+import { runModelAt, FIT_RTOL, type ModelSpec } from '../simulate/model-run.ts';
 import { collectLaws } from './laws.ts';
 import { measuredPoints, type SimulationPlot } from '../simulate/plot-data.ts';
 import { quantitySig } from './signatures.ts';
@@ -62,6 +62,13 @@ export function fitNodes(cell: FitCell, at: string): Array<GraphNode<NodeOutput<
     run: (ctx) => guarded(() => runFit(cell, at, fields as Array<{ guess: Field; min?: Field; max?: Field }>, pf, ctx)),
   }];
 }
+
+/**
+ * The error of a model run, in tolerance units (|error| / (rtol·|y| + atol)), that the fit's
+ * digits allow for: the integrators' global error at the fit's tolerance stays within a few
+ * units on the work-precision problems (test/engine/ode-tolerance-units.test.ts).
+ */
+const RUN_ERROR_UNITS = 10;
 
 interface Unknown {
   readonly kind: 'parameter' | 'initial';
@@ -188,8 +195,11 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     scale: unknowns.map((u) => Math.abs(u.guess) || 1),
     names: unknowns.map((u) => `"${u.as}"`),
   }, {
-    // differences of a solver run (relative tolerance 1e-10) need a step near √rtol, not √ε
-    diffStep: 1e-5,
+    // central differences with a step for a run good to its tolerance, and the digits it leaves
+    modelAccuracy: FIT_RTOL,
+    residualError: (r, e) => points.forEach((pt, k) => {
+      e[k] = pt.w * RUN_ERROR_UNITS * FIT_RTOL * (Math.abs(r[k] / pt.w + pt.y) + 1e-2 * scale[pt.state]);
+    }),
   });
   if (!fit.residuals) fail(at, `the fit could not start: ${fit.message}${fit.detail ? ` (${fit.detail})` : ''}${lastFailure ? `; the model failed: ${lastFailure}` : ''}`, 'numeric');
 
@@ -231,6 +241,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     dof: fit.dof,
     iterations: fit.iterations,
     evaluations: fit.evaluations,
+    ...(fit.digits !== null ? { digits: fit.digits } : {}),
     converged: fit.converged,
     message: fit.message,
     ...(fit.correlation ? { correlation: { names: unknowns.map((u) => u.as), matrix: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => fit.correlation![i * n + j])) } } : {}),

@@ -256,6 +256,12 @@ export interface FitFields {
   dof: number;
   iterations: number;
   evaluations: number;
+  /**
+   * Significant digits of every estimate the fit vouches for, from the run's tolerance, the
+   * Jacobian's error and the distance left to the optimum (numerics/fit/fit-digits.ts);
+   * absent for a fit with priors or an error model, an estimate on a bound, or a singular fit.
+   */
+  digits?: number;
   converged: boolean;
   message: string;
   correlation?: { names: string[]; matrix: number[][] };

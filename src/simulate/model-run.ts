@@ -20,7 +20,7 @@ export interface RunAt {
 }
 
 /** Tolerances tight enough that finite differences of a run are not spoiled by its error. */
-const FIT_RTOL = 1e-10;
+export const FIT_RTOL = 1e-10;
 
 /**
  * Runs the model from t0 with starting values y0 and parameters p, and samples it at `times`

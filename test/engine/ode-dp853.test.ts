@@ -53,7 +53,7 @@ const PROBLEMS: readonly Problem[] = [
   },
 ];
 
-function run(p: Problem, rtol: number, method: 'dp853' | 'dopri5' | 'auto' = 'dp853') {
+function run(p: Problem, rtol: number, method: 'dp853' | 'dopri5' | 'adams' | 'auto' = 'dp853') {
   const atol = p.size.map((s) => 1e-3 * rtol * s);
   const res = integrate(p.f, 0, p.y0, p.t1, { method, rtol, atol });
   const n = p.y0.length;
@@ -132,17 +132,17 @@ describe('dp853 on closed forms at rtol 1e-7 … 1e-10 (atol = 1e-3·rtol·size)
   });
 });
 
-describe('auto chooses the pair from the tolerance', () => {
-  it(`auto runs dp853 below rtol ${HIGH_ORDER_BELOW_RTOL} and dopri5 from there up, and says so`, () => {
-    assert.equal(run(PROBLEMS[2], 1e-8, 'auto').res.method, 'dp853');
+describe('auto chooses the method from the tolerance', () => {
+  it(`auto runs adams below rtol ${HIGH_ORDER_BELOW_RTOL} and dopri5 from there up, and says so`, () => {
+    assert.equal(run(PROBLEMS[2], 1e-8, 'auto').res.method, 'adams');
     assert.equal(run(PROBLEMS[2], 1e-6, 'auto').res.method, 'dopri5');
     assert.equal(run(PROBLEMS[2], 1e-3, 'auto').res.method, 'dopri5');
   });
 
-  it('auto at rtol 1e-9 spends what dp853 itself does, and less than half of dopri5\'s count (Bateman)', () => {
+  it('auto at rtol 1e-9 spends what adams itself does, and less than half of dopri5\'s count (Bateman)', () => {
     const p = PROBLEMS[2];
     const auto = run(p, 1e-9, 'auto').res.counters.evaluations;
-    assert.equal(auto, run(p, 1e-9, 'dp853').res.counters.evaluations);
+    assert.equal(auto, run(p, 1e-9, 'adams').res.counters.evaluations);
     assert.ok(auto < 0.5 * run(p, 1e-9, 'dopri5').res.counters.evaluations);
   });
 
@@ -152,6 +152,7 @@ describe('auto chooses the pair from the tolerance', () => {
     assert.ok(alone.stiffnessDetected !== null && alone.stiffnessDetected < 0.1, `found at ${alone.stiffnessDetected}`);
     const auto = integrate(f, 0, [0], 10, { method: 'auto', rtol: 1e-8, atol: 1e-11 });
     assert.equal(auto.method, 'stiff');
-    assert.equal(auto.switchedToStiff, alone.stiffnessDetected);
+    // auto starts with adams at this tolerance, whose own test finds it as early
+    assert.ok(auto.switchedToStiff !== null && auto.switchedToStiff < 0.1, `switched at ${auto.switchedToStiff}`);
   });
 });

@@ -73,7 +73,7 @@ const DECLARED = {
   phase: ['equilibria', 'intervals', 'poles', 'jumps', 'gaps', 'zeroIntervals', 'evaluations', 'notes', 'plot', 'summary', 'sweep'],
   simulate: ['method', 'steps', 'evaluations', 'results', 'closedForm', 'series', 'summary', 'questions', 'plot', 'schedule', 'switchedToStiff', 'note'],
   data: ['columns', 'rowCount', 'missing', 'note', 'csv'],
-  fit: ['estimates', 'objective', 'bayesian', 'errorModel', 'residualSD', 'n', 'dof', 'iterations', 'evaluations', 'converged', 'message', 'correlation', 'warnings', 'residuals', 'residualFloor', 'summary', 'plot'],
+  fit: ['estimates', 'objective', 'bayesian', 'errorModel', 'residualSD', 'n', 'dof', 'iterations', 'evaluations', 'digits', 'converged', 'message', 'correlation', 'warnings', 'residuals', 'residualFloor', 'summary', 'plot'],
   nca: ['values', 'pointsUsed', 'note', 'warnings'],
   solve: ['solution', 'achieved', 'rounded', 'achievedRounded', 'solutions', 'targetRange', 'undefinedIn', 'choices', 'evaluations', 'message'],
   uncertainty: ['method', 'results', 'inputs', 'samples', 'seed', 'failed', 'failedReason', 'evaluations', 'notes', 'summary'],

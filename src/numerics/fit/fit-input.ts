@@ -20,6 +20,8 @@ export interface CheckedInput {
   readonly xtol: number;
   readonly gtol: number;
   readonly diffStep: number;
+  /** The model's relative accuracy (central differences, digits), or null (forward differences). */
+  readonly modelAccuracy: number | null;
 }
 
 /** Checks the input; returns the problem in working form or the reason it is invalid. */
@@ -80,5 +82,9 @@ export function checkInput(problem: LeastSquaresProblem, options: LeastSquaresOp
   if (typeof gtol === 'string') return bad(gtol);
   const diffStep = o.diffStep ?? FIT_DEFAULTS.diffStep;
   if (!(diffStep > 0 && diffStep < 1)) return bad(`diffStep must be a number between 0 and 1; it is ${diffStep}`);
-  return { n, m, p0, lower, upper, scale, typical, maxIterations, maxEvaluations, ftol, xtol, gtol, diffStep };
+  const modelAccuracy = o.modelAccuracy ?? null;
+  if (modelAccuracy !== null && !(modelAccuracy >= Number.EPSILON && modelAccuracy < 1e-2)) {
+    return bad(`modelAccuracy must be a number from machine epsilon up to 0.01; it is ${modelAccuracy}`);
+  }
+  return { n, m, p0, lower, upper, scale, typical, maxIterations, maxEvaluations, ftol, xtol, gtol, diffStep, modelAccuracy };
 }

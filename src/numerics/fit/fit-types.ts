@@ -88,8 +88,19 @@ export interface LeastSquaresOptions {
   readonly xtol?: number;
   /** Stop when |cos| of the angle between r and each free column of J is at most gtol; default 1e-10. */
   readonly gtol?: number;
-  /** Relative step of the forward differences; default √ε ≈ 1.5e-8. */
+  /** Relative step of the forward differences; default √ε ≈ 1.5e-8. Not used with `modelAccuracy`. */
   readonly diffStep?: number;
+  /**
+   * The relative accuracy of the model's values (a simulation's relative tolerance). When
+   * given, the Jacobian is formed by central differences with the step cbrt(modelAccuracy)
+   * per parameter (`fit-model.ts`), and the result carries `digits` (`fit-digits.ts`).
+   */
+  readonly modelAccuracy?: number;
+  /**
+   * With `modelAccuracy`: a bound on the error of each residual that the model's inaccuracy
+   * makes (m values, absolute), for `digits`. Without it, modelAccuracy·|r_i| is taken.
+   */
+  readonly residualError?: (r: Float64Array, out: Float64Array) => void;
   /** Checked before every model evaluation; when `aborted` is true the fit stops with `cancelled`. */
   readonly signal?: { readonly aborted: boolean };
 }
@@ -152,4 +163,10 @@ export interface FitResult {
   readonly atBound: readonly boolean[];
   /** Identifiability, bounds and degrees-of-freedom remarks. */
   readonly warnings: readonly FitWarning[];
+  /**
+   * Significant digits of every estimate the fit vouches for (`fit-digits.ts`), from the
+   * model's accuracy, the Jacobian's error and the distance left to the optimum; null without
+   * `modelAccuracy`, a Jacobian, or a nonsingular JᵀJ, or with an estimate on a bound.
+   */
+  readonly digits: number | null;
 }

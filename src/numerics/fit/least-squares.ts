@@ -15,7 +15,8 @@
  * intervals, identifiability).
  */
 import { checkInput } from './fit-input.ts';
-import { CountedModel, forwardJacobian } from './fit-model.ts';
+import { CountedModel, differenceJacobian } from './fit-model.ts';
+import { polish } from './fit-polish.ts';
 import { emptyStatistics, nameOf, statistics } from './fit-statistics.ts';
 import {
   CONVERGED, FIT_MESSAGES, type FitResult, type FitStatus, type FitWarning, type LeastSquaresOptions, type LeastSquaresProblem,
@@ -55,8 +56,10 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
     const why = model.modelError !== null ? `the model threw: ${model.modelError}` : 'the model returned false or a value that is not a finite number';
     return earlyResult('model-failed-at-start', p, 1, model.modelFailures, model.modelError, why, m - n);
   }
-  const differences = forwardJacobian(checked, model, aborted);
-  const { r, cost, iterations, rejectedSteps, jacobianAtP, ...end } = levenbergMarquardt(checked, model, differences, aborted, p, r0);
+  const differences = differenceJacobian(checked, model, aborted);
+  const iterated = levenbergMarquardt(checked, model, differences, aborted, p, r0);
+  const { iterations, rejectedSteps, jacobianAtP, ...end } = iterated;
+  let { r, cost } = iterated;
   let status: FitStatus = end.status;
   const jac = differences.values;
 
@@ -82,18 +85,37 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
       });
     }
   }
+  // with the model's accuracy known: the extrapolated Jacobian, a last step, the digits (fit-polish.ts)
+  let digits: number | null = null;
+  if (jacobian && checked.modelAccuracy !== null && !atBound.some((b) => b) && !aborted()) {
+    const accuracy = checked.modelAccuracy;
+    const polished = polish(checked, model, differences, Float64Array.from(jacobian), p, r, cost,
+      options.residualError ?? ((res, e) => e.fill(accuracy * res.reduce((a, v) => Math.max(a, Math.abs(v)), 0))));
+    if (polished) {
+      p.set(polished.p);
+      r = polished.r;
+      cost = polished.cost;
+      jacobian = polished.jacobian;
+      digits = polished.digits;
+    } else {
+      jacobian = Float64Array.from(jacobian);
+    }
+  }
+  // a difference Jacobian tells columns apart no more finely than its own error
+  const resolution = checked.modelAccuracy !== null ? Math.cbrt(checked.modelAccuracy) ** 2 : diffStep;
   const stats = jacobian
-    ? statistics(jacobian, m, n, cost, p, diffStep, warnings, problem.names)
+    ? statistics(jacobian, m, n, cost, p, resolution, warnings, problem.names)
     : (warnings.push({
         kind: 'no-jacobian', parameters: [],
         message: 'no Jacobian at the final parameters, so no standard errors, intervals or identifiability check',
       }), emptyStatistics(m, n, cost));
+  const kept = jacobian ? Float64Array.from(jacobian) : null;
   return {
     status: final, message: FIT_MESSAGES[final], converged: CONVERGED.has(final),
     detail: model.modelError !== null ? `the model threw: ${model.modelError}` : null,
     p, residuals: r, cost, iterations, evaluations: model.evaluations, rejectedSteps,
     modelFailures: model.modelFailures, modelError: model.modelError,
-    jacobian: jacobian ? Float64Array.from(jacobian) : null, atBound, warnings, ...stats,
+    jacobian: kept, atBound, warnings, ...stats, digits,
   };
 }
 
@@ -107,6 +129,6 @@ function earlyResult(
     iterations: 0, evaluations, rejectedSteps: 0, modelFailures, modelError, jacobian: null,
     covariance: null, standardErrors: null, ci95: null, correlation: null, dof,
     residualSD: null, tQuantile95: null, conditionNumber: null,
-    atBound: Array.from(p, () => false), warnings: [],
+    atBound: Array.from(p, () => false), warnings: [], digits: null,
   };
 }

@@ -68,7 +68,7 @@ export interface IterationEnd {
 
 /**
  * Iterates from p (moved in place) with r = residuals at p until a stopping rule holds. Cost:
- * per iteration n + 1 or more model evaluations, an SVD of m×n (about 3·m·n² multiply-adds
+ * per iteration n + 1 (central differences: 2n + 1) or more model evaluations, an SVD of m×n (about 3·m·n² multiply-adds
  * per sweep) and O(m·n) work per trial step.
  */
 export function levenbergMarquardt(
@@ -96,7 +96,7 @@ export function levenbergMarquardt(
   outer: for (;;) {
     if (cost === 0) { status = 'exact-fit'; break; }
     if (iterations >= maxIterations) { status = 'max-iterations'; break; }
-    if (model.evaluations + n > maxEvaluations) { status = 'max-evaluations'; break; }
+    if (model.evaluations + jacobian.callsPerForm > maxEvaluations) { status = 'max-evaluations'; break; }
     const formed = jacobian.form(p, r);
     if (formed === 'cancelled') { status = 'cancelled'; break; }
     if (formed === 'failed') { status = 'model-failed-jacobian'; break; }

@@ -170,7 +170,8 @@ export function errorNorm(err: Float64Array, y0: Float64Array, y1: Float64Array,
   return Math.sqrt(sum / err.length);
 }
 
-function scaledRms(v: Float64Array, y: Float64Array, o: ResolvedOptions): number {
+/** Root-mean-square of v_i / (atol_i + rtol·|y_i|). */
+export function scaledRms(v: Float64Array, y: Float64Array, o: ResolvedOptions): number {
   let sum = 0;
   for (let i = 0; i < v.length; i++) {
     const r = v[i] / (o.atol[i] + o.rtol * Math.abs(y[i]));

@@ -163,6 +163,7 @@ export const DOPRI5_PAIR: EmbeddedPair = {
   a: DOPRI5.a,
   newRateStage: 6,
   startOrder: 4,
+  timeScaleStart: true,
   control: DOPRI5_CONTROL,
   stiffness: { ...DOPRI5_STIFFNESS, stages: [6, 5] },
   activeModeHLambda,

@@ -13,6 +13,7 @@ import {
   type OdeContext, type StepOutcome, type Stepper,
   NonFiniteMark, collapseFailure, failure, initialStep, minStep, nonFiniteStatus, spendAttempt, trialStep,
 } from './control.ts';
+import { startStep } from './start-step.ts';
 import { type ButcherTableau, RkWork, rkStages, rkStep } from './explicit-rk.ts';
 import type { DenseSegment } from './types.ts';
 
@@ -68,6 +69,11 @@ export interface EmbeddedPair {
   readonly newRateStage: number;
   /** Order used for the starting step's guess h ~ (0.01/|y''|)^(1/(p+1)). */
   readonly startOrder: number;
+  /**
+   * The first step from the solution's time scale (`start-step.ts`) rather than the book's
+   * rule (`initialStep`, which reads t in its own unit as the time scale).
+   */
+  readonly timeScaleStart: boolean;
   readonly control: StepControl;
   readonly stiffness: StiffnessTest;
   /** The h|λ| of an accuracy-limited step on a mode of relative size 1 at this rtol. */
@@ -118,7 +124,9 @@ export class EmbeddedRkStepper implements Stepper {
     const s = pair.tableau.c.length;
     if (!this.started) {
       if (!ctx.rhs.call(this.t, y, k[0])) return failure(nonFiniteStatus(ctx, y, y, k[0]), this.t, y);
-      if (Number.isNaN(this.h)) this.h = initialStep(ctx, this.t, y, k[0], tEnd, pair.startOrder);
+      if (Number.isNaN(this.h)) {
+        this.h = pair.timeScaleStart ? startStep(ctx, this.t, y, k[0], tEnd, pair.startOrder) : initialStep(ctx, this.t, y, k[0], tEnd, pair.startOrder);
+      }
       this.started = true;
     }
     this.mark.clear();

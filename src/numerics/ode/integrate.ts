@@ -10,6 +10,7 @@
 import {
   type OdeContext, type Stepper, beyondBound, newContext, resolveOptions,
 } from './control.ts';
+import { AdamsStepper } from './adams.ts';
 import { Dopri5Stepper } from './dopri5.ts';
 import { Dp853Stepper } from './dp853.ts';
 import { EmbeddedRkStepper } from './embedded-rk.ts';
@@ -22,23 +23,24 @@ import {
 } from './types.ts';
 
 /**
- * `auto` starts with an explicit pair (dopri5, or dp853 when rtol < `HIGH_ORDER_BELOW_RTOL`)
- * and switches to `stiff` when that pair reports stiffness; `rk4`, `heun` and `euler` are
- * fixed-step and need `step`.
+ * `auto` starts with an explicit method (dopri5, or the variable-order Adams formulas when
+ * rtol < `HIGH_ORDER_BELOW_RTOL`) and switches to `stiff` when that method reports
+ * stiffness; `rk4`, `heun` and `euler` are fixed-step and need `step`.
  */
-export const METHODS = ['auto', 'dopri5', 'stiff', 'rk4', 'heun', 'euler', 'dp853'] as const;
+export const METHODS = ['auto', 'dopri5', 'stiff', 'rk4', 'heun', 'euler', 'dp853', 'adams'] as const;
 export type Method = (typeof METHODS)[number];
 export type MethodUsed = Exclude<Method, 'auto'>;
 
 /**
- * `auto` starts with dp853 (order 8) rather than dopri5 (order 5) below this rtol. Measured
- * on the work-precision problems of `bench/work-precision.ts`: see bench/README.md.
+ * `auto` starts with the Adams formulas (orders up to 13) rather than dopri5 (order 5)
+ * below this rtol. Measured on the work-precision problems of `bench/work-precision.ts`:
+ * see bench/README.md.
  */
 export const HIGH_ORDER_BELOW_RTOL = 1e-6;
 
-/** The explicit pair `auto` starts with at this rtol. */
-export function autoExplicit(rtol: number): 'dopri5' | 'dp853' {
-  return rtol < HIGH_ORDER_BELOW_RTOL ? 'dp853' : 'dopri5';
+/** The explicit method `auto` starts with at this rtol. */
+export function autoExplicit(rtol: number): 'dopri5' | 'adams' {
+  return rtol < HIGH_ORDER_BELOW_RTOL ? 'adams' : 'dopri5';
 }
 
 export interface IntegrateOptions extends SolverOptions {
@@ -59,7 +61,7 @@ export interface IntegrateResult {
   /** One per accepted step, in order, covering [t0, t] without gaps. */
   readonly segments: readonly DenseSegment[];
   readonly counters: Counters;
-  /** The method that made the last step ('dopri5', 'dp853' or 'stiff' for auto). */
+  /** The method that made the last step ('dopri5', 'adams' or 'stiff' for auto). */
   readonly method: MethodUsed;
   /**
    * The formula the stiff method ran ('rodas', or 'ndf' for a stiff run at a tolerance
@@ -68,7 +70,7 @@ export interface IntegrateResult {
   readonly stiffFormula: StiffFormula | null;
   /** Time at which auto switched to the stiff method, or null. */
   readonly switchedToStiff: number | null;
-  /** Time at which dopri5 or dp853 first found the problem stiff (auto then switches), or null. */
+  /** Time at which dopri5, dp853 or adams first found the problem stiff (auto then switches), or null. */
   readonly stiffnessDetected: number | null;
   /** Step size to start a continuation with (pass as `firstStep`). */
   readonly nextStep: number;
@@ -100,6 +102,7 @@ function makeStepper(ctx: OdeContext, method: Exclude<MethodUsed, 'stiff'>, t0: 
   switch (method) {
     case 'dopri5': return new Dopri5Stepper(ctx, t0, y0, first);
     case 'dp853': return new Dp853Stepper(ctx, t0, y0, first);
+    case 'adams': return new AdamsStepper(ctx, t0, y0, first);
     case 'rk4': return new FixedStepper(ctx, RK4, t0, y0, options.step!);
     case 'heun': return new FixedStepper(ctx, HEUN, t0, y0, options.step!);
     case 'euler': return new FixedStepper(ctx, EULER, t0, y0, options.step!);
@@ -111,7 +114,7 @@ function makeStepper(ctx: OdeContext, method: Exclude<MethodUsed, 'stiff'>, t0: 
  * Numerical failure is a result (`status` other than success, with `message` and
  * `failure`); invalid input throws a RangeError naming the input. Every loop is bounded by
  * `maxSteps` step attempts. Cost: about 6 evaluations per step for dopri5, 15 for dp853 (11
- * per rejected attempt); n + 8 per step
+ * per rejected attempt), 1 for adams (one more every eighth step, its stiffness test); n + 8 per step
  * for the stiff method (one less when `autonomous`, another less without
  * `denseErrorControl`, n less with an analytic `jacobian`); s per step for a fixed-step
  * method of s stages; plus one or two to start.
@@ -158,7 +161,7 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
     }
     segments.push(outcome.segment);
     if (beyondBound(ctx, stepper.y)) return finish(Status.Blowup, { t: stepper.t, y: Float64Array.from(stepper.y) });
-    if (stepper instanceof EmbeddedRkStepper && stepper.stiffAt !== null) {
+    if ((stepper instanceof EmbeddedRkStepper || stepper instanceof AdamsStepper) && stepper.stiffAt !== null) {
       if (stiffnessDetected === null) stiffnessDetected = stepper.stiffAt;
       if (method === 'auto' && stepper.t < t1) {
         counters.switchedToStiff = stepper.t;
