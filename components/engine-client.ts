@@ -3,8 +3,12 @@
  * worker is busy they are batched, and when it has been busy too long with work a newer edit
  * makes stale, the worker is replaced and handed the latest study, so the old run is
  * cancelled. An answer older than the newest one shown is dropped.
+ *
+ * After its answer the worker computes the long cells (a Monte Carlo) in slices: their
+ * progress and their late report are let through only while they reflect the newest edit sent
+ * (no edit in flight or waiting), so a result for values the page no longer shows never appears.
  */
-import { lazyResiduals, type Edit, type FromWorker, type Report, type ResidualColumns, type Study, type ToWorker } from '../src/index.ts';
+import { lazyResiduals, type Edit, type FromWorker, type Progress, type Report, type ResidualColumns, type Study, type ToWorker } from '../src/index.ts';
 
 /** A run longer than this, with newer edits waiting, is cancelled. */
 export const CANCEL_AFTER_MS = 250;
@@ -16,10 +20,17 @@ export interface EngineAnswer {
   readonly rerun: readonly string[];
   readonly changed: readonly string[];
   readonly ms: number;
+  /** Cells still computing (their figures are the previous ones), and how far the one computing is. */
+  readonly pending?: readonly string[];
+  readonly progress?: Progress;
+  /** A pending cell finished after the answer to the newest edit. */
+  readonly late?: true;
 }
 
 export interface EngineClientEvents {
   answer(answer: EngineAnswer): void;
+  /** How far the pending cell computing is (a few times a second at most). */
+  progress?(progress: Progress): void;
   refused(message: string, path: string): void;
   busy(busy: boolean): void;
 }
@@ -82,19 +93,19 @@ export class EngineClient {
   }
 
   private receive(msg: FromWorker): void {
+    if (msg.type === 'progress' || (msg.type === 'report' && msg.late)) {
+      // work after the answer to the newest edit: stale once another edit is sent
+      if (this.inFlight || this.queued.length || msg.seq !== this.seq) return;
+      if (msg.type === 'progress') this.events.progress?.(msg.progress);
+      else this.events.answer(withResiduals(msg));
+      return;
+    }
     if (!this.inFlight || msg.seq !== this.inFlight.seq) return; // an answer from a cancelled run
     this.inFlight = undefined;
     clearTimeout(this.cancelTimer);
     this.cancelTimer = undefined;
     if (msg.type === 'refused') this.events.refused(msg.error.message, msg.error.path);
-    else {
-      // a fit's residuals came as columns: the report reads as the engine wrote it
-      for (const c of msg.report.cells) {
-        const columns = (c as { residualColumns?: ResidualColumns }).residualColumns;
-        if (columns && !('residuals' in c)) lazyResiduals(c, columns);
-      }
-      this.events.answer(msg); // newer than anything shown; queued edits follow at once
-    }
+    else this.events.answer(withResiduals(msg)); // newer than anything shown; queued edits follow at once
     if (this.queued.length) {
       const edits = this.queued;
       this.queued = [];
@@ -103,6 +114,15 @@ export class EngineClient {
       this.events.busy(false);
     }
   }
+}
+
+/** A fit's residuals came as columns: the report reads as the engine wrote it. */
+function withResiduals<M extends Extract<FromWorker, { type: 'report' }>>(msg: M): M {
+  for (const c of msg.report.cells) {
+    const columns = (c as { residualColumns?: ResidualColumns }).residualColumns;
+    if (columns && !('residuals' in c)) lazyResiduals(c, columns);
+  }
+  return msg;
 }
 
 function defaultWorker(): Worker {

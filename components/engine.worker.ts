@@ -2,10 +2,23 @@
 /**
  * The engine's worker: one study session off the main thread, so that long runs and sweeps
  * never freeze the page. It only relays: every computation is the engine's.
+ *
+ * The session defers its long cells (a Monte Carlo uncertainty cell): each edit is answered
+ * with every other cell, then the long ones are computed in slices of SLICE_MS, each posted
+ * behind a message to itself, so an edit that arrives meanwhile is applied between two slices
+ * (and, when it reaches their inputs, starts them again). Progress goes out every
+ * PROGRESS_EVERY_MS at most; a finished cell goes out as a `late` report.
  */
 import { openStudy, residualBuffers, residualColumns, type CellReport, type FromWorker, type StudySession, type ToWorker } from '../src/index.ts';
 
+/** The longest slice of deferred work, in ms: an edit waits at most this long (plus one sample) before it is applied. */
+const SLICE_MS = 5;
+/** The least time between two progress messages, in ms. */
+const PROGRESS_EVERY_MS = 250;
+
 let session: StudySession | undefined;
+/** The seq of the last message applied: what a late report or a progress message reflects. */
+let seq = 0;
 
 /**
  * The page plots the `plot` samples; the raw `series` (for the command line) would only cost
@@ -22,19 +35,52 @@ function post(message: FromWorker): void {
       transfer.push(...residualBuffers(columns));
       return { ...fit, residualColumns: columns } as unknown as CellReport;
     });
-    message = { ...message, report: { ...message.report, cells }, received, sent: performance.timeOrigin + performance.now() };
+    const progress = session?.progress();
+    message = {
+      ...message, report: { ...message.report, cells }, pending: session?.pending() ?? [], ...(progress ? { progress } : {}),
+      ...(message.late ? {} : { received }), sent: performance.timeOrigin + performance.now(),
+    };
   }
   (self as unknown as Worker).postMessage(message, transfer);
 }
 
 let received = 0;
 
+// deferred work: one slice per message to this port, so the worker's own messages come between
+const slices = new MessageChannel();
+let scheduled = false;
+let lastProgress = 0;
+
+function schedule(): void {
+  if (scheduled || !session?.pending().length) return;
+  scheduled = true;
+  slices.port2.postMessage(0);
+}
+
+slices.port1.onmessage = () => {
+  scheduled = false;
+  if (!session) return;
+  const started = performance.now();
+  const step = session.work(started + SLICE_MS);
+  if (!step) return;
+  const now = performance.now();
+  if (step.answer) {
+    const { report, rerun, changed } = step.answer;
+    post({ type: 'report', seq, report, rerun, changed, ms: now - started, late: true });
+  } else if (step.progress && now - lastProgress >= PROGRESS_EVERY_MS) {
+    lastProgress = now;
+    post({ type: 'progress', seq, progress: step.progress });
+  }
+  schedule();
+};
+
 self.onmessage = (event: MessageEvent<ToWorker>) => {
   received = performance.timeOrigin + performance.now();
   const msg = event.data;
+  seq = msg.seq;
   const started = performance.now();
   if (msg.type === 'open') {
-    const opened = openStudy(msg.doc);
+    const opened = openStudy(msg.doc, { defer: true });
     if (!opened.ok) {
       session = undefined;
       post({ type: 'refused', seq: msg.seq, error: opened.error });
@@ -43,6 +89,7 @@ self.onmessage = (event: MessageEvent<ToWorker>) => {
     session = opened.session;
     const report = session.report();
     post({ type: 'report', seq: msg.seq, report, rerun: report.cells.map((c) => c.id), changed: report.cells.map((c) => c.id), ms: performance.now() - started });
+    schedule();
     return;
   }
   if (!session) {
@@ -55,10 +102,12 @@ self.onmessage = (event: MessageEvent<ToWorker>) => {
     const r = session.apply(edit);
     if (!r.ok) {
       post({ type: 'refused', seq: msg.seq, error: r.error });
+      schedule();
       return;
     }
     r.rerun.forEach((id) => rerun.add(id));
     r.changed.forEach((id) => changed.add(id));
   }
   post({ type: 'report', seq: msg.seq, report: session.report(), rerun: [...rerun], changed: [...changed], ms: performance.now() - started });
+  schedule();
 };

@@ -1,5 +1,5 @@
 import type { ReactiveController, ReactiveControllerHost } from 'lit';
-import { applyEdit, sameContent, type Edit, type Report, type Study } from '../src/index.ts';
+import { applyEdit, sameContent, type Edit, type Progress, type Report, type Study } from '../src/index.ts';
 import { EngineClient, type EngineAnswer } from './engine-client.ts';
 import { createAutosaver, type Autosaver, type AutosaveState } from './autosaver.ts';
 
@@ -36,6 +36,9 @@ export class StudyController implements ReactiveController {
   rerun: readonly string[] = [];
   changed: readonly string[] = [];
   busy = false;
+  /** Cells whose figures are the previous ones while the engine computes them (a Monte Carlo), and how far the one computing is. */
+  pending: readonly string[] = [];
+  progress?: Progress;
   /** A refused edit or an engine failure, for the status line. */
   problem?: string;
   saveState: AutosaveState = 'saved';
@@ -61,12 +64,18 @@ export class StudyController implements ReactiveController {
         this.report = a.report;
         this.rerun = a.rerun;
         this.changed = a.changed;
+        this.pending = a.pending ?? [];
+        this.progress = a.progress;
         this.lastRunMs = a.ms;
         this.lastTiming = { received: a.received ?? 0, sent: a.sent ?? 0, arrived: performance.timeOrigin + performance.now() };
         this.problem = undefined;
         this.listeners.forEach((l) => l(a));
         clearTimeout(this.renderTimer);
         this.renderTimer = undefined;
+        this.host.requestUpdate();
+      },
+      progress: (p: Progress) => {
+        this.progress = p;
         this.host.requestUpdate();
       },
       refused: (message: string, path: string) => {
@@ -97,6 +106,8 @@ export class StudyController implements ReactiveController {
     this.id = id;
     this.study = study;
     this.report = undefined;
+    this.pending = [];
+    this.progress = undefined;
     this.undoStack = [];
     this.redoStack = [];
     this.lastMerge = undefined;

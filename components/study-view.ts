@@ -12,6 +12,7 @@ import { focusFirstField } from './focus-first.ts';
 import { keepClear } from './expr-editor/keep-clear.ts';
 import { readyUnitsInBackground } from './ready-units.ts';
 import { ref } from 'lit/directives/ref.js';
+import { pendingLine, pendingStyles } from './pending-line.ts';
 
 /**
  * The open study: its title, cautions, every cell in order with its result, and the tools to
@@ -38,7 +39,7 @@ export class StudyView extends LitElement {
     return view;
   }
 
-  static override styles = [wrapFieldStyles, css`
+  static override styles = [wrapFieldStyles, pendingStyles, css`
     :host { display: block; }
     .bar { display: flex; flex-wrap: wrap; gap: 0.5rem; align-items: center; margin: 0.4rem 0 1rem; }
     .grow.title { font-size: 1.4rem; font-weight: 650; flex: 1 1 100%; color: #13202b; }
@@ -193,19 +194,22 @@ export class StudyView extends LitElement {
     const failed = r && !r.ok;
     const idle = r?.ok && r.computed === false;
     const fresh = c.changed.includes(cell.id);
-    return html`<article data-cell=${cell.id} class="${failed ? 'failed' : ''} ${fresh ? 'fresh' : ''}" aria-label="${cell.title || cell.id} (${info.label})"
+    // still computing (a Monte Carlo, or a cell reading one): its previous figures, dimmed
+    const pending = c.pending.includes(cell.id);
+    return html`<article data-cell=${cell.id} class="${failed ? 'failed' : ''} ${fresh ? 'fresh' : ''} ${pending ? 'pending' : ''}" aria-label="${cell.title || cell.id} (${info.label})"
         @cell-edit=${(e: CustomEvent<CellEditDetail>) => { e.stopPropagation(); c.edit({ type: 'replace', cell: e.detail.cell }, e.detail.mergeKey); }}>
       <header class="cell">
         <span class="kind">${info.label}</span>
         ${wrapField({ cls: 'cell-title', field: 'title', label: `Title of cell ${cell.id}`, placeholder: cell.id, value: cell.title ?? '',
           onInput: (t) => { const { title: _t, ...rest } = cell; c.edit({ type: 'replace', cell: t ? { ...rest, title: t } : rest }, `${cell.id}:title`); } })}
-        <span class="state ${failed ? 'bad' : idle ? 'idle' : ''}">${!r ? '' : failed ? (r.waitsOn ? 'waiting' : 'error') : idle ? 'not computed yet' : c.busy && c.rerun.includes(cell.id) ? 'recomputing…' : ''}</span>
+        <span class="state ${pending ? 'idle' : failed ? 'bad' : idle ? 'idle' : ''}">${pending ? 'updating…' : !r ? '' : failed ? (r.waitsOn ? 'waiting' : 'error') : idle ? 'not computed yet' : c.busy && c.rerun.includes(cell.id) ? 'recomputing…' : ''}</span>
         <span class="tools">
           <button aria-label="Move ${cell.id} up" ?disabled=${i === 0} @click=${() => c.edit({ type: 'move', id: cell.id, to: i - 1 })}>↑</button>
           <button aria-label="Move ${cell.id} down" ?disabled=${i === (c.study?.cells.length ?? 0) - 1} @click=${() => c.edit({ type: 'move', id: cell.id, to: i + 1 })}>↓</button>
           <button aria-label="Delete ${cell.id}" @click=${() => c.edit({ type: 'remove', id: cell.id })}>✕</button>
         </span>
       </header>
+      ${pending ? pendingLine(cell.id, c.progress, (id) => { const t = c.study?.cells.find((x) => x.id === id)?.title; return t ? `"${t}"` : `cell ${id}`; }) : nothing}
       ${info.render(cell, r, report, c.study)}
     </article>`;
   }

@@ -1,5 +1,6 @@
 /** Ratebook's engine: the public surface. Pure TypeScript; runs in the browser and in Node. */
-export { openStudy, StudySession, type EditResult, type OpenResult, type SessionOptions } from './engine/session.ts';
+export { openStudy, StudySession, type EditResult, type OpenResult, type SessionOptions, type WorkStep } from './engine/session.ts';
+export type { Progress } from './engine/sliced.ts';
 export type { Replacement, WhatIf, WhatIfAnswer, WhatIfPrepared, WhatIfResult } from './engine/what-if.ts';
 export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts';
 export { sameContent } from './study/same.ts';

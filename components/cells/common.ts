@@ -188,7 +188,10 @@ export const cellStyles = css`
   button { font: inherit; font-size: 0.85rem; padding: 0.2rem 0.6rem; border: 1px solid #8795a1; border-radius: 4px; background: #f3f5f7; color: #1c2329; cursor: pointer; }
   button:hover { background: #e4e9ee; }
   button.quiet { border-color: transparent; background: transparent; }
-  .result { font-variant-numeric: tabular-nums; color: #0f3d6b; white-space: nowrap; }
+  /* a cell still computing (pending-line.ts): its previous figures in grey (still readable), its charts faded */
+  .result { font-variant-numeric: tabular-nums; color: var(--stale-color, #0f3d6b); white-space: nowrap; }
+  .figures { color: var(--stale-color, inherit); }
+  .figures svg { opacity: var(--stale-opacity, 1); }
   .foot-error { color: #a3211a; margin: 0.3rem 0 0; font-size: 0.9rem; }
   .path { font-family: ui-monospace, monospace; font-size: 0.8rem; }
   table { border-collapse: collapse; width: 100%; }

@@ -57,7 +57,7 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     const quantities = entries.filter(([, x]) => x.mean);
     const verdicts = entries.filter(([, x]) => x.probability !== undefined || x.truth !== undefined);
     const none = entries.filter(([, x]) => !x.mean && x.probability === undefined && x.truth === undefined);
-    return html`
+    return html`<div class="figures">
       ${quantities.length ? html`<div class="table-scroll" role="region" tabindex="0" aria-label="How sure each result is"><table class="results"><caption class="sr">How sure each result is</caption>
         <thead><tr><th class="name">Result</th><th>mean</th><th>SD</th><th>median</th><th>95% interval (2.5–97.5 percentile)</th>${r.method === 'monte-carlo' ? html`<th>no value</th>` : nothing}</tr></thead>
         <tbody>${quantities.map(([name, x]) => html`<tr><td class="name">${name}</td><td class="result">${showQ(x.mean)}</td><td class="result">${showQ(x.sd)}</td>
@@ -68,7 +68,7 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
       ${r.failed ? html`<p class="failed">${r.failed.toLocaleString('en-US')} of ${r.samples?.toLocaleString('en-US')} samples left a name without a value: ${r.failedReason}.</p>` : nothing}
       ${quantities.filter(([, x]) => x.histogram).map(([name, x]) => histogramPlot(name, x.histogram!, [x.p025, x.p975]))}
       <p class="muted">Uncertain inputs: ${(r.inputs ?? []).map((i) => `${i.name} ${i.text}`).join('; ')}.</p>
-      <p class="muted">${r.summary} ${r.evaluations} runs of the study's values. ${(r.notes ?? []).join(' ')}</p>`;
+      <p class="muted">${r.summary} ${r.evaluations} runs of the study's values. ${(r.notes ?? []).join(' ')}</p></div>`;
   }
 
   private verdictWords(name: string, x: UncertaintyResult, samples: number | undefined) {

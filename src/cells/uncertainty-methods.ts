@@ -12,7 +12,7 @@
 import type { WhatIf } from '../engine/what-if.ts';
 import type { Quantity } from '../units/quantity.ts';
 import { charge } from '../numerics/work-meter.ts';
-import { seeded } from '../numerics/sampling/random.ts';
+import { seeded, type Random } from '../numerics/sampling/random.ts';
 import type { Drawer, Working } from './uncertainty-inputs.ts';
 import { slopes } from '../numerics/slopes.ts';
 import { RUN_ACCURACY } from './sensitivity.ts';
@@ -37,33 +37,68 @@ export interface MonteCarlo {
   readonly evaluations: number;
 }
 
-/** Runs `samples` draws through the what-if. Cost: `samples` what-if runs. */
-export function monteCarlo(whatIf: WhatIf, drawer: Drawer, inputs: number, samples: number, seed: number): MonteCarlo {
-  const rng = seeded(seed);
-  const names: NameSamples[] = whatIf.wanted.map(() => ({ values: [], verdict: false, failed: 0 }));
-  const x = new Float64Array(inputs);
-  let failed = 0;
-  let reason: string | undefined;
-  for (let s = 0; s < samples; s++) {
-    drawer(rng, x);
-    charge(1);
-    const r = whatIf.evaluate(x);
-    if (!r.ok) failed++;
-    r.answers.forEach((a, i) => {
-      const n = names[i];
-      if (!a.ok) {
-        n.failed++;
-        n.reason ??= a.reason;
-        reason ??= a.reason;
-        return;
-      }
-      n.template ??= a.q;
-      const truth = a.binding.kind === 'value' ? a.binding.truth : undefined;
-      if (truth !== undefined) n.verdict = true;
-      n.values.push(truth !== undefined ? Number(truth) : a.si);
-    });
+/**
+ * Monte Carlo as work that can be done in slices (the app's worker draws a slice of samples
+ * between messages): the generator and the values gathered so far are kept between slices, so
+ * the figures are the same bit for bit however the samples are sliced. Cost: one what-if run
+ * per sample.
+ */
+export class MonteCarloRun {
+  private readonly rng: Random;
+  private readonly names: NameSamples[];
+  private readonly x: Float64Array;
+  private failed = 0;
+  private reason?: string;
+  /** Samples drawn so far. */
+  done = 0;
+
+  constructor(private readonly whatIf: WhatIf, private readonly drawer: Drawer, inputs: number, readonly total: number, seed: number) {
+    this.rng = seeded(seed);
+    this.names = whatIf.wanted.map(() => ({ values: [], verdict: false, failed: 0 }));
+    this.x = new Float64Array(inputs);
   }
-  return { names, failed, ...(reason !== undefined ? { reason } : {}), evaluations: samples };
+
+  /**
+   * Draws samples until all `total` are drawn or `until` (a performance.now() time) has
+   * passed, at least one; true when all are drawn.
+   */
+  step(until = Infinity): boolean {
+    const { whatIf, drawer, rng, names, x } = this;
+    while (this.done < this.total) {
+      drawer(rng, x);
+      charge(1);
+      const r = whatIf.evaluate(x);
+      if (!r.ok) this.failed++;
+      r.answers.forEach((a, i) => {
+        const n = names[i];
+        if (!a.ok) {
+          n.failed++;
+          n.reason ??= a.reason;
+          this.reason ??= a.reason;
+          return;
+        }
+        n.template ??= a.q;
+        const truth = a.binding.kind === 'value' ? a.binding.truth : undefined;
+        if (truth !== undefined) n.verdict = true;
+        n.values.push(truth !== undefined ? Number(truth) : a.si);
+      });
+      this.done++;
+      if (until !== Infinity && performance.now() > until) break;
+    }
+    return this.done >= this.total;
+  }
+
+  /** What the samples drawn gave (all of them once `step` has returned true). */
+  result(): MonteCarlo {
+    return { names: this.names, failed: this.failed, ...(this.reason !== undefined ? { reason: this.reason } : {}), evaluations: this.done };
+  }
+}
+
+/** Runs `samples` draws through the what-if at once. Cost: `samples` what-if runs. */
+export function monteCarlo(whatIf: WhatIf, drawer: Drawer, inputs: number, samples: number, seed: number): MonteCarlo {
+  const run = new MonteCarloRun(whatIf, drawer, inputs, samples, seed);
+  run.step();
+  return run.result();
 }
 
 /** One name under the linear method. */

@@ -10,9 +10,10 @@ import type { UncertaintyCell } from '../study/types.ts';
 import { MAX_SAMPLES } from '../study/types.ts';
 import type { GraphNode, Outcome, RunContext, Use } from '../engine/node.ts';
 import type { NodeOutput } from '../engine/report.ts';
-import { fail, guarded } from './fields.ts';
+import { fail, guarded, FieldError } from './fields.ts';
 import { uncertainInputs, drawerOf, workingOf, inputWords } from './uncertainty-inputs.ts';
-import { monteCarlo, linear } from './uncertainty-methods.ts';
+import { MonteCarloRun, linear } from './uncertainty-methods.ts';
+import { runToEnd, type SlicedRun } from '../engine/sliced.ts';
 import { RESULT_ENDINGS, monteCarloOutcome, linearOutcome } from './uncertainty-report.ts';
 
 /** Samples drawn when `samples` is not given, and the seed when `seed` is not. */
@@ -48,11 +49,25 @@ export function uncertaintyNodes(cell: UncertaintyCell, at: string): Array<Graph
     workScale: workScaleOf(cell),
     signature: JSON.stringify(cell),
     problems: [],
-    run: (ctx) => guarded(() => runUncertainty(cell, at, of, ctx)),
+    run: (ctx) => runToEnd(startUncertainty(cell, at, of, ctx)),
+    // Monte Carlo is long: the app's worker draws its samples in slices after the other cells
+    ...(cell.method === 'linear' ? {} : { slices: (ctx: RunContext) => startUncertainty(cell, at, of, ctx) }),
   }];
 }
 
-function runUncertainty(cell: UncertaintyCell, at: string, of: readonly string[], ctx: RunContext): Outcome<NodeOutput<'uncertainty'>> {
+type Out = NodeOutput<'uncertainty'>;
+
+/** The outcome at once (the linear method, a problem), or the Monte Carlo samples to draw. */
+function startUncertainty(cell: UncertaintyCell, at: string, of: readonly string[], ctx: RunContext): Outcome<Out> | SlicedRun<Out> {
+  try {
+    return prepareUncertainty(cell, at, of, ctx);
+  } catch (err) {
+    if (err instanceof FieldError) return { ok: false, error: err.error };
+    throw err;
+  }
+}
+
+function prepareUncertainty(cell: UncertaintyCell, at: string, of: readonly string[], ctx: RunContext): Outcome<Out> | SlicedRun<Out> {
   if (ctx.mode === 'check') return { ok: true, bindings: new Map(), output: { computed: false, message: 'checked; run the study to see how sure its results are' } };
   if (!ctx.whatIf || !ctx.peek) fail(at, 'this cell cannot vary values here (no what-if evaluation is available)', 'internal');
   const peek = ctx.peek!;
@@ -92,6 +107,12 @@ function runUncertainty(cell: UncertaintyCell, at: string, of: readonly string[]
   }
   const drawer = drawerOf(inputs);
   if (typeof drawer === 'string') fail(`${at}.of`, drawer, 'numeric');
-  const r = monteCarlo(prepared, drawer as Exclude<typeof drawer, string>, inputs.length, samples, seed);
-  return monteCarloOutcome(of, r, words, present, samples, seed, at);
+  const mc = new MonteCarloRun(prepared, drawer as Exclude<typeof drawer, string>, inputs.length, samples, seed);
+  return {
+    get done() { return mc.done; },
+    total: samples,
+    unit: 'samples',
+    step: (until) => mc.step(until),
+    finish: () => guarded(() => monteCarloOutcome(of, mc.result(), words, present, samples, seed, at)),
+  };
 }

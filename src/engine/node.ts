@@ -4,6 +4,7 @@
  * declaring the names it defines and the names it reads. The graph orders and re-runs nodes;
  * a node never reads a name it did not declare.
  */
+import type { SlicedRun } from './sliced.ts';
 import type { Quantity } from '../units/quantity.ts';
 import type { DisplayUnit } from '../units/units.ts';
 import type { Expr } from '../expression/ast.ts';
@@ -287,6 +288,11 @@ export interface GraphNode<O extends object = object> {
   /** Problems found while building (field shape, syntax): the node fails with the first. */
   readonly problems: readonly CellError[];
   run(ctx: RunContext): Outcome<O>;
+  /**
+   * A long run that can be done in slices (engine/sliced.ts): with `SessionOptions.defer` the
+   * session runs it after the other nodes, a slice at a time; `run` gives the same outcome.
+   */
+  readonly slices?: (ctx: RunContext) => Outcome<O> | SlicedRun<O>;
 }
 
 /** The hidden name a cell is referred to by from other cells. */

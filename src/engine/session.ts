@@ -12,7 +12,7 @@ import { applyEdit, type Edit } from '../study/edit.ts';
 import type { Binding, CellError, GraphNode, MessagePart, Outcome, RunContext } from './node.ts';
 import { buildCellNodes, buildContext, resolvePath, CELL_PATH } from '../cells/index.ts';
 import { buildGraph, upstreamOf, type Graph } from './graph.ts';
-import { prepareWhatIf, type Replacement, type Unavailable, type WhatIfPrepared } from './what-if.ts';
+import { prepareWhatIf, type Replacement, type WhatIfPrepared } from './what-if.ts';
 import { unitHints, withUnitHint } from './hidden-units.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
@@ -22,13 +22,10 @@ import { studyUnits } from './study-units.ts';
 import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
 import { metered } from '../numerics/work-meter.ts';
 import { DEFAULT_CELL_WORK, stoppedError, type WorkLimits } from './budget.ts';
+import { DeferredWork, type DeferHost } from './deferred.ts';
+import { bound, bounded, deepEqual, internalError, unavailable, waitingOn, type Slot } from './session-parts.ts';
+import type { Progress } from './sliced.ts';
 
-type Slot = Binding | Unavailable;
-
-/** The binding in a slot; undefined when its name is unavailable. */
-function bound(slot: Slot | undefined): Binding | undefined {
-  return slot && slot.kind !== 'unavailable' ? slot : undefined;
-}
 
 export type { Edit } from '../study/edit.ts';
 export type { Replacement, WhatIfPrepared } from './what-if.ts';
@@ -45,6 +42,18 @@ export type OpenResult = { readonly ok: true; readonly session: StudySession } |
 export interface SessionOptions extends WorkLimits {
   /** 'check' validates without the heavy numerics. */
   readonly mode?: 'run' | 'check';
+  /**
+   * Leave long cells (a Monte Carlo uncertainty cell) and what reads them pending in an
+   * evaluation, for `work` to compute in slices afterwards (the app's worker); the figures are
+   * the same as without.
+   */
+  readonly defer?: boolean;
+}
+
+/** What a slice of deferred work did: how far the running cell is, and the answer of an evaluation when a cell finished. */
+export interface WorkStep {
+  readonly progress?: Progress;
+  readonly answer?: { readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report };
 }
 
 /** Opens a study from JSON text or a parsed document. Never throws. */
@@ -76,8 +85,11 @@ export class StudySession {
 
   /** performance.now() after which the evaluation under way stops its cells (Infinity: none). */
   private deadline = Infinity;
+  /** The long cells left for later, with `defer` (engine/deferred.ts). */
+  private readonly deferred?: DeferredWork;
 
-  constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check', private readonly limits: WorkLimits = {}) {
+  constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check', private readonly limits: SessionOptions = {}) {
+    if (limits.defer && mode === 'run') this.deferred = new DeferredWork();
     this.cells = [...study.cells];
     this.title = study.title;
     this.description = study.description;
@@ -179,7 +191,72 @@ export class StudySession {
     return nodes.map((n, i) => (i === 0 || n.sharesShapeProblems ? { ...n, problems: [...errors, ...n.problems], signature: `${n.signature}|${JSON.stringify(errors)}` } : n));
   }
 
-  private evaluate(): { rerun: string[]; changed: string[] } {
+  /**
+   * Ids of the cells whose report is not current: a long cell still computing (see `work`),
+   * and the cells that read what it defines. In document order; empty without `defer`.
+   */
+  pending(): string[] {
+    const d = this.deferred;
+    if (!d?.size) return [];
+    return this.cells.filter((c) => (this.built.get(c.id)?.nodes ?? []).some((n) => d.has(n.key))).map((c) => c.id);
+  }
+
+  /** How far the pending cell being computed is; undefined when none has started. */
+  progress(): Progress | undefined {
+    return this.deferred?.progress();
+  }
+
+  /**
+   * Computes the pending cells (with `defer`) until `until`, a performance.now() time: a slice
+   * of the first (a few milliseconds past `until` at most: one sample). When a cell finishes,
+   * the study is evaluated again (what reads it runs) and the answer says so. Undefined when
+   * nothing is pending. Never throws.
+   */
+  work(until: number): WorkStep | undefined {
+    const d = this.deferred;
+    if (!d?.size) return undefined;
+    const done = d.step(until, this.deferHost());
+    if (!done) return { progress: d.progress() };
+    const node = this.graph.nodes.get(done.key)!;
+    this.outcomes.set(done.key, done.outcome);
+    this.staticSigs.set(done.key, done.sig);
+    d.finished(done.key);
+    const { rerun, changed } = this.evaluate(new Set([node.cell]));
+    return { progress: d.progress(), answer: { rerun, changed, report: this.lastReport } };
+  }
+
+  private deferHost(): DeferHost {
+    return {
+      order: this.graph.order,
+      node: (key) => this.graph.nodes.get(key),
+      staticSig: (key) => this.staticSig(key),
+      context: (node) => {
+        const waits = waitingOn(this.graph, node, (name) => this.slots.get(name));
+        return waits ? { waits } : this.context(node);
+      },
+      budget: (node) => ({
+        limit: (this.limits.cellWork ?? DEFAULT_CELL_WORK) * Math.max(1, node.workScale ?? 1),
+        deadline: this.limits.timeLimit === undefined ? Infinity : performance.now() + this.limits.timeLimit * 1000,
+      }),
+      stopped: (node, stop) => ({ ok: false, error: stoppedError(node, stop, this.limits) }),
+      internal: internalError,
+      runNow: (node) => this.runNode(node, this.graph.problems.get(node.key)),
+    };
+  }
+
+  /** A node's change signature: its own, where each name it reads comes from, its graph problem, what it defines. */
+  private staticSig(key: string): string {
+    const node = this.graph.nodes.get(key)!;
+    const problem = this.graph.problems.get(key);
+    let sig = node.signature;
+    for (const [name, s] of this.graph.sources.get(key)!) sig += `|${name}=${'node' in s ? s.node : s.builtin}`;
+    if (problem) sig += `|!${problem.path}:${problem.message}`;
+    for (const d of node.defines) sig += `|${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`;
+    return sig;
+  }
+
+  /** `finished`: cells whose deferred node has just been computed (reported as re-run). */
+  private evaluate(finished?: ReadonlySet<string>): { rerun: string[]; changed: string[] } {
     // a rebuilt cell is reported again even when no node re-runs: its title, or a node it
     // no longer has, changes its report
     const rebuilt = new Set<string>();
@@ -195,7 +272,10 @@ export class StudySession {
     };
     this.graph = buildGraph(list, (cell, path) => resolvePath(path, this.indexOf(cell)), (id) => this.cellName(id));
     const changedNames = new Set<string>();
-    const rerunCells = new Set<string>();
+    const rerunCells = new Set<string>(finished);
+    // with `defer`: names of the nodes left pending in this pass
+    const pendingNames = new Set<string>();
+    this.deferred?.begin();
     const liveKeys = new Set(list.map((n) => n.key));
 
     for (const key of [...this.outcomes.keys()]) {
@@ -214,19 +294,21 @@ export class StudySession {
       const node = this.graph.nodes.get(key)!;
       const sources = this.graph.sources.get(key)!;
       const problem = this.graph.problems.get(key);
-      let staticSig = node.signature;
+      const staticSig = this.staticSig(key);
       let inputsChanged = false;
-      for (const [name, s] of sources) {
-        staticSig += `|${name}=${'node' in s ? s.node : s.builtin}`;
-        if ('node' in s && changedNames.has(name)) inputsChanged = true;
-      }
+      for (const [name, s] of sources) if ('node' in s && changedNames.has(name)) inputsChanged = true;
       if (node.readsUpstream && !inputsChanged && changedNames.size) {
         inputsChanged = [...sources.keys()].some((name) => [...upstreamOf(this.graph, name)].some((n) => changedNames.has(n)));
       }
-      if (problem) staticSig += `|!${problem.path}:${problem.message}`;
-      for (const d of node.defines) staticSig += `|${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`;
       const kept = this.outcomes.get(key);
-      const keep = !!kept && this.staticSigs.get(key) === staticSig + unitsKey(node, kept) && !inputsChanged;
+      // a node left pending before runs now (what it read may have changed meanwhile)
+      const keep = !!kept && this.staticSigs.get(key) === staticSig + unitsKey(node, kept) && !inputsChanged && !this.deferred?.has(key);
+      // left for later: its previous outcome, bindings and report stay until `work` computes it
+      if (this.deferred?.defers(key, node, { sig: staticSig, keep, inputsChanged, problem: !!problem,
+        readsPending: pendingNames.size > 0 && [...sources.keys()].some((n) => pendingNames.has(n)) })) {
+        for (const d of node.defines) pendingNames.add(d.name);
+        continue;
+      }
       const outcome = keep ? kept : this.runNode(node, problem);
       if (!keep) {
         this.outcomes.set(key, outcome);
@@ -244,6 +326,7 @@ export class StudySession {
       }
     }
 
+    this.deferred?.end();
     const changed: string[] = [];
     const reports: CellReport[] = [];
     // the TeX the printed sheet typesets, made here (in the app: in the engine's worker); made
@@ -282,10 +365,21 @@ export class StudySession {
 
   private runNode(node: GraphNode, problem: CellError | undefined): Outcome {
     if (problem) return { ok: false, error: problem };
-    const sources = this.graph.sources.get(node.key)!;
     const waiting = waitingOn(this.graph, node, (name) => this.slots.get(name));
     if (waiting) return { ok: false, error: waiting };
-    const ctx: RunContext = {
+    const ctx = this.context(node);
+    try {
+      const done = metered((this.limits.cellWork ?? DEFAULT_CELL_WORK) * Math.max(1, node.workScale ?? 1), this.deadline, () => node.run(ctx));
+      return done.exceeded ? { ok: false, error: stoppedError(node, done.exceeded, this.limits) } : done.value!;
+    } catch (err) {
+      return internalError(node, err);
+    }
+  }
+
+  /** What a node sees while it runs: the session's bindings of the names it reads. */
+  private context(node: GraphNode): RunContext {
+    const sources = this.graph.sources.get(node.key)!;
+    return {
       mode: this.mode,
       binding: (name) => (sources.has(name) ? bound(this.slots.get(name)) : undefined),
       bindingsOf: (kind) => [...sources.keys()].flatMap((name) => {
@@ -297,12 +391,6 @@ export class StudySession {
       whatIf: (wanted, replaced) => this.whatIf(wanted, replaced),
       ...(node.readsUpstream ? { peek: (name: string) => bound(this.slots.get(name)) } : {}),
     };
-    try {
-      const done = metered((this.limits.cellWork ?? DEFAULT_CELL_WORK) * Math.max(1, node.workScale ?? 1), this.deadline, () => node.run(ctx));
-      return done.exceeded ? { ok: false, error: stoppedError(node, done.exceeded, this.limits) } : done.value!;
-    } catch (err) {
-      return internalError(node, err);
-    }
   }
 
   /**
@@ -390,83 +478,4 @@ export class StudySession {
     if (tex !== undefined) r.tex = tex;
     return r;
   }
-}
-
-/** The error of a node that reads a name whose definer failed or computed nothing; undefined when all its inputs are bound. */
-function waitingOn(graph: Graph, node: GraphNode, slotOf: (name: string) => Slot | undefined): CellError | undefined {
-  const sources = graph.sources.get(node.key)!;
-  for (const use of node.uses) {
-    const src = sources.get(use.name);
-    if (!src || !('node' in src) || src.optional) continue;
-    const slot = slotOf(use.name);
-    if (!bound(slot)) {
-      const unavailable = slot as Unavailable | undefined;
-      return waitsOnCell(unavailable?.cell ?? graph.nodes.get(src.node)!.cell, unavailable, use.path);
-    }
-  }
-  return undefined;
-}
-
-/** What a node that threw is reported as. */
-function internalError(node: GraphNode, err: unknown): Outcome {
-  return { ok: false, error: { kind: 'internal', message: `internal error while computing this cell: ${(err as Error)?.message ?? String(err)}`, path: node.defines[0]?.path ?? CELL_PATH } };
-}
-
-function unavailable(node: GraphNode, name: string, outcome: Outcome, index: number): Unavailable {
-  if (!outcome.ok) {
-    const { error } = outcome;
-    const reason = bounded(error.waitsOn !== undefined ? error.message : `${show(name)} has an error (${resolvePath(error.path, index)}: ${error.message})`);
-    const root = error.cause ?? { cell: node.cell, reason };
-    return { kind: 'unavailable', cell: node.cell, reason, root, sig: `unavailable|${root.cell}|${reason}` };
-  }
-  const message = (outcome.output as { message?: unknown }).message;
-  const reason = outcome.reasons?.get(name) ?? (typeof message === 'string' ? message : `${show(name)} was not computed`);
-  // the definer has no problem of its own: the name it left undefined travels with the reason
-  return { kind: 'unavailable', cell: node.cell, reason, root: { cell: node.cell, reason, name }, sig: `unavailable|${reason}` };
-}
-
-/**
- * The error of a node that reads a name of `cell` that is unavailable: it names that cell and
- * the cause once (where the failure began, when further up, and its own reason), never the
- * messages of the cells between, so a chain of waits costs the same per cell however long.
- */
-function waitsOnCell(cell: string, slot: Unavailable | undefined, path: string): CellError {
-  const cause = slot?.root ?? { cell, reason: 'it has not been computed' };
-  const message = cause.cell === cell ? `waits on cell "${cell}": ${cause.reason}` : `waits on cell "${cell}" (the cause is in cell "${cause.cell}"): ${cause.reason}`;
-  const undefinedName = cause.name !== undefined ? { undefinedName: { cell: cause.cell, name: cause.name, reason: cause.reason } } : {};
-  return { kind: 'waits', waitsOn: cell, message, path, cause, ...undefinedName };
-}
-
-/** Structural equality of plain JSON-like values (reports): cheaper than comparing their JSON. */
-function deepEqual(a: unknown, b: unknown): boolean {
-  if (Object.is(a, b)) return true;
-  if (typeof a !== 'object' || typeof b !== 'object' || a === null || b === null) return false;
-  if (Array.isArray(a) !== Array.isArray(b)) return false;
-  if (Array.isArray(a)) {
-    const bb = b as unknown[];
-    if (a.length !== bb.length) return false;
-    for (let i = 0; i < a.length; i++) if (!deepEqual(a[i], bb[i])) return false;
-    return true;
-  }
-  const ka = Object.keys(a as object);
-  if (ka.length !== Object.keys(b as object).length) return false;
-  for (const k of ka) {
-    if (!Object.prototype.hasOwnProperty.call(b, k)) return false;
-    if (!deepEqual((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k])) return false;
-  }
-  return true;
-}
-
-/**
- * Longest message a report carries, in characters: a message that quotes the study's text (an
- * unknown name 5,000 letters long) is cut, so that messages never grow with what they quote.
- */
-const MAX_MESSAGE = 1000;
-
-function bounded(message: string): string {
-  return message.length > MAX_MESSAGE ? `${message.slice(0, MAX_MESSAGE)}…` : message;
-}
-
-function show(name: string): string {
-  return name.startsWith('#') ? `cell "${name.slice(1)}"` : `"${name}"`;
 }

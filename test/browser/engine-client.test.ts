@@ -1,5 +1,6 @@
 // The engine client against a fake worker: batching while busy, cancelling a long run when
-// newer edits wait, and never letting a cancelled run's answer through.
+// newer edits wait, and never letting a cancelled run's answer through; the progress and late
+// reports of work after an answer (a Monte Carlo) let through only while no newer edit is sent.
 import { expect } from 'chai';
 import { EngineClient, CANCEL_AFTER_MS, type EngineAnswer } from '../../components/engine-client.ts';
 import type { ToWorker, FromWorker } from '../../src/engine/worker-protocol.ts';
@@ -12,9 +13,12 @@ class FakeWorker {
   onerror: ((e: ErrorEvent) => void) | null = null;
   postMessage(m: ToWorker) { this.received.push(m); }
   terminate() { this.terminated = true; }
-  answer(seq: number, title: string) {
+  answer(seq: number, title: string, more: object = {}) {
     const report = { title, ok: true, warnings: [], cautions: [], cells: [] } as Report;
-    this.onmessage?.({ data: { type: 'report', seq, report, rerun: [], changed: [], ms: 1 } } as unknown as MessageEvent<FromWorker>);
+    this.onmessage?.({ data: { type: 'report', seq, report, rerun: [], changed: [], ms: 1, ...more } } as unknown as MessageEvent<FromWorker>);
+  }
+  progress(seq: number, done: number) {
+    this.onmessage?.({ data: { type: 'progress', seq, progress: { cell: 'mc', done, total: 100, unit: 'samples' } } } as unknown as MessageEvent<FromWorker>);
   }
 }
 
@@ -24,9 +28,10 @@ function client() {
   const workers: FakeWorker[] = [];
   const answers: EngineAnswer[] = [];
   const busy: boolean[] = [];
-  const c = new EngineClient({ answer: (a) => answers.push(a), refused: () => {}, busy: (b) => busy.push(b) },
+  const progress: number[] = [];
+  const c = new EngineClient({ answer: (a) => answers.push(a), refused: () => {}, busy: (b) => busy.push(b), progress: (p) => progress.push(p.done) },
     () => { const w = new FakeWorker(); workers.push(w); return w as unknown as Worker; });
-  return { c, workers, answers, busy };
+  return { c, workers, answers, busy, progress };
 }
 
 describe('engine client', () => {
@@ -62,6 +67,41 @@ describe('engine client', () => {
     workers[0].answer(2, 'slow'); // the cancelled run answers late
     workers[1].answer(reopened.seq, 'newest');
     expect(answers.map((a) => a.report.title)).to.deep.equal(['a', 'newest']);
+    c.dispose();
+  });
+
+  it('lets the progress and late report of the newest edit through, with the cells still pending', () => {
+    const { c, workers, answers, progress } = client();
+    c.open(study('a'));
+    const w = workers[0];
+    w.answer(1, 'a', { pending: ['mc'] });
+    expect(answers[0].pending).to.deep.equal(['mc']);
+    w.progress(1, 40);
+    w.answer(1, 'a, with its Monte Carlo', { late: true, pending: [] });
+    expect(progress).to.deep.equal([40]);
+    expect(answers.map((a) => [a.report.title, a.late])).to.deep.equal([['a', undefined], ['a, with its Monte Carlo', true]]);
+    c.dispose();
+  });
+
+  it('drops the progress and late report of an older edit once a newer edit is sent, answered or not', () => {
+    const { c, workers, answers, progress } = client();
+    c.open(study('a'));
+    const w = workers[0];
+    w.answer(1, 'a', { pending: ['mc'] });
+    c.edit({ type: 'retitle', title: 'b' }, study('b'));
+    // the worker finished the old values' Monte Carlo before it read the edit
+    w.progress(1, 90);
+    w.answer(1, 'old values', { late: true });
+    expect(answers.map((a) => a.report.title)).to.deep.equal(['a']);
+    w.answer(2, 'b', { pending: ['mc'] });
+    w.answer(1, 'old values, later still', { late: true });
+    w.progress(1, 95);
+    expect(answers.map((a) => a.report.title)).to.deep.equal(['a', 'b']);
+    expect(progress).to.deep.equal([]);
+    w.progress(2, 10);
+    w.answer(2, 'b, with its Monte Carlo', { late: true });
+    expect(answers.map((a) => a.report.title)).to.deep.equal(['a', 'b', 'b, with its Monte Carlo']);
+    expect(progress).to.deep.equal([10]);
     c.dispose();
   });
 });
