@@ -156,7 +156,17 @@ export class RatebookApp extends LitElement {
     super.disconnectedCallback();
   }
 
-  private navigate = async () => {
+  /** The navigation under way, if any: the next one waits for it. */
+  private navigating: Promise<void> = Promise.resolve();
+
+  /**
+   * Follows the address, one navigation at a time. Each reads the address when its turn comes,
+   * so a `hashchange` that arrives while the same study is still opening (the address set just
+   * before the app was added to the page) finds the view made and makes no second one.
+   */
+  private navigate = (): Promise<void> => (this.navigating = this.navigating.then(this.follow, this.follow));
+
+  private follow = async () => {
     await this.replay();
     const m = /^#\/study\/([^/]+)(\/sheet)?$/.exec(location.hash);
     const sheet = m?.[2] !== undefined;

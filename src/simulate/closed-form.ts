@@ -14,6 +14,8 @@ export interface Linear {
 
 /** Relative size below which the law counts as exactly linear. */
 const LINEAR_TOLERANCE = 1e-9;
+/** Relative size of the constant term below which it is rounding (about 4500 ulps). */
+const ROUNDING_TOLERANCE = 1e-12;
 
 /**
  * a and b when f is affine in y around y0 (checked at several points spread over `scale`),
@@ -28,7 +30,10 @@ export function linearCoefficients(f: (y: number) => number, y0: number, scale: 
   const a = fs[2] - b * ys[2];
   const size = Math.max(...fs.map(Math.abs), Math.abs(b) * s, 1e-300);
   for (let i = 0; i < ys.length; i++) if (Math.abs(fs[i] - (a + b * ys[i])) > LINEAR_TOLERANCE * size) return undefined;
-  return { a, b };
+  // a is a difference of numbers of the law's size: what is left of a law with no constant
+  // term (y' = -k y) is rounding, a few ulps of that size, and would read as an equilibrium
+  // of 5e-15 instead of 0. No source term that small can be told from rounding here.
+  return { a: Math.abs(a) <= ROUNDING_TOLERANCE * size ? 0 : a, b };
 }
 
 /** The exact value at time dt into a piece that starts at y0 with y' = a + b y. */

@@ -58,4 +58,25 @@ describe('ratebook-app', () => {
     await (library as unknown as { updateComplete: Promise<unknown> }).updateComplete;
     expect(root.textContent).to.contain('No template matches');
   });
+
+  it('opens one view of a study when the address changes again while it is opening', async () => {
+    // Setting the address just before adding the app queues a `hashchange` that arrives while
+    // the study is still opening (common practice in single-page apps: the event is async). A
+    // second view made then would leave edits on a page nobody sees.
+    const { id } = await store.createStudy({ format: 'ratebook-study', version: 1, title: 'Opened once', cells: [] });
+    location.hash = `#/study/${encodeURIComponent(id)}`;
+    const app = document.createElement('ratebook-app');
+    const views = new Set<Element>();
+    const seen = new MutationObserver(() => app.shadowRoot!.querySelectorAll('study-view').forEach((v) => views.add(v)));
+    document.body.append(app);
+    seen.observe(app.shadowRoot!, { childList: true, subtree: true });
+    window.dispatchEvent(new HashChangeEvent('hashchange'));
+    window.dispatchEvent(new HashChangeEvent('hashchange'));
+    await until(() => views.size > 0, 'the study view');
+    const first = [...views][0];
+    await new Promise((r) => setTimeout(r, 500));
+    seen.disconnect();
+    expect(views.size, 'study views made').to.equal(1);
+    expect(app.shadowRoot!.querySelector('study-view')).to.equal(first);
+  });
 });

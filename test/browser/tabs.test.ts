@@ -127,7 +127,7 @@ describe('a study moved to the trash or removed in another tab', () => {
 
   it('keeps an edit typed meanwhile, saves none of it into the trash, and saves it once restored', async () => {
     const { id } = await store.createStudy(study('Opened here'));
-    const { root, view } = await openApp(id);
+    const { app, root, view } = await openApp(id);
     await store.deleteStudy(id);
     other.postMessage({ id });
     const box = await until(() => root.querySelector('.gone'), 'the news of the trash');
@@ -140,7 +140,10 @@ describe('a study moved to the trash or removed in another tab', () => {
     expect(view.controller.study?.title).to.equal('Typed after the news');
     expect(root.querySelector('.save-error'), 'no second, contradicting message').to.equal(null);
     (box.querySelector('button[data-choice="restore"]') as HTMLButtonElement).click();
-    await until(() => view.controller.saveState === 'saved', 'the save after restoring', 8000);
+    await until(() => view.controller.saveState === 'saved', 'the save after restoring', 8000).catch((e) => {
+      const a = app as unknown as Record<string, unknown>;
+      throw new Error(`${(e as Error).message} (state ${view.controller.saveState}: ${view.controller.saveError}; gone ${String(a.gone)}; problem ${String(a.problem)}; notice ${String(a.notice)}; conflict ${String(a.conflict)})`);
+    });
     const now = await store.loadStudy(id);
     expect(now?.deleted).to.equal(undefined);
     expect(now?.doc.title).to.equal('Typed after the news');
