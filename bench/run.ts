@@ -21,6 +21,7 @@ import { browserBenchmarks } from './browser.ts';
 import { openLargeStudyBenchmarks } from './browser-open.ts';
 import { whatIfBenchmarks } from './what-if.ts';
 import { uncertaintyBenchmarks } from './uncertainty.ts';
+import { bandRows } from './uncertainty-band.ts';
 import { scenarioBenchmarks } from './scenarios.ts';
 import { closureBenchmarks } from './closures.ts';
 import { solveBenchmarks } from './solve.ts';
@@ -403,6 +404,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'Rate law runs: generated code against closures', run: closureRows },
   { title: 'Solving for a dose', run: solveRows },
   { title: 'How sure: Monte Carlo and linear uncertainty', run: uncertaintyRows },
+  { title: 'How sure: the band around a run, on and off', run: bandRows },
   { title: 'Sensitivity and scenarios side by side', run: scenarioRows },
   { title: 'Fitting and profile summaries', run: fitRows },
   { title: 'Studies of many cells: opening a chain of parameters', run: scalingBenchmarks },

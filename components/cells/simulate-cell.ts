@@ -1,5 +1,5 @@
 import { html, nothing, css } from 'lit';
-import type { ClosedFormReport, PlotScale, SimulationPlot } from '../../src/index.ts';
+import { runBand, cellWords, type ClosedFormReport, type PlotScale, type SimulationPlot } from '../../src/index.ts';
 import { cellStyles, plotScaleError, withPlotScale, footError, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import { exportSeriesCsv } from '../series-csv.ts';
@@ -50,6 +50,8 @@ export class SimulateCellElement extends CellElement<'simulate'> {
     const fixed = c.method === 'rk4' || c.method === 'heun' || c.method === 'euler';
     const results = this.report?.results ?? {};
     const plot = this.report?.plot;
+    // the band from an uncertainty cell's samples, or why there is none (only while the toggle is on)
+    const band = c.band === true && this.doc && this.study ? runBand(this.doc, this.study, c.id) : undefined;
     return html`
       <div class="row">
         <span class="lbl">Laws</span>
@@ -87,14 +89,30 @@ export class SimulateCellElement extends CellElement<'simulate'> {
         })}
       </details>
       ${plotScaleError(claims.take('.plotScale'), (s) => this.setPlotScale(s))}
+      ${this.bandToggle(claims.take('.band'))}
       ${this.report?.ok && plot ? html`
         <time-plot .plot=${plot} .points=${plot.points ?? []} .summary=${this.report.summary ?? ''} .scale=${c.plotScale === 'log' ? 'log' : 'linear'} scaleToggle
+          .band=${band && 'band' in band ? band.band : undefined}
           @plot-scale=${(e: PlotScaleEvent) => this.setPlotScale(e.detail.scale)}></time-plot>
+        ${band ? html`<p class="muted band-note" role="status">${'band' in band ? `${band.band.note} The samples are those of ${cellWords(this.doc!, band.cell)}.` : band.reason}</p>` : nothing}
         <div class="row">${this.report.note ? html`<span class="muted">${this.report.note}</span>` : nothing}
           <span class="muted">${this.report.method}: ${this.report.steps} steps, ${this.report.evaluations} evaluations of the rates</span>
           <button @click=${() => this.downloadCsv(plot)}>Export the series as CSV</button></div>
         ${this.closedForm(this.report.closedForm)}` : nothing}
       ${this.footErrors()}`;
+  }
+
+  /** The band toggle: `band: true` on the cell when on, no field when off; one undo step. */
+  private bandToggle(error: { message: string } | undefined) {
+    const on = this.cell.band === true;
+    return html`<div class="row"><label><input type="checkbox" data-field="band" .checked=${on}
+      @change=${(e: Event) => this.setBand((e.target as HTMLInputElement).checked)} /> Show the band of 2.5–97.5 percentiles from an uncertainty cell's samples</label>
+      ${footError(error)}</div>`;
+  }
+
+  private setBand(on: boolean): void {
+    const { band: _old, ...rest } = this.cell;
+    this.replace(on ? { ...rest, band: true } : rest);
   }
 
   /** The plot's axis choice, stored in the cell, one undo step. */

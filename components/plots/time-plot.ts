@@ -9,6 +9,8 @@
  * logarithmic (`scale`, the host's; with `scaleToggle` a checkbox asks the host to change it by a
  * `plot-scale` event): values at or below zero are then left out of the drawing, and the plot
  * says so. A "Data table" disclosure shows every plotted value as tables (`<chart-data>`).
+ * An optional `band` (a run's percentile curves from an uncertainty cell) is shaded behind the
+ * curves (band-layer.ts) and listed in the tables.
  */
 import { LitElement, html, nothing, type PropertyValues } from 'lit';
 import uPlot from 'uplot';
@@ -22,6 +24,7 @@ import { drawOverlay, around, curveBoxes, type PointLabel, type EventMarker } fr
 import { EVENT_LINE, GRID, seriesColour } from './palette.ts';
 import { onePerPixel } from './one-per-pixel.ts';
 import type { Box } from './label-placement.ts';
+import { bandEdges, bandTables, drawBand, type PlotBand } from './band-layer.ts';
 
 export type { MeasuredPoints } from './time-plot-parts.ts';
 
@@ -40,6 +43,7 @@ export class TimePlot extends LitElement {
     scale: {},
     scaleToggle: { type: Boolean },
     floor: { type: Number },
+    band: { attribute: false },
   };
 
   static override styles = chartStyles;
@@ -66,6 +70,9 @@ export class TimePlot extends LitElement {
    */
   floor = 0;
 
+  /** A band to shade behind the curves (the 2.5 and 97.5 percentiles of each state), or none. */
+  band?: PlotBand;
+
   private panels: Panel[] = [];
   /** Each panel's data as drawn: the plot's own, or on a log axis with the values it cannot place left out. */
   private drawn: uPlot.AlignedData[] = [];
@@ -84,11 +91,11 @@ export class TimePlot extends LitElement {
     // New arrays for new points too, so that the chart re-ranges its scales to show them.
     const before = changed.get('points') as readonly MeasuredPoints[] | undefined;
     const pointsMoved = changed.has('points') && (before?.length !== this.points.length || this.points.some((m, i) => m !== before[i]));
-    if (changed.has('plot') || pointsMoved) {
+    if (changed.has('plot') || pointsMoved || changed.has('band')) {
       this.panels = this.plot ? panelsOf(this.plot) : [];
       this.extents = undefined;
     }
-    if (changed.has('plot') || pointsMoved || changed.has('scale')) this.drawn = this.panels.map((panel) => (this.isLog ? logDrawn(panel.data) : panel.data));
+    if (changed.has('plot') || pointsMoved || changed.has('scale') || changed.has('band')) this.drawn = this.panels.map((panel) => (this.isLog ? logDrawn(panel.data) : panel.data));
   }
 
   override render() {
@@ -111,9 +118,9 @@ export class TimePlot extends LitElement {
           </div>` : nothing}
         ${leftOff.map((text) => html`<p class="notes log-note">${text} The data table lists every value.</p>`)}
         ${this.panels.map((_, i) => html`<div class="chart" data-panel=${i}></div>`)}
-        ${this.points.length ? html`<ul class="key"><li>${dot()} measured</li></ul>` : nothing}
+        ${this.points.length || this.band ? html`<ul class="key">${this.points.length ? html`<li>${dot()} measured</li>` : nothing}${this.band ? html`<li class="band-key">${swatch()} 2.5–97.5 percentile band</li>` : nothing}</ul>` : nothing}
         <p class="summary">${this.summary}</p>
-        <chart-data .name=${this.summary || 'the chart'} .tables=${() => timePlotTables(p, this.panels, this.points, this.factor, this.shownUnit)}></chart-data>
+        <chart-data .name=${this.summary || 'the chart'} .tables=${() => [...timePlotTables(p, this.panels, this.points, this.factor, this.shownUnit), ...bandTables(this.band, this.factor, this.shownUnit)]}></chart-data>
       </figure>`;
   }
 
@@ -133,7 +140,7 @@ export class TimePlot extends LitElement {
     const targets = this.renderRoot.querySelectorAll<HTMLElement>('.chart');
     return this.panels.map((panel, i) => ({
       target: targets[i],
-      key: JSON.stringify([panel.units, panel.states.map((s) => p.states[s].name), this.scale]),
+      key: JSON.stringify([panel.units, panel.states.map((s) => p.states[s].name), this.scale, !!this.band]),
       height: HEIGHT,
       options: () => this.options(i),
       data: this.drawn[i],
@@ -197,14 +204,14 @@ export class TimePlot extends LitElement {
       ],
       legend: { show: true, live: true },
       cursor: { points: { size: 7 } },
-      hooks: { draw: [(u) => this.drawExtras(u, panelIndex)] },
+      hooks: { drawAxes: [(u) => this.drawBandOf(u, panelIndex)], draw: [(u) => this.drawExtras(u, panelIndex)] },
     };
   }
 
   /** A y scale's range: the curves' and also every level and measured point on it, padded. */
   private stateRange(unit: string, min: number | null, max: number | null): uPlot.Range.MinMax {
     // the levels' and points' extremes, found once per data (a chart asks on every redraw)
-    const extra = (this.extents ??= extentsByUnit(this.plot!, this.points)).get(unit) ?? NO_EXTENT;
+    const extra = (this.extents ??= extentsByUnit(this.plot!, [...this.points, ...bandEdges(this.band)])).get(unit) ?? NO_EXTENT;
     if (this.isLog) {
       // only what the axis can place; the data arrive with the rest already left out
       const lo = Math.min(onLogAxis(min) ? min : Infinity, extra.logLo);
@@ -214,6 +221,14 @@ export class TimePlot extends LitElement {
     const lo = Math.min(min ?? Infinity, extra.lo, this.floor > 0 ? -this.floor : Infinity);
     const hi = Math.max(max ?? -Infinity, extra.hi, this.floor > 0 ? this.floor : -Infinity);
     return Number.isFinite(lo) && Number.isFinite(hi) ? uPlot.rangeNum(lo, hi, 0.1, true) : [0, 1];
+  }
+
+  /** The band, drawn after the axes and before the curves. */
+  private drawBandOf(u: uPlot, panelIndex: number): void {
+    const p = this.plot;
+    if (!p || !this.band) return;
+    const panel = this.panels[panelIndex];
+    drawBand(u, this.band, panel.states.map((s) => ({ name: p.states[s].name, colour: s, scale: `y${panel.units.indexOf(p.states[s].unit)}` })), this.isLog);
   }
 
   /** Events, levels, found points and measured points, drawn after the curves. */
@@ -321,6 +336,8 @@ export class TimePlot extends LitElement {
     drawOverlay(u, labels, events, [...clear, ...curveBoxes(u, panel.states.map((_, j) => j + 1))]);
   }
 }
+
+const swatch = () => html`<svg width="16" height="10" aria-hidden="true"><rect x="0" y="1" width="16" height="8" fill="#1b6a8a" fill-opacity="0.2" stroke="#1b6a8a" stroke-opacity="0.45"/></svg>`;
 
 const dot = () => html`<svg width="10" height="10" aria-hidden="true"><circle cx="5" cy="5" r="3.5" fill="#fff" stroke="#1d2630" stroke-width="1.5"/></svg>`;
 

@@ -4,7 +4,7 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import { isKind, KIND_LABELS, cellWords, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
+import { isKind, KIND_LABELS, cellWords, runBand, type RunBand, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
@@ -46,7 +46,7 @@ export function glance(report: Report, study: { readonly cells: readonly Cell[] 
  * wait said once with its reason); then the notes an inspector needs (`inspectorNotes`).
  */
 export function section(cell: Cell, r: CellReport | undefined, doc: { readonly cells: readonly Cell[] }, report: Report): TemplateResult {
-  const body = !r ? html`<p class="muted">Not computed.</p>` : !r.ok ? problems(cell, r, doc, report) : bodyOf(cell, r, doc.cells);
+  const body = !r ? html`<p class="muted">Not computed.</p>` : !r.ok ? problems(cell, r, doc, report) : bodyOf(cell, r, doc.cells, report);
   return html`<section class="cell ${cell.kind}">
     <h2>${cell.title || KIND_NAMES[cell.kind]} <span class="kind">${KIND_NAMES[cell.kind]} · ${cell.id}</span></h2>
     ${body}
@@ -63,12 +63,12 @@ function problems(cell: Cell, r: CellReport, doc: { readonly cells: readonly Cel
     ${!waits.length && !own.length ? html`<p class="error">Not computed.</p>` : nothing}`;
 }
 
-function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[]): TemplateResult {
+function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[], report: Report): TemplateResult {
   if (cell.kind === 'note') return html`<p class="note-text">${typeof cell.text === 'string' ? cell.text : ''}</p>`;
   if (cell.kind === 'parameters' && isKind(r, 'parameters')) return parameters(cell, r);
   if (cell.kind === 'rate' && isKind(r, 'rate')) return rate(cell, r);
   if (cell.kind === 'phase' && isKind(r, 'phase')) return phase(cell, r, (cells.find((c) => c.id === cell.rate) as Of<'rate'> | undefined)?.state ?? '');
-  if (cell.kind === 'simulate' && isKind(r, 'simulate')) return simulate(cell, r);
+  if (cell.kind === 'simulate' && isKind(r, 'simulate')) return simulate(cell, r, cell.band === true ? runBand({ cells }, report, cell.id) : undefined, cells);
   if (cell.kind === 'data' && isKind(r, 'data')) return data(cell, r);
   if (cell.kind === 'fit' && isKind(r, 'fit')) return fit(cell, r, cells);
   if (cell.kind === 'nca' && isKind(r, 'nca')) return nca(cell, r);
@@ -144,7 +144,8 @@ function sweepPart(cell: Of<'phase'>, sweep: SweepReport, state: string): Templa
       : html`<p>No fold: no two equilibria meet in this range.</p>`}`;
 }
 
-function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>): TemplateResult {
+/** A run: its span, schedule, chart (with the band from an uncertainty cell's samples when it shows one, and its note) and answers. */
+function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>, band: RunBand | undefined, cells: readonly Cell[]): TemplateResult {
   const results = r.results ?? {};
   const answer = (name: string) => {
     const x = results[name];
@@ -161,7 +162,8 @@ function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>): TemplateResult
     ${events.length ? html`<table><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e, i) => html`<tr>
       <td>${e.at}</td><td>${schedule[i]?.repeats ?? ''}</td>
       <td>${e.add ? `add ${Object.entries(e.add).map(([k, v]) => `${v} to ${k}`).join(', ')}` : e.set ? `set ${Object.entries(e.set).map(([k, v]) => `${k} = ${v}`).join(', ')}` : e.infuse ? `infuse ${Object.entries(e.infuse).map(([k, v]) => `${v} into ${k}`).join(', ')} for ${e.for}` : ''}</td></tr>`)}</tbody></table>` : nothing}
-    <div class="keep">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log') : nothing}
+    <div class="keep">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log', band && 'band' in band ? band.band : undefined) : nothing}
+    ${band ? html`<p class="check band-note">${'band' in band ? `${band.band.note} The samples are those of ${cellWords({ cells }, band.cell)}.` : `No band: ${band.reason}`}</p>` : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
     ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
       <td class="name">${f.name}</td><td>${questions[f.name] ?? ''}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
@@ -174,7 +176,7 @@ function summaryOr(summary: unknown, fallback: string): string {
 }
 
 /** A run's chart; with `log`, on log axes, with a note of each state's values that cannot be drawn there. */
-function timeChart(plot: SimulationPlot, summary: unknown, log = false): TemplateResult {
+function timeChart(plot: SimulationPlot, summary: unknown, log = false, band?: Extract<RunBand, { band: unknown }>['band']): TemplateResult {
   const units = [...new Set(plot.states.map((s) => s.unit))].slice(0, 2);
   const axisOf = (state: string) => (units.indexOf(plot.states.find((s) => s.name === state)?.unit ?? '') === 1 ? 1 : 0);
   const shown = plot.states.filter((s) => units.includes(s.unit));
@@ -186,6 +188,9 @@ function timeChart(plot: SimulationPlot, summary: unknown, log = false): Templat
     yLabels: units.map((u) => `${shown.filter((s) => s.unit === u).map((s) => s.name).join(', ')} (${u})`),
     lines: shown.map((s) => ({ label: s.name, x: plot.t, y: s.values, axis: units.indexOf(s.unit) === 1 ? 1 : 0 })),
     points,
+    bands: (band?.states ?? []).filter((b) => shown.some((s) => s.name === b.name)).map((b) => ({
+      label: `${b.name}: 2.5–97.5 percentile band`, x: band!.t, lo: b.p025, hi: b.p975, axis: axisOf(b.name), colourOf: shown.findIndex((s) => s.name === b.name),
+    })),
     levels: plot.levels.map((l) => ({ y: l.value, label: l.label, axis: axisOf(l.state) })),
     events: plot.events.map((e) => ({ x: e.time, label: e.label })),
     marks: plot.marks.map((m) => ({ x: m.time, y: m.value, label: m.name, axis: axisOf(m.state) })),

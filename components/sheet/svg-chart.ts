@@ -19,6 +19,8 @@ export interface ChartLine {
   readonly unlisted?: boolean;
 }
 export interface ChartPoints { readonly label: string; readonly x: readonly number[]; readonly y: readonly number[]; readonly axis?: 0 | 1; readonly colourOf?: number }
+/** A shaded band between two curves (a run's 2.5 and 97.5 percentiles), drawn behind the lines in the colour of line `colourOf`. */
+export interface ChartBand { readonly label: string; readonly x: readonly number[]; readonly lo: readonly number[]; readonly hi: readonly number[]; readonly axis?: 0 | 1; readonly colourOf: number }
 export interface ChartSpec {
   /** The chart's text alternative (the engine's summary of what it shows): its name and its title. */
   readonly label: string;
@@ -27,6 +29,7 @@ export interface ChartSpec {
   readonly yLabels: readonly string[];
   readonly lines: readonly ChartLine[];
   readonly points?: readonly ChartPoints[];
+  readonly bands?: readonly ChartBand[];
   readonly levels?: ReadonlyArray<{ readonly y: number; readonly label: string; readonly axis?: 0 | 1 }>;
   readonly events?: ReadonlyArray<{ readonly x: number; readonly label: string }>;
   readonly marks?: ReadonlyArray<{ readonly x: number; readonly y: number; readonly label: string; readonly axis?: 0 | 1 }>;
@@ -125,7 +128,7 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const xr = axisRange(...extent(xs));
   const yr = [0, 1].map((axis) => {
     const on = <T extends { axis?: 0 | 1 }>(list: readonly T[] | undefined) => (list ?? []).filter((l) => (l.axis ?? 0) === axis);
-    const ys = [...on(spec.lines).flatMap((l) => l.y), ...on(spec.points).flatMap((p) => p.y), ...on(spec.levels).map((l) => l.y), ...(spec.zeroLine && axis === 0 ? [0] : [])];
+    const ys = [...on(spec.lines).flatMap((l) => l.y), ...on(spec.points).flatMap((p) => p.y), ...on(spec.bands).flatMap((b) => [...b.lo, ...b.hi]), ...on(spec.levels).map((l) => l.y), ...(spec.zeroLine && axis === 0 ? [0] : [])];
     return spec.logY ? logAxis(ys) : linearAxis(ys);
   });
   const X = (v: number) => left + ((v - xr.lo) / (xr.hi - xr.lo)) * pw;
@@ -149,7 +152,25 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const xLabels = tickLabels(xr.ticks, xr.step);
   const yLabels = yr.map((r) => r.labels);
   const listed = spec.lines.map((l, i) => ({ l, i })).filter(({ l }) => !l.unlisted);
-  const legend = listed.length > 1 || (spec.points ?? []).length > 0;
+  const legend = listed.length > 1 || (spec.points ?? []).length > 0 || (spec.bands ?? []).length > 0;
+  // a band's outline: along its lower edge and back along its upper one, where the axis can place both
+  const bandPath = (b: ChartBand) => {
+    const axis = b.axis ?? 0;
+    const ok = (i: number) => Number.isFinite(b.x[i]) && onAxis(b.lo[i], axis) && onAxis(b.hi[i], axis);
+    let d = '';
+    for (let i = 0; i < b.x.length;) {
+      while (i < b.x.length && !ok(i)) i++;
+      let j = i;
+      while (j < b.x.length && ok(j)) j++;
+      if (j - i > 1) {
+        for (let k = i; k < j; k++) d += `${k === i ? 'M' : 'L'}${X(b.x[k]).toFixed(1)},${Y(b.lo[k], axis).toFixed(1)}`;
+        for (let k = j - 1; k >= i; k--) d += `L${X(b.x[k]).toFixed(1)},${Y(b.hi[k], axis).toFixed(1)}`;
+        d += 'Z';
+      }
+      i = j;
+    }
+    return d;
+  };
   // labels of marks, then levels, placed so that none covers another, off the curves where there is room
   const taken: Taken = { labels: [], clear: [
     ...curveBoxes(spec.lines, X, Y),
@@ -189,15 +210,17 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
     </g>
     ${(spec.events ?? []).map((e) => svg`<line x1=${X(e.x)} x2=${X(e.x)} y1=${top} y2=${top + ph} stroke="#7a5ba8" stroke-width="0.8" stroke-dasharray="2 3"><title>${e.label}</title></line>`)}
     ${levels.map((l) => svg`<line x1=${left} x2=${left + pw} y1=${Y(l.y, l.axis ?? 0)} y2=${Y(l.y, l.axis ?? 0)} stroke="#555" stroke-width="0.8" stroke-dasharray="5 3" />`)}
+    ${(spec.bands ?? []).map((b) => svg`<path class="band" d=${bandPath(b)} fill=${seriesColour(b.colourOf)} fill-opacity="0.2" stroke=${seriesColour(b.colourOf)} stroke-opacity="0.5" stroke-width="0.6" />`)}
     ${spec.lines.map((l, i) => svg`<path d=${path(l)} fill="none" stroke=${l.colour ?? seriesColour(i)} stroke-width="1.6" stroke-linejoin="round" stroke-dasharray=${l.dashed ? '6 4' : 'none'} />`)}
     ${points.map((p, i) => p.shown.map((j) => svg`<circle cx=${X(p.x[j])} cy=${Y(p.y[j], p.axis ?? 0)} r="2.8" fill="#fff" stroke=${seriesColour(p.colourOf ?? i)} stroke-width="1.2" />`))}
     ${marks.map((m) => svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />`)}
     <g stroke="#777" stroke-width="0.6">${placed.filter((p) => p.leader).map(({ leader: [x1, y1, x2, y2] = [0, 0, 0, 0] }) => svg`<line x1=${x1} y1=${y1} x2=${x2} y2=${y2} />`)}</g>
     <g class="labels" font-size=${LABEL_FONT} fill=${INK}>${placed.map((p) => svg`<text class="lbl" x=${p.box.x + 1} y=${p.box.y + p.box.h - 3}>${p.text}</text>`)}</g>
     ${unplaced.length ? svg`<text class="unplaced" x=${left} y=${height + extra - 4} font-size="10" fill=${INK}>Marked but not labelled, for want of room: ${unplaced.join(', ')}</text>` : ''}
-    ${legend ? svg`<g font-size="10" fill=${INK}>${[...listed.map(({ l, i }) => ({ label: l.label, colour: l.colour ?? seriesColour(i), dashed: !!l.dashed, dot: false })), ...(spec.points ?? []).map((p, i) => ({ label: p.label, colour: seriesColour(p.colourOf ?? i), dashed: false, dot: true }))].map((item, k) => svg`
+    ${legend ? svg`<g font-size="10" fill=${INK}>${[...listed.map(({ l, i }) => ({ label: l.label, colour: l.colour ?? seriesColour(i), dashed: !!l.dashed, dot: false })), ...(spec.points ?? []).map((p, i) => ({ label: p.label, colour: seriesColour(p.colourOf ?? i), dashed: false, dot: true })),
+      ...(spec.bands ?? []).map((b) => ({ label: b.label, colour: seriesColour(b.colourOf), dashed: false, dot: false, band: true }))].map((item, k) => svg`
       <g transform="translate(${left + k * 150} ${height + 8})">
-        ${item.dot ? svg`<circle cx="8" cy="0" r="2.8" fill="#fff" stroke=${item.colour} stroke-width="1.2" />` : svg`<line x1="0" x2="16" y1="0" y2="0" stroke=${item.colour} stroke-width="1.6" stroke-dasharray=${item.dashed ? '6 4' : 'none'} />`}
+        ${'band' in item ? svg`<rect x="0" y="-4" width="16" height="8" fill=${item.colour} fill-opacity="0.2" stroke=${item.colour} stroke-opacity="0.5" stroke-width="0.6" />` : item.dot ? svg`<circle cx="8" cy="0" r="2.8" fill="#fff" stroke=${item.colour} stroke-width="1.2" />` : svg`<line x1="0" x2="16" y1="0" y2="0" stroke=${item.colour} stroke-width="1.6" stroke-dasharray=${item.dashed ? '6 4' : 'none'} />`}
         <text x="21" y="3.5">${item.label}</text></g>`)}</g>` : ''}
   </svg>`;
 }

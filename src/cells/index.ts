@@ -17,6 +17,7 @@ import { solveNodes } from './solve.ts';
 import { uncertaintyNodes } from './uncertainty.ts';
 import { sensitivityNodes } from './sensitivity.ts';
 import { compareNodes, runQuestions } from './compare.ts';
+import { bandRuns } from './uncertainty-band.ts';
 
 /**
  * A builder of kind K: its nodes output that kind's report fields (checked here, at compile
@@ -54,6 +55,7 @@ export function buildCellNodes(cell: Cell, cells: readonly Cell[] = []): GraphNo
  * the session builds a cell again when this or the cell's own text changes. Cost: O(cells).
  */
 export function buildContext(cell: Cell, cells: readonly Cell[]): string {
+  if (cell.kind === 'uncertainty') return bandRuns(cell.of, cells).join(',');
   return cell.kind === 'compare' ? runQuestions(cell.run, cells).join(',') : '';
 }
 

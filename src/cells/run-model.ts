@@ -15,7 +15,7 @@ import { symbolsOf } from '../expression/ast.ts';
 import { type CoreMemo, type Fields, simulateCore } from './simulate-core.ts';
 import { FieldError, guarded, lookupFrom, finiteQuantityOf } from './fields.ts';
 import { collectLaws } from './laws.ts';
-import { evalPiece, valueAt, type Trajectory } from '../simulate/trajectory.ts';
+import { evalPiece, valueAt, valueBefore, type Trajectory } from '../simulate/trajectory.ts';
 
 /** Relative tolerance of a model run: tight enough that differences of runs are not spoiled by the run's own error. */
 export const MODEL_RTOL = 1e-10;
@@ -29,7 +29,7 @@ export function runModelNode(cell: SimulateCell, at: string, f: Fields, uses: re
   const own = uses.filter((u) => notFind(u.path));
   const fields: Fields = { ...f, atol: undefined, finds: [] };
   // the inputs of the model only: a question edited does not make the fits through the run run again
-  const { find: _find, title: _title, plotScale: _scale, ...inputs } = cell as SimulateCell & { plotScale?: unknown };
+  const { find: _find, title: _title, plotScale: _scale, band: _band, ...inputs } = cell as SimulateCell & { plotScale?: unknown };
   return {
     key: `${cell.id}/model`,
     cell: cell.id,
@@ -127,6 +127,17 @@ function makeModel(cell: SimulateCell, at: string, fields: Fields, ctx: RunConte
         values.push(out.slice(0, n));
       }
       return { values };
+    },
+    sampleAt(replaced, times, before, out) {
+      const tr = trajectory(replaced, true);
+      if (typeof tr === 'string') return tr;
+      const v = new Float64Array(tr.width);
+      const m = times.length;
+      for (let k = 0; k < m; k++) {
+        if (!(before[k] ? valueBefore(tr, times[k], v) : valueAt(tr, times[k], v))) return `no value at t = ${times[k]} s, outside the run`;
+        for (let i = 0; i < n; i++) out[i * m + k] = v[i];
+      }
+      return undefined;
     },
     curve(replaced, points, own) {
       const tr = trajectory(replaced, own);

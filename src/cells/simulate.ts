@@ -61,7 +61,8 @@ export function simulateNodes(cell: SimulateCell, at: string): Array<GraphNode<N
     allowsTime: true,
     pullsCoupledLaws: true,
     pullsMeasurements: true,
-    signature: JSON.stringify(cell),
+    // the band is drawn from an uncertainty cell's samples: showing it runs nothing here
+    signature: JSON.stringify({ ...cell, band: undefined }),
     problems,
     run: (ctx) => guarded(() => runSimulation(cell, at, f, ctx, memo)),
   }, runModelNode(cell, at, f, uses, problems)];

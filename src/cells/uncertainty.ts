@@ -6,15 +6,17 @@
  * Inputs: uncertainty-inputs.ts; the methods: uncertainty-methods.ts; the report and the names
  * defined downstream (`<name>_p025`, `_p975`, `_sd`, `_probability`): uncertainty-report.ts.
  */
-import type { UncertaintyCell } from '../study/types.ts';
+import type { Cell, UncertaintyCell } from '../study/types.ts';
 import { MAX_SAMPLES } from '../study/types.ts';
 import type { GraphNode, Outcome, RunContext, Use } from '../engine/node.ts';
+import { cellRef } from '../engine/node.ts';
 import type { NodeOutput } from '../engine/report.ts';
 import { fail, guarded, FieldError } from './fields.ts';
 import { uncertainInputs, drawerOf, workingOf, inputWords } from './uncertainty-inputs.ts';
 import { MonteCarloRun, linear } from './uncertainty-methods.ts';
 import { runToEnd, type SlicedRun } from '../engine/sliced.ts';
 import { RESULT_ENDINGS, monteCarloOutcome, linearOutcome } from './uncertainty-report.ts';
+import { bandRuns, sampleBands } from './uncertainty-band.ts';
 
 /** Samples drawn when `samples` is not given, and the seed when `seed` is not. */
 export const DEFAULT_SAMPLES = 2000;
@@ -26,19 +28,25 @@ export const MOST_BUDGETS = 10;
 
 /**
  * How many cell budgets a cell may use (`GraphNode.workScale`): for an uncertainty cell one per
- * 1,000 samples (its default samples for the linear method), 1 to MOST_BUDGETS; 1 for another cell.
+ * 1,000 samples (its default samples for the linear method), 1 to MOST_BUDGETS, as many again
+ * for each run whose band it draws (`cells`: the study); 1 for another cell.
  */
-export function workScaleOf(cell: unknown): number {
+export function workScaleOf(cell: unknown, cells: readonly Cell[] = []): number {
   const c = cell as Partial<UncertaintyCell> | null;
   if (c?.kind !== 'uncertainty') return 1;
   const samples = c.method !== 'linear' && Number.isInteger(c.samples) ? (c.samples as number) : DEFAULT_SAMPLES;
-  return Math.min(MOST_BUDGETS, Math.max(1, samples / SAMPLES_PER_BUDGET));
+  const bands = c.method === 'linear' ? 0 : bandRuns(c.of, cells).length;
+  return Math.min(MOST_BUDGETS, Math.max(1, samples / SAMPLES_PER_BUDGET)) * (1 + bands);
 }
 
-export function uncertaintyNodes(cell: UncertaintyCell, at: string): Array<GraphNode<NodeOutput<'uncertainty'>>> {
+/** The cell's node; `cells` (the study) says which runs show a band from its samples (`buildContext` in cells/index.ts). */
+export function uncertaintyNodes(cell: UncertaintyCell, at: string, cells: readonly Cell[] = []): Array<GraphNode<NodeOutput<'uncertainty'>>> {
   const of = Array.isArray(cell.of) ? cell.of.filter((n): n is string => typeof n === 'string') : [];
   // each name is read even when it has no value now: a sample may give it one
   const uses: Use[] = of.map((name, i) => ({ name, path: `${at}.of[${i}]`, optional: true }));
+  // the runs whose band it draws: their models (a run answering a name here adds no cycle)
+  const bands = cell.method === 'linear' ? [] : bandRuns(of, cells);
+  for (const run of bands) uses.push({ name: cellRef(run), path: `${at}.of`, optional: true });
   return [{
     key: `${cell.id}/uncertainty`,
     cell: cell.id,
@@ -46,28 +54,28 @@ export function uncertaintyNodes(cell: UncertaintyCell, at: string): Array<Graph
     uses,
     allowsTime: false,
     readsUpstream: true,
-    workScale: workScaleOf(cell),
-    signature: JSON.stringify(cell),
+    workScale: workScaleOf(cell, cells),
+    signature: `${JSON.stringify(cell)}|bands:${bands.join(',')}`,
     problems: [],
-    run: (ctx) => runToEnd(startUncertainty(cell, at, of, ctx)),
+    run: (ctx) => runToEnd(startUncertainty(cell, at, of, ctx, bands)),
     // Monte Carlo is long: the app's worker draws its samples in slices after the other cells
-    ...(cell.method === 'linear' ? {} : { slices: (ctx: RunContext) => startUncertainty(cell, at, of, ctx) }),
+    ...(cell.method === 'linear' ? {} : { slices: (ctx: RunContext) => startUncertainty(cell, at, of, ctx, bands) }),
   }];
 }
 
 type Out = NodeOutput<'uncertainty'>;
 
 /** The outcome at once (the linear method, a problem), or the Monte Carlo samples to draw. */
-function startUncertainty(cell: UncertaintyCell, at: string, of: readonly string[], ctx: RunContext): Outcome<Out> | SlicedRun<Out> {
+function startUncertainty(cell: UncertaintyCell, at: string, of: readonly string[], ctx: RunContext, bands: readonly string[]): Outcome<Out> | SlicedRun<Out> {
   try {
-    return prepareUncertainty(cell, at, of, ctx);
+    return prepareUncertainty(cell, at, of, ctx, bands);
   } catch (err) {
     if (err instanceof FieldError) return { ok: false, error: err.error };
     throw err;
   }
 }
 
-function prepareUncertainty(cell: UncertaintyCell, at: string, of: readonly string[], ctx: RunContext): Outcome<Out> | SlicedRun<Out> {
+function prepareUncertainty(cell: UncertaintyCell, at: string, of: readonly string[], ctx: RunContext, bands: readonly string[]): Outcome<Out> | SlicedRun<Out> {
   if (ctx.mode === 'check') return { ok: true, bindings: new Map(), output: { computed: false, message: 'checked; run the study to see how sure its results are' } };
   if (!ctx.whatIf || !ctx.peek) fail(at, 'this cell cannot vary values here (no what-if evaluation is available)', 'internal');
   const peek = ctx.peek!;
@@ -107,12 +115,18 @@ function prepareUncertainty(cell: UncertaintyCell, at: string, of: readonly stri
   }
   const drawer = drawerOf(inputs);
   if (typeof drawer === 'string') fail(`${at}.of`, drawer, 'numeric');
-  const mc = new MonteCarloRun(prepared, drawer as Exclude<typeof drawer, string>, inputs.length, samples, seed);
+  const draw = drawer as Exclude<typeof drawer, string>;
+  const mc = new MonteCarloRun(prepared, draw, inputs.length, samples, seed);
   return {
     get done() { return mc.done; },
     total: samples,
     unit: 'samples',
     step: (until) => mc.step(until),
-    finish: () => guarded(() => monteCarloOutcome(of, mc.result(), words, present, samples, seed, at)),
+    finish: () => guarded(() => {
+      const outcome = monteCarloOutcome(of, mc.result(), words, present, samples, seed, at);
+      // the bands from the same draws, in one go after the samples; skipped in a what-if (a run nested in another cell's)
+      if (!bands.length || ctx.mode !== 'run' || !outcome.ok) return outcome;
+      return { ...outcome, output: { ...outcome.output, bands: sampleBands(bands, ctx, inputs, draw, samples, seed) } };
+    }),
   };
 }

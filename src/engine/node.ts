@@ -170,6 +170,12 @@ export interface RunModel {
    * at the run's own tolerances instead of the model's tight ones (a plot of the run itself).
    */
   curve(replaced: ReadonlyMap<string, number>, points: number, own?: boolean): { readonly t?: number[]; readonly values?: Float64Array[]; readonly message?: string };
+  /**
+   * The run with these values at its own tolerances, at fixed times (SI, ascending): state i at
+   * times[k] is written to out[i * times.length + k]; where `before[k]` is 1, the value just
+   * before the actions at that time (the left side of a dose). A message when the run fails.
+   */
+  sampleAt(replaced: ReadonlyMap<string, number>, times: Float64Array, before: Uint8Array, out: Float64Array): string | undefined;
   /** The times (SI) at which a state jumps (`add` events) in the last run or curve made. */
   jumps(): readonly number[];
 }

@@ -352,6 +352,28 @@ export interface UncertainInput {
   text: string;
 }
 
+/**
+ * A run's band from an uncertainty cell's samples (a Ratebook addition): the 2.5 and 97.5
+ * percentiles and the median of each state at fixed times, in the run's plot units. `reason`
+ * instead when there is none (the run's curves depend on no input with a spread).
+ */
+export interface UncertaintyBand {
+  /** The simulate cell's id. */
+  run: string;
+  /** Times in the run's plot time unit: 201 evenly over the span, and both sides of each action time. */
+  timeUnit?: string;
+  t?: number[];
+  /** Per state of the run, in its unit: the percentile curves at the times `t`. */
+  states?: Array<{ name: string; unit: string; p025: number[]; median: number[]; p975: number[] }>;
+  /** Samples the band is drawn from, and those in which the run gave no curve (with the first reason). */
+  samples?: number;
+  failed?: number;
+  failedReason?: string;
+  /** What the band is, in words (for the chart's note). */
+  note?: string;
+  reason?: string;
+}
+
 export interface UncertaintyFields {
   method: 'monte-carlo' | 'linear';
   results: Record<string, UncertaintyResult>;
@@ -366,6 +388,8 @@ export interface UncertaintyFields {
   /** How the figures are defined (quantiles, or the linear method's interval). */
   notes: string[];
   summary: string;
+  /** The bands of the runs with `band: true` whose answers are among the names (Monte Carlo). */
+  bands?: UncertaintyBand[];
 }
 
 // note

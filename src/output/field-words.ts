@@ -44,7 +44,7 @@ function stepsOf(text: string): Step[] | undefined {
 /** Words for one field key, by the kind of thing it belongs to (`cell:<kind>`, `item`, `event`, `question`...). */
 const FIELD_WORDS: Readonly<Record<string, Readonly<Record<string, string>>>> = {
   'cell:rate': { state: 'state name', unit: 'unit', rate: 'rate law', initial: 'initial value' },
-  'cell:simulate': { from: 'start of the run', to: 'end of the run', step: 'fixed step', method: 'method', tolerance: 'tolerance' },
+  'cell:simulate': { from: 'start of the run', to: 'end of the run', step: 'fixed step', method: 'method', tolerance: 'tolerance', band: 'band from samples' },
   'cell:phase': { rate: 'rate law', from: 'lower end of the range', to: 'upper end of the range', sweep: 'sweep' },
   'cell:fit': { data: 'measurements', time: 'time column', observe: 'observed columns', weighting: 'weighting' },
   'cell:nca': { data: 'measurements', time: 'time column', concentration: 'concentration column', dose: 'dose', route: 'route', duration: 'infusion duration', auc: 'area rule', terminal: 'terminal phase', prefix: 'prefix', units: 'units' },

@@ -50,6 +50,19 @@ export function valueAt(tr: Trajectory, t: number, out: Float64Array): boolean {
   return true;
 }
 
+/**
+ * Writes the trajectory just before t into out (the left side of a jump: the value before the
+ * actions at t; at the run's start, the states before the actions there); false outside the run.
+ */
+export function valueBefore(tr: Trajectory, t: number, out: Float64Array): boolean {
+  let i = pieceAt(tr, t);
+  if (i < 0) return false;
+  while (i > 0 && tr.pieces[i].t0 >= t) i--;
+  if (i === 0 && t <= tr.t0) out.set(tr.start);
+  else evalPiece(tr.pieces[i], t, out);
+  return true;
+}
+
 export function evalPiece(p: Piece, t: number, out: Float64Array): void {
   if (t <= p.t0) { out.set(p.y0); return; }
   if (t >= p.t1) { out.set(p.y1); return; }

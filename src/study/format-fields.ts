@@ -30,7 +30,7 @@ export const FORMAT_FIELDS = {
     'events[].at', 'events[].every', 'events[].count', 'events[].add', 'events[].set', 'events[].infuse', 'events[].for',
     'find[].name', 'find[].crossing', 'find[].maximum', 'find[].minimum', 'find[].timeOfMaximum', 'find[].timeOfMinimum',
     'find[].valueOf', 'find[].integralOf', 'find[].timeAbove', 'find[].timeBelow', 'find[].level', 'find[].direction',
-    'find[].occurrence', 'find[].at', 'find[].from', 'find[].to', 'find[].unit', 'find[].glance', 'plotScale',
+    'find[].occurrence', 'find[].at', 'find[].from', 'find[].to', 'find[].unit', 'find[].glance', 'plotScale', 'band',
   ],
   data: ['id', 'kind', 'title', 'columns[].name', 'columns[].unit', 'rows', 'csv'],
   fit: ['id', 'kind', 'title', 'rates', 'run', 'data', 'time', 'observe', 'estimate[].parameter', 'estimate[].as', 'estimate[].guess', 'estimate[].min', 'estimate[].max', 'estimate[].unit', 'estimate[].prior.median', 'estimate[].prior.omega', 'weighting', 'error.additive', 'error.proportional', 'plotScale'],

@@ -105,6 +105,12 @@ export interface SimulateCell extends CellBase {
    * default) or `log`. It changes no value the run computes.
    */
   plotScale?: PlotScale;
+  /**
+   * Show the band of the 2.5 and 97.5 percentiles around the curves (optional, a Ratebook
+   * display field, true or false): drawn from the samples of an uncertainty cell that asks about
+   * this run's answers. It changes no value the run computes.
+   */
+  band?: boolean;
 }
 
 /** The state axis of a simulate cell's plot: linear, or logarithmic (base 10). */

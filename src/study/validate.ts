@@ -246,6 +246,7 @@ function checkSimulate(c: Record<string, unknown>, p: Checker): void {
   p.expr(c, 'to');
   p.oneOf(c, 'method', METHODS, true);
   p.oneOf(c, 'plotScale', PLOT_SCALES, true);
+  p.optionalFlag(c, 'band');
   const fixed = c.method === 'rk4' || c.method === 'heun' || c.method === 'euler';
   if (fixed || c.step !== undefined) p.expr(c, 'step');
   if (c.tolerance !== undefined && p.object(c.tolerance, 'tolerance')) {

@@ -87,7 +87,7 @@ describe('adding a cell', () => {
     expect(run.rates).to.deep.equal(['fall', 'distance']);
     const cell = view.shadowRoot!.querySelector(`article[data-cell="${run.id}"] simulate-cell`) as HTMLElement & { updateComplete: Promise<unknown> };
     await cell.updateComplete;
-    const boxes = [...cell.shadowRoot!.querySelectorAll('input[type="checkbox"]')] as HTMLInputElement[];
+    const boxes = [...cell.shadowRoot!.querySelectorAll('input[type="checkbox"][data-field="rates"]')] as HTMLInputElement[];
     expect(boxes.map((b) => b.checked)).to.deep.equal([true, true]);
   });
 

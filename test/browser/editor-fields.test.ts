@@ -39,7 +39,7 @@ export const EVERY_FIELD: Study = {
         { name: 't_above', timeAbove: 'C', level: 'MIC' },
         { name: 't_below', timeBelow: 'C', level: 'MIC' },
       ],
-      plotScale: 'log' },
+      plotScale: 'log', band: true },
     { id: 'd', kind: 'data', title: 'Levels', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[1, 7.4], [2, 5.5], [4, 3.0], [8, 0.9]] },
     { id: 'd2', kind: 'data', title: 'Pasted', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], csv: 't,C\n1,7.4\n2,5.5\n4,3.0\n' },
     { id: 'f', kind: 'fit', title: 'Fit', rates: ['cb'], data: 'd', time: 't', observe: { Cb: 'C' },

@@ -70,3 +70,29 @@ describe('svg-chart labels', () => {
     host.remove();
   });
 });
+
+describe('svg-chart bands', () => {
+  it('shades a band between its two curves, behind the line, widens the axis to it, and lists it in the legend', () => {
+    const x = [0, 1, 2, 3, 4];
+    const host = document.createElement('div');
+    document.body.append(host);
+    // the band reaches above the line's own range: the axis must show it whole
+    render(lineChart({
+      label: 'C against time', xLabel: 'time (h)', yLabels: ['C (mg/L)'],
+      lines: [{ label: 'C', x, y: [10, 6, 4, 3, 2] }],
+      bands: [{ label: 'C: 2.5–97.5 percentile band', x, lo: [10, 5, 3, 2, 1], hi: [10, 8, 6, 5, 30], colourOf: 0 }],
+    }), host);
+    const band = host.querySelector('path.band') as SVGPathElement;
+    expect(band, 'a band path').to.not.equal(null);
+    const paths = [...host.querySelectorAll('path')];
+    expect(paths.indexOf(band), 'drawn before the line').to.be.below(paths.findIndex((p) => p.getAttribute('fill') === 'none'));
+    // one closed outline: five points along the lower edge, five back along the upper
+    expect((band.getAttribute('d')!.match(/[ML]/g) ?? []).length).to.equal(10);
+    expect(band.getAttribute('d')!.endsWith('Z')).to.equal(true);
+    const box = band.getBBox();
+    const frame = host.querySelector('rect')!.getBBox();
+    expect(box.y, 'the band\'s top (30 mg/L) inside the plot').to.be.at.least(frame.y - 0.5);
+    expect(host.textContent).to.contain('C: 2.5–97.5 percentile band');
+    host.remove();
+  });
+});

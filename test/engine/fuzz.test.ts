@@ -21,6 +21,7 @@ import { main, type Io } from '../../src/cli/cli.ts';
 import { openStudy } from '../../src/engine/session.ts';
 import { metered } from '../../src/numerics/work-meter.ts';
 import type { CellReport } from '../../src/engine/report.ts';
+import type { Cell } from '../../src/study/types.ts';
 
 const RUNS = Number(process.env.RATEBOOK_FUZZ_RUNS ?? 10000);
 /** Each cell's work budget in the fuzz run: small, so that 10,000 studies take about 2 minutes. */
@@ -124,7 +125,8 @@ function checkCells(cells: readonly CellReport[], where: string): void {
 function budgetOf(doc: unknown, cellCount: number): number {
   const cells = (doc as { cells?: unknown[] }).cells ?? [];
   let total = 0;
-  for (let i = 0; i < cellCount; i++) total += FUZZ_CELL_WORK * workScaleOf(cells[i]) + OVERSHOOT;
+  const all = Array.isArray(cells) ? (cells.filter((c) => c && typeof c === 'object') as Cell[]) : [];
+  for (let i = 0; i < cellCount; i++) total += FUZZ_CELL_WORK * workScaleOf(cells[i], all) + OVERSHOOT;
   return total;
 }
 
