@@ -334,6 +334,14 @@ export interface UncertaintyResult {
   p975?: ReportQuantity;
   /** For a yes/no verdict: the share of samples in which it is yes. */
   probability?: number;
+  /** Monte Carlo (a Ratebook addition): the probability's standard error sqrt(p(1 − p)/n), its Wilson 95% interval, the probability shown to the place of its standard error's first digit ("62%"). */
+  probabilitySE?: number;
+  probabilityCI95?: { low: number; high: number };
+  shown?: string;
+  /** Monte Carlo (a Ratebook addition): the mean's standard error SD/sqrt(n), a difference in the SD's unit. */
+  meanSE?: ReportQuantity;
+  /** Monte Carlo (a Ratebook addition): how precise the figure is, in words, and whether the samples were enough for its digits (JCGM 101:2008 7.9). */
+  precision?: string;
   /** For a verdict under the linear method: its value at the present values. */
   truth?: boolean;
   /** Monte Carlo: the samples' histogram. */
