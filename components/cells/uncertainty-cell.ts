@@ -11,8 +11,9 @@ type UncertaintyDoc = CellDoc<'uncertainty'>;
  * the engine's results (a table of mean with its Monte Carlo standard error, SD, median and the
  * 2.5–97.5 percentile interval; a verdict's probability of yes as the samples support it, with
  * its standard error and Wilson interval; whether the samples were enough for the digits shown;
- * a histogram per result), the uncertain inputs it drew, and the samples in which a name had no
- * value. Renders only.
+ * a histogram per result), the uncertain inputs it drew, the samples in which a name had no
+ * value, and a warning where a computed value's own spread hides the spreads upstream of it.
+ * Renders only.
  */
 export class UncertaintyCellElement extends CellElement<'uncertainty'> {
   static override styles = [cellStyles, css`
@@ -22,6 +23,7 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     table.results td.name, table.results th.name { text-align: left; }
     .failed { color: #8a4b00; }
     .precision { font-size: 0.85rem; }
+    p.hidden-spread { color: #5c3400; border-left: 3px solid #a85d00; background: #fff6e8; padding: 0.3rem 0.6rem; }
     p.verdict .precision { color: #4a5560; }
     p.precision { margin: 0.15rem 0; }
     .table-scroll { overflow-x: auto; max-width: 100%; }
@@ -63,6 +65,7 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     const verdicts = entries.filter(([, x]) => x.probability !== undefined || x.truth !== undefined);
     const none = entries.filter(([, x]) => !x.mean && x.probability === undefined && x.truth === undefined);
     return html`<div class="figures">
+      ${(r.warnings ?? []).map((w) => html`<p class="foot-error hidden-spread" role="note"><strong>Spread not carried.</strong> ${w}</p>`)}
       ${quantities.length ? html`<div class="table-scroll" role="region" tabindex="0" aria-label="How sure each result is"><table class="results"><caption class="sr">How sure each result is</caption>
         <thead><tr><th class="name">Result</th><th>mean</th>${r.method === 'monte-carlo' ? html`<th title="Monte Carlo standard error of the mean: SD / √samples">± mean's MC error</th>` : nothing}<th>SD</th><th>median</th><th>95% interval (2.5–97.5 percentile)</th>${r.method === 'monte-carlo' ? html`<th>no value</th>` : nothing}</tr></thead>
         <tbody>${quantities.map(([name, x]) => html`<tr><td class="name">${name}</td><td class="result">${showQ(x.mean)}</td>${r.method === 'monte-carlo' ? html`<td class="result mcse">${x.meanSE ? `± ${showQ(x.meanSE, 2)}` : ''}</td>` : nothing}<td class="result">${showQ(x.sd)}</td>

@@ -2,7 +2,7 @@
  * The printed sheet's section of an uncertainty cell: the spread of every uncertain input, the
  * result table with its intervals and each mean's Monte Carlo error, each verdict's probability
  * with its standard error and Wilson interval, whether the samples were enough for the digits
- * shown, and a histogram per result.
+ * shown, a histogram per result, and where a computed value's own spread hides those upstream.
  * Layout only: every number is the report's.
  */
 import { html, nothing, type TemplateResult } from 'lit';
@@ -17,6 +17,7 @@ export function uncertaintySheet(cell: Of<'uncertainty'>, r: ReportOf<'uncertain
   const results = Object.entries(r.results ?? {});
   const mc = r.method === 'monte-carlo';
   return html`<p>How sure ${(cell.of ?? []).join(', ')} ${(cell.of ?? []).length === 1 ? 'is' : 'are'}: ${mc ? `${r.samples?.toLocaleString('en-US')} Monte Carlo samples (seed ${r.seed})` : 'first-order propagation (linear)'} over these inputs.</p>
+    ${(r.warnings ?? []).map((w) => html`<p class="check"><strong>Spread not carried.</strong> ${w}</p>`)}
     <table><thead><tr><th>Input</th><th>Spread</th></tr></thead>
     <tbody>${(r.inputs ?? []).map((i) => html`<tr><td class="name">${i.name}</td><td>${i.text}</td></tr>`)}</tbody></table>
     <table class="how-sure"><thead><tr><th>Result</th><th>Mean</th>${mc ? html`<th>± Mean's MC error</th>` : nothing}<th>SD</th><th>Median</th><th>95% interval</th>${mc ? html`<th>No value</th>` : nothing}</tr></thead>

@@ -398,6 +398,8 @@ export interface UncertaintyFields {
   summary: string;
   /** The bands of the runs with `band: true` whose answers are among the names (Monte Carlo). */
   bands?: UncertaintyBand[];
+  /** A Ratebook addition: per value with a spread of its own computed from values with spreads, which of those it hides (uncertainty-shadows.ts). */
+  warnings?: string[];
 }
 
 // note

@@ -22,6 +22,7 @@ export function uncertaintyRows(cell: CellReport): Array<[string, string]> | und
     else rows.push([name, `no value${failed}`]);
   }
   for (const i of r.inputs ?? []) rows.push([`input ${i.name}`, i.text]);
+  for (const w of r.warnings ?? []) rows.push(['spread not carried', w]);
   if (r.failed) rows.push(['failed samples', `${r.failed} (${r.failedReason})`]);
   rows.push(['evaluations', String(r.evaluations)]);
   for (const n of r.notes ?? []) rows.push(['note', n]);
