@@ -54,7 +54,7 @@ export function sharePrecision(yes: number, n: number): SharePrecision {
   const digit = place >= 1 ? 'whole percent' : `${place.toFixed(decimals)} point`;
   const settle = `${moreSamples(needed, `the ${digit} shown`)} (JCGM 101:2008 7.9: twice the standard error within half a unit of it)`;
   const sentence = se > 0
-    ? `± ${formatNumber(100 * se, 2)} percentage points (Monte Carlo standard error of ${n.toLocaleString('en-US')} samples); ${range}. Another seed may move it by about ${formatNumber(200 * se, 2)} points (2 SE); ${settle}.`
+    ? `± ${formatNumber(100 * se, 2)} percentage points (Monte Carlo standard error); ${range}. Another seed may move it by about ${formatNumber(200 * se, 2)} points (2 SE); ${settle}.`
     : `${yes === 0 ? 'none' : 'every one'} of ${n.toLocaleString('en-US')} samples was yes, so the standard error sqrt(p(1 − p)/n) is 0 and says nothing; ${range}. ${settle[0].toUpperCase()}${settle.slice(1)}.`;
   return { probabilitySE: se, probabilityCI95: ci, shown, precision: sentence };
 }
@@ -70,11 +70,12 @@ export function meanPrecision(sd: number, n: number, say: (si: number) => string
   if (!(sd > 0)) return { meanSE: 0, precision: `Every one of the ${n.toLocaleString('en-US')} samples gave the same value: its mean has no Monte Carlo error.` };
   const place = leadingPlace(sd);
   const s = settled(se, n, place);
-  const head = `Mean's Monte Carlo standard error ${say(se)} (SD / sqrt(${n.toLocaleString('en-US')}))`;
+  const to = `${say(roundTo(place, place))}, the first digit of its SD`;
+  const twice = `twice its Monte Carlo standard error, ${say(2 * se)}`;
   return {
     meanSE: se,
     precision: s.settled
-      ? `${head}: enough samples for the mean to the first digit of its SD, ${say(roundTo(place, place))} (JCGM 101:2008 7.9).`
-      : `${head}: not enough for the mean to the first digit of its SD, ${say(roundTo(place, place))}; ${moreSamples(s.samplesNeeded, 'it')} (JCGM 101:2008 7.9).`,
+      ? `Enough samples for the mean to ${to}: ${twice}, is within half of that (JCGM 101:2008 7.9).`
+      : `Not enough samples for the mean to ${to}: ${twice}, is more than half of that; ${moreSamples(s.samplesNeeded, 'it')} (JCGM 101:2008 7.9).`,
   };
 }
