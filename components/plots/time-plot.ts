@@ -173,7 +173,10 @@ export class TimePlot extends LitElement {
       filter: logSplits, grid: { show: true, stroke: GRID, width: 1, filter: logSplits }, ticks: { stroke: GRID, width: 1, size: 5, filter: logSplits },
     } : {};
     const scaleOf = (s: number) => `y${panel.units.indexOf(p.states[s].unit)}`;
-    const axisLabel = (u: string) => `${panel.states.filter((s) => p.states[s].unit === u).map((s) => p.states[s].name).join(', ')} (${u})`;
+    // A compare cell's curves are named by scenario; its axes name the states they show.
+    const series = 'series' in p ? (p as SimulationPlot & { readonly series: ReadonlyArray<{ readonly state: string }> }).series : undefined;
+    const axisName = (s: number) => series?.[s]?.state ?? p.states[s].name;
+    const axisLabel = (u: string) => `${[...new Set(panel.states.filter((s) => p.states[s].unit === u).map(axisName))].join(', ')} (${u})`;
     return {
       scales: Object.fromEntries([
         ['x', { time: false }],
