@@ -60,10 +60,11 @@ export function sharePrecision(yes: number, n: number): SharePrecision {
 }
 
 /**
- * A mean's precision: its standard error SD/sqrt(n) (SI), and JCGM 101:2008 7.9 with one
+ * A mean's precision: its standard error SD/sqrt(n), and JCGM 101:2008 7.9 with one
  * significant digit of the SD (n_dig = 1): the tolerance is half a unit of the SD's first
- * digit, and the samples are enough when twice the standard error is within it.
- * `say` writes an SI difference with its unit.
+ * digit, and the samples are enough when twice the standard error is within it. `sd` and the
+ * standard error returned are in the unit the SD is shown in (its digits are that unit's);
+ * `say` writes such a value with its unit.
  */
 export function meanPrecision(sd: number, n: number, say: (si: number) => string): { meanSE: number; precision: string } {
   const se = meanSE(sd, n);

@@ -80,11 +80,14 @@ export function monteCarloOutcome(of: readonly string[], mc: MonteCarlo, inputs:
     const s = summarize(ns.values);
     const unit = shownUnit(t);
     const h = histogram(ns.values.map((v) => valueIn(sized(t, v), unit)));
-    const precise = meanPrecision(s.sd, ns.values.length, (si) => describe(difference(t, si)));
+    // the SD's first digit in the unit it is shown in (a minute is not a power of ten of seconds)
+    const shownSd = report(difference(t, s.sd)).value;
+    const factor = s.sd > 0 ? shownSd / s.sd : 1;
+    const precise = meanPrecision(shownSd, ns.values.length, (v) => describe(difference(t, v / factor)));
     results[name] = {
       mean: report(sized(t, s.mean)), sd: report(difference(t, s.sd)), median: report(sized(t, s.median)),
       p025: report(sized(t, s.p025)), p975: report(sized(t, s.p975)),
-      meanSE: report(difference(t, precise.meanSE)), precision: precise.precision,
+      meanSE: report(difference(t, precise.meanSE / factor)), precision: precise.precision,
       histogram: { unit: formatUnit(unit), edges: h.edges, counts: h.counts }, ...failed,
     };
     quantityNames(name, t, s.p025, s.p975, s.sd, bindings, reasons);

@@ -163,3 +163,21 @@ describe('the terminal table', () => {
     assert.ok(text.includes(r.results!.half.precision!));
   });
 });
+
+describe('the digits of a mean in the unit it is shown in', () => {
+  it('a time in minutes is settled to a power of ten of minutes, not of seconds', () => {
+    const r = cell(reportOf({
+      format: 'ratebook-study', version: 1, title: 'minutes (invented numbers)',
+      cells: [
+        { id: 'p', kind: 'parameters', items: [{ name: 'Q', value: '100 L / min', spread: { distribution: 'lognormal', cv: 0.1 } }, { name: 't_fill', value: '2000 L / Q', unit: 'min' }] },
+        { id: 'how', kind: 'uncertainty', of: ['t_fill'], samples: 2000, seed: 2 },
+      ],
+    }), 'how') as ReportOf<'uncertainty'>;
+    const t = r.results!.t_fill;
+    assert.equal(t.sd!.unit, 'min');
+    // SD about 2 min: its first digit's unit is 1 min
+    assert.match(t.precision!, /for the mean to 1 min, the first digit of its SD/);
+    assert.equal(t.meanSE!.unit, 'min');
+    assert.ok(Math.abs(t.meanSE!.si - t.sd!.si / Math.sqrt(2000)) < 1e-12 * t.sd!.si);
+  });
+});
