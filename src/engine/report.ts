@@ -62,6 +62,8 @@ export interface SpreadReport {
   from?: ReportQuantity;
   to?: ReportQuantity;
   text: string;
+  /** A Ratebook addition: on a value computed from values with spreads of their own, that this spread stands for theirs, naming them. */
+  note?: string;
 }
 
 export interface ParametersFields {

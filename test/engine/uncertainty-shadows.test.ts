@@ -87,4 +87,20 @@ describe('a spread on a computed value (k = CL / V with a spread of its own)', (
     assert.deepEqual(r.inputs!.map((i) => i.name), ['k']);
     assert.match(r.warnings![0], /the spreads of CL and V upstream of it are not carried through k\. CL and V: their spreads are not drawn at all\./);
   });
+
+  it('the parameters cell says it too, on k\'s spread, naming the spreads k reads', () => {
+    const report = reportOf({
+      format: 'ratebook-study', version: 1, title: 'half-life (invented numbers)',
+      cells: [{ id: 'pk', kind: 'parameters', items: [
+        { name: 'CL', value: '5 L / h', spread: { distribution: 'lognormal', cv: 0.3 } },
+        { name: 'V', value: '50 L', spread: { distribution: 'lognormal', cv: 0.2 } },
+        { name: 'k', value: 'CL / V', spread: { distribution: 'lognormal', cv: 0.1 } },
+        { name: 'k2', value: 'CL / (50 L)' },
+      ] }],
+    });
+    const values = (cell(report, 'pk') as ReportOf<'parameters'>).values!;
+    assert.equal(values.k.spread!.note, "k is computed from CL and V, which have spreads of their own: an uncertainty cell draws k from this spread alone, without carrying the spreads of CL and V through it. Remove this spread to carry theirs instead.");
+    assert.equal(values.CL.spread!.note, undefined);
+    assert.equal(values.k2.spread, undefined);
+  });
 });
