@@ -1,6 +1,6 @@
 import { html, nothing, css } from 'lit';
 import type { CompareScenario } from '../../src/index.ts';
-import { cellStyles, footError, showQ } from './common.ts';
+import { cellStyles, footError, showQ, NARROW_PX } from './common.ts';
 import { CellElement } from './cell-element.ts';
 import '../expr-field.ts';
 import '../plots/time-plot.ts';
@@ -20,6 +20,8 @@ export class CompareCellElement extends CellElement<'compare'> {
     span.set { display: inline-flex; align-items: center; gap: 0.3rem; flex-wrap: nowrap; max-width: 100%; }
     expr-field.set-value { flex: 0 1 10rem; min-width: 6rem; }
     table.answers { width: auto; }
+    /* on a phone the table is stacked (common.ts): a block per question, each answer under its scenario's name */
+    @media (max-width: ${NARROW_PX}px) { table.answers th[scope='row'] { display: block; flex-basis: 100%; border: 0; padding: 0; } table.answers td.num { text-align: left; } }
   `];
 
   /** The study's parameters and states: what a scenario can set. */
@@ -96,12 +98,12 @@ export class CompareCellElement extends CellElement<'compare'> {
     if (!r?.ok || !r.scenarios) return nothing;
     const questions = r.questions ?? [];
     return html`
-      ${questions.length ? html`<div class="scroll"><table class="answers">
+      ${questions.length ? html`<div class="scroll"><table class="answers stack">
         <caption class="sr">Each question's answer per scenario</caption>
         <thead><tr><th>Question</th>${r.scenarios.map((s) => html`<th class="num">${s.name}</th>`)}</tr></thead>
         <tbody>${questions.map((q) => html`<tr><th scope="row">${q}</th>${r.scenarios!.map((s) => {
           const a = s.results[q];
-          return html`<td class="num result" title=${a && 'notReached' in a ? a.message : ''}>${!a ? '—' : 'notReached' in a ? `not reached by ${showQ(a.end)}` : showQ(a)}</td>`;
+          return html`<td class="num result" data-label=${s.name} title=${a && 'notReached' in a ? a.message : ''}>${!a ? '—' : 'notReached' in a ? `not reached by ${showQ(a.end)}` : showQ(a)}</td>`;
         })}</tr>`)}</tbody></table></div>
         <p class="muted">Each answer is defined as question_scenario (${questions[0]}_${r.scenarios[0]?.name ?? ''}, …) for the cells below.</p>` : html`<p class="muted">The run asks no questions: the chart alone compares the scenarios.</p>`}
       ${r.scenarios.filter((s) => !s.ok).map((s) => html`<p class="foot-error" role="alert">Scenario ${s.name}: ${s.message}</p>`)}

@@ -1,6 +1,6 @@
 import { html, nothing, css, unsafeCSS } from 'lit';
 import { MAX_SAMPLES, formatNumber, type UncertaintyResult } from '../../src/index.ts';
-import { cellStyles, footError, showQ } from './common.ts';
+import { cellStyles, footError, showQ, NARROW_PX } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import { histogramPlot, HISTOGRAM_CSS } from '../plots/histogram-plot.ts';
 
@@ -27,6 +27,10 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     p.verdict .precision { color: #4a5560; }
     p.precision { margin: 0.15rem 0; }
     .table-scroll { overflow-x: auto; max-width: 100%; }
+    /* the interval may wrap after "to": the table fits a tablet's width */
+    td.interval { white-space: normal; min-width: 7rem; }
+    /* on a phone the table is stacked (common.ts): one block per result, each figure under its heading */
+    @media (max-width: ${NARROW_PX}px) { table.results td { text-align: left; } table.results td.name { font-weight: 600; } }
     ${unsafeCSS(HISTOGRAM_CSS)}
   `];
 
@@ -66,11 +70,11 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     const none = entries.filter(([, x]) => !x.mean && x.probability === undefined && x.truth === undefined);
     return html`<div class="figures">
       ${(r.warnings ?? []).map((w) => html`<p class="foot-error hidden-spread" role="note"><strong>Spread not carried.</strong> ${w}</p>`)}
-      ${quantities.length ? html`<div class="table-scroll" role="region" tabindex="0" aria-label="How sure each result is"><table class="results"><caption class="sr">How sure each result is</caption>
-        <thead><tr><th class="name">Result</th><th>mean</th>${r.method === 'monte-carlo' ? html`<th title="Monte Carlo standard error of the mean: SD / √samples">± mean's MC error</th>` : nothing}<th>SD</th><th>median</th><th>95% interval (2.5–97.5 percentile)</th>${r.method === 'monte-carlo' ? html`<th>no value</th>` : nothing}</tr></thead>
-        <tbody>${quantities.map(([name, x]) => html`<tr><td class="name">${name}</td><td class="result">${showQ(x.mean)}</td>${r.method === 'monte-carlo' ? html`<td class="result mcse">${x.meanSE ? `± ${showQ(x.meanSE, 2)}` : ''}</td>` : nothing}<td class="result">${showQ(x.sd)}</td>
-          <td class="result">${showQ(x.median)}</td><td class="result">${showQ(x.p025)} to ${showQ(x.p975)}</td>
-          ${r.method === 'monte-carlo' ? html`<td class=${x.failed ? 'failed' : ''}>${x.failed}</td>` : nothing}</tr>`)}</tbody></table></div>` : nothing}
+      ${quantities.length ? html`<div class="table-scroll" role="region" tabindex="0" aria-label="How sure each result is"><table class="results stack"><caption class="sr">How sure each result is</caption>
+        <thead><tr><th class="name">Result</th><th>mean</th>${r.method === 'monte-carlo' ? html`<th title="Monte Carlo standard error of the mean: SD / √samples">± mean's MC error</th>` : nothing}<th>SD</th><th>median</th><th title="from the 2.5 to the 97.5 percentile of the samples">95% interval</th>${r.method === 'monte-carlo' ? html`<th>no value</th>` : nothing}</tr></thead>
+        <tbody>${quantities.map(([name, x]) => html`<tr><td class="name wide">${name}</td><td class="result" data-label="mean">${showQ(x.mean)}</td>${r.method === 'monte-carlo' ? html`<td class="result mcse" data-label="± mean's MC error">${x.meanSE ? `± ${showQ(x.meanSE, 2)}` : ''}</td>` : nothing}<td class="result" data-label="SD">${showQ(x.sd)}</td>
+          <td class="result" data-label="median">${showQ(x.median)}</td><td class="result interval" data-label="95% interval">${showQ(x.p025)} to ${showQ(x.p975)}</td>
+          ${r.method === 'monte-carlo' ? html`<td class=${x.failed ? 'failed' : ''} data-label="no value">${x.failed}</td>` : nothing}</tr>`)}</tbody></table></div>` : nothing}
       ${quantities.filter(([, x]) => x.precision).map(([name, x]) => html`<p class="precision muted">${name}: ${x.precision}</p>`)}
       ${verdicts.map(([name, x]) => html`<p class="verdict">${this.verdictWords(name, x, r.samples)}</p>`)}
       ${none.map(([name, x]) => html`<p class="foot-error">${name}: no value (${x.reason ?? 'no reason given'}).</p>`)}

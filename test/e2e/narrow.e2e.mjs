@@ -27,6 +27,7 @@ const TEMPLATES = [
   'plasma-levels', // drug levels: profile summary, fit
   'mixing-tank-flush', // mixing and flushing
   'harvested-stock-fold', // growth and decay: phase line with a sweep
+  'flush-pump-settings', // how sure, what matters most, scenarios, a run's band
 ];
 /** A phone held upright (390 × 844, a common size) and a tablet (820 × 1180). */
 const WIDTHS = [{ width: 390, height: 844 }, { width: 820, height: 1180 }];
@@ -38,7 +39,7 @@ async function settled(page) {
   await page.waitForFunction(() => {
     const view = document.querySelector('ratebook-app')?.shadowRoot?.querySelector('study-view');
     const c = view?.controller;
-    return c && c.report && !c.busy;
+    return c && c.report && !c.busy && !c.pending.length;
   }, null, { timeout: STEP });
   await page.waitForTimeout(400); // plots draw in the next frames
 }
