@@ -36,7 +36,7 @@ export interface Polished {
  */
 export function polish(
   input: CheckedInput, model: CountedModel, differences: ForwardJacobian, jacobian: Float64Array,
-  p: Float64Array, r: Float64Array, cost: number, residualError: (r: Float64Array, out: Float64Array) => void,
+  p: Float64Array, r: Float64Array, cost: number, residualError: (r: Float64Array, out: Float64Array, p: Float64Array) => void,
 ): Polished | null {
   const { m, n, lower, upper } = input;
   let ex = extrapolate(differences, jacobian, p, r, m * n);
@@ -64,8 +64,8 @@ export function polish(
     }
   }
   const e = new Float64Array(m);
-  residualError(at.r, e);
-  const found = fitDigits({ m, n, jacobian: ex.jacobian, jacobianError: ex.error, r: at.r, e, p: at.p });
+  residualError(at.r, e, at.p);
+  const found = fitDigits({ m, n, jacobian: ex.jacobian, jacobianError: ex.error, r: at.r, e, p: at.p, logScale: input.logParameters });
   return { ...at, jacobian: ex.jacobian, digits: found ? found.digits : null };
 }
 
