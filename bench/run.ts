@@ -28,6 +28,7 @@ import { solveBenchmarks } from './solve.ts';
 import { fitBenchmarks } from './fit.ts';
 import { mapFitBenchmarks, mapFitRunBenchmarks } from './fit-map.ts';
 import { fitRunBenchmarks } from './fit-run.ts';
+import { fitEvaluationBenchmarks, DIGITS_COST_GOAL } from './fit-evaluations.ts';
 import { ncaBenchmarks } from './nca.ts';
 import { scalingBenchmarks } from './scaling.ts';
 import { csvBenchmarks } from './csv.ts';
@@ -380,6 +381,10 @@ function fitRows(): Row[] {
     ...mapFitBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
     ...mapFitRunBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
     ...fitRunBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs })),
+    ...fitEvaluationBenchmarks().map((r) => ({
+      measure: `${r.name}, digits ${r.digits.join(', ')}: with digits / forward differences alone`,
+      result: `${(r.withDigits / r.forward).toFixed(2)}x`, goal: `<= ${DIGITS_COST_GOAL}x`, met: r.withDigits <= DIGITS_COST_GOAL * r.forward,
+    })),
     ...ncaBenchmarks().map((r) => ({ measure: r.name, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ok })),
   ];
 }

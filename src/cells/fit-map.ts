@@ -20,10 +20,12 @@ export interface MapUnknown {
 
 /**
  * Runs the MAP fit. `residuals` writes f − y per point (unweighted: an error model goes with
- * weighting "none"), so the predictions are those plus y.
+ * weighting "none"), so the predictions are those plus y. The model is good to `accuracy`
+ * (relative; the runs' tolerance) and each prediction f_i to `predictionError(f)_i`
+ * (absolute): the fit differences centrally, is polished and reports its digits.
  */
 export function runMapFit(settings: MapSettings, unknowns: readonly MapUnknown[], y: readonly number[],
-  residuals: (p: Float64Array, out: Float64Array) => boolean, diffStep: number): MapResult {
+  residuals: (p: Float64Array, out: Float64Array) => boolean, accuracy: number, predictionError: (f: Float64Array, out: Float64Array) => void): MapResult {
   const out = new Float64Array(y.length);
   return fitMap({
     predict: (p, f) => {
@@ -33,8 +35,8 @@ export function runMapFit(settings: MapSettings, unknowns: readonly MapUnknown[]
     },
     y, additive: y.map(() => settings.additive), proportional: settings.proportional, priors: settings.priors,
     p0: unknowns.map((u) => u.guess), lower: unknowns.map((u) => u.lower), upper: unknowns.map((u) => u.upper),
-    names: unknowns.map((u) => `"${u.as}"`),
-  }, { diffStep });
+    names: unknowns.map((u) => `"${u.as}"`), predictionError,
+  }, { modelAccuracy: accuracy });
 }
 
 /** An estimate's prior as reported: its median in the estimate's unit, omega, and how far the data moved the estimate. */

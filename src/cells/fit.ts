@@ -187,19 +187,19 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     points.forEach((pt, k) => { out[k] = pt.w * (run.values![rowTime[pt.row]][pt.state] - pt.y); });
     return true;
   };
-  // differences of a solver run (relative tolerance 1e-10) need a step near √rtol, not √ε
-  const mapFit = map ? runMapFit(map, unknowns, points.map((pt) => pt.y), residuals, 1e-5) : undefined;
+  // a run good to its tolerance: central differences, a polished end and the digits it leaves
+  const runError = (k: number, fitted: number) => RUN_ERROR_UNITS * FIT_RTOL * (Math.abs(fitted) + 1e-2 * scale[points[k].state]);
+  const mapFit = map ? runMapFit(map, unknowns, points.map((pt) => pt.y), residuals, FIT_RTOL, (f, e) => {
+    for (let k = 0; k < points.length; k++) e[k] = runError(k, f[k]);
+  }) : undefined;
   const fit = mapFit ?? fitLeastSquares({
     residuals, m: points.length, p0: unknowns.map((u) => u.guess),
     lower: unknowns.map((u) => u.lower), upper: unknowns.map((u) => u.upper),
     scale: unknowns.map((u) => Math.abs(u.guess) || 1),
     names: unknowns.map((u) => `"${u.as}"`),
   }, {
-    // central differences with a step for a run good to its tolerance, and the digits it leaves
     modelAccuracy: FIT_RTOL,
-    residualError: (r, e) => points.forEach((pt, k) => {
-      e[k] = pt.w * RUN_ERROR_UNITS * FIT_RTOL * (Math.abs(r[k] / pt.w + pt.y) + 1e-2 * scale[pt.state]);
-    }),
+    residualError: (r, e) => points.forEach((pt, k) => { e[k] = pt.w * runError(k, r[k] / pt.w + pt.y); }),
   });
   if (!fit.residuals) fail(at, `the fit could not start: ${fit.message}${fit.detail ? ` (${fit.detail})` : ''}${lastFailure ? `; the model failed: ${lastFailure}` : ''}`, 'numeric');
 

@@ -1,4 +1,8 @@
-/** The report as a readable table for a terminal: one block per cell, quantities aligned. */
+/**
+ * The report as a readable table for a terminal: one block per cell, quantities aligned. The
+ * study-format contract fixes the JSON report (`--json`), not this table; its rows follow the
+ * report's fields (a fit's `digits`, a Ratebook addition, in words beside its number).
+ */
 import type { CellReport, Report } from '../engine/report.ts';
 import { formatNumber } from '../units/quantity.ts';
 import { unitAfterNumber } from '../units/units.ts';
@@ -49,6 +53,9 @@ function formatCell(cell: CellReport): string[] {
       const csv = value as { notes?: string[]; problems?: Array<{ row: number; line: number; text: string; message: string }> };
       for (const n of csv.notes ?? []) rows.push(['csv', n]);
       for (const p of csv.problems ?? []) rows.push([`row ${p.row}`, `line ${p.line} "${p.text}": ${p.message}`]);
+    } else if (key === 'digits' && typeof value === 'number') {
+      // a fit's digits (a Ratebook addition to the report): said in words, the number first
+      rows.push(['digits', `${value} (significant digits of every estimate the fit vouches for)`]);
     } else if (key === 'notes' && Array.isArray(value)) {
       for (const n of value) rows.push(['note', String(n)]);
     } else {

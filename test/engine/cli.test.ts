@@ -156,3 +156,35 @@ describe('ratebook run: a solve cell', () => {
     assert.ok(s.evaluations > 0);
   });
 });
+
+describe('a fit in the table', () => {
+  // The decay C = C0·e^(−k·t) through three invented levels (exact at k = 0.2 /h, C0 10 mg/L),
+  // fitted as a Bayesian estimate and as least squares: each says the digits it vouches for.
+  const levels = [[1, 10 * Math.exp(-0.2)], [4, 10 * Math.exp(-0.8)], [9, 10 * Math.exp(-1.8)]];
+  const fit = (id: string, extra: Record<string, unknown>) => ({
+    id, kind: 'fit', rates: ['drug'], data: 'levels', time: 't', observe: { C: 'C' },
+    estimate: [
+      { parameter: 'k', as: `k_${id}`, guess: '0.1 / h', ...(extra.error ? { prior: { median: '0.15 / h', omega: 0.5 } } : {}) },
+      { parameter: 'C', as: `C0_${id}`, guess: '8 mg / L' }],
+    ...extra,
+  });
+  const doc = JSON.stringify({ format: 'ratebook-study', version: 1, title: 'Fits', cells: [
+    { id: 'levels', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: levels },
+    { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.2 / h' }] },
+    { id: 'drug', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-k * C', initial: '10 mg / L' },
+    fit('ls', {}),
+    fit('map', { error: { additive: '0.1 mg / L', proportional: 0.05 } }),
+  ] });
+
+  it('prints each fit\'s digits in words beside the number the JSON report gives', () => {
+    const text = run(['run', 'f.json'], { 'f.json': doc });
+    const json = JSON.parse(run(['run', 'f.json', '--json'], { 'f.json': doc }).out);
+    assert.equal(text.code, 0, text.out);
+    for (const at of [3, 4]) {
+      const digits = json.cells[at].digits;
+      assert.ok(Number.isInteger(digits) && digits >= 6, `cell ${at}: ${digits}`);
+      const block = text.out.split('\n\n').find((b) => b.includes(`] ${json.cells[at].id} (fit)`))!;
+      assert.match(block, new RegExp(`\\n    digits +${digits} \\(significant digits of every estimate the fit vouches for\\)\\n`));
+    }
+  });
+});

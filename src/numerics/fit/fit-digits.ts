@@ -17,6 +17,9 @@
  *
  * The rule: err_j = (1) + (2) + (3), and the digits vouched for are
  * floor(−log10(max_j err_j / |p_j|)), between 0 and 15; estimates exactly 0 are left out.
+ * A parameter that is the logarithm of the value whose digits count (`logScale`, as a MAP
+ * fit's estimate with a prior, searched on log P plus a constant) has the relative error
+ * expm1(err_j) in place of err_j / |p_j|: the value lies within exp(±err_j) of its estimate.
  * None (null) when JᵀJ is singular or an estimate is on a bound (its step is not free).
  * Cost: an SVD of m×n and O(m·n²) work.
  */
@@ -36,6 +39,8 @@ export interface DigitsInput {
   readonly r: Float64Array;
   readonly e: Float64Array;
   readonly p: Float64Array;
+  /** Per parameter: the logarithm of the value whose digits count (see the module comment); default none. */
+  readonly logScale?: readonly boolean[];
 }
 
 /** The three bounds per estimate (absolute) and the digits they leave. */
@@ -81,7 +86,7 @@ export function pseudoInverse(J: Float64Array, m: number, n: number): { pinv: Fl
 
 /** The digits vouched for (see the module comment), or null when JᵀJ is singular. */
 export function fitDigits(input: DigitsInput): Digits | null {
-  const { m, n, jacobian: J, jacobianError: E, r, e, p } = input;
+  const { m, n, jacobian: J, jacobianError: E, r, e, p, logScale } = input;
   const both = pseudoInverse(J, m, n);
   if (!both) return null;
   const { pinv, inv } = both;
@@ -106,7 +111,9 @@ export function fitDigits(input: DigitsInput): Digits | null {
     step[j] = Math.abs(s);
     model[j] = mod;
     jac[j] = jj;
-    if (p[j] !== 0) worst = Math.max(worst, (step[j] + mod + jj) / Math.abs(p[j]));
+    const err = step[j] + mod + jj;
+    if (logScale?.[j]) worst = Math.max(worst, Math.expm1(err));
+    else if (p[j] !== 0) worst = Math.max(worst, err / Math.abs(p[j]));
   }
   const digits = worst > 0 ? Math.min(MOST_DIGITS, Math.max(0, Math.floor(-Math.log10(worst)))) : MOST_DIGITS;
   return { digits, step, model, jacobian: jac };

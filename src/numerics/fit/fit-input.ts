@@ -22,6 +22,8 @@ export interface CheckedInput {
   readonly diffStep: number;
   /** The model's relative accuracy (central differences, digits), or null (forward differences). */
   readonly modelAccuracy: number | null;
+  /** Per parameter: counted on the log scale for `digits` (`LeastSquaresOptions.logParameters`). */
+  readonly logParameters: readonly boolean[];
 }
 
 /** Checks the input; returns the problem in working form or the reason it is invalid. */
@@ -86,5 +88,7 @@ export function checkInput(problem: LeastSquaresProblem, options: LeastSquaresOp
   if (modelAccuracy !== null && !(modelAccuracy >= Number.EPSILON && modelAccuracy < 1e-2)) {
     return bad(`modelAccuracy must be a number from machine epsilon up to 0.01; it is ${modelAccuracy}`);
   }
-  return { n, m, p0, lower, upper, scale, typical, maxIterations, maxEvaluations, ftol, xtol, gtol, diffStep, modelAccuracy };
+  const logParameters = o.logParameters ?? Array.from({ length: n }, () => false);
+  if (!Array.isArray(logParameters) || logParameters.length !== n) return bad(`logParameters must have one entry per parameter (${n})`);
+  return { n, m, p0, lower, upper, scale, typical, maxIterations, maxEvaluations, ftol, xtol, gtol, diffStep, modelAccuracy, logParameters };
 }

@@ -18,7 +18,9 @@
  * difference's eps_f^(1/2): for a run at rtol 1e-10, about 2e-7 instead of 1e-5. Where one
  * side leaves the bounds or the model fails there, the second-order one-sided difference
  * (−3·r(p) + 4·r(p ± h) − r(p ± 2h)) / ±2h on the other side, of the same order. Cost: 2n
- * model calls per Jacobian (one more per one-sided column).
+ * model calls per Jacobian (one more per one-sided column). With `modelAccuracy` a fit starts
+ * on forward differences with the step √eps_f and turns to central ones near the end
+ * (`refine`, called by the iteration: `levenberg-marquardt.ts`).
  */
 import type { CheckedInput } from './fit-input.ts';
 import type { LeastSquaresProblem } from './fit-types.ts';
@@ -68,17 +70,35 @@ export interface ForwardJacobian {
    * when the model fails on both sides of some p_j, 'cancelled' when aborted.
    */
   form(p: Float64Array, r: Float64Array, stepFactor?: number): 'ok' | 'failed' | 'cancelled';
+  /** Central differences from now on, when the differences are forward so far; false when they are central already (or only forward). */
+  refine?(): boolean;
+  /** True while the differences are the central ones. */
+  readonly central: boolean;
 }
 
-/** The Jacobian by forward differences, or by central ones when the input gives the model's accuracy. */
+/**
+ * The Jacobian by forward differences, or, when the input gives the model's accuracy eps_f,
+ * by forward differences with the step √eps_f (n calls) until `refine`, then central ones.
+ */
 export function differenceJacobian(input: CheckedInput, model: CountedModel, aborted: () => boolean): ForwardJacobian {
-  return input.modelAccuracy === null ? forwardJacobian(input, model, aborted) : centralJacobian(input, input.modelAccuracy, model, aborted);
+  if (input.modelAccuracy === null) return forwardJacobian(input, model, aborted);
+  const values = new Float64Array(input.m * input.n);
+  const forward = forwardJacobian(input, model, aborted, Math.sqrt(input.modelAccuracy), values);
+  const central = centralJacobian(input, input.modelAccuracy, model, aborted, values);
+  let now = forward;
+  return {
+    values,
+    get callsPerForm() { return now.callsPerForm; },
+    get central() { return now === central; },
+    form: (p, r, stepFactor) => now.form(p, r, stepFactor),
+    refine: () => (now === central ? false : (now = central, true)),
+  };
 }
 
-/** The forward-difference Jacobian of `model` within the bounds of `input` (n model calls per form). */
-export function forwardJacobian(input: CheckedInput, model: CountedModel, aborted: () => boolean): ForwardJacobian {
-  const { n, m, lower, upper, typical, diffStep } = input;
-  const jac = new Float64Array(m * n);
+/** The forward-difference Jacobian of `model` within the bounds of `input` (n model calls per form), with the relative step `diffStep` (the input's by default). */
+export function forwardJacobian(input: CheckedInput, model: CountedModel, aborted: () => boolean,
+  diffStep = input.diffStep, jac = new Float64Array(input.m * input.n)): ForwardJacobian {
+  const { n, m, lower, upper, typical } = input;
   const rStep = new Float64Array(m);
   const xStep = new Float64Array(n);
   const form = (p: Float64Array, r: Float64Array, stepFactor = 1): 'ok' | 'failed' | 'cancelled' => {
@@ -110,13 +130,13 @@ export function forwardJacobian(input: CheckedInput, model: CountedModel, aborte
     }
     return 'ok';
   };
-  return { values: jac, callsPerForm: n, form };
+  return { values: jac, callsPerForm: n, form, central: false };
 }
 
 /** The central-difference Jacobian of `model` within the bounds of `input` (2n model calls per form, see the module comment). */
-function centralJacobian(input: CheckedInput, accuracy: number, model: CountedModel, aborted: () => boolean): ForwardJacobian {
+function centralJacobian(input: CheckedInput, accuracy: number, model: CountedModel, aborted: () => boolean,
+  jac = new Float64Array(input.m * input.n)): ForwardJacobian {
   const { n, m, lower, upper, typical } = input;
-  const jac = new Float64Array(m * n);
   const rPlus = new Float64Array(m);
   const rMinus = new Float64Array(m);
   const xStep = new Float64Array(n);
@@ -158,5 +178,5 @@ function centralJacobian(input: CheckedInput, accuracy: number, model: CountedMo
     }
     return 'ok';
   };
-  return { values: jac, callsPerForm: 2 * n, form };
+  return { values: jac, callsPerForm: 2 * n, form, central: true };
 }

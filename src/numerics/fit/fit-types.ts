@@ -98,9 +98,16 @@ export interface LeastSquaresOptions {
   readonly modelAccuracy?: number;
   /**
    * With `modelAccuracy`: a bound on the error of each residual that the model's inaccuracy
-   * makes (m values, absolute), for `digits`. Without it, modelAccuracy·|r_i| is taken.
+   * makes (m values, absolute), for `digits`, given the residuals r at the parameters p.
+   * Without it, modelAccuracy·max|r_i| is taken.
    */
-  readonly residualError?: (r: Float64Array, out: Float64Array) => void;
+  readonly residualError?: (r: Float64Array, out: Float64Array, p: Float64Array) => void;
+  /**
+   * For `digits`: which parameters are the logarithm (plus a constant) of the value whose
+   * significant digits count, as a MAP fit searches an estimate with a prior: an error δ in
+   * such a parameter is a relative error expm1(|δ|) of the value. Default: none.
+   */
+  readonly logParameters?: readonly boolean[];
   /** Checked before every model evaluation; when `aborted` is true the fit stops with `cancelled`. */
   readonly signal?: { readonly aborted: boolean };
 }

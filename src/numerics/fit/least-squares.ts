@@ -58,7 +58,9 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
   }
   const differences = differenceJacobian(checked, model, aborted);
   const iterated = levenbergMarquardt(checked, model, differences, aborted, p, r0);
-  const { iterations, rejectedSteps, jacobianAtP, ...end } = iterated;
+  const { iterations, rejectedSteps, ...end } = iterated;
+  // differences still forward (a fit that stopped before converging) end central
+  const jacobianAtP = iterated.jacobianAtP && !differences.refine?.();
   let { r, cost } = iterated;
   let status: FitStatus = end.status;
   const jac = differences.values;

@@ -18,6 +18,15 @@
  * parameters themselves keeps a saturating model such as b1·(1 − e^(−b2·x)) from leaping to
  * where it is flat, as from the first start of NIST's BoxBOD problem).
  *
+ * Differences: with the model's accuracy eps_f known (`modelAccuracy`), the Jacobian is by
+ * forward differences (step √eps_f, n model calls) while the steps are long, and by central
+ * ones (2n calls, `fit-model.ts`) once an accepted step is shorter than √eps_f·‖D·p‖ (the
+ * forward differences' relative error, which then steers the step as much as the model does)
+ * or the iteration converges on forward differences; it then goes on, from a radius of at
+ * least ‖D·p‖, until it converges on central ones. Measured on NIST Misra1a and BoxBOD from
+ * their starts (`npm run bench -- fit`): 1.27 times the model runs of forward differences
+ * alone, against 1.7–1.9 times with central differences throughout, with as many digits.
+ *
  * Scaling D: without `scale`, Moré's running maximum of the column norms of J, which makes
  * the iteration invariant to the parameters' units; with `scale`, D = 1/scale.
  *
@@ -50,6 +59,8 @@ const MIN_SHRINK = 0.1;
 const MAX_SHRINK = 0.5;
 /** Shrink factor after a trial where the model failed. */
 const FAILED_SHRINK = 0.25;
+/** The statuses after which forward differences give way to central ones (an exact fit needs none). */
+const CONVERGED_HERE: ReadonlySet<FitStatus> = new Set<FitStatus>(['converged-ftol', 'converged-xtol', 'converged-gtol', 'precision-limit']);
 /** Rejections in a row that need no evaluation (the clipped step vanished) before giving up. */
 const MAX_EMPTY_STEPS = 200;
 
@@ -93,145 +104,161 @@ export function levenbergMarquardt(
   let jacobianAtP = false;
   let status: FitStatus | null = null;
 
-  outer: for (;;) {
-    if (cost === 0) { status = 'exact-fit'; break; }
-    if (iterations >= maxIterations) { status = 'max-iterations'; break; }
-    if (model.evaluations + jacobian.callsPerForm > maxEvaluations) { status = 'max-evaluations'; break; }
-    const formed = jacobian.form(p, r);
-    if (formed === 'cancelled') { status = 'cancelled'; break; }
-    if (formed === 'failed') { status = 'model-failed-jacobian'; break; }
-    jacobianAtP = true;
-    iterations++;
+  // with the model's accuracy: forward differences, then central ones (see the module comment)
+  const refineBelow = input.modelAccuracy === null ? 0 : Math.sqrt(input.modelAccuracy);
+  stages: for (;;) {
+    outer: for (;;) {
+      if (cost === 0) { status = 'exact-fit'; break; }
+      if (iterations >= maxIterations) { status = 'max-iterations'; break; }
+      if (model.evaluations + jacobian.callsPerForm > maxEvaluations) { status = 'max-evaluations'; break; }
+      const formed = jacobian.form(p, r);
+      if (formed === 'cancelled') { status = 'cancelled'; break; }
+      if (formed === 'failed') { status = 'model-failed-jacobian'; break; }
+      jacobianAtP = true;
+      iterations++;
 
-    for (let j = 0; j < n; j++) {
-      let acc = 0, gj = 0;
-      for (let i = 0; i < m; i++) {
-        const v = jac[i * n + j];
-        acc += v * v;
-        gj += v * r[i];
-      }
-      colNorm[j] = Math.sqrt(acc);
-      g[j] = gj;
-    }
-    if (iterations === 1) {
-      for (let j = 0; j < n; j++) d[j] = scale ? 1 / scale[j] : colNorm[j] > 0 ? colNorm[j] : 1;
-      const xn = scaledNorm(d, p);
-      delta = xn > 0 ? INITIAL_RADIUS_FACTOR * xn : INITIAL_RADIUS_FACTOR;
-    } else if (!scale) {
-      for (let j = 0; j < n; j++) d[j] = Math.max(d[j], colNorm[j]);
-    }
-
-    // Active set: a parameter on a bound with the gradient pushing it out stays there.
-    free.length = 0;
-    for (let j = 0; j < n; j++) {
-      const pinned = (p[j] <= lower[j] && g[j] > 0) || (p[j] >= upper[j] && g[j] < 0);
-      if (!pinned) free.push(j);
-    }
-    // Gradient test on the free parameters: |cos| of the angle between r and each column, zero at a stationary point.
-    const rNorm = Math.sqrt(2 * cost);
-    let gMax = 0;
-    for (const j of free) if (colNorm[j] > 0) gMax = Math.max(gMax, Math.abs(g[j]) / (colNorm[j] * rNorm));
-    if (gMax <= gtol) { status = 'converged-gtol'; break; }
-
-    // SVD of the scaled free columns Ĵ = J_F·D_F⁻¹ and a = Uᵀr.
-    const k = free.length;
-    const jHat = new Float64Array(m * k);
-    for (let i = 0; i < m; i++) for (let c = 0; c < k; c++) jHat[i * k + c] = jac[i * n + free[c]] / d[free[c]];
-    const svd = jacobiSvd(jHat, m, k);
-    const a = new Float64Array(k);
-    for (let c = 0; c < k; c++) {
-      let acc = 0;
-      for (let i = 0; i < m; i++) acc += svd.u[i * k + c] * r[i];
-      a[c] = acc;
-    }
-    const z = new Float64Array(k);
-    let firstTrial = true;
-    let emptySteps = 0;
-
-    for (;;) {
-      const lambda = trustRegionStep(svd.s, a, svd.v, k, delta, z);
-      // Trial point: the step in the free parameters, clipped into the box.
-      pTrial.set(p);
-      let clipped = false;
-      for (let c = 0; c < k; c++) {
-        const j = free[c];
-        const want = p[j] + z[c] / d[j];
-        const got = Math.min(Math.max(want, lower[j]), upper[j]);
-        if (got !== want) clipped = true;
-        pTrial[j] = got;
-      }
-      for (let j = 0; j < n; j++) step[j] = pTrial[j] - p[j];
-      const stepNorm = scaledNorm(d, step);
-      if (iterations === 1 && firstTrial && stepNorm > 0) delta = Math.min(delta, stepNorm);
-      firstTrial = false;
-      // Predicted reduction of the linear model for the step actually taken.
-      let gs = 0;
-      for (let j = 0; j < n; j++) gs += g[j] * step[j];
-      let js2 = 0;
-      for (let i = 0; i < m; i++) {
-        let acc = 0;
-        for (let j = 0; j < n; j++) acc += jac[i * n + j] * step[j];
-        js[i] = acc;
-        js2 += acc * acc;
-      }
-      const predicted = -gs - 0.5 * js2;
-      const xNorm = scaledNorm(d, p);
-
-      if (!(stepNorm > 0) || !(predicted > 0)) {
-        // Nothing to try (the clipped step vanished or does not descend): shrink and retry.
-        rejectedSteps++;
-        emptySteps++;
-        delta = MAX_SHRINK * Math.min(delta, stepNorm > 0 ? stepNorm : delta);
-        if (delta <= xtol * xNorm) { status = 'converged-xtol'; break outer; }
-        if (!(delta > EPS * xNorm) || emptySteps >= MAX_EMPTY_STEPS) { status = 'precision-limit'; break outer; }
-        continue;
-      }
-      emptySteps = 0;
-      if (model.evaluations + 1 > maxEvaluations) { status = 'max-evaluations'; break outer; }
-      if (aborted()) { status = 'cancelled'; break outer; }
-      const ok = model.evaluate(pTrial, rTrial);
-      const trialCost = ok ? 0.5 * norm2(rTrial) ** 2 : Infinity;
-      const actualRel = ok ? 1 - trialCost / cost : -Infinity;
-      const predictedRel = predicted / cost;
-      const ratio = ok ? actualRel / predictedRel : -1;
-
-      // Radius update (Moré 1977).
-      if (ratio < POOR_RATIO) {
-        let shrink: number;
-        if (!ok) shrink = FAILED_SHRINK;
-        else if (actualRel >= 0) shrink = MAX_SHRINK;
-        else {
-          // minimiser of the quadratic through cost(0), cost'(0) = gs and cost(1) along the step
-          const curvature = trialCost - cost - gs;
-          shrink = curvature > 0 ? -gs / (2 * curvature) : MIN_SHRINK;
-          shrink = Math.min(Math.max(shrink, MIN_SHRINK), MAX_SHRINK);
+      for (let j = 0; j < n; j++) {
+        let acc = 0, gj = 0;
+        for (let i = 0; i < m; i++) {
+          const v = jac[i * n + j];
+          acc += v * v;
+          gj += v * r[i];
         }
-        delta = shrink * Math.min(delta, stepNorm);
-      } else if (ratio >= GOOD_RATIO || lambda === 0) {
-        delta = clipped ? Math.max(delta, 2 * stepNorm) : 2 * stepNorm;
+        colNorm[j] = Math.sqrt(acc);
+        g[j] = gj;
+      }
+      if (iterations === 1) {
+        for (let j = 0; j < n; j++) d[j] = scale ? 1 / scale[j] : colNorm[j] > 0 ? colNorm[j] : 1;
+        const xn = scaledNorm(d, p);
+        delta = xn > 0 ? INITIAL_RADIUS_FACTOR * xn : INITIAL_RADIUS_FACTOR;
+      } else if (!scale) {
+        for (let j = 0; j < n; j++) d[j] = Math.max(d[j], colNorm[j]);
       }
 
-      const accepted = ok && ratio >= ACCEPT_RATIO;
-      if (accepted) {
-        p.set(pTrial);
-        const tr = r; r = rTrial; rTrial = tr;
-        cost = trialCost;
-        jacobianAtP = false;
-      } else {
-        rejectedSteps++;
+      // Active set: a parameter on a bound with the gradient pushing it out stays there.
+      free.length = 0;
+      for (let j = 0; j < n; j++) {
+        const pinned = (p[j] <= lower[j] && g[j] > 0) || (p[j] >= upper[j] && g[j] < 0);
+        if (!pinned) free.push(j);
       }
+      // Gradient test on the free parameters: |cos| of the angle between r and each column, zero at a stationary point.
+      const rNorm = Math.sqrt(2 * cost);
+      let gMax = 0;
+      for (const j of free) if (colNorm[j] > 0) gMax = Math.max(gMax, Math.abs(g[j]) / (colNorm[j] * rNorm));
+      if (gMax <= gtol) { status = 'converged-gtol'; break; }
 
-      const xNormNow = scaledNorm(d, p);
-      if (ok && Math.abs(actualRel) <= ftol && predictedRel <= ftol && ratio <= 2) { status = 'converged-ftol'; break outer; }
-      if (delta <= xtol * xNormNow || !(delta > EPS * xNormNow)) {
-        // the radius collapsed: convergence, unless it collapsed because the model kept failing
-        status = !ok ? 'model-failed-steps' : delta <= xtol * xNormNow ? 'converged-xtol' : 'precision-limit';
-        break outer;
+      // SVD of the scaled free columns Ĵ = J_F·D_F⁻¹ and a = Uᵀr.
+      const k = free.length;
+      const jHat = new Float64Array(m * k);
+      for (let i = 0; i < m; i++) for (let c = 0; c < k; c++) jHat[i * k + c] = jac[i * n + free[c]] / d[free[c]];
+      const svd = jacobiSvd(jHat, m, k);
+      const a = new Float64Array(k);
+      for (let c = 0; c < k; c++) {
+        let acc = 0;
+        for (let i = 0; i < m; i++) acc += svd.u[i * k + c] * r[i];
+        a[c] = acc;
       }
-      if (cost === 0) { status = 'exact-fit'; break outer; }
-      if (ok && Math.abs(actualRel) <= EPS && predictedRel <= EPS && ratio <= 2) { status = 'precision-limit'; break outer; }
-      if (accepted) continue outer;
+      const z = new Float64Array(k);
+      let firstTrial = true;
+      let emptySteps = 0;
+
+      for (;;) {
+        const lambda = trustRegionStep(svd.s, a, svd.v, k, delta, z);
+        // Trial point: the step in the free parameters, clipped into the box.
+        pTrial.set(p);
+        let clipped = false;
+        for (let c = 0; c < k; c++) {
+          const j = free[c];
+          const want = p[j] + z[c] / d[j];
+          const got = Math.min(Math.max(want, lower[j]), upper[j]);
+          if (got !== want) clipped = true;
+          pTrial[j] = got;
+        }
+        for (let j = 0; j < n; j++) step[j] = pTrial[j] - p[j];
+        const stepNorm = scaledNorm(d, step);
+        if (iterations === 1 && firstTrial && stepNorm > 0) delta = Math.min(delta, stepNorm);
+        firstTrial = false;
+        // Predicted reduction of the linear model for the step actually taken.
+        let gs = 0;
+        for (let j = 0; j < n; j++) gs += g[j] * step[j];
+        let js2 = 0;
+        for (let i = 0; i < m; i++) {
+          let acc = 0;
+          for (let j = 0; j < n; j++) acc += jac[i * n + j] * step[j];
+          js[i] = acc;
+          js2 += acc * acc;
+        }
+        const predicted = -gs - 0.5 * js2;
+        const xNorm = scaledNorm(d, p);
+
+        if (!(stepNorm > 0) || !(predicted > 0)) {
+          // Nothing to try (the clipped step vanished or does not descend): shrink and retry.
+          rejectedSteps++;
+          emptySteps++;
+          delta = MAX_SHRINK * Math.min(delta, stepNorm > 0 ? stepNorm : delta);
+          if (delta <= xtol * xNorm) { status = 'converged-xtol'; break outer; }
+          if (!(delta > EPS * xNorm) || emptySteps >= MAX_EMPTY_STEPS) { status = 'precision-limit'; break outer; }
+          continue;
+        }
+        emptySteps = 0;
+        if (model.evaluations + 1 > maxEvaluations) { status = 'max-evaluations'; break outer; }
+        if (aborted()) { status = 'cancelled'; break outer; }
+        const ok = model.evaluate(pTrial, rTrial);
+        const trialCost = ok ? 0.5 * norm2(rTrial) ** 2 : Infinity;
+        const actualRel = ok ? 1 - trialCost / cost : -Infinity;
+        const predictedRel = predicted / cost;
+        const ratio = ok ? actualRel / predictedRel : -1;
+
+        // Radius update (Moré 1977).
+        if (ratio < POOR_RATIO) {
+          let shrink: number;
+          if (!ok) shrink = FAILED_SHRINK;
+          else if (actualRel >= 0) shrink = MAX_SHRINK;
+          else {
+            // minimiser of the quadratic through cost(0), cost'(0) = gs and cost(1) along the step
+            const curvature = trialCost - cost - gs;
+            shrink = curvature > 0 ? -gs / (2 * curvature) : MIN_SHRINK;
+            shrink = Math.min(Math.max(shrink, MIN_SHRINK), MAX_SHRINK);
+          }
+          delta = shrink * Math.min(delta, stepNorm);
+        } else if (ratio >= GOOD_RATIO || lambda === 0) {
+          delta = clipped ? Math.max(delta, 2 * stepNorm) : 2 * stepNorm;
+        }
+
+        const accepted = ok && ratio >= ACCEPT_RATIO;
+        if (accepted) {
+          p.set(pTrial);
+          const tr = r; r = rTrial; rTrial = tr;
+          cost = trialCost;
+          jacobianAtP = false;
+        } else {
+          rejectedSteps++;
+        }
+
+        const xNormNow = scaledNorm(d, p);
+        if (ok && Math.abs(actualRel) <= ftol && predictedRel <= ftol && ratio <= 2) { status = 'converged-ftol'; break outer; }
+        if (delta <= xtol * xNormNow || !(delta > EPS * xNormNow)) {
+          // the radius collapsed: convergence, unless it collapsed because the model kept failing
+          status = !ok ? 'model-failed-steps' : delta <= xtol * xNormNow ? 'converged-xtol' : 'precision-limit';
+          break outer;
+        }
+        if (cost === 0) { status = 'exact-fit'; break outer; }
+        if (ok && Math.abs(actualRel) <= EPS && predictedRel <= EPS && ratio <= 2) { status = 'precision-limit'; break outer; }
+        if (accepted) {
+          // a step shorter than the forward differences' own error is steered by that error: central from here
+          if (!jacobian.central && stepNorm < refineBelow * xNormNow) jacobian.refine?.();
+          continue outer;
+        }
+      }
     }
+    // converged on forward differences: go on with central ones, from a radius that allows a step again
+    if (status !== null && CONVERGED_HERE.has(status) && jacobian.refine?.()) {
+      status = null;
+      jacobianAtP = false;
+      delta = Math.max(delta, INITIAL_RADIUS_FACTOR * scaledNorm(d, p));
+      continue stages;
+    }
+    break;
   }
   return { status: status as FitStatus, r, cost, iterations, rejectedSteps, jacobianAtP };
 }

@@ -45,6 +45,12 @@ export interface MapProblem {
   readonly upper?: ArrayLike<number>;
   /** What messages call each parameter. */
   readonly names?: readonly string[];
+  /**
+   * With the option `modelAccuracy`: a bound on each prediction's absolute error, given the
+   * predictions f (m values into out), for the digits (`residualBounds`). Default:
+   * modelAccuracy · max |f_i|.
+   */
+  readonly predictionError?: (f: Float64Array, out: Float64Array) => void;
 }
 
 /** The two-sided 95% quantile of the standard normal distribution. */
@@ -138,6 +144,25 @@ export interface MapResult extends FitResult {
   readonly hessian: Float64Array | null;
 }
 
+/**
+ * Bounds on the errors of the residuals R (m data rows, then the prior rows) that the model's
+ * errors make, given the predictions f there: a prediction off by δf_i moves
+ * R_i = (f_i − y_i)/σ_i by at most δf_i·(1 + proportional·|R_i|)/σ_i (to first order:
+ * ∂R_i/∂f_i = (1 − R_i·proportional·(proportional·f_i/σ_i))/σ_i, and |proportional·f_i| ≤ σ_i);
+ * a prior row is computed from θ alone, with no model error.
+ */
+export function residualBounds(problem: MapProblem, f: Float64Array, r: ArrayLike<number>, accuracy: number, out: Float64Array): void {
+  const m = f.length;
+  const df = new Float64Array(m);
+  if (problem.predictionError) problem.predictionError(f, df);
+  else df.fill(accuracy * f.reduce((a, v) => Math.max(a, Math.abs(v)), 0));
+  for (let i = 0; i < m; i++) {
+    const s = sigmaOf(problem.additive[i], problem.proportional, f[i]);
+    out[i] = (df[i] * (1 + problem.proportional * Math.abs(r[i]))) / s;
+  }
+  for (let i = m; i < out.length; i++) out[i] = 0;
+}
+
 /** Relative step of the curvature's differences: log P moves by 0.1%, P by 0.1% of its size. */
 const CURVATURE_STEP = 1e-3;
 
@@ -178,10 +203,23 @@ export function fitMap(problem: MapProblem, options: LeastSquaresOptions = {}): 
     for (let k = 0; k < n; k++) theta[k] = phi[k] + offset[k];
     return residuals(theta, out);
   };
+  // with the model's accuracy: the digits of θ, log P counted as relative (see `residualBounds`)
+  let boundCalls = 0;
+  const accuracy = options.modelAccuracy;
+  const digitsOptions: LeastSquaresOptions = accuracy === undefined ? {} : {
+    logParameters: logScale,
+    residualError: (r, e, phi) => {
+      boundCalls++;
+      for (let k = 0; k < n; k++) theta[k] = phi[k] + offset[k];
+      toNatural(theta, p);
+      if (!problem.predict(p, f)) { e.fill(Infinity); return; }
+      residualBounds(problem, f, r, accuracy, e);
+    },
+  };
   const fit = fitLeastSquares({
     residuals: shifted, m: m + priorRows, p0: theta0.map((t, k) => t - offset[k]), lower, upper, names: problem.names as string[] | undefined,
     scale: theta0.map((t, k) => (logScale[k] ? 1 : Math.abs(t) || 1)),
-  }, options);
+  }, { ...options, ...digitsOptions });
 
   for (let k = 0; k < n; k++) theta[k] = fit.p[k] + offset[k];
   const natural = new Float64Array(n);
@@ -189,7 +227,7 @@ export function fitMap(problem: MapProblem, options: LeastSquaresOptions = {}): 
   const warnings = fit.warnings.filter((w) => w.kind !== 'no-degrees-of-freedom');
   const none = { objective: null, dataObjective: null, priorObjective: null, hessian: null, workingSD: null };
   if (!fit.residuals) {
-    return { ...fit, ...none, p: natural, logScale, warnings, dof: m - n, residualSD: null, standardErrors: null, ci95: null, covariance: null, correlation: null };
+    return { ...fit, ...none, p: natural, logScale, warnings, dof: m - n, evaluations: fit.evaluations + boundCalls, residualSD: null, standardErrors: null, ci95: null, covariance: null, correlation: null };
   }
   // predictions at the estimate: the residuals unweighted
   toNatural(theta, p);
@@ -228,7 +266,7 @@ export function fitMap(problem: MapProblem, options: LeastSquaresOptions = {}): 
     })
     : null;
   return {
-    ...fit, p: natural, logScale, warnings, dof: m - n, evaluations: fit.evaluations + curvatureCalls,
+    ...fit, p: natural, logScale, warnings, dof: m - n, evaluations: fit.evaluations + boundCalls + curvatureCalls,
     residuals: predicted ? predicted.map((v, i) => v - problem.y[i]) : null,
     residualSD: null, tQuantile95: null,
     objective: parts ? parts.data + parts.prior : null, dataObjective: parts?.data ?? null, priorObjective: parts?.prior ?? null,
