@@ -48,6 +48,8 @@ export interface IntegrateOptions extends SolverOptions {
   readonly method?: Method;
   /** The step of the fixed-step methods (same unit as t). */
   readonly step?: number;
+  /** The formula the stiff method runs, whatever the problem; default: chosen by `stiff-choice.ts`. */
+  readonly stiffFormula?: StiffFormula;
 }
 
 export interface IntegrateResult {
@@ -64,8 +66,8 @@ export interface IntegrateResult {
   /** The method that made the last step ('dopri5', 'adams' or 'stiff' for auto). */
   readonly method: MethodUsed;
   /**
-   * The formula the stiff method ran ('rodas', or 'ndf' for a stiff run at a tolerance
-   * tighter than 1e-6: see `stiff-choice.ts`), or null when it did not run.
+   * The formula the stiff method ran ('ndf' for a run that is stiff over its span, else
+   * 'rodas': see `stiff-choice.ts`), or null when it did not run.
    */
   readonly stiffFormula: StiffFormula | null;
   /** Time at which auto switched to the stiff method, or null. */

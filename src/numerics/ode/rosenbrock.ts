@@ -20,7 +20,7 @@
  * Order reduction (measured): on y' = -1e4 (y - cos t) the local error of a step grows only
  * like h^1.5…h^2 for 3 < h|λ| < 1e3, and the embedded estimate u_6 is 5–10 times that, so
  * at rtol 1e-8 the steps stay near h|λ| ≈ 14 over the whole run. The stiff method therefore
- * hands stiff runs at tolerances tighter than 1e-6 to the NDF (`stiff-choice.ts`, `ndf.ts`).
+ * hands runs that are stiff over their span to the NDF (`stiff-choice.ts`, `ndf.ts`).
  */
 import {
   type OdeContext, type StepOutcome, type Stepper,
