@@ -145,6 +145,11 @@ export class RosenbrockStepper implements Stepper {
   /** `jac` already holds J at the starting (t, y), formed (and counted) by the caller. */
   private givenJacobian = false;
 
+  /** J as formed at the start of the last step (row-major, n×n; read only). */
+  get lastJacobian(): Float64Array {
+    return this.jac;
+  }
+
   constructor(private readonly ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number,
     private readonly jacobian?: (t: number, y: Float64Array, jac: Float64Array) => void,
     private readonly autonomous = false, private readonly denseControl = true, start?: StiffStart) {

@@ -11,6 +11,9 @@
  * the steps. Until the NDF's Newton test was Shampine & Reichelt's (`ndf.ts`) it could not
  * run Robertson's problem at these tolerances, and RODAS ran there.
  *
+ * A run RODAS starts is handed over to the NDF when it turns stiff on the way
+ * (`stiff-handover.ts`), by the same rule.
+ *
  * RODAS stays where `denseErrorControl` is false: that option asks for RODAS's step-end-only
  * control, which the NDF (whose dense output is its own polynomial) has no use for.
  */
@@ -18,6 +21,7 @@ import { type OdeContext, type Stepper, failure, nonFiniteStatus } from './contr
 import { type StiffStart, formJacobian, spectralRadius } from './jacobian.ts';
 import { NdfStepper } from './ndf.ts';
 import { RosenbrockStepper } from './rosenbrock.ts';
+import { StiffHandover } from './stiff-handover.ts';
 import type { Jacobian } from './types.ts';
 
 /**
@@ -37,6 +41,11 @@ export interface StiffOptions {
   readonly stiffFormula?: StiffFormula;
 }
 
+/** The formula a stiff stepper ran last: 'ndf' once RODAS has handed a run over to it. */
+export function formulaNow(stepper: Stepper, formula: StiffFormula): StiffFormula {
+  return stepper instanceof StiffHandover && stepper.handedOverAt !== null ? 'ndf' : formula;
+}
+
 /**
  * A stepper for the stiff method from (t0, y0) towards tEnd, and the formula it runs.
  * `knownStiff`: `auto` found the problem stiff, so the NDF needs no check of ρ(J). When
@@ -47,6 +56,11 @@ export function stiffStepper(ctx: OdeContext, t0: number, y0: ArrayLike<number>,
   const rodas = (start?: StiffStart) => ({
     stepper: new RosenbrockStepper(ctx, t0, y0, firstStep, options.jacobian, options.autonomous ?? false,
       options.denseErrorControl ?? true, start),
+    formula: 'rodas' as const,
+  });
+  /** RODAS, handing over to the NDF if the run turns stiff (`stiff-handover.ts`). */
+  const rodasFirst = (start: StiffStart) => ({
+    stepper: new StiffHandover(ctx, rodas(start).stepper, STIFF_SPAN, options.jacobian),
     formula: 'rodas' as const,
   });
   const ndf = (start?: StiffStart) => ({ stepper: new NdfStepper(ctx, t0, y0, firstStep, options.jacobian, start), formula: 'ndf' as const });
@@ -62,5 +76,5 @@ export function stiffStepper(ctx: OdeContext, t0: number, y0: ArrayLike<number>,
   }
   // Where J is not finite, RODAS's first step reports it as it always has.
   if (formJacobian(ctx, t0, y, start.f0, start.jac, new Float64Array(n), new Float64Array(n), options.jacobian)) return rodas();
-  return spectralRadius(start.jac, n) * (tEnd - t0) >= STIFF_SPAN ? ndf(start) : rodas(start);
+  return spectralRadius(start.jac, n) * (tEnd - t0) >= STIFF_SPAN ? ndf(start) : rodasFirst(start);
 }
