@@ -14,7 +14,7 @@ import { AdamsStepper } from './adams.ts';
 import { Dopri5Stepper } from './dopri5.ts';
 import { Dp853Stepper } from './dp853.ts';
 import { EmbeddedRkStepper } from './embedded-rk.ts';
-import { type StiffFormula, stiffStepper } from './stiff-choice.ts';
+import { type StiffFormula, formulaNow, stiffStepper } from './stiff-choice.ts';
 import { FixedStepper } from './fixed-step.ts';
 import { EULER, HEUN, RK4 } from './explicit-rk.ts';
 import {
@@ -48,6 +48,8 @@ export interface IntegrateOptions extends SolverOptions {
   readonly method?: Method;
   /** The step of the fixed-step methods (same unit as t). */
   readonly step?: number;
+  /** The formula the stiff method runs, whatever the problem; default: chosen by `stiff-choice.ts`. */
+  readonly stiffFormula?: StiffFormula;
 }
 
 export interface IntegrateResult {
@@ -64,8 +66,9 @@ export interface IntegrateResult {
   /** The method that made the last step ('dopri5', 'adams' or 'stiff' for auto). */
   readonly method: MethodUsed;
   /**
-   * The formula the stiff method ran ('rodas', or 'ndf' for a stiff run at a tolerance
-   * tighter than 1e-6: see `stiff-choice.ts`), or null when it did not run.
+   * The formula the stiff method ran last ('ndf' for a run that is stiff over its span, or
+   * once RODAS handed it over on the way; else 'rodas': see `stiff-choice.ts`), or null when
+   * it did not run.
    */
   readonly stiffFormula: StiffFormula | null;
   /** Time at which auto switched to the stiff method, or null. */
@@ -203,7 +206,7 @@ function run(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number, options: Int
 
   const finish = (status: Status, at: Where, detail?: MessageDetail): IntegrateResult => new Result(
     status, at, stepper.t, status === Status.Success ? at.y : Float64Array.from(stepper.y), segments, counters, used,
-    stiffFormula, stiffnessDetected, Number.isFinite(stepper.h) ? stepper.h : resolved.firstStep ?? t1 - t0, detail);
+    stiffFormula && formulaNow(stepper, stiffFormula), stiffnessDetected, Number.isFinite(stepper.h) ? stepper.h : resolved.firstStep ?? t1 - t0, detail);
 
   while (stepper.t < t1) {
     const outcome = stepper.step(t1);

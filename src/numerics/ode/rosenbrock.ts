@@ -20,7 +20,7 @@
  * Order reduction (measured): on y' = -1e4 (y - cos t) the local error of a step grows only
  * like h^1.5…h^2 for 3 < h|λ| < 1e3, and the embedded estimate u_6 is 5–10 times that, so
  * at rtol 1e-8 the steps stay near h|λ| ≈ 14 over the whole run. The stiff method therefore
- * hands stiff runs at tolerances tighter than 1e-6 to the NDF (`stiff-choice.ts`, `ndf.ts`).
+ * hands runs that are stiff over their span to the NDF (`stiff-choice.ts`, `ndf.ts`).
  */
 import {
   type OdeContext, type StepOutcome, type Stepper,
@@ -144,6 +144,11 @@ export class RosenbrockStepper implements Stepper {
   private haveF0 = false;
   /** `jac` already holds J at the starting (t, y), formed (and counted) by the caller. */
   private givenJacobian = false;
+
+  /** J as formed at the start of the last step (row-major, n×n; read only). */
+  get lastJacobian(): Float64Array {
+    return this.jac;
+  }
 
   constructor(private readonly ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number,
     private readonly jacobian?: (t: number, y: Float64Array, jac: Float64Array) => void,
