@@ -4,15 +4,23 @@
  * never freeze the page. It only relays: every computation is the engine's.
  *
  * The session defers its long cells (a Monte Carlo uncertainty cell): each edit is answered
- * with every other cell, then the long ones are computed in slices of SLICE_MS, each posted
- * behind a message to itself, so an edit that arrives meanwhile is applied between two slices
- * (and, when it reaches their inputs, starts them again). Progress goes out every
+ * with every other cell, then, once no edit has come for SETTLE_MS (a slider being dragged
+ * sends one every frame, and each would start them again), the long ones are computed in
+ * slices of SLICE_MS, each posted behind a message to itself, so an edit that arrives
+ * meanwhile is applied between two slices (and, when it reaches their inputs, starts them
+ * again). A batch of edits is applied with one evaluation. Progress goes out every
  * PROGRESS_EVERY_MS at most; a finished cell goes out as a `late` report.
  */
 import { openStudy, residualBuffers, residualColumns, type CellReport, type FromWorker, type StudySession, type ToWorker } from '../src/index.ts';
 
 /** The longest slice of deferred work, in ms: an edit waits at most this long (plus one sample) before it is applied. */
-const SLICE_MS = 5;
+const SLICE_MS = 2;
+/**
+ * The quiet time after an edit before deferred work starts, in ms: edits closer together than
+ * this (a drag, held arrow keys, typing) find the worker idle, as work started between them
+ * would be thrown away by the next; the long cell's result comes this much later.
+ */
+const SETTLE_MS = 100;
 /** The least time between two progress messages, in ms. */
 const PROGRESS_EVERY_MS = 250;
 
@@ -50,16 +58,23 @@ let received = 0;
 const slices = new MessageChannel();
 let scheduled = false;
 let lastProgress = 0;
+let settle: ReturnType<typeof setTimeout> | undefined;
 
-function schedule(): void {
-  if (scheduled || !session?.pending().length) return;
+/** The next slice, at once or (after an edit) once no edit has come for SETTLE_MS. */
+function schedule(afterEdit = false): void {
+  if (afterEdit) {
+    clearTimeout(settle);
+    settle = setTimeout(() => { settle = undefined; schedule(); }, SETTLE_MS);
+    return;
+  }
+  if (scheduled || settle !== undefined || !session?.pending().length) return;
   scheduled = true;
   slices.port2.postMessage(0);
 }
 
 slices.port1.onmessage = () => {
   scheduled = false;
-  if (!session) return;
+  if (!session || settle !== undefined) return;
   const started = performance.now();
   const step = session.work(started + SLICE_MS);
   if (!step) return;
@@ -96,18 +111,8 @@ self.onmessage = (event: MessageEvent<ToWorker>) => {
     post({ type: 'refused', seq: msg.seq, error: { message: 'no study is open', path: '' } });
     return;
   }
-  const rerun = new Set<string>();
-  const changed = new Set<string>();
-  for (const edit of msg.edits) {
-    const r = session.apply(edit);
-    if (!r.ok) {
-      post({ type: 'refused', seq: msg.seq, error: r.error });
-      schedule();
-      return;
-    }
-    r.rerun.forEach((id) => rerun.add(id));
-    r.changed.forEach((id) => changed.add(id));
-  }
-  post({ type: 'report', seq: msg.seq, report: session.report(), rerun: [...rerun], changed: [...changed], ms: performance.now() - started });
-  schedule();
+  const r = session.applyAll(msg.edits);
+  if (!r.ok) post({ type: 'refused', seq: msg.seq, error: r.error });
+  else post({ type: 'report', seq: msg.seq, report: r.report, rerun: r.rerun, changed: r.changed, ms: performance.now() - started });
+  schedule(true);
 };

@@ -2,7 +2,8 @@
  * A cell whose figures are not current: the engine computes it after the other cells (a Monte
  * Carlo) or after a cell it reads, so its previous figures stay, in grey with faded charts
  * (`--stale-color` and `--stale-opacity` reach into the cell element's shadow root), under a
- * line that says so and how far the work is: "1,200 of 2,000 samples". Renders only.
+ * line that says so and how far the work is: "1,200 of 2,000 samples" ("model runs" when the
+ * samples of a band around a run are counted too). Renders only.
  */
 import { html, css } from 'lit';
 import type { Progress } from '../src/index.ts';
@@ -21,7 +22,7 @@ export const pendingStyles = css`
 export function pendingLine(id: string, progress: Progress | undefined, name: (id: string) => string) {
   const own = progress?.cell === id ? progress : undefined;
   const unit = progress?.unit ?? 'samples';
-  const label = `${unit[0].toUpperCase()}${unit.slice(1)} drawn`;
+  const label = unit === 'samples' ? 'Samples drawn' : `${unit[0].toUpperCase()}${unit.slice(1)} done`;
   const count = (p: Progress) => `${p.done.toLocaleString('en-US')} of ${p.total.toLocaleString('en-US')} ${p.unit}`;
   return html`<p class="pending-line">
     ${own ? html`<progress aria-label=${label} max=${own.total} .value=${own.done}></progress><span class="count">${count(own)}</span>`

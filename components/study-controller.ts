@@ -1,6 +1,7 @@
 import type { ReactiveController, ReactiveControllerHost } from 'lit';
 import { applyEdit, sameContent, type Edit, type Progress, type Report, type Study } from '../src/index.ts';
 import { EngineClient, type EngineAnswer } from './engine-client.ts';
+import { keepPendingReports } from './pending-reports.ts';
 import { createAutosaver, type Autosaver, type AutosaveState } from './autosaver.ts';
 
 /** Consecutive edits with the same merge key within this time are one undo step (a drag, typing in a field). */
@@ -61,7 +62,7 @@ export class StudyController implements ReactiveController {
     host.addController(this);
     const events = {
       answer: (a: EngineAnswer) => {
-        this.report = a.report;
+        this.report = keepPendingReports(this.report, this.pending, a.report, a.pending ?? []);
         this.rerun = a.rerun;
         this.changed = a.changed;
         this.pending = a.pending ?? [];

@@ -12,6 +12,7 @@ import { focusFirstField } from './focus-first.ts';
 import { keepClear } from './expr-editor/keep-clear.ts';
 import { readyUnitsInBackground } from './ready-units.ts';
 import { ref } from 'lit/directives/ref.js';
+import { guard } from 'lit/directives/guard.js';
 import { pendingLine, pendingStyles } from './pending-line.ts';
 
 /**
@@ -194,7 +195,8 @@ export class StudyView extends LitElement {
     const failed = r && !r.ok;
     const idle = r?.ok && r.computed === false;
     const fresh = c.changed.includes(cell.id);
-    // still computing (a Monte Carlo, or a cell reading one): its previous figures, dimmed
+    // still computing (a Monte Carlo, or a cell reading one): its previous figures, dimmed, and
+    // drawn again only when its cell or its report changes (the controller keeps an unchanged one)
     const pending = c.pending.includes(cell.id);
     return html`<article data-cell=${cell.id} class="${failed ? 'failed' : ''} ${fresh ? 'fresh' : ''} ${pending ? 'pending' : ''}" aria-label="${cell.title || cell.id} (${info.label})"
         @cell-edit=${(e: CustomEvent<CellEditDetail>) => { e.stopPropagation(); c.edit({ type: 'replace', cell: e.detail.cell }, e.detail.mergeKey); }}>
@@ -210,7 +212,7 @@ export class StudyView extends LitElement {
         </span>
       </header>
       ${pending ? pendingLine(cell.id, c.progress, (id) => { const t = c.study?.cells.find((x) => x.id === id)?.title; return t ? `"${t}"` : `cell ${id}`; }) : nothing}
-      ${info.render(cell, r, report, c.study)}
+      ${pending ? guard([cell, r], () => info.render(cell, r, report, c.study)) : info.render(cell, r, report, c.study)}
     </article>`;
   }
 

@@ -17,7 +17,7 @@ import { uncertainInputs, drawerOf, workingOf, inputWords } from './uncertainty-
 import { MonteCarloRun, linear } from './uncertainty-methods.ts';
 import { runToEnd, type SlicedRun } from '../engine/sliced.ts';
 import { RESULT_ENDINGS, monteCarloOutcome, linearOutcome } from './uncertainty-report.ts';
-import { bandRuns, sampleBands } from './uncertainty-band.ts';
+import { bandRuns, BandRun } from './uncertainty-band.ts';
 import { shadowedInputs } from './uncertainty-shadows.ts';
 
 /** Samples drawn when `samples` is not given, and the seed when `seed` is not. */
@@ -117,16 +117,33 @@ function prepareUncertainty(cell: UncertaintyCell, at: string, of: readonly stri
   if (typeof drawer === 'string') fail(`${at}.of`, drawer, 'numeric');
   const draw = drawer as Exclude<typeof drawer, string>;
   const mc = new MonteCarloRun(prepared, draw, inputs.length, samples, seed);
+  // the bands from the same draws, after the samples, in slices too; none in a what-if (a run nested in another cell's)
+  const banded = bands.length > 0 && ctx.mode === 'run';
+  let outcome: Outcome<Out> | undefined;
+  let band: BandRun | undefined;
   return {
-    get done() { return mc.done; },
-    total: samples,
-    unit: 'samples',
-    step: (until) => mc.step(until),
-    finish: () => guarded(() => {
-      const outcome = warned(monteCarloOutcome(of, mc.result(), words, present, samples, seed, at));
-      // the bands from the same draws, in one go after the samples; skipped in a what-if (a run nested in another cell's)
-      if (!bands.length || ctx.mode !== 'run' || !outcome.ok) return outcome;
-      return { ...outcome, output: { ...outcome.output, bands: sampleBands(bands, ctx, inputs, draw, samples, seed) } };
-    }),
+    get done() { return mc.done + (band?.done ?? 0); },
+    // one unit per sample and per sample of each run's band (its exact count known once it starts)
+    get total() { return samples + (band ? band.total : banded ? samples * bands.length : 0); },
+    unit: banded ? 'model runs' : 'samples',
+    step: (until) => {
+      const drawing = mc.done < samples;
+      if (!mc.step(until)) return false;
+      outcome ??= guarded(() => warned(monteCarloOutcome(of, mc.result(), words, present, samples, seed, at)));
+      if (!banded || !outcome.ok) return true;
+      try {
+        band ??= new BandRun(bands, ctx, inputs, draw, samples, seed);
+        // a slice that drew the last samples ends there when its time is up (the band in the next)
+        return !(drawing && performance.now() > until) && band.step(until);
+      } catch (err) {
+        if (!(err instanceof FieldError)) throw err;
+        outcome = { ok: false, error: err.error };
+        return true;
+      }
+    },
+    finish: () => {
+      if (!band || !outcome!.ok) return outcome!;
+      return { ...outcome!, output: { ...outcome!.output, bands: band.result() } };
+    },
   };
 }

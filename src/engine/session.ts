@@ -7,23 +7,23 @@
  * carries its error, and an unexpected failure inside a cell is reported on that cell.
  */
 import type { Cell, Study } from '../study/types.ts';
-import { readStudy, checkCell, type Problem } from '../study/validate.ts';
-import { applyEdit, type Edit } from '../study/edit.ts';
+import { readStudy, type Problem } from '../study/validate.ts';
+import type { Edit } from '../study/edit.ts';
+import { SessionDocument } from './session-doc.ts';
 import type { Binding, CellError, GraphNode, MessagePart, Outcome, RunContext } from './node.ts';
-import { buildCellNodes, buildContext, resolvePath, CELL_PATH } from '../cells/index.ts';
+import { resolvePath } from '../cells/index.ts';
 import { buildGraph, upstreamOf, type Graph } from './graph.ts';
 import { prepareWhatIf, type Replacement, type WhatIfPrepared } from './what-if.ts';
 import { unitHints, withUnitHint } from './hidden-units.ts';
-import { type CellReport, type Report, mergeOutput } from './report.ts';
-import { cautionsFor } from '../study/cautions.ts';
-import { glanceOf } from '../output/glance.ts';
-import { cellTex, studySymbols } from '../output/sheet-tex.ts';
+import type { Report } from './report.ts';
 import { studyUnits } from './study-units.ts';
 import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
 import { metered } from '../numerics/work-meter.ts';
 import { DEFAULT_CELL_WORK, stoppedError, type WorkLimits } from './budget.ts';
 import { DeferredWork, type DeferHost } from './deferred.ts';
-import { bound, bounded, deepEqual, internalError, unavailable, waitingOn, type Slot } from './session-parts.ts';
+import { bound, internalError, unavailable, waitingOn, type Slot } from './session-parts.ts';
+import { CellNodes } from './session-nodes.ts';
+import { ReportCache } from './session-report.ts';
 import type { Progress } from './sliced.ts';
 
 
@@ -64,21 +64,14 @@ export function openStudy(input: unknown, options: SessionOptions = {}): OpenRes
 }
 
 export class StudySession {
-  private cells: Cell[];
-  private title: string;
-  private description?: string;
-  private author?: string;
-  private readonly cellProblems = new Map<string, readonly Problem[]>();
+  private readonly doc: SessionDocument;
   private readonly notes: readonly string[];
-  private readonly built = new Map<string, { sig: string; nodes: GraphNode[] }>();
+  private readonly built = new CellNodes();
   private graph!: Graph;
   private readonly outcomes = new Map<string, Outcome>();
   private readonly staticSigs = new Map<string, string>();
   private readonly slots = new Map<string, Slot>();
-  /** By cell: the error messages its report was last written with (see hintText). */
-  private readonly hintTexts = new Map<string, string>();
-  /** Each cell's last report, with the position it was made at. */
-  private readonly reports = new Map<string, { index: number; report: CellReport }>();
+  private readonly reports = new ReportCache();
   private lastReport!: Report;
   /** The units the study's inputs are written in, gathered once per evaluation. */
   private units!: StudyUnits;
@@ -90,11 +83,7 @@ export class StudySession {
 
   constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>, notes: readonly string[], private readonly mode: 'run' | 'check', private readonly limits: SessionOptions = {}) {
     if (limits.defer && mode === 'run') this.deferred = new DeferredWork();
-    this.cells = [...study.cells];
-    this.title = study.title;
-    this.description = study.description;
-    this.author = study.author;
-    for (const [id, p] of problems) this.cellProblems.set(id, p);
+    this.doc = new SessionDocument(study, problems);
     this.notes = notes;
     this.evaluate();
   }
@@ -106,89 +95,28 @@ export class StudySession {
 
   /** The study as it now stands, in the contract's format. */
   document(): Study {
-    return {
-      format: 'ratebook-study',
-      version: 1,
-      title: this.title,
-      ...(this.description !== undefined ? { description: this.description } : {}),
-      ...(this.author !== undefined ? { author: this.author } : {}),
-      cells: this.cells.map((c) => structuredClone(c)),
-    };
+    return this.doc.study(true);
   }
 
   /** Applies one edit. A refused edit changes nothing. Cost: the re-run cells plus O(nodes). */
   apply(edit: Edit): EditResult {
-    const problem = this.applyToCells(edit);
-    if (problem) return { ok: false, error: problem };
+    return this.applyAll([edit]);
+  }
+
+  /**
+   * Applies edits in order, then evaluates once: a batch of a slider's positions runs only the
+   * last value. At a refused edit it stops: the edits before it stay applied (and evaluated),
+   * and its problem is returned. Cost: one evaluation.
+   */
+  applyAll(edits: readonly Edit[]): EditResult {
+    for (let i = 0; i < edits.length; i++) {
+      const problem = this.doc.apply(edits[i]);
+      if (!problem) continue;
+      if (i > 0) this.evaluate();
+      return { ok: false, error: problem };
+    }
     const { rerun, changed } = this.evaluate();
     return { ok: true, rerun, changed, report: this.lastReport };
-  }
-
-  private applyToCells(edit: Edit): Problem | undefined {
-    const out = applyEdit({
-      format: 'ratebook-study', version: 1, title: this.title,
-      ...(this.description !== undefined ? { description: this.description } : {}),
-      ...(this.author !== undefined ? { author: this.author } : {}),
-      cells: this.cells,
-    }, edit);
-    if (!out.ok) return out.error;
-    this.positions = undefined;
-    this.cells = out.study.cells;
-    this.title = out.study.title;
-    this.description = out.study.description;
-    this.author = out.study.author;
-    // a whole document brings the problems of all its cells; the cells it leaves unchanged
-    // keep their nodes, so only what differs re-runs
-    if (out.problems) {
-      this.cellProblems.clear();
-      for (const [id, p] of out.problems) this.cellProblems.set(id, p);
-    }
-    const live = new Set(this.cells.map((c) => c.id));
-    for (const id of [...this.cellProblems.keys()]) if (!live.has(id)) this.cellProblems.delete(id);
-    if (out.written) {
-      const problems = checkCell(out.written as unknown as Record<string, unknown>, `cells[${this.indexOf(out.written.id)}]`);
-      if (problems.length) this.cellProblems.set(out.written.id, problems);
-      else this.cellProblems.delete(out.written.id);
-    }
-    return undefined;
-  }
-
-  private positions?: Map<string, number>;
-
-  /** A cell's position; -1 when absent. Cost: O(1) after the first call since the last edit. */
-  private indexOf(id: string): number {
-    this.positions ??= new Map(this.cells.map((c, i) => [c.id, i]));
-    return this.positions.get(id) ?? -1;
-  }
-
-  /** Nodes of every cell, rebuilt only for cells whose text changed. */
-  private nodes(rebuilt: Set<string>): GraphNode[] {
-    const all: GraphNode[] = [];
-    const live = new Set<string>();
-    this.cells.forEach((cell) => {
-      live.add(cell.id);
-      const sig = `${JSON.stringify(cell)}|${buildContext(cell, this.cells)}`;
-      let entry = this.built.get(cell.id);
-      if (!entry || entry.sig !== sig) {
-        entry = { sig, nodes: this.withShapeProblems(cell, buildCellNodes(cell, this.cells)) };
-        this.built.set(cell.id, entry);
-        rebuilt.add(cell.id);
-      }
-      all.push(...entry.nodes);
-    });
-    for (const id of [...this.built.keys()]) if (!live.has(id)) this.built.delete(id);
-    return all;
-  }
-
-  /** Field problems found by the document check fail the cell's first node, on their path. */
-  private withShapeProblems(cell: Cell, nodes: GraphNode[]): GraphNode[] {
-    const problems = this.cellProblems.get(cell.id);
-    if (!problems?.length) return nodes;
-    const errors: CellError[] = problems.map((p) => ({ kind: 'shape', message: p.message, path: p.path.replace(/^cells\[\d+\]/, CELL_PATH) }));
-    if (nodes.length === 0) {
-      return [{ key: `${cell.id}/shape`, cell: cell.id, defines: [], uses: [], allowsTime: false, signature: JSON.stringify(errors), problems: errors, run: () => ({ ok: true, bindings: new Map(), output: {} }) }];
-    }
-    return nodes.map((n, i) => (i === 0 || n.sharesShapeProblems ? { ...n, problems: [...errors, ...n.problems], signature: `${n.signature}|${JSON.stringify(errors)}` } : n));
   }
 
   /**
@@ -198,7 +126,7 @@ export class StudySession {
   pending(): string[] {
     const d = this.deferred;
     if (!d?.size) return [];
-    return this.cells.filter((c) => (this.built.get(c.id)?.nodes ?? []).some((n) => d.has(n.key))).map((c) => c.id);
+    return this.doc.cells.filter((c) => this.built.of(c.id).some((n) => d.has(n.key))).map((c) => c.id);
   }
 
   /** How far the pending cell being computed is; undefined when none has started. */
@@ -261,16 +189,16 @@ export class StudySession {
     // no longer has, changes its report
     const rebuilt = new Set<string>();
     this.deadline = this.limits.timeLimit === undefined ? Infinity : performance.now() + this.limits.timeLimit * 1000;
-    const list = this.nodes(rebuilt);
-    this.units = studyUnits(this.cells);
+    const list = this.built.all(this.doc.cells, this.doc.problems, rebuilt);
+    this.units = studyUnits(this.doc.cells);
     // a parameter is shown in the study's units of its dimension: it runs again when they change
-    const kinds = new Map(this.cells.map((c) => [c.id, c.kind]));
+    const kinds = new Map(this.doc.cells.map((c) => [c.id, c.kind]));
     const unitsKey = (node: GraphNode, o: Outcome | undefined) => {
       if (kinds.get(node.cell) !== 'parameters') return '';
       const b = o?.bindings?.values().next().value;
       return b?.kind === 'value' ? `|units=${studyUnitsKey(this.units, b.q.dim)}` : '';
     };
-    this.graph = buildGraph(list, (cell, path) => resolvePath(path, this.indexOf(cell)), (id) => this.cellName(id));
+    this.graph = buildGraph(list, (cell, path) => resolvePath(path, this.doc.indexOf(cell)), (id) => this.doc.cellName(id));
     const changedNames = new Set<string>();
     const rerunCells = new Set<string>(finished);
     // with `defer`: names of the nodes left pending in this pass
@@ -319,7 +247,7 @@ export class StudySession {
       // of its definer's error, which changes when that cell moves
       for (const d of node.defines) {
         if (this.graph.definers.get(d.name) !== key) continue;
-        const slot: Slot = outcome.bindings?.get(d.name) ?? unavailable(node, d.name, outcome, this.indexOf(node.cell));
+        const slot: Slot = outcome.bindings?.get(d.name) ?? unavailable(node, d.name, outcome, this.doc.indexOf(node.cell));
         const old = this.slots.get(d.name);
         if (!old || old.kind !== slot.kind || old.sig !== slot.sig) changedNames.add(d.name);
         this.slots.set(d.name, slot);
@@ -327,40 +255,18 @@ export class StudySession {
     }
 
     this.deferred?.end();
-    const changed: string[] = [];
-    const reports: CellReport[] = [];
-    // the TeX the printed sheet typesets, made here (in the app: in the engine's worker); made
-    // for every cell on each evaluation, as the names of the whole study decide how a symbol is set
-    const symbols = studySymbols({ cells: this.cells });
-    for (const cell of this.cells) {
-      const old = this.reports.get(cell.id);
-      let r = old;
-      const index = this.indexOf(cell.id);
-      const tex = cellTex(cell, symbols);
-      if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index
-        || (!r.report.ok && this.hintText(cell) !== this.hintTexts.get(cell.id))) r = { index, report: this.cellReport(cell, index, tex) };
-      else if (!deepEqual(r.report.tex, tex)) {
-        const { tex: _old, ...rest } = r.report;
-        r = { index, report: (tex === undefined ? rest : { ...rest, tex }) as CellReport };
-      }
-      if (r !== old) {
-        if (!old || !deepEqual(old.report, r.report)) changed.push(cell.id);
-        this.reports.set(cell.id, r);
-      }
-      reports.push(r.report);
-    }
-    for (const id of [...this.reports.keys()]) if (this.indexOf(id) < 0) this.reports.delete(id);
-    for (const id of [...this.hintTexts.keys()]) if (this.indexOf(id) < 0) this.hintTexts.delete(id);
-    this.lastReport = {
-      title: this.title,
-      ok: reports.every((c) => c.ok),
+    const { report, changed } = this.reports.update({
+      cells: this.doc.cells,
+      indexOf: (id) => this.doc.indexOf(id),
+      nodesOf: (id) => this.built.of(id),
+      outcome: (node) => this.hinted(node, this.outcomes.get(node.key)),
+    }, rerunCells, rebuilt, {
+      title: this.doc.title,
       warnings: [...this.notes, ...this.graph.warnings.map((w) => w.text)],
       warningParts: [...this.notes.map((n) => [n]), ...this.graph.warnings.map((w) => [...w.parts])],
-      cautions: cautionsFor(this.cells),
-      glance: glanceOf(this.cells, reports),
-      cells: reports,
-    };
-    return { rerun: this.cells.filter((c) => rerunCells.has(c.id)).map((c) => c.id), changed };
+    });
+    this.lastReport = report;
+    return { rerun: this.doc.cells.filter((c) => rerunCells.has(c.id)).map((c) => c.id), changed };
   }
 
   private runNode(node: GraphNode, problem: CellError | undefined): Outcome {
@@ -403,24 +309,10 @@ export class StudySession {
     return withUnitHint(o, unitHints(node, this.graph, (definer, def) => this.definedAt(definer, def.path)));
   }
 
-  /** The hints a cell's errors carry, to tell when its report must be written again. */
-  private hintText(cell: Cell): string {
-    return (this.built.get(cell.id)?.nodes ?? []).map((n) => {
-      const o = this.hinted(n, this.outcomes.get(n.key));
-      return o && !o.ok ? o.error.message : '';
-    }).join('\n');
-  }
-
-  /** A cell as warnings name it: its title, else its id. */
-  private cellName(id: string): string {
-    const title = this.cells[this.indexOf(id)]?.title;
-    return typeof title === 'string' && title.trim() ? `"${title.trim()}"` : `cell "${id}"`;
-  }
-
   /** What a definer's name is, and where: "the parameter defined at cells[0].items[1]", the place as a part. */
   private definedAt(definer: GraphNode, path: string): MessagePart[] {
-    const kind = definer.role === 'state' ? 'state' : KIND_WORDS[this.cells[this.indexOf(definer.cell)]?.kind] ?? 'name';
-    return [`the ${kind} defined at `, { path: resolvePath(path.replace(/\.name$/, ''), this.indexOf(definer.cell)) }];
+    const kind = definer.role === 'state' ? 'state' : KIND_WORDS[this.doc.cells[this.doc.indexOf(definer.cell)]?.kind] ?? 'name';
+    return [`the ${kind} defined at `, { path: resolvePath(path.replace(/\.name$/, ''), this.doc.indexOf(definer.cell)) }];
   }
 
   /**
@@ -432,8 +324,8 @@ export class StudySession {
    */
   whatIf(wanted: readonly string[], replaced: readonly Replacement[]): WhatIfPrepared {
     const graph = this.graph;
-    const index = new Map(this.cells.map((c, i) => [c.id, i]));
-    const kinds = new Map(this.cells.map((c) => [c.id, c.kind]));
+    const index = new Map(this.doc.cells.map((c, i) => [c.id, i]));
+    const kinds = new Map(this.doc.cells.map((c) => [c.id, c.kind]));
     return prepareWhatIf({
       graph,
       studyUnits: this.units,
@@ -448,34 +340,5 @@ export class StudySession {
   /** Names `name` is computed from, following the graph's resolved sources. */
   private upstream(name: string): ReadonlySet<string> {
     return upstreamOf(this.graph, name);
-  }
-
-  /** A cell's report from its nodes' outcomes, with `tex` last (as a report whose TeX changed alone gets it). */
-  private cellReport(cell: Cell, index: number, tex: CellReport['tex']): CellReport {
-    const errors: CellError[] = [];
-    const waits = new Set<string>();
-    const output: Record<string, unknown> = {};
-    for (const node of this.built.get(cell.id)?.nodes ?? []) {
-      const o = this.hinted(node, this.outcomes.get(node.key));
-      if (!o) continue;
-      if (o.output) mergeOutput(output, o.output);
-      if (!o.ok) {
-        const { cause: _cause, ...error } = o.error;
-        // two nodes of a cell that fail alike (a run and its model) report it once
-        if (errors.some((e) => e.message === bounded(error.message) && e.path === resolvePath(o.error.path, index))) continue;
-        errors.push({ ...error, message: bounded(error.message), path: resolvePath(o.error.path, index) });
-        if (o.error.waitsOn !== undefined) waits.add(o.error.waitsOn);
-      }
-    }
-    this.hintTexts.set(cell.id, this.hintText(cell));
-    // one object literal: assigning the fields one by one after made each report a slow object
-    const r: CellReport = { id: cell.id, kind: cell.kind, ...(typeof cell.title === 'string' ? { title: cell.title } : {}), ok: errors.length === 0, ...output };
-    if (errors.length) {
-      r.error = errors[0];
-      if (errors.length > 1) r.errors = errors;
-      if (waits.size) r.waitsOn = [...waits];
-    }
-    if (tex !== undefined) r.tex = tex;
-    return r;
   }
 }

@@ -267,7 +267,8 @@ describe('what-if: the session is left alone', () => {
     );
     const s = open(doc);
     const runs = new Map<string, number>();
-    const built = (s as unknown as { built: Map<string, { nodes: GraphNode[] }> }).built;
+    // the session's cell nodes (engine/session-nodes.ts), each cell's as built
+    const built = (s as unknown as { built: { built: Map<string, { nodes: GraphNode[] }> } }).built.built;
     for (const { nodes } of built.values()) {
       for (const node of nodes) {
         const run = node.run;
