@@ -8,8 +8,7 @@
  */
 import type { ComparePlot } from '../engine/report.ts';
 import type { RunModel } from '../engine/node.ts';
-import { valueIn } from '../units/quantity.ts';
-import { TIME } from '../units/dimension.ts';
+import { readingIn } from '../units/quantity.ts';
 import { formatUnit } from '../units/units.ts';
 import { timeAxisUnits } from '../output/display-units.ts';
 
@@ -58,15 +57,17 @@ export function comparePlot(model: RunModel, curves: readonly ScenarioCurve[]): 
       return own ? c.values[own[Math.min(k, own.length - 1)]] : extra.get(t);
     });
     laws.forEach((l, i) => {
+      const reading = readingIn(l.initial, l.initial.unit);
       states.push({
         name: several ? `${c.scenario}: ${l.state}` : c.scenario,
         unit: formatUnit(l.initial.unit),
-        values: rows.map((v) => (v ? valueIn({ ...l.initial, si: v[i] }, l.initial.unit) : NaN)),
+        values: rows.map((v) => (v ? reading(v[i]) : NaN)),
       });
       series.push({ scenario: c.scenario, state: l.state });
     });
   }
-  const t = times.map((x) => valueIn({ si: x, dim: TIME, unit }, unit));
+  const timeReading = readingIn({}, unit);
+  const t = times.map(timeReading);
   const span = t.length ? t[t.length - 1] - t[0] : 0;
   return { timeUnit: formatUnit(unit), timeUnits: timeAxisUnits(formatUnit(unit), span), t, states, events: [], levels: [], marks: [], series };
 }
