@@ -17,7 +17,7 @@ import { unitHints, withUnitHint } from './hidden-units.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
 import { cautionsFor } from '../study/cautions.ts';
 import { glanceOf } from '../output/glance.ts';
-import { cellTex, studySymbols } from '../output/sheet-tex.ts';
+import { KeptTex } from '../output/sheet-tex.ts';
 import { studyUnits } from './study-units.ts';
 import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
 import { metered } from '../numerics/work-meter.ts';
@@ -82,6 +82,8 @@ export class StudySession {
   private lastReport!: Report;
   /** The units the study's inputs are written in, gathered once per evaluation. */
   private units!: StudyUnits;
+  /** Each cell's TeX for the printed sheet, made again when the cell or the study's names change. */
+  private readonly tex = new KeptTex();
 
   /** performance.now() after which the evaluation under way stops its cells (Infinity: none). */
   private deadline = Infinity;
@@ -330,13 +332,14 @@ export class StudySession {
     const changed: string[] = [];
     const reports: CellReport[] = [];
     // the TeX the printed sheet typesets, made here (in the app: in the engine's worker); made
-    // for every cell on each evaluation, as the names of the whole study decide how a symbol is set
-    const symbols = studySymbols({ cells: this.cells });
+    // again for a cell whose text changed, and for every cell when the study's names change
+    // (they decide how a symbol is set)
+    this.tex.study(this.cells);
     for (const cell of this.cells) {
       const old = this.reports.get(cell.id);
       let r = old;
       const index = this.indexOf(cell.id);
-      const tex = cellTex(cell, symbols);
+      const tex = this.tex.of(cell, this.built.get(cell.id)!.sig);
       if (!r || rerunCells.has(cell.id) || rebuilt.has(cell.id) || r.index !== index
         || (!r.report.ok && this.hintText(cell) !== this.hintTexts.get(cell.id))) r = { index, report: this.cellReport(cell, index, tex) };
       else if (!deepEqual(r.report.tex, tex)) {
@@ -351,7 +354,13 @@ export class StudySession {
     }
     for (const id of [...this.reports.keys()]) if (this.indexOf(id) < 0) this.reports.delete(id);
     for (const id of [...this.hintTexts.keys()]) if (this.indexOf(id) < 0) this.hintTexts.delete(id);
-    this.lastReport = {
+    this.lastReport = this.studyReport(reports);
+    return { rerun: this.cells.filter((c) => rerunCells.has(c.id)).map((c) => c.id), changed };
+  }
+
+  /** The report of the whole study from its cells' reports. */
+  private studyReport(reports: CellReport[]): Report {
+    return {
       title: this.title,
       ok: reports.every((c) => c.ok),
       warnings: [...this.notes, ...this.graph.warnings.map((w) => w.text)],
@@ -360,7 +369,6 @@ export class StudySession {
       glance: glanceOf(this.cells, reports),
       cells: reports,
     };
-    return { rerun: this.cells.filter((c) => rerunCells.has(c.id)).map((c) => c.id), changed };
   }
 
   private runNode(node: GraphNode, problem: CellError | undefined): Outcome {
