@@ -147,7 +147,7 @@ export class StudyView extends LitElement {
     const study = c?.study;
     if (!study) return html`<p class="empty">No study is open.</p>`;
     const report = c.report;
-    const sheet = html`<study-sheet .study=${study} .report=${report} .meta=${this.meta}></study-sheet>`;
+    const sheet = html`<study-sheet .study=${study} .report=${report} .meta=${this.meta} .pending=${c.pending} .progress=${c.progress}></study-sheet>`;
     if (this.mode === 'sheet') {
       return html`
         <div class="sheet-bar" role="toolbar" aria-label="Sheet">

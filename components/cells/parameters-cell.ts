@@ -33,6 +33,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     .range { display: flex; gap: 0.3rem; align-items: center; margin: 0.25rem 0; }
     .range expr-field { min-width: 5rem; }
     .range.spread { flex-wrap: wrap; }
+    .spread-note { font-size: 0.8rem; color: #5c3400; border-left: 3px solid #a85d00; background: #fff6e8; padding: 0.15rem 0.4rem; margin-top: 0.2rem; max-width: 22rem; }
     .range.spread select { max-width: 100%; }
   `];
 
@@ -59,7 +60,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
                 @expr-input=${(e: CustomEvent<{ value: string }>) => this.change(j, { value: e.detail.value }, `value${j}`)}></expr-field>
                 ${entry?.range ? this.slider(j, entry) : nothing}
                 ${this.more(j)}</td>
-              <td class="result">${entry ? html`<span class="now">${showValue(entry)}</span>` : ''}${entry?.spread ? html`<div class="spread-text muted">${entry.spread.text}</div>` : nothing}${entry && entry.truth === undefined ? html`<unit-pick data-field="items[${j}].unit" .unit=${entry.unit} .original=${entry.originalUnit} .picked=${item.unit} label="Show ${item.name} in another unit"
+              <td class="result">${entry ? html`<span class="now">${showValue(entry)}</span>` : ''}${entry?.spread ? html`<div class="spread-text muted">${entry.spread.text}</div>` : nothing}${entry?.spread?.note ? html`<div class="spread-note" role="note">${entry.spread.note}</div>` : nothing}${entry && entry.truth === undefined ? html`<unit-pick data-field="items[${j}].unit" .unit=${entry.unit} .original=${entry.originalUnit} .picked=${item.unit} label="Show ${item.name} in another unit"
                 @unit-pick=${(e: CustomEvent<UnitPickDetail>) => this.change(j, { unit: e.detail.unit }, `unit${j}`)}></unit-pick>` : nothing}
                 ${footError(claims.take(`.items[${j}].unit`))}</td>
               <td class="note">${wrapField({ cls: 'note boxed', field: `items[${j}].note`, label: `Note on ${who}`, placeholder: 'Note', value: item.note ?? '',

@@ -8,9 +8,12 @@ type UncertaintyDoc = CellDoc<'uncertainty'>;
 
 /**
  * An uncertainty cell: the names to carry the uncertainty to, the method, samples and seed;
- * the engine's results (a table of mean, SD, median and the 2.5–97.5 percentile interval, a
- * verdict's probability of yes, a histogram per result), the uncertain inputs it drew, and
- * the samples in which a name had no value. Renders only.
+ * the engine's results (a table of mean with its Monte Carlo standard error, SD, median and the
+ * 2.5–97.5 percentile interval; a verdict's probability of yes as the samples support it, with
+ * its standard error and Wilson interval; whether the samples were enough for the digits shown;
+ * a histogram per result), the uncertain inputs it drew, the samples in which a name had no
+ * value, and a warning where a computed value's own spread hides the spreads upstream of it.
+ * Renders only.
  */
 export class UncertaintyCellElement extends CellElement<'uncertainty'> {
   static override styles = [cellStyles, css`
@@ -19,6 +22,10 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     table.results td, table.results th { text-align: right; }
     table.results td.name, table.results th.name { text-align: left; }
     .failed { color: #8a4b00; }
+    .precision { font-size: 0.85rem; }
+    p.hidden-spread { color: #5c3400; border-left: 3px solid #a85d00; background: #fff6e8; padding: 0.3rem 0.6rem; }
+    p.verdict .precision { color: #4a5560; }
+    p.precision { margin: 0.15rem 0; }
     .table-scroll { overflow-x: auto; max-width: 100%; }
     ${unsafeCSS(HISTOGRAM_CSS)}
   `];
@@ -58,11 +65,13 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     const verdicts = entries.filter(([, x]) => x.probability !== undefined || x.truth !== undefined);
     const none = entries.filter(([, x]) => !x.mean && x.probability === undefined && x.truth === undefined);
     return html`<div class="figures">
+      ${(r.warnings ?? []).map((w) => html`<p class="foot-error hidden-spread" role="note"><strong>Spread not carried.</strong> ${w}</p>`)}
       ${quantities.length ? html`<div class="table-scroll" role="region" tabindex="0" aria-label="How sure each result is"><table class="results"><caption class="sr">How sure each result is</caption>
-        <thead><tr><th class="name">Result</th><th>mean</th><th>SD</th><th>median</th><th>95% interval (2.5–97.5 percentile)</th>${r.method === 'monte-carlo' ? html`<th>no value</th>` : nothing}</tr></thead>
-        <tbody>${quantities.map(([name, x]) => html`<tr><td class="name">${name}</td><td class="result">${showQ(x.mean)}</td><td class="result">${showQ(x.sd)}</td>
+        <thead><tr><th class="name">Result</th><th>mean</th>${r.method === 'monte-carlo' ? html`<th title="Monte Carlo standard error of the mean: SD / √samples">± mean's MC error</th>` : nothing}<th>SD</th><th>median</th><th>95% interval (2.5–97.5 percentile)</th>${r.method === 'monte-carlo' ? html`<th>no value</th>` : nothing}</tr></thead>
+        <tbody>${quantities.map(([name, x]) => html`<tr><td class="name">${name}</td><td class="result">${showQ(x.mean)}</td>${r.method === 'monte-carlo' ? html`<td class="result mcse">${x.meanSE ? `± ${showQ(x.meanSE, 2)}` : ''}</td>` : nothing}<td class="result">${showQ(x.sd)}</td>
           <td class="result">${showQ(x.median)}</td><td class="result">${showQ(x.p025)} to ${showQ(x.p975)}</td>
           ${r.method === 'monte-carlo' ? html`<td class=${x.failed ? 'failed' : ''}>${x.failed}</td>` : nothing}</tr>`)}</tbody></table></div>` : nothing}
+      ${quantities.filter(([, x]) => x.precision).map(([name, x]) => html`<p class="precision muted">${name}: ${x.precision}</p>`)}
       ${verdicts.map(([name, x]) => html`<p class="verdict">${this.verdictWords(name, x, r.samples)}</p>`)}
       ${none.map(([name, x]) => html`<p class="foot-error">${name}: no value (${x.reason ?? 'no reason given'}).</p>`)}
       ${r.failed ? html`<p class="failed">${r.failed.toLocaleString('en-US')} of ${r.samples?.toLocaleString('en-US')} samples left a name without a value: ${r.failedReason}.</p>` : nothing}
@@ -74,7 +83,7 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
   private verdictWords(name: string, x: UncertaintyResult, samples: number | undefined) {
     if (x.probability !== undefined) {
       const counted = (samples ?? 0) - x.failed;
-      return html`${name}: yes in <span class="result">${formatNumber(100 * x.probability, 3)}%</span> of ${counted.toLocaleString('en-US')} samples${x.failed ? html` <span class="failed">(${x.failed} without a value)</span>` : nothing}`;
+      return html`${name}: yes in <span class="result">${x.shown ?? `${formatNumber(100 * x.probability, 3)}%`}</span> of ${counted.toLocaleString('en-US')} samples${x.failed ? html` <span class="failed">(${x.failed} without a value)</span>` : nothing}${x.precision ? html`, <span class="precision">${x.precision}</span>` : nothing}`;
     }
     return html`${name}: ${x.truth ? 'yes' : 'no'} at the present values (the linear method gives no probability for a yes/no verdict)`;
   }

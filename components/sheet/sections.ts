@@ -14,6 +14,9 @@ import { math } from './math.ts';
 import { fitPriorPart } from './fit-prior-sheet.ts';
 import { sensitivitySheet, compareSheet } from './scenario-sheet.ts';
 import { uncertaintySheet } from './uncertainty-sheet.ts';
+import { hasFigures, pendingGlance, pendingMark, type SheetPending } from './pending-sheet.ts';
+
+const NONE_PENDING: SheetPending = { pending: [] };
 
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
 
@@ -27,7 +30,7 @@ const KIND_NAMES: Record<Cell['kind'], string> = { ...KIND_LABELS, nca: `${KIND_
  * Results at a glance, for the top of the sheet: the engine's `glance` list as it stands (it
  * chooses and orders them), each with the cell it comes from.
  */
-export function glance(report: Report, study: { readonly cells: readonly Cell[] }): TemplateResult | typeof nothing {
+export function glance(report: Report, study: { readonly cells: readonly Cell[] }, work: SheetPending = NONE_PENDING): TemplateResult | typeof nothing {
   const list = report.glance ?? [];
   if (!list.length) return nothing;
   const fromOf = (id: string) => { const c = report.cells.find((x) => x.id === id); return c?.title || id; };
@@ -38,17 +41,20 @@ export function glance(report: Report, study: { readonly cells: readonly Cell[] 
     : `${g.value ? showQ(g.value) : ''}${g.standardError ? ` ± ${showQ(g.standardError)} (SE)` : ''}`;
   return html`<section class="cell glance"><h2>Results at a glance</h2>
     <table><thead><tr><th>Result</th><th>Value</th><th>From</th></tr></thead>
-    <tbody>${list.map((g) => html`<tr><td class="name">${g.name}</td><td class="num">${shown(g)}</td><td class="from">${fromOf(g.cell)}</td></tr>`)}</tbody></table></section>`;
+    <tbody>${list.map((g) => html`<tr><td class="name">${g.name}</td><td class="num">${shown(g)}${pendingGlance(g.cell, work)}</td><td class="from">${fromOf(g.cell)}</td></tr>`)}</tbody></table></section>`;
 }
 
 /**
  * One cell as a section: its body, or its problems in words (places as a person sees them, a
  * wait said once with its reason); then the notes an inspector needs (`inspectorNotes`).
  */
-export function section(cell: Cell, r: CellReport | undefined, doc: { readonly cells: readonly Cell[] }, report: Report): TemplateResult {
-  const body = !r ? html`<p class="muted">Not computed.</p>` : !r.ok ? problems(cell, r, doc, report) : bodyOf(cell, r, doc.cells, report);
-  return html`<section class="cell ${cell.kind}">
+export function section(cell: Cell, r: CellReport | undefined, doc: { readonly cells: readonly Cell[] }, report: Report, work: SheetPending = NONE_PENDING): TemplateResult {
+  // a cell computing for the first time has no figures yet: its mark says so, and there is no body
+  const firstRun = work.pending.includes(cell.id) && !hasFigures(r);
+  const body = firstRun ? nothing : !r ? html`<p class="muted">Not computed.</p>` : !r.ok ? problems(cell, r, doc, report) : bodyOf(cell, r, doc.cells, report, work);
+  return html`<section class="cell ${cell.kind} ${work.pending.includes(cell.id) ? 'pending' : ''}">
     <h2>${cell.title || KIND_NAMES[cell.kind]} <span class="kind">${KIND_NAMES[cell.kind]} · ${cell.id}</span></h2>
+    ${pendingMark(cell.id, r, work, (id) => cellWords(doc, id))}
     ${body}
     ${r ? inspectorNotes(r).map((n) => html`<p class="check note">Note: ${n}</p>`) : nothing}
   </section>`;
@@ -63,12 +69,12 @@ function problems(cell: Cell, r: CellReport, doc: { readonly cells: readonly Cel
     ${!waits.length && !own.length ? html`<p class="error">Not computed.</p>` : nothing}`;
 }
 
-function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[], report: Report): TemplateResult {
+function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[], report: Report, work: SheetPending): TemplateResult {
   if (cell.kind === 'note') return html`<p class="note-text">${typeof cell.text === 'string' ? cell.text : ''}</p>`;
   if (cell.kind === 'parameters' && isKind(r, 'parameters')) return parameters(cell, r);
   if (cell.kind === 'rate' && isKind(r, 'rate')) return rate(cell, r);
   if (cell.kind === 'phase' && isKind(r, 'phase')) return phase(cell, r, (cells.find((c) => c.id === cell.rate) as Of<'rate'> | undefined)?.state ?? '');
-  if (cell.kind === 'simulate' && isKind(r, 'simulate')) return simulate(cell, r, cell.band === true ? runBand({ cells }, report, cell.id) : undefined, cells);
+  if (cell.kind === 'simulate' && isKind(r, 'simulate')) return simulate(cell, r, cell.band === true ? runBand({ cells }, report, cell.id) : undefined, cells, work);
   if (cell.kind === 'data' && isKind(r, 'data')) return data(cell, r);
   if (cell.kind === 'fit' && isKind(r, 'fit')) return fit(cell, r, cells);
   if (cell.kind === 'nca' && isKind(r, 'nca')) return nca(cell, r);
@@ -92,7 +98,7 @@ function parameters(cell: Of<'parameters'>, r: ReportOf<'parameters'>): Template
       const shown = t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`;
       const long = typeof it.value === 'string' && it.value.length > LONG_DEFINITION;
       return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${it.name}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
-        <td class="num">${showValue(values[it.name])}${values[it.name]?.spread ? html`<br /><span class="muted">spread: ${values[it.name]!.spread!.text}</span>` : nothing}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}</td></tr>
+        <td class="num">${showValue(values[it.name])}${values[it.name]?.spread ? html`<br /><span class="muted">spread: ${values[it.name]!.spread!.text}</span>` : nothing}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}${values[it.name]?.spread?.note ? html`<br /><span class="check">${values[it.name]!.spread!.note}</span>` : nothing}</td></tr>
         ${long ? html`<tr class="formula"><td colspan="4">${t ? math(`\\displaystyle ${tex[it.name].name} = ${t}`) : html`<code>${it.name} = ${it.value}</code>`}</td></tr>` : nothing}`;
     })}</tbody></table>`;
 }
@@ -145,7 +151,9 @@ function sweepPart(cell: Of<'phase'>, sweep: SweepReport, state: string): Templa
 }
 
 /** A run: its span, schedule, chart (with the band from an uncertainty cell's samples when it shows one, and its note) and answers. */
-function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>, band: RunBand | undefined, cells: readonly Cell[]): TemplateResult {
+function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>, band: RunBand | undefined, cells: readonly Cell[], work: SheetPending): TemplateResult {
+  // a band drawn by a cell still computing is from the previous inputs
+  const staleBand = band && 'band' in band && work.pending.includes(band.cell) ? ` This band is from the previous inputs: ${cellWords({ cells }, band.cell)} was still computing when printed.` : '';
   const results = r.results ?? {};
   const answer = (name: string) => {
     const x = results[name];
@@ -163,7 +171,7 @@ function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>, band: RunBand |
       <td>${e.at}</td><td>${schedule[i]?.repeats ?? ''}</td>
       <td>${e.add ? `add ${Object.entries(e.add).map(([k, v]) => `${v} to ${k}`).join(', ')}` : e.set ? `set ${Object.entries(e.set).map(([k, v]) => `${k} = ${v}`).join(', ')}` : e.infuse ? `infuse ${Object.entries(e.infuse).map(([k, v]) => `${v} into ${k}`).join(', ')} for ${e.for}` : ''}</td></tr>`)}</tbody></table>` : nothing}
     <div class="keep">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log', band && 'band' in band ? band.band : undefined) : nothing}
-    ${band ? html`<p class="check band-note">${'band' in band ? `${band.band.note} The samples are those of ${cellWords({ cells }, band.cell)}.` : `No band: ${band.reason}`}</p>` : nothing}
+    ${band ? html`<p class="check band-note">${'band' in band ? `${band.band.note} The samples are those of ${cellWords({ cells }, band.cell)}.` : `No band: ${band.reason}`}${staleBand ? html`<strong class="pending-mark">${staleBand}</strong>` : nothing}</p>` : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
     ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
       <td class="name">${f.name}</td><td>${questions[f.name] ?? ''}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}

@@ -1,8 +1,9 @@
 import { LitElement, html, css, nothing, unsafeCSS } from 'lit';
 import { RANKING_CSS } from '../plots/ranking-bars.ts';
 import { HISTOGRAM_CSS } from '../plots/histogram-plot.ts';
-import type { Report, Study } from '../../src/index.ts';
+import { cellWords, type Progress, type Report, type Study } from '../../src/index.ts';
 import { section, glance } from './sections.ts';
+import { pendingNotice, PENDING_SHEET_CSS } from './pending-sheet.ts';
 
 /** What the sheet's header says about the stored study. */
 export interface SheetMeta {
@@ -14,20 +15,25 @@ export interface SheetMeta {
 
 /**
  * `<study-sheet>`: the study as a document to hand over and print. A header with title,
- * author, date and revision; the cautions; every cell as a static section (tables, typeset
+ * author, date and revision; the cautions; the cells still computing when printed, marked
+ * (`pending-sheet.ts`: their figures are the previous ones); every cell as a static section (tables, typeset
  * laws, phase lines, charts drawn as SVG, found results, the checks made), each with the
  * notes an inspector needs in plain language (`inspectorNotes`); the report's warnings about
  * how the study's text is read are for its author and are not printed. No controls. Sections and figures are kept whole across page breaks.
  */
 export class StudySheet extends LitElement {
-  static override properties = { study: { attribute: false }, report: { attribute: false }, meta: { attribute: false } };
+  static override properties = { study: { attribute: false }, report: { attribute: false }, meta: { attribute: false }, pending: { attribute: false }, progress: { attribute: false } };
   study?: Study;
   report?: Report;
   meta: SheetMeta = {};
+  /** Cells still computing (their figures are the previous ones), and the progress of the one computing: marked on the sheet. */
+  pending: readonly string[] = [];
+  progress?: Progress;
 
   static override styles = css`
     ${unsafeCSS(RANKING_CSS)}
     ${unsafeCSS(HISTOGRAM_CSS)}
+    ${unsafeCSS(PENDING_SHEET_CSS)}
     :host { display: block; color: #111; font: 10.5pt/1.4 Georgia, 'Times New Roman', serif; background: #fff; }
     header.doc { border-bottom: 2px solid #222; padding-bottom: 0.4rem; margin-bottom: 0.8rem; }
     h1 { font: 700 17pt/1.2 system-ui, sans-serif; margin: 0 0 0.3rem; }
@@ -73,6 +79,7 @@ export class StudySheet extends LitElement {
     const study = this.study;
     if (!study) return nothing;
     const byId = new Map((this.report?.cells ?? []).map((c) => [c.id, c] as const));
+    const work = { pending: this.pending, ...(this.progress ? { progress: this.progress } : {}) };
     const when = (ms: number) => new Date(ms).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
     return html`
       <header class="doc">
@@ -86,8 +93,9 @@ export class StudySheet extends LitElement {
         ${study.description ? html`<p class="description">${study.description}</p>` : nothing}
       </header>
       ${(this.report?.cautions ?? []).map((c) => html`<p class="caution"><strong>Caution.</strong> ${c.text}</p>`)}
-      ${this.report ? glance(this.report, study) : nothing}
-      ${this.report ? study.cells.map((c) => section(c, byId.get(c.id), study, this.report!)) : html`<p class="muted">Computing…</p>`}
+      ${pendingNotice(work, (id) => cellWords(study, id))}
+      ${this.report ? glance(this.report, study, work) : nothing}
+      ${this.report ? study.cells.map((c) => section(c, byId.get(c.id), study, this.report!, work)) : html`<p class="muted">Computing…</p>`}
       <footer>Every value on this sheet was computed by Ratebook from the inputs shown, with the units shown. It is an aid to analysis and does not replace professional judgement, local codes or licensed practice.</footer>`;
   }
 }

@@ -66,9 +66,24 @@ function runParameter(name: string, value: Field, range: ReadonlyArray<Field | u
       const unit = shownUnit(q);
       entry.range = bounds.map((b) => ({ value: valueIn(b, unit), unit: formatUnit(unit), si: b.si }));
     }
-    if (spread) entry.spread = spread.report;
+    if (spread) {
+      entry.spread = spread.report;
+      const hidden = spreadsRead(value, ctx);
+      if (hidden.length) entry.spread = { ...entry.spread, note: hiddenNote(name, hidden) };
+    }
     return { ok: true, bindings, output: { values: { [name]: entry } } };
   });
+}
+
+/** The names `value` reads whose values carry a spread (or a fit's covariance), in the order first read. */
+function spreadsRead(value: Field, ctx: RunContext): string[] {
+  const names = [...new Set(usesOf([value]).map((u) => u.name))];
+  return names.filter((n) => { const b = ctx.binding(n); return b?.kind === 'value' && b.spread !== undefined; });
+}
+
+function hiddenNote(name: string, hidden: readonly string[]): string {
+  const list = hidden.length === 1 ? hidden[0] : `${hidden.slice(0, -1).join(', ')} and ${hidden[hidden.length - 1]}`;
+  return `${name} is computed from ${list}, which ${hidden.length === 1 ? 'has a spread' : 'have spreads'} of ${hidden.length === 1 ? 'its' : 'their'} own: an uncertainty cell draws ${name} from this spread alone, without carrying the spread${hidden.length === 1 ? '' : 's'} of ${list} through it. Remove this spread to carry ${hidden.length === 1 ? 'it' : 'theirs'} instead.`;
 }
 
 /** q in the simplest unit of its dimension the study uses (units/simplest-unit.ts); a temperature keeps its own. */

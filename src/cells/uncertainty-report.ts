@@ -12,6 +12,7 @@ import { formatUnit } from '../units/units.ts';
 import { quantitySig } from './signatures.ts';
 import { summarize, histogram } from '../numerics/sampling/summary.ts';
 import type { LinearName, MonteCarlo } from './uncertainty-methods.ts';
+import { sharePrecision, meanPrecision } from './uncertainty-precision.ts';
 
 /** The endings of the names defined per name in `of`. */
 export const RESULT_ENDINGS = ['_p025', '_p975', '_sd', '_probability'] as const;
@@ -20,7 +21,7 @@ export const RESULT_ENDINGS = ['_p025', '_p975', '_sd', '_probability'] as const
 export const Z975 = 1.959963984540054;
 
 export const QUANTILE_NOTE = 'Median and percentiles of the samples by Hyndman and Fan\'s definition 7 (linear between order statistics; R\'s and NumPy\'s default); SD with n - 1.';
-export const VERDICT_NOTE = 'A verdict\'s probability is the share of yes among the samples in which it had a value.';
+export const VERDICT_NOTE = 'A verdict\'s probability is the share of yes among the samples in which it had a value; its Monte Carlo standard error is sqrt(p(1 - p)/n), its 95% interval the Wilson score interval (Wilson 1927), which keeps a width at 0% and 100%, and it is shown to the place of its standard error\'s first digit. A mean\'s Monte Carlo standard error is SD/sqrt(n). Whether the samples were enough for a figure\'s digits follows JCGM 101:2008 7.9: twice its standard error within half a unit of its last digit.';
 export const LINEAR_NOTE = 'First order (the law of propagation of uncertainty, JCGM 100:2008): the mean is the value at the present inputs, the SD is sqrt(J Σ Jᵀ) with derivatives by central differences, and the 2.5 and 97.5 percentiles are mean ∓ 1.96 SD (a normal approximation).';
 
 type Present = (name: string) => Binding | undefined;
@@ -66,20 +67,27 @@ export function monteCarloOutcome(of: readonly string[], mc: MonteCarlo, inputs:
       return;
     }
     if (ns.verdict) {
-      const p = ns.values.reduce((a, b) => a + b, 0) / ns.values.length;
-      results[name] = { probability: p, ...failed };
+      const yes = ns.values.reduce((a, b) => a + b, 0);
+      const p = yes / ns.values.length;
+      const precise = sharePrecision(yes, ns.values.length);
+      results[name] = { probability: p, ...precise, ...failed };
       bindings.set(`${name}_probability`, value(plain(p)));
       verdictReasons(name, reasons, `${name} is a yes/no verdict; its result is ${name}_probability`);
-      said.push(`${name}: yes in ${formatNumber(100 * p, 3)}% of samples`);
+      said.push(`${name}: yes in ${precise.shown} of samples (± ${formatNumber(100 * precise.probabilitySE, 2)} points)`);
       return;
     }
     const t = templateOf(present, name, ns.template)!;
     const s = summarize(ns.values);
     const unit = shownUnit(t);
     const h = histogram(ns.values.map((v) => valueIn(sized(t, v), unit)));
+    // the SD's first digit in the unit it is shown in (a minute is not a power of ten of seconds)
+    const shownSd = report(difference(t, s.sd)).value;
+    const factor = s.sd > 0 ? shownSd / s.sd : 1;
+    const precise = meanPrecision(shownSd, ns.values.length, (v) => describe(difference(t, v / factor)));
     results[name] = {
       mean: report(sized(t, s.mean)), sd: report(difference(t, s.sd)), median: report(sized(t, s.median)),
       p025: report(sized(t, s.p025)), p975: report(sized(t, s.p975)),
+      meanSE: report(difference(t, precise.meanSE / factor)), precision: precise.precision,
       histogram: { unit: formatUnit(unit), edges: h.edges, counts: h.counts }, ...failed,
     };
     quantityNames(name, t, s.p025, s.p975, s.sd, bindings, reasons);

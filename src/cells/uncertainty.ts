@@ -3,7 +3,8 @@
  * parameter's `spread`, a fit's estimates with their covariance). It draws or perturbs those
  * inputs with the what-if evaluator (engine/what-if.ts, `RunContext.whatIf`), so only what lies
  * between them and the names runs again and the study's own values are never touched.
- * Inputs: uncertainty-inputs.ts; the methods: uncertainty-methods.ts; the report and the names
+ * Inputs: uncertainty-inputs.ts (and uncertainty-shadows.ts: a spread on a computed value
+ * stands for the spreads upstream of it); the methods: uncertainty-methods.ts; the report and the names
  * defined downstream (`<name>_p025`, `_p975`, `_sd`, `_probability`): uncertainty-report.ts.
  */
 import type { Cell, UncertaintyCell } from '../study/types.ts';
@@ -17,6 +18,7 @@ import { MonteCarloRun, linear } from './uncertainty-methods.ts';
 import { runToEnd, type SlicedRun } from '../engine/sliced.ts';
 import { RESULT_ENDINGS, monteCarloOutcome, linearOutcome } from './uncertainty-report.ts';
 import { bandRuns, sampleBands } from './uncertainty-band.ts';
+import { shadowedInputs } from './uncertainty-shadows.ts';
 
 /** Samples drawn when `samples` is not given, and the seed when `seed` is not. */
 export const DEFAULT_SAMPLES = 2000;
@@ -93,12 +95,9 @@ function prepareUncertainty(cell: UncertaintyCell, at: string, of: readonly stri
   }
   const bindingOf = (n: string) => (of.includes(n) ? ctx.binding(n) : peek(n));
   const found = uncertainInputs(candidates, bindingOf);
-  // keep those that can change a name (a fit's estimates reach a run's plot without changing its answers)
-  const inputs = found.filter((x) => {
-    if (of.includes(x.name)) return true;
-    const w = ctx.whatIf!(of, [x.name]);
-    return w.ok && w.plan.length > 0;
-  });
+  // keep those that can change a name (a fit's estimates reach a run's plot without changing its
+  // answers), a spread on a computed value standing for the spreads upstream of it
+  const { inputs, warnings } = shadowedInputs(found, of, ctx);
   if (inputs.length === 0) {
     fail(`${at}.of`, `${of.length === 1 ? `"${of[0]}" depends` : 'none of these names depends'} on no value with a spread: give a parameter upstream a spread (beside its value), or read a fit's estimates`);
   }
@@ -109,9 +108,10 @@ function prepareUncertainty(cell: UncertaintyCell, at: string, of: readonly stri
   }
   const words = inputs.map(inputWords);
   const present = (name: string) => ctx.binding(name);
+  const warned = <T extends Outcome<Out>>(o: T): T => (o.ok && warnings.length ? { ...o, output: { ...o.output, warnings } } : o);
   if (method === 'linear') {
     const r = linear(prepared, workingOf(inputs));
-    return linearOutcome(of, r, words, present, at);
+    return warned(linearOutcome(of, r, words, present, at));
   }
   const drawer = drawerOf(inputs);
   if (typeof drawer === 'string') fail(`${at}.of`, drawer, 'numeric');
@@ -123,7 +123,7 @@ function prepareUncertainty(cell: UncertaintyCell, at: string, of: readonly stri
     unit: 'samples',
     step: (until) => mc.step(until),
     finish: () => guarded(() => {
-      const outcome = monteCarloOutcome(of, mc.result(), words, present, samples, seed, at);
+      const outcome = warned(monteCarloOutcome(of, mc.result(), words, present, samples, seed, at));
       // the bands from the same draws, in one go after the samples; skipped in a what-if (a run nested in another cell's)
       if (!bands.length || ctx.mode !== 'run' || !outcome.ok) return outcome;
       return { ...outcome, output: { ...outcome.output, bands: sampleBands(bands, ctx, inputs, draw, samples, seed) } };

@@ -62,6 +62,8 @@ export interface SpreadReport {
   from?: ReportQuantity;
   to?: ReportQuantity;
   text: string;
+  /** A Ratebook addition: on a value computed from values with spreads of their own, that this spread stands for theirs, naming them. */
+  note?: string;
 }
 
 export interface ParametersFields {
@@ -334,6 +336,14 @@ export interface UncertaintyResult {
   p975?: ReportQuantity;
   /** For a yes/no verdict: the share of samples in which it is yes. */
   probability?: number;
+  /** Monte Carlo (a Ratebook addition): the probability's standard error sqrt(p(1 − p)/n), its Wilson 95% interval, the probability shown to the place of its standard error's first digit ("62%"). */
+  probabilitySE?: number;
+  probabilityCI95?: { low: number; high: number };
+  shown?: string;
+  /** Monte Carlo (a Ratebook addition): the mean's standard error SD/sqrt(n), a difference in the SD's unit. */
+  meanSE?: ReportQuantity;
+  /** Monte Carlo (a Ratebook addition): how precise the figure is, in words, and whether the samples were enough for its digits (JCGM 101:2008 7.9). */
+  precision?: string;
   /** For a verdict under the linear method: its value at the present values. */
   truth?: boolean;
   /** Monte Carlo: the samples' histogram. */
@@ -390,6 +400,8 @@ export interface UncertaintyFields {
   summary: string;
   /** The bands of the runs with `band: true` whose answers are among the names (Monte Carlo). */
   bands?: UncertaintyBand[];
+  /** A Ratebook addition: per value with a spread of its own computed from values with spreads, which of those it hides (uncertainty-shadows.ts). */
+  warnings?: string[];
 }
 
 // note

@@ -1,10 +1,10 @@
-/** The terminal table's rows of an uncertainty cell: per result its figures on one line, the inputs drawn, the failed samples. */
+/** The terminal table's rows of an uncertainty cell: per result its figures on one line (with their Monte Carlo precision), the inputs drawn, the failed samples. */
 import type { CellReport, UncertaintyFields } from '../engine/report.ts';
 import type { ReportQuantity } from '../units/quantity.ts';
 import { formatNumber } from '../units/quantity.ts';
 import { unitAfterNumber } from '../units/units.ts';
 
-const show = (q: ReportQuantity | undefined): string => (q ? `${formatNumber(q.value, 4)}${q.unit ? ` ${unitAfterNumber(q.unit)}` : ''}` : '—');
+const show = (q: ReportQuantity | undefined, digits = 4): string => (q ? `${formatNumber(q.value, digits)}${q.unit ? ` ${unitAfterNumber(q.unit)}` : ''}` : '—');
 
 /** Rows for an uncertainty cell's report; undefined for another kind (or a cell with no results). */
 export function uncertaintyRows(cell: CellReport): Array<[string, string]> | undefined {
@@ -13,12 +13,16 @@ export function uncertaintyRows(cell: CellReport): Array<[string, string]> | und
   const rows: Array<[string, string]> = [['method', r.method === 'linear' ? 'linear (first order)' : `Monte Carlo, ${r.samples} samples, seed ${r.seed}`]];
   for (const [name, x] of Object.entries(r.results ?? {})) {
     const failed = x.failed ? `; no value in ${x.failed} (${x.reason})` : '';
-    if (x.probability !== undefined) rows.push([name, `yes in ${formatNumber(100 * x.probability, 3)}% of samples${failed}`]);
+    if (x.probability !== undefined) rows.push([name, `yes in ${x.shown ?? `${formatNumber(100 * x.probability, 3)}%`} of samples${failed}${x.precision ? `, ${x.precision}` : ''}`]);
     else if (x.truth !== undefined) rows.push([name, `${x.truth ? 'yes' : 'no'} at the present values (no probability by the linear method)`]);
-    else if (x.mean) rows.push([name, `mean ${show(x.mean)}, SD ${show(x.sd)}, median ${show(x.median)}, 95% ${show(x.p025)} to ${show(x.p975)}${failed}`]);
+    else if (x.mean) {
+      rows.push([name, `mean ${show(x.mean)}${x.meanSE ? ` (± ${show(x.meanSE, 2)} Monte Carlo)` : ''}, SD ${show(x.sd)}, median ${show(x.median)}, 95% ${show(x.p025)} to ${show(x.p975)}${failed}`]);
+      if (x.precision) rows.push([`${name} precision`, x.precision]);
+    }
     else rows.push([name, `no value${failed}`]);
   }
   for (const i of r.inputs ?? []) rows.push([`input ${i.name}`, i.text]);
+  for (const w of r.warnings ?? []) rows.push(['spread not carried', w]);
   if (r.failed) rows.push(['failed samples', `${r.failed} (${r.failedReason})`]);
   rows.push(['evaluations', String(r.evaluations)]);
   for (const n of r.notes ?? []) rows.push(['note', n]);

@@ -96,11 +96,20 @@ describe('the uncertainty cell element', () => {
 
   it('shows the results table, the verdict\'s probability, a histogram with its data table, and the inputs drawn', async () => {
     const report = await mount(withSpread);
-    const r = report.cells.find((c) => c.id === 'how') as { results: Record<string, { p025: { value: number }; p975: { value: number }; probability?: number }> };
+    const r = report.cells.find((c) => c.id === 'how') as { results: Record<string, { p025: { value: number }; p975: { value: number }; probability?: number; shown?: string; probabilityCI95?: { low: number; high: number }; meanSE?: { value: number } }> };
     const row = el.shadowRoot!.querySelector('table.results tbody tr')!;
     expect(row.querySelector('td.name')!.textContent).to.equal('t_40');
     expect(row.textContent).to.contain(`${Number(r.results.t_40.p025.value.toPrecision(4))} h to ${Number(r.results.t_40.p975.value.toPrecision(4))} h`);
-    expect(el.shadowRoot!.querySelector('.verdict')!.textContent).to.contain(`quick: yes in ${Number((100 * r.results.quick.probability!).toPrecision(3))}% of 300 samples`);
+    // the probability to the place of its standard error's first digit, then its SE and Wilson interval
+    const quick = r.results.quick;
+    const verdict = el.shadowRoot!.querySelector('.verdict')!.textContent!.replace(/\s+/g, ' ');
+    expect(verdict).to.contain(`quick: yes in ${quick.shown} of 300 samples, ± `);
+    expect(Math.abs(Number(quick.shown!.replace('%', '')) - 100 * quick.probability!)).to.be.below(5);
+    expect(verdict).to.contain('percentage points (Monte Carlo standard error); 95% interval');
+    expect(verdict).to.match(/would settle the whole percent shown|would settle the .* point shown/);
+    // the mean's Monte Carlo error beside the mean
+    expect(row.querySelector('td.mcse')!.textContent).to.match(/^± [\d.]+ h$/);
+    expect(el.shadowRoot!.querySelector('p.precision')!.textContent).to.match(/^t_40: (Enough|Not enough) samples for the mean to [\d.]+ h, the first digit of its SD/);
     const svg = el.shadowRoot!.querySelector('svg.histogram-svg')!;
     expect(svg.getAttribute('role')).to.equal('img');
     expect(svg.getAttribute('aria-label')).to.match(/^Histogram of t_40: 300 samples/);

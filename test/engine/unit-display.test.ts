@@ -78,8 +78,9 @@ describe('ratebook run --json on every template', () => {
         if (Array.isArray(v)) v.forEach((x, i) => walk(x, `${path}[${i}]`));
         else if (v && typeof v === 'object') for (const [k, x] of Object.entries(v)) {
           if (k === 'si' && typeof x === 'number') now[path] = Number.isFinite(x) ? x : String(x);
-          // residualFloor is the size of a plot's axis, not a result, and came after the snapshot
-          else if (k !== 'plot' && k !== 'series' && k !== 'residualFloor') walk(x, `${path}.${k}`);
+          // residualFloor is the size of a plot's axis, not a result, and came after the snapshot;
+          // so did meanSE, a Monte Carlo mean's standard error (sd / sqrt(n): uncertainty-precision.test.ts)
+          else if (k !== 'plot' && k !== 'series' && k !== 'residualFloor' && k !== 'meanSE') walk(x, `${path}.${k}`);
         }
       };
       // the cells' quantities (a later `glance` repeats some of them; the snapshot predates it)
