@@ -32,6 +32,7 @@ import { fitEvaluationBenchmarks, DIGITS_COST_GOAL } from './fit-evaluations.ts'
 import { ncaBenchmarks } from './nca.ts';
 import { scalingBenchmarks } from './scaling.ts';
 import { csvBenchmarks } from './csv.ts';
+import { type LoopStats, loopRows, ms, quantile, timeLoop } from './loop-stats.ts';
 
 /** One line of a section's table. `met` is undefined for a figure with no goal. */
 interface Row {
@@ -55,10 +56,6 @@ const WARMUP_MS = 300;
 const SAMPLE_MS = 100;
 /** Samples of a tight loop; the median is reported. */
 const SAMPLES = 5;
-
-function quantile(sorted: readonly number[], q: number): number {
-  return sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))];
-}
 
 function median(xs: readonly number[]): number {
   return quantile([...xs].sort((a, b) => a - b), 0.5);
@@ -109,9 +106,6 @@ function perSecond(x: number): string {
   return x >= 1e6 ? `${(x / 1e6).toFixed(1)} M/s` : `${(x / 1e3).toFixed(0)} k/s`;
 }
 
-function ms(x: number): string {
-  return x < 1 ? `${(x * 1000).toFixed(0)} µs` : `${x.toFixed(2)} ms`;
-}
 
 // ---------------------------------------------------------------------------------------
 // Compiled rate laws
@@ -236,35 +230,30 @@ function openChain(pad = ''): StudySession {
   return opened.session;
 }
 
+/** Untimed edits before the timed ones: at least this many, and at least this long (ms). */
+const EDIT_WARMUP_RUNS = 500;
+const EDIT_WARMUP_MS = 1000;
+
 /** Times `runs` edits, each alternating between two values of one parameter. */
-function timeEdits(session: StudySession, index: number, runs: number): { times: number[]; rerun: number } {
+async function timeEdits(session: StudySession, index: number, runs: number): Promise<{ stats: LoopStats; rerun: number }> {
   const name = `a${index}`;
   const values = index === 0 ? ['0.35 / h', '0.36 / h'] : [`a${index - 1} * 1.01`, `a${index - 1} * 1.02`];
   const edit = (i: number) => ({ type: 'replace' as const, cell: { id: `p${index}`, kind: 'parameters', items: [{ name, value: values[(i + 1) % 2] }] } });
-  for (let i = 0; i < 200; i++) session.apply(edit(i));
-  const times: number[] = [];
   let rerun = 0;
-  for (let i = 0; i < runs; i++) {
-    const e = edit(i);
-    const t0 = performance.now();
-    const r = session.apply(e);
-    times.push(performance.now() - t0);
+  const stats = await timeLoop((i) => {
+    const r = session.apply(edit(i));
     if (!r.ok) throw new Error(r.error.message);
     rerun = r.rerun.length;
-  }
-  return { times: times.sort((a, b) => a - b), rerun };
+  }, { warmupRuns: EDIT_WARMUP_RUNS, warmupMs: EDIT_WARMUP_MS, runs });
+  return { stats, rerun };
 }
 
-function editRows(): Row[] {
+async function editRows(): Promise<Row[]> {
   const rows: Row[] = [];
   const cells = CHAIN + RATES;
   for (const [where, index] of [['near the top (a1: every cell below re-runs)', 1], ['at the end of the chain (a44: it and the rate cells re-run)', CHAIN - 1]] as const) {
-    const { times, rerun } = timeEdits(openChain(), index, EDIT_RUNS);
-    const p50 = quantile(times, 0.5), p95 = quantile(times, 0.95);
-    rows.push(
-      { measure: `edit one parameter ${where}, ${cells} cells: ${rerun} cells re-run; median`, result: ms(p50), goal: `< ${EDIT_GOAL_MS} ms`, met: p50 < EDIT_GOAL_MS },
-      { measure: `  95th percentile over ${EDIT_RUNS} edits`, result: ms(p95), goal: `< ${EDIT_GOAL_MS} ms`, met: p95 < EDIT_GOAL_MS },
-    );
+    const { stats, rerun } = await timeEdits(openChain(), index, EDIT_RUNS);
+    rows.push(...loopRows(`edit one parameter ${where}, ${cells} cells: ${rerun} cells re-run`, stats, EDIT_GOAL_MS));
   }
   for (let i = 0; i < 20; i++) openChain();
   const warm: number[] = [];
@@ -334,10 +323,8 @@ function workPrecisionRows(): Row[] {
   });
 }
 
-function simulateRows(): Row[] {
-  return simulateBenchmarks().map((r) => ({
-    measure: `${r.name} (${r.steps} steps)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
-  }));
+function simulateRows(): Promise<Row[]> {
+  return simulateBenchmarks();
 }
 
 function whatIfRows(): Row[] {
@@ -368,10 +355,8 @@ function solveRows(): Row[] {
   }));
 }
 
-function scenarioRows(): Row[] {
-  return scenarioBenchmarks().map((r) => ({
-    measure: `${r.name} (${r.evaluations} what-if runs)`, result: ms(r.ms), goal: `< ${r.goalMs} ms`, met: r.ms < r.goalMs,
-  }));
+function scenarioRows(): Promise<Row[]> {
+  return scenarioBenchmarks();
 }
 
 function fitRows(): Row[] {

@@ -4,6 +4,7 @@
  * the simulate cell would. Goal: under 1 ms.
  */
 import { openStudy } from '../src/index.ts';
+import { type StatRow, loopRows, timeLoop } from './loop-stats.ts';
 
 export interface SimulateRow {
   readonly name: string;
@@ -29,27 +30,24 @@ export const SIX_DOSES = {
   ],
 };
 
-export function simulateBenchmarks(repeats = 2000): SimulateRow[] {
+/**
+ * The simulate cell re-run alone, `repeats` times after at least 500 untimed runs and 1 s:
+ * the median and 95th percentile by the wall clock against the goal, with processor time,
+ * garbage collections and allocation beside them (`loop-stats.ts`).
+ */
+export async function simulateBenchmarks(repeats = 2000): Promise<StatRow[]> {
   const opened = openStudy(SIX_DOSES);
   if (!opened.ok) throw new Error(opened.error.message);
   const s = opened.session;
   const cell = structuredClone(SIX_DOSES.cells[2]) as { to: string };
-  const times: number[] = [];
   let steps = 0;
-  for (let i = 0; i < repeats + 200; i++) {
+  const stats = await timeLoop((i) => {
     cell.to = i % 2 ? '48 h' : '48.000001 h';
-    const t0 = performance.now();
-    const r = s.apply({ type: 'replace', cell });
-    const dt = performance.now() - t0;
+    const r = s.apply({ type: 'replace', cell: cell as never });
     if (!r.ok || !r.report.ok || r.rerun.length !== 1) throw new Error('the benchmark study did not run as expected');
     steps = r.report.cells[2].steps as number;
-    if (i >= 200) times.push(dt);
-  }
-  times.sort((a, b) => a - b);
-  return [
-    { name: 'one simulation of a 6-dose schedule with 4 questions (the cell re-run alone); median', ms: times[Math.floor(times.length / 2)], goalMs: 1, steps },
-    { name: '  95th percentile', ms: times[Math.floor(times.length * 0.95)], goalMs: 1, steps },
-  ];
+  }, { warmupRuns: 500, warmupMs: 1000, runs: repeats });
+  return loopRows(`one simulation of a 6-dose schedule with 4 questions (${steps} steps), the cell re-run alone`, stats, 1);
 }
 
 /** A fit cell re-run: 3 estimates (k, the ambient and the start) from 20 logged points of a cooling curve, through the simulation. Goal: under 50 ms. */

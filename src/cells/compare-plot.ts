@@ -8,8 +8,7 @@
  */
 import type { ComparePlot } from '../engine/report.ts';
 import type { RunModel } from '../engine/node.ts';
-import { valueIn } from '../units/quantity.ts';
-import { TIME } from '../units/dimension.ts';
+import { readingIn } from '../units/quantity.ts';
 import { formatUnit } from '../units/units.ts';
 import { timeAxisUnits } from '../output/display-units.ts';
 
@@ -17,19 +16,28 @@ import { timeAxisUnits } from '../output/display-units.ts';
 export interface ScenarioCurve {
   readonly scenario: string;
   readonly replaced: ReadonlyMap<string, number>;
+  /** In order (a jump is a time twice). */
   readonly t: readonly number[];
-  readonly values: readonly Float64Array[];
+  /** State i at `t[k]` at `k * (the run's laws) + i`. */
+  readonly values: readonly number[];
 }
 
 /** Times in order, each as often as the scenario that repeats it most (a jump is a time twice). */
 function unionTimes(curves: readonly ScenarioCurve[]): number[] {
   const count = new Map<number, number>();
   for (const c of curves) {
-    const own = new Map<number, number>();
-    for (const t of c.t) own.set(t, (own.get(t) ?? 0) + 1);
-    for (const [t, n] of own) count.set(t, Math.max(count.get(t) ?? 0, n));
+    // a curve's times are in order, so its repeats of a time are side by side
+    for (let k = 0, run = 1; k < c.t.length; k++, run++) {
+      const t = c.t[k];
+      if (k + 1 < c.t.length && c.t[k + 1] === t) continue;
+      if (run > (count.get(t) ?? 0)) count.set(t, run);
+      run = 0;
+    }
   }
-  return [...count.keys()].sort((a, b) => a - b).flatMap((t) => new Array<number>(count.get(t)!).fill(t));
+  const times = [...count.keys()].sort((a, b) => a - b);
+  const out: number[] = [];
+  for (const t of times) for (let k = count.get(t)!; k > 0; k--) out.push(t);
+  return out;
 }
 
 /** The overlay plot. Cost: one more run per scenario whose sample times differ from the union. */
@@ -37,36 +45,46 @@ export function comparePlot(model: RunModel, curves: readonly ScenarioCurve[]): 
   const unit = model.timeUnit;
   const times = unionTimes(curves);
   const laws = model.laws;
-  const several = laws.length > 1;
+  const n = laws.length;
+  const several = n > 1;
   const states: ComparePlot['states'] = [];
   const series: ComparePlot['series'] = [];
   for (const c of curves) {
-    // the scenario's own samples, k-th repeat of a time for the k-th in the union
-    const at = new Map<number, number[]>();
-    c.t.forEach((t, i) => { const l = at.get(t); if (l) l.push(i); else at.set(t, [i]); });
-    const missing = [...new Set(times.filter((t) => !at.has(t)))];
+    // where each time's samples start in the scenario's own (in order: a time's repeats are side by side)
+    const first = new Map<number, number>();
+    for (let k = c.t.length - 1; k >= 0; k--) first.set(c.t[k], k);
+    const missing = [...new Set(times.filter((t) => !first.has(t)))];
     const extra = new Map<number, Float64Array>();
     if (missing.length) {
       const r = model.run(c.replaced, missing);
       missing.forEach((t, k) => { const v = r.values?.[k]; if (v) extra.set(t, v); });
     }
-    const seen = new Map<number, number>();
-    const rows = times.map((t) => {
-      const own = at.get(t);
-      const k = seen.get(t) ?? 0;
-      seen.set(t, k + 1);
-      return own ? c.values[own[Math.min(k, own.length - 1)]] : extra.get(t);
-    });
-    laws.forEach((l, i) => {
-      states.push({
-        name: several ? `${c.scenario}: ${l.state}` : c.scenario,
-        unit: formatUnit(l.initial.unit),
-        values: rows.map((v) => (v ? valueIn({ ...l.initial, si: v[i] }, l.initial.unit) : NaN)),
-      });
+    // per union time: the scenario's sample (its k-th repeat of the time for the k-th in the
+    // union, its last when it has fewer), or -1 for a value of its own run at that time
+    const rows = new Int32Array(times.length);
+    for (let u = 0, k = 0; u < times.length; u++) {
+      const t = times[u];
+      k = u > 0 && times[u - 1] === t ? k + 1 : 0;
+      const f = first.get(t);
+      if (f === undefined) { rows[u] = -1; continue; }
+      let last = f;
+      while (last + 1 < c.t.length && c.t[last + 1] === t && last < f + k) last++;
+      rows[u] = last;
+    }
+    for (let i = 0; i < n; i++) {
+      const l = laws[i];
+      const reading = readingIn(l.initial, l.initial.unit);
+      const values = new Array<number>(times.length);
+      for (let u = 0; u < times.length; u++) {
+        const v = rows[u] >= 0 ? c.values[rows[u] * n + i] : extra.get(times[u])?.[i];
+        values[u] = v === undefined ? NaN : reading(v);
+      }
+      states.push({ name: several ? `${c.scenario}: ${l.state}` : c.scenario, unit: formatUnit(l.initial.unit), values });
       series.push({ scenario: c.scenario, state: l.state });
-    });
+    }
   }
-  const t = times.map((x) => valueIn({ si: x, dim: TIME, unit }, unit));
+  const timeReading = readingIn({}, unit);
+  const t = times.map(timeReading);
   const span = t.length ? t[t.length - 1] - t[0] : 0;
   return { timeUnit: formatUnit(unit), timeUnits: timeAxisUnits(formatUnit(unit), span), t, states, events: [], levels: [], marks: [], series };
 }

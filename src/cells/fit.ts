@@ -282,7 +282,10 @@ function curve(spec: ModelSpec, t0: number, y0: Float64Array, p: Float64Array, b
 /** The fitted curve of a fit through a run: the whole run with the estimates, every jump drawn. */
 function throughCurve(model: RunModel, unknowns: readonly Unknown[], best: Float64Array): Curve | undefined {
   const drawn = model.curve(new Map(unknowns.map((u, k) => [u.name, best[k]])), 2 * CURVE_POINTS);
-  return drawn.t && drawn.values ? { t: drawn.t, values: drawn.values } : undefined;
+  const { t, values } = drawn;
+  if (!t || !values) return undefined;
+  const n = model.laws.length;
+  return { t, values: t.map((_, k) => Float64Array.from({ length: n }, (_, i) => values[k * n + i])) };
 }
 
 /** Times (SI) and the states at each. */

@@ -143,12 +143,12 @@ function makeModel(cell: SimulateCell, at: string, fields: Fields, ctx: RunConte
       const tr = trajectory(replaced, own);
       if (typeof tr === 'string') return { message: tr };
       const t: number[] = [];
-      const values: Float64Array[] = [];
+      const values: number[] = [];
       const out = new Float64Array(tr.width);
       const step = (tr.t1 - tr.t0) / Math.max(1, points - 1);
       // each piece drawn from its start to its end, so every jump shows as one
       for (const p of tr.pieces) {
-        const push = (x: number) => { evalPiece(p, x, out); t.push(x); values.push(out.slice(0, n)); };
+        const push = (x: number) => { evalPiece(p, x, out); t.push(x); for (let i = 0; i < n; i++) values.push(out[i]); };
         push(p.t0);
         for (let x = Math.ceil((p.t0 - tr.t0) / step) * step + tr.t0; x < p.t1; x += step) if (x > p.t0) push(x);
         push(p.t1);

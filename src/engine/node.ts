@@ -168,8 +168,9 @@ export interface RunModel {
    * The run with these values drawn over its whole span: about `points` times spread evenly,
    * and both ends of every piece between actions, so each jump shows (for plots). With `own`,
    * at the run's own tolerances instead of the model's tight ones (a plot of the run itself).
+   * `values` holds state i at `t[k]` at `k * laws.length + i` (one array, not one per time).
    */
-  curve(replaced: ReadonlyMap<string, number>, points: number, own?: boolean): { readonly t?: number[]; readonly values?: Float64Array[]; readonly message?: string };
+  curve(replaced: ReadonlyMap<string, number>, points: number, own?: boolean): { readonly t?: number[]; readonly values?: number[]; readonly message?: string };
   /**
    * The run with these values at its own tolerances, at fixed times (SI, ascending): state i at
    * times[k] is written to out[i * times.length + k]; where `before[k]` is 1, the value just

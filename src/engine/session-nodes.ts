@@ -32,6 +32,11 @@ export class CellNodes {
   }
 
   /** A cell's nodes as last built (none for an unknown cell). */
+  /** The text a cell's nodes were built from (its content and its context): equal texts, equal cells. */
+  sigOf(id: string): string {
+    return this.built.get(id)?.sig ?? '';
+  }
+
   of(id: string): readonly GraphNode[] {
     return this.built.get(id)?.nodes ?? [];
   }

@@ -259,6 +259,7 @@ export class StudySession {
       cells: this.doc.cells,
       indexOf: (id) => this.doc.indexOf(id),
       nodesOf: (id) => this.built.of(id),
+      sigOf: (id) => this.built.sigOf(id),
       outcome: (node) => this.hinted(node, this.outcomes.get(node.key)),
     }, rerunCells, rebuilt, {
       title: this.doc.title,

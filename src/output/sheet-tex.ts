@@ -29,9 +29,52 @@ export interface StudySymbols {
 
 /** The symbol kinds of a study, from the names its document defines. Cost: linear in the cells. */
 export function studySymbols(study: Pick<Study, 'cells'>): StudySymbols {
-  const defined = definedNames(study.cells);
-  const states = new Set(study.cells.flatMap((c) => (c.kind === 'rate' && typeof c.state === 'string' ? [c.state] : [])));
+  return symbolsOf(definedNames(study.cells), stateNames(study.cells));
+}
+
+function symbolsOf(defined: ReadonlySet<string>, states: ReadonlySet<string>): StudySymbols {
   return { law: symbolKinds(defined), value: symbolKinds(new Set([...defined].filter((n) => !states.has(n)))) };
+}
+
+function stateNames(cells: readonly Cell[]): Set<string> {
+  return new Set(cells.flatMap((c) => (c.kind === 'rate' && typeof c.state === 'string' ? [c.state] : [])));
+}
+
+/** What `cellTex` gives. */
+export type CellTex = ReturnType<typeof cellTex>;
+
+/**
+ * `cellTex` kept from one evaluation to the next: a cell's TeX is made again only when its
+ * key (the caller's text of the cell) or the names the study defines change.
+ */
+export class KeptTex {
+  private names: string | undefined;
+  private symbols: StudySymbols | undefined;
+  private readonly kept = new Map<string, { readonly key: string; readonly tex: CellTex }>();
+
+  /** The study as it stands: call before `of` on each evaluation. Cost: linear in the cells. */
+  study(cells: readonly Cell[]): void {
+    const defined = definedNames(cells), states = stateNames(cells);
+    const names = `${[...defined].join(' ')}|${[...states].join(' ')}`;
+    if (names !== this.names) {
+      this.names = names;
+      this.symbols = symbolsOf(defined, states);
+      this.kept.clear();
+    }
+    if (this.kept.size > cells.length) {
+      const live = new Set(cells.map((c) => c.id));
+      for (const id of [...this.kept.keys()]) if (!live.has(id)) this.kept.delete(id);
+    }
+  }
+
+  /** The TeX of `cell`, whose content `key` stands for (equal keys, equal cells). */
+  of(cell: Cell, key: string): CellTex {
+    const k = this.kept.get(cell.id);
+    if (k?.key === key) return k.tex;
+    const tex = cellTex(cell, this.symbols!);
+    this.kept.set(cell.id, { key, tex });
+    return tex;
+  }
 }
 
 /**

@@ -5,7 +5,7 @@
  * The chart only draws these numbers; it converts nothing.
  */
 import type { Quantity } from '../units/quantity.ts';
-import { valueIn, describe } from '../units/quantity.ts';
+import { valueIn, readingIn, describe } from '../units/quantity.ts';
 import type { DisplayUnit } from '../units/units.ts';
 import { formatUnit } from '../units/units.ts';
 import { type Trajectory, evalPiece } from './trajectory.ts';
@@ -56,14 +56,17 @@ export function simulationPlot(p: PlotInput): SimulationPlot {
   const cols: number[][] = p.states.map(() => []);
   const out = new Float64Array(tr.width);
   const timeIn = (si: number) => valueIn(p.timeOf(si), p.timeUnit);
+  // the samples' conversions, looked up once: the same numbers as valueIn on each
+  const timeReading = readingIn(p.timeOf(tr.t0), p.timeUnit);
+  const readings = p.states.map((s) => readingIn(s.template, s.template.unit));
   for (const piece of tr.pieces) {
     const n = Math.max(2, Math.round((PLOT_POINTS * (piece.t1 - piece.t0)) / (span || 1)));
     charge(n);
     for (let j = 0; j < n; j++) {
       const at = j === n - 1 ? piece.t1 : piece.t0 + ((piece.t1 - piece.t0) * j) / (n - 1);
       evalPiece(piece, at, out);
-      t.push(timeIn(at));
-      p.states.forEach((s, i) => cols[i].push(valueIn({ ...s.template, si: out[i] }, s.template.unit)));
+      t.push(timeReading(at));
+      for (let i = 0; i < readings.length; i++) cols[i].push(readings[i](out[i]));
     }
   }
   const seen = new Set<string>();

@@ -51,6 +51,21 @@ export function valueIn(q: Quantity, unit: DisplayUnit): number {
   return q.si / unitFactor(unit);
 }
 
+/**
+ * `valueIn` for many numbers of one kind: the reading in `unit` of an SI value of the kind of
+ * `q` (its temperature kind), with the unit's factor and zero looked up once. The same numbers
+ * as `valueIn({ ...q, si }, unit)`, without an object per value.
+ */
+export function readingIn(q: Pick<Quantity, 'temp'>, unit: DisplayUnit): (si: number) => number {
+  if (q.temp === 'point' && unit.length === 1 && unit[0][1] === 1) {
+    const def = lookupUnit(unit[0][0])!;
+    const zero = def.zero, factor = def.factor;
+    return (si) => (si - zero) / factor;
+  }
+  const factor = unitFactor(unit);
+  return (si) => si / factor;
+}
+
 /** The unit q is shown in: its own, or SI when its own does not fit its dimension. */
 export function shownUnit(q: Quantity): DisplayUnit {
   return sameDim(unitDim(q.unit), q.dim) ? q.unit : siUnitFor(q.dim);

@@ -56,6 +56,18 @@ function smallestPart(unit: DisplayUnit, dim: Dim): DisplayUnit {
  * is shown again only when this changes. Cost: O(study units).
  */
 export function studyUnitsKey(study: StudyUnits, dim: Dim): string {
+  // asked for each parameter on every evaluation: kept per study units and dimension
+  let keys = unitsKeys.get(study);
+  if (!keys) unitsKeys.set(study, keys = new Map());
+  const dimKey = dim.join(',');
+  let key = keys.get(dimKey);
+  if (key === undefined) keys.set(dimKey, key = unitsKeyOf(study, dim));
+  return key;
+}
+
+const unitsKeys = new WeakMap<StudyUnits, Map<string, string>>();
+
+function unitsKeyOf(study: StudyUnits, dim: Dim): string {
   const units = study.units.filter((u) => sameDim(unitDim(u), dim)).map(formatUnit);
   const names = [...study.names].filter((n) => [1, -1, 2, -2, 3, -3].some((p) => sameDim(unitDim([[n, p]]), dim)));
   return `${units.join(';')}|${names.join(';')}`;

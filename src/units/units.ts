@@ -7,7 +7,7 @@
  * wrote so that results are shown in the user's own units.
  */
 import { math } from './mathjs.ts';
-import { type Dim, DIMENSIONLESS, BASE_SI_UNITS, mulDim, powDim, sameDim, isDimensionless } from './dimension.ts';
+import { type Dim, DIMENSIONLESS, BASE_COUNT, BASE_SI_UNITS, sameDim, isDimensionless } from './dimension.ts';
 
 export interface UnitDef {
   /** The name as written, with its prefix ("mg"). */
@@ -72,18 +72,46 @@ export type DisplayUnit = ReadonlyArray<readonly [name: string, power: number]>;
 
 export const NO_UNIT: DisplayUnit = Object.freeze([]);
 
+/**
+ * The dimension of a display unit. A frozen unit's (display units are made frozen) is kept by
+ * identity: the engine asks for the same units' dimensions on every evaluation.
+ */
 export function unitDim(u: DisplayUnit): Dim {
-  let d: Dim = DIMENSIONLESS;
-  for (const [name, p] of u) d = mulDim(d, powDim(lookupUnit(name)!.dim, p));
+  if (u.length === 0) return DIMENSIONLESS;
+  let d = dims.get(u);
+  if (d === undefined) {
+    d = dimOf(u);
+    if (Object.isFrozen(u)) dims.set(u, d);
+  }
   return d;
+}
+
+const dims = new WeakMap<DisplayUnit, Dim>();
+
+/** Each term's dimension times its power, summed in order (so the same numbers as a product of mulDim and powDim). */
+function dimOf(u: DisplayUnit): Dim {
+  const d = new Array<number>(BASE_COUNT).fill(0);
+  for (let k = 0; k < u.length; k++) {
+    const term = u[k];
+    const dim = lookupUnit(term[0])!.dim;
+    const p = term[1];
+    for (let i = 0; i < BASE_COUNT; i++) d[i] += dim[i] * p;
+  }
+  return Object.freeze(d);
 }
 
 /** SI value of one display unit (temperature units by their size, not their zero). */
 export function unitFactor(u: DisplayUnit): number {
-  let f = 1;
-  for (const [name, p] of u) f *= Math.pow(lookupUnit(name)!.factor, p);
+  let f = factors.get(u);
+  if (f === undefined) {
+    f = 1;
+    for (let k = 0; k < u.length; k++) f *= Math.pow(lookupUnit(u[k][0])!.factor, u[k][1]);
+    if (Object.isFrozen(u)) factors.set(u, f);
+  }
   return f;
 }
+
+const factors = new WeakMap<DisplayUnit, number>();
 
 export function mulUnits(a: DisplayUnit, b: DisplayUnit, sign = 1): DisplayUnit {
   const out = a.map(([n, p]) => [n, p] as [string, number]);
