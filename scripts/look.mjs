@@ -24,7 +24,13 @@ try {
   await page.goto(url);
   await page.locator(`button.template[data-template="${key}"]`).click();
   await page.waitForURL(/#\/study\//);
-  await page.waitForTimeout(2500);
+  // Until the study has computed (the status leaves "computing…" and no cell is "updating…"), at most a minute.
+  await page.waitForFunction(() => {
+    const view = document.querySelector('ratebook-app')?.shadowRoot?.querySelector('study-view')?.shadowRoot;
+    const text = view?.textContent ?? '';
+    return view && !text.includes('computing…') && !text.includes('updating…');
+  }, undefined, { timeout: 60_000, polling: 250 }).catch(() => console.warn('still computing after a minute; the picture shows it as it is'));
+  await page.waitForTimeout(500);
   await page.screenshot({ path: join(out, `${key}.png`), fullPage: true });
   await page.pdf({ path: join(out, `${key}-${format}.pdf`), format, printBackground: true });
   await context.close();

@@ -14,10 +14,11 @@ import '../plots/time-plot.ts';
  */
 export class CompareCellElement extends CellElement<'compare'> {
   static override styles = [cellStyles, css`
-    fieldset.scenario { border: 1px solid #d5dbe0; border-radius: 6px; margin: 0.4rem 0; padding: 0.3rem 0.6rem; }
+    fieldset.scenario { border: 1px solid #d5dbe0; border-radius: 6px; margin: 0.4rem 0; padding: 0.3rem 0.6rem; min-width: 0; }
+    span.set select { min-width: 0; max-width: 9rem; }
     fieldset.scenario legend { font-size: 0.85rem; color: #3b4650; padding: 0 0.3rem; }
     span.set { display: inline-flex; align-items: center; gap: 0.3rem; flex-wrap: nowrap; max-width: 100%; }
-    expr-field.set-value { flex: 0 1 10rem; min-width: 8rem; }
+    expr-field.set-value { flex: 0 1 10rem; min-width: 6rem; }
     table.answers { width: auto; }
   `];
 

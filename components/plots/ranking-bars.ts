@@ -8,8 +8,11 @@ import { html, svg, nothing } from 'lit';
 import { formatNumber, type SensitivityFields } from '../../src/index.ts';
 
 const BAR = 22;
-const WIDTH = 560;
-const LABEL = 200;
+/** Room for the bars and for the value written after the longest, in SVG units (CSS pixels at full size). */
+const PLOT = 240;
+const VALUE = 64;
+/** About the width of one character of the 12 px labels. */
+const CHAR = 7;
 
 export function rankingBars(r: Pick<SensitivityFields, 'ranking' | 'results' | 'summary'>) {
   const ranked = r.ranking.flatMap(({ of, parameter }) => {
@@ -18,9 +21,12 @@ export function rankingBars(r: Pick<SensitivityFields, 'ranking' | 'results' | '
   });
   if (!ranked.length) return nothing;
   const largest = Math.max(...ranked.map((x) => Math.abs(x.n))) || 1;
-  const plot = WIDTH - LABEL - 70;
+  // The labels' column as wide as the longest label, so that a phone shrinks the drawing (and its text) as little as it can.
+  const LABEL = Math.min(Math.max(...ranked.map((x) => x.label.length)) * CHAR + 12, 220);
+  const plot = PLOT;
+  const WIDTH = LABEL + PLOT + VALUE;
   const height = ranked.length * BAR + 8;
-  return html`<svg class="ranking" viewBox="0 0 ${WIDTH} ${height}" role="img" aria-label=${r.summary}>
+  return html`<svg class="ranking" viewBox="0 0 ${WIDTH} ${height}" width=${WIDTH} height=${height} role="img" aria-label=${r.summary}>
     <title>${r.summary}</title>
     ${ranked.map(({ label, n }, i) => {
       const w = Math.max((Math.abs(n) / largest) * plot, 1);
@@ -35,7 +41,7 @@ export function rankingBars(r: Pick<SensitivityFields, 'ranking' | 'results' | '
 
 /** The bars' styles, for the cell and the sheet. */
 export const RANKING_CSS = `
-  svg.ranking { width: 100%; max-width: 40rem; height: auto; display: block; margin: 0.5rem 0; }
+  svg.ranking { max-width: 100%; height: auto; display: block; margin: 0.5rem 0; }
   svg.ranking text { font: 12px system-ui, sans-serif; fill: #1c2329; }
   svg.ranking .up { fill: #2f6fb0; }
   svg.ranking .down { fill: #b5562a; }

@@ -18,13 +18,11 @@ import { formatNumber, type PlotScale, type SimulationPlot } from '../../src/ind
 import { ChartController, type ChartSpec } from './chart-controller.ts';
 import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf, tickLabels } from './axes.ts';
-import { eventTimes, extentsByUnit, NO_EXTENT, type Extent, leftOffLog, logDrawn, logSplits, onLogAxis, panelsOf, timePlotTables, timeSplits, type MeasuredPoints, type Panel } from './time-plot-parts.ts';
+import { extentsByUnit, NO_EXTENT, type Extent, leftOffLog, logDrawn, logSplits, onLogAxis, panelsOf, timePlotTables, timeSplits, type MeasuredPoints, type Panel } from './time-plot-parts.ts';
 import './data-table.ts';
-import { drawOverlay, around, curveBoxes, type PointLabel, type EventMarker } from './overlay.ts';
-import { EVENT_LINE, GRID, seriesColour } from './palette.ts';
-import { onePerPixel } from './one-per-pixel.ts';
-import type { Box } from './label-placement.ts';
+import { GRID, seriesColour } from './palette.ts';
 import { bandEdges, bandTables, drawBand, type PlotBand } from './band-layer.ts';
+import { drawRunExtras } from './run-extras.ts';
 
 export type { MeasuredPoints } from './time-plot-parts.ts';
 
@@ -175,7 +173,10 @@ export class TimePlot extends LitElement {
       filter: logSplits, grid: { show: true, stroke: GRID, width: 1, filter: logSplits }, ticks: { stroke: GRID, width: 1, size: 5, filter: logSplits },
     } : {};
     const scaleOf = (s: number) => `y${panel.units.indexOf(p.states[s].unit)}`;
-    const axisLabel = (u: string) => `${panel.states.filter((s) => p.states[s].unit === u).map((s) => p.states[s].name).join(', ')} (${u})`;
+    // A compare cell's curves are named by scenario; its axes name the states they show.
+    const series = 'series' in p ? (p as SimulationPlot & { readonly series: ReadonlyArray<{ readonly state: string }> }).series : undefined;
+    const axisName = (s: number) => series?.[s]?.state ?? p.states[s].name;
+    const axisLabel = (u: string) => `${[...new Set(panel.states.filter((s) => p.states[s].unit === u).map(axisName))].join(', ')} (${u})`;
     return {
       scales: Object.fromEntries([
         ['x', { time: false }],
@@ -231,110 +232,12 @@ export class TimePlot extends LitElement {
     drawBand(u, this.band, panel.states.map((s) => ({ name: p.states[s].name, colour: s, scale: `y${panel.units.indexOf(p.states[s].unit)}` })), this.isLog);
   }
 
-  /** Events, levels, found points and measured points, drawn after the curves. */
+  /** Events, levels, found points and measured points, drawn after the curves (run-extras.ts). */
   private drawExtras(u: uPlot, panelIndex: number): void {
-    const p = this.plot;
-    if (!p) return;
-    const panel = this.panels[panelIndex];
-    const r = ratioOf(u);
-    const { left, top, width, height } = u.bbox;
-    const ctx = u.ctx;
-    const stateIndex = (name: string) => p.states.findIndex((s) => s.name === name);
-    const inPanel = (name: string) => panel.states.includes(stateIndex(name));
-    const scaleOf = (name: string) => `y${panel.units.indexOf(p.states[stateIndex(name)].unit)}`;
-    ctx.save();
-    ctx.beginPath();
-    ctx.rect(left, top, width, height);
-    ctx.clip();
-
-    const times = eventTimes(p);
-    ctx.strokeStyle = EVENT_LINE;
-    ctx.fillStyle = EVENT_LINE;
-    ctx.lineWidth = 1.5 * r;
-    ctx.setLineDash([3 * r, 3 * r]);
-    for (const ev of times) {
-      const x = u.valToPos(ev.time, 'x', true);
-      ctx.beginPath();
-      ctx.moveTo(x, top);
-      ctx.lineTo(x, top + height);
-      ctx.stroke();
-      ctx.beginPath();
-      ctx.moveTo(x - 5 * r, top);
-      ctx.lineTo(x + 5 * r, top);
-      ctx.lineTo(x, top + 7 * r);
-      ctx.fill();
-    }
-
-    ctx.setLineDash([7 * r, 5 * r]);
-    ctx.lineWidth = 1.25 * r;
-    const placeable = (v: number) => !this.isLog || onLogAxis(v);
-    for (const l of p.levels.filter((l) => inPanel(l.state) && placeable(l.value))) {
-      const y = u.valToPos(l.value, scaleOf(l.state), true);
-      ctx.strokeStyle = seriesColour(stateIndex(l.state));
-      ctx.beginPath();
-      ctx.moveTo(left, y);
-      ctx.lineTo(left + width, y);
-      ctx.stroke();
-    }
-    ctx.setLineDash([]);
-
-    // measured points: one path per series, one dot per device pixel (one-per-pixel.ts):
-    // thousands of measurements draw in one fill and one stroke, each place once
-    const shownBoxes: Box[] = [];
-    const margin = 5 * r;
-    const bounds = { left: left - margin, top: top - margin, right: left + width + margin, bottom: top + height + margin };
-    for (const m of this.points.filter((m) => inPanel(m.state))) {
-      const scale = scaleOf(m.state);
-      const xs = new Float64Array(m.t.length);
-      const ys = new Float64Array(m.t.length);
-      const kept = onePerPixel(m.t.length, (i) => (xs[i] = u.valToPos(m.t[i], 'x', true)), (i) => (ys[i] = u.valToPos(m.values[i], scale, true)), bounds, (i) => !placeable(m.values[i]));
-      ctx.strokeStyle = seriesColour(stateIndex(m.state));
-      ctx.fillStyle = '#fff';
-      ctx.lineWidth = 1.5 * r;
-      ctx.beginPath();
-      for (const i of kept) {
-        const x = xs[i];
-        const y = ys[i];
-        ctx.moveTo(x + 3.5 * r, y);
-        ctx.arc(x, y, 3.5 * r, 0, 2 * Math.PI);
-        shownBoxes.push(around((x - left) / r, (y - top) / r, 4));
-      }
-      ctx.fill();
-      ctx.stroke();
-    }
-
-    const marks = p.marks.filter((m) => inPanel(m.state) && placeable(m.value));
-    for (const m of marks) {
-      ctx.beginPath();
-      ctx.arc(u.valToPos(m.time, 'x', true), u.valToPos(m.value, scaleOf(m.state), true), 4.5 * r, 0, 2 * Math.PI);
-      ctx.fillStyle = '#1d2630';
-      ctx.strokeStyle = '#fff';
-      ctx.lineWidth = 2 * r;
-      ctx.stroke();
-      ctx.fill();
-    }
-    ctx.restore();
-
-    const cssW = width / r;
-    const inside = (x: number, y: number) => x >= 0 && x <= cssW && y >= 0 && y <= height / r;
-    const labels: PointLabel[] = [];
-    const clear: Box[] = shownBoxes;
-    for (const m of marks) {
-      const x = u.valToPos(m.time, 'x');
-      const y = u.valToPos(m.value, scaleOf(m.state));
-      if (!inside(x, y)) continue;
-      labels.push({ x, y, text: m.label, kind: 'mark' });
-      clear.push(around(x, y));
-    }
-    for (const l of p.levels.filter((l) => inPanel(l.state) && placeable(l.value))) {
-      const y = u.valToPos(l.value, scaleOf(l.state));
-      if (inside(cssW, y)) labels.push({ x: cssW - 2, y, text: l.label, kind: 'level', along: [0.75, 0.5, 0.25].map((f) => f * cssW) });
-    }
-    const events: EventMarker[] = times
-      .map((ev) => ({ x: u.valToPos(ev.time, 'x'), text: `${ev.labels.join('; ')} at ${fmt(ev.time * this.factor)} ${this.shownUnit}` }))
-      .filter((ev) => ev.x >= 0 && ev.x <= cssW);
-    drawOverlay(u, labels, events, [...clear, ...curveBoxes(u, panel.states.map((_, j) => j + 1))]);
+    if (!this.plot) return;
+    drawRunExtras(u, { plot: this.plot, panel: this.panels[panelIndex], isLog: this.isLog, points: this.points, factor: this.factor, shownUnit: this.shownUnit });
   }
+
 }
 
 const swatch = () => html`<svg width="16" height="10" aria-hidden="true"><rect x="0" y="1" width="16" height="8" fill="#1b6a8a" fill-opacity="0.2" stroke="#1b6a8a" stroke-opacity="0.45"/></svg>`;

@@ -26,11 +26,11 @@ export function sensitivitySheet(cell: Of<'sensitivity'>, r: ReportOf<'sensitivi
     <p class="check">${r.evaluations} runs of the study; each slope is good to about 1 part in 10,000 (runs good to ${r.accuracy}).</p>`;
 }
 
-/** `chart` draws a run's plot as the sheet draws a run's (sections.ts). */
-export function compareSheet(cell: Of<'compare'>, r: ReportOf<'compare'>, chart: (plot: SimulationPlot, summary: unknown) => TemplateResult): TemplateResult {
+/** `chart` draws a run's plot as the sheet draws a run's (sections.ts); the run is named by its title, else by its id. */
+export function compareSheet(cell: Of<'compare'>, r: ReportOf<'compare'>, chart: (plot: SimulationPlot, summary: unknown) => TemplateResult, runTitle?: string): TemplateResult {
   const scenarios = r.scenarios ?? [];
   const questions = r.questions ?? [];
-  return html`<p>The run <strong>${cell.run}</strong> under ${scenarios.length} scenario${scenarios.length === 1 ? '' : 's'}; each answer is named question_scenario.</p>
+  return html`<p>The run <strong>${runTitle || cell.run}</strong> under ${scenarios.length} scenario${scenarios.length === 1 ? '' : 's'}; each answer is named question_scenario.</p>
     <table><thead><tr><th>Scenario</th><th>Sets</th></tr></thead>
     <tbody>${scenarios.map((s) => html`<tr><td class="name">${s.name}</td><td>${Object.entries(s.set).map(([n, q]) => `${n} = ${showQ(q)}`).join(', ') || 'nothing: the run as the study stands'}${s.ok ? '' : ` (${s.message})`}</td></tr>`)}</tbody></table>
     ${questions.length ? html`<table class="per-scenario"><thead><tr><th>Question</th>${scenarios.map((s) => html`<th>${s.name}</th>`)}</tr></thead>

@@ -75,7 +75,7 @@ function bodyOf(cell: Cell, r: CellReport, cells: readonly Cell[], report: Repor
   if (cell.kind === 'solve' && isKind(r, 'solve')) return solve(cell, r);
   if (cell.kind === 'sensitivity' && isKind(r, 'sensitivity')) return sensitivitySheet(cell, r);
   if (cell.kind === 'uncertainty' && isKind(r, 'uncertainty')) return uncertaintySheet(cell, r);
-  if (cell.kind === 'compare' && isKind(r, 'compare')) return compareSheet(cell, r, (plot, summary) => timeChart(plot, summary));
+  if (cell.kind === 'compare' && isKind(r, 'compare')) return compareSheet(cell, r, (plot, summary) => timeChart(plot, summary), cells.find((c) => c.id === cell.run)?.title);
   return html`<p class="muted">Not computed.</p>`;
 }
 
@@ -180,12 +180,15 @@ function timeChart(plot: SimulationPlot, summary: unknown, log = false, band?: E
   const units = [...new Set(plot.states.map((s) => s.unit))].slice(0, 2);
   const axisOf = (state: string) => (units.indexOf(plot.states.find((s) => s.name === state)?.unit ?? '') === 1 ? 1 : 0);
   const shown = plot.states.filter((s) => units.includes(s.unit));
+  // a compare cell's curves are named by scenario; its axes name the states they show
+  const series = 'series' in plot ? (plot as SimulationPlot & { readonly series: ReadonlyArray<{ readonly state: string }> }).series : undefined;
+  const axisName = (s: SimulationPlot['states'][number]) => series?.[plot.states.indexOf(s)]?.state ?? s.name;
   const points: ChartPoints[] = (plot.points ?? []).map((p) => ({ label: `${p.state} measured`, x: p.t, y: p.values, axis: axisOf(p.state), colourOf: shown.findIndex((s) => s.name === p.state) }));
   return html`<figure>${lineChart({
     logY: log,
     label: summaryOr(summary, `${shown.map((s) => s.name).join(', ')} against time`),
     xLabel: `time (${plot.timeUnit})`,
-    yLabels: units.map((u) => `${shown.filter((s) => s.unit === u).map((s) => s.name).join(', ')} (${u})`),
+    yLabels: units.map((u) => `${[...new Set(shown.filter((s) => s.unit === u).map(axisName))].join(', ')} (${u})`),
     lines: shown.map((s) => ({ label: s.name, x: plot.t, y: s.values, axis: units.indexOf(s.unit) === 1 ? 1 : 0 })),
     points,
     bands: (band?.states ?? []).filter((b) => shown.some((s) => s.name === b.name)).map((b) => ({

@@ -5,6 +5,7 @@
 import { expect } from 'chai';
 import { sendKeys } from '@web/test-runner-commands';
 import type { StudyView } from '../../components/study-view.ts';
+import type { TimePlot } from '../../components/plots/time-plot.ts';
 import type { Study, CompareCell } from '../../src/index.ts';
 import { mountStudy } from './mount-study.ts';
 import { deep, until } from './helpers.ts';
@@ -73,6 +74,11 @@ describe('compare cell: by keyboard, with the engine', () => {
     await until(() => compareDoc(view)!.scenarios[1].set.Q === '200 L / min', 'the new value committed');
     // closed form: t = V/Q ln 100 = 2000/200 × 4.605 = 46.05 min; the present flow's 92.1 min beside it
     await until(() => /46\.05 min/.test(compareText(view)) && /92\.1 min/.test(compareText(view)), 'each scenario\'s answer in the table', 20_000);
+    // the overlay names its curves by scenario and its axis by the state they show
+    const plot = deep(view.shadowRoot!, 'compare-cell')[0].shadowRoot!.querySelector('time-plot') as TimePlot;
+    await until(() => plot.charts?.[0]?.series.length === 3, 'the overlay chart with both scenarios');
+    expect(plot.charts[0].series.slice(1).map((s) => s.label)).to.deep.equal(compareDoc(view)!.scenarios.map((s) => s.name));
+    expect(plot.charts[0].axes[1].label).to.equal('C (mg / L)');
 
     await sendKeys({ press: 'Tab' });
     await sendKeys({ press: 'Control+z' });

@@ -12,6 +12,7 @@ import plasma from '../../examples/plasma-levels.ratebook.json';
 import twoStage from '../../examples/two-stage-cooling-check.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
 import coolingDesign from '../../examples/cooling-design.ratebook.json';
+import pumps from '../../examples/flush-pump-settings.ratebook.json';
 
 /**
  * Invented laws with closed-form phase lines: (S - 500 kg)^2 is semi-stable at 500 kg, drawing
@@ -176,6 +177,17 @@ describe('study-sheet', () => {
     const rows = [...root.querySelectorAll('section.glance tbody tr')].map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent!.trim()));
     expect(rows[0].slice(0, 2)).to.deep.equal(['stage1_ok', 'yes']);
     expect(rows.find((r) => r[0] === 'passes')?.[1]).to.equal('yes');
+  });
+
+  it('names a compare cell\'s run by its title, and its chart\'s axis by the state, not the scenarios', async () => {
+    const root = await sheetOf(pumps);
+    const run = pumps.cells.find((c) => c.kind === 'simulate')!;
+    const compare = pumps.cells.find((c) => c.kind === 'compare')!;
+    const section = root.querySelector(`section.cell[data-cell="${compare.id}"]`) ?? [...root.querySelectorAll('section.cell')].find((s) => s.textContent!.includes('under 3 scenarios'))!;
+    expect(section.textContent).to.include(`The run ${run.title} under 3 scenarios`);
+    const axisTexts = [...section.querySelectorAll('figure svg text')].map((t) => t.textContent);
+    expect(axisTexts).to.include('c (mg / L)');
+    expect(axisTexts.some((t) => /low, mid/.test(t ?? ''))).to.equal(false);
   });
 
   it('has one section per cell, charts as SVG, and no controls', async () => {
