@@ -146,8 +146,9 @@ export class AdamsStepper implements Stepper {
       if (!ctx.rhs.call(this.t, y, f0)) return failure(nonFiniteStatus(ctx, y, y, f0), this.t, y);
       const points = startPoints(ctx.options.rtol);
       // A step carried from a previous piece (`firstStep`) is the Adams step there; the start
-      // spans points - 1 spacings of half a step each.
-      const first = Number.isNaN(this.h) ? startStep(ctx, this.t, y, f0, tEnd, 4) : 0.5 * this.h * (points - 1);
+      // spans points - 1 spacings of a quarter of it each (half of it rejected the starting
+      // step at most restarts of the 6-dose problem, each rejection costing 6 evaluations).
+      const first = Number.isNaN(this.h) ? startStep(ctx, this.t, y, f0, tEnd, 4) : 0.25 * this.h * (points - 1);
       const start = rkStart(ctx, this.t, y, f0, first, tEnd, points, this.startWork);
       if (!('T' in start)) return start;
       T.length = 0;
