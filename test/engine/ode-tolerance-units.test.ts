@@ -67,3 +67,36 @@ describe('adams within its tolerance on the smooth work-precision problems (clos
     });
   }
 });
+
+// dopri5 measures a step's error in the unit of the value where the step ends
+// (`errorNormAtEnd` in dopri5.ts). With the book's max(|y0|, |y1|) it ended at 1.42, 1.30 and
+// 1.17 units on Bateman's problem at rtol 1e-3 … 1e-5, where auto runs it (the absorption
+// state's relative error added up along its decay). Budgets: the totals measured (Newton
+// cooling 874, Bateman 5 866, 6 IV doses 3 728 over rtol 1e-3 … 1e-10; logistic 408 and
+// Michaelis–Menten 90 over rtol 1e-3 … 1e-5) plus about 10 %. Left: logistic growth from rtol
+// 1e-6 (1.6 to 16 units, inside steps: the order-4 dense output) and Michaelis–Menten at 1e-9
+// and 1e-10 (1.1 and 1.3 units), where auto runs adams.
+const DOPRI5_LIMITS: Record<string, { tightest: number; budget: number }> = {
+  'Newton cooling': { tightest: 10, budget: 960 },
+  'oral absorption (Bateman)': { tightest: 10, budget: 6450 },
+  '6 IV doses': { tightest: 10, budget: 4100 },
+  'logistic growth': { tightest: 5, budget: 455 },
+  'Michaelis–Menten': { tightest: 5, budget: 100 },
+};
+
+describe('dopri5 within its tolerance on the work-precision problems (closed forms)', () => {
+  for (const p of problems()) {
+    const limit = DOPRI5_LIMITS[p.name];
+    if (limit === undefined) continue;
+    it(`${p.name}: within 1 tolerance unit on the grid at rtol 1e-3 … 1e-${limit.tightest}, in at most ${limit.budget} evaluations in all`, () => {
+      let total = 0;
+      for (let q = 3; q <= limit.tightest; q++) {
+        const run = ours(p, 'dopri5', 10 ** -q);
+        assert.equal(run.method, 'dopri5');
+        assert.ok(run.units <= 1, `rtol 1e-${q}: ${run.units} units`);
+        total += run.evaluations;
+      }
+      assert.ok(total <= limit.budget, `${total} evaluations`);
+    });
+  }
+});
