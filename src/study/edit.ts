@@ -5,7 +5,8 @@
  */
 import type { Cell, Study } from './types.ts';
 import { CELL_KINDS, ID_PATTERN } from './types.ts';
-import { isObject, readStudy, type Problem } from './validate.ts';
+import { readStudy, type Problem } from './validate.ts';
+import { isObject } from './checker.ts';
 import { copyPlain, shortJson, valueLimitProblem } from './limits.ts';
 
 export type Edit =

@@ -5,7 +5,7 @@
  */
 import { NAME_PATTERN } from './types.ts';
 import { shortJson } from './limits.ts';
-import type { Checker } from './validate.ts';
+import type { Checker } from './checker.ts';
 
 /** At most this many names in `of` and in `parameters`; a sensitivity runs the study twice per parameter. */
 export const MAX_SENSITIVITY_NAMES = 20;

@@ -3,7 +3,7 @@
  * values and units are checked when the study runs, on the same paths).
  */
 import { DISTRIBUTIONS, MAX_SAMPLES, NAME_PATTERN, UNCERTAINTY_METHODS } from './types.ts';
-import { type Checker, isObject } from './validate.ts';
+import { type Checker, isObject } from './checker.ts';
 
 /** The fields each distribution takes; the others are refused, so a leftover figure is never silently ignored. */
 const SPREAD_FIELDS: Readonly<Record<string, readonly string[]>> = { normal: ['sd'], lognormal: ['cv'], uniform: ['from', 'to'] };

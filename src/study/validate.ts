@@ -7,12 +7,15 @@
  */
 import {
   type Cell, type Study, CELL_KINDS, CURRENT_VERSION, FORMAT, ID_PATTERN, NAME_PATTERN,
-  METHODS, PLOT_SCALES, FIND_KINDS, WEIGHTINGS, ROUTES, AUC_RULES, NCA_RESULTS,
+  PLOT_SCALES, WEIGHTINGS, ROUTES, AUC_RULES, NCA_RESULTS,
 } from './types.ts';
 import { migrate } from './migrate.ts';
 import { checkSpread, checkUncertainty } from './validate-uncertainty.ts';
 import { checkSensitivity, checkCompare } from './validate-scenarios.ts';
 import { shortJson, textLimitProblem, valueLimitProblem, withoutByteOrderMark } from './limits.ts';
+import { Checker, isObject } from './checker.ts';
+import { checkData, checkSimulate, checkSolve } from './validate-run.ts';
+
 
 export interface Problem {
   readonly message: string;
@@ -92,15 +95,6 @@ export function readStudy(input: unknown): ReadResult {
 
 function refuse(message: string, path: string): ReadResult {
   return { ok: false, error: { message, path } };
-}
-
-/** An own field: never one inherited from Object.prototype (a find named "valueOf"). */
-export function own(o: Record<string, unknown>, key: string): boolean {
-  return Object.prototype.hasOwnProperty.call(o, key) && o[key] !== undefined;
-}
-
-export function isObject(v: unknown): v is Record<string, unknown> {
-  return typeof v === 'object' && v !== null && !Array.isArray(v);
 }
 
 /** The field-level problems of one cell; empty when its shape is right. */
@@ -230,235 +224,4 @@ export function checkCell(c: Record<string, unknown>, at: string): Problem[] {
       break;
   }
   return p.problems;
-}
-
-/**
- * The relative tolerances a run accepts. Below 1e-12 the steps needed fall under what double
- * precision resolves (about 16 digits, less the digits a step's rounding costs), and the run
- * exhausts its steps at the start; above 0.1 it is no longer a tolerance (common practice).
- */
-export const MIN_RTOL = 1e-12;
-export const MAX_RTOL = 0.1;
-
-function checkSimulate(c: Record<string, unknown>, p: Checker): void {
-  p.ids(c, 'rates');
-  p.expr(c, 'from');
-  p.expr(c, 'to');
-  p.oneOf(c, 'method', METHODS, true);
-  p.oneOf(c, 'plotScale', PLOT_SCALES, true);
-  p.optionalFlag(c, 'band');
-  const fixed = c.method === 'rk4' || c.method === 'heun' || c.method === 'euler';
-  if (fixed || c.step !== undefined) p.expr(c, 'step');
-  if (c.tolerance !== undefined && p.object(c.tolerance, 'tolerance')) {
-    const t = c.tolerance;
-    if (t.relative !== undefined && !(typeof t.relative === 'number' && t.relative >= MIN_RTOL && t.relative <= MAX_RTOL)) {
-      p.add(`${p.at}.tolerance.relative`, typeof t.relative === 'number' && t.relative > 0 && t.relative < MIN_RTOL
-        ? `${t.relative} is tighter than a run can resolve (numbers carry about 16 digits): use ${MIN_RTOL} or more, such as 1e-6`
-        : `must be a number from ${MIN_RTOL} to ${MAX_RTOL}, such as 1e-6`);
-    }
-    if (t.absolute !== undefined) p.expr(t, 'absolute', 'tolerance');
-  }
-  if (c.events !== undefined && p.list(c, 'events')) {
-    (c.events as unknown[]).forEach((e, j) => {
-      const path = `events[${j}]`;
-      if (!p.object(e, path)) return;
-      p.expr(e, 'at', path);
-      if (e.every !== undefined) p.expr(e, 'every', path);
-      // a count is a whole number, or an expression checked when the run evaluates it
-      if (typeof e.count === 'string') p.expr(e, 'count', path);
-      else if (e.count !== undefined) p.integer(e, 'count', path, 1, 100000);
-      if (typeof e.count === 'number' && e.every === undefined && e.count !== 1) p.add(`${p.at}.${path}.every`, 'is needed to repeat an event (count more than 1)');
-      const actions = ['add', 'set', 'infuse'].filter((k) => own(e, k));
-      if (actions.length !== 1) {
-        p.add(`${p.at}.${path}`, 'must have exactly one of "add", "set" or "infuse"');
-        return;
-      }
-      const action = actions[0];
-      if (p.object(e[action], `${path}.${action}`)) {
-        const entries = Object.entries(e[action] as object);
-        if (entries.length === 0) p.add(`${p.at}.${path}.${action}`, 'must name at least one state or parameter');
-        for (const [name, v] of entries) {
-          if (!NAME_PATTERN.test(name)) p.add(`${p.at}.${path}.${action}`, `"${name}" is not a name`);
-          if (typeof v !== 'string') p.add(`${p.at}.${path}.${action}.${name}`, 'must be an expression written as text');
-        }
-      }
-      if (action === 'infuse') p.expr(e, 'for', path);
-      else if (e.for !== undefined) p.add(`${p.at}.${path}.for`, 'only an "infuse" event has a duration');
-    });
-  }
-  if (c.find !== undefined && p.list(c, 'find')) {
-    (c.find as unknown[]).forEach((f, j) => {
-      const path = `find[${j}]`;
-      if (!p.object(f, path)) return;
-      p.name(f, 'name', path);
-      p.optionalText(f, 'unit', path);
-      p.optionalFlag(f, 'glance', path);
-      const kinds = FIND_KINDS.filter((k) => own(f, k));
-      if (kinds.length !== 1) {
-        p.add(`${p.at}.${path}`, `must have exactly one of ${FIND_KINDS.join(', ')}`);
-        return;
-      }
-      const kind = kinds[0];
-      p.name(f, kind, path);
-      if (kind === 'crossing' || kind === 'timeAbove' || kind === 'timeBelow') p.expr(f, 'level', path);
-      if (kind === 'valueOf') p.expr(f, 'at', path);
-      if (kind === 'crossing') {
-        p.oneOf(f, 'direction', ['up', 'down', 'either'] as const, true, path);
-        if (f.occurrence !== undefined) p.integer(f, 'occurrence', path, 1, 1e6);
-      }
-      if (f.from !== undefined) p.expr(f, 'from', path);
-      if (f.to !== undefined) p.expr(f, 'to', path);
-    });
-  }
-}
-
-function checkSolve(c: Record<string, unknown>, p: Checker): void {
-  if (p.object(c.vary, 'vary')) {
-    const v = c.vary;
-    p.name(v, 'parameter', 'vary');
-    p.name(v, 'as', 'vary');
-    const range = v.min !== undefined || v.max !== undefined;
-    if (v.choices !== undefined) {
-      if (!Array.isArray(v.choices) || v.choices.length === 0 || v.choices.some((x) => typeof x !== 'string')) {
-        p.add(`${p.at}.vary.choices`, 'must be a list of one or more values, each an expression written as text');
-      } else if (v.choices.length > 100) p.add(`${p.at}.vary.choices`, `lists ${v.choices.length} values; at most 100 can be tried`);
-      if (range) p.add(`${p.at}.vary.${v.min !== undefined ? 'min' : 'max'}`, 'give either min and max, or choices, not both');
-      if (v.roundTo !== undefined) p.add(`${p.at}.vary.roundTo`, 'rounds a solution found in a range; the choices are used as they are');
-    } else {
-      p.expr(v, 'min', 'vary');
-      p.expr(v, 'max', 'vary');
-      if (v.roundTo !== undefined) p.expr(v, 'roundTo', 'vary');
-    }
-    if (v.guess !== undefined) p.expr(v, 'guess', 'vary');
-  }
-  if (p.object(c.target, 'target')) {
-    p.expr(c.target, 'value', 'target');
-    p.expr(c.target, 'equals', 'target');
-  }
-}
-
-function checkData(c: Record<string, unknown>, p: Checker): void {
-  if (p.list(c, 'columns')) {
-    const cols = c.columns as unknown[];
-    if (cols.length === 0) p.add(`${p.at}.columns`, 'must list at least one column');
-    const names = new Set<string>();
-    cols.forEach((col, j) => {
-      const path = `columns[${j}]`;
-      if (!p.object(col, path)) return;
-      if (p.name(col, 'name', path)) {
-        if (names.has(col.name as string)) p.add(`${p.at}.${path}.name`, `the column name "${col.name}" is used twice`);
-        names.add(col.name as string);
-      }
-      p.expr(col, 'unit', path);
-    });
-  }
-  if (c.rows !== undefined && c.csv !== undefined) p.add(`${p.at}.csv`, 'give either "rows" or "csv", not both');
-  if (c.rows === undefined && c.csv === undefined) p.add(`${p.at}.rows`, 'is missing: give the measurements as "rows" or as "csv" text');
-  if (c.csv !== undefined) p.text(c, 'csv');
-  if (c.rows !== undefined && p.list(c, 'rows')) {
-    const width = Array.isArray(c.columns) ? c.columns.length : 0;
-    let lastTime = -Infinity;
-    (c.rows as unknown[]).forEach((row, j) => {
-      const path = `${p.at}.rows[${j}]`;
-      if (!Array.isArray(row)) return p.add(path, `row ${j + 1} must be a list of numbers`);
-      if (width && row.length !== width) return p.add(path, `row ${j + 1} has ${row.length} values; the table has ${width} columns`);
-      const bad = row.findIndex((v) => v !== null && !(typeof v === 'number' && Number.isFinite(v)));
-      if (bad >= 0) return p.add(`${path}[${bad}]`, `row ${j + 1} has ${shortJson(row[bad])} where a number (or null for a missing value) belongs`);
-      const t = row[0];
-      if (t === null) return p.add(`${path}[0]`, `row ${j + 1} has no time`);
-      if (t < lastTime) p.add(`${path}[0]`, `row ${j + 1}: the time ${t} goes backwards (the row before has ${lastTime})`);
-      lastTime = Math.max(lastTime, t as number);
-    });
-  }
-}
-
-/** Collects field problems of one cell, with full paths. */
-export class Checker {
-  readonly problems: Problem[] = [];
-  constructor(readonly at: string) {}
-
-  add(path: string, message: string): void {
-    this.problems.push({ path, message });
-  }
-
-  private where(field: string, within?: string): string {
-    return within ? `${this.at}.${within}.${field}` : `${this.at}.${field}`;
-  }
-
-  object(v: unknown, within: string): v is Record<string, unknown> {
-    if (isObject(v)) return true;
-    this.add(`${this.at}.${within}`, v === undefined ? 'is missing' : 'must be an object');
-    return false;
-  }
-
-  list(o: Record<string, unknown>, field: string): boolean {
-    if (Array.isArray(o[field])) return true;
-    this.add(this.where(field), o[field] === undefined ? 'is missing' : 'must be a list');
-    return false;
-  }
-
-  text(o: Record<string, unknown>, field: string, within?: string): boolean {
-    if (typeof o[field] === 'string') return true;
-    this.add(this.where(field, within), o[field] === undefined ? 'is missing' : 'must be text');
-    return false;
-  }
-
-  optionalText(o: Record<string, unknown>, field: string, within?: string): void {
-    if (o[field] !== undefined) this.text(o, field, within);
-  }
-
-  /** An optional yes/no field: true or false, nothing else. */
-  optionalFlag(o: Record<string, unknown>, field: string, within?: string): void {
-    if (o[field] !== undefined && typeof o[field] !== 'boolean') this.add(this.where(field, within), 'must be true or false');
-  }
-
-  /** An expression field: its text is checked later, by the parser, on the same path. */
-  expr(o: Record<string, unknown>, field: string, within?: string): boolean {
-    if (typeof o[field] === 'string') return true;
-    const v = o[field];
-    this.add(this.where(field, within), v === undefined ? 'is missing'
-      : typeof v === 'number' ? `must be an expression written as text, with its unit, such as "${v} h"` : 'must be an expression written as text');
-    return false;
-  }
-
-  name(o: Record<string, unknown>, field: string, within?: string): boolean {
-    if (!this.text(o, field, within)) return false;
-    if (NAME_PATTERN.test(o[field] as string)) return true;
-    this.add(this.where(field, within), `"${o[field]}" is not a valid name: use letters, digits and "_", starting with a letter`);
-    return false;
-  }
-
-  id(o: Record<string, unknown>, field: string): void {
-    if (this.text(o, field) && !ID_PATTERN.test(o[field] as string)) this.add(this.where(field), `"${o[field]}" is not a cell id`);
-  }
-
-  ids(o: Record<string, unknown>, field: string): void {
-    const v = o[field];
-    if (!Array.isArray(v) || v.length === 0 || v.some((x) => typeof x !== 'string')) {
-      this.add(this.where(field), v === undefined ? 'is missing' : 'must be a list of one or more cell ids');
-    }
-  }
-
-  integer(o: Record<string, unknown>, field: string, within: string, min: number, max: number): void {
-    const v = o[field];
-    if (!Number.isInteger(v) || (v as number) < min || (v as number) > max) {
-      this.add(this.where(field, within), `must be a whole number from ${min} to ${max}`);
-    }
-  }
-
-  /** A plain number written as a number or as an expression (checked later, by the parser). */
-  numberOrExpr(o: Record<string, unknown>, field: string, within: string, optional: boolean): void {
-    const v = o[field];
-    if (v === undefined && optional) return;
-    if (typeof v === 'string') return;
-    if (typeof v !== 'number' || !Number.isFinite(v)) this.add(this.where(field, within), v === undefined ? 'is missing' : 'must be a number, or an expression written as text');
-  }
-
-  oneOf(o: Record<string, unknown>, field: string, allowed: readonly string[], optional: boolean, within?: string): void {
-    const v = o[field];
-    if (v === undefined && optional) return;
-    if (typeof v !== 'string' || !allowed.includes(v)) {
-      this.add(this.where(field, within), `must be one of ${allowed.join(', ')}${v === undefined ? '' : `, not ${shortJson(v)}`}`);
-    }
-  }
 }
