@@ -88,6 +88,16 @@ export function stiffHLambda(k: number, rtol: number): number {
   return Math.min(1, 4 * Math.pow(rtol, 1 / (k + 1)));
 }
 
+/** to[i] = from[i] for i < n: for the few states of a rate law, faster than `set`'s call. */
+function copy(from: Float64Array, to: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) to[i] = from[i];
+}
+
+/** The factor on h that brings an estimate e of order q to the target (safety included). */
+function stepFactor(e: number, q: number): number {
+  return e === 0 ? ADAMS_CONTROL.maxFactor : ADAMS_CONTROL.safety * Math.pow(e, -1 / (q + 1));
+}
+
 /** Adaptive variable-order Adams stepper (P(EC), stiffness reported in `stiffAt`). */
 export class AdamsStepper implements Stepper {
   t: number;
@@ -116,7 +126,7 @@ export class AdamsStepper implements Stepper {
   private stepsSinceTest = 0;
   private stiffSignals = 0;
 
-  constructor(private readonly ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number) {
+  constructor(private ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number) {
     const n = ctx.n;
     this.t = t0;
     this.y = Float64Array.from(y0);
@@ -129,6 +139,26 @@ export class AdamsStepper implements Stepper {
     this.startWork = new AdamsStartWork(n);
     this.d = Array.from({ length: ADAMS_MAX_ORDER + 3 }, () => new Float64Array(n));
     if (firstStep !== undefined) this.h = firstStep;
+  }
+
+  /**
+   * Starts again from (t0, y0) under a new run's context (of the same number of states), as
+   * the constructor leaves it: only the work arrays are kept, each written before it is read
+   * (the pieces of a dosing schedule, or the runs of a what-if loop, set them up once).
+   */
+  restart(ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number): void {
+    this.ctx = ctx;
+    this.t = t0;
+    this.y.set(y0);
+    this.h = firstStep ?? NaN;
+    this.stiffAt = null;
+    this.order = 1;
+    this.T.length = 0;
+    this.F.length = 0;
+    this.started = false;
+    this.stepsSinceTest = 0;
+    this.stiffSignals = 0;
+    this.mark.clear();
   }
 
   /** The scaled norm of h·G_i·d_i (the size of Newton term i in the step). */
@@ -177,7 +207,7 @@ export class AdamsStepper implements Stepper {
       // predictor: nodes t_n, t_{n-1}, … in units of h from t_n
       for (let l = 0; l < k; l++) {
         x[l] = (T[l] - t) / h;
-        d[l].set(F[l]);
+        copy(F[l], d[l], n);
       }
       dividedDifferences(x, d, k - 1);
       newtonIntegrals(x, k - 1, 1, g, this.coef);
@@ -197,10 +227,10 @@ export class AdamsStepper implements Stepper {
       // corrector: nodes t_{n+1}, t_n, …; up to k + 2 of them for the estimate at order k + 1
       const m = Math.min(k + 1, T.length);
       x[0] = 1;
-      d[0].set(fp);
+      copy(fp, d[0], n);
       for (let l = 0; l < m; l++) {
         x[l + 1] = (T[l] - t) / h;
-        d[l + 1].set(F[l]);
+        copy(F[l], d[l + 1], n);
       }
       dividedDifferences(x, d, m);
       newtonIntegrals(x, m, 1, g, this.coef);
@@ -233,16 +263,15 @@ export class AdamsStepper implements Stepper {
         }
       }
       // order and step for the next step
-      const r = (e: number, q: number) => (e === 0 ? C.maxFactor : C.safety * Math.pow(e, -1 / (q + 1)));
       let next = this.order;
-      let factor = r(est, k);
+      let factor = stepFactor(est, k);
       if (k < this.order) {
         // the history was shorter than the order: keep building it
       } else if (Number.isNaN(estHigh)) {
         if (this.order < ADAMS_MAX_ORDER) next = this.order + 1;
       } else {
-        const low = r(estLow, k - 1);
-        const high = this.order < ADAMS_MAX_ORDER ? r(estHigh, k + 1) : 0;
+        const low = stepFactor(estLow, k - 1);
+        const high = this.order < ADAMS_MAX_ORDER ? stepFactor(estHigh, k + 1) : 0;
         if (low >= factor && low >= high / C.raiseMargin) {
           next = this.order - 1;
           factor = low;
@@ -260,9 +289,9 @@ export class AdamsStepper implements Stepper {
       T.unshift(tNew);
       F.unshift(F.length >= ADAMS_MAX_ORDER + 2 ? F.pop()! : new Float64Array(n));
       if (T.length > ADAMS_MAX_ORDER + 2) T.pop();
-      F[0].set(kept);
+      copy(kept, F[0], n);
       this.t = tNew;
-      y.set(yNew);
+      copy(yNew, y, n);
       ctx.counters.steps++;
       return { ok: true, segment };
     }
@@ -270,14 +299,8 @@ export class AdamsStepper implements Stepper {
 
   /** The dense output of the step just made, from the corrector's k + 1 Newton terms. */
   private segment(t0: number, t1: number, h: number, m: number): AdamsSegment {
-    const n = this.ctx.n;
     const k = Math.min(this.order, this.T.length);
-    const terms = Math.min(k, m);
-    const data = new Float64Array((3 + terms) * n);
-    data.set(this.y, 0);
-    data.set(this.yNew, n);
-    for (let i = 0; i <= terms; i++) data.set(this.d[i], (2 + i) * n);
-    return new AdamsSegment(t0, t1, h, n, terms, Float64Array.from(this.x.subarray(0, terms + 1)), data);
+    return AdamsSegment.of(t0, t1, h, this.y, this.yNew, this.d, this.x, Math.min(k, m));
   }
 
   /** h|λ| ≈ h·‖f(y_c) − f(p)‖/‖y_c − p‖ against `stiffHLambda`. */

@@ -24,7 +24,7 @@ import {
 
 /**
  * `auto` starts with an explicit method (dopri5, or the variable-order Adams formulas when
- * rtol ≤ `ADAMS_FROM_RTOL`) and switches to `stiff` when that method reports
+ * rtol < `HIGH_ORDER_BELOW_RTOL`) and switches to `stiff` when that method reports
  * stiffness; `rk4`, `heun` and `euler` are fixed-step and need `step`.
  */
 export const METHODS = ['auto', 'dopri5', 'stiff', 'rk4', 'heun', 'euler', 'dp853', 'adams'] as const;
@@ -32,17 +32,18 @@ export type Method = (typeof METHODS)[number];
 export type MethodUsed = Exclude<Method, 'auto'>;
 
 /**
- * `auto` starts with the Adams formulas (orders up to 13) rather than dopri5 (order 5) at
- * this rtol and tighter, the simulate cell's default 1e-6 included: with their Runge–Kutta
- * start (`adams-start.ts`) they restart after a dose for about 8 evaluations instead of
- * climbing from order 1. Measured on the work-precision problems of
- * `bench/work-precision.ts`: see bench/README.md.
+ * `auto` starts with the Adams formulas (orders up to 13) rather than dopri5 (order 5) below
+ * this rtol. At 1e-6, the simulate cell's default, the Adams formulas need fewer evaluations
+ * on every smooth work-precision problem (with their Runge–Kutta start, `adams-start.ts`,
+ * after doses too), but a step of theirs costs about 4 times dopri5's in processor time on a
+ * cheap law, and a what-if loop of 2,000 runs of the 6-dose study took 590 ms of processor
+ * time with them against 181 ms (goal 500 ms). Measured: see bench/README.md.
  */
-export const ADAMS_FROM_RTOL = 1e-6;
+export const HIGH_ORDER_BELOW_RTOL = 1e-6;
 
 /** The explicit method `auto` starts with at this rtol. */
 export function autoExplicit(rtol: number): 'dopri5' | 'adams' {
-  return rtol <= ADAMS_FROM_RTOL ? 'adams' : 'dopri5';
+  return rtol < HIGH_ORDER_BELOW_RTOL ? 'adams' : 'dopri5';
 }
 
 export interface IntegrateOptions extends SolverOptions {
@@ -120,8 +121,8 @@ function checkInputs(t0: number, y0: ArrayLike<number>, t1: number, method: Meth
 }
 
 /**
- * What one integration leaves for the next: the explicit pairs' steppers with their work
- * arrays (`EmbeddedRkStepper.restart`), so that the pieces of a schedule, or the runs of a
+ * What one integration leaves for the next: the explicit pairs' and the Adams steppers with
+ * their work arrays (`EmbeddedRkStepper.restart`, `AdamsStepper.restart`), so that the pieces of a schedule, or the runs of a
  * what-if loop, set them up once. Results are the same bit for bit as with new steppers
  * (`test/engine/ode-reuse.test.ts`). One integration at a time: a call made while another
  * holds it (an f that integrates) sets up its own.
@@ -129,6 +130,7 @@ function checkInputs(t0: number, y0: ArrayLike<number>, t1: number, method: Meth
 export interface OdeReuse {
   dopri5?: Dopri5Stepper;
   dp853?: Dp853Stepper;
+  adams?: AdamsStepper;
   busy: boolean;
 }
 
@@ -154,10 +156,22 @@ function explicitStepper(ctx: OdeContext, method: 'dopri5' | 'dp853', t0: number
   return made;
 }
 
+/** The Adams stepper: the one `reuse` holds, started again (`AdamsStepper.restart`), or a new one. */
+function adamsStepper(ctx: OdeContext, t0: number, y0: ArrayLike<number>, reuse: OdeReuse | undefined): AdamsStepper {
+  const kept = reuse?.adams;
+  if (kept !== undefined && kept.y.length === ctx.n) {
+    kept.restart(ctx, t0, y0, ctx.options.firstStep);
+    return kept;
+  }
+  const made = new AdamsStepper(ctx, t0, y0, ctx.options.firstStep);
+  if (reuse) reuse.adams = made;
+  return made;
+}
+
 function makeStepper(ctx: OdeContext, method: Exclude<MethodUsed, 'stiff'>, t0: number, y0: ArrayLike<number>, options: IntegrateOptions, reuse?: OdeReuse): Stepper {
   switch (method) {
     case 'dopri5': case 'dp853': return explicitStepper(ctx, method, t0, y0, reuse);
-    case 'adams': return new AdamsStepper(ctx, t0, y0, ctx.options.firstStep);
+    case 'adams': return adamsStepper(ctx, t0, y0, reuse);
     case 'rk4': return new FixedStepper(ctx, RK4, t0, y0, options.step!);
     case 'heun': return new FixedStepper(ctx, HEUN, t0, y0, options.step!);
     case 'euler': return new FixedStepper(ctx, EULER, t0, y0, options.step!);
