@@ -47,21 +47,19 @@ export const ADAMS_MAX_ORDER = 12;
  * 3–35 tolerance units at rtol 1e-7 … 1e-10; with 0.8 and 0.1, 0.1–1.6 units. The error
  * left is relative error carried along a decaying component (Bateman's absorption state,
  * Michaelis–Menten's tail) and added up over the steps, and a step size that see-sawed by
- * ±15 % with the order flipping between 5 and 6 (the estimates of the two orders taking turns).
- * With the Runge–Kutta start (`adams-start.ts`), a target of 0.05 and the step held unless it
- * can grow by `holdBelow` (Shampine & Gordon change the step only to double it or to cut it),
- * every smooth problem ends within 0.86 units at rtol 1e-6 … 1e-10 (bench/README.md).
+ * ±15 % with the order flipping between 5 and 6. A target of 0.05 and the step held unless it
+ * could grow by 20 % brought every smooth problem within 0.86 units, but made a fit's model
+ * (one piece at rtol 1e-10) rough enough in its parameters that NIST BoxBOD missed 6 digits
+ * (test/engine/fit-certified.test.ts), so they are not taken (bench/README.md).
  */
 export const ADAMS_CONTROL = {
   safety: 0.8,
   /** A step is kept when the order-k estimate is at most this fraction of the tolerance. */
-  target: 0.05,
+  target: 0.1,
   maxFactor: 2,
   minFactor: 0.2,
   /** A higher order is taken only when it allows a step this much longer. */
   raiseMargin: 1.1,
-  /** An accepted step's successor keeps its size unless it may grow at least this much. */
-  holdBelow: 1.2,
   nonFiniteShrink: 0.25,
 } as const;
 
@@ -175,11 +173,24 @@ export class AdamsStepper implements Stepper {
     if (!this.started) {
       const f0 = new Float64Array(n);
       if (!ctx.rhs.call(this.t, y, f0)) return failure(nonFiniteStatus(ctx, y, y, f0), this.t, y);
+      if (Number.isNaN(this.h)) {
+        // A run's first piece climbs from order 1: the Runge–Kutta start's history comes from
+        // an order-4 interpolant, and a fit's model (one piece, rtol 1e-10) then lost its
+        // smoothness in the parameters (NIST BoxBOD to 6 digits, test/engine/fit-certified.test.ts).
+        this.h = startStep(ctx, this.t, y, f0, tEnd, 1);
+        T.length = 0;
+        F.length = 0;
+        T.push(this.t);
+        F.push(f0);
+        this.order = 1;
+        this.started = true;
+        return this.step(tEnd);
+      }
       const points = startPoints(ctx.options.rtol);
       // A step carried from a previous piece (`firstStep`) is the Adams step there; the start
       // spans points - 1 spacings of a quarter of it each (half of it rejected the starting
       // step at most restarts of the 6-dose problem, each rejection costing 6 evaluations).
-      const first = Number.isNaN(this.h) ? startStep(ctx, this.t, y, f0, tEnd, 4) : 0.25 * this.h * (points - 1);
+      const first = 0.25 * this.h * (points - 1);
       const start = rkStart(ctx, this.t, y, f0, first, tEnd, points, this.startWork);
       if (!('T' in start)) return start;
       T.length = 0;
@@ -281,7 +292,6 @@ export class AdamsStepper implements Stepper {
         }
       }
       factor = Math.min(rejected ? 1 : C.maxFactor, Math.max(C.minFactor, factor));
-      if (factor > 1 && factor < C.holdBelow) factor = 1;
       this.order = next;
       const planned = Math.min(this.h, ctx.options.maxStep);
       this.h = trial.last ? Math.max(h * factor, planned) : h * factor;
