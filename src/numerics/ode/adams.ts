@@ -17,9 +17,10 @@
  * - Order and step: after each step the order among k - 1, k, k + 1 that allows the longest
  *   next step is taken, h ~ est_q^(-1/(q+1)); the step grows at most twofold and shrinks at
  *   most fivefold (Shampine & Gordon keep ratios near 2 for the stability of the variable
- *   formulas). Start: a Runge–Kutta step that gives a history of several rates at once
- *   (`adams-start.ts`), at the run's beginning and after every dose; the formulas go on at the
- *   order that history allows (one less than its points), with steps of twice its spacing.
+ *   formulas). Start: order 1 from a first step for order 1 (`start-step.ts`), the order
+ *   raised by one a step while the history is shorter than the next order needs. After a dose
+ *   (a carried step), a Runge–Kutta step that gives several rates at once (`adams-start.ts`);
+ *   the formulas go on at the order that history allows, with steps of twice its spacing.
  * - Dense output: the corrector's polynomial integrated from t_n, of order k + 1 on the step,
  *   the step's end reproduced bit for bit (`writeStepEnd`).
  * - Stiffness: every `STIFF_TEST_EVERY`-th step f is evaluated at the corrected value too
