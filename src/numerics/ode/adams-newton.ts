@@ -4,7 +4,7 @@
  * continuous solution of one step (Hairer, Nørsett & Wanner, Solving ODEs I, sec. III.5;
  * Shampine & Gordon, Computer Solution of Ordinary Differential Equations, 1975, ch. 4).
  */
-import { type DenseSegment, writeStepEnd } from './types.ts';
+import { type DenseSegment, DenseSlab, writeStepEnd } from './types.ts';
 
 /**
  * The Newton divided differences d_i = f[x_0, …, x_i] of the vectors F_i at the nodes x_i,
@@ -24,10 +24,10 @@ export function dividedDifferences(x: ArrayLike<number>, d: Float64Array[], m: n
 
 /**
  * G_i(θ) = ∫_0^θ Π_{l<i} (s − x_l) ds for i = 0 … m, written into g: the weights of the
- * Newton terms in the integral of the interpolating polynomial. `coef` is scratch of length
- * m + 1.
+ * Newton terms in the integral of the interpolating polynomial, with the nodes x_l read from
+ * x[xAt + l]. `coef` is scratch of length m + 1.
  */
-export function newtonIntegrals(x: ArrayLike<number>, m: number, theta: number, g: Float64Array, coef: Float64Array): void {
+export function newtonIntegrals(x: ArrayLike<number>, m: number, theta: number, g: Float64Array, coef: Float64Array, xAt = 0): void {
   coef.fill(0);
   coef[0] = 1;
   for (let i = 0; i <= m; i++) {
@@ -40,33 +40,55 @@ export function newtonIntegrals(x: ArrayLike<number>, m: number, theta: number, 
     }
     g[i] = acc;
     if (i === m) break;
-    for (let j = i + 1; j >= 1; j--) coef[j] = coef[j - 1] - x[i] * coef[j];
-    coef[0] = -x[i] * coef[0];
+    const xi = x[xAt + i];
+    for (let j = i + 1; j >= 1; j--) coef[j] = coef[j - 1] - xi * coef[j];
+    coef[0] = -xi * coef[0];
   }
 }
 
-/** The continuous solution of one Adams step: y_n + h·Σ G_i(θ)·d_i. */
+/** Scratch of every segment's `eval` (one at a time: eval neither waits nor calls back). */
+const scratchG = new Float64Array(64);
+const scratchCoef = new Float64Array(65);
+
+/** Where the segments' numbers come from: one chunk for many steps (as dopri5's). */
+const slab = new DenseSlab();
+
+/**
+ * The continuous solution of one Adams step: y_n + h·Σ G_i(θ)·d_i. Its numbers, from `at` in
+ * `data`: [y0 | y1 | d_0 | … | d_m], each n long, then the corrector's m + 1 nodes in units of
+ * h from t0 (x_0 = 1 at t1).
+ */
 export class AdamsSegment implements DenseSegment {
-  private readonly g: Float64Array;
-  private readonly coef: Float64Array;
-  /**
-   * @param data [y0 | y1 | d_0 | … | d_m], each n long.
-   * @param x the corrector's nodes in units of h from t0 (x_0 = 1 at t1).
-   */
   constructor(readonly t0: number, readonly t1: number, private readonly h: number, private readonly n: number,
-    private readonly m: number, private readonly x: Float64Array, private readonly data: Float64Array) {
-    this.g = new Float64Array(m + 1);
-    this.coef = new Float64Array(m + 2);
+    private readonly m: number, private readonly data: Float64Array, private readonly at: number) {}
+
+  /** A segment whose numbers are copied from y0, y1, d_0 … d_m and the nodes x_0 … x_m. */
+  static of(t0: number, t1: number, h: number, y0: Float64Array, y1: Float64Array, d: readonly Float64Array[], x: Float64Array, m: number): AdamsSegment {
+    const n = y0.length;
+    const at = slab.take((3 + m) * n + m + 1);
+    const data = slab.data;
+    for (let c = 0; c < n; c++) {
+      data[at + c] = y0[c];
+      data[at + n + c] = y1[c];
+    }
+    for (let i = 0; i <= m; i++) {
+      const di = d[i];
+      const to = at + (2 + i) * n;
+      for (let c = 0; c < n; c++) data[to + c] = di[c];
+    }
+    for (let i = 0; i <= m; i++) data[at + (3 + m) * n + i] = x[i];
+    return new AdamsSegment(t0, t1, h, n, m, data, at);
   }
 
   eval(t: number, out: Float64Array): void {
-    const { data, n, m, g } = this;
-    if (writeStepEnd(t, this.t0, this.t1, data, n, out)) return;
-    newtonIntegrals(this.x, m, (t - this.t0) / this.h, g, this.coef);
+    const { data, n, m, at } = this;
+    if (writeStepEnd(t, this.t0, this.t1, data, n, out, at)) return;
+    const g = scratchG;
+    newtonIntegrals(data, m, (t - this.t0) / this.h, g, scratchCoef, at + (3 + m) * n);
     for (let c = 0; c < n; c++) {
       let acc = 0;
-      for (let i = 0; i <= m; i++) acc += g[i] * data[(2 + i) * n + c];
-      out[c] = data[c] + this.h * acc;
+      for (let i = 0; i <= m; i++) acc += g[i] * data[at + (2 + i) * n + c];
+      out[c] = data[at + c] + this.h * acc;
     }
   }
 }

@@ -32,9 +32,12 @@ export type Method = (typeof METHODS)[number];
 export type MethodUsed = Exclude<Method, 'auto'>;
 
 /**
- * `auto` starts with the Adams formulas (orders up to 13) rather than dopri5 (order 5)
- * below this rtol. Measured on the work-precision problems of `bench/work-precision.ts`:
- * see bench/README.md.
+ * `auto` starts with the Adams formulas (orders up to 13) rather than dopri5 (order 5) below
+ * this rtol. At 1e-6, the simulate cell's default, the Adams formulas need fewer evaluations
+ * on every smooth work-precision problem (with their Runge–Kutta start, `adams-start.ts`,
+ * after doses too), but a step of theirs costs about 4 times dopri5's in processor time on a
+ * cheap law, and a what-if loop of 2,000 runs of the 6-dose study took 590 ms of processor
+ * time with them against 181 ms (goal 500 ms). Measured: see bench/README.md.
  */
 export const HIGH_ORDER_BELOW_RTOL = 1e-6;
 
@@ -121,8 +124,8 @@ function checkInputs(t0: number, y0: ArrayLike<number>, t1: number, method: Meth
 }
 
 /**
- * What one integration leaves for the next: the explicit pairs' steppers with their work
- * arrays (`EmbeddedRkStepper.restart`), so that the pieces of a schedule, or the runs of a
+ * What one integration leaves for the next: the explicit pairs' and the Adams steppers with
+ * their work arrays (`EmbeddedRkStepper.restart`, `AdamsStepper.restart`), so that the pieces of a schedule, or the runs of a
  * what-if loop, set them up once. Results are the same bit for bit as with new steppers
  * (`test/engine/ode-reuse.test.ts`). One integration at a time: a call made while another
  * holds it (an f that integrates) sets up its own.
@@ -130,6 +133,7 @@ function checkInputs(t0: number, y0: ArrayLike<number>, t1: number, method: Meth
 export interface OdeReuse {
   dopri5?: Dopri5Stepper;
   dp853?: Dp853Stepper;
+  adams?: AdamsStepper;
   busy: boolean;
 }
 
@@ -155,10 +159,22 @@ function explicitStepper(ctx: OdeContext, method: 'dopri5' | 'dp853', t0: number
   return made;
 }
 
+/** The Adams stepper: the one `reuse` holds, started again (`AdamsStepper.restart`), or a new one. */
+function adamsStepper(ctx: OdeContext, t0: number, y0: ArrayLike<number>, reuse: OdeReuse | undefined): AdamsStepper {
+  const kept = reuse?.adams;
+  if (kept !== undefined && kept.y.length === ctx.n) {
+    kept.restart(ctx, t0, y0, ctx.options.firstStep);
+    return kept;
+  }
+  const made = new AdamsStepper(ctx, t0, y0, ctx.options.firstStep);
+  if (reuse) reuse.adams = made;
+  return made;
+}
+
 function makeStepper(ctx: OdeContext, method: Exclude<MethodUsed, 'stiff'>, t0: number, y0: ArrayLike<number>, options: IntegrateOptions, reuse?: OdeReuse): Stepper {
   switch (method) {
     case 'dopri5': case 'dp853': return explicitStepper(ctx, method, t0, y0, reuse);
-    case 'adams': return new AdamsStepper(ctx, t0, y0, ctx.options.firstStep);
+    case 'adams': return adamsStepper(ctx, t0, y0, reuse);
     case 'rk4': return new FixedStepper(ctx, RK4, t0, y0, options.step!);
     case 'heun': return new FixedStepper(ctx, HEUN, t0, y0, options.step!);
     case 'euler': return new FixedStepper(ctx, EULER, t0, y0, options.step!);
