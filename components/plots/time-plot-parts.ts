@@ -179,3 +179,12 @@ export function logSplits(u: uPlot, splits: number[], axisIdx: number): Array<nu
   }
   return splits.map((v) => (keep.has(v) ? v : null));
 }
+
+/**
+ * The name a y axis gives the curve of state `s`: its state's name. A compare cell's plot names
+ * its curves by scenario and says in `series` which state each one is; a run's names its states.
+ */
+export function axisNameOf(plot: SimulationPlot, s: number): string {
+  const series = 'series' in plot ? (plot as SimulationPlot & { readonly series: ReadonlyArray<{ readonly state: string }> }).series : undefined;
+  return series?.[s]?.state ?? plot.states[s].name;
+}

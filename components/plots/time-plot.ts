@@ -18,7 +18,7 @@ import { formatNumber, type PlotScale, type SimulationPlot } from '../../src/ind
 import { ChartController, type ChartSpec } from './chart-controller.ts';
 import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf, tickLabels } from './axes.ts';
-import { extentsByUnit, NO_EXTENT, type Extent, leftOffLog, logDrawn, logSplits, onLogAxis, panelsOf, timePlotTables, timeSplits, type MeasuredPoints, type Panel } from './time-plot-parts.ts';
+import { axisNameOf, extentsByUnit, NO_EXTENT, type Extent, leftOffLog, logDrawn, logSplits, onLogAxis, panelsOf, timePlotTables, timeSplits, type MeasuredPoints, type Panel } from './time-plot-parts.ts';
 import './data-table.ts';
 import { GRID, seriesColour } from './palette.ts';
 import { bandEdges, bandTables, drawBand, type PlotBand } from './band-layer.ts';
@@ -173,10 +173,8 @@ export class TimePlot extends LitElement {
       filter: logSplits, grid: { show: true, stroke: GRID, width: 1, filter: logSplits }, ticks: { stroke: GRID, width: 1, size: 5, filter: logSplits },
     } : {};
     const scaleOf = (s: number) => `y${panel.units.indexOf(p.states[s].unit)}`;
-    // A compare cell's curves are named by scenario; its axes name the states they show.
-    const series = 'series' in p ? (p as SimulationPlot & { readonly series: ReadonlyArray<{ readonly state: string }> }).series : undefined;
-    const axisName = (s: number) => series?.[s]?.state ?? p.states[s].name;
-    const axisLabel = (u: string) => `${[...new Set(panel.states.filter((s) => p.states[s].unit === u).map(axisName))].join(', ')} (${u})`;
+    // a compare cell's curves are named by scenario; its axes name the states they show
+    const axisLabel = (u: string) => `${[...new Set(panel.states.filter((s) => p.states[s].unit === u).map((s) => axisNameOf(p, s)))].join(', ')} (${u})`;
     return {
       scales: Object.fromEntries([
         ['x', { time: false }],

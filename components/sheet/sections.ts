@@ -9,7 +9,7 @@ import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
 import { STABLE, UNSTABLE } from '../plots/palette.ts';
-import { leftOffLog } from '../plots/time-plot-parts.ts';
+import { axisNameOf, leftOffLog } from '../plots/time-plot-parts.ts';
 import { math } from './math.ts';
 import { fitPriorPart } from './fit-prior-sheet.ts';
 import { sensitivitySheet, compareSheet } from './scenario-sheet.ts';
@@ -188,15 +188,13 @@ function timeChart(plot: SimulationPlot, summary: unknown, log = false, band?: E
   const units = [...new Set(plot.states.map((s) => s.unit))].slice(0, 2);
   const axisOf = (state: string) => (units.indexOf(plot.states.find((s) => s.name === state)?.unit ?? '') === 1 ? 1 : 0);
   const shown = plot.states.filter((s) => units.includes(s.unit));
-  // a compare cell's curves are named by scenario; its axes name the states they show
-  const series = 'series' in plot ? (plot as SimulationPlot & { readonly series: ReadonlyArray<{ readonly state: string }> }).series : undefined;
-  const axisName = (s: SimulationPlot['states'][number]) => series?.[plot.states.indexOf(s)]?.state ?? s.name;
+  // a compare cell's curves are named by scenario; its axes name the states they show (axisNameOf)
   const points: ChartPoints[] = (plot.points ?? []).map((p) => ({ label: `${p.state} measured`, x: p.t, y: p.values, axis: axisOf(p.state), colourOf: shown.findIndex((s) => s.name === p.state) }));
   return html`<figure>${lineChart({
     logY: log,
     label: summaryOr(summary, `${shown.map((s) => s.name).join(', ')} against time`),
     xLabel: `time (${plot.timeUnit})`,
-    yLabels: units.map((u) => `${[...new Set(shown.filter((s) => s.unit === u).map(axisName))].join(', ')} (${u})`),
+    yLabels: units.map((u) => `${[...new Set(shown.filter((s) => s.unit === u).map((s) => axisNameOf(plot, plot.states.indexOf(s))))].join(', ')} (${u})`),
     lines: shown.map((s) => ({ label: s.name, x: plot.t, y: s.values, axis: units.indexOf(s.unit) === 1 ? 1 : 0 })),
     points,
     bands: (band?.states ?? []).filter((b) => shown.some((s) => s.name === b.name)).map((b) => ({
