@@ -22,26 +22,44 @@ export function dividedDifferences(x: ArrayLike<number>, d: Float64Array[], m: n
   }
 }
 
+/** 1/(j + 1) for j = 0 … 63: ∫_0^1 s^j ds, so that the weights need no division. */
+const RECIPROCALS = Float64Array.from({ length: 64 }, (_, j) => 1 / (j + 1));
+
 /**
  * G_i(θ) = ∫_0^θ Π_{l<i} (s − x_l) ds for i = 0 … m, written into g: the weights of the
  * Newton terms in the integral of the interpolating polynomial, with the nodes x_l read from
- * x[xAt + l]. `coef` is scratch of length m + 1.
+ * x[xAt + l]. `coef` is scratch of length m + 2. O(m²).
  */
 export function newtonIntegrals(x: ArrayLike<number>, m: number, theta: number, g: Float64Array, coef: Float64Array, xAt = 0): void {
-  coef.fill(0);
+  coef.fill(0, 0, m + 2);
   coef[0] = 1;
   for (let i = 0; i <= m; i++) {
     // coef holds the coefficients of Π_{l<i} (s − x_l), degree i
     let acc = 0;
     let pow = theta;
     for (let j = 0; j <= i; j++) {
-      acc += (coef[j] * pow) / (j + 1);
+      acc += coef[j] * pow * RECIPROCALS[j];
       pow *= theta;
     }
     g[i] = acc;
     if (i === m) break;
     const xi = x[xAt + i];
     for (let j = i + 1; j >= 1; j--) coef[j] = coef[j - 1] - xi * coef[j];
+    coef[0] = -xi * coef[0];
+  }
+}
+
+/** `newtonIntegrals` at θ = 1, the weights of a whole step (each step's predictor). */
+export function stepWeights(x: ArrayLike<number>, xAt: number, m: number, g: Float64Array, coef: Float64Array): void {
+  coef[0] = 1;
+  for (let i = 0; i <= m; i++) {
+    let acc = 0;
+    for (let j = 0; j <= i; j++) acc += coef[j] * RECIPROCALS[j];
+    g[i] = acc;
+    if (i === m) break;
+    const xi = x[xAt + i];
+    coef[i + 1] = coef[i];
+    for (let j = i; j >= 1; j--) coef[j] = coef[j - 1] - xi * coef[j];
     coef[0] = -xi * coef[0];
   }
 }
@@ -62,21 +80,23 @@ export class AdamsSegment implements DenseSegment {
   constructor(readonly t0: number, readonly t1: number, private readonly h: number, private readonly n: number,
     private readonly m: number, private readonly data: Float64Array, private readonly at: number) {}
 
-  /** A segment whose numbers are copied from y0, y1, d_0 … d_m and the nodes x_0 … x_m. */
-  static of(t0: number, t1: number, h: number, y0: Float64Array, y1: Float64Array, d: readonly Float64Array[], x: Float64Array, m: number): AdamsSegment {
+  /**
+   * A segment whose numbers are copied from y0, y1, the differences d_0 … d_m (flat, d_i at
+   * d[i·n …]) and the nodes x_0 … x_m (from x[xAt]).
+   */
+  static of(t0: number, t1: number, h: number, y0: Float64Array, y1: Float64Array, d: Float64Array, x: Float64Array, xAt: number, m: number): AdamsSegment {
     const n = y0.length;
-    const at = slab.take((3 + m) * n + m + 1);
+    const size = (3 + m) * n + m + 1;
+    const at = slab.take(size);
     const data = slab.data;
     for (let c = 0; c < n; c++) {
       data[at + c] = y0[c];
       data[at + n + c] = y1[c];
     }
-    for (let i = 0; i <= m; i++) {
-      const di = d[i];
-      const to = at + (2 + i) * n;
-      for (let c = 0; c < n; c++) data[to + c] = di[c];
-    }
-    for (let i = 0; i <= m; i++) data[at + (3 + m) * n + i] = x[i];
+    const to = at + 2 * n;
+    for (let j = 0; j < (m + 1) * n; j++) data[to + j] = d[j];
+    const nodes = at + (3 + m) * n;
+    for (let i = 0; i <= m; i++) data[nodes + i] = x[xAt + i];
     return new AdamsSegment(t0, t1, h, n, m, data, at);
   }
 
