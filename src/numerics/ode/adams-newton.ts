@@ -22,9 +22,6 @@ export function dividedDifferences(x: ArrayLike<number>, d: Float64Array[], m: n
   }
 }
 
-/** 1/(j + 1) for j = 0 … 63: ∫_0^1 s^j ds, so that the weights need no division. */
-const RECIPROCALS = Float64Array.from({ length: 64 }, (_, j) => 1 / (j + 1));
-
 /**
  * G_i(θ) = ∫_0^θ Π_{l<i} (s − x_l) ds for i = 0 … m, written into g: the weights of the
  * Newton terms in the integral of the interpolating polynomial, with the nodes x_l read from
@@ -38,7 +35,7 @@ export function newtonIntegrals(x: ArrayLike<number>, m: number, theta: number, 
     let acc = 0;
     let pow = theta;
     for (let j = 0; j <= i; j++) {
-      acc += coef[j] * pow * RECIPROCALS[j];
+      acc += (coef[j] * pow) / (j + 1);
       pow *= theta;
     }
     g[i] = acc;
@@ -54,7 +51,7 @@ export function stepWeights(x: ArrayLike<number>, xAt: number, m: number, g: Flo
   coef[0] = 1;
   for (let i = 0; i <= m; i++) {
     let acc = 0;
-    for (let j = 0; j <= i; j++) acc += coef[j] * RECIPROCALS[j];
+    for (let j = 0; j <= i; j++) acc += coef[j] / (j + 1);
     g[i] = acc;
     if (i === m) break;
     const xi = x[xAt + i];
@@ -97,6 +94,24 @@ export class AdamsSegment implements DenseSegment {
     for (let j = 0; j < (m + 1) * n; j++) data[to + j] = d[j];
     const nodes = at + (3 + m) * n;
     for (let i = 0; i <= m; i++) data[nodes + i] = x[xAt + i];
+    return new AdamsSegment(t0, t1, h, n, m, data, at);
+  }
+
+  /** `of` for differences held one array each (the one-evaluation stepper, `adams-pec.ts`). */
+  static ofRows(t0: number, t1: number, h: number, y0: Float64Array, y1: Float64Array, d: readonly Float64Array[], x: Float64Array, m: number): AdamsSegment {
+    const n = y0.length;
+    const at = slab.take((3 + m) * n + m + 1);
+    const data = slab.data;
+    for (let c = 0; c < n; c++) {
+      data[at + c] = y0[c];
+      data[at + n + c] = y1[c];
+    }
+    for (let i = 0; i <= m; i++) {
+      const di = d[i];
+      const to = at + (2 + i) * n;
+      for (let c = 0; c < n; c++) data[to + c] = di[c];
+    }
+    for (let i = 0; i <= m; i++) data[at + (3 + m) * n + i] = x[i];
     return new AdamsSegment(t0, t1, h, n, m, data, at);
   }
 

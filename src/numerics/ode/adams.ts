@@ -45,33 +45,11 @@ import { startStep } from './start-step.ts';
 import { AdamsStartWork, rkStart, startPoints } from './adams-start.ts';
 import { AdamsSegment } from './adams-newton.ts';
 import { ADAMS_MAX_ORDER, AdamsHistory } from './adams-history.ts';
+import { ADAMS_CONTROL, STIFF_REMAINING, STIFF_SIGNALS, STIFF_TEST_EVERY, stiffHLambda } from './adams-control.ts';
+import { AdamsPecStepper } from './adams-pec.ts';
 
 export { ADAMS_MAX_ORDER } from './adams-history.ts';
-
-/**
- * Step-size constants (Shampine & Gordon 1975, ch. 5; common practice). The safety factor
- * and the error target were measured on the work-precision problems (bench/README.md), in
- * the one-evaluation mode; measured again with PECE, 0.9 left 1.1–1.6 units on Bateman and
- * Michaelis–Menten and a target of 0.2 up to 2, so they stay. In the one-evaluation mode: with
- * 0.9 and a target of 1 a quarter of the steps were rejected and the global error reached
- * 3–35 tolerance units at rtol 1e-7 … 1e-10; with 0.8 and 0.1, 0.1–1.6 units. The error
- * left is relative error carried along a decaying component (Bateman's absorption state,
- * Michaelis–Menten's tail) and added up over the steps, and a step size that see-sawed by
- * ±15 % with the order flipping between 5 and 6. A target of 0.05 and the step held unless it
- * could grow by 20 % brought every smooth problem within 0.86 units, but made a fit's model
- * (one piece at rtol 1e-10) rough enough in its parameters that NIST BoxBOD missed 6 digits
- * (test/engine/fit-certified.test.ts), so they are not taken (bench/README.md).
- */
-export const ADAMS_CONTROL = {
-  safety: 0.8,
-  /** A step is kept when the order-k estimate is at most this fraction of the tolerance. */
-  target: 0.1,
-  maxFactor: 2,
-  minFactor: 0.2,
-  /** A higher order is taken only when it allows a step this much longer. */
-  raiseMargin: 1.1,
-  nonFiniteShrink: 0.25,
-} as const;
+export { ADAMS_CONTROL, STIFF_REMAINING, STIFF_SIGNALS, STIFF_TEST_EVERY, stiffHLambda } from './adams-control.ts';
 
 /**
  * The Runge–Kutta start after a dose spans P − 1 spacings of this fraction of the carried
@@ -83,28 +61,22 @@ export const ADAMS_CONTROL = {
  */
 export const START_SPACING = 0.1;
 
-/** Steps between two stiffness tests (which use the final evaluation: no evaluation of their own). */
-export const STIFF_TEST_EVERY = 8;
-/** Positive tests in a row before stiffness is reported. */
-export const STIFF_SIGNALS = 3;
 /**
- * A sign of stiffness counts only when the fast mode would still decay e-fold at least this
- * many times over what is left of the run: with fewer, the steps at the stability limit that
- * remain cost less than the stiff method's start (a Jacobian, a factorization, its own order
- * ramp). So a plateau such as logistic growth's end does not switch.
+ * The final evaluation (PECE) is made at this rtol and above; below it, one evaluation a
+ * step (P(EC)). A fit's model runs at rtol 1e-10 and must be smooth in its parameters: with
+ * PECE each step's error is a sizeable share of the run's, and a change in the step sequence
+ * (an order chosen otherwise, the last step landing otherwise) moved a decay's end by 1e-11
+ * relative for a change of its rate of 1e-7 (the one-evaluation mode: no visible jump, its
+ * error a sum of many small ones), and the exactly determined fit of
+ * test/engine/fit-residuals.test.ts left residuals of 5e-11. Below 1e-9 the one-evaluation
+ * mode reaches its tolerance on the work-precision problems (0.3–0.75 units at 1e-10). There
+ * the steps are handed to the one-evaluation stepper as it was (`adams-pec.ts`): a fit's
+ * model is then the same to the last bit, and so are its model runs (NIST Misra1a and BoxBOD
+ * took 1.18 and 1.27 times forward differences' runs for their digits; the same mode with the
+ * history kept in place, equal but for rounding, 1.39 and 1.35: test/engine/fit-certified.test.ts
+ * holds them to 1.3).
  */
-export const STIFF_REMAINING = 100;
-
-/**
- * The h|λ| above which a step counts as a sign of stiffness: 4 times the h|λ| at which the
- * order-k estimate on a mode of relative size 1 reaches rtol (about rtol^(1/(k+1)) for the
- * Adams error constants, which lie between 1/12 and 1/2), capped at 1, about the edge of the
- * stability region of the PEC pairs of orders 2 to 12 on the negative real axis (Hairer,
- * Nørsett & Wanner I, sec. III.3; common practice).
- */
-export function stiffHLambda(k: number, rtol: number): number {
-  return Math.min(1, 4 * Math.pow(rtol, 1 / (k + 1)));
-}
+export const PECE_FROM_RTOL = 1e-9;
 
 /** ln of the factor on h that brings an estimate e of order q to the target (safety included). */
 function logFactor(e: number, q: number): number {
@@ -135,6 +107,9 @@ export class AdamsStepper implements Stepper {
   private readonly startWork: AdamsStartWork;
   private stepsSinceTest = 0;
   private stiffSignals = 0;
+  /** Below `PECE_FROM_RTOL`, the one-evaluation stepper this one hands its steps to. */
+  private pec: AdamsPecStepper | null = null;
+  private usePec: boolean;
 
   constructor(private ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number) {
     const n = ctx.n;
@@ -149,6 +124,8 @@ export class AdamsStepper implements Stepper {
     this.fc = new Float64Array(n);
     this.startWork = new AdamsStartWork(n);
     if (firstStep !== undefined) this.h = firstStep;
+    this.usePec = ctx.options.rtol < PECE_FROM_RTOL;
+    if (this.usePec) this.pec = new AdamsPecStepper(ctx, t0, y0, firstStep);
   }
 
   /**
@@ -168,6 +145,22 @@ export class AdamsStepper implements Stepper {
     this.stepsSinceTest = 0;
     this.stiffSignals = 0;
     this.mark.clear();
+    this.usePec = ctx.options.rtol < PECE_FROM_RTOL;
+    if (this.usePec) {
+      if (this.pec) this.pec.restart(ctx, t0, y0, firstStep);
+      else this.pec = new AdamsPecStepper(ctx, t0, y0, firstStep);
+    }
+  }
+
+  /** A step of the one-evaluation stepper, its state copied here. */
+  private pecStep(pec: AdamsPecStepper, tEnd: number): StepOutcome {
+    const outcome = pec.step(tEnd);
+    this.t = pec.t;
+    this.h = pec.h;
+    this.order = pec.order;
+    this.stiffAt = pec.stiffAt;
+    this.y.set(pec.y);
+    return outcome;
   }
 
   /** The first step of a piece: the history from one point (a run's first piece) or from a Runge–Kutta start. */
@@ -202,6 +195,7 @@ export class AdamsStepper implements Stepper {
   }
 
   step(tEnd: number): StepOutcome {
+    if (this.usePec) return this.pecStep(this.pec!, tEnd);
     if (!this.started) return this.begin(tEnd);
     const { ctx, y, p, fp, yNew, history } = this;
     const { n, options } = ctx;
