@@ -5,7 +5,7 @@
 // solve_ivp counts measured once into bench/scipy-reference.json.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { dividedDifferences, newtonIntegrals, stepWeights } from '../../src/numerics/ode/adams-newton.ts';
+import { AdamsSegment, dividedDifferences, newtonIntegrals, stepWeights } from '../../src/numerics/ode/adams-newton.ts';
 import { AdamsHistory } from '../../src/numerics/ode/adams-history.ts';
 import { integrate } from '../../src/numerics/ode/integrate.ts';
 import { bestReference, ours, problems } from '../../bench/work-precision.ts';
@@ -126,6 +126,30 @@ describe('the history updated in place (adams-history.ts) against the definition
       const w = hist.correctorWeight(i);
       assert.ok(Math.abs(w - gc[i]) <= 1e-12 * Math.max(1, Math.abs(gc[i])), `corrector G_${i}: ${w} vs ${gc[i]}`);
     }
+  });
+});
+
+describe('a step\'s dense output in power form (AdamsSegment.of) against the Newton form it comes from', () => {
+  it('gives the Newton form\'s values inside the step, and the step\'s ends bit for bit', () => {
+    // nodes in units of h (corrector order: 1, 0, then the past), differences of two states
+    const x = Float64Array.of(1, 0, -0.8, -1.7, -2.9, -3.6);
+    const m = 5;
+    const rows = Array.from({ length: m + 1 }, (_, i) => Float64Array.of(Math.cos(i + 1) / (i + 1), -0.3 * (i - 2.5)));
+    const flat = new Float64Array((m + 1) * 2);
+    rows.forEach((r, i) => flat.set(r, i * 2));
+    const y0 = Float64Array.of(1.5, -0.25);
+    const y1 = Float64Array.of(1.7, -0.2);
+    const h = 12.5;
+    const power = AdamsSegment.of(100, 100 + h, h, y0, y1, flat, x, 0, m);
+    const newton = AdamsSegment.ofRows(100, 100 + h, h, y0, y1, rows, x, m);
+    const a = new Float64Array(2), b = new Float64Array(2);
+    for (const f of [0, 0.1, 0.37, 0.5, 0.81, 0.999, 1]) {
+      power.eval(100 + f * h, a);
+      newton.eval(100 + f * h, b);
+      for (let c = 0; c < 2; c++) assert.ok(Math.abs(a[c] - b[c]) <= 1e-13 * Math.max(1, Math.abs(b[c])), `θ = ${f}, state ${c}: ${a[c]} vs ${b[c]}`);
+    }
+    power.eval(100 + h, a);
+    assert.deepEqual(Array.from(a), Array.from(y1));
   });
 });
 

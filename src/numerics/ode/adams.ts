@@ -15,8 +15,9 @@
  * the estimate swung between 1e-4 and 0.1 of the tolerance from one step to the next, against
  * the true local error (largest where the estimate was smallest), the step see-sawed by
  * ±20 %, and the global error reached 1.63 units. With the final evaluation the estimates
- * hold, the steps are about twice as long and the order higher, for fewer evaluations in all
- * on four of the five smooth work-precision problems (bench/README.md).
+ * hold and the steps are about twice as long: within 1 unit on the five smooth work-precision
+ * problems, for fewer evaluations on Bateman, about as many on two, more on two (up to half
+ * as many again on Michaelis–Menten), each within 1.25x LSODA (bench/README.md).
  *
  * - Error estimate: the corrector of order k + 1 is propagated (local extrapolation); the
  *   difference to the corrector of order k, h·G_k·f[t_{n+1}, …, t_{n-k+1}] in the Newton
