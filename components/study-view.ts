@@ -53,14 +53,19 @@ export class StudyView extends LitElement {
     .name-notes { border-left: 4px solid #5b6670; background: #f3f5f7; padding: 0.3rem 0.9rem; margin: 0 0 0.8rem; color: #2b3640; font-size: 0.9rem; }
     .name-notes p { margin: 0.25rem 0; }
     .caution { border-left: 4px solid #a85d00; background: #fff3df; padding: 0.55rem 0.9rem; margin: 0 0 0.8rem; color: #3d2a00; }
-    article { border: 1px solid #c9d1d8; border-radius: 6px; background: #fff; margin: 0 0 0.9rem; padding: 0.6rem 0.9rem 0.7rem; break-inside: avoid; contain: layout style; }
+    /* position: a paint layer of its own, so a redraw of one cell repaints that cell, not the page */
+    article { position: relative; border: 1px solid #c9d1d8; border-radius: 6px; background: #fff; margin: 0 0 0.9rem; padding: 0.6rem 0.9rem 0.7rem; break-inside: avoid; contain: layout style; }
     /* a large study: cells far from the view are neither laid out nor painted (each editor made measures the page);
        they count as 11rem tall. Not 'auto 11rem': the remembered sizes cost up to 16 layout passes in one task */
     .large article { content-visibility: auto; contain-intrinsic-size: 11rem; }
     @media print { .large article { content-visibility: visible; } }
     article.failed { border-color: #b3261e; box-shadow: inset 3px 0 0 #b3261e; }
-    article.fresh { animation: flash 0.6s ease-out; }
-    @keyframes flash { from { box-shadow: 0 0 0 3px rgba(29, 95, 168, 0.35); } to { box-shadow: 0 0 0 0 rgba(29, 95, 168, 0); } }
+    /* a cell whose figures changed glows for a moment: a ring that fades, its opacity animated by the
+       compositor (an animated box-shadow repainted the cell at every frame, through a whole slider drag) */
+    article.fresh::after { content: ''; position: absolute; inset: -1px; border-radius: 6px; box-shadow: 0 0 0 3px rgba(29, 95, 168, 0.35);
+      opacity: 0; pointer-events: none; animation: flash 0.6s ease-out; }
+    @keyframes flash { from { opacity: 1; } to { opacity: 0; } }
+    @media print { article.fresh::after { display: none; } }
     header.cell { display: flex; flex-wrap: wrap; align-items: center; gap: 0.4rem; margin-bottom: 0.3rem; }
     header.cell .grow { font-weight: 600; flex: 1 1 10rem; color: #13202b; }
     header.cell .tools { white-space: nowrap; }
