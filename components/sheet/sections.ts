@@ -194,7 +194,7 @@ function timeChart(plot: SimulationPlot, summary: unknown, log = false, band?: E
     logY: log,
     label: summaryOr(summary, `${shown.map((s) => s.name).join(', ')} against time`),
     xLabel: `time (${plot.timeUnit})`,
-    yLabels: units.map((u) => `${[...new Set(shown.filter((s) => s.unit === u).map((s) => axisNameOf(plot, plot.states.indexOf(s))))].join(', ')} (${u})`),
+    yLabels: units.map((u) => `${[...new Set(shown.filter((s) => s.unit === u).map((s) => axisNameOf(plot, plot.states.indexOf(s))))].join(', ')}${u ? ` (${u})` : ''}`),
     lines: shown.map((s) => ({ label: s.name, x: plot.t, y: s.values, axis: units.indexOf(s.unit) === 1 ? 1 : 0 })),
     points,
     bands: (band?.states ?? []).filter((b) => shown.some((s) => s.name === b.name)).map((b) => ({
