@@ -22,7 +22,7 @@ import { chromium } from 'playwright-core';
 import { freePort } from '../test/e2e/serve.mjs';
 // @ts-expect-error: a plain JavaScript module shared with the end-to-end tests
 import { startTrace } from '../test/e2e/trace.mjs';
-import { IN_PAGE, CL_SLIDER, WITHOUT_MC } from './browser.ts';
+import { IN_PAGE, CL_SLIDER, WITHOUT_MC, untilServed } from './browser.ts';
 
 type TraceEvent = { ph: string; name: string; pid: number; tid: number; dur?: number; tdur?: number; args?: any };
 
@@ -44,10 +44,7 @@ const preview = spawn(process.execPath, ['node_modules/vite/bin/vite.js', 'previ
 const url = `http://127.0.0.1:${port}/`;
 const profile = mkdtempSync(join(tmpdir(), 'ratebook-drag-'));
 try {
-  for (let i = 0; i < 100; i++) {
-    try { if ((await fetch(url)).ok) break; } catch { /* not yet */ }
-    await new Promise((r) => setTimeout(r, 100));
-  }
+  await untilServed(url);
   const context = await chromium.launchPersistentContext(profile, { executablePath: process.env.CHROME_PATH ?? '/usr/bin/chromium', headless: true, viewport: { width: 1280, height: 900 }, args: ['--no-sandbox', '--disable-gpu'] });
   const page = context.pages()[0] ?? (await context.newPage());
   await page.goto(url);

@@ -15,6 +15,8 @@ import { ref } from 'lit/directives/ref.js';
 import { guard } from 'lit/directives/guard.js';
 import { pendingLine, pendingStyles } from './pending-line.ts';
 
+const DESCRIPTION_PLACEHOLDER = 'What this study is about (optional; printed on the sheet)';
+
 /**
  * The open study: its title, cautions, every cell in order with its result, and the tools to
  * add, move, retitle and delete cells, undo and redo. Each change goes through the
@@ -84,8 +86,8 @@ export class StudyView extends LitElement {
     .sheet-bar { display: flex; flex-wrap: wrap; gap: 0.5rem; align-items: center; margin: 0.4rem 0 1rem; }
     .sheet-bar .hint { font-size: 0.85rem; color: #4a5560; }
     .paper { background: #fff; max-width: 180mm; margin: 0 auto; padding: 14mm 15mm; box-shadow: 0 1px 4px rgba(0, 0, 0, 0.25); }
-    .description { display: block; box-sizing: border-box; width: 100%; font: inherit; font-size: 0.92rem; color: #2b3640; border: 1px solid transparent; border-radius: 4px; padding: 0.2rem 0.35rem; background: transparent; resize: vertical; margin: 0 0 0.4rem; }
-    .description:hover, .description:focus { border-color: #9aa6b1; background: #fff; }
+    /* the description grows with its text (wrap-field.ts's grid: a hidden copy gives the height); line breaks are kept */
+    .grow.description { font-size: 0.92rem; color: #2b3640; margin: 0 0 0.4rem; }
     .author { font: inherit; font-size: 0.9rem; border: 1px solid #c9d1d8; border-radius: 4px; padding: 0.2rem 0.4rem; width: 12rem; }
     @media print {
       .sheet-instead, .sheet-bar { display: none !important; }
@@ -179,8 +181,8 @@ export class StudyView extends LitElement {
         <button @click=${() => this.dispatchEvent(new CustomEvent('sheet-mode', { detail: { mode: 'sheet' }, bubbles: true, composed: true }))} title="The study as a document to print or save as PDF">Printable sheet</button>
         <span class="status ${c.busy ? 'busy' : ''}" role="status" aria-live="polite">${c.busy ? 'computing…' : saveText(c.saveState)}</span>
       </div>
-      <textarea class="description" data-field="description" rows="1" aria-label="What the study is about" placeholder="What this study is about (optional; printed on the sheet)" .value=${study.description ?? ''}
-        @input=${(e: Event) => c.edit({ type: 'describe', description: (e.target as HTMLTextAreaElement).value }, 'description')}></textarea>
+      <div class="grow description" data-text=${study.description || DESCRIPTION_PLACEHOLDER}><textarea class="description" data-field="description" rows="1" aria-label="What the study is about" placeholder=${DESCRIPTION_PLACEHOLDER} .value=${study.description ?? ''}
+        @input=${(e: Event) => c.edit({ type: 'describe', description: (e.target as HTMLTextAreaElement).value }, 'description')}></textarea></div>
       ${(report?.cautions ?? []).map((x) => html`<p class="caution" role="note"><strong>Caution.</strong> ${x.text}</p>`)}
       ${report?.warningParts?.length ? html`<section class="name-notes" aria-label="How this study's names are read">
         ${report.warningParts.map((p) => { const w = partsWords(study, p); return html`<p>${w[0].toUpperCase()}${w.slice(1)}.</p>`; })}</section>` : nothing}
