@@ -203,7 +203,9 @@ export class StudyView extends LitElement {
     const idle = r?.ok && r.computed === false;
     const fresh = c.changed.includes(cell.id);
     // still computing (a Monte Carlo, or a cell reading one): its previous figures, dimmed, and
-    // drawn again only when its cell or its report changes (the controller keeps an unchanged one)
+    // drawn again only when its cell or its report changes (the controller keeps an unchanged
+    // one); errors it shows are worded from the study (other cells' titles and problems), so
+    // a cell with errors is drawn again when the study or its report changes too
     const pending = c.pending.includes(cell.id);
     return html`<article data-cell=${cell.id} class="${failed ? 'failed' : ''} ${fresh ? 'fresh' : ''} ${pending ? 'pending' : ''}" aria-label="${cell.title || cell.id} (${info.label})"
         @cell-edit=${(e: CustomEvent<CellEditDetail>) => { e.stopPropagation(); c.edit({ type: 'replace', cell: e.detail.cell }, e.detail.mergeKey); }}>
@@ -219,7 +221,7 @@ export class StudyView extends LitElement {
         </span>
       </header>
       ${pending ? pendingLine(cell.id, c.progress, (id) => { const t = c.study?.cells.find((x) => x.id === id)?.title; return t ? `"${t}"` : `cell ${id}`; }) : nothing}
-      ${pending ? guard([cell, r], () => info.render(cell, r, report, c.study)) : info.render(cell, r, report, c.study)}
+      ${pending ? guard(r?.ok === false ? [cell, r, report, c.study] : [cell, r], () => info.render(cell, r, report, c.study)) : info.render(cell, r, report, c.study)}
     </article>`;
   }
 
