@@ -39,37 +39,33 @@ const KEYS = [['p025', 0.025, '2.5 percentile'], ['median', 0.5, 'median'], ['p9
 
 const withUnit = (text: string, unit: string): string => (unit ? `${text} ${unitAfterNumber(unit)}` : text);
 const count = (n: number): string => n.toLocaleString('en-US');
-/** 1st, 2nd, 3rd, 4th, 11th, 12th, 13th, 21st, 1,936th. */
-export function ordinal(n: number): string {
-  const tens = n % 100, ones = n % 10;
-  const end = tens >= 11 && tens <= 13 ? 'th' : ones === 1 ? 'st' : ones === 2 ? 'nd' : ones === 3 ? 'rd' : 'th';
-  return `${count(n)}${end}`;
-}
-
 /** `x` to the place `place`, written with that many decimals. */
 const fixed = (x: number, place: number): string => roundTo(x, place).toFixed(Math.min(20, decimalsOf(place)));
 
+/** `digits ± u unit` where the two share a unit ("3.9 ± 0.2 mg / L"), else each with its own ("19.12 degC ± 0.024 K"). */
+function plusMinus(digits: string, unit: string, u: ReportQuantity): string {
+  const spread = formatNumber(u.value, 2);
+  return u.unit === unit ? withUnit(`${digits} ± ${spread}`, unit) : `${withUnit(digits, unit)} ± ${withUnit(spread, u.unit)}`;
+}
+
 /** One percentile's fields and words. */
 function onePercentile(sorted: Float64Array, p: number, label: string, si: number, scale: ResultScale): { fields: PercentilePrecision; words: string } {
-  const n = sorted.length;
   const q = scale.at(si);
   const ci = quantileInterval(sorted, p);
   if (ci.low === undefined || ci.high === undefined || ci.u === undefined) {
     const shown = withUnit(formatNumber(q.value), q.unit);
-    const side = ci.low === undefined && ci.high === undefined ? 'either end' : ci.low === undefined ? 'its lower end' : 'its upper end';
-    return { fields: { shown }, words: `${label} ${shown} (fewer than ${count(fewestForInterval(p))} samples: no sample bounds ${side} of its 95% interval)` };
+    return { fields: { shown }, words: `${label} ${shown} (fewer than ${count(fewestForInterval(p))} samples: no interval from order statistics)` };
   }
   const low = scale.at(ci.low), high = scale.at(ci.high), u = scale.diff(ci.u);
-  const ranks = `the ${ordinal(ci.r)} and ${ordinal(ci.s)} smallest of ${count(n)}`;
   const fields = { ci95: { low, high }, ranks: [ci.r, ci.s] as [number, number], coverage: ci.coverage, u };
   if (!(u.value > 0)) {
     const shown = withUnit(formatNumber(q.value), q.unit);
-    return { fields: { shown, ...fields }, words: `${label} ${shown}, with no Monte Carlo error (its 95% interval's ends, ${ranks}, are equal)` };
+    return { fields: { shown, ...fields }, words: `${label} ${shown} ± 0 (the samples at both ends of its interval are equal)` };
   }
   const place = leadingPlace(u.value);
-  const shown = withUnit(fixed(q.value, place), q.unit);
-  const ends = `${withUnit(fixed(low.value, place / 10), low.unit)} to ${withUnit(fixed(high.value, place / 10), high.unit)}`;
-  return { fields: { shown, ...fields }, words: `${label} ${shown} ± ${withUnit(formatNumber(u.value, 2), u.unit)} (95% interval ${ends}, ${ranks})` };
+  const digits = fixed(q.value, place);
+  const ends = withUnit(`${fixed(low.value, place / 10)} to ${fixed(high.value, place / 10)}`, q.unit);
+  return { fields: { shown: withUnit(digits, q.unit), ...fields }, words: `${label} ${plusMinus(digits, q.unit, u)} (${ends})` };
 }
 
 /**
@@ -87,10 +83,10 @@ export function percentileFields(s: SampleFigures, scale: ResultScale): Percenti
   }
   const se = scale.diff(sdSE(s.sd, s.kurtosis, n));
   const sdWords = s.sd > 0
-    ? `The SD's Monte Carlo standard error is ${withUnit(formatNumber(se.value, 2), se.unit)} (for large n, SD·sqrt((κ − 1)/(4n)) with the samples' kurtosis κ = ${formatNumber(s.kurtosis, 3)}).`
-    : 'The SD is 0: every sample gave the same value.';
+    ? `the SD's Monte Carlo standard error ${withUnit(formatNumber(se.value, 2), se.unit)} (samples' kurtosis ${formatNumber(s.kurtosis, 3)})`
+    : 'the SD is 0: every sample gave the same value';
   return {
     percentiles, sdSE: se,
-    percentilePrecision: `Each percentile to the place of its standard uncertainty's first digit (its distribution-free 95% interval's width / 3.92, from order statistics): ${said.join('; ')}. ${sdWords}`,
+    percentilePrecision: `Percentiles, each to the place of its own Monte Carlo uncertainty (in brackets the 95% interval for the percentile itself, from order statistics): ${said.join('; ')}; ${sdWords}.`,
   };
 }
