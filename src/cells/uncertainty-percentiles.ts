@@ -62,9 +62,11 @@ function onePercentile(sorted: Float64Array, p: number, label: string, si: numbe
     const shown = withUnit(formatNumber(q.value), q.unit);
     return { fields: { shown, ...fields }, words: `${label} ${shown} ± 0 (the samples at both ends of its interval are equal)` };
   }
-  const place = leadingPlace(u.value);
+  // at most 12 significant digits of the value: past them a place shows the binary noise of its digits
+  const place = q.value !== 0 ? Math.max(leadingPlace(u.value), leadingPlace(Math.abs(q.value)) * 1e-11) : leadingPlace(u.value);
   const digits = fixed(q.value, place);
-  const ends = withUnit(`${fixed(low.value, place / 10)} to ${fixed(high.value, place / 10)}`, q.unit);
+  const finer = q.value !== 0 ? Math.max(place / 10, leadingPlace(Math.abs(q.value)) * 1e-11) : place / 10;
+  const ends = withUnit(`${fixed(low.value, finer)} to ${fixed(high.value, finer)}`, q.unit);
   return { fields: { shown: withUnit(digits, q.unit), ...fields }, words: `${label} ${plusMinus(digits, q.unit, u)} (${ends})` };
 }
 

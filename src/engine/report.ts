@@ -365,7 +365,7 @@ export interface UncertaintyResult {
  * to the place that uncertainty supports.
  */
 export interface PercentilePrecision {
-  /** The percentile with its unit, rounded to the place of the first digit of `u` ("3.1 h"); 4 significant figures where there is no `u`. */
+  /** The percentile with its unit, rounded to the place of the first digit of `u` ("3.1 h"), to at most 12 significant digits; 4 significant figures where there is no `u`. */
   shown: string;
   /** The samples of ranks `ranks[0]` and `ranks[1]` (1-based, ascending) hold the percentile of the distribution with probability `coverage` (at least 0.95); absent with too few samples. */
   ci95?: { low: ReportQuantity; high: ReportQuantity };

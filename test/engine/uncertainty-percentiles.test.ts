@@ -137,6 +137,19 @@ describe('too few samples, and the linear method', () => {
     assert.match(x.percentilePrecision!, /97\.5 percentile [\d.]+ g \(fewer than 146 samples: no interval from order statistics\)/);
   });
 
+  it('a spread far below the value\'s 12th digit: the percentiles shown to 12 significant digits, not to the binary noise past them', () => {
+    const r = cell(reportOf({
+      format: 'ratebook-study', version: 1, title: 'a tiny spread (invented numbers)',
+      cells: [
+        { id: 'p', kind: 'parameters', items: [{ name: 'x', value: '1 g', spread: { distribution: 'normal', sd: '1e-14 g' } }, { name: 'w', value: 'x * 3' }] },
+        { id: 'how', kind: 'uncertainty', of: ['w'], samples: 2000, seed: 1 },
+      ],
+    }), 'how') as ReportOf<'uncertainty'>;
+    const pc = r.results!.w.percentiles!;
+    assert.ok(pc.median.u!.value < 1e-14, 'the uncertainty is below the 12th digit');
+    for (const key of KEYS) assert.equal(pc[key].shown, '3.00000000000 g');
+  });
+
   it('the linear method has no Monte Carlo precision fields', () => {
     const x = (cell(reportOf(study(2000, 1, 'linear')), 'how') as ReportOf<'uncertainty'>).results!.w;
     assert.equal(x.percentiles, undefined);
