@@ -21,13 +21,14 @@
  * Pure numbers; no units.
  */
 
-/** Mass left outside the window of binomial terms summed: beyond 12 SDs of the mean and 40 terms. */
+/** The window of binomial terms summed: 12 SDs and 40 terms either side of the mode. */
 const WINDOW_SDS = 12;
 const WINDOW_MIN = 40;
 
 /**
  * The distribution function of Binomial(n, p) on a window around its mode that holds all but
- * a negligible share of its mass (under 1e-30 by the Chernoff bound): `cdf(k)` = P(B ≤ k),
+ * a negligible share of its mass (below 1e-20 for the p of the 2.5, 50 and 97.5 percentiles, by
+ * the multiplicative Chernoff bounds exp(−δ²μ/(2 + δ)) and exp(−δ²μ/2)): `cdf(k)` = P(B ≤ k),
  * 0 below the window and 1 above it. The terms are built from the mode by the ratio of
  * consecutive terms, pmf(k + 1)/pmf(k) = (n − k)/(k + 1) · p/(1 − p), and scaled by their sum,
  * so no factorial or power of n is formed (no underflow at n = 100,000). Cost: O(√n).
