@@ -16,6 +16,7 @@ import { setGeneratedCode } from '../src/expression/compile.ts';
 import { phaseBenchmarks } from './phase.ts';
 import { odeBench, stiffBench } from './ode.ts';
 import { REFERENCE_VERSION, workPrecisionBench } from './work-precision.ts';
+import { stepCostRows } from './adams-step.ts';
 import { simulateBenchmarks, fitCellBenchmarks } from './simulate.ts';
 import { browserBenchmarks } from './browser.ts';
 import { openLargeStudyBenchmarks } from './browser-open.ts';
@@ -389,6 +390,7 @@ const SECTIONS: readonly Section[] = [
   { title: 'ODE integration against odex at equal accuracy', run: odeRows },
   { title: 'Stiff method on y\' = -1e4 (y - cos t) against LSODA', run: stiffRows },
   { title: 'ODE work-precision: auto against SciPy solve_ivp at equal accuracy', run: workPrecisionRows },
+  { title: 'ODE step cost: adams against dopri5, alternating', run: stepCostRows },
   { title: 'Simulating a dosing schedule', run: simulateRows },
   { title: 'What-if runs of a dosing schedule', run: whatIfRows },
   { title: 'Rate law runs: generated code against closures', run: closureRows },

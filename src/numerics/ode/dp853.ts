@@ -51,11 +51,13 @@ export const DP853_CONTROL: StepControl = {
  * stability edge, so the test fires above 5 times the h|λ| of an accuracy-limited step on a
  * present mode (1.7 at rtol 1e-10, 4.0 at 1e-7); 10 signals (a dp853 step costs 2.5 dopri5
  * steps) instead of 15 let `auto` switch within 0.01 s there, in 630 … 1 100 evaluations.
+ * Two, as dopri5's, once J's dominant eigenvalue is known to be fast over the rest of the run.
  */
 export const DP853_STIFFNESS = {
   threshold: 6.1,
   signals: 10,
   reset: 6,
+  fastSignals: 2,
   activeModeMultiple: 5,
   stages: [12, 11] as const,
 } as const;

@@ -7,7 +7,10 @@
  * - Step size: PI control, Hairer, Nørsett & Wanner, Solving ODEs I, sec. II.4 (eq. 4.13);
  *   starting step from the same section.
  * - Stiffness detection: Hairer & Wanner, Solving ODEs II, sec. IV.2 ("Automatic stiffness
- *   detection"): h·λ is estimated from two stages that share the point t + h.
+ *   detection"): h·λ is estimated from two stages that share the point t + h. Where J's
+ *   dominant eigenvalue (by power iteration, `dominantRate` in `jacobian.ts`) would decay
+ *   e-fold `STIFF_SPAN` times over the rest of the run, as the stiff method's own choice
+ *   asks (`stiff-choice.ts`), `fastSignals` tests above the edge are enough.
  */
 import {
   type OdeContext, type StepOutcome, type Stepper,
@@ -16,6 +19,8 @@ import {
 import { startStep } from './start-step.ts';
 import { type ButcherTableau, RkWork, rkStages, rkStep } from './explicit-rk.ts';
 import type { DenseSegment } from './types.ts';
+import { STIFF_SPAN } from './stiff-choice.ts';
+import { dominantRate } from './jacobian.ts';
 
 /** Step-size factor constants of a pair. */
 export interface StepControl {
@@ -44,6 +49,11 @@ export interface StiffnessTest {
   readonly signals: number;
   /** Consecutive negative tests that clear the count. */
   readonly reset: number;
+  /**
+   * Positive tests enough when the mode the test sees would still decay e-fold at least
+   * `STIFF_SPAN` times over what is left of the run (|λ|·(tEnd - t) ≥ `STIFF_SPAN`).
+   */
+  readonly fastSignals: number;
   /**
    * The threshold is also at most this multiple of the h|λ| an accuracy-limited step would
    * have on a mode that is present (`activeModeHLambda`): a step that much longer can only
@@ -101,6 +111,13 @@ export class EmbeddedRkStepper implements Stepper {
   private errOld: number;
   private stiffSignals = 0;
   private calmTests = 0;
+  /**
+   * Whether J's dominant eigenvalue at the first step whose test suggested it was fast
+   * enough that |λ|·(span left) ≥ `STIFF_SPAN` (`fastMode`); undefined until then.
+   */
+  private fast: boolean | undefined = undefined;
+  /** Work arrays of `fastMode`, made on first use. */
+  private rateWork: Float64Array[] | null = null;
   /** h|λ| above which a step counts as a sign of stiffness (see `StiffnessTest`). */
   private stiffThreshold: number;
 
@@ -133,6 +150,7 @@ export class EmbeddedRkStepper implements Stepper {
     this.errOld = this.pair.control.errFloor;
     this.stiffSignals = 0;
     this.calmTests = 0;
+    this.fast = undefined;
     this.mark.clear();
     const S = this.pair.stiffness;
     this.stiffThreshold = Math.min(S.threshold, S.activeModeMultiple * this.pair.activeModeHLambda(ctx.options.rtol));
@@ -176,7 +194,7 @@ export class EmbeddedRkStepper implements Stepper {
       }
       if (norm <= 1) {
         const segment = pair.segment(t, tNew, h, y, yNew, k);
-        this.detectStiffness(h, tNew);
+        this.detectStiffness(h, tNew, tEnd);
         let factor = norm === 0 ? C.maxFactor : C.safety * Math.pow(norm, -C.alpha) * Math.pow(this.errOld, C.beta);
         factor = Math.min(rejected ? 1 : C.maxFactor, Math.max(C.minFactor, factor));
         this.errOld = Math.max(norm, C.errFloor);
@@ -202,9 +220,11 @@ export class EmbeddedRkStepper implements Stepper {
   /**
    * h·λ ≈ h·|k_a - k_b| / |arg_a - arg_b| for the two stages of `StiffnessTest.stages`, both
    * at t + h: their rates differ by about J·(difference of their arguments). Stiffness is
-   * reported after `signals` tests above the threshold.
+   * reported after `signals` tests above the threshold, or `fastSignals` once `fastMode`
+   * found a fast mode (asked once a run, at the first test above the threshold whose
+   * |λ|·(tEnd - t) reaches `STIFF_SPAN`).
    */
-  private detectStiffness(h: number, tNew: number): void {
+  private detectStiffness(h: number, tNew: number, tEnd: number): void {
     const k = this.work.k;
     const S = this.pair.stiffness;
     // read by index: destructuring the pair would allocate on every step
@@ -224,14 +244,39 @@ export class EmbeddedRkStepper implements Stepper {
       den += dy * dy;
     }
     if (den <= 0) return;
-    const hLambda = h * Math.sqrt(num / den);
+    const lambda = Math.sqrt(num / den);
+    const hLambda = h * lambda;
     if (hLambda > this.stiffThreshold) {
       this.calmTests = 0;
       this.stiffSignals++;
-      if (this.stiffSignals >= S.signals && this.stiffAt === null) this.stiffAt = tNew;
+      if (this.fast === undefined && lambda * (tEnd - tNew) >= STIFF_SPAN) this.fast = this.fastMode(h, tNew, tEnd);
+      const enough = this.fast === true ? S.fastSignals : S.signals;
+      if (this.stiffSignals >= enough && this.stiffAt === null) this.stiffAt = tNew;
     } else {
       this.calmTests++;
       if (this.calmTests >= S.reset) this.stiffSignals = 0;
     }
+  }
+
+  /**
+   * Whether the run has a mode that decays e-fold `STIFF_SPAN` times over what is left of it:
+   * J's dominant |λ| at the step's end by power iteration (`dominantRate`, from the
+   * direction the test measured along). The test's own ratio is a norm, which a coupling
+   * between states of different units can inflate, so it only prompts this check, once a run.
+   */
+  private fastMode(h: number, tNew: number, tEnd: number): boolean {
+    const n = this.ctx.n;
+    const k = this.work.k;
+    const S = this.pair.stiffness;
+    const rowA = this.pair.a[S.stages[0]];
+    const rowB = this.pair.a[S.stages[1]];
+    const [v, probe, fv] = this.rateWork ??= [new Float64Array(n), new Float64Array(n), new Float64Array(n)];
+    for (let i = 0; i < n; i++) {
+      let dy = 0;
+      for (let j = 0; j < Math.max(S.stages[0], S.stages[1]); j++) dy += ((rowA[j] ?? 0) - (rowB[j] ?? 0)) * k[j][i];
+      v[i] = h * dy;
+    }
+    const rate = dominantRate(this.ctx, tNew, this.yNew, k[this.pair.newRateStage], v, probe, fv);
+    return rate * (tEnd - tNew) >= STIFF_SPAN;
   }
 }

@@ -1,6 +1,7 @@
 /**
  * The NDF's formulas apart from its step loop (`ndf.ts`): the coefficients by order, the
- * change of step size by rescaling backward differences, and the dense output. After
+ * step loop's constants, the change of step size by rescaling backward differences, and the
+ * dense output. After
  * Shampine & Reichelt, "The MATLAB ODE Suite", SIAM J. Sci. Comput. 18 (1997), 1–22, sec. 2.
  */
 import { type DenseSegment, writeStepEnd } from './types.ts';
@@ -22,6 +23,51 @@ export const NDF = (() => {
   const errorConst = [...kappa, 0].map((kk, k) => kk * gamma[k] + 1 / (k + 1));
   return { kappa, gamma, alpha, errorConst } as const;
 })();
+
+/** The NDF stepper's step-size and Newton constants (`ndf.ts`) (Hairer & Wanner II, sec. IV.8; common practice). */
+export const NDF_CONTROL = {
+  /** Safety factor on the predicted step. */
+  safety: 0.9,
+  minFactor: 0.2,
+  maxFactor: 10,
+  /**
+   * The error estimate is taken at least this many times over, in the step's test and in
+   * the choice of order alike; more where errors add up (`ndf-accumulation.ts`). Measured over
+   * rtol 1e-3 … 1e-10 with the Newton test below, the largest error at the steps was, with a
+   * fixed margin of 3, 10 and 30: 2×2 system with eigenvalues -1 and -1000 1.3–40, 0.5–15,
+   * 0.26–6.0 units (its errors add up: see `ndf-accumulation.ts`); Robertson 0–3.8, 0.01–1.6,
+   * 0.04–0.64; y' = -1e4 (y - cos t) 0.4–4.5, 0.08–1.7, 0.04–0.67; for about 30 % more
+   * evaluations from 3 to 30 (still below LSODA's on the forced problem at every tolerance).
+   * So 30.
+   */
+  errorMargin: 30,
+  /** Most Newton iterations per attempt. */
+  newtonIterations: 4,
+  /**
+   * The iteration stops when its predicted remaining error is below this fraction of the
+   * tolerance (κ of Hairer & Wanner IV.8, between 0.01 and 0.1), and no lower than a few
+   * roundoffs of the solution.
+   */
+  newtonFraction: 0.03,
+  /** Factor for a step whose iteration failed with a fresh Jacobian, or met a non-finite f. */
+  failShrink: 0.5,
+  /**
+   * An iteration that shrinks the correction by less than this fails, and a measured rate
+   * falls by at most this factor per iteration (Shampine & Reichelt 1997, ode15s: 0.9).
+   */
+  slowRate: 0.9,
+  /** The first iteration stops on a remembered rate only within this share of the tolerance (ode15s: 0.1). */
+  firstIterationShare: 0.1,
+  nonFiniteShrink: 0.25,
+  /**
+   * The global error is carried with the kept Jacobian (`ndf-accumulation.ts`) only while
+   * the Newton iteration's measured rate is below this: the rate is about how far the kept J
+   * is from the present one. On Robertson's problem J from t = 0 has no coupling through y2
+   * and y3, so an error in y2 looked as if it never decayed, and the margin rose to its cap
+   * (12 000–108 000 evaluations instead of 275–1 708).
+   */
+  trustRate: 0.01,
+} as const;
 
 /**
  * Rescales backward differences D[0..k] (to the step h) to the step ρh, in place:

@@ -37,48 +37,10 @@ import {
 import { type StiffStart, formJacobian } from './jacobian.ts';
 import { luFactor, luSolve } from './lu.ts';
 import type { Jacobian } from './types.ts';
-import { NDF, NDF_MAX_ORDER, NdfSegment, rescaleDifferences } from './ndf-formulas.ts';
+import { NDF, NDF_CONTROL, NDF_MAX_ORDER, NdfSegment, rescaleDifferences } from './ndf-formulas.ts';
+import { ErrorAccumulation } from './ndf-accumulation.ts';
 
-export { NDF, NDF_MAX_ORDER, NdfSegment, rescaleDifferences };
-
-/** Step-size and Newton constants (Hairer & Wanner II, sec. IV.8; common practice). */
-export const NDF_CONTROL = {
-  /** Safety factor on the predicted step. */
-  safety: 0.9,
-  minFactor: 0.2,
-  maxFactor: 10,
-  /**
-   * The error estimate is taken this many times over, in the step's test and in the choice
-   * of order alike. A local test bounds each step's error, not the sum: where errors do not
-   * decay they add up. On the 2×2 system with eigenvalues -1 and -1000 the slow mode e^{-t}
-   * keeps each step's relative error, so after the transient the error in tolerance units
-   * grows linearly with t (measured: about 200 steps at order 5 over [0.6, 10] at rtol 1e-8).
-   * Measured over rtol 1e-3 … 1e-10 with the Newton test below, the largest error at the
-   * steps was, with a margin of 3, 10 and 30: 2×2 system 1.3–40, 0.5–15, 0.26–6.0 units;
-   * Robertson 0–3.8, 0.01–1.6, 0.04–0.64; y' = -1e4 (y - cos t) 0.4–4.5, 0.08–1.7,
-   * 0.04–0.67; for about 30 % more evaluations from 3 to 30 (still below LSODA's on the
-   * forced problem at every tolerance). So 30.
-   */
-  errorMargin: 30,
-  /** Most Newton iterations per attempt. */
-  newtonIterations: 4,
-  /**
-   * The iteration stops when its predicted remaining error is below this fraction of the
-   * tolerance (κ of Hairer & Wanner IV.8, between 0.01 and 0.1), and no lower than a few
-   * roundoffs of the solution.
-   */
-  newtonFraction: 0.03,
-  /** Factor for a step whose iteration failed with a fresh Jacobian, or met a non-finite f. */
-  failShrink: 0.5,
-  /**
-   * An iteration that shrinks the correction by less than this fails, and a measured rate
-   * falls by at most this factor per iteration (Shampine & Reichelt 1997, ode15s: 0.9).
-   */
-  slowRate: 0.9,
-  /** The first iteration stops on a remembered rate only within this share of the tolerance (ode15s: 0.1). */
-  firstIterationShare: 0.1,
-  nonFiniteShrink: 0.25,
-} as const;
+export { NDF, NDF_CONTROL, NDF_MAX_ORDER, NdfSegment, rescaleDifferences };
 
 /** Adaptive variable-order NDF stepper. */
 export class NdfStepper implements Stepper {
@@ -107,6 +69,11 @@ export class NdfStepper implements Stepper {
   private readonly dy: Float64Array;
   private readonly mark: NonFiniteMark;
   private started = false;
+  /** The global error carried so far and the error margin it asks for (`ndf-accumulation.ts`). */
+  private readonly accumulation: ErrorAccumulation;
+  private readonly local: Float64Array;
+  /** Counts the Jacobians formed, so that the accumulation knows when J changed. */
+  private jacVersion = 0;
 
   constructor(private readonly ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number,
     private readonly jacobian?: Jacobian, private readonly start?: StiffStart) {
@@ -125,6 +92,8 @@ export class NdfStepper implements Stepper {
     this.d = new Float64Array(n);
     this.dy = new Float64Array(n);
     this.mark = new NonFiniteMark(n);
+    this.accumulation = new ErrorAccumulation(n, NDF_CONTROL.errorMargin);
+    this.local = new Float64Array(n);
     if (firstStep !== undefined) this.h = firstStep;
   }
 
@@ -186,7 +155,7 @@ export class NdfStepper implements Stepper {
         if (this.h < minStep(t)) return this.collapse();
         continue;
       }
-      const norm = this.scaledError(d, C.errorMargin * NDF.errorConst[k]);
+      const norm = this.scaledError(d, this.accumulation.margin * NDF.errorConst[k]);
       const safety = this.safety;
       if (!(norm <= 1)) {
         ctx.counters.rejected++;
@@ -195,6 +164,8 @@ export class NdfStepper implements Stepper {
         if (this.h < minStep(t)) return this.collapse();
         continue;
       }
+      for (let i = 0; i < n; i++) this.local[i] = NDF.errorConst[k] * d[i];
+      ctx.counters.factorizations += this.accumulation.accept(this.local, this.jac, this.jacVersion, h, tNew, tEnd, y, yNew, ctx.options, this.rate < C.trustRate);
       // Accept: the differences move on to y_{n+1}.
       for (let i = 0; i < n; i++) D[k + 2][i] = d[i] - D[k + 1][i];
       D[k + 1].set(d);
@@ -301,6 +272,7 @@ export class NdfStepper implements Stepper {
     if (!ctx.rhs.call(this.t, y, f)) return false;
     if (formJacobian(ctx, this.t, y, f, this.jac, this.probe, this.dy, this.jacobian)) return false;
     this.jacFresh = true;
+    this.jacVersion++;
     this.factoredFor = NaN;
     this.rate = NaN;
     return true;
@@ -323,8 +295,9 @@ export class NdfStepper implements Stepper {
     const { D } = this;
     const { errorConst } = NDF;
     const C = NDF_CONTROL;
-    const lower = k > 1 ? this.scaledError(D[k], C.errorMargin * errorConst[k - 1], this.y) : Infinity;
-    const higher = k < NDF_MAX_ORDER ? this.scaledError(D[k + 2], C.errorMargin * errorConst[k + 1], this.y) : Infinity;
+    const margin = this.accumulation.margin;
+    const lower = k > 1 ? this.scaledError(D[k], margin * errorConst[k - 1], this.y) : Infinity;
+    const higher = k < NDF_MAX_ORDER ? this.scaledError(D[k + 2], margin * errorConst[k + 1], this.y) : Infinity;
     const factors = [lower ** (-1 / k), norm ** (-1 / (k + 1)), higher ** (-1 / (k + 2))];
     let best = 1;
     for (let i = 0; i < 3; i++) if (!(factors[i] <= factors[best])) best = i;
