@@ -36,14 +36,17 @@ function bundleSizes(): { first: number; worker: number } {
   return { first, worker };
 }
 
-/** What runs in the page: drags the first slider step by step, timing each input to the repaint after the engine's answer. */
-export const IN_PAGE = `async (n) => {
-  const find = (r, sel) => {
+/** In-page JavaScript shared by the scripts below: `find(root, selector)`, the first match in the page or inside any shadow root under it. */
+const FIND = `const find = (r, sel) => {
     const hit = r.querySelector(sel);
     if (hit) return hit;
     for (const el of r.querySelectorAll('*')) if (el.shadowRoot) { const x = find(el.shadowRoot, sel); if (x) return x; }
     return null;
-  };
+  };`;
+
+/** What runs in the page: drags the first slider step by step, timing each input to the repaint after the engine's answer. */
+export const IN_PAGE = `async (n) => {
+  ${FIND}
   const view = find(document, 'study-view');
   const slider = find(document, 'input.slider');
   const long = [];
@@ -87,12 +90,7 @@ export const IN_PAGE = `async (n) => {
 
 /** Gives the trough template's CL a slider (2 to 8 L/h) through the page's own edit path, and waits for it and for the Monte Carlo. */
 export const CL_SLIDER = `async () => {
-  const find = (r, sel) => {
-    const hit = r.querySelector(sel);
-    if (hit) return hit;
-    for (const el of r.querySelectorAll('*')) if (el.shadowRoot) { const x = find(el.shadowRoot, sel); if (x) return x; }
-    return null;
-  };
+  ${FIND}
   const view = find(document, 'study-view');
   const regimen = view.controller.study.cells.find((c) => c.id === 'regimen');
   view.controller.edit({ type: 'replace', cell: { ...regimen, items: regimen.items.map((it) => it.name === 'CL' ? { ...it, range: ['2 L / h', '8 L / h'] } : it) } });
@@ -101,12 +99,7 @@ export const CL_SLIDER = `async () => {
 
 /** Removes the trough template's uncertainty cell through the page's own edit path, and waits for the answer. */
 export const WITHOUT_MC = `async () => {
-  const find = (r, sel) => {
-    const hit = r.querySelector(sel);
-    if (hit) return hit;
-    for (const el of r.querySelectorAll('*')) if (el.shadowRoot) { const x = find(el.shadowRoot, sel); if (x) return x; }
-    return null;
-  };
+  ${FIND}
   const view = find(document, 'study-view');
   view.controller.edit({ type: 'remove', id: 'between-patients' });
   while (view.controller.busy || view.controller.report.cells.some((c) => c.id === 'between-patients')) await new Promise((r) => setTimeout(r, 20));
@@ -134,6 +127,14 @@ function monteCarloRows(d: Drag, without: Drag, steps: number): BrowserRow[] {
   ];
 }
 
+/** Waits until the preview server answers at `url` (at most about 10 s: then the page load that follows says what is wrong). */
+export async function untilServed(url: string): Promise<void> {
+  for (let i = 0; i < 100; i++) {
+    try { if ((await fetch(url)).ok) return; } catch { /* not yet */ }
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
 export async function browserBenchmarks(steps = 120): Promise<BrowserRow[]> {
   const build = spawnSync(process.execPath, [join(root, 'node_modules', 'vite', 'bin', 'vite.js'), 'build'], { cwd: root, encoding: 'utf8' });
   if (build.status !== 0) throw new Error(`vite build failed: ${build.stderr}`);
@@ -143,10 +144,7 @@ export async function browserBenchmarks(steps = 120): Promise<BrowserRow[]> {
   const url = `http://127.0.0.1:${port}/`;
   const profile = mkdtempSync(join(tmpdir(), 'ratebook-bench-'));
   try {
-    for (let i = 0; i < 100; i++) {
-      try { if ((await fetch(url)).ok) break; } catch { /* not yet */ }
-      await new Promise((r) => setTimeout(r, 100));
-    }
+    await untilServed(url);
     const context = await chromium.launchPersistentContext(profile, {
       executablePath: process.env.CHROME_PATH ?? '/usr/bin/chromium', headless: true, viewport: { width: 1280, height: 900 },
       args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync'],

@@ -4,21 +4,23 @@
  * never freeze the page. It only relays: every computation is the engine's.
  *
  * The session defers its long cells (a Monte Carlo uncertainty cell): each edit is answered
- * with every other cell, then, once no edit has come for SETTLE_MS (a slider being dragged
- * sends one every frame, and each would start them again), the long ones are computed in
- * slices of SLICE_MS, each posted behind a message to itself, so an edit that arrives
- * meanwhile is applied between two slices (and, when it reaches their inputs, starts them
- * again). A batch of edits is applied with one evaluation. Progress goes out every
- * PROGRESS_EVERY_MS at most; a finished cell goes out as a `late` report.
+ * with every other cell, then the long ones are computed in slices of SLICE_MS, each posted
+ * behind a message to itself, so an edit that arrives meanwhile is applied between two slices.
+ * A long cell whose inputs an edit changed starts again only once no edit has changed them for
+ * SETTLE_MS (a slider being dragged sends one every frame, and each would start it again);
+ * one the edits did not reach goes on between them. A batch of edits is applied with one
+ * evaluation. Progress goes out every PROGRESS_EVERY_MS at most; a finished cell goes out as
+ * a `late` report.
  */
 import { openStudy, residualBuffers, residualColumns, type CellReport, type FromWorker, type StudySession, type ToWorker } from '../src/index.ts';
 
 /** The longest slice of deferred work, in ms: an edit waits at most this long (plus one sample) before it is applied. */
 const SLICE_MS = 2;
 /**
- * The quiet time after an edit before deferred work starts, in ms: edits closer together than
- * this (a drag, held arrow keys, typing) find the worker idle, as work started between them
- * would be thrown away by the next; the long cell's result comes this much later.
+ * The quiet time after an edit that changed a long cell's inputs before that cell starts again,
+ * in ms: edits of its inputs closer together than this (a drag, held arrow keys, typing) find
+ * it idle, as work started between them would be thrown away by the next; its result comes this
+ * much later. Long cells the edits do not reach go on between them.
  */
 const SETTLE_MS = 100;
 /** The least time between two progress messages, in ms. */
@@ -58,15 +60,11 @@ let received = 0;
 const slices = new MessageChannel();
 let scheduled = false;
 let lastProgress = 0;
+/** Set while every long cell that could start had its inputs edited less than SETTLE_MS ago. */
 let settle: ReturnType<typeof setTimeout> | undefined;
 
-/** The next slice, at once or (after an edit) once no edit has come for SETTLE_MS. */
-function schedule(afterEdit = false): void {
-  if (afterEdit) {
-    clearTimeout(settle);
-    settle = setTimeout(() => { settle = undefined; schedule(); }, SETTLE_MS);
-    return;
-  }
+/** The next slice, unless one is on its way or the long cells wait for a pause in edits. */
+function schedule(): void {
   if (scheduled || settle !== undefined || !session?.pending().length) return;
   scheduled = true;
   slices.port2.postMessage(0);
@@ -76,8 +74,12 @@ slices.port1.onmessage = () => {
   scheduled = false;
   if (!session || settle !== undefined) return;
   const started = performance.now();
-  const step = session.work(started + SLICE_MS);
+  const step = session.work(started + SLICE_MS, started - SETTLE_MS);
   if (!step) return;
+  if (step.notBefore !== undefined) {
+    settle = setTimeout(() => { settle = undefined; schedule(); }, Math.max(0, step.notBefore + SETTLE_MS - started));
+    return;
+  }
   const now = performance.now();
   if (step.answer) {
     const { report, rerun, changed } = step.answer;
@@ -88,6 +90,13 @@ slices.port1.onmessage = () => {
   }
   schedule();
 };
+
+/** After an edit (or opening): the session says again which long cells may start (an edit may have reached them, or not). */
+function afterEdit(): void {
+  clearTimeout(settle);
+  settle = undefined;
+  schedule();
+}
 
 self.onmessage = (event: MessageEvent<ToWorker>) => {
   received = performance.timeOrigin + performance.now();
@@ -104,7 +113,7 @@ self.onmessage = (event: MessageEvent<ToWorker>) => {
     session = opened.session;
     const report = session.report();
     post({ type: 'report', seq: msg.seq, report, rerun: report.cells.map((c) => c.id), changed: report.cells.map((c) => c.id), ms: performance.now() - started });
-    schedule();
+    afterEdit();
     return;
   }
   if (!session) {
@@ -114,5 +123,5 @@ self.onmessage = (event: MessageEvent<ToWorker>) => {
   const r = session.applyAll(msg.edits);
   if (!r.ok) post({ type: 'refused', seq: msg.seq, error: r.error });
   else post({ type: 'report', seq: msg.seq, report: r.report, rerun: r.rerun, changed: r.changed, ms: performance.now() - started });
-  schedule(true);
+  afterEdit();
 };

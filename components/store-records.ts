@@ -1,7 +1,7 @@
 /**
  * Checking the records the store reads back: a metadata record or a document can be damaged
  * (written by an older or broken version, edited by hand in the browser's tools). Pure: the
- * store (`store.ts`) reads the records and asks these functions what is wrong with them.
+ * store (`study-store.ts`) reads the records and asks these functions what is wrong with them.
  */
 
 /** A study whose stored records are damaged: what is wrong, what could be read, and the raw records. */

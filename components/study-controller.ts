@@ -85,6 +85,9 @@ export class StudyController implements ReactiveController {
       },
       busy: (busy: boolean) => {
         this.busy = busy;
+        // a typing or dragging edit is rendered with its answer (`renderSoon`), the status too:
+        // rendering the view now would draw every cell twice per slider position
+        if (busy && this.renderTimer !== undefined) return;
         this.host.requestUpdate();
       },
     };
@@ -234,11 +237,11 @@ export class StudyController implements ReactiveController {
     }
     this.study = out.study;
     this.journal?.(this.id!, out.study);
-    this.engine.edit(edit, out.study);
-    this.saver?.schedule({ id: this.id!, study: out.study });
     // typing and dragging wait for the answer; a structural change shows at once
     if (typing) this.renderSoon();
-    else this.host.requestUpdate();
+    this.engine.edit(edit, out.study);
+    this.saver?.schedule({ id: this.id!, study: out.study });
+    if (!typing) this.host.requestUpdate();
     return undefined;
   }
 }

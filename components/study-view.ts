@@ -15,6 +15,8 @@ import { ref } from 'lit/directives/ref.js';
 import { guard } from 'lit/directives/guard.js';
 import { pendingLine, pendingStyles } from './pending-line.ts';
 
+const DESCRIPTION_PLACEHOLDER = 'What this study is about (optional; printed on the sheet)';
+
 /**
  * The open study: its title, cautions, every cell in order with its result, and the tools to
  * add, move, retitle and delete cells, undo and redo. Each change goes through the
@@ -53,14 +55,19 @@ export class StudyView extends LitElement {
     .name-notes { border-left: 4px solid #5b6670; background: #f3f5f7; padding: 0.3rem 0.9rem; margin: 0 0 0.8rem; color: #2b3640; font-size: 0.9rem; }
     .name-notes p { margin: 0.25rem 0; }
     .caution { border-left: 4px solid #a85d00; background: #fff3df; padding: 0.55rem 0.9rem; margin: 0 0 0.8rem; color: #3d2a00; }
-    article { border: 1px solid #c9d1d8; border-radius: 6px; background: #fff; margin: 0 0 0.9rem; padding: 0.6rem 0.9rem 0.7rem; break-inside: avoid; contain: layout style; }
+    /* position: a paint layer of its own, so a redraw of one cell repaints that cell, not the page */
+    article { position: relative; border: 1px solid #c9d1d8; border-radius: 6px; background: #fff; margin: 0 0 0.9rem; padding: 0.6rem 0.9rem 0.7rem; break-inside: avoid; contain: layout style; }
     /* a large study: cells far from the view are neither laid out nor painted (each editor made measures the page);
        they count as 11rem tall. Not 'auto 11rem': the remembered sizes cost up to 16 layout passes in one task */
     .large article { content-visibility: auto; contain-intrinsic-size: 11rem; }
     @media print { .large article { content-visibility: visible; } }
     article.failed { border-color: #b3261e; box-shadow: inset 3px 0 0 #b3261e; }
-    article.fresh { animation: flash 0.6s ease-out; }
-    @keyframes flash { from { box-shadow: 0 0 0 3px rgba(29, 95, 168, 0.35); } to { box-shadow: 0 0 0 0 rgba(29, 95, 168, 0); } }
+    /* a cell whose figures changed glows for a moment: a ring that fades, its opacity animated by the
+       compositor (an animated box-shadow repainted the cell at every frame, through a whole slider drag) */
+    article.fresh::after { content: ''; position: absolute; inset: -1px; border-radius: 6px; box-shadow: 0 0 0 3px rgba(29, 95, 168, 0.35);
+      opacity: 0; pointer-events: none; animation: flash 0.6s ease-out; }
+    @keyframes flash { from { opacity: 1; } to { opacity: 0; } }
+    @media print { article.fresh::after { display: none; } }
     header.cell { display: flex; flex-wrap: wrap; align-items: center; gap: 0.4rem; margin-bottom: 0.3rem; }
     header.cell .grow { font-weight: 600; flex: 1 1 10rem; color: #13202b; }
     header.cell .tools { white-space: nowrap; }
@@ -79,8 +86,8 @@ export class StudyView extends LitElement {
     .sheet-bar { display: flex; flex-wrap: wrap; gap: 0.5rem; align-items: center; margin: 0.4rem 0 1rem; }
     .sheet-bar .hint { font-size: 0.85rem; color: #4a5560; }
     .paper { background: #fff; max-width: 180mm; margin: 0 auto; padding: 14mm 15mm; box-shadow: 0 1px 4px rgba(0, 0, 0, 0.25); }
-    .description { display: block; box-sizing: border-box; width: 100%; font: inherit; font-size: 0.92rem; color: #2b3640; border: 1px solid transparent; border-radius: 4px; padding: 0.2rem 0.35rem; background: transparent; resize: vertical; margin: 0 0 0.4rem; }
-    .description:hover, .description:focus { border-color: #9aa6b1; background: #fff; }
+    /* the description grows with its text (wrap-field.ts's grid: a hidden copy gives the height); line breaks are kept */
+    .grow.description { font-size: 0.92rem; color: #2b3640; margin: 0 0 0.4rem; }
     .author { font: inherit; font-size: 0.9rem; border: 1px solid #c9d1d8; border-radius: 4px; padding: 0.2rem 0.4rem; width: 12rem; }
     @media print {
       .sheet-instead, .sheet-bar { display: none !important; }
@@ -174,8 +181,8 @@ export class StudyView extends LitElement {
         <button @click=${() => this.dispatchEvent(new CustomEvent('sheet-mode', { detail: { mode: 'sheet' }, bubbles: true, composed: true }))} title="The study as a document to print or save as PDF">Printable sheet</button>
         <span class="status ${c.busy ? 'busy' : ''}" role="status" aria-live="polite">${c.busy ? 'computing…' : saveText(c.saveState)}</span>
       </div>
-      <textarea class="description" data-field="description" rows="1" aria-label="What the study is about" placeholder="What this study is about (optional; printed on the sheet)" .value=${study.description ?? ''}
-        @input=${(e: Event) => c.edit({ type: 'describe', description: (e.target as HTMLTextAreaElement).value }, 'description')}></textarea>
+      <div class="grow description" data-text=${study.description || DESCRIPTION_PLACEHOLDER}><textarea class="description" data-field="description" rows="1" aria-label="What the study is about" placeholder=${DESCRIPTION_PLACEHOLDER} .value=${study.description ?? ''}
+        @input=${(e: Event) => c.edit({ type: 'describe', description: (e.target as HTMLTextAreaElement).value }, 'description')}></textarea></div>
       ${(report?.cautions ?? []).map((x) => html`<p class="caution" role="note"><strong>Caution.</strong> ${x.text}</p>`)}
       ${report?.warningParts?.length ? html`<section class="name-notes" aria-label="How this study's names are read">
         ${report.warningParts.map((p) => { const w = partsWords(study, p); return html`<p>${w[0].toUpperCase()}${w.slice(1)}.</p>`; })}</section>` : nothing}
@@ -196,7 +203,9 @@ export class StudyView extends LitElement {
     const idle = r?.ok && r.computed === false;
     const fresh = c.changed.includes(cell.id);
     // still computing (a Monte Carlo, or a cell reading one): its previous figures, dimmed, and
-    // drawn again only when its cell or its report changes (the controller keeps an unchanged one)
+    // drawn again only when its cell or its report changes (the controller keeps an unchanged
+    // one); errors it shows are worded from the study (other cells' titles and problems), so
+    // a cell with errors is drawn again when the study or its report changes too
     const pending = c.pending.includes(cell.id);
     return html`<article data-cell=${cell.id} class="${failed ? 'failed' : ''} ${fresh ? 'fresh' : ''} ${pending ? 'pending' : ''}" aria-label="${cell.title || cell.id} (${info.label})"
         @cell-edit=${(e: CustomEvent<CellEditDetail>) => { e.stopPropagation(); c.edit({ type: 'replace', cell: e.detail.cell }, e.detail.mergeKey); }}>
@@ -212,7 +221,7 @@ export class StudyView extends LitElement {
         </span>
       </header>
       ${pending ? pendingLine(cell.id, c.progress, (id) => { const t = c.study?.cells.find((x) => x.id === id)?.title; return t ? `"${t}"` : `cell ${id}`; }) : nothing}
-      ${pending ? guard([cell, r], () => info.render(cell, r, report, c.study)) : info.render(cell, r, report, c.study)}
+      ${pending ? guard(r?.ok === false ? [cell, r, report, c.study] : [cell, r], () => info.render(cell, r, report, c.study)) : info.render(cell, r, report, c.study)}
     </article>`;
   }
 

@@ -1,5 +1,5 @@
 import { html, nothing, css } from 'lit';
-import type { FitErrorModel, FitPrior, PlotScale, ReportOf, ResidualColumns, SimulationPlot } from '../../src/index.ts';
+import { formatNumber, type FitErrorModel, type FitPrior, type PlotScale, type ReportOf, type ResidualColumns, type SimulationPlot } from '../../src/index.ts';
 import { cellStyles, plotScaleError, withPlotScale, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import '../expr-field.ts';
@@ -90,7 +90,7 @@ export class FitCellElement extends CellElement<'fit'> {
         })}</tbody></table></div>
       <div class="row"><button @click=${this.addEstimate}>Estimate another parameter</button></div>
       ${errorModelRow(host, c.error, anyPrior)}
-      ${r?.ok && r.estimates ? html`<p class="muted">${r.converged ? 'Converged' : 'Not converged'} after ${r.iterations} iterations (${r.message}); ${r.n} points${r.bayesian ? '' : `, ${r.dof} degrees of freedom`}${r.residualSD ? `, residual SD ${showQ(r.residualSD)}` : ''}${r.objective !== undefined ? `; objective ${r.objective.toPrecision(4)}` : ''}.${r.digits !== undefined ? ` Computed to ${r.digits} significant digits (the arithmetic, not the data: the standard errors say how sure the estimates are).` : ''}${r.errorModel ? ` Standard errors and 95% intervals come from the curvature of the objective (the posterior's normal approximation${r.bayesian ? ', on the log scale for an estimate with a prior' : ''}).` : ''}</p>` : nothing}
+      ${r?.ok && r.estimates ? html`<p class="muted">${r.converged ? 'Converged' : 'Not converged'} after ${r.iterations} iterations (${r.message}); ${r.n} points${r.bayesian ? '' : `, ${r.dof} degrees of freedom`}${r.residualSD ? `, residual SD ${showQ(r.residualSD)}` : ''}${r.objective !== undefined ? `; objective ${formatNumber(r.objective, 4)}` : ''}.${r.digits !== undefined ? ` Computed to ${r.digits} significant digits (the arithmetic, not the data: the standard errors say how sure the estimates are).` : ''}${r.errorModel ? ` Standard errors and 95% intervals come from the curvature of the objective (the posterior's normal approximation${r.bayesian ? ', on the log scale for an estimate with a prior' : ''}).` : ''}</p>` : nothing}
       ${this.correlation()}
       ${(r?.warnings ?? []).map((w) => html`<p class="foot-error">${w}</p>`)}
       ${plotScaleError(claims.take('.plotScale'), (s) => this.setPlotScale(s))}

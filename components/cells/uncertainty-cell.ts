@@ -25,7 +25,7 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     table.results td.name, table.results th.name { text-align: left; }
     .failed { color: #8a4b00; }
     .precision { font-size: 0.85rem; }
-    p.hidden-spread { color: #5c3400; border-left: 3px solid #a85d00; background: #fff6e8; padding: 0.3rem 0.6rem; }
+    p.hidden-spread { color: var(--stale-color, #5c3400); border-left: 3px solid #a85d00; background: #fff6e8; padding: 0.3rem 0.6rem; }
     p.verdict .precision { color: #4a5560; }
     p.precision { margin: 0.15rem 0; }
     .table-scroll { overflow-x: auto; max-width: 100%; }

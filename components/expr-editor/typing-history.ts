@@ -7,7 +7,7 @@
  */
 import { Compartment, type Extension } from '@codemirror/state';
 import { keymap, type EditorView } from '@codemirror/view';
-import { history, redo, undo } from '@codemirror/commands';
+import { history, redo, redoDepth, undo, undoDepth } from '@codemirror/commands';
 
 const slot = new Compartment();
 
@@ -23,10 +23,14 @@ export const typingHistory: Extension = [
 
 /**
  * Forgets the field's typing (at a commit, or when an outside value replaces the text).
- * Done just after the current update, so it may be called from an update listener.
+ * Done just after the current update, so it may be called from an update listener. A history
+ * with nothing to undo or redo (a value from outside, as at each position of a slider drag,
+ * comes in without a step) is left alone: each transaction costs the editor a reading of the
+ * page's selection, which lays the page out.
  */
 export function clearTyping(view: EditorView): void {
   queueMicrotask(() => {
+    if (undoDepth(view.state) === 0 && redoDepth(view.state) === 0) return;
     // removing the history and putting it back starts it empty
     view.dispatch({ effects: slot.reconfigure([]) });
     view.dispatch({ effects: slot.reconfigure(history()) });

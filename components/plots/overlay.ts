@@ -2,11 +2,13 @@
  * Text laid over a uPlot chart's plotting area as HTML: labels beside points (placed so that
  * they do not overlap) and focusable event markers whose label shows on hover or focus. HTML
  * rather than canvas text so that the labels can be read, selected, found by tests, and
- * printed sharp. Rebuilt on every draw of the chart (data, size), never on cursor moves.
+ * printed sharp. Brought up to date on every draw of the chart (data, size), never on cursor
+ * moves.
  */
 import type uPlot from 'uplot';
 import { type Box, type Taken, placeLabel } from './label-placement.ts';
 import { ratioOf } from './axes.ts';
+import { labelSize } from './label-sizes.ts';
 
 /** A label tied to a point, in CSS pixels relative to the plotting area. */
 export interface PointLabel {
@@ -27,6 +29,14 @@ export interface EventMarker {
 
 const LAYER = 'plot-labels';
 
+/** The layer's elements, kept from one draw to the next: a draw changes only what differs. */
+interface LayerParts {
+  readonly events: HTMLButtonElement[];
+  readonly leaders: SVGSVGElement;
+  readonly labels: HTMLSpanElement[];
+}
+const partsOf = new WeakMap<HTMLElement, LayerParts>();
+
 /** The chart's label layer, made on first use (inside `u.over`). */
 export function labelLayer(u: uPlot): HTMLElement {
   let layer = u.over.querySelector<HTMLElement>(`:scope > .${LAYER}`);
@@ -38,52 +48,79 @@ export function labelLayer(u: uPlot): HTMLElement {
   return layer;
 }
 
-/**
- * Replaces the layer's content: event markers first, then the labels, each placed so that it
- * never covers one before it, and clear of `keepClear` (the points, the curves) where it can
- * be; a label with no room left is hidden.
- */
-export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: readonly EventMarker[] = [], keepClear: Box[] = []): void {
-  const layer = labelLayer(u);
-  layer.replaceChildren();
-  const w = u.bbox.width / ratioOf(u);
-  const h = u.bbox.height / ratioOf(u);
-  for (const ev of events) {
+function layerParts(layer: HTMLElement): LayerParts {
+  let parts = partsOf.get(layer);
+  if (!parts) {
+    const leaders = document.createElementNS(SVG, 'svg');
+    leaders.setAttribute('class', 'leaders');
+    leaders.setAttribute('aria-hidden', 'true');
+    layer.replaceChildren(leaders);
+    partsOf.set(layer, (parts = { events: [], leaders, labels: [] }));
+  }
+  return parts;
+}
+
+/** Sets an attribute or property only when it differs: an unchanged label costs no style or layout work. */
+function put<T extends object, K extends keyof T>(o: T, key: K, value: T[K]): void {
+  if (o[key] !== value) o[key] = value;
+}
+
+/** The event markers: one button per event, kept in order before the leaders. */
+function syncEvents(parts: LayerParts, events: readonly EventMarker[], w: number): void {
+  while (parts.events.length > events.length) parts.events.pop()!.remove();
+  while (parts.events.length < events.length) {
     const b = document.createElement('button');
     b.type = 'button';
-    b.className = 'event' + (ev.x > w / 2 ? ' flip' : '');
-    b.style.left = `${ev.x}px`;
-    b.setAttribute('aria-label', ev.text);
     const tip = document.createElement('span');
     tip.className = 'tip';
     tip.setAttribute('role', 'tooltip');
-    tip.textContent = ev.text;
     b.append(tip);
-    layer.append(b);
+    parts.leaders.before(b);
+    parts.events.push(b);
   }
+  events.forEach((ev, i) => {
+    const b = parts.events[i];
+    put(b, 'className', 'event' + (ev.x > w / 2 ? ' flip' : ''));
+    put(b.style, 'left', `${ev.x}px`);
+    if (b.getAttribute('aria-label') !== ev.text) b.setAttribute('aria-label', ev.text);
+    put(b.firstChild as HTMLElement, 'textContent', ev.text);
+  });
+}
+
+/**
+ * Lays the chart's event markers and labels over its plotting area: event markers first,
+ * then the labels, each placed so that it never covers one before it, and clear of
+ * `keepClear` (the points, the curves) where it can be; a label with no room left is hidden.
+ * The elements are kept from draw to draw and changed only where they differ, and the labels'
+ * sizes are measured from their text (`label-sizes.ts`): a draw never lays the page out.
+ */
+export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: readonly EventMarker[] = [], keepClear: Box[] = []): void {
+  const layer = labelLayer(u);
+  const parts = layerParts(layer);
+  const w = u.bbox.width / ratioOf(u);
+  const h = u.bbox.height / ratioOf(u);
+  syncEvents(parts, events, w);
   const bounds: Box = { x: 0, y: 0, w, h };
   const taken: Taken = { labels: [], clear: keepClear };
-  const leaders = document.createElementNS(SVG, 'svg');
-  leaders.setAttribute('class', 'leaders');
-  leaders.setAttribute('aria-hidden', 'true');
-  layer.append(leaders);
-  // add every label first, then read their sizes: one layout for all, not one per label
-  const els = labels.map((l) => {
+  while (parts.labels.length > labels.length) parts.labels.pop()!.remove();
+  while (parts.labels.length < labels.length) {
     const el = document.createElement('span');
-    el.className = `lbl ${l.kind}`;
-    el.textContent = l.text;
     layer.append(el);
-    return el;
-  });
-  const sizes = els.map((el) => [el.offsetWidth, el.offsetHeight] as const);
+    parts.labels.push(el);
+  }
+  const lines: SVGLineElement[] = [];
   labels.forEach((l, i) => {
-    const el = els[i];
-    const box = placeLabel(l.x, l.y, sizes[i][0], sizes[i][1], taken, bounds, l.along);
+    const el = parts.labels[i];
+    put(el, 'className', `lbl ${l.kind}`);
+    put(el, 'textContent', l.text);
+    const [lw, lh] = labelSize(layer, el);
+    const box = placeLabel(l.x, l.y, lw, lh, taken, bounds, l.along);
     // no room left that would not cover another label: the label is left out (its value is
     // in the cell's results and the chart's data table)
-    if (!box) { el.hidden = true; return; }
-    el.style.left = `${box.x}px`;
-    el.style.top = `${box.y}px`;
+    put(el, 'hidden', !box);
+    if (!box) return;
+    put(el.style, 'left', `${box.x}px`);
+    put(el.style, 'top', `${box.y}px`);
     // A label pushed away from its point gets a thin line back to it (a level's label, only
     // when pushed off its line).
     const ax = l.along ? Math.min(Math.max(l.x, box.x), box.x + box.w) : l.x;
@@ -95,9 +132,10 @@ export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: rea
       line.setAttribute('y1', String(l.y));
       line.setAttribute('x2', String(nx));
       line.setAttribute('y2', String(ny));
-      leaders.append(line);
+      lines.push(line);
     }
   });
+  if (lines.length || parts.leaders.firstChild) parts.leaders.replaceChildren(...lines);
 }
 
 const SVG = 'http://www.w3.org/2000/svg';

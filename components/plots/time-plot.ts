@@ -174,7 +174,7 @@ export class TimePlot extends LitElement {
     } : {};
     const scaleOf = (s: number) => `y${panel.units.indexOf(p.states[s].unit)}`;
     // a compare cell's curves are named by scenario; its axes name the states they show
-    const axisLabel = (u: string) => `${[...new Set(panel.states.filter((s) => p.states[s].unit === u).map((s) => axisNameOf(p, s)))].join(', ')} (${u})`;
+    const axisLabel = (u: string) => `${[...new Set(panel.states.filter((s) => p.states[s].unit === u).map((s) => axisNameOf(p, s)))].join(', ')}${u ? ` (${u})` : ''}`; // a state without a unit: its name alone
     return {
       scales: Object.fromEntries([
         ['x', { time: false }],

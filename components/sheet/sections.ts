@@ -175,7 +175,7 @@ function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>, band: RunBand |
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
     ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
       <td class="name">${f.name}</td><td>${questions[f.name] ?? ''}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
-    ${Object.entries(closed).map(([state, c]) => html`<p class="check">Check: ${state} also follows an exact solution here${c.timeConstant ? ` (time constant ${showQ(c.timeConstant)}${c.halfLife ? `, half-life ${showQ(c.halfLife)}` : ''})` : ''}; the numeric run differs from it by at most ${showQ(c.maxError)}.</p>`)}`;
+    ${Object.entries(closed).map(([state, c]) => html`<p class="check">Check: ${state} also follows an exact solution here${c.timeConstant ? ` (time constant ${showQ(c.timeConstant)}${c.halfLife ? `, half-life ${showQ(c.halfLife)}` : ''})` : ''}; the numeric run differs from it by at most ${showQ(c.maxError, 2)}.</p>`)}`;
 }
 
 /** A chart's text alternative: the engine's summary, or words naming what it shows when there is none. */
@@ -194,7 +194,7 @@ function timeChart(plot: SimulationPlot, summary: unknown, log = false, band?: E
     logY: log,
     label: summaryOr(summary, `${shown.map((s) => s.name).join(', ')} against time`),
     xLabel: `time (${plot.timeUnit})`,
-    yLabels: units.map((u) => `${[...new Set(shown.filter((s) => s.unit === u).map((s) => axisNameOf(plot, plot.states.indexOf(s))))].join(', ')} (${u})`),
+    yLabels: units.map((u) => `${[...new Set(shown.filter((s) => s.unit === u).map((s) => axisNameOf(plot, plot.states.indexOf(s))))].join(', ')}${u ? ` (${u})` : ''}`),
     lines: shown.map((s) => ({ label: s.name, x: plot.t, y: s.values, axis: units.indexOf(s.unit) === 1 ? 1 : 0 })),
     points,
     bands: (band?.states ?? []).filter((b) => shown.some((s) => s.name === b.name)).map((b) => ({

@@ -231,7 +231,12 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     : weighting === 'none' ? report(difference(firstObserved, sdSI))
       : { value: sdSI, unit: '', si: sdSI };
   const n = unknowns.length;
-  const objective = mapFit ? mapFit.objective : fit.cost === null ? null : 2 * fit.cost;
+  const shownResiduals = points.map((pt, k) => {
+    const r = difference(laws[pt.state], withoutRoundOff(-fit.residuals![k] / pt.w, scale[pt.state]));
+    return { row: pt.row + 1, state: states[pt.state], time: report({ si: table.rows[pt.row][ti] as number, dim: TIME, unit: table.columns[ti].unit }), residual: report(r) };
+  });
+  // an ordinary fit whose residuals are all round-off (reported as 0) has an objective of round-off: 0 too
+  const objective = mapFit ? mapFit.objective : fit.cost === null ? null : shownResiduals.every((r) => r.residual.si === 0) ? 0 : 2 * fit.cost;
   const output: Omit<FitFields, 'summary'> = {
     estimates,
     ...(objective !== null ? { objective } : {}),
@@ -246,10 +251,7 @@ function runFit(cell: FitCell, at: string, fields: Array<{ guess: Field; min?: F
     message: fit.message,
     ...(fit.correlation ? { correlation: { names: unknowns.map((u) => u.as), matrix: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => fit.correlation![i * n + j])) } } : {}),
     ...(fit.warnings.length ? { warnings: fit.warnings.map((w) => w.message) } : {}),
-    residuals: points.map((pt, k) => {
-      const r = difference(laws[pt.state], withoutRoundOff(-fit.residuals![k] / pt.w, scale[pt.state]));
-      return { row: pt.row + 1, state: states[pt.state], time: report({ si: table.rows[pt.row][ti] as number, dim: TIME, unit: table.columns[ti].unit }), residual: report(r) };
-    }),
+    residuals: shownResiduals,
     residualFloor: report(difference(firstObserved, residualAxisFloor(scale[observed[0].si]))),
   };
   const summary = map && mapFit ? mapSummary(map, unknowns.map((u) => u.as), unknowns.map((u) => u.template), mapFit, points.length)

@@ -9,6 +9,12 @@
  * A running job whose inputs change (or that reads a name now pending) is dropped and starts
  * again from its first unit on the new values; one whose inputs do not change goes on. Its work
  * meter's units carry over from slice to slice, so its budget is the one `run` would have.
+ *
+ * Each pending node remembers when an edit last changed its inputs (its stamp): `step` starts
+ * only a node stamped at or before the time it is given (the app's worker gives "100 ms ago", so
+ * that a dragged slider does not start work the next position throws away), while work whose
+ * inputs the edits did not reach starts, or goes on, at once. A node that reads a name a pending
+ * node defines never starts before that node is done.
  */
 import type { CellError, GraphNode, Outcome, RunContext } from './node.ts';
 import { metered, WorkExceeded } from '../numerics/work-meter.ts';
@@ -42,8 +48,10 @@ export interface NodeStanding {
   readonly inputsChanged: boolean;
   /** It reads a name a pending node defines. */
   readonly readsPending: boolean;
-  /** It fails with a problem of its own (a node that cannot run is never deferred). */
+  /** It fails with a problem of its own (a node that cannot run is never deferred: its error shows at once). */
   readonly problem: boolean;
+  /** It would wait on a failed input that is not pending (never deferred either: the wait shows at once). */
+  readonly waits: boolean;
 }
 
 /** A finished node: its outcome and the signature it was computed under. */
@@ -67,26 +75,63 @@ export class DeferredWork {
   /** Keys of the pending nodes, as the last evaluation left them. */
   private pending = new Set<string>();
   private next = new Set<string>();
+  /** Pending nodes that read a name a pending node defines: they start only after it. */
+  private blocked = new Set<string>();
+  private nextBlocked = new Set<string>();
+  /** By pending node: its signature in the last pass, and when an edit last changed its inputs (performance.now()). */
+  private sigs = new Map<string, string>();
+  private stamps = new Map<string, number>();
+  /** The pass's edit time; undefined for a pass after a node finished (no edit). */
+  private editedAt?: number;
   private job?: Job;
 
-  /** Starts an evaluation's pass. */
-  begin(): void {
+  /** Starts an evaluation's pass: `editedAt`, the time of the edit it applies (none when a node has finished, or at opening). */
+  begin(editedAt?: number): void {
     this.next = new Set();
+    this.nextBlocked = new Set();
+    this.editedAt = editedAt;
   }
 
   /** For each node in run order: true when it is left pending (not run in this evaluation). */
   defers(key: string, node: GraphNode, s: NodeStanding): boolean {
-    const wait = s.readsPending || (!!node.slices && !s.problem && !s.keep);
+    const wait = !s.problem && !s.waits && (s.readsPending || (!!node.slices && !s.keep));
     const job = this.job;
     if (job?.key === key && (!wait || s.readsPending || s.inputsChanged || s.sig !== job.sig || job.node !== node)) this.job = undefined;
-    if (wait) this.next.add(key);
-    return wait;
+    if (!wait) return false;
+    this.next.add(key);
+    if (s.readsPending) this.nextBlocked.add(key);
+    // an edit that reaches its inputs (or first leaves it pending) stamps it; a pass after a
+    // node finished keeps its stamp, so what waited for that node starts at once
+    const touched = !this.pending.has(key) || s.inputsChanged || s.sig !== this.sigs.get(key);
+    if (touched && this.editedAt !== undefined) this.stamps.set(key, this.editedAt);
+    else if (!this.stamps.has(key)) this.stamps.set(key, -Infinity);
+    this.sigs.set(key, s.sig);
+    return true;
   }
 
   /** Ends the pass: the nodes it left pending are the pending ones. */
   end(): void {
     this.pending = this.next;
+    this.blocked = this.nextBlocked;
+    for (const map of [this.sigs, this.stamps]) for (const key of [...map.keys()]) if (!this.pending.has(key)) map.delete(key);
     if (this.job && !this.pending.has(this.job.key)) this.job = undefined;
+  }
+
+  /**
+   * When nothing is running and no pending node may start by `startable` (each was stamped
+   * later), the earliest stamp among those that could start: the caller comes back once it is
+   * old enough. Undefined when a node is running or may start.
+   */
+  notBefore(startable: number): number | undefined {
+    if (this.job) return undefined;
+    let earliest = Infinity;
+    for (const key of this.pending) {
+      if (this.blocked.has(key)) continue;
+      const at = this.stamps.get(key) ?? -Infinity;
+      if (at <= startable) return undefined;
+      earliest = Math.min(earliest, at);
+    }
+    return earliest === Infinity ? undefined : earliest;
   }
 
   /** Whether a node is pending. */
@@ -105,12 +150,14 @@ export class DeferredWork {
   }
 
   /**
-   * Works on the first pending node until `until` (a performance.now() time), at least one unit
-   * of it; its outcome when it is done (the session stores it, then calls `finished`).
+   * Works on the running node, else on the first pending node in run order that reads no pending
+   * name and was stamped at or before `startable`, until `until` (performance.now() times), at
+   * least one unit of it; its outcome when it is done (the session stores it, then calls
+   * `finished`). Does nothing when no node may start (see `notBefore`).
    */
-  step(until: number, host: DeferHost): Finished | undefined {
+  step(until: number, host: DeferHost, startable = Infinity): Finished | undefined {
     if (!this.job) {
-      const key = host.order.find((k) => this.pending.has(k));
+      const key = host.order.find((k) => this.pending.has(k) && !this.blocked.has(k) && (this.stamps.get(k) ?? -Infinity) <= startable);
       const node = key !== undefined ? host.node(key) : undefined;
       if (key === undefined || !node) return undefined;
       const sig = host.staticSig(key);
@@ -140,6 +187,8 @@ export class DeferredWork {
   /** The node whose outcome `step` gave is no longer pending. */
   finished(key: string): void {
     this.pending.delete(key);
+    this.sigs.delete(key);
+    this.stamps.delete(key);
   }
 
   /** Runs part of a job under its meter, the units used so far carried over; a stop or a throw as the node's outcome. */

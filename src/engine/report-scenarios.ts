@@ -5,7 +5,7 @@
  */
 import type { ReportQuantity } from '../units/quantity.ts';
 import type { SimulationPlot } from '../simulate/plot-data.ts';
-import type { FindResult } from './report.ts';
+import type { FindResult } from './report-run.ts';
 
 /** One slope of a sensitivity cell: a name in `of` against one parameter. */
 export interface SensitivityEntry {

@@ -7,6 +7,7 @@
 import type { Cell, Study } from '../study/types.ts';
 import { checkCell, type Problem } from '../study/validate.ts';
 import { applyEdit, type Edit } from '../study/edit.ts';
+import { copyPlain } from '../study/limits.ts';
 
 export class SessionDocument {
   cells: Cell[];
@@ -18,7 +19,9 @@ export class SessionDocument {
   private positions?: Map<string, number>;
 
   constructor(study: Study, problems: ReadonlyMap<string, readonly Problem[]>) {
-    this.cells = [...study.cells];
+    // its own copy: the session tells an unchanged cell by its identity (session-nodes.ts), so
+    // the caller's objects, which it may change, are not kept
+    this.cells = study.cells.map((c) => copyPlain(c));
     this.title = study.title;
     this.description = study.description;
     this.author = study.author;

@@ -1,6 +1,6 @@
 /**
  * The graph nodes of a session's cells, kept from one evaluation to the next: a cell's nodes
- * are built again only when its text (or what its builder reads of other cells,
+ * are built again only when its content (or what its builder reads of other cells,
  * `buildContext`) changed. Field problems found by the document check fail a cell's first
  * node (and the nodes that share them) on their path. Split from session.ts.
  */
@@ -8,35 +8,45 @@ import type { Cell } from '../study/types.ts';
 import type { Problem } from '../study/validate.ts';
 import type { CellError, GraphNode } from './node.ts';
 import { buildCellNodes, buildContext, CELL_PATH } from '../cells/index.ts';
+import { sameContent } from '../study/same.ts';
 
 export class CellNodes {
-  private readonly built = new Map<string, { sig: string; nodes: GraphNode[] }>();
+  /** By cell id: the cell its nodes were built from, what its builder read of the others, and the build's number. */
+  private readonly built = new Map<string, { cell: Cell; context: string; version: number; nodes: GraphNode[] }>();
+  private builds = 0;
 
-  /** Nodes of every cell, in order, rebuilt only for cells whose text changed (their ids added to `rebuilt`). */
+  /**
+   * Nodes of every cell, in order, rebuilt only for cells whose content or context changed (their
+   * ids added to `rebuilt`). A cell an edit did not touch is the same object as before (the
+   * session's document is its own: edits copy what they write), so it is not read at all; a
+   * cell that is a new object with the same content (a whole-document edit) is compared with
+   * `sameContent`, which stops at its first difference.
+   */
   all(cells: readonly Cell[], problems: ReadonlyMap<string, readonly Problem[]>, rebuilt: Set<string>): GraphNode[] {
     const all: GraphNode[] = [];
     const live = new Set<string>();
     for (const cell of cells) {
       live.add(cell.id);
-      const sig = `${JSON.stringify(cell)}|${buildContext(cell, cells)}`;
+      const context = buildContext(cell, cells);
       let entry = this.built.get(cell.id);
-      if (!entry || entry.sig !== sig) {
-        entry = { sig, nodes: withShapeProblems(cell, buildCellNodes(cell, cells), problems.get(cell.id)) };
+      if (!entry || entry.context !== context || (entry.cell !== cell && !sameContent(entry.cell, cell))) {
+        entry = { cell, context, version: ++this.builds, nodes: withShapeProblems(cell, buildCellNodes(cell, cells), problems.get(cell.id)) };
         this.built.set(cell.id, entry);
         rebuilt.add(cell.id);
-      }
+      } else entry.cell = cell;
       all.push(...entry.nodes);
     }
     for (const id of [...this.built.keys()]) if (!live.has(id)) this.built.delete(id);
     return all;
   }
 
-  /** A cell's nodes as last built (none for an unknown cell). */
-  /** The text a cell's nodes were built from (its content and its context): equal texts, equal cells. */
+  /** What a cell's nodes were built from, as a key: equal keys, equal cells (content and context). */
   sigOf(id: string): string {
-    return this.built.get(id)?.sig ?? '';
+    const entry = this.built.get(id);
+    return entry ? String(entry.version) : '';
   }
 
+  /** A cell's nodes as last built (none for an unknown cell). */
   of(id: string): readonly GraphNode[] {
     return this.built.get(id)?.nodes ?? [];
   }

@@ -8,7 +8,7 @@ import type { Cell } from '../study/types.ts';
 import type { CellError, GraphNode, Outcome } from './node.ts';
 import { resolvePath } from '../cells/index.ts';
 import { type CellReport, type Report, mergeOutput } from './report.ts';
-import { cautionsFor } from '../study/cautions.ts';
+import { cautionsFor, cellWords, type CellWords } from '../study/cautions.ts';
 import { glanceOf } from '../output/glance.ts';
 import { KeptTex } from '../output/sheet-tex.ts';
 import { bounded, deepEqual } from './session-parts.ts';
@@ -18,7 +18,7 @@ export interface ReportSource {
   readonly cells: Cell[];
   indexOf(id: string): number;
   nodesOf(id: string): readonly GraphNode[];
-  /** The text a cell's nodes were built from: a cell's TeX is kept while it stays the same. */
+  /** A key for what a cell's nodes were built from (equal keys, equal cells): a cell's TeX is kept while it stays the same. */
   sigOf(id: string): string;
   /** A node's outcome as reported: with a hint on its error where a name hides a unit. */
   outcome(node: GraphNode): Outcome | undefined;
@@ -38,6 +38,13 @@ export class ReportCache {
   private readonly hintTexts = new Map<string, string>();
   /** Each cell's sheet TeX, kept until the cell or the study's names change. */
   private readonly tex = new KeptTex();
+  /** Each cell's words for the cautions, by cell object (the session's cells are its own and never changed in place). */
+  private readonly words = new WeakMap<Cell, CellWords>();
+  private readonly wordsOf = (cell: Cell): CellWords => {
+    let w = this.words.get(cell);
+    if (!w) this.words.set(cell, (w = cellWords(cell)));
+    return w;
+  };
 
   /** The report after an evaluation in which `rerun` cells re-ran and `rebuilt` were built again; the ids of the cells whose report changed. */
   update(src: ReportSource, rerun: ReadonlySet<string>, rebuilt: ReadonlySet<string>, frame: ReportFrame): { report: Report; changed: string[] } {
@@ -66,7 +73,7 @@ export class ReportCache {
     }
     for (const id of [...this.reports.keys()]) if (src.indexOf(id) < 0) this.reports.delete(id);
     for (const id of [...this.hintTexts.keys()]) if (src.indexOf(id) < 0) this.hintTexts.delete(id);
-    return { report: studyReport(src.cells, reports, frame), changed };
+    return { report: studyReport(src.cells, reports, frame, this.wordsOf), changed };
   }
 
   /** A cell's report from its nodes' outcomes, with `tex` last (as a report whose TeX changed alone gets it). */
@@ -112,13 +119,13 @@ function hintText(src: ReportSource, cell: Cell): string {
  * in the evaluation, it threw away the evaluation's optimised code on most edits (a deopt
  * loop, 715 in 1,000 edits of the 49-cell chain).
  */
-function studyReport(cells: readonly Cell[], reports: CellReport[], frame: ReportFrame): Report {
+function studyReport(cells: readonly Cell[], reports: CellReport[], frame: ReportFrame, wordsOf: (cell: Cell) => CellWords): Report {
   return {
     title: frame.title,
     ok: reports.every((c) => c.ok),
     warnings: [...frame.warnings],
     warningParts: frame.warningParts,
-    cautions: cautionsFor(cells),
+    cautions: cautionsFor(cells, wordsOf),
     glance: glanceOf(cells, reports),
     cells: reports,
   };

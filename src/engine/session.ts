@@ -30,6 +30,9 @@ import type { Progress } from './sliced.ts';
 export type { Edit } from '../study/edit.ts';
 export type { Replacement, WhatIfPrepared } from './what-if.ts';
 
+/** A pending name's slot while deciding whether a node waits: taken as bound, as its value is still to come. */
+const PENDING_SLOT: Slot = { kind: 'pending' } as unknown as Slot;
+
 /** What a name defined by a cell of each kind is called in messages. */
 const KIND_WORDS: Partial<Record<string, string>> = { parameters: 'parameter', simulate: 'answer', fit: 'estimate', nca: 'result' };
 
@@ -53,6 +56,11 @@ export interface SessionOptions extends WorkLimits {
 /** What a slice of deferred work did: how far the running cell is, and the answer of an evaluation when a cell finished. */
 export interface WorkStep {
   readonly progress?: Progress;
+  /**
+   * Nothing was done: every pending cell that could start had its inputs changed by an edit
+   * after the `startable` time given. The earliest such edit's time (performance.now()).
+   */
+  readonly notBefore?: number;
   readonly answer?: { readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report };
 }
 
@@ -109,13 +117,14 @@ export class StudySession {
    * and its problem is returned. Cost: one evaluation.
    */
   applyAll(edits: readonly Edit[]): EditResult {
+    const at = performance.now();
     for (let i = 0; i < edits.length; i++) {
       const problem = this.doc.apply(edits[i]);
       if (!problem) continue;
-      if (i > 0) this.evaluate();
+      if (i > 0) this.evaluate(undefined, at);
       return { ok: false, error: problem };
     }
-    const { rerun, changed } = this.evaluate();
+    const { rerun, changed } = this.evaluate(undefined, at);
     return { ok: true, rerun, changed, report: this.lastReport };
   }
 
@@ -139,11 +148,17 @@ export class StudySession {
    * of the first (a few milliseconds past `until` at most: one sample). When a cell finishes,
    * the study is evaluated again (what reads it runs) and the answer says so. Undefined when
    * nothing is pending. Never throws.
+   *
+   * `startable` (a performance.now() time): a pending cell whose inputs an edit changed after
+   * it does not start yet (`notBefore` says when the first of them was edited); a cell the edits
+   * did not reach starts, or goes on, whatever the time. The app's worker gives "100 ms ago".
    */
-  work(until: number): WorkStep | undefined {
+  work(until: number, startable = Infinity): WorkStep | undefined {
     const d = this.deferred;
     if (!d?.size) return undefined;
-    const done = d.step(until, this.deferHost());
+    const notBefore = d.notBefore(startable);
+    if (notBefore !== undefined) return { notBefore };
+    const done = d.step(until, this.deferHost(), startable);
     if (!done) return { progress: d.progress() };
     const node = this.graph.nodes.get(done.key)!;
     this.outcomes.set(done.key, done.outcome);
@@ -183,8 +198,11 @@ export class StudySession {
     return sig;
   }
 
-  /** `finished`: cells whose deferred node has just been computed (reported as re-run). */
-  private evaluate(finished?: ReadonlySet<string>): { rerun: string[]; changed: string[] } {
+  /**
+   * `finished`: cells whose deferred node has just been computed (reported as re-run);
+   * `editedAt`: the time of the edits this evaluation applies (none at opening or after a finish).
+   */
+  private evaluate(finished?: ReadonlySet<string>, editedAt?: number): { rerun: string[]; changed: string[] } {
     // a rebuilt cell is reported again even when no node re-runs: its title, or a node it
     // no longer has, changes its report
     const rebuilt = new Set<string>();
@@ -203,7 +221,7 @@ export class StudySession {
     const rerunCells = new Set<string>(finished);
     // with `defer`: names of the nodes left pending in this pass
     const pendingNames = new Set<string>();
-    this.deferred?.begin();
+    this.deferred?.begin(editedAt);
     const liveKeys = new Set(list.map((n) => n.key));
 
     for (const key of [...this.outcomes.keys()]) {
@@ -231,13 +249,16 @@ export class StudySession {
       const kept = this.outcomes.get(key);
       // a node left pending before runs now (what it read may have changed meanwhile)
       const keep = !!kept && this.staticSigs.get(key) === staticSig + unitsKey(node, kept) && !inputsChanged && !this.deferred?.has(key);
+      // a node that would be left pending but waits on a failed input that is not pending fails at once
+      const waits = this.deferred && !keep && !problem && (node.slices || pendingNames.size)
+        ? waitingOn(this.graph, node, (name) => (pendingNames.has(name) ? PENDING_SLOT : this.slots.get(name))) : undefined;
       // left for later: its previous outcome, bindings and report stay until `work` computes it
-      if (this.deferred?.defers(key, node, { sig: staticSig, keep, inputsChanged, problem: !!problem,
+      if (this.deferred?.defers(key, node, { sig: staticSig, keep, inputsChanged, problem: !!problem, waits: !!waits,
         readsPending: pendingNames.size > 0 && [...sources.keys()].some((n) => pendingNames.has(n)) })) {
         for (const d of node.defines) pendingNames.add(d.name);
         continue;
       }
-      const outcome = keep ? kept : this.runNode(node, problem);
+      const outcome = keep ? kept : waits ? { ok: false as const, error: waits } : this.runNode(node, problem);
       if (!keep) {
         this.outcomes.set(key, outcome);
         this.staticSigs.set(key, staticSig + unitsKey(node, outcome));
@@ -260,7 +281,7 @@ export class StudySession {
       indexOf: (id) => this.doc.indexOf(id),
       nodesOf: (id) => this.built.of(id),
       sigOf: (id) => this.built.sigOf(id),
-      outcome: (node) => this.hinted(node, this.outcomes.get(node.key)),
+      outcome: (node) => this.reported(node),
     }, rerunCells, rebuilt, {
       title: this.doc.title,
       warnings: [...this.notes, ...this.graph.warnings.map((w) => w.text)],
@@ -298,6 +319,17 @@ export class StudySession {
       whatIf: (wanted, replaced) => this.whatIf(wanted, replaced),
       ...(node.readsUpstream ? { peek: (name: string) => bound(this.slots.get(name)) } : {}),
     };
+  }
+
+  /**
+   * A node's outcome as its cell's report shows it. A pending node's previous failure is not
+   * shown: what it failed on has changed, and its new outcome is not known yet (its previous
+   * figures, when it had some, stay, shown as such).
+   */
+  private reported(node: GraphNode): Outcome | undefined {
+    const o = this.outcomes.get(node.key);
+    if (o && !o.ok && this.deferred?.has(node.key)) return undefined;
+    return this.hinted(node, o);
   }
 
   /**

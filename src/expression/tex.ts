@@ -76,7 +76,7 @@ export function rateLawTex(state: string, rate: Expr, kindOf: (name: string) => 
   return `\\frac{\\mathrm{d}${nameTex(state)}}{\\mathrm{d}t} = ${toTex(rate, kindOf)}`;
 }
 
-interface Piece { readonly s: string; readonly p: P; /** starts with a digit (a product after it needs a sign) */ readonly num: boolean; readonly unit: boolean }
+interface Piece { readonly s: string; readonly p: P; /** starts with a digit (a product after it needs a sign) */ readonly num: boolean; readonly unit: boolean; /** a name of several letters, or a product holding one: set side by side with another factor, its letters would run into the other's */ readonly word?: boolean }
 
 function wrap(x: Piece, need: P): string {
   return x.p < need ? `\\left(${x.s}\\right)` : x.s;
@@ -92,7 +92,8 @@ function tex(e: Expr, kindOf: (name: string) => SymbolKind, at: Place): Piece {
     case 'sym': {
       const kind = kindOf(e.name);
       if (kind === 'unit') return { s: unitTex(e.name), p: P.Atom, num: false, unit: true };
-      return { s: kind === 'constant' ? CONSTANT_TEX[e.name] ?? `\\mathrm{${escapeText(e.name)}}` : nameTex(e.name), p: P.Atom, num: false, unit: false };
+      const s = kind === 'constant' ? CONSTANT_TEX[e.name] ?? `\\mathrm{${escapeText(e.name)}}` : nameTex(e.name);
+      return { s, p: P.Atom, num: false, unit: false, word: s.startsWith('\\textit') };
     }
     case 'neg': {
       const a = t(e.a);
@@ -110,8 +111,9 @@ function tex(e: Expr, kindOf: (name: string) => SymbolKind, at: Place): Piece {
         case '*': {
           // a number times a number keeps its sign; a quantity and its unit get a thin space
           const right = wrap(b, P.Mul + 1);
-          const sep = b.num && !right.startsWith('\\left(') ? ' \\cdot ' : b.unit || a.unit ? '\\,' : ' ';
-          return { s: `${wrap(a, P.Mul)}${sep}${right}`, p: P.Mul, num: a.num, unit: a.unit && b.unit };
+          // names of several letters side by side ("ka Ag" would read k·a·A·g) get a dot between them
+          const sep = b.num && !right.startsWith('\\left(') ? ' \\cdot ' : b.unit || a.unit ? '\\,' : (a.word || b.word) && !right.startsWith('\\left(') ? ' \\cdot ' : ' ';
+          return { s: `${wrap(a, P.Mul)}${sep}${right}`, p: P.Mul, num: a.num, unit: a.unit && b.unit, word: a.word || b.word };
         }
       }
       break;

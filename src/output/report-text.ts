@@ -1,7 +1,8 @@
 /**
  * The report as a readable table for a terminal: one block per cell, quantities aligned. The
  * study-format contract fixes the JSON report (`--json`), not this table; its rows follow the
- * report's fields (a fit's `digits`, a Ratebook addition, in words beside its number).
+ * report's fields (a fit's `digits`, a Ratebook addition, in words beside its number), each figure
+ * to 6 significant digits (a run's error against the exact solution to 2), counts whole.
  */
 import type { CellReport, Report } from '../engine/report.ts';
 import { formatNumber } from '../units/quantity.ts';
@@ -68,11 +69,23 @@ function formatCell(cell: CellReport): string[] {
   return out;
 }
 
+/** Significant digits of the table's figures: a run's error against the exact solution says its size (as the simulate cell shows it), every other figure as the quantities. */
+const QUANTITY_DIGITS = 6;
+const ERROR_DIGITS = 2;
+const digitsFor = (key: string): number => (/(^|\.)maxError(InTolerances)?$/.test(key) ? ERROR_DIGITS : QUANTITY_DIGITS);
+
+/** A plain number of the report: a count (a whole number) as it is, any other figure to its significant digits. */
+function showNumber(key: string, x: number): string {
+  return Number.isInteger(x) ? String(x) : formatNumber(x, digitsFor(key));
+}
+
 function collect(key: string, value: unknown, rows: Array<[string, string]>): void {
   if (isQuantity(value)) {
-    rows.push([key, showQuantity(value)]);
+    rows.push([key, showQuantity(value, digitsFor(key))]);
+  } else if (typeof value === 'number') {
+    rows.push([key, showNumber(key, value)]);
   } else if (Array.isArray(value)) {
-    if (value.every(isQuantity)) rows.push([key, value.map(showQuantity).join(/range$/.test(key) ? ' to ' : ', ')]);
+    if (value.every(isQuantity)) rows.push([key, value.map((q) => showQuantity(q)).join(/range$/.test(key) ? ' to ' : ', ')]);
     else value.forEach((v, i) => collect(`${key}[${i}]`, v, rows));
   } else if (value && typeof value === 'object') {
     const entries = Object.entries(value);
@@ -91,10 +104,10 @@ function isQuantity(v: unknown): v is Q {
   return !!v && typeof v === 'object' && typeof (v as Q).value === 'number' && typeof (v as Q).unit === 'string' && typeof (v as Q).si === 'number';
 }
 
-function showQuantity(q: Q): string {
+function showQuantity(q: Q, digits = QUANTITY_DIGITS): string {
   // a parameter that is a condition (a verdict): yes or no
   if (typeof (q as { truth?: unknown }).truth === 'boolean') return (q as { truth?: boolean }).truth ? 'yes' : 'no';
-  const v = formatNumber(q.value, 6);
+  const v = formatNumber(q.value, digits);
   const spread = (q as { spread?: { text?: string } }).spread?.text;
   return `${q.unit ? `${v} ${unitAfterNumber(q.unit)}` : v}${spread ? `  (spread ${spread})` : ''}`;
 }

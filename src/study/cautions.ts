@@ -26,31 +26,53 @@ const TEMPERATURE_UNITS = /\b(degC|degF|K|degR)\b/;
 const LEVEL_UNITS = /\b(g|mg|ug|mcg|µg|ng|mol|mmol|umol|nmol)\s*\/\s*(L|dL|mL|uL)\b/;
 const DRUG_WORDS = /\b(drug|plasma|serum|patient|trough|antibiotic|medicine|medication)s?\b/i;
 
+/** What a cell's text speaks of, as the cautions read it: dosing, food, drugs. */
+export interface CellWords {
+  readonly dosing: boolean;
+  readonly food: boolean;
+  readonly drug: boolean;
+}
+
+/**
+ * The words of one cell, from its JSON. The study's words are those of its cells: the study's
+ * text (its cells' JSON, one after the other with a comma between) holds a match of these
+ * words only within a cell's own text, as none of them can take in the `},{` between two.
+ */
+export function cellWords(cell: Cell): CellWords {
+  const text = JSON.stringify(cell);
+  return { dosing: DOSING_WORDS.test(text), food: FOOD_WORDS.test(text), drug: DRUG_WORDS.test(text) };
+}
+
 /**
  * A fit of a drug's levels: a fit observing a state measured as a concentration by mass or
  * amount per volume, that is Bayesian (an individual estimate from population priors) or
  * sits in a study that speaks of drugs, plasma, serum or patients.
  */
-function fitsDrugLevels(cells: readonly Cell[], text: string): boolean {
+function fitsDrugLevels(cells: readonly Cell[], words: readonly CellWords[]): boolean {
   const levelStates = new Set(cells.filter((c) => c.kind === 'rate' && typeof c.unit === 'string' && LEVEL_UNITS.test(c.unit)).map((c) => (c as { state: string }).state));
   return cells.some((c) => c.kind === 'fit' && c.observe !== null && typeof c.observe === 'object'
     && Object.keys(c.observe).some((s) => levelStates.has(s))
-    && ((Array.isArray(c.estimate) && c.estimate.some((e) => e?.prior !== undefined)) || DRUG_WORDS.test(text)));
+    && ((Array.isArray(c.estimate) && c.estimate.some((e) => e?.prior !== undefined)) || words.some((w) => w.drug)));
 }
 
-export function cautionsFor(cells: readonly Cell[]): Caution[] {
+/**
+ * The cautions of a study. `wordsOf` gives a cell's words (`cellWords`); the session passes
+ * one that keeps them for each cell object it holds, so that a study's text is not written
+ * and searched again at every edit (a 10,000-row table took a third of an edit's time).
+ */
+export function cautionsFor(cells: readonly Cell[], wordsOf: (cell: Cell) => CellWords = cellWords): Caution[] {
   const out: Caution[] = [];
-  const text = JSON.stringify(cells);
+  const words = cells.map(wordsOf);
   const dosing = cells.some((c) => c.kind === 'nca'
     || (c.kind === 'simulate' && Array.isArray(c.events) && c.events.some((e) => e && (e.add !== undefined || e.infuse !== undefined))))
-    || DOSING_WORDS.test(text) || fitsDrugLevels(cells, text);
+    || words.some((w) => w.dosing) || fitsDrugLevels(cells, words);
   if (dosing) out.push({ kind: 'dosing', text: DOSING_CAUTION });
   const temperatureStates = new Set(cells.filter((c) => c.kind === 'rate' && typeof c.unit === 'string' && TEMPERATURE_UNITS.test(c.unit)).map((c) => (c as { state: string }).state));
   const checked = cells.some((c) => c.kind === 'simulate' && Array.isArray(c.find)
     && c.find.some((f) => f && typeof f.level === 'string' && [f.crossing, f.timeAbove, f.timeBelow].some((s) => typeof s === 'string' && temperatureStates.has(s))));
   // food temperatures get the food-code caution whether or not a limit is checked (a fitted
   // cooling curve predicts times to limits); other temperature checks (parts, tanks) a general one
-  if (temperatureStates.size > 0 && FOOD_WORDS.test(text)) out.push({ kind: 'temperature-limits', text: TEMPERATURE_CAUTION });
+  if (temperatureStates.size > 0 && words.some((w) => w.food)) out.push({ kind: 'temperature-limits', text: TEMPERATURE_CAUTION });
   else if (checked) out.push({ kind: 'temperature-practice', text: PRACTICE_CAUTION });
   return out;
 }

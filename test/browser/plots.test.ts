@@ -11,6 +11,7 @@ import { placeLabel, type Box, type Taken } from '../../components/plots/label-p
 import { tickLabels } from '../../components/plots/axes.ts';
 import cooling from '../../examples/cooling-stock-pot.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
+import radiometric from '../../examples/radiometric-age.ratebook.json';
 
 /** Invented numbers: a harvested logistic stock, a pole, a transcritical exchange, a semi-stable point. */
 const phaseStudy = {
@@ -98,6 +99,13 @@ describe('<time-plot>', () => {
     expect(u.data[0]).to.equal(cell.plot.t);
     expect(u.data[1]).to.equal(cell.plot.states[0].values);
     expect((u.axes[1].label as string)).to.equal('T (degC)');
+  });
+
+  it('names the axis of a state without a unit by the state alone, with no empty brackets', async () => {
+    const cell = simulation(radiometric);
+    expect(cell.plot.states[0].unit).to.equal('', 'the template\'s N14 is a fraction');
+    const el = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary }));
+    expect((el.charts[0].axes[1].label as string)).to.equal('N14');
   });
 
   it('marks every event time, every level and every found point with its label', async () => {

@@ -84,6 +84,15 @@ describe('study-sheet', () => {
     }
   });
 
+  it('says how far the run is from the exact solution to 2 digits, as the run\'s cell does', async () => {
+    const root = await sheetOf(cooling);
+    const run = reportOf(cooling).cells.find((c) => c.id === 'run')!;
+    const cf = Object.values(run.closedForm as Record<string, { maxError: { value: number; unit: string } }>)[0];
+    const check = [...root.querySelectorAll('p.check')].map((p) => p.textContent!).find((t) => t.includes('exact solution'));
+    expect(check, 'the check under the run').to.exist;
+    expect(check).to.contain(`by at most ${formatNumber(cf.maxError.value, 2)} ${cf.maxError.unit}.`);
+  });
+
   it('typesets the TeX the report carries, and makes none itself', async () => {
     const report = reportOf(cooling);
     const rate = report.cells.find((c) => c.kind === 'rate')!;

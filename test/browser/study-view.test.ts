@@ -93,4 +93,22 @@ describe('study-view', () => {
     const view = await mount(bolus);
     expect(view.shadowRoot!.querySelector('.caution')!.textContent).to.match(/licensed professional/);
   });
+
+  it('shows the whole description, however long, and grows as it is typed', async () => {
+    const long = 'A description long enough to wrap over several lines of the page. '.repeat(6);
+    const view = await mount({ ...cooling, description: long });
+    const box = view.shadowRoot!.querySelector<HTMLTextAreaElement>('textarea.description')!;
+    expect(box.value).to.equal(long);
+    // every line in view: the box is as tall as its text (no scrolling, nothing cut off)
+    expect(box.scrollHeight).to.be.at.most(box.clientHeight + 1);
+    const lineHeight = parseFloat(getComputedStyle(box).lineHeight);
+    expect(box.clientHeight).to.be.above(2 * lineHeight);
+    const before = box.clientHeight;
+    box.value = `${long}\nA second paragraph, typed.\nAnd a third.`;
+    box.dispatchEvent(new Event('input', { bubbles: true, composed: true }));
+    await view.updateComplete;
+    expect(view.controller.study!.description).to.equal(box.value, 'line breaks are kept');
+    expect(box.clientHeight).to.be.above(before);
+    expect(box.scrollHeight).to.be.at.most(box.clientHeight + 1);
+  });
 });

@@ -6,7 +6,8 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
-import { openStudy, type Cell, type Report, type StudySession } from '../../src/index.ts';
+import { openSession, reportJson } from './helpers.ts';
+import type { Cell, Report } from '../../src/index.ts';
 
 type Doc = { format: string; version: number; title: string; cells: Cell[] };
 const MC = 'flow-spread';
@@ -22,21 +23,14 @@ function flush(samples: number, Q?: string): Doc {
   return d;
 }
 
-function open(doc: unknown, defer: boolean): StudySession {
-  const o = openStudy(doc, { defer });
-  assert.ok(o.ok);
-  return o.session;
-}
-
-const json = (r: Report) => JSON.stringify(r);
 const band = (r: Report) => (r.cells.find((c) => c.id === MC) as { bands?: Array<{ t?: number[]; samples?: number }> }).bands?.[0];
 
 describe('the band in slices: the same figures, counted in the progress', () => {
   it('one unit per slice: samples, then the band\'s samples, then its grid times sorted a slice at a time; the report equals the unsliced one', () => {
     const doc = flush(300);
-    const at = open(doc, false).report();
+    const at = openSession(doc, false).report();
     assert.equal(band(at)?.samples, 300, 'the unsliced report has its band');
-    const s = open(doc, true);
+    const s = openSession(doc, true);
     const seen: Array<{ done: number; total: number; unit: string }> = [];
     let slices = 0;
     for (let w = s.work(0); w; w = s.work(0)) {
@@ -50,20 +44,20 @@ describe('the band in slices: the same figures, counted in the progress', () => 
     assert.equal(seen[0].done, 1);
     assert.equal(seen.at(-1)!.done, 600);
     assert.ok(seen.some((p) => p.done > 300 && p.done < 600), 'the band\'s samples are counted');
-    assert.equal(json(s.report()), json(at));
+    assert.equal(reportJson(s.report()), reportJson(at));
   });
 
   it('uneven slices (0 to 2 ms) give the same report', () => {
     const doc = flush(250);
     let i = 0;
-    const s = open(doc, true);
+    const s = openSession(doc, true);
     while (s.work(performance.now() + (i++ % 3)));
-    assert.equal(json(s.report()), json(open(doc, false).report()));
+    assert.equal(reportJson(s.report()), reportJson(openSession(doc, false).report()));
   });
 
   it('an edit of the flow while the band is drawn cancels it: samples and band start again on the new value, and end equal to a fresh evaluation', () => {
     const doc = flush(200);
-    const s = open(doc, true);
+    const s = openSession(doc, true);
     let w = s.work(0);
     while (w && !(w.progress && w.progress.done > 250)) w = s.work(0);
     assert.ok(w?.progress && w.progress.done > 250 && w.progress.done < 400, 'in the band\'s samples');
@@ -72,25 +66,25 @@ describe('the band in slices: the same figures, counted in the progress', () => 
     const r = s.apply({ type: 'replace', cell: next.cells.find((c) => c.id === 'tank')! });
     assert.ok(r.ok);
     // the other cells answer at once with the new flow; the Monte Carlo cell keeps its old figures, pending
-    const fresh = open(next, false).report();
+    const fresh = openSession(next, false).report();
     assert.deepEqual(r.report.cells.find((c) => c.id === 'run'), fresh.cells.find((c) => c.id === 'run'));
     assert.ok(s.pending().includes(MC));
     assert.deepEqual(band(r.report), old);
     assert.equal(s.work(0)!.progress!.done, 1, 'started again from the first sample');
     while (s.work(0));
-    assert.equal(json(s.report()), json(fresh));
-    assert.notEqual(JSON.stringify(band(s.report())), JSON.stringify(band(open(doc, false).report())));
+    assert.equal(reportJson(s.report()), reportJson(fresh));
+    assert.notEqual(JSON.stringify(band(s.report())), JSON.stringify(band(openSession(doc, false).report())));
   });
 
   it('an edit elsewhere (the note) lets the band go on', () => {
     const doc = flush(150);
-    const s = open(doc, true);
+    const s = openSession(doc, true);
     for (let k = 0; k < 200; k++) s.work(0);
     const note = doc.cells.find((c) => c.kind === 'note')!;
     const edited = { ...note, text: 'Another note.' } as Cell;
     assert.ok(s.apply({ type: 'replace', cell: edited }).ok);
     assert.equal(s.work(0)!.progress!.done, 201);
     while (s.work(0));
-    assert.equal(json(s.report()), json(open({ ...doc, cells: doc.cells.map((c) => (c === note ? edited : c)) }, false).report()));
+    assert.equal(reportJson(s.report()), reportJson(openSession({ ...doc, cells: doc.cells.map((c) => (c === note ? edited : c)) }, false).report()));
   });
 });

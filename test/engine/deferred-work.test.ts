@@ -5,6 +5,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
+import { openSession, reportJson } from './helpers.ts';
 import { openStudy, type Cell, type Edit, type Report, type StudySession } from '../../src/index.ts';
 
 type Doc = { format: string; version: number; title: string; cells: Cell[] };
@@ -18,14 +19,6 @@ function small(samples = 300, downstream = false): Doc {
   return d;
 }
 
-function open(doc: unknown, defer: boolean): StudySession {
-  const o = openStudy(doc, { defer });
-  assert.ok(o.ok);
-  return o.session;
-}
-
-/** The report as JSON: what the worker sends, compared digit for digit. */
-const json = (r: Report) => JSON.stringify(r);
 const uncertainty = (r: Report) => r.cells.find((c) => c.kind === 'uncertainty')!;
 const regimen = (doc: Doc) => doc.cells.find((c) => c.id === 'regimen')! as Extract<Cell, { kind: 'parameters' }>;
 
@@ -46,8 +39,8 @@ const replaceRegimen = (doc: Doc): Edit => ({ type: 'replace', cell: regimen(doc
 describe('deferred Monte Carlo: the same figures sliced or not', () => {
   it('the template at 2,000 samples, one sample per slice, equals the evaluation at once bit for bit', () => {
     const doc = template();
-    const at = open(doc, false).report();
-    const s = open(doc, true);
+    const at = openSession(doc, false).report();
+    const s = openSession(doc, true);
     assert.deepEqual(s.pending(), ['between-patients']);
     // before: every other cell is computed and the Monte Carlo cell holds nothing yet
     for (const c of s.report().cells) if (c.kind !== 'uncertainty') assert.deepEqual(c, at.cells.find((x) => x.id === c.id));
@@ -55,20 +48,20 @@ describe('deferred Monte Carlo: the same figures sliced or not', () => {
     const slices = finish(s);
     assert.equal(slices, 2000);
     assert.deepEqual(s.pending(), []);
-    assert.equal(json(s.report()), json(at));
+    assert.equal(reportJson(s.report()), reportJson(at));
   });
 
   it('uneven slices (a time budget of 0 to 3 ms) give the same report', () => {
     const doc = small(400);
-    const at = json(open(doc, false).report());
+    const at = reportJson(openSession(doc, false).report());
     let i = 0;
-    const s = open(doc, true);
+    const s = openSession(doc, true);
     finish(s, () => performance.now() + (i++ % 4));
-    assert.equal(json(s.report()), at);
+    assert.equal(reportJson(s.report()), at);
   });
 
   it('reports progress: the samples drawn so far of the total, rising to the total', () => {
-    const s = open(small(200), true);
+    const s = openSession(small(200), true);
     const seen: number[] = [];
     for (let w = s.work(0); w; w = s.work(0)) {
       if (w.progress) {
@@ -86,14 +79,14 @@ describe('deferred Monte Carlo: the same figures sliced or not', () => {
 describe('deferred Monte Carlo: an edit cancels it and it starts again on the new values', () => {
   it('an edit of an input mid-run: the other cells answer at once, the old figures stay pending, the result equals a fresh evaluation', () => {
     const doc = small(300);
-    const s = open(doc, true);
+    const s = openSession(doc, true);
     finish(s);
     const before = uncertainty(s.report());
     const next = withCL(doc, '5 L / h');
     const r = s.apply(replaceRegimen(next));
     assert.ok(r.ok);
     // the run's trough is the new one at once; the Monte Carlo cell keeps its old figures, pending
-    const fresh = open(next, false).report();
+    const fresh = openSession(next, false).report();
     assert.deepEqual(r.report.cells.find((c) => c.id === 'run'), fresh.cells.find((c) => c.id === 'run'));
     assert.deepEqual(s.pending(), ['between-patients']);
     assert.deepEqual(uncertainty(r.report), before);
@@ -104,25 +97,25 @@ describe('deferred Monte Carlo: an edit cancels it and it starts again on the ne
     assert.ok(s.apply(replaceRegimen(last)).ok);
     assert.equal(s.work(0)!.progress!.done, 1);
     finish(s);
-    assert.equal(json(s.report()), json(open(last, false).report()));
+    assert.equal(reportJson(s.report()), reportJson(openSession(last, false).report()));
   });
 
   it('an edit back to the values of the last result still computes again, and ends with the same figures', () => {
     const doc = small(150);
-    const s = open(doc, true);
+    const s = openSession(doc, true);
     finish(s);
-    const at = json(s.report());
+    const at = reportJson(s.report());
     assert.ok(s.apply(replaceRegimen(withCL(doc, '6 L / h'))).ok);
     for (let k = 0; k < 40; k++) s.work(0);
     assert.ok(s.apply(replaceRegimen(doc)).ok);
     assert.deepEqual(s.pending(), ['between-patients']);
     finish(s);
-    assert.equal(json(s.report()), at);
+    assert.equal(reportJson(s.report()), at);
   });
 
   it('an edit that does not reach the Monte Carlo inputs lets it go on', () => {
     const doc = small(200);
-    const s = open(doc, true);
+    const s = openSession(doc, true);
     for (let k = 0; k < 50; k++) s.work(0);
     const note = doc.cells.find((c) => c.kind === 'note')!;
     const r = s.apply({ type: 'replace', cell: { ...note, text: 'Another caution text.' } as Cell });
@@ -131,12 +124,12 @@ describe('deferred Monte Carlo: an edit cancels it and it starts again on the ne
     assert.equal(s.work(0)!.progress!.done, 51);
     finish(s);
     const after = { ...doc, cells: doc.cells.map((c) => (c === note ? { ...note, text: 'Another caution text.' } as Cell : c)) };
-    assert.equal(json(s.report()), json(open(after, false).report()));
+    assert.equal(reportJson(s.report()), reportJson(openSession(after, false).report()));
   });
 
   it('a change of seed or samples restarts it; a cell reading its names waits, then runs with its own new inputs', () => {
     const doc = small(120, true);
-    const s = open(doc, true);
+    const s = openSession(doc, true);
     assert.deepEqual(s.pending(), ['between-patients', 'after']);
     finish(s);
     // the reader's own input changes while the Monte Carlo is pending (its seed changed too)
@@ -154,7 +147,7 @@ describe('deferred Monte Carlo: an edit cancels it and it starts again on the ne
     assert.deepEqual(s.pending(), ['between-patients', 'after']);
     finish(s);
     const last = { ...doc, cells: doc.cells.map((c) => (c === mc ? seeded : c.id === 'after' ? margin as Cell : c)) };
-    assert.equal(json(s.report()), json(open(last, false).report()));
+    assert.equal(reportJson(s.report()), reportJson(openSession(last, false).report()));
   });
 
   it('the work budget stops it with the same message, sliced or not', () => {
@@ -167,11 +160,11 @@ describe('deferred Monte Carlo: an edit cancels it and it starts again on the ne
     const stopped = uncertainty(a.session.report());
     assert.equal(stopped.ok, false);
     assert.match(stopped.error!.message, /^stopped: this cell needed more than/);
-    assert.equal(json(b.session.report()), json(a.session.report()));
+    assert.equal(reportJson(b.session.report()), reportJson(a.session.report()));
   });
 
   it('without defer nothing is pending and there is no work to do', () => {
-    const s = open(small(50), false);
+    const s = openSession(small(50), false);
     assert.deepEqual(s.pending(), []);
     assert.equal(s.work(Infinity), undefined);
   });

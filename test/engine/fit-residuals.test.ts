@@ -51,6 +51,8 @@ describe('a fit through as many points as estimates', () => {
     assert.deepEqual(f.residuals!.map((r) => r.residual.value), [0, 0]);
     assert.deepEqual(f.residuals!.map((r) => r.residual.si), [0, 0]);
     assert.ok(f.residuals!.every((r) => !Object.is(r.residual.si, -0)), 'no negative zero');
+    // the objective is the sum of the squared residuals: of round-off, so 0 like them
+    assert.equal(f.objective, 0);
   });
 
   it('gives the residual plot a floor of a millionth of the data\'s scale', () => {
@@ -71,5 +73,8 @@ describe('a fit that misses its points', () => {
     // the definition of the residual standard deviation: s² = Σ r² / (n - p)
     assert.equal(f.dof, 3);
     near(r.reduce((s, x) => s + x * x, 0), f.residualSD!.value ** 2 * 3, 1e-9, 'Σ r²');
+    // the objective of an unweighted fit is Σ r² itself, in SI ((kg/m³)²)
+    const si = f.residuals!.map((x) => x.residual.si);
+    near(f.objective!, si.reduce((s, x) => s + x * x, 0), 1e-9, 'objective');
   });
 });

@@ -1,6 +1,6 @@
 /** Small helpers shared by the engine tests. */
 import assert from 'node:assert/strict';
-import { parseExpression, evaluateExpression, runStudy, type Value, type Report, type CellReport } from '../../src/index.ts';
+import { parseExpression, evaluateExpression, runStudy, openStudy, type Value, type Report, type CellReport, type StudySession } from '../../src/index.ts';
 import type { Quantity } from '../../src/units/quantity.ts';
 
 /** Asserts |actual - expected| <= tol * max(1, |expected|). */
@@ -47,3 +47,13 @@ export function cell(report: Report, id: string): CellReport {
   assert.ok(c, `no cell ${id}`);
   return c;
 }
+
+/** A session on a study document, deferring its long cells as the app's worker does when `defer`; fails the test when the document is refused. */
+export function openSession(doc: unknown, defer: boolean): StudySession {
+  const o = openStudy(doc, { defer });
+  assert.ok(o.ok, o.ok ? '' : o.error.message);
+  return o.session;
+}
+
+/** A report as JSON, what the app's worker sends: two reports compared digit for digit. */
+export const reportJson = (r: Report): string => JSON.stringify(r);

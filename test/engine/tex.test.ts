@@ -23,6 +23,14 @@ describe('TeX of expressions', () => {
     assert.equal(tex('log(2) / lambda'), '\\frac{\\ln\\left(2\\right)}{\\lambda}');
   });
 
+  it('puts a dot between names of several letters in a product, so that their letters do not run together', () => {
+    const named = symbolKinds(new Set(['ka', 'Ag', 'F', 'dose', 'k', 'C']));
+    const product = (text: string) => { const p = parseExpression(text); assert.ok(p.ok, text); return toTex(p.expr, named); };
+    assert.equal(product('ka * Ag'), '\\textit{ka} \\cdot \\textit{Ag}');
+    assert.equal(product('F * dose * ka'), 'F \\cdot \\textit{dose} \\cdot \\textit{ka}');
+    assert.equal(product('k * C'), 'k C', 'single letters stay side by side');
+  });
+
   it('keeps the grouping of the tree: parentheses only where the order needs them', () => {
     assert.equal(tex('(k - 1) - (k - 1)'), 'k - 1 - \\left(k - 1\\right)');
     assert.equal(tex('2 * 3'), '2 \\cdot 3');
