@@ -16,7 +16,7 @@ export type {
   Report, CellReport, ReportOf, ReportBase, ReportQuantity, CellFields, ParameterValue, PhaseEquilibrium, PhaseInterval,
   PhasePlotData, SweepReport, SimulationPlot, FindResult, NotReached, ClosedFormReport, EstimateReport, FitResidual, CsvReadReport,
 } from './engine/report.ts';
-export type { Histogram, UncertaintyResult, UncertainInput, SpreadReport, UncertaintyBand } from './engine/report.ts';
+export type { Histogram, UncertaintyResult, PercentilePrecision, UncertainInput, SpreadReport, UncertaintyBand } from './engine/report.ts';
 export { runBand, type RunBand, type DrawnBand } from './output/run-band.ts';
 export { MAX_SAMPLES } from './study/types.ts';
 export { isKind } from './engine/report.ts';

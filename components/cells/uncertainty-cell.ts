@@ -9,8 +9,10 @@ type UncertaintyDoc = CellDoc<'uncertainty'>;
 /**
  * An uncertainty cell: the names to carry the uncertainty to, the method, samples and seed;
  * the engine's results (a table of mean with its Monte Carlo standard error, SD, median and the
- * 2.5–97.5 percentile interval; a verdict's probability of yes as the samples support it, with
- * its standard error and Wilson interval; whether the samples were enough for the digits shown;
+ * 2.5–97.5 percentile interval, each percentile to the place its own uncertainty supports; a
+ * verdict's probability of yes as the samples support it, with its standard error and Wilson
+ * interval; whether the samples were enough for the digits shown; each percentile's interval
+ * from order statistics and the SD's standard error, in words;
  * a histogram per result), the uncertain inputs it drew, the samples in which a name had no
  * value, and a warning where a computed value's own spread hides the spreads upstream of it.
  * Renders only.
@@ -73,9 +75,10 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
       ${quantities.length ? html`<div class="table-scroll" role="region" tabindex="0" aria-label="How sure each result is"><table class="results stack"><caption class="sr">How sure each result is</caption>
         <thead><tr><th class="name">Result</th><th>mean</th>${r.method === 'monte-carlo' ? html`<th title="Monte Carlo standard error of the mean: SD / √samples">± mean's MC error</th>` : nothing}<th>SD</th><th>median</th><th title="from the 2.5 to the 97.5 percentile of the samples">95% interval</th>${r.method === 'monte-carlo' ? html`<th>no value</th>` : nothing}</tr></thead>
         <tbody>${quantities.map(([name, x]) => html`<tr><td class="name wide">${name}</td><td class="result" data-label="mean">${showQ(x.mean)}</td>${r.method === 'monte-carlo' ? html`<td class="result mcse" data-label="± mean's MC error">${x.meanSE ? `± ${showQ(x.meanSE, 2)}` : ''}</td>` : nothing}<td class="result" data-label="SD">${showQ(x.sd)}</td>
-          <td class="result" data-label="median">${showQ(x.median)}</td><td class="result interval" data-label="95% interval">${showQ(x.p025)} to ${showQ(x.p975)}</td>
+          <td class="result" data-label="median">${x.percentiles?.median.shown ?? showQ(x.median)}</td><td class="result interval" data-label="95% interval">${x.percentiles?.p025.shown ?? showQ(x.p025)} to ${x.percentiles?.p975.shown ?? showQ(x.p975)}</td>
           ${r.method === 'monte-carlo' ? html`<td class=${x.failed ? 'failed' : ''} data-label="no value">${x.failed}</td>` : nothing}</tr>`)}</tbody></table></div>` : nothing}
       ${quantities.filter(([, x]) => x.precision).map(([name, x]) => html`<p class="precision muted">${name}: ${x.precision}</p>`)}
+      ${quantities.filter(([, x]) => x.percentilePrecision).map(([name, x]) => html`<p class="precision percentiles muted">${name}: ${x.percentilePrecision}</p>`)}
       ${verdicts.map(([name, x]) => html`<p class="verdict">${this.verdictWords(name, x, r.samples)}</p>`)}
       ${none.map(([name, x]) => html`<p class="foot-error">${name}: no value (${x.reason ?? 'no reason given'}).</p>`)}
       ${r.failed ? html`<p class="failed">${r.failed.toLocaleString('en-US')} of ${r.samples?.toLocaleString('en-US')} samples left a name without a value: ${r.failedReason}.</p>` : nothing}

@@ -13,6 +13,7 @@ import { quantitySig } from './signatures.ts';
 import { summarize, histogram } from '../numerics/sampling/summary.ts';
 import type { LinearName, MonteCarlo } from './uncertainty-methods.ts';
 import { sharePrecision, meanPrecision } from './uncertainty-precision.ts';
+import { percentileFields } from './uncertainty-percentiles.ts';
 
 /** The endings of the names defined per name in `of`. */
 export const RESULT_ENDINGS = ['_p025', '_p975', '_sd', '_probability'] as const;
@@ -22,6 +23,7 @@ export const Z975 = 1.959963984540054;
 
 export const QUANTILE_NOTE = 'Median and percentiles of the samples by Hyndman and Fan\'s definition 7 (linear between order statistics; R\'s and NumPy\'s default); SD with n - 1.';
 export const VERDICT_NOTE = 'A verdict\'s probability is the share of yes among the samples in which it had a value; its Monte Carlo standard error is sqrt(p(1 - p)/n), its 95% interval the Wilson score interval (Wilson 1927), which keeps a width at 0% and 100%, and it is shown to the place of its standard error\'s first digit. A mean\'s Monte Carlo standard error is SD/sqrt(n). Whether the samples were enough for a figure\'s digits follows JCGM 101:2008 7.9: twice its standard error within half a unit of its last digit.';
+export const PERCENTILE_NOTE = 'Each percentile\'s Monte Carlo 95% interval is distribution-free: between two order statistics of the samples whose ranks the binomial distribution gives (Conover 1999, sec. 3.2); its standard uncertainty is the interval\'s width / 3.92, and the percentile is shown to the place of that uncertainty\'s first digit. The SD\'s standard error is SD·sqrt((κ - 1)/(4n)) for large n, κ the samples\' kurtosis.';
 export const LINEAR_NOTE = 'First order (the law of propagation of uncertainty, JCGM 100:2008): the mean is the value at the present inputs, the SD is sqrt(J Σ Jᵀ) with derivatives by central differences, and the 2.5 and 97.5 percentiles are mean ∓ 1.96 SD (a normal approximation).';
 
 type Present = (name: string) => Binding | undefined;
@@ -84,21 +86,23 @@ export function monteCarloOutcome(of: readonly string[], mc: MonteCarlo, inputs:
     const shownSd = report(difference(t, s.sd)).value;
     const factor = s.sd > 0 ? shownSd / s.sd : 1;
     const precise = meanPrecision(shownSd, ns.values.length, (v) => describe(difference(t, v / factor)));
+    const pf = percentileFields(s, { at: (v) => report(sized(t, v)), diff: (v) => report(difference(t, v)) });
     results[name] = {
       mean: report(sized(t, s.mean)), sd: report(difference(t, s.sd)), median: report(sized(t, s.median)),
       p025: report(sized(t, s.p025)), p975: report(sized(t, s.p975)),
-      meanSE: report(difference(t, precise.meanSE / factor)), precision: precise.precision,
+      meanSE: report(difference(t, precise.meanSE / factor)), precision: precise.precision, ...pf,
       histogram: { unit: formatUnit(unit), edges: h.edges, counts: h.counts }, ...failed,
     };
     quantityNames(name, t, s.p025, s.p975, s.sd, bindings, reasons);
-    said.push(`${name}: median ${describe(sized(t, s.median))}, 95% of samples between ${describe(sized(t, s.p025))} and ${describe(sized(t, s.p975))}`);
+    const { p025, median, p975 } = pf.percentiles;
+    said.push(`${name}: median ${median.shown}, 95% of samples between ${p025.shown} and ${p975.shown}`);
   });
   const failNote = mc.failed ? `; ${mc.failed.toLocaleString('en-US')} samples left a name undefined (${mc.reason})` : '';
   return {
     ok: true, bindings, reasons,
     output: {
       method: 'monte-carlo', results, inputs, samples, seed, failed: mc.failed, ...(mc.reason !== undefined ? { failedReason: mc.reason } : {}),
-      evaluations: mc.evaluations, notes: [QUANTILE_NOTE, VERDICT_NOTE],
+      evaluations: mc.evaluations, notes: [QUANTILE_NOTE, VERDICT_NOTE, PERCENTILE_NOTE],
       summary: `${samples.toLocaleString('en-US')} samples (seed ${seed}) over ${inputs.length} uncertain input${inputs.length === 1 ? '' : 's'}: ${said.join('; ')}${failNote}.`,
     },
   };

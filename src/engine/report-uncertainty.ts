@@ -29,6 +29,12 @@ export interface UncertaintyResult {
   meanSE?: ReportQuantity;
   /** Monte Carlo (a Ratebook addition): how precise the figure is, in words, and whether the samples were enough for its digits (JCGM 101:2008 7.9). */
   precision?: string;
+  /** Monte Carlo (a Ratebook addition): each percentile's own precision, from order statistics. */
+  percentiles?: { p025: PercentilePrecision; median: PercentilePrecision; p975: PercentilePrecision };
+  /** Monte Carlo (a Ratebook addition): the SD's standard error for large n, sd·sqrt((κ − 1)/(4n)) with the samples' kurtosis κ, in the SD's unit. */
+  sdSE?: ReportQuantity;
+  /** Monte Carlo (a Ratebook addition): the percentiles' and the SD's precision in words. */
+  percentilePrecision?: string;
   /** For a verdict under the linear method: its value at the present values. */
   truth?: boolean;
   /** Monte Carlo: the samples' histogram. */
@@ -36,6 +42,22 @@ export interface UncertaintyResult {
   /** Samples in which the name had no value, and the first reason. */
   failed: number;
   reason?: string;
+}
+
+/**
+ * A Monte Carlo percentile's precision (a Ratebook addition): its distribution-free 95% interval
+ * from order statistics, the standard uncertainty that interval gives, and the percentile shown
+ * to the place that uncertainty supports.
+ */
+export interface PercentilePrecision {
+  /** The percentile with its unit, rounded to the place of the first digit of `u` ("3.1 h"), to at most 12 significant digits; 4 significant figures where there is no `u`. */
+  shown: string;
+  /** The samples of ranks `ranks[0]` and `ranks[1]` (1-based, ascending) hold the percentile of the distribution with probability `coverage` (at least 0.95); absent with too few samples. */
+  ci95?: { low: ReportQuantity; high: ReportQuantity };
+  ranks?: [number, number];
+  coverage?: number;
+  /** Standard uncertainty: `ci95`'s width / (2 · 1.96), a difference in the SD's unit. */
+  u?: ReportQuantity;
 }
 
 /** An uncertain input as the cell drew it. */

@@ -6,7 +6,7 @@ import { expect } from 'chai';
 import { sendKeys } from '@web/test-runner-commands';
 import { StudyView } from '../../components/study-view.ts';
 import '../../components/cells/registry.ts';
-import { runStudy, type Cell, type Study } from '../../src/index.ts';
+import { runStudy, type Cell, type Study, type UncertaintyResult } from '../../src/index.ts';
 import { deep, until } from './helpers.ts';
 
 /** Newton cooling from 70 degC toward 20 degC; the time to 40 degC (invented numbers). */
@@ -96,10 +96,12 @@ describe('the uncertainty cell element', () => {
 
   it('shows the results table, the verdict\'s probability, a histogram with its data table, and the inputs drawn', async () => {
     const report = await mount(withSpread);
-    const r = report.cells.find((c) => c.id === 'how') as { results: Record<string, { p025: { value: number }; p975: { value: number }; probability?: number; shown?: string; probabilityCI95?: { low: number; high: number }; meanSE?: { value: number } }> };
+    const r = report.cells.find((c) => c.id === 'how') as { results: Record<string, UncertaintyResult> };
     const row = el.shadowRoot!.querySelector('table.results tbody tr')!;
     expect(row.querySelector('td.name')!.textContent).to.equal('t_40');
-    expect(row.textContent).to.contain(`${Number(r.results.t_40.p025.value.toPrecision(4))} h to ${Number(r.results.t_40.p975.value.toPrecision(4))} h`);
+    // each percentile to the place its own uncertainty supports (percentile-precision.test.ts)
+    const pc = r.results.t_40.percentiles!;
+    expect(row.textContent).to.contain(`${pc.p025.shown} to ${pc.p975.shown}`);
     // the probability to the place of its standard error's first digit, then its SE and Wilson interval
     const quick = r.results.quick;
     const verdict = el.shadowRoot!.querySelector('.verdict')!.textContent!.replace(/\s+/g, ' ');

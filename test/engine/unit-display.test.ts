@@ -79,8 +79,10 @@ describe('ratebook run --json on every template', () => {
         else if (v && typeof v === 'object') for (const [k, x] of Object.entries(v)) {
           if (k === 'si' && typeof x === 'number') now[path] = Number.isFinite(x) ? x : String(x);
           // residualFloor is the size of a plot's axis, not a result, and came after the snapshot;
-          // so did meanSE, a Monte Carlo mean's standard error (sd / sqrt(n): uncertainty-precision.test.ts)
-          else if (k !== 'plot' && k !== 'series' && k !== 'residualFloor' && k !== 'meanSE') walk(x, `${path}.${k}`);
+          // so did meanSE, a Monte Carlo mean's standard error (sd / sqrt(n): uncertainty-precision.test.ts),
+          // and sdSE and percentiles, the SD's standard error and each percentile's interval and
+          // standard uncertainty from order statistics (order-statistics.test.ts), sampling-error figures too
+          else if (k !== 'plot' && k !== 'series' && k !== 'residualFloor' && k !== 'meanSE' && k !== 'sdSE' && k !== 'percentiles') walk(x, `${path}.${k}`);
         }
       };
       // the cells' quantities (a later `glance` repeats some of them; the snapshot predates it)

@@ -15,17 +15,25 @@ export interface SampleSummary {
   readonly median: number;
   readonly p025: number;
   readonly p975: number;
+  /** m₄/m₂² with moments about the mean (3 for a normal distribution); NaN when the values are all equal. */
+  readonly kurtosis: number;
+  /** The values in ascending order (for order statistics). */
+  readonly sorted: Float64Array;
 }
 
-/** The summary of `values` (finite, at least one). Sorts a copy. Cost: n log n. */
+/** The summary of `values` (finite, at least one). Sorts a copy, which it returns. Cost: n log n. */
 export function summarize(values: ArrayLike<number>): SampleSummary {
   const n = values.length;
   const sorted = Float64Array.from(values).sort();
   let mean = 0;
   for (let i = 0; i < n; i++) mean += (sorted[i] - mean) / (i + 1);
-  let ss = 0;
-  for (let i = 0; i < n; i++) ss += (sorted[i] - mean) ** 2;
-  return { n, mean, sd: n > 1 ? Math.sqrt(ss / (n - 1)) : 0, median: quantileSorted(sorted, 0.5), p025: quantileSorted(sorted, 0.025), p975: quantileSorted(sorted, 0.975) };
+  let ss = 0, s4 = 0;
+  for (let i = 0; i < n; i++) { const d2 = (sorted[i] - mean) ** 2; ss += d2; s4 += d2 * d2; }
+  return {
+    n, mean, sd: n > 1 ? Math.sqrt(ss / (n - 1)) : 0,
+    median: quantileSorted(sorted, 0.5), p025: quantileSorted(sorted, 0.025), p975: quantileSorted(sorted, 0.975),
+    kurtosis: ss > 0 ? (s4 / n) / (ss / n) ** 2 : NaN, sorted,
+  };
 }
 
 /** The type 7 quantile of sorted values. */
