@@ -7,7 +7,7 @@ import { KINDS, ADDABLE } from './cells/registry.ts';
 import { NARROW_PX, type CellEditDetail } from './cells/common.ts';
 import type { SheetMeta } from './sheet/study-sheet.ts';
 import { loadSheet } from './sheet/load.ts';
-import { wrapField, wrapFieldStyles } from './wrap-field.ts';
+import { growWith, wrapField, wrapFieldStyles } from './wrap-field.ts';
 import { focusFirstField } from './focus-first.ts';
 import { keepClear } from './expr-editor/keep-clear.ts';
 import { readyUnitsInBackground } from './ready-units.ts';
@@ -182,7 +182,7 @@ export class StudyView extends LitElement {
         <span class="status ${c.busy ? 'busy' : ''}" role="status" aria-live="polite">${c.busy ? 'computing…' : saveText(c.saveState)}</span>
       </div>
       <div class="grow description" data-text=${study.description || DESCRIPTION_PLACEHOLDER}><textarea class="description" data-field="description" rows="1" aria-label="What the study is about" placeholder=${DESCRIPTION_PLACEHOLDER} .value=${study.description ?? ''}
-        @input=${(e: Event) => c.edit({ type: 'describe', description: (e.target as HTMLTextAreaElement).value }, 'description')}></textarea></div>
+        @input=${(e: Event) => { growWith(e); c.edit({ type: 'describe', description: (e.target as HTMLTextAreaElement).value }, 'description'); }}></textarea></div>
       ${(report?.cautions ?? []).map((x) => html`<p class="caution" role="note"><strong>Caution.</strong> ${x.text}</p>`)}
       ${report?.warningParts?.length ? html`<section class="name-notes" aria-label="How this study's names are read">
         ${report.warningParts.map((p) => { const w = partsWords(study, p); return html`<p>${w[0].toUpperCase()}${w.slice(1)}.</p>`; })}</section>` : nothing}

@@ -35,7 +35,17 @@ export interface WrapFieldOptions {
 export function wrapField(o: WrapFieldOptions) {
   return html`<div class="grow ${o.cls}" data-text=${o.value || (o.placeholder ?? '')}><textarea class=${o.cls} rows="1" data-field=${o.field ?? nothing} aria-label=${o.label}
     placeholder=${o.placeholder ?? ''} .value=${o.value} @keydown=${ignoreEnter}
-    @input=${(e: Event) => o.onInput(oneLine((e.target as HTMLTextAreaElement).value))}></textarea></div>`;
+    @input=${(e: Event) => { growWith(e); o.onInput(oneLine((e.target as HTMLTextAreaElement).value)); }}></textarea></div>`;
+}
+
+/**
+ * Gives the hidden copy the text as typed, so that the box grows at once: the view is drawn
+ * again only with the engine's answer to the edit, which may come a few frames later.
+ */
+export function growWith(e: Event): void {
+  const box = e.target as HTMLTextAreaElement;
+  const grow = box.parentElement;
+  if (grow?.classList.contains('grow')) grow.dataset.text = box.value || box.placeholder;
 }
 
 function ignoreEnter(e: KeyboardEvent) {
