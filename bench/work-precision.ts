@@ -123,7 +123,8 @@ export function ours(p: Problem, method: Method, rtol: number): OurRun {
   const out = new Float64Array(n);
   for (let c = 0; c + 1 < cuts.length; c++) {
     if (c > 0) y[0] += p.jump!;
-    const res = integrate(p.f, cuts[c], y, cuts[c + 1], { method, rtol, atol, firstStep });
+    // a schedule with doses runs as a simulate cell runs it (run-schedule.ts: piecewise)
+    const res = integrate(p.f, cuts[c], y, cuts[c + 1], { method, rtol, atol, firstStep, piecewise: cuts.length > 2 });
     evaluations += res.counters.evaluations;
     if (res.status !== 'success') return { evaluations, error: Infinity, units: Infinity, method: res.method };
     used.add(res.method);

@@ -11,7 +11,6 @@ import { stepPoints, type Trajectory } from '../simulate/trajectory.ts';
 import { extreme, valueOfAt } from '../simulate/queries.ts';
 import { linearCoefficients, compareWithExact } from '../simulate/closed-form.ts';
 import { simulationPlot } from '../simulate/plot-data.ts';
-import { autoExplicit } from '../numerics/ode/integrate.ts';
 import { timesInRun } from '../simulate/schedule.ts';
 import { repeatsText } from '../output/event-words.ts';
 import type { Law, MeasuredSeries } from '../engine/node.ts';
@@ -73,7 +72,7 @@ export function simulationOutput(core: SimulationCore, measured: readonly Measur
   };
   if (run.switchedToStiff !== null) {
     output.switchedToStiff = report(asTime(run.switchedToStiff));
-    output.note = `the law turned out stiff; the run switched from ${autoExplicit(core.rtol) === 'adams' ? 'the Adams formulas' : 'Dormand–Prince'} to the stiff method at t = ${describe(asTime(run.switchedToStiff))}`;
+    output.note = `the law turned out stiff; the run switched from ${run.switchedFrom === 'adams' ? 'the Adams formulas' : 'Dormand–Prince'} to the stiff method at t = ${describe(asTime(run.switchedToStiff))}`;
   }
   return output;
 }

@@ -3,7 +3,7 @@
  * and restarts after applying the actions (jumps, parameter changes, infusions switched on or
  * off), so no step ever crosses a discontinuity. Pure numbers (SI).
  */
-import { integrate, newOdeReuse, type Method, type OdeReuse } from '../numerics/ode/integrate.ts';
+import { autoExplicit, integrate, newOdeReuse, type Method, type OdeReuse } from '../numerics/ode/integrate.ts';
 import { Status } from '../numerics/ode/types.ts';
 import type { Action } from './schedule.ts';
 import type { Piece, Trajectory } from './trajectory.ts';
@@ -40,6 +40,8 @@ export interface RunOutcome {
   readonly rejected: number;
   readonly methodsUsed: ReadonlySet<string>;
   readonly switchedToStiff: number | null;
+  /** The explicit method `auto` ran before it switched to the stiff method (null: no switch). */
+  readonly switchedFrom: 'dopri5' | 'adams' | null;
 }
 
 /**
@@ -95,24 +97,30 @@ export function runSchedule(sys: SystemSpec, actions: readonly Action[], t0: num
   };
 
   const start = Float64Array.from(y);
+  // doses inside the run: auto keeps dopri5 at rtol 1e-6 (see autoExplicit)
+  const piecewise = actions.some((x) => x.time > t0 && x.time < t1);
+  let switchedFrom: RunOutcome['switchedFrom'] = null;
   apply(t0);
   while (true) {
     const next = a < actions.length && actions[a].time < t1 ? actions[a].time : t1;
     const y0 = Float64Array.from(y);
     const r = integrate(f, t, y, next, {
       method: settings.method, step: settings.step, rtol: settings.rtol, atol,
-      firstStep, maxSteps: Math.max(1, settings.maxSteps - steps - rejected), autonomous: sys.autonomous,
+      firstStep, maxSteps: Math.max(1, settings.maxSteps - steps - rejected), autonomous: sys.autonomous, piecewise,
     }, reuse);
     steps += r.counters.steps;
     rejected += r.counters.rejected;
     evaluations += r.counters.evaluations;
     methods.add(r.method);
-    if (r.switchedToStiff !== null && switched === null) switched = r.switchedToStiff;
+    if (r.switchedToStiff !== null && switched === null) {
+      switched = r.switchedToStiff;
+      switchedFrom = autoExplicit(settings.rtol, piecewise);
+    }
     // r.y is the integrator's own copy, which nothing else holds
     pieces.push({ t0: t, t1: r.t, y0, y1: r.y, segments: r.segments, params: Float64Array.from(p), infusion: Float64Array.from(infusion) });
     if (r.status !== Status.Success || next >= t1) {
       return {
-        trajectory: { t0, t1: r.t, width, start, pieces }, status: r.status, steps, evaluations, rejected, methodsUsed: methods, switchedToStiff: switched,
+        trajectory: { t0, t1: r.t, width, start, pieces }, status: r.status, steps, evaluations, rejected, methodsUsed: methods, switchedToStiff: switched, switchedFrom,
         ...(r.status === Status.Success ? {} : { failure: { t: r.failure?.t ?? r.t, y: Float64Array.from(r.failure?.y ?? r.y), status: r.status } }),
       };
     }

@@ -41,9 +41,16 @@ export type MethodUsed = Exclude<Method, 'auto'>;
  */
 export const ADAMS_FROM_RTOL = 1e-6;
 
-/** The explicit method `auto` starts with at this rtol. */
-export function autoExplicit(rtol: number): 'dopri5' | 'adams' {
-  return rtol <= ADAMS_FROM_RTOL ? 'adams' : 'dopri5';
+/**
+ * The explicit method `auto` starts with at this rtol; for a piece of a schedule with doses
+ * still to come (`piecewise`), only below `ADAMS_FROM_RTOL`. Each piece starts the Adams
+ * formulas again (a dopri5 step and a new history) while dopri5 carries its step across the
+ * dose, so on a schedule of cheap laws dopri5 costs less processor time at 1e-6 (the 6-dose
+ * study: 650 µs median and 1.10 ms at the 95th percentile with Adams, 438 / 656 µs with
+ * dopri5, quiet machine, bench/README.md) for evaluations still 0.68x LSODA's there.
+ */
+export function autoExplicit(rtol: number, piecewise = false): 'dopri5' | 'adams' {
+  return (piecewise ? rtol < ADAMS_FROM_RTOL : rtol <= ADAMS_FROM_RTOL) ? 'adams' : 'dopri5';
 }
 
 export interface IntegrateOptions extends SolverOptions {
@@ -53,6 +60,8 @@ export interface IntegrateOptions extends SolverOptions {
   readonly step?: number;
   /** The formula the stiff method runs, whatever the problem; default: chosen by `stiff-choice.ts`. */
   readonly stiffFormula?: StiffFormula;
+  /** The run is a piece of a schedule with doses still to come: see `autoExplicit`. */
+  readonly piecewise?: boolean;
 }
 
 export interface IntegrateResult {
@@ -209,7 +218,7 @@ function run(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number, options: Int
   const resolved = resolveOptions(options, start.length, t1 - t0);
   const counters = newCounters();
   const ctx = newContext(f, start, resolved, counters, t1 - t0);
-  let used: MethodUsed = method === 'auto' ? autoExplicit(resolved.rtol) : method;
+  let used: MethodUsed = method === 'auto' ? autoExplicit(resolved.rtol, options.piecewise) : method;
   let stiffFormula: StiffFormula | null = null;
   let stepper: Stepper;
   if (used === 'stiff') {
