@@ -6,19 +6,9 @@ import { StudyView } from '../../components/study-view.ts';
 import '../../components/cells/registry.ts';
 import type { Cell, Study } from '../../src/index.ts';
 import { deep, until } from './helpers.ts';
+import { hiddenSpreadStudy } from './monte-carlo-study.ts';
 
-/** A half-life from a clearance and a volume (invented numbers). */
-const STUDY: Study = {
-  format: 'ratebook-study', version: 1, title: 'half-life (invented numbers)', cells: [
-    { id: 'pk', kind: 'parameters', items: [
-      { name: 'CL', value: '5 L / h', spread: { distribution: 'lognormal', cv: 0.3 } },
-      { name: 'V', value: '50 L', spread: { distribution: 'lognormal', cv: 0.2 } },
-      { name: 'k', value: 'CL / V', spread: { distribution: 'lognormal', cv: 0.1 } },
-      { name: 't_half', value: 'log(2) / k' },
-    ] },
-    { id: 'how', kind: 'uncertainty', of: ['t_half'], samples: 200, seed: 3 },
-  ],
-} as Study;
+const STUDY: Study = hiddenSpreadStudy();
 
 describe('a spread on a computed value, in the study view', () => {
   let view: StudyView;

@@ -32,6 +32,24 @@ export function atOnce(doc: Study): CellReport {
 }
 
 /** The run's trough in a report (mg/L). */
+/**
+ * A half-life from a clearance and a volume, k with a spread of its own that hides theirs from
+ * what reads k (invented numbers).
+ */
+export function hiddenSpreadStudy(): Study {
+  return {
+    format: 'ratebook-study', version: 1, title: 'half-life (invented numbers)', cells: [
+      { id: 'pk', kind: 'parameters', items: [
+        { name: 'CL', value: '5 L / h', spread: { distribution: 'lognormal', cv: 0.3 } },
+        { name: 'V', value: '50 L', spread: { distribution: 'lognormal', cv: 0.2 } },
+        { name: 'k', value: 'CL / V', spread: { distribution: 'lognormal', cv: 0.1 } },
+        { name: 't_half', value: 'log(2) / k' },
+      ] },
+      { id: 'how', kind: 'uncertainty', of: ['t_half'], samples: 200, seed: 3 },
+    ],
+  } as Study;
+}
+
 export const runTrough = (r: { cells: readonly CellReport[] } | undefined) => (r?.cells.find((c) => c.id === 'run') as { results?: { trough?: { value: number } } } | undefined)?.results?.trough?.value;
 
 export interface Live {

@@ -5,7 +5,7 @@
 import { expect } from 'chai';
 import type { Cell } from '../../src/index.ts';
 import { until } from './helpers.ts';
-import { MC, mount, study, type Live } from './monte-carlo-study.ts';
+import { MC, hiddenSpreadStudy, mount, study, type Live } from './monte-carlo-study.ts';
 
 let live: Live;
 
@@ -66,22 +66,13 @@ describe('a pending cell\'s element', () => {
 
   it('a "spread not carried" warning of the previous figures is greyed with them while the cell is pending', async function () {
     this.timeout(60_000);
-    // a half-life from a clearance and a volume, k with a spread of its own (invented numbers)
-    const cells = [
-      { id: 'pk', kind: 'parameters', items: [
-        { name: 'CL', value: '5 L / h', spread: { distribution: 'lognormal', cv: 0.3 } },
-        { name: 'V', value: '50 L', spread: { distribution: 'lognormal', cv: 0.2 } },
-        { name: 'k', value: 'CL / V', spread: { distribution: 'lognormal', cv: 0.1 } },
-        { name: 't_half', value: 'log(2) / k' },
-      ] },
-      { id: 'how', kind: 'uncertainty', of: ['t_half'], samples: 200, seed: 3 },
-    ] as Cell[];
-    live = await mount({ format: 'ratebook-study', version: 1, title: 'half-life (invented numbers)', cells });
+    const doc = hiddenSpreadStudy();
+    live = await mount(doc);
     const shadow = () => live.article('how').querySelector('uncertainty-cell')!.shadowRoot!;
     const warning = await until(() => !live.view.controller.pending.includes('how') && shadow().querySelector('p.hidden-spread'), 'the warning', 30_000);
     const current = getComputedStyle(warning).color;
     // many more samples: pending for a while, its previous figures and warning still shown
-    await edited(live, { ...cells[1], samples: 60_000 } as Cell);
+    await edited(live, { ...doc.cells[1], samples: 60_000 } as Cell);
     expect(live.view.controller.pending).to.include('how');
     const stale = shadow().querySelector('p.hidden-spread')!;
     const figures = shadow().querySelector('.figures')!;
