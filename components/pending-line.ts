@@ -6,7 +6,7 @@
  * samples of a band around a run are counted too). Renders only.
  */
 import { html, css } from 'lit';
-import type { Progress } from '../src/index.ts';
+import type { CellReport, Progress } from '../src/index.ts';
 
 export const pendingStyles = css`
   article.pending { --stale-color: #5b6670; --stale-opacity: 0.4; border-style: dashed; }
@@ -17,9 +17,10 @@ export const pendingStyles = css`
 
 /**
  * The line of a pending cell `id`: its own progress, or the cell it waits for. `name` gives a
- * cell as people read it (its title, else its id).
+ * cell as people read it (its title, else its id); `previous`: whether figures of its previous
+ * inputs are shown below (none on a first run, or after a failure of those inputs).
  */
-export function pendingLine(id: string, progress: Progress | undefined, name: (id: string) => string) {
+export function pendingLine(id: string, progress: Progress | undefined, name: (id: string) => string, previous: boolean) {
   const own = progress?.cell === id ? progress : undefined;
   const unit = progress?.unit ?? 'samples';
   const label = unit === 'samples' ? 'Samples drawn' : `${unit[0].toUpperCase()}${unit.slice(1)} done`;
@@ -28,5 +29,13 @@ export function pendingLine(id: string, progress: Progress | undefined, name: (i
     ${own ? html`<progress aria-label=${label} max=${own.total} .value=${own.done}></progress><span class="count">${count(own)}</span>`
       : progress ? html`<span>Waits for ${name(progress.cell)} (${count(progress)}).</span>`
       : html`<progress aria-label="Computing"></progress><span>Starting…</span>`}
-    <span>Until it is done, the figures below are the previous ones.</span></p>`;
+    <span>${previous ? 'Until it is done, the figures below are the previous ones.' : 'Its figures will show when it is done.'}</span></p>`;
+}
+
+/** The fields every report has, figures or not. */
+const FRAME = new Set(['id', 'kind', 'title', 'ok', 'tex', 'computed', 'message']);
+
+/** Whether a pending cell's report still holds figures of its previous inputs (none on a first run, or after they failed). */
+export function hasFigures(r: CellReport | undefined): boolean {
+  return !!r?.ok && r.computed !== false && Object.keys(r).some((k) => !FRAME.has(k));
 }

@@ -13,7 +13,7 @@ import { keepClear } from './expr-editor/keep-clear.ts';
 import { readyUnitsInBackground } from './ready-units.ts';
 import { ref } from 'lit/directives/ref.js';
 import { guard } from 'lit/directives/guard.js';
-import { pendingLine, pendingStyles } from './pending-line.ts';
+import { hasFigures, pendingLine, pendingStyles } from './pending-line.ts';
 
 const DESCRIPTION_PLACEHOLDER = 'What this study is about (optional; printed on the sheet)';
 
@@ -220,7 +220,7 @@ export class StudyView extends LitElement {
           <button aria-label="Delete ${cell.id}" @click=${() => c.edit({ type: 'remove', id: cell.id })}>✕</button>
         </span>
       </header>
-      ${pending ? pendingLine(cell.id, c.progress, (id) => { const t = c.study?.cells.find((x) => x.id === id)?.title; return t ? `"${t}"` : `cell ${id}`; }) : nothing}
+      ${pending ? pendingLine(cell.id, c.progress, (id) => { const t = c.study?.cells.find((x) => x.id === id)?.title; return t ? `"${t}"` : `cell ${id}`; }, hasFigures(r)) : nothing}
       ${pending ? guard(r?.ok === false ? [cell, r, report, c.study] : [cell, r], () => info.render(cell, r, report, c.study)) : info.render(cell, r, report, c.study)}
     </article>`;
   }

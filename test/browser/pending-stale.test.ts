@@ -28,6 +28,23 @@ async function edited(l: Live, cell: Cell): Promise<void> {
 describe('a pending cell\'s element', () => {
   afterEach(() => live?.view.remove());
 
+  it('its line says the figures below are the previous ones only when there are some', async function () {
+    this.timeout(60_000);
+    const line = () => live.article(MC).querySelector('.pending-line')?.textContent ?? '';
+    const doc = study();
+    live = await mount(doc);
+    // the first answer: the Monte Carlo has never finished, so there are no previous figures
+    expect(live.pending()).to.equal(true);
+    expect(line()).to.include('Its figures will show when it is done.');
+    expect(line()).to.not.include('previous ones');
+    await until(() => !live.pending(), 'the Monte Carlo done', 40_000);
+    await live.view.updateComplete;
+    const mc = doc.cells.find((c) => c.id === MC)!;
+    await edited(live, { ...mc, seed: 11 } as Cell);
+    expect(live.pending()).to.equal(true);
+    expect(line()).to.include('the figures below are the previous ones');
+  });
+
   it('the Monte Carlo\'s samples out of range, then put right: pending, its element shows no error about the old count', async function () {
     this.timeout(60_000);
     const doc = study();
