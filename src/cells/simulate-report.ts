@@ -39,12 +39,15 @@ export function simulationOutput(core: SimulationCore, measured: readonly Measur
     }
   }
   const last = tr.pieces[tr.pieces.length - 1];
+  // a computed value within the state's absolute tolerance of zero is zero to the run's
+  // accuracy: the words say 0, not a round-off such as -1.79e-7 mg of a drug
+  const said = (i: number, v: number) => stateValue(core, i, Math.abs(v) <= core.atol[i] ? 0 : v);
   const paths: StatePath[] = laws.map((l, i) => ({
     name: l.state,
     start: stateValue(core, i, tr.pieces[0].y0[i]),
-    end: stateValue(core, i, last.y1[i]),
-    min: stateValue(core, i, extreme(tr, i, -1)!.value),
-    max: stateValue(core, i, extreme(tr, i, 1)!.value),
+    end: said(i, last.y1[i]),
+    min: said(i, extreme(tr, i, -1)!.value),
+    max: said(i, extreme(tr, i, 1)!.value),
   }));
   const plot = simulationPlot({
     tr, timeUnit, timeOf: asTime, actions: core.timeline, marks,

@@ -382,3 +382,15 @@ describe('what a plot and a reader get', () => {
     assert.match(String(run.summary), /^T falls from 74 degC to [\d.]+ degC; t21 \(T falls through 21 degC\): 1\.769 h\.$/);
   });
 });
+
+describe('the words of a run that ends at zero', () => {
+  it('say 0 where a value is within the absolute tolerance of zero, not its round-off', () => {
+    // a gut amount given at t = 0 and absorbed with ka = 3 /h (invented numbers): after 12 h
+    // 320 mg e^{-36}, 7e-14 mg, below the run's absolute tolerance (320 mg * 1e-6 * 1e-3)
+    const run = simulate([
+      { id: 'law', kind: 'rate', state: 'Ag', unit: 'mg', rate: '-3 / h * Ag', initial: '320 mg' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '12 h' },
+    ]);
+    assert.equal(String(run.summary), 'Ag falls from 320 mg to 0 mg.');
+  });
+});
