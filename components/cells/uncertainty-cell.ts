@@ -9,7 +9,8 @@ type UncertaintyDoc = CellDoc<'uncertainty'>;
 /**
  * An uncertainty cell: the names to carry the uncertainty to, the method, samples and seed;
  * the engine's results (a table of mean with its Monte Carlo standard error, SD, median and the
- * 2.5–97.5 percentile interval, each percentile to the place its own uncertainty supports; a
+ * 2.5–97.5 percentile interval, each Monte Carlo figure as the engine shows it, to the place its
+ * own standard error supports (the linear method's to 4 figures); a
  * verdict's probability of yes as the samples support it, with its standard error and Wilson
  * interval; whether the samples were enough for the digits shown; each percentile's interval
  * from order statistics and the SD's standard error, in words;
@@ -74,7 +75,7 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
       ${(r.warnings ?? []).map((w) => html`<p class="foot-error hidden-spread" role="note"><strong>Spread not carried.</strong> ${w}</p>`)}
       ${quantities.length ? html`<div class="table-scroll" role="region" tabindex="0" aria-label="How sure each result is"><table class="results stack"><caption class="sr">How sure each result is</caption>
         <thead><tr><th class="name">Result</th><th>mean</th>${r.method === 'monte-carlo' ? html`<th title="Monte Carlo standard error of the mean: SD / √samples">± mean's MC error</th>` : nothing}<th>SD</th><th>median</th><th title="from the 2.5 to the 97.5 percentile of the samples">95% interval</th>${r.method === 'monte-carlo' ? html`<th>no value</th>` : nothing}</tr></thead>
-        <tbody>${quantities.map(([name, x]) => html`<tr><td class="name wide">${name}</td><td class="result" data-label="mean">${showQ(x.mean)}</td>${r.method === 'monte-carlo' ? html`<td class="result mcse" data-label="± mean's MC error">${x.meanSE ? `± ${showQ(x.meanSE, 2)}` : ''}</td>` : nothing}<td class="result" data-label="SD">${showQ(x.sd)}</td>
+        <tbody>${quantities.map(([name, x]) => html`<tr><td class="name wide">${name}</td><td class="result" data-label="mean">${x.shownFigures?.mean ?? showQ(x.mean)}</td>${r.method === 'monte-carlo' ? html`<td class="result mcse" data-label="± mean's MC error">${x.shownFigures ? `± ${x.shownFigures.meanSE}` : ''}</td>` : nothing}<td class="result" data-label="SD">${x.shownFigures?.sd ?? showQ(x.sd)}</td>
           <td class="result" data-label="median">${x.percentiles?.median.shown ?? showQ(x.median)}</td><td class="result interval" data-label="95% interval">${x.percentiles?.p025.shown ?? showQ(x.p025)} to ${x.percentiles?.p975.shown ?? showQ(x.p975)}</td>
           ${r.method === 'monte-carlo' ? html`<td class=${x.failed ? 'failed' : ''} data-label="no value">${x.failed}</td>` : nothing}</tr>`)}</tbody></table></div>` : nothing}
       ${quantities.filter(([, x]) => x.precision).map(([name, x]) => html`<p class="precision muted">${name}: ${x.precision}</p>`)}

@@ -1,7 +1,8 @@
 /**
  * The printed sheet's section of an uncertainty cell: the spread of every uncertain input, the
- * result table with its intervals and each mean's Monte Carlo error (each percentile to the place
- * its own uncertainty supports, and its order-statistic interval in words), each verdict's probability
+ * result table with its intervals and each mean's Monte Carlo error (the mean, the SD and each
+ * percentile to the place its own standard error supports, and the percentiles' order-statistic
+ * intervals in words), each verdict's probability
  * with its standard error and Wilson interval, whether the samples were enough for the digits
  * shown, a histogram per result, and where a computed value's own spread hides those upstream.
  * Layout only: every number is the report's.
@@ -23,7 +24,7 @@ export function uncertaintySheet(cell: Of<'uncertainty'>, r: ReportOf<'uncertain
     <tbody>${(r.inputs ?? []).map((i) => html`<tr><td class="name">${i.name}</td><td>${i.text}</td></tr>`)}</tbody></table>
     <table class="how-sure"><thead><tr><th>Result</th><th>Mean</th>${mc ? html`<th>± Mean's MC error</th>` : nothing}<th>SD</th><th>Median</th><th>95% interval</th>${mc ? html`<th>No value</th>` : nothing}</tr></thead>
     <tbody>${results.map(([name, x]) => html`<tr><td class="name">${name}</td>${x.mean
-      ? html`<td class="num">${showQ(x.mean)}</td>${mc ? html`<td class="num">${x.meanSE ? `± ${showQ(x.meanSE, 2)}` : ''}</td>` : nothing}<td class="num">${showQ(x.sd)}</td><td class="num">${x.percentiles?.median.shown ?? showQ(x.median)}</td><td class="num">${x.percentiles?.p025.shown ?? showQ(x.p025)} to ${x.percentiles?.p975.shown ?? showQ(x.p975)}</td>`
+      ? html`<td class="num">${x.shownFigures?.mean ?? showQ(x.mean)}</td>${mc ? html`<td class="num">${x.shownFigures ? `± ${x.shownFigures.meanSE}` : ''}</td>` : nothing}<td class="num">${x.shownFigures?.sd ?? showQ(x.sd)}</td><td class="num">${x.percentiles?.median.shown ?? showQ(x.median)}</td><td class="num">${x.percentiles?.p025.shown ?? showQ(x.p025)} to ${x.percentiles?.p975.shown ?? showQ(x.p975)}</td>`
       : html`<td colspan=${mc ? 5 : 4}>${x.probability !== undefined ? `yes in ${x.shown ?? `${formatNumber(100 * x.probability, 3)}%`} of samples${x.precision ? `, ${x.precision}` : ''}` : x.truth !== undefined ? `${x.truth ? 'yes' : 'no'} at the present values` : `no value: ${x.reason ?? ''}`}</td>`}
       ${mc ? html`<td class="num">${x.failed}</td>` : nothing}</tr>`)}</tbody></table>
     ${results.filter(([, x]) => x.mean && x.precision).map(([name, x]) => html`<p class="check">${name}: ${x.precision}</p>`)}

@@ -4,14 +4,15 @@
  * (2.5, median, 97.5) its distribution-free 95% interval from order statistics, the standard
  * uncertainty that interval gives (its width / (2 · 1.96)) and the percentile shown to the place
  * of that uncertainty's first digit, as a verdict's probability is shown to its standard error's
- * (uncertainty-precision.ts); the SD's large-sample standard error from the samples' kurtosis.
+ * (uncertainty-precision.ts); the SD's large-sample standard error from the samples' kurtosis, and
+ * the SD shown to the place of its first digit. Each ± by the one rule of uncertainty-digits.ts.
  * Nothing else is computed from them: the defined names `_p025`, `_p975`, `_sd` are unchanged.
  */
 import type { PercentilePrecision } from '../engine/report.ts';
 import { formatNumber, type ReportQuantity } from '../units/quantity.ts';
-import { unitAfterNumber } from '../units/units.ts';
 import { quantileInterval, sdSE, fewestForInterval } from '../numerics/sampling/order-statistics.ts';
-import { leadingPlace, roundTo, decimalsOf } from '../numerics/sampling/mc-precision.ts';
+import { shownPlace, leadingPlace, toPlace } from '../numerics/sampling/mc-precision.ts';
+import { withUnit, plusMinus, figureDigits } from './uncertainty-digits.ts';
 
 /** How a result's SI numbers are reported: a value in its unit, a difference in the SD's unit. */
 export interface ResultScale {
@@ -37,16 +38,9 @@ export interface PercentileFields {
 
 const KEYS = [['p025', 0.025, '2.5 percentile'], ['median', 0.5, 'median'], ['p975', 0.975, '97.5 percentile']] as const;
 
-const withUnit = (text: string, unit: string): string => (unit ? `${text} ${unitAfterNumber(unit)}` : text);
 const count = (n: number): string => n.toLocaleString('en-US');
-/** `x` to the place `place`, written with that many decimals. */
-const fixed = (x: number, place: number): string => roundTo(x, place).toFixed(Math.min(20, decimalsOf(place)));
-
-/** `digits ± u unit` where the two share a unit ("3.9 ± 0.2 mg / L"), else each with its own ("19.12 degC ± 0.024 K"). */
-function plusMinus(digits: string, unit: string, u: ReportQuantity): string {
-  const spread = formatNumber(u.value, 2);
-  return u.unit === unit ? withUnit(`${digits} ± ${spread}`, unit) : `${withUnit(digits, unit)} ± ${withUnit(spread, u.unit)}`;
-}
+/** The samples' kurtosis to the place of its own standard error's first digit, sqrt(24/n) for normal samples (more for others): "4.0" at 2,000 samples. */
+const kurtosisText = (k: number, n: number): string => toPlace(k, shownPlace(k, Math.sqrt(24 / n)));
 
 /** One percentile's fields and words. */
 function onePercentile(sorted: Float64Array, p: number, label: string, si: number, scale: ResultScale): { fields: PercentilePrecision; words: string } {
@@ -63,10 +57,10 @@ function onePercentile(sorted: Float64Array, p: number, label: string, si: numbe
     return { fields: { shown, ...fields }, words: `${label} ${shown} ± 0 (the samples at both ends of its interval are equal)` };
   }
   // at most 12 significant digits of the value: past them a place shows the binary noise of its digits
-  const place = q.value !== 0 ? Math.max(leadingPlace(u.value), leadingPlace(Math.abs(q.value)) * 1e-11) : leadingPlace(u.value);
-  const digits = fixed(q.value, place);
+  const place = shownPlace(q.value, u.value);
+  const digits = toPlace(q.value, place);
   const finer = q.value !== 0 ? Math.max(place / 10, leadingPlace(Math.abs(q.value)) * 1e-11) : place / 10;
-  const ends = withUnit(`${fixed(low.value, finer)} to ${fixed(high.value, finer)}`, q.unit);
+  const ends = withUnit(`${toPlace(low.value, finer)} to ${toPlace(high.value, finer)}`, q.unit);
   return { fields: { shown: withUnit(digits, q.unit), ...fields }, words: `${label} ${plusMinus(digits, q.unit, u)} (${ends})` };
 }
 
@@ -84,9 +78,10 @@ export function percentileFields(s: SampleFigures, scale: ResultScale): Percenti
     said.push(one.words);
   }
   const se = scale.diff(sdSE(s.sd, s.kurtosis, n));
-  const sdWords = s.sd > 0
-    ? `the SD's Monte Carlo standard error ${withUnit(formatNumber(se.value, 2), se.unit)} (samples' kurtosis ${formatNumber(s.kurtosis, 3)})`
-    : 'the SD is 0: every sample gave the same value';
+  const sd = scale.diff(s.sd);
+  const sdWords = s.sd > 0 && se.value > 0
+    ? `SD ${plusMinus(figureDigits(sd.value, se.value).digits, sd.unit, se)}, to the place of its Monte Carlo standard error's first digit (SD·sqrt((κ − 1)/(4n)), the samples' kurtosis κ ${kurtosisText(s.kurtosis, n)})`
+    : s.sd > 0 ? `SD ${withUnit(formatNumber(sd.value), sd.unit)} (its large-sample standard error is 0 at the samples' kurtosis ${kurtosisText(s.kurtosis, n)})` : 'the SD is 0: every sample gave the same value';
   return {
     percentiles, sdSE: se,
     percentilePrecision: `Percentiles, each to the place of its own Monte Carlo uncertainty (in brackets the 95% interval for the percentile itself, from order statistics): ${said.join('; ')}; ${sdWords}.`,

@@ -2,12 +2,14 @@
  * How precise an uncertainty cell's Monte Carlo figures are (numerics/sampling/mc-precision.ts),
  * as the report's fields and words: for a verdict, the standard error of its probability, its
  * Wilson 95% interval and the probability shown to the place its standard error supports; for
- * a quantity, the standard error of its mean. Each says, by JCGM 101:2008 7.9, whether the
- * samples were enough for the digits shown, or how many would be.
+ * a quantity, the standard error of its mean and the mean shown to the place it supports. Each
+ * says, by JCGM 101:2008 7.9, how many samples would settle the last digit shown. Every standard
+ * error is written by one rule (`uncertaintyText`).
  */
 import { MAX_SAMPLES } from '../study/types.ts';
-import { formatNumber } from '../units/quantity.ts';
-import { proportionSE, meanSE, wilsonInterval, shareUncertainty, leadingPlace, roundTo, decimalsOf, settled } from '../numerics/sampling/mc-precision.ts';
+import type { ReportQuantity } from '../units/quantity.ts';
+import { proportionSE, wilsonInterval, shareUncertainty, leadingPlace, roundTo, decimalsOf, settled, uncertaintyText } from '../numerics/sampling/mc-precision.ts';
+import { figureDigits, plusMinus, placeWords, uncertaintyWords } from './uncertainty-digits.ts';
 
 /** Say a count of samples: "38,000", rounded to two significant figures past 1,000. */
 function count(n: number): string {
@@ -54,29 +56,26 @@ export function sharePrecision(yes: number, n: number): SharePrecision {
   const digit = place >= 1 ? 'whole percent' : `${place.toFixed(decimals)} point`;
   const settle = `${moreSamples(needed, `the ${digit} shown`)} (JCGM 101:2008 7.9: twice the standard error within half a unit of it)`;
   const sentence = se > 0
-    ? `± ${formatNumber(100 * se, 2)} percentage points (Monte Carlo standard error); ${range}. Another seed may move it by about ${formatNumber(200 * se, 2)} points (2 SE); ${settle}.`
+    ? `± ${uncertaintyText(100 * se)} percentage points (Monte Carlo standard error); ${range}. Another seed may move it by about ${uncertaintyText(200 * se)} points (2 SE); ${settle}.`
     : `${yes === 0 ? 'none' : 'every one'} of ${n.toLocaleString('en-US')} samples was yes, so the standard error sqrt(p(1 − p)/n) is 0 and says nothing; ${range}. ${settle[0].toUpperCase()}${settle.slice(1)}.`;
   return { probabilitySE: se, probabilityCI95: ci, shown, precision: sentence };
 }
 
 /**
- * A mean's precision: its standard error SD/sqrt(n), and JCGM 101:2008 7.9 with one
- * significant digit of the SD (n_dig = 1): the tolerance is half a unit of the SD's first
- * digit, and the samples are enough when twice the standard error is within it. `sd` and the
- * standard error returned are in the unit the SD is shown in (its digits are that unit's);
- * `say` writes such a value with its unit.
+ * A mean's precision: `mean` and its standard error `se` (SD/sqrt(n), in the SD's unit) as the
+ * report gives them. The mean is shown to the place of the standard error's first digit, as the
+ * percentiles and a verdict's probability are; by JCGM 101:2008 7.9.4 (twice the standard error
+ * within half a unit of the last digit) that digit is settled only when the place is held at the
+ * mean's 12th significant digit, so the words say how far another seed may move it and how many
+ * samples would settle it. The place said is the place of the digits shown (`figureDigits`).
  */
-export function meanPrecision(sd: number, n: number, say: (si: number) => string): { meanSE: number; precision: string } {
-  const se = meanSE(sd, n);
-  if (!(sd > 0)) return { meanSE: 0, precision: `Every one of the ${n.toLocaleString('en-US')} samples gave the same value: its mean has no Monte Carlo error.` };
-  const place = leadingPlace(sd);
-  const s = settled(se, n, place);
-  const to = `${say(roundTo(place, place))}, the first digit of its SD`;
-  const twice = `twice its Monte Carlo standard error, ${say(2 * se)}`;
-  return {
-    meanSE: se,
-    precision: s.settled
-      ? `Enough samples for the mean to ${to}: ${twice}, is within half of that (JCGM 101:2008 7.9).`
-      : `Not enough samples for the mean to ${to}: ${twice}, is more than half of that; ${moreSamples(s.samplesNeeded, 'it')} (JCGM 101:2008 7.9).`,
-  };
+export function meanPrecision(mean: ReportQuantity, se: ReportQuantity, n: number): string {
+  if (!(se.value > 0)) return `Every one of the ${n.toLocaleString('en-US')} samples gave the same value: its mean has no Monte Carlo error.`;
+  const { digits, place } = figureDigits(mean.value, se.value);
+  const at = placeWords(place!, se.unit);
+  const s = settled(se.value, n, place!);
+  const settle = s.settled ? `these samples settle its ${at} digit` : moreSamples(s.samplesNeeded, `its ${at} digit`);
+  const why = place === leadingPlace(se.value) ? 'the place of the standard error\'s first digit' : 'its 12th significant digit (finer digits would show round-off)';
+  return `Mean ${plusMinus(digits, mean.unit, se)} (Monte Carlo standard error, SD/√n), shown to ${at}, ${why}. `
+    + `Another seed may move it by about ${uncertaintyWords({ ...se, value: 2 * se.value, si: 2 * se.si })} (2 SE); ${settle} (JCGM 101:2008 7.9: twice the standard error within half a unit of it).`;
 }

@@ -7,13 +7,15 @@
  */
 import type { Binding, Outcome } from '../engine/node.ts';
 import type { NodeOutput, UncertainInput, UncertaintyResult } from '../engine/report.ts';
-import { type Quantity, report, describe, deltaUnit, shownUnit, valueIn, plain, formatNumber } from '../units/quantity.ts';
+import { type Quantity, report, describe, deltaUnit, shownUnit, valueIn, plain } from '../units/quantity.ts';
 import { formatUnit } from '../units/units.ts';
 import { quantitySig } from './signatures.ts';
 import { summarize, histogram } from '../numerics/sampling/summary.ts';
 import type { LinearName, MonteCarlo } from './uncertainty-methods.ts';
 import { sharePrecision, meanPrecision } from './uncertainty-precision.ts';
 import { percentileFields } from './uncertainty-percentiles.ts';
+import { shownFigures } from './uncertainty-digits.ts';
+import { meanSE, uncertaintyText } from '../numerics/sampling/mc-precision.ts';
 
 /** The endings of the names defined per name in `of`. */
 export const RESULT_ENDINGS = ['_p025', '_p975', '_sd', '_probability'] as const;
@@ -22,7 +24,8 @@ export const RESULT_ENDINGS = ['_p025', '_p975', '_sd', '_probability'] as const
 export const Z975 = 1.959963984540054;
 
 export const QUANTILE_NOTE = 'Median and percentiles of the samples by Hyndman and Fan\'s definition 7 (linear between order statistics; R\'s and NumPy\'s default); SD with n - 1.';
-export const VERDICT_NOTE = 'A verdict\'s probability is the share of yes among the samples in which it had a value; its Monte Carlo standard error is sqrt(p(1 - p)/n), its 95% interval the Wilson score interval (Wilson 1927), which keeps a width at 0% and 100%, and it is shown to the place of its standard error\'s first digit. A mean\'s Monte Carlo standard error is SD/sqrt(n). Whether the samples were enough for a figure\'s digits follows JCGM 101:2008 7.9: twice its standard error within half a unit of its last digit.';
+export const VERDICT_NOTE = 'A verdict\'s probability is the share of yes among the samples in which it had a value; its Monte Carlo standard error is sqrt(p(1 - p)/n), its 95% interval the Wilson score interval (Wilson 1927), which keeps a width at 0% and 100%. A mean\'s Monte Carlo standard error is SD/sqrt(n). Whether the samples were enough for a figure\'s digits follows JCGM 101:2008 7.9: twice its standard error within half a unit of its last digit.';
+export const DIGITS_NOTE = 'Digits: the mean, the SD, each percentile and each probability are shown to the place of the first significant digit of their own Monte Carlo standard error (a percentile\'s standard uncertainty; a probability near 0% or 100% a quarter of its Wilson interval), so a figure\'s last digit may move by about one with another seed. Each standard error is written with two significant digits when its first three are 100 to 354, one from 355 to 949, and rounded up to two (1.0) from 950 to 999 (the Particle Data Group\'s rounding rule). Only what is shown is rounded: the report\'s numbers and the names defined downstream (_p025, _p975, _sd, _probability) keep their full values.';
 export const PERCENTILE_NOTE = 'Each percentile\'s Monte Carlo 95% interval is distribution-free: between two order statistics of the samples whose ranks the binomial distribution gives (Conover 1999, sec. 3.2); its standard uncertainty is the interval\'s width / 3.92, and the percentile is shown to the place of that uncertainty\'s first digit. The SD\'s standard error is SD·sqrt((κ - 1)/(4n)) for large n, κ the samples\' kurtosis.';
 export const LINEAR_NOTE = 'First order (the law of propagation of uncertainty, JCGM 100:2008): the mean is the value at the present inputs, the SD is sqrt(J Σ Jᵀ) with derivatives by central differences, and the 2.5 and 97.5 percentiles are mean ∓ 1.96 SD (a normal approximation).';
 
@@ -75,22 +78,22 @@ export function monteCarloOutcome(of: readonly string[], mc: MonteCarlo, inputs:
       results[name] = { probability: p, ...precise, ...failed };
       bindings.set(`${name}_probability`, value(plain(p)));
       verdictReasons(name, reasons, `${name} is a yes/no verdict; its result is ${name}_probability`);
-      said.push(`${name}: yes in ${precise.shown} of samples (± ${formatNumber(100 * precise.probabilitySE, 2)} points)`);
+      said.push(`${name}: yes in ${precise.shown} of samples (± ${uncertaintyText(100 * precise.probabilitySE)} points)`);
       return;
     }
     const t = templateOf(present, name, ns.template)!;
     const s = summarize(ns.values);
     const unit = shownUnit(t);
     const h = histogram(ns.values.map((v) => valueIn(sized(t, v), unit)));
-    // the SD's first digit in the unit it is shown in (a minute is not a power of ten of seconds)
-    const shownSd = report(difference(t, s.sd)).value;
-    const factor = s.sd > 0 ? shownSd / s.sd : 1;
-    const precise = meanPrecision(shownSd, ns.values.length, (v) => describe(difference(t, v / factor)));
+    // every figure's digits in the unit it is shown in (a minute is not a power of ten of seconds)
+    const mean = report(sized(t, s.mean)), sd = report(difference(t, s.sd));
+    const se = report(difference(t, meanSE(s.sd, ns.values.length)));
     const pf = percentileFields(s, { at: (v) => report(sized(t, v)), diff: (v) => report(difference(t, v)) });
     results[name] = {
-      mean: report(sized(t, s.mean)), sd: report(difference(t, s.sd)), median: report(sized(t, s.median)),
+      mean, sd, median: report(sized(t, s.median)),
       p025: report(sized(t, s.p025)), p975: report(sized(t, s.p975)),
-      meanSE: report(difference(t, precise.meanSE / factor)), precision: precise.precision, ...pf,
+      meanSE: se, precision: meanPrecision(mean, se, ns.values.length), ...pf,
+      shownFigures: shownFigures(mean, se, sd, pf.sdSE),
       histogram: { unit: formatUnit(unit), edges: h.edges, counts: h.counts }, ...failed,
     };
     quantityNames(name, t, s.p025, s.p975, s.sd, bindings, reasons);
@@ -102,7 +105,7 @@ export function monteCarloOutcome(of: readonly string[], mc: MonteCarlo, inputs:
     ok: true, bindings, reasons,
     output: {
       method: 'monte-carlo', results, inputs, samples, seed, failed: mc.failed, ...(mc.reason !== undefined ? { failedReason: mc.reason } : {}),
-      evaluations: mc.evaluations, notes: [QUANTILE_NOTE, VERDICT_NOTE, PERCENTILE_NOTE],
+      evaluations: mc.evaluations, notes: [QUANTILE_NOTE, VERDICT_NOTE, PERCENTILE_NOTE, DIGITS_NOTE],
       summary: `${samples.toLocaleString('en-US')} samples (seed ${seed}) over ${inputs.length} uncertain input${inputs.length === 1 ? '' : 's'}: ${said.join('; ')}${failNote}.`,
     },
   };

@@ -27,7 +27,7 @@ export interface UncertaintyResult {
   shown?: string;
   /** Monte Carlo (a Ratebook addition): the mean's standard error SD/sqrt(n), a difference in the SD's unit. */
   meanSE?: ReportQuantity;
-  /** Monte Carlo (a Ratebook addition): how precise the figure is, in words, and whether the samples were enough for its digits (JCGM 101:2008 7.9). */
+  /** Monte Carlo (a Ratebook addition): how precise the figure is, in words: the place it is shown to and how many samples would settle that digit (JCGM 101:2008 7.9). */
   precision?: string;
   /** Monte Carlo (a Ratebook addition): each percentile's own precision, from order statistics. */
   percentiles?: { p025: PercentilePrecision; median: PercentilePrecision; p975: PercentilePrecision };
@@ -35,6 +35,13 @@ export interface UncertaintyResult {
   sdSE?: ReportQuantity;
   /** Monte Carlo (a Ratebook addition): the percentiles' and the SD's precision in words. */
   percentilePrecision?: string;
+  /**
+   * Monte Carlo (a Ratebook addition): the mean and the SD as shown, each with its unit, to the
+   * place of its own standard error's first digit, and the two standard errors with one or two
+   * significant digits (the Particle Data Group's rule): `{ mean: "13.2 mg / L", meanSE: "0.14 mg / L", sd: "6.1 mg / L", sdSE: "0.12 mg / L" }`.
+   * Display only: `mean`, `sd`, `meanSE`, `sdSE` keep their full values.
+   */
+  shownFigures?: { mean: string; meanSE: string; sd: string; sdSE: string };
   /** For a verdict under the linear method: its value at the present values. */
   truth?: boolean;
   /** Monte Carlo: the samples' histogram. */

@@ -1,4 +1,4 @@
-/** The terminal table's rows of an uncertainty cell: per result its figures on one line (with their Monte Carlo precision, each percentile as shown to its own uncertainty), the inputs drawn, the failed samples. */
+/** The terminal table's rows of an uncertainty cell: per result its figures on one line (Monte Carlo: each as the report shows it, to its own standard error, with that error; linear: 4 figures), the inputs drawn, the failed samples. */
 import type { CellReport, UncertaintyFields } from '../engine/report.ts';
 import type { ReportQuantity } from '../units/quantity.ts';
 import { formatNumber } from '../units/quantity.ts';
@@ -17,7 +17,10 @@ export function uncertaintyRows(cell: CellReport): Array<[string, string]> | und
     else if (x.truth !== undefined) rows.push([name, `${x.truth ? 'yes' : 'no'} at the present values (no probability by the linear method)`]);
     else if (x.mean) {
       const pc = x.percentiles;
-      rows.push([name, `mean ${show(x.mean)}${x.meanSE ? ` (± ${show(x.meanSE, 2)} Monte Carlo)` : ''}, SD ${show(x.sd)}${x.sdSE ? ` (± ${show(x.sdSE, 2)} Monte Carlo)` : ''}, median ${pc?.median.shown ?? show(x.median)}, 95% ${pc?.p025.shown ?? show(x.p025)} to ${pc?.p975.shown ?? show(x.p975)}${failed}`]);
+      const f = x.shownFigures;
+      const mean = f ? `${f.mean} (± ${f.meanSE} Monte Carlo)` : show(x.mean);
+      const sd = f ? `${f.sd} (± ${f.sdSE} Monte Carlo)` : show(x.sd);
+      rows.push([name, `mean ${mean}, SD ${sd}, median ${pc?.median.shown ?? show(x.median)}, 95% ${pc?.p025.shown ?? show(x.p025)} to ${pc?.p975.shown ?? show(x.p975)}${failed}`]);
       if (x.precision) rows.push([`${name} precision`, x.precision]);
       if (x.percentilePrecision) rows.push([`${name} percentiles`, x.percentilePrecision]);
     }

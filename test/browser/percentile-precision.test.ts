@@ -1,7 +1,8 @@
 // Each Monte Carlo percentile's own precision on screen and on paper: the uncertainty cell and
 // the printed sheet show the median and the 95% interval rounded to the place of each
-// percentile's own standard uncertainty, and say in words each one's interval from order
-// statistics and the SD's standard error (engine: test/engine/uncertainty-percentiles.test.ts).
+// percentile's own standard uncertainty, the mean and the SD to their standard errors', and say in
+// words each one's interval from order statistics and the SD's standard error (engine:
+// test/engine/uncertainty-percentiles.test.ts, test/engine/mc-digits.test.ts).
 import { expect } from 'chai';
 import '../../components/cells/registry.ts';
 import '../../components/sheet/study-sheet.ts';
@@ -67,9 +68,27 @@ describe('the uncertainty cell: percentiles to their own precision', () => {
     for (const [key, label] of [['p025', '2.5 percentile'], ['median', 'median'], ['p975', '97.5 percentile']] as const) {
       expect(words).to.contain(`${label} ${pc[key].shown.replace(/ (h|min)$/, '')} ± `);
     }
-    expect(words).to.match(/the SD's Monte Carlo standard error [\d.]+ (h|min) \(samples' kurtosis [\d.]+\)\.$/);
+    expect(words).to.match(/SD [\d.]+ ± [\d.]+ (h|min), to the place of its Monte Carlo standard error's first digit \(.*the samples' kurtosis κ [\d.]+\)\.$/);
     // the mean's line is still there, before it
-    expect(text(el.shadowRoot!.querySelector('p.precision'))).to.match(/^t_40: (Enough|Not enough) samples for the mean/);
+    expect(text(el.shadowRoot!.querySelector('p.precision'))).to.match(/^t_40: Mean [\d.]+ ± [\d.]+ (h|min) \(Monte Carlo standard error, SD\/√n\), shown to [\d.]+ (h|min),/);
+  });
+
+  it('shows the mean and the SD each to the place of its own standard error\'s first digit, as the words say', async () => {
+    const x = await mount(cooling(2000));
+    const f = x.shownFigures!;
+    const row = el.shadowRoot!.querySelector('table.results tbody tr')!;
+    expect(text(row.querySelector('[data-label="mean"]'))).to.equal(f.mean);
+    expect(text(row.querySelector('[data-label="SD"]'))).to.equal(f.sd);
+    expect(text(row.querySelector('td.mcse'))).to.equal(`± ${f.meanSE}`);
+    // the mean's digits: those of its standard error's first digit (the SE of the mean SD/√n, about 0.0045 h here)
+    const decimals = (t: string) => (t.split(' ')[0].split('.')[1] ?? '').length;
+    const place = (v: number) => Math.max(0, -Math.floor(Math.log10(v) + 1e-12));
+    expect(decimals(f.mean)).to.equal(place(x.meanSE!.value));
+    expect(decimals(f.sd)).to.equal(place(x.sdSE!.value));
+    const words = text(el.shadowRoot!.querySelector('p.precision'));
+    const shownTo = /shown to ([\d.]+) /.exec(words)![1];
+    expect(decimals(shownTo), words).to.equal(decimals(f.mean));
+    expect(words).to.contain(`Mean ${f.mean.split(' ')[0]} ± ${f.meanSE}`);
   });
 
   it('with too few samples for an interval, says so on the cell and shows the percentile to 4 figures', async () => {
@@ -106,6 +125,8 @@ describe('the printed sheet: percentiles to their own precision', () => {
     const words = [...sheet.shadowRoot!.querySelectorAll('p.check.percentiles')].map(text).find((t) => t.startsWith(`${name}:`))!;
     expect(words).to.contain(`median ${pc.median.shown.replace(/ min$/, '')} ± `);
     expect(words).to.contain('95% interval for the percentile itself, from order statistics');
-    expect(words).to.contain('the SD\'s Monte Carlo standard error');
+    expect(words).to.contain(`SD ${x.shownFigures!.sd.replace(/ min$/, '')} ± ${x.shownFigures!.sdSE}, to the place of its Monte Carlo standard error's first digit`);
+    // the mean and the SD as shown on screen, the mean's Monte Carlo error by the same rule
+    expect([...row.querySelectorAll('td')].slice(1, 4).map(text)).to.deep.equal([x.shownFigures!.mean, `± ${x.shownFigures!.meanSE}`, x.shownFigures!.sd]);
   });
 });

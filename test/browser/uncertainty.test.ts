@@ -110,8 +110,9 @@ describe('the uncertainty cell element', () => {
     expect(verdict).to.contain('percentage points (Monte Carlo standard error); 95% interval');
     expect(verdict).to.match(/would settle the whole percent shown|would settle the .* point shown/);
     // the mean's Monte Carlo error beside the mean
+    expect(row.querySelector('td.mcse')!.textContent).to.equal(`± ${r.results.t_40.shownFigures!.meanSE}`);
     expect(row.querySelector('td.mcse')!.textContent).to.match(/^± [\d.]+ h$/);
-    expect(el.shadowRoot!.querySelector('p.precision')!.textContent).to.match(/^t_40: (Enough|Not enough) samples for the mean to [\d.]+ h, the first digit of its SD/);
+    expect(el.shadowRoot!.querySelector('p.precision')!.textContent).to.match(/^t_40: Mean [\d.]+ ± [\d.]+ h \(Monte Carlo standard error, SD\/√n\), shown to [\d.]+ h, the place of the standard error's first digit/);
     const svg = el.shadowRoot!.querySelector('svg.histogram-svg')!;
     expect(svg.getAttribute('role')).to.equal('img');
     expect(svg.getAttribute('aria-label')).to.match(/^Histogram of t_40: 300 samples/);

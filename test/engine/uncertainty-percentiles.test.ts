@@ -5,7 +5,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { orderRanks } from '../../src/numerics/sampling/order-statistics.ts';
-import { leadingPlace } from '../../src/numerics/sampling/mc-precision.ts';
+import { leadingPlace, uncertaintyText } from '../../src/numerics/sampling/mc-precision.ts';
 import { formatReport } from '../../src/output/report-text.ts';
 import { cell, reportOf } from './helpers.ts';
 import type { ReportOf } from '../../src/index.ts';
@@ -101,7 +101,7 @@ describe('the digits shown and the words', () => {
     }
   });
 
-  it('the words say each percentile as shown with its uncertainty and interval, and the SD\'s standard error with the kurtosis', () => {
+  it('the words say each percentile as shown with its uncertainty and interval, and the SD as shown with its standard error and the kurtosis', () => {
     const x = r.results!.w;
     const words = x.percentilePrecision!;
     for (const [key, label] of [['p025', '2.5 percentile'], ['median', 'median'], ['p975', '97.5 percentile']] as const) {
@@ -110,9 +110,11 @@ describe('the digits shown and the words', () => {
       const digits = pc.shown.replace(/ g$/, '');
       const finer = Math.max(0, -Math.round(Math.log10(leadingPlace(pc.u!.value)))) + 1;
       const ends = `${pc.ci95!.low.value.toFixed(finer)} to ${pc.ci95!.high.value.toFixed(finer)} g`;
-      assert.ok(words.includes(`${label} ${digits} ± ${Number(pc.u!.value.toPrecision(2))} g (${ends})`), `${label}: ${words}`);
+      assert.ok(words.includes(`${label} ${digits} ± ${uncertaintyText(pc.u!.value)} g (${ends})`), `${label}: ${words}`);
     }
-    assert.match(words, /the SD's Monte Carlo standard error [\d.]+ g \(samples' kurtosis [\d.]+\)\.$/);
+    // the SD as shown, with its standard error by the same rule
+    assert.ok(words.includes(`SD ${x.shownFigures!.sd.replace(/ g$/, '')} ± ${uncertaintyText(x.sdSE!.value)} g, to the place of its Monte Carlo standard error's first digit`), words);
+    assert.match(words, /the samples' kurtosis κ \d\.\d\)\.$/);
     assert.ok(r.summary!.includes(`w: median ${x.percentiles!.median.shown}, 95% of samples between ${x.percentiles!.p025.shown} and ${x.percentiles!.p975.shown}`), r.summary);
   });
 

@@ -72,12 +72,18 @@ describe('the digits a probability is shown with (JCGM 101:2008 7.9)', () => {
     assert.match(x.precision, /0\.000% to 0\.192%/);
   });
 
-  it('a mean settles to its SD\'s first digit once twice its SE is within half a unit of it', () => {
-    const say = (si: number) => `${si} h`;
-    // SD 0.0521 h: the unit of its first digit is 0.01 h, δ 0.005 h; SE at 2,000 samples 0.00117 h
-    assert.match(meanPrecision(0.0521, 2000, say).precision, /^Enough samples for the mean to 0\.01 h, the first digit of its SD: twice its Monte Carlo standard error, 0\.0023\d* h, is within half of that/);
-    // at 10 samples the SE is 0.0165 h: (2·0.0165/0.005)² · 10 = 435 samples
-    assert.match(meanPrecision(0.0521, 10, say).precision, /^Not enough samples for the mean to 0\.01 h.*about 435 samples would settle it/);
+  it('a mean is shown to its standard error\'s first digit, and the words say how many samples would settle that digit', () => {
+    const q = (value: number) => ({ value, unit: 'h', si: 3600 * value });
+    // SD 0.0521 h at 2,000 samples: SE 0.001165 h, so the mean to 0.001 h; δ = 0.0005 h, and
+    // JCGM 101:2008 7.9.4 asks 2·SE ≤ δ: 2,000·(2·0.001165/0.0005)² = 43,400 samples
+    const se = 0.0521 / Math.sqrt(2000);
+    const words = meanPrecision(q(1.23456), q(se), 2000);
+    assert.match(words, /^Mean 1\.235 ± 0\.0012 h \(Monte Carlo standard error, SD\/√n\), shown to 0\.001 h, the place of the standard error's first digit\./);
+    assert.match(words, /about 0\.0023 h \(2 SE\); about 43,000 samples would settle its 0\.001 h digit/);
+    assert.equal(settled(se, 2000, 0.001).samplesNeeded, Math.ceil(2000 * (2 * se / 0.0005) ** 2));
+    // at 10 samples the SE is 0.0165 h: the mean to 0.01 h, settled at 10·(2·0.0165/0.005)² = 435 samples
+    assert.match(meanPrecision(q(1.23456), q(0.0521 / Math.sqrt(10)), 10), /^Mean 1\.23 ± 0\.016 h .*about 435 samples would settle its 0\.01 h digit/);
+    assert.match(meanPrecision(q(1.23456), q(0), 10), /has no Monte Carlo error/);
     assert.equal(leadingPlace(0.0521), 0.01);
     assert.equal(leadingPlace(1000), 1000);
   });
@@ -142,7 +148,7 @@ describe('the report\'s words', () => {
     const fast = r.results!.fast;
     assert.equal(fast.shown, sharePrecision(Math.round(fast.probability! * 2000), 2000).shown);
     assert.ok(r.summary!.includes(`fast: yes in ${fast.shown} of samples`), r.summary);
-    assert.match(r.results!.half.precision!, /samples for the mean to [\d.]+ h, the first digit of its SD/);
+    assert.ok(r.results!.half.precision!.startsWith(`Mean ${r.results!.half.shownFigures!.mean.replace(/ h$/, '')} ± ${r.results!.half.shownFigures!.meanSE}`), r.results!.half.precision);
   });
 });
 
@@ -165,7 +171,7 @@ describe('the terminal table', () => {
 });
 
 describe('the digits of a mean in the unit it is shown in', () => {
-  it('a time in minutes is settled to a power of ten of minutes, not of seconds', () => {
+  it('a time in minutes is shown to a power of ten of minutes, not of seconds', () => {
     const r = cell(reportOf({
       format: 'ratebook-study', version: 1, title: 'minutes (invented numbers)',
       cells: [
@@ -175,8 +181,9 @@ describe('the digits of a mean in the unit it is shown in', () => {
     }), 'how') as ReportOf<'uncertainty'>;
     const t = r.results!.t_fill;
     assert.equal(t.sd!.unit, 'min');
-    // SD about 2 min: its first digit's unit is 1 min
-    assert.match(t.precision!, /for the mean to 1 min, the first digit of its SD/);
+    // SD about 2 min, SE about 0.045 min: the mean to 0.01 min (not to a power of ten of seconds)
+    assert.match(t.precision!, /shown to 0\.01 min, the place of the standard error's first digit/);
+    assert.match(t.shownFigures!.mean, /^\d+\.\d\d min$/);
     assert.equal(t.meanSE!.unit, 'min');
     assert.ok(Math.abs(t.meanSE!.si - t.sd!.si / Math.sqrt(2000)) < 1e-12 * t.sd!.si);
   });

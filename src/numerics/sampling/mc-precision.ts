@@ -79,3 +79,40 @@ export function settled(se: number, n: number, place: number): { settled: boolea
   const ok = 2 * se <= delta;
   return { settled: ok, samplesNeeded: ok ? n : Math.ceil(n * (2 * se / delta) ** 2) };
 }
+
+/**
+ * The place a Monte Carlo figure `x` with standard uncertainty `u` > 0 is shown to: that of u's
+ * first significant digit (0.1 for u = 0.14, 0.001 for 0.0096, 10 for 12), but no finer than
+ * x's 12th significant digit (past it a place shows the binary noise of its digits).
+ */
+export function shownPlace(x: number, u: number): number {
+  const place = leadingPlace(u);
+  return x !== 0 && Number.isFinite(x) ? Math.max(place, leadingPlace(Math.abs(x)) * 1e-11) : place;
+}
+
+/** `x` rounded to the power of ten `place` and written with exactly its decimals: "13.2", "1230". */
+export function toPlace(x: number, place: number): string {
+  return roundTo(x, place).toFixed(Math.min(20, decimalsOf(place)));
+}
+
+/**
+ * A standard error (or any standard uncertainty) written with one or two significant digits,
+ * by the rounding rule of the Particle Data Group's Review of Particle Physics (Introduction,
+ * "Rounding"; from memory): when its three highest digits are 100 to 354, two digits (0.14,
+ * 0.20); 355 to 949, one (0.5, 0.009); 950 to 999, rounded up to 1000 and written with two
+ * (0.0096 → 0.010). One rule for every ± of the uncertainty cell. 0 is written "0"; figures
+ * below 1e-4 or from 1e7 in exponent form with the same digits.
+ */
+export function uncertaintyText(u: number): string {
+  if (!Number.isFinite(u)) return String(u);
+  if (u === 0) return '0';
+  const a = Math.abs(u);
+  const place = leadingPlace(a);
+  // the three highest digits; a hair of relative slack so 0.355 is not read as 354.999…
+  const top = Math.floor((a / place) * 100 * (1 + 1e-12));
+  const two = top <= 354 || top >= 950;
+  const last = top <= 354 ? place / 10 : place; // the place of the last digit written
+  const r = Math.sign(u) * Number(a.toPrecision(top <= 354 ? 2 : 1)); // 950–999: rounds up to 10·place
+  if (a >= 1e-4 && a < 1e7) return r.toFixed(Math.min(20, decimalsOf(last)));
+  return r.toExponential(two ? 1 : 0);
+}
