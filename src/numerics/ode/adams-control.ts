@@ -1,6 +1,7 @@
 /**
- * The constants both Adams steppers share (`adams.ts`, with the final evaluation, and
- * `adams-pec.ts`, one evaluation a step): step-size control and the stiffness test.
+ * The constants both modes of the Adams formulas share (PECE, and one evaluation a step,
+ * `adams-rebuilt.ts`, both run by the loop of `adams.ts`): step-size control and the
+ * stiffness test.
  */
 
 /**
