@@ -37,10 +37,12 @@
  *   one-evaluation mode on differences rebuilt each step (`adams-rebuilt.ts`), each to the
  *   last bit as it was when each had a loop of its own.
  * - Stiffness: every `STIFF_TEST_EVERY`-th step, from the final evaluation,
- *   h·‖f(y_c) − f(p)‖/‖y_c − p‖ estimates h|λ| of the mode the
- *   correction excites. Above `stiffHLambda(k, rtol)`, with at least `STIFF_REMAINING`
- *   e-folds of that mode left in the run, it counts as a sign of stiffness, and
- *   `STIFF_SIGNALS` such signs in a row set `stiffAt`, as the explicit pairs do.
+ *   h·‖f(y_c) − f(p)‖/‖y_c − p‖ estimates h|λ| of the mode the correction excites. Above
+ *   `stiffHLambda(k, rtol)` it counts as a sign of stiffness. Where that ratio would decay
+ *   e-fold `STIFF_SPAN` times over the rest of the run, J's dominant eigenvalue is checked by
+ *   power iteration from the correction (`FastModeCheck`, shared with the explicit pairs);
+ *   while it spans `STIFF_SPAN` e-folds, `STIFF_FAST_SIGNALS` signs in a row set `stiffAt`.
+ *   A run without such a mode is never reported stiff (see `STIFF_FAST_SIGNALS`).
  */
 import {
   type OdeContext, type StepOutcome, type Stepper,
@@ -48,12 +50,13 @@ import {
 } from './control.ts';
 import { startStep } from './start-step.ts';
 import { AdamsStartWork, rkStart, startPoints } from './adams-start.ts';
-import { ADAMS_CONTROL, STIFF_REMAINING, STIFF_SIGNALS, STIFF_TEST_EVERY, stiffHLambda } from './adams-control.ts';
+import { ADAMS_CONTROL, STIFF_FAST_SIGNALS, STIFF_RECHECK, STIFF_TEST_EVERY, stiffHLambda } from './adams-control.ts';
+import { FastModeCheck, suggestsFastMode } from './fast-mode.ts';
 import { type AdamsFormulas, InPlaceFormulas } from './adams-formulas.ts';
 import { RebuiltFormulas } from './adams-rebuilt.ts';
 
 export { ADAMS_MAX_ORDER } from './adams-history.ts';
-export { ADAMS_CONTROL, STIFF_REMAINING, STIFF_SIGNALS, STIFF_TEST_EVERY, stiffHLambda } from './adams-control.ts';
+export { ADAMS_CONTROL, STIFF_FAST_SIGNALS, STIFF_RECHECK, STIFF_TEST_EVERY, stiffHLambda } from './adams-control.ts';
 
 /**
  * The Runge–Kutta start after a dose spans P − 1 spacings of this fraction of the carried
@@ -104,6 +107,10 @@ export class AdamsStepper implements Stepper {
   private readonly startWork: AdamsStartWork;
   private stepsSinceTest = 0;
   private stiffSignals = 0;
+  /** Whether the run has a fast mode (asked at a sign of stiffness that suggests one). */
+  private readonly fastCheck = new FastModeCheck();
+  /** Signs of stiffness since the check last found no fast mode. */
+  private signalsSinceCheck = 0;
   /** The final evaluation (PECE) at every step; else the one-evaluation mode (rtol below `PECE_FROM_RTOL`). */
   private pece = true;
   /** The mode's arithmetic: `inPlace` or `rebuilt`, the latter made on first use. */
@@ -142,6 +149,8 @@ export class AdamsStepper implements Stepper {
     this.started = false;
     this.stepsSinceTest = 0;
     this.stiffSignals = 0;
+    this.fastCheck.clear();
+    this.signalsSinceCheck = 0;
     this.mark.clear();
     this.pece = ctx.options.rtol >= PECE_FROM_RTOL;
     this.formulas = this.pece ? this.inPlace : (this.rebuilt ??= new RebuiltFormulas(ctx.n, ctx.options));
@@ -252,22 +261,37 @@ export class AdamsStepper implements Stepper {
     }
   }
 
-  /** h|λ| ≈ h·‖f(y_c) − f(p)‖/‖y_c − p‖ against `stiffHLambda`. */
+  /**
+   * h|λ| ≈ h·‖f(y_c) − f(p)‖/‖y_c − p‖ against `stiffHLambda`; J's dominant |λ| checked
+   * (`FastModeCheck`, from the correction y_c − p) at a sign whose ratio suggests a fast mode,
+   * once, or again after `STIFF_RECHECK` signs when the check found none.
+   */
   private testStiffness(h: number, k: number, tNew: number, tEnd: number): void {
+    const { ctx, fc, fp, yNew, p, fastCheck } = this;
+    const n = ctx.n;
     let num = 0;
     let den = 0;
-    for (let c = 0; c < this.ctx.n; c++) {
-      const df = this.fc[c] - this.fp[c];
-      const dy = this.yNew[c] - this.p[c];
+    for (let c = 0; c < n; c++) {
+      const df = fc[c] - fp[c];
+      const dy = yNew[c] - p[c];
       num += df * df;
       den += dy * dy;
     }
     if (!(den > 0)) return;
-    const hLambda = h * Math.sqrt(num / den);
-    if (hLambda > stiffHLambda(k, this.ctx.options.rtol) && (hLambda / h) * (tEnd - tNew) >= STIFF_REMAINING) {
-      if (++this.stiffSignals >= STIFF_SIGNALS) this.stiffAt = tNew;
-    } else {
+    const lambda = Math.sqrt(num / den);
+    if (!(h * lambda > stiffHLambda(k, ctx.options.rtol))) {
       this.stiffSignals = 0;
+      return;
     }
+    this.stiffSignals++;
+    this.signalsSinceCheck++;
+    const ask = fastCheck.fast === undefined || (fastCheck.fast === false && this.signalsSinceCheck >= STIFF_RECHECK);
+    if (ask && suggestsFastMode(lambda, tNew, tEnd)) {
+      const v = fastCheck.direction(n);
+      for (let c = 0; c < n; c++) v[c] = yNew[c] - p[c];
+      fastCheck.confirm(ctx, tNew, yNew, fc, tEnd);
+      this.signalsSinceCheck = 0;
+    }
+    if (fastCheck.fast === true && fastCheck.spans(tNew, tEnd) && this.stiffSignals >= STIFF_FAST_SIGNALS) this.stiffAt = tNew;
   }
 }
