@@ -1,7 +1,7 @@
 /**
  * The session's words and checks that need no session: the error of a node that waits on a
- * failed input, of one that threw, the reason a name is unavailable, report equality, and
- * messages kept short. Split from session.ts to keep it readable.
+ * failed input, of one that threw, a node's change signature, the reason a name is
+ * unavailable, report equality, and messages kept short. Split from session.ts to keep it readable.
  */
 import type { Binding, CellError, GraphNode, Outcome } from './node.ts';
 import type { Graph } from './graph.ts';
@@ -28,6 +28,17 @@ export function waitingOn(graph: Graph, node: GraphNode, slotOf: (name: string) 
     }
   }
   return undefined;
+}
+
+/** A node's change signature: its own, where each name it reads comes from, its graph problem, what it defines. */
+export function staticSignature(graph: Graph, key: string): string {
+  const node = graph.nodes.get(key)!;
+  const problem = graph.problems.get(key);
+  let sig = node.signature;
+  for (const [name, s] of graph.sources.get(key)!) sig += `|${name}=${'node' in s ? s.node : s.builtin}`;
+  if (problem) sig += `|!${problem.path}:${problem.message}`;
+  for (const d of node.defines) sig += `|${d.name}@${d.path}:${graph.definers.get(d.name) === key}`;
+  return sig;
 }
 
 /** What a node that threw is reported as. */

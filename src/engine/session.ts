@@ -6,22 +6,24 @@
  * Nothing here throws for bad input: a bad document is refused with a message, a bad cell
  * carries its error, and an unexpected failure inside a cell is reported on that cell.
  */
-import type { Cell, Study } from '../study/types.ts';
+import type { Study } from '../study/types.ts';
 import { readStudy, type Problem } from '../study/validate.ts';
 import type { Edit } from '../study/edit.ts';
 import { SessionDocument } from './session-doc.ts';
-import type { Binding, CellError, GraphNode, MessagePart, Outcome, RunContext } from './node.ts';
+import type { Binding, CellError, GraphNode, Outcome, RunContext } from './node.ts';
 import { resolvePath } from '../cells/index.ts';
 import { buildGraph, upstreamOf, type Graph } from './graph.ts';
-import { prepareWhatIf, type Replacement, type WhatIfPrepared } from './what-if.ts';
-import { unitHints, withUnitHint } from './hidden-units.ts';
+import type { Replacement, WhatIfPrepared } from './what-if.ts';
+import { prepareSessionWhatIf } from './session-what-if.ts';
+import { hintedOutcome } from './session-hints.ts';
 import type { Report } from './report.ts';
+import type { EditResult, OpenResult, SessionOptions, WorkStep } from './session-api.ts';
 import { studyUnits } from './study-units.ts';
 import { type StudyUnits, studyUnitsKey } from '../units/simplest-unit.ts';
 import { metered } from '../numerics/work-meter.ts';
-import { DEFAULT_CELL_WORK, stoppedError, type WorkLimits } from './budget.ts';
+import { DEFAULT_CELL_WORK, stoppedError } from './budget.ts';
 import { DeferredWork, type DeferHost } from './deferred.ts';
-import { bound, internalError, unavailable, waitingOn, type Slot } from './session-parts.ts';
+import { bound, internalError, staticSignature, unavailable, waitingOn, type Slot } from './session-parts.ts';
 import { CellNodes } from './session-nodes.ts';
 import { ReportCache } from './session-report.ts';
 import type { Progress } from './sliced.ts';
@@ -29,40 +31,10 @@ import type { Progress } from './sliced.ts';
 
 export type { Edit } from '../study/edit.ts';
 export type { Replacement, WhatIfPrepared } from './what-if.ts';
+export type { EditResult, OpenResult, SessionOptions, WorkStep } from './session-api.ts';
 
 /** A pending name's slot while deciding whether a node waits: taken as bound, as its value is still to come. */
 const PENDING_SLOT: Slot = { kind: 'pending' } as unknown as Slot;
-
-/** What a name defined by a cell of each kind is called in messages. */
-const KIND_WORDS: Partial<Record<string, string>> = { parameters: 'parameter', simulate: 'answer', fit: 'estimate', nca: 'result' };
-
-export type EditResult =
-  | { readonly ok: true; readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report }
-  | { readonly ok: false; readonly error: Problem };
-
-export type OpenResult = { readonly ok: true; readonly session: StudySession } | { readonly ok: false; readonly error: Problem };
-
-export interface SessionOptions extends WorkLimits {
-  /** 'check' validates without the heavy numerics. */
-  readonly mode?: 'run' | 'check';
-  /**
-   * Leave long cells (a Monte Carlo uncertainty cell) and what reads them pending in an
-   * evaluation, for `work` to compute in slices afterwards (the app's worker); the figures are
-   * the same as without.
-   */
-  readonly defer?: boolean;
-}
-
-/** What a slice of deferred work did: how far the running cell is, and the answer of an evaluation when a cell finished. */
-export interface WorkStep {
-  readonly progress?: Progress;
-  /**
-   * Nothing was done: every pending cell that could start had its inputs changed by an edit
-   * after the `startable` time given. The earliest such edit's time (performance.now()).
-   */
-  readonly notBefore?: number;
-  readonly answer?: { readonly rerun: readonly string[]; readonly changed: readonly string[]; readonly report: Report };
-}
 
 /** Opens a study from JSON text or a parsed document. Never throws. */
 export function openStudy(input: unknown, options: SessionOptions = {}): OpenResult {
@@ -172,7 +144,7 @@ export class StudySession {
     return {
       order: this.graph.order,
       node: (key) => this.graph.nodes.get(key),
-      staticSig: (key) => this.staticSig(key),
+      staticSig: (key) => staticSignature(this.graph, key),
       context: (node) => {
         const waits = waitingOn(this.graph, node, (name) => this.slots.get(name));
         return waits ? { waits } : this.context(node);
@@ -185,17 +157,6 @@ export class StudySession {
       internal: internalError,
       runNow: (node) => this.runNode(node, this.graph.problems.get(node.key)),
     };
-  }
-
-  /** A node's change signature: its own, where each name it reads comes from, its graph problem, what it defines. */
-  private staticSig(key: string): string {
-    const node = this.graph.nodes.get(key)!;
-    const problem = this.graph.problems.get(key);
-    let sig = node.signature;
-    for (const [name, s] of this.graph.sources.get(key)!) sig += `|${name}=${'node' in s ? s.node : s.builtin}`;
-    if (problem) sig += `|!${problem.path}:${problem.message}`;
-    for (const d of node.defines) sig += `|${d.name}@${d.path}:${this.graph.definers.get(d.name) === key}`;
-    return sig;
   }
 
   /**
@@ -240,7 +201,7 @@ export class StudySession {
       const node = this.graph.nodes.get(key)!;
       const sources = this.graph.sources.get(key)!;
       const problem = this.graph.problems.get(key);
-      const staticSig = this.staticSig(key);
+      const staticSig = staticSignature(this.graph, key);
       let inputsChanged = false;
       for (const [name, s] of sources) if ('node' in s && changedNames.has(name)) inputsChanged = true;
       if (node.readsUpstream && !inputsChanged && changedNames.size) {
@@ -329,23 +290,7 @@ export class StudySession {
   private reported(node: GraphNode): Outcome | undefined {
     const o = this.outcomes.get(node.key);
     if (o && !o.ok && this.deferred?.has(node.key)) return undefined;
-    return this.hinted(node, o);
-  }
-
-  /**
-   * A node's own error (not one it waits on) explained when its field reads a name that hides a
-   * unit (hidden-units.ts). Added when the cell is reported, as it names where the name is
-   * defined, which moves with its cell.
-   */
-  private hinted(node: GraphNode, o: Outcome | undefined): Outcome | undefined {
-    if (!o || o.ok || this.graph.problems.has(node.key)) return o;
-    return withUnitHint(o, unitHints(node, this.graph, (definer, def) => this.definedAt(definer, def.path)));
-  }
-
-  /** What a definer's name is, and where: "the parameter defined at cells[0].items[1]", the place as a part. */
-  private definedAt(definer: GraphNode, path: string): MessagePart[] {
-    const kind = definer.role === 'state' ? 'state' : KIND_WORDS[this.doc.cells[this.doc.indexOf(definer.cell)]?.kind] ?? 'name';
-    return [`the ${kind} defined at `, { path: resolvePath(path.replace(/\.name$/, ''), this.doc.indexOf(definer.cell)) }];
+    return hintedOutcome(this.graph, this.doc, node, o);
   }
 
   /**
@@ -356,18 +301,7 @@ export class StudySession {
    * study as it was when prepared: prepare again after an edit. Never throws.
    */
   whatIf(wanted: readonly string[], replaced: readonly Replacement[]): WhatIfPrepared {
-    const graph = this.graph;
-    const index = new Map(this.doc.cells.map((c, i) => [c.id, i]));
-    const kinds = new Map(this.doc.cells.map((c) => [c.id, c.kind]));
-    return prepareWhatIf({
-      graph,
-      studyUnits: this.units,
-      slot: (name) => this.slots.get(name),
-      cellKind: (id) => kinds.get(id),
-      waitingOn: (node, slotOf) => waitingOn(graph, node, slotOf),
-      unavailable: (node, name, outcome) => unavailable(node, name, outcome, index.get(node.cell) ?? -1),
-      internalError,
-    }, wanted, replaced);
+    return prepareSessionWhatIf(this.graph, this.doc.cells, this.units, (name) => this.slots.get(name), wanted, replaced);
   }
 
   /** Names `name` is computed from, following the graph's resolved sources. */

@@ -3,7 +3,9 @@
 // run whose Jacobian has a dominant eigenvalue that decays e-fold at least STIFF_SPAN times over
 // the rest of the run, found by power iteration on differenced evaluations (`dominantRate`),
 // needs 2. Checked against closed-form eigenvalues, against the smooth work-precision problems
-// (which must never switch), and on the stiff forced problem (which must switch early).
+// (which must never switch), and on the stiff forced problem (which must switch early). The
+// Adams formulas' own test (auto from rtol 1e-6) asks the same check (`FastModeCheck`), and
+// hands over only a run whose fast mode spans STIFF_SPAN e-folds over its rest.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { integrate } from '../../src/numerics/ode/integrate.ts';
@@ -73,14 +75,35 @@ describe('the stiff forced problem y\' = -1e4 (y - cos t) over 10 s: auto switch
       assert.ok(res.switchedToStiff !== null && res.switchedToStiff < 0.003, `switched at ${res.switchedToStiff}`);
     });
   }
-  // From rtol 1e-6 (ADAMS_FROM_RTOL) auto starts with the Adams formulas, whose own stiffness
-  // test (every eighth step, without the fast-mode rule) hands over at about 0.0036 s; dopri5
-  // did at 0.0066 s before the rule.
-  it('rtol 1e-6: the Adams formulas hand over before t = 0.004 s', () => {
-    const res = integrate((t, y, dy) => { dy[0] = -1e4 * (y[0] - Math.cos(t)); }, 0, [0], 10, { method: 'auto', rtol: 1e-6, atol: 1e-9 });
-    assert.equal(res.method, 'stiff');
-    assert.ok(res.switchedToStiff !== null && res.switchedToStiff < 0.004, `switched at ${res.switchedToStiff}`);
-  });
+});
+
+describe('the Adams formulas (auto from rtol 1e-6) hand over with the same fast-mode check', () => {
+  // From rtol 1e-6 (ADAMS_FROM_RTOL) auto starts with the Adams formulas. Their own test (every
+  // eighth step) asked for 3 signals in a row with the test's ratio decaying 100 e-folds over the
+  // rest of the run: on the forced problem they handed over at 0.0036, 0.0030, 0.0024, 0.0018,
+  // 0.0011 s at rtol 1e-6 … 1e-10. With J's dominant eigenvalue confirmed (1e4, the closed-form
+  // rate of y' = -1e4 (y - cos t), times 10 s: 1e5 e-folds), 2 signals.
+  const forced: Rhs = (t, y, dy) => { dy[0] = -1e4 * (y[0] - Math.cos(t)); };
+  for (const rtol of [1e-6, 1e-7, 1e-8, 1e-9, 1e-10]) {
+    it(`y' = -1e4 (y - cos t) over 10 s, rtol ${rtol}: handed over before t = 0.002 s`, () => {
+      const res = integrate(forced, 0, [0], 10, { method: 'auto', rtol, atol: 1e-3 * rtol });
+      assert.equal(res.method, 'stiff');
+      assert.ok(res.switchedToStiff !== null && res.switchedToStiff < 0.002, `switched at ${res.switchedToStiff}`);
+    });
+  }
+  // A rate that switches on in the last 0.04 s: a(t) = 1 + 1e4/(1 + e^{-(t - 9.96)/0.001}), so
+  // the fast mode decays at most 1e4 · 0.04 = 400 e-folds over what is left of the run (hand-worked),
+  // below STIFF_SPAN: not stiff over its rest, by the stiff method's own rule. The Adams test
+  // handed it over at t = 9.960–9.963 at every tolerance before.
+  const late: Rhs = (t, y, dy) => { dy[0] = -(1 + 1e4 / (1 + Math.exp(-(t - 9.96) / 0.001))) * (y[0] - Math.cos(t)); };
+  for (const rtol of [1e-6, 1e-7, 1e-8, 1e-9, 1e-10]) {
+    it(`a fast mode in the last 0.04 s of 10, rtol ${rtol}: never handed over`, () => {
+      const res = integrate(late, 0, [0.5], 10, { method: 'auto', rtol, atol: 1e-3 * rtol });
+      assert.equal(res.status, 'success');
+      assert.equal(res.stiffnessDetected, null);
+      assert.equal(res.method, 'adams');
+    });
+  }
 });
 
 describe('a coupling between states of different units is not a fast mode', () => {

@@ -1,6 +1,7 @@
 /**
- * The constants both Adams steppers share (`adams.ts`, with the final evaluation, and
- * `adams-pec.ts`, one evaluation a step): step-size control and the stiffness test.
+ * The constants both modes of the Adams formulas share (PECE, and one evaluation a step,
+ * `adams-rebuilt.ts`, both run by the loop of `adams.ts`): step-size control and the
+ * stiffness test.
  */
 
 /**
@@ -30,15 +31,23 @@ export const ADAMS_CONTROL = {
 
 /** Steps between two stiffness tests (with PECE they use the final evaluation; in the one-evaluation mode each costs one). */
 export const STIFF_TEST_EVERY = 8;
-/** Positive tests in a row before stiffness is reported. */
-export const STIFF_SIGNALS = 3;
 /**
- * A sign of stiffness counts only when the fast mode would still decay e-fold at least this
- * many times over what is left of the run: with fewer, the steps at the stability limit that
- * remain cost less than the stiff method's start (a Jacobian, a factorization, its own order
- * ramp). So a plateau such as logistic growth's end does not switch.
+ * Positive tests in a row that report stiffness, once J's dominant eigenvalue is known to
+ * decay e-fold `STIFF_SPAN` times over the rest of the run (`FastModeCheck`, `fast-mode.ts`),
+ * as the explicit pairs' `fastSignals`: one test above the threshold may be the step
+ * controller's overshoot as a transient ends. Without that check a run is not reported stiff:
+ * a mode that decays fewer times over what is left of the run (a fast transient near its end,
+ * a plateau such as logistic growth's end) costs fewer steps at the stability limit than the
+ * stiff method's start (a Jacobian, a factorization, its own order ramp), and the test's
+ * ratio alone, a norm, overstates |λ| where states of different units are coupled.
  */
-export const STIFF_REMAINING = 100;
+export const STIFF_FAST_SIGNALS = 2;
+/**
+ * Positive tests, after a check that found no such mode, before it is asked again: J may
+ * change along a nonlinear run (a reaction that turns stiff on the way). At most 8 evaluations
+ * every 8 tests (64 steps) while the steps stand above the threshold.
+ */
+export const STIFF_RECHECK = 8;
 
 /**
  * The h|λ| above which a step counts as a sign of stiffness: 4 times the h|λ| at which the

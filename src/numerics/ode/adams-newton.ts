@@ -82,7 +82,7 @@ export class AdamsSegment implements DenseSegment {
    * after the nodes), made on its first `eval` inside the step: then each `eval` is a Horner
    * sum, O(n·m), instead of the Newton integrals' O(m²) (a run's questions, areas and
    * crossings evaluate a segment many times). Without it, `eval` integrates the Newton form
-   * at each call, as the one-evaluation stepper's segments always did (`adams-pec.ts`: its
+   * at each call, as the one-evaluation mode's segments always did (`adams-rebuilt.ts`: its
    * dense values stay the same to the last bit).
    */
   constructor(readonly t0: number, readonly t1: number, private readonly h: number, private readonly n: number,
@@ -107,7 +107,7 @@ export class AdamsSegment implements DenseSegment {
     return new AdamsSegment(t0, t1, h, n, m, data, at, true);
   }
 
-  /** `of` for differences held one array each (the one-evaluation stepper, `adams-pec.ts`). */
+  /** `of` for differences held one array each (the one-evaluation mode, `adams-rebuilt.ts`). */
   static ofRows(t0: number, t1: number, h: number, y0: Float64Array, y1: Float64Array, d: readonly Float64Array[], x: Float64Array, m: number): AdamsSegment {
     const n = y0.length;
     const at = slab.take((3 + m) * n + m + 1);

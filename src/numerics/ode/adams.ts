@@ -32,11 +32,17 @@
  *   the formulas go on at the order that history allows, with steps of twice its spacing.
  * - Dense output: the corrector's polynomial integrated from t_n, of order k + 1 on the step,
  *   the step's end reproduced bit for bit (`writeStepEnd`).
+ * - Modes: this file is the step loop; the arithmetic of a mode is an `AdamsFormulas`
+ *   (`adams-formulas.ts`): PECE on the history kept in place, or below `PECE_FROM_RTOL` the
+ *   one-evaluation mode on differences rebuilt each step (`adams-rebuilt.ts`), each to the
+ *   last bit as it was when each had a loop of its own.
  * - Stiffness: every `STIFF_TEST_EVERY`-th step, from the final evaluation,
- *   h·‖f(y_c) − f(p)‖/‖y_c − p‖ estimates h|λ| of the mode the
- *   correction excites. Above `stiffHLambda(k, rtol)`, with at least `STIFF_REMAINING`
- *   e-folds of that mode left in the run, it counts as a sign of stiffness, and
- *   `STIFF_SIGNALS` such signs in a row set `stiffAt`, as the explicit pairs do.
+ *   h·‖f(y_c) − f(p)‖/‖y_c − p‖ estimates h|λ| of the mode the correction excites. Above
+ *   `stiffHLambda(k, rtol)` it counts as a sign of stiffness. Where that ratio would decay
+ *   e-fold `STIFF_SPAN` times over the rest of the run, J's dominant eigenvalue is checked by
+ *   power iteration from the correction (`FastModeCheck`, shared with the explicit pairs);
+ *   while it spans `STIFF_SPAN` e-folds, `STIFF_FAST_SIGNALS` signs in a row set `stiffAt`.
+ *   A run without such a mode is never reported stiff (see `STIFF_FAST_SIGNALS`).
  */
 import {
   type OdeContext, type StepOutcome, type Stepper,
@@ -44,23 +50,25 @@ import {
 } from './control.ts';
 import { startStep } from './start-step.ts';
 import { AdamsStartWork, rkStart, startPoints } from './adams-start.ts';
-import { AdamsSegment } from './adams-newton.ts';
-import { ADAMS_MAX_ORDER, AdamsHistory } from './adams-history.ts';
-import { ADAMS_CONTROL, STIFF_REMAINING, STIFF_SIGNALS, STIFF_TEST_EVERY, stiffHLambda } from './adams-control.ts';
-import { AdamsPecStepper } from './adams-pec.ts';
+import { ADAMS_CONTROL, STIFF_FAST_SIGNALS, STIFF_RECHECK, STIFF_TEST_EVERY, stiffHLambda } from './adams-control.ts';
+import { FastModeCheck, suggestsFastMode } from './fast-mode.ts';
+import { type AdamsFormulas, InPlaceFormulas } from './adams-formulas.ts';
+import { RebuiltFormulas } from './adams-rebuilt.ts';
 
 export { ADAMS_MAX_ORDER } from './adams-history.ts';
-export { ADAMS_CONTROL, STIFF_REMAINING, STIFF_SIGNALS, STIFF_TEST_EVERY, stiffHLambda } from './adams-control.ts';
+export { ADAMS_CONTROL, STIFF_FAST_SIGNALS, STIFF_RECHECK, STIFF_TEST_EVERY, stiffHLambda } from './adams-control.ts';
 
 /**
  * The Runge–Kutta start after a dose spans P − 1 spacings of this fraction of the carried
  * step (`adams-start.ts`). A quarter was right for the one-evaluation mode this method had
- * before; its carried steps are about twice as long with the final evaluation, and a quarter
- * then had the starting step rejected at every restart of the 6-dose problem (6 evaluations
- * each). Measured over rtol 1e-3 … 1e-10 on the 6 IV doses: 1 864 evaluations with a quarter,
- * 1 783 with 0.15, 1 753 with a tenth.
+ * before, and that mode keeps it (`PEC_START_SPACING`); the carried steps are about twice as
+ * long with the final evaluation, and a quarter then had the starting step rejected at every
+ * restart of the 6-dose problem (6 evaluations each). Measured over rtol 1e-3 … 1e-10 on the
+ * 6 IV doses: 1 864 evaluations with a quarter, 1 783 with 0.15, 1 753 with a tenth.
  */
 export const START_SPACING = 0.1;
+/** `START_SPACING` of the one-evaluation mode (half of the carried step rejected the starting step at most restarts of the 6-dose problem). */
+const PEC_START_SPACING = 0.25;
 
 /**
  * The final evaluation (PECE) is made at this rtol and above; below it, one evaluation a
@@ -71,7 +79,7 @@ export const START_SPACING = 0.1;
  * error a sum of many small ones), and the exactly determined fit of
  * test/engine/fit-residuals.test.ts left residuals of 5e-11. Below 1e-9 the one-evaluation
  * mode reaches its tolerance on the work-precision problems (0.3–0.75 units at 1e-10). There
- * the steps are handed to the one-evaluation stepper as it was (`adams-pec.ts`): a fit's
+ * the steps are made in the one-evaluation mode as it was (`adams-rebuilt.ts`): a fit's
  * model is then the same to the last bit, and so are its model runs (NIST Misra1a and BoxBOD
  * took 1.18 and 1.27 times forward differences' runs for their digits; the same mode with the
  * history kept in place, equal but for rounding, 1.39 and 1.35: test/engine/fit-certified.test.ts
@@ -79,15 +87,7 @@ export const START_SPACING = 0.1;
  */
 export const PECE_FROM_RTOL = 1e-9;
 
-/** ln of the factor on h that brings an estimate e of order q to the target (safety included). */
-function logFactor(e: number, q: number): number {
-  return e === 0 ? LOG_MAX_FACTOR : LOG_SAFETY - Math.log(e) / (q + 1);
-}
-const LOG_MAX_FACTOR = Math.log(ADAMS_CONTROL.maxFactor);
-const LOG_SAFETY = Math.log(ADAMS_CONTROL.safety);
-const LOG_RAISE_MARGIN = Math.log(ADAMS_CONTROL.raiseMargin);
-
-/** Adaptive variable-order Adams stepper (P(EC), stiffness reported in `stiffAt`). */
+/** Adaptive variable-order Adams stepper (PECE, or P(EC) below `PECE_FROM_RTOL`; stiffness reported in `stiffAt`). */
 export class AdamsStepper implements Stepper {
   t: number;
   readonly y: Float64Array;
@@ -97,7 +97,6 @@ export class AdamsStepper implements Stepper {
   /** The predictor's order. */
   order = 1;
 
-  private readonly history: AdamsHistory;
   private readonly mark: NonFiniteMark;
   private readonly f0: Float64Array;
   private readonly p: Float64Array;
@@ -108,15 +107,21 @@ export class AdamsStepper implements Stepper {
   private readonly startWork: AdamsStartWork;
   private stepsSinceTest = 0;
   private stiffSignals = 0;
-  /** Below `PECE_FROM_RTOL`, the one-evaluation stepper this one hands its steps to. */
-  private pec: AdamsPecStepper | null = null;
-  private usePec: boolean;
+  /** Whether the run has a fast mode (asked at a sign of stiffness that suggests one). */
+  private readonly fastCheck = new FastModeCheck();
+  /** Signs of stiffness since the check last found no fast mode. */
+  private signalsSinceCheck = 0;
+  /** The final evaluation (PECE) at every step; else the one-evaluation mode (rtol below `PECE_FROM_RTOL`). */
+  private pece = true;
+  /** The mode's arithmetic: `inPlace` or `rebuilt`, the latter made on first use. */
+  private formulas: AdamsFormulas;
+  private readonly inPlace: InPlaceFormulas;
+  private rebuilt: RebuiltFormulas | null = null;
 
   constructor(private ctx: OdeContext, t0: number, y0: ArrayLike<number>, firstStep?: number) {
     const n = ctx.n;
     this.t = t0;
     this.y = Float64Array.from(y0);
-    this.history = new AdamsHistory(n);
     this.mark = new NonFiniteMark(n);
     this.f0 = new Float64Array(n);
     this.p = new Float64Array(n);
@@ -124,9 +129,9 @@ export class AdamsStepper implements Stepper {
     this.yNew = new Float64Array(n);
     this.fc = new Float64Array(n);
     this.startWork = new AdamsStartWork(n);
-    if (firstStep !== undefined) this.h = firstStep;
-    this.usePec = ctx.options.rtol < PECE_FROM_RTOL;
-    if (this.usePec) this.pec = new AdamsPecStepper(ctx, t0, y0, firstStep);
+    this.inPlace = new InPlaceFormulas(n, ctx.options);
+    this.formulas = this.inPlace;
+    this.restart(ctx, t0, y0, firstStep);
   }
 
   /**
@@ -141,39 +146,28 @@ export class AdamsStepper implements Stepper {
     this.h = firstStep ?? NaN;
     this.stiffAt = null;
     this.order = 1;
-    this.history.clear();
     this.started = false;
     this.stepsSinceTest = 0;
     this.stiffSignals = 0;
+    this.fastCheck.clear();
+    this.signalsSinceCheck = 0;
     this.mark.clear();
-    this.usePec = ctx.options.rtol < PECE_FROM_RTOL;
-    if (this.usePec) {
-      if (this.pec) this.pec.restart(ctx, t0, y0, firstStep);
-      else this.pec = new AdamsPecStepper(ctx, t0, y0, firstStep);
-    }
-  }
-
-  /** A step of the one-evaluation stepper, its state copied here. */
-  private pecStep(pec: AdamsPecStepper, tEnd: number): StepOutcome {
-    const outcome = pec.step(tEnd);
-    this.t = pec.t;
-    this.h = pec.h;
-    this.order = pec.order;
-    this.stiffAt = pec.stiffAt;
-    this.y.set(pec.y);
-    return outcome;
+    this.pece = ctx.options.rtol >= PECE_FROM_RTOL;
+    this.formulas = this.pece ? this.inPlace : (this.rebuilt ??= new RebuiltFormulas(ctx.n, ctx.options));
+    this.formulas.options = ctx.options;
+    this.formulas.clear();
   }
 
   /** The first step of a piece: the history from one point (a run's first piece) or from a Runge–Kutta start. */
   private begin(tEnd: number): StepOutcome {
-    const { ctx, y, f0 } = this;
+    const { ctx, y, f0, formulas } = this;
     if (!ctx.rhs.call(this.t, y, f0)) return failure(nonFiniteStatus(ctx, y, y, f0), this.t, y);
     if (Number.isNaN(this.h)) {
       // A run's first piece climbs from order 1: the Runge–Kutta start's history comes from
       // an order-4 interpolant, and a fit's model (one piece, rtol 1e-10) then lost its
       // smoothness in the parameters (NIST BoxBOD to 6 digits, test/engine/fit-certified.test.ts).
       this.h = startStep(ctx, this.t, y, f0, tEnd, 1);
-      this.history.loadOne(this.t, f0, this.h);
+      formulas.loadOne(this.t, f0, this.h);
       this.order = 1;
       this.started = true;
       return this.step(tEnd);
@@ -181,13 +175,13 @@ export class AdamsStepper implements Stepper {
     const points = startPoints(ctx.options.rtol);
     // A step carried from a previous piece (`firstStep`) is the Adams step there; the start
     // spans points - 1 spacings of `START_SPACING` of it each.
-    const first = START_SPACING * this.h * (points - 1);
+    const first = (this.pece ? START_SPACING : PEC_START_SPACING) * this.h * (points - 1);
     const start = rkStart(ctx, this.t, y, f0, first, tEnd, points, this.startWork);
     if (!('T' in start)) return start;
     const spacings = Math.max(1, start.T.length - 1);
     this.order = spacings;
     this.h = (2 * start.h) / spacings;
-    this.history.load(start.T, start.F, this.h);
+    formulas.load(start.T, start.F, this.h);
     this.t = start.tNew;
     y.set(this.startWork.yNew);
     this.started = true;
@@ -196,11 +190,9 @@ export class AdamsStepper implements Stepper {
   }
 
   step(tEnd: number): StepOutcome {
-    if (this.usePec) return this.pecStep(this.pec!, tEnd);
     if (!this.started) return this.begin(tEnd);
-    const { ctx, y, p, fp, yNew, history } = this;
+    const { ctx, y, p, fp, yNew, formulas } = this;
     const { n, options } = ctx;
-    const { atol, rtol } = options;
     const C = ADAMS_CONTROL;
     this.mark.clear();
     let rejected = false;
@@ -211,48 +203,19 @@ export class AdamsStepper implements Stepper {
       const trial = trialStep(t, this.h, tEnd, options.maxStep);
       const tNew = trial.last ? tEnd : t + trial.h;
       const h = tNew - t;
-      const k = Math.min(this.order, history.count);
+      const k = Math.min(this.order, formulas.count);
       // the corrector's differences up to m: one past the order, for the estimate at k + 1
-      const m = Math.min(k + 1, history.count);
-      history.prepare(h, m);
-      const { d, g } = history;
-      // predictor: y_n + h·Σ_{i<k} G_i·d_i
-      for (let c = 0; c < n; c++) {
-        let acc = 0;
-        for (let i = 0; i < k; i++) acc += g[i] * d[i * n + c];
-        p[c] = y[c] + h * acc;
-      }
+      const m = Math.min(k + 1, formulas.count);
+      formulas.predict(h, k, m, y, p);
       if (!ctx.rhs.call(tNew, p, fp)) {
         this.mark.set(ctx, tNew, y, p, fp);
         ctx.counters.rejected++;
         rejected = true;
         this.h = h * C.nonFiniteShrink;
-        if (this.h < minStep(t)) return collapseFailure(ctx, t, y, history.d, this.mark);
+        if (this.h < minStep(t)) return collapseFailure(ctx, t, y, formulas.rate(), this.mark);
         continue;
       }
-      history.extend(fp, m);
-      const e = history.e;
-      // corrector (the predictor plus the term of the new point: the Newton form through
-      // t_{n+1}, t_n, …, t_{n−k+1} in the order t_n, …, t_{n−k+1}, t_{n+1}) and, in the same
-      // pass, the corrector's terms k − 1, k, k + 1 scaled as in `errorNorm`: h·G_i·e_i
-      const wk = h * g[k];
-      const ck = h * history.correctorWeight(k);
-      const cLow = k > 1 ? h * history.correctorWeight(k - 1) : 0;
-      const cHigh = m === k + 1 ? h * history.correctorWeight(k + 1) : 0;
-      let sum = 0, sumLow = 0, sumHigh = 0;
-      for (let c = 0; c < n; c++) {
-        const ek = e[k * n + c];
-        const v = p[c] + wk * ek;
-        yNew[c] = v;
-        const inv = 1 / (atol[c] + rtol * Math.max(Math.abs(y[c]), Math.abs(v)));
-        const r = ck * ek * inv;
-        const rLow = cLow * e[(k - 1) * n + c] * inv;
-        const rHigh = cHigh * e[(k + 1) * n + c] * inv;
-        sum += r * r;
-        sumLow += rLow * rLow;
-        sumHigh += rHigh * rHigh;
-      }
-      const est = Math.sqrt(sum / n) / C.target;
+      const est = formulas.correct(h, k, m, y, p, fp, yNew);
       if (!(est <= 1)) {
         ctx.counters.rejected++;
         rejected = true;
@@ -261,43 +224,36 @@ export class AdamsStepper implements Stepper {
         // repeated failures fall back in order, as the estimate at a lower order is more robust
         if (this.order > 1 && factor < 0.5) this.order--;
         this.h = h * factor;
-        if (this.h < minStep(t)) return collapseFailure(ctx, t, y, history.d, this.mark);
+        if (this.h < minStep(t)) return collapseFailure(ctx, t, y, formulas.rate(), this.mark);
         continue;
       }
-      const segment = AdamsSegment.of(t, tNew, h, y, yNew, e, history.x, 0, k);
-      // the final evaluation (PECE): the step keeps f at the corrected value, and the new
-      // differences are taken from it; where f is not finite there, f at the predicted value.
-      // Not on a piece's last step: the next piece starts afresh (a dose changed the state).
-      if (!trial.last && ctx.rhs.call(tNew, yNew, this.fc)) {
-        history.extend(this.fc, m);
-        if (++this.stepsSinceTest >= STIFF_TEST_EVERY && this.stiffAt === null) {
-          this.stepsSinceTest = 0;
+      const segment = formulas.segment(t, tNew, h, k, m, y, yNew);
+      if (this.pece) {
+        // the final evaluation (PECE): the step keeps f at the corrected value, and the new
+        // differences are taken from it; where f is not finite there, f at the predicted value.
+        // Not on a piece's last step: the next piece starts afresh (a dose changed the state).
+        if (!trial.last && ctx.rhs.call(tNew, yNew, this.fc)) {
+          formulas.keep(this.fc, m);
+          if (++this.stepsSinceTest >= STIFF_TEST_EVERY && this.stiffAt === null) {
+            this.stepsSinceTest = 0;
+            this.testStiffness(h, k, tNew, tEnd);
+          }
+        }
+      } else if (++this.stepsSinceTest >= STIFF_TEST_EVERY && this.stiffAt === null) {
+        // one evaluation a step: the stiffness test evaluates f at the corrected value, kept
+        this.stepsSinceTest = 0;
+        if (ctx.rhs.call(tNew, yNew, this.fc)) {
           this.testStiffness(h, k, tNew, tEnd);
+          formulas.keep(this.fc, m);
         }
       }
-      // order and step for the next step, compared as logarithms of the factors on h
-      let next = this.order;
-      let logF = logFactor(est, k);
-      if (k < this.order) {
-        // the history was shorter than the order: keep building it
-      } else if (m !== k + 1) {
-        if (this.order < ADAMS_MAX_ORDER) next = this.order + 1;
-      } else {
-        const low = k > 1 ? logFactor(Math.sqrt(sumLow / n) / C.target, k - 1) : -Infinity;
-        const high = this.order < ADAMS_MAX_ORDER ? logFactor(Math.sqrt(sumHigh / n) / C.target, k + 1) : -Infinity;
-        if (low >= logF && low >= high - LOG_RAISE_MARGIN) {
-          next = this.order - 1;
-          logF = low;
-        } else if (high > LOG_RAISE_MARGIN + logF) {
-          next = this.order + 1;
-          logF = high;
-        }
-      }
-      const factor = Math.min(rejected ? 1 : C.maxFactor, Math.max(C.minFactor, Math.exp(logF)));
-      this.order = next;
+      // order and step for the next step
+      const chosen = formulas.next(est, k, m, this.order, y, yNew);
+      const factor = Math.min(rejected ? 1 : C.maxFactor, Math.max(C.minFactor, chosen.factor));
+      this.order = chosen.order;
       const planned = Math.min(this.h, options.maxStep);
       this.h = trial.last ? Math.max(h * factor, planned) : h * factor;
-      history.accept(tNew, m);
+      formulas.accept(tNew, m);
       this.t = tNew;
       for (let c = 0; c < n; c++) y[c] = yNew[c];
       ctx.counters.steps++;
@@ -305,22 +261,37 @@ export class AdamsStepper implements Stepper {
     }
   }
 
-  /** h|λ| ≈ h·‖f(y_c) − f(p)‖/‖y_c − p‖ against `stiffHLambda`. */
+  /**
+   * h|λ| ≈ h·‖f(y_c) − f(p)‖/‖y_c − p‖ against `stiffHLambda`; J's dominant |λ| checked
+   * (`FastModeCheck`, from the correction y_c − p) at a sign whose ratio suggests a fast mode,
+   * once, or again after `STIFF_RECHECK` signs when the check found none.
+   */
   private testStiffness(h: number, k: number, tNew: number, tEnd: number): void {
+    const { ctx, fc, fp, yNew, p, fastCheck } = this;
+    const n = ctx.n;
     let num = 0;
     let den = 0;
-    for (let c = 0; c < this.ctx.n; c++) {
-      const df = this.fc[c] - this.fp[c];
-      const dy = this.yNew[c] - this.p[c];
+    for (let c = 0; c < n; c++) {
+      const df = fc[c] - fp[c];
+      const dy = yNew[c] - p[c];
       num += df * df;
       den += dy * dy;
     }
     if (!(den > 0)) return;
-    const hLambda = h * Math.sqrt(num / den);
-    if (hLambda > stiffHLambda(k, this.ctx.options.rtol) && (hLambda / h) * (tEnd - tNew) >= STIFF_REMAINING) {
-      if (++this.stiffSignals >= STIFF_SIGNALS) this.stiffAt = tNew;
-    } else {
+    const lambda = Math.sqrt(num / den);
+    if (!(h * lambda > stiffHLambda(k, ctx.options.rtol))) {
       this.stiffSignals = 0;
+      return;
     }
+    this.stiffSignals++;
+    this.signalsSinceCheck++;
+    const ask = fastCheck.fast === undefined || (fastCheck.fast === false && this.signalsSinceCheck >= STIFF_RECHECK);
+    if (ask && suggestsFastMode(lambda, tNew, tEnd)) {
+      const v = fastCheck.direction(n);
+      for (let c = 0; c < n; c++) v[c] = yNew[c] - p[c];
+      fastCheck.confirm(ctx, tNew, yNew, fc, tEnd);
+      this.signalsSinceCheck = 0;
+    }
+    if (fastCheck.fast === true && fastCheck.spans(tNew, tEnd) && this.stiffSignals >= STIFF_FAST_SIGNALS) this.stiffAt = tNew;
   }
 }

@@ -19,8 +19,7 @@ import {
 import { startStep } from './start-step.ts';
 import { type ButcherTableau, RkWork, rkStages, rkStep } from './explicit-rk.ts';
 import type { DenseSegment } from './types.ts';
-import { STIFF_SPAN } from './stiff-choice.ts';
-import { dominantRate } from './jacobian.ts';
+import { FastModeCheck, suggestsFastMode } from './fast-mode.ts';
 
 /** Step-size factor constants of a pair. */
 export interface StepControl {
@@ -113,11 +112,9 @@ export class EmbeddedRkStepper implements Stepper {
   private calmTests = 0;
   /**
    * Whether J's dominant eigenvalue at the first step whose test suggested it was fast
-   * enough that |λ|·(span left) ≥ `STIFF_SPAN` (`fastMode`); undefined until then.
+   * enough that |λ|·(span left) ≥ `STIFF_SPAN` (`fastMode`); `fast` undefined until then.
    */
-  private fast: boolean | undefined = undefined;
-  /** Work arrays of `fastMode`, made on first use. */
-  private rateWork: Float64Array[] | null = null;
+  private readonly fastCheck = new FastModeCheck();
   /** h|λ| above which a step counts as a sign of stiffness (see `StiffnessTest`). */
   private stiffThreshold: number;
 
@@ -150,7 +147,7 @@ export class EmbeddedRkStepper implements Stepper {
     this.errOld = this.pair.control.errFloor;
     this.stiffSignals = 0;
     this.calmTests = 0;
-    this.fast = undefined;
+    this.fastCheck.clear();
     this.mark.clear();
     const S = this.pair.stiffness;
     this.stiffThreshold = Math.min(S.threshold, S.activeModeMultiple * this.pair.activeModeHLambda(ctx.options.rtol));
@@ -249,8 +246,8 @@ export class EmbeddedRkStepper implements Stepper {
     if (hLambda > this.stiffThreshold) {
       this.calmTests = 0;
       this.stiffSignals++;
-      if (this.fast === undefined && lambda * (tEnd - tNew) >= STIFF_SPAN) this.fast = this.fastMode(h, tNew, tEnd);
-      const enough = this.fast === true ? S.fastSignals : S.signals;
+      if (this.fastCheck.fast === undefined && suggestsFastMode(lambda, tNew, tEnd)) this.fastMode(h, tNew, tEnd);
+      const enough = this.fastCheck.fast === true ? S.fastSignals : S.signals;
       if (this.stiffSignals >= enough && this.stiffAt === null) this.stiffAt = tNew;
     } else {
       this.calmTests++;
@@ -259,24 +256,21 @@ export class EmbeddedRkStepper implements Stepper {
   }
 
   /**
-   * Whether the run has a mode that decays e-fold `STIFF_SPAN` times over what is left of it:
-   * J's dominant |λ| at the step's end by power iteration (`dominantRate`, from the
-   * direction the test measured along). The test's own ratio is a norm, which a coupling
-   * between states of different units can inflate, so it only prompts this check, once a run.
+   * Whether the run has a mode that decays e-fold `STIFF_SPAN` times over what is left of it
+   * (`FastModeCheck`, from the direction the test measured along), asked once a run.
    */
-  private fastMode(h: number, tNew: number, tEnd: number): boolean {
+  private fastMode(h: number, tNew: number, tEnd: number): void {
     const n = this.ctx.n;
     const k = this.work.k;
     const S = this.pair.stiffness;
     const rowA = this.pair.a[S.stages[0]];
     const rowB = this.pair.a[S.stages[1]];
-    const [v, probe, fv] = this.rateWork ??= [new Float64Array(n), new Float64Array(n), new Float64Array(n)];
+    const v = this.fastCheck.direction(n);
     for (let i = 0; i < n; i++) {
       let dy = 0;
       for (let j = 0; j < Math.max(S.stages[0], S.stages[1]); j++) dy += ((rowA[j] ?? 0) - (rowB[j] ?? 0)) * k[j][i];
       v[i] = h * dy;
     }
-    const rate = dominantRate(this.ctx, tNew, this.yNew, k[this.pair.newRateStage], v, probe, fv);
-    return rate * (tEnd - tNew) >= STIFF_SPAN;
+    this.fastCheck.confirm(this.ctx, tNew, this.yNew, k[this.pair.newRateStage], tEnd);
   }
 }
