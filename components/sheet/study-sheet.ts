@@ -57,6 +57,8 @@ export class StudySheet extends LitElement {
     thead { display: table-header-group; }
     tr { break-inside: avoid; }
     td.num { text-align: right; white-space: nowrap; font-variant-numeric: tabular-nums; }
+    /* the parameters' columns have fixed widths: a long value, or the spread under it, wraps in its column, never over the note beside it */
+    table.parameters td.num { white-space: normal; }
     td.name { font-family: ui-monospace, monospace; font-size: 9pt; }
     figure { margin: 0.3rem 0 0.5rem; break-inside: avoid; }
     .keep { break-inside: avoid; }
