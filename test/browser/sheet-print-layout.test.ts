@@ -1,6 +1,10 @@
-// The printed sheet on paper: every template laid out at the printable width of an A4 page.
-// Nothing is wider than the page, no text runs out of its table cell or over another label of
-// a chart, and the phase line labels an equilibrium near an end of its range clear of the end.
+// The printed sheet on paper: every template laid out at the printable size of an A4 and a US
+// Letter page. Nothing is wider than the page, no text runs out of its table cell or over
+// another label of a chart; and wherever a page ends, a section's heading stays with what it
+// introduces (a run's span and schedule with its chart, a data cell's row count with its
+// table, an uncertainty cell's spreads with its results), a law, a solve or a profile summary is
+// never cut, and the closing words never stand alone on the last page. Pages are columns here: the
+// browser breaks a multi-column box by the same rules (`break-inside`, `break-after`) as pages.
 import { expect } from 'chai';
 import { render } from 'lit';
 import '../../components/sheet/study-sheet.ts';
@@ -71,6 +75,79 @@ describe('the printed sheet across the page: every template at A4\'s printable w
         }
       }
       expect(problems).to.deep.equal([]);
+    });
+  }
+});
+
+/**
+ * What a section's heading must share a page with, by kind, when it all fits on one page: the
+ * element itself, or `whole` for the section to the end.
+ */
+const KEPT_WITH_HEADING: Record<string, string> = {
+  simulate: 'figure', phase: 'figure', sensitivity: 'figure',
+  data: 'table, pre', fit: 'table', uncertainty: 'table.how-sure', compare: 'table', parameters: 'tbody tr',
+  rate: 'whole', solve: 'whole', nca: 'whole',
+};
+
+/** The page (column) an element's first or last piece is on. */
+function pageOf(el: Element, box: HTMLDivElement, page: Page, piece: 'first' | 'last' = 'first'): number {
+  const rects = [...el.getClientRects()].filter((r) => r.height > 0);
+  const r = piece === 'first' ? rects[0] : rects[rects.length - 1];
+  return Math.floor((r.left - box.getBoundingClientRect().left + 1) / page.w);
+}
+
+/**
+ * Each section of `doc` alone on the pages, pushed down by a blank of every height from 0 to a
+ * page's in `step` px: wherever the page ends, is its heading on the page of what it introduces,
+ * and is every chart on one page with its caption? Returns what went wrong, in words.
+ */
+async function breaksOf(doc: Study, report: Report, page: Page, step = 24): Promise<string[]> {
+  const { box, root } = await sheetIn(doc, report, page.w, page);
+  const problems: string[] = [];
+  const tops = [...root.children].filter((c): c is HTMLElement => c instanceof HTMLElement && c.localName !== 'style');
+  const blank = document.createElement('div');
+  root.prepend(blank);
+  for (const section of root.querySelectorAll<HTMLElement>('section.cell:not(.glance)')) {
+    const kind = [...section.classList].find((c) => c in KEPT_WITH_HEADING);
+    const kept = kind === undefined ? null : KEPT_WITH_HEADING[kind] === 'whole' ? section : section.querySelector(KEPT_WITH_HEADING[kind]);
+    for (const el of tops) el.style.display = el === section ? '' : 'none';
+    const h2 = section.querySelector('h2')!;
+    blank.style.height = '0px';
+    // asked only of what fits on one page
+    const fits = kept && kept.getBoundingClientRect().bottom - h2.getBoundingClientRect().top <= page.h && pageOf(kept, box, page, 'last') === 0;
+    for (let y = 0; y < page.h; y += step) {
+      blank.style.height = `${y}px`;
+      const at = `${sectionName(h2)} pushed ${y} px down`;
+      if (fits && pageOf(h2, box, page) !== pageOf(kept, box, page, 'last')) problems.push(`${at}: its heading is on another page than its ${kind === 'rate' || kind === 'solve' || kind === 'nca' ? 'end' : KEPT_WITH_HEADING[kind!]}`);
+      for (const f of section.querySelectorAll('figure, .keep')) {
+        if (f.getBoundingClientRect().height <= page.h && pageOf(f, box, page) !== pageOf(f, box, page, 'last')) problems.push(`${at}: a ${f.localName === 'figure' ? 'chart' : 'chart and its caption'} cut by the page's end`);
+      }
+    }
+  }
+  // the whole sheet pushed down likewise: the closing words never on a page of their own
+  for (const el of tops) el.style.display = '';
+  const footer = root.querySelector('footer')!;
+  for (let y = 0; y < page.h; y += step) {
+    blank.style.height = `${y}px`;
+    if (pageOf(footer, box, page) !== pageOf(footer.previousElementSibling!.lastElementChild!, box, page, 'last')) problems.push(`the sheet pushed ${y} px down: its closing words alone on the last page`);
+  }
+  return problems;
+}
+
+describe('the printed sheet page by page: wherever a page ends', function () {
+  this.timeout(60000);
+  afterEach(() => document.querySelectorAll('body > div').forEach((d) => d.remove()));
+  // between them: every kind of section that has a heading to keep (run with a schedule, law,
+  // data, profile summary, fit, solve, phase line with a sweep, uncertainty, sensitivity, compare)
+  const keys = ['cooling-stock-pot', 'plasma-levels', 'two-level-infusion-dosing', 'harvested-stock-fold', 'flush-pump-settings'];
+  for (const key of keys) {
+    it(`${key}: each heading stays with what it introduces, no chart is cut, the closing words never stand alone, on A4 and on Letter`, async () => {
+      const doc = TEMPLATES.find((t) => t.key === key)!.doc;
+      const report = reportOf(doc);
+      for (const [name, page] of Object.entries(PAGES)) {
+        expect(await breaksOf(doc, report, page), name).to.deep.equal([]);
+        document.querySelectorAll('body > div').forEach((d) => d.remove());
+      }
     });
   }
 });
