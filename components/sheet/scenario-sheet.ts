@@ -14,7 +14,7 @@ type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
 export function sensitivitySheet(cell: Of<'sensitivity'>, r: ReportOf<'sensitivity'>): TemplateResult {
   const results = r.results ?? {};
   const ranking = r.ranking ?? [];
-  return html`<p>How much ${(cell.of ?? []).join(', ')} move${(cell.of ?? []).length === 1 ? 's' : ''} with ${(cell.parameters ?? []).join(', ')}: each slope from runs of the study with one value moved a little either way.</p>
+  return html`<p class="lead">How much ${(cell.of ?? []).join(', ')} move${(cell.of ?? []).length === 1 ? 's' : ''} with ${(cell.parameters ?? []).join(', ')}: each slope from runs of the study with one value moved a little either way.</p>
     <figure>${rankingBars({ ranking, results, summary: r.summary ?? '' })}</figure>
     <table class="slopes"><thead><tr><th>Result</th><th>Parameter</th><th>Slope</th><th>Normalized (% per 1%)</th><th>Note</th></tr></thead>
     <tbody>${ranking.map(({ of, parameter }) => {
@@ -30,7 +30,7 @@ export function sensitivitySheet(cell: Of<'sensitivity'>, r: ReportOf<'sensitivi
 export function compareSheet(cell: Of<'compare'>, r: ReportOf<'compare'>, chart: (plot: SimulationPlot, summary: unknown) => TemplateResult, runTitle?: string): TemplateResult {
   const scenarios = r.scenarios ?? [];
   const questions = r.questions ?? [];
-  return html`<p>The run <strong>${runTitle || cell.run}</strong> under ${scenarios.length} scenario${scenarios.length === 1 ? '' : 's'}; each answer is named question_scenario.</p>
+  return html`<p class="lead">The run <strong>${runTitle || cell.run}</strong> under ${scenarios.length} scenario${scenarios.length === 1 ? '' : 's'}; each answer is named question_scenario.</p>
     <table><thead><tr><th>Scenario</th><th>Sets</th></tr></thead>
     <tbody>${scenarios.map((s) => html`<tr><td class="name">${s.name}</td><td>${Object.entries(s.set).map(([n, q]) => `${n} = ${showQ(q)}`).join(', ') || 'nothing: the run as the study stands'}${s.ok ? '' : ` (${s.message})`}</td></tr>`)}</tbody></table>
     ${questions.length ? html`<table class="per-scenario"><thead><tr><th>Question</th>${scenarios.map((s) => html`<th>${s.name}</th>`)}</tr></thead>

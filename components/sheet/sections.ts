@@ -98,7 +98,7 @@ function parameters(cell: Of<'parameters'>, r: ReportOf<'parameters'>): Template
       const shown = t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`;
       const long = typeof it.value === 'string' && it.value.length > LONG_DEFINITION;
       return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${it.name}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
-        <td class="num">${showValue(values[it.name])}${values[it.name]?.spread ? html`<br /><span class="muted">spread: ${values[it.name]!.spread!.text}</span>` : nothing}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}${values[it.name]?.spread?.note ? html`<br /><span class="check">${values[it.name]!.spread!.note}</span>` : nothing}</td></tr>
+        <td class="num">${showValue(values[it.name])}${values[it.name]?.spread ? html`<br /><span class="muted spread">spread: ${values[it.name]!.spread!.text}</span>` : nothing}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}${values[it.name]?.spread?.note ? html`<br /><span class="check">${values[it.name]!.spread!.note}</span>` : nothing}</td></tr>
         ${long ? html`<tr class="formula"><td colspan="4">${t ? math(`\\displaystyle ${tex[it.name].name} = ${t}`) : html`<code>${it.name} = ${it.value}</code>`}</td></tr>` : nothing}`;
     })}</tbody></table>`;
 }
@@ -116,7 +116,7 @@ function phase(cell: Of<'phase'>, r: ReportOf<'phase'>, state: string): Template
   const ys = (plot?.y ?? []).filter((v): v is number => v !== null);
   const sweep = r.sweep;
   return html`
-    ${ys.length > 1 ? html`<figure>${phaseLine({ label: summaryOr(r.summary, `phase line of ${state}`), state, from: ys[0], to: ys[ys.length - 1], unit: plot!.stateUnit, equilibria: eqs, intervals: r.intervals ?? [] })}</figure>` : nothing}
+    ${ys.length > 1 ? html`<figure class="lead">${phaseLine({ label: summaryOr(r.summary, `phase line of ${state}`), state, from: ys[0], to: ys[ys.length - 1], unit: plot!.stateUnit, equilibria: eqs, intervals: r.intervals ?? [] })}</figure>` : nothing}
     ${eqs.length ? html`<table><thead><tr><th>Equilibrium</th><th>Stability</th><th>Slope of the rate there</th></tr></thead>
       <tbody>${eqs.map((e) => html`<tr><td class="num">${showQ(e)}</td><td>${e.stability}</td><td class="num">${showQ(e.slope)}</td></tr>`)}</tbody></table>`
       : html`<p>No equilibrium in the range ${cell.from} to ${cell.to}.</p>`}
@@ -166,8 +166,8 @@ function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>, band: RunBand |
   const schedule = r.schedule ?? [];
   const closed = r.closedForm ?? {};
   return html`
-    <p>From ${cell.from} to ${cell.to}; laws ${(cell.rates ?? []).join(', ')}; method ${r.method} (${r.steps} steps, ${r.evaluations} evaluations of the rates).</p>
-    ${events.length ? html`<table><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e, i) => html`<tr>
+    <p class="lead">From ${cell.from} to ${cell.to}; laws ${(cell.rates ?? []).join(', ')}; method ${r.method} (${r.steps} steps, ${r.evaluations} evaluations of the rates).</p>
+    ${events.length ? html`<table class="events lead"><thead><tr><th>At</th><th>Repeats</th><th>Action</th></tr></thead><tbody>${events.map((e, i) => html`<tr>
       <td>${e.at}</td><td>${schedule[i]?.repeats ?? ''}</td>
       <td>${e.add ? `add ${Object.entries(e.add).map(([k, v]) => `${v} to ${k}`).join(', ')}` : e.set ? `set ${Object.entries(e.set).map(([k, v]) => `${k} = ${v}`).join(', ')}` : e.infuse ? `infuse ${Object.entries(e.infuse).map(([k, v]) => `${v} into ${k}`).join(', ')} for ${e.for}` : ''}</td></tr>`)}</tbody></table>` : nothing}
     <div class="keep">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log', band && 'band' in band ? band.band : undefined) : nothing}
@@ -209,7 +209,7 @@ function timeChart(plot: SimulationPlot, summary: unknown, log = false, band?: E
 function data(cell: Of<'data'>, r: ReportOf<'data'>): TemplateResult {
   const columns = (Array.isArray(cell.columns) ? cell.columns : []) as Array<{ name: string; unit?: string }>;
   const rows = Array.isArray(cell.rows) ? cell.rows : null;
-  return html`<p>${r.rowCount} rows${rows ? '' : ' (given as CSV)'}.</p>
+  return html`<p class="lead">${r.rowCount} rows${rows ? '' : ' (given as CSV)'}.</p>
     ${rows ? html`<table class="data"><thead><tr>${columns.map((c) => html`<th>${c.name}${c.unit ? ` (${c.unit})` : ''}</th>`)}</tr></thead>
       <tbody>${rows.map((row) => html`<tr>${(row as unknown[]).map((v) => html`<td class="num">${v === null ? '' : String(v)}</td>`)}</tr>`)}</tbody></table>`
     : html`<pre>${typeof cell.csv === 'string' ? cell.csv : ''}</pre>`}`;
@@ -218,7 +218,7 @@ function data(cell: Of<'data'>, r: ReportOf<'data'>): TemplateResult {
 function fit(cell: Of<'fit'>, r: ReportOf<'fit'>, cells: readonly Cell[]): TemplateResult {
   const est = r.estimates ?? {};
   const plot = r.plot;
-  return html`${cell.run !== undefined ? html`<p>Fitted through ${cellWords({ cells }, cell.run)}: its start, laws and every event of its schedule; the data's times are on its clock.</p>` : nothing}
+  return html`${cell.run !== undefined ? html`<p class="lead">Fitted through ${cellWords({ cells }, cell.run)}: its start, laws and every event of its schedule; the data's times are on its clock.</p>` : nothing}
     <table class="results"><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead>
     <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
@@ -231,7 +231,7 @@ function fit(cell: Of<'fit'>, r: ReportOf<'fit'>, cells: readonly Cell[]): Templ
 function nca(cell: Of<'nca'>, r: ReportOf<'nca'>): TemplateResult {
   const values = r.values ?? {};
   const used = r.pointsUsed;
-  return html`<p>Route ${cell.route}; areas by the ${cell.auc} rule; dose <code>${cell.dose}</code>.</p>
+  return html`<p class="lead">Route ${cell.route}; areas by the ${cell.auc} rule; dose <code>${cell.dose}</code>.</p>
     <table class="results"><thead><tr><th>Result</th><th>Value</th></tr></thead>
     <tbody>${Object.entries(values).map(([name, q]) => html`<tr><td class="name">${name}</td><td class="num answer">${q ? showQ(q) : 'not available'}</td></tr>`)}</tbody></table>
     ${used ? html`<p class="check">Terminal phase fitted on ${used.count} points, at ${used.times.map((t) => showQ(t)).join(', ')}.</p>` : nothing}`;
@@ -241,7 +241,7 @@ function nca(cell: Of<'nca'>, r: ReportOf<'nca'>): TemplateResult {
 function solve(cell: Of<'solve'>, r: ReportOf<'solve'>): TemplateResult {
   const v = cell.vary;
   const where = Array.isArray(v.choices) ? html`among the choices <code>${v.choices.join(', ')}</code>` : html`from <code>${v.min}</code> to <code>${v.max}</code>`;
-  return html`<p>Target: <code>${cell.target.value}</code> = <code>${cell.target.equals}</code>, varying <strong>${v.parameter}</strong> ${where}; the answer is named <strong>${v.as}</strong>.</p>
+  return html`<p class="lead">Target: <code>${cell.target.value}</code> = <code>${cell.target.equals}</code>, varying <strong>${v.parameter}</strong> ${where}; the answer is named <strong>${v.as}</strong>.</p>
     <table class="solved"><thead><tr><th>${v.parameter}</th><th>${cell.target.value}</th></tr></thead>
     <tbody><tr><td class="num answer">${r.solution ? showQ(r.solution, 6) : ''}</td><td class="num">${r.achieved ? showQ(r.achieved) : ''}</td></tr>
     ${r.rounded ? html`<tr><td class="num answer">${showQ(r.rounded)} (rounded to a multiple of <code>${v.roundTo}</code>)</td><td class="num">${r.achievedRounded ? showQ(r.achievedRounded) : 'no value'}</td></tr>` : nothing}

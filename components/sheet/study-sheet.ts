@@ -57,9 +57,16 @@ export class StudySheet extends LitElement {
     thead { display: table-header-group; }
     tr { break-inside: avoid; }
     td.num { text-align: right; white-space: nowrap; font-variant-numeric: tabular-nums; }
+    /* the parameters' columns have fixed widths: a long value, or the spread under it, wraps in its column, never over the note beside it */
+    table.parameters td.num { white-space: normal; }
     td.name { font-family: ui-monospace, monospace; font-size: 9pt; }
     figure { margin: 0.3rem 0 0.5rem; break-inside: avoid; }
     .keep { break-inside: avoid; }
+    /* what opens a section stays with what follows it (a run's span and schedule with its chart, a
+       data cell's row count with its table), so that a heading never ends a page with only its first lines */
+    .lead { break-after: avoid; break-inside: avoid; }
+    /* small sections are kept whole: a law with its starting value, a solve's target with its answer, a profile's results */
+    section.cell.rate, section.cell.solve, section.cell.nca { break-inside: avoid; }
     figure svg { max-width: 100%; height: auto; }
     .equation { margin: 0.3rem 0; font-size: 12pt; break-inside: avoid; }
     .summary { font-style: italic; margin: 0.2rem 0 0.4rem; }
@@ -71,7 +78,8 @@ export class StudySheet extends LitElement {
     .muted { color: #555; }
     code { font-size: 9pt; }
     pre { font-size: 8.5pt; white-space: pre-wrap; }
-    footer { border-top: 0.5px solid #999; margin-top: 1rem; padding-top: 0.3rem; font: 8.5pt system-ui, sans-serif; color: #333; }
+    /* never a page of its own: it takes the last lines before it along */
+    footer { border-top: 0.5px solid #999; margin-top: 1rem; padding-top: 0.3rem; font: 8.5pt system-ui, sans-serif; color: #333; break-before: avoid; }
     math { font-size: 1.05em; }
   `;
 

@@ -49,6 +49,8 @@ const FONT = 11;
 const LABEL_FONT = 10;
 const LABEL_CHAR = 0.62 * LABEL_FONT;
 const LABEL_HEIGHT = 12;
+/** The x axis's tick labels' baseline under the plot: low enough that the first and last clear the y axes' lowest labels at the corners. */
+const X_TICK_BELOW = 17;
 /** Space under the legend for the labels that found no room on the plot. */
 const UNPLACED_ROW = 16;
 
@@ -201,10 +203,10 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
     <rect x=${left} y=${top} width=${pw} height=${ph} fill="none" stroke=${INK} stroke-width="0.8" />
     ${spec.zeroLine && !spec.logY && (yr[0].at(0) ?? -1) > 0 && (yr[0].at(0) ?? 2) < 1 ? svg`<line x1=${left} x2=${left + pw} y1=${Y(0)} y2=${Y(0)} stroke=${INK} stroke-width="0.8" />` : ''}
     <g fill=${INK}>
-      ${xr.ticks.map((v, i) => svg`<text x=${X(v)} y=${top + ph + 14} text-anchor="middle">${xLabels[i]}</text>`)}
+      ${xr.ticks.map((v, i) => svg`<text x=${X(v)} y=${top + ph + X_TICK_BELOW} text-anchor="middle">${xLabels[i]}</text>`)}
       ${yr[0].ticks.map((v, i) => svg`<text x=${left - 5} y=${Y(v) + 4} text-anchor="end">${yLabels[0][i]}</text>`)}
       ${twoAxes ? yr[1].ticks.map((v, i) => svg`<text x=${left + pw + 5} y=${Y(v, 1) + 4}>${yLabels[1][i]}</text>`) : ''}
-      <text x=${left + pw / 2} y=${top + ph + 32} text-anchor="middle">${spec.xLabel}</text>
+      <text x=${left + pw / 2} y=${top + ph + X_TICK_BELOW + 18} text-anchor="middle">${spec.xLabel}</text>
       <text transform="translate(13 ${top + ph / 2}) rotate(-90)" text-anchor="middle">${spec.yLabels[0]}</text>
       ${twoAxes ? svg`<text transform="translate(${width - 8} ${top + ph / 2}) rotate(90)" text-anchor="middle">${spec.yLabels[1]}</text>` : ''}
     </g>

@@ -18,9 +18,9 @@ type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
 export function uncertaintySheet(cell: Of<'uncertainty'>, r: ReportOf<'uncertainty'>): TemplateResult {
   const results = Object.entries(r.results ?? {});
   const mc = r.method === 'monte-carlo';
-  return html`<p>How sure ${(cell.of ?? []).join(', ')} ${(cell.of ?? []).length === 1 ? 'is' : 'are'}: ${mc ? `${r.samples?.toLocaleString('en-US')} Monte Carlo samples (seed ${r.seed})` : 'first-order propagation (linear)'} over these inputs.</p>
-    ${(r.warnings ?? []).map((w) => html`<p class="check"><strong>Spread not carried.</strong> ${w}</p>`)}
-    <table><thead><tr><th>Input</th><th>Spread</th></tr></thead>
+  return html`<p class="lead">How sure ${(cell.of ?? []).join(', ')} ${(cell.of ?? []).length === 1 ? 'is' : 'are'}: ${mc ? `${r.samples?.toLocaleString('en-US')} Monte Carlo samples (seed ${r.seed})` : 'first-order propagation (linear)'} over these inputs.</p>
+    ${(r.warnings ?? []).map((w) => html`<p class="check lead"><strong>Spread not carried.</strong> ${w}</p>`)}
+    <table class="inputs lead"><thead><tr><th>Input</th><th>Spread</th></tr></thead>
     <tbody>${(r.inputs ?? []).map((i) => html`<tr><td class="name">${i.name}</td><td>${i.text}</td></tr>`)}</tbody></table>
     <table class="how-sure"><thead><tr><th>Result</th><th>Mean</th>${mc ? html`<th>± Mean's MC error</th>` : nothing}<th>SD</th><th>Median</th><th>95% interval</th>${mc ? html`<th>No value</th>` : nothing}</tr></thead>
     <tbody>${results.map(([name, x]) => html`<tr><td class="name">${name}</td>${x.mean
