@@ -53,7 +53,7 @@ export class SensitivityCellElement extends CellElement<'sensitivity'> {
             <td class="note wide" data-label="Note">${e.note ?? ''}</td></tr>`;
         })}</tbody>
       </table>
-      <p class="muted">${r.evaluations} runs of the study's values; each slope is good to about 1 part in 10,000.</p>`;
+      <p class="muted">${r.evaluations} runs of the study's values; ${r.accuracyWords}.</p>`;
   }
 }
 

@@ -23,7 +23,7 @@ export function sensitivitySheet(cell: Of<'sensitivity'>, r: ReportOf<'sensitivi
         <td class="num">${e.normalized === null ? '—' : formatNumber(e.normalized, 4)}</td><td>${e.note ?? ''}</td></tr>`;
     })}</tbody></table>
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}
-    <p class="check">${r.evaluations} runs of the study; each slope is good to about 1 part in 10,000 (runs good to ${r.accuracy}).</p>`;
+    <p class="check">${r.evaluations} runs of the study; ${r.accuracyWords}.</p>`;
 }
 
 /** `chart` draws a run's plot as the sheet draws a run's (sections.ts); the run is named by its title, else by its id. */

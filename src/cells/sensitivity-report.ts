@@ -74,6 +74,20 @@ function entryOf(t: SlopeTable, i: number, j: number): SensitivityEntry {
   return entry;
 }
 
+/** 1 part in N, N a power of ten (grouped by thousands): a relative accuracy as people say it. */
+function onePartIn(relative: number): string {
+  const n = 10 ** Math.round(-Math.log10(relative));
+  return `1 part in ${n.toLocaleString('en-US')}`;
+}
+
+/**
+ * A slope's accuracy in words: the central difference with the step of slopes.ts is good to
+ * about eps^(2/3) relative, eps the runs' relative accuracy (Nocedal & Wright, §8.1).
+ */
+export function slopeAccuracyWords(accuracy: number): string {
+  return `each slope is good to about ${onePartIn(accuracy ** (2 / 3))} (the runs taken as good to ${onePartIn(accuracy)})`;
+}
+
 /** The report of a sensitivity cell. Cost: O(nOf·nParameters). */
 export function sensitivityOutput(t: SlopeTable): NodeOutput<'sensitivity'> {
   const results: Record<string, Record<string, SensitivityEntry>> = {};
@@ -92,5 +106,5 @@ export function sensitivityOutput(t: SlopeTable): NodeOutput<'sensitivity'> {
   const summary = top && top.normalized !== null && top.normalized !== 0
     ? `${ranking[0].of} moves most with ${ranking[0].parameter}: ${formatNumber(Math.abs(top.normalized), 3)}% for 1% of ${ranking[0].parameter} (${top.normalized > 0 ? 'the same way' : 'the other way'})`
     : `no normalized slope to rank${ranking.length ? '' : ': nothing to follow'}`;
-  return { results, ranking, accuracy: t.accuracy, evaluations: t.evaluations, summary };
+  return { results, ranking, accuracy: t.accuracy, accuracyWords: slopeAccuracyWords(t.accuracy), evaluations: t.evaluations, summary };
 }

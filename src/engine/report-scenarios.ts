@@ -26,6 +26,8 @@ export interface SensitivityFields {
   ranking: Array<{ of: string; parameter: string }>;
   /** The relative accuracy of a run assumed for the step (the step rule: slopes.ts). */
   accuracy: number;
+  /** How good each slope is, in words: about accuracy^(2/3) relative (slopes.ts), and the runs' accuracy. */
+  accuracyWords: string;
   /** What-if runs made. */
   evaluations: number;
   summary: string;

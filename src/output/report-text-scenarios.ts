@@ -19,6 +19,7 @@ export function scenarioRows(cell: CellReport): Array<[string, string]> | undefi
       return [`d ${of} / d ${parameter}`, `${value}${e.note ? `  ${e.note}` : ''}`];
     });
     rows.push(['what-if runs', String(cell.evaluations ?? 0)]);
+    if (cell.accuracyWords) rows.push(['accuracy', cell.accuracyWords]);
     return rows;
   }
   if (cell.kind === 'compare') {

@@ -78,7 +78,7 @@ const DECLARED = {
   solve: ['solution', 'achieved', 'rounded', 'achievedRounded', 'solutions', 'targetRange', 'undefinedIn', 'choices', 'evaluations', 'message'],
   uncertainty: ['method', 'results', 'inputs', 'samples', 'seed', 'failed', 'failedReason', 'evaluations', 'notes', 'summary', 'bands', 'warnings'],
   note: [],
-  sensitivity: ['results', 'ranking', 'accuracy', 'evaluations', 'summary'],
+  sensitivity: ['results', 'ranking', 'accuracy', 'accuracyWords', 'evaluations', 'summary'],
   compare: ['scenarios', 'plot', 'questions', 'evaluations', 'summary'],
 } as const satisfies { [K in CellKind]: ReadonlyArray<keyof CellFields[K]> };
 // the list above names every field the types declare (a field added to a kind must be added there)

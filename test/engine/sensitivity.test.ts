@@ -59,6 +59,19 @@ describe('sensitivity: closed forms', () => {
     assert.deepEqual(r.ranking![0], { of: 't_L', parameter: 'k' });
   });
 
+  it('says how good its slopes are, and the closed forms hold it to that (within twice)', () => {
+    const r = sensitivity(cooling(), ['t_L'], ['k', 'T0', 'Ta']);
+    // the step rule of numerics/slopes.ts: good to about eps^(2/3) relative (Nocedal & Wright,
+    // Numerical Optimization, 2nd ed., sec. 8.1), eps = the runs' 1e-6: 1e-4
+    assert.equal(r.accuracyWords, 'each slope is good to about 1 part in 10,000 (the runs taken as good to 1 part in 1,000,000)');
+    const e = r.results!.t_L;
+    const stated = 1e-4;
+    // closed forms as in the test above: d ln t / d ln k = -1; dt/dT0 = 1/(k (T0 - Ta)); dt/dTa = (1/k)(1/(L - Ta) - 1/(T0 - Ta))
+    assert.ok(Math.abs(e.k.normalized! + 1) <= 2 * stated, `normalized for k off by ${e.k.normalized! + 1}`);
+    assert.ok(Math.abs(e.T0.coefficient!.value * 0.35 * 70 - 1) <= 2 * stated, 'dt/dT0');
+    assert.ok(Math.abs(e.Ta.coefficient!.value / ((1 / 0.35) * (1 / 17 - 1 / 70)) - 1) <= 2 * stated, 'dt/dTa');
+  });
+
   it('the temperature at a fixed time against k: dT/dk = -t (T0 - Ta) e^(-k t)', () => {
     const r = sensitivity(cooling(), ['T_2h'], ['k']);
     assert.ok(r.ok, JSON.stringify(r.error));
