@@ -103,17 +103,19 @@ function syncEvents(layer: HTMLElement, parts: LayerParts, events: readonly Even
 /**
  * Lays the chart's event markers and labels over its plotting area: event markers first,
  * then the labels, placed together (`placeLabels`) so that none covers another, each leader
- * crosses no other leader nor label, and clear of the event markers and their labels, then of
- * `keepClear` (the points, the curves), where they can be; a label with no room left is hidden.
+ * crosses no other leader nor label, and clear of the event markers and their labels and of
+ * `keepOffPoints` (the labelled points of a phase or sweep plot: a label over another's point
+ * reads as that point's), then of `keepClear` (the points, the curves), where they can be; a
+ * label with no room left is hidden.
  * The elements are kept from draw to draw and changed only where they differ, and the labels'
  * sizes are measured from their text (`label-sizes.ts`): a draw never lays the page out.
  */
-export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: readonly EventMarker[] = [], keepClear: Box[] = []): void {
+export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: readonly EventMarker[] = [], keepClear: Box[] = [], keepOffPoints: readonly Box[] = []): void {
   const layer = labelLayer(u);
   const parts = layerParts(layer);
   const w = u.bbox.width / ratioOf(u);
   const h = u.bbox.height / ratioOf(u);
-  const keepOff = syncEvents(layer, parts, events, w);
+  const keepOff = [...syncEvents(layer, parts, events, w), ...keepOffPoints];
   const bounds: Box = { x: 0, y: 0, w, h };
   const taken: Taken = { labels: [], clear: keepClear, keepOff, leaders: [] };
   while (parts.labels.length > labels.length) parts.labels.pop()!.remove();

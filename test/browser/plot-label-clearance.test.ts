@@ -7,7 +7,7 @@ import { expect } from 'chai';
 import { runStudy } from '../../src/index.ts';
 import '../../components/plots/time-plot.ts';
 import '../../components/plots/phase-plot.ts';
-import { segmentHitsBox, segmentsCross, overlaps, type Box, type Segment } from '../../components/plots/label-placement.ts';
+import { LEADER_FROM, segmentHitsBox, segmentsCross, overlaps, type Box, type Segment } from '../../components/plots/label-placement.ts';
 import fold from '../../examples/harvested-stock-fold.ratebook.json';
 import troughStudy from '../../examples/trough-in-range-probability.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
@@ -59,14 +59,25 @@ function expectTidy(layer: Element, where: string): void {
 afterEach(() => document.querySelectorAll('.clearance-box').forEach((b) => b.remove()));
 
 describe('chart labels keep clear of leaders and event markers', () => {
-  it('the harvest template\'s phase plot: no leader crosses another or passes through a label, from a phone\'s width up', async () => {
+  it('the harvest template\'s phase plot: no leader crosses another or passes through a label, and a label beside its point is nearer it than the other, from a phone\'s width up', async () => {
     // at 390 px the plot is about 230 px wide: the attractor's leader used to run down through the repeller's label
     const cell = cellOf(fold, 'settle');
     for (const width of [280, 300, 320, 340, 360, 390, 500, 700]) {
       const el = await mount(Object.assign(document.createElement('phase-plot'), { plot: cell.plot, equilibria: cell.equilibria, intervals: cell.intervals, summary: cell.summary, state: 'N' }), width);
       const layer = el.shadowRoot!.querySelector('.chart.rate .plot-labels')!;
-      expect(layerGeometry(layer).labels, `${width} px: both equilibria labelled`).to.have.length(2);
+      const { labels } = layerGeometry(layer);
+      expect(labels, `${width} px: both equilibria labelled`).to.have.length(2);
       expectTidy(layer, `${width} px`);
+      // a label beside its equilibrium (no leader: within LEADER_FROM of it) is nearer it than
+      // the other one (at 320 px the attractor's label once sat over the repeller's dot, 6 px
+      // from it and 8.5 px from its own)
+      const u = el.charts[0];
+      const dots = cell.equilibria.map((e: { value: number }) => [u.valToPos(e.value, 'x'), u.valToPos(0, 'y')]);
+      const gap = (b: Box, [x, y]: number[]) => Math.hypot(Math.max(b.x - x, 0, x - b.x - b.w), Math.max(b.y - y, 0, y - b.y - b.h));
+      labels.forEach((l, i) => {
+        if (gap(l.box, dots[i]) > LEADER_FROM) return;
+        expect(gap(l.box, dots[i]), `${width} px: "${l.text}" nearer the other equilibrium`).to.be.below(gap(l.box, dots[1 - i]));
+      });
       el.parentElement!.remove();
     }
   });
