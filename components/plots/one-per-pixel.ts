@@ -1,8 +1,9 @@
 /**
  * Which measured points a chart draws: one per device pixel. A point whose position rounds to
  * the pixel of a point already drawn is left out, as its dot would be drawn over the same
- * place; so is a point outside `bounds` (the plot and a dot's width around it: its dot would
- * be clipped away). Every other point is drawn. So every distinct place is kept, the extremes
+ * place; so is a point outside `bounds` (the plot, its centre outside it: the run's chart
+ * draws its dots whole over the plot's edge, so only those of points inside). Every other
+ * point is drawn. So every distinct place is kept, the extremes
  * of each pixel column among them (a column's highest and lowest point are on pixels of their
  * own), and the drawing differs from drawing every point by less than a pixel. A 10,000-row
  * log on a chart 1,000 pixels wide draws at most one dot per pixel it covers.

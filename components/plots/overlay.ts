@@ -6,7 +6,7 @@
  * moves.
  */
 import type uPlot from 'uplot';
-import { type Box, type Taken, placeLabel } from './label-placement.ts';
+import { type Box, type Taken, placeLabels } from './label-placement.ts';
 import { ratioOf } from './axes.ts';
 import { labelSize } from './label-sizes.ts';
 
@@ -65,8 +65,12 @@ function put<T extends object, K extends keyof T>(o: T, key: K, value: T[K]): vo
   if (o[key] !== value) o[key] = value;
 }
 
-/** The event markers: one button per event, kept in order before the leaders. */
-function syncEvents(parts: LayerParts, events: readonly EventMarker[], w: number): void {
+/**
+ * The event markers: one button per event, kept in order before the leaders. Returns the
+ * region each marker and its label take at the top of the plot (the head drawn on the canvas,
+ * the label shown on hover or focus), which the chart's labels keep off.
+ */
+function syncEvents(layer: HTMLElement, parts: LayerParts, events: readonly EventMarker[], w: number): Box[] {
   while (parts.events.length > events.length) parts.events.pop()!.remove();
   while (parts.events.length < events.length) {
     const b = document.createElement('button');
@@ -78,60 +82,73 @@ function syncEvents(parts: LayerParts, events: readonly EventMarker[], w: number
     parts.leaders.before(b);
     parts.events.push(b);
   }
+  const regions: Box[] = [];
   events.forEach((ev, i) => {
     const b = parts.events[i];
-    put(b, 'className', 'event' + (ev.x > w / 2 ? ' flip' : ''));
+    const flip = ev.x > w / 2;
+    put(b, 'className', 'event' + (flip ? ' flip' : ''));
     put(b.style, 'left', `${ev.x}px`);
     if (b.getAttribute('aria-label') !== ev.text) b.setAttribute('aria-label', ev.text);
-    put(b.firstChild as HTMLElement, 'textContent', ev.text);
+    const tip = b.firstChild as HTMLElement;
+    put(tip, 'textContent', ev.text);
+    // the head (chart-styles.ts: the button 12 px wide; the canvas's triangle 7 px tall) and the
+    // label beside it (10 px off the marker, TIP_TOP from the top), with a label's gap below
+    const [tw, th] = labelSize(layer, tip);
+    regions.push({ x: ev.x - HEAD_HALF_WIDTH, y: 0, w: 2 * HEAD_HALF_WIDTH, h: HEAD_HEIGHT + KEEP_GAP });
+    regions.push({ x: flip ? ev.x - TIP_OFFSET - tw : ev.x + TIP_OFFSET, y: 0, w: tw, h: TIP_TOP + th + KEEP_GAP });
   });
+  return regions;
 }
 
 /**
  * Lays the chart's event markers and labels over its plotting area: event markers first,
- * then the labels, each placed so that it never covers one before it, and clear of
- * `keepClear` (the points, the curves) where it can be; a label with no room left is hidden.
+ * then the labels, placed together (`placeLabels`) so that none covers another, each leader
+ * crosses no other leader nor label, and clear of the event markers and their labels and of
+ * `keepOffPoints` (the labelled points of a phase or sweep plot: a label over another's point
+ * reads as that point's), then of `keepClear` (the points, the curves), where they can be; a
+ * label with no room left is hidden.
  * The elements are kept from draw to draw and changed only where they differ, and the labels'
  * sizes are measured from their text (`label-sizes.ts`): a draw never lays the page out.
  */
-export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: readonly EventMarker[] = [], keepClear: Box[] = []): void {
+export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: readonly EventMarker[] = [], keepClear: Box[] = [], keepOffPoints: readonly Box[] = []): void {
   const layer = labelLayer(u);
   const parts = layerParts(layer);
   const w = u.bbox.width / ratioOf(u);
   const h = u.bbox.height / ratioOf(u);
-  syncEvents(parts, events, w);
+  const keepOff = [...syncEvents(layer, parts, events, w), ...keepOffPoints];
   const bounds: Box = { x: 0, y: 0, w, h };
-  const taken: Taken = { labels: [], clear: keepClear };
+  const taken: Taken = { labels: [], clear: keepClear, keepOff, leaders: [] };
   while (parts.labels.length > labels.length) parts.labels.pop()!.remove();
   while (parts.labels.length < labels.length) {
     const el = document.createElement('span');
     layer.append(el);
     parts.labels.push(el);
   }
-  const lines: SVGLineElement[] = [];
-  labels.forEach((l, i) => {
+  const requests = labels.map((l, i) => {
     const el = parts.labels[i];
     put(el, 'className', `lbl ${l.kind}`);
     put(el, 'textContent', l.text);
     const [lw, lh] = labelSize(layer, el);
-    const box = placeLabel(l.x, l.y, lw, lh, taken, bounds, l.along);
+    return { x: l.x, y: l.y, w: lw, h: lh, along: l.along };
+  });
+  const placed = placeLabels(requests, taken, bounds);
+  const lines: SVGLineElement[] = [];
+  placed.forEach((p, i) => {
+    const el = parts.labels[i];
     // no room left that would not cover another label: the label is left out (its value is
     // in the cell's results and the chart's data table)
-    put(el, 'hidden', !box);
-    if (!box) return;
-    put(el.style, 'left', `${box.x}px`);
-    put(el.style, 'top', `${box.y}px`);
-    // A label pushed away from its point gets a thin line back to it (a level's label, only
-    // when pushed off its line).
-    const ax = l.along ? Math.min(Math.max(l.x, box.x), box.x + box.w) : l.x;
-    const nx = Math.min(Math.max(ax, box.x), box.x + box.w);
-    const ny = Math.min(Math.max(l.y, box.y), box.y + box.h);
-    if (Math.hypot(nx - ax, ny - l.y) > LEADER_FROM) {
+    put(el, 'hidden', !p);
+    if (!p) return;
+    put(el.style, 'left', `${p.box.x}px`);
+    put(el.style, 'top', `${p.box.y}px`);
+    // a label pushed away from its point gets a thin line back to it (a level's label, only
+    // when pushed off its line)
+    if (p.leader) {
       const line = document.createElementNS(SVG, 'line');
-      line.setAttribute('x1', String(ax));
-      line.setAttribute('y1', String(l.y));
-      line.setAttribute('x2', String(nx));
-      line.setAttribute('y2', String(ny));
+      line.setAttribute('x1', String(p.leader[0]));
+      line.setAttribute('y1', String(p.leader[1]));
+      line.setAttribute('x2', String(p.leader[2]));
+      line.setAttribute('y2', String(p.leader[3]));
       lines.push(line);
     }
   });
@@ -139,8 +156,14 @@ export function drawOverlay(u: uPlot, labels: readonly PointLabel[], events: rea
 }
 
 const SVG = 'http://www.w3.org/2000/svg';
-/** Distance from a point to its label, CSS pixels, beyond which a leader line is drawn. */
-const LEADER_FROM = 14;
+/** An event marker's head: half its width (the button's) and its height (the canvas's triangle, run-extras.ts), CSS pixels. */
+const HEAD_HALF_WIDTH = 6;
+const HEAD_HEIGHT = 7;
+/** Where an event's label shows (chart-styles.ts `.event .tip`): its offset from the marker and from the top. */
+const TIP_OFFSET = 10;
+const TIP_TOP = 2;
+/** The gap a label keeps below an event's head and label. */
+const KEEP_GAP = 2;
 
 /** A small square around a point, to keep labels off the point itself. */
 export const around = (x: number, y: number, r = 5): Box => ({ x: x - r, y: y - r, w: 2 * r, h: 2 * r });

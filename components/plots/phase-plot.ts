@@ -191,7 +191,8 @@ export class PhasePlot extends LitElement {
     for (const pole of this.poles) {
       labels.push({ x: u.valToPos(pole.value, 'x'), y: 10, text: `pole: ${fmt(pole.value)} ${pole.unit}`, kind: 'pole' });
     }
-    drawOverlay(u, labels, [], [...clear, ...curveBoxes(u, [1])]);
+    // a label keeps off the other equilibria before it keeps off the curve
+    drawOverlay(u, labels, [], curveBoxes(u, [1]), clear);
   }
 
   private fieldOptions(): Omit<uPlot.Options, 'width' | 'height'> {

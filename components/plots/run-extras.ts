@@ -24,6 +24,8 @@ export interface ExtrasView {
 }
 
 const fmt = (v: number) => formatNumber(v, 6);
+/** How far past the plot's edge, in device pixels, a point's centre may lie (rounding) and still be drawn. */
+const EDGE = 0.5;
 
 /** Events, levels, found points and measured points, drawn after the curves. */
 export function drawRunExtras(u: uPlot, view: ExtrasView): void {
@@ -70,12 +72,17 @@ export function drawRunExtras(u: uPlot, view: ExtrasView): void {
     ctx.stroke();
   }
   ctx.setLineDash([]);
+  ctx.restore();
 
-  // measured points: one path per series, one dot per device pixel (one-per-pixel.ts):
+  // Measured and found points are drawn whole, unclipped: a point at the end of the span or
+  // at the top of the axis sits on the plot's edge, and clipped there it showed half a dot.
+  // Only those whose centre is inside the plot are drawn (half a device pixel of rounding).
+  // Measured points: one path per series, one dot per device pixel (one-per-pixel.ts):
   // thousands of measurements draw in one fill and one stroke, each place once
   const shownBoxes: Box[] = [];
-  const margin = 5 * r;
-  const bounds = { left: left - margin, top: top - margin, right: left + width + margin, bottom: top + height + margin };
+  const bounds = { left: left - EDGE, top: top - EDGE, right: left + width + EDGE, bottom: top + height + EDGE };
+  const within = (x: number, y: number) => x >= bounds.left && x <= bounds.right && y >= bounds.top && y <= bounds.bottom;
+  ctx.save();
   for (const m of view.points.filter((m) => inPanel(m.state))) {
     const scale = scaleOf(m.state);
     const xs = new Float64Array(m.t.length);
@@ -98,8 +105,11 @@ export function drawRunExtras(u: uPlot, view: ExtrasView): void {
 
   const marks = p.marks.filter((m) => inPanel(m.state) && placeable(m.value));
   for (const m of marks) {
+    const x = u.valToPos(m.time, 'x', true);
+    const y = u.valToPos(m.value, scaleOf(m.state), true);
+    if (!within(x, y)) continue;
     ctx.beginPath();
-    ctx.arc(u.valToPos(m.time, 'x', true), u.valToPos(m.value, scaleOf(m.state), true), 4.5 * r, 0, 2 * Math.PI);
+    ctx.arc(x, y, 4.5 * r, 0, 2 * Math.PI);
     ctx.fillStyle = '#1d2630';
     ctx.strokeStyle = '#fff';
     ctx.lineWidth = 2 * r;

@@ -154,7 +154,8 @@ export class SweepPlot extends LitElement {
       clear.push(around(cx, cy, 7));
     }
     ctx.restore();
-    drawOverlay(u, labels, [], [...clear, ...curveBoxes(u, this.runs.map((_, i) => i + 1))]);
+    // a label keeps off the other folds before it keeps off the branches
+    drawOverlay(u, labels, [], curveBoxes(u, this.runs.map((_, i) => i + 1)), clear);
   }
 }
 

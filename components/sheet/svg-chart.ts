@@ -8,7 +8,7 @@
 import { svg, type SVGTemplateResult } from 'lit';
 import { formatNumber } from '../../src/index.ts';
 import { tickLabels } from '../plots/axes.ts';
-import { placeLabel, type Box, type Taken } from '../plots/label-placement.ts';
+import { placeLabels, type Box, type Segment, type Taken } from '../plots/label-placement.ts';
 import { INK, seriesColour } from '../plots/palette.ts';
 
 export interface ChartLine {
@@ -57,10 +57,7 @@ const UNPLACED_ROW = 16;
 /** A label's box for its text, in the chart's units: wide enough for the text in the sheet's font. */
 const labelSize = (text: string) => ({ w: Math.ceil(text.length * LABEL_CHAR) + 2, h: LABEL_HEIGHT });
 
-/** Distance from a point to its label beyond which a leader line joins them. */
-const LEADER_FROM = 14;
-
-interface PlacedLabel { readonly text: string; readonly box: Box; readonly leader?: readonly [number, number, number, number] }
+interface PlacedLabel { readonly text: string; readonly box: Box; readonly leader?: Segment }
 
 /** Round tick values covering [lo, hi]: steps of 1, 2, 2.5 or 5 times a power of ten. */
 export function niceTicks(lo: number, hi: number, most = 7): { ticks: number[]; step: number } {
@@ -174,25 +171,24 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
     return d;
   };
   // labels of marks, then levels, placed so that none covers another, off the curves where there is room
-  const taken: Taken = { labels: [], clear: [
+  const taken: Taken = { labels: [], leaders: [], clear: [
     ...curveBoxes(spec.lines, X, Y),
     ...points.flatMap((p) => p.shown.map((j) => around(X(p.x[j]), Y(p.y[j], p.axis ?? 0), 4))),
     ...marks.map((m) => around(X(m.x), Y(m.y, m.axis ?? 0), 4)),
   ] };
   const bounds: Box = { x: left + 1, y: top + 1, w: pw - 2, h: ph - 2 };
+  // marks first, then levels (anywhere along their line), placed together: none covers another, no leader crosses another
+  const wanted = [
+    ...marks.map((m) => ({ text: m.label, x: X(m.x), y: Y(m.y, m.axis ?? 0) })),
+    ...levels.map((l) => ({ text: l.label, x: left + pw - 4, y: Y(l.y, l.axis ?? 0), along: [left + pw / 2, left + 8] })),
+  ];
   const placed: PlacedLabel[] = [];
   const unplaced: string[] = [];
-  const place = (text: string, px: number, py: number, along?: number[]) => {
-    const { w, h } = labelSize(text);
-    const box = placeLabel(px, py, w, h, taken, bounds, along);
-    if (!box) { unplaced.push(text); return; }
-    // a mark's label pushed away from its point gets a thin line back to it
-    const nx = Math.min(Math.max(px, box.x), box.x + box.w);
-    const ny = Math.min(Math.max(py, box.y), box.y + box.h);
-    placed.push({ text, box, ...(!along && Math.hypot(nx - px, ny - py) > LEADER_FROM ? { leader: [px, py, nx, ny] as const } : {}) });
-  };
-  for (const m of marks) place(m.label, X(m.x), Y(m.y, m.axis ?? 0));
-  for (const l of levels) place(l.label, left + pw - 4, Y(l.y, l.axis ?? 0), [left + pw / 2, left + 8]);
+  placeLabels(wanted.map((q) => ({ ...q, ...labelSize(q.text) })), taken, bounds).forEach((p, i) => {
+    if (!p) unplaced.push(wanted[i].text);
+    // a label pushed away from its point gets a thin line back to it
+    else placed.push({ text: wanted[i].text, box: p.box, ...(p.leader ? { leader: p.leader } : {}) });
+  });
   const extra = (legend ? 18 : 0) + (unplaced.length ? UNPLACED_ROW : 0);
   return svg`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height + extra}" width="${width}" height="${height + extra}" font-family="sans-serif" font-size="${FONT}" role="img" aria-label=${spec.label}>
     <title>${spec.label}</title>

@@ -12,6 +12,7 @@ import { tickLabels } from '../../components/plots/axes.ts';
 import cooling from '../../examples/cooling-stock-pot.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
 import radiometric from '../../examples/radiometric-age.ratebook.json';
+import troughStudy from '../../examples/trough-in-range-probability.ratebook.json';
 
 /** Invented numbers: a harvested logistic stock, a pole, a transcritical exchange, a semi-stable point. */
 const phaseStudy = {
@@ -241,6 +242,30 @@ describe('<time-plot>', () => {
     expect(at(dotted)[3]).to.be.greaterThan(100);
     expect(texts(dotted, '.key li').join()).to.contain('measured');
     expect(shadow(plain).querySelector('.key')).to.equal(null);
+  });
+
+  it('draws a measured point and a found point at the end of the span whole, over the plot\'s edge', async () => {
+    // the trough template's trough is found at the run's last time, 96 h; a measured point is
+    // put there too, and one at the first time. A dot is 3.5 px (measured) or 4.5 px (found) in
+    // radius: the ring's outer half lies outside the plotting area, where a clip would cut it off
+    const cell = simulation(troughStudy);
+    const tEnd = cell.plot.t[cell.plot.t.length - 1];
+    const trough = cell.plot.marks.find((m: { name: string }) => m.name === 'trough')!;
+    const measured = [{ state: 'C', t: [0, tEnd], values: [15, 20] }];
+    const el = await mount(Object.assign(document.createElement('time-plot'), { plot: cell.plot, summary: cell.summary, points: measured }));
+    const u = el.charts[0];
+    const ratio = u.ctx.canvas.width / u.width;
+    const left = u.bbox.left / ratio;
+    const top = u.bbox.top / ratio;
+    const right = left + u.bbox.width / ratio;
+    expect(trough.time).to.equal(tEnd);
+    // ink beyond the plot's edge, in the 1.5 to 5 px outside it, across the point's row: the
+    // outer half of its ring (a line 1.5 px wide on a circle of 3.5 px; the found point's dot
+    // 4.5 px with a 2 px white ring, whose antialiased edge still shows)
+    const outside = (x0: number, x1: number, y: number) => ink(u.ctx.canvas, x0 * ratio, x1 * ratio, (y - 1) * ratio, (y + 1) * ratio);
+    expect(outside(right + 1.5, right + 5, top + u.valToPos(20, 'y0')), 'the measured point at the end').to.be.greaterThan(255);
+    expect(outside(left - 5, left - 1.5, top + u.valToPos(15, 'y0')), 'the measured point at the start').to.be.greaterThan(255);
+    expect(outside(right + 1.5, right + 4, top + u.valToPos(trough.value, 'y0')), 'the found point at the end').to.be.greaterThan(255);
   });
 
   it('follows its box\'s width, widens to the printed width for printing, and comes back', async () => {

@@ -32,11 +32,14 @@ describe('sweepEquilibria: logistic growth with constant harvest, y\' = r y (1 -
     assert.equal(fold.converged, true);
   });
 
-  it('follows two branches, the repeller y- and the attractor y+, matching the closed form at every step', () => {
+  it('follows two branches, the repeller y- and the attractor y+, matching the closed form at every point', () => {
     assert.equal(s.branches.length, 2);
     const [low, high] = s.branches[0].points[0].value < s.branches[1].points[0].value ? s.branches : [s.branches[1], s.branches[0]];
-    assert.ok(low.points.every((p) => p.stability === 'repeller'));
-    assert.ok(high.points.every((p) => p.stability === 'attractor'));
+    // each ends at the fold, the one semi-stable point (f = f_y = 0 there)
+    assert.ok(low.points.slice(0, -1).every((p) => p.stability === 'repeller'));
+    assert.ok(high.points.slice(0, -1).every((p) => p.stability === 'attractor'));
+    assert.equal(low.points.at(-1)!.stability, 'semi-stable');
+    assert.equal(high.points.at(-1)!.stability, 'semi-stable');
     for (const [branch, sign] of [[low, -1], [high, 1]] as const) {
       for (const p of branch.points) {
         const exact = (K / 2) * (1 + sign * Math.sqrt(1 - (4 * p.parameter) / (r * K)));
@@ -47,6 +50,41 @@ describe('sweepEquilibria: logistic growth with constant harvest, y\' = r y (1 -
     }
     near(low.points[0].value, 0, 1e-12 * K);
     near(high.points[0].value, K, 1e-9 * K);
+  });
+
+  it('carries both branches to the fold: each ends at H = rK/4, y = K/2, with no gap before it', () => {
+    // the grid's last step before the fold is H = 0.4rK·124/199 (y± = K/2·(1 ± 0.0790)): the
+    // branches must not stop there. Every point added on the way is on the closed form above
+    // (checked in the test before); here, that they reach the fold and close the gap evenly.
+    const step = (0.4 * r * K) / 199;
+    for (const b of s.branches) {
+      const end = b.points.at(-1)!;
+      near(end.parameter, Hfold, 1e-8 * Hfold, 'H where the branch ends');
+      near(end.value, K / 2, 1e-8 * K, 'y where the branch ends');
+      const beyondGrid = b.points.filter((p) => p.parameter > 124 * step * (1 + 1e-12));
+      assert.ok(beyondGrid.length >= 8, `${beyondGrid.length} points between the last step and the fold`);
+      // no jump in y between neighbours near the fold larger than a tenth of the last grid gap
+      const lastGap = Math.abs(b.points[b.points.length - beyondGrid.length - 1].value - K / 2);
+      for (let i = b.points.length - beyondGrid.length; i < b.points.length; i++) {
+        assert.ok(Math.abs(b.points[i].value - b.points[i - 1].value) <= 0.12 * lastGap, `jump at H = ${b.points[i].parameter}`);
+      }
+    }
+  });
+
+  it('carries the branches to a fold that falls on a step (the template\'s 81 steps over 0 to 200 t/year, K = 1000 t)', () => {
+    // r = 0.5 /year, K = 1000 t: the fold H = rK/4 = 125 t/year is step 50, where the grid
+    // finds the semi-stable point N = K/2 = 500 t; the repeller's last step is 122.5 (N = 429.3)
+    const rr = 0.5, KK = 1000;
+    const t = sweepEquilibria((y, H) => rr * y * (1 - y / KK) - H, 0, 1100, 0, 200, 81);
+    assert.equal(t.branches.length, 2);
+    for (const b of t.branches) {
+      near(b.points.at(-1)!.parameter, 125, 1e-9 * 125, 'H where the branch ends');
+      near(b.points.at(-1)!.value, 500, 1e-6 * 500, 'N where the branch ends');
+      for (const p of b.points.slice(0, -1)) {
+        const sign = p.stability === 'attractor' ? 1 : -1;
+        near(p.value, (KK / 2) * (1 + sign * Math.sqrt(1 - (4 * p.parameter) / (rr * KK))), 1e-9 * KK, `N at H = ${p.parameter}`);
+      }
+    }
   });
 
   it('has an equilibrium at every step before the fold and none after it', () => {
@@ -69,6 +107,11 @@ describe('sweepEquilibria: logistic growth with constant harvest, y\' = r y (1 -
     near(down.folds[0].parameter, Hfold, 1e-8 * Hfold);
     near(down.folds[0].value, K / 2, 1e-6 * K);
     assert.equal(down.folds[0].pair, 'appears');
+    // both branches start at the fold, in the order the sweep runs
+    for (const b of down.branches) {
+      near(b.points[0].parameter, Hfold, 1e-8 * Hfold, 'H where the branch starts');
+      near(b.points[0].value, K / 2, 1e-6 * K, 'y where the branch starts');
+    }
   });
 });
 
@@ -125,6 +168,12 @@ describe('sweepEquilibria: other bifurcations and the fallbacks', () => {
     const [a, b] = s.folds;
     near(a.parameter, -pf, 1e-10); near(a.value, yf, 1e-8); assert.equal(a.pair, 'appears');
     near(b.parameter, pf, 1e-10); near(b.value, -yf, 1e-8); assert.equal(b.pair, 'vanishes');
+    // at each fold two branch ends meet: the middle (repeller) branch's and an attractor's
+    for (const fold of s.folds) {
+      const ends = s.branches.flatMap((br) => [br.points[0], br.points.at(-1)!])
+        .filter((e) => Math.abs(e.parameter - fold.parameter) <= 1e-10 && Math.abs(e.value - fold.value) <= 1e-7);
+      assert.equal(ends.length, 2, `branch ends at the fold p = ${fold.parameter}`);
+    }
   });
 
   it('a fold pair born in the same step as an equilibrium entering the range is still told apart', () => {

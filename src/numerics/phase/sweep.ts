@@ -14,10 +14,13 @@
  * by Newton's method with finite-difference derivatives, seeded from the grid step; should
  * Newton fail or leave the step, by bisection on p of "the pair is still there" (the largest
  * value of σ·f between the pair, σ its sign there, found by Brent's localmin, is positive).
+ * The fold's two branches then end at the fold itself, not at the last grid step before it
+ * (`fold-join.ts`).
  */
 import { brentMinimize } from '../brent.ts';
 import { findEquilibria, type EquilibriumOptions, type PhaseAnalysis, type Stability, type Equilibrium } from './equilibria.ts';
 import { charge } from '../work-meter.ts';
+import { joinBranchesToFolds } from './fold-join.ts';
 
 export interface SweepOptions extends Omit<EquilibriumOptions, 'derivative'> {
   /** ∂f/∂y when known exactly (passed to each step's analysis). */
@@ -166,6 +169,10 @@ export function sweepEquilibria(
     if (fold && !folds.some((g) => Math.abs(g.parameter - fold.parameter) <= FOLD_SAME * Math.abs(pTo - pFrom)
       && Math.abs(g.value - fold.value) <= FOLD_SAME * yWidth)) folds.push(fold);
   }
+  // the fold's two branches carried from their last grid step to the fold (fold-join.ts)
+  evaluations += joinBranchesToFolds(branches, folds.filter((g) => g.converged), {
+    f, derivative, yFrom, yTo, pFrom, pTo, step: Math.abs(pTo - pFrom) / (steps - 1),
+  });
   return { parameters, steps: analyses, branches: branches.map((points) => ({ points })), folds, evaluations, budgetExhausted, warnings };
 }
 
