@@ -60,6 +60,12 @@ export interface Answer {
   readonly q?: Quantity;
   /** The time the plot marks (crossings, extremes, values). */
   readonly markAt?: number;
+  /**
+   * The state's value (SI) the plot marks at `markAt`: the extreme itself, the value asked for,
+   * a crossing's level. Not the trajectory at `markAt`, which after a dose at that time is the
+   * value after it: a trough just before a dose would be marked at the next peak.
+   */
+  readonly markValue?: number;
   /** For a crossing not reached: the message. */
   readonly missing?: string;
 }
@@ -314,10 +320,10 @@ function answer(core: Integrated): Pick<SimulationCore, 'answers' | 'bindings' |
   const answers: Answer[] = [];
   const bindings = new Map<string, Binding>();
   const reasons = new Map<string, string>();
-  const give = (find: Find, given: Quantity, markAt?: number) => {
+  const give = (find: Find, given: Quantity, markAt?: number, markValue?: number) => {
     const q = shownAs(given, find.q.unit, find.unitPath);
     bindings.set(find.name, { kind: 'value', q, sig: quantitySig(q) });
-    answers.push({ find, q, markAt });
+    answers.push({ find, q, markAt, markValue });
   };
   for (const fq of core.finds) {
     const [a, b] = fq.span;
@@ -328,7 +334,7 @@ function answer(core: Integrated): Pick<SimulationCore, 'answers' | 'bindings' |
         const all = crossings(tr, fq.si, fq.level!.si, a, b).filter((c) => dir === 'either' || c.direction === dir);
         const c = all[(fq.q.occurrence ?? 1) - 1];
         if (c) {
-          give(fq, timeOf(core, c.t), c.t);
+          give(fq, timeOf(core, c.t), c.t, fq.level!.si);
         } else {
           const end = fq.q.to === undefined ? 'the end of the run' : 'the end of the window';
           const message = `not reached: no ${fq.state} ${CROSSING_NOUN[dir]} ${crossingLevel(fq)}${windowText(core, fq)} by ${end} (${describe(timeOf(core, b))})`;
@@ -340,12 +346,14 @@ function answer(core: Integrated): Pick<SimulationCore, 'answers' | 'bindings' |
       case 'maximum': case 'minimum': case 'timeOfMaximum': case 'timeOfMinimum': {
         const sign = fq.kind === 'maximum' || fq.kind === 'timeOfMaximum' ? 1 : -1;
         const e = extreme(tr, fq.si, sign, a, b)!;
-        give(fq, fq.kind.startsWith('time') ? timeOf(core, e.t) : stateValue(core, fq.si, e.value), e.t);
+        give(fq, fq.kind.startsWith('time') ? timeOf(core, e.t) : stateValue(core, fq.si, e.value), e.t, e.value);
         break;
       }
-      case 'valueOf':
-        give(fq, stateValue(core, fq.si, valueOfAt(tr, fq.si, fq.atT!)!), fq.atT!);
+      case 'valueOf': {
+        const v = valueOfAt(tr, fq.si, fq.atT!)!;
+        give(fq, stateValue(core, fq.si, v), fq.atT!, v);
         break;
+      }
       case 'integralOf': {
         const area = integralOver(tr, fq.quadrature, a, b)!;
         give(fq, { si: area, dim: mulDim(law.initial.dim, TIME), unit: areaUnit(law.stateUnit, core.timeUnit) });

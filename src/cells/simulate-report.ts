@@ -8,7 +8,7 @@ import { divDim, TIME } from '../units/dimension.ts';
 import { type DisplayUnit, mulUnits } from '../units/units.ts';
 import type { SystemSpec } from '../simulate/run-schedule.ts';
 import { stepPoints, type Trajectory } from '../simulate/trajectory.ts';
-import { extreme, valueOfAt } from '../simulate/queries.ts';
+import { extreme } from '../simulate/queries.ts';
 import { linearCoefficients, compareWithExact } from '../simulate/closed-form.ts';
 import { simulationPlot } from '../simulate/plot-data.ts';
 import { timesInRun } from '../simulate/schedule.ts';
@@ -26,12 +26,12 @@ export function simulationOutput(core: SimulationCore, measured: readonly Measur
   const results: Record<string, FindResult> = {};
   const found: FoundText[] = [];
   const marks: Array<{ name: string; state: string; t: number; value: Quantity; answer: string }> = [];
-  for (const { find, q, markAt, missing } of core.answers) {
+  for (const { find, q, markAt, markValue, missing } of core.answers) {
     const what = questionText(core, find);
     if (q) {
       results[find.name] = report(q);
       found.push({ name: find.name, what, answer: describe(q) });
-      if (markAt !== undefined) marks.push({ name: find.name, state: find.state, t: markAt, value: stateValue(core, find.si, valueOfAt(tr, find.si, markAt)!), answer: describe(q) });
+      if (markAt !== undefined && markValue !== undefined) marks.push({ name: find.name, state: find.state, t: markAt, value: stateValue(core, find.si, markValue), answer: describe(q) });
     } else {
       const end = asTime(find.span[1]);
       results[find.name] = { notReached: true, message: missing ?? '', end: report(end) };

@@ -378,6 +378,28 @@ describe('what a plot and a reader get', () => {
     assert.ok(Math.abs(plot.marks[0].value - 21) < 1e-6);
   });
 
+  it('marks a trough just before a dose at the trough, not at the peak the dose makes', () => {
+    // repeated IV bolus, one compartment: 100 mg / 10 L every 8 h, k = 0.1 /h (invented numbers).
+    // Closed form (superposition, common practice): just before dose n+1 at n·tau,
+    // C = C0 e^(-k tau) (1 - e^(-n k tau)) / (1 - e^(-k tau)); just after it, that plus C0.
+    const dosed = simulate([
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.1 / h' }] },
+      { id: 'law', kind: 'rate', state: 'C', unit: 'mg / L', rate: '-k * C', initial: '0 mg / L' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '24 h', events: [{ at: '0 h', every: '8 h', count: '3', add: { C: '10 mg / L' } }],
+        find: [{ name: 'trough_2', minimum: 'C', from: '8 h', to: '16 h' }, { name: 'peak_3', maximum: 'C', from: '16 h', to: '24 h' }, { name: 'C_16', valueOf: 'C', at: '16 h' }] },
+    ]);
+    const marks = (dosed.plot as { marks: Array<{ name: string; time: number; value: number }> }).marks;
+    const at = (name: string) => marks.find((m) => m.name === name)!;
+    const r = Math.exp(-0.8);
+    const before3 = 10 * r * (1 - r ** 2) / (1 - r);
+    assert.equal(at('trough_2').time, 16);
+    assert.ok(Math.abs(at('trough_2').value - before3) < 1e-4, `trough marked at ${at('trough_2').value}, closed form ${before3}`);
+    assert.equal(at('peak_3').time, 16);
+    assert.ok(Math.abs(at('peak_3').value - (before3 + 10)) < 1e-4, `peak marked at ${at('peak_3').value}`);
+    // a value asked for at a dose's time is the value after it, as the answer says
+    assert.ok(Math.abs(at('C_16').value - (before3 + 10)) < 1e-4);
+  });
+
   it('says in words what happened', () => {
     assert.match(String(run.summary), /^T falls from 74 degC to [\d.]+ degC; t21 \(T falls through 21 degC\): 1\.769 h\.$/);
   });
