@@ -14,6 +14,7 @@ import { math } from './math.ts';
 import { fitPriorPart } from './fit-prior-sheet.ts';
 import { sensitivitySheet, compareSheet } from './scenario-sheet.ts';
 import { uncertaintySheet } from './uncertainty-sheet.ts';
+import { nameText } from './name-text.ts';
 import { hasFigures, pendingGlance, pendingMark, type SheetPending } from './pending-sheet.ts';
 
 const NONE_PENDING: SheetPending = { pending: [] };
@@ -97,7 +98,7 @@ function parameters(cell: Of<'parameters'>, r: ReportOf<'parameters'>): Template
       const t = tex[it.name]?.value;
       const shown = t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`;
       const long = typeof it.value === 'string' && it.value.length > LONG_DEFINITION;
-      return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${it.name}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
+      return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${nameText(String(it.name ?? ''))}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
         <td class="num">${showValue(values[it.name])}${values[it.name]?.spread ? html`<br /><span class="muted">spread: ${values[it.name]!.spread!.text}</span>` : nothing}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}${values[it.name]?.spread?.note ? html`<br /><span class="check">${values[it.name]!.spread!.note}</span>` : nothing}</td></tr>
         ${long ? html`<tr class="formula"><td colspan="4">${t ? math(`\\displaystyle ${tex[it.name].name} = ${t}`) : html`<code>${it.name} = ${it.value}</code>`}</td></tr>` : nothing}`;
     })}</tbody></table>`;
