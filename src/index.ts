@@ -18,6 +18,7 @@ export type {
 } from './engine/report.ts';
 export type { Histogram, UncertaintyResult, PercentilePrecision, UncertainInput, SpreadReport, UncertaintyBand } from './engine/report.ts';
 export { runBand, type RunBand, type DrawnBand } from './output/run-band.ts';
+export { closedFormWords } from './output/closed-form-words.ts';
 export { MAX_SAMPLES } from './study/types.ts';
 export { isKind } from './engine/report.ts';
 export type { GlanceEntry, GlanceKind } from './output/glance.ts';

@@ -4,7 +4,7 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import { isKind, KIND_LABELS, cellWords, runBand, type RunBand, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
+import { isKind, KIND_LABELS, cellWords, closedFormWords, runBand, type RunBand, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
@@ -176,7 +176,7 @@ function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>, band: RunBand |
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
     ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
       <td class="name">${f.name}</td><td>${questions[f.name] ?? ''}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
-    ${Object.entries(closed).map(([state, c]) => html`<p class="check">Check: ${state} also follows an exact solution here${c.timeConstant ? ` (time constant ${showQ(c.timeConstant)}${c.halfLife ? `, half-life ${showQ(c.halfLife)}` : ''})` : ''}; the numeric run differs from it by at most ${showQ(c.maxError, 2)}.</p>`)}`;
+    ${Object.entries(closed).map(([state, c]) => html`<p class="check closed-form">Check: ${closedFormWords(state, c)}</p>`)}`;
 }
 
 /** A chart's text alternative: the engine's summary, or words naming what it shows when there is none. */

@@ -2,7 +2,8 @@
  * The report as a readable table for a terminal: one block per cell, quantities aligned. The
  * study-format contract fixes the JSON report (`--json`), not this table; its rows follow the
  * report's fields (a fit's `digits`, a Ratebook addition, in words beside its number), each figure
- * to 6 significant digits (a run's error against the exact solution to 2), counts whole.
+ * to 6 significant digits (a run's error against the exact solution to 2), counts whole; a
+ * run's exact solution stretch by stretch a row per stretch.
  */
 import type { CellReport, Report } from '../engine/report.ts';
 import { formatNumber } from '../units/quantity.ts';
@@ -80,7 +81,14 @@ function showNumber(key: string, x: number): string {
 }
 
 function collect(key: string, value: unknown, rows: Array<[string, string]>): void {
-  if (isQuantity(value)) {
+  if (/\.stretches$/.test(key) && Array.isArray(value)) {
+    // a run's exact solution stretch by stretch: a row each, its figures in order
+    value.forEach((s: Record<string, unknown>, i) => {
+      const figures = Object.entries(s).filter(([k]) => k !== 'from' && k !== 'to')
+        .map(([k, v]) => `${k} ${isQuantity(v) ? showQuantity(v) : String(v)}`);
+      rows.push([`${key}[${i}]`, `from ${showQuantity(s.from as Q)} to ${showQuantity(s.to as Q)}: ${figures.join(', ')}`]);
+    });
+  } else if (isQuantity(value)) {
     rows.push([key, showQuantity(value, digitsFor(key))]);
   } else if (typeof value === 'number') {
     rows.push([key, showNumber(key, value)]);
