@@ -4,7 +4,7 @@ export type { Progress } from './engine/sliced.ts';
 export type { Replacement, WhatIf, WhatIfAnswer, WhatIfPrepared, WhatIfResult } from './engine/what-if.ts';
 export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts';
 export { sameContent } from './study/same.ts';
-export { solutionEdit, solutionText, type SolutionEdit } from './study/use-solution.ts';
+export { solutionEdit, solutionText, shownSolution, type SolutionEdit } from './study/use-solution.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind, PlotScale, SolveCell, FitPrior, FitErrorModel, ParameterItem, ParameterSpread } from './study/types.ts';
 export type { SensitivityCell, CompareCell, CompareScenario } from './study/types.ts';

@@ -4,7 +4,7 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import { isKind, KIND_LABELS, cellWords, closedFormWords, runBand, type RunBand, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
+import { isKind, KIND_LABELS, cellWords, closedFormWords, shownSolution, runBand, type RunBand, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
@@ -244,7 +244,7 @@ function solve(cell: Of<'solve'>, r: ReportOf<'solve'>): TemplateResult {
   const where = Array.isArray(v.choices) ? html`among the choices <code>${v.choices.join(', ')}</code>` : html`from <code>${v.min}</code> to <code>${v.max}</code>`;
   return html`<p>Target: <code>${cell.target.value}</code> = <code>${cell.target.equals}</code>, varying <strong>${v.parameter}</strong> ${where}; the answer is named <strong>${v.as}</strong>.</p>
     <table class="solved"><thead><tr><th>${v.parameter}</th><th>${cell.target.value}</th></tr></thead>
-    <tbody><tr><td class="num answer">${r.solution ? showQ(r.solution, 6) : ''}</td><td class="num">${r.achieved ? showQ(r.achieved) : ''}</td></tr>
+    <tbody><tr><td class="num answer">${r.solution ? shownSolution(r.solution, r) : ''}${r.digits !== undefined ? html`<br /><span class="muted">to its ${r.digits} significant digits</span>` : nothing}</td><td class="num">${r.achieved ? showQ(r.achieved) : ''}</td></tr>
     ${r.rounded ? html`<tr><td class="num answer">${showQ(r.rounded)} (rounded to a multiple of <code>${v.roundTo}</code>)</td><td class="num">${r.achievedRounded ? showQ(r.achievedRounded) : 'no value'}</td></tr>` : nothing}
     </tbody></table>
     ${r.choices ? html`<table class="solved"><thead><tr><th>Choice of ${v.parameter}</th><th>${cell.target.value}</th></tr></thead>
