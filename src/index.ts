@@ -4,7 +4,7 @@ export type { Progress } from './engine/sliced.ts';
 export type { Replacement, WhatIf, WhatIfAnswer, WhatIfPrepared, WhatIfResult } from './engine/what-if.ts';
 export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts';
 export { sameContent } from './study/same.ts';
-export { solutionEdit, solutionText, type SolutionEdit } from './study/use-solution.ts';
+export { solutionEdit, solutionText, shownSolution, type SolutionEdit } from './study/use-solution.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind, PlotScale, SolveCell, FitPrior, FitErrorModel, ParameterItem, ParameterSpread } from './study/types.ts';
 export type { SensitivityCell, CompareCell, CompareScenario } from './study/types.ts';
@@ -18,6 +18,7 @@ export type {
 } from './engine/report.ts';
 export type { Histogram, UncertaintyResult, PercentilePrecision, UncertainInput, SpreadReport, UncertaintyBand } from './engine/report.ts';
 export { runBand, type RunBand, type DrawnBand } from './output/run-band.ts';
+export { closedFormWords } from './output/closed-form-words.ts';
 export { MAX_SAMPLES } from './study/types.ts';
 export { isKind } from './engine/report.ts';
 export type { GlanceEntry, GlanceKind } from './output/glance.ts';

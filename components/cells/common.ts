@@ -185,6 +185,8 @@ export const cellStyles = css`
   /* line-height 1.3: at a label's 0.85rem the monospace underscore fell below an input's line box and k_min read "k min" */
   input[type='text'], input[type='number'] { line-height: 1.3; }
   input.name { width: 7rem; font-family: ui-monospace, monospace; }
+  /* a name box grows with its name up to 17rem where the browser can size a field to its text; past that the name scrolls and is the box's title */
+  @supports (field-sizing: content) { input.name { field-sizing: content; width: auto; min-width: 7rem; max-width: min(100%, 17rem); } }
   button { font: inherit; font-size: 0.85rem; padding: 0.2rem 0.6rem; border: 1px solid #8795a1; border-radius: 4px; background: #f3f5f7; color: #1c2329; cursor: pointer; }
   button:hover { background: #e4e9ee; }
   button.quiet { border-color: transparent; background: transparent; }

@@ -8,14 +8,21 @@ import '../unit-pick.ts';
 import type { UnitPickDetail } from '../unit-pick.ts';
 import { spreadFields } from './spread-fields.ts';
 
+/** What a name box adds to its text's width: the field's padding and border, the cell's padding. */
+const NAME_BOX_EXTRA = '1.6rem + 2px';
+
 /** A parameters cell: one row per name, with its value field, its current value and, given a range, a slider. */
 export class ParametersCellElement extends CellElement<'parameters'> {
   // fixed column widths: a value that changes length while a slider moves must not re-lay out
   // the table (and every editor in it); a value longer than its column wraps, never cut. On a
   // phone each parameter is a block: name, value, what it is now, note (the shared stack).
+  // The name column is as wide as the longest name (`--name-chars`, set by the element; a
+  // name is in monospace, one `ch` a character, so the column's own font is monospace too),
+  // at least 8.5rem and at most 17rem; a longer name scrolls in its box and is its title.
   static override styles = [cellStyles, wrapFieldStyles, css`
     table { table-layout: fixed; }
-    col.name { width: 8.5rem; } col.now { width: 9rem; } col.note { width: 11rem; } col.remove { width: 2.5rem; }
+    col.name { font-family: ui-monospace, monospace; width: clamp(8.5rem, calc((var(--name-chars, 0) + 1) * 1ch + ${unsafeCSS(NAME_BOX_EXTRA)}), 17rem); }
+    col.now { width: 9rem; } col.note { width: 11rem; } col.remove { width: 2.5rem; }
     td.result { white-space: normal; overflow-wrap: break-word; }
     input.name { width: 100%; box-sizing: border-box; }
     td input[type='text']:not(.name) { width: 100%; box-sizing: border-box; }
@@ -26,7 +33,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
       table.stack td.value { grid-area: value; } table.stack td.note { grid-area: note; }
       table.stack td.result { grid-area: now; }
       table.stack td.result .now::before { content: '= '; }
-      table.stack td.name input.name { width: 7.5rem; }
+      table.stack td.name input.name { width: clamp(7.5rem, calc((var(--name-chars, 0) + 1) * 1ch + 0.8rem + 2px), 100%); }
     }
     details.more { margin-top: 0.2rem; }
     details.more summary { cursor: pointer; font-size: 0.8rem; color: #3b4650; }
@@ -36,6 +43,24 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     .spread-note { font-size: 0.8rem; color: #5c3400; border-left: 3px solid #a85d00; background: #fff6e8; padding: 0.15rem 0.4rem; margin-top: 0.2rem; max-width: 22rem; }
     .range.spread select { max-width: 100%; }
   `];
+
+  protected override willUpdate(): void {
+    super.willUpdate();
+    const items = Array.isArray(this.cell?.items) ? this.cell.items : [];
+    this.nameChars(Math.max(0, ...items.map((it) => (typeof it?.name === 'string' ? it.name.length : 0))));
+  }
+
+  /** The name column's width in characters (a CSS property on the host, through the CSSOM: no style attribute). */
+  private nameChars(n: number): void {
+    if (this.style.getPropertyValue('--name-chars') !== String(n)) this.style.setProperty('--name-chars', String(n));
+  }
+
+  /** A name typed: the column grows at once (the view is drawn again only with the engine's answer). */
+  private typeName(j: number, name: string): void {
+    const others = this.cell.items.filter((_, i) => i !== j).map((it) => (typeof it?.name === 'string' ? it.name.length : 0));
+    this.nameChars(Math.max(name.length, ...others));
+    this.change(j, { name }, `name${j}`);
+  }
 
   override render() {
     const claims = this.claims;
@@ -52,8 +77,8 @@ export class ParametersCellElement extends CellElement<'parameters'> {
             const nameError = claims.take(`.items[${j}].name`);
             const who = item.name || `parameter ${j + 1}`;
             return html`<tr class="item">
-              <td class="name"><input class="name" type="text" data-field="items[${j}].name" aria-label="Name of parameter ${j + 1}" .value=${item.name ?? ''}
-                @input=${(e: Event) => this.change(j, { name: (e.target as HTMLInputElement).value }, `name${j}`)} />
+              <td class="name"><input class="name" type="text" data-field="items[${j}].name" aria-label="Name of parameter ${j + 1}" title=${item.name ?? ''} .value=${item.name ?? ''}
+                @input=${(e: Event) => this.typeName(j, (e.target as HTMLInputElement).value)} />
                 ${nameError ? html`<div class="foot-error" role="alert">${nameError.message}</div>` : nothing}</td>
               <td class="value"><expr-field data-field="items[${j}].value" label="Value of ${who}" .value=${item.value ?? ''} .names=${names}
                 .error=${claims.take(`.items[${j}].value`)}

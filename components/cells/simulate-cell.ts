@@ -1,5 +1,5 @@
 import { html, nothing, css } from 'lit';
-import { runBand, cellWords, type ClosedFormReport, type PlotScale, type SimulationPlot } from '../../src/index.ts';
+import { runBand, cellWords, closedFormWords, type ClosedFormReport, type PlotScale, type SimulationPlot } from '../../src/index.ts';
 import { cellStyles, plotScaleError, withPlotScale, footError, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import { exportSeriesCsv } from '../series-csv.ts';
@@ -139,9 +139,7 @@ export class SimulateCellElement extends CellElement<'simulate'> {
 
   private closedForm(cf: Record<string, ClosedFormReport> | undefined) {
     if (!cf) return nothing;
-    return html`${Object.entries(cf).map(([state, e]) => html`<p class="muted">Exact solution (${state} linear in itself):
-      time constant ${showQ(e.timeConstant)}, ${e.halfLife ? html`half-life ${showQ(e.halfLife)}` : html`doubling time ${showQ(e.doublingTime)}`},
-      settles toward ${showQ(e.equilibrium)} with the starting values; this run differs from it by at most ${showQ(e.maxError, 2)}.</p>`)}`;
+    return html`${Object.entries(cf).map(([state, e]) => html`<p class="muted closed-form">${closedFormWords(state, e)}</p>`)}`;
   }
 
   private firstState(): string {

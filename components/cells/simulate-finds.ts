@@ -51,7 +51,7 @@ export function findsTable(h: FindsHost) {
       const hasMore = f.from !== undefined || f.to !== undefined || f.occurrence !== undefined || f.glance !== undefined;
       const who = f.name || `question ${i + 1}`;
       return html`<tr>
-        <td data-label="Name"><input class="name" type="text" data-field="find[${i}].name" aria-label="Question ${i + 1} name" .value=${f.name ?? ''}
+        <td data-label="Name"><input class="name" type="text" data-field="find[${i}].name" aria-label="Question ${i + 1} name" title=${f.name ?? ''} .value=${f.name ?? ''}
           @input=${(e: Event) => h.setFind(i, { ...f, name: (e.target as HTMLInputElement).value }, `fname${i}`)} />
           ${footError(claims.take(`${p}.name`))}</td>
         <td data-label="Question"><select aria-label="Question ${i + 1} kind" @change=${(e: Event) => h.setFind(i, switchFind(f, (e.target as HTMLSelectElement).value as FindKind))}>

@@ -1,5 +1,5 @@
 import { html, nothing, css } from 'lit';
-import { solutionEdit } from '../../src/index.ts';
+import { solutionEdit, shownSolution } from '../../src/index.ts';
 import { cellStyles, footError, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import '../expr-field.ts';
@@ -81,7 +81,7 @@ export class SolveCellElement extends CellElement<'solve'> {
     const target = this.cell.target?.value ?? 'the target';
     const use = this.doc ? solutionEdit(this.doc.cells, this.cell, r) : undefined;
     return html`
-      <p class="answer">${v.parameter} = <span class="result">${showQ(r.solution, 6)}</span> gives ${target} = <span class="result">${showQ(r.achieved)}</span>
+      <p class="answer">${v.parameter} = <span class="result">${shownSolution(r.solution, r)}</span> gives ${target} = <span class="result">${showQ(r.achieved)}</span>
         ${r.rounded ? html`<br />Rounded: ${v.parameter} = <span class="result">${showQ(r.rounded)}</span> gives ${target} = <span class="result">${r.achievedRounded ? showQ(r.achievedRounded) : 'no value'}</span>` : nothing}</p>
       ${r.solutions && r.solutions.length > 1 ? html`<p class="muted">${r.solutions.length} values meet the target: ${r.solutions.map((q) => showQ(q)).join(', ')}; ${v.guess ? 'the one nearest the guess' : 'the smallest'} is used.</p>` : nothing}
       ${r.choices ? html`<table class="choices"><caption class="sr">The target at each choice</caption>
@@ -89,8 +89,9 @@ export class SolveCellElement extends CellElement<'solve'> {
         <tbody>${r.choices.map((x) => html`<tr class=${x.chosen ? 'chosen' : ''}><td class="num">${showQ(x.value)}${x.chosen ? html` <span class="sr">(nearest)</span>` : nothing}</td>
           <td class="num">${x.achieved ? showQ(x.achieved) : html`<span class="muted">${x.reason}</span>`}</td></tr>`)}</tbody></table>` : nothing}
       ${r.undefinedIn?.length ? html`<p class="muted">No value of ${target} for ${r.undefinedIn.map((g) => `${showQ(g.from)} to ${showQ(g.to)}`).join(', ')}: ${r.undefinedIn[0].reason}.</p>` : nothing}
-      <p class="muted">${r.evaluations} runs of the study's values${r.targetRange ? `; over the range ${target} goes from ${showQ(r.targetRange.low)} to ${showQ(r.targetRange.high)}` : ''}.</p>
-      ${use ? html`<div class="row"><button class="use" data-use @click=${() => this.replaceOther(use.cell)}>Set ${use.name} to ${use.text}</button></div>` : nothing}`;
+      <p class="muted">${r.evaluations} runs of the study's values${r.targetRange ? `; over the range ${target} goes from ${showQ(r.targetRange.low)} to ${showQ(r.targetRange.high)}` : ''}.${r.digits !== undefined ? ` The answer is shown to the ${r.digits} significant digits that the runs' tolerance and the search support.` : ''}</p>
+      ${use ? html`<div class="row"><button class="use" data-use @click=${() => this.replaceOther(use.cell)}>Set ${use.name} to ${use.text}</button></div>
+        ${!r.rounded && !r.choices ? html`<p class="muted use-note">This writes the answer as shown. For a value that can be measured out (a vial, a tablet, a setting), give "Round to" under Rounding: the button then writes the rounded value.</p>` : nothing}` : nothing}`;
   }
 
   /** Writes another cell (the varied parameter's) as one edit of its own. */

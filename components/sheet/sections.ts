@@ -4,7 +4,7 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import { isKind, KIND_LABELS, cellWords, runBand, type RunBand, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
+import { isKind, KIND_LABELS, cellWords, closedFormWords, shownSolution, runBand, type RunBand, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
 import { showQ, showValue } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
@@ -14,6 +14,7 @@ import { math } from './math.ts';
 import { fitPriorPart } from './fit-prior-sheet.ts';
 import { sensitivitySheet, compareSheet } from './scenario-sheet.ts';
 import { uncertaintySheet } from './uncertainty-sheet.ts';
+import { nameText } from './name-text.ts';
 import { hasFigures, pendingGlance, pendingMark, type SheetPending } from './pending-sheet.ts';
 
 const NONE_PENDING: SheetPending = { pending: [] };
@@ -97,7 +98,7 @@ function parameters(cell: Of<'parameters'>, r: ReportOf<'parameters'>): Template
       const t = tex[it.name]?.value;
       const shown = t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`;
       const long = typeof it.value === 'string' && it.value.length > LONG_DEFINITION;
-      return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${it.name}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
+      return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${nameText(String(it.name ?? ''))}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
         <td class="num">${showValue(values[it.name])}${values[it.name]?.spread ? html`<br /><span class="muted spread">spread: ${values[it.name]!.spread!.text}</span>` : nothing}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}${values[it.name]?.spread?.note ? html`<br /><span class="check">${values[it.name]!.spread!.note}</span>` : nothing}</td></tr>
         ${long ? html`<tr class="formula"><td colspan="4">${t ? math(`\\displaystyle ${tex[it.name].name} = ${t}`) : html`<code>${it.name} = ${it.value}</code>`}</td></tr>` : nothing}`;
     })}</tbody></table>`;
@@ -175,7 +176,7 @@ function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>, band: RunBand |
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
     ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
       <td class="name">${f.name}</td><td>${questions[f.name] ?? ''}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
-    ${Object.entries(closed).map(([state, c]) => html`<p class="check">Check: ${state} also follows an exact solution here${c.timeConstant ? ` (time constant ${showQ(c.timeConstant)}${c.halfLife ? `, half-life ${showQ(c.halfLife)}` : ''})` : ''}; the numeric run differs from it by at most ${showQ(c.maxError, 2)}.</p>`)}`;
+    ${Object.entries(closed).map(([state, c]) => html`<p class="check closed-form">Check: ${closedFormWords(state, c)}</p>`)}`;
 }
 
 /** A chart's text alternative: the engine's summary, or words naming what it shows when there is none. */
@@ -243,7 +244,7 @@ function solve(cell: Of<'solve'>, r: ReportOf<'solve'>): TemplateResult {
   const where = Array.isArray(v.choices) ? html`among the choices <code>${v.choices.join(', ')}</code>` : html`from <code>${v.min}</code> to <code>${v.max}</code>`;
   return html`<p class="lead">Target: <code>${cell.target.value}</code> = <code>${cell.target.equals}</code>, varying <strong>${v.parameter}</strong> ${where}; the answer is named <strong>${v.as}</strong>.</p>
     <table class="solved"><thead><tr><th>${v.parameter}</th><th>${cell.target.value}</th></tr></thead>
-    <tbody><tr><td class="num answer">${r.solution ? showQ(r.solution, 6) : ''}</td><td class="num">${r.achieved ? showQ(r.achieved) : ''}</td></tr>
+    <tbody><tr><td class="num answer">${r.solution ? shownSolution(r.solution, r) : ''}${r.digits !== undefined ? html`<br /><span class="muted">to its ${r.digits} significant digits</span>` : nothing}</td><td class="num">${r.achieved ? showQ(r.achieved) : ''}</td></tr>
     ${r.rounded ? html`<tr><td class="num answer">${showQ(r.rounded)} (rounded to a multiple of <code>${v.roundTo}</code>)</td><td class="num">${r.achievedRounded ? showQ(r.achievedRounded) : 'no value'}</td></tr>` : nothing}
     </tbody></table>
     ${r.choices ? html`<table class="solved"><thead><tr><th>Choice of ${v.parameter}</th><th>${cell.target.value}</th></tr></thead>

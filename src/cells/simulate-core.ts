@@ -27,7 +27,7 @@ import { unstableStep } from '../simulate/unstable-step.ts';
 
 /** Step attempts allowed in one run, all pieces together. */
 export const MAX_STEPS = 200_000;
-const DEFAULT_RTOL = 1e-6;
+export const DEFAULT_RTOL = 1e-6;
 
 /** The cell's expression fields, parsed once when its node is built. */
 export interface Fields {

@@ -9,12 +9,12 @@ import { type DisplayUnit, mulUnits } from '../units/units.ts';
 import type { SystemSpec } from '../simulate/run-schedule.ts';
 import { stepPoints, type Trajectory } from '../simulate/trajectory.ts';
 import { extreme } from '../simulate/queries.ts';
-import { linearCoefficients, compareWithExact } from '../simulate/closed-form.ts';
+import { type Linear, linearCoefficients, compareWithExact, linearStretches } from '../simulate/closed-form.ts';
 import { simulationPlot } from '../simulate/plot-data.ts';
 import { timesInRun } from '../simulate/schedule.ts';
 import { repeatsText } from '../output/event-words.ts';
 import type { Law, MeasuredSeries } from '../engine/node.ts';
-import type { ClosedFormReport, FindResult, SimulateFields } from '../engine/report.ts';
+import type { ClosedFormReport, FindResult, LinearFigures, SimulateFields } from '../engine/report.ts';
 import { simulationSummary, type FoundText, type StatePath } from '../output/summaries.ts';
 import { type SimulationCore, questionText, stateValue, timeOf } from './simulate-core.ts';
 
@@ -61,7 +61,7 @@ export function simulationOutput(core: SimulationCore, measured: readonly Measur
     steps: run.steps,
     evaluations: run.evaluations,
     results,
-    closedForm: closedForms(laws, core.sys, tr, core.compiled, core.inputs.length, core.rtol, core.atol, timeUnit),
+    closedForm: closedForms(laws, core.sys, tr, core.compiled, core.inputs.length, core.rtol, core.atol, timeUnit, asTime),
     series: seriesOf(tr, core.states),
     summary: simulationSummary(paths, found),
     // each question in words, as the summary puts it (for the printed sheet)
@@ -87,11 +87,16 @@ function seriesOf(tr: Trajectory, states: readonly string[]): Record<string, num
   return out;
 }
 
-/** For each law linear in its own state alone: rate constant, time constant, half-life, and the run's error. */
-function closedForms(laws: readonly Law[], sys: SystemSpec, tr: Trajectory, compiled: ReadonlyArray<(x: ArrayLike<number>) => number>, width: number, rtol: number, atol: Float64Array, timeUnit: DisplayUnit) {
+/**
+ * For each law linear in its own state alone: rate constant, time constant, half-life, and the
+ * run's error against the exact piecewise solution; with the law changed by an action within
+ * the run, the figures of each stretch.
+ */
+function closedForms(laws: readonly Law[], sys: SystemSpec, tr: Trajectory, compiled: ReadonlyArray<(x: ArrayLike<number>) => number>, width: number, rtol: number, atol: Float64Array, timeUnit: DisplayUnit, asTime: (si: number) => Quantity) {
   const out: Record<string, ClosedFormReport> = {};
   const n = laws.length;
   const points = stepPoints(tr);
+  const perTime: DisplayUnit = mulUnits([], timeUnit, -1);
   laws.forEach((l, i) => {
     if (l.reads.some((r) => r === 't' || (r !== l.state && sys.stateIndex.has(r)))) return;
     const x = new Float64Array(width);
@@ -109,20 +114,29 @@ function closedForms(laws: readonly Law[], sys: SystemSpec, tr: Trajectory, comp
     };
     const laws0 = tr.pieces.map((_, k) => lawAt(k));
     if (laws0.some((c) => !c)) return;
-    const first = laws0[0]!;
-    const check = compareWithExact(tr, i, (k) => laws0[k]!, rtol, atol[i]);
-    const perTime: DisplayUnit = mulUnits([], timeUnit, -1);
+    const linear = laws0 as Linear[];
+    const check = compareWithExact(tr, i, (k) => linear[k], rtol, atol[i]);
+    const figures = (c: Linear): LinearFigures => {
+      const f: LinearFigures = { rateConstant: report({ si: c.b, dim: divDim(TIME.map(() => 0), TIME), unit: perTime }) };
+      if (c.b !== 0) {
+        f.timeConstant = report({ si: 1 / Math.abs(c.b), dim: TIME, unit: timeUnit });
+        f[c.b < 0 ? 'halfLife' : 'doublingTime'] = report({ si: Math.LN2 / Math.abs(c.b), dim: TIME, unit: timeUnit });
+        f.equilibrium = report({ ...l.initial, si: -c.a / c.b });
+        f.stable = c.b < 0;
+      }
+      return f;
+    };
+    const { rateConstant, ...rest } = figures(linear[0]);
     const entry: ClosedFormReport = {
       form: `${l.state}' = a + b ${l.state}`,
-      rateConstant: report({ si: first.b, dim: divDim(TIME.map(() => 0), TIME), unit: perTime }),
+      rateConstant,
       maxError: report({ si: check.maxError, dim: l.initial.dim, unit: deltaUnit(l.stateUnit), ...(l.initial.temp ? { temp: 'delta' as const } : {}) }),
       maxErrorInTolerances: tidy(check.maxErrorInTolerances),
+      ...rest,
     };
-    if (first.b !== 0) {
-      entry.timeConstant = report({ si: 1 / Math.abs(first.b), dim: TIME, unit: timeUnit });
-      entry[first.b < 0 ? 'halfLife' : 'doublingTime'] = report({ si: Math.LN2 / Math.abs(first.b), dim: TIME, unit: timeUnit });
-      entry.equilibrium = report({ ...l.initial, si: -first.a / first.b });
-      entry.stable = first.b < 0;
+    const stretches = linearStretches(linear);
+    if (stretches.length > 1) {
+      entry.stretches = stretches.map((s) => ({ from: report(asTime(tr.pieces[s.first].t0)), to: report(asTime(tr.pieces[s.last].t1)), ...figures(s.law) }));
     }
     out[l.state] = entry;
   });

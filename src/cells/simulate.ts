@@ -10,7 +10,7 @@ import type { CellError, GraphNode, Outcome, RunContext, Use } from '../engine/n
 import type { NodeOutput } from '../engine/report.ts';
 import { cellRef } from '../engine/node.ts';
 import { field, usesOf, guarded } from './fields.ts';
-import { type CoreMemo, type Fields, simulateCore } from './simulate-core.ts';
+import { type CoreMemo, type Fields, DEFAULT_RTOL, simulateCore } from './simulate-core.ts';
 import { simulationOutput } from './simulate-report.ts';
 import { runModelNode } from './run-model.ts';
 
@@ -61,11 +61,19 @@ export function simulateNodes(cell: SimulateCell, at: string): Array<GraphNode<N
     allowsTime: true,
     pullsCoupledLaws: true,
     pullsMeasurements: true,
+    accuracy: runAccuracy(cell),
     // the band is drawn from an uncertainty cell's samples: showing it runs nothing here
     signature: JSON.stringify({ ...cell, band: undefined }),
     problems,
     run: (ctx) => guarded(() => runSimulation(cell, at, f, ctx, memo)),
   }, runModelNode(cell, at, f, uses, problems)];
+}
+
+/** A run's answers are good to its relative tolerance (read as the core reads it); a fixed step bounds nothing. */
+function runAccuracy(cell: SimulateCell): number {
+  if (cell.method === 'euler' || cell.method === 'heun' || cell.method === 'rk4') return NaN;
+  const rtol = cell.tolerance?.relative;
+  return typeof rtol === 'number' && rtol > 0 ? rtol : DEFAULT_RTOL;
 }
 
 function runSimulation(cell: SimulateCell, at: string, f: Fields, ctx: RunContext, memo: CoreMemo): Outcome<NodeOutput<'simulate'>> {

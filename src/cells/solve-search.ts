@@ -11,6 +11,8 @@ import { type Quantity, describe, report, valueIn, fromUnit } from '../units/qua
 import { unitFactor } from '../units/units.ts';
 import { rootsInRange } from '../numerics/roots-in-range.ts';
 import { quantitySig } from './signatures.ts';
+import { answerError, slopeAt, supportedDigits } from './solve-digits.ts';
+import { solutionText, SHOWN_DIGITS } from '../study/use-solution.ts';
 
 /** The target at an SI value of the varied name: its quantity, or why it has none there. */
 export type TargetAt = (si: number) => { ok: true; q: Quantity } | { ok: false; reason: string };
@@ -42,8 +44,15 @@ type Out = { ok: true; bindings: Map<string, Binding>; output: NodeOutput<'solve
 /** Grid intervals over [min, max]: 24, each checked for a sign change and for a dip of |target - wanted|. */
 const INTERVALS = 24;
 
-export function searchRange(a: Common & { min: Quantity; max: Quantity; step?: number; guess?: Quantity; reason: () => string | undefined }): Out {
-  const { parameter, present, wanted, targetAt, min, max } = a;
+export function searchRange(a: Common & { min: Quantity; max: Quantity; step?: number; guess?: Quantity; accuracy: number; reason: () => string | undefined }): Out {
+  const { parameter, present, wanted, min, max } = a;
+  // every value of the target seen, for its slope at the answer (solve-digits.ts)
+  const seen: Array<[number, number]> = [];
+  const targetAt: TargetAt = (si) => {
+    const r = a.targetAt(si);
+    if (r.ok) seen.push([si, r.q.si]);
+    return r;
+  };
   const vary = (si: number): Quantity => ({ ...present, si, unit: min.unit });
   const goal = (si: number): Quantity => ({ ...wanted, si });
   const found = rootsInRange((x) => {
@@ -83,6 +92,12 @@ export function searchRange(a: Common & { min: Quantity; max: Quantity; step?: n
       : `; rounded to ${describe(rounded)} the target has no value (${r.reason})`;
   }
   const defined = rounded ?? solution;
+  // the digits the answer is good to, in the unit it is shown in (solve-digits.ts)
+  const shown = report(solution);
+  const width = max.si - min.si;
+  const scale = wanted.si !== 0 ? wanted.si : Math.max(Math.abs(found.low + wanted.si), Math.abs(found.high + wanted.si));
+  const error = answerError(a.accuracy, scale, slopeAt(seen, pick, achieved.si, width), width);
+  const digits = supportedDigits(shown.value, error / unitFactor(solution.unit));
   const several = roots.length > 1
     ? `; ${roots.length} values ${span} meet the target (${roots.map((x) => describe(vary(x))).join(', ')}): the ${a.guess ? `one nearest the guess (${describe(a.guess)})` : 'smallest'} is used`
     : '';
@@ -90,7 +105,8 @@ export function searchRange(a: Common & { min: Quantity; max: Quantity; step?: n
     ok: true,
     bindings: new Map([[a.as, { kind: 'value', q: defined, sig: quantitySig(defined) }]]),
     output: {
-      solution: report(solution),
+      solution: shown,
+      ...(digits !== undefined ? { digits } : {}),
       achieved: report(achieved),
       ...(rounded ? { rounded: report(rounded) } : {}),
       ...(achievedRounded ? { achievedRounded: report(achievedRounded) } : {}),
@@ -98,7 +114,7 @@ export function searchRange(a: Common & { min: Quantity; max: Quantity; step?: n
       targetRange: range,
       ...(gaps.length ? { undefinedIn: gaps } : {}),
       evaluations: a.count(),
-      message: `${parameter} = ${describe(solution)} gives ${a.targetText} = ${describe(achieved)}${roundWords}${several}${gapWords}`,
+      message: `${parameter} = ${solutionText(shown, digits ?? SHOWN_DIGITS)} gives ${a.targetText} = ${describe(achieved)}${roundWords}${several}${gapWords}`,
     },
   };
 }

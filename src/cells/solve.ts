@@ -162,7 +162,7 @@ function runSolve(at: string, parameter: string, as: string, f: SolveFields, ctx
   const roundTo = f.roundTo ? same(finiteQuantityOf(f.roundTo, lookup), f.roundTo.path, 'roundTo') : undefined;
   if (roundTo && !(stepOf(roundTo) > 0)) fail(f.roundTo!.path, `roundTo must be above zero; it is ${describe(roundTo)}`);
   const guess = f.guess ? same(finiteQuantityOf(f.guess, lookup), f.guess.path, 'guess') : undefined;
-  return searchRange({ ...common, min, max, ...(roundTo ? { step: stepOf(roundTo) } : {}), ...(guess ? { guess } : {}), reason: () => firstReason });
+  return searchRange({ ...common, min, max, ...(roundTo ? { step: stepOf(roundTo) } : {}), ...(guess ? { guess } : {}), accuracy: prepared.accuracy, reason: () => firstReason });
 }
 
 /** The size of a rounding step in SI: a temperature written as a reading (`0.5 degC`) counts as a size of degree. */

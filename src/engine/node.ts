@@ -282,6 +282,12 @@ export interface GraphNode<O extends object = object> {
    */
   readonly readsUpstream?: boolean;
   /**
+   * The relative accuracy of the values it defines, where a numeric method bounds it: a run's
+   * relative tolerance (`cells/simulate.ts`); NaN where no tolerance bounds it (a fixed step).
+   * Absent: exact to round-off. A what-if over it reports the loosest (`WhatIf.accuracy`).
+   */
+  readonly accuracy?: number;
+  /**
    * The node may use this many times a cell's work budget (default 1): an uncertainty cell
    * asks for one budget per 1,000 samples, as each sample is a run of part of the study.
    */

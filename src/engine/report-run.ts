@@ -15,17 +15,33 @@ export interface NotReached {
 
 export type FindResult = ReportQuantity | NotReached;
 
-/** The exact solution of a law `a + b·state`, beside the run. */
-export interface ClosedFormReport {
-  form: string;
+/** The figures of one law `a + b·state`: b, and with b ≠ 0 its time constant, half-life or doubling time, equilibrium -a/b and whether it attracts. */
+export interface LinearFigures {
   rateConstant: ReportQuantity;
-  maxError: ReportQuantity;
-  maxErrorInTolerances: number;
   timeConstant?: ReportQuantity;
   halfLife?: ReportQuantity;
   doublingTime?: ReportQuantity;
   equilibrium?: ReportQuantity;
   stable?: boolean;
+}
+
+/** A stretch of the run over which one law holds, from one action that changes the law to the next. */
+export interface ClosedFormStretch extends LinearFigures {
+  from: ReportQuantity;
+  to: ReportQuantity;
+}
+
+/**
+ * The exact solution of a law `a + b·state`, beside the run. Its own figures are those at the
+ * start (the contract's); when an action changes a or b within the run (a `set` of a parameter
+ * the law reads, an infusion), `stretches` gives each stretch's figures, in order, and the
+ * exact solution compared with is the piecewise one.
+ */
+export interface ClosedFormReport extends LinearFigures {
+  form: string;
+  maxError: ReportQuantity;
+  maxErrorInTolerances: number;
+  stretches?: ClosedFormStretch[];
 }
 
 export interface SimulateFields {

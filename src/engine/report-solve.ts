@@ -14,8 +14,15 @@ export interface SolveChoice {
 }
 
 export interface SolveFields {
-  /** The value found (in the unit of `vary.min`, or of the choices). */
+  /** The value found (in the unit of `vary.min`, or of the choices), as computed: the name defined downstream has it whole. */
   solution: ReportQuantity;
+  /**
+   * Over a range: the significant digits of `solution` its accuracy supports (the runs'
+   * tolerance over the target's slope, and the search's own; the rule in `cells/solve-digits.ts`),
+   * the digits the app shows it with and writes it with; absent when nothing bounds the runs'
+   * error (a fixed step).
+   */
+  digits?: number;
   /** The target at the solution (in the unit of `target.equals`). */
   achieved: ReportQuantity;
   /** The solution rounded to a multiple of `vary.roundTo`, and the target there (absent when it has no value there: see `message`). */

@@ -65,6 +65,12 @@ export interface WhatIf {
   readonly replaced: readonly string[];
   /** Keys of the nodes a call runs, in order (`cellId/part`). */
   readonly plan: readonly string[];
+  /**
+   * The relative accuracy of the wanted names as the planned nodes declare it
+   * (`GraphNode.accuracy`): the loosest of them, a run's relative tolerance; 0 when every
+   * planned node is exact to round-off; NaN when one of them has no bound (a fixed step).
+   */
+  readonly accuracy: number;
   /** The wanted names with `values` (SI, one per replaced name) in place. Never throws. Cost: the planned nodes' numeric work. */
   evaluate(values: ArrayLike<number>): WhatIfResult;
 }
@@ -253,7 +259,8 @@ export function prepareWhatIf(view: SessionView, wanted: readonly string[], repl
     });
     return { ok: answers.every((a) => a.ok), values: out, answers, ran: steps.length };
   };
-  return { ok: true, wanted: [...wanted], replaced: names, plan, evaluate };
+  const accuracy = steps.reduce((a, { node }) => (node.accuracy === undefined ? a : Number.isNaN(node.accuracy) || Number.isNaN(a) ? NaN : Math.max(a, node.accuracy)), 0);
+  return { ok: true, wanted: [...wanted], replaced: names, plan, accuracy, evaluate };
 }
 
 /** The binding of a replaced name with a new SI value. */

@@ -2,7 +2,9 @@
  * The report as a readable table for a terminal: one block per cell, quantities aligned. The
  * study-format contract fixes the JSON report (`--json`), not this table; its rows follow the
  * report's fields (a fit's `digits`, a Ratebook addition, in words beside its number), each figure
- * to 6 significant digits (a run's error against the exact solution to 2), counts whole.
+ * to 6 significant digits (a run's error against the exact solution to 2, a solve's answer to
+ * the digits it is good to), counts whole; a run's exact solution stretch by stretch a row per
+ * stretch.
  */
 import type { CellReport, Report } from '../engine/report.ts';
 import { formatNumber } from '../units/quantity.ts';
@@ -55,8 +57,12 @@ function formatCell(cell: CellReport): string[] {
       for (const n of csv.notes ?? []) rows.push(['csv', n]);
       for (const p of csv.problems ?? []) rows.push([`row ${p.row}`, `line ${p.line} "${p.text}": ${p.message}`]);
     } else if (key === 'digits' && typeof value === 'number') {
-      // a fit's digits (a Ratebook addition to the report): said in words, the number first
-      rows.push(['digits', `${value} (significant digits of every estimate the fit vouches for)`]);
+      // a fit's or a solve's digits (a Ratebook addition to the report): said in words, the number first
+      rows.push(['digits', cell.kind === 'solve' ? `${value} (significant digits of the solution its accuracy supports)` : `${value} (significant digits of every estimate the fit vouches for)`]);
+    } else if (cell.kind === 'solve' && (key === 'solution' || key === 'solutions') && typeof cell.digits === 'number') {
+      // a solve's answer to the digits it is good to, as the solve cell shows it
+      const qs = (Array.isArray(value) ? value : [value]).filter(isQuantity);
+      rows.push([key, qs.map((q) => showQuantity(q, cell.digits as number)).join(', ')]);
     } else if (key === 'notes' && Array.isArray(value)) {
       for (const n of value) rows.push(['note', String(n)]);
     } else {
@@ -80,7 +86,14 @@ function showNumber(key: string, x: number): string {
 }
 
 function collect(key: string, value: unknown, rows: Array<[string, string]>): void {
-  if (isQuantity(value)) {
+  if (/\.stretches$/.test(key) && Array.isArray(value)) {
+    // a run's exact solution stretch by stretch: a row each, its figures in order
+    value.forEach((s: Record<string, unknown>, i) => {
+      const figures = Object.entries(s).filter(([k]) => k !== 'from' && k !== 'to')
+        .map(([k, v]) => `${k} ${isQuantity(v) ? showQuantity(v) : String(v)}`);
+      rows.push([`${key}[${i}]`, `from ${showQuantity(s.from as Q)} to ${showQuantity(s.to as Q)}: ${figures.join(', ')}`]);
+    });
+  } else if (isQuantity(value)) {
     rows.push([key, showQuantity(value, digitsFor(key))]);
   } else if (typeof value === 'number') {
     rows.push([key, showNumber(key, value)]);

@@ -36,6 +36,34 @@ export function linearCoefficients(f: (y: number) => number, y0: number, scale: 
   return { a: Math.abs(a) <= ROUNDING_TOLERANCE * size ? 0 : a, b };
 }
 
+/** Two laws with the same coefficients, to the relative size below which a law counts as linear. */
+function sameLinear(p: Linear, q: Linear): boolean {
+  const close = (x: number, y: number) => Math.abs(x - y) <= LINEAR_TOLERANCE * Math.max(Math.abs(x), Math.abs(y));
+  return close(p.a, q.a) && close(p.b, q.b);
+}
+
+/** A stretch of a run over which one law holds: pieces `first` to `last` (the run stops at every action), and the law. */
+export interface LinearStretch {
+  readonly first: number;
+  readonly last: number;
+  readonly law: Linear;
+}
+
+/**
+ * The run's pieces grouped into stretches of one law: consecutive pieces whose coefficients
+ * are the same (a dose between them changes the state, not the law) make one stretch; a `set`
+ * of a parameter the law reads, or an infusion starting or stopping, begins another.
+ */
+export function linearStretches(laws: readonly Linear[]): LinearStretch[] {
+  const out: LinearStretch[] = [];
+  laws.forEach((law, k) => {
+    const open = out[out.length - 1];
+    if (open && sameLinear(open.law, law)) out[out.length - 1] = { ...open, last: k };
+    else out.push({ first: k, last: k, law });
+  });
+  return out;
+}
+
 /** The exact value at time dt into a piece that starts at y0 with y' = a + b y. */
 function exactAfter(law: Linear, y0: number, dt: number): number {
   if (law.b === 0) return y0 + law.a * dt;

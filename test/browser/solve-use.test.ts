@@ -36,7 +36,8 @@ describe('solve cell: use the answer, and undo', () => {
     this.timeout(30_000);
     const button = useButton(view)!;
     expect(button.textContent!.trim()).to.equal('Set dose to 1500 mg');
-    expect(deep(view.shadowRoot!, 'solve-cell')[0].shadowRoot!.textContent!.replace(/\s+/g, ' ')).to.match(/dose = 1450\.17 mg gives trough = 12\.5 mg \/ L/);
+    // closed form 1450.171 mg: shown to the 5 digits the run's tolerance supports (test/engine/solve-digits.test.ts)
+    expect(deep(view.shadowRoot!, 'solve-cell')[0].shadowRoot!.textContent!.replace(/\s+/g, ' ')).to.match(/dose = 1450\.2 mg gives trough = 12\.5 mg \/ L/);
     button.click();
     expect(doseText(view)).to.equal('1500 mg');
     // the run follows: its trough is the one at the rounded dose
@@ -58,3 +59,32 @@ describe('solve cell: use the answer, and undo', () => {
     await until(() => doseText(view) === '1500 mg', 'the dose set again by Ctrl+Y');
   });
 });
+
+/** The same study without rounding: the answer is written as the cell shows it. */
+const UNROUNDED: Study = structuredClone(STUDY);
+delete (UNROUNDED.cells[3] as { vary: { roundTo?: string } }).vary.roundTo;
+
+describe('solve cell: use an answer that is not rounded', () => {
+  let view: StudyView;
+  beforeEach(async function () {
+    this.timeout(30_000);
+    view = await mountStudy(UNROUNDED);
+    await until(() => useButton(view), 'the answer and its button', 20_000);
+  });
+  afterEach(() => view.remove());
+
+  it('shows the answer to the digits it is good to, and the button writes exactly that text', async function () {
+    this.timeout(30_000);
+    const cell = deep(view.shadowRoot!, 'solve-cell')[0].shadowRoot!;
+    const shown = cell.querySelector('p.answer .result')!.textContent!.trim();
+    // closed form (one-compartment boluses, superposition): 1450.171 mg; the run's tolerance 1e-6, 10 units, supports 5 digits
+    expect(shown).to.equal('1450.2 mg');
+    const button = useButton(view)!;
+    expect(button.textContent!.trim()).to.equal(`Set dose to ${shown}`);
+    expect(cell.textContent!.replace(/\s+/g, ' ')).to.contain('shown to the 5 significant digits');
+    expect(cell.textContent!.replace(/\s+/g, ' ')).to.contain('give "Round to"');
+    button.click();
+    expect(doseText(view)).to.equal(shown);
+  });
+});
+

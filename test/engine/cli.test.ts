@@ -147,10 +147,12 @@ describe('ratebook run: a solve cell', () => {
     const text = run(['run', 's.json'], { 's.json': study });
     assert.equal(text.code, 0);
     assert.match(text.out, /\[ok\] s \(solve\)/);
-    assert.match(text.out, new RegExp(`solution +${exact.toPrecision(6).replace('.', '\\.')} g`));
-    assert.match(text.out, /rounded +2\.5 g/); // hand-worked: 2.339 g to the nearest 0.5 g
     const json = run(['run', 's.json', '--json'], { 's.json': study });
     const s = JSON.parse(json.out).cells[3];
+    // the table shows the solution to the digits its accuracy supports (5 at the default tolerance), each one the closed form's
+    assert.equal(s.digits, 5);
+    assert.match(text.out, new RegExp(`solution +${exact.toPrecision(s.digits).replace('.', '\\.')} g`));
+    assert.match(text.out, /rounded +2\.5 g/); // hand-worked: 2.339 g to the nearest 0.5 g
     assert.ok(Math.abs(s.solution.value - exact) <= 1e-5 * exact);
     assert.equal(s.rounded.value, 2.5);
     assert.ok(s.evaluations > 0);

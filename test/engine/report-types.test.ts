@@ -75,7 +75,7 @@ const DECLARED = {
   data: ['columns', 'rowCount', 'missing', 'note', 'csv'],
   fit: ['estimates', 'objective', 'bayesian', 'errorModel', 'residualSD', 'n', 'dof', 'iterations', 'evaluations', 'digits', 'converged', 'message', 'correlation', 'warnings', 'residuals', 'residualFloor', 'summary', 'plot'],
   nca: ['values', 'pointsUsed', 'note', 'warnings'],
-  solve: ['solution', 'achieved', 'rounded', 'achievedRounded', 'solutions', 'targetRange', 'undefinedIn', 'choices', 'evaluations', 'message'],
+  solve: ['solution', 'digits', 'achieved', 'rounded', 'achievedRounded', 'solutions', 'targetRange', 'undefinedIn', 'choices', 'evaluations', 'message'],
   uncertainty: ['method', 'results', 'inputs', 'samples', 'seed', 'failed', 'failedReason', 'evaluations', 'notes', 'summary', 'bands', 'warnings'],
   note: [],
   sensitivity: ['results', 'ranking', 'accuracy', 'accuracyWords', 'evaluations', 'summary'],

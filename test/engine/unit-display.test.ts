@@ -81,8 +81,10 @@ describe('ratebook run --json on every template', () => {
           // residualFloor is the size of a plot's axis, not a result, and came after the snapshot;
           // so did meanSE, a Monte Carlo mean's standard error (sd / sqrt(n): uncertainty-precision.test.ts),
           // and sdSE and percentiles, the SD's standard error and each percentile's interval and
-          // standard uncertainty from order statistics (order-statistics.test.ts), sampling-error figures too
-          else if (k !== 'plot' && k !== 'series' && k !== 'residualFloor' && k !== 'meanSE' && k !== 'sdSE' && k !== 'percentiles') walk(x, `${path}.${k}`);
+          // standard uncertainty from order statistics (order-statistics.test.ts), sampling-error figures too;
+          // and stretches, a run's exact solution stretch by stretch where an action changes its law
+          // (closed-form-stretches.test.ts: against the closed form of two-stage Newton cooling)
+          else if (k !== 'plot' && k !== 'series' && k !== 'residualFloor' && k !== 'meanSE' && k !== 'sdSE' && k !== 'percentiles' && k !== 'stretches') walk(x, `${path}.${k}`);
         }
       };
       // the cells' quantities (a later `glance` repeats some of them; the snapshot predates it)
