@@ -1,5 +1,5 @@
 import { html, nothing, css, unsafeCSS } from 'lit';
-import type { ParameterValue } from '../../src/index.ts';
+import type { ParameterValue, SpreadSetAside } from '../../src/index.ts';
 import { cellStyles, footError, NARROW_PX, showQ, showValue } from './common.ts';
 import { CellElement } from './cell-element.ts';
 import '../expr-field.ts';
@@ -35,7 +35,15 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     .range.spread { flex-wrap: wrap; }
     .spread-note { font-size: 0.8rem; color: #5c3400; border-left: 3px solid #a85d00; background: #fff6e8; padding: 0.15rem 0.4rem; margin-top: 0.2rem; max-width: 22rem; }
     .range.spread select { max-width: 100%; }
+    .range.spread .lbl { min-width: 0; }
+    .set-aside { font-size: 0.8rem; max-width: 26rem; }
   `];
+
+  /**
+   * Each parameter's spread figures set aside when another distribution was chosen, by the
+   * parameter's name (a renamed parameter starts afresh): the page's memory, not the study's.
+   */
+  private setAside = new Map<string, SpreadSetAside>();
 
   override render() {
     const claims = this.claims;
@@ -76,14 +84,18 @@ export class ParametersCellElement extends CellElement<'parameters'> {
 
   /**
    * Under a value, behind "more": the slider's range (two expressions, low and high; both
-   * blank removes it) and whether the value is listed at a glance. Open when either is set.
+   * blank removes it), the spread, and whether the value is listed at a glance. Open when one
+   * is set, or once the user opened it.
    */
   private more(j: number) {
     const item = this.cell.items[j];
     const who = item.name || `parameter ${j + 1}`;
     const [lo, hi] = Array.isArray(item.range) ? item.range : ['', ''];
     const claims = this.claims;
-    return html`<details class="more" ?open=${item.range !== undefined || item.glance !== undefined || item.spread !== undefined}><summary>Slider range, spread, at a glance</summary>
+    // open when one is set, and kept open once opened: removing the spread from its select (the
+    // keyboard's arrows choose "none" on their way) must not close it on the focused select
+    const open = item.range !== undefined || item.glance !== undefined || item.spread !== undefined || this.opened.has(item.name);
+    return html`<details class="more" ?open=${open} @toggle=${(e: Event) => this.noteOpen(item.name, (e.target as HTMLDetailsElement).open)}><summary>Slider range, spread, at a glance</summary>
       <div class="range">
         <expr-field data-field="items[${j}].range" label="Slider range of ${who}: low end" .value=${lo ?? ''} .names=${this.names}
           .error=${claims.take(`.items[${j}].range[0]`) ?? claims.take(`.items[${j}].range`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setRange(j, 0, e.detail.value)}></expr-field>
@@ -92,11 +104,22 @@ export class ParametersCellElement extends CellElement<'parameters'> {
           .error=${claims.take(`.items[${j}].range[1]`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setRange(j, 1, e.detail.value)}></expr-field>
       </div>
       ${item.range === undefined ? html`<div class="muted">No range: no slider. Give both ends to drag the value between them.</div>` : nothing}
-      ${spreadFields(item, j, who, claims, this.names, (spread, key) => this.change(j, { spread }, key))}
+      ${spreadFields(item, j, who, claims, this.names, this.setAside.get(item.name) ?? {}, (spread, key, aside) => {
+        this.setAside.set(item.name, aside);
+        this.change(j, { spread }, key);
+      })}
       <label><input type="checkbox" data-field="items[${j}].glance" .checked=${item.glance === true}
         @change=${(e: Event) => this.change(j, { glance: (e.target as HTMLInputElement).checked || undefined }, `glance${j}`)} /> List ${who} among the results at a glance</label>
       ${footError(claims.take(`.items[${j}].glance`))}
     </details>`;
+  }
+
+  /** Which parameters' "more" is open on the page, by name. */
+  private opened = new Set<string>();
+
+  private noteOpen(name: string, open: boolean) {
+    if (open) this.opened.add(name);
+    else this.opened.delete(name);
   }
 
   /** Sets one end of the slider's range; with both ends blank the range is removed. */
