@@ -286,6 +286,12 @@ export interface GraphNode<O extends object = object> {
    * asks for one budget per 1,000 samples, as each sample is a run of part of the study.
    */
   readonly workScale?: number;
+  /**
+   * What to make smaller when the node's work budget runs out, in words after "its limit; "
+   * (`engine/budget.ts`); by default a run's own knobs (its span, tolerance, step, sweeps,
+   * repeats). An uncertainty cell's Monte Carlo names its samples.
+   */
+  readonly workAdvice?: string;
   /** Said after the message of each node on a cycle through this node: why such a cycle arises and the way out. */
   readonly cycleHint?: string;
   /** Fails too with the problems the document check found in its cell (which go to a cell's first node). */
