@@ -62,9 +62,17 @@ export class CellElement<K extends CellKind> extends LitElement {
     this.replace({ ...this.cell, ...patch }, key);
   }
 
-  /** Asks to replace the cell by `cell` (for edits that remove a field). */
+  /**
+   * Asks to replace the cell by `cell` (for edits that remove a field). The element takes the
+   * cell at once: the study view draws a typing edit again only with the engine's answer, and
+   * an edit in another field before then must build on this one (built on the cell last drawn,
+   * a note typed right after a value wrote the old value back). The view's next drawing gives
+   * the document's cell, which holds this edit (or an undo of it).
+   */
   protected replace(cell: CellDoc<K>, key?: string): void {
-    this.dispatchEvent(editEvent(cell, key ? `${this.cell.id}:${key}` : undefined));
+    const mergeKey = key ? `${this.cell.id}:${key}` : undefined;
+    this.cell = cell;
+    this.dispatchEvent(editEvent(cell, mergeKey));
   }
 
   /** What to focus once a render shows it, and the time after which it is no longer awaited. */
