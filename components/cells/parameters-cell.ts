@@ -32,10 +32,14 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     details.more summary { cursor: pointer; font-size: 0.8rem; color: #3b4650; }
     .range { display: flex; gap: 0.3rem; align-items: center; margin: 0.25rem 0; }
     .range expr-field { min-width: 5rem; }
-    .range.spread { flex-wrap: wrap; }
+    .range.spread { flex-wrap: wrap; align-items: flex-start; }
+    .range.spread > label { padding-top: 0.3rem; }
     .spread-note { font-size: 0.8rem; color: #5c3400; border-left: 3px solid #a85d00; background: #fff6e8; padding: 0.15rem 0.4rem; margin-top: 0.2rem; max-width: 22rem; }
     .range.spread select { max-width: 100%; }
+    /* each figure keeps its label beside it (the row wraps between figures); the label on the field's first line when an error grows it */
     .range.spread .lbl { min-width: 0; }
+    .range.spread .figure { display: inline-flex; gap: 0.3rem; align-items: baseline; }
+    .range.spread .figure .lbl { padding-top: 0.55rem; align-self: flex-start; }
     .set-aside { font-size: 0.8rem; max-width: 26rem; }
   `];
 

@@ -33,9 +33,9 @@ export function spreadFields(item: ParameterItem, j: number, who: string, claims
         ${CHOICES.map(([v, l]) => html`<option value=${v} ?selected=${(s?.distribution ?? '') === v}>${l}</option>`)}
         ${s && !CHOICES.some(([v]) => v === s.distribution) ? html`<option selected value=${String(s.distribution)}>${String(s.distribution)}</option>` : nothing}
       </select></label>
-      ${s?.distribution === 'normal' ? html`<span class="lbl">SD</span>${figure('sd', `SD of ${who}`)}` : nothing}
-      ${s?.distribution === 'lognormal' ? html`<span class="lbl">CV</span>${figure('cv', `CV of ${who} (0.15 or 15%)`)}<span class="muted">the value is the median</span>` : nothing}
-      ${s?.distribution === 'uniform' ? html`<span class="lbl">from</span>${figure('from', `Lowest value of ${who}`)}<span class="lbl">to</span>${figure('to', `Highest value of ${who}`)}` : nothing}
+      ${s?.distribution === 'normal' ? html`<span class="figure"><span class="lbl">SD</span>${figure('sd', `SD of ${who}`)}</span>` : nothing}
+      ${s?.distribution === 'lognormal' ? html`<span class="figure"><span class="lbl">CV</span>${figure('cv', `CV of ${who} (0.15 or 15%)`)}</span><span class="muted">the value is the median</span>` : nothing}
+      ${s?.distribution === 'uniform' ? html`<span class="figure"><span class="lbl">from</span>${figure('from', `Lowest value of ${who}`)}</span><span class="figure"><span class="lbl">to</span>${figure('to', `Highest value of ${who}`)}</span>` : nothing}
     </div>
     ${kept ? html`<div class="muted set-aside" role="note">${kept}</div>` : nothing}
     ${footError(claims.take(`.${at}.distribution`) ?? claims.take(`.${at}`))}`;
