@@ -39,7 +39,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     /* each figure keeps its label beside it (the row wraps between figures); the label on the field's first line when an error grows it */
     .range.spread .lbl { min-width: 0; }
     .range.spread .figure { display: inline-flex; gap: 0.3rem; align-items: baseline; }
-    .range.spread .figure .lbl { padding-top: 0.55rem; align-self: flex-start; }
+    .range.spread .figure .lbl { padding-top: 0.55rem; align-self: flex-start; flex: none; }
     .set-aside { font-size: 0.8rem; max-width: 26rem; }
   `];
 
