@@ -54,8 +54,9 @@ function monteCarloAdvice(cell: UncertaintyCell, bands: number): string {
 /** The cell's node; `cells` (the study) says which runs show a band from its samples (`buildContext` in cells/index.ts). */
 export function uncertaintyNodes(cell: UncertaintyCell, at: string, cells: readonly Cell[] = []): Array<GraphNode<NodeOutput<'uncertainty'>>> {
   const of = Array.isArray(cell.of) ? cell.of.filter((n): n is string => typeof n === 'string') : [];
-  // each name is read even when it has no value now: a sample may give it one
-  const uses: Use[] = of.map((name, i) => ({ name, path: `${at}.of[${i}]`, optional: true }));
+  // each name is read even when it has no value now: a sample may give it one; but not when
+  // an error upstream took it away, which no sample mends: the cell waits on that error
+  const uses: Use[] = of.map((name, i) => ({ name, path: `${at}.of[${i}]`, optional: true, waitsOnError: true }));
   // the runs whose band it draws: their models (a run answering a name here adds no cycle)
   const bands = cell.method === 'linear' ? [] : bandRuns(of, cells);
   for (const run of bands) uses.push({ name: cellRef(run), path: `${at}.of`, optional: true });

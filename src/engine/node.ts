@@ -97,6 +97,13 @@ export interface Use {
   readonly readsStates?: boolean;
   /** The node runs without it when it is unavailable (it reads it only to show it). */
   readonly optional?: boolean;
+  /**
+   * With `optional`: the node still waits when the name's definer failed with an error (a
+   * problem of its own, or a wait whose cause is one), and runs without it only when the name
+   * was left undefined with a reason another value may change (a crossing not reached): an
+   * uncertainty cell's names, whose samples cannot mend a bad input upstream.
+   */
+  readonly waitsOnError?: boolean;
 }
 
 /** What a name is bound to after its node ran. `sig` decides whether it changed. */
