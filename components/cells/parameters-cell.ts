@@ -157,7 +157,9 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     const used = new Set(this.cell.items.map((i) => i.name));
     let n = this.cell.items.length + 1;
     while (used.has(`p${n}`)) n++;
+    const j = this.cell.items.length;
     this.edit({ items: [...this.cell.items, { name: `p${n}`, value: '1' }] });
+    this.focusWhenShown(`input[data-field="items[${j}].name"]`);
   };
 
   private removeItem(j: number) {

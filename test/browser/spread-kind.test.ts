@@ -63,6 +63,15 @@ describe('changing the distribution of a spread', () => {
     await until(() => JSON.stringify(view.controller.study) === before, 'one undo back to the study as it was');
   });
 
+  it('Add a parameter by keyboard puts focus in its name, ready to type (it stayed on the button)', async function () {
+    this.timeout(30_000);
+    const add = [...params().shadowRoot!.querySelectorAll('button')].find((b) => b.textContent === 'Add a parameter') as HTMLButtonElement;
+    add.focus();
+    await sendKeys({ press: 'Enter' });
+    await until(() => (view.controller.study!.cells[0] as Extract<Cell, { kind: 'parameters' }>).items.length === 3, 'a third parameter');
+    await until(() => params().shadowRoot!.activeElement?.getAttribute('data-field') === 'items[2].name', 'focus in the new parameter\'s name');
+  });
+
   it('a CV typed for log-normal and a range for uniform come back too; choosing none keeps them aside, said under the select', async function () {
     this.timeout(30_000);
     select().focus();
