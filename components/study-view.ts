@@ -212,7 +212,13 @@ export class StudyView extends LitElement {
       <header class="cell">
         <span class="kind">${info.label}</span>
         ${wrapField({ cls: 'cell-title', field: 'title', label: `Title of cell ${cell.id}`, placeholder: cell.id, value: cell.title ?? '',
-          onInput: (t) => { const { title: _t, ...rest } = cell; c.edit({ type: 'replace', cell: t ? { ...rest, title: t } : rest }, `${cell.id}:title`); } })}
+          onInput: (t) => {
+            // the cell as the document has it now (a field typed just before is not drawn yet), and
+            // drawn at once with its title, so the cell's element builds its next edit on it
+            const { title: _t, ...rest } = c.study?.cells.find((x) => x.id === cell.id) ?? cell;
+            c.edit({ type: 'replace', cell: t ? { ...rest, title: t } : rest }, `${cell.id}:title`);
+            this.requestUpdate();
+          } })}
         <span class="state ${pending ? 'idle' : failed ? 'bad' : idle ? 'idle' : ''}">${pending ? 'updating…' : !r ? '' : failed ? (r.waitsOn ? 'waiting' : 'error') : idle ? 'not computed yet' : c.busy && c.rerun.includes(cell.id) ? 'recomputing…' : ''}</span>
         <span class="tools">
           <button aria-label="Move ${cell.id} up" ?disabled=${i === 0} @click=${() => c.edit({ type: 'move', id: cell.id, to: i - 1 })}>↑</button>

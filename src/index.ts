@@ -11,6 +11,7 @@ export type { SensitivityCell, CompareCell, CompareScenario } from './study/type
 export type { SensitivityEntry, SensitivityFields, CompareFields, ComparePlot, CompareScenarioReport } from './engine/report-scenarios.ts';
 export { CELL_KINDS, CURRENT_VERSION, FORMAT, PLOT_SCALES } from './study/types.ts';
 export { FIND_KINDS, findKindOf, needsLevel, switchFind, withFindState, withFindUnit, withFindField, freshFindName, type FindKind, type FindOption, type FindQuery } from './study/find-rules.ts';
+export { SPREAD_FIGURES, switchSpread, setAsideWords, type SpreadSetAside } from './study/spread-rules.ts';
 export { EVENT_ACTIONS, eventActionOf, eventTarget, withTarget, eventTargets, withTargetAt, withoutTargetAt, switchAction, withEventField, type EventAction, type ScheduleEvent } from './study/event-rules.ts';
 export type {
   Report, CellReport, ReportOf, ReportBase, ReportQuantity, CellFields, ParameterValue, PhaseEquilibrium, PhaseInterval,

@@ -1,12 +1,13 @@
 /**
  * The base of the cell elements: the cell, its report and the whole report as properties, the
- * study's names, the cell's errors by field for each render, and the `cell-edit` event. A
- * cell element extends it and only renders.
+ * study's names, the cell's errors by field for each render, the `cell-edit` event, and focus
+ * moved to what an add button made once it is drawn. A cell element extends it and only renders.
  */
-import { LitElement, html, type PropertyDeclarations } from 'lit';
+import { LitElement, html, type PropertyDeclarations, type PropertyValues } from 'lit';
 import type { Cell, CellKind, ReportOf, Report } from '../../src/index.ts';
 import { cellStyles, editEvent, ErrorClaims, namesOf } from './common.ts';
 import type { StudyName } from '../expr-field.ts';
+import { focusFirstField } from '../focus-first.ts';
 
 /** The document of a cell of kind K. */
 export type CellDoc<K extends CellKind> = Extract<Cell, { kind: K }>;
@@ -61,9 +62,39 @@ export class CellElement<K extends CellKind> extends LitElement {
     this.replace({ ...this.cell, ...patch }, key);
   }
 
-  /** Asks to replace the cell by `cell` (for edits that remove a field). */
+  /**
+   * Asks to replace the cell by `cell` (for edits that remove a field). The element takes the
+   * cell at once: the study view draws a typing edit again only with the engine's answer, and
+   * an edit in another field before then must build on this one (built on the cell last drawn,
+   * a note typed right after a value wrote the old value back). The view's next drawing gives
+   * the document's cell, which holds this edit (or an undo of it).
+   */
   protected replace(cell: CellDoc<K>, key?: string): void {
-    this.dispatchEvent(editEvent(cell, key ? `${this.cell.id}:${key}` : undefined));
+    const mergeKey = key ? `${this.cell.id}:${key}` : undefined;
+    this.cell = cell;
+    this.dispatchEvent(editEvent(cell, mergeKey));
+  }
+
+  /** What to focus once a render shows it, and the time after which it is no longer awaited. */
+  private focusNext?: { readonly selector: string; readonly until: number };
+
+  /**
+   * Moves focus, once the cell is drawn with the edit just asked for, into the first field of
+   * the element matching `selector` in the cell: after an add button (a scenario, a value, a
+   * name), the keyboard goes on in what was added, not on the button below it. Given up after
+   * 10 s (an edit that never came back).
+   */
+  protected focusWhenShown(selector: string): void {
+    this.focusNext = { selector, until: performance.now() + 10_000 };
+  }
+
+  protected override updated(changed: PropertyValues): void {
+    super.updated(changed);
+    const next = this.focusNext;
+    if (!next) return;
+    const el = this.shadowRoot?.querySelector(next.selector);
+    if (el || performance.now() > next.until) this.focusNext = undefined;
+    if (el) void focusFirstField(el);
   }
 
   /** At the cell's foot: what it waits on, once, and the errors no field took, each with its place in words. */

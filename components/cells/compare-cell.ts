@@ -15,7 +15,8 @@ import '../plots/time-plot.ts';
 export class CompareCellElement extends CellElement<'compare'> {
   static override styles = [cellStyles, css`
     fieldset.scenario { border: 1px solid #d5dbe0; border-radius: 6px; margin: 0.4rem 0; padding: 0.3rem 0.6rem; min-width: 0; }
-    span.set select { min-width: 0; max-width: 9rem; }
+    /* the select keeps the width of its names (shrunk, it showed only its arrow); a long name is cut at 9rem */
+    span.set select { flex: none; max-width: 9rem; }
     fieldset.scenario legend { font-size: 0.85rem; color: #3b4650; padding: 0 0.3rem; }
     span.set { display: inline-flex; align-items: center; gap: 0.3rem; flex-wrap: nowrap; max-width: 100%; }
     expr-field.set-value { flex: 0 1 10rem; min-width: 6rem; }
@@ -77,7 +78,7 @@ export class CompareCellElement extends CellElement<'compare'> {
       </div>
       <div class="row">
         ${entries.length ? nothing : html`<span class="muted">Sets nothing: the run as the study stands.</span>`}
-        ${entries.map(([name, value], k) => html`<span class="set">
+        ${entries.map(([name, value], k) => html`<span class="set" data-entry="${j}/${name}">
           <select data-field="${path}.set" aria-label="Scenario ${label}: value ${k + 1} to set"
             @change=${(e: Event) => this.renameEntry(all, j, name, (e.target as HTMLSelectElement).value)}>
             ${(options.includes(name) ? options : [name, ...options]).filter((o) => o === name || !(o in set)).map((o) => html`<option value=${o} ?selected=${o === name}>${o}</option>`)}
@@ -114,19 +115,21 @@ export class CompareCellElement extends CellElement<'compare'> {
     this.edit({ scenarios: all.map((s, k) => (k === j ? next : s)) }, key);
   }
 
-  /** A new scenario: a name not used yet, setting nothing (the run as it stands) until a value is added. */
+  /** A new scenario: a name not used yet, setting nothing (the run as it stands) until a value is added; focus goes to its name. */
   private addScenario(all: readonly CompareScenario[]): void {
     let n = all.length + 1;
     while (all.some((s) => s?.name === `scenario_${n}`)) n++;
     this.edit({ scenarios: [...all, { name: `scenario_${n}`, set: {} }] });
+    this.focusWhenShown(`input[data-field="scenarios[${all.length}].name"]`);
   }
 
-  /** Sets the first parameter the scenario does not set yet, to the value the study gives it now (so nothing changes until it is edited). */
+  /** Sets the first parameter the scenario does not set yet, to the value the study gives it now (so nothing changes until it is edited); focus goes to that value. */
   private addEntry(all: readonly CompareScenario[], j: number, options: readonly string[]): void {
     const s = all[j];
     const name = options.find((o) => !(o in (s.set ?? {})));
     if (name === undefined) return;
     this.setScenario(all, j, { ...s, set: { ...(s.set ?? {}), [name]: this.written(name) } });
+    this.focusWhenShown(`span.set[data-entry="${CSS.escape(`${j}/${name}`)}"] expr-field`);
   }
 
   /** Another name for an entry, keeping its value and its place. */

@@ -1,5 +1,5 @@
 import { html, nothing, css, unsafeCSS } from 'lit';
-import type { ParameterValue } from '../../src/index.ts';
+import type { ParameterValue, SpreadSetAside } from '../../src/index.ts';
 import { cellStyles, footError, NARROW_PX, showQ, showValue } from './common.ts';
 import { CellElement } from './cell-element.ts';
 import '../expr-field.ts';
@@ -39,9 +39,15 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     details.more summary { cursor: pointer; font-size: 0.8rem; color: #3b4650; }
     .range { display: flex; gap: 0.3rem; align-items: center; margin: 0.25rem 0; }
     .range expr-field { min-width: 5rem; }
-    .range.spread { flex-wrap: wrap; }
+    .range.spread { flex-wrap: wrap; align-items: flex-start; }
+    .range.spread > label { padding-top: 0.3rem; }
     .spread-note { font-size: 0.8rem; color: #5c3400; border-left: 3px solid #a85d00; background: #fff6e8; padding: 0.15rem 0.4rem; margin-top: 0.2rem; max-width: 22rem; }
     .range.spread select { max-width: 100%; }
+    /* each figure keeps its label beside it (the row wraps between figures); the label on the field's first line when an error grows it */
+    .range.spread .lbl { min-width: 0; }
+    .range.spread .figure { display: inline-flex; gap: 0.3rem; align-items: baseline; }
+    .range.spread .figure .lbl { padding-top: 0.55rem; align-self: flex-start; flex: none; }
+    .set-aside { font-size: 0.8rem; max-width: 26rem; }
   `];
 
   protected override willUpdate(): void {
@@ -61,6 +67,12 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     this.nameChars(Math.max(name.length, ...others));
     this.change(j, { name }, `name${j}`);
   }
+
+  /**
+   * Each parameter's spread figures set aside when another distribution was chosen, by the
+   * parameter's name (a renamed parameter starts afresh): the page's memory, not the study's.
+   */
+  private setAside = new Map<string, SpreadSetAside>();
 
   override render() {
     const claims = this.claims;
@@ -101,14 +113,18 @@ export class ParametersCellElement extends CellElement<'parameters'> {
 
   /**
    * Under a value, behind "more": the slider's range (two expressions, low and high; both
-   * blank removes it) and whether the value is listed at a glance. Open when either is set.
+   * blank removes it), the spread, and whether the value is listed at a glance. Open when one
+   * is set, or once the user opened it.
    */
   private more(j: number) {
     const item = this.cell.items[j];
     const who = item.name || `parameter ${j + 1}`;
     const [lo, hi] = Array.isArray(item.range) ? item.range : ['', ''];
     const claims = this.claims;
-    return html`<details class="more" ?open=${item.range !== undefined || item.glance !== undefined || item.spread !== undefined}><summary>Slider range, spread, at a glance</summary>
+    // open when one is set, and kept open once opened: removing the spread from its select (the
+    // keyboard's arrows choose "none" on their way) must not close it on the focused select
+    const open = item.range !== undefined || item.glance !== undefined || item.spread !== undefined || this.opened.has(item.name);
+    return html`<details class="more" ?open=${open} @toggle=${(e: Event) => this.noteOpen(item.name, (e.target as HTMLDetailsElement).open)}><summary>Slider range, spread, at a glance</summary>
       <div class="range">
         <expr-field data-field="items[${j}].range" label="Slider range of ${who}: low end" .value=${lo ?? ''} .names=${this.names}
           .error=${claims.take(`.items[${j}].range[0]`) ?? claims.take(`.items[${j}].range`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setRange(j, 0, e.detail.value)}></expr-field>
@@ -117,11 +133,22 @@ export class ParametersCellElement extends CellElement<'parameters'> {
           .error=${claims.take(`.items[${j}].range[1]`)} @expr-input=${(e: CustomEvent<{ value: string }>) => this.setRange(j, 1, e.detail.value)}></expr-field>
       </div>
       ${item.range === undefined ? html`<div class="muted">No range: no slider. Give both ends to drag the value between them.</div>` : nothing}
-      ${spreadFields(item, j, who, claims, this.names, (spread, key) => this.change(j, { spread }, key))}
+      ${spreadFields(item, j, who, claims, this.names, this.setAside.get(item.name) ?? {}, (spread, key, aside) => {
+        this.setAside.set(item.name, aside);
+        this.change(j, { spread }, key);
+      })}
       <label><input type="checkbox" data-field="items[${j}].glance" .checked=${item.glance === true}
         @change=${(e: Event) => this.change(j, { glance: (e.target as HTMLInputElement).checked || undefined }, `glance${j}`)} /> List ${who} among the results at a glance</label>
       ${footError(claims.take(`.items[${j}].glance`))}
     </details>`;
+  }
+
+  /** Which parameters' "more" is open on the page, by name. */
+  private opened = new Set<string>();
+
+  private noteOpen(name: string, open: boolean) {
+    if (open) this.opened.add(name);
+    else this.opened.delete(name);
   }
 
   /** Sets one end of the slider's range; with both ends blank the range is removed. */
@@ -155,7 +182,9 @@ export class ParametersCellElement extends CellElement<'parameters'> {
     const used = new Set(this.cell.items.map((i) => i.name));
     let n = this.cell.items.length + 1;
     while (used.has(`p${n}`)) n++;
+    const j = this.cell.items.length;
     this.edit({ items: [...this.cell.items, { name: `p${n}`, value: '1' }] });
+    this.focusWhenShown(`input[data-field="items[${j}].name"]`);
   };
 
   private removeItem(j: number) {

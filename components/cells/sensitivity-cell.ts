@@ -26,10 +26,10 @@ export class SensitivityCellElement extends CellElement<'sensitivity'> {
     const firstNot = (list: Array<string | undefined>, taken: readonly string[]) => list.find((n): n is string => typeof n === 'string' && !taken.includes(n)) ?? '';
     return html`
       <div class="row"><span class="lbl">Follow</span>
-        ${nameList({ field: 'of', what: 'Result to follow', names: of, claims: this.claims, add: 'Follow another result', next: firstNot(answers, of), set: (names, key) => this.edit({ of: names }, key) })}
+        ${nameList({ field: 'of', what: 'Result to follow', names: of, claims: this.claims, add: 'Follow another result', next: firstNot(answers, of), set: (names, key) => this.edit({ of: names }, key), focus: (s) => this.focusWhenShown(s) })}
       </div>
       <div class="row"><span class="lbl">Vary</span>
-        ${nameList({ field: 'parameters', what: 'Parameter to vary', names: parameters, claims: this.claims, add: 'Vary another parameter', next: firstNot(params, parameters), set: (names, key) => this.edit({ parameters: names }, key) })}
+        ${nameList({ field: 'parameters', what: 'Parameter to vary', names: parameters, claims: this.claims, add: 'Vary another parameter', next: firstNot(params, parameters), set: (names, key) => this.edit({ parameters: names }, key), focus: (s) => this.focusWhenShown(s) })}
       </div>
       ${this.results()}
       ${this.footErrors()}`;

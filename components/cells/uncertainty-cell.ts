@@ -46,7 +46,8 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     return html`
       <div class="row">
         <label>How sure are <input class="names" type="text" data-field="of" aria-label="Names to carry the uncertainty to, separated by commas"
-          .value=${of.join(', ')} @change=${(e: Event) => this.setOf((e.target as HTMLInputElement).value)} /></label>
+          .value=${this.ofDraft ?? of.join(', ')} @input=${(e: Event) => this.typeOf((e.target as HTMLInputElement).value)}
+          @change=${(e: Event) => this.commitOf((e.target as HTMLInputElement).value)} /></label>
         ${footError(ofError)}
       </div>
       <div class="row">
@@ -55,8 +56,10 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
           <option value="linear" ?selected=${method === 'linear'}>linear (first order)</option></select></label>
         ${method === 'monte-carlo' ? html`
           <label>Samples <input class="count" type="number" min="1" max=${MAX_SAMPLES} step="1" data-field="samples" .value=${String(c.samples ?? 2000)}
+            @input=${(e: Event) => this.typeNumber('samples', (e.target as HTMLInputElement).value)}
             @change=${(e: Event) => this.setNumber('samples', (e.target as HTMLInputElement).value)} /></label>
           <label>Seed <input class="count" type="number" min="0" step="1" data-field="seed" .value=${String(c.seed ?? 1)}
+            @input=${(e: Event) => this.typeNumber('seed', (e.target as HTMLInputElement).value)}
             @change=${(e: Event) => this.setNumber('seed', (e.target as HTMLInputElement).value)} /></label>` : nothing}
         ${footError(claims.take('.samples') ?? claims.take('.seed') ?? claims.take('.method'))}
       </div>
@@ -96,13 +99,46 @@ export class UncertaintyCellElement extends CellElement<'uncertainty'> {
     return html`${name}: ${x.truth ? 'yes' : 'no'} at the present values (the linear method gives no probability for a yes/no verdict)`;
   }
 
-  private setOf(text: string) {
-    const of = text.split(/[,\s]+/).map((s) => s.trim()).filter((s) => s);
-    this.edit({ of });
+  /**
+   * The names as typed since the box last committed: each keystroke is an edit (so a reload at
+   * once keeps it), while the box keeps the text as typed ("a,b" is not rewritten "a, b" under
+   * the caret) until it commits.
+   */
+  private ofDraft?: string;
+
+  private static namesIn(text: string): string[] {
+    return text.split(/[,\s]+/).map((s) => s.trim()).filter((s) => s);
+  }
+
+  protected override willUpdate(): void {
+    super.willUpdate();
+    // an undo, or any change from elsewhere, shows the document's names again
+    const of = Array.isArray(this.cell.of) ? this.cell.of : [];
+    if (this.ofDraft !== undefined && UncertaintyCellElement.namesIn(this.ofDraft).join(',') !== of.join(',')) this.ofDraft = undefined;
+  }
+
+  private typeOf(text: string) {
+    this.ofDraft = text;
+    this.edit({ of: UncertaintyCellElement.namesIn(text) }, 'of');
+  }
+
+  private commitOf(text: string) {
+    this.ofDraft = undefined;
+    this.edit({ of: UncertaintyCellElement.namesIn(text) }, 'of');
+    this.requestUpdate();
   }
 
   private setMethod(method: UncertaintyDoc['method']) {
     this.edit({ method });
+  }
+
+  /**
+   * A number as it is typed, an edit at each keystroke (one undo step), so a reload at once
+   * keeps it; a box still blank, or not yet a number ("1e"), waits for the commit below.
+   */
+  private typeNumber(key: 'samples' | 'seed', text: string) {
+    if (text.trim() === '' || !Number.isFinite(Number(text))) return;
+    this.replace({ ...this.cell, [key]: Number(text) } as UncertaintyDoc, key);
   }
 
   /** A whole number as typed; a blank removes the field (its default applies), anything else is kept for the engine to refuse. */

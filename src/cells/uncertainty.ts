@@ -41,11 +41,22 @@ export function workScaleOf(cell: unknown, cells: readonly Cell[] = []): number 
   return Math.min(MOST_BUDGETS, Math.max(1, samples / SAMPLES_PER_BUDGET)) * (1 + bands);
 }
 
+/**
+ * What to make smaller when a Monte Carlo cell runs out of work: its samples first (the budget
+ * stops growing past MOST_BUDGETS), then what each sample runs.
+ */
+function monteCarloAdvice(cell: UncertaintyCell, bands: number): string {
+  const n = Number.isInteger(cell.samples) ? (cell.samples as number) : DEFAULT_SAMPLES;
+  return `draw fewer samples than ${n.toLocaleString('en-US')} (each runs the study's values again${bands ? ', and again for each band it draws' : ''}), `
+    + 'or shorten the run or loosen its tolerance';
+}
+
 /** The cell's node; `cells` (the study) says which runs show a band from its samples (`buildContext` in cells/index.ts). */
 export function uncertaintyNodes(cell: UncertaintyCell, at: string, cells: readonly Cell[] = []): Array<GraphNode<NodeOutput<'uncertainty'>>> {
   const of = Array.isArray(cell.of) ? cell.of.filter((n): n is string => typeof n === 'string') : [];
-  // each name is read even when it has no value now: a sample may give it one
-  const uses: Use[] = of.map((name, i) => ({ name, path: `${at}.of[${i}]`, optional: true }));
+  // each name is read even when it has no value now: a sample may give it one; but not when
+  // an error upstream took it away, which no sample mends: the cell waits on that error
+  const uses: Use[] = of.map((name, i) => ({ name, path: `${at}.of[${i}]`, optional: true, waitsOnError: true }));
   // the runs whose band it draws: their models (a run answering a name here adds no cycle)
   const bands = cell.method === 'linear' ? [] : bandRuns(of, cells);
   for (const run of bands) uses.push({ name: cellRef(run), path: `${at}.of`, optional: true });
@@ -57,6 +68,7 @@ export function uncertaintyNodes(cell: UncertaintyCell, at: string, cells: reado
     allowsTime: false,
     readsUpstream: true,
     workScale: workScaleOf(cell, cells),
+    ...(cell.method === 'linear' ? {} : { workAdvice: monteCarloAdvice(cell, bands.length) }),
     signature: `${JSON.stringify(cell)}|bands:${bands.join(',')}`,
     problems: [],
     run: (ctx) => runToEnd(startUncertainty(cell, at, of, ctx, bands)),

@@ -23,11 +23,14 @@ export interface WorkLimits {
   readonly timeLimit?: number;
 }
 
+/** What to make smaller, said after a stopped cell's limit unless its node says otherwise (`GraphNode.workAdvice`). */
+const RUN_ADVICE = 'shorten the run, loosen the tolerance, use a larger step or fewer sweep steps or repeats';
+
 /** The error of a node stopped by its budget or by the time limit, on its cell. */
 export function stoppedError(node: GraphNode, stop: WorkExceeded, limits: WorkLimits): CellError {
   const message = stop.reason === 'budget'
     ? `stopped: this cell needed more than ${stop.limit.toLocaleString('en-US')} units of work (evaluations of a rate, steps, samples, sweep points, doses), its limit; `
-      + 'shorten the run, loosen the tolerance, use a larger step or fewer sweep steps or repeats'
+      + (node.workAdvice ?? RUN_ADVICE)
     : `stopped: the time limit (${limits.timeLimit} s) ran out while this cell was computing; allow more time or make the study smaller`;
   return { kind: 'numeric', message, path: CELL_PATH };
 }

@@ -97,6 +97,13 @@ export interface Use {
   readonly readsStates?: boolean;
   /** The node runs without it when it is unavailable (it reads it only to show it). */
   readonly optional?: boolean;
+  /**
+   * With `optional`: the node still waits when the name's definer failed with an error (a
+   * problem of its own, or a wait whose cause is one), and runs without it only when the name
+   * was left undefined with a reason another value may change (a crossing not reached): an
+   * uncertainty cell's names, whose samples cannot mend a bad input upstream.
+   */
+  readonly waitsOnError?: boolean;
 }
 
 /** What a name is bound to after its node ran. `sig` decides whether it changed. */
@@ -292,6 +299,12 @@ export interface GraphNode<O extends object = object> {
    * asks for one budget per 1,000 samples, as each sample is a run of part of the study.
    */
   readonly workScale?: number;
+  /**
+   * What to make smaller when the node's work budget runs out, in words after "its limit; "
+   * (`engine/budget.ts`); by default a run's own knobs (its span, tolerance, step, sweeps,
+   * repeats). An uncertainty cell's Monte Carlo names its samples.
+   */
+  readonly workAdvice?: string;
   /** Said after the message of each node on a cycle through this node: why such a cycle arises and the way out. */
   readonly cycleHint?: string;
   /** Fails too with the problems the document check found in its cell (which go to a cell's first node). */

@@ -15,15 +15,21 @@ export function bound(slot: Slot | undefined): Binding | undefined {
   return slot && slot.kind !== 'unavailable' ? slot : undefined;
 }
 
-/** The error of a node that reads a name whose definer failed or computed nothing; undefined when all its inputs are bound. */
+/**
+ * The error of a node that reads a name whose definer failed or computed nothing; undefined when
+ * all its inputs are bound. An optional use is not waited on, unless it `waitsOnError` and its
+ * definer failed with an error.
+ */
 export function waitingOn(graph: Graph, node: GraphNode, slotOf: (name: string) => Slot | undefined): CellError | undefined {
   const sources = graph.sources.get(node.key)!;
   for (const use of node.uses) {
     const src = sources.get(use.name);
-    if (!src || !('node' in src) || src.optional) continue;
+    if (!src || !('node' in src) || (src.optional && !use.waitsOnError)) continue;
     const slot = slotOf(use.name);
     if (!bound(slot)) {
       const unavailable = slot as Unavailable | undefined;
+      // an optional name left undefined with a reason (no error at its root) is not waited on
+      if (src.optional && (!unavailable || unavailable.root.name !== undefined)) continue;
       return waitsOnCell(unavailable?.cell ?? graph.nodes.get(src.node)!.cell, unavailable, use.path);
     }
   }

@@ -4,16 +4,16 @@
  */
 import { DISTRIBUTIONS, MAX_SAMPLES, NAME_PATTERN, UNCERTAINTY_METHODS } from './types.ts';
 import { type Checker, isObject } from './checker.ts';
-
-/** The fields each distribution takes; the others are refused, so a leftover figure is never silently ignored. */
-const SPREAD_FIELDS: Readonly<Record<string, readonly string[]>> = { normal: ['sd'], lognormal: ['cv'], uniform: ['from', 'to'] };
+import { SPREAD_FIGURES } from './spread-rules.ts';
 
 /** A parameters item's `spread` (at `within`, `items[j]`). */
 export function checkSpread(spread: unknown, p: Checker, within: string): void {
   const path = `${within}.spread`;
   if (!isObject(spread)) return p.add(`${p.at}.${path}`, 'must be an object: { "distribution": "normal", "sd": "..." }');
   p.oneOf(spread, 'distribution', DISTRIBUTIONS, false, path);
-  const wanted = SPREAD_FIELDS[String(spread.distribution)];
+  // the fields each distribution takes; the others are refused, so a leftover figure is never silently ignored
+  const d = String(spread.distribution);
+  const wanted: readonly string[] | undefined = Object.hasOwn(SPREAD_FIGURES, d) ? (SPREAD_FIGURES as Record<string, readonly string[]>)[d] : undefined;
   if (!wanted) return;
   for (const f of ['sd', 'cv', 'from', 'to']) {
     if (spread[f] !== undefined && !wanted.includes(f)) p.add(`${p.at}.${path}.${f}`, `is not a figure of a ${spread.distribution} spread (it takes ${wanted.join(' and ')})`);

@@ -232,6 +232,12 @@ describe('cell elements', () => {
     const tmax = await pickFor('p_tmax');
     tmax.value = '=';
     tmax.dispatchEvent(new Event('change'));
+    // built on the edit before (the element takes its own edit at once): CL's unit stays
+    expect((await edit).cell.units).to.deep.equal({ CL: 'mL / min' });
+    edit = nextEdit(el);
+    const cl2 = await pickFor('p_CL');
+    cl2.value = '=';
+    cl2.dispatchEvent(new Event('change'));
     expect((await edit).cell.units).to.equal(undefined);
   });
 

@@ -1,7 +1,7 @@
 // The compare and sensitivity cells in the study view with the real engine, by keyboard: a
 // compare cell added from the Add bar, a scenario added, a value set and edited (Enter
 // commits), the answers per scenario shown, and Ctrl+Z undoing the edit; a sensitivity cell's
-// ranking shown, its list of parameters edited.
+// ranking shown, its list of parameters edited. After an add button, focus is in what it added.
 import { expect } from 'chai';
 import { sendKeys } from '@web/test-runner-commands';
 import type { StudyView } from '../../components/study-view.ts';
@@ -61,13 +61,15 @@ describe('compare cell: by keyboard, with the engine', () => {
     await sendKeys({ press: 'Enter' });
     await until(() => compareDoc(view)!.scenarios.length === 2, 'a second scenario');
     expect(compareDoc(view)!.scenarios[1]).to.deep.equal({ name: 'scenario_2', set: {} });
+    // the keyboard goes on in what was added (it stayed on the button below it, after the new fields)
+    await until(() => focused()?.getAttribute('aria-label') === 'Name of scenario 2', 'focus in the new scenario\'s name');
 
-    await tabTo((el) => el.getAttribute('aria-label') === 'Set a value in scenario scenario_2', 'the second scenario\'s Set a value button', true);
+    await tabTo((el) => el.getAttribute('aria-label') === 'Set a value in scenario scenario_2', 'the second scenario\'s Set a value button');
     await sendKeys({ press: 'Enter' });
     // the first parameter, at the value the study gives it now: nothing changes until it is edited
     await until(() => compareDoc(view)!.scenarios[1].set.Q === '100 L / min', 'Q set to its present value');
-
-    await tabTo((el) => ((el.getRootNode() as ShadowRoot).host?.getAttribute('label') ?? '') === 'Scenario scenario_2: Q', 'the value of Q', true);
+    const inQ = () => ((focused()?.getRootNode() as ShadowRoot | undefined)?.host?.getAttribute('label') ?? '') === 'Scenario scenario_2: Q';
+    await until(inQ, 'focus in the value just set (it stayed on the button, and Tab went on to the next scenario)');
     await sendKeys({ press: 'Control+a' });
     await sendKeys({ type: '200 L / min' });
     await sendKeys({ press: 'Enter' });
@@ -102,6 +104,29 @@ describe('compare cell: bad input on its field', () => {
   });
 });
 
+describe('compare cell: what a value sets is readable', () => {
+  let view: StudyView;
+  afterEach(() => view.remove());
+
+  it('the select of what a scenario sets is as wide as its names (squeezed, it showed only its arrow)', async function () {
+    this.timeout(30_000);
+    const study = { ...STUDY, cells: [{ id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h' }] },
+      { id: 'law', kind: 'rate', state: 'y', unit: 'mg / L', rate: '-k * y', initial: '10 mg / L' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '12 h', find: [] },
+      { id: 'cmp', kind: 'compare', run: 'run', scenarios: [{ name: 'slow', set: { k: '0.2 / h' } }] }] } as Study;
+    view = await mountStudy(study);
+    const root = await until(() => deep(view.shadowRoot!, 'compare-cell')[0]?.shadowRoot, 'the compare cell');
+    const select = await until(() => root.querySelector('span.set select') as HTMLSelectElement | null, 'the select of what scenario slow sets');
+    expect(select.value).to.equal('k');
+    // the same select on its own, outside the row: the width its names need
+    const alone = select.cloneNode(true) as HTMLSelectElement;
+    root.append(alone);
+    const need = alone.getBoundingClientRect().width;
+    alone.remove();
+    expect(select.getBoundingClientRect().width).to.be.at.least(need - 0.5);
+  });
+});
+
 describe('sensitivity cell: ranking and lists, with the engine', () => {
   let view: StudyView;
   afterEach(() => view.remove());
@@ -119,7 +144,11 @@ describe('sensitivity cell: ranking and lists, with the engine', () => {
     add.focus();
     await sendKeys({ press: 'Enter' });
     await until(() => (view.controller.study!.cells[3] as { parameters: string[] }).parameters.join(',') === 'Q,V,C0', 'C0 added');
+    await until(() => focused()?.getAttribute('aria-label') === 'Parameter to vary 3', 'focus in the name just added');
+    expect((focused() as HTMLInputElement).value).to.equal('C0');
     await until(() => el.shadowRoot!.querySelectorAll('svg.ranking rect').length === 3, 'three bars', 20_000);
+    // a plain text box keeps the browser's own undo: the study's undo from the button
+    add.focus();
     await sendKeys({ press: 'Control+z' });
     await until(() => (view.controller.study!.cells[3] as { parameters: string[] }).parameters.join(',') === 'Q,V', 'undone');
   });

@@ -132,15 +132,16 @@ describe('the uncertainty cell element', () => {
     const names = el.shadowRoot!.querySelector('[data-field="of"]') as HTMLInputElement;
     expect(names.value).to.equal('t_40, quick');
     expect(el.shadowRoot!.textContent).to.contain('no value with a spread');
-    const edit = new Promise<{ cell: Record<string, unknown> }>((resolve) => el.addEventListener('cell-edit', (e) => resolve((e as CustomEvent).detail), { once: true }));
-    const method = el.shadowRoot!.querySelector('[data-field="method"]') as HTMLSelectElement;
-    method.value = 'linear';
-    method.dispatchEvent(new Event('change'));
-    expect((await edit).cell).to.deep.equal({ ...COOLING.cells[4], method: 'linear' });
     const edit2 = new Promise<{ cell: Record<string, unknown> }>((resolve) => el.addEventListener('cell-edit', (e) => resolve((e as CustomEvent).detail), { once: true }));
     const samples = el.shadowRoot!.querySelector('[data-field="samples"]') as HTMLInputElement;
     samples.value = '5000';
     samples.dispatchEvent(new Event('change'));
     expect((await edit2).cell.samples).to.equal(5000);
+    // the next edit builds on that one (the element takes its own edit at once)
+    const edit = new Promise<{ cell: Record<string, unknown> }>((resolve) => el.addEventListener('cell-edit', (e) => resolve((e as CustomEvent).detail), { once: true }));
+    const method = el.shadowRoot!.querySelector('[data-field="method"]') as HTMLSelectElement;
+    method.value = 'linear';
+    method.dispatchEvent(new Event('change'));
+    expect((await edit).cell).to.deep.equal({ ...COOLING.cells[4], samples: 5000, method: 'linear' });
   });
 });

@@ -123,6 +123,25 @@ describe('each cell within its work budget', () => {
     assert.equal(cell(r, 'q').ok, true);
   });
 
+  it('a Monte Carlo stopped by its budget says to draw fewer samples; a run stopped says what a run can make smaller', () => {
+    // the largest level of a 12 h decay, as 100,000 samples would ask of it: with a budget of
+    // 5,000 units a cell (ten for the samples) both cells run out; common practice: a message
+    // names the knob the user set
+    const reportAt = (doc: unknown, cellWork: number) => { const o = openStudy(doc, { cellWork }); assert.ok(o.ok); return o.session.report(); };
+    const r = reportAt(study([
+      { id: 'p', kind: 'parameters', items: [{ name: 'k', value: '0.5 / h', spread: { distribution: 'normal', sd: '0.05 / h' } }] },
+      { id: 'law', kind: 'rate', state: 'y', unit: 'mg / L', rate: '-k * y', initial: '10 mg / L' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '12 h', find: [{ name: 'y6', valueOf: 'y', at: '6 h' }] },
+      { id: 'how', kind: 'uncertainty', of: ['y6'], samples: 100000, seed: 1 },
+    ]), 5000);
+    assert.match(cell(r, 'how').error!.message, /more than 50,000 units of work .*its limit; draw fewer samples than 100,000 \(each runs the study's values again\), or shorten the run or loosen its tolerance$/);
+    const slow = reportAt(study([
+      { id: 'law', kind: 'rate', state: 'y', unit: 'mg / L', rate: '-y / (2 h)', initial: '10 mg / L' },
+      { id: 'run', kind: 'simulate', rates: ['law'], from: '0 h', to: '12 h', method: 'euler', step: '1 s', find: [] },
+    ]), 5000);
+    assert.match(cell(slow, 'run').error!.message, /its limit; shorten the run, loosen the tolerance, use a larger step or fewer sweep steps or repeats$/);
+  });
+
   it('a smaller budget stops a template\'s heavy cell, on that cell, and leaves its parameters computed', () => {
     const opened = openStudy(template('harvested-stock-fold.ratebook.json'), { cellWork: 5000 });
     assert.ok(opened.ok);
