@@ -10,6 +10,7 @@ import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
 import { STABLE, UNSTABLE } from '../plots/palette.ts';
 import { axisNameOf, leftOffLog } from '../plots/time-plot-parts.ts';
+import { runsOf, SWEEP_KEY } from '../plots/sweep-runs.ts';
 import { math } from './math.ts';
 import { fitPriorPart } from './fit-prior-sheet.ts';
 import { sensitivitySheet, compareSheet } from './scenario-sheet.ts';
@@ -128,23 +129,19 @@ function phase(cell: Of<'phase'>, r: ReportOf<'phase'>, state: string): Template
 
 function sweepPart(cell: Of<'phase'>, sweep: SweepReport, state: string): TemplateResult {
   const first = sweep.branches.find((b) => b.length)?.[0];
-  // each branch in pieces of one stability: attractors solid, the rest dashed, one legend entry per kind
+  // each branch in runs of one stability, stable solid, unstable dashed, one legend entry each; the folds marked, not drawn as lines
   const lines: ChartLine[] = [];
-  const listed = new Set<string>();
-  for (const branch of sweep.branches) {
-    let start = 0;
-    for (let i = 1; i <= branch.length; i++) {
-      if (i < branch.length && branch[i].stability === branch[start].stability) continue;
-      const piece = branch.slice(start, Math.min(i + 1, branch.length));
-      const kind = branch[start].stability;
-      lines.push({ label: kind, x: piece.map((p) => p.parameter.value), y: piece.map((p) => p.value.value),
-        colour: kind === 'attractor' ? STABLE : UNSTABLE, dashed: kind !== 'attractor', unlisted: listed.has(kind) });
-      listed.add(kind);
-      start = i;
-    }
+  const listed = new Set<boolean>();
+  // stable runs first, so that the legend reads as the app's key does
+  const runs = runsOf({ parameter: sweep.parameter, branches: sweep.branches, folds: sweep.folds }).sort((a, b) => Number(b.stable) - Number(a.stable));
+  for (const run of runs) {
+    lines.push({ label: run.stable ? SWEEP_KEY.stable : SWEEP_KEY.unstable, x: run.x, y: run.y,
+      colour: run.stable ? STABLE : UNSTABLE, dashed: !run.stable, unlisted: listed.has(run.stable) });
+    listed.add(run.stable);
   }
+  const folds = { key: SWEEP_KEY.fold, at: sweep.folds.map((f) => ({ x: f.parameter.value, y: f.value.value, label: `fold: ${cell.sweep?.name} = ${showQ(f.parameter)}` })) };
   return html`<h3>As ${cell.sweep?.name} runs from ${cell.sweep?.from} to ${cell.sweep?.to}</h3>
-    ${first ? html`<figure>${lineChart({ label: summaryOr(sweep.summary, `equilibria of ${state} against ${cell.sweep?.name}`), xLabel: `${cell.sweep?.name} (${first.parameter.unit})`, yLabels: [`equilibrium (${first.value.unit})`], lines, height: 220 })}</figure>` : nothing}
+    ${first ? html`<figure>${lineChart({ label: summaryOr(sweep.summary, `equilibria of ${state} against ${cell.sweep?.name}`), xLabel: `${cell.sweep?.name} (${first.parameter.unit})`, yLabels: [`equilibrium (${first.value.unit})`], lines, folds, height: 220 })}</figure>` : nothing}
     ${sweep.folds.length ? html`<table><thead><tr><th>Fold at ${cell.sweep?.name}</th><th>Equilibrium there</th></tr></thead>
       <tbody>${sweep.folds.map((f) => html`<tr><td class="num">${showQ(f.parameter)}</td><td class="num">${showQ(f.value)}</td></tr>`)}</tbody></table>`
       : html`<p>No fold: no two equilibria meet in this range.</p>`}`;
