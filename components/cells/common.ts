@@ -83,6 +83,15 @@ export function showValue(q: ParameterValue | ReportQuantity | undefined, digits
   return q && 'truth' in q && typeof q.truth === 'boolean' ? (q.truth ? 'yes' : 'no') : showQ(q, digits);
 }
 
+/**
+ * A name that may wrap after its underscores and nowhere else it can help (`t90_<wbr>in_<wbr>half_<wbr>lives`),
+ * for a narrow name column; the text is unchanged.
+ */
+export function nameBreaks(name: string): string | ReturnType<typeof html> {
+  const parts = name.split(/(?<=_)(?=.)/);
+  return parts.length < 2 ? name : html`${parts.map((p, i) => (i ? html`<wbr>${p}` : p))}`;
+}
+
 /** A quantity as text: 4 significant figures and its unit. */
 export function showQ(q: ReportQuantity | undefined, digits = 4): string {
   if (!q) return '';

@@ -7,7 +7,7 @@ import type uPlot from 'uplot';
 import { formatNumber } from '../../src/index.ts';
 import type { DataTable } from './data-table.ts';
 import type { PhaseEquilibrium, PhasePlotData } from './phase-plot.ts';
-import type { SweepData } from './sweep-plot.ts';
+import type { SweepData } from './sweep-runs.ts';
 
 const fmt = (v: number | null | undefined, gap = '–') => (v == null || !Number.isFinite(v) ? gap : formatNumber(v, 6));
 

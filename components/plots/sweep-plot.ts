@@ -6,33 +6,15 @@
  */
 import { LitElement, html, nothing, type PropertyValues } from 'lit';
 import uPlot from 'uplot';
-import { formatNumber, unitAfterNumber, type ReportQuantity } from '../../src/index.ts';
+import { formatNumber, unitAfterNumber } from '../../src/index.ts';
 import { ChartController, type ChartSpec } from './chart-controller.ts';
 import { chartStyles } from './chart-styles.ts';
 import { xAxis, yAxis, ratioOf } from './axes.ts';
 import { drawOverlay, around, curveBoxes, type PointLabel } from './overlay.ts';
 import { FOLD, STABLE, UNSTABLE } from './palette.ts';
-import type { Stability } from './equilibrium-dot.ts';
+import { foldMark, runsOf, SWEEP_KEY, type Run, type SweepData } from './sweep-runs.ts';
 import { sweepTables } from './plot-tables.ts';
 import './data-table.ts';
-
-/** A quantity as the report gives it; the chart reads its value and unit. */
-type ShownQuantity = Readonly<Partial<ReportQuantity> & Pick<ReportQuantity, 'value' | 'unit'>>;
-
-/** The phase cell's `sweep`. */
-export interface SweepData {
-  readonly parameter: string;
-  readonly branches: ReadonlyArray<ReadonlyArray<{ readonly parameter: ShownQuantity; readonly value: ShownQuantity; readonly stability: Stability }>>;
-  readonly folds: ReadonlyArray<{ readonly parameter: ShownQuantity; readonly value: ShownQuantity; readonly pair?: string }>;
-  /** The swept range (start, end), so the axis spans it even where no equilibrium exists. */
-  readonly range?: readonly [ShownQuantity, ShownQuantity];
-  readonly summary?: string;
-  readonly warnings?: readonly string[];
-  readonly incomplete?: string;
-}
-
-/** A stretch of one branch with one kind of stability, ordered by the parameter. */
-export interface Run { readonly branch: number; readonly stable: boolean; readonly x: number[]; readonly y: number[] }
 
 const HEIGHT = 300;
 const fmt = (v: number) => formatNumber(v, 4);
@@ -69,9 +51,9 @@ export class SweepPlot extends LitElement {
       <figure>
         <div class="chart"></div>
         <ul class="key" aria-hidden="true">
-          <li><svg width="26" height="8"><line x1="1" y1="4" x2="25" y2="4" stroke=${STABLE} stroke-width="2.5"/></svg>stable (attractor)</li>
-          <li><svg width="26" height="8"><line x1="1" y1="4" x2="25" y2="4" stroke=${UNSTABLE} stroke-width="2.5" stroke-dasharray="7 4"/></svg>unstable</li>
-          ${s.folds.length ? html`<li><svg width="12" height="12"><path d="M6 1L11 6L6 11L1 6Z" fill=${FOLD}/></svg>fold</li>` : nothing}
+          <li><svg width="26" height="8"><line x1="1" y1="4" x2="25" y2="4" stroke=${STABLE} stroke-width="2.5"/></svg>${SWEEP_KEY.stable}</li>
+          <li><svg width="26" height="8"><line x1="1" y1="4" x2="25" y2="4" stroke=${UNSTABLE} stroke-width="2.5" stroke-dasharray="7 4"/></svg>${SWEEP_KEY.unstable}</li>
+          ${s.folds.length ? html`<li class="fold"><svg width="12" height="12">${foldMark(6, 6, 5)}</svg>${SWEEP_KEY.fold}</li>` : nothing}
         </ul>
         <p class="summary">${s.summary ?? ''}</p>
         <chart-data .name=${s.summary || `the equilibria of ${this.state}`} .tables=${() => sweepTables(s, this.state)}></chart-data>
@@ -157,32 +139,6 @@ export class SweepPlot extends LitElement {
     // a label keeps off the other folds before it keeps off the branches
     drawOverlay(u, labels, [], curveBoxes(u, this.runs.map((_, i) => i + 1)), clear);
   }
-}
-
-/**
- * Splits each branch where it changes between stable (attractor) and not (repeller; a
- * semi-stable point goes with the stretch it ends or starts). The new run begins at the last
- * point of the one before, so the curve stays joined. Runs are ordered by increasing parameter.
- */
-export function runsOf(s: SweepData): Run[] {
-  const runs: Run[] = [];
-  s.branches.forEach((points, branch) => {
-    const kinds = points.map((p) => (p.stability === 'semi-stable' ? undefined : p.stability === 'attractor'));
-    for (let i = 0; i < kinds.length; i++) kinds[i] ??= i > 0 ? kinds[i - 1] : kinds.find((k) => k !== undefined) ?? false;
-    let cur: Run | undefined;
-    points.forEach((p, i) => {
-      if (!cur || cur.stable !== kinds[i]) {
-        const prev = cur;
-        cur = { branch, stable: kinds[i]!, x: [], y: [] };
-        runs.push(cur);
-        if (prev) { cur.x.push(prev.x[prev.x.length - 1]); cur.y.push(prev.y[prev.y.length - 1]); }
-      }
-      cur.x.push(p.parameter.value);
-      cur.y.push(p.value.value);
-    });
-  });
-  for (const r of runs) if (r.x.length > 1 && r.x[0] > r.x[r.x.length - 1]) { r.x.reverse(); r.y.reverse(); }
-  return runs;
 }
 
 customElements.define('sweep-plot', SweepPlot);

@@ -6,7 +6,7 @@
 import { html, nothing, type TemplateResult } from 'lit';
 import type { Cell, ReportOf, SimulationPlot } from '../../src/index.ts';
 import { formatNumber } from '../../src/index.ts';
-import { showQ } from '../cells/common.ts';
+import { showQ, nameBreaks } from '../cells/common.ts';
 import { rankingBars } from '../plots/ranking-bars.ts';
 
 type Of<K extends Cell['kind']> = Extract<Cell, { kind: K }>;
@@ -19,7 +19,7 @@ export function sensitivitySheet(cell: Of<'sensitivity'>, r: ReportOf<'sensitivi
     <table class="slopes"><thead><tr><th>Result</th><th>Parameter</th><th>Slope</th><th>Normalized (% per 1%)</th><th>Note</th></tr></thead>
     <tbody>${ranking.map(({ of, parameter }) => {
       const e = results[of][parameter];
-      return html`<tr><td class="name">${of}</td><td class="name">${parameter}</td><td class="num">${e.coefficient ? showQ(e.coefficient) : '—'}</td>
+      return html`<tr><td class="name">${nameBreaks(of)}</td><td class="name">${nameBreaks(parameter)}</td><td class="num">${e.coefficient ? showQ(e.coefficient) : '—'}</td>
         <td class="num">${e.normalized === null ? '—' : formatNumber(e.normalized, 4)}</td><td>${e.note ?? ''}</td></tr>`;
     })}</tbody></table>
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}
@@ -32,12 +32,12 @@ export function compareSheet(cell: Of<'compare'>, r: ReportOf<'compare'>, chart:
   const questions = r.questions ?? [];
   return html`<p class="lead">The run <strong>${runTitle || cell.run}</strong> under ${scenarios.length} scenario${scenarios.length === 1 ? '' : 's'}; each answer is named question_scenario.</p>
     <table><thead><tr><th>Scenario</th><th>Sets</th></tr></thead>
-    <tbody>${scenarios.map((s) => html`<tr><td class="name">${s.name}</td><td>${Object.entries(s.set).map(([n, q]) => `${n} = ${showQ(q)}`).join(', ') || 'nothing: the run as the study stands'}${s.ok ? '' : ` (${s.message})`}</td></tr>`)}</tbody></table>
-    ${questions.length ? html`<table class="per-scenario"><thead><tr><th>Question</th>${scenarios.map((s) => html`<th>${s.name}</th>`)}</tr></thead>
-      <tbody>${questions.map((q) => html`<tr><td class="name">${q}</td>${scenarios.map((s) => {
+    <tbody>${scenarios.map((s) => html`<tr><td class="name">${nameBreaks(s.name)}</td><td>${Object.entries(s.set).map(([n, q]) => `${n} = ${showQ(q)}`).join(', ') || 'nothing: the run as the study stands'}${s.ok ? '' : ` (${s.message})`}</td></tr>`)}</tbody></table>
+    ${questions.length ? html`<table class="per-scenario follows"><thead><tr><th>Question</th>${scenarios.map((s) => html`<th>${s.name}</th>`)}</tr></thead>
+      <tbody>${questions.map((q) => html`<tr><td class="name">${nameBreaks(q)}</td>${scenarios.map((s) => {
         const a = s.results[q];
         return html`<td class="num answer">${!a ? '—' : 'notReached' in a ? `not reached by ${showQ(a.end)}` : showQ(a)}</td>`;
       })}</tr>`)}</tbody></table>` : nothing}
-    <div class="keep">${r.plot ? chart(r.plot, r.summary) : nothing}
+    <div class="keep follows">${r.plot ? chart(r.plot, r.summary) : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>`;
 }

@@ -5,16 +5,16 @@
  */
 import { html, nothing, type TemplateResult } from 'lit';
 import { isKind, KIND_LABELS, cellWords, closedFormWords, shownSolution, runBand, type RunBand, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
-import { showQ, showValue } from '../cells/common.ts';
+import { showQ, showValue, nameBreaks } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
 import { STABLE, UNSTABLE } from '../plots/palette.ts';
 import { axisNameOf, leftOffLog } from '../plots/time-plot-parts.ts';
+import { runsOf, SWEEP_KEY } from '../plots/sweep-runs.ts';
 import { math } from './math.ts';
 import { fitPriorPart } from './fit-prior-sheet.ts';
 import { sensitivitySheet, compareSheet } from './scenario-sheet.ts';
 import { uncertaintySheet } from './uncertainty-sheet.ts';
-import { nameText } from './name-text.ts';
 import { hasFigures, pendingGlance, pendingMark, type SheetPending } from './pending-sheet.ts';
 
 const NONE_PENDING: SheetPending = { pending: [] };
@@ -42,7 +42,7 @@ export function glance(report: Report, study: { readonly cells: readonly Cell[] 
     : `${g.value ? showQ(g.value) : ''}${g.standardError ? ` ± ${showQ(g.standardError)} (SE)` : ''}`;
   return html`<section class="cell glance"><h2>Results at a glance</h2>
     <table><thead><tr><th>Result</th><th>Value</th><th>From</th></tr></thead>
-    <tbody>${list.map((g) => html`<tr><td class="name">${g.name}</td><td class="num">${shown(g)}${pendingGlance(g.cell, work)}</td><td class="from">${fromOf(g.cell)}</td></tr>`)}</tbody></table></section>`;
+    <tbody>${list.map((g) => html`<tr><td class="name">${nameBreaks(g.name)}</td><td class="num">${shown(g)}${pendingGlance(g.cell, work)}</td><td class="from">${fromOf(g.cell)}</td></tr>`)}</tbody></table></section>`;
 }
 
 /**
@@ -98,7 +98,7 @@ function parameters(cell: Of<'parameters'>, r: ReportOf<'parameters'>): Template
       const t = tex[it.name]?.value;
       const shown = t ? math(`\\displaystyle ${t}`) : html`<code>${it.value}</code>`;
       const long = typeof it.value === 'string' && it.value.length > LONG_DEFINITION;
-      return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${nameText(String(it.name ?? ''))}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
+      return html`<tr class=${long ? 'has-formula' : ''}><td class="name">${nameBreaks(it.name)}</td><td>${long ? html`<span class="muted">below</span>` : shown}</td>
         <td class="num">${showValue(values[it.name])}${values[it.name]?.spread ? html`<br /><span class="muted spread">spread: ${values[it.name]!.spread!.text}</span>` : nothing}</td><td>${it.note ?? ''}${it.range ? html` <span class="muted">(range ${it.range[0]} to ${it.range[1]})</span>` : nothing}${values[it.name]?.spread?.note ? html`<br /><span class="check">${values[it.name]!.spread!.note}</span>` : nothing}</td></tr>
         ${long ? html`<tr class="formula"><td colspan="4">${t ? math(`\\displaystyle ${tex[it.name].name} = ${t}`) : html`<code>${it.name} = ${it.value}</code>`}</td></tr>` : nothing}`;
     })}</tbody></table>`;
@@ -129,26 +129,22 @@ function phase(cell: Of<'phase'>, r: ReportOf<'phase'>, state: string): Template
 
 function sweepPart(cell: Of<'phase'>, sweep: SweepReport, state: string): TemplateResult {
   const first = sweep.branches.find((b) => b.length)?.[0];
-  // each branch in pieces of one stability: attractors solid, the rest dashed, one legend entry per kind
+  // each branch in runs of one stability, stable solid, unstable dashed, one legend entry each; the folds marked, not drawn as lines
   const lines: ChartLine[] = [];
-  const listed = new Set<string>();
-  for (const branch of sweep.branches) {
-    let start = 0;
-    for (let i = 1; i <= branch.length; i++) {
-      if (i < branch.length && branch[i].stability === branch[start].stability) continue;
-      const piece = branch.slice(start, Math.min(i + 1, branch.length));
-      const kind = branch[start].stability;
-      lines.push({ label: kind, x: piece.map((p) => p.parameter.value), y: piece.map((p) => p.value.value),
-        colour: kind === 'attractor' ? STABLE : UNSTABLE, dashed: kind !== 'attractor', unlisted: listed.has(kind) });
-      listed.add(kind);
-      start = i;
-    }
+  const listed = new Set<boolean>();
+  // stable runs first, so that the legend reads as the app's key does
+  const runs = runsOf({ parameter: sweep.parameter, branches: sweep.branches, folds: sweep.folds }).sort((a, b) => Number(b.stable) - Number(a.stable));
+  for (const run of runs) {
+    lines.push({ label: run.stable ? SWEEP_KEY.stable : SWEEP_KEY.unstable, x: run.x, y: run.y,
+      colour: run.stable ? STABLE : UNSTABLE, dashed: !run.stable, unlisted: listed.has(run.stable) });
+    listed.add(run.stable);
   }
+  const folds = { key: SWEEP_KEY.fold, at: sweep.folds.map((f) => ({ x: f.parameter.value, y: f.value.value, label: `fold: ${cell.sweep?.name} = ${showQ(f.parameter)}` })) };
   return html`<h3>As ${cell.sweep?.name} runs from ${cell.sweep?.from} to ${cell.sweep?.to}</h3>
-    ${first ? html`<figure>${lineChart({ label: summaryOr(sweep.summary, `equilibria of ${state} against ${cell.sweep?.name}`), xLabel: `${cell.sweep?.name} (${first.parameter.unit})`, yLabels: [`equilibrium (${first.value.unit})`], lines, height: 220 })}</figure>` : nothing}
-    ${sweep.folds.length ? html`<table><thead><tr><th>Fold at ${cell.sweep?.name}</th><th>Equilibrium there</th></tr></thead>
+    ${first ? html`<figure>${lineChart({ label: summaryOr(sweep.summary, `equilibria of ${state} against ${cell.sweep?.name}`), xLabel: `${cell.sweep?.name} (${first.parameter.unit})`, yLabels: [`equilibrium (${first.value.unit})`], lines, folds, height: 220 })}</figure>` : nothing}
+    ${sweep.folds.length ? html`<table class="follows"><thead><tr><th>Fold at ${cell.sweep?.name}</th><th>Equilibrium there</th></tr></thead>
       <tbody>${sweep.folds.map((f) => html`<tr><td class="num">${showQ(f.parameter)}</td><td class="num">${showQ(f.value)}</td></tr>`)}</tbody></table>`
-      : html`<p>No fold: no two equilibria meet in this range.</p>`}`;
+      : html`<p class="follows">No fold: no two equilibria meet in this range.</p>`}`;
 }
 
 /** A run: its span, schedule, chart (with the band from an uncertainty cell's samples when it shows one, and its note) and answers. */
@@ -174,9 +170,9 @@ function simulate(cell: Of<'simulate'>, r: ReportOf<'simulate'>, band: RunBand |
     <div class="keep">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log', band && 'band' in band ? band.band : undefined) : nothing}
     ${band ? html`<p class="check band-note">${'band' in band ? `${band.band.note} The samples are those of ${cellWords({ cells }, band.cell)}.` : `No band: ${band.reason}`}${staleBand ? html`<strong class="pending-mark">${staleBand}</strong>` : nothing}</p>` : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>
-    ${finds.length ? html`<table class="results"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
-      <td class="name">${f.name}</td><td>${questions[f.name] ?? ''}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
-    ${Object.entries(closed).map(([state, c]) => html`<p class="check closed-form">Check: ${closedFormWords(state, c)}</p>`)}`;
+    ${finds.length ? html`<table class="results follows"><thead><tr><th>Found</th><th>Question</th><th>Answer</th></tr></thead><tbody>${finds.map((f) => html`<tr>
+      <td class="name">${nameBreaks(f.name)}</td><td>${questions[f.name] ?? ''}</td><td class="num answer">${answer(f.name)}</td></tr>`)}</tbody></table>` : nothing}
+    ${Object.entries(closed).map(([state, c]) => html`<p class="check closed-form follows">Check: ${closedFormWords(state, c)}</p>`)}`;
 }
 
 /** A chart's text alternative: the engine's summary, or words naming what it shows when there is none. */
@@ -221,11 +217,11 @@ function fit(cell: Of<'fit'>, r: ReportOf<'fit'>, cells: readonly Cell[]): Templ
   const plot = r.plot;
   return html`${cell.run !== undefined ? html`<p class="lead">Fitted through ${cellWords({ cells }, cell.run)}: its start, laws and every event of its schedule; the data's times are on its clock.</p>` : nothing}
     <table class="results"><thead><tr><th>Estimate</th><th>Value</th><th>Standard error</th><th>95% interval</th></tr></thead>
-    <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${name}</td><td class="num answer">${showQ(e.value)}</td>
+    <tbody>${Object.entries(est).map(([name, e]) => html`<tr><td class="name">${nameBreaks(name)}</td><td class="num answer">${showQ(e.value)}</td>
       <td class="num">${e.standardError ? showQ(e.standardError) : 'not available'}</td><td class="num">${e.ci95 ? `${showQ(e.ci95[0])} to ${showQ(e.ci95[1])}` : ''}</td></tr>`)}</tbody></table>
     ${fitPriorPart(r)}
-    <p class="check">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, ${r.errorModel ? 'SDs from the error model' : html`residual SD ${r.residualSD ? showQ(r.residualSD) : residualSdReason(r)}, weighting ${cell.weighting ?? 'none'}`}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message})${r.digits !== undefined ? `; estimates computed to ${r.digits} significant digits` : ''}.</p>
-    <div class="keep">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log') : nothing}
+    <p class="check follows">Fit diagnostics: ${r.n} points, ${r.dof} degrees of freedom, ${r.errorModel ? 'SDs from the error model' : html`residual SD ${r.residualSD ? showQ(r.residualSD) : residualSdReason(r)}, weighting ${cell.weighting ?? 'none'}`}; ${r.converged ? 'converged' : 'did not converge'} after ${r.iterations} iterations (${r.message})${r.digits !== undefined ? `; estimates computed to ${r.digits} significant digits` : ''}.</p>
+    <div class="keep follows">${plot ? timeChart(plot, r.summary, cell.plotScale === 'log') : nothing}
     ${typeof r.summary === 'string' ? html`<p class="summary">${r.summary}</p>` : nothing}</div>`;
 }
 
@@ -234,7 +230,7 @@ function nca(cell: Of<'nca'>, r: ReportOf<'nca'>): TemplateResult {
   const used = r.pointsUsed;
   return html`<p class="lead">Route ${cell.route}; areas by the ${cell.auc} rule; dose <code>${cell.dose}</code>.</p>
     <table class="results"><thead><tr><th>Result</th><th>Value</th></tr></thead>
-    <tbody>${Object.entries(values).map(([name, q]) => html`<tr><td class="name">${name}</td><td class="num answer">${q ? showQ(q) : 'not available'}</td></tr>`)}</tbody></table>
+    <tbody>${Object.entries(values).map(([name, q]) => html`<tr><td class="name">${nameBreaks(name)}</td><td class="num answer">${q ? showQ(q) : 'not available'}</td></tr>`)}</tbody></table>
     ${used ? html`<p class="check">Terminal phase fitted on ${used.count} points, at ${used.times.map((t) => showQ(t)).join(', ')}.</p>` : nothing}`;
 }
 

@@ -62,6 +62,9 @@ export class StudySheet extends LitElement {
     td.name { font-family: ui-monospace, monospace; font-size: 9pt; }
     figure { margin: 0.3rem 0 0.5rem; break-inside: avoid; }
     .keep { break-inside: avoid; }
+    /* kept on the page of what is above it, where the two fit: a chart with the table it illustrates (a run's
+       answers, a fit's estimates, a compare cell's scenarios), a run's check against its exact solution */
+    .follows { break-before: avoid; break-inside: avoid; }
     /* what opens a section stays with what follows it (a run's span and schedule with its chart, a
        data cell's row count with its table), so that a heading never ends a page with only its first lines */
     .lead { break-after: avoid; break-inside: avoid; }

@@ -10,6 +10,7 @@ import { formatNumber } from '../../src/index.ts';
 import { tickLabels } from '../plots/axes.ts';
 import { placeLabels, type Box, type Segment, type Taken } from '../plots/label-placement.ts';
 import { INK, seriesColour } from '../plots/palette.ts';
+import { foldMark } from '../plots/sweep-runs.ts';
 
 export interface ChartLine {
   readonly label: string; readonly x: readonly number[]; readonly y: ReadonlyArray<number | null>; readonly axis?: 0 | 1;
@@ -33,6 +34,8 @@ export interface ChartSpec {
   readonly levels?: ReadonlyArray<{ readonly y: number; readonly label: string; readonly axis?: 0 | 1 }>;
   readonly events?: ReadonlyArray<{ readonly x: number; readonly label: string }>;
   readonly marks?: ReadonlyArray<{ readonly x: number; readonly y: number; readonly label: string; readonly axis?: 0 | 1 }>;
+  /** A sweep's folds: each a diamond (`foldMark`) with its label placed as a mark's, and one legend entry, `key`, for them all. */
+  readonly folds?: { readonly key: string; readonly at: ReadonlyArray<{ readonly x: number; readonly y: number; readonly label: string }> };
   /** A horizontal line at zero (the rate in a phase plot). */
   readonly zeroLine?: boolean;
   /**
@@ -123,11 +126,11 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const bottom = 42;
   const pw = width - left - right;
   const ph = height - top - bottom;
-  const xs = [...spec.lines.flatMap((l) => l.x), ...(spec.points ?? []).flatMap((p) => p.x)];
+  const xs = [...spec.lines.flatMap((l) => l.x), ...(spec.points ?? []).flatMap((p) => p.x), ...(spec.folds?.at ?? []).map((f) => f.x)];
   const xr = axisRange(...extent(xs));
   const yr = [0, 1].map((axis) => {
     const on = <T extends { axis?: 0 | 1 }>(list: readonly T[] | undefined) => (list ?? []).filter((l) => (l.axis ?? 0) === axis);
-    const ys = [...on(spec.lines).flatMap((l) => l.y), ...on(spec.points).flatMap((p) => p.y), ...on(spec.bands).flatMap((b) => [...b.lo, ...b.hi]), ...on(spec.levels).map((l) => l.y), ...(spec.zeroLine && axis === 0 ? [0] : [])];
+    const ys = [...on(spec.lines).flatMap((l) => l.y), ...on(spec.points).flatMap((p) => p.y), ...on(spec.bands).flatMap((b) => [...b.lo, ...b.hi]), ...on(spec.levels).map((l) => l.y), ...(spec.zeroLine && axis === 0 ? [0] : []), ...(axis === 0 ? (spec.folds?.at ?? []).map((f) => f.y) : [])];
     return spec.logY ? logAxis(ys) : linearAxis(ys);
   });
   const X = (v: number) => left + ((v - xr.lo) / (xr.hi - xr.lo)) * pw;
@@ -136,6 +139,7 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const onAxis = (v: number, axis: 0 | 1 = 0) => Number.isFinite(Y(v, axis));
   const levels = (spec.levels ?? []).filter((l) => onAxis(l.y, l.axis ?? 0));
   const marks = (spec.marks ?? []).filter((m) => onAxis(m.y, m.axis ?? 0));
+  const folds = (spec.folds?.at ?? []).filter((f) => onAxis(f.y));
   const points = (spec.points ?? []).map((p) => ({ ...p, shown: p.x.flatMap((x, j) => (onAxis(p.y[j], p.axis ?? 0) ? [j] : [])) }));
   const path = (l: ChartLine) => {
     let d = '';
@@ -151,7 +155,7 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const xLabels = tickLabels(xr.ticks, xr.step);
   const yLabels = yr.map((r) => r.labels);
   const listed = spec.lines.map((l, i) => ({ l, i })).filter(({ l }) => !l.unlisted);
-  const legend = listed.length > 1 || (spec.points ?? []).length > 0 || (spec.bands ?? []).length > 0;
+  const legend = listed.length > 1 || (spec.points ?? []).length > 0 || (spec.bands ?? []).length > 0 || folds.length > 0;
   // a band's outline: along its lower edge and back along its upper one, where the axis can place both
   const bandPath = (b: ChartBand) => {
     const axis = b.axis ?? 0;
@@ -175,11 +179,13 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
     ...curveBoxes(spec.lines, X, Y),
     ...points.flatMap((p) => p.shown.map((j) => around(X(p.x[j]), Y(p.y[j], p.axis ?? 0), 4))),
     ...marks.map((m) => around(X(m.x), Y(m.y, m.axis ?? 0), 4)),
+    ...folds.map((f) => around(X(f.x), Y(f.y), 6)),
   ] };
   const bounds: Box = { x: left + 1, y: top + 1, w: pw - 2, h: ph - 2 };
-  // marks first, then levels (anywhere along their line), placed together: none covers another, no leader crosses another
+  // marks and folds first, then levels (anywhere along their line), placed together: none covers another, no leader crosses another
   const wanted = [
     ...marks.map((m) => ({ text: m.label, x: X(m.x), y: Y(m.y, m.axis ?? 0) })),
+    ...folds.map((f) => ({ text: f.label, x: X(f.x), y: Y(f.y) })),
     ...levels.map((l) => ({ text: l.label, x: left + pw - 4, y: Y(l.y, l.axis ?? 0), along: [left + pw / 2, left + 8] })),
   ];
   const placed: PlacedLabel[] = [];
@@ -212,13 +218,15 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
     ${spec.lines.map((l, i) => svg`<path d=${path(l)} fill="none" stroke=${l.colour ?? seriesColour(i)} stroke-width="1.6" stroke-linejoin="round" stroke-dasharray=${l.dashed ? '6 4' : 'none'} />`)}
     ${points.map((p, i) => p.shown.map((j) => svg`<circle cx=${X(p.x[j])} cy=${Y(p.y[j], p.axis ?? 0)} r="2.8" fill="#fff" stroke=${seriesColour(p.colourOf ?? i)} stroke-width="1.2" />`))}
     ${marks.map((m) => svg`<circle cx=${X(m.x)} cy=${Y(m.y, m.axis ?? 0)} r="3" fill=${INK} />`)}
+    ${folds.map((f) => foldMark(X(f.x), Y(f.y), 5.5))}
     <g stroke="#777" stroke-width="0.6">${placed.filter((p) => p.leader).map(({ leader: [x1, y1, x2, y2] = [0, 0, 0, 0] }) => svg`<line x1=${x1} y1=${y1} x2=${x2} y2=${y2} />`)}</g>
     <g class="labels" font-size=${LABEL_FONT} fill=${INK}>${placed.map((p) => svg`<text class="lbl" x=${p.box.x + 1} y=${p.box.y + p.box.h - 3}>${p.text}</text>`)}</g>
     ${unplaced.length ? svg`<text class="unplaced" x=${left} y=${height + extra - 4} font-size="10" fill=${INK}>Marked but not labelled, for want of room: ${unplaced.join(', ')}</text>` : ''}
     ${legend ? svg`<g font-size="10" fill=${INK}>${[...listed.map(({ l, i }) => ({ label: l.label, colour: l.colour ?? seriesColour(i), dashed: !!l.dashed, dot: false })), ...(spec.points ?? []).map((p, i) => ({ label: p.label, colour: seriesColour(p.colourOf ?? i), dashed: false, dot: true })),
-      ...(spec.bands ?? []).map((b) => ({ label: b.label, colour: seriesColour(b.colourOf), dashed: false, dot: false, band: true }))].map((item, k) => svg`
+      ...(spec.bands ?? []).map((b) => ({ label: b.label, colour: seriesColour(b.colourOf), dashed: false, dot: false, band: true })),
+      ...(folds.length ? [{ label: spec.folds!.key, colour: INK, dashed: false, dot: false, fold: true }] : [])].map((item, k) => svg`
       <g transform="translate(${left + k * 150} ${height + 8})">
-        ${'band' in item ? svg`<rect x="0" y="-4" width="16" height="8" fill=${item.colour} fill-opacity="0.2" stroke=${item.colour} stroke-opacity="0.5" stroke-width="0.6" />` : item.dot ? svg`<circle cx="8" cy="0" r="2.8" fill="#fff" stroke=${item.colour} stroke-width="1.2" />` : svg`<line x1="0" x2="16" y1="0" y2="0" stroke=${item.colour} stroke-width="1.6" stroke-dasharray=${item.dashed ? '6 4' : 'none'} />`}
+        ${'fold' in item ? foldMark(8, 0, 5) : 'band' in item ? svg`<rect x="0" y="-4" width="16" height="8" fill=${item.colour} fill-opacity="0.2" stroke=${item.colour} stroke-opacity="0.5" stroke-width="0.6" />` : item.dot ? svg`<circle cx="8" cy="0" r="2.8" fill="#fff" stroke=${item.colour} stroke-width="1.2" />` : svg`<line x1="0" x2="16" y1="0" y2="0" stroke=${item.colour} stroke-width="1.6" stroke-dasharray=${item.dashed ? '6 4' : 'none'} />`}
         <text x="21" y="3.5">${item.label}</text></g>`)}</g>` : ''}
   </svg>`;
 }

@@ -6,7 +6,7 @@ import '../../components/plots/time-plot.ts';
 import '../../components/plots/phase-plot.ts';
 import '../../components/plots/sweep-plot.ts';
 import { PRINT_WIDTH } from '../../components/plots/chart-controller.ts';
-import { runsOf } from '../../components/plots/sweep-plot.ts';
+import { runsOf } from '../../components/plots/sweep-runs.ts';
 import { placeLabel, type Box, type Taken } from '../../components/plots/label-placement.ts';
 import { tickLabels } from '../../components/plots/axes.ts';
 import cooling from '../../examples/cooling-stock-pot.ratebook.json';
@@ -449,6 +449,8 @@ describe('<sweep-plot>', () => {
     expect(shadow(el).querySelector('.summary')!.textContent).to.equal(sweep.summary);
     expect(sweep.folds).to.have.length(1);
     expect(texts(el, '.lbl.fold')).to.deep.equal(['fold: H = 125 kg / d']);
+    // the key says what the mark is, as the printed sheet's legend does
+    expect(shadow(el).querySelector('.key li.fold')!.textContent!.trim()).to.equal('fold: two equilibria meet and vanish');
     expect(u.axes[0].label).to.equal('H (kg / d)');
     expect(u.axes[1].label).to.equal('N (kg)');
   });

@@ -2,8 +2,10 @@
 // Letter page. Nothing is wider than the page, no text runs out of its table cell or over
 // another label of a chart; and wherever a page ends, a section's heading stays with what it
 // introduces (a run's span and schedule with its chart, a data cell's row count with its
-// table, an uncertainty cell's spreads with its results), a law, a solve or a profile summary is
-// never cut, and the closing words never stand alone on the last page. Pages are columns here: the
+// table, an uncertainty cell's spreads with its results), a chart stays with the table it
+// illustrates and a run's check with the lines above it, a law, a solve or a profile summary is
+// never cut, and the closing words never stand alone on the last page. A name breaks only after
+// an underscore where it has one. Pages are columns here: the
 // browser breaks a multi-column box by the same rules (`break-inside`, `break-after`) as pages.
 import { expect } from 'chai';
 import { render } from 'lit';
@@ -80,6 +82,51 @@ describe('the printed sheet across the page: every template at A4\'s printable w
 });
 
 /**
+ * Where a name cell's text wraps: the index of each character that starts a new line.
+ * Each character's box from a Range over it, read as laid out.
+ */
+function lineStarts(td: Element): { text: string; starts: number[]; widthOf: (from: number, to: number) => number } {
+  const nodes: Text[] = [];
+  const walk = document.createTreeWalker(td, NodeFilter.SHOW_TEXT);
+  while (walk.nextNode()) nodes.push(walk.currentNode as Text);
+  const chars = nodes.flatMap((n) => [...n.data].map((_, i) => ({ n, i })));
+  const range = document.createRange();
+  const rects = chars.map(({ n, i }) => { range.setStart(n, i); range.setEnd(n, i + 1); return range.getBoundingClientRect(); });
+  const starts = rects.flatMap((r, i) => (i > 0 && r.top > rects[i - 1].top + r.height / 2 ? [i] : []));
+  return { text: chars.map(({ n, i }) => n.data[i]).join(''), starts, widthOf: (from, to) => rects.slice(from, to).reduce((w, r) => w + r.width, 0) };
+}
+
+describe('the printed sheet\'s name columns: every template at A4\'s printable width', function () {
+  this.timeout(20000);
+  afterEach(() => document.querySelectorAll('body > div').forEach((d) => d.remove()));
+
+  it('a name breaks only after an underscore, unless the part between underscores is wider than its column', async () => {
+    const problems: string[] = [];
+    let wrapped = 0;
+    for (const t of TEMPLATES) {
+      const { root } = await sheetIn(t.doc, reportOf(t.doc), PAGES.A4.w);
+      for (const td of root.querySelectorAll('td.name')) {
+        const { text, starts, widthOf } = lineStarts(td);
+        const style = getComputedStyle(td);
+        const room = td.clientWidth - parseFloat(style.paddingLeft) - parseFloat(style.paddingRight);
+        for (const at of starts) {
+          wrapped++;
+          if (text[at - 1] === '_') continue;
+          // the part of the name between underscores that the break cuts
+          const from = text.lastIndexOf('_', at - 1) + 1;
+          const to = text.indexOf('_', at) < 0 ? text.length : text.indexOf('_', at) + 1;
+          if (widthOf(from, to) <= room) problems.push(`${t.key}: "${text}" broken before "${text.slice(at)}" in ${sectionName(td)}`);
+        }
+      }
+      document.querySelectorAll('body > div').forEach((d) => d.remove());
+    }
+    expect(problems).to.deep.equal([]);
+    // the long names of the dosing and dating templates do wrap at A4's width: the check above was asked
+    expect(wrapped).to.be.greaterThan(0);
+  });
+});
+
+/**
  * What a section's heading must share a page with, by kind, when it all fits on one page: the
  * element itself, or `whole` for the section to the end.
  */
@@ -88,6 +135,32 @@ const KEPT_WITH_HEADING: Record<string, string> = {
   data: 'table, pre', fit: 'table', uncertainty: 'table.how-sure', compare: 'table', parameters: 'tbody tr',
   rate: 'whole', solve: 'whole', nca: 'whole',
 };
+
+/**
+ * What must share a page, where the two fit on one (with what the sheet keeps with them): pairs
+ * of a section's parts, the upper first. A run's chart with its answers, and its check against the
+ * exact solution with the lines above it; a fit's estimates with the chart of the fitted curve; a
+ * compare cell's scenario tables with its overlay chart; a sweep's chart with its folds.
+ */
+const KEPT_TOGETHER: Record<string, (section: Element) => Array<[Element | null, Element | null]>> = {
+  simulate: (s) => [
+    [s.querySelector(':scope > div.keep'), s.querySelector(':scope > table.results')],
+    ...[...s.querySelectorAll(':scope > p.check:not(.note)')].map((p): [Element | null, Element] => [p.previousElementSibling, p]),
+  ],
+  fit: (s) => [[s.querySelector(':scope > table.results'), s.querySelector(':scope > div.keep')]],
+  compare: (s) => [...s.querySelectorAll(':scope > table')].map((t): [Element, Element | null] => [t, s.querySelector(':scope > div.keep')]),
+  phase: (s) => [[s.querySelector(':scope > h3 + figure'), s.querySelector(':scope > h3 + figure + *')]],
+};
+
+/** A section's parts from `a` to `b` and those the page's end may not come between (`break-after` or `break-before: avoid`): [first, last]. */
+function keptRun(a: Element, b: Element): [Element, Element] {
+  const avoided = (x: Element, y: Element) => getComputedStyle(x).breakAfter === 'avoid' || getComputedStyle(y).breakBefore === 'avoid';
+  let first = a;
+  while (first.previousElementSibling && avoided(first.previousElementSibling, first)) first = first.previousElementSibling;
+  let last = b;
+  while (last.nextElementSibling && avoided(last, last.nextElementSibling)) last = last.nextElementSibling;
+  return [first, last];
+}
 
 /** The page (column) an element's first or last piece is on. */
 function pageOf(el: Element, box: HTMLDivElement, page: Page, piece: 'first' | 'last' = 'first'): number {
@@ -115,10 +188,19 @@ async function breaksOf(doc: Study, report: Report, page: Page, step = 24): Prom
     blank.style.height = '0px';
     // asked only of what fits on one page
     const fits = kept && kept.getBoundingClientRect().bottom - h2.getBoundingClientRect().top <= page.h && pageOf(kept, box, page, 'last') === 0;
+    const together = (kind && KEPT_TOGETHER[kind] ? KEPT_TOGETHER[kind](section) : [])
+      .filter((pair): pair is [Element, Element] => !!pair[0] && !!pair[1])
+      .filter(([a, b]) => {
+        const [first, last] = keptRun(a, b);
+        return last.getBoundingClientRect().bottom - first.getBoundingClientRect().top <= page.h && pageOf(last, box, page, 'last') === 0;
+      });
     for (let y = 0; y < page.h; y += step) {
       blank.style.height = `${y}px`;
       const at = `${sectionName(h2)} pushed ${y} px down`;
       if (fits && pageOf(h2, box, page) !== pageOf(kept, box, page, 'last')) problems.push(`${at}: its heading is on another page than its ${kind === 'rate' || kind === 'solve' || kind === 'nca' ? 'end' : KEPT_WITH_HEADING[kind!]}`);
+      for (const [a, b] of together) {
+        if (pageOf(a, box, page, 'last') !== pageOf(b, box, page)) problems.push(`${at}: "${b.textContent!.trim().slice(0, 40)}" overleaf from "${a.textContent!.trim().slice(0, 40)}"`);
+      }
       for (const f of section.querySelectorAll('figure, .keep')) {
         if (f.getBoundingClientRect().height <= page.h && pageOf(f, box, page) !== pageOf(f, box, page, 'last')) problems.push(`${at}: a ${f.localName === 'figure' ? 'chart' : 'chart and its caption'} cut by the page's end`);
       }
@@ -139,9 +221,11 @@ describe('the printed sheet page by page: wherever a page ends', function () {
   afterEach(() => document.querySelectorAll('body > div').forEach((d) => d.remove()));
   // between them: every kind of section that has a heading to keep (run with a schedule, law,
   // data, profile summary, fit, solve, phase line with a sweep, uncertainty, sensitivity, compare)
-  const keys = ['cooling-stock-pot', 'plasma-levels', 'two-level-infusion-dosing', 'harvested-stock-fold', 'flush-pump-settings'];
+  // and those where a run's check, a fit's or a compare cell's chart, or the last answers were seen apart from what they go with
+  const keys = ['cooling-stock-pot', 'plasma-levels', 'two-level-infusion-dosing', 'harvested-stock-fold', 'flush-pump-settings',
+    'oral-first-order-absorption', 'intermittent-iv-infusion', 'tank-changing-volume', 'bayesian-two-levels'];
   for (const key of keys) {
-    it(`${key}: each heading stays with what it introduces, no chart is cut, the closing words never stand alone, on A4 and on Letter`, async () => {
+    it(`${key}: each heading stays with what it introduces, a chart with its table, no chart is cut, the closing words never stand alone, on A4 and on Letter`, async () => {
       const doc = TEMPLATES.find((t) => t.key === key)!.doc;
       const report = reportOf(doc);
       for (const [name, page] of Object.entries(PAGES)) {

@@ -212,9 +212,28 @@ describe('study-sheet', () => {
     expect(line.querySelectorAll('circle').length).to.equal(2);
     const foldRow = root.querySelector('section.phase table:last-of-type tbody tr')!.textContent!;
     expect(foldRow).to.contain('125 tonne / year');
-    const paths = [...root.querySelectorAll('section.phase figure:last-of-type svg path[d]')].filter((p) => p.getAttribute('d'));
+    const paths = [...root.querySelectorAll('section.phase figure:last-of-type svg path[d]:not(.fold)')].filter((p) => p.getAttribute('d'));
     expect(paths.some((p) => p.getAttribute('stroke-dasharray') === 'none'), 'attractors drawn solid').to.equal(true);
     expect(paths.some((p) => p.getAttribute('stroke-dasharray') !== 'none'), 'repellers drawn dashed').to.equal(true);
+  });
+
+  it('marks the sweep\'s fold as a point where its two branches end, with a legend entry saying what it is, and draws no line for it', async () => {
+    const root = await sheetOf(fold);
+    const chart = root.querySelector('section.phase h3 + figure svg')!;
+    const legend = [...chart.querySelectorAll('g[transform] text')].map((t) => t.textContent);
+    expect(legend).to.deep.equal(['stable (attractor)', 'unstable', 'fold: two equilibria meet and vanish']);
+    // the harvested logistic r N (1 - N/K) - H folds at H = r K / 4, N = K / 2 (closed form): 125 tonne / year at 500 tonne for r = 0.5 / year, K = 1000 tonne
+    expect([...chart.querySelectorAll('g.labels text')].map((t) => t.textContent)).to.include('fold: H = 125 tonne / year');
+    const marks = [...chart.querySelectorAll(':scope > path.fold')];
+    expect(marks).to.have.length(1);
+    const [, cx, cy] = /^M([\d.]+) ([\d.]+)/.exec(marks[0].getAttribute('d')!)!.map(Number);
+    const d = Number(/L([\d.]+)/.exec(marks[0].getAttribute('d')!)![1]) - cx;
+    const centre = [cx, cy + d];
+    // the stable and the unstable branch both end at the mark
+    const ends = [...chart.querySelectorAll(':scope > path:not(.fold):not(.band)')].map((p) => p.getAttribute('d')!).filter((x) => x)
+      .map((x) => { const pts = [...x.matchAll(/[ML](-?[\d.]+),(-?[\d.]+)/g)].map((m) => [Number(m[1]), Number(m[2])]); return [pts[0], pts[pts.length - 1]]; });
+    const near = (p: number[]) => Math.hypot(p[0] - centre[0], p[1] - centre[1]) < 1;
+    expect(ends.filter((e) => e.some(near))).to.have.length(2);
   });
 
   it('fills a semi-stable point on the side the engine reports, the same side the screen fills', async () => {
