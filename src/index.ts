@@ -20,7 +20,7 @@ export type { Histogram, UncertaintyResult, PercentilePrecision, UncertainInput,
 export { runBand, type RunBand, type DrawnBand } from './output/run-band.ts';
 export { MAX_SAMPLES } from './study/types.ts';
 export { isKind } from './engine/report.ts';
-export type { GlanceEntry, GlanceKind } from './output/glance.ts';
+export type { GlanceEntry, GlanceKind, GlanceSure, GlanceInterval } from './output/glance.ts';
 export type { CellError, ProblemKind, MessagePart } from './engine/node.ts';
 export { parseExpression, type ParseResult, type ExprProblem } from './expression/parse.ts';
 export { evaluateExpression, type Lookup, type Value } from './expression/evaluate.ts';
