@@ -14,11 +14,12 @@ import { readyUnitsInBackground } from './ready-units.ts';
 import { ref } from 'lit/directives/ref.js';
 import { guard } from 'lit/directives/guard.js';
 import { hasFigures, pendingLine, pendingStyles } from './pending-line.ts';
+import { glancePanel, glancePanelStyles } from './glance-panel.ts';
 
 const DESCRIPTION_PLACEHOLDER = 'What this study is about (optional; printed on the sheet)';
 
 /**
- * The open study: its title, cautions, every cell in order with its result, and the tools to
+ * The open study: its title, cautions, its results at a glance (`glance-panel.ts`), every cell in order with its result, and the tools to
  * add, move, retitle and delete cells, undo and redo. Each change goes through the
  * controller as an engine edit; this element only renders.
  */
@@ -42,7 +43,7 @@ export class StudyView extends LitElement {
     return view;
   }
 
-  static override styles = [wrapFieldStyles, pendingStyles, css`
+  static override styles = [wrapFieldStyles, pendingStyles, glancePanelStyles, css`
     :host { display: block; }
     .bar { display: flex; flex-wrap: wrap; gap: 0.5rem; align-items: center; margin: 0.4rem 0 1rem; }
     .grow.title { font-size: 1.4rem; font-weight: 650; flex: 1 1 100%; color: #13202b; }
@@ -184,6 +185,7 @@ export class StudyView extends LitElement {
       <div class="grow description" data-text=${study.description || DESCRIPTION_PLACEHOLDER}><textarea class="description" data-field="description" rows="1" aria-label="What the study is about" placeholder=${DESCRIPTION_PLACEHOLDER} .value=${study.description ?? ''}
         @input=${(e: Event) => { growWith(e); c.edit({ type: 'describe', description: (e.target as HTMLTextAreaElement).value }, 'description'); }}></textarea></div>
       ${(report?.cautions ?? []).map((x) => html`<p class="caution" role="note"><strong>Caution.</strong> ${x.text}</p>`)}
+      ${glancePanel(report, study, c)}
       ${report?.warningParts?.length ? html`<section class="name-notes" aria-label="How this study's names are read">
         ${report.warningParts.map((p) => { const w = partsWords(study, p); return html`<p>${w[0].toUpperCase()}${w.slice(1)}.</p>`; })}</section>` : nothing}
       ${c.problem ? html`<p class="problem" role="alert">${c.problem}</p>` : nothing}

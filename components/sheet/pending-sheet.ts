@@ -2,7 +2,7 @@
  * The printed sheet's marks of cells still computing when it is printed (a Monte Carlo cell is
  * computed after every other cell, in slices; cells reading its names wait for it): a notice
  * under the header naming them and how far the work is, a line at the top of each such
- * section, and a mark beside each of their results at a glance. Their figures on the sheet are
+ * section, and (`glance-values.ts`) a mark beside each of their results at a glance. Their figures on the sheet are
  * the previous ones; the marks say so, so that no old figure reads as current. Layout only.
  */
 import { html, nothing, type TemplateResult } from 'lit';
@@ -44,11 +44,6 @@ export function pendingMark(id: string, r: CellReport | undefined, w: SheetPendi
   const what = p?.cell === id ? `Still computing: ${count(p)}.` : p ? `Waits for ${name(p.cell)}, still computing (${count(p)}).` : 'Still computing.';
   const figures = hasFigures(r) ? 'The figures below are from the previous inputs, not from the inputs printed on this sheet.' : 'No figures yet.';
   return html`<p class="pending-mark">${what} ${figures}</p>`;
-}
-
-/** The mark beside a result at a glance that comes from a pending cell. */
-export function pendingGlance(cell: string, w: SheetPending): TemplateResult | typeof nothing {
-  return w.pending.includes(cell) ? html` <span class="pending-glance">(previous inputs: still computing)</span>` : nothing;
 }
 
 /** The marks' print styles. */

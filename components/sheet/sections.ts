@@ -4,7 +4,7 @@
  * result; it lays out what the report holds.
  */
 import { html, nothing, type TemplateResult } from 'lit';
-import { isKind, KIND_LABELS, cellWords, closedFormWords, shownSolution, runBand, type RunBand, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type GlanceEntry, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
+import { isKind, KIND_LABELS, cellWords, closedFormWords, shownSolution, runBand, type RunBand, fieldWords, inspectorNotes, problemWords, residualSdReason, waitedOn, waitWords, type Cell, type CellReport, type Report, type ReportOf, type SimulationPlot, type SweepReport } from '../../src/index.ts';
 import { showQ, showValue, nameBreaks } from '../cells/common.ts';
 import { lineChart, type ChartLine, type ChartPoints } from './svg-chart.ts';
 import { phaseLine } from './phase-line.ts';
@@ -15,7 +15,8 @@ import { math } from './math.ts';
 import { fitPriorPart } from './fit-prior-sheet.ts';
 import { sensitivitySheet, compareSheet } from './scenario-sheet.ts';
 import { uncertaintySheet } from './uncertainty-sheet.ts';
-import { hasFigures, pendingGlance, pendingMark, type SheetPending } from './pending-sheet.ts';
+import { hasFigures, pendingMark, type SheetPending } from './pending-sheet.ts';
+import { glanceValue, glancePending } from '../glance-values.ts';
 
 const NONE_PENDING: SheetPending = { pending: [] };
 
@@ -29,20 +30,16 @@ const KIND_NAMES: Record<Cell['kind'], string> = { ...KIND_LABELS, nca: `${KIND_
 
 /**
  * Results at a glance, for the top of the sheet: the engine's `glance` list as it stands (it
- * chooses and orders them), each with the cell it comes from.
+ * chooses and orders them), each with the cell it comes from, and how sure where an
+ * uncertainty cell follows it (`glance-values.ts`, as the study view shows it).
  */
 export function glance(report: Report, study: { readonly cells: readonly Cell[] }, work: SheetPending = NONE_PENDING): TemplateResult | typeof nothing {
   const list = report.glance ?? [];
   if (!list.length) return nothing;
   const fromOf = (id: string) => { const c = report.cells.find((x) => x.id === id); return c?.title || id; };
-  const shown = (g: GlanceEntry) => g.waitsOn?.length ? `not computed: ${g.waitsOn.filter((id) => id !== g.cell).map((id) => `waits on ${cellWords(study, id)}`).join('; ') || 'waits'}`
-    : g.unavailable !== undefined ? g.unavailable
-    : g.notReachedBy ? `not reached by ${showQ(g.notReachedBy)}`
-    : g.kind === 'verdict' ? showValue(g.value)
-    : `${g.value ? showQ(g.value) : ''}${g.standardError ? ` ± ${showQ(g.standardError)} (SE)` : ''}`;
   return html`<section class="cell glance"><h2>Results at a glance</h2>
     <table><thead><tr><th>Result</th><th>Value</th><th>From</th></tr></thead>
-    <tbody>${list.map((g) => html`<tr><td class="name">${nameBreaks(g.name)}</td><td class="num">${shown(g)}${pendingGlance(g.cell, work)}</td><td class="from">${fromOf(g.cell)}</td></tr>`)}</tbody></table></section>`;
+    <tbody>${list.map((g) => html`<tr class=${g.sure ? 'with-sure' : ''}><td class="name">${nameBreaks(g.name)}</td><td class="num">${glanceValue(g, study, work)}${glancePending(g, work)}</td><td class="from">${fromOf(g.cell)}</td></tr>`)}</tbody></table></section>`;
 }
 
 /**

@@ -4,6 +4,7 @@ import { HISTOGRAM_CSS } from '../plots/histogram-plot.ts';
 import { cellWords, type Progress, type Report, type Study } from '../../src/index.ts';
 import { section, glance } from './sections.ts';
 import { pendingNotice, PENDING_SHEET_CSS } from './pending-sheet.ts';
+import { GLANCE_VALUE_CSS } from '../glance-values.ts';
 
 /** What the sheet's header says about the stored study. */
 export interface SheetMeta {
@@ -34,6 +35,7 @@ export class StudySheet extends LitElement {
     ${unsafeCSS(RANKING_CSS)}
     ${unsafeCSS(HISTOGRAM_CSS)}
     ${unsafeCSS(PENDING_SHEET_CSS)}
+    ${unsafeCSS(GLANCE_VALUE_CSS)}
     :host { display: block; color: #111; font: 10.5pt/1.4 Georgia, 'Times New Roman', serif; background: #fff; }
     header.doc { border-bottom: 2px solid #222; padding-bottom: 0.4rem; margin-bottom: 0.8rem; }
     h1 { font: 700 17pt/1.2 system-ui, sans-serif; margin: 0 0 0.3rem; }
@@ -75,6 +77,8 @@ export class StudySheet extends LitElement {
     .summary { font-style: italic; margin: 0.2rem 0 0.4rem; }
     section.glance h2 { border-bottom-width: 1.5px; }
     section.glance td.from { color: #444; font-size: 9pt; }
+    /* a result with how sure: the figures and the point value each on a line, wrapping in the column */
+    section.glance tr.with-sure td.num { white-space: normal; }
     .check { font-size: 9.5pt; margin: 0.2rem 0; }
     .note-text { white-space: pre-wrap; margin: 0.2rem 0; }
     .error { color: #8b0000; font-weight: 600; }

@@ -5,9 +5,14 @@
  * verdict, every question a run answered, the main results of each profile summary (Cmax,
  * tmax, AUCinf, t_half, CL, Vz) and every fitted estimate. In that order: verdicts first, then
  * answers, other chosen parameters, profile results, estimates; in document order within each.
+ * A result an uncertainty cell follows (its `of` names it) carries `sure`: how sure that cell
+ * is of it (glance-sure.ts); the choice and order of the list do not depend on it.
  */
 import type { Cell } from '../study/types.ts';
 import type { CellReport } from '../engine/report.ts';
+import { followingCell, sureOf, uncertaintyCellsByName, type GlanceSure } from './glance-sure.ts';
+
+export type { GlanceSure, GlanceInterval } from './glance-sure.ts';
 
 /** A quantity as the report gives it. */
 type Shown = { readonly value: number; readonly unit: string; readonly si: number; readonly truth?: boolean };
@@ -30,6 +35,12 @@ export interface GlanceEntry {
   readonly unavailable?: string;
   /** With `unavailable`: the cells its cell waits on (ids), for words. */
   readonly waitsOn?: readonly string[];
+  /**
+   * Where an uncertainty cell follows the result (a Ratebook addition): a verdict's probability
+   * of yes, a quantity's 95% interval, as that cell shows them, or why it has none. `value`
+   * stays the result at the point values.
+   */
+  readonly sure?: GlanceSure;
 }
 
 /** The profile summary's results that belong at a glance by default (names without the prefix). */
@@ -82,6 +93,14 @@ export function glanceOf(cells: readonly Cell[], reports: readonly CellReport[])
       for (const [name, e] of Object.entries(estimates)) out.push({ name, cell: cell.id, kind: 'estimate', value: e.value, standardError: e.standardError });
     }
   }
-  // a stable sort: document order within each kind
-  return ORDER.flatMap((kind) => out.filter((e) => e.kind === kind));
+  const sorted = ORDER.flatMap((kind) => out.filter((e) => e.kind === kind)); // stable: document order within each kind
+  const following = uncertaintyCellsByName(cells);
+  if (!following.size) return sorted;
+  return sorted.map((e) => {
+    const list = following.get(e.name);
+    if (!list || (!e.value && !e.notReachedBy)) return e;
+    const verdict = e.kind === 'verdict';
+    const u = followingCell(list, verdict);
+    return { ...e, sure: sureOf(e.name, verdict, u.id, (byId ??= new Map(reports.map((x) => [x.id, x]))).get(u.id)) };
+  });
 }
