@@ -56,13 +56,26 @@ export class CellElement<K extends CellKind> extends LitElement {
     });
   }
 
+  /** The cell as this element last asked for it, and the `cell` it was asked on (see `current`). */
+  private sent?: { readonly cell: CellDoc<K>; readonly on: CellDoc<K> };
+
+  /**
+   * The cell with this element's own edits in it: `cell` until the study hands a new one.
+   * Typing waits up to a moment for the engine's answer before the study renders, so a second
+   * field edited within it must build on the first field's edit, not on `cell` from before it.
+   */
+  protected get current(): CellDoc<K> {
+    return this.sent && this.sent.on === this.cell ? this.sent.cell : this.cell;
+  }
+
   /** Asks to change fields of the cell; edits with the same `key` in a row are one undo step. */
   protected edit(patch: Partial<CellDoc<K>>, key?: string): void {
-    this.replace({ ...this.cell, ...patch }, key);
+    this.replace({ ...this.current, ...patch }, key);
   }
 
   /** Asks to replace the cell by `cell` (for edits that remove a field). */
   protected replace(cell: CellDoc<K>, key?: string): void {
+    this.sent = { cell, on: this.cell };
     this.dispatchEvent(editEvent(cell, key ? `${this.cell.id}:${key}` : undefined));
   }
 
