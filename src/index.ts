@@ -6,6 +6,7 @@ export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts
 export { sameContent } from './study/same.ts';
 export { solutionEdit, solutionText, type SolutionEdit } from './study/use-solution.ts';
 export { splitAssignment, type Assignment } from './study/assignment.ts';
+export { withEstimateParameter, defaultEstimateName, defaultGuess } from './study/estimate-rules.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind, PlotScale, SolveCell, FitPrior, FitErrorModel, ParameterItem, ParameterSpread } from './study/types.ts';
 export type { SensitivityCell, CompareCell, CompareScenario } from './study/types.ts';
