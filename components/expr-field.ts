@@ -63,6 +63,11 @@ export class ExprField extends LitElement {
     .waiting:focus { outline: none; }
   `;
 
+  /** Takes focus with the cursor after the text. */
+  focusAtEnd(): void {
+    this.editor.focusAtEnd();
+  }
+
   override render() {
     const error = this.error;
     return html`

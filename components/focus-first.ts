@@ -9,8 +9,8 @@ const TYPING = 'input:not([type]), input[type="text"], input[type="number"], inp
 const CONTROL = 'input:not([type="hidden"]), select, button, [tabindex="0"]';
 
 /**
- * Focuses the first field under `root` that takes typing, else its first control, and scrolls
- * it into view; skips what is disabled or not displayed. Resolves with the element focused, or
+ * Focuses the first field under `root` that takes typing (a text box's text selected), else
+ * its first control, and scrolls it into view; skips what is disabled or not displayed. Resolves with the element focused, or
  * undefined. Cost: one walk.
  */
 export async function focusFirstField(root: Element): Promise<HTMLElement | undefined> {
@@ -19,6 +19,8 @@ export async function focusFirstField(root: Element): Promise<HTMLElement | unde
   const shown = usable.filter((el) => !(el as HTMLInputElement).disabled && el.getClientRects().length > 0);
   const target = shown.find((el) => el.matches(TYPING)) ?? shown.find((el) => el.matches(CONTROL));
   target?.focus();
+  // a new cell's default text (a name such as `k`) is selected, so that typing replaces it
+  if (target instanceof HTMLInputElement && target.matches(TYPING)) target.select();
   // an editor's content may take focus without scrolling to it: bring it into view
   target?.scrollIntoView({ block: 'nearest' });
   return target;

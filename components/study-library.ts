@@ -7,13 +7,15 @@ import type { Study } from '../src/index.ts';
 
 /** The home page: the studies kept on this device, new ones (blank or from a template), import, and the trash. */
 export class StudyLibrary extends LitElement {
-  static override properties = { studies: { state: true }, trash: { state: true }, damaged: { state: true }, problem: { state: true }, filter: { state: true }, notice: { state: true }, loaded: { state: true }, renaming: { state: true } };
+  static override properties = { studies: { state: true }, trash: { state: true }, damaged: { state: true }, problem: { state: true }, imported: { state: true }, filter: { state: true }, notice: { state: true }, loaded: { state: true }, renaming: { state: true } };
   studies: StudySummary[] = [];
   damaged: DamagedStudy[] = [];
   /** False until the first listing answered (so "No studies yet" is never said before it is known). */
   loaded = false;
   trash: TrashedStudy[] = [];
   problem?: string;
+  /** What became of the last file imported, said beside the import control (the top of the page may be screens away). */
+  imported?: { text: string; problem: boolean; id?: string };
   notice?: { text: string; undo?: () => void };
   filter = '';
   /** The id of the study whose title is being edited in place. */
@@ -116,7 +118,8 @@ export class StudyLibrary extends LitElement {
         <div class="templates">${templates.filter((t) => t.group === group).map((t) => html`<button class="template" data-template=${t.key} @click=${() => this.create(t.doc)}><strong>${t.title}</strong><span>${t.description}</span></button>`)}</div>`)}
       ${q && templates.length === 0 ? html`<p class="empty">No template matches "${this.filter}".</p>` : nothing}
       <h2>Import</h2>
-      <label>Open a study file (.ratebook.json): <input type="file" accept=".json,application/json" @change=${this.importFile} /></label>
+      <label>Open a study file (.ratebook.json): <input type="file" accept=".json,application/json" aria-describedby="import-result" @change=${this.importFile} /></label>
+      ${this.imported ? html`<p id="import-result" class=${this.imported.problem ? 'problem' : 'notice'} role=${this.imported.problem ? 'alert' : 'status'}>${this.imported.text}${this.imported.id ? html` <a href="#/study/${this.imported.id}">Open it</a>` : nothing}</p>` : nothing}
       ${this.trash.length ? html`<h2>Trash</h2><button class="purge" @click=${this.emptyTrash}>Empty the trash</button><ul>${this.trash.map((s) => html`<li>
         <span class="t">${s.title} <span class="when">deleted ${when(s.deleted)}</span></span>
         <button aria-label="Restore ${s.title}" @click=${() => this.restore(s.id)}>Restore</button></li>`)}</ul>` : nothing}`;
@@ -214,21 +217,21 @@ export class StudyLibrary extends LitElement {
     const input = e.target as HTMLInputElement;
     const file = input.files?.[0];
     if (!file) return;
+    this.imported = undefined;
     let r: store.ImportResult;
     try {
       r = await store.importStudy(await file.text());
     } catch (err) {
       input.value = '';
-      this.problem = `${file.name} was not imported: ${message(err)}`;
+      this.imported = { text: `${file.name} was not imported: ${message(err)}`, problem: true };
       return;
     }
     input.value = '';
     if (!r.ok) {
-      this.problem = `${file.name} was not imported${r.path ? ` (at ${r.path})` : ''}: ${r.message}. Your studies are unchanged.`;
+      this.imported = { text: `${file.name} was not imported${r.path ? ` (at ${r.path})` : ''}: ${r.message}. Your studies are unchanged.`, problem: true };
       return;
     }
-    this.problem = undefined;
-    this.notice = { text: `Imported "${r.summary.title}" as a new study.` };
+    this.imported = { text: `Imported "${r.summary.title}" as a new study.`, problem: false, id: r.summary.id };
     await this.refresh();
   };
 }

@@ -5,6 +5,8 @@ export type { Replacement, WhatIf, WhatIfAnswer, WhatIfPrepared, WhatIfResult } 
 export { applyEdit, freshId, type Edit, type EditOutcome } from './study/edit.ts';
 export { sameContent } from './study/same.ts';
 export { solutionEdit, solutionText, shownSolution, type SolutionEdit } from './study/use-solution.ts';
+export { splitAssignment, type Assignment } from './study/assignment.ts';
+export { withEstimateParameter, defaultEstimateName, defaultGuess } from './study/estimate-rules.ts';
 export { readStudy, type Problem, type ReadResult } from './study/validate.ts';
 export type { Study, Cell, CellKind, PlotScale, SolveCell, FitPrior, FitErrorModel, ParameterItem, ParameterSpread } from './study/types.ts';
 export type { SensitivityCell, CompareCell, CompareScenario } from './study/types.ts';

@@ -1,5 +1,5 @@
 import { html, nothing, css } from 'lit';
-import { formatNumber, type FitErrorModel, type FitPrior, type PlotScale, type ReportOf, type ResidualColumns, type SimulationPlot } from '../../src/index.ts';
+import { formatNumber, withEstimateParameter, type FitErrorModel, type FitPrior, type PlotScale, type ReportOf, type ResidualColumns, type SimulationPlot } from '../../src/index.ts';
 import { cellStyles, plotScaleError, withPlotScale, showQ } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import '../expr-field.ts';
@@ -74,7 +74,7 @@ export class FitCellElement extends CellElement<'fit'> {
           const res = estimates[e.as];
           const p = `.estimate[${i}]`;
           return html`<tr>
-            <td data-label="Estimate"><input class="name" type="text" data-field="estimate[${i}].parameter" aria-label="Estimate ${i + 1}: parameter or state" .value=${e.parameter ?? ''} @input=${(ev: Event) => this.setEstimate(i, { parameter: (ev.target as HTMLInputElement).value }, `p${i}`)} />
+            <td data-label="Estimate"><input class="name" type="text" data-field="estimate[${i}].parameter" aria-label="Estimate ${i + 1}: parameter or state" .value=${e.parameter ?? ''} @input=${(ev: Event) => this.setParameter(i, (ev.target as HTMLInputElement).value)} />
               ${claims.take(`${p}.parameter`) ? html`<div class="foot-error">${claims.take(`${p}.parameter`)!.message}</div>` : nothing}</td>
             <td data-label="as"><input class="name" type="text" data-field="estimate[${i}].as" aria-label="Estimate ${i + 1}: name of the result" .value=${e.as ?? ''} @input=${(ev: Event) => this.setEstimate(i, { as: (ev.target as HTMLInputElement).value }, `as${i}`)} /></td>
             <td data-label="Guess"><expr-field data-field="estimate[${i}].guess" label="Estimate ${i + 1} guess" .value=${e.guess ?? ''} .names=${names} .error=${claims.take(`${p}.guess`)} @expr-input=${(ev: CustomEvent<{ value: string }>) => this.setEstimate(i, { guess: ev.detail.value }, `g${i}`)}></expr-field></td>
@@ -151,8 +151,15 @@ export class FitCellElement extends CellElement<'fit'> {
     this.edit({ observe });
   }
 
+  /** The estimate's parameter; its result name and guess follow while they are the defaults of the one before (`withEstimateParameter`). */
+  private setParameter(i: number, parameter: string) {
+    const e = this.current.estimate[i];
+    const next = withEstimateParameter(this.doc ?? { cells: [] }, e, parameter);
+    this.setEstimate(i, { parameter, as: next.as, guess: next.guess }, `p${i}`);
+  }
+
   private setEstimate(i: number, patch: Partial<Estimate>, key: string) {
-    const estimate = this.cell.estimate.map((e, j) => {
+    const estimate = this.current.estimate.map((e, j) => {
       if (j !== i) return e;
       const next = { ...e, ...patch } as Record<string, unknown>;
       for (const k of ['min', 'max', 'unit', 'prior']) if (next[k] === undefined) delete next[k];

@@ -1,5 +1,6 @@
 import { html, nothing, css, unsafeCSS } from 'lit';
-import type { ParameterValue, SpreadSetAside } from '../../src/index.ts';
+import { splitAssignment, type ParameterValue, SpreadSetAside } from '../../src/index.ts';
+import type { ExprField } from '../expr-field.ts';
 import { cellStyles, footError, NARROW_PX, showQ, showValue } from './common.ts';
 import { CellElement } from './cell-element.ts';
 import '../expr-field.ts';
@@ -62,10 +63,9 @@ export class ParametersCellElement extends CellElement<'parameters'> {
   }
 
   /** A name typed: the column grows at once (the view is drawn again only with the engine's answer). */
-  private typeName(j: number, name: string): void {
-    const others = this.cell.items.filter((_, i) => i !== j).map((it) => (typeof it?.name === 'string' ? it.name.length : 0));
+  private growNames(j: number, name: string): void {
+    const others = this.current.items.filter((_, i) => i !== j).map((it) => (typeof it?.name === 'string' ? it.name.length : 0));
     this.nameChars(Math.max(name.length, ...others));
-    this.change(j, { name }, `name${j}`);
   }
 
   /**
@@ -86,11 +86,13 @@ export class ParametersCellElement extends CellElement<'parameters'> {
         <tbody>
           ${items.map((item, j) => {
             const entry = values[item.name];
-            const nameError = claims.take(`.items[${j}].name`);
+            // no message on `k =` while the value is still to come
+            const taken = claims.take(`.items[${j}].name`);
+            const nameError = splitAssignment(item.name ?? '')?.value === '' ? undefined : taken;
             const who = item.name || `parameter ${j + 1}`;
             return html`<tr class="item">
               <td class="name"><input class="name" type="text" data-field="items[${j}].name" aria-label="Name of parameter ${j + 1}" title=${item.name ?? ''} .value=${item.name ?? ''}
-                @input=${(e: Event) => this.typeName(j, (e.target as HTMLInputElement).value)} />
+                @input=${(e: Event) => this.nameInput(j, e.target as HTMLInputElement)} @change=${(e: Event) => this.nameLeft(j, e.target as HTMLInputElement)} />
                 ${nameError ? html`<div class="foot-error" role="alert">${nameError.message}</div>` : nothing}</td>
               <td class="value"><expr-field data-field="items[${j}].value" label="Value of ${who}" .value=${item.value ?? ''} .names=${names}
                 .error=${claims.take(`.items[${j}].value`)}
@@ -153,7 +155,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
 
   /** Sets one end of the slider's range; with both ends blank the range is removed. */
   private setRange(j: number, end: 0 | 1, text: string) {
-    const item = this.cell.items[j];
+    const item = this.current.items[j];
     const range: [string, string] = Array.isArray(item.range) ? [item.range[0] ?? '', item.range[1] ?? ''] : ['', ''];
     range[end] = text;
     this.change(j, { range: range.every((r) => r.trim() === '') ? undefined : range }, `range${j}.${end}`);
@@ -172,23 +174,65 @@ export class ParametersCellElement extends CellElement<'parameters'> {
       }} />`;
   }
 
+  /**
+   * The name as typed; `k = 0.35 / h` typed or pasted there is the name `k` and its value,
+   * and typing goes on in the value's field, at its end (`splitAssignment`).
+   */
+  private nameInput(j: number, input: HTMLInputElement) {
+    const split = splitAssignment(input.value);
+    this.growNames(j, split && split.value !== '' ? split.name : input.value);
+    // `k =` so far stays the name as typed, until the value starts (a space typed next is not part of it)
+    if (!split || split.value === '') {
+      this.change(j, { name: input.value }, `name${j}`);
+      return;
+    }
+    input.value = split.name;
+    this.change(j, { name: split.name, value: split.value }, `name${j}`);
+    // the field is given its text here, before it takes focus: keys typed before the study's
+    // answer arrives go after the value, never into the value it had
+    const field = this.renderRoot.querySelector(`expr-field[data-field="items[${j}].value"]`) as ExprField | null;
+    if (!field) return;
+    field.value = split.value;
+    void field.updateComplete.then(() => field.focusAtEnd());
+  }
+
+  /** Leaving the name with `k =` in it and no value after: the name is k, the value as it was (the message of `k =` was held back). */
+  private nameLeft(j: number, input: HTMLInputElement) {
+    const split = splitAssignment(input.value);
+    if (split?.value !== '') return;
+    input.value = split.name;
+    this.growNames(j, split.name);
+    this.change(j, { name: split.name }, `name${j}`);
+  }
+
   private change(j: number, patch: Record<string, unknown>, key: string) {
-    const items = this.cell.items.map((it, i) => (i === j ? { ...it, ...patch } : it));
+    const items = this.current.items.map((it, i) => (i === j ? { ...it, ...patch } : it));
     for (const it of items) for (const k of ['note', 'unit', 'range', 'glance', 'spread'] as const) if (it[k] === undefined) delete it[k];
     this.edit({ items }, key);
   }
 
   private add = () => {
-    const used = new Set(this.cell.items.map((i) => i.name));
-    let n = this.cell.items.length + 1;
+    const items = this.current.items;
+    const used = new Set(items.map((i) => i.name));
+    let n = items.length + 1;
     while (used.has(`p${n}`)) n++;
-    const j = this.cell.items.length;
-    this.edit({ items: [...this.cell.items, { name: `p${n}`, value: '1' }] });
-    this.focusWhenShown(`input[data-field="items[${j}].name"]`);
+    this.edit({ items: [...items, { name: `p${n}`, value: '1' }] });
+    // the new row's name, selected: typing names it (or gives `name = value`)
+    const row = items.length;
+    void this.updateComplete.then(() => this.focusNewName(row, 0));
   };
 
+  /** Focuses the name field of row `j` once it is drawn (the study's answer comes a moment later), its text selected. */
+  private focusNewName(j: number, tries: number) {
+    const input = this.renderRoot.querySelector(`input.name[data-field="items[${j}].name"]`) as HTMLInputElement | null;
+    if (input) {
+      input.focus();
+      input.select();
+    } else if (tries < 20) requestAnimationFrame(() => this.focusNewName(j, tries + 1));
+  }
+
   private removeItem(j: number) {
-    this.edit({ items: this.cell.items.filter((_, i) => i !== j) });
+    this.edit({ items: this.current.items.filter((_, i) => i !== j) });
   }
 }
 

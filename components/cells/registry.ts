@@ -42,7 +42,12 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
   },
   phase: {
     label: 'Where it settles',
-    blank: (study) => ({ rate: firstRate(study)?.id ?? '', from: '0 mg / L', to: '20 mg / L' }),
+    // a range in the law's own unit (a temperature law's 0 to 20 degC, not 0 to 20 mg / L)
+    blank: (study) => {
+      const rate = firstRate(study) as Extract<Cell, { kind: 'rate' }> | undefined;
+      const unit = typeof rate?.unit === 'string' && rate.unit.trim() !== '' && rate.unit.trim() !== '1' ? ` ${rate.unit.trim()}` : rate ? '' : ' mg / L';
+      return { rate: rate?.id ?? '', from: `0${unit}`, to: `20${unit}` };
+    },
     render: (c, r, s, d) => html`<phase-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></phase-cell>`,
   },
   simulate: {

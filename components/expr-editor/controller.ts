@@ -79,6 +79,18 @@ export class ExprEditorController implements ReactiveController {
     this.syncValue();
   }
 
+  /** Takes focus with the cursor after the text (making the editor if it was waiting). */
+  focusAtEnd(): void {
+    if (!this.view) {
+      this.needed = true;
+      this.create();
+    }
+    const view = this.view;
+    if (!view) return;
+    view.focus();
+    view.dispatch({ selection: { anchor: view.state.doc.length }, annotations: fromHost.of(true) });
+  }
+
   hostDisconnected(): void {
     this.destroy();
   }

@@ -10,8 +10,8 @@ import { cellRef } from '../engine/node.ts';
 import type { NodeOutput, ReportQuantity } from '../engine/report.ts';
 import { type Field, field, usesOf, lookupFrom, finiteQuantityOf, FieldError, fail, guarded, shownAs } from './fields.ts';
 import { type Quantity, report, describe } from '../units/quantity.ts';
-import { sameDim, describeDim, TIME } from '../units/dimension.ts';
-import { type DisplayUnit, mulUnits, unitDim, NO_UNIT } from '../units/units.ts';
+import { sameDim, describeDim, TIME, TEMPERATURE } from '../units/dimension.ts';
+import { type DisplayUnit, formatUnit, mulUnits, unitDim, NO_UNIT } from '../units/units.ts';
 import { ncaProfile } from '../numerics/nca/nca.ts';
 import { quantitySig } from './signatures.ts';
 
@@ -46,6 +46,11 @@ function runNca(cell: NcaCell, at: string, prefix: string, doseField: Field, dur
   const tUnit = table.columns[ti].unit;
   const cUnit = table.columns[ci].unit;
   if (!sameDim(unitDim(tUnit), TIME)) fail(`${at}.time`, `the column "${cell.time}" must hold times; its unit is of ${describeDim(unitDim(tUnit))}`, 'unit');
+  // a temperature has no area under its curve, clearance or volume; on degC or degF its
+  // figures would be readings of the kelvin scale (74.1 degC read as 347.25)
+  if (sameDim(unitDim(cUnit), TEMPERATURE)) {
+    fail(`${at}.concentration`, `the column "${cell.concentration}" holds temperatures (${formatUnit(cUnit)}): a profile summary needs concentrations or amounts, such as mg / L`, 'unit');
+  }
   const lookup = lookupFrom(ctx);
   const dose = finiteQuantityOf(doseField, lookup);
   const duration = durationField ? finiteQuantityOf(durationField, lookup) : undefined;

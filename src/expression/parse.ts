@@ -184,11 +184,23 @@ function operator(n: any, next: (c: any) => Expr): Expr {
   throw new Refusal(`may not use the operator "${op}"${fn === 'mod' ? ' (remainder)' : ''}`, op);
 }
 
+/**
+ * mathjs reads a name before parentheses, `k (T - T_a)`, as a call of k, where a reader of
+ * the law means k times the bracket: says how to write the product. Not for an argument no
+ * product could take (text, an object) nor for several arguments.
+ */
+function multiplyHint(name: string, args: any[]): string {
+  if (args.length !== 1) return '';
+  const arg = args[0];
+  if (arg?.type === 'ObjectNode' || (arg?.type === 'ConstantNode' && typeof arg.value === 'string')) return '';
+  return `a name before brackets is read as a call; to multiply, write "${name} * (${arg.toString()})"; `;
+}
+
 function call(n: any, next: (c: any) => Expr): Expr {
   if (n.fn?.type !== 'SymbolNode') throw new Refusal('may only call functions by name, such as exp(x)', '(');
   const name: string = n.fn.name;
   if (!isFunctionName(name)) {
-    throw new Refusal(`may not call "${name}": the functions allowed are ${FUNCTION_NAMES.join(', ')} and pow`, name);
+    throw new Refusal(`may not call "${name}": ${multiplyHint(name, n.args)}the functions allowed are ${FUNCTION_NAMES.join(', ')} and pow`, name);
   }
   const args = n.args.map(next);
   if (name === 'pow') {

@@ -164,6 +164,22 @@ describe('the restricted syntax', () => {
     });
   }
 
+  // mathjs reads a symbol before parentheses as a function call, never as a product
+  // (mathjs documentation, "Expression syntax", implicit multiplication): the message says
+  // how to write the product a law such as dT/dt = -k (T - T_a) means
+  it('says how to multiply when a name stands before brackets', () => {
+    const r = parseExpression('-k (T - T_a)');
+    assert.ok(!r.ok);
+    if (!r.ok) {
+      assert.match(r.error.message, /may not call "k": a name before brackets is read as a call; to multiply, write "k \* \(T - T_a\)"/);
+      assert.deepEqual(r.error.span, [1, 2], 'the name is underlined');
+    }
+    const fixed = parseExpression('-k * (T - T_a)');
+    assert.ok(fixed.ok, 'the product it suggests parses');
+    const text = parseExpression('createUnit("furlong")');
+    assert.ok(!text.ok && !/to multiply/.test(text.error.message), 'no product suggested for a call with text');
+  });
+
   it('points at the refused part of the text', () => {
     const r = parseExpression('2 * createUnit("x")');
     assert.ok(!r.ok && r.error.span);

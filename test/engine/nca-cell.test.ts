@@ -44,3 +44,19 @@ it('puts bad data on the right cell and says why', () => {
   assert.match(wrong.error!.message, /no column "conc"/);
   assert.equal(wrong.error!.path, 'cells[1].concentration');
 });
+
+// A data cell of logger temperatures (a cooling curve) chosen as the concentration: NCA's
+// areas, clearance and volume are defined on concentrations (common practice); the old report
+// gave Cmax "347.25 degC", the kelvin reading of 74.1 degC (SI Brochure, 9th ed., table 4:
+// T/K = t/degC + 273.15) labelled in degC. Now the cell says so on its concentration field.
+it('refuses a temperature column as the concentration, on that field, with no figures', () => {
+  const cooling = { id: 'log', kind: 'data', columns: [{ name: 't', unit: 'h' }, { name: 'T', unit: 'degC' }], rows: [[0, 74.1], [0.25, 69.8], [0.5, 65.9], [0.75, 62.2], [1, 58.8]] };
+  for (const unit of ['degC', 'degF', 'K']) {
+    const [, pk] = run([{ ...cooling, columns: [cooling.columns[0], { name: 'T', unit }] },
+      { id: 'pk', kind: 'nca', data: 'log', time: 't', concentration: 'T', dose: '100 mg', route: 'iv-bolus' }]);
+    assert.equal(pk.ok, false, unit);
+    assert.equal(pk.error!.path, 'cells[1].concentration', unit);
+    assert.match(pk.error!.message, new RegExp(`column "T" holds temperatures \\(${unit}\\)`), unit);
+    assert.equal(Object.keys((pk.values as Record<string, Q> | undefined) ?? {}).length, 0, `no figures on ${unit}`);
+  }
+});
