@@ -1,7 +1,7 @@
 import { html, css, nothing, unsafeCSS, type PropertyDeclarations } from 'lit';
 import { live } from 'lit/directives/live.js';
 import type { CsvRead, CsvReadReport } from '../../src/index.ts';
-import { PASTE_ROW_LIMIT, roughRowCount } from '../../src/index.ts';
+import { PASTE_ROW_LIMIT, columnsFromPaste, roughRowCount } from '../../src/index.ts';
 import { cellStyles, NARROW_PX, type ErrorClaims } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import { ROW_PX, type EntryEdit } from './data-grid.ts';
@@ -28,7 +28,7 @@ const PREVIEW_LINES = 8;
  * engine; nothing is dropped.
  */
 export class DataCellElement extends CellElement<'data'> {
-  static override properties: PropertyDeclarations = { problem: { state: true }, read: { state: true }, reading: { state: true }, wholeText: { state: true } };
+  static override properties: PropertyDeclarations = { problem: { state: true }, read: { state: true }, reading: { state: true }, wholeText: { state: true }, pasted: { state: true } };
   /** The rows of the text last shown, counted once per text. */
   private counted?: { text: string; rows: number };
   /** The whole of a long CSV text is shown in the text box (asked for). */
@@ -38,6 +38,8 @@ export class DataCellElement extends CellElement<'data'> {
   read?: CsvReadReport;
   /** A read into a table under way: rows read so far, about how many there are, what is read. */
   reading?: { rowsRead: number; rows: number; what: string; stop: AbortController };
+  /** A paste gave a new cell the header's columns: the note that says so, while the cell has those columns. */
+  pasted?: { note: string; columns: string };
   /** The read into a table last started, settled when it has been applied or refused (for tests). */
   converted?: Promise<void>;
   static override styles = [cellStyles, css`
@@ -62,6 +64,11 @@ export class DataCellElement extends CellElement<'data'> {
     ol.csv-rows code { background: #fdeceb; padding: 0 0.2rem; }
   `];
 
+  override willUpdate(): void {
+    // the note goes with the columns it speaks of (gone after an undo, or a column renamed)
+    if (this.pasted && this.pasted.columns !== JSON.stringify(this.cell.columns)) this.pasted = undefined;
+  }
+
   override render() {
     const c = this.cell;
     const claims = this.claims;
@@ -84,7 +91,7 @@ export class DataCellElement extends CellElement<'data'> {
           ${this.importControl()}
         </div>`}
       ${this.reading ? this.progress(this.reading) : nothing}
-      ${c.csv === undefined && this.read ? csvReport(this.read, 'Read from the CSV text') : nothing}
+      ${c.csv === undefined && (this.read || this.pasted) ? csvReport(this.withPasteNote(this.read), 'Read from the CSV text') : nothing}
       ${this.report?.ok ? html`<p class="muted">${this.report.rowCount} rows${this.report.note ? `; ${this.report.note}` : ''}.</p>` : nothing}
       ${this.problem ? html`<p class="foot-error" role="alert">${this.problem}</p>` : nothing}
       ${this.footErrors()}`;
@@ -107,9 +114,15 @@ export class DataCellElement extends CellElement<'data'> {
       <div class="row columns"><span class="lbl">Columns</span>${columns.map((_, j) => html`<span class="column">${this.column(j, claims)}</span>`)}</div>
       ${this.textBox(this.cell.csv ?? '')}
       ${error && !read?.problems?.length ? html`<p class="foot-error" role="alert">${error.message}</p>` : nothing}
-      ${read ? csvReport(read, 'Read from the header and rows') : nothing}
+      ${read || this.pasted ? csvReport(this.withPasteNote(read), 'Read from the header and rows') : nothing}
       <div class="row"><button class="to-table" @click=${this.toTable} ?disabled=${!!this.reading}>Turn into a table</button>
         ${this.importControl()}</div>`;
+  }
+
+  /** The engine's notes of a read, after the note of a paste that gave the cell its columns. */
+  private withPasteNote(read: CsvReadReport | undefined): CsvReadReport {
+    const notes = [...(this.pasted ? [this.pasted.note] : []), ...(read?.notes ?? [])];
+    return { ...(read ?? {}), notes };
   }
 
   /** The CSV text in a box to edit, or, when long, its first lines and the count of the rest. */
@@ -159,6 +172,17 @@ export class DataCellElement extends CellElement<'data'> {
     }
     const area = e.target as HTMLTextAreaElement;
     const value = area.value.slice(0, area.selectionStart) + text + area.value.slice(area.selectionEnd);
+    // a new, empty cell takes the header's columns with the text: one edit, one undo
+    const fresh = columnsFromPaste(this.cell, value);
+    if (fresh) {
+      e.preventDefault();
+      this.problem = undefined;
+      this.read = undefined;
+      this.pasted = { note: fresh.note, columns: JSON.stringify(fresh.columns) };
+      if (value === text) this.counted = { text, rows };
+      this.replace({ ...this.cell, csv: value, columns: fresh.columns });
+      return;
+    }
     if (rows <= LONG_TEXT_ROWS && roughRowCount(value) <= LONG_TEXT_ROWS) return;
     e.preventDefault();
     this.problem = undefined;

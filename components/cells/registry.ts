@@ -4,6 +4,7 @@
  */
 import { html, type TemplateResult } from 'lit';
 import type { Cell, CellReport, Report } from '../../src/index.ts';
+import { NEW_DATA_COLUMNS, NEW_DATA_ROWS } from '../../src/index.ts';
 import './parameters-cell.ts';
 import './rate-cell.ts';
 import './simulate-cell.ts';
@@ -63,7 +64,7 @@ export const KINDS: Record<Cell['kind'], KindInfo> = {
   },
   data: {
     label: 'Measurements',
-    blank: () => ({ columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg / L' }], rows: [[0, null], [1, null]] }),
+    blank: () => ({ columns: NEW_DATA_COLUMNS.map((c) => ({ ...c })), rows: NEW_DATA_ROWS.map((r) => [...r]) }),
     render: (c, r, s, d) => html`<data-cell .cell=${c} .report=${r} .study=${s} .doc=${d}></data-cell>`,
   },
   fit: {

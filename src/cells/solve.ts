@@ -33,6 +33,7 @@ export function solveNodes(cell: SolveCell, at: string): Array<GraphNode<NodeOut
   const problems: CellError[] = [];
   const vary = (cell.vary && typeof cell.vary === 'object' ? cell.vary : {}) as Partial<SolveCell['vary']>;
   const target = (cell.target && typeof cell.target === 'object' ? cell.target : {}) as Partial<SolveCell['target']>;
+  const emptyEquals = typeof target.equals === 'string' && target.equals.trim() === '';
   const opt = (v: unknown, path: string) => (v !== undefined ? field(v, path, problems) : undefined);
   const f: SolveFields = {
     min: opt(vary.min, `${at}.vary.min`),
@@ -41,8 +42,9 @@ export function solveNodes(cell: SolveCell, at: string): Array<GraphNode<NodeOut
     guess: opt(vary.guess, `${at}.vary.guess`),
     choices: Array.isArray(vary.choices) ? vary.choices.map((c, i) => field(c, `${at}.vary.choices[${i}]`, problems)) : undefined,
     value: field(target.value, `${at}.target.value`, problems),
-    equals: field(target.equals, `${at}.target.equals`, problems),
+    equals: emptyEquals ? undefined : field(target.equals, `${at}.target.equals`, problems),
   };
+  // an empty wanted value is said when the node runs, with an example in the target's own unit
   const parameter = typeof vary.parameter === 'string' ? vary.parameter : '';
   const as = typeof vary.as === 'string' ? vary.as : '';
   const uses: Use[] = [
@@ -64,6 +66,7 @@ export function solveNodes(cell: SolveCell, at: string): Array<GraphNode<NodeOut
     problems,
     run: (ctx) => {
       try {
+        if (emptyEquals) return guarded(() => fail(`${at}.target.equals`, emptyEqualsWords(f.value, ctx), 'syntax'));
         return guarded(() => runSolve(at, parameter, as, f, ctx));
       } catch (err) {
         if (err instanceof Refused) return { ok: false, error: err.error, output: err.output };
@@ -71,6 +74,20 @@ export function solveNodes(cell: SolveCell, at: string): Array<GraphNode<NodeOut
       }
     },
   }];
+}
+
+const EMPTY_EQUALS = 'equals is empty: write the value the target must equal, in the target\'s unit';
+
+/**
+ * The words for an empty wanted value: an example in the target's own unit, its value now
+ * (`such as "8.274 mg / L", the value of trough now`), else the plain words when the target has
+ * no value now (a level not reached, a name waiting on another cell).
+ */
+export function emptyEqualsWords(value: Field | undefined, ctx: RunContext): string {
+  if (!value || ctx.mode === 'check') return EMPTY_EQUALS;
+  const e = evaluateExpression(value.expr, lookupFrom(ctx));
+  if (!e.ok || typeof e.value === 'boolean' || !Number.isFinite(e.value.si)) return EMPTY_EQUALS;
+  return `equals is empty: write the value ${value.text.trim()} must equal, in its unit, such as "${describe(e.value)}" (its value now)`;
 }
 
 /** A search that found no answer: its error, and what it found on the way (the target's range). */

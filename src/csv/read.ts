@@ -44,10 +44,10 @@ export interface CsvRowProblem {
 
 export type CsvEntry = number | string | null;
 
-/** What reading gives: the table, or why not (with every refused row). `notes` say what was interpreted. */
+/** What reading gives: the table, or why not (with every refused row, and then the columns read). `notes` say what was interpreted. */
 export type CsvRead =
   | { ok: true; columns: CsvColumn[]; rows: CsvEntry[][]; notes: string[]; start?: string }
-  | { ok: false; message: string; problems: CsvRowProblem[]; notes: string[] };
+  | { ok: false; message: string; problems: CsvRowProblem[]; notes: string[]; columns?: CsvColumn[] };
 
 export interface CsvReadOptions {
   /** When the header's columns match the cell's neither by name nor by position, take the header's (names and units). */
@@ -146,7 +146,8 @@ export function readCsvTable(text: string, declared: readonly DeclaredColumn[], 
   });
   if (comma !== undefined) notes.push(`decimal commas read as decimal points ("${comma}" as ${entryOf(comma, true)})`);
   if (start !== undefined) notes.push(`times are ${timeFormat === 'clock' ? 'clock times' : 'dates and times'}, read as ${columns[0].unit} since the first row; starts ${start}`);
-  if (problems.length) return fail(`${rowMessage(problems[0])}${problems.length > 1 ? ` (and ${problems.length - 1} more row${problems.length > 2 ? 's' : ''} refused)` : ''}`, problems);
+  // the columns were read all the same: a refused row does not unmake the header
+  if (problems.length) return { ...fail(`${rowMessage(problems[0])}${problems.length > 1 ? ` (and ${problems.length - 1} more row${problems.length > 2 ? 's' : ''} refused)` : ''}`, problems), columns };
   return { ok: true, columns, rows, notes, ...(start !== undefined ? { start } : {}) };
 }
 
