@@ -9,6 +9,7 @@ import type { SheetMeta } from './sheet/study-sheet.ts';
 import { loadSheet } from './sheet/load.ts';
 import { growWith, wrapField, wrapFieldStyles } from './wrap-field.ts';
 import { focusFirstField } from './focus-first.ts';
+import { focusBefore, keepFocus } from './keep-focus.ts';
 import { keepClear } from './expr-editor/keep-clear.ts';
 import { readyUnitsInBackground } from './ready-units.ts';
 import { ref } from 'lit/directives/ref.js';
@@ -57,6 +58,7 @@ export class StudyView extends LitElement {
     .name-notes p { margin: 0.25rem 0; }
     .caution { border-left: 4px solid #a85d00; background: #fff3df; padding: 0.55rem 0.9rem; margin: 0 0 0.8rem; color: #3d2a00; }
     /* position: a paint layer of its own, so a redraw of one cell repaints that cell, not the page */
+    article:focus { outline: 2px solid #1d5fa8; outline-offset: 2px; }
     article { position: relative; border: 1px solid #c9d1d8; border-radius: 6px; background: #fff; margin: 0 0 0.9rem; padding: 0.6rem 0.9rem 0.7rem; break-inside: avoid; contain: layout style; }
     /* a large study: cells far from the view are neither laid out nor painted (each editor made measures the page);
        they count as 11rem tall. Not 'auto 11rem': the remembered sizes cost up to 16 layout passes in one task */
@@ -139,9 +141,23 @@ export class StudyView extends LitElement {
     const key = e.key.toLowerCase();
     const target = e.composedPath()[0] as HTMLElement | undefined;
     if (target && (target.tagName === 'INPUT' || target.tagName === 'TEXTAREA') && (target as HTMLInputElement).type !== 'range' && (target as HTMLInputElement).type !== 'checkbox') return;
-    if (key === 'z' && !e.shiftKey) { e.preventDefault(); this.controller.undo(); }
-    else if ((key === 'z' && e.shiftKey) || key === 'y') { e.preventDefault(); this.controller.redo(); }
+    if (key === 'z' && !e.shiftKey) { e.preventDefault(); this.step('undo'); }
+    else if ((key === 'z' && e.shiftKey) || key === 'y') { e.preventDefault(); this.step('redo'); }
   };
+
+  /** Undoes or redoes a step; when it removes the field with focus, focus goes to its cell (`keep-focus.ts`). */
+  private step(which: 'undo' | 'redo'): void {
+    const root = this.shadowRoot;
+    const before = root ? focusBefore(root, (id) => this.controller.study?.cells.find((x) => x.id === id)?.kind) : undefined;
+    if (which === 'undo') this.controller.undo(); else this.controller.redo();
+    if (root) void keepFocus(root, before, (kind) => this.addButton(kind));
+  }
+
+  /** The Add bar's button for cells of `kind`. */
+  private addButton(kind: string): HTMLElement | undefined {
+    const label = KINDS[kind as Cell['kind']]?.label;
+    return [...this.renderRoot.querySelectorAll<HTMLElement>('.add button')].find((b) => b.textContent?.trim() === label);
+  }
 
   // One undo step per stretch of typing: an expression field holds its step open while it has
   // focus (its own undo covers the typing), and a commit or a move of focus ends the step.
@@ -175,8 +191,8 @@ export class StudyView extends LitElement {
       <div class="editing ${this.printing ? 'sheet-instead' : ''} ${study.cells.length > LARGE ? 'large' : ''}">
       <div class="bar">
         ${wrapField({ cls: 'title', field: 'title', label: 'Study title', value: study.title, onInput: (title) => c.edit({ type: 'retitle', title }, 'title') })}
-        <button ?disabled=${!c.canUndo} @click=${() => c.undo()} title="Undo (Ctrl+Z)">Undo</button>
-        <button ?disabled=${!c.canRedo} @click=${() => c.redo()} title="Redo (Ctrl+Shift+Z)">Redo</button>
+        <button ?disabled=${!c.canUndo} @click=${() => this.step('undo')} title="Undo (Ctrl+Z)">Undo</button>
+        <button ?disabled=${!c.canRedo} @click=${() => this.step('redo')} title="Redo (Ctrl+Shift+Z)">Redo</button>
         <input class="author" data-field="author" aria-label="Prepared by" placeholder="Prepared by (name)" .value=${study.author ?? ''}
           @input=${(e: Event) => c.edit({ type: 'author', author: (e.target as HTMLInputElement).value }, 'author')} />
         <button @click=${() => this.dispatchEvent(new CustomEvent('sheet-mode', { detail: { mode: 'sheet' }, bubbles: true, composed: true }))} title="The study as a document to print or save as PDF">Printable sheet</button>

@@ -86,16 +86,17 @@ export class CellElement<K extends CellKind> extends LitElement {
   }
 
   /** What to focus once a render shows it, and the time after which it is no longer awaited. */
-  private focusNext?: { readonly selector: string; readonly until: number };
+  private focusNext?: { readonly selector: string; readonly until: number; readonly how: (el: Element) => unknown };
 
   /**
    * Moves focus, once the cell is drawn with the edit just asked for, into the first field of
    * the element matching `selector` in the cell: after an add button (a scenario, a value, a
    * name), the keyboard goes on in what was added, not on the button below it. Given up after
-   * 10 s (an edit that never came back).
+   * 10 s (an edit that never came back). `how` focuses the element found, when its first field
+   * is not the place (a data table's new row, which the table draws itself).
    */
-  protected focusWhenShown(selector: string): void {
-    this.focusNext = { selector, until: performance.now() + 10_000 };
+  protected focusWhenShown(selector: string, how: (el: Element) => unknown = focusFirstField): void {
+    this.focusNext = { selector, until: performance.now() + 10_000, how };
   }
 
   protected override updated(changed: PropertyValues): void {
@@ -104,7 +105,7 @@ export class CellElement<K extends CellKind> extends LitElement {
     if (!next) return;
     const el = this.shadowRoot?.querySelector(next.selector);
     if (el || performance.now() > next.until) this.focusNext = undefined;
-    if (el) void focusFirstField(el);
+    if (el) void next.how(el);
   }
 
   /** At the cell's foot: what it waits on, once, and the errors no field took, each with its place in words. */

@@ -4,7 +4,7 @@ import type { CsvRead, CsvReadReport } from '../../src/index.ts';
 import { PASTE_ROW_LIMIT, columnsFromPaste, roughRowCount } from '../../src/index.ts';
 import { cellStyles, NARROW_PX, type ErrorClaims } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
-import { ROW_PX, type EntryEdit } from './data-grid.ts';
+import { ROW_PX, type EntryEdit, type DataGridElement } from './data-grid.ts';
 import { readCsvOffThread } from '../csv-client.ts';
 
 type DataCellDoc = CellDoc<'data'>;
@@ -213,7 +213,10 @@ export class DataCellElement extends CellElement<'data'> {
   }
 
   private addRow = () => {
+    const r = (this.cell.rows ?? []).length;
     this.edit({ rows: [...(this.cell.rows ?? []), this.cell.columns.map(() => null)] });
+    // the table draws its rows itself (a window of them): it is asked to draw and focus the new one
+    this.focusWhenShown('data-grid', (grid) => (grid as DataGridElement).focusEntry(r, 0));
   };
 
   private deleteRow(r: number) {
@@ -223,6 +226,7 @@ export class DataCellElement extends CellElement<'data'> {
   private addColumn = () => {
     const n = this.cell.columns.length + 1;
     this.edit({ columns: [...this.cell.columns, { name: `c${n}`, unit: '1' }], rows: (this.cell.rows ?? []).map((row) => [...row, null]) });
+    this.focusWhenShown(`input[data-field="columns[${n - 1}].name"]`);
   };
 
   /**

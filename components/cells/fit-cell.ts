@@ -184,6 +184,7 @@ export class FitCellElement extends CellElement<'fit'> {
   private addEstimate = () => {
     const n = (this.cell.estimate ?? []).length + 1;
     this.edit({ estimate: [...(this.cell.estimate ?? []), { parameter: 'k', as: `est${n}`, guess: '1' }] });
+    this.focusWhenShown(`input[data-field="estimate[${n - 1}].parameter"]`);
   };
 }
 

@@ -78,14 +78,14 @@ export class SimulateCellElement extends CellElement<'simulate'> {
         <summary>Schedule (${(c.events ?? []).length} event${(c.events ?? []).length === 1 ? '' : 's'})</summary>
         ${eventsTable({
           events: c.events ?? [], report: this.report, claims, names, firstState: () => this.firstState(),
-          setEvent: (i, ev, key) => this.setEvent(i, ev, key), setEvents: (events) => this.edit({ events }),
+          setEvent: (i, ev, key) => this.setEvent(i, ev, key), setEvents: (events) => this.edit({ events }), focus: (s) => this.focusWhenShown(s),
         })}
       </details>
       <details open>
         <summary>Questions (${(c.find ?? []).length})</summary>
         ${findsTable({
           finds: c.find ?? [], results, claims, names, firstState: () => this.firstState(),
-          setFind: (i, f, key) => this.setFind(i, f, key), setFinds: (find) => this.edit({ find }),
+          setFind: (i, f, key) => this.setFind(i, f, key), setFinds: (find) => this.edit({ find }), focus: (s) => this.focusWhenShown(s),
         })}
       </details>
       ${plotScaleError(claims.take('.plotScale'), (s) => this.setPlotScale(s))}

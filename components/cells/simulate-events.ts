@@ -25,6 +25,8 @@ export interface EventsHost {
   setEvents(events: EventDoc[]): void;
   /** The state a new event adds to. */
   firstState(): string;
+  /** Asks the cell to focus, once drawn, the element the selector finds: what was just added. */
+  focus(selector: string): void;
 }
 
 const ACTION_LABELS: Record<EventAction, string> = { add: 'add (dose)', set: 'set a parameter', infuse: 'infuse (rate)' };
@@ -70,11 +72,11 @@ export function eventsTable(h: EventsHost) {
             @expr-input=${(e: Input) => { const next = withTargetAt(ev, t, target, e.detail.value); if (next) h.setEvent(i, next, `amount${i}.${t}`); }}></expr-field>
           ${targets.length > 1 ? html`<button class="quiet" aria-label="Remove target ${target || t + 1} of event ${i + 1}" @click=${() => h.setEvent(i, withoutTargetAt(ev, t))}>✕</button>` : nothing}
         </div>`)}
-          <button class="quiet small" aria-label="Event ${i + 1}: add another target" @click=${() => { const next = withTargetAt(ev, targets.length, '', ''); if (next) h.setEvent(i, next); }}>+ target</button></td>
+          <button class="quiet small" aria-label="Event ${i + 1}: add another target" @click=${() => { const next = withTargetAt(ev, targets.length, '', ''); if (next) { h.setEvent(i, next); h.focus(`input[aria-label="Event ${i + 1} target ${targets.length + 1} name"]`); } }}>+ target</button></td>
         <td data-label=${kind === 'infuse' || ev.for !== undefined ? 'For' : nothing}>${kind === 'infuse' || ev.for !== undefined ? html`<expr-field data-field="events[${i}].for" label="Event ${i + 1} infusion duration" .value=${ev.for ?? ''} .names=${names} .error=${claims.take(`${p}.for`)}
           @expr-input=${(e: Input) => h.setEvent(i, { ...ev, for: e.detail.value }, `for${i}`)}></expr-field>` : nothing}</td>
         <td class="remove"><button class="quiet" aria-label="Remove event ${i + 1}" @click=${() => h.setEvents(events.filter((_, j) => j !== i))}>✕</button></td>
       </tr>`;
     })}</tbody></table></div>
-    <div class="row"><button @click=${() => h.setEvents([...events, { at: '0 h', add: { [h.firstState()]: '1' } }])}>Add an event</button></div>`;
+    <div class="row"><button @click=${() => { h.setEvents([...events, { at: '0 h', add: { [h.firstState()]: '1' } }]); h.focus(`expr-field[data-field="events[${events.length}].at"]`); }}>Add an event</button></div>`;
 }

@@ -25,6 +25,8 @@ export interface FindsHost {
   setFinds(finds: FindDoc[]): void;
   /** The state a new question asks about. */
   firstState(): string;
+  /** Asks the cell to focus, once drawn, the element the selector finds: what was just added. */
+  focus(selector: string): void;
 }
 
 const FIND_LABELS: Record<FindKind, string> = {
@@ -88,5 +90,5 @@ export function findsTable(h: FindsHost) {
           ${footError(claims.take(`${p}.glance`))}
         </div></details></td></tr>`;
     })}</tbody></table></div>
-    <div class="row"><button @click=${() => h.setFinds([...finds, { name: freshFindName(finds), maximum: h.firstState() } as FindDoc])}>Ask a question</button></div>`;
+    <div class="row"><button @click=${() => { h.setFinds([...finds, { name: freshFindName(finds), maximum: h.firstState() } as FindDoc]); h.focus(`input[data-field="find[${finds.length}].name"]`); }}>Ask a question</button></div>`;
 }

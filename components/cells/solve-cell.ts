@@ -66,10 +66,10 @@ export class SolveCellElement extends CellElement<'solve'> {
   private choiceFields(choices: readonly string[]) {
     return html`<div class="row"><span class="lbl">Choices</span>
       ${choices.map((x, i) => html`<span class="choice">
-        <expr-field class="w7 choice-field" data-field="vary.choices" label="Choice ${i + 1}" .value=${x} .names=${this.names} .error=${this.claims.take(`.vary.choices[${i}]`)}
+        <expr-field class="w7 choice-field" data-field="vary.choices" data-index=${i} label="Choice ${i + 1}" .value=${x} .names=${this.names} .error=${this.claims.take(`.vary.choices[${i}]`)}
           @expr-input=${(e: CustomEvent<{ value: string }>) => this.setVary({ choices: choices.map((y, j) => (j === i ? e.detail.value : y)) }, `choice${i}`)}></expr-field>
         <button class="quiet" aria-label="Remove choice ${i + 1}" ?disabled=${choices.length < 2} @click=${() => this.setVary({ choices: choices.filter((_, j) => j !== i) })}>✕</button></span>`)}
-      <button @click=${() => this.setVary({ choices: [...choices, choices[choices.length - 1] ?? ''] })}>Add a choice</button>
+      <button @click=${() => { this.setVary({ choices: [...choices, choices[choices.length - 1] ?? ''] }); this.focusWhenShown(`expr-field.choice-field[data-index="${choices.length}"]`); }}>Add a choice</button>
       ${footError(this.claims.take('.vary.choices'))}</div>`;
   }
 

@@ -22,6 +22,7 @@ export function parameterNodes(cell: ParametersCell, at: string): Array<GraphNod
     return {
       key: `${cell.id}/${j}`,
       cell: cell.id,
+      ownsFields: path,
       defines: name ? [{ name, path: `${path}.name` }] : [],
       uses: usesOf([value, ...range, spread?.sd, spread?.cv, spread?.from, spread?.to]),
       allowsTime: false,

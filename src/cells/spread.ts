@@ -5,6 +5,7 @@
  * own field (`items[j].spread.sd`).
  */
 import type { ParameterSpread } from '../study/types.ts';
+import { missingFigureWords } from '../study/spread-rules.ts';
 import type { CellError, InputSpread } from '../engine/node.ts';
 import type { SpreadReport } from '../engine/report.ts';
 import type { Lookup } from '../expression/evaluate.ts';
@@ -54,7 +55,7 @@ export function checkedSpread(name: string, q: Quantity, f: SpreadFields, lookup
   const unit = shownUnit(q);
   const inUnit = (si: number) => ({ ...q, si });
   const diff: Quantity = { si: 0, dim: q.dim, unit: deltaUnit(unit), ...(q.temp ? { temp: 'delta' as const } : {}) };
-  const missing = (key: string) => bad(`${f.path}.${key}`, `is missing: a ${f.distribution} spread needs ${key === 'sd' ? 'an SD' : key === 'cv' ? 'a CV' : `"${key}"`}`, 'shape');
+  const missing = (key: string) => bad(`${f.path}.${key}`, missingFigureWords(f.distribution, key), 'shape');
   switch (f.distribution) {
     case 'normal': {
       if (!f.sd) return missing('sd');

@@ -309,6 +309,13 @@ export interface GraphNode<O extends object = object> {
   readonly cycleHint?: string;
   /** Fails too with the problems the document check found in its cell (which go to a cell's first node). */
   readonly sharesShapeProblems?: boolean;
+  /**
+   * The path (relative to its cell, `@.items[2]`) of the fields this node alone holds: the
+   * document check's problems under it fail this node only, not the cell's first, so another
+   * item still runs and says its own errors, and a problem the check found is not found again
+   * by the node's run.
+   */
+  readonly ownsFields?: string;
   /** Changes whenever the node's own text changes; equal signatures mean the same node. */
   readonly signature: string;
   /** Problems found while building (field shape, syntax): the node fails with the first. */

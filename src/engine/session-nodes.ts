@@ -1,8 +1,9 @@
 /**
  * The graph nodes of a session's cells, kept from one evaluation to the next: a cell's nodes
  * are built again only when its content (or what its builder reads of other cells,
- * `buildContext`) changed. Field problems found by the document check fail a cell's first
- * node (and the nodes that share them) on their path. Split from session.ts.
+ * `buildContext`) changed. Field problems found by the document check fail, on their path,
+ * the node that owns the field (a parameter's item), else a cell's first node (and the nodes
+ * that share them). Split from session.ts.
  */
 import type { Cell } from '../study/types.ts';
 import type { Problem } from '../study/validate.ts';
@@ -52,12 +53,25 @@ export class CellNodes {
   }
 }
 
-/** Field problems found by the document check fail the cell's first node, on their path. */
+/**
+ * Field problems found by the document check fail, on their path, the node that owns the field
+ * (`ownsFields`: a parameter's item), else the cell's first node (and those sharing its problems).
+ */
 function withShapeProblems(cell: Cell, nodes: GraphNode[], problems: readonly Problem[] | undefined): GraphNode[] {
   if (!problems?.length) return nodes;
   const errors: CellError[] = problems.map((p) => ({ kind: 'shape', message: p.message, path: p.path.replace(/^cells\[\d+\]/, CELL_PATH) }));
   if (nodes.length === 0) {
     return [{ key: `${cell.id}/shape`, cell: cell.id, defines: [], uses: [], allowsTime: false, signature: JSON.stringify(errors), problems: errors, run: () => ({ ok: true, bindings: new Map(), output: {} }) }];
   }
-  return nodes.map((n, i) => (i === 0 || n.sharesShapeProblems ? { ...n, problems: [...errors, ...n.problems], signature: `${n.signature}|${JSON.stringify(errors)}` } : n));
+  const owner = (e: CellError) => nodes.findIndex((n) => n.ownsFields !== undefined && under(e.path, n.ownsFields));
+  const owned = errors.map(owner);
+  return nodes.map((n, i) => {
+    const mine = errors.filter((_, k) => (owned[k] === -1 ? i === 0 || n.sharesShapeProblems : owned[k] === i));
+    return mine.length ? { ...n, problems: [...mine, ...n.problems], signature: `${n.signature}|${JSON.stringify(mine)}` } : n;
+  });
+}
+
+/** Whether `path` is `prefix` or a field inside it (`@.items[1]` holds `@.items[1].spread.sd`, not `@.items[10]`). */
+function under(path: string, prefix: string): boolean {
+  return path === prefix || (path.startsWith(prefix) && (path[prefix.length] === '.' || path[prefix.length] === '['));
 }

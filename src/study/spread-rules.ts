@@ -12,6 +12,11 @@ export const SPREAD_FIGURES: Readonly<Record<Distribution, readonly ('sd' | 'cv'
   normal: ['sd'], lognormal: ['cv'], uniform: ['from', 'to'],
 };
 
+/** What a missing figure of a spread is said with, on that figure's field: `is missing: a normal spread needs an SD`. */
+export function missingFigureWords(distribution: string, figure: string): string {
+  return `is missing: a ${distribution} spread needs ${figure === 'sd' ? 'an SD' : figure === 'cv' ? 'a CV' : `"${figure}"`}`;
+}
+
 type Figures = Readonly<Partial<Record<'sd' | 'cv' | 'from' | 'to', string | number>>>;
 
 /** Figures set aside, by the distribution they were typed for (one parameter's). */

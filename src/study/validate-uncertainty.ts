@@ -4,7 +4,7 @@
  */
 import { DISTRIBUTIONS, MAX_SAMPLES, NAME_PATTERN, UNCERTAINTY_METHODS } from './types.ts';
 import { type Checker, isObject } from './checker.ts';
-import { SPREAD_FIGURES } from './spread-rules.ts';
+import { SPREAD_FIGURES, missingFigureWords } from './spread-rules.ts';
 
 /** A parameters item's `spread` (at `within`, `items[j]`). */
 export function checkSpread(spread: unknown, p: Checker, within: string): void {
@@ -18,8 +18,11 @@ export function checkSpread(spread: unknown, p: Checker, within: string): void {
   for (const f of ['sd', 'cv', 'from', 'to']) {
     if (spread[f] !== undefined && !wanted.includes(f)) p.add(`${p.at}.${path}.${f}`, `is not a figure of a ${spread.distribution} spread (it takes ${wanted.join(' and ')})`);
   }
-  if (spread.distribution === 'lognormal') p.numberOrExpr(spread, 'cv', path, false);
-  else for (const f of wanted) p.expr(spread, f, path);
+  for (const f of wanted) {
+    if (spread[f] === undefined) p.add(`${p.at}.${path}.${f}`, missingFigureWords(d, f));
+    else if (f === 'cv') p.numberOrExpr(spread, f, path, false);
+    else p.expr(spread, f, path);
+  }
 }
 
 /** An uncertainty cell's fields. */
