@@ -1,6 +1,6 @@
 import { html, nothing, css } from 'lit';
 import { runBand, cellWords, closedFormWords, type ClosedFormReport, type PlotScale, type SimulationPlot } from '../../src/index.ts';
-import { cellStyles, plotScaleError, withPlotScale, footError, showQ } from './common.ts';
+import { cellStyles, plotScaleError, withPlotScale, footError, showQ, NARROW_PX } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import { exportSeriesCsv } from '../series-csv.ts';
 import '../expr-field.ts';
@@ -28,6 +28,9 @@ export class SimulateCellElement extends CellElement<'simulate'> {
     .events td, .finds td { padding: 0.15rem 0.25rem; }
     .events expr-field, .finds expr-field { min-width: 4.5rem; }
     .scroll { overflow-x: auto; }
+    /* between the phone's stacked rows and a wide screen, the questions' seven columns share the
+       width: a long name scrolls in a box of 7rem, as before names grew (its whole text is the box's title) */
+    @media (min-width: ${NARROW_PX + 1}px) and (max-width: 1000px) { .finds input.name { max-width: 7rem; } }
     input.count { width: 4rem; }
     .target { display: flex; gap: 0.3rem; align-items: flex-start; margin-bottom: 0.2rem; }
     .repeats { margin-top: 0.2rem; white-space: normal; }
