@@ -11,6 +11,7 @@ import { StudyView } from '../../components/study-view.ts';
 import type { ExprField } from '../../components/expr-field.ts';
 import type { Study } from '../../src/index.ts';
 import { deep, until } from './helpers.ts';
+import { mountStudy } from './mount-study.ts';
 
 /** Invented numbers: a draining tank whose level is the state `h` (metres); time in hours. */
 const study = {
@@ -23,12 +24,7 @@ const study = {
 const settle = () => new Promise((r) => setTimeout(r, 150));
 
 async function open(): Promise<StudyView> {
-  const view = StudyView.create();
-  document.body.append(view);
-  const answered = new Promise<void>((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
-  view.controller.open('completion-states', structuredClone(study));
-  await answered;
-  await view.updateComplete;
+  const view = await mountStudy(study, 'completion-states');
   return view;
 }
 

@@ -8,6 +8,7 @@ import { StudyView } from '../../components/study-view.ts';
 import { FORMAT_FIELDS, FIXED_FIELDS, STUDY_FIELDS, FIXED_STUDY_FIELDS, fieldPathOf, fieldsIn } from '../../src/study/format-fields.ts';
 import type { Study } from '../../src/index.ts';
 import { deep, until } from './helpers.ts';
+import { mountStudy } from './mount-study.ts';
 
 /** Every field of every kind at least once (invented numbers, for the editor only). */
 export const EVERY_FIELD: Study = {
@@ -62,12 +63,7 @@ export const EVERY_FIELD: Study = {
 } as Study;
 
 async function mount(doc: Study): Promise<StudyView> {
-  const view = StudyView.create();
-  document.body.append(view);
-  const answered = new Promise<void>((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
-  view.controller.open('fields', structuredClone(doc));
-  await answered;
-  await view.updateComplete;
+  const view = await mountStudy(doc, 'fields');
   return view;
 }
 

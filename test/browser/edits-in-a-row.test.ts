@@ -11,6 +11,7 @@ import { StudyView } from '../../components/study-view.ts';
 import '../../components/cells/registry.ts';
 import type { Cell, Study } from '../../src/index.ts';
 import { deep, until } from './helpers.ts';
+import { mountStudy } from './mount-study.ts';
 
 /** Newton cooling, k with a uniform spread (invented numbers). */
 const STUDY: Study = {
@@ -37,12 +38,7 @@ const microtasks = async () => { for (let i = 0; i < 5; i++) await Promise.resol
 describe('edits in a row, before the engine answers', () => {
   beforeEach(async function () {
     this.timeout(30_000); // the engine worker's first answer can be slow under load
-    view = StudyView.create();
-    document.body.append(view);
-    const answered = new Promise<void>((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
-    view.controller.open('in-a-row', structuredClone(STUDY));
-    await answered;
-    await view.updateComplete;
+    view = await mountStudy(STUDY, 'in-a-row');
     await until(() => field('items[0].spread.to'), 'the spread fields');
   });
   afterEach(() => view.remove());

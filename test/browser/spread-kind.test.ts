@@ -10,6 +10,7 @@ import { StudyView } from '../../components/study-view.ts';
 import '../../components/cells/registry.ts';
 import type { Cell, Study } from '../../src/index.ts';
 import { deep, until } from './helpers.ts';
+import { mountStudy } from './mount-study.ts';
 
 /** Newton cooling; k has a normal spread whose SD the user typed (invented numbers). */
 const STUDY: Study = {
@@ -34,12 +35,7 @@ async function press(key: string, distribution: string | undefined) {
 describe('changing the distribution of a spread', () => {
   beforeEach(async function () {
     this.timeout(30_000); // the engine worker's first answer can be slow under load
-    view = StudyView.create();
-    document.body.append(view);
-    const answered = new Promise<void>((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
-    view.controller.open('spread-kind', structuredClone(STUDY));
-    await answered;
-    await view.updateComplete;
+    view = await mountStudy(STUDY, 'spread-kind');
     await until(() => select(), 'the spread select (its "more" is open: k has a spread)');
   });
   afterEach(() => view.remove());

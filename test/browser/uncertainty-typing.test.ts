@@ -9,6 +9,7 @@ import { StudyView } from '../../components/study-view.ts';
 import '../../components/cells/registry.ts';
 import type { Cell, Study } from '../../src/index.ts';
 import { deep, until } from './helpers.ts';
+import { mountStudy } from './mount-study.ts';
 
 /** Newton cooling with an uncertain k; the time to 40 degC and a verdict on it (invented numbers). */
 const STUDY: Study = {
@@ -28,12 +29,7 @@ const box = (field: string) => deep(view.shadowRoot!, 'uncertainty-cell')[0].sha
 describe('the uncertainty cell\'s boxes, typed', () => {
   beforeEach(async function () {
     this.timeout(30_000); // the engine worker's first answer can be slow under load
-    view = StudyView.create();
-    document.body.append(view);
-    const answered = new Promise<void>((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
-    view.controller.open('typing', structuredClone(STUDY));
-    await answered;
-    await view.updateComplete;
+    view = await mountStudy(STUDY, 'typing');
     await until(() => box('of'), 'the names box');
   });
   afterEach(() => view.remove());

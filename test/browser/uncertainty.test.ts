@@ -8,6 +8,7 @@ import { StudyView } from '../../components/study-view.ts';
 import '../../components/cells/registry.ts';
 import { runStudy, type Cell, type Study, type UncertaintyResult } from '../../src/index.ts';
 import { deep, until } from './helpers.ts';
+import { mountStudy } from './mount-study.ts';
 
 /** Newton cooling from 70 degC toward 20 degC; the time to 40 degC (invented numbers). */
 const COOLING: Study = {
@@ -28,12 +29,7 @@ const howReport = () => view.controller.report?.cells.find((c) => c.id === 'how'
 describe('a parameter\'s spread, by keyboard', () => {
   beforeEach(async function () {
     this.timeout(30_000); // the engine worker's first answer can be slow under load
-    view = StudyView.create();
-    document.body.append(view);
-    const answered = new Promise<void>((resolve) => { const off = view.controller.onAnswer(() => { off(); resolve(); }); });
-    view.controller.open('spread', structuredClone(COOLING));
-    await answered;
-    await view.updateComplete;
+    view = await mountStudy(COOLING, 'spread');
   });
   afterEach(() => view.remove());
 
