@@ -25,6 +25,7 @@ export { closedFormWords } from './output/closed-form-words.ts';
 export { MAX_SAMPLES } from './study/types.ts';
 export { isKind } from './engine/report.ts';
 export type { GlanceEntry, GlanceKind, GlanceSure, GlanceInterval } from './output/glance.ts';
+export { glanceWords, GLANCE_DONE, type GlanceWords, type GlanceWork, type GlanceSureState } from './output/glance-words.ts';
 export type { CellError, ProblemKind, MessagePart } from './engine/node.ts';
 export { parseExpression, type ParseResult, type ExprProblem } from './expression/parse.ts';
 export { evaluateExpression, type Lookup, type Value } from './expression/evaluate.ts';

@@ -18,8 +18,11 @@ export const KIND_LABELS: Readonly<Record<CellKind, string>> = {
 /** The cells of a study, as much of them as the words need. */
 export type CellsOf = { readonly cells: readonly Cell[] };
 
+/** The cells of a study as far as their names go: a document's, or a report's (the command line has only the report). */
+export type CellNames = { readonly cells: readonly { readonly id: string; readonly kind: CellKind; readonly title?: unknown }[] };
+
 /** A cell in words: its kind's label and its title, else its id: `Fit "k"`. Unknown ids are quoted as given. */
-export function cellWords(study: CellsOf, id: string): string {
+export function cellWords(study: CellNames, id: string): string {
   const cell = study.cells.find((c) => c.id === id);
   if (!cell) return `cell "${id}"`;
   const title = typeof cell.title === 'string' && cell.title.trim() ? cell.title.trim() : cell.id;

@@ -1,5 +1,6 @@
 /**
- * The report as a readable table for a terminal: one block per cell, quantities aligned. The
+ * The report as a readable table for a terminal: the title and cautions, the results at a glance
+ * (report-text-glance.ts), then one block per cell, quantities aligned. The
  * study-format contract fixes the JSON report (`--json`), not this table; its rows follow the
  * report's fields (a fit's `digits`, a Ratebook addition, in words beside its number), each figure
  * to 6 significant digits (a run's error against the exact solution to 2, a solve's answer to
@@ -11,6 +12,7 @@ import { formatNumber } from '../units/quantity.ts';
 import { unitAfterNumber } from '../units/units.ts';
 import { scenarioRows } from './report-text-scenarios.ts';
 import { uncertaintyRows } from './report-text-uncertainty.ts';
+import { glanceLines } from './report-text-glance.ts';
 
 interface Q { value: number; unit: string; si: number }
 
@@ -19,6 +21,8 @@ const HIDDEN = new Set(['id', 'kind', 'title', 'ok', 'error', 'errors', 'waitsOn
 export function formatReport(report: Report): string {
   const lines: string[] = [report.title, '='.repeat(Math.min(72, Math.max(8, report.title.length))), ''];
   for (const c of report.cautions ?? []) lines.push(`CAUTION: ${c.text}`, '');
+  const glance = glanceLines(report);
+  if (glance.length) lines.push(...glance, '');
   for (const cell of report.cells) lines.push(...formatCell(cell), '');
   const failed = report.cells.filter((c) => !c.ok).length;
   if (report.warnings.length) {
