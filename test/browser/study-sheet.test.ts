@@ -236,6 +236,22 @@ describe('study-sheet', () => {
     expect(ends.filter((e) => e.some(near))).to.have.length(2);
   });
 
+  it('spans the sweep chart\'s x axis over the swept range, 0 to 200 tonne / year, as the app\'s sweep plot does, not to where the branches end', async () => {
+    const root = await sheetOf(fold);
+    const chart = root.querySelector('section.phase h3 + figure svg')!;
+    // the tick labels under the plot, then the axis's name
+    const under = [...chart.querySelectorAll('text[text-anchor="middle"]:not([transform])')].map((t) => t.textContent!.trim());
+    expect(under.at(-1)).to.equal('H (tonne / year)');
+    expect(under[0]).to.equal('0');
+    expect(under.at(-2)).to.equal('200');
+    // the fold at H = r K / 4 = 125 tonne / year (closed form of the harvested logistic, r = 0.5 / year, K = 1000 tonne) sits 125/200 of the way across the plot
+    const plot = chart.querySelector('rect[fill="none"]')!;
+    const [x0, w] = [Number(plot.getAttribute('x')), Number(plot.getAttribute('width'))];
+    const mark = chart.querySelector(':scope > path.fold')!;
+    const [, cx] = /^M([\d.]+) /.exec(mark.getAttribute('d')!)!.map(Number);
+    expect((cx - x0) / w).to.be.closeTo(125 / 200, 0.02);
+  });
+
   it('fills a semi-stable point on the side the engine reports, the same side the screen fills', async () => {
     const root = await sheetOf(phaseLines);
     const report = reportOf(phaseLines);
