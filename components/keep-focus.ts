@@ -34,3 +34,19 @@ export async function keepFocus(root: ShadowRoot, before: FocusPlace | undefined
   target.focus();
   return target;
 }
+
+/**
+ * After a step taken from the Undo or Redo button `held`: once the view has drawn the step,
+ * when it left `held` disabled (nothing more to undo, or to redo) and focus with it, focus goes
+ * to `other`, the button that takes the step back (a keyboard user pressing Enter again stays
+ * on the bar, not at the top of the page). Resolves with the element focused, or undefined.
+ */
+export async function keepFocusOnBar(root: ShadowRoot, held: HTMLButtonElement | undefined, other: () => HTMLButtonElement | undefined): Promise<HTMLElement | undefined> {
+  if (!held) return undefined;
+  await new Promise((resolve) => setTimeout(resolve, 0));
+  if (!held.disabled || (root.activeElement && root.activeElement !== held)) return undefined;
+  const target = other();
+  if (!target || target.disabled) return undefined;
+  target.focus();
+  return target;
+}

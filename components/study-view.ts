@@ -9,7 +9,7 @@ import type { SheetMeta } from './sheet/study-sheet.ts';
 import { loadSheet } from './sheet/load.ts';
 import { growWith, wrapField, wrapFieldStyles } from './wrap-field.ts';
 import { focusFirstField } from './focus-first.ts';
-import { focusBefore, keepFocus } from './keep-focus.ts';
+import { focusBefore, keepFocus, keepFocusOnBar } from './keep-focus.ts';
 import { keepClear } from './expr-editor/keep-clear.ts';
 import { readyUnitsInBackground } from './ready-units.ts';
 import { ref } from 'lit/directives/ref.js';
@@ -145,12 +145,22 @@ export class StudyView extends LitElement {
     else if ((key === 'z' && e.shiftKey) || key === 'y') { e.preventDefault(); this.step('redo'); }
   };
 
-  /** Undoes or redoes a step; when it removes the field with focus, focus goes to its cell (`keep-focus.ts`). */
+  /**
+   * Undoes or redoes a step; when it removes the field with focus, focus goes to its cell; when
+   * it leaves the focused Undo (Redo) button disabled, to Redo (Undo) (`keep-focus.ts`).
+   */
   private step(which: 'undo' | 'redo'): void {
     const root = this.shadowRoot;
     const before = root ? focusBefore(root, (id) => this.controller.study?.cells.find((x) => x.id === id)?.kind) : undefined;
+    const held = root?.activeElement === this.stepButton(which) ? this.stepButton(which) : undefined;
     if (which === 'undo') this.controller.undo(); else this.controller.redo();
     if (root) void keepFocus(root, before, (kind) => this.addButton(kind));
+    if (root) void keepFocusOnBar(root, held, () => this.stepButton(which === 'undo' ? 'redo' : 'undo'));
+  }
+
+  /** The bar's Undo or Redo button. */
+  private stepButton(which: 'undo' | 'redo'): HTMLButtonElement | undefined {
+    return this.renderRoot.querySelector<HTMLButtonElement>(`.bar button[data-step="${which}"]`) ?? undefined;
   }
 
   /** The Add bar's button for cells of `kind`. */
@@ -191,8 +201,8 @@ export class StudyView extends LitElement {
       <div class="editing ${this.printing ? 'sheet-instead' : ''} ${study.cells.length > LARGE ? 'large' : ''}">
       <div class="bar">
         ${wrapField({ cls: 'title', field: 'title', label: 'Study title', value: study.title, onInput: (title) => c.edit({ type: 'retitle', title }, 'title') })}
-        <button ?disabled=${!c.canUndo} @click=${() => this.step('undo')} title="Undo (Ctrl+Z)">Undo</button>
-        <button ?disabled=${!c.canRedo} @click=${() => this.step('redo')} title="Redo (Ctrl+Shift+Z)">Redo</button>
+        <button data-step="undo" ?disabled=${!c.canUndo} @click=${() => this.step('undo')} title="Undo (Ctrl+Z)">Undo</button>
+        <button data-step="redo" ?disabled=${!c.canRedo} @click=${() => this.step('redo')} title="Redo (Ctrl+Shift+Z)">Redo</button>
         <input class="author" data-field="author" aria-label="Prepared by" placeholder="Prepared by (name)" .value=${study.author ?? ''}
           @input=${(e: Event) => c.edit({ type: 'author', author: (e.target as HTMLInputElement).value }, 'author')} />
         <button @click=${() => this.dispatchEvent(new CustomEvent('sheet-mode', { detail: { mode: 'sheet' }, bubbles: true, composed: true }))} title="The study as a document to print or save as PDF">Printable sheet</button>

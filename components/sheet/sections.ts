@@ -138,10 +138,16 @@ function sweepPart(cell: Of<'phase'>, sweep: SweepReport, state: string): Templa
   }
   const folds = { key: SWEEP_KEY.fold, at: sweep.folds.map((f) => ({ x: f.parameter.value, y: f.value.value, label: `fold: ${cell.sweep?.name} = ${showQ(f.parameter)}` })) };
   return html`<h3>As ${cell.sweep?.name} runs from ${cell.sweep?.from} to ${cell.sweep?.to}</h3>
-    ${first ? html`<figure>${lineChart({ label: summaryOr(sweep.summary, `equilibria of ${state} against ${cell.sweep?.name}`), xLabel: `${cell.sweep?.name} (${first.parameter.unit})`, yLabels: [`equilibrium (${first.value.unit})`], lines, folds, height: 220 })}</figure>` : nothing}
+    ${first ? html`<figure>${lineChart({ label: summaryOr(sweep.summary, `equilibria of ${state} against ${cell.sweep?.name}`), xLabel: `${cell.sweep?.name} (${first.parameter.unit})`, yLabels: [`equilibrium (${first.value.unit})`], lines, folds, xRange: sweptRange(sweep, first.parameter.unit), height: 220 })}</figure>` : nothing}
     ${sweep.folds.length ? html`<table class="follows"><thead><tr><th>Fold at ${cell.sweep?.name}</th><th>Equilibrium there</th></tr></thead>
       <tbody>${sweep.folds.map((f) => html`<tr><td class="num">${showQ(f.parameter)}</td><td class="num">${showQ(f.value)}</td></tr>`)}</tbody></table>`
       : html`<p class="follows">No fold: no two equilibria meet in this range.</p>`}`;
+}
+
+/** The swept range in the unit of the branches' points (the app's sweep plot spans it too), if the report gives it in that unit. */
+function sweptRange(sweep: SweepReport, unit: string): [number, number] | undefined {
+  const [a, b] = sweep.range ?? [];
+  return a && b && a.unit === unit && b.unit === unit ? [a.value, b.value] : undefined;
 }
 
 /** A run: its span, schedule, chart (with the band from an uncertainty cell's samples when it shows one, and its note) and answers. */

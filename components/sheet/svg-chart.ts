@@ -36,6 +36,8 @@ export interface ChartSpec {
   readonly marks?: ReadonlyArray<{ readonly x: number; readonly y: number; readonly label: string; readonly axis?: 0 | 1 }>;
   /** A sweep's folds: each a diamond (`foldMark`) with its label placed as a mark's, and one legend entry, `key`, for them all. */
   readonly folds?: { readonly key: string; readonly at: ReadonlyArray<{ readonly x: number; readonly y: number; readonly label: string }> };
+  /** The x axis spans exactly this range (a sweep's swept range), widened to the data's round ticks only when the data reaches past it. */
+  readonly xRange?: readonly [number, number];
   /** A horizontal line at zero (the rate in a phase plot). */
   readonly zeroLine?: boolean;
   /**
@@ -93,6 +95,15 @@ function axisRange(lo: number, hi: number): { lo: number; hi: number; ticks: num
   return b > a ? { lo: a, hi: b, ticks: ticks.filter((v) => v >= a - step * 1e-9 && v <= b + step * 1e-9), step } : { lo: a - step, hi: a + step, ticks: [a - step, a, a + step], step };
 }
 
+/** The x axis: exactly `range` (its ticks the round ones inside it) when the data keeps within it, else widened to the outer ticks of both. */
+function xAxisRange([lo, hi]: [number, number], range?: readonly [number, number]): { lo: number; hi: number; ticks: number[]; step: number } {
+  if (!range || !Number.isFinite(range[0]) || !Number.isFinite(range[1]) || range[0] === range[1]) return axisRange(lo, hi);
+  const a = Math.min(range[0], range[1]);
+  const b = Math.max(range[0], range[1]);
+  if (lo < a || hi > b) return axisRange(Math.min(lo, a), Math.max(hi, b));
+  return { lo: a, hi: b, ...niceTicks(a, b) };
+}
+
 /** A y axis: its ticks with their labels, and where a value sits on it (0 bottom, 1 top; null: nowhere). */
 interface YAxis { readonly ticks: number[]; readonly labels: string[]; readonly at: (v: number) => number | null }
 
@@ -127,7 +138,7 @@ export function lineChart(spec: ChartSpec): SVGTemplateResult {
   const pw = width - left - right;
   const ph = height - top - bottom;
   const xs = [...spec.lines.flatMap((l) => l.x), ...(spec.points ?? []).flatMap((p) => p.x), ...(spec.folds?.at ?? []).map((f) => f.x)];
-  const xr = axisRange(...extent(xs));
+  const xr = xAxisRange(extent(xs), spec.xRange);
   const yr = [0, 1].map((axis) => {
     const on = <T extends { axis?: 0 | 1 }>(list: readonly T[] | undefined) => (list ?? []).filter((l) => (l.axis ?? 0) === axis);
     const ys = [...on(spec.lines).flatMap((l) => l.y), ...on(spec.points).flatMap((p) => p.y), ...on(spec.bands).flatMap((b) => [...b.lo, ...b.hi]), ...on(spec.levels).map((l) => l.y), ...(spec.zeroLine && axis === 0 ? [0] : []), ...(axis === 0 ? (spec.folds?.at ?? []).map((f) => f.y) : [])];

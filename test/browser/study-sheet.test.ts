@@ -236,6 +236,39 @@ describe('study-sheet', () => {
     expect(ends.filter((e) => e.some(near))).to.have.length(2);
   });
 
+  it('spans the sweep chart\'s x axis over the swept range, 0 to 200 tonne / year, as the app\'s sweep plot does, not to where the branches end', async () => {
+    const root = await sheetOf(fold);
+    const chart = root.querySelector('section.phase h3 + figure svg')!;
+    // the tick labels under the plot, then the axis's name
+    const under = [...chart.querySelectorAll('text[text-anchor="middle"]:not([transform])')].map((t) => t.textContent!.trim());
+    expect(under.at(-1)).to.equal('H (tonne / year)');
+    expect(under[0]).to.equal('0');
+    expect(under.at(-2)).to.equal('200');
+    // the fold at H = r K / 4 = 125 tonne / year (closed form of the harvested logistic, r = 0.5 / year, K = 1000 tonne) sits 125/200 of the way across the plot
+    const plot = chart.querySelector('rect[fill="none"]')!;
+    const [x0, w] = [Number(plot.getAttribute('x')), Number(plot.getAttribute('width'))];
+    const mark = chart.querySelector(':scope > path.fold')!;
+    const [, cx] = /^M([\d.]+) /.exec(mark.getAttribute('d')!)!.map(Number);
+    expect((cx - x0) / w).to.be.closeTo(125 / 200, 0.02);
+  });
+
+  it('puts the sweep\'s fold label beside its diamond, in the room right of the fold, not at the end of a leader', async () => {
+    const root = await sheetOf(fold);
+    const chart = root.querySelector<SVGSVGElement>('section.phase h3 + figure svg')!;
+    const mark = chart.querySelector(':scope > path.fold')!;
+    const [, cx, top] = /^M([\d.]+) ([\d.]+)/.exec(mark.getAttribute('d')!)!.map(Number);
+    const d = Number(/L([\d.]+)/.exec(mark.getAttribute('d')!)![1]) - cx;
+    const cy = top + d;
+    const label = [...chart.querySelectorAll<SVGTextElement>('g.labels text')].find((t) => t.textContent!.startsWith('fold:'))!;
+    const b = label.getBBox();
+    // the gap from the diamond's centre to the nearest point of the label's box
+    const gap = Math.hypot(Math.max(b.x - cx, 0, cx - b.x - b.width), Math.max(b.y - cy, 0, cy - b.y - b.height));
+    // beside it: the placement's gap of 6 units each way (8.5 on the diagonal) and the text inside its box, well under
+    // the 14 past which a leader is drawn (common practice: a label reads as its point's when it sits beside it)
+    expect(gap, `the fold label's box ${Math.round(gap)} units from the diamond`).to.be.at.most(12);
+    expect(chart.querySelectorAll('g[stroke="#777"] line'), 'no leader').to.have.length(0);
+  });
+
   it('fills a semi-stable point on the side the engine reports, the same side the screen fills', async () => {
     const root = await sheetOf(phaseLines);
     const report = reportOf(phaseLines);

@@ -1,6 +1,7 @@
 // An undo that removes the field holding focus, by keyboard in the study view with the real
 // engine: focus goes to the cell that held the field, not to the page's body (the keyboard
 // user was thrown back to the top of the page, and the next Tab started from there).
+// Likewise Enter on the Undo button for the last step, which leaves that button disabled.
 // Common practice (keyboard use of a form: focus is never lost to the document).
 import { expect } from 'chai';
 import { sendKeys } from '@web/test-runner-commands';
@@ -33,6 +34,12 @@ function cellOf(el: Element | null): Element | null {
     el = (el.getRootNode() as ShadowRoot).host ?? null;
   }
   return null;
+}
+
+/** The focused element once it is somewhere a key can act: not the body, not a disabled button. */
+function settled(): Element | null {
+  const f = focused();
+  return f && f !== document.body && !(f as HTMLButtonElement).disabled ? f : null;
 }
 
 let view: StudyView;
@@ -76,5 +83,22 @@ describe('an undo that removes the focused field', () => {
     await until(() => view.controller.study!.cells.length === 3, 'the cell taken back');
     await until(() => focused() !== inside && focused() !== document.body && focused(), 'focus on the page, not the body');
     expect(focused()!.textContent?.trim()).to.equal('Run');
+  });
+
+  it('Enter on Undo for the last step leaves focus on Redo, and Enter on Redo for its last step on Undo', async function () {
+    this.timeout(20_000);
+    view.controller.edit({ type: 'retitle', title: 'retitled (invented)' });
+    const button = (which: string) => view.shadowRoot!.querySelector<HTMLButtonElement>(`.bar button[title^="${which}"]`)!;
+    await until(() => !button('Undo').disabled, 'Undo enabled after the edit');
+    button('Undo').focus();
+    await sendKeys({ press: 'Enter' });
+    await until(() => view.controller.study!.title === STUDY.title && button('Undo').disabled, 'the last step undone');
+    const onRedo = await until(() => settled(), 'focus on the page, not the body nor a disabled button');
+    expect(onRedo, 'focus on Redo, which just became enabled').to.equal(button('Redo'));
+    // and back: Enter again redoes it, and Redo's last step leaves focus on Undo
+    await sendKeys({ press: 'Enter' });
+    await until(() => view.controller.study!.title === 'retitled (invented)' && button('Redo').disabled, 'the step redone');
+    const onUndo = await until(() => settled(), 'focus on the page, not the body nor a disabled button');
+    expect(onUndo, 'focus on Undo').to.equal(button('Undo'));
   });
 });
