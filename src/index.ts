@@ -36,7 +36,7 @@ export { runStudy, exitCodeOf } from './engine/run.ts';
 export { tableFromCsv } from './cells/data.ts';
 export type { CsvRead, CsvColumn, CsvRowProblem, DeclaredColumn } from './csv/read.ts';
 export { readCsvTable } from './csv/read.ts';
-export { columnsFromPaste, isNewAndEmpty, NEW_DATA_COLUMNS, NEW_DATA_ROWS } from './csv/paste-columns.ts';
+export { columnsFromPaste, isNewAndEmpty, NEW_DATA_COLUMNS, NEW_DATA_ROWS, type HeaderSource } from './csv/paste-columns.ts';
 export { type ToCsvWorker, type FromCsvWorker, PASTE_ROW_LIMIT, roughRowCount } from './csv/worker-messages.ts';
 export type { ItemTex } from './output/sheet-tex.ts';
 export { unitChoicesFor, timeAxisUnits, TRADE_UNITS, type AxisUnit } from './output/display-units.ts';

@@ -1,14 +1,16 @@
 import { html, css, nothing, unsafeCSS, type PropertyDeclarations } from 'lit';
 import { live } from 'lit/directives/live.js';
-import type { CsvRead, CsvReadReport } from '../../src/index.ts';
+import type { CsvRead, CsvReadReport, HeaderSource } from '../../src/index.ts';
 import { PASTE_ROW_LIMIT, columnsFromPaste, roughRowCount } from '../../src/index.ts';
 import { cellStyles, NARROW_PX, type ErrorClaims } from './common.ts';
 import { CellElement, type CellDoc } from './cell-element.ts';
 import { ROW_PX, type EntryEdit, type DataGridElement } from './data-grid.ts';
 import { readCsvOffThread } from '../csv-client.ts';
+import { csvReport, longText, toCsv, withoutRows } from './data-csv-text.ts';
 
 type DataCellDoc = CellDoc<'data'>;
 type Entry = number | string | null;
+type Fresh = NonNullable<ReturnType<typeof columnsFromPaste>>;
 
 /**
  * CSV text of more rows than this is shown as its first lines, not in a text box: a browser's
@@ -17,8 +19,6 @@ type Entry = number | string | null;
  * "Edit the whole text" opens the box all the same.
  */
 const LONG_TEXT_ROWS = 1_000;
-/** Lines of a long text shown. */
-const PREVIEW_LINES = 8;
 
 /**
  * A data cell: the measurements as a table to edit in place (a unit per column, rows added
@@ -38,7 +38,7 @@ export class DataCellElement extends CellElement<'data'> {
   read?: CsvReadReport;
   /** A read into a table under way: rows read so far, about how many there are, what is read. */
   reading?: { rowsRead: number; rows: number; what: string; stop: AbortController };
-  /** A paste gave a new cell the header's columns: the note that says so, while the cell has those columns. */
+  /** A paste, a file or the text turned into a table gave a new cell the header's columns: the note that says so, while the cell has those columns. */
   pasted?: { note: string; columns: string };
   /** The read into a table last started, settled when it has been applied or refused (for tests). */
   converted?: Promise<void>;
@@ -132,11 +132,7 @@ export class DataCellElement extends CellElement<'data'> {
     if (this.wholeText || rows <= LONG_TEXT_ROWS) {
       return html`<textarea id="csv" data-field="csv" spellcheck="false" .value=${live(csv)} @paste=${this.onPaste} @input=${(e: Event) => this.editCsv((e.target as HTMLTextAreaElement).value)}></textarea>`;
     }
-    const lines = firstLines(csv, PREVIEW_LINES);
-    return html`<div class="long-text" data-field="csv" role="group" aria-label="CSV text, its first lines">
-      <pre>${lines}</pre>
-      <p class="muted">… about ${(rows + 1 - PREVIEW_LINES).toLocaleString('en-US')} more lines (${rows.toLocaleString('en-US')} rows, ${Math.ceil(csv.length / 1024).toLocaleString('en-US')} KB of text).
-        <button class="quiet" @click=${() => { this.wholeText = true; }}>Edit the whole text</button> (a long text makes the page slow while it is open)</p></div>`;
+    return longText(csv, rows, () => { this.wholeText = true; });
   }
 
   private importControl() {
@@ -236,13 +232,13 @@ export class DataCellElement extends CellElement<'data'> {
    */
   private toTable = () => {
     const text = this.cell.csv ?? '';
-    this.convert(text, 'Turning the text into a table', (r) => {
+    this.convert(text, 'Turning the text into a table', 'text', (r, fresh) => {
       if ((this.cell.csv ?? '') !== text) {
         this.problem = 'The text changed while it was being read, so nothing was turned into a table: press "Turn into a table" again.';
         return;
       }
       this.showRead(r);
-      if (r.ok) this.adopt(r);
+      if (r.ok) this.adopt(r, fresh);
     });
   };
 
@@ -257,23 +253,30 @@ export class DataCellElement extends CellElement<'data'> {
     if (!file) return;
     const text = await file.text();
     input.value = '';
-    this.convert(text, `Reading ${file.name}`, (r) => {
+    this.convert(text, `Reading ${file.name}`, 'file', (r, fresh) => {
       this.showRead(r);
-      if (r.ok) return this.adopt(r);
-      if (roughRowCount(text) <= PASTE_ROW_LIMIT) this.replace({ ...withoutRows(this.cell), csv: text });
+      if (r.ok) return this.adopt(r, fresh);
+      if (roughRowCount(text) > PASTE_ROW_LIMIT) return;
+      if (fresh) this.took(fresh.note, fresh.columns);
+      this.replace({ ...withoutRows(this.cell), csv: text, ...(fresh ? { columns: fresh.columns } : {}) });
     });
   };
 
-  /** Reads `text` in the CSV worker with progress shown, then hands the read to `done` (not when stopped). */
-  private convert(text: string, what: string, done: (r: CsvRead) => void): void {
+  /**
+   * Reads `text` in the CSV worker with progress shown, then hands the read to `done` (not when
+   * stopped). A new, empty cell takes the header's columns (`columnsFromPaste`, as a paste does),
+   * which the worker then reads by name; `fresh` gives them and their note.
+   */
+  private convert(text: string, what: string, from: HeaderSource, done: (r: CsvRead, fresh?: Fresh) => void): void {
     if (this.reading) return;
     const stop = new AbortController();
     const reading = { rowsRead: 0, rows: this.counted?.text === text ? this.counted.rows : roughRowCount(text), what, stop };
     this.reading = reading;
     this.problem = undefined;
-    this.converted = readCsvOffThread(text, this.cell.columns ?? [], (rowsRead) => { this.reading = { ...reading, rowsRead }; }, stop.signal).then((r) => {
+    const fresh = columnsFromPaste(this.cell, text, from);
+    this.converted = readCsvOffThread(text, fresh?.columns ?? this.cell.columns ?? [], (rowsRead) => { this.reading = { ...reading, rowsRead }; }, stop.signal).then((r) => {
       this.reading = undefined;
-      if (r) done(r);
+      if (r) done(r, fresh);
     });
   }
 
@@ -282,38 +285,18 @@ export class DataCellElement extends CellElement<'data'> {
     this.problem = r.ok || r.problems.length ? undefined : r.message;
   }
 
-  /** The read table in place of the cell's text or rows: one edit. */
-  private adopt(r: Extract<CsvRead, { ok: true }>): void {
+  /** The read table in place of the cell's text or rows: one edit (with the header's columns' note when it took them). */
+  private adopt(r: Extract<CsvRead, { ok: true }>, fresh?: Fresh): void {
     const { csv: _csv, ...rest } = this.cell;
-    this.replace({ ...rest, columns: r.columns.map((col) => ({ name: col.name, unit: col.unit })), rows: r.rows } as DataCellDoc);
+    const columns = r.columns.map((col) => ({ name: col.name, unit: col.unit }));
+    if (fresh) this.took(fresh.note, columns);
+    this.replace({ ...rest, columns, rows: r.rows } as DataCellDoc);
   }
-}
 
-/** The engine's report of reading CSV text, under a heading: notes, the start of clock times, refused rows. */
-function csvReport(read: CsvReadReport, heading: string) {
-  return html`${read.notes.length ? html`<p class="muted">${heading}:</p><ul class="csv-notes muted">${read.notes.map((n) => html`<li>${n}</li>`)}</ul>` : nothing}
-    ${read.problems?.length ? html`<ol class="csv-rows" role="alert">${read.problems.map((p) => html`<li class="foot-error">Row ${p.row} (line ${p.line}) <code>${p.text}</code>: ${p.message}</li>`)}</ol>` : nothing}`;
-}
-
-/** The first `n` lines of `text` (found without splitting the rest). */
-function firstLines(text: string, n: number): string {
-  let at = -1;
-  for (let k = 0; k < n && (k === 0 || at >= 0); k++) at = text.indexOf('\n', at + 1);
-  return at < 0 ? text : text.slice(0, at);
-}
-
-function show(v: Entry): string {
-  return v === null || v === undefined ? '' : String(v);
-}
-
-function withoutRows(c: DataCellDoc): Omit<DataCellDoc, 'rows'> {
-  const { rows: _rows, ...rest } = c;
-  return rest;
-}
-
-function toCsv(c: DataCellDoc): string {
-  const head = c.columns.map((x) => x.name).join(',');
-  return [head, ...(c.rows ?? []).map((r) => r.map((v) => show(v as Entry)).join(','))].join('\n');
+  /** The note that the cell took a header's columns, kept while it has them. */
+  private took(note: string, columns: DataCellDoc['columns']): void {
+    this.pasted = { note, columns: JSON.stringify(columns) };
+  }
 }
 
 customElements.define('data-cell', DataCellElement);

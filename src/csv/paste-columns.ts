@@ -24,14 +24,25 @@ export interface DataCellContent {
 }
 
 /**
- * The columns a paste gives the cell, and the note that says so; undefined when the cell keeps
- * its own (it is not new and empty, the header does not name at least two columns, or it
- * already names the cell's). `text` is the CSV text as it is after the paste. A column the
- * header gives no unit keeps the new cell's unit at its place (as the match by position would),
- * and the note says so. Cost: the first `HEAD_LINES` lines of `text`, and the cell's own text.
+ * Where the text read comes from: a paste into the cell's text (`text` is the text after it), a
+ * file imported into the cell ("Import a CSV file": `text` is the file's), or the cell's own
+ * text turned into a table ("Turn into a table": `text` is the cell's `csv`, so the cell is
+ * judged new and empty on its columns and rows alone).
  */
-export function columnsFromPaste(cell: DataCellContent, text: string): { columns: DataColumn[]; note: string } | undefined {
-  if (!isNewAndEmpty(cell)) return undefined;
+export type HeaderSource = 'paste' | 'file' | 'text';
+
+const SOURCE_WORDS: Record<HeaderSource, string> = { paste: "the pasted header's columns", file: "the imported file's header columns", text: "the text's header columns" };
+
+/**
+ * The columns a paste (or a file, or the cell's text, `from`) gives the cell, and the note that
+ * says so; undefined when the cell keeps its own (it is not new and empty, the header does not
+ * name at least two columns, or it already names the cell's). A column the header gives no
+ * unit keeps the new cell's unit at its place (as the match by position would), and the note
+ * says so. Reading the whole `text` with the columns given (`readCsvTable(text, columns)`)
+ * matches them by name. Cost: the first `HEAD_LINES` lines of `text`, and the cell's own text.
+ */
+export function columnsFromPaste(cell: DataCellContent, text: string, from: HeaderSource = 'paste'): { columns: DataColumn[]; note: string } | undefined {
+  if (!isNewAndEmpty(from === 'text' ? { columns: cell.columns, rows: cell.rows } : cell)) return undefined;
   const head = firstLines(text, HEAD_LINES);
   const read = readCsvTable(head, [], { adopt: true });
   const columns = read.columns;
@@ -55,7 +66,7 @@ export function columnsFromPaste(cell: DataCellContent, text: string): { columns
     said.push(`${c.name} in ${unit === '1' ? 'plain numbers' : unit} (the header gives no unit; ${j < NEW_DATA_COLUMNS.length ? "the new cell's" : 'set it'} if the file's is another)`);
   }
   const old = cell.columns.map((c) => `${c.name} in ${c.unit}`).join(', ');
-  return { columns: out, note: `the pasted header's columns take the place of the new cell's (${old}): ${said.join(', ')}` };
+  return { columns: out, note: `${SOURCE_WORDS[from]} take the place of the new cell's (${old}): ${said.join(', ')}` };
 }
 
 /** A new cell the user has typed nothing into: the new cell's columns, and no row but its placeholders. */

@@ -5,7 +5,7 @@
 // 1 min = 60 s, 1 h = 3600 s (SI Brochure, table 8).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { columnsFromPaste, isNewAndEmpty, NEW_DATA_COLUMNS, NEW_DATA_ROWS } from '../../src/index.ts';
+import { columnsFromPaste, isNewAndEmpty, NEW_DATA_COLUMNS, NEW_DATA_ROWS, readCsvTable } from '../../src/index.ts';
 import { dataNodes } from '../../src/cells/data.ts';
 import type { DataCell } from '../../src/study/types.ts';
 import type { RunContext } from '../../src/engine/node.ts';
@@ -69,5 +69,42 @@ describe('a paste into a new data cell', () => {
     assert.equal(columnsFromPaste(fresh(), 'Temp (°C)\n70\n'), undefined);
     assert.equal(columnsFromPaste(fresh(), '(min),Temp (°C)\n0,70\n'), undefined);
     assert.equal(isNewAndEmpty({ columns: [{ name: 't', unit: 'h' }, { name: 'C', unit: 'mg/L' }], rows: [] }), true);
+  });
+});
+
+describe('a file imported, or the cell\'s own text turned into a table, in a new data cell', () => {
+  /** A logger file longer than the lines the rule reads for the header: 0..499 min, 80 °C falling 0.1 °C a minute. */
+  const file = ['Elapsed (min);Temp (°C)', ...Array.from({ length: 500 }, (_, i) => `${i};${(80 - i / 10).toFixed(1).replace('.', ',')}`)].join('\r\n');
+
+  it('the whole file read as the CSV worker reads it, with the header\'s columns: every row, in SI', () => {
+    const got = columnsFromPaste(fresh(), file, 'file');
+    assert.ok(got);
+    assert.deepEqual(got.columns, [{ name: 'Elapsed', unit: 'min' }, { name: 'Temp', unit: 'degC' }]);
+    assert.equal(got.note, "the imported file's header columns take the place of the new cell's (t in h, C in mg / L): Elapsed in min, Temp in degC");
+    // the worker's read: readCsvTable with the columns given and `adopt` (components/csv.worker.ts)
+    const read = readCsvTable(file, got.columns, { adopt: true });
+    assert.ok(read.ok);
+    assert.deepEqual(read.columns.map((c) => ({ name: c.name, unit: c.unit })), got.columns);
+    assert.equal(read.rows.length, 500);
+    const rows = siRows(got.columns, file);
+    // 499 min = 29,940 s; 80.0 °C = 353.15 K and 30.1 °C = 303.25 K (T/K = T/°C + 273.15)
+    assert.equal(rows[499][0], 29_940);
+    near(rows[0][1]!, 353.15, 1e-12, '80.0 degC in K');
+    near(rows[499][1]!, 303.25, 1e-12, '30.1 degC in K');
+  });
+
+  it('"Turn into a table": the new cell is judged on its columns and rows, not on the text it turns', () => {
+    const text = 'Time,Temp (°C)\n0,70\n0.5,49.3\n';
+    const cell: DataCell = { ...freshAsText(), csv: text };
+    const got = columnsFromPaste(cell, text, 'text');
+    assert.ok(got);
+    assert.deepEqual(got.columns, [{ name: 'Time', unit: 'h' }, { name: 'Temp', unit: 'degC' }]);
+    assert.match(got.note, /^the text's header columns take the place of the new cell's \(t in h, C in mg \/ L\)/);
+    // as a paste into that text it would not be new: it holds values
+    assert.equal(columnsFromPaste(cell, text), undefined);
+    // columns of the user's stay, in the text or a file
+    const own: DataCell = { ...cell, columns: [{ name: 't', unit: 'min' }, { name: 'C', unit: 'mg / L' }] };
+    assert.equal(columnsFromPaste(own, text, 'text'), undefined);
+    assert.equal(columnsFromPaste({ ...fresh(), rows: [[0, 12.5], [1, null]] }, file, 'file'), undefined);
   });
 });
