@@ -7,10 +7,11 @@
 import { expect } from 'chai';
 import '../../components/sheet/study-sheet.ts';
 import type { StudySheet } from '../../components/sheet/study-sheet.ts';
-import { runStudy, type Report, type Study, type UncertaintyResult } from '../../src/index.ts';
+import { type Report, type Study, type UncertaintyResult } from '../../src/index.ts';
 import trough from '../../examples/trough-in-range-probability.ratebook.json';
 import cooling from '../../examples/cooling-fail-probability.ratebook.json';
 import { until } from './helpers.ts';
+import { sheetOf, type SheetProgress } from './sheet-of.ts';
 import { MC, mount, study as liveTrough, type Live } from './monte-carlo-study.ts';
 
 const text = (el: Element | null | undefined) => (el?.textContent ?? '').replace(/\s+/g, ' ').trim();
@@ -20,16 +21,9 @@ describe('the printed sheet\'s results at a glance, how sure', () => {
   let sheet: StudySheet;
   afterEach(() => sheet?.remove());
 
-  async function render(doc: Study, pending: string[] = [], progress?: { cell: string; done: number; total: number; unit: string }) {
-    const r = runStudy(doc);
-    if (!r.ok) throw new Error(r.error.message);
-    sheet = document.createElement('study-sheet');
-    sheet.study = doc;
-    sheet.report = r.report;
-    sheet.pending = pending;
-    if (progress) sheet.progress = progress;
-    document.body.append(sheet);
-    await sheet.updateComplete;
+  async function render(doc: Study, pending: string[] = [], progress?: SheetProgress) {
+    const r = await sheetOf(doc, pending, progress);
+    sheet = r.sheet;
     const row = (name: string) => [...sheet.shadowRoot!.querySelectorAll('section.glance tbody tr')].find((tr) => text(tr.querySelector('td.name')) === name)!;
     return { report: r.report, row };
   }

@@ -21,3 +21,18 @@ export function deep(root: ParentNode, selector: string): Element[] {
   walk(root);
   return out;
 }
+
+/** Resolves after the next animation frame has been drawn. */
+export const frame = () => new Promise((r) => requestAnimationFrame(() => setTimeout(r, 0)));
+
+/** Puts `el` in a box `width` pixels wide, of class `boxClass` (for the tests' cleanup), and waits until it has drawn. */
+export async function mountInBox<T extends HTMLElement & { updateComplete: Promise<boolean> }>(el: T, width: number, boxClass: string): Promise<T> {
+  const box = document.createElement('div');
+  box.className = boxClass;
+  box.style.width = `${width}px`;
+  box.append(el);
+  document.body.append(box);
+  await el.updateComplete;
+  await frame();
+  return el;
+}

@@ -11,6 +11,7 @@ import { LEADER_FROM, segmentHitsBox, segmentsCross, overlaps, type Box, type Se
 import fold from '../../examples/harvested-stock-fold.ratebook.json';
 import troughStudy from '../../examples/trough-in-range-probability.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
+import { mountInBox } from './helpers.ts';
 
 function cellOf(study: unknown, id: string): any {
   const r = runStudy(study);
@@ -20,18 +21,9 @@ function cellOf(study: unknown, id: string): any {
   return cell;
 }
 
-const frame = () => new Promise((r) => requestAnimationFrame(() => setTimeout(r, 0)));
 
-async function mount<T extends HTMLElement & { updateComplete: Promise<boolean> }>(el: T, width: number): Promise<T> {
-  const box = document.createElement('div');
-  box.className = 'clearance-box';
-  box.style.width = `${width}px`;
-  box.append(el);
-  document.body.append(box);
-  await el.updateComplete;
-  await frame();
-  return el;
-}
+/** Puts `el` in a box `width` pixels wide and waits until it has drawn. */
+const mount = <T extends HTMLElement & { updateComplete: Promise<boolean> }>(el: T, width: number) => mountInBox(el, width, 'clearance-box');
 
 /** The shown labels' boxes and the leaders of one chart's label layer, in the layer's pixels. */
 function layerGeometry(layer: Element): { labels: Array<{ text: string; box: Box }>; leaders: Segment[] } {

@@ -13,6 +13,7 @@ import cooling from '../../examples/cooling-stock-pot.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
 import radiometric from '../../examples/radiometric-age.ratebook.json';
 import troughStudy from '../../examples/trough-in-range-probability.ratebook.json';
+import { frame, mountInBox } from './helpers.ts';
 
 /** Invented numbers: a harvested logistic stock, a pole, a transcritical exchange, a semi-stable point. */
 const phaseStudy = {
@@ -44,19 +45,9 @@ function cellOf(study: unknown, id: string): any {
 }
 
 const simulation = (study: unknown) => cellOf(study, 'run') as { plot: SimulationPlot; summary: string };
-const frame = () => new Promise((r) => requestAnimationFrame(() => setTimeout(r, 0)));
 
 /** Puts `el` in a box `width` pixels wide and waits until it has drawn. */
-async function mount<T extends HTMLElement & { updateComplete: Promise<boolean> }>(el: T, width = 700): Promise<T> {
-  const box = document.createElement('div');
-  box.className = 'plot-box';
-  box.style.width = `${width}px`;
-  box.append(el);
-  document.body.append(box);
-  await el.updateComplete;
-  await frame();
-  return el;
-}
+const mount = <T extends HTMLElement & { updateComplete: Promise<boolean> }>(el: T, width = 700) => mountInBox(el, width, 'plot-box');
 
 const shadow = (el: HTMLElement) => el.shadowRoot!;
 const texts = (el: HTMLElement, sel: string) => [...shadow(el).querySelectorAll(sel)].map((n) => (n.textContent ?? '').trim());

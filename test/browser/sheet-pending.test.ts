@@ -9,6 +9,7 @@ import type { StudySheet } from '../../components/sheet/study-sheet.ts';
 import { runStudy, type Study } from '../../src/index.ts';
 import flush from '../../examples/flush-pump-settings.ratebook.json';
 import { until } from './helpers.ts';
+import { sheetOf, type SheetProgress } from './sheet-of.ts';
 import { MC, mount, study as trough, type Live } from './monte-carlo-study.ts';
 
 /** The pump-settings template (invented numbers) with a verdict read from its Monte Carlo cell, listed at a glance. */
@@ -24,17 +25,8 @@ describe('the sheet of a study with a cell still computing', () => {
   let sheet: StudySheet;
   afterEach(() => sheet?.remove());
 
-  async function render(pending: string[], progress?: { cell: string; done: number; total: number; unit: string }) {
-    const doc = flushStudy();
-    const r = runStudy(doc);
-    if (!r.ok) throw new Error(r.error.message);
-    sheet = document.createElement('study-sheet');
-    sheet.study = doc;
-    sheet.report = r.report;
-    sheet.pending = pending;
-    if (progress) sheet.progress = progress;
-    document.body.append(sheet);
-    await sheet.updateComplete;
+  async function render(pending: string[], progress?: SheetProgress) {
+    sheet = (await sheetOf(flushStudy(), pending, progress)).sheet;
     const root = sheet.shadowRoot!;
     const sectionOf = (cls: string, n = 0) => root.querySelectorAll(`section.cell.${cls}`)[n];
     return { root, sectionOf };
