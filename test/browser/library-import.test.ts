@@ -1,7 +1,7 @@
 // Importing a study file from the library: what became of it is said beside the file control
 // the user just used, not only at the top of the page (a screen or more above it, with the
 // templates between). A file with a duplicate cell id, which the study format refuses naming
-// the path (/work/shared/study-format.md, "Document"), and a cut-off file, are refused there
+// the path (docs/study-format.md, "Document"), and a cut-off file, are refused there
 // with the place; a good file says it was imported and links to the new study.
 import { expect } from 'chai';
 import '../../components/study-library.ts';

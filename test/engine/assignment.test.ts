@@ -1,5 +1,5 @@
 // `name = value` typed where a parameter's name goes: the name before the first "=" (the study
-// format's name rule, /work/shared/study-format.md: [A-Za-z_][A-Za-z0-9_]*) and the value
+// format's name rule, docs/study-format.md: [A-Za-z_][A-Za-z0-9_]*) and the value
 // after it. A comparison ("==") or a text that is no name before "=" stays a name, for the
 // name check to word.
 import { describe, it } from 'node:test';

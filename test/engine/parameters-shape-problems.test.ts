@@ -3,7 +3,7 @@
 // message came twice on its field (the document check's and the run's); a shape problem in a
 // later item failed the cell's first item, which then neither defined its name nor showed its
 // own error. The values checked are the study-format contract's own rules
-// (/work/shared/study-format.md: a spread's distribution is normal, lognormal or uniform; normal
+// (docs/study-format.md: a spread's distribution is normal, lognormal or uniform; normal
 // takes an SD, lognormal a CV, uniform from and to; an item is an object with a name and a value).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
