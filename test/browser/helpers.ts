@@ -1,4 +1,5 @@
 /** Small helpers shared by the browser tests. */
+import { runStudy } from '../../src/index.ts';
 
 /** Polls `get` every 20 ms until it gives a truthy value; fails with `what` after `ms`. */
 export async function until<T>(get: () => T | undefined | null | false, what: string, ms = 3000): Promise<T> {
@@ -35,4 +36,13 @@ export async function mountInBox<T extends HTMLElement & { updateComplete: Promi
   await el.updateComplete;
   await frame();
   return el;
+}
+
+/** The report of cell `id` of `study`, computed in the page; fails when the study or the cell does. */
+export function reportedCell(study: unknown, id: string): any {
+  const r = runStudy(study);
+  if (!r.ok) throw new Error(r.error.message);
+  const cell = r.report.cells.find((c) => c.id === id);
+  if (!cell?.ok) throw new Error(`cell ${id} failed`);
+  return cell;
 }

@@ -4,22 +4,15 @@
 // label an event shows when hovered or focused. The geometry is plain (segments and boxes:
 // components/plots/label-placement.ts, checked by hand-worked cases in test/app).
 import { expect } from 'chai';
-import { runStudy } from '../../src/index.ts';
 import '../../components/plots/time-plot.ts';
 import '../../components/plots/phase-plot.ts';
 import { LEADER_FROM, segmentHitsBox, segmentsCross, overlaps, type Box, type Segment } from '../../components/plots/label-placement.ts';
 import fold from '../../examples/harvested-stock-fold.ratebook.json';
 import troughStudy from '../../examples/trough-in-range-probability.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
-import { mountInBox } from './helpers.ts';
+import { mountInBox, reportedCell } from './helpers.ts';
 
-function cellOf(study: unknown, id: string): any {
-  const r = runStudy(study);
-  if (!r.ok) throw new Error(r.error.message);
-  const cell = r.report.cells.find((c) => c.id === id);
-  if (!cell?.ok) throw new Error(`cell ${id} failed`);
-  return cell;
-}
+const cellOf = reportedCell;
 
 
 /** Puts `el` in a box `width` pixels wide and waits until it has drawn. */

@@ -1,7 +1,7 @@
 // The chart elements draw what the engine reports: each is given a real cell report, and the
 // checks look at the chart's series and data, the labels laid over it, and its canvases.
 import { expect } from 'chai';
-import { runStudy, type SimulationPlot } from '../../src/index.ts';
+import type { SimulationPlot } from '../../src/index.ts';
 import '../../components/plots/time-plot.ts';
 import '../../components/plots/phase-plot.ts';
 import '../../components/plots/sweep-plot.ts';
@@ -13,7 +13,7 @@ import cooling from '../../examples/cooling-stock-pot.ratebook.json';
 import bolus from '../../examples/iv-bolus-repeated.ratebook.json';
 import radiometric from '../../examples/radiometric-age.ratebook.json';
 import troughStudy from '../../examples/trough-in-range-probability.ratebook.json';
-import { frame, mountInBox } from './helpers.ts';
+import { frame, mountInBox, reportedCell } from './helpers.ts';
 
 /** Invented numbers: a harvested logistic stock, a pole, a transcritical exchange, a semi-stable point. */
 const phaseStudy = {
@@ -36,13 +36,7 @@ const phaseStudy = {
   ],
 };
 
-function cellOf(study: unknown, id: string): any {
-  const r = runStudy(study);
-  if (!r.ok) throw new Error(r.error.message);
-  const cell = r.report.cells.find((c) => c.id === id);
-  if (!cell?.ok) throw new Error(`cell ${id} failed`);
-  return cell;
-}
+const cellOf = reportedCell;
 
 const simulation = (study: unknown) => cellOf(study, 'run') as { plot: SimulationPlot; summary: string };
 
