@@ -57,19 +57,9 @@ export class CellElement<K extends CellKind> extends LitElement {
     });
   }
 
-  /**
-   * The cell with this element's own edits in it. `replace` takes each edit into `cell` at once
-   * (typing waits up to a moment for the engine's answer before the study renders, so a second
-   * field edited within it must build on the first field's edit), so this is `cell`; list edits
-   * (rows, events, estimates) read it by this name to say so.
-   */
-  protected get current(): CellDoc<K> {
-    return this.cell;
-  }
-
   /** Asks to change fields of the cell; edits with the same `key` in a row are one undo step. */
   protected edit(patch: Partial<CellDoc<K>>, key?: string): void {
-    this.replace({ ...this.current, ...patch }, key);
+    this.replace({ ...this.cell, ...patch }, key);
   }
 
   /**

@@ -153,13 +153,13 @@ export class FitCellElement extends CellElement<'fit'> {
 
   /** The estimate's parameter; its result name and guess follow while they are the defaults of the one before (`withEstimateParameter`). */
   private setParameter(i: number, parameter: string) {
-    const e = this.current.estimate[i];
+    const e = this.cell.estimate[i];
     const next = withEstimateParameter(this.doc ?? { cells: [] }, e, parameter);
     this.setEstimate(i, { parameter, as: next.as, guess: next.guess }, `p${i}`);
   }
 
   private setEstimate(i: number, patch: Partial<Estimate>, key: string) {
-    const estimate = this.current.estimate.map((e, j) => {
+    const estimate = this.cell.estimate.map((e, j) => {
       if (j !== i) return e;
       const next = { ...e, ...patch } as Record<string, unknown>;
       for (const k of ['min', 'max', 'unit', 'prior']) if (next[k] === undefined) delete next[k];

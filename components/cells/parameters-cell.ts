@@ -64,7 +64,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
 
   /** A name typed: the column grows at once (the view is drawn again only with the engine's answer). */
   private growNames(j: number, name: string): void {
-    const others = this.current.items.filter((_, i) => i !== j).map((it) => (typeof it?.name === 'string' ? it.name.length : 0));
+    const others = this.cell.items.filter((_, i) => i !== j).map((it) => (typeof it?.name === 'string' ? it.name.length : 0));
     this.nameChars(Math.max(name.length, ...others));
   }
 
@@ -155,7 +155,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
 
   /** Sets one end of the slider's range; with both ends blank the range is removed. */
   private setRange(j: number, end: 0 | 1, text: string) {
-    const item = this.current.items[j];
+    const item = this.cell.items[j];
     const range: [string, string] = Array.isArray(item.range) ? [item.range[0] ?? '', item.range[1] ?? ''] : ['', ''];
     range[end] = text;
     this.change(j, { range: range.every((r) => r.trim() === '') ? undefined : range }, `range${j}.${end}`);
@@ -206,13 +206,13 @@ export class ParametersCellElement extends CellElement<'parameters'> {
   }
 
   private change(j: number, patch: Record<string, unknown>, key: string) {
-    const items = this.current.items.map((it, i) => (i === j ? { ...it, ...patch } : it));
+    const items = this.cell.items.map((it, i) => (i === j ? { ...it, ...patch } : it));
     for (const it of items) for (const k of ['note', 'unit', 'range', 'glance', 'spread'] as const) if (it[k] === undefined) delete it[k];
     this.edit({ items }, key);
   }
 
   private add = () => {
-    const items = this.current.items;
+    const items = this.cell.items;
     const used = new Set(items.map((i) => i.name));
     let n = items.length + 1;
     while (used.has(`p${n}`)) n++;
@@ -232,7 +232,7 @@ export class ParametersCellElement extends CellElement<'parameters'> {
   }
 
   private removeItem(j: number) {
-    this.edit({ items: this.current.items.filter((_, i) => i !== j) });
+    this.edit({ items: this.cell.items.filter((_, i) => i !== j) });
   }
 }
 
